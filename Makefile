@@ -1,0 +1,99 @@
+# titlemill - build, test, benchmark, install.
+#
+#   make              build ./titlemill
+#   make test         unit tests (cmocka) and the command-line suites
+#   make asan         the unit tests and suites built with ASan+UBSan
+#   make bench        the benchmarks (not tests: figures, not verdicts)
+#   make demo         run the main job on the bundled example data
+#   make install      PREFIX=/usr/local DESTDIR= : binary, lexicons, man page
+
+PREFIX ?= /usr/local
+BINDIR ?= $(PREFIX)/bin
+DATADIR ?= $(PREFIX)/share/titlemill
+MANDIR ?= $(PREFIX)/share/man/man1
+VERSION = 0.1.0
+
+CC ?= cc
+PKG_CONFIG ?= pkg-config
+LIBS_PC = libutf8proc
+PC_CFLAGS := $(shell $(PKG_CONFIG) --cflags $(LIBS_PC))
+PC_LIBS := $(shell $(PKG_CONFIG) --libs $(LIBS_PC))
+CMOCKA_CFLAGS := $(shell $(PKG_CONFIG) --cflags cmocka)
+CMOCKA_LIBS := $(shell $(PKG_CONFIG) --libs cmocka)
+
+WARN = -Wall -Wextra -Wpedantic -Wshadow -Wstrict-prototypes -Wmissing-prototypes
+OPT ?= -O2 -g
+override CFLAGS += -std=c11 -D_POSIX_C_SOURCE=200809L $(WARN) $(OPT) $(PC_CFLAGS) \
+	-DTM_VERSION='"$(VERSION)"' -DTM_LEXDIR='"$(DATADIR)/lexicons"'
+override LDLIBS += $(PC_LIBS)
+
+BUILD ?= build
+CORE = buf decode unicode token lexicon norm pass_gender pass_noise pass_place \
+	reader tsv jsonw setup
+CLI = cli_norm main
+CORE_OBJ = $(CORE:%=$(BUILD)/%.o)
+CLI_OBJ = $(CLI:%=$(BUILD)/%.o)
+UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_norm test_reader
+UNIT_BIN = $(UNIT_TESTS:%=$(BUILD)/%)
+
+all: titlemill
+
+titlemill: $(CORE_OBJ) $(CLI_OBJ)
+	$(CC) $(CFLAGS) $(LDFLAGS) -o $@ $^ $(LDLIBS)
+
+$(BUILD)/%.o: src/%.c src/*.h | $(BUILD)
+	$(CC) $(CFLAGS) -c -o $@ $<
+
+$(BUILD)/test_%.o: tests/unit/test_%.c src/*.h | $(BUILD)
+	$(CC) $(CFLAGS) $(CMOCKA_CFLAGS) -Isrc -c -o $@ $<
+
+$(BUILD)/test_%: $(BUILD)/test_%.o $(CORE_OBJ)
+	$(CC) $(CFLAGS) $(LDFLAGS) -o $@ $^ $(LDLIBS) $(CMOCKA_LIBS)
+
+$(BUILD):
+	mkdir -p $(BUILD)
+
+# The whole suite: unit tests, then the command-line and conformance suites.
+NTEST = $(BUILD)/NormalizationTest.txt
+$(NTEST): | $(BUILD)
+	bzcat /usr/share/unicode/NormalizationTest.txt.bz2 > $@.tmp && mv $@.tmp $@
+
+unit: $(UNIT_BIN) $(NTEST)
+	@set -e; for t in $(UNIT_BIN); do \
+		NORMALIZATION_TEST=$(NTEST) $$t; done
+
+test: titlemill unit
+	TITLEMILL=$(CURDIR)/titlemill sh tests/run-suites.sh
+
+# Sanitizer build in its own folder, same tests.
+asan:
+	$(MAKE) BUILD=build-asan OPT='-O1 -g -fsanitize=address,undefined -fno-omit-frame-pointer -fno-sanitize-recover=all' \
+		LDFLAGS='-fsanitize=address,undefined' titlemill-asan-bin
+titlemill-asan-bin: $(CORE_OBJ) $(CLI_OBJ) unit
+	$(CC) $(CFLAGS) $(LDFLAGS) -o $(BUILD)/titlemill $(CORE_OBJ) $(CLI_OBJ) $(LDLIBS)
+	TITLEMILL=$(CURDIR)/$(BUILD)/titlemill TITLEMILL_LEXDIR=$(CURDIR)/lexicons \
+		sh tests/run-suites.sh
+
+bench: titlemill
+	sh tests/bench/run.sh $(CURDIR)/titlemill
+
+demo: titlemill
+	sh examples/demo.sh $(CURDIR)/titlemill
+
+install: titlemill
+	install -d $(DESTDIR)$(BINDIR) $(DESTDIR)$(DATADIR) $(DESTDIR)$(MANDIR)
+	install -m 755 titlemill $(DESTDIR)$(BINDIR)/titlemill
+	cp -R lexicons $(DESTDIR)$(DATADIR)/
+	rm -rf $(DESTDIR)$(DATADIR)/lexicons/tools
+	install -m 644 titlemill.1 $(DESTDIR)$(MANDIR)/titlemill.1
+
+uninstall:
+	rm -f $(DESTDIR)$(BINDIR)/titlemill $(DESTDIR)$(MANDIR)/titlemill.1
+	rm -rf $(DESTDIR)$(DATADIR)
+
+clean:
+	rm -rf build build-asan titlemill
+
+.SECONDARY:
+
+.PHONY: all unit test asan titlemill-asan-bin bench demo install uninstall clean

@@ -1,0 +1,40 @@
+/* main.c - titlemill: dispatch to the subcommands. */
+#include <stdio.h>
+#include <string.h>
+
+#include "cli.h"
+
+#ifndef TM_VERSION
+#define TM_VERSION "0.1.0"
+#endif
+
+static const char usage[] =
+	"usage: titlemill COMMAND [OPTIONS] [FILE...]\n"
+	"\n"
+	"Clean job-posting titles and measure how occupations are named.\n"
+	"\n"
+	"commands:\n"
+	"  norm      clean raw titles, one line in, one line out\n"
+	"\n"
+	"Run 'titlemill COMMAND --help' for the options of a command.\n";
+
+int main(int argc, char **argv)
+{
+	if (argc < 2) {
+		fputs(usage, stderr);
+		return EXIT_USAGE;
+	}
+	if (!strcmp(argv[1], "--help") || !strcmp(argv[1], "-h") ||
+	    !strcmp(argv[1], "help")) {
+		fputs(usage, stdout);
+		return EXIT_OK;
+	}
+	if (!strcmp(argv[1], "--version")) {
+		printf("titlemill %s\n", TM_VERSION);
+		return EXIT_OK;
+	}
+	if (!strcmp(argv[1], "norm"))
+		return cmd_norm(argc - 1, argv + 1);
+	fprintf(stderr, "titlemill: unknown command '%s'\n%s", argv[1], usage);
+	return EXIT_USAGE;
+}

@@ -1,0 +1,531 @@
+/* norm.c - the normaliser pipeline: decode, prepare, tokenise, segment,
+ * run the lexicon passes, render the clean title and the match key. */
+#include "norm.h"
+
+#include <stdlib.h>
+#include <string.h>
+
+#include "decode.h"
+#include "pass.h"
+
+static const char *const kind_names[NF_NKIND] = {
+	"gender", "seniority", "location", "schedule", "hours", "workload",
+	"pay", "reference", "date", "marketing", "employer", "email",
+	"phone", "url", "location-slot",
+};
+
+const char *nf_kind_name(int kind)
+{
+	return kind >= 0 && kind < NF_NKIND ? kind_names[kind] : "other";
+}
+
+normaliser *norm_new(const lexicon *lx)
+{
+	normaliser *nm = calloc(1, sizeof *nm);
+	if (!nm)
+		return NULL;
+	nm->lx = lx;
+	return nm;
+}
+
+void norm_free(normaliser *nm)
+{
+	if (!nm)
+		return;
+	uni_ctx_free(&nm->u);
+	tok_line_free(&nm->tl);
+	buf_free(&nm->dec);
+	buf_free(&nm->work);
+	buf_free(&nm->title);
+	buf_free(&nm->key);
+	buf_free(&nm->ptext);
+	free(nm->rm);
+	free(nm->prot);
+	free(nm->tseg);
+	free(nm->tunit);
+	free(nm->unit);
+	free(nm->segs);
+	free(nm->spans);
+	free(nm->pieces);
+	free(nm);
+}
+
+static int grow_arrays(normaliser *nm, size_t ntok)
+{
+	if (ntok <= nm->tcap)
+		return 0;
+	size_t cap = nm->tcap ? nm->tcap : 64;
+	while (cap < ntok)
+		cap *= 2;
+	uint8_t *rm = realloc(nm->rm, cap);
+	if (!rm)
+		return -1;
+	nm->rm = rm;
+	uint8_t *pr = realloc(nm->prot, cap);
+	if (!pr)
+		return -1;
+	nm->prot = pr;
+	uint32_t *ts = realloc(nm->tseg, cap * sizeof *ts);
+	if (!ts)
+		return -1;
+	nm->tseg = ts;
+	uint32_t *tu = realloc(nm->tunit, cap * sizeof *tu);
+	if (!tu)
+		return -1;
+	nm->tunit = tu;
+	uint32_t *un = realloc(nm->unit, cap * sizeof *un);
+	if (!un)
+		return -1;
+	nm->unit = un;
+	seg *sg = realloc(nm->segs, cap * sizeof *sg);
+	if (!sg)
+		return -1;
+	nm->segs = sg;
+	nm->tcap = cap;
+	return 0;
+}
+
+int ufold_is(normaliser *nm, size_t k, const char *s)
+{
+	uint32_t len;
+	const char *f = ufold(nm, k, &len);
+	return strlen(s) == len && memcmp(f, s, len) == 0;
+}
+
+int entry_applies(const normaliser *nm, const lex_entry *e)
+{
+	if (e->off)
+		return 0;
+	if (!e->amb || nm->any_lang)
+		return 1;
+	return nm->lang && strcmp(e->lang, nm->lang) == 0;
+}
+
+#define MAXPH 12
+
+static const lex_entry *match_gen(normaliser *nm, size_t k, unsigned mask,
+				  const char *value, int kept, size_t *len)
+{
+	const char *fold[MAXPH];
+	uint32_t fl[MAXPH];
+	size_t endu[MAXPH];
+	uint64_t seq[MAXPH], h = LEX_SEQ_SEED;
+	size_t n = 0, j, L;
+	int maxl;
+	uint32_t s;
+
+	if (k >= nm->nunit)
+		return NULL;
+	maxl = lex_maxlen(nm->lx, U(nm, k)->hash);
+	if (!maxl)
+		return NULL;
+	s = useg(nm, k);
+	for (j = k; j < nm->nunit && n < (size_t)maxl && n < MAXPH; j++) {
+		/* a removed gender ending is transparent: Addetto/a alla ... */
+		if (j > k && nm->rm[nm->unit[j]] == NF_GENDER)
+			continue;
+		if (useg(nm, j) != s && !(j > k && nm->rm[nm->unit[j - 1]] == NF_GENDER))
+			break;
+		if (kept && (!ukept(nm, j) || nm->prot[nm->unit[j]]))
+			break;
+		fold[n] = ufold(nm, j, &fl[n]);
+		h = lex_seq_step(h, U(nm, j)->hash);
+		seq[n] = lex_seq_final(h, n + 1);
+		endu[n] = j + 1;
+		n++;
+	}
+	for (L = n; L >= 1; L--) {
+		const lex_entry *e = lex_find(nm->lx, seq[L - 1], L, fold, fl);
+		for (; e; e = lex_next(nm->lx, e))
+			if ((mask & (1u << e->cat)) && entry_applies(nm, e) &&
+			    (!value || strcmp(e->value, value) == 0)) {
+				*len = endu[L - 1] - k;
+				return e;
+			}
+	}
+	return NULL;
+}
+
+const lex_entry *match_val(normaliser *nm, size_t k, int cat,
+			   const char *value, int kept, size_t *len)
+{
+	return match_gen(nm, k, 1u << cat, value, kept, len);
+}
+
+const lex_entry *match_mask(normaliser *nm, size_t k, unsigned mask,
+			    int kept, size_t *len)
+{
+	return match_gen(nm, k, mask, NULL, kept, len);
+}
+
+const lex_entry *match_cat(normaliser *nm, size_t k, int cat, int kept,
+			   size_t *len)
+{
+	return match_val(nm, k, cat, NULL, kept, len);
+}
+
+int remove_toks(normaliser *nm, size_t t0, size_t t1, int kind,
+		const char *value)
+{
+	size_t t, any = 0;
+
+	for (t = t0; t <= t1 && t < nm->tl.n; t++)
+		if (!nm->prot[t] && nm->rm[t] == RM_NONE) {
+			nm->rm[t] = (uint8_t)kind;
+			any++;
+		}
+	if (!any)
+		return 0;
+	if (nm->nspan == nm->spcap) {
+		size_t cap = nm->spcap ? nm->spcap * 2 : 16;
+		span *p = realloc(nm->spans, cap * sizeof *p);
+		if (!p)
+			return -1;
+		nm->spans = p;
+		nm->spcap = cap;
+	}
+	nm->spans[nm->nspan].t0 = (uint32_t)t0;
+	nm->spans[nm->nspan].t1 = (uint32_t)t1;
+	nm->spans[nm->nspan].kind = (uint8_t)kind;
+	nm->spans[nm->nspan].value = value;
+	nm->nspan++;
+	return 0;
+}
+
+int remove_units(normaliser *nm, size_t k0, size_t k1, int kind,
+		 const char *value)
+{
+	if (k1 <= k0)
+		return 0;
+	return remove_toks(nm, nm->unit[k0], nm->unit[k1 - 1], kind, value);
+}
+
+int units_free(normaliser *nm, size_t k0, size_t k1)
+{
+	for (size_t k = k0; k < k1; k++)
+		if (!ukept(nm, k) || nm->prot[nm->unit[k]])
+			return 0;
+	return 1;
+}
+
+void seg_kept(normaliser *nm, size_t s, size_t *k0, size_t *k1)
+{
+	const seg *g = &nm->segs[s];
+	size_t a = g->u0, b = g->u1;
+
+	while (a < b && !ukept(nm, a))
+		a++;
+	while (b > a && !ukept(nm, b - 1))
+		b--;
+	*k0 = a;
+	*k1 = b;
+}
+
+int glued(normaliser *nm, size_t a, size_t b, const char *puncts)
+{
+	size_t t;
+	for (t = nm->unit[a] + 1; t <= nm->unit[b]; t++) {
+		const tm_tok *x = &nm->tl.t[t];
+		if (x->sp)
+			return 0;
+		if (t == nm->unit[b])
+			break;
+		if (x->kind != TK_PUNCT || !x->ch || !strchr(puncts, x->ch))
+			return 0;
+	}
+	return 1;
+}
+
+static int prepare(normaliser *nm, const char *s, size_t n)
+{
+	buf_reset(&nm->work);
+	return uni_prepare(&nm->u, s, n, &nm->work);
+}
+
+static int build(normaliser *nm)
+{
+	tok_line *tl = &nm->tl;
+	size_t t, depth = 0;
+	uint32_t cur = 0;
+	int newseg = 1, inbr = 0, outer = -1, resume = -1;
+
+	if (grow_arrays(nm, tl->n + 1) != 0)
+		return -1;
+	memset(nm->rm, RM_NONE, tl->n);
+	memset(nm->prot, 0, tl->n);
+	nm->nunit = nm->nseg = nm->nspan = 0;
+	int head_seen = 0;
+	for (t = 0; t < tl->n; t++) {
+		tm_tok *x = &tl->t[t];
+		nm->tunit[t] = UINT32_MAX;
+		nm->tseg[t] = UINT32_MAX;
+		if (x->kind == TK_PUNCT) {
+			if (x->flags & TF_OPEN) {
+				/* the text after the bracket goes on with the
+				 * segment before it, "Koch (m/w/d) Vollzeit" */
+				if (depth == 0)
+					outer = nm->nseg ? (int)nm->segs[cur].index : -1;
+				depth++;
+				inbr = 1;
+				newseg = 1;
+				resume = -1;
+			} else if (x->flags & TF_CLOSE) {
+				if (depth)
+					depth--;
+				inbr = depth > 0;
+				newseg = 1;
+				resume = depth == 0 ? outer : -1;
+			} else if (x->flags & TF_STRONG) {
+				newseg = 1;
+				resume = -1;
+			}
+			continue;
+		}
+		if (newseg) {
+			seg *g = &nm->segs[nm->nseg];
+			g->u0 = g->u1 = (uint32_t)nm->nunit;
+			g->bracket = (uint8_t)inbr;
+			/* 0 marks the head: the first segment outside
+			 * brackets and what resumes it after a bracket */
+			if (inbr)
+				g->index = 1;
+			else if (!head_seen || resume == 0)
+				g->index = 0;
+			else
+				g->index = (uint8_t)(nm->nseg > 255 ? 255 : nm->nseg);
+			if (!inbr)
+				head_seen = 1;
+			cur = (uint32_t)nm->nseg++;
+			newseg = 0;
+		}
+		nm->tseg[t] = cur;
+		nm->tunit[t] = (uint32_t)nm->nunit;
+		nm->unit[nm->nunit++] = (uint32_t)t;
+		nm->segs[cur].u1 = (uint32_t)nm->nunit;
+	}
+	return 0;
+}
+
+static void protect(normaliser *nm)
+{
+	size_t k = 0, len;
+	while (k < nm->nunit) {
+		if (match_cat(nm, k, LC_PROTECT, 0, &len)) {
+			for (size_t t = nm->unit[k]; t <= nm->unit[k + len - 1]; t++)
+				nm->prot[t] = 1;
+			k += len;
+		} else
+			k++;
+	}
+}
+
+static int put_lower(normaliser *nm, tm_buf *b, const tm_tok *t)
+{
+	const char *p = nm->work.data + t->off;
+	if (!(t->flags & TF_NONASCII) && (unsigned char)p[0] < 0x80) {
+		if (buf_reserve(b, t->len) != 0)
+			return -1;
+		for (size_t i = 0; i < t->len; i++) {
+			char c = p[i];
+			b->data[b->len++] = (char)(c >= 'A' && c <= 'Z' ? c + 32 : c);
+		}
+		return 0;
+	}
+	return uni_lower(p, t->len, b);
+}
+
+static int is_kept_word(normaliser *nm, size_t k)
+{
+	return ukept(nm, k) && U(nm, k)->kind != TK_SYM;
+}
+
+/* A symbol unit is shown only for & and + standing between kept words. */
+static int show_unit(normaliser *nm, size_t k)
+{
+	const tm_tok *t = U(nm, k);
+	size_t j;
+
+	if (!ukept(nm, k))
+		return 0;
+	if (t->kind != TK_SYM)
+		return 1;
+	if (t->ch != '&' && t->ch != '+')
+		return 0;
+	for (j = k; j > 0 && !ukept(nm, j - 1); j--)
+		;
+	if (j == 0 || !is_kept_word(nm, j - 1))
+		return 0;
+	for (j = k + 1; j < nm->nunit && !ukept(nm, j); j++)
+		;
+	return j < nm->nunit && is_kept_word(nm, j);
+}
+
+/* A dot right after word token a, then a space, then the kept word b
+ * of the same segment with nothing removed between. */
+static int abbrev_dot(normaliser *nm, size_t a, size_t b)
+{
+	const tm_tok *w = &nm->tl.t[a];
+	if (w->kind != TK_WORD || a + 2 != b || nm->tseg[a] != nm->tseg[b])
+		return 0;
+	return w->len <= 6;
+}
+
+static int is_connector(normaliser *nm, size_t k)
+{
+	size_t len;
+	return match_val(nm, k, LC_UNIT, "connector", 0, &len) != NULL;
+}
+
+static int render(normaliser *nm, norm_result *res)
+{
+	size_t k, prev = SIZE_MAX;
+	tm_buf *ti = &nm->title, *ke = &nm->key;
+
+	buf_reset(ti);
+	buf_reset(ke);
+	for (k = 0; k < nm->nunit; k++) {
+		const tm_tok *t = U(nm, k);
+		if (!show_unit(nm, k))
+			continue;
+		if (prev != SIZE_MAX) {
+			/* glue: the weak punctuation written between two kept
+			 * units with no space and nothing removed between */
+			size_t a = nm->unit[prev], b = nm->unit[k], x;
+			int space = 0;
+			for (x = a + 1; x <= b; x++) {
+				const tm_tok *m = &nm->tl.t[x];
+				if (m->sp || (x < b && (nm->rm[x] != RM_NONE ||
+							(m->flags & TF_STRONG) ||
+							m->kind != TK_PUNCT)))
+					space = 1;
+			}
+			if (space || ((t->kind == TK_SYM || U(nm, prev)->kind == TK_SYM) &&
+				      b != a + 1)) {
+				/* an abbreviation's dot (Kfm. Sachbearbeiter) and a
+				 * suspended hyphen (Energie- und Gebäudetechnik)
+				 * stay with their word */
+				const tm_tok *d = a + 1 < nm->tl.n ? &nm->tl.t[a + 1] : NULL;
+				if (d && d->kind == TK_PUNCT && !d->sp && a + 1 < b &&
+				    nm->rm[a + 1] == RM_NONE && nm->tl.t[a + 2].sp &&
+				    ((d->ch == '.' && abbrev_dot(nm, a, b)) ||
+				     (d->ch == '-' && is_connector(nm, k))))
+					if (buf_putc(ti, (char)d->ch))
+						return -1;
+				/* Lagerist / Kommissionierer: a spaced slash alone
+				 * between two kept words stays */
+				if (b == a + 2 && nm->tl.t[a + 1].ch == '/' &&
+				    nm->tl.t[a + 1].kind == TK_PUNCT && nm->rm[a + 1] == RM_NONE) {
+					if (buf_puts(ti, " / ") || buf_putc(ke, ' '))
+						return -1;
+				} else if (buf_putc(ti, ' ') || buf_putc(ke, ' '))
+					return -1;
+			} else if (b == a + 1) {
+				/* directly adjacent: 75 + k, Linked + In */
+			} else {
+				for (x = a + 1; x < b; x++)
+					if (put_lower(nm, ti, &nm->tl.t[x]))
+						return -1;
+				if (buf_putc(ke, ' '))
+					return -1;
+			}
+		}
+		if (put_lower(nm, ti, t) ||
+		    buf_append(ke, tok_fold(&nm->tl, t), t->flen))
+			return -1;
+		prev = k;
+	}
+	res->title = ti->data ? ti->data : "";
+	res->title_len = ti->len;
+	res->key = ke->data ? ke->data : "";
+	res->key_len = ke->len;
+	return 0;
+}
+
+static int pieces(normaliser *nm, norm_result *res)
+{
+	size_t i, j;
+
+	/* spans in title order (insertion sort: a handful per line) */
+	for (i = 1; i < nm->nspan; i++) {
+		span s = nm->spans[i];
+		for (j = i; j > 0 && nm->spans[j - 1].t0 > s.t0; j--)
+			nm->spans[j] = nm->spans[j - 1];
+		nm->spans[j] = s;
+	}
+	if (nm->nspan > nm->pcap) {
+		nf_piece *p = realloc(nm->pieces, nm->nspan * sizeof *p);
+		if (!p)
+			return -1;
+		nm->pieces = p;
+		nm->pcap = nm->nspan;
+	}
+	for (i = 0; i < nm->nspan; i++) {
+		const span *s = &nm->spans[i];
+		const tm_tok *a = &nm->tl.t[s->t0], *b = &nm->tl.t[s->t1];
+		nf_piece *p = &nm->pieces[i];
+		p->kind = s->kind;
+		p->value = s->value;
+		p->text = nm->work.data + a->off;
+		p->len = b->off + b->len - a->off;
+	}
+	res->piece = nm->pieces;
+	res->npiece = nm->nspan;
+	return 0;
+}
+
+int norm_title(normaliser *nm, const char *raw, size_t n, const char *lang,
+	       norm_result *res)
+{
+	const char *src = raw;
+	int rep = 0;
+
+	memset(res, 0, sizeof *res);
+	nm->lang = lang && *lang ? lang : NULL;
+	if (dec_valid_prefix(raw, n) != n) {
+		buf_reset(&nm->dec);
+		rep = dec_repair(raw, n, &nm->dec);
+		if (rep < 0)
+			return -1;
+		src = nm->dec.data;
+		n = nm->dec.len;
+	}
+	res->repaired = rep;
+	if (prepare(nm, src, n) != 0)
+		return -1;
+	if (tok_split(&nm->tl, &nm->u, nm->work.data, nm->work.len) != 0)
+		return -1;
+	if (build(nm) != 0)
+		return -1;
+	protect(nm);
+	if (pass_pii(nm) || pass_gender(nm) || pass_reference(nm) ||
+	    pass_pay(nm) || pass_schedule(nm) || pass_hashtags(nm) ||
+	    pass_phrases(nm) || pass_employer(nm) || pass_location(nm) ||
+	    pass_phrases(nm))
+		return -1;
+	if (render(nm, res) != 0 || pieces(nm, res) != 0)
+		return -1;
+	return 0;
+}
+
+int norm_key_only(normaliser *nm, const char *raw, size_t n,
+		  norm_result *res)
+{
+	const char *src = raw;
+	int rep = 0;
+
+	memset(res, 0, sizeof *res);
+	nm->lang = NULL;
+	if (dec_valid_prefix(raw, n) != n) {
+		buf_reset(&nm->dec);
+		if ((rep = dec_repair(raw, n, &nm->dec)) < 0)
+			return -1;
+		src = nm->dec.data;
+		n = nm->dec.len;
+	}
+	res->repaired = rep;
+	if (prepare(nm, src, n) != 0 ||
+	    tok_split(&nm->tl, &nm->u, nm->work.data, nm->work.len) != 0 ||
+	    build(nm) != 0)
+		return -1;
+	return render(nm, res);
+}

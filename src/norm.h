@@ -1,0 +1,60 @@
+/* norm.h - the title normaliser: raw title in, clean title, match key
+ * and facets out.
+ *
+ * A normaliser borrows a lexicon (which must outlive it) and owns the
+ * buffers it reuses from line to line; the hot path allocates nothing
+ * once they have grown.  Results point into the normaliser and are valid
+ * until the next norm_title call.  One normaliser per thread. */
+#ifndef TM_NORM_H
+#define TM_NORM_H
+
+#include <stddef.h>
+#include <stdint.h>
+
+#include "lexicon.h"
+
+/* What a removed piece was. */
+enum nf_kind {
+	NF_GENDER, NF_SENIORITY, NF_LOCATION, NF_SCHEDULE, NF_HOURS,
+	NF_WORKLOAD, NF_PAY, NF_REFERENCE, NF_DATE, NF_MARKETING, NF_EMPLOYER,
+	NF_EMAIL, NF_PHONE, NF_URL,
+	NF_SLOT, /* a location-slot word or postcode: in, Raum, area, 50667 */
+	NF_NKIND
+};
+
+typedef struct nf_piece {
+	uint8_t kind;      /* enum nf_kind */
+	const char *value; /* seniority step, schedule value, country; or NULL */
+	const char *text;  /* the removed text as written (prepared form) */
+	size_t len;
+} nf_piece;
+
+typedef struct norm_result {
+	const char *title; /* lowercase, single spaces; not NUL-terminated */
+	size_t title_len;
+	const char *key;   /* the match key */
+	size_t key_len;
+	const nf_piece *piece; /* removed pieces, in title order */
+	size_t npiece;
+	int repaired;      /* DEC_* flags of decode.h */
+} norm_result;
+
+typedef struct normaliser normaliser;
+
+/* Returns a normaliser over lx, or NULL when memory ran out. */
+normaliser *norm_new(const lexicon *lx);
+void norm_free(normaliser *nm);
+
+/* Normalises raw[0..n) (any bytes: invalid UTF-8 is repaired).  lang is a
+ * primary language subtag ("de") enabling that language's ambiguous
+ * entries, or NULL.  Returns 0, or -1 when memory ran out. */
+int norm_title(normaliser *nm, const char *raw, size_t n, const char *lang,
+	       norm_result *res);
+
+/* Match key of an already clean text (labels, titles from a counts
+ * table): the fold of its words, nothing removed. */
+int norm_key_only(normaliser *nm, const char *s, size_t n, norm_result *res);
+
+const char *nf_kind_name(int kind);
+
+#endif

@@ -1,0 +1,111 @@
+/* pass.h - internal to the normaliser: the line state the lexicon passes
+ * work on.  Tokens are marked removed, never moved; units are the tokens
+ * that are not punctuation. */
+#ifndef TM_PASS_H
+#define TM_PASS_H
+
+#include <stddef.h>
+#include <stdint.h>
+
+#include "buf.h"
+#include "lexicon.h"
+#include "norm.h"
+#include "token.h"
+#include "unicode.h"
+
+#define RM_NONE 0xFF
+
+typedef struct seg {
+	uint32_t u0, u1;  /* units [u0, u1) */
+	uint8_t bracket;  /* inside brackets */
+	uint8_t index;    /* order among segments, saturating at 255 */
+} seg;
+
+typedef struct span {
+	uint32_t t0, t1;  /* tokens [t0, t1] */
+	uint8_t kind;
+	const char *value;
+} span;
+
+struct normaliser {
+	const lexicon *lx;
+	uni_ctx u;
+	tok_line tl;
+	tm_buf dec, work, title, key, ptext;
+	const char *lang;
+	int any_lang;     /* while set, ambiguous entries apply too */
+	/* per token */
+	uint8_t *rm;      /* enum nf_kind, RM_NONE when kept */
+	uint8_t *prot;
+	uint32_t *tseg;   /* segment of each token */
+	uint32_t *tunit;  /* unit index of each token, or UINT32_MAX */
+	size_t tcap;
+	/* units */
+	uint32_t *unit;   /* unit -> token */
+	size_t nunit, ucap;
+	seg *segs;
+	size_t nseg, scap;
+	span *spans;
+	size_t nspan, spcap;
+	nf_piece *pieces;
+	size_t pcap;
+};
+
+typedef struct normaliser normaliser;
+
+/* Token of unit k, and shorthands. */
+static inline tm_tok *U(normaliser *nm, size_t k) { return &nm->tl.t[nm->unit[k]]; }
+static inline int ukept(normaliser *nm, size_t k)
+{
+	return nm->rm[nm->unit[k]] == RM_NONE;
+}
+static inline const char *ufold(normaliser *nm, size_t k, uint32_t *len)
+{
+	tm_tok *t = U(nm, k);
+	*len = t->flen;
+	return tok_fold(&nm->tl, t);
+}
+int ufold_is(normaliser *nm, size_t k, const char *s);
+static inline uint32_t useg(normaliser *nm, size_t k) { return nm->tseg[nm->unit[k]]; }
+
+/* The applicable entry of category cat for the longest phrase starting at
+ * unit k and lying inside its segment over kept, unprotected units (when
+ * kept is set).  *len receives its length in units.  NULL when none. */
+const lex_entry *match_cat(normaliser *nm, size_t k, int cat, int kept,
+			   size_t *len);
+/* Same with a value filter (NULL: any value). */
+const lex_entry *match_val(normaliser *nm, size_t k, int cat,
+			   const char *value, int kept, size_t *len);
+/* The longest phrase with an applicable entry in any category of the
+ * mask (1 << cat); for equal lengths the entry listed first wins. */
+const lex_entry *match_mask(normaliser *nm, size_t k, unsigned mask,
+			    int kept, size_t *len);
+int entry_applies(const normaliser *nm, const lex_entry *e);
+
+/* Marks tokens [t0, t1] removed as kind (protected tokens excepted) and
+ * records the piece.  Returns 0 or -1 (memory). */
+int remove_toks(normaliser *nm, size_t t0, size_t t1, int kind,
+		const char *value);
+/* Same over units [k0, k1). */
+int remove_units(normaliser *nm, size_t k0, size_t k1, int kind,
+		 const char *value);
+int units_free(normaliser *nm, size_t k0, size_t k1); /* kept and unprotected */
+
+/* First and one-past-last kept unit of segment s (u0 == u1 when empty). */
+void seg_kept(normaliser *nm, size_t s, size_t *k0, size_t *k1);
+
+/* Are units a and b (a < b) glued: no whitespace and only the given
+ * punctuation characters between them? */
+int glued(normaliser *nm, size_t a, size_t b, const char *puncts);
+
+int pass_pii(normaliser *nm);
+int pass_gender(normaliser *nm);
+int pass_reference(normaliser *nm);
+int pass_pay(normaliser *nm);
+int pass_schedule(normaliser *nm);
+int pass_hashtags(normaliser *nm);
+int pass_employer(normaliser *nm);
+int pass_location(normaliser *nm);
+int pass_phrases(normaliser *nm); /* peels edge phrases to a fixpoint */
+
+#endif

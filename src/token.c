@@ -1,0 +1,277 @@
+/* token.c - the tokeniser. */
+#include "token.h"
+
+#include <stdlib.h>
+
+void tok_line_free(tok_line *tl)
+{
+	if (!tl)
+		return;
+	free(tl->t);
+	tl->t = NULL;
+	tl->n = tl->cap = 0;
+	buf_free(&tl->fold);
+}
+
+uint64_t tok_hash(const char *s, size_t n)
+{
+	uint64_t h = 0xCBF29CE484222325ULL;
+	size_t i;
+
+	for (i = 0; i < n; i++) {
+		h ^= (unsigned char)s[i];
+		h *= 0x100000001B3ULL;
+	}
+	return h ^ (h >> 29);
+}
+
+static tm_tok *push(tok_line *tl)
+{
+	if (tl->n == tl->cap) {
+		size_t cap = tl->cap ? tl->cap * 2 : 64;
+		tm_tok *p = realloc(tl->t, cap * sizeof *p);
+		if (!p)
+			return NULL;
+		tl->t = p;
+		tl->cap = cap;
+	}
+	tm_tok *t = &tl->t[tl->n++];
+	memset(t, 0, sizeof *t);
+	return t;
+}
+
+static int is_alnum_class(enum uni_class c)
+{
+	return c == UNI_LETTER || c == UNI_MARK || c == UNI_DIGIT;
+}
+
+/* Class of the code point at s[i] without advancing. */
+static enum uni_class peek(const char *s, size_t n, size_t i, int32_t *cp)
+{
+	size_t j = i;
+	unsigned char c;
+
+	if (i >= n) {
+		*cp = -1;
+		return UNI_SPACE;
+	}
+	c = (unsigned char)s[i];
+	if (c < 0x80) {
+		*cp = c;
+		if ((c | 32) >= 'a' && (c | 32) <= 'z')
+			return UNI_LETTER;
+		if (c >= '0' && c <= '9')
+			return UNI_DIGIT;
+		if (c == ' ')
+			return UNI_SPACE;
+		if (c == '$' || c == '&' || c == '+' || c == '%' || c == '#' ||
+		    c == '@')
+			return c == '$' ? UNI_CURRENCY : UNI_SYMBOL;
+		return UNI_PUNCT;
+	}
+	*cp = uni_next(s, n, &j);
+	return uni_classify(*cp);
+}
+
+static size_t cp_len(const char *s, size_t n, size_t i)
+{
+	size_t j = i;
+	(void)uni_next(s, n, &j);
+	return j - i;
+}
+
+static int is_digit_at(const char *s, size_t n, size_t i)
+{
+	return i < n && s[i] >= '0' && s[i] <= '9';
+}
+
+/* Scans a word starting at i; returns its end.  Sets flags. */
+static size_t scan_word(const char *s, size_t n, size_t i, uint8_t *flags,
+			size_t *capsuf)
+{
+	int32_t cp, prev = -1;
+	size_t start = i;
+	int letters = 0, upper = 0, lower_seen = 0;
+
+	*capsuf = 0;
+	for (;;) {
+		enum uni_class c = peek(s, n, i, &cp);
+		if (!is_alnum_class(c))
+			break;
+		if (c == UNI_DIGIT)
+			*flags |= TF_DIGIT;
+		if (c == UNI_LETTER) {
+			letters++;
+			if (uni_is_upper(cp)) {
+				upper++;
+				if (i == start)
+					*flags |= TF_CAP;
+				if (cp == 'I' && prev >= 0 && lower_seen &&
+				    uni_is_lower(prev) && i - start >= 3)
+					*capsuf = i;
+			} else if (uni_is_lower(cp))
+				lower_seen = 1;
+		}
+		if (cp >= 0x80)
+			*flags |= TF_NONASCII;
+		prev = cp;
+		i += cp < 0x80 ? 1 : cp_len(s, n, i);
+	}
+	if (letters >= 2 && upper == letters)
+		*flags |= TF_ALLCAPS;
+	/* VerkäuferIn, MitarbeiterInnen: keep the split only when the word
+	 * ends right after "In" or "Innen". */
+	if (*capsuf) {
+		size_t rest = i - *capsuf;
+		if (!((rest == 2 && s[*capsuf + 1] == 'n') ||
+		      (rest == 5 && memcmp(s + *capsuf, "Innen", 5) == 0)))
+			*capsuf = 0;
+	}
+	return i;
+}
+
+static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
+{
+	size_t i = 0;
+	int sp = 1;
+
+	tl->n = 0;
+	buf_reset(&tl->fold);
+	while (i < n) {
+		int32_t cp, cp2;
+		enum uni_class c = peek(s, n, i, &cp);
+		size_t start = i;
+		tm_tok *t;
+
+		if (c == UNI_SPACE || c == UNI_OTHER) {
+			i += cp < 0x80 ? 1 : cp_len(s, n, i);
+			sp = 1;
+			continue;
+		}
+		if (!(t = push(tl)))
+			return -1;
+		t->sp = (uint8_t)sp;
+		sp = 0;
+		t->off = (uint32_t)start;
+		if (c == UNI_DIGIT) {
+			t->kind = TK_NUM;
+			while (i < n) {
+				enum uni_class d = peek(s, n, i, &cp);
+				if (d == UNI_DIGIT) {
+					i += cp < 0x80 ? 1 : cp_len(s, n, i);
+				} else if ((s[i] == '.' || s[i] == ',' || s[i] == '\'') &&
+					   is_digit_at(s, n, i + 1) && i > start) {
+					i++;
+				} else
+					break;
+			}
+		} else if (c == UNI_LETTER || c == UNI_MARK ||
+			   (cp == '.' && t->sp && i + 1 < n &&
+			    peek(s, n, i + 1, &cp2) == UNI_LETTER)) {
+			size_t capsuf = 0;
+			t->kind = TK_WORD;
+			if (s[i] == '.')
+				i++;
+			i = scan_word(s, n, i, &t->flags, &capsuf);
+			/* c++, c#, f#: symbols glued to the end of a short word */
+			if (i < n && (s[i] == '+' || s[i] == '#') &&
+			    i - start <= 2 + (s[i] == '+') * 8) {
+				size_t j = i;
+				char sym = s[i];
+				while (j < n && s[j] == sym && j - i < 2)
+					j++;
+				if (j >= n || peek(s, n, j, &cp) != UNI_LETTER)
+					if (sym == '+' ? j - i == 2 : 1)
+						i = j;
+			}
+			if (capsuf && capsuf < i) {
+				t->len = (uint32_t)(capsuf - start);
+				if (!(t = push(tl)))
+					return -1;
+				t->kind = TK_WORD;
+				t->flags = TF_CAPSUF | TF_CAP;
+				t->off = (uint32_t)capsuf;
+				start = capsuf;
+			}
+		} else {
+			i += cp < 0x80 ? 1 : cp_len(s, n, i);
+			if (c == UNI_CURRENCY || c == UNI_SYMBOL) {
+				if (cp == '+' || cp == '&' || cp == '%' ||
+				    cp == '#' || cp == '@' || c == UNI_CURRENCY)
+					t->kind = TK_SYM;
+				else
+					t->kind = TK_PUNCT;
+			} else
+				t->kind = TK_PUNCT;
+			t->ch = cp < 0x80 ? (uint8_t)cp : cp == 0xB7 ? TOK_MIDDOT : 0;
+			if (t->kind == TK_PUNCT) {
+				switch (cp) {
+				case '(': case '[': case '{': case '<':
+				case 0xFF08: case 0x3010:
+					t->flags |= TF_STRONG | TF_OPEN;
+					break;
+				case ')': case ']': case '}': case '>':
+				case 0xFF09: case 0x3011:
+					t->flags |= TF_STRONG | TF_CLOSE;
+					break;
+				case '|': case ',': case ';': case '!': case '?':
+				case 0xA1: case 0xBF: case 0x2026:
+					t->flags |= TF_STRONG;
+					break;
+				case '-': {
+					/* a run of dashes is one token: "--" */
+					while (i < n && s[i] == '-')
+						i++;
+					int after = i >= n || s[i] == ' ';
+					if (t->sp && after)
+						t->flags |= TF_STRONG;
+					break;
+				}
+				case ':':
+					if (i >= n || s[i] == ' ')
+						t->flags |= TF_STRONG;
+					break;
+				default:
+					break;
+				}
+			}
+		}
+		t->len = (uint32_t)(i - t->off);
+	}
+	tl->trailing_sp = sp;
+	/* folds */
+	for (size_t k = 0; k < tl->n; k++) {
+		tm_tok *t = &tl->t[k];
+		const char *p = s + t->off;
+		t->foff = (uint32_t)tl->fold.len;
+		if (folded) {
+			if (buf_append(&tl->fold, p, t->len) != 0)
+				return -1;
+		} else if (t->flags & TF_NONASCII || (t->kind != TK_WORD && t->kind != TK_NUM &&
+					       (unsigned char)p[0] >= 0x80)) {
+			if (uni_fold(u, p, t->len, &tl->fold) != 0)
+				return -1;
+		} else {
+			if (buf_reserve(&tl->fold, t->len) != 0)
+				return -1;
+			for (size_t j = 0; j < t->len; j++) {
+				char ch = p[j];
+				tl->fold.data[tl->fold.len++] =
+					(char)(ch >= 'A' && ch <= 'Z' ? ch + 32 : ch);
+			}
+		}
+		t->flen = (uint32_t)(tl->fold.len - t->foff);
+		t->hash = tok_hash(tl->fold.data + t->foff, t->flen);
+	}
+	return 0;
+}
+
+int tok_split(tok_line *tl, uni_ctx *u, const char *text, size_t n)
+{
+	return split(tl, u, text, n, 0);
+}
+
+int tok_split_folded(tok_line *tl, const char *text, size_t n)
+{
+	return split(tl, NULL, text, n, 1);
+}

@@ -1,0 +1,102 @@
+/* tsv.c - header-aware TSV reading. */
+#include "tsv.h"
+
+#include <errno.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+static void split(tsv_reader *t, const char *s, size_t n)
+{
+	size_t i, start = 0;
+	t->nfield = 0;
+	for (i = 0; i <= n; i++) {
+		if (i == n || s[i] == '\t') {
+			if (t->nfield < TSV_MAXCOL) {
+				t->field[t->nfield] = s + start;
+				t->flen[t->nfield] = i - start;
+				t->nfield++;
+			}
+			start = i + 1;
+		}
+	}
+}
+
+int tsv_open(tsv_reader *t, const char *path)
+{
+	const char *s;
+	size_t n, i;
+	int r;
+	char msg[512];
+
+	memset(t, 0, sizeof *t);
+	if (lr_open(&t->lr, path) != 0) {
+		snprintf(msg, sizeof msg, "%s: %s", path, strerror(errno));
+		buf_puts(&t->err, msg);
+		return -1;
+	}
+	r = lr_next(&t->lr, &s, &n);
+	if (r <= 0) {
+		snprintf(msg, sizeof msg, "%s: %s", t->lr.name,
+			 r < 0 ? strerror(errno) : "empty file, no header line");
+		buf_puts(&t->err, msg);
+		return -1;
+	}
+	split(t, s, n);
+	for (i = 0; i < t->nfield; i++) {
+		t->names[i] = strndup(t->field[i], t->flen[i]);
+		if (!t->names[i])
+			return -1;
+		for (size_t j = 0; j < i; j++)
+			if (!strcmp(t->names[j], t->names[i]) && t->names[i][0]) {
+				snprintf(msg, sizeof msg,
+					 "%s:1: column '%s' appears twice", t->lr.name,
+					 t->names[i]);
+				buf_puts(&t->err, msg);
+				t->ncol = i + 1;
+				return -1;
+			}
+	}
+	t->ncol = t->nfield;
+	return 0;
+}
+
+int tsv_col(const tsv_reader *t, const char *name)
+{
+	for (size_t i = 0; i < t->ncol; i++)
+		if (!strcmp(t->names[i], name))
+			return (int)i;
+	return -1;
+}
+
+int tsv_next(tsv_reader *t)
+{
+	const char *s;
+	size_t n;
+	int r;
+
+	do {
+		r = lr_next(&t->lr, &s, &n);
+		if (r < 0) {
+			char msg[512];
+			snprintf(msg, sizeof msg, "%s:%ld: %s", t->lr.name,
+				 t->lr.lineno + 1, strerror(errno));
+			buf_reset(&t->err);
+			buf_puts(&t->err, msg);
+			return -1;
+		}
+		if (r == 0)
+			return 0;
+	} while (n == 0);
+	split(t, s, n);
+	return 1;
+}
+
+void tsv_close(tsv_reader *t)
+{
+	for (size_t i = 0; i < t->ncol; i++)
+		free(t->names[i]);
+	t->ncol = 0;
+	lr_close(&t->lr);
+	buf_free(&t->err);
+}

@@ -1,0 +1,300 @@
+/* unicode.c - the Unicode layer over utf8proc. */
+#include "unicode.h"
+
+#include <stddef.h>
+#include <stdint.h>
+#include <stdlib.h>
+#include <string.h>
+#include <utf8proc.h>
+
+void uni_ctx_free(uni_ctx *u)
+{
+	if (!u)
+		return;
+	free(u->cp);
+	u->cp = NULL;
+	u->cap = 0;
+}
+
+const char *uni_version(void) { return utf8proc_unicode_version(); }
+
+static int grow(uni_ctx *u, size_t need)
+{
+	size_t cap = u->cap ? u->cap : 256;
+	int32_t *p;
+
+	while (cap < need) {
+		if (cap > SIZE_MAX / 2 / sizeof(int32_t))
+			return -1;
+		cap *= 2;
+	}
+	p = realloc(u->cp, cap * sizeof(int32_t));
+	if (!p)
+		return -1;
+	u->cp = p;
+	u->cap = cap;
+	return 0;
+}
+
+/* Dashes, quotes, spaces and symbols of a title, mapped before
+ * decomposition.  data is non-NULL for the key form. */
+static utf8proc_int32_t title_map(utf8proc_int32_t c, void *data)
+{
+	if (c < 0x80) {
+		if (c < 0x20 || c == 0x7F)
+			return ' ';
+		if (c == '`')
+			return '\'';
+		return c;
+	}
+	switch (c) {
+	case 0x2018: case 0x2019: case 0x201A: case 0x201B: case 0x2032:
+	case 0x00B4: case 0x02BC: case 0x02B9: case 0xFF07:
+		return '\'';
+	case 0x201C: case 0x201D: case 0x201E: case 0x201F: case 0x2033:
+	case 0x00AB: case 0x00BB: case 0x2039: case 0x203A: case 0xFF02:
+		return '"';
+	case 0x2212: case 0xFE63: case 0xFF0D:
+		return '-';
+	case 0x2022: case 0x2023: case 0x2043: case 0x25CF: case 0x25AA:
+	case 0x25A0: case 0x25E6: case 0x2219: case 0x2981: case 0x00A6:
+		return '|';
+	case 0x2027: case 0x22C5: case 0x2E31:
+		return 0x00B7; /* word-internal dots read as the middle dot */
+	case 0x00B7:
+		return c;
+	default:
+		break;
+	}
+	if (data) {
+		switch (c) {
+		case 0x0141: case 0x0142: return 'l';
+		case 0x00D8: case 0x00F8: return 'o';
+		case 0x0110: case 0x0111: return 'd';
+		case 0x0126: case 0x0127: return 'h';
+		case 0x0131: return 'i';
+		default: break;
+		}
+	}
+	switch (utf8proc_category(c)) {
+	case UTF8PROC_CATEGORY_PD:
+		return '-';
+	case UTF8PROC_CATEGORY_ZS: case UTF8PROC_CATEGORY_ZL:
+	case UTF8PROC_CATEGORY_ZP: case UTF8PROC_CATEGORY_CC:
+		return ' ';
+	case UTF8PROC_CATEGORY_SO: case UTF8PROC_CATEGORY_SK:
+	case UTF8PROC_CATEGORY_CO: case UTF8PROC_CATEGORY_CS:
+	case UTF8PROC_CATEGORY_CN:
+		return ' ';
+	default:
+		return c;
+	}
+}
+
+static int run(uni_ctx *u, const char *s, size_t n, tm_buf *out,
+	       utf8proc_option_t opt, utf8proc_custom_func fn, void *data)
+{
+	utf8proc_ssize_t len;
+
+	if (n == 0)
+		return 0;
+	if (n > (size_t)(PTRDIFF_MAX / 8))
+		return -1;
+	if (u->cap < n + 16 && grow(u, n + 16) != 0)
+		return -1;
+	for (;;) {
+		len = utf8proc_decompose_custom((const utf8proc_uint8_t *)s,
+						(utf8proc_ssize_t)n, u->cp,
+						(utf8proc_ssize_t)u->cap, opt,
+						fn, data);
+		if (len < 0)
+			return -1;
+		if ((size_t)len <= u->cap)
+			break;
+		if (grow(u, (size_t)len) != 0)
+			return -1;
+	}
+	len = utf8proc_normalize_utf32(u->cp, len, opt);
+	if (len < 0)
+		return -1;
+	/* reencode writes UTF-8 over the code point array: 4 bytes a code
+	 * point is always room enough. */
+	len = utf8proc_reencode(u->cp, len, opt);
+	if (len < 0)
+		return -1;
+	return buf_append(out, u->cp, (size_t)len);
+}
+
+int uni_normalize(uni_ctx *u, enum uni_form form, const char *s, size_t n,
+		  tm_buf *out)
+{
+	utf8proc_option_t opt = UTF8PROC_STABLE;
+
+	switch (form) {
+	case UNI_NFC: opt |= UTF8PROC_COMPOSE; break;
+	case UNI_NFD: opt |= UTF8PROC_DECOMPOSE; break;
+	case UNI_NFKC: opt |= UTF8PROC_COMPOSE | UTF8PROC_COMPAT; break;
+	case UNI_NFKD: opt |= UTF8PROC_DECOMPOSE | UTF8PROC_COMPAT; break;
+	}
+	return run(u, s, n, out, opt, NULL, NULL);
+}
+
+static int ascii_only(const char *s, size_t n)
+{
+	size_t i = 0;
+	uint64_t w;
+	for (; i + 8 <= n; i += 8) {
+		memcpy(&w, s + i, 8);
+		if (w & 0x8080808080808080ULL)
+			return 0;
+	}
+	for (; i < n; i++)
+		if ((unsigned char)s[i] >= 0x80)
+			return 0;
+	return 1;
+}
+
+int uni_prepare(uni_ctx *u, const char *s, size_t n, tm_buf *out)
+{
+	/* ASCII fast path: NFKC changes no ASCII text, and title_map only
+	 * maps controls and the backtick */
+	if (ascii_only(s, n)) {
+		if (buf_reserve(out, n) != 0)
+			return -1;
+		char *d = out->data + out->len;
+		for (size_t i = 0; i < n; i++) {
+			unsigned char c = (unsigned char)s[i];
+			d[i] = (char)(c < 0x20 || c == 0x7F ? ' ' : c == '`' ? '\'' : c);
+		}
+		out->len += n;
+		return 0;
+	}
+	return run(u, s, n, out,
+		   UTF8PROC_STABLE | UTF8PROC_COMPOSE | UTF8PROC_COMPAT |
+			   UTF8PROC_IGNORE,
+		   title_map, NULL);
+}
+
+int uni_fold(uni_ctx *u, const char *s, size_t n, tm_buf *out)
+{
+	static const int key_form = 1;
+	size_t start = out->len, i, j;
+
+	if (ascii_only(s, n)) {
+		if (buf_reserve(out, n) != 0)
+			return -1;
+		char *d = out->data + out->len;
+		for (i = 0; i < n; i++) {
+			unsigned char c = (unsigned char)s[i];
+			d[i] = (char)(c < 0x20 || c == 0x7F ? ' '
+				      : c == '`' ? '\''
+				      : c >= 'A' && c <= 'Z' ? c + 32 : c);
+		}
+		out->len += n;
+		return 0;
+	}
+
+	if (run(u, s, n, out,
+		UTF8PROC_STABLE | UTF8PROC_COMPOSE | UTF8PROC_COMPAT |
+			UTF8PROC_IGNORE | UTF8PROC_CASEFOLD |
+			UTF8PROC_STRIPMARK,
+		title_map, (void *)&key_form) != 0)
+		return -1;
+	/* æ (C3 A6) and œ (C5 93) have no decomposition; spell them out.
+	 * Both are two bytes, like their replacements. */
+	for (i = j = start; i < out->len; i++) {
+		unsigned char c = (unsigned char)out->data[i];
+		if (i + 1 < out->len && c == 0xC3 &&
+		    (unsigned char)out->data[i + 1] == 0xA6) {
+			out->data[j++] = 'a';
+			out->data[j++] = 'e';
+			i++;
+		} else if (i + 1 < out->len && c == 0xC5 &&
+			   (unsigned char)out->data[i + 1] == 0x93) {
+			out->data[j++] = 'o';
+			out->data[j++] = 'e';
+			i++;
+		} else
+			out->data[j++] = (char)c;
+	}
+	out->len = j;
+	return 0;
+}
+
+int32_t uni_next(const char *str, size_t n, size_t *i)
+{
+	utf8proc_int32_t c;
+	utf8proc_ssize_t l = utf8proc_iterate((const utf8proc_uint8_t *)str + *i,
+					      (utf8proc_ssize_t)(n - *i), &c);
+	if (l <= 0) {
+		(*i)++;
+		return 0xFFFD;
+	}
+	*i += (size_t)l;
+	return c;
+}
+
+int uni_lower(const char *s, size_t n, tm_buf *out)
+{
+	size_t i = 0;
+	utf8proc_uint8_t enc[4];
+
+	if (buf_reserve(out, n + 8) != 0)
+		return -1;
+	while (i < n) {
+		unsigned char c = (unsigned char)s[i];
+		if (c < 0x80) {
+			if (buf_putc(out, (char)(c >= 'A' && c <= 'Z' ? c + 32 : c)))
+				return -1;
+			i++;
+			continue;
+		}
+		int32_t cp = uni_next(s, n, &i);
+		utf8proc_ssize_t l = utf8proc_encode_char(utf8proc_tolower(cp), enc);
+		if (buf_append(out, enc, (size_t)l) != 0)
+			return -1;
+	}
+	return 0;
+}
+
+enum uni_class uni_classify(int32_t cp)
+{
+	switch (utf8proc_category(cp)) {
+	case UTF8PROC_CATEGORY_LU: case UTF8PROC_CATEGORY_LL:
+	case UTF8PROC_CATEGORY_LT: case UTF8PROC_CATEGORY_LM:
+	case UTF8PROC_CATEGORY_LO:
+		return UNI_LETTER;
+	case UTF8PROC_CATEGORY_MN: case UTF8PROC_CATEGORY_MC:
+	case UTF8PROC_CATEGORY_ME:
+		return UNI_MARK;
+	case UTF8PROC_CATEGORY_ND: case UTF8PROC_CATEGORY_NL:
+	case UTF8PROC_CATEGORY_NO:
+		return UNI_DIGIT;
+	case UTF8PROC_CATEGORY_ZS: case UTF8PROC_CATEGORY_ZL:
+	case UTF8PROC_CATEGORY_ZP: case UTF8PROC_CATEGORY_CC:
+		return UNI_SPACE;
+	case UTF8PROC_CATEGORY_PC: case UTF8PROC_CATEGORY_PD:
+	case UTF8PROC_CATEGORY_PS: case UTF8PROC_CATEGORY_PE:
+	case UTF8PROC_CATEGORY_PI: case UTF8PROC_CATEGORY_PF:
+	case UTF8PROC_CATEGORY_PO:
+		return UNI_PUNCT;
+	case UTF8PROC_CATEGORY_SC:
+		return UNI_CURRENCY;
+	case UTF8PROC_CATEGORY_SM: case UTF8PROC_CATEGORY_SK:
+	case UTF8PROC_CATEGORY_SO:
+		return UNI_SYMBOL;
+	default:
+		return UNI_OTHER;
+	}
+}
+
+int uni_is_upper(int32_t cp)
+{
+	utf8proc_category_t c = utf8proc_category(cp);
+	return c == UTF8PROC_CATEGORY_LU || c == UTF8PROC_CATEGORY_LT;
+}
+
+int uni_is_lower(int32_t cp)
+{
+	return utf8proc_category(cp) == UTF8PROC_CATEGORY_LL;
+}

@@ -1,0 +1,69 @@
+/* unicode.h - the Unicode layer: normalisation, folding, classification.
+ *
+ * The only module that knows utf8proc.  All input must be well-formed
+ * UTF-8 (run it through decode.h first).  A uni_ctx holds scratch space
+ * reused from call to call, so the hot path allocates nothing once the
+ * scratch has grown to the longest line; one context per thread.
+ * Functions returning int give 0 on success and -1 when memory ran out
+ * or the input was not well-formed UTF-8 (out is then unspecified). */
+#ifndef TM_UNICODE_H
+#define TM_UNICODE_H
+
+#include <stddef.h>
+#include <stdint.h>
+
+#include "buf.h"
+
+typedef struct uni_ctx {
+	int32_t *cp;
+	size_t cap;
+} uni_ctx;
+
+void uni_ctx_free(uni_ctx *u);
+
+enum uni_form { UNI_NFC, UNI_NFD, UNI_NFKC, UNI_NFKD };
+
+/* Appends the normalisation form `form` (UAX #15) of s to out. */
+int uni_normalize(uni_ctx *u, enum uni_form form, const char *s, size_t n,
+		  tm_buf *out);
+
+/* Appends the working form of a title: NFKC; every dash (Pd, U+2212) as
+ * '-'; single quotes and apostrophes as '\''; double quotes as '"';
+ * spaces, tabs and controls as ' '; bullets as '|'; other symbols (emoji,
+ * dingbats, U+FFFD) as ' '; default-ignorable code points (soft hyphen,
+ * zero-width spaces and joiners, variation selectors) removed.  Letter
+ * case is kept. */
+int uni_prepare(uni_ctx *u, const char *s, size_t n, tm_buf *out);
+
+/* Appends the match-key form: as uni_prepare, then full case folding,
+ * combining marks removed, and the letters without a decomposition that
+ * readers write without their stroke folded too (ł→l, ø→o, đ→d, ħ→h,
+ * ı→i, æ→ae, œ→oe). */
+int uni_fold(uni_ctx *u, const char *s, size_t n, tm_buf *out);
+
+/* Appends s with each code point replaced by its simple lowercase
+ * mapping (UnicodeData.txt field 13): ß stays ß, İ becomes i. */
+int uni_lower(const char *s, size_t n, tm_buf *out);
+
+/* Decodes the code point at s[*i] (well-formed UTF-8) and advances *i. */
+int32_t uni_next(const char *s, size_t n, size_t *i);
+
+enum uni_class {
+	UNI_OTHER = 0,
+	UNI_LETTER,   /* L* */
+	UNI_MARK,     /* M* */
+	UNI_DIGIT,    /* Nd (and other N* that survive NFKC) */
+	UNI_SPACE,    /* Z*, controls */
+	UNI_PUNCT,    /* P* */
+	UNI_CURRENCY, /* Sc */
+	UNI_SYMBOL,   /* Sm, Sk, So */
+};
+
+enum uni_class uni_classify(int32_t cp);
+int uni_is_upper(int32_t cp);
+int uni_is_lower(int32_t cp);
+
+/* The Unicode version the layer implements, e.g. "15.0.0". */
+const char *uni_version(void);
+
+#endif
