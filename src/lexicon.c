@@ -272,6 +272,16 @@ const lex_entry *lex_next(const lexicon *lx, const lex_entry *e)
 	return e->next ? &lx->ent[e->next] : NULL;
 }
 
+size_t lex_entry_index(const lexicon *lx, const lex_entry *e)
+{
+	return (size_t)(e - lx->ent);
+}
+
+const lex_entry *lex_entry_at(const lexicon *lx, size_t i)
+{
+	return &lx->ent[i];
+}
+
 const lex_pair *lex_pairs(const lexicon *lx, size_t *n)
 {
 	*n = lx->npairs;
@@ -329,7 +339,7 @@ static int fold_units(lexicon *lx, const char *s, size_t n,
 	buf_reset(&lx->work);
 	if (uni_fold(&lx->u, s, n, &lx->work) != 0)
 		return -1;
-	if (tok_split_folded(&lx->tl, lx->work.data, lx->work.len) != 0)
+	if (tok_split_folded(&lx->tl, &lx->u, lx->work.data, lx->work.len) != 0)
 		return -1;
 	for (k = 0; k < lx->tl.n; k++) {
 		const tm_tok *t = &lx->tl.t[k];
@@ -417,6 +427,15 @@ int lex_add(lexicon *lx, int cat, const char *lang, const char *ph,
 	e->amb = amb;
 	memcpy(e->lang, lg, sizeof lg);
 	e->value = v;
+	{
+		size_t up = 0, low = 0;
+		for (size_t q = 0; q < plen; q++) {
+			unsigned char c = (unsigned char)ph[q];
+			up += c >= 'A' && c <= 'Z';
+			low += c >= 'a' && c <= 'z';
+		}
+		e->caps = up >= 2 && low == 0;
+	}
 
 	size_t j = seq & (lx->phcap - 1);
 	while (lx->ph[j].first) {

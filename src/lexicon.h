@@ -36,6 +36,7 @@ typedef struct lex_entry {
 	uint8_t where;   /* enum lex_where */
 	uint8_t amb;     /* applies only when the title's language matches */
 	uint8_t off;     /* switched off by a later `off` line */
+	uint8_t caps;    /* the phrase was written in capitals: NRW, DACH */
 	char lang[4];    /* "" for `*` */
 	const char *value; /* owned by the lexicon; "-" when unused */
 	uint32_t next;   /* next entry of the same phrase, 0 at the end */
@@ -81,6 +82,10 @@ int lex_maxlen(const lexicon *lx, uint64_t th);
 const lex_entry *lex_find(const lexicon *lx, uint64_t seq, size_t ntok,
 			  const char *const *fold, const uint32_t *flen);
 const lex_entry *lex_next(const lexicon *lx, const lex_entry *e);
+/* An entry's index, and the entry of an index (stable while no entry is
+ * added). */
+size_t lex_entry_index(const lexicon *lx, const lex_entry *e);
+const lex_entry *lex_entry_at(const lexicon *lx, size_t i);
 
 uint64_t lex_seq_step(uint64_t h, uint64_t th);
 uint64_t lex_seq_final(uint64_t h, size_t ntok);

@@ -47,6 +47,8 @@ void norm_free(normaliser *nm)
 	free(nm->segs);
 	free(nm->spans);
 	free(nm->pieces);
+	free(nm->mc);
+	free(nm->moff);
 	free(nm);
 }
 
@@ -81,6 +83,10 @@ static int grow_arrays(normaliser *nm, size_t ntok)
 	if (!sg)
 		return -1;
 	nm->segs = sg;
+	uint32_t *mo = realloc(nm->moff, (cap + 1) * sizeof *mo);
+	if (!mo)
+		return -1;
+	nm->moff = mo;
 	nm->tcap = cap;
 	return 0;
 }
@@ -103,43 +109,88 @@ int entry_applies(const normaliser *nm, const lex_entry *e)
 
 #define MAXPH 12
 
-static const lex_entry *match_gen(normaliser *nm, size_t k, unsigned mask,
-				  const char *value, int kept, size_t *len)
+/* Fills the phrase cache: for each unit, every phrase of the lexicon
+ * that starts there, longest first.  Units removed by the gender pass
+ * are transparent ("Addetto/a alla somministrazione"). */
+static int cache_build(normaliser *nm)
 {
 	const char *fold[MAXPH];
 	uint32_t fl[MAXPH];
 	size_t endu[MAXPH];
-	uint64_t seq[MAXPH], h = LEX_SEQ_SEED;
-	size_t n = 0, j, L;
-	int maxl;
-	uint32_t s;
+	uint64_t seq[MAXPH];
 
+	nm->nmc = 0;
+	for (size_t k = 0; k < nm->nunit; k++) {
+		int maxl = lex_maxlen(nm->lx, U(nm, k)->hash);
+		size_t n = 0, j, L;
+		uint64_t h = LEX_SEQ_SEED;
+		uint32_t s = useg(nm, k);
+
+		nm->moff[k] = (uint32_t)nm->nmc;
+		if (!maxl)
+			continue;
+		for (j = k; j < nm->nunit && n < (size_t)maxl && n < MAXPH; j++) {
+			if (j > k && nm->rm[nm->unit[j]] == NF_GENDER)
+				continue;
+			if (useg(nm, j) != s && !(j > k && nm->rm[nm->unit[j - 1]] == NF_GENDER))
+				break;
+			fold[n] = ufold(nm, j, &fl[n]);
+			h = lex_seq_step(h, U(nm, j)->hash);
+			seq[n] = lex_seq_final(h, n + 1);
+			endu[n] = j + 1;
+			n++;
+		}
+		for (L = n; L >= 1; L--) {
+			const lex_entry *e = lex_find(nm->lx, seq[L - 1], L, fold, fl);
+			if (!e)
+				continue;
+			if (nm->nmc == nm->mccap) {
+				size_t cap = nm->mccap ? nm->mccap * 2 : 64;
+				struct mcache *p = realloc(nm->mc, cap * sizeof *p);
+				if (!p)
+					return -1;
+				nm->mc = p;
+				nm->mccap = cap;
+			}
+			nm->mc[nm->nmc].first = (uint32_t)lex_entry_index(nm->lx, e);
+			nm->mc[nm->nmc].units = (uint8_t)(endu[L - 1] - k);
+			uint16_t cats = 0;
+			for (const lex_entry *f = e; f; f = lex_next(nm->lx, f))
+				cats |= (uint16_t)(1u << f->cat);
+			nm->mc[nm->nmc].cats = cats;
+			nm->nmc++;
+		}
+	}
+	nm->moff[nm->nunit] = (uint32_t)nm->nmc;
+	return 0;
+}
+
+static const lex_entry *match_gen(normaliser *nm, size_t k, unsigned mask,
+				  const char *value, int kept, size_t *len)
+{
 	if (k >= nm->nunit)
 		return NULL;
-	maxl = lex_maxlen(nm->lx, U(nm, k)->hash);
-	if (!maxl)
-		return NULL;
-	s = useg(nm, k);
-	for (j = k; j < nm->nunit && n < (size_t)maxl && n < MAXPH; j++) {
-		/* a removed gender ending is transparent: Addetto/a alla ... */
-		if (j > k && nm->rm[nm->unit[j]] == NF_GENDER)
+	for (uint32_t i = nm->moff[k]; i < nm->moff[k + 1]; i++) {
+		size_t nu = nm->mc[i].units, j;
+		int ok = 1;
+		if (!(nm->mc[i].cats & mask))
 			continue;
-		if (useg(nm, j) != s && !(j > k && nm->rm[nm->unit[j - 1]] == NF_GENDER))
-			break;
-		if (kept && (!ukept(nm, j) || nm->prot[nm->unit[j]]))
-			break;
-		fold[n] = ufold(nm, j, &fl[n]);
-		h = lex_seq_step(h, U(nm, j)->hash);
-		seq[n] = lex_seq_final(h, n + 1);
-		endu[n] = j + 1;
-		n++;
-	}
-	for (L = n; L >= 1; L--) {
-		const lex_entry *e = lex_find(nm->lx, seq[L - 1], L, fold, fl);
-		for (; e; e = lex_next(nm->lx, e))
+		if (kept)
+			for (j = k; j < k + nu && ok; j++) {
+				uint32_t t = nm->unit[j];
+				if (nm->rm[t] == NF_GENDER && j > k)
+					continue;
+				if (nm->rm[t] != RM_NONE || nm->prot[t])
+					ok = 0;
+			}
+		if (!ok)
+			continue;
+		for (const lex_entry *e = lex_entry_at(nm->lx, nm->mc[i].first); e;
+		     e = lex_next(nm->lx, e))
 			if ((mask & (1u << e->cat)) && entry_applies(nm, e) &&
-			    (!value || strcmp(e->value, value) == 0)) {
-				*len = endu[L - 1] - k;
+			    (!value || (e->value[0] == value[0] &&
+					strcmp(e->value, value) == 0))) {
+				*len = nu;
 				return e;
 			}
 	}
@@ -496,9 +547,14 @@ int norm_title(normaliser *nm, const char *raw, size_t n, const char *lang,
 		return -1;
 	if (build(nm) != 0)
 		return -1;
+	if (cache_build(nm) != 0)
+		return -1;
 	protect(nm);
-	if (pass_pii(nm) || pass_gender(nm) || pass_reference(nm) ||
-	    pass_pay(nm) || pass_schedule(nm) || pass_hashtags(nm) ||
+	if (pass_pii(nm) || pass_gender(nm))
+		return -1;
+	if (nm->nspan && cache_build(nm) != 0)
+		return -1;
+	if (pass_reference(nm) || pass_pay(nm) || pass_schedule(nm) || pass_hashtags(nm) ||
 	    pass_phrases(nm) || pass_employer(nm) || pass_location(nm) ||
 	    pass_phrases(nm))
 		return -1;

@@ -47,6 +47,11 @@ struct normaliser {
 	size_t nseg, scap;
 	span *spans;
 	size_t nspan, spcap;
+	/* phrases starting at each unit, longest first: mc[moff[k] ..
+	 * moff[k + 1]) (built once per line, again after the gender pass) */
+	struct mcache { uint32_t first; uint16_t cats; uint8_t units; } *mc;
+	size_t nmc, mccap;
+	uint32_t *moff;
 	nf_piece *pieces;
 	size_t pcap;
 };

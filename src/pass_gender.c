@@ -41,6 +41,9 @@ static int is_fem(normaliser *nm, const char *a, size_t an, const char *b,
 {
 	size_t n, i;
 	const lex_pair *p = lex_pairs(nm->lx, &n);
+	/* the two share a stem of two letters at least */
+	if (an < 2 || bn < 2 || a[0] != b[0] || a[1] != b[1])
+		return 0;
 	for (i = 0; i < n; i++) {
 		size_t sa, sb;
 		if (!pair_applies(nm, &p[i]))

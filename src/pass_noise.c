@@ -160,9 +160,10 @@ static int code_at(normaliser *nm, size_t k)
 static int is_date(const normaliser *nm, const tm_tok *t)
 {
 	const char *p = nm->work.data + t->off;
-	size_t d = ndigits(nm, t), n = t->len;
-	if (t->kind != TK_NUM)
+	size_t d, n = t->len;
+	if (t->kind != TK_NUM || (n != 4 && n != 8 && n != 10))
 		return 0;
+	d = ndigits(nm, t);
 	if (d == 4 && n == 4)
 		return (p[0] == '1' && p[1] == '9') || (p[0] == '2' && p[1] == '0');
 	/* dd.mm.yyyy, dd.mm.yy */
@@ -531,17 +532,16 @@ static int peel_segment(normaliser *nm, size_t s, int *changed)
 	size_t k0, k1, k, len;
 
 	seg_kept(nm, s, &k0, &k1);
+	size_t a = k0, b = k1;
 	for (k = k0; k < k1; k++) {
 		const lex_entry *e;
-		size_t a, b;
-		if (!ukept(nm, k))
+		if (nm->moff[k] == nm->moff[k + 1] || !ukept(nm, k))
 			continue;
 		e = match_mask(nm, k, phrase_mask, 1, &len);
 		if (!e)
 			continue;
 		if (e->cat == LC_PAY && strcmp(e->value, "phrase"))
 			continue;
-		seg_kept(nm, s, &a, &b);
 		/* an edge word is never the title's last word: Principal */
 		if (e->where == LW_EDGE && e->cat == LC_SENIORITY &&
 		    last_word(nm, k, k + len))
@@ -554,6 +554,7 @@ static int peel_segment(normaliser *nm, size_t s, int *changed)
 			return -1;
 		*changed = 1;
 		k += len - 1;
+		seg_kept(nm, s, &a, &b);
 	}
 	/* years left at an edge by the removals */
 	seg_kept(nm, s, &k0, &k1);

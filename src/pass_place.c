@@ -113,11 +113,20 @@ static int loc_word(normaliser *nm, size_t k, const char *value, size_t *len)
 	return 1;
 }
 
-/* An acronym in a mixed-case title is no place: (OSS), (BAU). */
+/* An acronym in a mixed-case title is no place unless the lexicon
+ * writes the place in capitals too: (OSS) is a qualification, not Oss;
+ * NRW is a region. */
 static int acronym(normaliser *nm, size_t k, size_t len, int caps)
 {
 	const tm_tok *t = U(nm, k);
-	return !caps && len == 1 && (t->flags & TF_ALLCAPS) && t->len <= 4;
+	size_t l2;
+	if (caps || len != 1 || !(t->flags & TF_ALLCAPS) || t->len > 4)
+		return 0;
+	for (const lex_entry *e = match_cat(nm, k, LC_PLACE, 1, &l2); e;
+	     e = lex_next(nm->lx, e))
+		if (e->cat == LC_PLACE && e->caps && entry_applies(nm, e))
+			return 0;
+	return 1;
 }
 
 /* From unit k (a place), the end of a run of places joined by
@@ -145,6 +154,17 @@ static size_t place_run(normaliser *nm, size_t k, size_t plen, int allow_strong)
 	return e;
 }
 
+/* Removes a place of len units at k, with an apostrophe written
+ * against its start ('s-Hertogenbosch). */
+static int remove_place(normaliser *nm, size_t k, size_t len, const char *cc)
+{
+	size_t t0 = nm->unit[k];
+	if (t0 > 0 && !nm->tl.t[t0].sp && nm->tl.t[t0 - 1].kind == TK_PUNCT &&
+	    nm->tl.t[t0 - 1].ch == '\'' && (t0 == 1 || nm->tl.t[t0 - 1].sp))
+		t0--;
+	return remove_toks(nm, t0, nm->unit[k + len - 1], NF_LOCATION, cc);
+}
+
 /* Removes units [k, e) of a location slot piece by piece: places as
  * locations (their facet), the rest (prepositions, region words,
  * postcodes, connectors) as slot words. */
@@ -156,7 +176,7 @@ static int take(normaliser *nm, size_t k, size_t e)
 
 	while (k < e) {
 		if (place_at(nm, k, &len, &strong, &cc) && k + len <= e) {
-			if (remove_units(nm, k, k + len, NF_LOCATION, cc))
+			if (remove_place(nm, k, len, cc))
 				return -1;
 		} else {
 			if (!(len = postcode_at(nm, k)) || k + len > e)
@@ -273,7 +293,7 @@ static int whole_segments(normaliser *nm)
 				continue;
 			}
 			if (place_at(nm, k, &len, &strong, &c)) {
-				if (remove_units(nm, k, k + len, NF_LOCATION, c))
+				if (remove_place(nm, k, len, c))
 					return -1;
 			} else if (loc_word(nm, k, "country-code", &len)) {
 				if (remove_units(nm, k, k + len, NF_LOCATION, NULL))

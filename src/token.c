@@ -45,32 +45,52 @@ static int is_alnum_class(enum uni_class c)
 	return c == UNI_LETTER || c == UNI_MARK || c == UNI_DIGIT;
 }
 
-/* Class of the code point at s[i] without advancing. */
-static enum uni_class peek(const char *s, size_t n, size_t i, int32_t *cp)
+/* Classes of the ASCII characters (the prepared text has no controls). */
+static const unsigned char ascii_class[128] = {
+#define L UNI_LETTER
+#define D UNI_DIGIT
+#define P UNI_PUNCT
+#define S UNI_SYMBOL
+	UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE,
+	UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE,
+	UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE,
+	UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE, UNI_SPACE,
+	/*   ! " # $ % & ' ( ) * + , - . / */
+	UNI_SPACE, P, P, S, UNI_CURRENCY, S, S, P, P, P, P, S, P, P, P, P,
+	D, D, D, D, D, D, D, D, D, D, P, P, P, P, P, P,
+	S, L, L, L, L, L, L, L, L, L, L, L, L, L, L, L,
+	L, L, L, L, L, L, L, L, L, L, L, P, P, P, P, P,
+	P, L, L, L, L, L, L, L, L, L, L, L, L, L, L, L,
+	L, L, L, L, L, L, L, L, L, L, L, P, P, P, P, UNI_SPACE,
+#undef L
+#undef D
+#undef P
+#undef S
+};
+
+/* Class of the code point at s[i] without advancing; *cc receives the
+ * class with its case bits. */
+static enum uni_class peekc(uni_ctx *u, const char *s, size_t n, size_t i,
+			    int32_t *cp, int *cc)
 {
 	size_t j = i;
 	unsigned char c;
 
 	if (i >= n) {
 		*cp = -1;
+		*cc = UNI_SPACE;
 		return UNI_SPACE;
 	}
 	c = (unsigned char)s[i];
 	if (c < 0x80) {
 		*cp = c;
-		if ((c | 32) >= 'a' && (c | 32) <= 'z')
-			return UNI_LETTER;
-		if (c >= '0' && c <= '9')
-			return UNI_DIGIT;
-		if (c == ' ')
-			return UNI_SPACE;
-		if (c == '$' || c == '&' || c == '+' || c == '%' || c == '#' ||
-		    c == '@')
-			return c == '$' ? UNI_CURRENCY : UNI_SYMBOL;
-		return UNI_PUNCT;
+		*cc = ascii_class[c] | (c >= 'A' && c <= 'Z' ? UNI_UP : 0) |
+		      (c >= 'a' && c <= 'z' ? UNI_LOW : 0);
+		return (enum uni_class)ascii_class[c];
 	}
 	*cp = uni_next(s, n, &j);
-	return uni_classify(*cp);
+	*cc = uni_class_case(u, *cp);
+	return (enum uni_class)(*cc & 0x0F);
 }
 
 static size_t cp_len(const char *s, size_t n, size_t i)
@@ -86,32 +106,34 @@ static int is_digit_at(const char *s, size_t n, size_t i)
 }
 
 /* Scans a word starting at i; returns its end.  Sets flags. */
-static size_t scan_word(const char *s, size_t n, size_t i, uint8_t *flags,
-			size_t *capsuf)
+static size_t scan_word(uni_ctx *u, const char *s, size_t n, size_t i,
+			uint8_t *flags, size_t *capsuf)
 {
 	int32_t cp, prev = -1;
 	size_t start = i;
 	int letters = 0, upper = 0, lower_seen = 0;
 
 	*capsuf = 0;
+	int cc, prevlow = 0;
 	for (;;) {
-		enum uni_class c = peek(s, n, i, &cp);
+		enum uni_class c = peekc(u, s, n, i, &cp, &cc);
 		if (!is_alnum_class(c))
 			break;
 		if (c == UNI_DIGIT)
 			*flags |= TF_DIGIT;
 		if (c == UNI_LETTER) {
 			letters++;
-			if (uni_is_upper(cp)) {
+			if (cc & UNI_UP) {
 				upper++;
 				if (i == start)
 					*flags |= TF_CAP;
 				if (cp == 'I' && prev >= 0 && lower_seen &&
-				    uni_is_lower(prev) && i - start >= 3)
+				    prevlow && i - start >= 3)
 					*capsuf = i;
-			} else if (uni_is_lower(cp))
+			} else if (cc & UNI_LOW)
 				lower_seen = 1;
 		}
+		prevlow = (cc & UNI_LOW) != 0;
 		if (cp >= 0x80)
 			*flags |= TF_NONASCII;
 		prev = cp;
@@ -139,7 +161,8 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 	buf_reset(&tl->fold);
 	while (i < n) {
 		int32_t cp, cp2;
-		enum uni_class c = peek(s, n, i, &cp);
+		int dummy;
+		enum uni_class c = peekc(u, s, n, i, &cp, &dummy);
 		size_t start = i;
 		tm_tok *t;
 
@@ -156,7 +179,7 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 		if (c == UNI_DIGIT) {
 			t->kind = TK_NUM;
 			while (i < n) {
-				enum uni_class d = peek(s, n, i, &cp);
+				enum uni_class d = peekc(u, s, n, i, &cp, &dummy);
 				if (d == UNI_DIGIT) {
 					i += cp < 0x80 ? 1 : cp_len(s, n, i);
 				} else if ((s[i] == '.' || s[i] == ',' || s[i] == '\'') &&
@@ -167,12 +190,12 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 			}
 		} else if (c == UNI_LETTER || c == UNI_MARK ||
 			   (cp == '.' && t->sp && i + 1 < n &&
-			    peek(s, n, i + 1, &cp2) == UNI_LETTER)) {
+			    peekc(u, s, n, i + 1, &cp2, &dummy) == UNI_LETTER)) {
 			size_t capsuf = 0;
 			t->kind = TK_WORD;
 			if (s[i] == '.')
 				i++;
-			i = scan_word(s, n, i, &t->flags, &capsuf);
+			i = scan_word(u, s, n, i, &t->flags, &capsuf);
 			/* c++, c#, f#: symbols glued to the end of a short word */
 			if (i < n && (s[i] == '+' || s[i] == '#') &&
 			    i - start <= 2 + (s[i] == '+') * 8) {
@@ -180,7 +203,7 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 				char sym = s[i];
 				while (j < n && s[j] == sym && j - i < 2)
 					j++;
-				if (j >= n || peek(s, n, j, &cp) != UNI_LETTER)
+				if (j >= n || peekc(u, s, n, j, &cp, &dummy) != UNI_LETTER)
 					if (sym == '+' ? j - i == 2 : 1)
 						i = j;
 			}
@@ -271,7 +294,7 @@ int tok_split(tok_line *tl, uni_ctx *u, const char *text, size_t n)
 	return split(tl, u, text, n, 0);
 }
 
-int tok_split_folded(tok_line *tl, const char *text, size_t n)
+int tok_split_folded(tok_line *tl, uni_ctx *u, const char *text, size_t n)
 {
-	return split(tl, NULL, text, n, 1);
+	return split(tl, u, text, n, 1);
 }

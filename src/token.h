@@ -57,7 +57,7 @@ int tok_split(tok_line *tl, uni_ctx *u, const char *text, size_t n);
 
 /* The same for a text already in match-key form (uni_fold): each
  * token's fold is its text. */
-int tok_split_folded(tok_line *tl, const char *text, size_t n);
+int tok_split_folded(tok_line *tl, uni_ctx *u, const char *text, size_t n);
 
 void tok_line_free(tok_line *tl);
 

@@ -83,6 +83,9 @@ static utf8proc_int32_t title_map(utf8proc_int32_t c, void *data)
 	case UTF8PROC_CATEGORY_ZP: case UTF8PROC_CATEGORY_CC:
 		return ' ';
 	case UTF8PROC_CATEGORY_SO: case UTF8PROC_CATEGORY_SK:
+		/* emoji and dingbats part a title like a bullet:
+		 * "Koch 📍 München" */
+		return c == 0xFFFD ? ' ' : '|';
 	case UTF8PROC_CATEGORY_CO: case UTF8PROC_CATEGORY_CS:
 	case UTF8PROC_CATEGORY_CN:
 		return ' ';
@@ -154,7 +157,121 @@ static int ascii_only(const char *s, size_t n)
 	return 1;
 }
 
+/* Fast-table index of a code point, or -1.  Letters of Latin-1 and
+ * Latin Extended-A never combine with what follows them, so their NFKC
+ * (and fold) is the same alone as in a line; the same holds for the
+ * punctuation listed. */
+static int fast_index(int32_t cp)
+{
+	static const int32_t extra[] = {0x2013, 0x2014, 0x2018, 0x2019, 0x201A,
+					0x201C, 0x201D, 0x201E, 0x2022, 0x20AC,
+					0x2026, 0x2010, 0x2011, 0x00B7, 0x2212, 0x200B};
+	if (cp < 0x180)
+		return cp;
+	for (int i = 0; i < (int)(sizeof extra / sizeof extra[0]); i++)
+		if (extra[i] == cp)
+			return 0x180 + i;
+	return -1;
+}
+
+static int slow_prepare(uni_ctx *u, const char *s, size_t n, tm_buf *out);
+static int slow_fold(uni_ctx *u, const char *s, size_t n, tm_buf *out);
+
+static int fill_tables(uni_ctx *u)
+{
+	static const int32_t extra[] = {0x2013, 0x2014, 0x2018, 0x2019, 0x201A,
+					0x201C, 0x201D, 0x201E, 0x2022, 0x20AC,
+					0x2026, 0x2010, 0x2011, 0x00B7, 0x2212, 0x200B};
+	tm_buf b = {0};
+	for (int i = 0; i < UNI_FAST; i++) {
+		int32_t cp = i < 0x180 ? i : extra[i - 0x180];
+		utf8proc_uint8_t enc[4];
+		utf8proc_ssize_t l = utf8proc_encode_char(cp, enc);
+		u->plen[i] = u->flen[i] = 0xFF; /* not usable */
+		if (cp == 0)
+			continue;
+		buf_reset(&b);
+		if (slow_prepare(u, (const char *)enc, (size_t)l, &b) == 0 && b.len <= 4) {
+			memcpy(u->prep[i], b.data, b.len);
+			u->plen[i] = (uint8_t)b.len;
+		}
+		buf_reset(&b);
+		if (slow_fold(u, (const char *)enc, (size_t)l, &b) == 0 && b.len <= 4) {
+			memcpy(u->fold[i], b.data, b.len);
+			u->flen[i] = (uint8_t)b.len;
+		}
+	}
+	buf_free(&b);
+	for (int32_t cp = 0; cp < 0x180; cp++)
+		u->cls[cp] = (uint8_t)(uni_classify(cp) | (uni_is_upper(cp) ? UNI_UP : 0) |
+				       (uni_is_lower(cp) ? UNI_LOW : 0));
+	u->ready = 1;
+	return 0;
+}
+
+int uni_class_case(uni_ctx *u, int32_t cp)
+{
+	if (cp < 0x180) {
+		if (!u->ready && fill_tables(u) != 0)
+			return UNI_OTHER;
+		return u->cls[cp];
+	}
+	return (int)uni_classify(cp) | (uni_is_upper(cp) ? UNI_UP : 0) |
+	       (uni_is_lower(cp) ? UNI_LOW : 0);
+}
+
+/* Maps s code point by code point through a fast table; returns 1 when
+ * every code point had an entry (out then holds the result), 0 when the
+ * general algorithm is needed (out unchanged), -1 on memory. */
+static int fast_map(uni_ctx *u, const char *s, size_t n, tm_buf *out, int fold)
+{
+	size_t start = out->len, i = 0;
+
+	if (!u->ready && fill_tables(u) != 0)
+		return -1;
+	if (buf_reserve(out, n * 2 + 8) != 0)
+		return -1;
+	while (i < n) {
+		size_t j = i;
+		int32_t cp = uni_next(s, n, &j);
+		int x = fast_index(cp);
+		uint8_t l;
+		if (x < 0 || (l = fold ? u->flen[x] : u->plen[x]) == 0xFF) {
+			out->len = start;
+			return 0;
+		}
+		if (out->cap - out->len < 4 && buf_reserve(out, 4) != 0)
+			return -1;
+		memcpy(out->data + out->len, fold ? u->fold[x] : u->prep[x], l);
+		out->len += l;
+		i = j;
+	}
+	return 1;
+}
+
 int uni_prepare(uni_ctx *u, const char *s, size_t n, tm_buf *out)
+{
+	int r;
+	if (ascii_only(s, n))
+		return slow_prepare(u, s, n, out);
+	r = fast_map(u, s, n, out, 0);
+	if (r != 0)
+		return r < 0 ? -1 : 0;
+	return slow_prepare(u, s, n, out);
+}
+
+int uni_fold(uni_ctx *u, const char *s, size_t n, tm_buf *out)
+{
+	int r;
+	if (ascii_only(s, n))
+		return slow_fold(u, s, n, out);
+	r = fast_map(u, s, n, out, 1);
+	if (r != 0)
+		return r < 0 ? -1 : 0;
+	return slow_fold(u, s, n, out);
+}
+
+static int slow_prepare(uni_ctx *u, const char *s, size_t n, tm_buf *out)
 {
 	/* ASCII fast path: NFKC changes no ASCII text, and title_map only
 	 * maps controls and the backtick */
@@ -175,7 +292,7 @@ int uni_prepare(uni_ctx *u, const char *s, size_t n, tm_buf *out)
 		   title_map, NULL);
 }
 
-int uni_fold(uni_ctx *u, const char *s, size_t n, tm_buf *out)
+static int slow_fold(uni_ctx *u, const char *s, size_t n, tm_buf *out)
 {
 	static const int key_form = 1;
 	size_t start = out->len, i, j;

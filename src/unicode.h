@@ -14,10 +14,22 @@
 
 #include "buf.h"
 
+#define UNI_FAST 0x190
+
 typedef struct uni_ctx {
 	int32_t *cp;
 	size_t cap;
+	/* per code point results for the Latin letters and common
+	 * punctuation, computed with utf8proc on first use: lines made only
+	 * of these skip the general algorithm */
+	int ready;
+	char prep[UNI_FAST][4], fold[UNI_FAST][4];
+	uint8_t plen[UNI_FAST], flen[UNI_FAST];
+	uint8_t cls[0x180]; /* enum uni_class | UNI_UP | UNI_LOW */
 } uni_ctx;
+
+#define UNI_UP 0x10
+#define UNI_LOW 0x20
 
 void uni_ctx_free(uni_ctx *u);
 
@@ -29,8 +41,8 @@ int uni_normalize(uni_ctx *u, enum uni_form form, const char *s, size_t n,
 
 /* Appends the working form of a title: NFKC; every dash (Pd, U+2212) as
  * '-'; single quotes and apostrophes as '\''; double quotes as '"';
- * spaces, tabs and controls as ' '; bullets as '|'; other symbols (emoji,
- * dingbats, U+FFFD) as ' '; default-ignorable code points (soft hyphen,
+ * spaces, tabs and controls as ' '; bullets and other symbols (emoji,
+ * dingbats) as '|', U+FFFD as ' '; default-ignorable code points (soft hyphen,
  * zero-width spaces and joiners, variation selectors) removed.  Letter
  * case is kept. */
 int uni_prepare(uni_ctx *u, const char *s, size_t n, tm_buf *out);
@@ -60,6 +72,9 @@ enum uni_class {
 };
 
 enum uni_class uni_classify(int32_t cp);
+
+/* Class with case bits (UNI_UP, UNI_LOW), from u's table below U+0180. */
+int uni_class_case(uni_ctx *u, int32_t cp);
 int uni_is_upper(int32_t cp);
 int uni_is_lower(int32_t cp);
 

