@@ -39,6 +39,7 @@ void norm_free(normaliser *nm)
 	buf_free(&nm->title);
 	buf_free(&nm->key);
 	buf_free(&nm->ptext);
+	buf_free(&nm->again);
 	free(nm->rm);
 	free(nm->prot);
 	free(nm->tseg);
@@ -310,6 +311,12 @@ static int build(normaliser *nm)
 		tm_tok *x = &tl->t[t];
 		nm->tunit[t] = UINT32_MAX;
 		nm->tseg[t] = UINT32_MAX;
+		if (x->kind != TK_PUNCT && x->flen == 0) {
+			/* a lone mark or an ignorable: folds to nothing, is
+			 * no word (the renderer never shows it) */
+			nm->rm[t] = NF_SLOT;
+			continue;
+		}
 		if (x->kind == TK_PUNCT) {
 			if (x->flags & TF_OPEN) {
 				/* the text after the bracket goes on with the
@@ -434,10 +441,13 @@ static int render(normaliser *nm, norm_result *res)
 
 	buf_reset(ti);
 	buf_reset(ke);
+	nm->hidden = 0;
 	for (k = 0; k < nm->nunit; k++) {
 		const tm_tok *t = U(nm, k);
-		if (!show_unit(nm, k))
+		if (!show_unit(nm, k)) {
+			nm->hidden += ukept(nm, k);
 			continue;
+		}
 		if (prev != SIZE_MAX) {
 			/* glue: the weak punctuation written between two kept
 			 * units with no space and nothing removed between */
@@ -524,23 +534,9 @@ static int pieces(normaliser *nm, norm_result *res)
 	return 0;
 }
 
-int norm_title(normaliser *nm, const char *raw, size_t n, const char *lang,
-	       norm_result *res)
+/* One pass of the pipeline over well-formed text. */
+static int norm_once(normaliser *nm, const char *src, size_t n, norm_result *res)
 {
-	const char *src = raw;
-	int rep = 0;
-
-	memset(res, 0, sizeof *res);
-	nm->lang = lang && *lang ? lang : NULL;
-	if (dec_valid_prefix(raw, n) != n) {
-		buf_reset(&nm->dec);
-		rep = dec_repair(raw, n, &nm->dec);
-		if (rep < 0)
-			return -1;
-		src = nm->dec.data;
-		n = nm->dec.len;
-	}
-	res->repaired = rep;
 	if (prepare(nm, src, n) != 0)
 		return -1;
 	if (tok_split(&nm->tl, &nm->u, nm->work.data, nm->work.len) != 0)
@@ -558,8 +554,95 @@ int norm_title(normaliser *nm, const char *raw, size_t n, const char *lang,
 	    pass_phrases(nm) || pass_employer(nm) || pass_location(nm) ||
 	    pass_phrases(nm))
 		return -1;
-	if (render(nm, res) != 0 || pieces(nm, res) != 0)
+	return render(nm, res);
+}
+
+/* Did the pass join words that stood apart (removed pieces between
+ * them, or several segments)?  Then the clean title, read afresh, may
+ * hold a phrase the raw title did not. */
+static int joined(normaliser *nm)
+{
+	size_t with = 0, a, b;
+	if (nm->nspan || nm->hidden)
+		return 1;
+	for (size_t s = 0; s < nm->nseg; s++) {
+		seg_kept(nm, s, &a, &b);
+		with += a < b;
+	}
+	return with > 1;
+}
+
+/* Copies the pieces found so far out of the pass's buffers (offsets into
+ * ptext; pointers are set once all passes are done). */
+static int keep_pieces(normaliser *nm, size_t *npiece)
+{
+	for (size_t i = 0; i < nm->nspan; i++) {
+		const span *s = &nm->spans[i];
+		const tm_tok *a = &nm->tl.t[s->t0], *b = &nm->tl.t[s->t1];
+		size_t len = b->off + b->len - a->off, off = nm->ptext.len;
+		if (*npiece == nm->pcap) {
+			size_t cap = nm->pcap ? nm->pcap * 2 : 16;
+			nf_piece *p = realloc(nm->pieces, cap * sizeof *p);
+			if (!p)
+				return -1;
+			nm->pieces = p;
+			nm->pcap = cap;
+		}
+		if (buf_append(&nm->ptext, nm->work.data + a->off, len))
+			return -1;
+		nf_piece *p = &nm->pieces[(*npiece)++];
+		p->kind = s->kind;
+		p->value = s->value;
+		p->text = (const char *)(uintptr_t)off; /* fixed up below */
+		p->len = len;
+	}
+	return 0;
+}
+
+int norm_title(normaliser *nm, const char *raw, size_t n, const char *lang,
+	       norm_result *res)
+{
+	const char *src = raw;
+	size_t npiece = 0;
+	int rep = 0;
+
+	memset(res, 0, sizeof *res);
+	nm->lang = lang && *lang ? lang : NULL;
+	if (dec_valid_prefix(raw, n) != n) {
+		buf_reset(&nm->dec);
+		rep = dec_repair(raw, n, &nm->dec);
+		if (rep < 0)
+			return -1;
+		src = nm->dec.data;
+		n = nm->dec.len;
+	}
+	if (norm_once(nm, src, n, res) != 0)
 		return -1;
+	if (!joined(nm))
+		return pieces(nm, res) == 0 ? (res->repaired = rep, 0) : -1;
+	/* read the clean title again until nothing changes (norm is
+	 * idempotent by construction); the pieces of every pass are kept */
+	buf_reset(&nm->ptext);
+	for (int round = 0; round < 4; round++) {
+		if (keep_pieces(nm, &npiece) != 0)
+			return -1;
+		buf_reset(&nm->again);
+		if (buf_append(&nm->again, res->title, res->title_len) != 0)
+			return -1;
+		if (norm_once(nm, nm->again.data, nm->again.len, res) != 0)
+			return -1;
+		if (res->title_len == nm->again.len &&
+		    memcmp(res->title, nm->again.data, res->title_len) == 0 &&
+		    !nm->nspan)
+			break;
+	}
+	if (keep_pieces(nm, &npiece) != 0)
+		return -1;
+	for (size_t i = 0; i < npiece; i++)
+		nm->pieces[i].text = nm->ptext.data + (uintptr_t)nm->pieces[i].text;
+	res->piece = nm->pieces;
+	res->npiece = npiece;
+	res->repaired = rep;
 	return 0;
 }
 

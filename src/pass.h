@@ -31,9 +31,10 @@ struct normaliser {
 	const lexicon *lx;
 	uni_ctx u;
 	tok_line tl;
-	tm_buf dec, work, title, key, ptext;
+	tm_buf dec, work, title, key, ptext, again;
 	const char *lang;
 	int any_lang;     /* while set, ambiguous entries apply too */
+	size_t hidden;    /* kept units the renderer did not show */
 	/* per token */
 	uint8_t *rm;      /* enum nf_kind, RM_NONE when kept */
 	uint8_t *prot;

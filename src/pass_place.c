@@ -232,7 +232,8 @@ static int slots(normaliser *nm)
 				if (take(nm, k, e))
 					return -1;
 				k = e - 1;
-			}
+			} else
+				k += plen - 1; /* Roveredo in Piano: no "in Piano" inside */
 		}
 	}
 	return 0;

@@ -120,6 +120,11 @@ static int run(uni_ctx *u, const char *s, size_t n, tm_buf *out,
 	len = utf8proc_normalize_utf32(u->cp, len, opt);
 	if (len < 0)
 		return -1;
+	/* composition and compatibility mappings can make what the map
+	 * turns away (o + U+0338 is ø, U+0374 is U+02B9): map once more */
+	if (fn)
+		for (utf8proc_ssize_t i = 0; i < len; i++)
+			u->cp[i] = fn(u->cp[i], data);
 	/* reencode writes UTF-8 over the code point array: 4 bytes a code
 	 * point is always room enough. */
 	len = utf8proc_reencode(u->cp, len, opt);

@@ -586,7 +586,7 @@ def geo_forms(name):
     'Kloten / Spitz' (place / quarter) -> the place only; 'Biel/Bienne'
     (two languages) -> both and the pair; 'Halle (Saale)' -> 'Halle' and
     'Halle Saale' (how 'Halle/Saale' matches); 'Zürich (Kreis 7)' -> 'Zürich';
-    'Gjadër, Dajc' -> both parts.
+    'Gjadër, Dajc' -> both parts; 'Racines - Ratschings' -> both and the pair.
     """
     name = name.split(" / ")[0]
     out = []
@@ -604,6 +604,10 @@ def geo_forms(name):
             out.append(c)
             if "/" in c:
                 out.extend(tidy(p) for p in c.split("/"))
+            # 'Racines - Ratschings' (two languages): both names too,
+            # since a title's " - " parts the pair into two segments
+            if " - " in c:
+                out.extend(tidy(p) for p in c.split(" - "))
     return [f for f in out if keep_name(f)]
 
 
