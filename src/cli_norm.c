@@ -18,6 +18,7 @@ typedef struct norm_opts {
 	enum out_mode mode;
 	char lang[4];
 	int strict;
+	long memo_mib;
 	setup_opts setup;
 } norm_opts;
 
@@ -41,6 +42,8 @@ static const char norm_usage[] =
 	"                   lexicons/README.md.  TITLEMILL_LEXICONS=DIR[:DIR]\n"
 	"                   does the same; TITLEMILL_LEXDIR replaces the bundled folder\n"
 	"  --strict         stop with status 1 at the first line that needs repair\n"
+	"  --memo MIB       remember the results of recent distinct titles in MIB\n"
+	"                   mebibytes (default 16; 0: clean every line afresh)\n"
 	"  -h, --help       show this help\n";
 
 int cli_lang(const char *tag, char out[4])
@@ -369,6 +372,7 @@ int cmd_norm(int argc, char **argv)
 		{"labels", required_argument, NULL, 'L'},
 		{"lexicons", required_argument, NULL, 'x'},
 		{"strict", no_argument, NULL, 's'},
+		{"memo", required_argument, NULL, 'm'},
 		{"help", no_argument, NULL, 'h'},
 		{NULL, 0, NULL, 0},
 	};
@@ -381,6 +385,7 @@ int cmd_norm(int argc, char **argv)
 
 	memset(&o, 0, sizeof o);
 	memset(&rl, 0, sizeof rl);
+	o.memo_mib = 16;
 	optind = 1;
 	while ((c = getopt_long(argc, argv, "h", longopts, NULL)) != -1) {
 		switch (c) {
@@ -403,6 +408,17 @@ int cmd_norm(int argc, char **argv)
 			o.setup.extra[o.setup.nextra++] = optarg;
 			break;
 		case 's': o.strict = 1; break;
+		case 'm': {
+			char *end;
+			errno = 0;
+			o.memo_mib = strtol(optarg, &end, 10);
+			if (errno || end == optarg || *end || o.memo_mib < 0 || o.memo_mib > 4096) {
+				fprintf(stderr, "titlemill norm: --memo: want a whole number of MiB from 0 to 4096, not '%s'\n",
+					optarg);
+				return EXIT_USAGE;
+			}
+			break;
+		}
 		case 'h': fputs(norm_usage, stdout); return EXIT_OK;
 		default: fputs(norm_usage, stderr); return EXIT_USAGE;
 		}
@@ -418,6 +434,12 @@ int cmd_norm(int argc, char **argv)
 	}
 	if (!(nm = norm_new(lx))) {
 		fputs("titlemill norm: out of memory\n", stderr);
+		lex_free(lx);
+		return EXIT_RUNTIME;
+	}
+	if (norm_memo(nm, (size_t)o.memo_mib << 20) != 0) {
+		fputs("titlemill norm: out of memory for --memo\n", stderr);
+		norm_free(nm);
 		lex_free(lx);
 		return EXIT_RUNTIME;
 	}

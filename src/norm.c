@@ -50,6 +50,8 @@ void norm_free(normaliser *nm)
 	free(nm->pieces);
 	free(nm->mc);
 	free(nm->moff);
+	free(nm->ring);
+	free(nm->slot);
 	free(nm);
 }
 
@@ -345,10 +347,13 @@ static int build(normaliser *nm)
 			g->bracket = (uint8_t)inbr;
 			/* 0 marks the head: the first segment outside
 			 * brackets and what resumes it after a bracket */
+			g->resumed = 0;
 			if (inbr)
 				g->index = 1;
-			else if (!head_seen || resume == 0)
+			else if (!head_seen || resume == 0) {
 				g->index = 0;
+				g->resumed = head_seen;
+			}
 			else
 				g->index = (uint8_t)(nm->nseg > 255 ? 255 : nm->nseg);
 			if (!inbr)
@@ -599,8 +604,8 @@ static int keep_pieces(normaliser *nm, size_t *npiece)
 	return 0;
 }
 
-int norm_title(normaliser *nm, const char *raw, size_t n, const char *lang,
-	       norm_result *res)
+static int compute(normaliser *nm, const char *raw, size_t n, const char *lang,
+		   norm_result *res)
 {
 	const char *src = raw;
 	size_t npiece = 0;
@@ -667,4 +672,178 @@ int norm_key_only(normaliser *nm, const char *raw, size_t n,
 	    build(nm) != 0)
 		return -1;
 	return render(nm, res);
+}
+
+/* ---- the memory of recent titles ---- */
+
+int norm_memo(normaliser *nm, size_t bytes)
+{
+	free(nm->ring);
+	free(nm->slot);
+	nm->ring = NULL;
+	nm->slot = NULL;
+	nm->ring_cap = nm->ring_pos = 0;
+	nm->ring_total = 0;
+	nm->nslot = 0;
+	if (bytes < 4096)
+		return 0;
+	size_t slots = 1024;
+	while (slots * 256 < bytes)
+		slots *= 2;
+	nm->ring = malloc(bytes);
+	nm->slot = calloc(slots, sizeof *nm->slot);
+	if (!nm->ring || !nm->slot) {
+		free(nm->ring);
+		free(nm->slot);
+		nm->ring = NULL;
+		nm->slot = NULL;
+		return -1;
+	}
+	nm->ring_cap = bytes;
+	nm->nslot = slots;
+	return 0;
+}
+
+void norm_memo_stats(const normaliser *nm, size_t *hits, size_t *calls)
+{
+	*hits = nm->hits;
+	*calls = nm->calls;
+}
+
+/* A record: header, raw, lang, title, key, then the pieces. */
+typedef struct memo_head {
+	uint32_t raw, title, key, npiece;
+	int32_t repaired;
+	char lang[4];
+} memo_head;
+
+typedef struct memo_piece {
+	const char *value;
+	uint32_t len;
+	uint8_t kind;
+} memo_piece;
+
+static uint64_t memo_hash(const char *s, size_t n, const char *lang)
+{
+	uint64_t h = tok_hash(s, n);
+	if (lang)
+		h = tok_hash_mix(h, tok_hash(lang, strlen(lang)));
+	return h | 1;
+}
+
+static int memo_get(normaliser *nm, uint64_t h, const char *raw, size_t n,
+		    const char *lang, norm_result *res)
+{
+	struct memo_slot *sl = &nm->slot[h & (nm->nslot - 1)];
+	const char *p;
+	memo_head hd;
+
+	/* intact while nothing was written over its first byte */
+	if (sl->h != h || nm->ring_total > sl->at + nm->ring_cap)
+		return 0;
+	p = nm->ring + (sl->at % nm->ring_cap);
+	memcpy(&hd, p, sizeof hd);
+	if (hd.raw != n || memcmp(p + sizeof hd, raw, n) ||
+	    strncmp(hd.lang, lang ? lang : "", 4))
+		return 0;
+	p += sizeof hd + n;
+	res->title = p;
+	res->title_len = hd.title;
+	p += hd.title;
+	res->key = p;
+	res->key_len = hd.key;
+	p += hd.key;
+	if (hd.npiece > nm->pcap) {
+		nf_piece *q = realloc(nm->pieces, hd.npiece * sizeof *q);
+		if (!q)
+			return 0;
+		nm->pieces = q;
+		nm->pcap = hd.npiece;
+	}
+	for (uint32_t i = 0; i < hd.npiece; i++) {
+		memo_piece mp;
+		memcpy(&mp, p, sizeof mp);
+		p += sizeof mp;
+		nm->pieces[i].kind = mp.kind;
+		nm->pieces[i].value = mp.value;
+		nm->pieces[i].text = p;
+		nm->pieces[i].len = mp.len;
+		p += mp.len;
+	}
+	res->piece = nm->pieces;
+	res->npiece = hd.npiece;
+	res->repaired = hd.repaired;
+	return 1;
+}
+
+static void memo_put(normaliser *nm, uint64_t h, const char *raw, size_t n,
+		     const char *lang, const norm_result *res)
+{
+	size_t need = sizeof(memo_head) + n + res->title_len + res->key_len;
+	memo_head hd;
+	char *p;
+
+	for (size_t i = 0; i < res->npiece; i++)
+		need += sizeof(memo_piece) + res->piece[i].len;
+	if (need > nm->ring_cap / 16)
+		return; /* a giant line is not worth keeping */
+	if (nm->ring_pos + need > nm->ring_cap) {
+		nm->ring_total += nm->ring_cap - nm->ring_pos;
+		nm->ring_pos = 0;
+	}
+	p = nm->ring + nm->ring_pos;
+	memset(&hd, 0, sizeof hd);
+	hd.raw = (uint32_t)n;
+	hd.title = (uint32_t)res->title_len;
+	hd.key = (uint32_t)res->key_len;
+	hd.npiece = (uint32_t)res->npiece;
+	hd.repaired = res->repaired;
+	if (lang)
+		memcpy(hd.lang, lang, strnlen(lang, sizeof hd.lang));
+	memcpy(p, &hd, sizeof hd);
+	p += sizeof hd;
+	memcpy(p, raw, n);
+	p += n;
+	memcpy(p, res->title, res->title_len);
+	p += res->title_len;
+	memcpy(p, res->key, res->key_len);
+	p += res->key_len;
+	for (size_t i = 0; i < res->npiece; i++) {
+		memo_piece mp;
+		memset(&mp, 0, sizeof mp);
+		mp.value = res->piece[i].value;
+		mp.len = (uint32_t)res->piece[i].len;
+		mp.kind = res->piece[i].kind;
+		memcpy(p, &mp, sizeof mp);
+		p += sizeof mp;
+		memcpy(p, res->piece[i].text, res->piece[i].len);
+		p += res->piece[i].len;
+	}
+	struct memo_slot *sl = &nm->slot[h & (nm->nslot - 1)];
+	sl->h = h;
+	sl->at = nm->ring_total;
+	sl->len = (uint32_t)need;
+	nm->ring_pos += need;
+	nm->ring_total += need;
+}
+
+int norm_title(normaliser *nm, const char *raw, size_t n, const char *lang,
+	       norm_result *res)
+{
+	uint64_t h;
+
+	nm->calls++;
+	if (!nm->ring || n > UINT32_MAX / 2)
+		return compute(nm, raw, n, lang, res);
+	if (lang && !*lang)
+		lang = NULL;
+	h = memo_hash(raw, n, lang);
+	if (memo_get(nm, h, raw, n, lang, res)) {
+		nm->hits++;
+		return 0;
+	}
+	if (compute(nm, raw, n, lang, res) != 0)
+		return -1;
+	memo_put(nm, h, raw, n, lang, res);
+	return 0;
 }

@@ -51,6 +51,15 @@ void norm_free(normaliser *nm);
 int norm_title(normaliser *nm, const char *raw, size_t n, const char *lang,
 	       norm_result *res);
 
+/* Remembers the results of up to `bytes` of recent distinct titles
+ * (raw bytes, title, key, facets) so a title seen again is not cleaned
+ * again: job-posting streams repeat titles heavily.  0 switches the
+ * memory off (the default).  Returns 0 or -1 (memory; nothing changed). */
+int norm_memo(normaliser *nm, size_t bytes);
+
+/* Titles answered from the memory, and all titles, so far. */
+void norm_memo_stats(const normaliser *nm, size_t *hits, size_t *calls);
+
 /* Match key of an already clean text (labels, titles from a counts
  * table): the fold of its words, nothing removed. */
 int norm_key_only(normaliser *nm, const char *s, size_t n, norm_result *res);

@@ -18,7 +18,8 @@
 typedef struct seg {
 	uint32_t u0, u1;  /* units [u0, u1) */
 	uint8_t bracket;  /* inside brackets */
-	uint8_t index;    /* order among segments, saturating at 255 */
+	uint8_t index;    /* order among segments, saturating at 255; 0: the head */
+	uint8_t resumed;  /* the head going on after a bracket: "Koch (m/w/d) Köln" */
 } seg;
 
 typedef struct span {
@@ -53,6 +54,12 @@ struct normaliser {
 	struct mcache { uint32_t first; uint16_t cats; uint8_t units; } *mc;
 	size_t nmc, mccap;
 	uint32_t *moff;
+	/* the memory of recent titles: a ring of records, a table of slots */
+	char *ring;
+	size_t ring_cap, ring_pos;
+	uint64_t ring_total;  /* bytes ever written, for validity */
+	struct memo_slot { uint64_t h, at; uint32_t len; } *slot;
+	size_t nslot, hits, calls;
 	nf_piece *pieces;
 	size_t pcap;
 };

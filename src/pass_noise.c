@@ -443,10 +443,12 @@ int pass_schedule(normaliser *nm)
 				const seg *g = &nm->segs[useg(nm, k)];
 				int hv = atoi(nm->work.data + U(nm, k)->off);
 				e = j + len;
-				/* 35h glued is hours wherever it stands (not
-				 * 24h, a kind of care); spaced only in a slot */
+				/* 35h, 32 uur, 38 Stunden are weekly hours
+				 * wherever they stand (not 24h, a kind of care);
+				 * a spaced "h" only in a slot */
 				if (!g->bracket && g->index == 0 &&
-				    !(glued(nm, j - 1, j, "") && hv >= 5 && hv <= 48 && hv != 24))
+				    !((glued(nm, j - 1, j, "") || U(nm, j)->flen >= 3) &&
+				      hv >= 5 && hv <= 48 && hv != 24))
 					continue;
 			}
 		} else
@@ -563,6 +565,15 @@ static int peel_segment(normaliser *nm, size_t s, int *changed)
 	seg_kept(nm, s, &k0, &k1);
 	if (k0 < k1 && date_at_edge(nm, k1 - 1))
 		*changed = 1;
+	/* a contact word alone in its segment: "Contact: jobs@..." */
+	seg_kept(nm, s, &k0, &k1);
+	if (k0 + 1 == k1 && !nm->prot[nm->unit[k0]] &&
+	    match_val(nm, k0, LC_UNIT, "contact", 1, &len) && len == 1 &&
+	    nm->tl.n > nm->unit[k0] + 1) {
+		if (remove_units(nm, k0, k1, NF_MARKETING, NULL))
+			return -1;
+		*changed = 1;
+	}
 	/* hanging words at the two edges */
 	seg_kept(nm, s, &k0, &k1);
 	if (k0 < k1 && !nm->prot[nm->unit[k1 - 1]] && dangling(nm, k1 - 1) &&

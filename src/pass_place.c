@@ -250,7 +250,7 @@ static int whole_segments(normaliser *nm)
 		const char *cc = NULL, *c;
 		int strong;
 
-		if (!g->bracket && g->index == 0)
+		if (!g->bracket && g->index == 0 && !g->resumed)
 			continue;
 		seg_kept(nm, s, &k0, &k1);
 		if (k0 >= k1)
@@ -272,6 +272,10 @@ static int whole_segments(normaliser *nm)
 				if (!cc)
 					cc = c;
 				k += len;
+				/* Hamburg-Harburg: a district glued to its city */
+				if (!strong && k < k1 && glued(nm, k - 1, k, "-") &&
+				    cap_word(nm, k) && U(nm, k)->kind == TK_WORD)
+					k++;
 			} else if (loc_word(nm, k, "country-code", &len)) {
 				any = weak = 1;
 				k += len;
@@ -294,6 +298,9 @@ static int whole_segments(normaliser *nm)
 				continue;
 			}
 			if (place_at(nm, k, &len, &strong, &c)) {
+				if (!strong && k + len < k1 && glued(nm, k + len - 1, k + len, "-") &&
+				    cap_word(nm, k + len) && U(nm, k + len)->kind == TK_WORD)
+					len++;
 				if (remove_place(nm, k, len, c))
 					return -1;
 			} else if (loc_word(nm, k, "country-code", &len)) {

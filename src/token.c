@@ -116,6 +116,39 @@ static size_t scan_word(uni_ctx *u, const char *s, size_t n, size_t i,
 	*capsuf = 0;
 	int cc, prevlow = 0;
 	for (;;) {
+		/* ASCII letters and digits without the general lookup */
+		unsigned char b = i < n ? (unsigned char)s[i] : 0;
+		if (b && b < 0x80) {
+			if (b >= 'a' && b <= 'z') {
+				letters++;
+				lower_seen = 1;
+				prevlow = 1;
+				prev = b;
+				i++;
+				continue;
+			}
+			if (b >= 'A' && b <= 'Z') {
+				letters++;
+				upper++;
+				if (i == start)
+					*flags |= TF_CAP;
+				if (b == 'I' && prev >= 0 && lower_seen && prevlow &&
+				    i - start >= 3)
+					*capsuf = i;
+				prevlow = 0;
+				prev = b;
+				i++;
+				continue;
+			}
+			if (b >= '0' && b <= '9') {
+				*flags |= TF_DIGIT;
+				prevlow = 0;
+				prev = b;
+				i++;
+				continue;
+			}
+			break;
+		}
 		enum uni_class c = peekc(u, s, n, i, &cp, &cc);
 		if (!is_alnum_class(c))
 			break;
@@ -166,6 +199,11 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 		size_t start = i;
 		tm_tok *t;
 
+		if (s[i] == ' ') {
+			i++;
+			sp = 1;
+			continue;
+		}
 		if (c == UNI_SPACE || c == UNI_OTHER) {
 			i += cp < 0x80 ? 1 : cp_len(s, n, i);
 			sp = 1;
@@ -275,13 +313,23 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 			if (uni_fold(u, p, t->len, &tl->fold) != 0)
 				return -1;
 		} else {
+			/* ASCII: lowercase and hash in one go */
+			uint64_t h = 0xCBF29CE484222325ULL;
+			char *d;
 			if (buf_reserve(&tl->fold, t->len) != 0)
 				return -1;
+			d = tl->fold.data + tl->fold.len;
 			for (size_t j = 0; j < t->len; j++) {
-				char ch = p[j];
-				tl->fold.data[tl->fold.len++] =
-					(char)(ch >= 'A' && ch <= 'Z' ? ch + 32 : ch);
+				unsigned char ch = (unsigned char)p[j];
+				ch = (unsigned char)(ch >= 'A' && ch <= 'Z' ? ch + 32 : ch);
+				d[j] = (char)ch;
+				h ^= ch;
+				h *= 0x100000001B3ULL;
 			}
+			tl->fold.len += t->len;
+			t->flen = t->len;
+			t->hash = h ^ (h >> 29);
+			continue;
 		}
 		t->flen = (uint32_t)(tl->fold.len - t->foff);
 		t->hash = tok_hash(tl->fold.data + t->foff, t->flen);

@@ -237,6 +237,17 @@ static int fast_map(uni_ctx *u, const char *s, size_t n, tm_buf *out, int fold)
 	if (buf_reserve(out, n * 2 + 8) != 0)
 		return -1;
 	while (i < n) {
+		unsigned char b = (unsigned char)s[i];
+		if (b < 0x80) {
+			/* ASCII: the tables hold the same as the ASCII path */
+			if (out->cap - out->len < 4 && buf_reserve(out, 4) != 0)
+				return -1;
+			out->data[out->len++] = (char)(b < 0x20 || b == 0x7F ? ' '
+						  : b == '`' ? '\''
+						  : fold && b >= 'A' && b <= 'Z' ? b + 32 : b);
+			i++;
+			continue;
+		}
 		size_t j = i;
 		int32_t cp = uni_next(s, n, &j);
 		int x = fast_index(cp);

@@ -63,4 +63,10 @@ check pipe-quiet "" "$(cat "$tmp/err")"
 printf 'occupation\tkind\tlang\tlabel\nocc:1\tpref\ten\tsenior care assistant\n' > "$tmp/labels.tsv"
 got=$(printf 'Senior Care Assistant (m/w/d)\n' | $T norm --labels "$tmp/labels.tsv"); check labels "senior care assistant" "$got"
 got=$(printf 'Senior Care Assistant (m/w/d)\n' | $T norm); check no-labels "care assistant" "$got"
+# the memory of recent titles changes nothing: same bytes with it off
+cut -f2 "$(dirname "$0")/../cases/norm.tsv" | tail -n +2 > "$tmp/raw"
+cat "$tmp/raw" "$tmp/raw" > "$tmp/raw2"
+$T norm --json "$tmp/raw2" > "$tmp/m1"; $T norm --json --memo 0 "$tmp/raw2" > "$tmp/m0"
+cmp -s "$tmp/m1" "$tmp/m0"; check memo-same 0 $?
+$T norm --memo x < /dev/null > /dev/null 2>&1; check memo-bad 2 $?
 finish
