@@ -507,17 +507,22 @@ static int render(normaliser *nm, norm_result *res)
 	return 0;
 }
 
-static int pieces(normaliser *nm, norm_result *res)
+/* Spans in title order (insertion sort: a handful per line). */
+static void sort_spans(normaliser *nm)
 {
-	size_t i, j;
-
-	/* spans in title order (insertion sort: a handful per line) */
-	for (i = 1; i < nm->nspan; i++) {
+	for (size_t i = 1, j; i < nm->nspan; i++) {
 		span s = nm->spans[i];
 		for (j = i; j > 0 && nm->spans[j - 1].t0 > s.t0; j--)
 			nm->spans[j] = nm->spans[j - 1];
 		nm->spans[j] = s;
 	}
+}
+
+static int pieces(normaliser *nm, norm_result *res)
+{
+	size_t i;
+
+	sort_spans(nm);
 	if (nm->nspan > nm->pcap) {
 		nf_piece *p = realloc(nm->pieces, nm->nspan * sizeof *p);
 		if (!p)
@@ -581,6 +586,7 @@ static int joined(normaliser *nm)
  * ptext; pointers are set once all passes are done). */
 static int keep_pieces(normaliser *nm, size_t *npiece)
 {
+	sort_spans(nm);
 	for (size_t i = 0; i < nm->nspan; i++) {
 		const span *s = &nm->spans[i];
 		const tm_tok *a = &nm->tl.t[s->t0], *b = &nm->tl.t[s->t1];
