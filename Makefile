@@ -74,6 +74,25 @@ titlemill-asan-bin: $(CORE_OBJ) $(CLI_OBJ) unit
 	TITLEMILL=$(CURDIR)/$(BUILD)/titlemill TITLEMILL_LEXDIR=$(CURDIR)/lexicons \
 		sh tests/run-suites.sh
 
+# libFuzzer targets (clang): FUZZ_SECONDS each, corpus in build-fuzz/.
+FUZZ_SECONDS ?= 60
+FUZZ_TARGETS = fuzz_norm
+FUZZ_CC ?= clang
+FUZZ_FLAGS = -g -O1 -fsanitize=fuzzer,address,undefined -fno-sanitize-recover=all
+fuzz-build:
+	mkdir -p build-fuzz
+	@set -e; for t in $(FUZZ_TARGETS); do \
+		$(FUZZ_CC) -std=c11 -D_POSIX_C_SOURCE=200809L $(FUZZ_FLAGS) $(PC_CFLAGS) -Isrc \
+			-DTM_LEXDIR='"$(DATADIR)/lexicons"' -o build-fuzz/$$t tests/fuzz/$$t.c \
+			$(CORE:%=src/%.c) $(PC_LIBS); done
+fuzz: fuzz-build
+	@set -e; for t in $(FUZZ_TARGETS); do \
+		mkdir -p build-fuzz/corpus-$$t; \
+		sh tests/fuzz/seeds.sh $$t build-fuzz/corpus-$$t; \
+		TITLEMILL_LEXDIR=$(CURDIR)/lexicons build-fuzz/$$t -max_total_time=$(FUZZ_SECONDS) \
+			-max_len=512 -print_final_stats=1 build-fuzz/corpus-$$t tests/fuzz/seeds-$$t \
+			2>&1 | tail -12; done
+
 bench: titlemill
 	sh tests/bench/run.sh $(CURDIR)/titlemill
 
@@ -92,8 +111,8 @@ uninstall:
 	rm -rf $(DESTDIR)$(DATADIR)
 
 clean:
-	rm -rf build build-asan titlemill
+	rm -rf build build-asan build-fuzz titlemill
 
 .SECONDARY:
 
-.PHONY: all unit test asan titlemill-asan-bin bench demo install uninstall clean
+.PHONY: fuzz fuzz-build all unit test asan titlemill-asan-bin bench demo install uninstall clean

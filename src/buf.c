@@ -12,8 +12,8 @@ int buf_reserve(tm_buf *b, size_t extra)
 	if (extra > SIZE_MAX - b->len)
 		return -1;
 	need = b->len + extra;
-	if (need <= b->cap)
-		return 0;
+	if (need <= b->cap && b->data)
+		return 0; /* (an empty buffer still gets storage: no NULL + 0) */
 	cap = b->cap ? b->cap : 64;
 	while (cap < need)
 		cap = cap > SIZE_MAX / 2 ? need : cap * 2;

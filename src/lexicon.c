@@ -2,6 +2,7 @@
 #include "lexicon.h"
 
 #include <dirent.h>
+#include <sys/stat.h>
 #include <errno.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -90,11 +91,13 @@ lexicon *lex_new(void)
 	lexicon *lx = calloc(1, sizeof *lx);
 	if (!lx)
 		return NULL;
-	lx->phcap = 1024;
-	lx->ftcap = 1024;
+	/* sized for the bundled lexicons (about 90,000 phrases at a load of
+	 * at most 3/4), so loading them never rehashes */
+	lx->phcap = 1 << 17;
+	lx->ftcap = 1 << 17;
 	lx->ph = calloc(lx->phcap, sizeof *lx->ph);
 	lx->ft = calloc(lx->ftcap, sizeof *lx->ft);
-	lx->entcap = 1024;
+	lx->entcap = 1 << 17;
 	lx->ent = calloc(lx->entcap, sizeof *lx->ent);
 	lx->nent = 1;
 	if (!lx->ph || !lx->ft || !lx->ent || buf_putc(&lx->strs, 0) != 0) {
@@ -216,7 +219,7 @@ static int note_first(lexicon *lx, uint64_t th, size_t ntok)
 {
 	size_t j;
 
-	if ((lx->nft + 1) * 2 > lx->ftcap && rehash_ft(lx) != 0)
+	if ((lx->nft + 1) * 4 > lx->ftcap * 3 && rehash_ft(lx) != 0)
 		return -1;
 	j = th & (lx->ftcap - 1);
 	while (lx->ft[j].maxlen) {
@@ -339,6 +342,20 @@ static int fold_units(lexicon *lx, const char *s, size_t n,
 	buf_reset(&lx->work);
 	if (uni_fold(&lx->u, s, n, &lx->work) != 0)
 		return -1;
+	/* one word of ASCII letters, most place names: one token, as the
+	 * tokeniser would make it */
+	{
+		const char *w = lx->work.data;
+		size_t wl = lx->work.len, i;
+		for (i = 0; i < wl && w[i] >= 'a' && w[i] <= 'z'; i++)
+			;
+		if (wl && i == wl && max >= 1) {
+			fold[0] = w;
+			flen[0] = (uint32_t)wl;
+			th[0] = tok_hash(w, wl);
+			return 1;
+		}
+	}
 	if (tok_split_folded(&lx->tl, &lx->u, lx->work.data, lx->work.len) != 0)
 		return -1;
 	for (k = 0; k < lx->tl.n; k++) {
@@ -461,7 +478,7 @@ int lex_add(lexicon *lx, int cat, const char *lang, const char *ph,
 		}
 		j = (j + 1) & (lx->phcap - 1);
 	}
-	if ((lx->nph + 1) * 2 > lx->phcap) {
+	if ((lx->nph + 1) * 4 > lx->phcap * 3) {
 		if (rehash_ph(lx) != 0)
 			return err_printf(err, "out of memory%s%s", "", "");
 		j = seq & (lx->phcap - 1);
@@ -574,10 +591,10 @@ int lex_load_file(lexicon *lx, int cat, int gk, const char *path, tm_buf *err)
 {
 	FILE *fp = fopen(path, "rb");
 	tm_buf text = {0};
-	char chunk[65536];
 	size_t got, pos = 0;
 	long line = 0;
 	int rc = 0;
+	struct stat st;
 
 	if (!fp) {
 		buf_reset(err);
@@ -586,12 +603,22 @@ int lex_load_file(lexicon *lx, int cat, int gk, const char *path, tm_buf *err)
 		buf_puts(err, strerror(errno));
 		return -1;
 	}
-	while ((got = fread(chunk, 1, sizeof chunk, fp)) > 0)
-		if (buf_append(&text, chunk, got) != 0) {
+	if (fstat(fileno(fp), &st) == 0 && st.st_size > 0 &&
+	    buf_reserve(&text, (size_t)st.st_size + 1) != 0) {
+		fclose(fp);
+		return err_printf(err, "%s: out of memory%s", path, "");
+	}
+	for (;;) {
+		if (text.cap - text.len < 65536 && buf_reserve(&text, 65536) != 0) {
 			fclose(fp);
 			buf_free(&text);
 			return err_printf(err, "%s: out of memory%s", path, "");
 		}
+		got = fread(text.data + text.len, 1, text.cap - text.len, fp);
+		if (got == 0)
+			break;
+		text.len += got;
+	}
 	if (ferror(fp)) {
 		fclose(fp);
 		buf_free(&text);
@@ -614,11 +641,11 @@ int lex_load_file(lexicon *lx, int cat, int gk, const char *path, tm_buf *err)
 		if (len == 0 || s[0] == '#')
 			continue;
 		f[nf++] = s;
-		for (char *q = s; *q && nf < 5; q++)
-			if (*q == '\t') {
-				*q = 0;
-				f[nf++] = q + 1;
-			}
+		for (char *q = memchr(s, '\t', len); q && nf < 5;
+		     q = memchr(q + 1, '\t', (size_t)(s + len - q - 1))) {
+			*q = 0;
+			f[nf++] = q + 1;
+		}
 		if (nf > 4 || nf < 2 || (gk == GK_PAIRS && nf != 3)) {
 			buf_reset(err);
 			buf_puts(err, gk == GK_PAIRS

@@ -575,6 +575,16 @@ static int joined(normaliser *nm)
 	size_t with = 0, a, b;
 	if (nm->nspan || nm->hidden)
 		return 1;
+	/* punctuation the title does not show (a strong one, or one with
+	 * a space beside it) may have kept apart what the title now joins */
+	for (size_t t = 0; t < nm->tl.n; t++) {
+		const tm_tok *x = &nm->tl.t[t];
+		if (x->kind != TK_PUNCT)
+			continue;
+		if ((x->flags & TF_STRONG) || x->sp || t == 0 || t + 1 == nm->tl.n ||
+		    nm->tl.t[t + 1].sp)
+			return 1;
+	}
 	for (size_t s = 0; s < nm->nseg; s++) {
 		seg_kept(nm, s, &a, &b);
 		with += a < b;
@@ -643,7 +653,8 @@ static int compute(normaliser *nm, const char *raw, size_t n, const char *lang,
 		if (norm_once(nm, nm->again.data, nm->again.len, res) != 0)
 			return -1;
 		if (res->title_len == nm->again.len &&
-		    memcmp(res->title, nm->again.data, res->title_len) == 0 &&
+		    (res->title_len == 0 ||
+		     memcmp(res->title, nm->again.data, res->title_len) == 0) &&
 		    !nm->nspan)
 			break;
 	}

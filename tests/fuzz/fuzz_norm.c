@@ -1,0 +1,65 @@
+/* libFuzzer target: the title normaliser on arbitrary bytes.
+ *
+ * Checks what holds for every input: the clean title and the key are
+ * valid UTF-8 without newlines, and norm is idempotent (the clean title
+ * is its own clean title).  The bundled lexicons are loaded once, from
+ * TITLEMILL_LEXDIR or the folder beside the binary's build tree. */
+#include <stdint.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "decode.h"
+#include "norm.h"
+#include "setup.h"
+
+static lexicon *LX;
+static normaliser *NM, *NM2;
+
+int LLVMFuzzerInitialize(int *argc, char ***argv);
+int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
+
+int LLVMFuzzerInitialize(int *argc, char ***argv)
+{
+	setup_opts o;
+	tm_buf err = {0};
+	(void)argc;
+	(void)argv;
+	memset(&o, 0, sizeof o);
+	o.base = getenv("TITLEMILL_LEXDIR");
+	LX = setup_lexicon(&o, &err);
+	if (!LX) {
+		fprintf(stderr, "fuzz_norm: %.*s\n", (int)err.len, err.data);
+		abort();
+	}
+	NM = norm_new(LX);
+	NM2 = norm_new(LX);
+	buf_free(&err);
+	return 0;
+}
+
+int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
+{
+	norm_result r, r2;
+	char *title;
+	const char *lang = size && (data[0] & 1) ? "de" : NULL;
+
+	if (size > 4096)
+		return 0;
+	if (norm_title(NM, (const char *)data, size, lang, &r) != 0)
+		abort();
+	if (!dec_is_utf8(r.title, r.title_len) || memchr(r.title, '\n', r.title_len) ||
+	    !dec_is_utf8(r.key, r.key_len) || memchr(r.key, '\n', r.key_len))
+		abort();
+	title = malloc(r.title_len + 1);
+	memcpy(title, r.title, r.title_len);
+	if (norm_title(NM2, title, r.title_len, lang, &r2) != 0)
+		abort();
+	if (r2.title_len != r.title_len || memcmp(r2.title, title, r.title_len)) {
+		fprintf(stderr, "not idempotent: \"%.*s\" -> \"%.*s\"\n", (int)r.title_len,
+			title, (int)r2.title_len, r2.title);
+		abort();
+	}
+	free(title);
+	return 0;
+}
