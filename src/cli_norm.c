@@ -17,7 +17,7 @@ enum out_mode { OUT_TITLE, OUT_KEY, OUT_JSON, OUT_FACETS };
 typedef struct norm_opts {
 	enum out_mode mode;
 	char lang[4];
-	int strict;
+	int strict, stats;
 	long memo_mib;
 	setup_opts setup;
 } norm_opts;
@@ -44,6 +44,7 @@ static const char norm_usage[] =
 	"  --strict         stop with status 1 at the first line that needs repair\n"
 	"  --memo MIB       remember the results of recent distinct titles in MIB\n"
 	"                   mebibytes (default 16; 0: clean every line afresh)\n"
+	"  --stats          say on standard error how many titles came from memory\n"
 	"  -h, --help       show this help\n";
 
 int cli_lang(const char *tag, char out[4])
@@ -373,6 +374,7 @@ int cmd_norm(int argc, char **argv)
 		{"lexicons", required_argument, NULL, 'x'},
 		{"strict", no_argument, NULL, 's'},
 		{"memo", required_argument, NULL, 'm'},
+		{"stats", no_argument, NULL, 'S'},
 		{"help", no_argument, NULL, 'h'},
 		{NULL, 0, NULL, 0},
 	};
@@ -408,6 +410,7 @@ int cmd_norm(int argc, char **argv)
 			o.setup.extra[o.setup.nextra++] = optarg;
 			break;
 		case 's': o.strict = 1; break;
+		case 'S': o.stats = 1; break;
 		case 'm': {
 			char *end;
 			errno = 0;
@@ -452,6 +455,12 @@ int cmd_norm(int argc, char **argv)
 		rc = EXIT_RUNTIME;
 	}
 	summary(&rl);
+	if (o.stats) {
+		size_t hits, calls;
+		norm_memo_stats(nm, &hits, &calls);
+		fprintf(stderr, "titlemill norm: %zu titles, %zu answered from memory (%.1f %%)\n",
+			calls, hits, calls ? 100.0 * (double)hits / (double)calls : 0.0);
+	}
 	norm_free(nm);
 	lex_free(lx);
 	buf_free(&err);

@@ -13,6 +13,10 @@
 #include "unicode.h"
 
 #define VALSLOTS 4096
+/* Bit filters over sequence hashes (2^20 bits each, 128 KiB: they stay
+ * in cache where the tables do not): every prefix of a phrase, and every
+ * whole phrase.  A clear bit proves absence. */
+#define FBITS 20
 
 typedef struct phrase {
 	uint64_t h;
@@ -43,7 +47,25 @@ struct lexicon {
 	uni_ctx u;
 	tok_line tl;
 	tm_buf work;
+	uint64_t pre[(1u << FBITS) / 64], full[(1u << FBITS) / 64];
 };
+
+static inline size_t fbit(uint64_t h)
+{
+	return (size_t)((h * 0x9E3779B97F4A7C15ULL) >> (64 - FBITS));
+}
+
+int lex_maybe_prefix(const lexicon *lx, uint64_t seq)
+{
+	size_t b = fbit(seq);
+	return (lx->pre[b >> 6] >> (b & 63)) & 1;
+}
+
+int lex_maybe_phrase(const lexicon *lx, uint64_t seq)
+{
+	size_t b = fbit(seq);
+	return (lx->full[b >> 6] >> (b & 63)) & 1;
+}
 
 static const char *const cat_names[LC_NCAT] = {
 	"gender", "seniority", "schedule", "pay", "reference", "marketing",
@@ -412,9 +434,16 @@ int lex_add(lexicon *lx, int cat, const char *lang, const char *ph,
 		return 1;
 	if (nu > MAXTOK)
 		return err_printf(err, "phrase longer than 12 tokens%s%s", "", "");
-	for (k = 0; k < nu; k++)
+	for (k = 0; k < nu; k++) {
 		seq = lex_seq_step(seq, th[k]);
+		size_t b = fbit(lex_seq_final(seq, (size_t)k + 1));
+		lx->pre[b >> 6] |= 1ULL << (b & 63);
+	}
 	seq = lex_seq_final(seq, (size_t)nu);
+	{
+		size_t b = fbit(seq);
+		lx->full[b >> 6] |= 1ULL << (b & 63);
+	}
 
 	/* find or insert the phrase */
 	const lex_entry *found = lex_find(lx, seq, (size_t)nu, fold, flen);

@@ -91,6 +91,12 @@ uint64_t lex_seq_step(uint64_t h, uint64_t th);
 uint64_t lex_seq_final(uint64_t h, size_t ntok);
 #define LEX_SEQ_SEED 0x243F6A8885A308D3ULL
 
+/* Quick filters: 0 proves that no phrase starts with the token sequence
+ * of hash seq (lex_seq_final over its tokens), or that no phrase is
+ * exactly that sequence; 1 means maybe. */
+int lex_maybe_prefix(const lexicon *lx, uint64_t seq);
+int lex_maybe_phrase(const lexicon *lx, uint64_t seq);
+
 const lex_pair *lex_pairs(const lexicon *lx, size_t *n);
 
 /* Number of phrases and entries, for --help and tests. */

@@ -50,6 +50,7 @@ void norm_free(normaliser *nm)
 	free(nm->pieces);
 	free(nm->mc);
 	free(nm->moff);
+	free(nm->ucats);
 	free(nm->ring);
 	free(nm->slot);
 	free(nm);
@@ -90,6 +91,10 @@ static int grow_arrays(normaliser *nm, size_t ntok)
 	if (!mo)
 		return -1;
 	nm->moff = mo;
+	uint16_t *uc = realloc(nm->ucats, (cap + 1) * sizeof *uc);
+	if (!uc)
+		return -1;
+	nm->ucats = uc;
 	nm->tcap = cap;
 	return 0;
 }
@@ -124,26 +129,29 @@ static int cache_build(normaliser *nm)
 
 	nm->nmc = 0;
 	for (size_t k = 0; k < nm->nunit; k++) {
-		int maxl = lex_maxlen(nm->lx, U(nm, k)->hash);
 		size_t n = 0, j, L;
 		uint64_t h = LEX_SEQ_SEED;
 		uint32_t s = useg(nm, k);
 
 		nm->moff[k] = (uint32_t)nm->nmc;
-		if (!maxl)
-			continue;
-		for (j = k; j < nm->nunit && n < (size_t)maxl && n < MAXPH; j++) {
+		nm->ucats[k] = 0;
+		for (j = k; j < nm->nunit && n < MAXPH; j++) {
 			if (j > k && nm->rm[nm->unit[j]] == NF_GENDER)
 				continue;
 			if (useg(nm, j) != s && !(j > k && nm->rm[nm->unit[j - 1]] == NF_GENDER))
 				break;
-			fold[n] = ufold(nm, j, &fl[n]);
 			h = lex_seq_step(h, U(nm, j)->hash);
 			seq[n] = lex_seq_final(h, n + 1);
+			/* no phrase goes on like this: stop */
+			if (!lex_maybe_prefix(nm->lx, seq[n]))
+				break;
+			fold[n] = ufold(nm, j, &fl[n]);
 			endu[n] = j + 1;
 			n++;
 		}
 		for (L = n; L >= 1; L--) {
+			if (!lex_maybe_phrase(nm->lx, seq[L - 1]))
+				continue;
 			const lex_entry *e = lex_find(nm->lx, seq[L - 1], L, fold, fl);
 			if (!e)
 				continue;
@@ -161,6 +169,7 @@ static int cache_build(normaliser *nm)
 			for (const lex_entry *f = e; f; f = lex_next(nm->lx, f))
 				cats |= (uint16_t)(1u << f->cat);
 			nm->mc[nm->nmc].cats = cats;
+			nm->ucats[k] |= cats;
 			nm->nmc++;
 		}
 	}
@@ -200,22 +209,22 @@ static const lex_entry *match_gen(normaliser *nm, size_t k, unsigned mask,
 	return NULL;
 }
 
-const lex_entry *match_val(normaliser *nm, size_t k, int cat,
-			   const char *value, int kept, size_t *len)
+const lex_entry *match_val_(normaliser *nm, size_t k, int cat,
+			    const char *value, int kept, size_t *len)
 {
 	return match_gen(nm, k, 1u << cat, value, kept, len);
 }
 
-const lex_entry *match_mask(normaliser *nm, size_t k, unsigned mask,
-			    int kept, size_t *len)
+const lex_entry *match_mask_(normaliser *nm, size_t k, unsigned mask,
+			     int kept, size_t *len)
 {
 	return match_gen(nm, k, mask, NULL, kept, len);
 }
 
-const lex_entry *match_cat(normaliser *nm, size_t k, int cat, int kept,
-			   size_t *len)
+const lex_entry *match_cat_(normaliser *nm, size_t k, int cat, int kept,
+			    size_t *len)
 {
-	return match_val(nm, k, cat, NULL, kept, len);
+	return match_gen(nm, k, 1u << cat, NULL, kept, len);
 }
 
 int remove_toks(normaliser *nm, size_t t0, size_t t1, int kind,
@@ -230,6 +239,7 @@ int remove_toks(normaliser *nm, size_t t0, size_t t1, int kind,
 		}
 	if (!any)
 		return 0;
+	nm->gen++;
 	if (nm->nspan == nm->spcap) {
 		size_t cap = nm->spcap ? nm->spcap * 2 : 16;
 		span *p = realloc(nm->spans, cap * sizeof *p);
@@ -264,13 +274,22 @@ int units_free(normaliser *nm, size_t k0, size_t k1)
 
 void seg_kept(normaliser *nm, size_t s, size_t *k0, size_t *k1)
 {
-	const seg *g = &nm->segs[s];
+	seg *g = &nm->segs[s];
 	size_t a = g->u0, b = g->u1;
 
+	/* remembered until the next removal */
+	if (g->gen == nm->gen) {
+		*k0 = g->k0;
+		*k1 = g->k1;
+		return;
+	}
 	while (a < b && !ukept(nm, a))
 		a++;
 	while (b > a && !ukept(nm, b - 1))
 		b--;
+	g->k0 = (uint32_t)a;
+	g->k1 = (uint32_t)b;
+	g->gen = nm->gen;
 	*k0 = a;
 	*k1 = b;
 }
@@ -308,6 +327,7 @@ static int build(normaliser *nm)
 	memset(nm->rm, RM_NONE, tl->n);
 	memset(nm->prot, 0, tl->n);
 	nm->nunit = nm->nseg = nm->nspan = 0;
+	nm->gen++;
 	int head_seen = 0;
 	for (t = 0; t < tl->n; t++) {
 		tm_tok *x = &tl->t[t];
@@ -358,6 +378,7 @@ static int build(normaliser *nm)
 				g->index = (uint8_t)(nm->nseg > 255 ? 255 : nm->nseg);
 			if (!inbr)
 				head_seen = 1;
+			g->gen = 0;
 			cur = (uint32_t)nm->nseg++;
 			newseg = 0;
 		}
@@ -620,6 +641,12 @@ static int keep_pieces(normaliser *nm, size_t *npiece)
 	return 0;
 }
 
+static uint64_t memo_hash(const char *s, size_t n, const char *lang);
+static void memo_put(normaliser *nm, uint64_t h, const char *raw, size_t n,
+		     const char *lang, const norm_result *res);
+static int memo_stable(normaliser *nm, const char *t, size_t n,
+		       const char *lang, norm_result *res);
+
 static int compute(normaliser *nm, const char *raw, size_t n, const char *lang,
 		   norm_result *res)
 {
@@ -645,6 +672,9 @@ static int compute(normaliser *nm, const char *raw, size_t n, const char *lang,
 	 * idempotent by construction); the pieces of every pass are kept */
 	buf_reset(&nm->ptext);
 	for (int round = 0; round < 4; round++) {
+		/* a clean title already known to be its own clean title */
+		if (memo_stable(nm, res->title, res->title_len, lang, res))
+			break;
 		if (keep_pieces(nm, &npiece) != 0)
 			return -1;
 		buf_reset(&nm->again);
@@ -655,8 +685,15 @@ static int compute(normaliser *nm, const char *raw, size_t n, const char *lang,
 		if (res->title_len == nm->again.len &&
 		    (res->title_len == 0 ||
 		     memcmp(res->title, nm->again.data, res->title_len) == 0) &&
-		    !nm->nspan)
+		    !nm->nspan) {
+			norm_result st = *res;
+			st.npiece = 0;
+			st.repaired = 0;
+			if (nm->ring)
+				memo_put(nm, memo_hash(res->title, res->title_len, lang),
+					 res->title, res->title_len, lang, &st);
 			break;
+		}
 	}
 	if (keep_pieces(nm, &npiece) != 0)
 		return -1;
@@ -790,6 +827,35 @@ static int memo_get(normaliser *nm, uint64_t h, const char *raw, size_t n,
 	res->piece = nm->pieces;
 	res->npiece = hd.npiece;
 	res->repaired = hd.repaired;
+	return 1;
+}
+
+/* Is t a title the memory knows to be its own clean title, with no
+ * piece removed?  Then res gets its key (copied: the ring moves on). */
+static int memo_stable(normaliser *nm, const char *t, size_t n,
+		       const char *lang, norm_result *res)
+{
+	struct memo_slot *sl;
+	memo_head hd;
+	const char *p;
+	uint64_t h;
+
+	if (!nm->ring || n > UINT32_MAX / 2)
+		return 0;
+	h = memo_hash(t, n, lang);
+	sl = &nm->slot[h & (nm->nslot - 1)];
+	if (sl->h != h || nm->ring_total > sl->at + nm->ring_cap)
+		return 0;
+	p = nm->ring + (sl->at % nm->ring_cap);
+	memcpy(&hd, p, sizeof hd);
+	if (hd.raw != n || hd.title != n || hd.npiece || memcmp(p + sizeof hd, t, n) ||
+	    memcmp(p + sizeof hd + n, t, n) || strncmp(hd.lang, lang ? lang : "", 4))
+		return 0;
+	buf_reset(&nm->key);
+	if (buf_append(&nm->key, p + sizeof hd + 2 * n, hd.key) != 0)
+		return 0;
+	res->key = nm->key.data ? nm->key.data : "";
+	res->key_len = hd.key;
 	return 1;
 }
 

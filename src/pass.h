@@ -20,6 +20,8 @@ typedef struct seg {
 	uint8_t bracket;  /* inside brackets */
 	uint8_t index;    /* order among segments, saturating at 255; 0: the head */
 	uint8_t resumed;  /* the head going on after a bracket: "Koch (m/w/d) Köln" */
+	uint32_t k0, k1;
+	uint64_t gen;     /* its kept units, as of removal generation gen */
 } seg;
 
 typedef struct span {
@@ -36,6 +38,7 @@ struct normaliser {
 	const char *lang;
 	int any_lang;     /* while set, ambiguous entries apply too */
 	size_t hidden;    /* kept units the renderer did not show */
+	uint64_t gen;     /* bumped by every removal (seg_kept's memory) */
 	/* per token */
 	uint8_t *rm;      /* enum nf_kind, RM_NONE when kept */
 	uint8_t *prot;
@@ -54,6 +57,7 @@ struct normaliser {
 	struct mcache { uint32_t first; uint16_t cats; uint8_t units; } *mc;
 	size_t nmc, mccap;
 	uint32_t *moff;
+	uint16_t *ucats;  /* categories of all phrases starting at each unit */
 	/* the memory of recent titles: a ring of records, a table of slots */
 	char *ring;
 	size_t ring_cap, ring_pos;
@@ -84,15 +88,41 @@ static inline uint32_t useg(normaliser *nm, size_t k) { return nm->tseg[nm->unit
 /* The applicable entry of category cat for the longest phrase starting at
  * unit k and lying inside its segment over kept, unprotected units (when
  * kept is set).  *len receives its length in units.  NULL when none. */
-const lex_entry *match_cat(normaliser *nm, size_t k, int cat, int kept,
-			   size_t *len);
+const lex_entry *match_cat_(normaliser *nm, size_t k, int cat, int kept,
+			    size_t *len);
 /* Same with a value filter (NULL: any value). */
-const lex_entry *match_val(normaliser *nm, size_t k, int cat,
-			   const char *value, int kept, size_t *len);
+const lex_entry *match_val_(normaliser *nm, size_t k, int cat,
+			    const char *value, int kept, size_t *len);
 /* The longest phrase with an applicable entry in any category of the
  * mask (1 << cat); for equal lengths the entry listed first wins. */
-const lex_entry *match_mask(normaliser *nm, size_t k, unsigned mask,
-			    int kept, size_t *len);
+const lex_entry *match_mask_(normaliser *nm, size_t k, unsigned mask,
+			     int kept, size_t *len);
+
+/* Most units start no phrase of the category asked for: answer those
+ * without a call. */
+static inline const lex_entry *match_cat(normaliser *nm, size_t k, int cat,
+					 int kept, size_t *len)
+{
+	if (k >= nm->nunit || !(nm->ucats[k] & (1u << cat)))
+		return NULL;
+	return match_cat_(nm, k, cat, kept, len);
+}
+
+static inline const lex_entry *match_val(normaliser *nm, size_t k, int cat,
+					 const char *value, int kept, size_t *len)
+{
+	if (k >= nm->nunit || !(nm->ucats[k] & (1u << cat)))
+		return NULL;
+	return match_val_(nm, k, cat, value, kept, len);
+}
+
+static inline const lex_entry *match_mask(normaliser *nm, size_t k,
+					  unsigned mask, int kept, size_t *len)
+{
+	if (k >= nm->nunit || !(nm->ucats[k] & mask))
+		return NULL;
+	return match_mask_(nm, k, mask, kept, len);
+}
 int entry_applies(const normaliser *nm, const lex_entry *e);
 
 /* Marks tokens [t0, t1] removed as kind (protected tokens excepted) and

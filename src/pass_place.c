@@ -83,6 +83,10 @@ static size_t postcode_at(normaliser *nm, size_t k)
 	if (d == 4 && k + 1 < nm->nunit && letters_only(nm, k + 1, 2, 2) &&
 	    !glued(nm, k, k + 1, ""))
 		return 2;
+	/* CZ, SK, GR, SE: 702 00, 111 22 */
+	if (d == 3 && k + 1 < nm->nunit && num_digits(nm, k + 1) == 2 &&
+	    !glued(nm, k, k + 1, ""))
+		return 2;
 	if (d == 4 || d == 5)
 		return 1;
 	if (letters_only(nm, k, 1, 2) && k + 1 < nm->nunit &&

@@ -104,7 +104,7 @@ COUNTRY = {
     "FR": ("FR", 4, "H/F:40 | (H/F):30 | F/H:10 | (F/H):8 | h/f:5 | (H/F/X):3 | - H/F:4", "fr",
            (" ", "\u00a0", "\u202f", "")),
     "BEfr": ("BE", 5, "(h/f/x):40 | (H/F/X):20 | (m/f/x):15 | H/F:15 | (h/f):10", "be", (".", " ")),
-    "BEnl": ("BE", 5, "(m/v/x):50 | (m/v):25 | (M/V/X):15 | (v/m/x):10", "be", (".",)),
+    "BEnl": ("BE", 5, "(m/v/x):50 | (m/v):25 | (M/V/X):15 | (v/m/x):10", "benl", (".",)),
     "LU": ("LU", 4, "(H/F):40 | H/F:30 | (m/f/d):15 | (h/f/x):15", "lu", (".", " ")),
     "NL": ("NL", 1.5, "(m/v):50 | (m/v/x):25 | (v/m):10 | m/v:10 | (M/V):5", "nl", (".",)),
     "UK": ("UK", 0, "(m/f)", "uk", (",",)),
@@ -201,9 +201,11 @@ PAY = {
 }
 PAY["at"] = PAY["de"]
 PAY["be"] = PAY["lu"] = PAY["fr"]
+PAY["benl"] = PAY["nl"]
 PAY = {k: ws(v) for k, v in PAY.items()}
 # invented benchmark ranges in local currency: hourly, monthly, yearly
-PAY_RANGE = {"de": (12.5, 35, 2200, 6500, 32000, 95000), "at": (11, 32, 2000, 6000, 30000, 85000),
+PAY_RANGE = {"de": (12.5, 35, 2200, 6500, 32000, 95000), "benl": (14, 30, 2200, 5500, 30000, 75000),
+             "at": (11, 32, 2000, 6000, 30000, 85000),
              "ch": (25, 50, 4500, 10000, 60000, 140000), "fr": (12, 28, 1800, 5000, 25000, 70000),
              "be": (14, 30, 2200, 5500, 30000, 75000), "lu": (15, 35, 2800, 7000, 40000, 100000),
              "nl": (14, 35, 2300, 6000, 32000, 85000), "uk": (11, 30, 1800, 5500, 22000, 85000),
@@ -300,7 +302,7 @@ def romance_ending(r, t, lang):
     return t
 
 
-def amount(r, v, th):
+def amount(v, th):
     return f"{v:,}".replace(",", th)
 
 
@@ -317,7 +319,7 @@ def pay_text(r, key, th):
     y2 = y1 + 1000 * (5 + r.below(15))
     k1 = y1 // 1000
     s = PAY[key](r)
-    return s.format(h=h, m=amount(r, m, th), m2=amount(r, m2, th), y1=amount(r, y1, th), y2=amount(r, y2, th),
+    return s.format(h=h, m=amount(m, th), m2=amount(m2, th), y1=amount(y1, th), y2=amount(y2, th),
                     k=k1 + 5, k1=k1, k2=y2 // 1000)
 
 
@@ -579,4 +581,8 @@ def main():
 
 
 if __name__ == "__main__":
-    main()
+    try:
+        main()
+    except BrokenPipeError:                               # reader stopped early (head): not an error here
+        os.dup2(os.open(os.devnull, os.O_WRONLY), sys.stdout.fileno())
+        sys.exit(1)
