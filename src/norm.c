@@ -128,6 +128,7 @@ static int cache_build(normaliser *nm)
 	uint64_t seq[MAXPH];
 
 	nm->nmc = 0;
+	nm->lcats = 0;
 	for (size_t k = 0; k < nm->nunit; k++) {
 		size_t n = 0, j, L;
 		uint64_t h = LEX_SEQ_SEED;
@@ -170,6 +171,7 @@ static int cache_build(normaliser *nm)
 				cats |= (uint16_t)(1u << f->cat);
 			nm->mc[nm->nmc].cats = cats;
 			nm->ucats[k] |= cats;
+			nm->lcats |= cats;
 			nm->nmc++;
 		}
 	}
@@ -328,6 +330,7 @@ static int build(normaliser *nm)
 	memset(nm->prot, 0, tl->n);
 	nm->nunit = nm->nseg = nm->nspan = 0;
 	nm->gen++;
+	nm->lflags = 0;
 	int head_seen = 0;
 	for (t = 0; t < tl->n; t++) {
 		tm_tok *x = &tl->t[t];
@@ -338,6 +341,24 @@ static int build(normaliser *nm)
 			 * no word (the renderer never shows it) */
 			nm->rm[t] = NF_SLOT;
 			continue;
+		}
+		switch (x->kind) {
+		case TK_NUM: nm->lflags |= LF_NUM; break;
+		case TK_SYM: nm->lflags |= LF_SYM; break;
+		case TK_WORD:
+			if (x->flags & TF_DIGIT)
+				nm->lflags |= LF_DIGITWORD;
+			if (x->flags & TF_CAPSUF)
+				nm->lflags |= LF_CAPSUF;
+			if ((x->flen == 3 || x->flen == 4 || x->flen == 5) &&
+			    (!memcmp(tok_fold(tl, x), "www", 3) ||
+			     !memcmp(tok_fold(tl, x), "http", x->flen < 4 ? 3 : 4)))
+				nm->lflags |= LF_URL;
+			break;
+		default:
+			if (x->ch && strchr("/-*:_.(,|\x01", x->ch))
+				nm->lflags |= LF_JOIN;
+			break;
 		}
 		if (x->kind == TK_PUNCT) {
 			if (x->flags & TF_OPEN) {
@@ -576,14 +597,25 @@ static int norm_once(normaliser *nm, const char *src, size_t n, norm_result *res
 		return -1;
 	if (cache_build(nm) != 0)
 		return -1;
-	protect(nm);
-	if (pass_pii(nm) || pass_gender(nm))
+	unsigned f;
+	if (HAS(nm, LC_PROTECT))
+		protect(nm);
+	f = nm->lflags;
+	if (((f & (LF_NUM | LF_SYM | LF_URL)) && pass_pii(nm)) || pass_gender(nm))
 		return -1;
 	if (nm->nspan && cache_build(nm) != 0)
 		return -1;
-	if (pass_reference(nm) || pass_pay(nm) || pass_schedule(nm) || pass_hashtags(nm) ||
-	    pass_phrases(nm) || pass_employer(nm) || pass_location(nm) ||
-	    pass_phrases(nm))
+	/* each pass runs only where the line holds what it looks for */
+	if (((f & (LF_NUM | LF_DIGITWORD | LF_SYM) || HAS(nm, LC_REFERENCE)) &&
+	     pass_reference(nm)) ||
+	    ((f & LF_NUM) && (pass_pay(nm) || pass_schedule(nm))) ||
+	    ((f & LF_SYM) && pass_hashtags(nm)))
+		return -1;
+	int phrases = nm->lcats || (f & LF_NUM);
+	if ((phrases && pass_phrases(nm)) ||
+	    (HAS(nm, LC_EMPLOYER) && pass_employer(nm)) ||
+	    ((HAS(nm, LC_PLACE) || HAS(nm, LC_LOCATION)) && pass_location(nm)) ||
+	    (phrases && pass_phrases(nm)))
 		return -1;
 	return render(nm, res);
 }

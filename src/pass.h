@@ -15,6 +15,17 @@
 
 #define RM_NONE 0xFF
 
+/* What a line holds, so that a pass with nothing to look for is skipped. */
+enum {
+	LF_NUM = 1,       /* a number */
+	LF_SYM = 2,       /* & + % # @ or a currency */
+	LF_DIGITWORD = 4, /* a word with a digit: JR12345 */
+	LF_CAPSUF = 8,    /* VerkäuferIn */
+	LF_JOIN = 16,     /* / - * : _ . ( · , | : may join a gender pair */
+	LF_URL = 32,      /* http, https, www */
+};
+#define HAS(nm, cat) (((nm)->lcats >> (cat)) & 1)
+
 typedef struct seg {
 	uint32_t u0, u1;  /* units [u0, u1) */
 	uint8_t bracket;  /* inside brackets */
@@ -58,6 +69,8 @@ struct normaliser {
 	size_t nmc, mccap;
 	uint32_t *moff;
 	uint16_t *ucats;  /* categories of all phrases starting at each unit */
+	unsigned lcats;   /* all categories of the line */
+	unsigned lflags;  /* LF_* below */
 	/* the memory of recent titles: a ring of records, a table of slots */
 	char *ring;
 	size_t ring_cap, ring_pos;

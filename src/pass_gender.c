@@ -86,12 +86,17 @@ static int drop_after(normaliser *nm, size_t a, size_t b, int open)
 	return remove_toks(nm, t0, t1, NF_GENDER, NULL);
 }
 
+/* "Koch oder Köchin": the words that join a pair. */
 static int is_conj(normaliser *nm, size_t k)
 {
 	static const char *const conj[] = {"oder", "or", "ou", "o", "of",
-					   "lub", "nebo", "eller", "ou", NULL};
+					   "lub", "nebo", "eller", NULL};
+	uint32_t len;
+	const char *f = ufold(nm, k, &len);
+	if (len > 5)
+		return 0;
 	for (int i = 0; conj[i]; i++)
-		if (ufold_is(nm, k, conj[i]))
+		if (strlen(conj[i]) == len && memcmp(f, conj[i], len) == 0)
 			return 1;
 	return 0;
 }
@@ -218,7 +223,9 @@ static int markers(normaliser *nm)
 
 int pass_gender(normaliser *nm)
 {
-	if (markers(nm) || capital_i(nm) || pairs_and_suffixes(nm))
+	if ((HAS(nm, LC_MARKER) && markers(nm)) ||
+	    ((nm->lflags & LF_CAPSUF) && capital_i(nm)) ||
+	    (((nm->lflags & LF_JOIN) || HAS(nm, LC_UNIT)) && pairs_and_suffixes(nm)))
 		return -1;
 	return 0;
 }

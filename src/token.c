@@ -36,7 +36,7 @@ static tm_tok *push(tok_line *tl)
 		tl->cap = cap;
 	}
 	tm_tok *t = &tl->t[tl->n++];
-	memset(t, 0, sizeof *t);
+	*t = (tm_tok){0};
 	return t;
 }
 

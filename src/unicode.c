@@ -354,19 +354,6 @@ static int slow_fold(uni_ctx *u, const char *s, size_t n, tm_buf *out)
 	return 0;
 }
 
-int32_t uni_next(const char *str, size_t n, size_t *i)
-{
-	utf8proc_int32_t c;
-	utf8proc_ssize_t l = utf8proc_iterate((const utf8proc_uint8_t *)str + *i,
-					      (utf8proc_ssize_t)(n - *i), &c);
-	if (l <= 0) {
-		(*i)++;
-		return 0xFFFD;
-	}
-	*i += (size_t)l;
-	return c;
-}
-
 int uni_lower(const char *s, size_t n, tm_buf *out)
 {
 	size_t i = 0;

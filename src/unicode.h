@@ -57,8 +57,33 @@ int uni_fold(uni_ctx *u, const char *s, size_t n, tm_buf *out);
  * mapping (UnicodeData.txt field 13): ß stays ß, İ becomes i. */
 int uni_lower(const char *s, size_t n, tm_buf *out);
 
-/* Decodes the code point at s[*i] (well-formed UTF-8) and advances *i. */
-int32_t uni_next(const char *s, size_t n, size_t *i);
+/* Decodes the code point at s[*i] (well-formed UTF-8) and advances *i;
+ * a truncated sequence gives U+FFFD and advances one byte. */
+static inline int32_t uni_next(const char *s, size_t n, size_t *i)
+{
+	const unsigned char *p = (const unsigned char *)s + *i;
+	size_t left = n - *i;
+	unsigned c = p[0];
+	if (c < 0x80) {
+		(*i)++;
+		return (int32_t)c;
+	}
+	if (c >= 0xC0 && c < 0xE0 && left >= 2) {
+		*i += 2;
+		return (int32_t)(((c & 0x1F) << 6) | (p[1] & 0x3F));
+	}
+	if (c >= 0xE0 && c < 0xF0 && left >= 3) {
+		*i += 3;
+		return (int32_t)(((c & 0x0F) << 12) | ((p[1] & 0x3F) << 6) | (p[2] & 0x3F));
+	}
+	if (c >= 0xF0 && left >= 4) {
+		*i += 4;
+		return (int32_t)(((c & 0x07) << 18) | ((p[1] & 0x3F) << 12) |
+				 ((p[2] & 0x3F) << 6) | (p[3] & 0x3F));
+	}
+	(*i)++;
+	return 0xFFFD;
+}
 
 enum uni_class {
 	UNI_OTHER = 0,
