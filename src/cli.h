@@ -6,9 +6,7 @@
 enum { EXIT_OK = 0, EXIT_RUNTIME = 1, EXIT_USAGE = 2 };
 
 int cmd_norm(int argc, char **argv);
-
-/* Checks a BCP 47 tag and copies its primary subtag, lowercased, into
- * out (4 bytes).  Returns 0, or -1 when the tag is malformed. */
-int cli_lang(const char *tag, char out[4]);
+int cmd_tally(int argc, char **argv);
+int cmd_counts(int argc, char **argv);
 
 #endif

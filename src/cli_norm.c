@@ -8,6 +8,7 @@
 #include "cli.h"
 #include "decode.h"
 #include "jsonw.h"
+#include "lang.h"
 #include "norm.h"
 #include "reader.h"
 #include "setup.h"
@@ -46,43 +47,6 @@ static const char norm_usage[] =
 	"                   mebibytes (default 16; 0: clean every line afresh)\n"
 	"  --stats          say on standard error how many titles came from memory\n"
 	"  -h, --help       show this help\n";
-
-int cli_lang(const char *tag, char out[4])
-{
-	size_t i = 0, n;
-	const char *dash = strchr(tag, '-');
-
-	n = dash ? (size_t)(dash - tag) : strlen(tag);
-	if (n < 2 || n > 3)
-		return -1;
-	for (i = 0; i < n; i++) {
-		char c = tag[i];
-		if (c >= 'A' && c <= 'Z')
-			c = (char)(c + 32);
-		if (c < 'a' || c > 'z')
-			return -1;
-		out[i] = c;
-	}
-	out[n] = 0;
-	/* the rest: subtags of 1 to 8 letters or digits */
-	for (const char *p = dash; p && *p;) {
-		size_t len = 0;
-		p++;
-		while (p[len] && p[len] != '-') {
-			char c = p[len];
-			if (!((c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') ||
-			      (c >= '0' && c <= '9')))
-				return -1;
-			len++;
-		}
-		if (len < 1 || len > 8)
-			return -1;
-		p += len;
-		if (!*p)
-			break;
-	}
-	return 0;
-}
 
 /* Repairs noted for the end-of-run summary. */
 typedef struct repair_log {
@@ -395,7 +359,7 @@ int cmd_norm(int argc, char **argv)
 		case 'j': o.mode = OUT_JSON; modes++; break;
 		case 'f': o.mode = OUT_FACETS; modes++; break;
 		case 'l':
-			if (cli_lang(optarg, o.lang) != 0) {
+			if (lang_tag(optarg, o.lang) != 0) {
 				fprintf(stderr, "titlemill norm: --lang: '%s' is not a BCP 47 language tag\n",
 					optarg);
 				return EXIT_USAGE;

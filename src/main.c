@@ -15,6 +15,8 @@ static const char usage[] =
 	"\n"
 	"commands:\n"
 	"  norm      clean raw titles, one line in, one line out\n"
+	"  tally     count title variants per occupation and language\n"
+	"  counts    sum counts tables into one\n"
 	"\n"
 	"Run 'titlemill COMMAND --help' for the options of a command.\n";
 
@@ -35,6 +37,10 @@ int main(int argc, char **argv)
 	}
 	if (!strcmp(argv[1], "norm"))
 		return cmd_norm(argc - 1, argv + 1);
+	if (!strcmp(argv[1], "tally"))
+		return cmd_tally(argc - 1, argv + 1);
+	if (!strcmp(argv[1], "counts"))
+		return cmd_counts(argc - 1, argv + 1);
 	fprintf(stderr, "titlemill: unknown command '%s'\n%s", argv[1], usage);
 	return EXIT_USAGE;
 }

@@ -40,6 +40,7 @@ void norm_free(normaliser *nm)
 	buf_free(&nm->key);
 	buf_free(&nm->ptext);
 	buf_free(&nm->again);
+	buf_free(&nm->masked);
 	free(nm->rm);
 	free(nm->prot);
 	free(nm->tseg);
@@ -673,6 +674,39 @@ static int keep_pieces(normaliser *nm, size_t *npiece)
 	return 0;
 }
 
+/* The prepared raw title with contact data masked, from the first pass
+ * (before a second pass reuses the buffers). */
+static int mask(normaliser *nm)
+{
+	size_t at = 0;
+	buf_reset(&nm->masked);
+	sort_spans(nm);
+	for (size_t i = 0; i < nm->nspan; i++) {
+		const span *s = &nm->spans[i];
+		const char *what = s->kind == NF_EMAIL ? "<email>" : s->kind == NF_PHONE ? "<phone>"
+				   : s->kind == NF_URL ? "<url>" : NULL;
+		if (!what)
+			continue;
+		size_t a = nm->tl.t[s->t0].off, b = nm->tl.t[s->t1].off + nm->tl.t[s->t1].len;
+		if (a < at)
+			continue;
+		if (buf_append(&nm->masked, nm->work.data + at, a - at) || buf_puts(&nm->masked, what))
+			return -1;
+		at = b;
+	}
+	/* trimmed, spaces as written otherwise */
+	if (buf_append(&nm->masked, nm->work.data + at, nm->work.len - at))
+		return -1;
+	size_t b0 = 0, e = nm->masked.len;
+	while (b0 < e && nm->masked.data[b0] == ' ')
+		b0++;
+	while (e > b0 && nm->masked.data[e - 1] == ' ')
+		e--;
+	memmove(nm->masked.data, nm->masked.data + b0, e - b0);
+	nm->masked.len = e - b0;
+	return 0;
+}
+
 static uint64_t memo_hash(const char *s, size_t n, const char *lang);
 static void memo_put(normaliser *nm, uint64_t h, const char *raw, size_t n,
 		     const char *lang, const norm_result *res);
@@ -696,10 +730,16 @@ static int compute(normaliser *nm, const char *raw, size_t n, const char *lang,
 		src = nm->dec.data;
 		n = nm->dec.len;
 	}
-	if (norm_once(nm, src, n, res) != 0)
+	if (norm_once(nm, src, n, res) != 0 || mask(nm) != 0)
 		return -1;
-	if (!joined(nm))
-		return pieces(nm, res) == 0 ? (res->repaired = rep, 0) : -1;
+	if (!joined(nm)) {
+		if (pieces(nm, res) != 0)
+			return -1;
+		res->repaired = rep;
+		res->masked = nm->masked.data ? nm->masked.data : "";
+		res->masked_len = nm->masked.len;
+		return 0;
+	}
 	/* read the clean title again until nothing changes (norm is
 	 * idempotent by construction); the pieces of every pass are kept */
 	buf_reset(&nm->ptext);
@@ -721,6 +761,8 @@ static int compute(normaliser *nm, const char *raw, size_t n, const char *lang,
 			norm_result st = *res;
 			st.npiece = 0;
 			st.repaired = 0;
+			st.masked = res->title; /* the prepared form of a clean title */
+			st.masked_len = res->title_len;
 			if (nm->ring)
 				memo_put(nm, memo_hash(res->title, res->title_len, lang),
 					 res->title, res->title_len, lang, &st);
@@ -734,6 +776,8 @@ static int compute(normaliser *nm, const char *raw, size_t n, const char *lang,
 	res->piece = nm->pieces;
 	res->npiece = npiece;
 	res->repaired = rep;
+	res->masked = nm->masked.data ? nm->masked.data : "";
+	res->masked_len = nm->masked.len;
 	return 0;
 }
 
@@ -798,7 +842,7 @@ void norm_memo_stats(const normaliser *nm, size_t *hits, size_t *calls)
 
 /* A record: header, raw, lang, title, key, then the pieces. */
 typedef struct memo_head {
-	uint32_t raw, title, key, npiece;
+	uint32_t raw, title, key, masked, npiece;
 	int32_t repaired;
 	char lang[4];
 } memo_head;
@@ -839,6 +883,9 @@ static int memo_get(normaliser *nm, uint64_t h, const char *raw, size_t n,
 	res->key = p;
 	res->key_len = hd.key;
 	p += hd.key;
+	res->masked = p;
+	res->masked_len = hd.masked;
+	p += hd.masked;
 	if (hd.npiece > nm->pcap) {
 		nf_piece *q = realloc(nm->pieces, hd.npiece * sizeof *q);
 		if (!q)
@@ -894,7 +941,7 @@ static int memo_stable(normaliser *nm, const char *t, size_t n,
 static void memo_put(normaliser *nm, uint64_t h, const char *raw, size_t n,
 		     const char *lang, const norm_result *res)
 {
-	size_t need = sizeof(memo_head) + n + res->title_len + res->key_len;
+	size_t need = sizeof(memo_head) + n + res->title_len + res->key_len + res->masked_len;
 	memo_head hd;
 	char *p;
 
@@ -911,6 +958,7 @@ static void memo_put(normaliser *nm, uint64_t h, const char *raw, size_t n,
 	hd.raw = (uint32_t)n;
 	hd.title = (uint32_t)res->title_len;
 	hd.key = (uint32_t)res->key_len;
+	hd.masked = (uint32_t)res->masked_len;
 	hd.npiece = (uint32_t)res->npiece;
 	hd.repaired = res->repaired;
 	if (lang)
@@ -923,6 +971,9 @@ static void memo_put(normaliser *nm, uint64_t h, const char *raw, size_t n,
 	p += res->title_len;
 	memcpy(p, res->key, res->key_len);
 	p += res->key_len;
+	if (res->masked_len)
+		memcpy(p, res->masked, res->masked_len);
+	p += res->masked_len;
 	for (size_t i = 0; i < res->npiece; i++) {
 		memo_piece mp;
 		memset(&mp, 0, sizeof mp);

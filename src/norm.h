@@ -36,6 +36,11 @@ typedef struct norm_result {
 	size_t key_len;
 	const nf_piece *piece; /* removed pieces, in title order */
 	size_t npiece;
+	const char *masked; /* the raw title as prepared (NFKC, spaces unified),
+			     * e-mail addresses, phone numbers and URLs
+			     * replaced by <email>, <phone>, <url>: what may be
+			     * kept as an example */
+	size_t masked_len;
 	int repaired;      /* DEC_* flags of decode.h */
 } norm_result;
 

@@ -45,7 +45,7 @@ struct normaliser {
 	const lexicon *lx;
 	uni_ctx u;
 	tok_line tl;
-	tm_buf dec, work, title, key, ptext, again;
+	tm_buf dec, work, title, key, ptext, again, masked;
 	const char *lang;
 	int any_lang;     /* while set, ambiguous entries apply too */
 	size_t hidden;    /* kept units the renderer did not show */

@@ -1,0 +1,29 @@
+/* jsonr.h - reading one JSON object per line; the only module that knows
+ * jansson.  A jr_doc owns its parse; strings returned point into it and
+ * live until jr_free.  Duplicate keys are refused (a posting must not say
+ * two things), as is nesting deeper than jansson's limit. */
+#ifndef TM_JSONR_H
+#define TM_JSONR_H
+
+#include <stddef.h>
+
+typedef struct jr_doc jr_doc;
+
+enum jr_type { JR_MISSING, JR_NULL, JR_STRING, JR_INT, JR_ARRAY, JR_OTHER };
+
+/* Parses s[0..n) as one JSON object.  Returns the document, or NULL with
+ * a message (and the column) in err. */
+jr_doc *jr_parse(const char *s, size_t n, char *err, size_t errlen);
+void jr_free(jr_doc *d);
+
+enum jr_type jr_type(const jr_doc *d, const char *field);
+/* The string value of field (or NULL): length in *n. */
+const char *jr_str(const jr_doc *d, const char *field, size_t *n);
+/* The integer value of field. */
+long long jr_int(const jr_doc *d, const char *field);
+/* Array field: its length, and its element i as a string (NULL if that
+ * element is not a string). */
+size_t jr_len(const jr_doc *d, const char *field);
+const char *jr_elem_str(const jr_doc *d, const char *field, size_t i, size_t *n);
+
+#endif

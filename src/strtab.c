@@ -1,0 +1,102 @@
+/* strtab.c - string-keyed counting table. */
+#include "strtab.h"
+
+#include <stdlib.h>
+#include <string.h>
+
+#include "token.h"
+
+static int grow_slots(strtab *t)
+{
+	size_t ns = t->nslot ? t->nslot * 2 : 1024, i;
+	uint32_t *s = calloc(ns, sizeof *s);
+	if (!s)
+		return -1;
+	for (i = 0; i < t->n; i++) {
+		size_t j = t->ent[i].hash & (ns - 1);
+		while (s[j])
+			j = (j + 1) & (ns - 1);
+		s[j] = (uint32_t)(i + 1);
+	}
+	free(t->slot);
+	t->slot = s;
+	t->nslot = ns;
+	return 0;
+}
+
+long st_find(const strtab *t, const char *key, size_t n)
+{
+	uint64_t h;
+	size_t j;
+
+	if (!t->nslot)
+		return -1;
+	h = tok_hash(key, n);
+	for (j = h & (t->nslot - 1); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+		const st_entry *e = &t->ent[t->slot[j] - 1];
+		if (e->hash == h && e->len == n &&
+		    (n == 0 || !memcmp(t->arena.data + e->off, key, n)))
+			return (long)(t->slot[j] - 1);
+	}
+	return -1;
+}
+
+int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
+{
+	uint64_t h = tok_hash(key, n);
+	size_t j;
+
+	if (n > UINT32_MAX || t->n >= UINT32_MAX - 1)
+		return -1;
+	if (t->nslot) {
+		for (j = h & (t->nslot - 1); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+			st_entry *e = &t->ent[t->slot[j] - 1];
+			if (e->hash == h && e->len == n &&
+			    (n == 0 || !memcmp(t->arena.data + e->off, key, n))) {
+				e->count += by;
+				if (idx)
+					*idx = t->slot[j] - 1;
+				return 0;
+			}
+		}
+	}
+	if ((t->n + 1) * 4 > t->nslot * 3 && grow_slots(t) != 0)
+		return -1;
+	if (t->n == t->cap) {
+		size_t cap = t->cap ? t->cap * 2 : 1024;
+		st_entry *p = realloc(t->ent, cap * sizeof *p);
+		if (!p)
+			return -1;
+		t->ent = p;
+		t->cap = cap;
+	}
+	if (t->arena.len + n > UINT32_MAX || buf_append(&t->arena, key, n) != 0)
+		return -1;
+	st_entry *e = &t->ent[t->n];
+	e->hash = h;
+	e->count = by;
+	e->off = (uint32_t)(t->arena.len - n);
+	e->len = (uint32_t)n;
+	for (j = h & (t->nslot - 1); t->slot[j]; j = (j + 1) & (t->nslot - 1))
+		;
+	t->slot[j] = (uint32_t)(t->n + 1);
+	if (idx)
+		*idx = t->n;
+	t->n++;
+	return 1;
+}
+
+void st_free(strtab *t)
+{
+	if (!t)
+		return;
+	free(t->ent);
+	free(t->slot);
+	buf_free(&t->arena);
+	memset(t, 0, sizeof *t);
+}
+
+size_t st_bytes(const strtab *t)
+{
+	return t->cap * sizeof(st_entry) + t->nslot * sizeof(uint32_t) + t->arena.cap;
+}

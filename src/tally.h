@@ -1,0 +1,82 @@
+/* tally.h - the frequency engine: what is counted, and the interface every
+ * counting backend (memory, Redis) implements.
+ *
+ * Counted, for each posting (each distinct posting id once, when the
+ * postings have ids):
+ *   per (occupation, language, key): postings, per clean surface form
+ *   (the display title is the most frequent form), and up to three raw
+ *   example titles (the three with the smallest hash: a deterministic
+ *   sample that merges exactly);
+ *   per (language, key): postings, each posting once whatever its
+ *   occupations;
+ *   per (occupation, language): postings.
+ * Fields never contain 0x1F (the separator of joined keys) or controls:
+ * the posting readers refuse such occupations, and titles have none. */
+#ifndef TM_TALLY_H
+#define TM_TALLY_H
+
+#include <stddef.h>
+#include <stdint.h>
+#include <stdio.h>
+
+#include "buf.h"
+#include "strtab.h"
+
+#define TALLY_EXAMPLES 3
+
+/* One normalised posting as the engines receive it.  Borrowed. */
+typedef struct tally_posting {
+	const char *id;  /* NULL: no id, always counted */
+	size_t idlen;
+	const char *lang; /* primary subtag, "und" when unknown */
+	const char *key, *title, *example;
+	size_t keylen, titlelen, examplelen;
+	const char *const *occ;
+	const size_t *occlen;
+	size_t nocc;
+} tally_posting;
+
+/* ---- the memory engine (also the common currency: every store can be
+ * read into one, and counts tables are written from one) ---- */
+
+typedef struct tally_mem {
+	strtab forms;   /* occ 1F lang 1F key 1F title -> postings */
+	strtab keys;    /* lang 1F key -> postings */
+	strtab occs;    /* occ 1F lang -> postings */
+	strtab ids;     /* posting ids seen */
+	strtab exkeys;  /* occ 1F lang 1F key -> index into ex */
+	struct tm_example { uint64_t h[TALLY_EXAMPLES]; uint32_t off[TALLY_EXAMPLES],
+		len[TALLY_EXAMPLES]; uint8_t n; } *ex;
+	size_t nex, excap;
+	tm_buf exarena;
+	tm_buf scratch;
+	uint64_t postings, republished;
+} tally_mem;
+
+void tm_init(tally_mem *m);
+void tm_free(tally_mem *m);
+
+/* Counts one posting.  Returns 0, 1 when its id was counted before (the
+ * posting is then skipped), -1 when memory ran out. */
+int tm_add(tally_mem *m, const tally_posting *p);
+
+/* The pieces a counts table holds, added one by one (merging tables). */
+int tm_add_form(tally_mem *m, const char *occ, size_t ol, const char *lang,
+		const char *key, size_t kl, const char *title, size_t tl, uint64_t n);
+int tm_add_key(tally_mem *m, const char *lang, const char *key, size_t kl, uint64_t n);
+int tm_add_occ(tally_mem *m, const char *occ, size_t ol, const char *lang, uint64_t n);
+int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
+		   const char *key, size_t kl, const char *text, size_t tl);
+
+/* Writes the counts table (TSV, header first, sorted; see README).
+ * Returns 0, or -1 on a write error or when memory ran out. */
+int tm_write(tally_mem *m, FILE *out);
+
+/* Reads a counts table and adds it to m.  Returns 0, or -1 with a
+ * message naming file and line in err. */
+int tm_read(tally_mem *m, const char *path, tm_buf *err);
+
+/* Bytes held by the engine, for measurements. */
+size_t tm_bytes(const tally_mem *m);
+
+#endif
