@@ -12,18 +12,31 @@
 #include "norm.h"
 #include "postings.h"
 #include "setup.h"
+#include "store.h"
 #include "tally.h"
+#include "token.h"
 
 typedef struct tally_opts {
 	enum pr_format format;
 	int strict;
-	long memo_mib;
-	const char *out;
+	long memo_mib, chunk;
+	const char *out, *store;
+	store_conf sconf;
 	setup_opts setup;
 } tally_opts;
 
+/* Strict whole numbers for options. */
+static int num_opt(const char *arg, long lo, long hi, long *v)
+{
+	char *end;
+	errno = 0;
+	*v = strtol(arg, &end, 10);
+	return errno || end == arg || *end || *v < lo || *v > hi ? -1 : 0;
+}
+
 static const char tally_usage[] =
-	"usage: titlemill tally [--format auto|tsv|jsonl] [--labels FILE] [--lexicons DIR]\n"
+	"usage: titlemill tally [--store URL [--prefix P] [--chunk N] [--retries N]]\n"
+	"                       [--format auto|tsv|jsonl] [--labels FILE] [--lexicons DIR]\n"
 	"                       [--strict] [-o FILE] POSTINGS...\n"
 	"\n"
 	"Counts, per occupation, language and match key, how often each cleaned\n"
@@ -32,6 +45,12 @@ static const char tally_usage[] =
 	"date, lang optional) or JSON Lines with the same fields; '-' reads standard\n"
 	"input.  A posting id counted once is not counted again.\n"
 	"\n"
+	"  --store URL      add the counts to a Redis server: redis://[user@]host:port[/db]\n"
+	"                   or unix:/path (password: TITLEMILL_REDIS_PASSWORD); a file\n"
+	"                   loaded twice, or a load killed and run again, counts once\n"
+	"  --prefix P       the store's key prefix (default titlemill)\n"
+	"  --chunk N        postings per atomic chunk (default 10000)\n"
+	"  --retries N      reconnect attempts after a lost connection (default 5)\n"
 	"  --format F       auto (default: '{' first means JSON Lines), tsv or jsonl\n"
 	"  --labels FILE    a labels TSV: labels are never cut down when cleaning\n"
 	"  --lexicons DIR   read the lexicons in DIR too (repeatable)\n"
@@ -41,11 +60,13 @@ static const char tally_usage[] =
 	"  -h, --help       show this help\n";
 
 static const char counts_usage[] =
-	"usage: titlemill counts [-o FILE] [COUNTS...]\n"
+	"usage: titlemill counts [--store URL [--prefix P]] [-o FILE] [COUNTS...]\n"
 	"\n"
-	"Reads counts tables (from tally or counts; '-' or none: standard input),\n"
-	"sums them and prints one counts table.\n"
+	"Reads counts tables (from tally or counts; '-', or none without --store:\n"
+	"standard input) and what a store holds, sums them and prints one counts table.\n"
 	"\n"
+	"  --store URL      read the counts a Redis server holds (see tally)\n"
+	"  --prefix P       the store's key prefix (default titlemill)\n"
 	"  -o FILE          write the table to FILE (replaced only when complete)\n"
 	"  -h, --help       show this help\n";
 
@@ -112,10 +133,15 @@ int cmd_tally(int argc, char **argv)
 		{"strict", no_argument, NULL, 's'},
 		{"memo", required_argument, NULL, 'm'},
 		{"output", required_argument, NULL, 'o'},
+		{"store", required_argument, NULL, 'S'},
+		{"prefix", required_argument, NULL, 'P'},
+		{"chunk", required_argument, NULL, 'C'},
+		{"retries", required_argument, NULL, 'R'},
 		{"help", no_argument, NULL, 'h'},
 		{NULL, 0, NULL, 0},
 	};
 	tally_opts o;
+	store *st = NULL;
 	tm_buf err = {0};
 	tally_mem m;
 	badlog bl;
@@ -127,9 +153,27 @@ int cmd_tally(int argc, char **argv)
 	memset(&o, 0, sizeof o);
 	memset(&bl, 0, sizeof bl);
 	o.memo_mib = 16;
+	o.chunk = 10000;
+	o.sconf.retries = 5;
 	optind = 1;
 	while ((c = getopt_long(argc, argv, "ho:", longopts, NULL)) != -1) {
+		long v;
 		switch (c) {
+		case 'S': o.store = optarg; break;
+		case 'P': o.sconf.prefix = optarg; break;
+		case 'C':
+			if (num_opt(optarg, 1, 10000000, &o.chunk) != 0) {
+				fprintf(stderr, "titlemill tally: --chunk: want a number from 1 to 10000000, not '%s'\n", optarg);
+				return EXIT_USAGE;
+			}
+			break;
+		case 'R':
+			if (num_opt(optarg, 0, 1000, &v) != 0) {
+				fprintf(stderr, "titlemill tally: --retries: want a number from 0 to 1000, not '%s'\n", optarg);
+				return EXIT_USAGE;
+			}
+			o.sconf.retries = (int)v;
+			break;
 		case 'F':
 			if (!strcmp(optarg, "auto")) o.format = PR_AUTO;
 			else if (!strcmp(optarg, "tsv")) o.format = PR_TSV;
@@ -176,11 +220,56 @@ int cmd_tally(int argc, char **argv)
 		lex_free(lx);
 		return EXIT_RUNTIME;
 	}
+	if (o.store && o.out) {
+		fputs("titlemill tally: -o writes a counts table; with --store the counts go to the store\n", stderr);
+		norm_free(nm);
+		lex_free(lx);
+		return EXIT_USAGE;
+	}
+	if (o.store && o.strict) {
+		/* --strict with a store: every row is checked before anything
+		 * is applied */
+		for (int i = optind; i < argc && rc == EXIT_OK; i++) {
+			postings_reader pr;
+			posting p;
+			int r;
+			if (!strcmp(argv[i], "-")) {
+				fputs("titlemill tally: --strict --store cannot read standard input twice; name the files\n", stderr);
+				rc = EXIT_USAGE;
+				break;
+			}
+			if (pr_open(&pr, argv[i], o.format) != 0) {
+				fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
+				rc = EXIT_RUNTIME;
+			}
+			while (rc == EXIT_OK && (r = pr_next(&pr, &p)) != 0)
+				if (r != 1) {
+					fprintf(stderr, "titlemill tally: %.*s (--strict: nothing applied)\n",
+						(int)pr.err.len, pr.err.data);
+					rc = EXIT_RUNTIME;
+				}
+			pr_close(&pr);
+		}
+		if (rc != EXIT_OK) {
+			norm_free(nm);
+			lex_free(lx);
+			return rc;
+		}
+	}
+	if (o.store && !(st = store_open(o.store, &o.sconf, &err))) {
+		fprintf(stderr, "titlemill tally: %.*s\n", (int)err.len, err.data ? err.data : "");
+		norm_free(nm);
+		lex_free(lx);
+		buf_free(&err);
+		return EXIT_RUNTIME;
+	}
 	tm_init(&m);
 	for (int i = optind; i < argc && rc == EXIT_OK; i++) {
 		postings_reader pr;
 		posting p;
 		int r;
+		uint64_t dg[2] = {0x84222325CBF29CE4ULL, 0x9E3779B97F4A7C15ULL};
+		long inchunk = 0;
 
 		if (pr_open(&pr, argv[i], o.format) != 0) {
 			fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
@@ -228,7 +317,38 @@ int cmd_tally(int argc, char **argv)
 			tp.occ = p.occ;
 			tp.occlen = p.occlen;
 			tp.nocc = p.nocc;
-			if (tm_add(&m, &tp) < 0) {
+			if (st) {
+				/* the chunk's digest: its postings as read */
+				const char *fv[4] = {p.id ? p.id : "", p.lang, p.title, p.date ? p.date : ""};
+				size_t fl[4] = {p.id ? p.idlen : 0, strlen(p.lang), p.titlelen,
+						p.date ? p.datelen : 0};
+				for (int f = 0; f < 4; f++) {
+					dg[0] = tok_hash_mix(dg[0], tok_hash(fv[f], fl[f]) ^ (uint64_t)f);
+					dg[1] = tok_hash_mix(dg[1] ^ 0x5555, tok_hash(fv[f], fl[f]) + fl[f]);
+				}
+				for (size_t q = 0; q < p.nocc; q++) {
+					dg[0] = tok_hash_mix(dg[0], tok_hash(p.occ[q], p.occlen[q]));
+					dg[1] = tok_hash_mix(dg[1] ^ 0xAAAA, tok_hash(p.occ[q], p.occlen[q]) + q);
+				}
+				dg[1] = tok_hash_mix(dg[1], p.id ? 1 : 2);
+				if (st->ops->add(st, &tp) != 0) {
+					fprintf(stderr, "titlemill tally: %.*s\n", (int)st->err.len, st->err.data);
+					rc = EXIT_RUNTIME;
+					break;
+				}
+				if (++inchunk == o.chunk) {
+					int applied;
+					if (st->ops->commit(st, dg, &applied) != 0) {
+						fprintf(stderr, "titlemill tally: %.*s; %s:%ld was being loaded: every chunk before it is counted, the one at hand is not; run the same load again to finish it\n",
+							(int)st->err.len, st->err.data, pr.lr.name, p.line);
+						rc = EXIT_RUNTIME;
+						break;
+					}
+					inchunk = 0;
+					dg[0] = tok_hash_mix(dg[0], 0x1234);
+				}
+				m.postings++;
+			} else if (tm_add(&m, &tp) < 0) {
 				fputs("titlemill tally: out of memory\n", stderr);
 				rc = EXIT_RUNTIME;
 				break;
@@ -243,13 +363,28 @@ int cmd_tally(int argc, char **argv)
 				}
 			}
 		}
+		if (st && rc == EXIT_OK && inchunk) {
+			int applied;
+			if (st->ops->commit(st, dg, &applied) != 0) {
+				fprintf(stderr, "titlemill tally: %.*s; the end of %s was being loaded: run the same load again to finish it\n",
+					(int)st->err.len, st->err.data, pr.lr.name);
+				rc = EXIT_RUNTIME;
+			}
+		}
 		pr_close(&pr);
 	}
 	if (tty && last != t0)
 		fputc('\n', stderr);
-	if (rc == EXIT_OK)
+	if (st) {
+		fprintf(stderr, "titlemill tally: %llu chunks applied, %llu already in the store; ",
+			(unsigned long long)st->applied, (unsigned long long)st->skipped);
+		m.postings = st->counted;
+		m.republished = st->republished;
+		store_close(st);
+	} else if (rc == EXIT_OK)
 		rc = write_table(&m, o.out, "tally");
-	fprintf(stderr, "titlemill tally: %llu postings counted, %llu republished ids skipped, %ld malformed rows skipped",
+	fprintf(stderr, "%s%llu postings counted, %llu republished ids skipped, %ld malformed rows skipped",
+		st ? "" : "titlemill tally: ",
 		(unsigned long long)m.postings, (unsigned long long)m.republished, bl.n);
 	for (long k = 0; k < bl.n && k < 5; k++)
 		fprintf(stderr, "%s %s", k ? ";" : ":", bl.first[k]);
@@ -265,10 +400,13 @@ int cmd_counts(int argc, char **argv)
 {
 	static const struct option longopts[] = {
 		{"output", required_argument, NULL, 'o'},
+		{"store", required_argument, NULL, 'S'},
+		{"prefix", required_argument, NULL, 'P'},
 		{"help", no_argument, NULL, 'h'},
 		{NULL, 0, NULL, 0},
 	};
-	const char *out = NULL;
+	const char *out = NULL, *surl = NULL;
+	store_conf sc = {NULL, 5, 5000};
 	tm_buf err = {0};
 	tally_mem m;
 	int c, rc = EXIT_OK;
@@ -277,12 +415,24 @@ int cmd_counts(int argc, char **argv)
 	while ((c = getopt_long(argc, argv, "ho:", longopts, NULL)) != -1) {
 		switch (c) {
 		case 'o': out = optarg; break;
+		case 'S': surl = optarg; break;
+		case 'P': sc.prefix = optarg; break;
 		case 'h': fputs(counts_usage, stdout); return EXIT_OK;
 		default: fputs(counts_usage, stderr); return EXIT_USAGE;
 		}
 	}
 	tm_init(&m);
-	if (optind >= argc && tm_read(&m, "-", &err) != 0)
+	if (surl) {
+		store *st = store_open(surl, &sc, &err);
+		if (!st || st->ops->dump(st, &m) != 0) {
+			if (st) {
+				buf_reset(&err);
+				buf_append(&err, st->err.data, st->err.len);
+			}
+			rc = EXIT_RUNTIME;
+		}
+		store_close(st);
+	} else if (optind >= argc && tm_read(&m, "-", &err) != 0)
 		rc = EXIT_RUNTIME;
 	for (int i = optind; i < argc && rc == EXIT_OK; i++)
 		if (tm_read(&m, argv[i], &err) != 0)

@@ -1,0 +1,54 @@
+/* store.h - the counting backends behind one interface (a struct of
+ * function pointers): memory, and Redis for long runs.
+ *
+ * A load hands the store postings one by one; every `chunk` postings (and
+ * at the end of a file) it commits the chunk with the chunk's digest.  A
+ * store applies a chunk atomically and remembers its digest, so that a
+ * chunk seen before (the same file loaded twice, or a load killed and run
+ * again) changes nothing.  Errors: functions return -1 and leave a message
+ * in st->err; a failed store stays usable only for close. */
+#ifndef TM_STORE_H
+#define TM_STORE_H
+
+#include <stdint.h>
+
+#include "buf.h"
+#include "tally.h"
+
+typedef struct store store;
+
+typedef struct store_ops {
+	/* Buffers one posting of the current chunk (copied). */
+	int (*add)(store *st, const tally_posting *p);
+	/* Applies the buffered chunk; *applied is 0 when the store had it. */
+	int (*commit)(store *st, const uint64_t digest[2], int *applied);
+	/* Adds everything the store holds to m. */
+	int (*dump)(store *st, tally_mem *m);
+	void (*close)(store *st);
+} store_ops;
+
+struct store {
+	const store_ops *ops;
+	tm_buf err;
+	uint64_t counted, republished, applied, skipped; /* postings, chunks */
+};
+
+typedef struct store_conf {
+	const char *prefix;  /* all keys start with it; default "titlemill" */
+	int retries;         /* reconnect attempts after a failure (default 5) */
+	int timeout_ms;      /* connect and reply timeout (default 5000) */
+} store_conf;
+
+/* Opens the store named by url: redis://[user:password@]host:port[/db] or
+ * unix:/path/to/socket (the password may also come from the environment
+ * variable TITLEMILL_REDIS_PASSWORD).  Returns the store, or NULL with a
+ * message naming the server in err. */
+store *store_open(const char *url, const store_conf *conf, tm_buf *err);
+
+static inline void store_close(store *st)
+{
+	if (st)
+		st->ops->close(st);
+}
+
+#endif
