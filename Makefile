@@ -95,6 +95,7 @@ fuzz: fuzz-build
 
 bench: titlemill
 	sh tests/bench/run.sh $(CURDIR)/titlemill
+	sh tests/bench/tally.sh $(CURDIR)/titlemill
 
 demo: titlemill
 	sh examples/demo.sh $(CURDIR)/titlemill

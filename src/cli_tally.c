@@ -18,7 +18,7 @@
 
 typedef struct tally_opts {
 	enum pr_format format;
-	int strict;
+	int strict, stats;
 	long memo_mib, chunk;
 	const char *out, *store;
 	store_conf sconf;
@@ -57,6 +57,7 @@ static const char tally_usage[] =
 	"  --strict         a malformed row is an error (status 1, nothing written)\n"
 	"  --memo MIB       memory of recent titles for the normaliser (default 16)\n"
 	"  -o FILE          write the table to FILE (replaced only when complete)\n"
+	"  --stats          say on standard error how much memory the counts took\n"
 	"  -h, --help       show this help\n";
 
 static const char counts_usage[] =
@@ -137,6 +138,7 @@ int cmd_tally(int argc, char **argv)
 		{"prefix", required_argument, NULL, 'P'},
 		{"chunk", required_argument, NULL, 'C'},
 		{"retries", required_argument, NULL, 'R'},
+		{"stats", no_argument, NULL, 'T'},
 		{"help", no_argument, NULL, 'h'},
 		{NULL, 0, NULL, 0},
 	};
@@ -160,6 +162,7 @@ int cmd_tally(int argc, char **argv)
 		long v;
 		switch (c) {
 		case 'S': o.store = optarg; break;
+		case 'T': o.stats = 1; break;
 		case 'P': o.sconf.prefix = optarg; break;
 		case 'C':
 			if (num_opt(optarg, 1, 10000000, &o.chunk) != 0) {
@@ -381,8 +384,17 @@ int cmd_tally(int argc, char **argv)
 		m.postings = st->counted;
 		m.republished = st->republished;
 		store_close(st);
-	} else if (rc == EXIT_OK)
+	} else if (rc == EXIT_OK) {
+		if (o.stats)
+			fprintf(stderr, "titlemill tally: %zu distinct (occupation, language, key), %zu forms, "
+				"%zu (language, key), %zu ids; engine %zu bytes, %.1f bytes per form beyond "
+				"its string bytes\n",
+				m.exkeys.n, m.forms.n, m.keys.n, m.ids.n, tm_bytes(&m),
+				m.forms.n ? (double)(tm_bytes(&m) - m.forms.arena.len - m.keys.arena.len -
+						     m.occs.arena.len - m.ids.arena.len - m.exkeys.arena.len -
+						     m.exarena.len) / (double)m.forms.n : 0.0);
 		rc = write_table(&m, o.out, "tally");
+	}
 	fprintf(stderr, "%s%llu postings counted, %llu republished ids skipped, %ld malformed rows skipped",
 		st ? "" : "titlemill tally: ",
 		(unsigned long long)m.postings, (unsigned long long)m.republished, bl.n);

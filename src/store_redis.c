@@ -41,8 +41,9 @@ static const char script[] =
 	"local groups = {}\n"
 	"for g = 1, G do\n"
 	"  local k = KEYS[tonumber(ARGV[i])]; local c = tonumber(ARGV[i + 1]); i = i + 2\n"
-	"  for j = i, i + c - 1 do\n"
-	"    if redis.call('SISMEMBER', k, ARGV[j]) == 1 then return -1 end\n"
+	"  for j = i, i + c - 1, 256 do\n"
+	"    local m = redis.call('SMISMEMBER', k, unpack(ARGV, j, math.min(j + 255, i + c - 1)))\n"
+	"    for q = 1, #m do if m[q] == 1 then return -1 end end\n"
 	"  end\n"
 	"  groups[g] = {k, i, c}; i = i + c\n"
 	"end\n"
@@ -87,6 +88,9 @@ typedef struct rstore {
 	size_t nchunk;
 	/* building the script call */
 	strtab keyidx;
+	strtab exbound;         /* per title: 1 + the largest example hash the
+				 * store can still hold, as this load knows it */
+	tm_buf pending;
 	tm_buf args;            /* all arguments back to back */
 	size_t *argoff, *arglen, nargs, argcap;
 } rstore;
@@ -306,7 +310,7 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
 	/* ids per shard, and which are already counted */
 	tm_buf shard_ids[SHARDS];
 	size_t nshard[SHARDS];
-	uint8_t *seen = NULL;
+	uint8_t *seen = NULL, *shard = NULL;
 	size_t nids = 0;
 
 	memset(shard_ids, 0, sizeof shard_ids);
@@ -316,6 +320,7 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
 	buf_reset(&r->args);
 	r->nargs = 0;
 	*counted = *repub = 0;
+	buf_reset(&r->pending);
 
 	/* 1. the chunk's distinct ids, and which the server has */
 	for (p = r->chunk.data, end = p + r->chunk.len; p < end;) {
@@ -340,14 +345,15 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
 		/* SMISMEMBER per shard, pipelined */
 		int sent[SHARDS];
 		memset(sent, 0, sizeof sent);
+		shard = malloc(chunk_ids.n);
+		if (!shard)
+			goto oom;
+		for (i = 0; i < chunk_ids.n; i++)
+			shard[i] = (uint8_t)(chunk_ids.ent[i].hash % SHARDS);
 		for (int s = 0; s < SHARDS; s++) {
 			size_t cnt = 0;
-			for (i = 0; i < chunk_ids.n; i++) {
-				size_t n;
-				const char *id = st_key(&chunk_ids, i, &n);
-				if (tok_hash(id, n) % SHARDS == (uint64_t)s)
-					cnt++;
-			}
+			for (i = 0; i < chunk_ids.n; i++)
+				cnt += shard[i] == s;
 			if (!cnt)
 				continue;
 			const char **av = malloc((cnt + 2) * sizeof *av);
@@ -365,7 +371,7 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
 			for (i = 0; i < chunk_ids.n; i++) {
 				size_t n;
 				const char *id = st_key(&chunk_ids, i, &n);
-				if (tok_hash(id, n) % SHARDS == (uint64_t)s) {
+				if (shard[i] == s) {
 					av[q] = id;
 					al[q++] = n;
 				}
@@ -395,15 +401,12 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
 				goto fail;
 			}
 			size_t q = 0;
-			for (i = 0; i < chunk_ids.n; i++) {
-				size_t n;
-				const char *id = st_key(&chunk_ids, i, &n);
-				if (tok_hash(id, n) % SHARDS == (uint64_t)s) {
+			for (i = 0; i < chunk_ids.n; i++)
+				if (shard[i] == s) {
 					if (q < x->elements && x->element[q]->integer == 1)
 						seen[i] = 1;
 					q++;
 				}
-			}
 			freeReplyObject(x);
 		}
 	}
@@ -432,7 +435,7 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
 				continue;
 			}
 			/* the id goes to its shard's SADD */
-			uint64_t s = tok_hash(id, n) % SHARDS;
+			uint64_t s = shard[idx];
 			if (put(&shard_ids[s], id, n))
 				goto oom;
 			nshard[s]++;
@@ -527,13 +530,35 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
 		const char *k = st_key(&agg.exkeys, i, &n);
 		size_t ol = first_field(k, n);
 		const struct tm_example *e = &agg.ex[agg.exkeys.ent[i].count];
+		/* the store keeps the three smallest hashes it was sent: once
+		 * this load has sent three, it keeps none above the largest
+		 * of them, and a candidate above that bound cannot enter */
+		long known = st_find(&r->exbound, k, n);
+		uint64_t bound = known >= 0 ? r->exbound.ent[known].count : 0; /* bound+1; 0 none */
+		int take = 0, sendq[TALLY_EXAMPLES];
+		uint64_t worst = 0;
+		for (int q = 0; q < e->n; q++)
+			if (!bound || e->h[q] < bound - 1)
+				sendq[take++] = q;
+		if (!take)
+			continue;
+		if (take == TALLY_EXAMPLES) {
+			for (int q = 0; q < e->n; q++)
+				if (e->h[q] > worst)
+					worst = e->h[q];
+			/* noted now, applied when the chunk has gone through */
+			uint64_t w1 = worst + 1;
+			if (put(&r->pending, k, n) || buf_append(&r->pending, &w1, sizeof w1))
+				goto oom;
+		}
 		if (occkey(r, &kb, k, ol, 'x'))
 			goto oom;
 		long kn = keyno(r, kb.data, kb.len);
 		if (kn < 0 || argnum(r, (unsigned long long)kn) || arg(r, k + ol + 1, n - ol - 1) ||
-		    argnum(r, e->n))
+		    argnum(r, (unsigned long long)take))
 			goto oom;
-		for (int q = 0; q < e->n; q++) {
+		for (int qq = 0; qq < take; qq++) {
+			int q = sendq[qq];
 			char hx[17];
 			snprintf(hx, sizeof hx, "%016llx", (unsigned long long)e->h[q]);
 			tm_buf eb = {0};
@@ -615,6 +640,21 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
 		goto fail;
 	}
 	rc = rep->integer == 1 ? 1 : rep->integer == 0 ? 0 : -2;
+	if (rc == 1) {
+		/* the examples' bounds, now that the chunk is in */
+		const char *q = r->pending.data, *qe = q + r->pending.len;
+		while (q < qe) {
+			size_t n, kx;
+			const char *k = get(&q, &n);
+			uint64_t w1;
+			memcpy(&w1, q, sizeof w1);
+			q += sizeof w1;
+			if (st_add(&r->exbound, k, n, 0, &kx) < 0)
+				goto oom;
+			if (!r->exbound.ent[kx].count || w1 < r->exbound.ent[kx].count)
+				r->exbound.ent[kx].count = w1;
+		}
+	}
 	goto done;
 oom:
 	rerr(r, "out of memory", NULL);
@@ -626,6 +666,7 @@ done:
 	for (int s = 0; s < SHARDS; s++)
 		buf_free(&shard_ids[s]);
 	free(seen);
+	free(shard);
 	st_free(&chunk_ids);
 	buf_free(&kb);
 	tm_free(&agg);
@@ -786,6 +827,8 @@ static void r_close(store *st)
 	free(r->name);
 	buf_free(&r->chunk);
 	st_free(&r->keyidx);
+	st_free(&r->exbound);
+	buf_free(&r->pending);
 	buf_free(&r->args);
 	free(r->argoff);
 	free(r->arglen);

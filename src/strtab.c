@@ -6,6 +6,13 @@
 
 #include "token.h"
 
+/* Slot of a hash: Fibonacci hashing spreads the low-entropy bits of
+ * similar keys (ids that share their prefix) over the whole table. */
+static inline size_t home(uint64_t h, size_t nslot)
+{
+	return (size_t)((h * 0x9E3779B97F4A7C15ULL) >> 32) & (nslot - 1);
+}
+
 static int grow_slots(strtab *t)
 {
 	size_t ns = t->nslot ? t->nslot * 2 : 1024, i;
@@ -13,7 +20,7 @@ static int grow_slots(strtab *t)
 	if (!s)
 		return -1;
 	for (i = 0; i < t->n; i++) {
-		size_t j = t->ent[i].hash & (ns - 1);
+		size_t j = home(t->ent[i].hash, ns);
 		while (s[j])
 			j = (j + 1) & (ns - 1);
 		s[j] = (uint32_t)(i + 1);
@@ -32,7 +39,7 @@ long st_find(const strtab *t, const char *key, size_t n)
 	if (!t->nslot)
 		return -1;
 	h = tok_hash(key, n);
-	for (j = h & (t->nslot - 1); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+	for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
 		const st_entry *e = &t->ent[t->slot[j] - 1];
 		if (e->hash == h && e->len == n &&
 		    (n == 0 || !memcmp(t->arena.data + e->off, key, n)))
@@ -49,7 +56,7 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 	if (n > UINT32_MAX || t->n >= UINT32_MAX - 1)
 		return -1;
 	if (t->nslot) {
-		for (j = h & (t->nslot - 1); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+		for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
 			st_entry *e = &t->ent[t->slot[j] - 1];
 			if (e->hash == h && e->len == n &&
 			    (n == 0 || !memcmp(t->arena.data + e->off, key, n))) {
@@ -77,7 +84,7 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 	e->count = by;
 	e->off = (uint32_t)(t->arena.len - n);
 	e->len = (uint32_t)n;
-	for (j = h & (t->nslot - 1); t->slot[j]; j = (j + 1) & (t->nslot - 1))
+	for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1))
 		;
 	t->slot[j] = (uint32_t)(t->n + 1);
 	if (idx)
