@@ -45,6 +45,12 @@ typedef struct store_conf {
  * message naming the server in err. */
 store *store_open(const char *url, const store_conf *conf, tm_buf *err);
 
+/* The Redis key layout (see store_redis.c): the key of an occupation's
+ * hash ('f' forms, 'n' totals, 'x' examples), and of shard h % 64 of a
+ * spread key ('k' key totals, 'i' posting ids).  Return 0 or -1. */
+int store_key_occ(const char *prefix, const char *occ, size_t ol, char suffix, tm_buf *kb);
+int store_key_shard(const char *prefix, char kind, uint64_t h, tm_buf *kb);
+
 static inline void store_close(store *st)
 {
 	if (st)

@@ -268,22 +268,33 @@ static long keyno(rstore *r, const char *k, size_t n)
 	return (long)idx + 1;
 }
 
-static int occkey(rstore *r, tm_buf *kb, const char *occ, size_t ol, char suffix)
+int store_key_occ(const char *prefix, const char *occ, size_t ol, char suffix, tm_buf *kb)
 {
 	buf_reset(kb);
-	if (buf_puts(kb, r->prefix) || buf_puts(kb, ":{o:") || buf_append(kb, occ, ol) ||
+	if (buf_puts(kb, prefix) || buf_puts(kb, ":{o:") || buf_append(kb, occ, ol) ||
 	    buf_puts(kb, "}:") || buf_putc(kb, suffix))
 		return -1;
 	return 0;
 }
 
-static void shard_key(rstore *r, tm_buf *kb, char kind, uint64_t h)
+int store_key_shard(const char *prefix, char kind, uint64_t h, tm_buf *kb)
 {
 	char t[64];
 	snprintf(t, sizeof t, ":{%c:%02u}:%c", kind, (unsigned)(h % SHARDS), kind);
 	buf_reset(kb);
-	buf_puts(kb, r->prefix);
-	buf_puts(kb, t);
+	if (buf_puts(kb, prefix) || buf_puts(kb, t))
+		return -1;
+	return 0;
+}
+
+static int occkey(rstore *r, tm_buf *kb, const char *occ, size_t ol, char suffix)
+{
+	return store_key_occ(r->prefix, occ, ol, suffix, kb);
+}
+
+static void shard_key(rstore *r, tm_buf *kb, char kind, uint64_t h)
+{
+	store_key_shard(r->prefix, kind, h, kb);
 }
 
 /* Splits a joined key "a 1F b 1F c" into its first field and the rest. */
