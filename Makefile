@@ -76,7 +76,7 @@ titlemill-asan-bin: $(CORE_OBJ) $(CLI_OBJ) unit
 
 # libFuzzer targets (clang): FUZZ_SECONDS each, corpus in build-fuzz/.
 FUZZ_SECONDS ?= 60
-FUZZ_TARGETS = fuzz_norm
+FUZZ_TARGETS = fuzz_norm fuzz_postings fuzz_counts
 FUZZ_CC ?= clang
 FUZZ_FLAGS = -g -O1 -fsanitize=fuzzer,address,undefined -fno-sanitize-recover=all
 fuzz-build:

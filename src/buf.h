@@ -3,9 +3,10 @@
  * A tm_buf owns its storage (allocated with malloc); buf_free releases it
  * and accepts a zeroed or already freed buffer.  The data pointer may move
  * on every append: never keep pointers into a buffer across an append,
- * keep offsets.  The contents are not NUL-terminated unless buf_cstr is
- * called.  Functions returning int give 0 on success and -1 when memory
- * ran out; the buffer is then unchanged. */
+ * keep offsets.  After an append the contents are followed by a NUL (not
+ * counted in len), so a buffer of text can be printed as it is.
+ * Functions returning int give 0 on success and -1 when memory ran out;
+ * the buffer is then unchanged. */
 #ifndef TM_BUF_H
 #define TM_BUF_H
 
@@ -25,19 +26,21 @@ static inline void buf_reset(tm_buf *b) { b->len = 0; }
 
 static inline int buf_append(tm_buf *b, const void *p, size_t n)
 {
-	if (b->cap - b->len < n && buf_reserve(b, n) != 0)
+	if ((b->cap - b->len <= n || !b->data) && buf_reserve(b, n + 1) != 0)
 		return -1;
 	if (n)
 		memcpy(b->data + b->len, p, n);
 	b->len += n;
+	b->data[b->len] = 0;
 	return 0;
 }
 
 static inline int buf_putc(tm_buf *b, char c)
 {
-	if (b->len == b->cap && buf_reserve(b, 1) != 0)
+	if ((b->cap - b->len <= 1 || !b->data) && buf_reserve(b, 2) != 0)
 		return -1;
 	b->data[b->len++] = c;
+	b->data[b->len] = 0;
 	return 0;
 }
 

@@ -702,7 +702,8 @@ static int mask(normaliser *nm)
 		b0++;
 	while (e > b0 && nm->masked.data[e - 1] == ' ')
 		e--;
-	memmove(nm->masked.data, nm->masked.data + b0, e - b0);
+	if (e > b0 && b0)
+		memmove(nm->masked.data, nm->masked.data + b0, e - b0);
 	nm->masked.len = e - b0;
 	return 0;
 }

@@ -53,8 +53,10 @@ static int read_header(postings_reader *pr, const char *s, size_t n)
 	for (size_t i = 0; i <= n && nn < 64; i++)
 		if (i == n || s[i] == '\t') {
 			names[nn] = strndup(s + start, i - start);
-			if (names[nn] && i - start && names[nn][i - start - 1] == '\r')
-				names[nn][i - start - 1] = 0;
+			/* (a NUL inside a name makes strndup stop early) */
+			size_t nl = names[nn] ? strlen(names[nn]) : 0;
+			if (nl && names[nn][nl - 1] == '\r')
+				names[nn][nl - 1] = 0;
 			nn++;
 			start = i + 1;
 		}

@@ -83,6 +83,8 @@ int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
 	struct tm_example *e;
 	int worst = -1;
 
+	if (tl == 0)
+		return 0; /* an empty example is no evidence */
 	if (join(m, occ, ol, lang, strlen(lang), key, kl, NULL, 0))
 		return -1;
 	r = st_add(&m->exkeys, m->scratch.data, m->scratch.len, 0, &idx);
@@ -387,8 +389,11 @@ int tm_read(tally_mem *m, const char *path, tm_buf *err)
 		long line = t.lr.lineno;
 		int rc = 0;
 
-		if (ln < 2 || ln > 3 || memchr(l, SEP, ln)) {
-			r = bad(err, t.lr.name, line, "bad lang");
+		int lok = ln >= 2 && ln <= 3;
+		for (size_t q = 0; q < ln && lok; q++)
+			lok = l[q] >= 'a' && l[q] <= 'z';
+		if (!lok) {
+			r = bad(err, t.lr.name, line, "bad lang (want a primary language subtag: de, fr, und)");
 			break;
 		}
 		memcpy(lang, l, ln);

@@ -39,14 +39,20 @@ want=$(cut -f3,5 "$tmp/dedup" | paste - /dev/null | wc -l)
 got=$(awk -F '\t' '$1 == "key" { s += $6 } END { print s }' "$tmp/c.tsv")
 check key-total "$want" "$got"
 
-# --- merge: counts(tally(A), tally(B)) == tally(A B) when A and B share no id
-for part in 0 1 2; do
-	awk -F '\t' -v P=$part 'NR == 1 || $1 % 3 == P' "$tmp/p.tsv" > "$tmp/p$part.tsv"
-	$T tally "$tmp/p$part.tsv" > "$tmp/c$part.tsv" 2>/dev/null
+# --- merge: counts(tally(A), tally(B)) == tally(A B) when A and B share
+# no id, on random splits (each id to one random part; five seeds)
+for seed in 1 2 3 4 5; do
+	awk -F '\t' -v S=$seed -v D="$tmp" 'BEGIN { srand(S) }
+		NR == 1 { for (q = 0; q < 3; q++) print > (D "/p" q ".tsv"); next }
+		{ if (!($1 in part)) part[$1] = int(rand() * 3); print > (D "/p" part[$1] ".tsv") }' "$tmp/p.tsv"
+	for part in 0 1 2; do
+		$T tally "$tmp/p$part.tsv" > "$tmp/c$part.tsv" 2>/dev/null
+	done
+	$T counts "$tmp/c0.tsv" "$tmp/c1.tsv" "$tmp/c2.tsv" > "$tmp/merged"
+	$T tally "$tmp/p0.tsv" "$tmp/p1.tsv" "$tmp/p2.tsv" > "$tmp/whole" 2>/dev/null
+	cmp -s "$tmp/merged" "$tmp/whole"; check "merge-seed-$seed" 0 $?
 done
-$T counts "$tmp/c0.tsv" "$tmp/c1.tsv" "$tmp/c2.tsv" > "$tmp/merged"
-$T tally "$tmp/p0.tsv" "$tmp/p1.tsv" "$tmp/p2.tsv" > "$tmp/whole" 2>/dev/null
-cmp -s "$tmp/merged" "$tmp/whole"; check merge 0 $?
+cmp -s "$tmp/whole" "$tmp/c.tsv"; check merge-equals-whole-file 0 $?
 $T counts < "$tmp/c.tsv" | cmp -s - "$tmp/c.tsv"; check counts-identity 0 $?
 
 # --- republished ids across two daily files count once
