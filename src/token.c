@@ -292,6 +292,12 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 					if (i >= n || s[i] == ' ')
 						t->flags |= TF_STRONG;
 					break;
+				case '/':
+					/* "Vollzeit / Dortmund": a spaced slash parts
+					 * segments; "HR/Payroll" does not */
+					if (t->sp && (i >= n || s[i] == ' '))
+						t->flags |= TF_STRONG;
+					break;
 				default:
 					break;
 				}
