@@ -25,12 +25,13 @@ WARN = -Wall -Wextra -Wpedantic -Wshadow -Wstrict-prototypes -Wmissing-prototype
 OPT ?= -O2 -g
 override CFLAGS += -std=c11 -D_POSIX_C_SOURCE=200809L $(WARN) $(OPT) $(PC_CFLAGS) \
 	-DTM_VERSION='"$(VERSION)"' -DTM_LEXDIR='"$(DATADIR)/lexicons"'
-override LDLIBS += $(PC_LIBS)
+override LDLIBS += $(PC_LIBS) -lm
 
 BUILD ?= build
 CORE = buf decode unicode token lexicon norm pass_gender pass_noise pass_place \
-	reader tsv jsonw jsonr setup lang strtab postings tally_mem store_redis
-CLI = cli_norm cli_tally main
+	reader tsv jsonw jsonr setup lang strtab postings tally_mem store_redis \
+	stats labels
+CLI = cli_norm cli_tally cli_rank main
 CORE_OBJ = $(CORE:%=$(BUILD)/%.o)
 CLI_OBJ = $(CLI:%=$(BUILD)/%.o)
 UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_norm test_reader test_tally

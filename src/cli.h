@@ -8,5 +8,6 @@ enum { EXIT_OK = 0, EXIT_RUNTIME = 1, EXIT_USAGE = 2 };
 int cmd_norm(int argc, char **argv);
 int cmd_tally(int argc, char **argv);
 int cmd_counts(int argc, char **argv);
+int cmd_coverage(int argc, char **argv);
 
 #endif

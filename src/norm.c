@@ -800,7 +800,7 @@ int norm_key_only(normaliser *nm, const char *raw, size_t n,
 	res->repaired = rep;
 	if (prepare(nm, src, n) != 0 ||
 	    tok_split(&nm->tl, &nm->u, nm->work.data, nm->work.len) != 0 ||
-	    build(nm) != 0)
+	    build(nm) != 0 || cache_build(nm) != 0)
 		return -1;
 	return render(nm, res);
 }

@@ -76,6 +76,21 @@ int tm_write(tally_mem *m, FILE *out);
  * message naming file and line in err. */
 int tm_read(tally_mem *m, const char *path, tm_buf *err);
 
+/* One (occupation, language, key) with its postings and display title;
+ * strings point into the engine. */
+typedef struct tm_triple {
+	const char *occ, *lang, *key, *title;
+	size_t ol, ll, kl, tl;
+	uint64_t postings;
+} tm_triple;
+
+/* Calls fn for every triple, sorted by occupation, language, key (bytes).
+ * Stops and returns fn's value when it is not 0; -1 when memory ran out. */
+int tm_each_triple(tally_mem *m, int (*fn)(void *ctx, const tm_triple *t), void *ctx);
+
+/* Postings of an occupation in a language (0 when unknown). */
+uint64_t tm_occ_postings(tally_mem *m, const char *occ, size_t ol, const char *lang);
+
 /* Bytes held by the engine, for measurements. */
 size_t tm_bytes(const tally_mem *m);
 

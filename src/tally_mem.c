@@ -437,3 +437,46 @@ int tm_read(tally_mem *m, const char *path, tm_buf *err)
 	tsv_close(&t);
 	return r < 0 ? -1 : 0;
 }
+
+/* ---- walking the triples ---- */
+
+int tm_each_triple(tally_mem *m, int (*fn)(void *ctx, const tm_triple *t), void *ctx)
+{
+	srt *form = sorted(&m->forms);
+	size_t jf = 0;
+	int rc = 0;
+
+	if (!form)
+		return -1;
+	while (jf < m->forms.n && rc == 0) {
+		size_t tp = prefix(form[jf].s, form[jf].n, 3), end = jf, best = jf;
+		uint64_t sum = 0;
+		tm_triple t;
+		while (end < m->forms.n && prefix(form[end].s, form[end].n, 3) == tp &&
+		       !memcmp(form[end].s, form[jf].s, tp)) {
+			uint64_t c = m->forms.ent[form[end].i].count;
+			sum += c;
+			if (c > m->forms.ent[form[best].i].count)
+				best = end;
+			end++;
+		}
+		field(form[jf].s, tp, 0, &t.occ, &t.ol);
+		field(form[jf].s, tp, 1, &t.lang, &t.ll);
+		field(form[jf].s, tp, 2, &t.key, &t.kl);
+		field(form[best].s, form[best].n, 3, &t.title, &t.tl);
+		t.postings = sum;
+		rc = fn(ctx, &t);
+		jf = end;
+	}
+	free(form);
+	return rc;
+}
+
+uint64_t tm_occ_postings(tally_mem *m, const char *occ, size_t ol, const char *lang)
+{
+	long i;
+	if (join(m, occ, ol, lang, strlen(lang), NULL, 0, NULL, 0))
+		return 0;
+	i = st_find(&m->occs, m->scratch.data, m->scratch.len);
+	return i < 0 ? 0 : m->occs.ent[i].count;
+}
