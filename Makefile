@@ -34,7 +34,7 @@ CORE = buf decode unicode token lexicon norm pass_gender pass_noise pass_place \
 CLI = cli_norm cli_tally cli_rank main
 CORE_OBJ = $(CORE:%=$(BUILD)/%.o)
 CLI_OBJ = $(CLI:%=$(BUILD)/%.o)
-UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_norm test_reader test_tally
+UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_norm test_reader test_tally test_stats
 UNIT_BIN = $(UNIT_TESTS:%=$(BUILD)/%)
 
 all: titlemill

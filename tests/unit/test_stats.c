@@ -1,0 +1,76 @@
+/* Unit tests for the statistics (src/stats.c).
+ *
+ * Wilson score intervals against the worked examples of Newcombe RG
+ * (1998), "Two-sided confidence intervals for the single proportion:
+ * comparison of seven methods", Statistics in Medicine 17:857-872,
+ * Table I, method 3 (values to 4 decimals; from ../shared/REFERENCES.md,
+ * where they match scipy's binomtest(k, n).proportion_ci("wilson")). */
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdint.h>
+
+#include <cmocka.h>
+
+#include "stats.h"
+
+static void wilson_is(uint64_t k, uint64_t n, double lo, double hi, double tol)
+{
+	double a, b;
+	wilson(k, n, STATS_Z95, &a, &b);
+	assert_float_equal(a, lo, tol);
+	assert_float_equal(b, hi, tol);
+}
+
+static void test_newcombe(void **state)
+{
+	(void)state;
+	wilson_is(81, 263, 0.2553, 0.3662, 0.00006);
+	wilson_is(15, 148, 0.0624, 0.1605, 0.00006);
+	wilson_is(0, 20, 0.0000, 0.1611, 0.00006);
+	wilson_is(1, 29, 0.0061, 0.1718, 0.00006);
+	wilson_is(29, 29, 0.8830, 1.0000, 0.00006);
+}
+
+static void test_scipy_values(void **state)
+{
+	(void)state;
+	/* scipy 1.10 binomtest(k, n).proportion_ci(method="wilson"),
+	 * computed for REFERENCES.md */
+	wilson_is(81, 263, 0.255289, 0.366210, 0.000001);
+	wilson_is(15, 148, 0.062386, 0.160487, 0.000001);
+	wilson_is(1, 29, 0.006113, 0.171755, 0.000001);
+	/* 99 %: z = 2.575829 */
+	double a, b;
+	wilson(81, 263, 2.5758293035489, &a, &b);
+	assert_float_equal(a, 0.240137, 0.000001);
+	assert_float_equal(b, 0.385283, 0.000001);
+}
+
+static void test_edges(void **state)
+{
+	(void)state;
+	double a, b;
+	wilson(0, 0, STATS_Z95, &a, &b);
+	assert_float_equal(a, 0, 0);
+	assert_float_equal(b, 1, 0);
+	wilson(5, 3, STATS_Z95, &a, &b); /* k > n is no proportion */
+	assert_float_equal(a, 0, 0);
+	assert_float_equal(b, 1, 0);
+	for (uint64_t n = 1; n < 200; n += 7)
+		for (uint64_t k = 0; k <= n; k++) {
+			wilson(k, n, STATS_Z95, &a, &b);
+			assert_true(a >= 0 && a <= (double)k / (double)n + 1e-12);
+			assert_true(b <= 1 && b >= (double)k / (double)n - 1e-12);
+		}
+}
+
+int main(void)
+{
+	const struct CMUnitTest tests[] = {
+		cmocka_unit_test(test_newcombe),
+		cmocka_unit_test(test_scipy_values),
+		cmocka_unit_test(test_edges),
+	};
+	return cmocka_run_group_tests_name("stats", tests, NULL, NULL);
+}
