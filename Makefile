@@ -31,7 +31,7 @@ BUILD ?= build
 CORE = buf decode unicode token lexicon norm pass_gender pass_noise pass_place \
 	reader tsv jsonw jsonr setup lang strtab postings tally_mem store_redis \
 	stats labels
-CLI = cli_norm cli_tally cli_rank main
+CLI = cli_norm cli_tally cli_rank propose main
 CORE_OBJ = $(CORE:%=$(BUILD)/%.o)
 CLI_OBJ = $(CLI:%=$(BUILD)/%.o)
 UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_norm test_reader test_tally test_stats

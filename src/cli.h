@@ -9,5 +9,6 @@ int cmd_norm(int argc, char **argv);
 int cmd_tally(int argc, char **argv);
 int cmd_counts(int argc, char **argv);
 int cmd_coverage(int argc, char **argv);
+int cmd_propose(int argc, char **argv);
 
 #endif

@@ -114,6 +114,48 @@ oom:
 	return -1;
 }
 
+/* Loads the labels and the counts (tables, postings, a store) for the
+ * ranking commands.  *nmp and *lxp receive the normaliser and lexicon
+ * (the caller frees them).  Returns 0, or -1 with a message in err. */
+int coverage_load(tally_mem *m, labelset *ls, normaliser **nmp, lexicon **lxp,
+		  setup_opts *so, const char *surl, store_conf *sc, int argc, char **argv,
+		  int first, tm_buf *err);
+
+int coverage_load(tally_mem *m, labelset *ls, normaliser **nmp, lexicon **lxp,
+		  setup_opts *so, const char *surl, store_conf *sc, int argc, char **argv,
+		  int first, tm_buf *err)
+{
+	memset(ls, 0, sizeof *ls);
+	if (!(*lxp = setup_lexicon(so, err)))
+		return -1;
+	*nmp = norm_new(*lxp);
+	if (!*nmp || norm_memo(*nmp, 16u << 20) != 0) {
+		buf_puts(err, "out of memory");
+		return -1;
+	}
+	if (labels_read(ls, so->labels, *nmp, stderr, err) != 0)
+		return -1;
+	if (surl) {
+		store *st = store_open(surl, sc, err);
+		int rc = 0;
+		if (!st || st->ops->dump(st, m) != 0) {
+			if (st) {
+				buf_reset(err);
+				buf_append(err, st->err.data, st->err.len);
+			}
+			rc = -1;
+		}
+		store_close(st);
+		if (rc)
+			return -1;
+	}
+	for (int i = first; i < argc; i++)
+		if ((is_counts(argv[i]) ? tm_read(m, argv[i], err)
+					: count_postings(m, *nmp, argv[i], err)) != 0)
+			return -1;
+	return 0;
+}
+
 typedef struct top_t {
 	tm_buf title, key;
 	uint64_t n;

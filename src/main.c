@@ -18,6 +18,7 @@ static const char usage[] =
 	"  tally     count title variants per occupation and language\n"
 	"  counts    sum counts tables into one\n"
 	"  coverage  how much of each occupation's postings its labels match\n"
+	"  propose   scored suggestions: missing, rare and misused labels\n"
 	"\n"
 	"Run 'titlemill COMMAND --help' for the options of a command.\n";
 
@@ -44,6 +45,8 @@ int main(int argc, char **argv)
 		return cmd_counts(argc - 1, argv + 1);
 	if (!strcmp(argv[1], "coverage"))
 		return cmd_coverage(argc - 1, argv + 1);
+	if (!strcmp(argv[1], "propose"))
+		return cmd_propose(argc - 1, argv + 1);
 	fprintf(stderr, "titlemill: unknown command '%s'\n%s", argv[1], usage);
 	return EXIT_USAGE;
 }

@@ -75,6 +75,14 @@ static int word_unit(normaliser *nm, size_t k)
 	return t->kind == TK_WORD && ukept(nm, k) && !nm->prot[nm->unit[k]];
 }
 
+/* The base word of a gendered spelling may be protected (a label, such
+ * as "Verkäufer"): only its ending is removed. */
+static int base_unit(normaliser *nm, size_t k)
+{
+	const tm_tok *t = U(nm, k);
+	return t->kind == TK_WORD && ukept(nm, k);
+}
+
 /* Removes tokens after unit a up to and including unit b (and a closing
  * bracket right after b when open is set). */
 static int drop_after(normaliser *nm, size_t a, size_t b, int open)
@@ -111,7 +119,7 @@ static int pairs_and_suffixes(normaliser *nm)
 		size_t ta, tb, j = k + 1;
 		const tm_tok *x;
 
-		if (!word_unit(nm, k) || !word_unit(nm, j))
+		if (!base_unit(nm, k) || !word_unit(nm, j))
 			continue;
 		a = ufold(nm, k, &an);
 		b = ufold(nm, j, &bn);
@@ -181,7 +189,7 @@ static int capital_i(normaliser *nm)
 		char both[256];
 		size_t len;
 		if (!(t->flags & TF_CAPSUF) || nm->unit[k - 1] + 1 != nm->unit[k] ||
-		    !word_unit(nm, k) || !word_unit(nm, k - 1))
+		    !word_unit(nm, k) || !base_unit(nm, k - 1))
 			continue;
 		len = p->flen + t->flen;
 		if (len < sizeof both) {

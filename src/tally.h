@@ -88,6 +88,14 @@ typedef struct tm_triple {
  * Stops and returns fn's value when it is not 0; -1 when memory ran out. */
 int tm_each_triple(tally_mem *m, int (*fn)(void *ctx, const tm_triple *t), void *ctx);
 
+/* The examples of a triple (at most TALLY_EXAMPLES, byte order): their
+ * texts and lengths; returns their number.  Pointers into the engine. */
+int tm_examples(tally_mem *m, const char *occ, size_t ol, const char *lang,
+		const char *key, size_t kl, const char **text, size_t *len);
+
+/* Postings of a language and key whatever the occupation. */
+uint64_t tm_key_postings(tally_mem *m, const char *lang, const char *key, size_t kl);
+
 /* Postings of an occupation in a language (0 when unknown). */
 uint64_t tm_occ_postings(tally_mem *m, const char *occ, size_t ol, const char *lang);
 

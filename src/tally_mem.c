@@ -480,3 +480,43 @@ uint64_t tm_occ_postings(tally_mem *m, const char *occ, size_t ol, const char *l
 	i = st_find(&m->occs, m->scratch.data, m->scratch.len);
 	return i < 0 ? 0 : m->occs.ent[i].count;
 }
+
+int tm_examples(tally_mem *m, const char *occ, size_t ol, const char *lang,
+		const char *key, size_t kl, const char **text, size_t *len)
+{
+	long i;
+	int n = 0;
+	if (join(m, occ, ol, lang, strlen(lang), key, kl, NULL, 0))
+		return 0;
+	i = st_find(&m->exkeys, m->scratch.data, m->scratch.len);
+	if (i < 0)
+		return 0;
+	const struct tm_example *e = &m->ex[m->exkeys.ent[i].count];
+	for (int a = 0; a < e->n; a++) {
+		text[n] = m->exarena.data + e->off[a];
+		len[n++] = e->len[a];
+	}
+	/* byte order */
+	for (int a = 0; a < n; a++)
+		for (int b = a + 1; b < n; b++) {
+			srt x = {text[a], len[a], 0}, y = {text[b], len[b], 0};
+			if (cmp_srt(&x, &y) > 0) {
+				const char *t = text[a];
+				size_t l = len[a];
+				text[a] = text[b];
+				len[a] = len[b];
+				text[b] = t;
+				len[b] = l;
+			}
+		}
+	return n;
+}
+
+uint64_t tm_key_postings(tally_mem *m, const char *lang, const char *key, size_t kl)
+{
+	long i;
+	if (join(m, lang, strlen(lang), key, kl, NULL, 0, NULL, 0))
+		return 0;
+	i = st_find(&m->keys, m->scratch.data, m->scratch.len);
+	return i < 0 ? 0 : m->keys.ent[i].count;
+}

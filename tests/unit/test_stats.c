@@ -65,12 +65,43 @@ static void test_edges(void **state)
 		}
 }
 
+/* G^2 against REFERENCES.md: Dunning (1993) p. 72 (as cited, second
+ * hand) and scipy chi2_contingency(lambda_="log-likelihood",
+ * correction=False). */
+static void test_g2(void **state)
+{
+	(void)state;
+	assert_float_equal(g2(10, 0, 3, 31764), 167.229804, 0.00001);
+	assert_float_equal(g2(1, 0, 0, 1), 2.772589, 0.000001);
+	assert_float_equal(g2(10, 0, 0, 10), 27.72589, 0.00001);
+	assert_float_equal(g2(5, 1995, 0, 100000), 39.33052, 0.00001);
+	assert_float_equal(g2(1000, 1995, 1000, 100000), 4730.737, 0.001);
+	assert_float_equal(g2(10, 990, 5, 995), 1.711585, 0.000001);
+	assert_float_equal(g2(0, 0, 0, 0), 0, 0);
+}
+
+/* Levenshtein against REFERENCES.md's values (computed there). */
+static void test_levenshtein(void **state)
+{
+	(void)state;
+	assert_int_equal(levenshtein("kitten", 6, "sitting", 7, 9), 3);
+	assert_int_equal(levenshtein("Saturday", 8, "Sunday", 6, 9), 3);
+	assert_int_equal(levenshtein("flaw", 4, "lawn", 4, 9), 2);
+	assert_int_equal(levenshtein("", 0, "abc", 3, 9), 3);
+	assert_int_equal(levenshtein("gumbo", 5, "gambol", 6, 9), 2);
+	assert_int_equal(levenshtein("Straße", 7, "Strasse", 7, 9), 2); /* code points */
+	assert_int_equal(levenshtein("CA", 2, "ABC", 3, 9), 3);
+	assert_int_equal(levenshtein("kitten", 6, "sitting", 7, 1), 2); /* stops past max */
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(test_newcombe),
 		cmocka_unit_test(test_scipy_values),
 		cmocka_unit_test(test_edges),
+		cmocka_unit_test(test_g2),
+		cmocka_unit_test(test_levenshtein),
 	};
 	return cmocka_run_group_tests_name("stats", tests, NULL, NULL);
 }
