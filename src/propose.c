@@ -509,7 +509,16 @@ int cmd_propose(int argc, char **argv)
 				var = lb;
 		}
 		if (var) {
-			if (t->k < bar.hidden_min || prec < bar.hidden_precision)
+			/* a key that is some other occupation's label is no
+			 * misspelling: "delta01 agent" is not a typo of
+			 * "delta00 agent" when both are labels */
+			tm_buf j = {0};
+			buf_puts(&j, lg);
+			buf_putc(&j, '\x1F');
+			buf_append(&j, t->key, t->kl);
+			long other = st_find(&ls.keys, j.data, j.len);
+			buf_free(&j);
+			if (other >= 0 || t->k < bar.hidden_min || prec < bar.hidden_precision)
 				continue;
 			s.kind = K_HIDDEN;
 			s.lb = var;

@@ -1,0 +1,119 @@
+#!/bin/sh
+# titlemill propose: a planted-truth test (a generator of synthetic
+# postings, separate from the demo's, plants per occupation an unlisted
+# frequent title, a spacing variant of a label, an unused label and a
+# label used for another occupation, among decoys: a generic title, rare
+# one-offs, a label decorated with noise); every number printed against
+# scipy; determinism, and the same suggestions from postings, a counts
+# table and a store.
+. "$(dirname "$0")/lib.inc"
+T=$TITLEMILL
+
+/usr/bin/python3 - "$tmp" <<'PY'
+import sys
+d = sys.argv[1]
+N = 20
+lab = open(d + "/labels.tsv", "w", encoding="utf-8")
+lab.write("occupation\tkind\tlang\tlabel\n")
+post = open(d + "/postings.tsv", "w", encoding="utf-8")
+post.write("id\tlang\toccupations\ttitle\n")
+truth = open(d + "/truth.tsv", "w", encoding="utf-8")
+pid = 0
+def p(occ, title, n):
+    global pid
+    for _ in range(n):
+        pid += 1
+        post.write("%d\ten\tocc:%02d\t%s\n" % (pid, occ, title))
+for i in range(N):
+    o = "occ:%02d" % i
+    lab.write("%s\tpref\ten\tAlpha%02d Worker\n" % (o, i))
+    lab.write("%s\talt\ten\tGamma%02d Clerk\n" % (o, i))   # never used: rare
+    lab.write("%s\talt\ten\tDelta%02d Agent\n" % (o, i))   # used by the next one
+    p(i, "Alpha%02d Worker" % i, 900)
+    p(i, "Senior Alpha%02d Worker (m/w/d) - Berlin" % i, 5)  # decoy: the label with noise
+    p(i, "Beta%02d Specialist" % i, 30)                      # planted: new_alt_label
+    p(i, "Alpha%02dworker" % i, 10)                          # planted: new_hidden_label
+    p(i, "Assistant", 20)                                    # decoy: generic
+    p(i, "Omega%02d Thing" % i, 1)                           # decoy: a one-off
+    p(i, "Delta%02d Agent" % i, 2)
+    p((i + 1) % N, "Delta%02d Agent" % i, 8)                 # planted: used_elsewhere
+    truth.write("new_alt_label\t%s\tbeta%02d specialist\n" % (o, i))
+    truth.write("new_hidden_label\t%s\talpha%02dworker\n" % (o, i))
+    truth.write("rare_label\t%s\tgamma%02d clerk\n" % (o, i))
+    truth.write("used_elsewhere\t%s\tdelta%02d agent\n" % (o, i))
+PY
+
+$T propose --labels "$tmp/labels.tsv" "$tmp/postings.tsv" > "$tmp/s1" 2>/dev/null; check status 0 $?
+$T propose --labels "$tmp/labels.tsv" "$tmp/postings.tsv" > "$tmp/s2" 2>/dev/null
+cmp -s "$tmp/s1" "$tmp/s2"; check deterministic 0 $?
+$T tally --labels "$tmp/labels.tsv" "$tmp/postings.tsv" > "$tmp/c.tsv" 2>/dev/null
+$T propose --labels "$tmp/labels.tsv" "$tmp/c.tsv" > "$tmp/s3" 2>/dev/null
+cmp -s "$tmp/s1" "$tmp/s3"; check counts-equals-postings 0 $?
+
+# precision and recall of each kind against the planted truth, no decoy
+/usr/bin/python3 - "$tmp/s1" "$tmp/truth.tsv" > "$tmp/pr" <<'PY'
+import json, sys
+got = [json.loads(l) for l in open(sys.argv[1], encoding="utf-8")]
+truth = set(tuple(l.rstrip("\n").split("\t")) for l in open(sys.argv[2], encoding="utf-8"))
+kinds = ["new_alt_label", "new_hidden_label", "rare_label", "used_elsewhere"]
+ok = True
+for k in kinds:
+    g = set((s["kind"], s["occupation"], s["key"]) for s in got if s["kind"] == k)
+    t = set(x for x in truth if x[0] == k)
+    tp = len(g & t)
+    prec = tp / len(g) if g else 0
+    rec = tp / len(t) if t else 0
+    print("  %s: %d proposed, %d planted, precision %.2f, recall %.2f" % (k, len(g), len(t), prec, rec),
+          file=sys.stderr)
+    ok = ok and prec >= 0.9 and rec >= 0.9
+decoys = [s for s in got if s["key"] in ("assistant",) or s["key"].startswith("omega")
+          or s["key"].startswith("senior")]
+print("  decoys proposed: %d" % len(decoys), file=sys.stderr)
+print("ok" if ok and not decoys else "bad")
+PY
+check planted-truth ok "$(cat "$tmp/pr")"
+
+# every number, from the counts printed beside it, against scipy
+/usr/bin/python3 - "$tmp/s1" > "$tmp/sc" <<'PY'
+import json, sys
+from scipy.stats import binomtest, chi2_contingency
+bad = n = 0
+for l in open(sys.argv[1], encoding="utf-8"):
+    s = json.loads(l)
+    k, no, kt, nl = s["postings"], s["occupation_postings"], s["key_postings"], s["lang_postings"]
+    if no:
+        ci = binomtest(k, no).proportion_ci(method="wilson")
+        if abs(ci.low - s["share_low"]) > 6e-5 or abs(ci.high - s["share_high"]) > 6e-5:
+            bad += 1
+    t = [[k, kt - k], [no - k, nl - kt - no + k]]
+    if min(sum(t[0]), sum(t[1]), t[0][0] + t[1][0], t[0][1] + t[1][1]) > 0:
+        g = chi2_contingency(t, correction=False, lambda_="log-likelihood")[0]
+        if abs(g - s["g2"]) > 1e-3 * max(1, g):
+            bad += 1
+        n += 1
+print(bad, n)
+PY
+set -- $(cat "$tmp/sc")
+check g2-wilson-vs-scipy 0 "$1"
+[ "$2" -gt 10 ]; check g2-checked 0 $?
+
+# filters, TSV, bad options
+$T propose --labels "$tmp/labels.tsv" --kind rare_label --top 3 "$tmp/c.tsv" 2>/dev/null > "$tmp/f"
+check top-kind 3 "$(wc -l < "$tmp/f")"
+$T propose --labels "$tmp/labels.tsv" --tsv --occupation occ:03 "$tmp/c.tsv" 2>/dev/null > "$tmp/t"
+check tsv-rows 5 "$(wc -l < "$tmp/t")"
+$T propose --labels "$tmp/labels.tsv" --kind bogus "$tmp/c.tsv" > /dev/null 2>&1; check bad-kind 2 $?
+$T propose --labels "$tmp/labels.tsv" --min-share 2 "$tmp/c.tsv" > /dev/null 2>&1; check bad-share 2 $?
+
+# a store gives the same suggestions
+if command -v redis-server > /dev/null 2>&1; then
+	mkdir -p "$tmp/r"
+	redis-server --port 0 --unixsocket "$tmp/r/sock" --dir "$tmp/r" --save "" --appendonly no \
+		--daemonize yes --pidfile "$tmp/r/pid" > /dev/null
+	for i in 1 2 3 4 5 6 7 8 9 10; do [ -S "$tmp/r/sock" ] && break; sleep 0.2; done
+	$T tally --labels "$tmp/labels.tsv" --store "unix:$tmp/r/sock" "$tmp/postings.tsv" 2>/dev/null
+	$T propose --labels "$tmp/labels.tsv" --store "unix:$tmp/r/sock" > "$tmp/s4" 2>/dev/null
+	cmp -s "$tmp/s1" "$tmp/s4"; check store-equals-postings 0 $?
+	kill "$(cat "$tmp/r/pid")"
+fi
+finish
