@@ -1,16 +1,51 @@
 #!/bin/sh
-# make demo: the main job on the bundled example data, in memory, no
-# server.  examples/titles.txt is invented (our own employers such as
-# Nordwerk Logistik or Brennfeld Foods; the places are real).
+# make demo: the main job on the bundled example data, in memory, with no
+# server.  The scenario is our own: examples/taxonomy.tsv holds the labels
+# of 115 occupations in English, German and French (ordinary occupational
+# words; ids on the ISCO-08 pattern), and a day of some 55,000 postings
+# in those languages is generated deterministically by
+# tests/bench/gen_titles.py (seed 2026):
+# invented employers such as Valdoria Logistik or Brennfeld Foods, real
+# places.  examples/titles.txt is a short list of messy titles.
 set -eu
 T=${1:-./titlemill}
 here=$(cd "$(dirname "$0")" && pwd)
 out=${DEMO_OUT:-$here/../out}
 mkdir -p "$out"
+
+echo "== cleaning titles: titlemill norm examples/titles.txt"
 "$T" norm "$here/titles.txt" > "$out/titles.clean.txt"
 "$T" norm --json "$here/titles.txt" > "$out/titles.jsonl"
-echo "raw title  ->  clean title"
-paste -d '\t' "$here/titles.txt" "$out/titles.clean.txt" | head -25 |
-	awk -F '\t' '{ printf "  %-66s -> %s\n", substr($1, 1, 66), $2 }'
-n=$(wc -l < "$here/titles.txt")
-echo "... $n titles cleaned; full output: $out/titles.clean.txt, facets as JSON Lines: $out/titles.jsonl"
+paste -d '\t' "$here/titles.txt" "$out/titles.clean.txt" | head -12 |
+	awk -F '\t' '{ printf "  %-62s -> %s\n", substr($1, 1, 62), $2 }'
+echo "  ... all $(wc -l < "$here/titles.txt") in $out/titles.clean.txt (facets: $out/titles.jsonl)"
+
+echo
+echo "== a day of postings in English, German and French: generated (seed 2026)"
+/usr/bin/python3 "$here/../tests/bench/gen_titles.py" --postings --count 140000 --seed 2026 |
+	awk -F '\t' 'NR == 1 || $3 == "en" || $3 == "de" || $3 == "fr"' > "$out/day.tsv"
+"$T" tally --labels "$here/taxonomy.tsv" -o "$out/day.counts.tsv" "$out/day.tsv" 2>&1 | sed 's/^/  /'
+
+echo
+echo "== coverage: how much of each occupation's postings its labels match"
+"$T" coverage --labels "$here/taxonomy.tsv" "$out/day.counts.tsv" > "$out/coverage.tsv" 2> "$out/labels.warnings"
+tail -1 "$out/coverage.tsv" | awk -F '\t' '{ printf "  all occupations: %s postings, %s matched by a label (%.1f %%, 95 %% interval %.1f-%.1f %%), %.1f %% by the preferred label alone\n", $3, $4, 100 * $5, 100 * $6, 100 * $7, 100 * $9 }'
+echo "  the five occupations and languages with the lowest coverage (100 postings or more):"
+awk -F '\t' 'NR > 1 && $1 != "*" && $3 >= 100' "$out/coverage.tsv" | sort -t "$(printf '\t')" -k5,5g -k1,1 | head -5 |
+	awk -F '\t' '{ printf "    %-9s %s  %5.1f %% of %4d  biggest unmatched: %s\n", $1, $2, 100 * $5, $3, substr($12, 1, 70) }'
+
+echo
+echo "== suggestions for the curators: titlemill propose"
+"$T" propose --labels "$here/taxonomy.tsv" "$out/day.counts.tsv" > "$out/suggestions.jsonl" 2>/dev/null
+"$T" propose --labels "$here/taxonomy.tsv" --tsv "$out/day.counts.tsv" > "$out/suggestions.tsv" 2>/dev/null
+for k in new_alt_label new_hidden_label rare_label used_elsewhere; do
+	n=$(awk -F '\t' -v K=$k '$2 == K' "$out/suggestions.tsv" | wc -l)
+	echo "  $k: $n"
+	awk -F '\t' -v K=$k '$2 == K' "$out/suggestions.tsv" | head -3 |
+		awk -F '\t' '{ printf "    %-9s %s  \"%s\"  %s postings of %s, precision %.2f%s\n", $3, $4, $5, $7, $8, $13, ($16 != "" ? ", a variant of \"" $16 "\"" : "") }'
+done
+echo
+echo "  These are suggestions for a curator, who decides; each comes with its evidence."
+echo "  Full outputs: $out/coverage.tsv, $out/suggestions.jsonl (and .tsv), $out/day.counts.tsv"
+[ -s "$out/labels.warnings" ] && echo "  Label warnings: $out/labels.warnings ($(wc -l < "$out/labels.warnings") lines)"
+exit 0

@@ -113,7 +113,8 @@ static size_t ncp(const char *s, size_t n)
 
 /* Is key a spelling variant of label key lk?  "spacing": equal without
  * spaces (software entwickler, softwareentwickler; fork lift, forklift);
- * "typo": one edit (Levenshtein) apart, both of 8 code points or more. */
+ * "typo": the same words but one, and that one a single edit
+ * (Levenshtein) from its counterpart, both of six code points or more. */
 static const char *variant(const char *key, size_t kl, const char *lk, size_t ll)
 {
 	char a[512], b[512];
@@ -124,9 +125,21 @@ static const char *variant(const char *key, size_t kl, const char *lk, size_t ll
 	bn = nosep(lk, ll, b, sizeof b);
 	if (an == bn && an && !memcmp(a, b, an))
 		return "spacing";
-	if (ncp(key, kl) >= 8 && ncp(lk, ll) >= 8 && levenshtein(key, kl, lk, ll, 1) == 1)
-		return "typo";
-	return NULL;
+	/* one edit inside one word of six letters or more, the other words
+	 * the same: "schweisser" / "schweiser", not "tig" / "mig" */
+	const char *p = key, *q = lk, *pe = key + kl, *qe = lk + ll;
+	int diff = 0;
+	while (p < pe && q < qe) {
+		const char *a1 = memchr(p, ' ', (size_t)(pe - p)), *b1 = memchr(q, ' ', (size_t)(qe - q));
+		size_t wa = a1 ? (size_t)(a1 - p) : (size_t)(pe - p), wb = b1 ? (size_t)(b1 - q) : (size_t)(qe - q);
+		if (!same(p, wa, q, wb)) {
+			if (diff++ || ncp(p, wa) < 6 || ncp(q, wb) < 6 || levenshtein(p, wa, q, wb, 1) != 1)
+				return NULL;
+		}
+		p += wa + (a1 != NULL);
+		q += wb + (b1 != NULL);
+	}
+	return p >= pe && q >= qe && diff == 1 ? "typo" : NULL;
 }
 
 static int cmp_sugg(const void *a, const void *b)
