@@ -15,7 +15,7 @@ VERSION = 0.1.0
 
 CC ?= cc
 PKG_CONFIG ?= pkg-config
-LIBS_PC = libutf8proc jansson hiredis
+LIBS_PC = libutf8proc jansson hiredis serd-0
 PC_CFLAGS := $(shell $(PKG_CONFIG) --cflags $(LIBS_PC))
 PC_LIBS := $(shell $(PKG_CONFIG) --libs $(LIBS_PC))
 CMOCKA_CFLAGS := $(shell $(PKG_CONFIG) --cflags cmocka)
@@ -30,7 +30,7 @@ override LDLIBS += $(PC_LIBS) -lm
 BUILD ?= build
 CORE = buf decode unicode token lexicon norm pass_gender pass_noise pass_place \
 	reader tsv jsonw jsonr setup lang strtab postings tally_mem store_redis \
-	stats labels
+	stats labels skos
 CLI = cli_norm cli_tally cli_rank propose main
 CORE_OBJ = $(CORE:%=$(BUILD)/%.o)
 CLI_OBJ = $(CLI:%=$(BUILD)/%.o)

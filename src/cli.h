@@ -10,5 +10,6 @@ int cmd_tally(int argc, char **argv);
 int cmd_counts(int argc, char **argv);
 int cmd_coverage(int argc, char **argv);
 int cmd_propose(int argc, char **argv);
+int cmd_labels(int argc, char **argv);
 
 #endif

@@ -452,3 +452,62 @@ int cmd_coverage(int argc, char **argv)
 	buf_free(&err);
 	return rc;
 }
+
+/* titlemill labels: a taxonomy's labels (TSV or SKOS) as a labels TSV
+ * with their match keys. */
+int cmd_labels(int argc, char **argv)
+{
+	setup_opts so;
+	tm_buf err = {0}, out = {0};
+	int rc = EXIT_OK;
+
+	memset(&so, 0, sizeof so);
+	if (argc < 2 || !strcmp(argv[1], "--help") || !strcmp(argv[1], "-h")) {
+		fputs("usage: titlemill labels FILE...\n\n"
+		      "Prints the labels of labels TSVs or SKOS files (Turtle .ttl, N-Triples .nt:\n"
+		      "skos:prefLabel, altLabel, hiddenLabel with a language tag) as one labels\n"
+		      "TSV, with each label's match key; doubtful labels are reported.\n",
+		      argc < 2 ? stderr : stdout);
+		return argc < 2 ? EXIT_USAGE : EXIT_OK;
+	}
+	lexicon *lx = setup_lexicon(&so, &err);
+	normaliser *nm = lx ? norm_new(lx) : NULL;
+	if (!nm) {
+		fprintf(stderr, "titlemill labels: %.*s\n", (int)err.len, err.data ? err.data : "out of memory");
+		lex_free(lx);
+		return EXIT_RUNTIME;
+	}
+	buf_puts(&out, "occupation\tkind\tlang\tlabel\tkey\n");
+	for (int i = 1; i < argc && rc == EXIT_OK; i++) {
+		labelset ls;
+		if (labels_read(&ls, argv[i], nm, stderr, &err) != 0) {
+			fprintf(stderr, "titlemill labels: %.*s\n", (int)err.len, err.data);
+			rc = EXIT_RUNTIME;
+		} else
+			for (size_t k = 0; k < ls.n; k++) {
+				const label *lb = &ls.v[k];
+				buf_append(&out, lab_str(&ls, lb->occ), lb->occlen);
+				buf_puts(&out, lb->kind == 'p' ? "\tpref\t" : lb->kind == 'a' ? "\talt\t" : "\thidden\t");
+				buf_puts(&out, lb->lang);
+				buf_putc(&out, '\t');
+				/* a TAB or newline in a literal would break the table */
+				for (uint32_t q = 0; q < lb->textlen; q++) {
+					char ch = lab_str(&ls, lb->text)[q];
+					buf_putc(&out, ch == '\t' || ch == '\n' || ch == '\r' ? ' ' : ch);
+				}
+				buf_putc(&out, '\t');
+				buf_append(&out, lab_str(&ls, lb->key), lb->keylen);
+				buf_putc(&out, '\n');
+			}
+		labels_free(&ls);
+	}
+	if (rc == EXIT_OK && (fwrite(out.data, 1, out.len, stdout) != out.len || fflush(stdout))) {
+		fprintf(stderr, "titlemill labels: write error: %s\n", strerror(errno));
+		rc = EXIT_RUNTIME;
+	}
+	buf_free(&out);
+	buf_free(&err);
+	norm_free(nm);
+	lex_free(lx);
+	return rc;
+}

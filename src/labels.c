@@ -5,6 +5,7 @@
 #include <string.h>
 
 #include "lang.h"
+#include "skos.h"
 #include "tsv.h"
 
 static int fail(tm_buf *err, const char *name, long line, const char *what)
@@ -38,6 +39,117 @@ const label *labels_find(const labelset *ls, const char *occ, size_t ol,
 	return i < 0 ? NULL : &ls->v[ls->index.ent[i].count - 1];
 }
 
+/* Adds one label (lb has kind, lang and line) with its key. */
+static int add_one(labelset *ls, normaliser *nm, label *lbp, const char *o, size_t on,
+		   const char *x, size_t xn, const char *name, FILE *warn, tm_buf *jb, tm_buf *err)
+{
+	label lb = *lbp;
+	norm_result res;
+	size_t idx;
+	const char *lang = lb.lang;
+	long line = lb.line;
+
+	if (norm_key_only(nm, x, xn, &res) != 0)
+		return fail(err, name, line, "out of memory");
+	if (!res.key_len) {
+		ls->empty++;
+		if (warn)
+			fprintf(warn, "titlemill: %s:%ld: label '%.*s' normalises to nothing; left out\n",
+				name, line, (int)xn, x);
+		return 0;
+	}
+	lb.occ = (uint32_t)ls->arena.len;
+	lb.occlen = (uint32_t)on;
+	if (buf_append(&ls->arena, o, on) || buf_putc(&ls->arena, 0))
+		goto oom;
+	lb.text = (uint32_t)ls->arena.len;
+	lb.textlen = (uint32_t)xn;
+	if (buf_append(&ls->arena, x, xn) || buf_putc(&ls->arena, 0))
+		goto oom;
+	lb.key = (uint32_t)ls->arena.len;
+	lb.keylen = (uint32_t)res.key_len;
+	if (buf_append(&ls->arena, res.key, res.key_len) || buf_putc(&ls->arena, 0))
+		goto oom;
+	if (ls->n == ls->cap) {
+		size_t cap = ls->cap ? ls->cap * 2 : 256;
+		label *p = realloc(ls->v, cap * sizeof *p);
+		if (!p)
+			goto oom;
+		ls->v = p;
+		ls->cap = cap;
+	}
+	ls->v[ls->n++] = lb;
+	if (join3(jb, o, on, lang, lab_str(ls, lb.key), lb.keylen) ||
+	    st_add(&ls->index, jb->data, jb->len, 0, &idx) < 0)
+		goto oom;
+	if (lb.kind == 'p' && st_add(&ls->prefs, jb->data, jb->len, 0, NULL) < 0)
+		goto oom;
+	if (!ls->index.ent[idx].count) {
+		ls->index.ent[idx].count = ls->n;
+		buf_reset(jb);
+		if (buf_append(jb, o, on) || buf_putc(jb, '\x1F') || buf_puts(jb, lang) ||
+		    st_add(&ls->perocc, jb->data, jb->len, 1, NULL) < 0)
+			goto oom;
+	}
+	if (join3(jb, NULL, 0, lang, lab_str(ls, lb.key), lb.keylen) ||
+	    st_add(&ls->keys, jb->data, jb->len, 0, &idx) < 0)
+		goto oom;
+	if (!ls->keys.ent[idx].count)
+		ls->keys.ent[idx].count = ls->n;
+	else {
+		const label *f = &ls->v[ls->keys.ent[idx].count - 1];
+		if (f->occlen != on || memcmp(lab_str(ls, f->occ), o, on)) {
+			ls->collisions++;
+			if (warn)
+				fprintf(warn, "titlemill: %s:%ld: label '%.*s' of %.*s has the key '%s' of "
+					"label '%s' of %s (line %ld)\n",
+					name, line, (int)xn, x, (int)on, o, lab_str(ls, lb.key),
+					lab_str(ls, f->text), lab_str(ls, f->occ), f->line);
+		}
+	}
+	return 0;
+oom:
+	return fail(err, name, line, "out of memory");
+}
+
+/* SKOS: the callback of skos_read */
+typedef struct skctx {
+	labelset *ls;
+	normaliser *nm;
+	const char *path;
+	FILE *warn;
+	tm_buf *err, j;
+	long n;
+} skctx;
+
+static int on_skos(void *c0, const char *occ, size_t ol, char kind, const char *lang,
+		   size_t ll, const char *text, size_t tl)
+{
+	skctx *c = c0;
+	label lb;
+	char tag[64];
+	memset(&lb, 0, sizeof lb);
+	lb.kind = kind;
+	lb.line = ++c->n; /* the n-th label statement */
+	if (ll >= sizeof tag || memchr(occ, '\x1F', ol))
+		return fail(c->err, c->path, 0, "a label with a bad language tag or subject");
+	memcpy(tag, lang, ll);
+	tag[ll] = 0;
+	if (lang_tag(tag, lb.lang) != 0) {
+		char m[120];
+		snprintf(m, sizeof m, "bad language tag '@%.40s'", tag);
+		return fail(c->err, c->path, 0, m);
+	}
+	return add_one(c->ls, c->nm, &lb, occ, ol, text, tl, c->path, c->warn, &c->j, c->err);
+}
+
+static int is_rdf(const char *path)
+{
+	size_t n = strlen(path);
+	return (n > 4 && !strcmp(path + n - 4, ".ttl")) || (n > 3 && !strcmp(path + n - 3, ".nt")) ||
+	       (n > 7 && !strcmp(path + n - 7, ".turtle"));
+}
+
 int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_buf *err)
 {
 	tsv_reader t;
@@ -45,6 +157,12 @@ int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_b
 	tm_buf j = {0};
 
 	memset(ls, 0, sizeof *ls);
+	if (is_rdf(path)) {
+		skctx c = {ls, nm, path, warn, err, {0}, 0};
+		int rc = skos_read(path, on_skos, &c, err);
+		buf_free(&c.j);
+		return rc;
+	}
 	if (tsv_open(&t, path) != 0) {
 		buf_reset(err);
 		buf_append(err, t.err.data, t.err.len);
@@ -67,7 +185,6 @@ int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_b
 		long line = t.lr.lineno;
 		char tag[64], lang[4];
 		label lb;
-		norm_result res;
 
 		memset(&lb, 0, sizeof lb);
 		lb.line = line;
@@ -96,67 +213,9 @@ int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_b
 			break;
 		}
 		memcpy(lb.lang, lang, sizeof lang);
-		if (norm_key_only(nm, x, xn, &res) != 0) {
-			r = fail(err, t.lr.name, line, "out of memory");
+		if (add_one(ls, nm, &lb, o, on, x, xn, t.lr.name, warn, &j, err) != 0) {
+			r = -1;
 			break;
-		}
-		if (!res.key_len) {
-			ls->empty++;
-			if (warn)
-				fprintf(warn, "titlemill: %s:%ld: label '%.*s' normalises to nothing; left out\n",
-					t.lr.name, line, (int)xn, x);
-			continue;
-		}
-		lb.occ = (uint32_t)ls->arena.len;
-		lb.occlen = (uint32_t)on;
-		if (buf_append(&ls->arena, o, on) || buf_putc(&ls->arena, 0))
-			goto oom;
-		lb.text = (uint32_t)ls->arena.len;
-		lb.textlen = (uint32_t)xn;
-		if (buf_append(&ls->arena, x, xn) || buf_putc(&ls->arena, 0))
-			goto oom;
-		lb.key = (uint32_t)ls->arena.len;
-		lb.keylen = (uint32_t)res.key_len;
-		if (buf_append(&ls->arena, res.key, res.key_len) || buf_putc(&ls->arena, 0))
-			goto oom;
-		if (ls->n == ls->cap) {
-			size_t cap = ls->cap ? ls->cap * 2 : 256;
-			label *p = realloc(ls->v, cap * sizeof *p);
-			if (!p)
-				goto oom;
-			ls->v = p;
-			ls->cap = cap;
-		}
-		ls->v[ls->n++] = lb;
-		size_t idx;
-		if (join3(&j, o, on, lang, lab_str(ls, lb.key), lb.keylen) ||
-		    st_add(&ls->index, j.data, j.len, 0, &idx) < 0)
-			goto oom;
-		if (lb.kind == 'p' && st_add(&ls->prefs, j.data, j.len, 0, NULL) < 0)
-			goto oom;
-		if (!ls->index.ent[idx].count) {
-			ls->index.ent[idx].count = ls->n;
-			buf_reset(&j);
-			if (buf_append(&j, o, on) || buf_putc(&j, '\x1F') || buf_puts(&j, lang) ||
-			    st_add(&ls->perocc, j.data, j.len, 1, NULL) < 0)
-				goto oom;
-		}
-		/* the same key under another occupation */
-		if (join3(&j, NULL, 0, lang, lab_str(ls, lb.key), lb.keylen) ||
-		    st_add(&ls->keys, j.data, j.len, 0, &idx) < 0)
-			goto oom;
-		if (!ls->keys.ent[idx].count)
-			ls->keys.ent[idx].count = ls->n;
-		else {
-			const label *f = &ls->v[ls->keys.ent[idx].count - 1];
-			if (f->occlen != on || memcmp(lab_str(ls, f->occ), o, on)) {
-				ls->collisions++;
-				if (warn)
-					fprintf(warn, "titlemill: %s:%ld: label '%.*s' of %.*s has the key '%s' of "
-						"label '%s' of %s (line %ld)\n",
-						t.lr.name, line, (int)xn, x, (int)on, o, lab_str(ls, lb.key),
-						lab_str(ls, f->text), lab_str(ls, f->occ), f->line);
-			}
 		}
 	}
 	buf_free(&j);
@@ -166,10 +225,6 @@ int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_b
 	}
 	tsv_close(&t);
 	return r < 0 ? -1 : 0;
-oom:
-	buf_free(&j);
-	tsv_close(&t);
-	return fail(err, path, 0, "out of memory");
 }
 
 int labels_is_pref(const labelset *ls, const char *occ, size_t ol, const char *lang,

@@ -1,0 +1,127 @@
+/* skos.c - SKOS labels through serd. */
+#include "skos.h"
+
+#include <serd/serd.h>
+#include <stdarg.h>
+#include <stdio.h>
+#include <string.h>
+
+#define SKOS "http://www.w3.org/2004/02/skos/core#"
+
+typedef struct rd {
+	SerdEnv *env;
+	skos_label_fn fn;
+	void *ctx;
+	tm_buf *err;
+	const char *path;
+	int failed;
+} rd;
+
+static SerdStatus on_base(void *h, const SerdNode *uri)
+{
+	rd *r = h;
+	return serd_env_set_base_uri(r->env, uri);
+}
+
+static SerdStatus on_prefix(void *h, const SerdNode *name, const SerdNode *uri)
+{
+	rd *r = h;
+	return serd_env_set_prefix(r->env, name, uri);
+}
+
+static SerdStatus on_statement(void *h, SerdStatementFlags flags, const SerdNode *graph,
+			       const SerdNode *subject, const SerdNode *predicate,
+			       const SerdNode *object, const SerdNode *datatype,
+			       const SerdNode *lang)
+{
+	rd *r = h;
+	SerdNode p, s;
+	char kind = 0;
+	SerdStatus st = SERD_SUCCESS;
+	(void)flags;
+	(void)graph;
+	(void)datatype;
+
+	if (object->type != SERD_LITERAL || !lang || !lang->n_bytes)
+		return SERD_SUCCESS;
+	p = serd_env_expand_node(r->env, predicate);
+	if (p.buf) {
+		const char *u = (const char *)p.buf;
+		if (!strcmp(u, SKOS "prefLabel"))
+			kind = 'p';
+		else if (!strcmp(u, SKOS "altLabel"))
+			kind = 'a';
+		else if (!strcmp(u, SKOS "hiddenLabel"))
+			kind = 'h';
+	}
+	serd_node_free(&p);
+	if (!kind)
+		return SERD_SUCCESS;
+	s = serd_env_expand_node(r->env, subject);
+	const SerdNode *sub = s.buf ? &s : subject;
+	if (r->fn(r->ctx, (const char *)sub->buf, sub->n_bytes, kind, (const char *)lang->buf,
+		  lang->n_bytes, (const char *)object->buf, object->n_bytes) != 0) {
+		r->failed = 1;
+		st = SERD_FAILURE;
+	}
+	serd_node_free(&s);
+	return st;
+}
+
+static SerdStatus on_error(void *h, const SerdError *e)
+{
+	rd *r = h;
+	char msg[300], full[700];
+	va_list ap;
+	va_copy(ap, *e->args);
+	vsnprintf(msg, sizeof msg, e->fmt, ap);
+	va_end(ap);
+	size_t n = strlen(msg);
+	while (n && (msg[n - 1] == '\n' || msg[n - 1] == ' '))
+		msg[--n] = 0;
+	snprintf(full, sizeof full, "%s:%u:%u: %s", r->path, e->line, e->col, msg);
+	if (!r->err->len) {
+		buf_reset(r->err);
+		buf_puts(r->err, full);
+	}
+	r->failed = 1;
+	return SERD_SUCCESS;
+}
+
+int skos_read(const char *path, skos_label_fn fn, void *ctx, tm_buf *err)
+{
+	size_t n = strlen(path);
+	SerdSyntax syn = n > 3 && !strcmp(path + n - 3, ".nt") ? SERD_NTRIPLES : SERD_TURTLE;
+	rd r = {0};
+	SerdReader *reader;
+	SerdStatus st;
+
+	buf_reset(err);
+	r.env = serd_env_new(NULL);
+	r.fn = fn;
+	r.ctx = ctx;
+	r.err = err;
+	r.path = path;
+	reader = serd_reader_new(syn, &r, NULL, on_base, on_prefix, on_statement, NULL);
+	if (!reader || !r.env) {
+		buf_puts(err, "out of memory");
+		serd_reader_free(reader);
+		serd_env_free(r.env);
+		return -1;
+	}
+	serd_reader_set_strict(reader, true);
+	serd_reader_set_error_sink(reader, on_error, &r);
+	st = serd_reader_read_file(reader, (const uint8_t *)path);
+	serd_reader_free(reader);
+	serd_env_free(r.env);
+	if (st != SERD_SUCCESS || r.failed) {
+		if (!err->len) {
+			char m[600];
+			snprintf(m, sizeof m, "%s: %s", path,
+				 st == SERD_ERR_UNKNOWN ? "cannot be read" : (const char *)serd_strerror(st));
+			buf_puts(err, m);
+		}
+		return -1;
+	}
+	return 0;
+}
