@@ -97,6 +97,7 @@ fuzz: fuzz-build
 bench: titlemill
 	sh tests/bench/run.sh $(CURDIR)/titlemill
 	sh tests/bench/tally.sh $(CURDIR)/titlemill
+	sh tests/bench/rank.sh $(CURDIR)/titlemill
 
 demo: titlemill
 	sh examples/demo.sh $(CURDIR)/titlemill

@@ -376,8 +376,9 @@ int cmd_propose(int argc, char **argv)
 	ctx c = {0};
 	sugg *sv = NULL;
 	size_t ns = 0, scap = 0;
-	strtab kidx = {0};
+	strtab kidx = {0}, groups = {0}, tidx = {0};
 	best2 *best = NULL;
+	uint32_t *order = NULL;
 
 	memset(&so, 0, sizeof so);
 	optind = 1;
@@ -452,6 +453,20 @@ int cmd_propose(int argc, char **argv)
 			goto oom;
 		best2 *bb = &best[idx];
 		uint32_t me = (uint32_t)i + 1;
+		{
+			tm_buf j2 = {0};
+			size_t ti;
+			buf_append(&j2, c.t[i].occ, c.t[i].ol);
+			buf_putc(&j2, '\x1F');
+			buf_append(&j2, c.t[i].lang, c.t[i].ll);
+			buf_putc(&j2, '\x1F');
+			buf_append(&j2, c.t[i].key, c.t[i].kl);
+			int r2 = st_add(&tidx, j2.data, j2.len, 0, &ti);
+			buf_free(&j2);
+			if (r2 < 0)
+				goto oom;
+			tidx.ent[ti].count = i;
+		}
 		if (!bb->i1 || c.t[i].k > c.t[bb->i1 - 1].k) {
 			bb->i2 = bb->i1;
 			bb->i1 = me;
@@ -467,7 +482,48 @@ int cmd_propose(int argc, char **argv)
 		if (st_add(&nlang, k, sep ? (size_t)(sep - k) : n, m.keys.ent[i].count, NULL) < 0)
 			goto oom;
 	}
-	/* labels grouped by occupation and language, for the variants */
+	/* labels grouped by occupation and language, for the variants:
+	 * order[] holds each group's labels together, groups maps the group
+	 * to (start << 20 | count) */
+	order = malloc((ls.n + 1) * sizeof *order);
+	if (!order)
+		goto oom;
+	{
+		tm_buf j = {0};
+		size_t gidx;
+		uint64_t *cnt = calloc(ls.n + 1, sizeof *cnt);
+		uint32_t *gof = malloc((ls.n + 1) * sizeof *gof);
+		if (!cnt || !gof) {
+			free(cnt);
+			free(gof);
+			goto oom;
+		}
+		for (size_t q = 0; q < ls.n; q++) {
+			buf_reset(&j);
+			buf_append(&j, lab_str(&ls, ls.v[q].occ), ls.v[q].occlen);
+			buf_putc(&j, '\x1F');
+			buf_puts(&j, ls.v[q].lang);
+			if (st_add(&groups, j.data, j.len, 0, &gidx) < 0) {
+				free(cnt);
+				free(gof);
+				buf_free(&j);
+				goto oom;
+			}
+			gof[q] = (uint32_t)gidx;
+			cnt[gidx]++;
+		}
+		uint64_t at = 0;
+		for (size_t gq = 0; gq < groups.n; gq++) {
+			groups.ent[gq].count = at << 20 | (cnt[gq] & 0xFFFFF);
+			cnt[gq] = at;
+			at += groups.ent[gq].count & 0xFFFFF;
+		}
+		for (size_t q = 0; q < ls.n; q++)
+			order[cnt[gof[q]]++] = (uint32_t)q;
+		free(cnt);
+		free(gof);
+		buf_free(&j);
+	}
 	for (size_t i = 0; i < c.n; i++) {
 		const trip *t = &c.t[i];
 		char lg[4] = {0};
@@ -514,12 +570,19 @@ int cmd_propose(int argc, char **argv)
 		/* a spelling variant of one of its labels? */
 		const label *var = NULL;
 		const char *how = NULL;
-		for (size_t q = 0; q < ls.n && !var; q++) {
-			const label *lb = &ls.v[q];
-			if (strcmp(lb->lang, lg) || !same(lab_str(&ls, lb->occ), lb->occlen, t->occ, t->ol))
-				continue;
-			if ((how = variant(t->key, t->kl, lab_str(&ls, lb->key), lb->keylen)))
-				var = lb;
+		{
+			tm_buf j = {0};
+			buf_append(&j, t->occ, t->ol);
+			buf_putc(&j, '\x1F');
+			buf_puts(&j, lg);
+			long gi = st_find(&groups, j.data, j.len);
+			buf_free(&j);
+			uint64_t g = gi < 0 ? 0 : groups.ent[gi].count;
+			for (uint64_t q = g >> 20, e = q + (g & 0xFFFFF); q < e && !var; q++) {
+				const label *lb = &ls.v[order[q]];
+				if ((how = variant(t->key, t->kl, lab_str(&ls, lb->key), lb->keylen)))
+					var = lb;
+			}
 		}
 		if (var) {
 			/* a key that is some other occupation's label is no
@@ -588,14 +651,19 @@ int cmd_propose(int argc, char **argv)
 					rival = t;
 			}
 			/* the label's own count, when it is not among the best two */
-			if (!k)
-				for (size_t i = 0; i < c.n; i++)
-					if (same(c.t[i].occ, c.t[i].ol, occ, lb->occlen) &&
-					    same(c.t[i].key, c.t[i].kl, key, lb->keylen) &&
-					    c.t[i].ll == strlen(lb->lang) && !memcmp(c.t[i].lang, lb->lang, c.t[i].ll)) {
-						k = c.t[i].k;
-						break;
-					}
+			if (!k) {
+				long ti;
+				tm_buf j2 = {0};
+				buf_append(&j2, occ, lb->occlen);
+				buf_putc(&j2, '\x1F');
+				buf_puts(&j2, lb->lang);
+				buf_putc(&j2, '\x1F');
+				buf_append(&j2, key, lb->keylen);
+				ti = st_find(&tidx, j2.data, j2.len);
+				buf_free(&j2);
+				if (ti >= 0)
+					k = c.t[tidx.ent[ti].count].k;
+			}
 		}
 		sugg s;
 		memset(&s, 0, sizeof s);
@@ -671,6 +739,9 @@ oom:
 done:
 	free(sv);
 	free(best);
+	free(order);
+	st_free(&groups);
+	st_free(&tidx);
 	free(c.t);
 	st_free(&kidx);
 	buf_free(&out);
