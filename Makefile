@@ -59,9 +59,13 @@ NTEST = $(BUILD)/NormalizationTest.txt
 $(NTEST): | $(BUILD)
 	bzcat /usr/share/unicode/NormalizationTest.txt.bz2 > $@.tmp && mv $@.tmp $@
 
-unit: $(UNIT_BIN) $(NTEST)
+G2CASES = $(BUILD)/g2-cases.txt
+$(G2CASES): tests/unit/gen_g2_cases.py | $(BUILD)
+	/usr/bin/python3 tests/unit/gen_g2_cases.py $@.tmp && mv $@.tmp $@
+
+unit: $(UNIT_BIN) $(NTEST) $(G2CASES)
 	@set -e; for t in $(UNIT_BIN); do \
-		NORMALIZATION_TEST=$(NTEST) $$t; done
+		NORMALIZATION_TEST=$(NTEST) G2_CASES=$(CURDIR)/$(G2CASES) $$t; done
 
 test: titlemill unit
 	TITLEMILL=$(CURDIR)/titlemill sh tests/run-suites.sh

@@ -34,6 +34,9 @@ echo "  the five occupations and languages with the lowest coverage (100 posting
 awk -F '\t' 'NR > 1 && $1 != "*" && $3 >= 100' "$out/coverage.tsv" | sort -t "$(printf '\t')" -k5,5g -k1,1 | head -5 |
 	awk -F '\t' '{ printf "    %-9s %s  %5.1f %% of %4d  biggest unmatched: %s\n", $1, $2, 100 * $5, $3, substr($12, 1, 70) }'
 
+"$T" coverage --labels "$here/taxonomy.ttl" "$out/day.counts.tsv" > "$out/coverage.skos.tsv" 2>/dev/null
+echo "  the same taxonomy in SKOS (examples/taxonomy.ttl) gives the same coverage: $(cmp -s "$out/coverage.tsv" "$out/coverage.skos.tsv" && echo yes || echo NO)"
+
 echo
 echo "== suggestions for the curators: titlemill propose"
 "$T" propose --labels "$here/taxonomy.tsv" "$out/day.counts.tsv" > "$out/suggestions.jsonl" 2>/dev/null

@@ -8,6 +8,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include "skos.h"
 #include "tsv.h"
 
 #ifndef TM_LEXDIR
@@ -49,8 +50,28 @@ const char *setup_base_dir(void)
 	return NULL;
 }
 
+static int protect_one(void *ctx, const char *occ, size_t ol, char kind, const char *lang,
+			size_t ll, const char *text, size_t tl)
+{
+	tm_buf err = {0};
+	int r;
+	(void)occ;
+	(void)ol;
+	(void)kind;
+	(void)lang;
+	(void)ll;
+	r = lex_add(ctx, LC_PROTECT, "*", text, tl, "-", LW_ANY, &err);
+	buf_free(&err);
+	return r < 0 ? -1 : 0;
+}
+
 static int add_labels(lexicon *lx, const char *path, tm_buf *err)
 {
+	size_t pl = strlen(path);
+	if ((pl > 4 && !strcmp(path + pl - 4, ".ttl")) || (pl > 3 && !strcmp(path + pl - 3, ".nt")) ||
+	    (pl > 7 && !strcmp(path + pl - 7, ".turtle")))
+		return skos_read(path, protect_one, lx, err);
+
 	tsv_reader t;
 	int col, lcol, r;
 	char msg[600];

@@ -50,4 +50,17 @@ $T labels "$tmp/bad.ttl" > /dev/null 2> "$tmp/err"; check syntax-status 1 $?
 grep -q "bad.ttl:4:" "$tmp/err"; check syntax-line 0 $?
 printf '<a> <http://www.w3.org/2004/02/skos/core#prefLabel> "x"@x-!! .\n' > "$tmp/badlang.nt"
 $T labels "$tmp/badlang.nt" > /dev/null 2>&1; check bad-lang 1 $?
+# the demo taxonomy in TSV and in Turtle: the same labels, the same
+# coverage and suggestions (--labels takes either)
+ex=$(dirname "$0")/../../examples
+$T labels "$ex/taxonomy.ttl" | tail -n +2 | cut -f1-4 | sort > "$tmp/l.ttl"
+tail -n +2 "$ex/taxonomy.tsv" | sort > "$tmp/l.tsv"
+cmp -s "$tmp/l.ttl" "$tmp/l.tsv"; check demo-taxonomy-same-labels 0 $?
+/usr/bin/python3 "$(dirname "$0")/../bench/gen_titles.py" --postings --count 3000 --seed 4 > "$tmp/p.tsv"
+$T coverage --labels "$ex/taxonomy.ttl" "$tmp/p.tsv" > "$tmp/c1" 2>/dev/null
+$T coverage --labels "$ex/taxonomy.tsv" "$tmp/p.tsv" > "$tmp/c2" 2>/dev/null
+cmp -s "$tmp/c1" "$tmp/c2"; check coverage-ttl-equals-tsv 0 $?
+$T propose --labels "$ex/taxonomy.ttl" "$tmp/p.tsv" > "$tmp/s1" 2>/dev/null
+$T propose --labels "$ex/taxonomy.tsv" "$tmp/p.tsv" > "$tmp/s2" 2>/dev/null
+cmp -s "$tmp/s1" "$tmp/s2"; check propose-ttl-equals-tsv 0 $?
 finish

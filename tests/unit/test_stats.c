@@ -8,7 +8,10 @@
 #include <setjmp.h>
 #include <stdarg.h>
 #include <stddef.h>
+#include <math.h>
 #include <stdint.h>
+#include <stdio.h>
+#include <stdlib.h>
 
 #include <cmocka.h>
 
@@ -80,6 +83,41 @@ static void test_g2(void **state)
 	assert_float_equal(g2(0, 0, 0, 0), 0, 0);
 }
 
+/* G^2 on 500 random tables against scipy, read from the file that
+ * tests/unit/gen_g2_cases.py writes (G2_CASES; the Makefile's unit
+ * target makes it). */
+static void test_g2_random(void **state)
+{
+	(void)state;
+	const char *path = getenv("G2_CASES");
+	unsigned long long a, b, c, d;
+	double want;
+	int n = 0;
+	FILE *fp;
+	if (!path)
+		fail_msg("G2_CASES is not set (run the tests through make unit)");
+	fp = fopen(path, "r");
+	assert_non_null(fp);
+	while (fscanf(fp, "%llu %llu %llu %llu %lf", &a, &b, &c, &d, &want) == 5) {
+		double got = g2(a, b, c, d);
+		if (fabs(got - want) > 1e-6 * (want > 1 ? want : 1))
+			fail_msg("g2(%llu, %llu, %llu, %llu) = %.10g, scipy %.10g", a, b, c, d, got, want);
+		n++;
+	}
+	fclose(fp);
+	assert_int_equal(n, 500);
+}
+
+/* The chi-square critical values with 1 degree of freedom, from handbook
+ * tables (from memory; scipy chi2.isf agrees, REFERENCES.md): the
+ * constant the ranker uses is the p = 0.001 one. */
+static void test_chi2_critical(void **state)
+{
+	(void)state;
+	assert_float_equal(STATS_CHI2_1DF_P001, 10.828, 0.0005);
+	assert_float_equal(STATS_Z95 * STATS_Z95, 3.841, 0.0005); /* p = 0.05 */
+}
+
 /* Levenshtein against REFERENCES.md's values (computed there). */
 static void test_levenshtein(void **state)
 {
@@ -101,6 +139,8 @@ int main(void)
 		cmocka_unit_test(test_scipy_values),
 		cmocka_unit_test(test_edges),
 		cmocka_unit_test(test_g2),
+		cmocka_unit_test(test_g2_random),
+		cmocka_unit_test(test_chi2_critical),
 		cmocka_unit_test(test_levenshtein),
 	};
 	return cmocka_run_group_tests_name("stats", tests, NULL, NULL);
