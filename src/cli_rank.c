@@ -87,19 +87,7 @@ static int count_postings(tally_mem *m, normaliser *nm, const char *path, tm_buf
 		}
 		if (norm_title(nm, p.title, p.titlelen, strcmp(p.lang, "und") ? p.lang : NULL, &res))
 			goto oom;
-		memset(&tp, 0, sizeof tp);
-		tp.id = p.id;
-		tp.idlen = p.idlen;
-		tp.lang = p.lang;
-		tp.key = res.key;
-		tp.keylen = res.key_len;
-		tp.title = res.title;
-		tp.titlelen = res.title_len;
-		tp.example = res.masked;
-		tp.examplelen = res.masked_len;
-		tp.occ = p.occ;
-		tp.occlen = p.occlen;
-		tp.nocc = p.nocc;
+		cli_tally_posting(&tp, &p, &res);
 		if (tm_add(m, &tp) < 0)
 			goto oom;
 	}

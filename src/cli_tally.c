@@ -307,19 +307,7 @@ int cmd_tally(int argc, char **argv)
 				rc = EXIT_RUNTIME;
 				break;
 			}
-			memset(&tp, 0, sizeof tp);
-			tp.id = p.id;
-			tp.idlen = p.idlen;
-			tp.lang = p.lang;
-			tp.key = res.key;
-			tp.keylen = res.key_len;
-			tp.title = res.title;
-			tp.titlelen = res.title_len;
-			tp.example = res.masked;
-			tp.examplelen = res.masked_len;
-			tp.occ = p.occ;
-			tp.occlen = p.occlen;
-			tp.nocc = p.nocc;
+			cli_tally_posting(&tp, &p, &res);
 			if (st) {
 				/* the chunk's digest: its postings as read */
 				const char *fv[4] = {p.id ? p.id : "", p.lang, p.title, p.date ? p.date : ""};
