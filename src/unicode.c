@@ -265,26 +265,24 @@ static int fast_map(uni_ctx *u, const char *s, size_t n, tm_buf *out, int fold)
 	return 1;
 }
 
+/* ASCII goes the general way (which has its own ASCII path); other text
+ * through the per-code-point tables when they cover it. */
+static int dispatch(uni_ctx *u, const char *s, size_t n, tm_buf *out, int fold)
+{
+	int r = 0;
+	if (!ascii_only(s, n) && (r = fast_map(u, s, n, out, fold)) != 0)
+		return r < 0 ? -1 : 0;
+	return fold ? slow_fold(u, s, n, out) : slow_prepare(u, s, n, out);
+}
+
 int uni_prepare(uni_ctx *u, const char *s, size_t n, tm_buf *out)
 {
-	int r;
-	if (ascii_only(s, n))
-		return slow_prepare(u, s, n, out);
-	r = fast_map(u, s, n, out, 0);
-	if (r != 0)
-		return r < 0 ? -1 : 0;
-	return slow_prepare(u, s, n, out);
+	return dispatch(u, s, n, out, 0);
 }
 
 int uni_fold(uni_ctx *u, const char *s, size_t n, tm_buf *out)
 {
-	int r;
-	if (ascii_only(s, n))
-		return slow_fold(u, s, n, out);
-	r = fast_map(u, s, n, out, 1);
-	if (r != 0)
-		return r < 0 ? -1 : 0;
-	return slow_fold(u, s, n, out);
+	return dispatch(u, s, n, out, 1);
 }
 
 static int slow_prepare(uni_ctx *u, const char *s, size_t n, tm_buf *out)

@@ -67,14 +67,11 @@ assert any(r["top_unmatched"] for r in rows)
 
 # the store gives the same as the table
 if command -v redis-server > /dev/null 2>&1; then
-	mkdir -p "$tmp/r"
-	redis-server --port 0 --unixsocket "$tmp/r/sock" --dir "$tmp/r" --save "" --appendonly no \
-		--daemonize yes --pidfile "$tmp/r/pid" > /dev/null
-	for i in 1 2 3 4 5 6 7 8 9 10; do [ -S "$tmp/r/sock" ] && break; sleep 0.2; done
+	redis_start "$tmp/r" --appendonly no || exit 1
 	$T tally --labels "$tmp/labels.tsv" --store "unix:$tmp/r/sock" "$tmp/p.tsv" 2>/dev/null
 	$T coverage --labels "$tmp/labels.tsv" --store "unix:$tmp/r/sock" > "$tmp/from-store" 2>/dev/null
 	cmp -s "$tmp/from-store" "$tmp/from-counts"; check store-equals-counts 0 $?
-	kill "$(cat "$tmp/r/pid")"
+	redis_stop "$tmp/r"
 else
 	echo "  SKIPPED store check: redis-server is not installed"
 fi

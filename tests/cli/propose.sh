@@ -107,13 +107,10 @@ $T propose --labels "$tmp/labels.tsv" --min-share 2 "$tmp/c.tsv" > /dev/null 2>&
 
 # a store gives the same suggestions
 if command -v redis-server > /dev/null 2>&1; then
-	mkdir -p "$tmp/r"
-	redis-server --port 0 --unixsocket "$tmp/r/sock" --dir "$tmp/r" --save "" --appendonly no \
-		--daemonize yes --pidfile "$tmp/r/pid" > /dev/null
-	for i in 1 2 3 4 5 6 7 8 9 10; do [ -S "$tmp/r/sock" ] && break; sleep 0.2; done
+	redis_start "$tmp/r" --appendonly no || exit 1
 	$T tally --labels "$tmp/labels.tsv" --store "unix:$tmp/r/sock" "$tmp/postings.tsv" 2>/dev/null
 	$T propose --labels "$tmp/labels.tsv" --store "unix:$tmp/r/sock" > "$tmp/s4" 2>/dev/null
 	cmp -s "$tmp/s1" "$tmp/s4"; check store-equals-postings 0 $?
-	kill "$(cat "$tmp/r/pid")"
+	redis_stop "$tmp/r"
 fi
 finish

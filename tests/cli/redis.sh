@@ -11,18 +11,8 @@ if ! command -v redis-server > /dev/null 2>&1; then
 	exit 0
 fi
 gen=$(dirname "$0")/../bench/gen_titles.py
-start() { # start NAME [extra args]
-	name=$1; shift
-	mkdir -p "$tmp/$name"
-	redis-server --port 0 --unixsocket "$tmp/$name/sock" --dir "$tmp/$name" \
-		--save "" --daemonize yes --pidfile "$tmp/$name/pid" "$@" > /dev/null
-	for i in 1 2 3 4 5 6 7 8 9 10; do
-		[ -S "$tmp/$name/sock" ] && redis-cli -s "$tmp/$name/sock" ping > /dev/null 2>&1 && return 0
-		sleep 0.2
-	done
-	echo "  could not start redis-server ($name)"; return 1
-}
-stop() { [ -f "$tmp/$1/pid" ] && kill "$(cat "$tmp/$1/pid")" 2>/dev/null; sleep 0.3; }
+start() { redis_start "$tmp/$1" $(shift; echo "$@"); }
+stop() { redis_stop "$tmp/$1"; }
 trap 'stop a; stop b; stop c; rm -rf "$tmp"' EXIT INT TERM
 start a --appendonly no || exit 1
 S=unix:$tmp/a/sock
