@@ -94,19 +94,11 @@ static int drop_after(normaliser *nm, size_t a, size_t b, int open)
 	return remove_toks(nm, t0, t1, NF_GENDER, NULL);
 }
 
-/* "Koch oder Köchin": the words that join a pair. */
+/* "Koch oder Köchin": a connector of the units lexicon joins a pair. */
 static int is_conj(normaliser *nm, size_t k)
 {
-	static const char *const conj[] = {"oder", "or", "ou", "o", "of",
-					   "lub", "nebo", "eller", NULL};
-	uint32_t len;
-	const char *f = ufold(nm, k, &len);
-	if (len > 5)
-		return 0;
-	for (int i = 0; conj[i]; i++)
-		if (strlen(conj[i]) == len && memcmp(f, conj[i], len) == 0)
-			return 1;
-	return 0;
+	size_t len;
+	return match_val(nm, k, LC_UNIT, "connector", 1, &len) && len == 1;
 }
 
 static int pairs_and_suffixes(normaliser *nm)
