@@ -33,11 +33,3 @@ void buf_free(tm_buf *b)
 	b->data = NULL;
 	b->len = b->cap = 0;
 }
-
-const char *buf_cstr(tm_buf *b)
-{
-	if (buf_reserve(b, 1) != 0)
-		return NULL;
-	b->data[b->len] = '\0';
-	return b->data;
-}

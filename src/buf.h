@@ -49,8 +49,4 @@ static inline int buf_puts(tm_buf *b, const char *s)
 	return buf_append(b, s, strlen(s));
 }
 
-/* Terminates the contents with a NUL (not counted in len) and returns
- * the data pointer, or NULL when memory ran out. */
-const char *buf_cstr(tm_buf *b);
-
 #endif

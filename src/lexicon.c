@@ -26,16 +26,9 @@ typedef struct phrase {
 	uint8_t ntok;
 } phrase;
 
-typedef struct first_tok {
-	uint64_t h;
-	uint8_t maxlen; /* 0: empty slot */
-} first_tok;
-
 struct lexicon {
 	phrase *ph;      /* open addressing, power-of-two size */
 	size_t phcap, nph;
-	first_tok *ft;
-	size_t ftcap, nft;
 	lex_entry *ent;  /* ent[0] unused */
 	size_t nent, entcap;
 	tm_buf strs;
@@ -116,13 +109,11 @@ lexicon *lex_new(void)
 	/* sized for the bundled lexicons (about 90,000 phrases at a load of
 	 * at most 3/4), so loading them never rehashes */
 	lx->phcap = 1 << 17;
-	lx->ftcap = 1 << 17;
 	lx->ph = calloc(lx->phcap, sizeof *lx->ph);
-	lx->ft = calloc(lx->ftcap, sizeof *lx->ft);
 	lx->entcap = 1 << 17;
 	lx->ent = calloc(lx->entcap, sizeof *lx->ent);
 	lx->nent = 1;
-	if (!lx->ph || !lx->ft || !lx->ent || buf_putc(&lx->strs, 0) != 0) {
+	if (!lx->ph || !lx->ent || buf_putc(&lx->strs, 0) != 0) {
 		lex_free(lx);
 		return NULL;
 	}
@@ -136,7 +127,6 @@ void lex_free(lexicon *lx)
 	if (!lx)
 		return;
 	free(lx->ph);
-	free(lx->ft);
 	free(lx->ent);
 	buf_free(&lx->strs);
 	for (i = 0; i < lx->npairs; i++) {
@@ -206,58 +196,6 @@ static int rehash_ph(lexicon *lx)
 	return 0;
 }
 
-static int rehash_ft(lexicon *lx)
-{
-	size_t cap = lx->ftcap * 2, i;
-	first_tok *p = calloc(cap, sizeof *p);
-	if (!p)
-		return -1;
-	for (i = 0; i < lx->ftcap; i++) {
-		if (!lx->ft[i].maxlen)
-			continue;
-		size_t j = lx->ft[i].h & (cap - 1);
-		while (p[j].maxlen)
-			j = (j + 1) & (cap - 1);
-		p[j] = lx->ft[i];
-	}
-	free(lx->ft);
-	lx->ft = p;
-	lx->ftcap = cap;
-	return 0;
-}
-
-int lex_maxlen(const lexicon *lx, uint64_t th)
-{
-	size_t j = th & (lx->ftcap - 1);
-	while (lx->ft[j].maxlen) {
-		if (lx->ft[j].h == th)
-			return lx->ft[j].maxlen;
-		j = (j + 1) & (lx->ftcap - 1);
-	}
-	return 0;
-}
-
-static int note_first(lexicon *lx, uint64_t th, size_t ntok)
-{
-	size_t j;
-
-	if ((lx->nft + 1) * 4 > lx->ftcap * 3 && rehash_ft(lx) != 0)
-		return -1;
-	j = th & (lx->ftcap - 1);
-	while (lx->ft[j].maxlen) {
-		if (lx->ft[j].h == th) {
-			if (lx->ft[j].maxlen < ntok)
-				lx->ft[j].maxlen = (uint8_t)ntok;
-			return 0;
-		}
-		j = (j + 1) & (lx->ftcap - 1);
-	}
-	lx->ft[j].h = th;
-	lx->ft[j].maxlen = (uint8_t)ntok;
-	lx->nft++;
-	return 0;
-}
-
 static int same_phrase(const lexicon *lx, const phrase *p, size_t ntok,
 		       const char *const *fold, const uint32_t *flen)
 {
@@ -311,13 +249,6 @@ const lex_pair *lex_pairs(const lexicon *lx, size_t *n)
 {
 	*n = lx->npairs;
 	return lx->pairs;
-}
-
-size_t lex_size(const lexicon *lx, size_t *entries)
-{
-	if (entries)
-		*entries = lx->nent - 1;
-	return lx->nph;
 }
 
 static int parse_lang(const char *lang, char out[4], uint8_t *amb)
@@ -527,8 +458,6 @@ int lex_add(lexicon *lx, int cat, const char *lang, const char *ph,
 	}
 	p->slen = (uint32_t)(lx->strs.len - p->str);
 	lx->nph++;
-	if (note_first(lx, th[0], (size_t)nu) != 0)
-		return err_printf(err, "out of memory%s%s", "", "");
 	return 0;
 }
 

@@ -73,10 +73,6 @@ int lex_load_file(lexicon *lx, int cat, int gender_kind, const char *path,
 int lex_add(lexicon *lx, int cat, const char *lang, const char *phrase,
 	    size_t plen, const char *value, int where, tm_buf *err);
 
-/* The longest phrase length (in tokens) that starts with a token whose
- * fold has hash th; 0 when none does. */
-int lex_maxlen(const lexicon *lx, uint64_t th);
-
 /* The first entry of the phrase whose tokens have the given folds, or
  * NULL.  seq is the sequence hash (lex_seq_hash over the token hashes). */
 const lex_entry *lex_find(const lexicon *lx, uint64_t seq, size_t ntok,
@@ -98,9 +94,6 @@ int lex_maybe_prefix(const lexicon *lx, uint64_t seq);
 int lex_maybe_phrase(const lexicon *lx, uint64_t seq);
 
 const lex_pair *lex_pairs(const lexicon *lx, size_t *n);
-
-/* Number of phrases and entries, for --help and tests. */
-size_t lex_size(const lexicon *lx, size_t *entries);
 
 /* The folder name of a category ("seniority"). */
 const char *lex_cat_name(int cat);

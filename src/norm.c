@@ -100,13 +100,6 @@ static int grow_arrays(normaliser *nm, size_t ntok)
 	return 0;
 }
 
-int ufold_is(normaliser *nm, size_t k, const char *s)
-{
-	uint32_t len;
-	const char *f = ufold(nm, k, &len);
-	return strlen(s) == len && memcmp(f, s, len) == 0;
-}
-
 int entry_applies(const normaliser *nm, const lex_entry *e)
 {
 	if (e->off)

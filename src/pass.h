@@ -95,7 +95,6 @@ static inline const char *ufold(normaliser *nm, size_t k, uint32_t *len)
 	*len = t->flen;
 	return tok_fold(&nm->tl, t);
 }
-int ufold_is(normaliser *nm, size_t k, const char *s);
 static inline uint32_t useg(normaliser *nm, size_t k) { return nm->tseg[nm->unit[k]]; }
 
 /* The applicable entry of category cat for the longest phrase starting at

@@ -382,7 +382,8 @@ int cmd_propose(int argc, char **argv)
 
 	memset(&so, 0, sizeof so);
 	optind = 1;
-	while ((ch = getopt_long(argc, argv, "h", longopts, NULL)) != -1) {
+	int oi = 0;
+	while ((ch = getopt_long(argc, argv, "h", longopts, &oi)) != -1) {
 		int bad = 0;
 		switch (ch) {
 		case 'L': so.labels = optarg; break;
@@ -416,8 +417,8 @@ int cmd_propose(int argc, char **argv)
 		default: fputs(propose_usage, stderr); return EXIT_USAGE;
 		}
 		if (bad) {
-			fprintf(stderr, "titlemill propose: bad value '%s' for --%s\n", optarg,
-				longopts[0].name ? "option" : "");
+			fprintf(stderr, "titlemill propose: --%s: bad value '%s'\n",
+				longopts[oi].name, optarg);
 			return EXIT_USAGE;
 		}
 	}

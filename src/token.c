@@ -305,7 +305,6 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 		}
 		t->len = (uint32_t)(i - t->off);
 	}
-	tl->trailing_sp = sp;
 	/* folds */
 	for (size_t k = 0; k < tl->n; k++) {
 		tm_tok *t = &tl->t[k];

@@ -48,7 +48,6 @@ typedef struct tok_line {
 	tm_tok *t;
 	size_t n, cap;
 	tm_buf fold; /* the folds of all tokens, back to back */
-	int trailing_sp;
 } tok_line;
 
 /* Splits text[0..n) into tokens, replacing the previous contents of tl.

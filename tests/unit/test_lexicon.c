@@ -61,7 +61,9 @@ static void test_add_and_find(void **state)
 	assert_non_null(e);
 	assert_int_equal(e->cat, LC_PLACE);
 	assert_string_equal(e->value, "DE");
-	assert_int_equal(lex_maxlen(lx, tok_hash("full", 4)), 2);
+	/* the prefix filter knows "full" starts a phrase; "fuller" none */
+	assert_true(lex_maybe_prefix(lx, lex_seq_final(lex_seq_step(LEX_SEQ_SEED, tok_hash("full", 4)), 1)));
+	assert_false(lex_maybe_phrase(lx, lex_seq_final(lex_seq_step(LEX_SEQ_SEED, tok_hash("full", 4)), 1)));
 	/* bad values are refused with a message */
 	assert_int_equal(lex_add(lx, LC_SENIORITY, "de", "x", 1, "boss", LW_ANY, &err), -1);
 	assert_non_null(strstr(err.data, "unknown value 'boss'"));
