@@ -49,6 +49,20 @@ for k in new_alt_label new_hidden_label rare_label used_elsewhere; do
 done
 echo
 echo "  These are suggestions for a curator, who decides; each comes with its evidence."
-echo "  Full outputs: $out/coverage.tsv, $out/suggestions.jsonl (and .tsv), $out/day.counts.tsv"
+echo
+echo "== the curators' queue: titlemill review (here a curator called 'demo' decides three)"
+q=$out/queue.jsonl
+rm -f "$q" "$q.lock"
+"$T" review add --queue "$q" "$out/suggestions.jsonl" 2>&1 | sed 's/^/  /'
+ids=$("$T" review list --queue "$q" --kind new_alt_label --limit 3 | tail -n +2 | cut -f1)
+set -- $ids
+"$T" review accept --queue "$q" --reviewer demo --note "common wording" "$1" "$2" 2>&1 | sed 's/^/  /'
+"$T" review reject --queue "$q" --reviewer demo --note "already covered" "$3" 2>&1 | sed 's/^/  /'
+"$T" review export --queue "$q" -o "$out/delta.tsv"
+"$T" review export --queue "$q" --format turtle -o "$out/delta.ttl"
+echo "  the label delta for the taxonomy ($out/delta.tsv, and .ttl in SKOS):"
+cut -f1-6 "$out/delta.tsv" | sed 's/^/    /'
+"$T" review stats --queue "$q" | awk -F '\t' '$1 == "all" { printf "  queue: %s suggestions, %s open, %s accepted, %s rejected\n", $3, $4, $5, $6 }' 
+echo "  Full outputs: $out/coverage.tsv, $out/suggestions.jsonl (and .tsv), $out/day.counts.tsv, $out/queue.jsonl"
 [ -s "$out/labels.warnings" ] && echo "  Label warnings: $out/labels.warnings ($(wc -l < "$out/labels.warnings") lines)"
 exit 0

@@ -38,5 +38,6 @@ int cmd_counts(int argc, char **argv);
 int cmd_coverage(int argc, char **argv);
 int cmd_propose(int argc, char **argv);
 int cmd_labels(int argc, char **argv);
+int cmd_review(int argc, char **argv);
 
 #endif

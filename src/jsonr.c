@@ -42,9 +42,15 @@ void jr_free(jr_doc *d)
 	free(d);
 }
 
+static enum jr_type vtype(const json_t *v);
+
 enum jr_type jr_type(const jr_doc *d, const char *field)
 {
-	json_t *v = json_object_get(d->root, field);
+	return vtype(json_object_get(d->root, field));
+}
+
+static enum jr_type vtype(const json_t *v)
+{
 	if (!v)
 		return JR_MISSING;
 	if (json_is_null(v))
@@ -55,6 +61,10 @@ enum jr_type jr_type(const jr_doc *d, const char *field)
 		return JR_INT;
 	if (json_is_array(v))
 		return JR_ARRAY;
+	if (json_is_real(v))
+		return JR_REAL;
+	if (json_is_object(v))
+		return JR_OBJECT;
 	return JR_OTHER;
 }
 
@@ -84,4 +94,63 @@ const char *jr_elem_str(const jr_doc *d, const char *field, size_t i, size_t *n)
 		return NULL;
 	*n = json_string_length(v);
 	return json_string_value(v);
+}
+
+/* A jr_val is a json_t seen through an opaque name. */
+const jr_val *jr_root(const jr_doc *d)
+{
+	return d ? (const jr_val *)d->root : NULL;
+}
+
+const jr_val *jr_get(const jr_val *obj, const char *field)
+{
+	return (const jr_val *)json_object_get((const json_t *)obj, field);
+}
+
+const jr_val *jr_at(const jr_val *arr, size_t i)
+{
+	return (const jr_val *)json_array_get((const json_t *)arr, i);
+}
+
+enum jr_type jr_vtype(const jr_val *v)
+{
+	return vtype((const json_t *)v);
+}
+
+size_t jr_vlen(const jr_val *arr)
+{
+	return json_array_size((const json_t *)arr);
+}
+
+const char *jr_vstr(const jr_val *v, size_t *n)
+{
+	const json_t *j = (const json_t *)v;
+	if (!json_is_string(j))
+		return NULL;
+	*n = json_string_length(j);
+	return json_string_value(j);
+}
+
+long long jr_vint(const jr_val *v)
+{
+	return (long long)json_integer_value((const json_t *)v);
+}
+
+double jr_vnum(const jr_val *v)
+{
+	return json_number_value((const json_t *)v);
+}
+
+static int dump_cb(const char *s, size_t n, void *b)
+{
+	return buf_append(b, s, n);
+}
+
+int jr_dump(const jr_val *v, tm_buf *b)
+{
+	if (!v)
+		return buf_puts(b, "null");
+	return json_dump_callback((const json_t *)v, dump_cb, b,
+				  JSON_COMPACT | JSON_PRESERVE_ORDER | JSON_REAL_PRECISION(15) |
+				  JSON_ENCODE_ANY) ? -1 : 0;
 }

@@ -7,9 +7,11 @@
 
 #include <stddef.h>
 
+#include "buf.h"
+
 typedef struct jr_doc jr_doc;
 
-enum jr_type { JR_MISSING, JR_NULL, JR_STRING, JR_INT, JR_ARRAY, JR_OTHER };
+enum jr_type { JR_MISSING, JR_NULL, JR_STRING, JR_INT, JR_ARRAY, JR_OTHER, JR_REAL, JR_OBJECT };
 
 /* Parses s[0..n) as one JSON object.  Returns the document, or NULL with
  * a message (and the column) in err. */
@@ -25,5 +27,20 @@ long long jr_int(const jr_doc *d, const char *field);
  * element is not a string). */
 size_t jr_len(const jr_doc *d, const char *field);
 const char *jr_elem_str(const jr_doc *d, const char *field, size_t i, size_t *n);
+
+/* Values at any depth.  A jr_val is borrowed from its document and lives
+ * until jr_free; NULL stands for "absent" and every function accepts it. */
+typedef struct jr_val jr_val;
+const jr_val *jr_root(const jr_doc *d);
+const jr_val *jr_get(const jr_val *obj, const char *field); /* NULL if absent */
+const jr_val *jr_at(const jr_val *arr, size_t i);
+enum jr_type jr_vtype(const jr_val *v);
+size_t jr_vlen(const jr_val *arr);
+const char *jr_vstr(const jr_val *v, size_t *n); /* NULL unless a string */
+long long jr_vint(const jr_val *v);               /* 0 unless an integer */
+double jr_vnum(const jr_val *v);                  /* an integer or a real */
+/* Appends v as compact JSON (keys in their order, reals to 15 significant
+ * digits) to b.  Returns 0, or -1 when out of memory. */
+int jr_dump(const jr_val *v, tm_buf *b);
 
 #endif

@@ -11,6 +11,7 @@
 #include <string.h>
 
 #include "cli.h"
+#include "decode.h"
 #include "jsonw.h"
 #include "labels.h"
 #include "lang.h"
@@ -20,6 +21,7 @@
 #include "store.h"
 #include "tally.h"
 #include "token.h"
+#include "unicode.h"
 
 /* The evidence bars, with their defaults. */
 typedef struct bars {
@@ -173,6 +175,45 @@ static void put_u(tm_buf *b, uint64_t v)
 	buf_puts(b, s);
 }
 
+static int wordish(unsigned char c)
+{
+	return c >= 0x80 || (c >= '0' && c <= '9') || ((c | 0x20) >= 'a' && (c | 0x20) <= 'z');
+}
+
+/* The label as the postings write it: the first example holding the
+ * (lowercase) label as whole words, in mixed case rather than shouting
+ * capitals; appended to out, or nothing when no example shows it. */
+static void as_written(const char *const *ex, const size_t *exl, int nex, const char *text,
+		       size_t tl, tm_buf *out)
+{
+	tm_buf low = {0}, cand = {0};
+	for (int i = 0; i < nex && !out->len; i++) {
+		buf_reset(&low);
+		if (uni_lower(ex[i], exl[i], &low) || low.len != exl[i] || tl == 0 || tl > exl[i])
+			continue;
+		for (size_t o = 0; o + tl <= low.len; o++) {
+			if (memcmp(low.data + o, text, tl) ||
+			    (o > 0 && wordish((unsigned char)low.data[o - 1])) ||
+			    (o + tl < low.len && wordish((unsigned char)low.data[o + tl])))
+				continue;
+			/* all capitals says nothing about the usual casing (the
+			 * test looks at Latin letters only) */
+			int lower = 0;
+			for (size_t k = o; k < o + tl; k++)
+				lower |= ex[i][k] >= 'a' && ex[i][k] <= 'z';
+			if (lower) {
+				buf_reset(&cand);
+				buf_append(&cand, ex[i] + o, tl);
+				if (dec_is_utf8(cand.data, cand.len) && !memchr(cand.data, 0, cand.len))
+					buf_append(out, cand.data, cand.len);
+			}
+			break;
+		}
+	}
+	buf_free(&low);
+	buf_free(&cand);
+}
+
 static void write_sugg(tm_buf *b, const sugg *s, tally_mem *m, const labelset *ls, int tsv)
 {
 	double lo, hi, share = s->n ? (double)s->k / (double)s->n : 0;
@@ -242,6 +283,19 @@ static void write_sugg(tm_buf *b, const sugg *s, tally_mem *m, const labelset *l
 	json_str(b, text, labell);
 	buf_puts(b, ",\"key\":");
 	json_str(b, s->key, s->kl);
+	if (s->t) {
+		tm_buf w = {0};
+		as_written(ex, exl, nex, text, labell, &w);
+		if (w.len && (w.len != labell || memcmp(w.data, text, labell))) {
+			buf_puts(b, ",\"label_as_written\":");
+			json_str(b, w.data, w.len);
+		}
+		buf_free(&w);
+	}
+	if ((s->kind == K_RARE || s->kind == K_ELSEWHERE) && s->lb)
+		buf_puts(b, s->lb->kind == 'p' ? ",\"label_kind\":\"pref\""
+			 : s->lb->kind == 'a' ? ",\"label_kind\":\"alt\""
+					      : ",\"label_kind\":\"hidden\"");
 	buf_puts(b, ",\"score\":");
 	put_d(b, s->score);
 	buf_puts(b, ",\"postings\":");

@@ -4,6 +4,7 @@
 #include <serd/serd.h>
 #include <stdarg.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 #define SKOS "http://www.w3.org/2004/02/skos/core#"
@@ -124,4 +125,86 @@ int skos_read(const char *path, skos_label_fn fn, void *ctx, tm_buf *err)
 		return -1;
 	}
 	return 0;
+}
+
+/* ---- writing ---- */
+
+struct skos_writer {
+	SerdEnv *env;
+	SerdWriter *w;
+	tm_buf *out;
+	int failed;
+};
+
+static size_t sink(const void *p, size_t n, void *h)
+{
+	skos_writer *sw = h;
+	if (buf_append(sw->out, p, n)) {
+		sw->failed = 1;
+		return 0;
+	}
+	return n;
+}
+
+skos_writer *skos_writer_new(tm_buf *out, int ntriples)
+{
+	skos_writer *sw = calloc(1, sizeof *sw);
+	if (!sw)
+		return NULL;
+	sw->out = out;
+	sw->env = serd_env_new(NULL);
+	if (!sw->env) {
+		free(sw);
+		return NULL;
+	}
+	sw->w = serd_writer_new(ntriples ? SERD_NTRIPLES : SERD_TURTLE,
+				ntriples ? (SerdStyle)0
+					 : (SerdStyle)(SERD_STYLE_ABBREVIATED | SERD_STYLE_CURIED),
+				sw->env, NULL, sink, sw);
+	if (!sw->w) {
+		serd_env_free(sw->env);
+		free(sw);
+		return NULL;
+	}
+	if (!ntriples) {
+		SerdNode name = serd_node_from_string(SERD_LITERAL, (const uint8_t *)"skos");
+		SerdNode uri = serd_node_from_string(SERD_URI, (const uint8_t *)SKOS);
+		serd_env_set_prefix(sw->env, &name, &uri);
+		serd_writer_set_prefix(sw->w, &name, &uri);
+	}
+	return sw;
+}
+
+int skos_write_label(skos_writer *sw, const char *iri, char kind, const char *lang,
+		     const char *text)
+{
+	const char *pred = kind == 'p' ? SKOS "prefLabel" : kind == 'a' ? SKOS "altLabel"
+									: SKOS "hiddenLabel";
+	SerdNode s = serd_node_from_string(SERD_URI, (const uint8_t *)iri);
+	SerdNode p = serd_node_from_string(SERD_URI, (const uint8_t *)pred);
+	SerdNode o = serd_node_from_string(SERD_LITERAL, (const uint8_t *)text);
+	SerdNode l = serd_node_from_string(SERD_LITERAL, (const uint8_t *)lang);
+	if (serd_writer_write_statement(sw->w, 0, NULL, &s, &p, &o, NULL, &l) || sw->failed)
+		return -1;
+	return 0;
+}
+
+int skos_write_comment(skos_writer *sw, const char *text)
+{
+	/* serd 0.30 has no comment call: close the pending statement first */
+	serd_writer_finish(sw->w);
+	return buf_puts(sw->out, "# ") || buf_puts(sw->out, text) || buf_putc(sw->out, '\n') ? -1 : 0;
+}
+
+int skos_writer_end(skos_writer *sw)
+{
+	int rc;
+	if (!sw)
+		return 0;
+	serd_writer_finish(sw->w);
+	rc = sw->failed ? -1 : 0;
+	serd_writer_free(sw->w);
+	serd_env_free(sw->env);
+	free(sw);
+	return rc;
 }

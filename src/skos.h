@@ -1,7 +1,7 @@
 /* skos.h - reading SKOS labels from Turtle or N-Triples; the only module
  * that knows serd.  skos:prefLabel, skos:altLabel and skos:hiddenLabel
  * literals with a language tag are handed to a callback, with the
- * concept's IRI as the occupation. */
+ * concept's IRI as the occupation; the writer below writes them. */
 #ifndef TM_SKOS_H
 #define TM_SKOS_H
 
@@ -16,5 +16,16 @@ typedef int (*skos_label_fn)(void *ctx, const char *occ, size_t ol, char kind,
  * 0, or -1 with a message "file:line:col: what" in err (a syntax error,
  * or what the callback refused). */
 int skos_read(const char *path, skos_label_fn fn, void *ctx, tm_buf *err);
+
+/* Writing labels as SKOS: Turtle (with the skos: prefix) or N-Triples,
+ * appended to out (borrowed until skos_writer_end).  A comment line is
+ * written as "# text".  kind is 'p', 'a' or 'h'.  Return 0 or -1. */
+typedef struct skos_writer skos_writer;
+skos_writer *skos_writer_new(tm_buf *out, int ntriples);
+int skos_write_label(skos_writer *w, const char *iri, char kind, const char *lang,
+		     const char *text);
+int skos_write_comment(skos_writer *w, const char *text);
+/* Finishes the document and frees w (NULL is accepted). */
+int skos_writer_end(skos_writer *w);
 
 #endif

@@ -17,6 +17,19 @@
 
 typedef struct store store;
 
+/* One item of the review queue to write: its id and its JSON line. */
+typedef struct store_rq_put {
+	const char *id, *item;
+	size_t idlen, itemlen;
+} store_rq_put;
+
+/* One event for the review log: field/value pairs as NUL-terminated
+ * strings back to back (field, value, field, value ...), len bytes. */
+typedef struct store_rq_event {
+	const char *fv;
+	size_t len;
+} store_rq_event;
+
 typedef struct store_ops {
 	/* Buffers one posting of the current chunk (copied). */
 	int (*add)(store *st, const tally_posting *p);
@@ -25,6 +38,15 @@ typedef struct store_ops {
 	/* Adds everything the store holds to m. */
 	int (*dump)(store *st, tally_mem *m);
 	void (*close)(store *st);
+
+	/* The review queue (see review.h).  rq_load appends every item's
+	 * JSON line, each ended by a newline, to out, and watches the queue:
+	 * the next rq_commit writes the puts and appends the events in one
+	 * transaction, which fails with *conflict = 1 and writes nothing if
+	 * anyone changed the queue since rq_load.  Both return 0 or -1. */
+	int (*rq_load)(store *st, tm_buf *out);
+	int (*rq_commit)(store *st, const store_rq_put *puts, size_t nputs,
+			 const store_rq_event *ev, size_t nev, int *conflict);
 } store_ops;
 
 struct store {

@@ -11,6 +11,11 @@
  *                       spread over 64 keys by the hash of the field
  *   P:{i:NN}:i    set   posting ids counted, spread over 64 keys
  *   P:{l}:chunks  set   digests of the chunks applied (the ledger)
+ *   P:{r}:items   hash  review queue: suggestion id -> the item, one JSON
+ *                       line (the same line as in a queue file)
+ *   P:{r}:log     stream review events in the order they happened:
+ *                       event, id, status, kind, occupation, lang, label,
+ *                       at, and reviewer and note for decisions
  *
  * A chunk is applied by one Lua script, which Redis runs atomically: if
  * the ledger holds the chunk's digest it does nothing; if one of the
@@ -19,11 +24,18 @@
  * it adds the ids, all the increments and the examples, and the digest
  * to the ledger.  So a chunk is counted once or not at all, whatever
  * fails when: a load killed or a server lost mid-load, run again, skips
- * what was applied and applies the rest. */
+ * what was applied and applies the rest.
+ *
+ * The review queue is changed optimistically: WATCH P:{r}:items, read it,
+ * decide in the client, then MULTI, HSET the changed items, XADD the
+ * events, EXEC.  If anyone wrote the hash in between, EXEC does nothing
+ * and the client reads again and decides again, so the first of two
+ * curators wins and the second is told.  Both keys share one hash tag. */
 #include "store.h"
 
 #include <errno.h>
 #include <hiredis/hiredis.h>
+#include <signal.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -95,6 +107,46 @@ typedef struct rstore {
 	size_t *argoff, *arglen, nargs, argcap;
 } rstore;
 
+/* A server that goes away must give an error, not kill the process:
+ * SIGPIPE is held back while hiredis talks to the socket, and one raised
+ * meanwhile is dropped.  (Standard output keeps the usual behaviour.) */
+static void pipe_hold(sigset_t *old)
+{
+	sigset_t s;
+	sigemptyset(&s);
+	sigaddset(&s, SIGPIPE);
+	sigprocmask(SIG_BLOCK, &s, old);
+}
+
+static void pipe_release(const sigset_t *old)
+{
+	sigset_t s, pend;
+	struct timespec zero = {0, 0};
+	sigemptyset(&s);
+	sigaddset(&s, SIGPIPE);
+	if (!sigismember(old, SIGPIPE) && sigpending(&pend) == 0 && sigismember(&pend, SIGPIPE))
+		sigtimedwait(&s, NULL, &zero);
+	sigprocmask(SIG_SETMASK, old, NULL);
+}
+
+static int get_reply(redisContext *c, void **rep)
+{
+	sigset_t old;
+	pipe_hold(&old);
+	int rc = redisGetReply(c, rep);
+	pipe_release(&old);
+	return rc;
+}
+
+static redisReply *command_argv(redisContext *c, int argc, const char **argv, const size_t *len)
+{
+	sigset_t old;
+	pipe_hold(&old);
+	redisReply *rep = redisCommandArgv(c, argc, argv, len);
+	pipe_release(&old);
+	return rep;
+}
+
 static void rerr(rstore *r, const char *what, const char *detail)
 {
 	char m[600];
@@ -112,7 +164,7 @@ static void sleep_ms(long ms)
 
 static redisReply *cmd(rstore *r, int argc, const char **argv, const size_t *len)
 {
-	redisReply *rep = redisCommandArgv(r->c, argc, argv, len);
+	redisReply *rep = command_argv(r->c, argc, argv, len);
 	if (!rep) {
 		rerr(r, "lost the connection", r->c->errstr[0] ? r->c->errstr : "no reply");
 		return NULL;
@@ -400,7 +452,7 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
 			if (!sent[s])
 				continue;
 			void *v;
-			if (redisGetReply(r->c, &v) != REDIS_OK) {
+			if (get_reply(r->c, &v) != REDIS_OK) {
 				rerr(r, "lost the connection", r->c->errstr);
 				goto fail;
 			}
@@ -629,7 +681,7 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
 			av[q] = r->args.data + r->argoff[i];
 			al[q++] = r->arglen[i];
 		}
-		rep = redisCommandArgv(r->c, (int)q, av, al);
+		rep = command_argv(r->c, (int)q, av, al);
 		free(av);
 		free(al);
 	}
@@ -847,7 +899,122 @@ static void r_close(store *st)
 	free(r);
 }
 
-static const store_ops redis_ops = {r_add, r_commit, r_dump, r_close};
+/* ---- the review queue ---- */
+
+static int rq_key(rstore *r, tm_buf *kb, const char *what)
+{
+	buf_reset(kb);
+	return buf_puts(kb, r->prefix) || buf_puts(kb, ":{r}:") || buf_puts(kb, what) ? -1 : 0;
+}
+
+static int r_rq_load(store *st, tm_buf *out)
+{
+	rstore *r = (rstore *)st;
+	tm_buf kb = {0};
+	redisReply *rep;
+	int rc = -1;
+
+	if (rq_key(r, &kb, "items"))
+		goto done;
+	if (!(rep = cmd1(r, "WATCH", kb.data, NULL)))
+		goto done;
+	freeReplyObject(rep);
+	if (!(rep = cmd1(r, "HVALS", kb.data, NULL)))
+		goto done;
+	if (rep->type != REDIS_REPLY_ARRAY) {
+		freeReplyObject(rep);
+		rerr(r, "unexpected reply to HVALS", NULL);
+		goto done;
+	}
+	rc = 0;
+	for (size_t i = 0; i < rep->elements && !rc; i++) {
+		redisReply *e = rep->element[i];
+		if (e->type != REDIS_REPLY_STRING)
+			rc = -1;
+		else if (buf_append(out, e->str, e->len) || buf_putc(out, '\n'))
+			rc = -1;
+	}
+	if (rc)
+		rerr(r, "unexpected reply to HVALS", NULL);
+	freeReplyObject(rep);
+done:
+	buf_free(&kb);
+	return rc;
+}
+
+static int r_rq_commit(store *st, const store_rq_put *puts, size_t nputs,
+		       const store_rq_event *ev, size_t nev, int *conflict)
+{
+	rstore *r = (rstore *)st;
+	tm_buf items = {0}, log = {0};
+	redisReply *rep = NULL;
+	size_t sent = 0;
+	int rc = -1;
+
+	*conflict = 0;
+	if (rq_key(r, &items, "items") || rq_key(r, &log, "log"))
+		goto done;
+	if (!nputs && !nev) {
+		if ((rep = cmd1(r, "UNWATCH", NULL, NULL)))
+			rc = 0;
+		goto done;
+	}
+	redisAppendCommand(r->c, "MULTI");
+	sent++;
+	for (size_t i = 0; i < nputs; i++, sent++) {
+		const char *av[4] = {"HSET", items.data, puts[i].id, puts[i].item};
+		size_t al[4] = {4, items.len, puts[i].idlen, puts[i].itemlen};
+		redisAppendCommandArgv(r->c, 4, av, al);
+	}
+	for (size_t i = 0; i < nev; i++, sent++) {
+		const char *av[64];
+		size_t al[64];
+		int ac = 0;
+		av[ac] = "XADD", al[ac++] = 4;
+		av[ac] = log.data, al[ac++] = log.len;
+		av[ac] = "*", al[ac++] = 1;
+		for (const char *p = ev[i].fv; p < ev[i].fv + ev[i].len && ac < 64; p += al[ac++] + 1)
+			av[ac] = p, al[ac] = strlen(p);
+		redisAppendCommandArgv(r->c, ac, av, al);
+	}
+	redisAppendCommand(r->c, "EXEC");
+	sent++;
+	/* every queued command answers QUEUED; EXEC answers the results, or
+	 * nil when the watched hash changed */
+	for (size_t i = 0; i < sent; i++) {
+		void *p = NULL;
+		if (get_reply(r->c, &p) != REDIS_OK || !p) {
+			rerr(r, "lost the connection", r->c->errstr[0] ? r->c->errstr : "no reply");
+			goto done;
+		}
+		if (rep)
+			freeReplyObject(rep);
+		rep = p;
+		if (rep->type == REDIS_REPLY_ERROR) {
+			rerr(r, "the server answered with an error", rep->str);
+			/* read what is left, so the connection stays in step */
+			for (i++; i < sent; i++)
+				if (get_reply(r->c, &p) == REDIS_OK && p)
+					freeReplyObject(p);
+			goto done;
+		}
+	}
+	if (rep->type == REDIS_REPLY_NIL)
+		*conflict = 1;
+	else if (rep->type != REDIS_REPLY_ARRAY) {
+		rerr(r, "unexpected reply to EXEC", NULL);
+		goto done;
+	}
+	rc = 0;
+done:
+	if (rep)
+		freeReplyObject(rep);
+	buf_free(&items);
+	buf_free(&log);
+	return rc;
+}
+
+static const store_ops redis_ops = {r_add, r_commit, r_dump, r_close, r_rq_load, r_rq_commit};
 
 /* redis://[user:password@]host:port[/db] or unix:/path */
 static int parse_url(rstore *r, const char *url, tm_buf *err)

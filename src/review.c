@@ -1,0 +1,1127 @@
+/* review.c - the review queue: items, their history, the queue file and
+ * the store behind one read-change-write cycle. */
+#include "review.h"
+
+#include <errno.h>
+#include <fcntl.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/stat.h>
+#include <time.h>
+#include <unistd.h>
+
+#include "decode.h"
+#include "jsonr.h"
+#include "jsonw.h"
+#include "strtab.h"
+#include "tsv.h"
+
+const char *const rq_status_names[RQ_NSTATUS] = {"open", "accepted", "rejected", "deferred"};
+const char *const rq_kind_names[RK_N] = {"new_alt_label", "new_hidden_label", "rare_label",
+					 "used_elsewhere"};
+const char *const rq_what_names[RE_N] = {"added",    "refreshed", "reopened",
+					 "accepted", "rejected",  "deferred"};
+const char *const rq_decision_words[3] = {"accept", "reject", "defer"};
+
+/* Longest id taken from propose output: ours are 16 hex digits. */
+#define ID_MAX 64
+
+static int name_index(const char *const *names, int n, const char *s, size_t len)
+{
+	for (int i = 0; i < n; i++)
+		if (strlen(names[i]) == len && !memcmp(names[i], s, len))
+			return i;
+	return -1;
+}
+
+static char *dupn(const char *s, size_t n)
+{
+	char *p = malloc(n + 1);
+	if (p) {
+		memcpy(p, s, n);
+		p[n] = 0;
+	}
+	return p;
+}
+
+static void event_free(rq_event *e)
+{
+	free(e->at);
+	free(e->reviewer);
+	free(e->note);
+	free(e->evidence);
+}
+
+static void item_free(rq_item *it)
+{
+	free(it->id);
+	free(it->occ);
+	free(it->lang);
+	free(it->label);
+	free(it->added);
+	free(it->proposed);
+	free(it->evidence);
+	for (size_t i = 0; i < it->nev; i++)
+		event_free(&it->ev[i]);
+	free(it->ev);
+}
+
+void rq_free(rq_queue *q)
+{
+	if (!q)
+		return;
+	for (size_t i = 0; i < q->n; i++)
+		item_free(&q->it[i]);
+	free(q->it);
+	if (q->index) {
+		st_free(q->index);
+		free(q->index);
+	}
+	memset(q, 0, sizeof *q);
+}
+
+static void msg(tm_buf *err, const char *where, const char *what, const char *detail)
+{
+	buf_reset(err);
+	if (where) {
+		buf_puts(err, where);
+		buf_puts(err, ": ");
+	}
+	buf_puts(err, what);
+	if (detail) {
+		buf_puts(err, detail);
+	}
+}
+
+/* Appends a new item slot; returns it zeroed, or NULL. */
+static rq_item *new_item(rq_queue *q, const char *id, size_t idl)
+{
+	size_t idx;
+	if (!q->index && !(q->index = calloc(1, sizeof *q->index)))
+		return NULL;
+	if (q->n == q->cap) {
+		size_t cap = q->cap ? q->cap * 2 : 64;
+		rq_item *p = realloc(q->it, cap * sizeof *p);
+		if (!p)
+			return NULL;
+		q->it = p;
+		q->cap = cap;
+	}
+	if (st_add(q->index, id, idl, q->n + 1, &idx) != 1)
+		return NULL; /* out of memory, or the id is there already */
+	rq_item *it = &q->it[q->n++];
+	memset(it, 0, sizeof *it);
+	if (!(it->id = dupn(id, idl))) {
+		q->n--;
+		return NULL;
+	}
+	return it;
+}
+
+static rq_event *new_event(rq_item *it, int what, const char *at)
+{
+	if (it->nev == it->evcap) {
+		size_t cap = it->evcap ? it->evcap * 2 : 4;
+		rq_event *p = realloc(it->ev, cap * sizeof *p);
+		if (!p)
+			return NULL;
+		it->ev = p;
+		it->evcap = cap;
+	}
+	rq_event *e = &it->ev[it->nev];
+	memset(e, 0, sizeof *e);
+	e->what = what;
+	e->postings = it->postings;
+	e->score = it->score;
+	if (!(e->at = strdup(at)))
+		return NULL;
+	it->nev++;
+	it->changed = 1;
+	return e;
+}
+
+rq_item *rq_find(const rq_queue *q, const char *id, size_t idlen, int *many)
+{
+	rq_item *hit = NULL;
+	*many = 0;
+	if (!q->index || !idlen)
+		return NULL;
+	long i = st_find(q->index, id, idlen);
+	if (i >= 0)
+		return &q->it[q->index->ent[i].count - 1];
+	if (idlen < 6)
+		return NULL;
+	for (size_t k = 0; k < q->n; k++)
+		if (!strncmp(q->it[k].id, id, idlen)) {
+			if (hit) {
+				*many = 1;
+				return NULL;
+			}
+			hit = &q->it[k];
+		}
+	return hit;
+}
+
+const rq_event *rq_last_decision(const rq_item *it)
+{
+	for (size_t i = it->nev; i-- > 0;)
+		if (it->ev[i].what >= RE_ACCEPTED)
+			return &it->ev[i];
+	return NULL;
+}
+
+/* ---- JSON ---- */
+
+static char *dump(const jr_val *v, const char *where, tm_buf *err);
+
+static void put_num(tm_buf *b, double v)
+{
+	char s[48];
+	snprintf(s, sizeof s, "%.4f", isfinite(v) ? v : 0.0);
+	buf_puts(b, s);
+}
+
+static void put_u64(tm_buf *b, uint64_t v)
+{
+	char s[24];
+	snprintf(s, sizeof s, "%llu", (unsigned long long)v);
+	buf_puts(b, s);
+}
+
+static void put_field(tm_buf *b, const char *key, const char *s)
+{
+	buf_putc(b, ',');
+	json_key(b, key);
+	json_str(b, s, strlen(s));
+}
+
+const char *rq_item_evidence(const rq_item *c)
+{
+	rq_item *it = (rq_item *)c; /* the evidence is a cache */
+	char jerr[64];
+	tm_buf err = {0};
+	if (it->evidence || !it->raw)
+		return it->evidence;
+	jr_doc *d = jr_parse(it->raw, it->rawlen, jerr, sizeof jerr);
+	if (d)
+		it->evidence = dump(jr_get(jr_root(d), "evidence"), NULL, &err);
+	jr_free(d);
+	buf_free(&err);
+	return it->evidence;
+}
+
+int rq_item_json(const rq_item *it, tm_buf *b)
+{
+	if (it->raw && !it->changed)
+		return buf_append(b, it->raw, it->rawlen) || buf_putc(b, '\n') ? -1 : 0;
+	if (!rq_item_evidence(it))
+		return -1;
+	buf_puts(b, "{\"id\":");
+	json_str(b, it->id, strlen(it->id));
+	buf_puts(b, ",\"seq\":");
+	put_u64(b, it->seq);
+	put_field(b, "status", rq_status_names[it->status]);
+	put_field(b, "kind", rq_kind_names[it->kind]);
+	put_field(b, "occupation", it->occ);
+	put_field(b, "lang", it->lang);
+	put_field(b, "label", it->label);
+	buf_puts(b, ",\"score\":");
+	put_num(b, it->score);
+	buf_puts(b, ",\"postings\":");
+	put_u64(b, it->postings);
+	put_field(b, "added", it->added);
+	put_field(b, "proposed", it->proposed);
+	buf_puts(b, ",\"evidence\":");
+	buf_puts(b, it->evidence);
+	buf_puts(b, ",\"history\":[");
+	for (size_t i = 0; i < it->nev; i++) {
+		const rq_event *e = &it->ev[i];
+		buf_puts(b, i ? ",{\"event\":" : "{\"event\":");
+		json_str(b, rq_what_names[e->what], strlen(rq_what_names[e->what]));
+		put_field(b, "at", e->at);
+		if (e->reviewer)
+			put_field(b, "reviewer", e->reviewer);
+		if (e->note)
+			put_field(b, "note", e->note);
+		buf_puts(b, ",\"postings\":");
+		put_u64(b, e->postings);
+		buf_puts(b, ",\"score\":");
+		put_num(b, e->score);
+		if (e->evidence) {
+			buf_puts(b, ",\"evidence\":");
+			buf_puts(b, e->evidence);
+		}
+		buf_putc(b, '}');
+	}
+	return buf_puts(b, "]}\n");
+}
+
+/* A string field of v, copied; NULL (with a message) when it is missing,
+ * not a string or empty. */
+static char *get_str(const jr_val *v, const char *field, const char *where, tm_buf *err)
+{
+	size_t n;
+	const char *s = jr_vstr(jr_get(v, field), &n);
+	if (!s || !n || memchr(s, 0, n)) {
+		msg(err, where, "", NULL);
+		buf_puts(err, "\"");
+		buf_puts(err, field);
+		buf_puts(err, s ? (n ? "\" holds a NUL byte" : "\" is empty")
+				: "\" is missing or not a string");
+		return NULL;
+	}
+	char *p = dupn(s, n);
+	if (!p)
+		msg(err, where, "out of memory", NULL);
+	return p;
+}
+
+static int get_count(const jr_val *v, const char *field, uint64_t *out, const char *where,
+		     tm_buf *err)
+{
+	const jr_val *x = jr_get(v, field);
+	if (jr_vtype(x) != JR_INT || jr_vint(x) < 0) {
+		msg(err, where, "\"", field);
+		buf_puts(err, "\" must be a whole number of 0 or more");
+		return -1;
+	}
+	*out = (uint64_t)jr_vint(x);
+	return 0;
+}
+
+static int get_score(const jr_val *v, const char *field, double *out, const char *where,
+		     tm_buf *err)
+{
+	const jr_val *x = jr_get(v, field);
+	if ((jr_vtype(x) != JR_INT && jr_vtype(x) != JR_REAL) || !isfinite(jr_vnum(x))) {
+		msg(err, where, "\"", field);
+		buf_puts(err, "\" must be a number");
+		return -1;
+	}
+	*out = jr_vnum(x);
+	return 0;
+}
+
+static int get_name(const jr_val *v, const char *field, const char *const *names, int n,
+		    int *out, const char *where, tm_buf *err)
+{
+	size_t l;
+	const char *s = jr_vstr(jr_get(v, field), &l);
+	if (!s || (*out = name_index(names, n, s, l)) < 0) {
+		msg(err, where, "\"", field);
+		buf_puts(err, "\" must be one of");
+		for (int i = 0; i < n; i++) {
+			buf_puts(err, i ? ", " : " ");
+			buf_puts(err, names[i]);
+		}
+		return -1;
+	}
+	return 0;
+}
+
+static int get_time(const jr_val *v, const char *field, char **out, const char *where,
+		    tm_buf *err)
+{
+	if (!(*out = get_str(v, field, where, err)))
+		return -1;
+	if (rq_time(*out) < 0) {
+		free(*out);
+		*out = NULL;
+		msg(err, where, "\"", field);
+		buf_puts(err, "\" is not an ISO 8601 UTC time like 2026-12-02T09:30:00Z");
+		return -1;
+	}
+	return 0;
+}
+
+static char *dump(const jr_val *v, const char *where, tm_buf *err)
+{
+	tm_buf b = {0};
+	if (jr_dump(v, &b) || buf_putc(&b, 0)) {
+		buf_free(&b);
+		msg(err, where, "out of memory", NULL);
+		return NULL;
+	}
+	return b.data;
+}
+
+static int parse_event(rq_item *it, const jr_val *v, const char *where, tm_buf *err)
+{
+	int what;
+	char *at;
+	if (jr_vtype(v) != JR_OBJECT) {
+		msg(err, where, "a history entry must be an object", NULL);
+		return -1;
+	}
+	if (get_name(v, "event", rq_what_names, RE_N, &what, where, err) ||
+	    get_time(v, "at", &at, where, err))
+		return -1;
+	rq_event *e = new_event(it, what, at);
+	free(at);
+	if (!e) {
+		msg(err, where, "out of memory", NULL);
+		return -1;
+	}
+	if (get_count(v, "postings", &e->postings, where, err) ||
+	    get_score(v, "score", &e->score, where, err))
+		return -1;
+	if (what >= RE_ACCEPTED && !(e->reviewer = get_str(v, "reviewer", where, err)))
+		return -1;
+	if (jr_get(v, "note") && !(e->note = get_str(v, "note", where, err)))
+		return -1;
+	if (jr_vtype(jr_get(v, "evidence")) == JR_OBJECT &&
+	    !(e->evidence = dump(jr_get(v, "evidence"), where, err)))
+		return -1;
+	return 0;
+}
+
+static int parse_item(rq_queue *q, const char *line, size_t n, const char *where, tm_buf *err)
+{
+	char jerr[200];
+	jr_doc *d = jr_parse(line, n, jerr, sizeof jerr);
+	const jr_val *v = jr_root(d);
+	uint64_t seq;
+	size_t idl;
+	const char *id;
+	rq_item *it;
+	int rc = -1;
+
+	if (!d) {
+		msg(err, where, "not a queue item: ", jerr);
+		return -1;
+	}
+	if (!(id = jr_vstr(jr_get(v, "id"), &idl)) || !idl || idl > ID_MAX || memchr(id, 0, idl)) {
+		msg(err, where, "\"id\" is missing or not an id", NULL);
+		goto done;
+	}
+	if (q->index && st_find(q->index, id, idl) >= 0) {
+		msg(err, where, "the id appears twice in the queue", NULL);
+		goto done;
+	}
+	if (get_count(v, "seq", &seq, where, err))
+		goto done;
+	if (!(it = new_item(q, id, idl))) {
+		msg(err, where, "out of memory", NULL);
+		goto done;
+	}
+	it->seq = seq;
+	if (seq >= q->next_seq)
+		q->next_seq = seq + 1;
+	if (get_name(v, "status", rq_status_names, RQ_NSTATUS, &it->status, where, err) ||
+	    get_name(v, "kind", rq_kind_names, RK_N, &it->kind, where, err) ||
+	    !(it->occ = get_str(v, "occupation", where, err)) ||
+	    !(it->lang = get_str(v, "lang", where, err)) ||
+	    !(it->label = get_str(v, "label", where, err)) ||
+	    get_score(v, "score", &it->score, where, err) ||
+	    get_count(v, "postings", &it->postings, where, err) ||
+	    get_time(v, "added", &it->added, where, err) ||
+	    get_time(v, "proposed", &it->proposed, where, err))
+		goto done;
+	if (jr_vtype(jr_get(v, "evidence")) != JR_OBJECT) {
+		msg(err, where, "\"evidence\" must be an object", NULL);
+		goto done;
+	}
+	it->raw = line;
+	it->rawlen = n;
+	const jr_val *h = jr_get(v, "history");
+	if (jr_vtype(h) != JR_ARRAY || !jr_vlen(h)) {
+		msg(err, where, "\"history\" must be a list of events", NULL);
+		goto done;
+	}
+	for (size_t i = 0; i < jr_vlen(h); i++)
+		if (parse_event(it, jr_at(h, i), where, err))
+			goto done;
+	it->nev_stored = it->nev;
+	it->changed = 0;
+	rc = 0;
+done:
+	jr_free(d);
+	return rc;
+}
+
+static int cmp_seq(const void *a, const void *b)
+{
+	const rq_item *x = a, *y = b;
+	return x->seq < y->seq ? -1 : x->seq > y->seq;
+}
+
+int rq_parse(rq_queue *q, const char *text, size_t n, const char *name, tm_buf *err)
+{
+	const char *p, *end;
+	long lineno = 0;
+	char where[600];
+
+	if (!text)
+		text = "", n = 0;
+	p = text, end = text + n;
+
+	while (p < end) {
+		const char *nl = memchr(p, '\n', (size_t)(end - p));
+		const char *e = nl ? nl : end;
+		size_t len = (size_t)(e - p);
+		lineno++;
+		if (len && p[len - 1] == '\r')
+			len--;
+		if (len) {
+			snprintf(where, sizeof where, "%s:%ld", name, lineno);
+			if (parse_item(q, p, len, where, err))
+				return -1;
+		}
+		p = nl ? nl + 1 : end;
+	}
+	/* a store hands its items in no order: arrival order is seq */
+	if (q->n > 1)
+		qsort(q->it, q->n, sizeof *q->it, cmp_seq);
+	for (size_t i = 0; i < q->n; i++) {
+		long k = st_find(q->index, q->it[i].id, strlen(q->it[i].id));
+		q->index->ent[k].count = i + 1;
+	}
+	if (!q->next_seq)
+		q->next_seq = 1;
+	return 0;
+}
+
+/* ---- changes ---- */
+
+static int set_evidence(rq_item *it, const jr_val *v, uint64_t postings, double score,
+			const char *now, const char *where, tm_buf *err)
+{
+	char *ev = dump(v, where, err), *pr = strdup(now);
+	/* an evidence object of propose's, or its own when read back */
+	if (!ev || !pr) {
+		free(ev);
+		free(pr);
+		msg(err, where, "out of memory", NULL);
+		return -1;
+	}
+	free(it->evidence);
+	free(it->proposed);
+	it->evidence = ev;
+	it->proposed = pr;
+	it->postings = postings;
+	it->score = score;
+	it->changed = 1;
+	return 0;
+}
+
+int rq_add(rq_queue *q, const char *line, size_t n, const char *where, const char *now,
+	   double reopen_factor, rq_addstat *st, tm_buf *err)
+{
+	char jerr[200];
+	jr_doc *d = jr_parse(line, n, jerr, sizeof jerr);
+	const jr_val *v = jr_root(d);
+	const char *id;
+	size_t idl;
+	int kind, rc = -1;
+	uint64_t postings;
+	double score;
+	char *occ = NULL, *lang = NULL, *label = NULL;
+
+	if (!d) {
+		msg(err, where, "not a suggestion: ", jerr);
+		return -1;
+	}
+	if (!(id = jr_vstr(jr_get(v, "id"), &idl)) || !idl || idl > ID_MAX || memchr(id, 0, idl)) {
+		msg(err, where, "\"id\" is missing or not an id (a string of 1 to 64 bytes)", NULL);
+		goto done;
+	}
+	if (get_name(v, "kind", rq_kind_names, RK_N, &kind, where, err) ||
+	    !(occ = get_str(v, "occupation", where, err)) ||
+	    !(lang = get_str(v, "lang", where, err)) || !(label = get_str(v, "label", where, err)) ||
+	    get_score(v, "score", &score, where, err) ||
+	    get_count(v, "postings", &postings, where, err))
+		goto done;
+
+	long at = q->index ? st_find(q->index, id, idl) : -1;
+	rq_item *it = at >= 0 ? &q->it[q->index->ent[at].count - 1] : NULL;
+	if (!it) {
+		if (!(it = new_item(q, id, idl))) {
+			msg(err, where, "out of memory", NULL);
+			goto done;
+		}
+		it->kind = kind;
+		it->occ = occ, it->lang = lang, it->label = label;
+		occ = lang = label = NULL;
+		if (!q->next_seq)
+			q->next_seq = 1;
+		it->seq = q->next_seq++;
+		it->status = RQ_OPEN;
+		if (!(it->added = strdup(now)) ||
+		    set_evidence(it, v, postings, score, now, where, err) ||
+		    !new_event(it, RE_ADDED, now)) {
+			msg(err, where, "out of memory", NULL);
+			goto done;
+		}
+		st->added++;
+		rc = 0;
+		goto done;
+	}
+	if (it->kind != kind || strcmp(it->occ, occ) || strcmp(it->lang, lang)) {
+		msg(err, where, "id ", it->id);
+		buf_puts(err, " is in the queue for another suggestion (kind, occupation or language differ)");
+		goto done;
+	}
+	rc = 0;
+	if (it->status == RQ_ACCEPTED) {
+		st->accepted_before++;
+		goto done;
+	}
+	if (it->status == RQ_REJECTED) {
+		const rq_event *dec = rq_last_decision(it);
+		double base = dec ? (double)dec->postings : (double)it->postings;
+		if ((double)postings < reopen_factor * base || postings == 0) {
+			st->kept_closed++;
+			goto done;
+		}
+		if (set_evidence(it, v, postings, score, now, where, err)) {
+			rc = -1;
+			goto done;
+		}
+		rq_event *e = new_event(it, RE_REOPENED, now);
+		if (!e || !(e->evidence = strdup(it->evidence))) {
+			msg(err, where, "out of memory", NULL);
+			rc = -1;
+			goto done;
+		}
+		it->status = RQ_OPEN;
+		st->reopened++;
+		goto done;
+	}
+	/* open or deferred: the newest evidence, and a note of it when the
+	 * figures moved */
+	int moved = postings != it->postings || fabs(score - it->score) >= 0.00005;
+	if (set_evidence(it, v, postings, score, now, where, err)) {
+		rc = -1;
+		goto done;
+	}
+	if (moved) {
+		if (!new_event(it, RE_REFRESHED, now)) {
+			msg(err, where, "out of memory", NULL);
+			rc = -1;
+			goto done;
+		}
+		st->refreshed++;
+	} else
+		st->unchanged++;
+done:
+	free(occ);
+	free(lang);
+	free(label);
+	jr_free(d);
+	return rc;
+}
+
+int rq_decide(rq_item *it, int d, const char *reviewer, const char *note, const char *now,
+	      int overrule, tm_buf *m)
+{
+	static const int status_of[3] = {RQ_ACCEPTED, RQ_REJECTED, RQ_DEFERRED};
+	static const int event_of[3] = {RE_ACCEPTED, RE_REJECTED, RE_DEFERRED};
+	const rq_event *dec = rq_last_decision(it);
+	int want = status_of[d];
+
+	buf_reset(m);
+	if (it->status == want) {
+		buf_puts(m, it->id);
+		buf_puts(m, ": already ");
+		buf_puts(m, rq_status_names[want]);
+		if (dec) {
+			buf_puts(m, " by ");
+			buf_puts(m, dec->reviewer);
+			buf_puts(m, " at ");
+			buf_puts(m, dec->at);
+		}
+		return RD_SAME;
+	}
+	/* an open or deferred item takes any decision; a closed one only
+	 * when the curator overrules on purpose */
+	if ((it->status == RQ_ACCEPTED || it->status == RQ_REJECTED) && !overrule) {
+		buf_puts(m, it->id);
+		buf_puts(m, ": ");
+		buf_puts(m, rq_status_names[it->status]);
+		if (dec) {
+			buf_puts(m, " by ");
+			buf_puts(m, dec->reviewer);
+			buf_puts(m, " at ");
+			buf_puts(m, dec->at);
+		}
+		buf_puts(m, "; not changed to ");
+		buf_puts(m, rq_status_names[want]);
+		buf_puts(m, " (--overrule changes a decision on purpose)");
+		return RD_CONFLICT;
+	}
+	if (!rq_item_evidence(it)) {
+		buf_puts(m, "out of memory");
+		return -1;
+	}
+	rq_event *e = new_event(it, event_of[d], now);
+	if (!e || !(e->reviewer = strdup(reviewer)) || (note && *note && !(e->note = strdup(note))) ||
+	    !(e->evidence = strdup(it->evidence))) {
+		buf_puts(m, "out of memory");
+		return -1;
+	}
+	it->status = want;
+	return RD_APPLIED;
+}
+
+/* ---- batches of decisions ---- */
+
+rq_decision *rq_decisions_push(rq_decisions *ds)
+{
+	rq_decision *p = realloc(ds->v, (ds->n + 1) * sizeof *p);
+	if (!p)
+		return NULL;
+	ds->v = p;
+	memset(&p[ds->n], 0, sizeof *p);
+	return &p[ds->n++];
+}
+
+void rq_decisions_free(rq_decisions *ds)
+{
+	for (size_t i = 0; i < ds->n; i++) {
+		free(ds->v[i].id);
+		free(ds->v[i].reviewer);
+		free(ds->v[i].note);
+		free(ds->v[i].where);
+	}
+	free(ds->v);
+	ds->v = NULL;
+	ds->n = 0;
+}
+
+int rq_plain_text(const char *s, size_t n)
+{
+	if (!dec_is_utf8(s, n))
+		return 0;
+	for (size_t i = 0; i < n; i++)
+		if ((unsigned char)s[i] < 0x20 || s[i] == 0x7f)
+			return 0;
+	return 1;
+}
+
+long rq_decisions_read(const char *path, const char *reviewer, rq_decisions *ds, FILE *report,
+		       tm_buf *err)
+{
+	tsv_reader t;
+	long bad = 0;
+	int r;
+
+	if (tsv_open(&t, path) != 0) {
+		msg(err, NULL, t.err.data, NULL);
+		tsv_close(&t);
+		return -1;
+	}
+	int ci = tsv_col(&t, "id"), cd = tsv_col(&t, "decision"), cr = tsv_col(&t, "reviewer"),
+	    cn = tsv_col(&t, "note");
+	if (ci < 0 || cd < 0 || (cr < 0 && (!reviewer || !*reviewer))) {
+		msg(err, NULL, path, ":1: a decisions file needs the columns id, decision and "
+				     "reviewer (or --reviewer), and may have note");
+		tsv_close(&t);
+		return -1;
+	}
+	while ((r = tsv_next(&t)) == 1) {
+		size_t il, dl, rl, nl;
+		const char *id = tsv_field(&t, ci, &il), *dw = tsv_field(&t, cd, &dl);
+		const char *rv = tsv_field(&t, cr, &rl), *nt = tsv_field(&t, cn, &nl);
+		char where[600];
+		int d = -1;
+		snprintf(where, sizeof where, "%s:%ld", path, t.lr.lineno);
+		for (int k = 0; k < 3; k++)
+			if (strlen(rq_decision_words[k]) == dl && !memcmp(rq_decision_words[k], dw, dl))
+				d = k;
+		if (!rl && reviewer) {
+			rv = reviewer;
+			rl = strlen(rv);
+		}
+		const char *why = !il ? "no id"
+				  : il > ID_MAX || !rq_plain_text(id, il) ? "that is not an id"
+				  : d < 0 ? NULL
+				  : !rl ? "no reviewer"
+				  : !rq_plain_text(rv, rl) || !rq_plain_text(nt, nl) ? "invalid UTF-8 or control characters in the reviewer or the note"
+								     : "";
+		if (!why) {
+			fprintf(report, "titlemill review: %s: the decision is accept, reject or defer, not '%.*s'\n",
+				where, (int)(dl > 40 ? 40 : dl), dw);
+			bad++;
+			continue;
+		}
+		if (*why) {
+			fprintf(report, "titlemill review: %s: %s\n", where, why);
+			bad++;
+			continue;
+		}
+		rq_decision *x = rq_decisions_push(ds);
+		if (!x || !(x->id = dupn(id, il)) || !(x->reviewer = dupn(rv, rl)) ||
+		    (nl && !(x->note = dupn(nt, nl))) || !(x->where = strdup(where))) {
+			msg(err, NULL, "out of memory", NULL);
+			tsv_close(&t);
+			return -1;
+		}
+		x->d = d;
+	}
+	if (r < 0) {
+		msg(err, NULL, t.err.data, NULL);
+		tsv_close(&t);
+		return -1;
+	}
+	tsv_close(&t);
+	return bad;
+}
+
+/* ---- time ---- */
+
+static long long days_from_civil(long long y, unsigned m, unsigned d)
+{
+	y -= m <= 2;
+	long long era = (y >= 0 ? y : y - 399) / 400;
+	unsigned yoe = (unsigned)(y - era * 400);
+	unsigned doy = (153 * (m + (m > 2 ? -3 : 9)) + 2) / 5 + d - 1;
+	unsigned doe = yoe * 365 + yoe / 4 - yoe / 100 + doy;
+	return era * 146097 + (long long)doe - 719468;
+}
+
+long long rq_time(const char *s)
+{
+	unsigned v[6];
+	static const unsigned dim[12] = {31, 29, 31, 30, 31, 30, 31, 31, 30, 31, 30, 31};
+	static const char shape[] = "dddd-dd-ddTdd:dd:ddZ";
+
+	if (strlen(s) != 20)
+		return -1;
+	for (int i = 0; i < 20; i++)
+		if (shape[i] == 'd' ? (s[i] < '0' || s[i] > '9') : s[i] != shape[i])
+			return -1;
+	static const int at[6] = {0, 5, 8, 11, 14, 17};
+	for (int i = 0; i < 6; i++) {
+		v[i] = 0;
+		for (int k = at[i]; k < (i ? at[i] + 2 : 4); k++)
+			v[i] = v[i] * 10 + (unsigned)(s[k] - '0');
+	}
+	if (v[1] < 1 || v[1] > 12 || v[2] < 1 || v[2] > dim[v[1] - 1] || v[3] > 23 || v[4] > 59 ||
+	    v[5] > 60)
+		return -1;
+	if (v[1] == 2 && v[2] == 29 && !(v[0] % 4 == 0 && (v[0] % 100 || v[0] % 400 == 0)))
+		return -1;
+	return days_from_civil(v[0], v[1], v[2]) * 86400 + v[3] * 3600 + v[4] * 60 + v[5];
+}
+
+int rq_now(char out[21], tm_buf *err)
+{
+	const char *env = getenv("TITLEMILL_NOW");
+	if (env && *env) {
+		if (rq_time(env) < 0) {
+			msg(err, NULL, "TITLEMILL_NOW must be an ISO 8601 UTC time like 2026-12-02T09:30:00Z, not ", env);
+			return -1;
+		}
+		memcpy(out, env, 21);
+		return 0;
+	}
+	time_t t = time(NULL);
+	struct tm tm;
+	if (!gmtime_r(&t, &tm) || !strftime(out, 21, "%Y-%m-%dT%H:%M:%SZ", &tm)) {
+		msg(err, NULL, "cannot read the clock", NULL);
+		return -1;
+	}
+	return 0;
+}
+
+/* ---- where the queue lives ---- */
+
+static int read_file(const char *path, tm_buf *text, int missing_ok, tm_buf *err)
+{
+	FILE *fp = fopen(path, "rb");
+	char chunk[65536];
+	size_t n;
+
+	buf_reset(text);
+	if (!fp) {
+		if (errno == ENOENT && missing_ok)
+			return 0;
+		msg(err, path, errno == ENOENT ? "no review queue here (titlemill review add makes one)"
+					       : strerror(errno), NULL);
+		return -1;
+	}
+	while ((n = fread(chunk, 1, sizeof chunk, fp)) > 0)
+		if (buf_append(text, chunk, n)) {
+			fclose(fp);
+			msg(err, path, "out of memory", NULL);
+			return -1;
+		}
+	if (ferror(fp)) {
+		msg(err, path, "cannot read: ", strerror(errno));
+		fclose(fp);
+		return -1;
+	}
+	fclose(fp);
+	return 0;
+}
+
+int rq_read(rq_place *pl, rq_queue *q, int missing_ok, tm_buf *err)
+{
+	if (pl->st) {
+		buf_reset(&pl->text);
+		if (pl->st->ops->rq_load(pl->st, &pl->text)) {
+			msg(err, NULL, pl->st->err.data, NULL);
+			return -1;
+		}
+		int c;
+		pl->st->ops->rq_commit(pl->st, NULL, 0, NULL, 0, &c); /* unwatch */
+		return rq_parse(q, pl->text.data, pl->text.len, "the store's review queue", err);
+	}
+	if (read_file(pl->path, &pl->text, missing_ok, err))
+		return -1;
+	return rq_parse(q, pl->text.data, pl->text.len, pl->path, err);
+}
+
+static int lock_file(rq_place *pl, tm_buf *err)
+{
+	tm_buf lp = {0};
+	struct flock fl = {0};
+
+	if (buf_puts(&lp, pl->path) || buf_puts(&lp, ".lock")) {
+		buf_free(&lp);
+		msg(err, pl->path, "out of memory", NULL);
+		return -1;
+	}
+	pl->lockfd = open(lp.data, O_RDWR | O_CREAT | O_CLOEXEC, 0666);
+	if (pl->lockfd < 0) {
+		msg(err, lp.data, "cannot open the lock file: ", strerror(errno));
+		buf_free(&lp);
+		return -1;
+	}
+	fl.l_type = F_WRLCK;
+	fl.l_whence = SEEK_SET;
+	while (fcntl(pl->lockfd, F_SETLKW, &fl) < 0) {
+		if (errno == EINTR)
+			continue;
+		msg(err, lp.data, "cannot lock: ", strerror(errno));
+		buf_free(&lp);
+		close(pl->lockfd);
+		pl->lockfd = -1;
+		return -1;
+	}
+	buf_free(&lp);
+	return 0;
+}
+
+static void unlock_file(rq_place *pl)
+{
+	if (pl->lockfd >= 0)
+		close(pl->lockfd); /* releases the lock */
+	pl->lockfd = -1;
+}
+
+static int write_all(int fd, const char *p, size_t n)
+{
+	while (n) {
+		ssize_t w = write(fd, p, n);
+		if (w < 0) {
+			if (errno == EINTR)
+				continue;
+			return -1;
+		}
+		p += w;
+		n -= (size_t)w;
+	}
+	return 0;
+}
+
+/* Writes the whole queue to PATH.tmp, flushes it to the disk and renames
+ * it over PATH: a reader or a crash sees the old queue or the new one.
+ * The temporary name is fixed because only the lock holder writes it. */
+static int write_file(rq_place *pl, const rq_queue *q, tm_buf *err)
+{
+	tm_buf tmp = {0}, out = {0};
+	int fd = -1, rc = -1;
+	const char *why = NULL;
+
+	for (size_t i = 0; i < q->n; i++)
+		if (rq_item_json(&q->it[i], &out)) {
+			msg(err, pl->path, "out of memory", NULL);
+			goto done;
+		}
+	if (buf_puts(&tmp, pl->path) || buf_puts(&tmp, ".tmp")) {
+		msg(err, pl->path, "out of memory", NULL);
+		goto done;
+	}
+	fd = open(tmp.data, O_WRONLY | O_CREAT | O_TRUNC | O_CLOEXEC, 0666);
+	if (fd < 0)
+		why = "cannot create ";
+	else if (write_all(fd, out.data ? out.data : "", out.len))
+		why = "cannot write ";
+	else if (fsync(fd))
+		why = "cannot flush ";
+	else if (close(fd) ? (fd = -1, 1) : (fd = -1, 0))
+		why = "cannot write ";
+	else if (rename(tmp.data, pl->path))
+		why = "cannot rename over the queue: ";
+	if (why) {
+		int e = errno;
+		msg(err, NULL, why, tmp.data);
+		buf_puts(err, ": ");
+		buf_puts(err, strerror(e));
+		buf_puts(err, " (the queue is unchanged)");
+		if (fd >= 0)
+			close(fd);
+		unlink(tmp.data);
+		goto done;
+	}
+	/* make the rename itself durable */
+	char *slash = strrchr(pl->path, '/');
+	tm_buf dir = {0};
+	if (slash ? buf_append(&dir, pl->path, (size_t)(slash - pl->path) + 1) : buf_puts(&dir, "."))
+		goto done;
+	buf_putc(&dir, 0);
+	int dfd = open(dir.data, O_RDONLY | O_CLOEXEC);
+	if (dfd >= 0) {
+		fsync(dfd);
+		close(dfd);
+	}
+	buf_free(&dir);
+	rc = 0;
+done:
+	buf_free(&tmp);
+	buf_free(&out);
+	return rc;
+}
+
+/* The store: the changed items and their new events. */
+static int commit_store(rq_place *pl, rq_queue *q, int *conflict, tm_buf *err)
+{
+	store_rq_put *puts = NULL;
+	store_rq_event *ev = NULL;
+	tm_buf items = {0}, fv = {0};
+	size_t np = 0, ne = 0, nput = 0, nevt = 0;
+	size_t *ioff = NULL, *foff = NULL;
+	int rc = -1;
+
+	for (size_t i = 0; i < q->n; i++)
+		if (q->it[i].changed) {
+			nput++;
+			nevt += q->it[i].nev - q->it[i].nev_stored;
+		}
+	puts = calloc(nput + 1, sizeof *puts);
+	ev = calloc(nevt + 1, sizeof *ev);
+	ioff = calloc(nput + 1, sizeof *ioff);
+	foff = calloc(nevt + 1, sizeof *foff);
+	if (!puts || !ev || !ioff || !foff)
+		goto oom;
+	for (size_t i = 0; i < q->n; i++) {
+		const rq_item *it = &q->it[i];
+		if (!it->changed)
+			continue;
+		ioff[np++] = items.len;
+		if (rq_item_json(it, &items))
+			goto oom;
+		items.len--; /* the newline */
+		for (size_t k = it->nev_stored; k < it->nev; k++) {
+			const rq_event *e = &it->ev[k];
+			char num[32];
+			const char *pairs[] = {"event", rq_what_names[e->what], "id", it->id,
+					       "status", rq_status_names[it->status],
+					       "kind", rq_kind_names[it->kind], "occupation", it->occ,
+					       "lang", it->lang, "label", it->label, "at", e->at};
+			foff[ne++] = fv.len;
+			for (size_t j = 0; j < sizeof pairs / sizeof *pairs; j++)
+				if (buf_append(&fv, pairs[j], strlen(pairs[j]) + 1))
+					goto oom;
+			snprintf(num, sizeof num, "%llu", (unsigned long long)e->postings);
+			if (buf_append(&fv, "postings", 9) || buf_append(&fv, num, strlen(num) + 1))
+				goto oom;
+			if (e->reviewer && (buf_append(&fv, "reviewer", 9) ||
+					    buf_append(&fv, e->reviewer, strlen(e->reviewer) + 1)))
+				goto oom;
+			if (e->note && (buf_append(&fv, "note", 5) ||
+					buf_append(&fv, e->note, strlen(e->note) + 1)))
+				goto oom;
+		}
+	}
+	/* pointers only once the buffers stop moving */
+	for (size_t i = 0, k = 0; i < q->n; i++) {
+		const rq_item *it = &q->it[i];
+		if (!it->changed)
+			continue;
+		puts[k].id = it->id;
+		puts[k].idlen = strlen(it->id);
+		puts[k].item = items.data + ioff[k];
+		puts[k].itemlen = (k + 1 < np ? ioff[k + 1] : items.len) - ioff[k];
+		k++;
+	}
+	for (size_t k = 0; k < ne; k++) {
+		ev[k].fv = fv.data + foff[k];
+		ev[k].len = (k + 1 < ne ? foff[k + 1] : fv.len) - foff[k];
+	}
+	if (pl->st->ops->rq_commit(pl->st, puts, np, ev, ne, conflict)) {
+		msg(err, NULL, pl->st->err.data, NULL);
+		goto done;
+	}
+	rc = 0;
+	goto done;
+oom:
+	msg(err, NULL, "out of memory", NULL);
+done:
+	free(puts);
+	free(ev);
+	free(ioff);
+	free(foff);
+	buf_free(&items);
+	buf_free(&fv);
+	return rc;
+}
+
+int rq_transact(rq_place *pl, int (*change)(rq_queue *q, void *arg, tm_buf *err), void *arg,
+		tm_buf *err)
+{
+	rq_queue q = {0};
+	int rc = -1;
+
+	if (!pl->st) {
+		if (lock_file(pl, err))
+			return -1;
+		if (read_file(pl->path, &pl->text, 1, err) ||
+		    rq_parse(&q, pl->text.data, pl->text.len, pl->path, err) || change(&q, arg, err))
+			goto done;
+		int any = 0;
+		for (size_t i = 0; i < q.n; i++)
+			any |= q.it[i].changed;
+		rc = any ? write_file(pl, &q, err) : 0;
+	done:
+		unlock_file(pl);
+		rq_free(&q);
+		return rc;
+	}
+	for (int attempt = 0; attempt < 1000; attempt++) {
+		int conflict = 0;
+		buf_reset(&pl->text);
+		if (pl->st->ops->rq_load(pl->st, &pl->text)) {
+			msg(err, NULL, pl->st->err.data, NULL);
+			return -1;
+		}
+		if (rq_parse(&q, pl->text.data, pl->text.len, "the store's review queue", err) ||
+		    change(&q, arg, err)) {
+			pl->st->ops->rq_commit(pl->st, NULL, 0, NULL, 0, &conflict); /* unwatch */
+			rq_free(&q);
+			return -1;
+		}
+		rc = commit_store(pl, &q, &conflict, err);
+		rq_free(&q);
+		if (rc || !conflict)
+			return rc;
+		/* someone wrote first: wait a little, read again, decide again */
+		struct timespec ts = {0, (long)(1000000L * (1 + rand() % 20))};
+		nanosleep(&ts, NULL);
+	}
+	msg(err, NULL, "the store's review queue kept changing under us; try again", NULL);
+	return -1;
+}
+
+void rq_place_close(rq_place *pl)
+{
+	if (!pl)
+		return;
+	unlock_file(pl);
+	buf_free(&pl->text);
+	store_close(pl->st);
+	pl->st = NULL;
+}

@@ -1,0 +1,174 @@
+/* review.h - the curators' review queue.
+ *
+ * A queue holds the suggestions of `propose` (items, in arrival order)
+ * with their status and the history of what happened to them: added,
+ * evidence refreshed, reopened, accepted, rejected, deferred, each with
+ * when, who and on what evidence.  The queue lives in a JSON Lines file
+ * (one item a line) or in a store (Redis); every change reads the whole
+ * queue, changes it in memory and writes it back under a lock (file) or
+ * in an optimistic transaction (store), so that two curators working at
+ * once never lose an update and a killed process leaves the old or the
+ * new queue, never a torn one.
+ *
+ * Ownership: a queue owns its items and their strings; rq_free releases
+ * everything.  Functions return 0 on success and -1 on failure with a
+ * message in err (naming file and line where there is one); a failed
+ * operation leaves the queue as it was unless it says otherwise. */
+#ifndef TM_REVIEW_H
+#define TM_REVIEW_H
+
+#include <stddef.h>
+#include <stdint.h>
+#include <stdio.h>
+
+#include "buf.h"
+#include "store.h"
+
+enum rq_status { RQ_OPEN, RQ_ACCEPTED, RQ_REJECTED, RQ_DEFERRED, RQ_NSTATUS };
+enum rq_kind { RK_ALT, RK_HIDDEN, RK_RARE, RK_ELSEWHERE, RK_N };
+enum rq_what { RE_ADDED, RE_REFRESHED, RE_REOPENED, RE_ACCEPTED, RE_REJECTED, RE_DEFERRED, RE_N };
+
+extern const char *const rq_status_names[RQ_NSTATUS]; /* open accepted ... */
+extern const char *const rq_kind_names[RK_N];         /* new_alt_label ... */
+extern const char *const rq_what_names[RE_N];         /* added refreshed ... */
+extern const char *const rq_decision_words[3];        /* accept reject defer */
+
+typedef struct rq_event {
+	int what;             /* RE_* */
+	char *at;             /* ISO 8601 UTC, e.g. 2026-12-02T09:30:00Z */
+	char *reviewer, *note; /* decisions; NULL otherwise */
+	uint64_t postings;    /* the evidence at that moment */
+	double score;
+	char *evidence;       /* decisions and reopenings: the whole evidence
+			       * (compact JSON); NULL otherwise */
+} rq_event;
+
+typedef struct rq_item {
+	char *id, *occ, *lang, *label;
+	int kind, status;
+	uint64_t seq;         /* arrival order, from 1 */
+	uint64_t postings;    /* of the latest evidence */
+	double score;
+	char *added, *proposed; /* first and latest time propose gave it */
+	char *evidence;       /* the latest propose object, compact JSON; NULL
+			       * until needed for an item read from a queue
+			       * (rq_item_evidence) */
+	const char *raw;      /* an item read from a queue: its line, written
+			       * back as it was while the item is unchanged */
+	size_t rawlen;
+	rq_event *ev;
+	size_t nev, evcap;
+	size_t nev_stored;    /* events already in the backend */
+	int changed;          /* to be written back */
+} rq_item;
+
+typedef struct rq_queue {
+	rq_item *it;
+	size_t n, cap;
+	uint64_t next_seq;
+	struct strtab *index; /* id -> position + 1 */
+} rq_queue;
+
+void rq_free(rq_queue *q);
+
+/* Reads item lines (a queue file, or what a store holds) into an empty
+ * queue; name is used in messages.  Items are put in arrival order.  The
+ * items borrow text: it must outlive the queue. */
+int rq_parse(rq_queue *q, const char *text, size_t n, const char *name, tm_buf *err);
+
+/* Writes item it as one JSON line, newline included (an unchanged item
+ * read from a queue: its line as it was). */
+int rq_item_json(const rq_item *it, tm_buf *b);
+
+/* The item's latest evidence as compact JSON (read from its line the
+ * first time and kept), or NULL when out of memory. */
+const char *rq_item_evidence(const rq_item *it);
+
+/* The item whose id is id, or whose id starts with id when that is
+ * unique and at least 6 characters long.  NULL when there is none; *many
+ * is set when a prefix fits more than one. */
+rq_item *rq_find(const rq_queue *q, const char *id, size_t idlen, int *many);
+
+typedef struct rq_addstat {
+	size_t added, refreshed, unchanged, reopened, kept_closed, accepted_before;
+} rq_addstat;
+
+/* Takes one line of propose output (JSON) into the queue: new ids are
+ * added; open and deferred items get the new evidence; a rejected item
+ * reopens when its postings reach reopen_factor times those at the
+ * rejection and stays closed otherwise; an accepted item is left alone.
+ * where is "file:line" for messages. */
+int rq_add(rq_queue *q, const char *line, size_t n, const char *where, const char *now,
+	   double reopen_factor, rq_addstat *st, tm_buf *err);
+
+enum { RD_APPLIED, RD_SAME, RD_CONFLICT };
+/* Records decision d (0 accept, 1 reject, 2 defer) on it.  Returns
+ * RD_APPLIED, RD_SAME (the item already stands so: nothing changes) or
+ * RD_CONFLICT (another decision stands; the message in msg says whose;
+ * nothing changes unless overrule is set, when the decision is recorded
+ * over it and RD_APPLIED returned). */
+int rq_decide(rq_item *it, int d, const char *reviewer, const char *note, const char *now,
+	      int overrule, tm_buf *msg);
+
+/* The latest decision event of an item, or NULL. */
+const rq_event *rq_last_decision(const rq_item *it);
+
+/* A decision to record: d is 0 accept, 1 reject, 2 defer; where is
+ * "file:line" for a batch, or NULL. */
+typedef struct rq_decision {
+	char *id, *reviewer, *note, *where;
+	int d;
+} rq_decision;
+
+typedef struct rq_decisions {
+	rq_decision *v;
+	size_t n;
+} rq_decisions;
+
+/* Whether s[0..n) may be a reviewer's name or a note: valid UTF-8 with
+ * no control characters (they end up in TSV and JSON). */
+int rq_plain_text(const char *s, size_t n);
+
+/* Appends a zeroed decision; NULL when out of memory. */
+rq_decision *rq_decisions_push(rq_decisions *ds);
+void rq_decisions_free(rq_decisions *ds);
+
+/* Reads a batch of decisions from a TSV file with the columns id,
+ * decision (accept, reject, defer), reviewer (or the default reviewer
+ * when the column or the field is empty) and note (optional).  Each bad
+ * line gets one message "file:line: what" on report.  Returns the
+ * number of bad lines (0: all good), or -1 when the file cannot be read
+ * or lacks the columns (message in err). */
+long rq_decisions_read(const char *path, const char *reviewer, rq_decisions *ds, FILE *report,
+		       tm_buf *err);
+
+/* ---- where the queue lives ---- */
+
+typedef struct rq_place {
+	const char *path;     /* a queue file, or NULL with st */
+	store *st;
+	int lockfd;
+	tm_buf text;
+} rq_place;
+
+/* Reads the queue for reading only (no lock).  A missing file is an error
+ * unless missing_ok. */
+int rq_read(rq_place *pl, rq_queue *q, int missing_ok, tm_buf *err);
+
+/* Runs one change: locks (file) or watches (store), reads the queue,
+ * calls change(q, arg, err), and writes back the changed items when it
+ * returns 0; a store transaction that lost a race is run again (change
+ * must then decide afresh on what it reads).  change returning -1 writes
+ * nothing and its error is returned. */
+int rq_transact(rq_place *pl, int (*change)(rq_queue *q, void *arg, tm_buf *err),
+		void *arg, tm_buf *err);
+
+void rq_place_close(rq_place *pl);
+
+/* The current time in ISO 8601 UTC (or TITLEMILL_NOW when set, checked);
+ * returns 0 or -1 with a message. */
+int rq_now(char out[21], tm_buf *err);
+/* Seconds since 1970 of an ISO 8601 UTC time as rq_now writes it, or -1. */
+long long rq_time(const char *iso);
+
+#endif
