@@ -1,30 +1,45 @@
-/* store_redis.c - the Redis store; the only module that knows hiredis.
+/* store_redis.c - the Redis store: one server or a Redis Cluster.  With
+ * its router (cluster.c), the only module that knows hiredis.
  *
  * Key layout (every key starts with the prefix P; the part in braces is
- * the Redis Cluster hash tag, so all keys of one occupation share a slot):
+ * the Redis Cluster hash tag, so all keys of one tag share a slot):
  *   P:{o:OCC}:f   hash  LANG 1F KEY 1F TITLE -> postings of that form
  *   P:{o:OCC}:n   hash  LANG -> postings of the occupation
  *   P:{o:OCC}:x   hash  LANG 1F KEY -> up to three examples, each
  *                       16 hex digits of its hash then its text, joined
  *                       by 1E (kept: the smallest hashes)
+ *   P:{o:OCC}:L   set   the ledger of this tag: digests of the chunks
+ *                       whose share of this occupation is applied
  *   P:{k:NN}:k    hash  LANG 1F KEY -> postings whatever the occupation,
  *                       spread over 64 keys by the hash of the field
- *   P:{i:NN}:i    set   posting ids counted, spread over 64 keys
- *   P:{l}:chunks  set   digests of the chunks applied (the ledger)
+ *   P:{k:NN}:L    set   the ledger of that key-total shard
+ *   P:{i:NN}:i    hash  posting id -> the chunk that counts it (16 hex
+ *                       digits of its digest), spread over 64 keys
  *   P:{r}:items   hash  review queue: suggestion id -> the item, one JSON
  *                       line (the same line as in a queue file)
  *   P:{r}:log     stream review events in the order they happened:
  *                       event, id, status, kind, occupation, lang, label,
  *                       at, and reviewer and note for decisions
  *
- * A chunk is applied by one Lua script, which Redis runs atomically: if
- * the ledger holds the chunk's digest it does nothing; if one of the
- * chunk's new posting ids has been counted meanwhile (another loader) it
- * does nothing and says so, and the client recounts the chunk; otherwise
- * it adds the ids, all the increments and the examples, and the digest
- * to the ledger.  So a chunk is counted once or not at all, whatever
- * fails when: a load killed or a server lost mid-load, run again, skips
- * what was applied and applies the rest.
+ * Why a chunk counts exactly once, on one server or on a cluster (where
+ * a script may touch the keys of one slot only):
+ *  1. Claim.  For each id shard, one script gives every new id of the
+ *     chunk to the chunk (HSET id digest unless the id has an owner) and
+ *     answers which ids the chunk owns.  Ownership is first come, first
+ *     served, and for ever: the same chunk run again (a rerun after a
+ *     kill, the same file twice, two loaders of one file at once) owns
+ *     exactly the same ids, because a chunk's digest is its content.
+ *  2. Share.  The postings whose ids the chunk owns (and those without
+ *     an id) are aggregated and split by hash tag: each occupation's
+ *     forms, totals and examples, and each key-total shard.
+ *  3. Apply.  Each share goes to one script in its own slot, which does
+ *     nothing if the tag's ledger holds the chunk's digest, and otherwise
+ *     applies the increments and the examples and adds the digest, all
+ *     atomically.
+ * A share is thus applied at most once (its ledger, in its slot), and a
+ * rerun of what was cut off applies what is missing: steps 1 and 2 give
+ * the same shares every time.  An id owned by another chunk was counted
+ * there (republished), whichever loader got there first.
  *
  * The review queue is changed optimistically: WATCH P:{r}:items, read it,
  * decide in the client, then MULTI, HSET the changed items, XADD the
@@ -34,37 +49,34 @@
 #include "store.h"
 
 #include <errno.h>
-#include <hiredis/hiredis.h>
-#include <signal.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <time.h>
 
+#include "cluster.h"
+#include "slot.h"
 #include "token.h"
 
 #define SHARDS 64
 #define SEP '\x1F'
 
-static const char script[] =
+/* Step 1: KEYS[1] an id shard, ARGV[1] the chunk's owner tag, then ids. */
+static const char claim_script[] =
+	"local k, d, out = KEYS[1], ARGV[1], {}\n"
+	"for i = 2, #ARGV do\n"
+	"  local o = redis.call('HGET', k, ARGV[i])\n"
+	"  if not o then redis.call('HSET', k, ARGV[i], d); o = d end\n"
+	"  out[i - 1] = (o == d) and 1 or 0\n"
+	"end\n"
+	"return out\n";
+
+/* Step 3: KEYS[1] the tag's ledger, ARGV[1] the chunk's digest; then H
+ * and H triples (key index, field, increment); then E and E groups (key
+ * index, field, n, n examples). */
+static const char apply_script[] =
 	"if redis.call('SISMEMBER', KEYS[1], ARGV[1]) == 1 then return 0 end\n"
 	"local i = 2\n"
-	"local G = tonumber(ARGV[i]); i = i + 1\n"
-	"local groups = {}\n"
-	"for g = 1, G do\n"
-	"  local k = KEYS[tonumber(ARGV[i])]; local c = tonumber(ARGV[i + 1]); i = i + 2\n"
-	"  for j = i, i + c - 1, 256 do\n"
-	"    local m = redis.call('SMISMEMBER', k, unpack(ARGV, j, math.min(j + 255, i + c - 1)))\n"
-	"    for q = 1, #m do if m[q] == 1 then return -1 end end\n"
-	"  end\n"
-	"  groups[g] = {k, i, c}; i = i + c\n"
-	"end\n"
-	"for g = 1, G do\n"
-	"  local k, s, c = groups[g][1], groups[g][2], groups[g][3]\n"
-	"  for j = s, s + c - 1, 256 do\n"
-	"    redis.call('SADD', k, unpack(ARGV, j, math.min(j + 255, s + c - 1)))\n"
-	"  end\n"
-	"end\n"
 	"local H = tonumber(ARGV[i]); i = i + 1\n"
 	"for h = 1, H do\n"
 	"  redis.call('HINCRBY', KEYS[tonumber(ARGV[i])], ARGV[i + 1], ARGV[i + 2]); i = i + 3\n"
@@ -90,157 +102,99 @@ static const char script[] =
 
 typedef struct rstore {
 	store base;
-	redisContext *c;
-	char *host, *user, *pass, *path, *name;
-	int port, db, retries, timeout_ms;
+	rcluster k;
+	char *name;
 	char prefix[128];
-	char sha[41];
+	char sha_claim[41], sha_apply[41];
 	/* the current chunk: postings as records in one buffer */
 	tm_buf chunk;
 	size_t nchunk;
-	/* building the script call */
-	strtab keyidx;
 	strtab exbound;         /* per title: 1 + the largest example hash the
 				 * store can still hold, as this load knows it */
 	tm_buf pending;
-	tm_buf args;            /* all arguments back to back */
-	size_t *argoff, *arglen, nargs, argcap;
 } rstore;
-
-/* A server that goes away must give an error, not kill the process:
- * SIGPIPE is held back while hiredis talks to the socket, and one raised
- * meanwhile is dropped.  (Standard output keeps the usual behaviour.) */
-static void pipe_hold(sigset_t *old)
-{
-	sigset_t s;
-	sigemptyset(&s);
-	sigaddset(&s, SIGPIPE);
-	sigprocmask(SIG_BLOCK, &s, old);
-}
-
-static void pipe_release(const sigset_t *old)
-{
-	sigset_t s, pend;
-	struct timespec zero = {0, 0};
-	sigemptyset(&s);
-	sigaddset(&s, SIGPIPE);
-	if (!sigismember(old, SIGPIPE) && sigpending(&pend) == 0 && sigismember(&pend, SIGPIPE))
-		sigtimedwait(&s, NULL, &zero);
-	sigprocmask(SIG_SETMASK, old, NULL);
-}
-
-static int get_reply(redisContext *c, void **rep)
-{
-	sigset_t old;
-	pipe_hold(&old);
-	int rc = redisGetReply(c, rep);
-	pipe_release(&old);
-	return rc;
-}
-
-static redisReply *command_argv(redisContext *c, int argc, const char **argv, const size_t *len)
-{
-	sigset_t old;
-	pipe_hold(&old);
-	redisReply *rep = redisCommandArgv(c, argc, argv, len);
-	pipe_release(&old);
-	return rep;
-}
 
 static void rerr(rstore *r, const char *what, const char *detail)
 {
-	char m[600];
+	char m[800];
 	snprintf(m, sizeof m, "%s: %s%s%s", r->name, what, detail ? ": " : "",
 		 detail ? detail : "");
 	buf_reset(&r->base.err);
 	buf_puts(&r->base.err, m);
 }
 
-static void sleep_ms(long ms)
+/* The router's message as the store's. */
+static void kerr_up(rstore *r)
 {
-	struct timespec ts = {ms / 1000, (ms % 1000) * 1000000L};
-	nanosleep(&ts, NULL);
+	buf_reset(&r->base.err);
+	buf_append(&r->base.err, r->k.err.data ? r->k.err.data : "", r->k.err.len);
+	if (!r->k.cluster && !strncmp(r->base.err.data, r->name, strlen(r->name)))
+		return;
+	if (r->k.cluster) {
+		/* name the cluster too */
+		tm_buf b = {0};
+		buf_puts(&b, r->name);
+		buf_puts(&b, ": ");
+		buf_append(&b, r->base.err.data, r->base.err.len);
+		buf_free(&r->base.err);
+		r->base.err = b;
+	}
 }
 
-static redisReply *cmd(rstore *r, int argc, const char **argv, const size_t *len)
+/* Loads the scripts on a new connection: also where a server that wants
+ * a password says so. */
+static int load_scripts(void *ctx, redisContext *c, tm_buf *err)
 {
-	redisReply *rep = command_argv(r->c, argc, argv, len);
-	if (!rep) {
-		rerr(r, "lost the connection", r->c->errstr[0] ? r->c->errstr : "no reply");
-		return NULL;
-	}
-	if (rep->type == REDIS_REPLY_ERROR) {
-		rerr(r, "the server answered with an error", rep->str);
-		freeReplyObject(rep);
-		return NULL;
-	}
-	return rep;
-}
-
-static redisReply *cmd1(rstore *r, const char *a, const char *b, const char *c)
-{
-	const char *v[3] = {a, b, c};
-	size_t l[3] = {strlen(a), b ? strlen(b) : 0, c ? strlen(c) : 0};
-	return cmd(r, c ? 3 : b ? 2 : 1, v, l);
-}
-
-static int connect_once(rstore *r)
-{
-	struct timeval tv = {r->timeout_ms / 1000, (r->timeout_ms % 1000) * 1000};
-	redisReply *rep;
-
-	if (r->c)
-		redisFree(r->c);
-	r->c = r->path ? redisConnectUnixWithTimeout(r->path, tv)
-		       : redisConnectWithTimeout(r->host, r->port, tv);
-	if (!r->c || r->c->err) {
-		rerr(r, "cannot connect", r->c ? r->c->errstr : "out of memory");
-		return -1;
-	}
-	redisSetTimeout(r->c, tv);
-	if (r->pass) {
-		rep = r->user ? cmd1(r, "AUTH", r->user, r->pass) : cmd1(r, "AUTH", r->pass, NULL);
-		if (!rep)
-			return -1; /* the message has the server's reason */
-		freeReplyObject(rep);
-	}
-	if (r->db) {
-		char db[16];
-		snprintf(db, sizeof db, "%d", r->db);
-		if (!(rep = cmd1(r, "SELECT", db, NULL)))
+	rstore *r = ctx;
+	const char *src[2] = {claim_script, apply_script};
+	char *sha[2] = {r->sha_claim, r->sha_apply};
+	for (int i = 0; i < 2; i++) {
+		const char *av[3] = {"SCRIPT", "LOAD", src[i]};
+		size_t al[3] = {6, 4, strlen(src[i])};
+		redisReply *rep = redisCommandArgv(c, 3, av, al);
+		buf_reset(err);
+		if (!rep) {
+			buf_puts(err, "lost the connection");
 			return -1;
+		}
+		if (rep->type == REDIS_REPLY_ERROR) {
+			if (strstr(rep->str, "NOAUTH"))
+				buf_puts(err, "the server requires a password: set TITLEMILL_REDIS_PASSWORD "
+					      "or put user:password@ in the URL");
+			else {
+				buf_puts(err, "the server refused the script: ");
+				buf_puts(err, rep->str);
+			}
+			freeReplyObject(rep);
+			return -1;
+		}
+		if (rep->type != REDIS_REPLY_STRING || rep->len != 40) {
+			freeReplyObject(rep);
+			buf_puts(err, "unexpected reply to SCRIPT LOAD");
+			return -1;
+		}
+		memcpy(sha[i], rep->str, 40);
+		sha[i][40] = 0;
 		freeReplyObject(rep);
 	}
-	/* a server that wants a password says so on the first command */
-	if (!(rep = cmd1(r, "SCRIPT", "LOAD", script))) {
-		if (strstr(r->base.err.data, "NOAUTH"))
-			rerr(r, "the server requires a password",
-			     "set TITLEMILL_REDIS_PASSWORD or put user:password@ in the URL");
-		return -1;
-	}
-	if (rep->type != REDIS_REPLY_STRING || rep->len != 40) {
-		freeReplyObject(rep);
-		rerr(r, "unexpected reply to SCRIPT LOAD", NULL);
-		return -1;
-	}
-	memcpy(r->sha, rep->str, 40);
-	r->sha[40] = 0;
-	freeReplyObject(rep);
 	return 0;
 }
 
-/* Connects, with retries and growing back-off for a short outage. */
-static int reconnect(rstore *r)
+/* One command routed by the slot of its key argv[1]; the reply, or NULL
+ * with the message set (error replies become messages). */
+static redisReply *cmd(rstore *r, int argc, const char **argv, const size_t *len)
 {
-	long wait = 100;
-	for (int a = 0;; a++) {
-		if (connect_once(r) == 0)
-			return 0;
-		if (a >= r->retries)
-			return -1;
-		sleep_ms(wait);
-		wait = wait * 2 > 2000 ? 2000 : wait * 2;
+	rc_cmd c = {argc, argv, len, argc > 1 ? slot_of(argv[1], len[1]) : 0, NULL};
+	if (rc_run(&r->k, &c, 1) != 0) {
+		kerr_up(r);
+		return NULL;
 	}
+	if (c.reply->type == REDIS_REPLY_ERROR) {
+		rerr(r, "the server answered with an error", c.reply->str);
+		freeReplyObject(c.reply);
+		return NULL;
+	}
+	return c.reply;
 }
 
 /* ---- the chunk buffer ---- */
@@ -283,43 +237,6 @@ static int r_add(store *st, const tally_posting *p)
 	return 0;
 }
 
-/* ---- building the script's arguments ---- */
-
-static int arg(rstore *r, const char *s, size_t n)
-{
-	if (r->nargs == r->argcap) {
-		size_t cap = r->argcap ? r->argcap * 2 : 4096;
-		size_t *o = realloc(r->argoff, cap * sizeof *o), *l;
-		if (!o)
-			return -1;
-		r->argoff = o;
-		if (!(l = realloc(r->arglen, cap * sizeof *l)))
-			return -1;
-		r->arglen = l;
-		r->argcap = cap;
-	}
-	r->argoff[r->nargs] = r->args.len;
-	r->arglen[r->nargs] = n;
-	r->nargs++;
-	return buf_append(&r->args, s, n);
-}
-
-static int argnum(rstore *r, unsigned long long v)
-{
-	char b[24];
-	int n = snprintf(b, sizeof b, "%llu", v);
-	return arg(r, b, (size_t)n);
-}
-
-/* Index (1-based, as Lua sees KEYS) of a key, added when new. */
-static long keyno(rstore *r, const char *k, size_t n)
-{
-	size_t idx;
-	if (st_add(&r->keyidx, k, n, 0, &idx) < 0)
-		return -1;
-	return (long)idx + 1;
-}
-
 int store_key_occ(const char *prefix, const char *occ, size_t ol, char suffix, tm_buf *kb)
 {
 	buf_reset(kb);
@@ -339,16 +256,6 @@ int store_key_shard(const char *prefix, char kind, uint64_t h, tm_buf *kb)
 	return 0;
 }
 
-static int occkey(rstore *r, tm_buf *kb, const char *occ, size_t ol, char suffix)
-{
-	return store_key_occ(r->prefix, occ, ol, suffix, kb);
-}
-
-static void shard_key(rstore *r, tm_buf *kb, char kind, uint64_t h)
-{
-	store_key_shard(r->prefix, kind, h, kb);
-}
-
 /* Splits a joined key "a 1F b 1F c" into its first field and the rest. */
 static size_t first_field(const char *s, size_t n)
 {
@@ -356,36 +263,138 @@ static size_t first_field(const char *s, size_t n)
 	return x ? (size_t)(x - s) : n;
 }
 
-/* One attempt at applying the chunk: 1 applied, 0 in the ledger, -1
- * failure (message set), -2 an id was counted meanwhile. */
-static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
-		   uint64_t *repub)
+
+/* A script call being built: its KEYS (KEYS[1] the ledger) and its
+ * arguments, increments and examples apart until the counts are known. */
+typedef struct call {
+	strtab keys;
+	tm_buf h, e;            /* put()-framed arguments */
+	size_t nhargs, neargs;
+	long nh, ne;
+	unsigned slot;
+} call;
+
+typedef struct calls {
+	strtab tags;            /* key without its last letter -> call + 1 */
+	call *v;
+	size_t n, cap;
+} calls;
+
+static void calls_free(calls *cs)
+{
+	for (size_t i = 0; i < cs->n; i++) {
+		st_free(&cs->v[i].keys);
+		buf_free(&cs->v[i].h);
+		buf_free(&cs->v[i].e);
+	}
+	free(cs->v);
+	st_free(&cs->tags);
+}
+
+/* The call of key's tag (made with the tag's ledger as KEYS[1] when
+ * new) and key's index among its KEYS (1-based); NULL when out of memory. */
+static call *call_for(calls *cs, const char *key, size_t kl, long *kn)
+{
+	size_t ti, ki;
+	int fresh = st_add(&cs->tags, key, kl - 1, 0, &ti);
+	if (fresh < 0)
+		return NULL;
+	if (fresh) {
+		if (cs->n == cs->cap) {
+			size_t cap = cs->cap ? cs->cap * 2 : 64;
+			call *p = realloc(cs->v, cap * sizeof *p);
+			if (!p)
+				return NULL;
+			cs->v = p;
+			cs->cap = cap;
+		}
+		call *c = &cs->v[cs->n];
+		memset(c, 0, sizeof *c);
+		tm_buf lk = {0};
+		if (buf_append(&lk, key, kl - 1) || buf_putc(&lk, 'L') ||
+		    st_add(&c->keys, lk.data, lk.len, 0, NULL) < 0) {
+			buf_free(&lk);
+			return NULL;
+		}
+		c->slot = slot_of(lk.data, lk.len);
+		buf_free(&lk);
+		cs->tags.ent[ti].count = ++cs->n;
+	}
+	call *c = &cs->v[cs->tags.ent[ti].count - 1];
+	if (st_add(&c->keys, key, kl, 0, &ki) < 0)
+		return NULL;
+	*kn = (long)ki + 1;
+	return c;
+}
+
+static int putnum(tm_buf *b, unsigned long long v)
+{
+	char s[24];
+	int n = snprintf(s, sizeof s, "%llu", v);
+	return put(b, s, (size_t)n);
+}
+
+/* An increment of field in key by v. */
+static int add_incr(calls *cs, const char *key, size_t kl, const char *f, size_t fl, uint64_t v)
+{
+	long kn;
+	call *c = call_for(cs, key, kl, &kn);
+	if (!c || putnum(&c->h, (unsigned long long)kn) || put(&c->h, f, fl) ||
+	    putnum(&c->h, (unsigned long long)v))
+		return -1;
+	c->nhargs += 3;
+	c->nh++;
+	return 0;
+}
+
+/* Runs the batch and frees the replies; out[i] gets the integer reply of
+ * cmds[i] (or -1 for an error reply, whose text goes to the message). */
+static int run_batch(rstore *r, rc_cmd *cmds, size_t n, long long *ints, const char *what)
+{
+	int rc = 0;
+	if (rc_run(&r->k, cmds, n) != 0) {
+		kerr_up(r);
+		return -1;
+	}
+	for (size_t i = 0; i < n; i++) {
+		redisReply *x = cmds[i].reply;
+		if (x->type == REDIS_REPLY_ERROR) {
+			if (!rc)
+				rerr(r, what, x->str);
+			rc = -1;
+		} else if (ints)
+			ints[i] = x->type == REDIS_REPLY_INTEGER ? x->integer : -1;
+	}
+	return rc;
+}
+
+/* Applies the buffered chunk: 1 applied (some share was new), 0 every
+ * share was in its ledger, -1 failure (message set). */
+static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint64_t *repub)
 {
 	tally_mem agg;
 	strtab chunk_ids = {0};
-	tm_buf kb = {0};
+	calls cs = {0};
+	tm_buf kb = {0}, kb2 = {0};
 	const char *p, *end;
-	size_t i, hpos, epos;
-	long nh = 0, ne = 0;
+	size_t i;
 	int rc = -1;
-	char dg[40];
-	redisReply *rep = NULL;
-	/* ids per shard, and which are already counted */
-	tm_buf shard_ids[SHARDS];
-	size_t nshard[SHARDS];
-	uint8_t *seen = NULL, *shard = NULL;
-	size_t nids = 0;
+	char dg[40], owner[17];
+	uint8_t *mine = NULL;
+	rc_cmd *cmds = NULL;
+	const char ***avs = NULL;
+	size_t **als = NULL, ncmd = 0;
+	long long *res = NULL;
 
-	memset(shard_ids, 0, sizeof shard_ids);
-	memset(nshard, 0, sizeof nshard);
 	tm_init(&agg);
-	st_free(&r->keyidx);
-	buf_reset(&r->args);
-	r->nargs = 0;
 	*counted = *repub = 0;
 	buf_reset(&r->pending);
+	snprintf(dg, sizeof dg, "%016llx%016llx", (unsigned long long)digest[0],
+		 (unsigned long long)digest[1]);
+	memcpy(owner, dg, 16);
+	owner[16] = 0;
 
-	/* 1. the chunk's distinct ids, and which the server has */
+	/* 1. the chunk's distinct ids, claimed shard by shard */
 	for (p = r->chunk.data, end = p + r->chunk.len; p < end;) {
 		size_t n, l;
 		const char *id = get(&p, &n);
@@ -396,85 +405,86 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
 		p += sizeof nocc;
 		for (uint32_t k = 0; k < nocc; k++)
 			get(&p, &l);
-		if (!has)
-			continue;
-		if (st_add(&chunk_ids, id, n, 0, NULL) == 1)
-			nids++;
+		if (has && st_add(&chunk_ids, id, n, 0, NULL) < 0)
+			goto oom;
 	}
-	if (nids) {
-		seen = calloc(nids, 1);
-		if (!seen)
-			goto oom;
-		/* SMISMEMBER per shard, pipelined */
-		int sent[SHARDS];
-		memset(sent, 0, sizeof sent);
-		shard = malloc(chunk_ids.n);
-		if (!shard)
-			goto oom;
+	mine = calloc(chunk_ids.n + 1, 1);
+	cmds = calloc(SHARDS, sizeof *cmds);
+	avs = calloc(SHARDS, sizeof *avs);
+	als = calloc(SHARDS, sizeof *als);
+	char (*shkeys)[160] = calloc(SHARDS, 160);
+	if (!mine || !cmds || !avs || !als || !shkeys) {
+		free(shkeys);
+		goto oom;
+	}
+	{
+		size_t cnt[SHARDS] = {0};
+		int which[SHARDS];
 		for (i = 0; i < chunk_ids.n; i++)
-			shard[i] = (uint8_t)(chunk_ids.ent[i].hash % SHARDS);
+			cnt[chunk_ids.ent[i].hash % SHARDS]++;
 		for (int s = 0; s < SHARDS; s++) {
-			size_t cnt = 0;
-			for (i = 0; i < chunk_ids.n; i++)
-				cnt += shard[i] == s;
-			if (!cnt)
+			if (!cnt[s])
 				continue;
-			const char **av = malloc((cnt + 2) * sizeof *av);
-			size_t *al = malloc((cnt + 2) * sizeof *al), q = 2;
-			if (!av || !al) {
-				free(av);
-				free(al);
+			store_key_shard(r->prefix, 'i', (uint64_t)s, &kb);
+			snprintf(shkeys[ncmd], 160, "%s", kb.data);
+			avs[ncmd] = malloc((cnt[s] + 5) * sizeof **avs);
+			als[ncmd] = malloc((cnt[s] + 5) * sizeof **als);
+			if (!avs[ncmd] || !als[ncmd]) {
+				ncmd++;
+				free(shkeys);
 				goto oom;
 			}
-			shard_key(r, &kb, 'i', (uint64_t)s);
-			av[0] = "SMISMEMBER";
-			al[0] = 10;
-			av[1] = kb.data;
-			al[1] = kb.len;
-			for (i = 0; i < chunk_ids.n; i++) {
-				size_t n;
-				const char *id = st_key(&chunk_ids, i, &n);
-				if (shard[i] == s) {
-					av[q] = id;
-					al[q++] = n;
-				}
-			}
-			int ok = redisAppendCommandArgv(r->c, (int)q, av, al) == REDIS_OK;
-			free(av);
-			free(al);
-			if (!ok) {
-				rerr(r, "lost the connection", r->c->errstr);
-				goto fail;
-			}
-			sent[s] = 1;
-		}
-		for (int s = 0; s < SHARDS; s++) {
-			if (!sent[s])
-				continue;
-			void *v;
-			if (get_reply(r->c, &v) != REDIS_OK) {
-				rerr(r, "lost the connection", r->c->errstr);
-				goto fail;
-			}
-			redisReply *x = v;
-			if (x->type != REDIS_REPLY_ARRAY) {
-				rerr(r, "the server answered with an error",
-				     x->type == REDIS_REPLY_ERROR ? x->str : "unexpected reply");
-				freeReplyObject(x);
-				goto fail;
-			}
 			size_t q = 0;
+			avs[ncmd][q] = "EVALSHA", als[ncmd][q++] = 7;
+			avs[ncmd][q] = r->sha_claim, als[ncmd][q++] = 40;
+			avs[ncmd][q] = "1", als[ncmd][q++] = 1;
+			avs[ncmd][q] = shkeys[ncmd], als[ncmd][q++] = strlen(shkeys[ncmd]);
+			avs[ncmd][q] = owner, als[ncmd][q++] = 16;
 			for (i = 0; i < chunk_ids.n; i++)
-				if (shard[i] == s) {
-					if (q < x->elements && x->element[q]->integer == 1)
-						seen[i] = 1;
+				if (chunk_ids.ent[i].hash % SHARDS == (uint64_t)s) {
+					avs[ncmd][q] = st_key(&chunk_ids, i, &als[ncmd][q]);
 					q++;
 				}
-			freeReplyObject(x);
+			cmds[ncmd] = (rc_cmd){(int)q, avs[ncmd], als[ncmd],
+					      slot_of(shkeys[ncmd], strlen(shkeys[ncmd])), NULL};
+			which[ncmd] = s;
+			ncmd++;
 		}
+		if (rc_run(&r->k, cmds, ncmd) != 0) {
+			kerr_up(r);
+			free(shkeys);
+			goto fail;
+		}
+		for (size_t c = 0; c < ncmd; c++) {
+			redisReply *x = cmds[c].reply;
+			int s = which[c];
+			size_t q = 0;
+			if (x->type != REDIS_REPLY_ARRAY) {
+				rerr(r, "the server refused the ids",
+				     x->type == REDIS_REPLY_ERROR ? x->str : "unexpected reply");
+				free(shkeys);
+				goto fail;
+			}
+			for (i = 0; i < chunk_ids.n; i++)
+				if (chunk_ids.ent[i].hash % SHARDS == (uint64_t)s) {
+					if (q < x->elements && x->element[q]->integer == 1)
+						mine[i] = 1;
+					q++;
+				}
+		}
+		for (size_t c = 0; c < ncmd; c++) {
+			freeReplyObject(cmds[c].reply);
+			cmds[c].reply = NULL;
+			free(avs[c]);
+			free(als[c]);
+			avs[c] = NULL;
+			als[c] = NULL;
+		}
+		ncmd = 0;
 	}
+	free(shkeys);
 
-	/* 2. aggregate the postings whose ids are new */
+	/* 2. aggregate the postings the chunk owns */
 	for (p = r->chunk.data, end = p + r->chunk.len; p < end;) {
 		size_t n, ll, kl, tl, xl;
 		const char *id = get(&p, &n);
@@ -492,16 +502,10 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
 		memcpy(lg, lang, ll < 3 ? ll : 3);
 		if (has) {
 			long idx = st_find(&chunk_ids, id, n);
-			size_t cidx;
-			if (seen[idx] || st_add(&agg.ids, id, n, 0, &cidx) == 0) {
+			if (!mine[idx] || st_add(&agg.ids, id, n, 0, NULL) == 0) {
 				(*repub)++;
 				continue;
 			}
-			/* the id goes to its shard's SADD */
-			uint64_t s = shard[idx];
-			if (put(&shard_ids[s], id, n))
-				goto oom;
-			nshard[s]++;
 		}
 		tally_posting tp = {0};
 		tp.lang = lg;
@@ -519,75 +523,30 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
 		(*counted)++;
 	}
 
-	/* 3. the script's arguments: ledger first among the keys */
-	snprintf(dg, sizeof dg, "%016llx%016llx", (unsigned long long)digest[0],
-		 (unsigned long long)digest[1]);
-	buf_reset(&kb);
-	buf_puts(&kb, r->prefix);
-	buf_puts(&kb, ":{l}:chunks");
-	if (keyno(r, kb.data, kb.len) != 1 || arg(r, dg, 32))
-		goto oom;
-	int groups = 0;
-	for (int s = 0; s < SHARDS; s++)
-		groups += nshard[s] > 0;
-	if (argnum(r, (unsigned long long)groups))
-		goto oom;
-	for (int s = 0; s < SHARDS; s++) {
-		if (!nshard[s])
-			continue;
-		shard_key(r, &kb, 'i', (uint64_t)s);
-		long kn = keyno(r, kb.data, kb.len);
-		if (kn < 0 || argnum(r, (unsigned long long)kn) || argnum(r, nshard[s]))
-			goto oom;
-		const char *q = shard_ids[s].data, *qe = q + shard_ids[s].len;
-		while (q < qe) {
-			size_t n;
-			const char *id = get(&q, &n);
-			if (arg(r, id, n))
-				goto oom;
-		}
-	}
-	hpos = r->nargs;
-	if (argnum(r, 0))
-		goto oom;
+	/* 3. the shares, one script call per hash tag */
 	for (i = 0; i < agg.forms.n; i++) {
 		size_t n;
-		const char *k = st_key(&agg.forms, i, &n), *f;
+		const char *k = st_key(&agg.forms, i, &n);
 		size_t ol = first_field(k, n);
-		if (occkey(r, &kb, k, ol, 'f'))
+		if (store_key_occ(r->prefix, k, ol, 'f', &kb) ||
+		    add_incr(&cs, kb.data, kb.len, k + ol + 1, n - ol - 1, agg.forms.ent[i].count))
 			goto oom;
-		long kn = keyno(r, kb.data, kb.len);
-		f = k + ol + 1;
-		if (kn < 0 || argnum(r, (unsigned long long)kn) || arg(r, f, n - ol - 1) ||
-		    argnum(r, agg.forms.ent[i].count))
-			goto oom;
-		nh++;
 	}
 	for (i = 0; i < agg.occs.n; i++) {
 		size_t n;
 		const char *k = st_key(&agg.occs, i, &n);
 		size_t ol = first_field(k, n);
-		if (occkey(r, &kb, k, ol, 'n'))
+		if (store_key_occ(r->prefix, k, ol, 'n', &kb) ||
+		    add_incr(&cs, kb.data, kb.len, k + ol + 1, n - ol - 1, agg.occs.ent[i].count))
 			goto oom;
-		long kn = keyno(r, kb.data, kb.len);
-		if (kn < 0 || argnum(r, (unsigned long long)kn) || arg(r, k + ol + 1, n - ol - 1) ||
-		    argnum(r, agg.occs.ent[i].count))
-			goto oom;
-		nh++;
 	}
 	for (i = 0; i < agg.keys.n; i++) {
 		size_t n;
 		const char *k = st_key(&agg.keys, i, &n);
-		shard_key(r, &kb, 'k', tok_hash(k, n));
-		long kn = keyno(r, kb.data, kb.len);
-		if (kn < 0 || argnum(r, (unsigned long long)kn) || arg(r, k, n) ||
-		    argnum(r, agg.keys.ent[i].count))
+		if (store_key_shard(r->prefix, 'k', tok_hash(k, n), &kb) ||
+		    add_incr(&cs, kb.data, kb.len, k, n, agg.keys.ent[i].count))
 			goto oom;
-		nh++;
 	}
-	epos = r->nargs;
-	if (argnum(r, 0))
-		goto oom;
 	for (i = 0; i < agg.exkeys.n; i++) {
 		size_t n;
 		const char *k = st_key(&agg.exkeys, i, &n);
@@ -614,95 +573,77 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted,
 			if (put(&r->pending, k, n) || buf_append(&r->pending, &w1, sizeof w1))
 				goto oom;
 		}
-		if (occkey(r, &kb, k, ol, 'x'))
-			goto oom;
-		long kn = keyno(r, kb.data, kb.len);
-		if (kn < 0 || argnum(r, (unsigned long long)kn) || arg(r, k + ol + 1, n - ol - 1) ||
-		    argnum(r, (unsigned long long)take))
+		long kn;
+		call *c;
+		if (store_key_occ(r->prefix, k, ol, 'x', &kb) ||
+		    !(c = call_for(&cs, kb.data, kb.len, &kn)) ||
+		    putnum(&c->e, (unsigned long long)kn) || put(&c->e, k + ol + 1, n - ol - 1) ||
+		    putnum(&c->e, (unsigned long long)take))
 			goto oom;
 		for (int qq = 0; qq < take; qq++) {
 			int q = sendq[qq];
 			char hx[17];
 			snprintf(hx, sizeof hx, "%016llx", (unsigned long long)e->h[q]);
-			tm_buf eb = {0};
-			if (buf_append(&eb, hx, 16) ||
-			    buf_append(&eb, agg.exarena.data + e->off[q], e->len[q]) ||
-			    arg(r, eb.data, eb.len)) {
-				buf_free(&eb);
+			buf_reset(&kb2);
+			if (buf_append(&kb2, hx, 16) ||
+			    buf_append(&kb2, agg.exarena.data + e->off[q], e->len[q]) ||
+			    put(&c->e, kb2.data, kb2.len))
 				goto oom;
-			}
-			buf_free(&eb);
 		}
-		ne++;
-	}
-	/* the counts of operations, now known */
-	{
-		char b[24];
-		int l1 = snprintf(b, sizeof b, "%ld", nh);
-		/* rewrite in place: the placeholder "0" was one byte */
-		tm_buf fixed = {0};
-		for (size_t a = 0; a < r->nargs; a++) {
-			size_t off = fixed.len;
-			if (a == hpos) {
-				buf_append(&fixed, b, (size_t)l1);
-			} else if (a == epos) {
-				char e2[24];
-				int l2 = snprintf(e2, sizeof e2, "%ld", ne);
-				buf_append(&fixed, e2, (size_t)l2);
-			} else
-				buf_append(&fixed, r->args.data + r->argoff[a], r->arglen[a]);
-			r->arglen[a] = fixed.len - off;
-			r->argoff[a] = off;
-		}
-		buf_free(&r->args);
-		r->args = fixed;
+		c->neargs += 3 + (size_t)take;
+		c->ne++;
 	}
 
-	/* 4. EVALSHA sha nkeys keys... args... */
-	{
-		size_t nk = r->keyidx.n, total = 3 + nk + r->nargs, q = 0;
-		const char **av = malloc(total * sizeof *av);
-		size_t *al = malloc(total * sizeof *al);
-		char nks[24];
+	/* 4. EVALSHA sha nkeys keys... digest H ... E ..., every call at once */
+	free(cmds);
+	free(avs);
+	free(als);
+	cmds = calloc(cs.n + 1, sizeof *cmds);
+	avs = calloc(cs.n + 1, sizeof *avs);
+	als = calloc(cs.n + 1, sizeof *als);
+	res = calloc(cs.n + 1, sizeof *res);
+	char (*nums)[3][24] = calloc(cs.n + 1, sizeof *nums);
+	if (!cmds || !avs || !als || !res || !nums) {
+		free(nums);
+		goto oom;
+	}
+	for (ncmd = 0; ncmd < cs.n; ncmd++) {
+		call *c = &cs.v[ncmd];
+		size_t nk = c->keys.n, total = 6 + nk + c->nhargs + c->neargs, q = 0;
+		const char **av = avs[ncmd] = malloc(total * sizeof *av);
+		size_t *al = als[ncmd] = malloc(total * sizeof *al);
 		if (!av || !al) {
-			free(av);
-			free(al);
+			ncmd++;
+			free(nums);
 			goto oom;
 		}
-		snprintf(nks, sizeof nks, "%zu", nk);
-		av[q] = "EVALSHA"; al[q++] = 7;
-		av[q] = r->sha; al[q++] = 40;
-		av[q] = nks; al[q++] = strlen(nks);
+		snprintf(nums[ncmd][0], 24, "%zu", nk);
+		snprintf(nums[ncmd][1], 24, "%ld", c->nh);
+		snprintf(nums[ncmd][2], 24, "%ld", c->ne);
+		av[q] = "EVALSHA", al[q++] = 7;
+		av[q] = r->sha_apply, al[q++] = 40;
+		av[q] = nums[ncmd][0], al[q++] = strlen(nums[ncmd][0]);
 		for (i = 0; i < nk; i++) {
-			av[q] = st_key(&r->keyidx, i, &al[q]);
+			av[q] = st_key(&c->keys, i, &al[q]);
 			q++;
 		}
-		for (i = 0; i < r->nargs; i++) {
-			av[q] = r->args.data + r->argoff[i];
-			al[q++] = r->arglen[i];
-		}
-		rep = command_argv(r->c, (int)q, av, al);
-		free(av);
-		free(al);
+		av[q] = dg, al[q++] = 32;
+		av[q] = nums[ncmd][1], al[q++] = strlen(nums[ncmd][1]);
+		for (const char *x = c->h.data, *xe = x + c->h.len; x < xe; q++)
+			av[q] = get(&x, &al[q]);
+		av[q] = nums[ncmd][2], al[q++] = strlen(nums[ncmd][2]);
+		for (const char *x = c->e.data, *xe = x + c->e.len; x < xe; q++)
+			av[q] = get(&x, &al[q]);
+		cmds[ncmd] = (rc_cmd){(int)q, av, al, c->slot, NULL};
 	}
-	if (!rep) {
-		rerr(r, "lost the connection while applying a chunk", r->c->errstr);
+	int brc = run_batch(r, cmds, ncmd, res, "the server refused a chunk");
+	free(nums);
+	if (brc)
 		goto fail;
-	}
-	if (rep->type == REDIS_REPLY_ERROR) {
-		if (!strncmp(rep->str, "NOSCRIPT", 8)) {
-			/* a restarted server: load the script again */
-			rerr(r, "the server lost the script", NULL);
-			goto fail;
-		}
-		rerr(r, "the server refused the chunk", rep->str);
-		goto fail;
-	}
-	if (rep->type != REDIS_REPLY_INTEGER) {
-		rerr(r, "unexpected reply to the chunk script", NULL);
-		goto fail;
-	}
-	rc = rep->integer == 1 ? 1 : rep->integer == 0 ? 0 : -2;
+	rc = 0;
+	for (i = 0; i < ncmd; i++)
+		if (res[i] == 1)
+			rc = 1;
 	if (rc == 1) {
 		/* the examples' bounds, now that the chunk is in */
 		const char *q = r->pending.data, *qe = q + r->pending.len;
@@ -724,14 +665,24 @@ oom:
 fail:
 	rc = -1;
 done:
-	if (rep)
-		freeReplyObject(rep);
-	for (int s = 0; s < SHARDS; s++)
-		buf_free(&shard_ids[s]);
-	free(seen);
-	free(shard);
+	if (cmds)
+		for (i = 0; i < ncmd; i++)
+			if (cmds[i].reply)
+				freeReplyObject(cmds[i].reply);
+	if (avs)
+		for (i = 0; i < ncmd; i++) {
+			free(avs[i]);
+			free(als[i]);
+		}
+	free(cmds);
+	free(avs);
+	free(als);
+	free(res);
+	free(mine);
 	st_free(&chunk_ids);
+	calls_free(&cs);
 	buf_free(&kb);
+	buf_free(&kb2);
 	tm_free(&agg);
 	return rc;
 }
@@ -745,29 +696,10 @@ static int r_commit(store *st, const uint64_t digest[2], int *applied)
 	*applied = 0;
 	if (!r->nchunk)
 		return 0;
-	for (int round = 0;; round++) {
-		rc = attempt(r, digest, &counted, &repub);
-		if (rc >= 0)
-			break;
-		if (rc == -2 && round < 50)
-			continue; /* another loader counted one of our ids: recount */
-		if (rc == -2) {
-			rerr(r, "other loaders keep counting this chunk's ids", NULL);
-			return -1;
-		}
-		if (!strstr(r->base.err.data, "lost the") &&
-		    !strstr(r->base.err.data, "LOADING") && !strstr(r->base.err.data, "script"))
-			return -1;
-		/* a short outage: reconnect and try the chunk again (the
-		 * ledger says whether the lost attempt went through) */
-		char first[600];
-		snprintf(first, sizeof first, "%.*s", (int)r->base.err.len, r->base.err.data);
-		if (round >= r->retries || reconnect(r) != 0) {
-			buf_reset(&r->base.err);
-			buf_puts(&r->base.err, first);
-			return -1;
-		}
-	}
+	/* the router waits out short outages and failovers itself */
+	rc = attempt(r, digest, &counted, &repub);
+	if (rc < 0)
+		return -1;
 	if (rc == 1) {
 		*applied = 1;
 		st->applied++;
@@ -840,39 +772,50 @@ static int scan_hash(rstore *r, const char *key, size_t kl, int kind, const char
 static int r_dump(store *st, tally_mem *m)
 {
 	rstore *r = (rstore *)st;
-	char cursor[32] = "0", match[160];
+	char match[160];
 	size_t pl = strlen(r->prefix);
 
 	snprintf(match, sizeof match, "%s:*", r->prefix);
-	do {
-		const char *av[6] = {"SCAN", cursor, "MATCH", match, "COUNT", "1000"};
-		size_t al[6] = {4, strlen(cursor), 5, strlen(match), 5, 4};
-		redisReply *rep = cmd(r, 6, av, al);
-		if (!rep)
-			return -1;
-		if (rep->type != REDIS_REPLY_ARRAY || rep->elements != 2) {
-			freeReplyObject(rep);
-			rerr(r, "unexpected reply to SCAN", NULL);
-			return -1;
-		}
-		snprintf(cursor, sizeof cursor, "%.*s", (int)rep->element[0]->len, rep->element[0]->str);
-		redisReply *a = rep->element[1];
-		for (size_t i = 0; i < a->elements; i++) {
-			const char *k = a->element[i]->str;
-			size_t kl = a->element[i]->len;
-			int rc = 0;
-			if (kl > pl + 7 && !memcmp(k + pl, ":{o:", 4) && k[kl - 3] == '}' &&
-			    k[kl - 2] == ':' && strchr("fnx", k[kl - 1]))
-				rc = scan_hash(r, k, kl, k[kl - 1], k + pl + 4, kl - pl - 7, m);
-			else if (kl == pl + 9 && !memcmp(k + pl, ":{k:", 4) && k[kl - 1] == 'k')
-				rc = scan_hash(r, k, kl, 'k', NULL, 0, m);
-			if (rc) {
+	/* every master holds its share of the keys */
+	for (size_t mi = 0; rc_master(&r->k, mi); mi++) {
+		size_t node = rc_master(&r->k, mi) - 1;
+		char cursor[32] = "0";
+		do {
+			const char *av[6] = {"SCAN", cursor, "MATCH", match, "COUNT", "1000"};
+			size_t al[6] = {4, strlen(cursor), 5, strlen(match), 5, 4};
+			redisContext *c = rc_node_conn(&r->k, node);
+			redisReply *rep = c ? rc_command(c, 6, av, al) : NULL;
+			if (!rep) {
+				if (c)
+					rerr(r, "lost the connection", c->errstr);
+				else
+					kerr_up(r);
+				return -1;
+			}
+			if (rep->type != REDIS_REPLY_ARRAY || rep->elements != 2) {
+				rerr(r, "unexpected reply to SCAN", rep->type == REDIS_REPLY_ERROR ? rep->str : NULL);
 				freeReplyObject(rep);
 				return -1;
 			}
-		}
-		freeReplyObject(rep);
-	} while (strcmp(cursor, "0"));
+			snprintf(cursor, sizeof cursor, "%.*s", (int)rep->element[0]->len, rep->element[0]->str);
+			redisReply *a = rep->element[1];
+			for (size_t i = 0; i < a->elements; i++) {
+				const char *k = a->element[i]->str;
+				size_t kl = a->element[i]->len;
+				int rc = 0;
+				if (kl > pl + 7 && !memcmp(k + pl, ":{o:", 4) && k[kl - 3] == '}' &&
+				    k[kl - 2] == ':' && strchr("fnx", k[kl - 1]))
+					rc = scan_hash(r, k, kl, k[kl - 1], k + pl + 4, kl - pl - 7, m);
+				else if (kl == pl + 9 && !memcmp(k + pl, ":{k:", 4) && k[kl - 1] == 'k')
+					rc = scan_hash(r, k, kl, 'k', NULL, 0, m);
+				if (rc) {
+					freeReplyObject(rep);
+					return -1;
+				}
+			}
+			freeReplyObject(rep);
+		} while (strcmp(cursor, "0"));
+	}
 	return 0;
 }
 
@@ -881,20 +824,14 @@ static void r_close(store *st)
 	rstore *r = (rstore *)st;
 	if (!r)
 		return;
-	if (r->c)
-		redisFree(r->c);
-	free(r->host);
-	free(r->user);
-	free(r->pass);
-	free(r->path);
+	rc_close(&r->k);
+	free(r->k.user);
+	free(r->k.pass);
+	free(r->k.name);
 	free(r->name);
 	buf_free(&r->chunk);
-	st_free(&r->keyidx);
 	st_free(&r->exbound);
 	buf_free(&r->pending);
-	buf_free(&r->args);
-	free(r->argoff);
-	free(r->arglen);
 	buf_free(&r->base.err);
 	free(r);
 }
@@ -907,19 +844,50 @@ static int rq_key(rstore *r, tm_buf *kb, const char *what)
 	return buf_puts(kb, r->prefix) || buf_puts(kb, ":{r}:") || buf_puts(kb, what) ? -1 : 0;
 }
 
+/* The connection of the node that holds the queue (one hash tag). */
+static redisContext *rq_conn(rstore *r)
+{
+	tm_buf kb = {0};
+	redisContext *c = NULL;
+	if (rq_key(r, &kb, "items") == 0)
+		c = rc_conn(&r->k, slot_of(kb.data, kb.len));
+	buf_free(&kb);
+	if (!c)
+		kerr_up(r);
+	return c;
+}
+
+static redisReply *rq_cmd(rstore *r, redisContext *c, int argc, const char **argv, const size_t *al)
+{
+	redisReply *rep = rc_command(c, argc, argv, al);
+	if (!rep) {
+		rerr(r, "lost the connection", c->errstr[0] ? c->errstr : "no reply");
+		return NULL;
+	}
+	if (rep->type == REDIS_REPLY_ERROR) {
+		rerr(r, "the server answered with an error", rep->str);
+		freeReplyObject(rep);
+		return NULL;
+	}
+	return rep;
+}
+
 static int r_rq_load(store *st, tm_buf *out)
 {
 	rstore *r = (rstore *)st;
 	tm_buf kb = {0};
 	redisReply *rep;
+	redisContext *c;
 	int rc = -1;
 
-	if (rq_key(r, &kb, "items"))
+	if (rq_key(r, &kb, "items") || !(c = rq_conn(r)))
 		goto done;
-	if (!(rep = cmd1(r, "WATCH", kb.data, NULL)))
+	const char *w[2] = {"WATCH", kb.data}, *h[2] = {"HVALS", kb.data};
+	size_t wl[2] = {5, kb.len}, hl[2] = {5, kb.len};
+	if (!(rep = rq_cmd(r, c, 2, w, wl)))
 		goto done;
 	freeReplyObject(rep);
-	if (!(rep = cmd1(r, "HVALS", kb.data, NULL)))
+	if (!(rep = rq_cmd(r, c, 2, h, hl)))
 		goto done;
 	if (rep->type != REDIS_REPLY_ARRAY) {
 		freeReplyObject(rep);
@@ -948,23 +916,26 @@ static int r_rq_commit(store *st, const store_rq_put *puts, size_t nputs,
 	rstore *r = (rstore *)st;
 	tm_buf items = {0}, log = {0};
 	redisReply *rep = NULL;
+	redisContext *c;
 	size_t sent = 0;
 	int rc = -1;
 
 	*conflict = 0;
-	if (rq_key(r, &items, "items") || rq_key(r, &log, "log"))
+	if (rq_key(r, &items, "items") || rq_key(r, &log, "log") || !(c = rq_conn(r)))
 		goto done;
 	if (!nputs && !nev) {
-		if ((rep = cmd1(r, "UNWATCH", NULL, NULL)))
+		const char *u[1] = {"UNWATCH"};
+		size_t ul[1] = {7};
+		if ((rep = rq_cmd(r, c, 1, u, ul)))
 			rc = 0;
 		goto done;
 	}
-	redisAppendCommand(r->c, "MULTI");
+	redisAppendCommand(c, "MULTI");
 	sent++;
 	for (size_t i = 0; i < nputs; i++, sent++) {
 		const char *av[4] = {"HSET", items.data, puts[i].id, puts[i].item};
 		size_t al[4] = {4, items.len, puts[i].idlen, puts[i].itemlen};
-		redisAppendCommandArgv(r->c, 4, av, al);
+		redisAppendCommandArgv(c, 4, av, al);
 	}
 	for (size_t i = 0; i < nev; i++, sent++) {
 		const char *av[64];
@@ -975,26 +946,37 @@ static int r_rq_commit(store *st, const store_rq_put *puts, size_t nputs,
 		av[ac] = "*", al[ac++] = 1;
 		for (const char *p = ev[i].fv; p < ev[i].fv + ev[i].len && ac < 64; p += al[ac++] + 1)
 			av[ac] = p, al[ac] = strlen(p);
-		redisAppendCommandArgv(r->c, ac, av, al);
+		redisAppendCommandArgv(c, ac, av, al);
 	}
-	redisAppendCommand(r->c, "EXEC");
+	redisAppendCommand(c, "EXEC");
 	sent++;
 	/* every queued command answers QUEUED; EXEC answers the results, or
 	 * nil when the watched hash changed */
 	for (size_t i = 0; i < sent; i++) {
 		void *p = NULL;
-		if (get_reply(r->c, &p) != REDIS_OK || !p) {
-			rerr(r, "lost the connection", r->c->errstr[0] ? r->c->errstr : "no reply");
+		if (rc_get_reply(c, &p) != REDIS_OK || !p) {
+			rerr(r, "lost the connection", c->errstr[0] ? c->errstr : "no reply");
 			goto done;
 		}
 		if (rep)
 			freeReplyObject(rep);
 		rep = p;
+		if (rep->type == REDIS_REPLY_ERROR && (!strncmp(rep->str, "MOVED ", 6) ||
+						       !strncmp(rep->str, "ASK ", 4))) {
+			/* the queue's slot moved: read the map again and start over */
+			for (i++; i < sent; i++)
+				if (rc_get_reply(c, &p) == REDIS_OK && p)
+					freeReplyObject(p);
+			rc_refresh(&r->k);
+			*conflict = 1;
+			rc = 0;
+			goto done;
+		}
 		if (rep->type == REDIS_REPLY_ERROR) {
 			rerr(r, "the server answered with an error", rep->str);
 			/* read what is left, so the connection stays in step */
 			for (i++; i < sent; i++)
-				if (get_reply(r->c, &p) == REDIS_OK && p)
+				if (rc_get_reply(c, &p) == REDIS_OK && p)
 					freeReplyObject(p);
 			goto done;
 		}
@@ -1016,8 +998,16 @@ done:
 
 static const store_ops redis_ops = {r_add, r_commit, r_dump, r_close, r_rq_load, r_rq_commit};
 
-/* redis://[user:password@]host:port[/db] or unix:/path */
-static int parse_url(rstore *r, const char *url, tm_buf *err)
+/* redis://[user:password@]host:port[,host:port...][/db] or unix:/path;
+ * several host:port are the seeds of a cluster (one is enough: the
+ * router finds the others). */
+typedef struct seeds {
+	char *host[16], *path[16];
+	int port[16];
+	size_t n;
+} seeds;
+
+static int parse_url(rstore *r, const char *url, seeds *sd, tm_buf *err)
 {
 	const char *p;
 	char *e;
@@ -1027,12 +1017,13 @@ static int parse_url(rstore *r, const char *url, tm_buf *err)
 			buf_puts(err, "unix: wants a socket path, e.g. unix:/run/redis.sock");
 			return -1;
 		}
-		r->path = strdup(url + 5);
+		sd->path[0] = strdup(url + 5);
+		sd->n = 1;
 		r->name = strdup(url);
-		return r->path && r->name ? 0 : -1;
+		return sd->path[0] && r->name ? 0 : -1;
 	}
 	if (strncmp(url, "redis://", 8)) {
-		buf_puts(err, "a store is redis://[user:password@]host:port[/db] or unix:/path, not '");
+		buf_puts(err, "a store is redis://[user:password@]host:port[,host:port...][/db] or unix:/path, not '");
 		buf_puts(err, url);
 		buf_puts(err, "'");
 		return -1;
@@ -1043,67 +1034,110 @@ static int parse_url(rstore *r, const char *url, tm_buf *err)
 		const char *colon = memchr(p, ':', (size_t)(at - p));
 		if (colon) {
 			if (colon > p)
-				r->user = strndup(p, (size_t)(colon - p));
-			r->pass = strndup(colon + 1, (size_t)(at - colon - 1));
+				r->k.user = strndup(p, (size_t)(colon - p));
+			r->k.pass = strndup(colon + 1, (size_t)(at - colon - 1));
 		} else
-			r->pass = strndup(p, (size_t)(at - p));
+			r->k.pass = strndup(p, (size_t)(at - p));
 		p = at + 1;
 	}
-	const char *colon = strrchr(p, ':'), *slash = strchr(p, '/');
-	if (!colon || (slash && colon > slash) || colon == p) {
+	const char *slash = strchr(p, '/');
+	const char *hosts_end = slash ? slash : p + strlen(p);
+	while (p < hosts_end) {
+		const char *comma = memchr(p, ',', (size_t)(hosts_end - p));
+		const char *he = comma ? comma : hosts_end;
+		const char *colon = NULL;
+		for (const char *q = p; q < he; q++)
+			if (*q == ':')
+				colon = q;
+		if (!colon || colon == p) {
+			buf_puts(err, "redis:// wants host:port");
+			return -1;
+		}
+		if (sd->n == 16) {
+			buf_puts(err, "redis:// takes at most 16 seed nodes");
+			return -1;
+		}
+		errno = 0;
+		long port = strtol(colon + 1, &e, 10);
+		if (errno || e == colon + 1 || port < 1 || port > 65535 || e != he) {
+			buf_puts(err, "redis:// port must be a number from 1 to 65535");
+			return -1;
+		}
+		sd->host[sd->n] = strndup(p, (size_t)(colon - p));
+		sd->port[sd->n++] = (int)port;
+		p = comma ? comma + 1 : hosts_end;
+	}
+	if (!sd->n) {
 		buf_puts(err, "redis:// wants host:port");
 		return -1;
 	}
-	r->host = strndup(p, (size_t)(colon - p));
-	errno = 0;
-	long port = strtol(colon + 1, &e, 10);
-	if (errno || e == colon + 1 || port < 1 || port > 65535 || (*e && *e != '/')) {
-		buf_puts(err, "redis:// port must be a number from 1 to 65535");
-		return -1;
-	}
-	r->port = (int)port;
-	if (*e == '/') {
+	if (slash) {
 		char *e2;
-		long db = strtol(e + 1, &e2, 10);
-		if (e2 == e + 1 || *e2 || db < 0 || db > 1000000) {
+		long db = strtol(slash + 1, &e2, 10);
+		if (e2 == slash + 1 || *e2 || db < 0 || db > 1000000) {
 			buf_puts(err, "redis:// database must be a number");
 			return -1;
 		}
-		r->db = (int)db;
+		r->k.db = (int)db;
 	}
 	/* the name in messages never shows the password */
 	char nm[300];
-	snprintf(nm, sizeof nm, "redis://%s:%d%s", r->host, r->port, r->db ? "/db" : "");
-	if (r->db)
-		snprintf(nm, sizeof nm, "redis://%s:%d/%d", r->host, r->port, r->db);
+	if (r->k.db)
+		snprintf(nm, sizeof nm, "redis://%s:%d%s/%d", sd->host[0], sd->port[0],
+			 sd->n > 1 ? ",..." : "", r->k.db);
+	else
+		snprintf(nm, sizeof nm, "redis://%s:%d%s", sd->host[0], sd->port[0],
+			 sd->n > 1 ? ",..." : "");
 	r->name = strdup(nm);
-	return r->host && r->name ? 0 : -1;
+	return r->name ? 0 : -1;
 }
 
 store *store_open(const char *url, const store_conf *conf, tm_buf *err)
 {
 	rstore *r = calloc(1, sizeof *r);
 	const char *env = getenv("TITLEMILL_REDIS_PASSWORD");
+	seeds sd = {0};
+	store *out = NULL;
 
 	if (!r) {
 		buf_puts(err, "out of memory");
 		return NULL;
 	}
 	r->base.ops = &redis_ops;
-	r->retries = conf && conf->retries >= 0 ? conf->retries : 5;
-	r->timeout_ms = conf && conf->timeout_ms > 0 ? conf->timeout_ms : 5000;
+	r->k.retries = conf && conf->retries >= 0 ? conf->retries : 5;
+	r->k.timeout_ms = conf && conf->timeout_ms > 0 ? conf->timeout_ms : 5000;
+	r->k.on_connect = load_scripts;
+	r->k.ctx = r;
 	snprintf(r->prefix, sizeof r->prefix, "%s",
 		 conf && conf->prefix ? conf->prefix : "titlemill");
-	if (parse_url(r, url, err) != 0) {
+	if (parse_url(r, url, &sd, err) != 0) {
 		r_close(&r->base);
-		return NULL;
+		goto done;
 	}
-	if (!r->pass && env && *env)
-		r->pass = strdup(env);
-	if (reconnect(r) != 0) {
-		buf_append(err, r->base.err.data, r->base.err.len);
-		r_close(&r->base);
-		return NULL;
+	if (!r->k.pass && env && *env)
+		r->k.pass = strdup(env);
+	r->k.name = strdup(r->name);
+	/* a short outage at the start is waited out like one later on */
+	long wait = 100;
+	for (int a = 0;; a++) {
+		if (rc_open(&r->k, sd.host, sd.port, sd.path, sd.n) == 0)
+			break;
+		if (a >= r->k.retries || strstr(r->k.err.data, "password") ||
+		    strstr(r->k.err.data, "not a Redis Cluster") || strstr(r->k.err.data, "database 0")) {
+			kerr_up(r);
+			buf_append(err, r->base.err.data, r->base.err.len);
+			r_close(&r->base);
+			goto done;
+		}
+		rc_close(&r->k);
+		struct timespec ts = {wait / 1000, (wait % 1000) * 1000000L};
+		nanosleep(&ts, NULL);
+		wait = wait * 2 > 2000 ? 2000 : wait * 2;
 	}
-	return &r->base;
+	out = &r->base;
+done:
+	for (size_t i = 0; i < sd.n; i++)
+		free(sd.host[i]);
+	free(sd.path[0]);
+	return out;
 }
