@@ -665,9 +665,8 @@ static int sub_list(const review_opts *o, const rq_queue *q)
 		if (o->json) {
 			rq_item_json(it, &b);
 		} else {
-			evid e;
 			const rq_event *dec = rq_last_decision(it);
-			evid_item(it, &e);
+			const rq_brief *e = &it->brief;
 			buf_puts(&b, it->id);
 			buf_putc(&b, '\t');
 			buf_puts(&b, rq_status_names[it->status]);
@@ -680,15 +679,16 @@ static int sub_list(const review_opts *o, const rq_queue *q)
 			buf_putc(&b, '\t');
 			buf_puts(&b, it->label);
 			snprintf(num, sizeof num, "\t%.4f\t%llu\t%llu\t%.4f\t", it->score,
-				 (unsigned long long)it->postings, (unsigned long long)e.n, e.precision);
+				 (unsigned long long)it->postings, (unsigned long long)e->occ_postings,
+				 e->precision);
 			buf_puts(&b, num);
-			if (e.rival) {
-				snprintf(num, sizeof num, " (%llu)", (unsigned long long)e.rival_postings);
-				buf_puts(&b, e.rival);
+			if (e->rival) {
+				snprintf(num, sizeof num, " (%llu)", (unsigned long long)e->rival_postings);
+				buf_puts(&b, e->rival);
 				buf_puts(&b, num);
 			}
 			buf_putc(&b, '\t');
-			buf_puts(&b, e.variant_of ? e.variant_of : "");
+			buf_puts(&b, e->variant_of ? e->variant_of : "");
 			buf_putc(&b, '\t');
 			buf_puts(&b, it->added);
 			buf_putc(&b, '\t');
@@ -700,7 +700,6 @@ static int sub_list(const review_opts *o, const rq_queue *q)
 			buf_putc(&b, '\t');
 			buf_puts(&b, dec && dec->note ? dec->note : "");
 			buf_putc(&b, '\n');
-			jr_free(e.d);
 		}
 		if (b.len > 65536 && flush(&b, stdout))
 			break;

@@ -63,6 +63,8 @@ static void item_free(rq_item *it)
 	free(it->added);
 	free(it->proposed);
 	free(it->evidence);
+	free(it->brief.rival);
+	free(it->brief.variant_of);
 	for (size_t i = 0; i < it->nev; i++)
 		event_free(&it->ev[i]);
 	free(it->ev);
@@ -347,6 +349,28 @@ static char *dump(const jr_val *v, const char *where, tm_buf *err)
 	return b.data;
 }
 
+/* The list's figures from an evidence object; -1 when out of memory. */
+static int set_brief(rq_item *it, const jr_val *ev)
+{
+	size_t l;
+	const char *s;
+	rq_brief *b = &it->brief;
+	free(b->rival);
+	free(b->variant_of);
+	memset(b, 0, sizeof *b);
+	b->occ_postings = (uint64_t)jr_vint(jr_get(ev, "occupation_postings"));
+	b->precision = jr_vnum(jr_get(ev, "precision"));
+	const jr_val *c = jr_get(ev, "competitor");
+	b->rival_postings = (uint64_t)jr_vint(jr_get(c, "postings"));
+	if ((s = jr_vstr(jr_get(c, "occupation"), &l)) && !memchr(s, 0, l) &&
+	    !(b->rival = dupn(s, l)))
+		return -1;
+	if ((s = jr_vstr(jr_get(ev, "variant_of"), &l)) && !memchr(s, 0, l) &&
+	    !(b->variant_of = dupn(s, l)))
+		return -1;
+	return 0;
+}
+
 static int parse_event(rq_item *it, const jr_val *v, const char *where, tm_buf *err)
 {
 	int what;
@@ -425,6 +449,10 @@ static int parse_item(rq_queue *q, const char *line, size_t n, const char *where
 	}
 	it->raw = line;
 	it->rawlen = n;
+	if (set_brief(it, jr_get(v, "evidence"))) {
+		msg(err, where, "out of memory", NULL);
+		goto done;
+	}
 	const jr_val *h = jr_get(v, "history");
 	if (jr_vtype(h) != JR_ARRAY || !jr_vlen(h)) {
 		msg(err, where, "\"history\" must be a list of events", NULL);
@@ -489,8 +517,7 @@ static int set_evidence(rq_item *it, const jr_val *v, uint64_t postings, double 
 			const char *now, const char *where, tm_buf *err)
 {
 	char *ev = dump(v, where, err), *pr = strdup(now);
-	/* an evidence object of propose's, or its own when read back */
-	if (!ev || !pr) {
+	if (!ev || !pr || set_brief(it, v)) {
 		free(ev);
 		free(pr);
 		msg(err, where, "out of memory", NULL);

@@ -43,6 +43,13 @@ typedef struct rq_event {
 			       * (compact JSON); NULL otherwise */
 } rq_event;
 
+/* What a list shows of the latest evidence, taken when it is read. */
+typedef struct rq_brief {
+	uint64_t occ_postings, rival_postings;
+	double precision;
+	char *rival, *variant_of; /* NULL when absent */
+} rq_brief;
+
 typedef struct rq_item {
 	char *id, *occ, *lang, *label;
 	int kind, status;
@@ -56,6 +63,7 @@ typedef struct rq_item {
 	const char *raw;      /* an item read from a queue: its line, written
 			       * back as it was while the item is unchanged */
 	size_t rawlen;
+	rq_brief brief;
 	rq_event *ev;
 	size_t nev, evcap;
 	size_t nev_stored;    /* events already in the backend */
