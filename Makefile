@@ -3,6 +3,7 @@
 #   make              build ./titlemill
 #   make test         unit tests (cmocka) and the command-line suites
 #   make asan         the unit tests and suites built with ASan+UBSan
+#   make valgrind     memcheck over the normaliser and tally paths
 #   make bench        the benchmarks (not tests: figures, not verdicts)
 #   make demo         run the main job on the bundled example data
 #   make install      PREFIX=/usr/local DESTDIR= : binary, lexicons, man page
@@ -79,9 +80,15 @@ titlemill-asan-bin: $(CORE_OBJ) $(CLI_OBJ) unit
 	TITLEMILL=$(CURDIR)/$(BUILD)/titlemill TITLEMILL_LEXDIR=$(CURDIR)/lexicons \
 		sh tests/run-suites.sh
 
+# valgrind memcheck over the normaliser and tally paths and their unit
+# tests: zero errors, zero definite or indirect leaks.
+valgrind: titlemill $(UNIT_BIN) $(NTEST) $(G2CASES)
+	NORMALIZATION_TEST=$(CURDIR)/$(NTEST) G2_CASES=$(CURDIR)/$(G2CASES) \
+		sh tests/valgrind.sh $(CURDIR)/titlemill $(CURDIR)/$(BUILD)
+
 # libFuzzer targets (clang): FUZZ_SECONDS each, corpus in build-fuzz/.
 FUZZ_SECONDS ?= 60
-FUZZ_TARGETS = fuzz_norm fuzz_postings fuzz_counts fuzz_review
+FUZZ_TARGETS = fuzz_norm fuzz_postings fuzz_counts fuzz_labels fuzz_review
 FUZZ_CC ?= clang
 FUZZ_FLAGS = -g -O1 -fsanitize=fuzzer,address,undefined -fno-sanitize-recover=all
 fuzz-build:
@@ -125,4 +132,4 @@ clean:
 
 .SECONDARY:
 
-.PHONY: fuzz fuzz-build all unit test asan titlemill-asan-bin bench demo install uninstall clean
+.PHONY: fuzz fuzz-build all unit test asan titlemill-asan-bin valgrind bench demo install uninstall clean

@@ -50,9 +50,10 @@ static const char norm_usage[] =
 
 /* Repairs noted for the end-of-run summary. */
 typedef struct repair_log {
-	long lines[3];           /* invalid UTF-8, NUL, cut */
-	char first[3][5][300];
-	int nfirst[3];
+	long lines[4];           /* invalid UTF-8, NUL, cut, CR inside */
+	char first[4][5][300];
+	int nfirst[4];
+	int wfail;               /* a write error was reported */
 } repair_log;
 
 static void note(repair_log *rl, int which, const char *name, long line)
@@ -64,12 +65,14 @@ static void note(repair_log *rl, int which, const char *name, long line)
 
 static void summary(const repair_log *rl)
 {
-	static const char *const what[3] = {
+	static const char *const what[4] = {
 		"with invalid UTF-8 (replaced by U+FFFD)",
 		"with NUL bytes (replaced by U+FFFD)",
 		"longer than 1 MiB (cut; the rest of the line was not read)",
+		"with a carriage return inside (read as a space: lines end at LF, "
+		"CR-only line ends are not split)",
 	};
-	for (int w = 0; w < 3; w++) {
+	for (int w = 0; w < 4; w++) {
 		if (!rl->lines[w])
 			continue;
 		fprintf(stderr, "titlemill norm: %ld line%s %s:", rl->lines[w],
@@ -262,13 +265,14 @@ static int run_file(const norm_opts *o, normaliser *nm, const char *path,
 			lr_close(&lr);
 			return EXIT_RUNTIME;
 		}
-		if (res.repaired || lr.cut) {
+		if (res.repaired || lr.cut || lr.cr) {
 			if (o->strict) {
 				fprintf(stderr, "titlemill norm: %s:%ld: %s\n", lr.name,
 					lr.lineno,
 					lr.cut ? "line longer than 1 MiB"
 					: res.repaired & DEC_INVALID ? "invalid UTF-8"
-								     : "NUL byte");
+					: res.repaired & DEC_NUL     ? "NUL byte"
+								     : "carriage return inside the line");
 				lr_close(&lr);
 				return EXIT_RUNTIME;
 			}
@@ -278,6 +282,8 @@ static int run_file(const norm_opts *o, normaliser *nm, const char *path,
 				note(rl, 1, lr.name, lr.lineno);
 			if (lr.cut)
 				note(rl, 2, lr.name, lr.lineno);
+			if (lr.cr)
+				note(rl, 3, lr.name, lr.lineno);
 		}
 		switch (o->mode) {
 		case OUT_TITLE:
@@ -309,13 +315,15 @@ static int run_file(const norm_opts *o, normaliser *nm, const char *path,
 		}
 		if (out->len >= (1 << 16) && flush(out) != 0) {
 			fprintf(stderr, "titlemill norm: write error: %s\n", strerror(errno));
+			out->len = 0; /* said once: nothing more is written */
+			rl->wfail = 1;
 			lr_close(&lr);
 			return EXIT_RUNTIME;
 		}
 	}
 	if (r < 0) {
-		fprintf(stderr, "titlemill norm: %s:%ld: read error: %s\n", lr.name,
-			lr.lineno + 1, strerror(errno));
+		fprintf(stderr, "titlemill norm: %s:%ld: %s%s\n", lr.name, lr.lineno + 1,
+			lr.utf16 ? "" : "read error: ", lr_strerror(&lr));
 		lr_close(&lr);
 		return EXIT_RUNTIME;
 	}
@@ -414,7 +422,7 @@ int cmd_norm(int argc, char **argv)
 		rc = run_file(&o, nm, "-", &out, &rawfix, &rl);
 	for (int i = optind; i < argc && rc == EXIT_OK; i++)
 		rc = run_file(&o, nm, argv[i], &out, &rawfix, &rl);
-	if (flush(&out) != 0 || fflush(stdout) != 0) {
+	if (!rl.wfail && (flush(&out) != 0 || fflush(stdout) != 0)) {
 		fprintf(stderr, "titlemill norm: write error: %s\n", strerror(errno));
 		rc = EXIT_RUNTIME;
 	}

@@ -85,6 +85,9 @@ static int count_postings(tally_mem *m, normaliser *nm, const char *path, tm_buf
 				fprintf(stderr, "titlemill: %.*s (skipped)\n", (int)pr.err.len, pr.err.data);
 			continue;
 		}
+		if (pr.lr.noeol)
+			fprintf(stderr, "titlemill: %s:%ld: the last row has no line end: was the file "
+				"cut short? (counted as it is)\n", pr.lr.name, p.line);
 		if (norm_title(nm, p.title, p.titlelen, strcmp(p.lang, "und") ? p.lang : NULL, &res))
 			goto oom;
 		cli_tally_posting(&tp, &p, &res);
@@ -336,7 +339,7 @@ int cmd_coverage(int argc, char **argv)
 		{NULL, 0, NULL, 0},
 	};
 	const char *surl = NULL;
-	store_conf sc = {NULL, 5, 5000};
+	store_conf sc = {NULL, 5, 5000, 0};
 	setup_opts so;
 	char lang[4];
 	cov c;

@@ -258,7 +258,7 @@ static int open_place(const review_opts *o, rq_place *pl)
 		return 0;
 	}
 	tm_buf err = {0};
-	store_conf conf = {o->prefix, 2, 5000};
+	store_conf conf = {o->prefix, 2, 5000, 0};
 	pl->st = store_open(o->store, &conf, &err);
 	if (!pl->st) {
 		fprintf(stderr, "titlemill review: %s\n", err.data);
@@ -341,7 +341,7 @@ static int read_input(int nfiles, char **files, add_arg *a)
 			a->nlines++;
 		}
 		if (rc < 0) {
-			fprintf(stderr, "titlemill review: %s: %s\n", lr.name, strerror(errno));
+			fprintf(stderr, "titlemill review: %s: %s\n", lr.name, lr_strerror(&lr));
 			lr_close(&lr);
 			return -1;
 		}

@@ -35,7 +35,7 @@ static int num_opt(const char *arg, long lo, long hi, long *v)
 }
 
 static const char tally_usage[] =
-	"usage: titlemill tally [--store URL [--prefix P] [--chunk N] [--retries N]]\n"
+	"usage: titlemill tally [--store URL [--prefix P] [--chunk N] [--retries N] [--ttl DAYS]]\n"
 	"                       [--format auto|tsv|jsonl] [--labels FILE] [--lexicons DIR]\n"
 	"                       [--strict] [-o FILE] POSTINGS...\n"
 	"\n"
@@ -45,9 +45,12 @@ static const char tally_usage[] =
 	"date, lang optional) or JSON Lines with the same fields; '-' reads standard\n"
 	"input.  A posting id counted once is not counted again.\n"
 	"\n"
-	"  --store URL      add the counts to a Redis server: redis://[user@]host:port[/db]\n"
-	"                   or unix:/path (password: TITLEMILL_REDIS_PASSWORD); a file\n"
-	"                   loaded twice, or a load killed and run again, counts once\n"
+	"  --store URL      add the counts to a Redis server or a Redis Cluster:\n"
+	"                   redis://[user@]host:port[,host:port...][/db] or unix:/path\n"
+	"                   (password: TITLEMILL_REDIS_PASSWORD); a file loaded twice,\n"
+	"                   or a load killed and run again, counts once\n"
+	"  --ttl DAYS       the store's counting keys expire DAYS days after the last\n"
+	"                   load that touched them (default: they stay)\n"
 	"  --prefix P       the store's key prefix (default titlemill)\n"
 	"  --chunk N        postings per atomic chunk (default 10000)\n"
 	"  --retries N      reconnect attempts after a lost connection (default 5)\n"
@@ -138,6 +141,7 @@ int cmd_tally(int argc, char **argv)
 		{"prefix", required_argument, NULL, 'P'},
 		{"chunk", required_argument, NULL, 'C'},
 		{"retries", required_argument, NULL, 'R'},
+		{"ttl", required_argument, NULL, 'E'},
 		{"stats", no_argument, NULL, 'T'},
 		{"help", no_argument, NULL, 'h'},
 		{NULL, 0, NULL, 0},
@@ -169,6 +173,13 @@ int cmd_tally(int argc, char **argv)
 				fprintf(stderr, "titlemill tally: --chunk: want a number from 1 to 10000000, not '%s'\n", optarg);
 				return EXIT_USAGE;
 			}
+			break;
+		case 'E':
+			if (num_opt(optarg, 1, 36500, &v) != 0) {
+				fprintf(stderr, "titlemill tally: --ttl: want a number of days from 1 to 36500, not '%s'\n", optarg);
+				return EXIT_USAGE;
+			}
+			o.sconf.ttl_s = (long long)v * 86400;
 			break;
 		case 'R':
 			if (num_opt(optarg, 0, 1000, &v) != 0) {
@@ -301,6 +312,9 @@ int cmd_tally(int argc, char **argv)
 				bl.n++;
 				continue;
 			}
+			if (pr.lr.noeol)
+				fprintf(stderr, "titlemill tally: %s:%ld: the last row has no line end: "
+					"was the file cut short? (counted as it is)\n", pr.lr.name, p.line);
 			if (norm_title(nm, p.title, p.titlelen,
 				       strcmp(p.lang, "und") ? p.lang : NULL, &res) != 0) {
 				fputs("titlemill tally: out of memory\n", stderr);
@@ -406,7 +420,7 @@ int cmd_counts(int argc, char **argv)
 		{NULL, 0, NULL, 0},
 	};
 	const char *out = NULL, *surl = NULL;
-	store_conf sc = {NULL, 5, 5000};
+	store_conf sc = {NULL, 5, 5000, 0};
 	tm_buf err = {0};
 	tally_mem m;
 	int c, rc = EXIT_OK;

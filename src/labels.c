@@ -4,6 +4,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "decode.h"
 #include "lang.h"
 #include "skos.h"
 #include "tsv.h"
@@ -14,6 +15,25 @@ static int fail(tm_buf *err, const char *name, long line, const char *what)
 	snprintf(m, sizeof m, "%s:%ld: %s", name, line, what);
 	buf_reset(err);
 	buf_puts(err, m);
+	return -1;
+}
+
+/* Where a label stands: file:line in a TSV; in SKOS, where serd reports
+ * no line for a statement, the n-th label statement of the file. */
+static const char *at(char *w, size_t n, const char *name, long line, int skos)
+{
+	if (skos)
+		snprintf(w, n, "%s: label statement %ld", name, line);
+	else
+		snprintf(w, n, "%s:%ld", name, line);
+	return w;
+}
+
+static int fail_at(tm_buf *err, const char *where, const char *what)
+{
+	buf_reset(err);
+	if (buf_puts(err, where) == 0 && buf_puts(err, ": ") == 0)
+		buf_puts(err, what);
 	return -1;
 }
 
@@ -39,23 +59,90 @@ const label *labels_find(const labelset *ls, const char *occ, size_t ol,
 	return i < 0 ? NULL : &ls->v[ls->index.ent[i].count - 1];
 }
 
-/* Adds one label (lb has kind, lang and line) with its key. */
+static const char *kind_name(char k)
+{
+	return k == 'p' ? "pref" : k == 'a' ? "alt" : "hidden";
+}
+
+/* Reports (on warn) what SKOS forbids and a labels file should not hold:
+ * the same literal (occupation, language tag, text) twice or with two
+ * kinds, and a second preferred label in one language tag.  lb is the
+ * label just added, ls->v[ls->n - 1]; tag is its language tag.  Returns
+ * 0, or -1 when memory ran out. */
+static int check_repeats(labelset *ls, const label *lb, const char *tag, const char *where,
+			 int skos, FILE *warn, tm_buf *jb)
+{
+	const char *o = lab_str(ls, lb->occ), *x = lab_str(ls, lb->text);
+	const char *unit = skos ? "label statement" : "line";
+	char low[64];
+	size_t idx, tl = strlen(tag);
+	int r;
+
+	for (size_t i = 0; i <= tl && i < sizeof low; i++)
+		low[i] = (char)(tag[i] >= 'A' && tag[i] <= 'Z' ? tag[i] + 32 : tag[i]);
+	low[sizeof low - 1] = 0;
+	if (join3(jb, o, lb->occlen, low, x, lb->textlen) ||
+	    (r = st_add(&ls->lits, jb->data, jb->len, 0, &idx)) < 0)
+		return -1;
+	if (r == 1)
+		ls->lits.ent[idx].count = ls->n;
+	else {
+		const label *f = &ls->v[ls->lits.ent[idx].count - 1];
+		ls->repeats++;
+		if (warn && f->kind == lb->kind)
+			fprintf(warn, "titlemill: %s: label '%s'@%s of %s repeats %s %ld\n", where, x,
+				tag, o, unit, f->line);
+		else if (warn)
+			fprintf(warn, "titlemill: %s: label '%s'@%s of %s is %s here and %s on %s %ld "
+				"(SKOS: one kind per label)\n", where, x, tag, o, kind_name(lb->kind),
+				kind_name(f->kind), unit, f->line);
+		return 0;
+	}
+	if (lb->kind != 'p')
+		return 0;
+	buf_reset(jb);
+	if (buf_append(jb, o, lb->occlen) || buf_putc(jb, '\x1F') || buf_puts(jb, low) ||
+	    (r = st_add(&ls->preftag, jb->data, jb->len, 0, &idx)) < 0)
+		return -1;
+	if (r == 1)
+		ls->preftag.ent[idx].count = ls->n;
+	else {
+		const label *f = &ls->v[ls->preftag.ent[idx].count - 1];
+		ls->repeats++;
+		if (warn)
+			fprintf(warn, "titlemill: %s: a second preferred label '%s'@%s for %s (the first: "
+				"'%s', %s %ld; SKOS: one per language)\n", where, x, tag, o,
+				lab_str(ls, f->text), unit, f->line);
+	}
+	return 0;
+}
+
+/* Adds one label (lb has kind, lang and line, or the statement number
+ * when skos) with its key; tag is its language tag as written. */
 static int add_one(labelset *ls, normaliser *nm, label *lbp, const char *o, size_t on,
-		   const char *x, size_t xn, const char *name, FILE *warn, tm_buf *jb, tm_buf *err)
+		   const char *x, size_t xn, const char *tag, const char *name, int skos,
+		   FILE *warn, tm_buf *jb, tm_buf *err)
 {
 	label lb = *lbp;
 	norm_result res;
 	size_t idx;
 	const char *lang = lb.lang;
-	long line = lb.line;
+	char w[400];
+	const char *where = at(w, sizeof w, name, lb.line, skos);
 
+	/* an occupation id must match the postings' byte for byte and a label
+	 * is shown to curators: neither is repaired behind their back */
+	if (!dec_is_utf8(o, on) || memchr(o, 0, on))
+		return fail_at(err, where, "the occupation is not valid UTF-8 (or has a NUL byte)");
+	if (!dec_is_utf8(x, xn) || memchr(x, 0, xn))
+		return fail_at(err, where, "the label is not valid UTF-8 (or has a NUL byte)");
 	if (norm_key_only(nm, x, xn, &res) != 0)
-		return fail(err, name, line, "out of memory");
+		return fail_at(err, where, "out of memory");
 	if (!res.key_len) {
 		ls->empty++;
 		if (warn)
-			fprintf(warn, "titlemill: %s:%ld: label '%.*s' normalises to nothing; left out\n",
-				name, line, (int)xn, x);
+			fprintf(warn, "titlemill: %s: label '%.*s' normalises to nothing; left out\n",
+				where, (int)xn, x);
 		return 0;
 	}
 	lb.occ = (uint32_t)ls->arena.len;
@@ -79,6 +166,8 @@ static int add_one(labelset *ls, normaliser *nm, label *lbp, const char *o, size
 		ls->cap = cap;
 	}
 	ls->v[ls->n++] = lb;
+	if (check_repeats(ls, &ls->v[ls->n - 1], tag, where, skos, warn, jb) != 0)
+		goto oom;
 	if (join3(jb, o, on, lang, lab_str(ls, lb.key), lb.keylen) ||
 	    st_add(&ls->index, jb->data, jb->len, 0, &idx) < 0)
 		goto oom;
@@ -101,15 +190,16 @@ static int add_one(labelset *ls, normaliser *nm, label *lbp, const char *o, size
 		if (f->occlen != on || memcmp(lab_str(ls, f->occ), o, on)) {
 			ls->collisions++;
 			if (warn)
-				fprintf(warn, "titlemill: %s:%ld: label '%.*s' of %.*s has the key '%s' of "
-					"label '%s' of %s (line %ld)\n",
-					name, line, (int)xn, x, (int)on, o, lab_str(ls, lb.key),
-					lab_str(ls, f->text), lab_str(ls, f->occ), f->line);
+				fprintf(warn, "titlemill: %s: label '%.*s' of %.*s has the key '%s' of "
+					"label '%s' of %s (%s %ld)\n",
+					where, (int)xn, x, (int)on, o, lab_str(ls, lb.key),
+					lab_str(ls, f->text), lab_str(ls, f->occ),
+					skos ? "label statement" : "line", f->line);
 		}
 	}
 	return 0;
 oom:
-	return fail(err, name, line, "out of memory");
+	return fail_at(err, where, "out of memory");
 }
 
 /* SKOS: the callback of skos_read */
@@ -127,20 +217,22 @@ static int on_skos(void *c0, const char *occ, size_t ol, char kind, const char *
 {
 	skctx *c = c0;
 	label lb;
-	char tag[64];
+	char tag[64], w[400];
 	memset(&lb, 0, sizeof lb);
 	lb.kind = kind;
 	lb.line = ++c->n; /* the n-th label statement */
-	if (ll >= sizeof tag || memchr(occ, '\x1F', ol))
-		return fail(c->err, c->path, 0, "a label with a bad language tag or subject");
+	at(w, sizeof w, c->path, lb.line, 1);
+	if (ll >= sizeof tag || memchr(lang, 0, ll) || memchr(occ, '\x1F', ol))
+		return fail_at(c->err, w, "a label with a bad language tag or subject");
 	memcpy(tag, lang, ll);
 	tag[ll] = 0;
 	if (lang_tag(tag, lb.lang) != 0) {
 		char m[120];
 		snprintf(m, sizeof m, "bad language tag '@%.40s'", tag);
-		return fail(c->err, c->path, 0, m);
+		return fail_at(c->err, w, m);
 	}
-	return add_one(c->ls, c->nm, &lb, occ, ol, text, tl, c->path, c->warn, &c->j, c->err);
+	return add_one(c->ls, c->nm, &lb, occ, ol, text, tl, tag, c->path, 1, c->warn, &c->j,
+		       c->err);
 }
 
 static int is_rdf(const char *path)
@@ -159,6 +251,23 @@ int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_b
 	memset(ls, 0, sizeof *ls);
 	if (is_rdf(path)) {
 		skctx c = {ls, nm, path, warn, err, {0}, 0};
+		/* serd would say "invalid UTF-8 start 0xFF": say what it is, as
+		 * the line reader does for TSV */
+		line_reader lr;
+		const char *s;
+		size_t n;
+		if (lr_open(&lr, path) == 0) {
+			int utf16 = lr_next(&lr, &s, &n) < 0 && lr.utf16;
+			if (utf16) {
+				buf_reset(err);
+				buf_puts(err, path);
+				buf_puts(err, ":1: ");
+				buf_puts(err, lr_strerror(&lr));
+			}
+			lr_close(&lr);
+			if (utf16)
+				return -1;
+		}
 		int rc = skos_read(path, on_skos, &c, err);
 		buf_free(&c.j);
 		return rc;
@@ -188,6 +297,10 @@ int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_b
 
 		memset(&lb, 0, sizeof lb);
 		lb.line = line;
+		if (t.over) {
+			r = fail(err, t.lr.name, line, "row has more fields than the header (a TAB inside a label?)");
+			break;
+		}
 		if (!on || memchr(o, '\x1F', on)) {
 			r = fail(err, t.lr.name, line, "no occupation");
 			break;
@@ -208,12 +321,15 @@ int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_b
 		}
 		memcpy(tag, l, ln);
 		tag[ln] = 0;
-		if (lang_tag(tag, lang) != 0) {
+		if (memchr(l, 0, ln) || lang_tag(tag, lang) != 0) {
 			r = fail(err, t.lr.name, line, "bad lang (want a BCP 47 tag such as de or fr-BE)");
 			break;
 		}
 		memcpy(lb.lang, lang, sizeof lang);
-		if (add_one(ls, nm, &lb, o, on, x, xn, t.lr.name, warn, &j, err) != 0) {
+		if (t.lr.noeol && warn)
+			fprintf(warn, "titlemill: %s:%ld: the last row has no line end: was the file cut "
+				"short? (read as it is)\n", t.lr.name, line);
+		if (add_one(ls, nm, &lb, o, on, x, xn, tag, t.lr.name, 0, warn, &j, err) != 0) {
 			r = -1;
 			break;
 		}
@@ -256,5 +372,7 @@ void labels_free(labelset *ls)
 	st_free(&ls->keys);
 	st_free(&ls->perocc);
 	st_free(&ls->prefs);
+	st_free(&ls->lits);
+	st_free(&ls->preftag);
 	memset(ls, 0, sizeof *ls);
 }

@@ -26,14 +26,20 @@ typedef struct labelset {
 	strtab keys;    /* lang 1F key -> first label + 1 (collisions) */
 	strtab perocc;  /* occ 1F lang -> distinct label keys */
 	strtab prefs;   /* occ 1F lang 1F key of the preferred labels */
+	strtab lits;    /* occ 1F tag 1F text -> first label + 1 (repeats) */
+	strtab preftag; /* occ 1F tag -> first preferred label + 1 */
 	long empty, collisions;
+	long repeats;   /* a literal given again, or with two kinds; a second
+			 * preferred label in one language tag */
 } labelset;
 
 /* Reads path into ls.  Problems that leave the labels usable (a label
- * that normalises to nothing, the same key under two occupations) are
- * reported on warn with file:line; an unreadable file or a bad row
- * (unknown kind, bad lang, missing column) is an error: -1 with a
- * message in err. */
+ * that normalises to nothing, the same key under two occupations, a row
+ * given twice, one literal as two kinds, two preferred labels in one
+ * language: SKOS allows neither) are reported on warn with file:line;
+ * an unreadable file or a bad row (unknown kind, bad lang, missing
+ * column, more fields than the header, invalid UTF-8) is an error: -1
+ * with a message in err. */
 int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_buf *err);
 
 /* The label of occ and lang with this key, or NULL. */

@@ -52,6 +52,7 @@ void norm_free(normaliser *nm)
 	free(nm->mc);
 	free(nm->moff);
 	free(nm->ucats);
+	free(nm->nextk);
 	free(nm->ring);
 	free(nm->slot);
 	free(nm);
@@ -96,6 +97,10 @@ static int grow_arrays(normaliser *nm, size_t ntok)
 	if (!uc)
 		return -1;
 	nm->ucats = uc;
+	uint32_t *nk = realloc(nm->nextk, (cap + 1) * sizeof *nk);
+	if (!nk)
+		return -1;
+	nm->nextk = nk;
 	nm->tcap = cap;
 	return 0;
 }
@@ -123,6 +128,9 @@ static int cache_build(normaliser *nm)
 
 	nm->nmc = 0;
 	nm->lcats = 0;
+	nm->nextk[nm->nunit] = (uint32_t)nm->nunit;
+	for (size_t k = nm->nunit; k-- > 0;)
+		nm->nextk[k] = nm->rm[nm->unit[k]] == NF_GENDER ? nm->nextk[k + 1] : (uint32_t)k;
 	for (size_t k = 0; k < nm->nunit; k++) {
 		size_t n = 0, j, L;
 		uint64_t h = LEX_SEQ_SEED;
@@ -131,8 +139,12 @@ static int cache_build(normaliser *nm)
 		nm->moff[k] = (uint32_t)nm->nmc;
 		nm->ucats[k] = 0;
 		for (j = k; j < nm->nunit && n < MAXPH; j++) {
-			if (j > k && nm->rm[nm->unit[j]] == NF_GENDER)
+			if (j > k && nm->rm[nm->unit[j]] == NF_GENDER) {
+				/* the whole run of removed markers at once: one by
+				 * one, "(m/w/d) " x 10,000 was quadratic */
+				j = nm->nextk[j] - 1;
 				continue;
+			}
 			if (useg(nm, j) != s && !(j > k && nm->rm[nm->unit[j - 1]] == NF_GENDER))
 				break;
 			h = lex_seq_step(h, U(nm, j)->hash);
@@ -279,6 +291,13 @@ void seg_kept(normaliser *nm, size_t s, size_t *k0, size_t *k1)
 		*k1 = g->k1;
 		return;
 	}
+	/* units are only ever removed: go on from the last answer (from
+	 * the segment's ends each time, peeling "ab sofort " x 10,000 off
+	 * an edge was quadratic) */
+	if (g->gen) {
+		a = g->k0;
+		b = g->k1;
+	}
 	while (a < b && !ukept(nm, a))
 		a++;
 	while (b > a && !ukept(nm, b - 1))
@@ -348,10 +367,15 @@ static int build(normaliser *nm)
 			    (!memcmp(tok_fold(tl, x), "www", 3) ||
 			     !memcmp(tok_fold(tl, x), "http", x->flen < 4 ? 3 : 4)))
 				nm->lflags |= LF_URL;
+			/* an address written "jobs(at)…" */
+			if (x->flen == 2 && !memcmp(tok_fold(tl, x), "at", 2))
+				nm->lflags |= LF_URL;
 			break;
 		default:
 			if (x->ch && strchr("/-*:_.(,|\x01", x->ch))
 				nm->lflags |= LF_JOIN;
+			if (x->ch == '=') /* a query: "…/jobs?ref=board" */
+				nm->lflags |= LF_URL;
 			break;
 		}
 		if (x->kind == TK_PUNCT) {
@@ -514,9 +538,11 @@ static int render(normaliser *nm, norm_result *res)
 					if (buf_putc(ti, (char)d->ch))
 						return -1;
 				/* Lagerist / Kommissionierer: a spaced slash alone
-				 * between two kept words stays */
+				 * between two kept words stays (spaced as written:
+				 * "Job/&o" spaced would read as two segments) */
 				if (b == a + 2 && nm->tl.t[a + 1].ch == '/' &&
-				    nm->tl.t[a + 1].kind == TK_PUNCT && nm->rm[a + 1] == RM_NONE) {
+				    nm->tl.t[a + 1].kind == TK_PUNCT && nm->rm[a + 1] == RM_NONE &&
+				    (nm->tl.t[a + 1].sp || nm->tl.t[b].sp)) {
 					if (buf_puts(ti, " / ") || buf_putc(ke, ' '))
 						return -1;
 				} else if (buf_putc(ti, ' ') || buf_putc(ke, ' '))
@@ -543,15 +569,38 @@ static int render(normaliser *nm, norm_result *res)
 	return 0;
 }
 
-/* Spans in title order (insertion sort: a handful per line). */
+/* Sorts the spans by their first token, stably (each pass adds its own
+ * in title order).  Insertion for the few pieces of a title; a merge sort
+ * for thousands ("(m/w/d) in Berlin - " repeated: insertion was
+ * quadratic), or insertion still when memory for it ran out. */
 static void sort_spans(normaliser *nm)
 {
-	for (size_t i = 1, j; i < nm->nspan; i++) {
-		span s = nm->spans[i];
-		for (j = i; j > 0 && nm->spans[j - 1].t0 > s.t0; j--)
-			nm->spans[j] = nm->spans[j - 1];
-		nm->spans[j] = s;
+	size_t n = nm->nspan;
+	span *v = nm->spans, *tmp;
+
+	if (n <= 32 || !(tmp = malloc(n * sizeof *tmp))) {
+		for (size_t i = 1, j; i < n; i++) {
+			span s = v[i];
+			for (j = i; j > 0 && v[j - 1].t0 > s.t0; j--)
+				v[j] = v[j - 1];
+			v[j] = s;
+		}
+		return;
 	}
+	for (size_t w = 1; w < n; w *= 2) {
+		for (size_t lo = 0; lo < n; lo += 2 * w) {
+			size_t mid = lo + w < n ? lo + w : n, hi = lo + 2 * w < n ? lo + 2 * w : n;
+			size_t i = lo, j = mid, k = lo;
+			while (i < mid && j < hi)
+				tmp[k++] = v[j].t0 < v[i].t0 ? v[j++] : v[i++];
+			while (i < mid)
+				tmp[k++] = v[i++];
+			while (j < hi)
+				tmp[k++] = v[j++];
+		}
+		memcpy(v, tmp, n * sizeof *v);
+	}
+	free(tmp);
 }
 
 static int pieces(normaliser *nm, norm_result *res)

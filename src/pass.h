@@ -22,7 +22,7 @@ enum {
 	LF_DIGITWORD = 4, /* a word with a digit: JR12345 */
 	LF_CAPSUF = 8,    /* VerkäuferIn */
 	LF_JOIN = 16,     /* / - * : _ . ( · , | : may join a gender pair */
-	LF_URL = 32,      /* http, https, www */
+	LF_URL = 32,      /* http, https, www; "at" ("jobs(at)…"); "=" (a query) */
 };
 #define HAS(nm, cat) (((nm)->lcats >> (cat)) & 1)
 
@@ -69,6 +69,8 @@ struct normaliser {
 	size_t nmc, mccap;
 	uint32_t *moff;
 	uint16_t *ucats;  /* categories of all phrases starting at each unit */
+	uint32_t *nextk;  /* the first unit from each that the gender pass kept
+			   * (the cache skips a run of removed markers at once) */
 	unsigned lcats;   /* all categories of the line */
 	unsigned lflags;  /* LF_* below */
 	/* the memory of recent titles: a ring of records, a table of slots */

@@ -46,6 +46,8 @@ static size_t glued_start(const normaliser *nm, size_t t)
 
 /* ---- contact data: URLs, e-mail addresses, phone numbers ---- */
 
+static int is_date(const normaliser *nm, const tm_tok *t);
+
 /* Last token of a URL starting at t: everything up to whitespace. */
 static size_t url_end(const normaliser *nm, size_t t)
 {
@@ -53,6 +55,90 @@ static size_t url_end(const normaliser *nm, size_t t)
 	       !(nm->tl.t[t + 1].flags & TF_CLOSE))
 		t++;
 	return t;
+}
+
+/* Is token t the word w (its fold)? */
+static int word_is(const normaliser *nm, size_t t, const char *w)
+{
+	const tm_tok *x;
+	if (t >= nm->tl.n)
+		return 0;
+	x = &nm->tl.t[t];
+	return x->kind == TK_WORD && x->flen == strlen(w) &&
+	       !memcmp(tok_fold(&nm->tl, x), w, x->flen);
+}
+
+/* A word in brackets at t: "(at)", "[dot]".  Returns the closing
+ * bracket's index, or 0. */
+static size_t bracketed(const normaliser *nm, size_t t, const char *w)
+{
+	if (t + 2 < nm->tl.n && (nm->tl.t[t].flags & TF_OPEN) && word_is(nm, t + 1, w) &&
+	    (nm->tl.t[t + 2].flags & TF_CLOSE))
+		return t + 2;
+	return 0;
+}
+
+/* The last word of a host name label from word q: "valdoria-gastro". */
+static size_t label_end(const normaliser *nm, size_t q)
+{
+	while (tok_is(nm, q + 1, '-') && !nm->tl.t[q + 1].sp && q + 2 < nm->tl.n &&
+	       !nm->tl.t[q + 2].sp && nm->tl.t[q + 2].kind == TK_WORD)
+		q += 2;
+	return q;
+}
+
+/* An e-mail address written to fool harvesters, "jobs(at)valdoria.example"
+ * or "jobs [at] valdoria [dot] example", whose "(at)" opens at t: the
+ * last token of its domain (a dot, plain or bracketed, at least once), or
+ * 0. */
+static size_t obfuscated_email(const normaliser *nm, size_t t)
+{
+	size_t q = bracketed(nm, t, "at"), e = 0;
+	int dots = 0;
+	if (!q || q + 1 >= nm->tl.n || nm->tl.t[q + 1].kind != TK_WORD)
+		return 0;
+	for (q++;;) {
+		size_t c;
+		e = q = label_end(nm, q); /* a label of the domain */
+		if (tok_is(nm, q + 1, '.') && !nm->tl.t[q + 1].sp && q + 2 < nm->tl.n &&
+		    !nm->tl.t[q + 2].sp && nm->tl.t[q + 2].kind == TK_WORD)
+			q += 2;
+		else if (((c = bracketed(nm, q + 1, "dot")) || (c = bracketed(nm, q + 1, "punkt"))) &&
+			 c + 1 < nm->tl.n && nm->tl.t[c + 1].kind == TK_WORD)
+			q = c + 1;
+		else
+			break;
+		dots++;
+	}
+	return dots ? e : 0;
+}
+
+/* A URL without scheme or www that carries a query, as tracking links do:
+ * "valdoria.example/jobs?id=991" (host, a path, "?", a key, "="); "Node.js/
+ * React" and "ASP.NET/C#" are not.  Returns its last token, or 0. */
+static size_t bare_url(const normaliser *nm, size_t t)
+{
+	size_t q = t, e;
+	int dots = 0, slash = 0;
+	if (nm->tl.t[t].kind != TK_WORD || (t > 0 && !nm->tl.t[t].sp &&
+					      !(nm->tl.t[t - 1].flags & TF_OPEN)))
+		return 0;
+	q = label_end(nm, q);
+	while (tok_is(nm, q + 1, '.') && !nm->tl.t[q + 1].sp && q + 2 < nm->tl.n &&
+	       !nm->tl.t[q + 2].sp && nm->tl.t[q + 2].kind == TK_WORD) {
+		q = label_end(nm, q + 2);
+		dots++;
+	}
+	if (!dots)
+		return 0;
+	e = url_end(nm, t);
+	for (; q + 2 <= e; q++) {
+		slash |= tok_is(nm, q, '/');
+		if (slash && tok_is(nm, q, '?') && nm->tl.t[q + 1].kind == TK_WORD &&
+		    tok_is(nm, q + 2, '='))
+			return e;
+	}
+	return 0;
 }
 
 int pass_pii(normaliser *nm)
@@ -88,20 +174,41 @@ int pass_pii(normaliser *nm)
 			int dot = 0;
 			for (size_t q = t + 1; q <= e; q++)
 				dot |= tok_is(nm, q, '.');
+			/* "mailto:" goes with it */
+			if (s >= 2 && tok_is(nm, s - 1, ':') && !tl->t[s].sp && !tl->t[s - 1].sp &&
+			    word_is(nm, s - 2, "mailto") && nm->rm[s - 2] == RM_NONE)
+				s -= 2;
 			if (dot) {
 				if (remove_toks(nm, s, e, NF_EMAIL, NULL))
 					return -1;
 				t = e;
 			}
+		} else if ((x->flags & TF_OPEN) && t > 0 && tl->t[t - 1].kind == TK_WORD &&
+			   nm->rm[t - 1] == RM_NONE && obfuscated_email(nm, t)) {
+			size_t s = glued_start(nm, t - 1), e = obfuscated_email(nm, t);
+			if (remove_toks(nm, s, e, NF_EMAIL, NULL))
+				return -1;
+			t = e;
+		} else if (x->kind == TK_WORD && bare_url(nm, t)) {
+			size_t e = bare_url(nm, t);
+			if (remove_toks(nm, t, e, NF_URL, NULL))
+				return -1;
+			t = e;
 		} else if ((x->kind == TK_SYM && x->ch == '+' && t + 1 < tl->n &&
 			    tl->t[t + 1].kind == TK_NUM && !tl->t[t + 1].sp) ||
 			   (x->kind == TK_NUM && nm->work.data[x->off] == '0' &&
-			    x->len >= 3)) {
+			    x->len >= 2)) {
 			/* digits grouped by spaces, - / . ( ) */
 			size_t e = t, q = t + (x->kind == TK_SYM), d = 0;
 			for (; q < tl->n; q++) {
 				const tm_tok *m = &tl->t[q];
 				if (m->kind == TK_NUM) {
+					/* "01.03.2026 - 31.12.2026" is dates (a
+					 * group 2015 may be a phone's) */
+					if (m->len >= 8 && is_date(nm, m)) {
+						d = 0;
+						break;
+					}
 					d += ndigits(nm, m);
 					e = q;
 				} else if (m->kind == TK_PUNCT && m->ch &&
@@ -520,11 +627,15 @@ static int removed_tok(const normaliser *nm, size_t t)
 	return t < nm->tl.n && nm->rm[t] != RM_NONE;
 }
 
-/* Are units [k0, k1) all the words the title still has? */
+/* Are units [k0, k1) all the words the title still has?  (Looks outward
+ * from them: the nearest kept word is most often next door.) */
 static int last_word(normaliser *nm, size_t k0, size_t k1)
 {
-	for (size_t k = 0; k < nm->nunit; k++)
-		if ((k < k0 || k >= k1) && ukept(nm, k) && U(nm, k)->kind == TK_WORD)
+	for (size_t k = k1; k < nm->nunit; k++)
+		if (ukept(nm, k) && U(nm, k)->kind == TK_WORD)
+			return 0;
+	for (size_t k = k0; k-- > 0;)
+		if (ukept(nm, k) && U(nm, k)->kind == TK_WORD)
 			return 0;
 	return 1;
 }

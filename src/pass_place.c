@@ -205,8 +205,12 @@ static int slots(normaliser *nm)
 		/* in Köln, Raum Stuttgart, à 75001 Paris */
 		if (loc_word(nm, k, "prep", &len) || loc_word(nm, k, "before", &len)) {
 			size_t j = k + len, e;
-			while (j < nm->nunit && (loc_word(nm, j, "before", &plen) ||
-						 loc_word(nm, j, "prep", &plen)))
+			/* at most a few slot words in a row ("in der Region"): a
+			 * run of them to the end of the line, tried again from
+			 * each of its words, was quadratic ("a/" x 50,000) */
+			for (int more = 0; more < 4 && j < nm->nunit &&
+					   (loc_word(nm, j, "before", &plen) ||
+					    loc_word(nm, j, "prep", &plen)); more++)
 				j += plen;
 			pc = postcode_at(nm, j);
 			if (j + pc < nm->nunit && useg(nm, j + pc) == useg(nm, k) &&

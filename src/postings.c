@@ -6,12 +6,16 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "decode.h"
 #include "lang.h"
 
 static void say(postings_reader *pr, long line, const char *what)
 {
 	char msg[400];
-	snprintf(msg, sizeof msg, "%s:%ld: %s", pr->lr.name, line, what);
+	if (line > 0)
+		snprintf(msg, sizeof msg, "%s:%ld: %s", pr->lr.name, line, what);
+	else /* an empty file has no line to name */
+		snprintf(msg, sizeof msg, "%s: %s", pr->lr.name, what);
 	buf_reset(&pr->err);
 	buf_puts(&pr->err, msg);
 }
@@ -50,6 +54,9 @@ static int read_header(postings_reader *pr, const char *s, size_t n)
 	size_t nn = 0, start = 0;
 	int rc = 0;
 
+	pr->nhead = 1;
+	for (size_t i = 0; i < n; i++)
+		pr->nhead += s[i] == '\t';
 	for (size_t i = 0; i <= n && nn < 64; i++)
 		if (i == n || s[i] == '\t') {
 			names[nn] = strndup(s + start, i - start);
@@ -102,7 +109,7 @@ int pr_open(postings_reader *pr, const char *path, enum pr_format format)
 	do {
 		r = lr_next(&pr->lr, &s, &n);
 		if (r < 0) {
-			say(pr, pr->lr.lineno + 1, strerror(errno));
+			say(pr, pr->lr.lineno + 1, lr_strerror(&pr->lr));
 			return -1;
 		}
 		if (r == 0) {
@@ -113,6 +120,12 @@ int pr_open(postings_reader *pr, const char *path, enum pr_format format)
 	if (format == PR_AUTO)
 		format = s[0] == '{' ? PR_JSONL : PR_TSV;
 	pr->format = format;
+	if (pr->lr.cr) {
+		/* a file with CR-only line ends is one long line */
+		say(pr, pr->lr.lineno, "a carriage return inside the first line: lines must end "
+			"in LF or CRLF, not CR alone");
+		return -1;
+	}
 	if (format == PR_TSV) {
 		if (pr->lr.lineno != 1) {
 			say(pr, pr->lr.lineno, "a TSV file starts with its header line");
@@ -129,7 +142,9 @@ int pr_open(postings_reader *pr, const char *path, enum pr_format format)
 }
 
 /* Splits occupations joined by '|' (trimmed, empty parts and repeats
- * dropped) into p. */
+ * dropped) into p.  Returns 0, -1 for more than PR_MAXOCC, -2 for an
+ * occupation with a control character or invalid UTF-8 (it would break
+ * the counts table and never match a label). */
 static int add_occs(posting *p, const char *s, size_t n)
 {
 	size_t start = 0;
@@ -147,6 +162,11 @@ static int add_occs(posting *p, const char *s, size_t n)
 		start = i + 1;
 		if (!l)
 			continue;
+		for (size_t k = 0; k < l; k++)
+			if ((unsigned char)o[k] < 0x20 || o[k] == 0x7F)
+				return -2;
+		if (!dec_is_utf8(o, l))
+			return -2;
 		int dup = 0;
 		for (size_t k = 0; k < p->nocc; k++)
 			if (p->occlen[k] == l && !memcmp(p->occ[k], o, l))
@@ -168,7 +188,7 @@ static int set_lang(postings_reader *pr, posting *p, const char *s, size_t n)
 		memcpy(p->lang, "und", 4);
 		return 0;
 	}
-	if (n >= sizeof tag)
+	if (n >= sizeof tag || memchr(s, 0, n))
 		return -1;
 	memcpy(tag, s, n);
 	tag[n] = 0;
@@ -199,12 +219,17 @@ static int finish(postings_reader *pr, posting *p)
 static int next_tsv(postings_reader *pr, posting *p, const char *s, size_t n)
 {
 	const char *f[64];
-	size_t fl[64], nf = 0, start = 0;
+	size_t fl[64], nf = 0, nall = 0, start = 0;
+	int over = 0, r;
 
-	for (size_t i = 0; i <= n && nf < 64; i++)
+	for (size_t i = 0; i <= n; i++)
 		if (i == n || s[i] == '\t') {
-			f[nf] = s + start;
-			fl[nf++] = i - start;
+			if (nf < 64) {
+				f[nf] = s + start;
+				fl[nf++] = i - start;
+			}
+			if (nall++ >= pr->nhead && i > start)
+				over = 1;
 			start = i + 1;
 		}
 #define FIELD(c, ptr, len)                                  \
@@ -226,12 +251,17 @@ static int next_tsv(postings_reader *pr, posting *p, const char *s, size_t n)
 		say(pr, p->line, "row has fewer fields than the header");
 		return 2;
 	}
+	if (over) {
+		say(pr, p->line, "row has more fields than the header (a TAB inside a field?)");
+		return 2;
+	}
 	if (p->id && !p->idlen)
 		p->id = NULL;
 	if (p->date && !p->datelen)
 		p->date = NULL;
-	if (occ && add_occs(p, occ, occlen) != 0) {
-		say(pr, p->line, "more than 64 occupations");
+	if (occ && (r = add_occs(p, occ, occlen)) != 0) {
+		say(pr, p->line, r == -2 ? "an occupation holds a control character or invalid UTF-8"
+					 : "more than 64 occupations");
 		return 2;
 	}
 	if (set_lang(pr, p, lang, langlen) != 0) {
@@ -263,8 +293,10 @@ static int next_json(postings_reader *pr, posting *p, const char *s, size_t n)
 	t = jr_type(pr->doc, "occupations");
 	if (t == JR_STRING) {
 		const char *o = jr_str(pr->doc, "occupations", &len);
-		if (add_occs(p, o, len) != 0) {
-			say(pr, p->line, "more than 64 occupations");
+		int r = add_occs(p, o, len);
+		if (r != 0) {
+			say(pr, p->line, r == -2 ? "an occupation holds a control character or invalid UTF-8"
+						 : "more than 64 occupations");
 			return 2;
 		}
 	} else if (t == JR_ARRAY) {
@@ -274,10 +306,11 @@ static int next_json(postings_reader *pr, posting *p, const char *s, size_t n)
 				say(pr, p->line, "'occupations' holds something that is not a string");
 				return 2;
 			}
-			if (memchr(o, '|', len) || add_occs(p, o, len) != 0) {
-				say(pr, p->line, memchr(o, '|', len)
-					? "an occupation in the 'occupations' array contains '|'"
-					: "more than 64 occupations");
+			int r = memchr(o, '|', len) ? 1 : add_occs(p, o, len);
+			if (r != 0) {
+				say(pr, p->line, r == 1 ? "an occupation in the 'occupations' array contains '|'"
+					: r == -2 ? "an occupation holds a control character or invalid UTF-8"
+						  : "more than 64 occupations");
 				return 2;
 			}
 		}
@@ -336,7 +369,7 @@ int pr_next(postings_reader *pr, posting *p)
 		} else {
 			r = lr_next(&pr->lr, &s, &n);
 			if (r < 0) {
-				say(pr, pr->lr.lineno + 1, strerror(errno));
+				say(pr, pr->lr.lineno + 1, lr_strerror(&pr->lr));
 				return -1;
 			}
 			if (r == 0)

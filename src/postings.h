@@ -32,6 +32,8 @@ typedef struct postings_reader {
 	line_reader lr;
 	enum pr_format format;
 	int c_title, c_occ, c_id, c_date, c_lang; /* TSV columns, -1 absent */
+	size_t nhead;        /* TSV: fields of the header (a row with more that
+			      * are not empty is malformed) */
 	int has_id;          /* an id column or field is present */
 	const char *pend;    /* the first line, read while detecting */
 	size_t pendlen;

@@ -417,7 +417,7 @@ int cmd_propose(int argc, char **argv)
 	};
 	bars bar = {5, 0.01, 0.6, STATS_CHI2_1DF_P001, 3, 0.5, 200, 0.005, 0.6, 5};
 	setup_opts so;
-	store_conf sc = {NULL, 5, 5000};
+	store_conf sc = {NULL, 5, 5000, 0};
 	const char *surl = NULL, *only_occ = NULL, *only_lang = NULL;
 	char lang[4];
 	int tsv = 0, only_kind = -1, ch, rc = EXIT_OK;

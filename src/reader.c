@@ -43,6 +43,10 @@ void lr_close(line_reader *lr)
 static int fill(line_reader *lr)
 {
 	size_t got;
+	if (lr->utf16) {
+		errno = EILSEQ;
+		return -1;
+	}
 	if (lr->eof)
 		return 0;
 	got = fread(lr->buf, 1, lr->cap, lr->fp);
@@ -60,8 +64,26 @@ static int fill(line_reader *lr)
 		lr->bom_checked = 1;
 		if (got >= 3 && !memcmp(lr->buf, "\xEF\xBB\xBF", 3))
 			lr->pos = 3;
+		/* FF FE (UTF-16LE, and UTF-32LE) or FE FF (UTF-16BE): every
+		 * second byte would be a NUL; no line of it is a title */
+		unsigned char b0 = (unsigned char)lr->buf[0], b1 = got > 1 ? (unsigned char)lr->buf[1] : 0;
+		if ((b0 == 0xFF && b1 == 0xFE) || (b0 == 0xFE && b1 == 0xFF)) {
+			lr->utf16 = 1;
+			lr->err = errno = EILSEQ;
+			lr->eof = 1;
+			lr->pos = lr->end = 0;
+			return -1;
+		}
 	}
 	return 1;
+}
+
+const char *lr_strerror(const line_reader *lr)
+{
+	if (lr->utf16)
+		return "the file is UTF-16 (it starts with a UTF-16 byte order mark); titlemill "
+		       "reads UTF-8: convert it first, e.g. iconv -f UTF-16 -t UTF-8";
+	return strerror(lr->err ? lr->err : errno);
 }
 
 /* Appends at most what still fits under maxline. */
@@ -81,6 +103,8 @@ int lr_next(line_reader *lr, const char **s, size_t *n)
 
 	buf_reset(&lr->line);
 	lr->cut = 0;
+	lr->cr = 0;
+	lr->noeol = 0;
 	for (;;) {
 		if (lr->pos >= lr->end) {
 			int r = fill(lr);
@@ -99,6 +123,7 @@ int lr_next(line_reader *lr, const char **s, size_t *n)
 			if (len && p[len - 1] == '\r')
 				len--;
 			lr->lineno++;
+			lr->cr = memchr(p, '\r', len) != NULL;
 			*s = p;
 			*n = len;
 			return 1;
@@ -113,10 +138,12 @@ int lr_next(line_reader *lr, const char **s, size_t *n)
 	}
 	if (!any || (lr->line.len == 0 && !lr->cut))
 		return 0;
+	lr->noeol = 1;
 done:
 	if (lr->line.len && lr->line.data[lr->line.len - 1] == '\r' && !lr->cut)
 		lr->line.len--;
 	lr->lineno++;
+	lr->cr = lr->line.len && memchr(lr->line.data, '\r', lr->line.len) != NULL;
 	*s = lr->line.data ? lr->line.data : "";
 	*n = lr->line.len;
 	return 1;

@@ -59,6 +59,9 @@ typedef struct store_conf {
 	const char *prefix;  /* all keys start with it; default "titlemill" */
 	int retries;         /* reconnect attempts after a failure (default 5) */
 	int timeout_ms;      /* connect and reply timeout (default 5000) */
+	long long ttl_s;     /* > 0: the counting keys a load touches expire
+			      * this many seconds after it (renewed by each
+			      * load); 0: they stay */
 } store_conf;
 
 /* Opens the store named by url: redis://[user:password@]host:port[/db] or

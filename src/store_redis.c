@@ -41,6 +41,10 @@
  * the same shares every time.  An id owned by another chunk was counted
  * there (republished), whichever loader got there first.
  *
+ * With a time to live (tally --ttl), the scripts renew it on every key
+ * they touch, so the keys of a tag expire together, some time after the
+ * last load that touched them.  The review queue never expires.
+ *
  * The review queue is changed optimistically: WATCH P:{r}:items, read it,
  * decide in the client, then MULTI, HSET the changed items, XADD the
  * events, EXEC.  If anyone wrote the hash in between, EXEC does nothing
@@ -61,22 +65,25 @@
 #define SHARDS 64
 #define SEP '\x1F'
 
-/* Step 1: KEYS[1] an id shard, ARGV[1] the chunk's owner tag, then ids. */
+/* Step 1: KEYS[1] an id shard, ARGV[1] the chunk's owner tag, ARGV[2]
+ * the time to live (0: none), then ids. */
 static const char claim_script[] =
 	"local k, d, out = KEYS[1], ARGV[1], {}\n"
-	"for i = 2, #ARGV do\n"
+	"for i = 3, #ARGV do\n"
 	"  local o = redis.call('HGET', k, ARGV[i])\n"
 	"  if not o then redis.call('HSET', k, ARGV[i], d); o = d end\n"
-	"  out[i - 1] = (o == d) and 1 or 0\n"
+	"  out[i - 2] = (o == d) and 1 or 0\n"
 	"end\n"
+	"if tonumber(ARGV[2]) > 0 then redis.call('EXPIRE', k, ARGV[2]) end\n"
 	"return out\n";
 
-/* Step 3: KEYS[1] the tag's ledger, ARGV[1] the chunk's digest; then H
- * and H triples (key index, field, increment); then E and E groups (key
- * index, field, n, n examples). */
+/* Step 3: KEYS[1] the tag's ledger, ARGV[1] the chunk's digest, ARGV[2]
+ * the time to live of the tag's keys (0: none); then H and H triples
+ * (key index, field, increment); then E and E groups (key index, field,
+ * n, n examples).  The keys of a tag expire together. */
 static const char apply_script[] =
 	"if redis.call('SISMEMBER', KEYS[1], ARGV[1]) == 1 then return 0 end\n"
-	"local i = 2\n"
+	"local i = 3\n"
 	"local H = tonumber(ARGV[i]); i = i + 1\n"
 	"for h = 1, H do\n"
 	"  redis.call('HINCRBY', KEYS[tonumber(ARGV[i])], ARGV[i + 1], ARGV[i + 2]); i = i + 3\n"
@@ -98,6 +105,9 @@ static const char apply_script[] =
 	"  i = i + 3 + n\n"
 	"end\n"
 	"redis.call('SADD', KEYS[1], ARGV[1])\n"
+	"if tonumber(ARGV[2]) > 0 then\n"
+	"  for j = 1, #KEYS do redis.call('EXPIRE', KEYS[j], ARGV[2]) end\n"
+	"end\n"
 	"return 1\n";
 
 typedef struct rstore {
@@ -106,6 +116,7 @@ typedef struct rstore {
 	char *name;
 	char prefix[128];
 	char sha_claim[41], sha_apply[41];
+	char ttl[24];           /* seconds, as the scripts take it */
 	/* the current chunk: postings as records in one buffer */
 	tm_buf chunk;
 	size_t nchunk;
@@ -427,8 +438,8 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint6
 				continue;
 			store_key_shard(r->prefix, 'i', (uint64_t)s, &kb);
 			snprintf(shkeys[ncmd], 160, "%s", kb.data);
-			avs[ncmd] = malloc((cnt[s] + 5) * sizeof **avs);
-			als[ncmd] = malloc((cnt[s] + 5) * sizeof **als);
+			avs[ncmd] = malloc((cnt[s] + 6) * sizeof **avs);
+			als[ncmd] = malloc((cnt[s] + 6) * sizeof **als);
 			if (!avs[ncmd] || !als[ncmd]) {
 				ncmd++;
 				free(shkeys);
@@ -440,6 +451,7 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint6
 			avs[ncmd][q] = "1", als[ncmd][q++] = 1;
 			avs[ncmd][q] = shkeys[ncmd], als[ncmd][q++] = strlen(shkeys[ncmd]);
 			avs[ncmd][q] = owner, als[ncmd][q++] = 16;
+			avs[ncmd][q] = r->ttl, als[ncmd][q++] = strlen(r->ttl);
 			for (i = 0; i < chunk_ids.n; i++)
 				if (chunk_ids.ent[i].hash % SHARDS == (uint64_t)s) {
 					avs[ncmd][q] = st_key(&chunk_ids, i, &als[ncmd][q]);
@@ -609,7 +621,7 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint6
 	}
 	for (ncmd = 0; ncmd < cs.n; ncmd++) {
 		call *c = &cs.v[ncmd];
-		size_t nk = c->keys.n, total = 6 + nk + c->nhargs + c->neargs, q = 0;
+		size_t nk = c->keys.n, total = 7 + nk + c->nhargs + c->neargs, q = 0;
 		const char **av = avs[ncmd] = malloc(total * sizeof *av);
 		size_t *al = als[ncmd] = malloc(total * sizeof *al);
 		if (!av || !al) {
@@ -628,6 +640,7 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint6
 			q++;
 		}
 		av[q] = dg, al[q++] = 32;
+		av[q] = r->ttl, al[q++] = strlen(r->ttl);
 		av[q] = nums[ncmd][1], al[q++] = strlen(nums[ncmd][1]);
 		for (const char *x = c->h.data, *xe = x + c->h.len; x < xe; q++)
 			av[q] = get(&x, &al[q]);
@@ -734,7 +747,18 @@ static int scan_hash(rstore *r, const char *key, size_t kl, int kind, const char
 		for (size_t i = 0; i + 1 < a->elements; i += 2) {
 			const char *f = a->element[i]->str, *v = a->element[i + 1]->str;
 			size_t fl = a->element[i]->len, vl = a->element[i + 1]->len;
-			uint64_t n = strtoull(v, NULL, 10);
+			uint64_t n = 0;
+			if (kind != 'x') {
+				/* a count: digits only, and no more than 64 bits hold */
+				char *e;
+				errno = 0;
+				n = vl && v[0] >= '0' && v[0] <= '9' ? strtoull(v, &e, 10) : 0;
+				if (!vl || v[0] < '0' || v[0] > '9' || errno || e != v + vl) {
+					rerr(r, "the store holds a count that is not a number", key);
+					freeReplyObject(rep);
+					return -1;
+				}
+			}
 			char lang[4] = {0};
 			size_t l1 = first_field(f, fl);
 			memcpy(lang, f, l1 < 3 ? l1 : 3);
@@ -760,7 +784,8 @@ static int scan_hash(rstore *r, const char *key, size_t kl, int kind, const char
 			}
 			if (bad) {
 				freeReplyObject(rep);
-				rerr(r, "out of memory", NULL);
+				rerr(r, bad == -2 ? "the counts add up past 2^64 - 1" : "out of memory",
+				     bad == -2 ? key : NULL);
 				return -1;
 			}
 		}
@@ -1110,6 +1135,7 @@ store *store_open(const char *url, const store_conf *conf, tm_buf *err)
 	r->k.ctx = r;
 	snprintf(r->prefix, sizeof r->prefix, "%s",
 		 conf && conf->prefix ? conf->prefix : "titlemill");
+	snprintf(r->ttl, sizeof r->ttl, "%lld", conf && conf->ttl_s > 0 ? conf->ttl_s : 0LL);
 	if (parse_url(r, url, &sd, err) != 0) {
 		r_close(&r->base);
 		goto done;

@@ -10,8 +10,9 @@
  *   per (language, key): postings, each posting once whatever its
  *   occupations;
  *   per (occupation, language): postings.
- * Fields never contain 0x1F (the separator of joined keys) or controls:
- * the posting readers refuse such occupations, and titles have none. */
+ * Fields are UTF-8 and never contain 0x1F (the separator of joined keys)
+ * or other controls: the posting readers refuse such occupations, titles
+ * come cleaned, and the counts-table reader refuses such fields. */
 #ifndef TM_TALLY_H
 #define TM_TALLY_H
 
@@ -51,6 +52,9 @@ typedef struct tally_mem {
 	tm_buf exarena;
 	tm_buf scratch;
 	uint64_t postings, republished;
+	uint64_t added[3]; /* the counts added to forms, keys, occs: while
+			    * each stays below 2^64, no count and no sum of
+			    * counts of its table can overflow */
 } tally_mem;
 
 void tm_init(tally_mem *m);
@@ -60,7 +64,9 @@ void tm_free(tally_mem *m);
  * posting is then skipped), -1 when memory ran out. */
 int tm_add(tally_mem *m, const tally_posting *p);
 
-/* The pieces a counts table holds, added one by one (merging tables). */
+/* The pieces a counts table holds, added one by one (merging tables).
+ * Return 0, -1 when memory ran out, -2 when the counts would add up past
+ * 2^64 - 1 (nothing is changed then). */
 int tm_add_form(tally_mem *m, const char *occ, size_t ol, const char *lang,
 		const char *key, size_t kl, const char *title, size_t tl, uint64_t n);
 int tm_add_key(tally_mem *m, const char *lang, const char *key, size_t kl, uint64_t n);

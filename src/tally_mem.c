@@ -5,6 +5,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "decode.h"
 #include "token.h"
 #include "tsv.h"
 
@@ -52,26 +53,39 @@ static int join(tally_mem *m, const char *a, size_t al, const char *b, size_t bl
 	return 0;
 }
 
+/* Adds n to the entry in m->scratch of t, keeping *added a bound of
+ * every count and sum of t (tables read from files can hold any 19-digit
+ * number). */
+static int add_count(tally_mem *m, strtab *t, uint64_t *added, uint64_t n)
+{
+	if (n > UINT64_MAX - *added)
+		return -2;
+	if (st_add(t, m->scratch.data, m->scratch.len, n, NULL) < 0)
+		return -1;
+	*added += n;
+	return 0;
+}
+
 int tm_add_form(tally_mem *m, const char *occ, size_t ol, const char *lang,
 		const char *key, size_t kl, const char *title, size_t tl, uint64_t n)
 {
 	if (join(m, occ, ol, lang, strlen(lang), key, kl, title, tl))
 		return -1;
-	return st_add(&m->forms, m->scratch.data, m->scratch.len, n, NULL) < 0 ? -1 : 0;
+	return add_count(m, &m->forms, &m->added[0], n);
 }
 
 int tm_add_key(tally_mem *m, const char *lang, const char *key, size_t kl, uint64_t n)
 {
 	if (join(m, lang, strlen(lang), key, kl, NULL, 0, NULL, 0))
 		return -1;
-	return st_add(&m->keys, m->scratch.data, m->scratch.len, n, NULL) < 0 ? -1 : 0;
+	return add_count(m, &m->keys, &m->added[1], n);
 }
 
 int tm_add_occ(tally_mem *m, const char *occ, size_t ol, const char *lang, uint64_t n)
 {
 	if (join(m, occ, ol, lang, strlen(lang), NULL, 0, NULL, 0))
 		return -1;
-	return st_add(&m->occs, m->scratch.data, m->scratch.len, n, NULL) < 0 ? -1 : 0;
+	return add_count(m, &m->occs, &m->added[2], n);
 }
 
 int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
@@ -347,6 +361,16 @@ static int parse_count(const char *s, size_t n, uint64_t *v)
 	return 0;
 }
 
+/* A field as the engine writes them: UTF-8 without control characters
+ * (0x1F joins the engine's keys; TAB and newline would break the table). */
+static int clean_field(const char *s, size_t n)
+{
+	for (size_t i = 0; i < n; i++)
+		if ((unsigned char)s[i] < 0x20 || s[i] == 0x7F)
+			return 0;
+	return dec_is_utf8(s, n);
+}
+
 static int bad(tm_buf *err, const char *name, long line, const char *what)
 {
 	char m[512];
@@ -389,6 +413,15 @@ int tm_read(tally_mem *m, const char *path, tm_buf *err)
 		long line = t.lr.lineno;
 		int rc = 0;
 
+		if (t.over) {
+			r = bad(err, t.lr.name, line, "row has more fields than the header");
+			break;
+		}
+		if (t.lr.noeol) {
+			/* tables are written whole, every row with its line end */
+			r = bad(err, t.lr.name, line, "the last row has no line end: the table was cut short");
+			break;
+		}
 		int lok = ln >= 2 && ln <= 3;
 		for (size_t q = 0; q < ln && lok; q++)
 			lok = l[q] >= 'a' && l[q] <= 'z';
@@ -398,8 +431,8 @@ int tm_read(tally_mem *m, const char *path, tm_buf *err)
 		}
 		memcpy(lang, l, ln);
 		lang[ln] = 0;
-		if (memchr(o, SEP, on) || memchr(y, SEP, yn) || memchr(x, SEP, tn)) {
-			r = bad(err, t.lr.name, line, "a field holds the control character 0x1F");
+		if (!clean_field(o, on) || !clean_field(y, yn) || !clean_field(x, tn)) {
+			r = bad(err, t.lr.name, line, "a field holds a control character or invalid UTF-8");
 			break;
 		}
 #define IS(w) (kn == strlen(w) && !memcmp(k, w, kn))
@@ -424,7 +457,10 @@ int tm_read(tally_mem *m, const char *path, tm_buf *err)
 				 "unknown kind (want occupation, title, form, example or key)");
 #undef IS
 		if (rc) {
-			if (!err->len)
+			if (rc == -2)
+				bad(err, t.lr.name, line,
+				    "the postings add up past 18446744073709551615 (2^64 - 1)");
+			else if (!err->len)
 				bad(err, t.lr.name, line, "out of memory");
 			r = -1;
 			break;

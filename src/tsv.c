@@ -6,10 +6,12 @@
 #include <stdlib.h>
 #include <string.h>
 
-static void split(tsv_reader *t, const char *s, size_t n)
+/* Splits a row; all is the number of fields, however many. */
+static void split(tsv_reader *t, const char *s, size_t n, size_t *all)
 {
-	size_t i, start = 0;
+	size_t i, start = 0, k = 0;
 	t->nfield = 0;
+	t->over = 0;
 	for (i = 0; i <= n; i++) {
 		if (i == n || s[i] == '\t') {
 			if (t->nfield < TSV_MAXCOL) {
@@ -17,9 +19,12 @@ static void split(tsv_reader *t, const char *s, size_t n)
 				t->flen[t->nfield] = i - start;
 				t->nfield++;
 			}
+			if (k++ >= t->nhead && i > start)
+				t->over = 1;
 			start = i + 1;
 		}
 	}
+	*all = k;
 }
 
 int tsv_open(tsv_reader *t, const char *path)
@@ -38,11 +43,18 @@ int tsv_open(tsv_reader *t, const char *path)
 	r = lr_next(&t->lr, &s, &n);
 	if (r <= 0) {
 		snprintf(msg, sizeof msg, "%s: %s", t->lr.name,
-			 r < 0 ? strerror(errno) : "empty file, no header line");
+			 r < 0 ? lr_strerror(&t->lr) : "empty file, no header line");
 		buf_puts(&t->err, msg);
 		return -1;
 	}
-	split(t, s, n);
+	if (t->lr.cr) {
+		snprintf(msg, sizeof msg, "%s:1: a carriage return inside the header line: "
+			 "lines must end in LF or CRLF, not CR alone", t->lr.name);
+		buf_puts(&t->err, msg);
+		return -1;
+	}
+	t->nhead = (size_t)-1;
+	split(t, s, n, &t->nhead);
 	for (i = 0; i < t->nfield; i++) {
 		t->names[i] = strndup(t->field[i], t->flen[i]);
 		if (!t->names[i])
@@ -72,7 +84,7 @@ int tsv_col(const tsv_reader *t, const char *name)
 int tsv_next(tsv_reader *t)
 {
 	const char *s;
-	size_t n;
+	size_t n, all;
 	int r;
 
 	do {
@@ -80,7 +92,7 @@ int tsv_next(tsv_reader *t)
 		if (r < 0) {
 			char msg[512];
 			snprintf(msg, sizeof msg, "%s:%ld: %s", t->lr.name,
-				 t->lr.lineno + 1, strerror(errno));
+				 t->lr.lineno + 1, lr_strerror(&t->lr));
 			buf_reset(&t->err);
 			buf_puts(&t->err, msg);
 			return -1;
@@ -88,7 +100,7 @@ int tsv_next(tsv_reader *t)
 		if (r == 0)
 			return 0;
 	} while (n == 0);
-	split(t, s, n);
+	split(t, s, n, &all);
 	return 1;
 }
 

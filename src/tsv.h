@@ -18,6 +18,9 @@ typedef struct tsv_reader {
 	const char *field[TSV_MAXCOL]; /* fields of the current row */
 	size_t flen[TSV_MAXCOL];
 	size_t nfield;
+	size_t nhead;  /* fields of the header line, all of them */
+	int over;      /* the current row has a field that is not empty
+			* beyond the header's last column */
 	tm_buf err;
 } tsv_reader;
 
@@ -29,7 +32,9 @@ int tsv_open(tsv_reader *t, const char *path);
 int tsv_col(const tsv_reader *t, const char *name);
 
 /* Returns 1 with the next row's fields, 0 at the end, -1 on a read error
- * (message in t->err).  Blank lines are skipped. */
+ * (message in t->err).  Blank lines are skipped.  t->over says that the
+ * row has more fields than the header (a TAB inside a field?): the
+ * caller decides. */
 int tsv_next(tsv_reader *t);
 
 /* Field i of the current row ("" when the row is short). */

@@ -96,4 +96,19 @@ grep -q 'requires a password' "$tmp/err"; check no-password-msg 0 $?
 TITLEMILL_REDIS_PASSWORD=s3cret $T tally --store "$C" "$tmp/day1" 2>/dev/null; check password-env 0 $?
 TITLEMILL_REDIS_PASSWORD=wrong $T tally --store "$C" "$tmp/day1" 2> "$tmp/err"; check wrong-password 1 $?
 grep -qi 'WRONGPASS\|invalid password' "$tmp/err"; check wrong-password-msg 0 $?
+
+# a time to live: every counting key a load touches gets it (examples,
+# the only personal data, included); without --ttl the keys stay
+TITLEMILL_REDIS_PASSWORD=s3cret $T tally --store "$C" --prefix ttl --ttl 30 "$tmp/day1" 2>/dev/null; check ttl-load 0 $?
+bad=0 n=0
+for k in $(redis-cli -s "$tmp/c/sock" -a s3cret --no-auth-warning --scan --pattern 'ttl:*'); do
+	t=$(redis-cli -s "$tmp/c/sock" -a s3cret --no-auth-warning ttl "$k")
+	n=$((n + 1))
+	[ "$t" -gt 2591000 ] && [ "$t" -le 2592000 ] || bad=$((bad + 1))
+done
+[ "$n" -gt 3 ]; check ttl-keys 0 $?
+check ttl-every-key-30-days 0 "$bad"
+k=$(redis-cli -s "$tmp/c/sock" -a s3cret --no-auth-warning --scan --pattern 'titlemill:{o:*}:x' | head -1)
+check no-ttl-stays -1 "$(redis-cli -s "$tmp/c/sock" -a s3cret --no-auth-warning ttl "$k")"
+$T tally --store "$C" --ttl 0 "$tmp/day1" 2>/dev/null; check ttl-zero-usage 2 $?
 finish

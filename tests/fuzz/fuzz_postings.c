@@ -2,7 +2,8 @@
  * chosen by the first byte of the input) and, through them, the memory
  * engine.  Checks that every row is a posting, a malformed row with a
  * message naming file and line, or the end; that postings have a title
- * and an occupation; and that the counts table written for them reads
+ * and an occupation, and occupations no control character and no
+ * invalid UTF-8; and that the counts table written for them reads
  * back to the same bytes. */
 #define _GNU_SOURCE
 #include <stdint.h>
@@ -11,6 +12,7 @@
 #include <string.h>
 #include <unistd.h>
 
+#include "decode.h"
 #include "postings.h"
 #include "tally.h"
 
@@ -57,14 +59,20 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 			if (r != 1 || !p.titlelen || !p.nocc)
 				abort();
 			/* count the posting with its raw title as its key */
-			int bad = 0;
+			/* (titles reach the engine cleaned: UTF-8, no controls) */
+			int bad = !dec_is_utf8(p.title, p.titlelen);
 			for (size_t i = 0; i < p.titlelen; i++)
-				if ((unsigned char)p.title[i] < 0x20)
+				if ((unsigned char)p.title[i] < 0x20 || p.title[i] == 0x7F)
 					bad = 1;
-			for (size_t k = 0; k < p.nocc; k++)
+			/* the reader refuses occupations with controls or
+			 * invalid UTF-8: they would break the counts table */
+			for (size_t k = 0; k < p.nocc; k++) {
 				for (size_t i = 0; i < p.occlen[k]; i++)
-					if ((unsigned char)p.occ[k][i] < 0x20)
-						bad = 1;
+					if ((unsigned char)p.occ[k][i] < 0x20 || p.occ[k][i] == 0x7F)
+						abort();
+				if (!dec_is_utf8(p.occ[k], p.occlen[k]))
+					abort();
+			}
 			if (bad)
 				continue;
 			tally_posting tp = {0};

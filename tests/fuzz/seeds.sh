@@ -18,6 +18,24 @@ fuzz_postings)
 	printf '{"title":"Koch (m/w/d)","occupations":["occ:1","occ:2"],"id":7,"lang":"de"}\n{"title":"x","occupations":"a|b","date":"2026-03-01"}\n' > "$out/seed-jsonl"
 	printf 'title\toccupations\nKoch\tocc:1\n' > "$out/seed-min"
 	;;
+fuzz_labels)
+	# first byte: 0 a labels TSV, 1 Turtle, 2 N-Triples; whole example
+	# files, and small pieces of them (the runs cut inputs to 512 bytes)
+	ex=$here/../../examples
+	{ printf '\000'; cat "$ex/taxonomy.tsv"; } > "$out/seed-tsv"
+	{ printf '\001'; cat "$ex/taxonomy.ttl"; } > "$out/seed-ttl"
+	{ printf '\000'; head -12 "$ex/taxonomy.tsv"; } > "$out/seed-tsv-head"
+	{ printf '\001'; sed -n '3,18p' "$ex/taxonomy.ttl"; } > "$out/seed-ttl-head"
+	{ printf '\000'; printf 'label\tlang\tkind\toccupation\textra\n'
+	  printf 'Koch\tde-AT\tpref\tocc:1\tx\nSenior Care Assistant\ten\talt\tocc:2\t\n'
+	  printf 'Koch\tde\thidden\tocc:3\t\n(m/w/d)\tde\talt\tocc:1\t\n'; } > "$out/seed-tsv-cols"
+	{ printf '\001'; sed -n '9,23p' "$here/../cli/skos.sh"; } > "$out/seed-ttl-escapes"
+	{ printf '\002'
+	  printf '<occ:1> <http://www.w3.org/2004/02/skos/core#prefLabel> "Koch"@de .\n'
+	  printf '<occ:1> <http://www.w3.org/2004/02/skos/core#altLabel> "K\\u00f6chin"@de-AT .\n'
+	  printf '<occ:2> <http://www.w3.org/2004/02/skos/core#hiddenLabel> "fork lift"@en .\n'
+	  printf '_:b <http://www.w3.org/2004/02/skos/core#prefLabel> "x"@en .\n'; } > "$out/seed-nt"
+	;;
 fuzz_review)
 	# first byte: 0 a queue file, 1 propose output, 2 a decisions TSV
 	ex=$here/../../examples

@@ -254,8 +254,84 @@ static void test_bad_tables(void **state)
 	assert_int_equal(tm_read(&m, path, &err), -1);
 	assert_non_null(strstr(err.data, ":1: not a counts table"));
 	unlink(path);
+	write_file("kind\toccupation\tlang\tkey\ttext\tpostings\nkey\t\tde\tk\t\t1\tx\n");
+	assert_int_equal(tm_read(&m, path, &err), -1);
+	assert_non_null(strstr(err.data, ":2: row has more fields than the header"));
+	unlink(path);
 	tm_free(&m);
 	buf_free(&err);
+}
+
+/* Counts near 2^64: one table of 19-digit counts reads, the sum of two
+ * is refused with the line instead of wrapping around. */
+static void test_count_overflow(void **state)
+{
+	(void)state;
+	tally_mem m;
+	tm_buf err = {0};
+	tm_init(&m);
+	write_file("kind\toccupation\tlang\tkey\ttext\tpostings\n"
+		   "occupation\to\tde\t\t\t9999999999999999999\n"
+		   "form\to\tde\tk\tk\t9999999999999999999\n"
+		   "key\t\tde\tk\t\t9999999999999999999\n");
+	assert_int_equal(tm_read(&m, path, &err), 0);
+	assert_int_equal(tm_occ_postings(&m, "o", 1, "de"), 9999999999999999999ULL);
+	assert_int_equal(tm_read(&m, path, &err), -1);
+	assert_non_null(strstr(err.data, ":2: the postings add up past 18446744073709551615"));
+	/* nothing was changed by the refused line */
+	assert_int_equal(tm_occ_postings(&m, "o", 1, "de"), 9999999999999999999ULL);
+	unlink(path);
+	tm_free(&m);
+	buf_free(&err);
+}
+
+/* Occupations with a control character (a TAB or newline in JSON, a NUL
+ * or CR in TSV) or invalid UTF-8 would break the counts table: the row is
+ * malformed.  So are a lang with a NUL and a TSV row with more fields than
+ * the header. */
+static void test_bad_occupations(void **state)
+{
+	(void)state;
+	postings_reader pr;
+	posting p;
+	static const char tsv[] = "title\toccupations\tlang\n"
+				  "Koch\tocc\0001\tde\n"
+				  "Koch\tocc\r1\tde\n"
+				  "Koch\t\xFFocc\tde\n"
+				  "Koch\tocc:1\tde\0xx\n"
+				  "Senior\tKoch\tocc:1\tde\n"
+				  "Koch\tocc:1\tde\t\n";
+	strcpy(path, "/tmp/tm-tally-XXXXXX");
+	int fd = mkstemp(path);
+	assert_true(fd >= 0);
+	assert_int_equal(write(fd, tsv, sizeof tsv - 1), (ssize_t)(sizeof tsv - 1));
+	close(fd);
+	assert_int_equal(pr_open(&pr, path, PR_AUTO), 0);
+	for (int line = 2; line <= 4; line++) {
+		char want[80];
+		assert_int_equal(pr_next(&pr, &p), 2);
+		snprintf(want, sizeof want, ":%d: an occupation holds a control character", line);
+		assert_non_null(strstr(pr.err.data, want));
+	}
+	assert_int_equal(pr_next(&pr, &p), 2);
+	assert_non_null(strstr(pr.err.data, ":5: bad lang"));
+	assert_int_equal(pr_next(&pr, &p), 2);
+	assert_non_null(strstr(pr.err.data, ":6: row has more fields than the header"));
+	assert_int_equal(pr_next(&pr, &p), 1); /* an empty extra field is fine */
+	assert_int_equal(p.line, 7);
+	assert_int_equal(pr_next(&pr, &p), 0);
+	pr_close(&pr);
+	unlink(path);
+	write_file("{\"title\":\"Koch\",\"occupations\":[\"occ\\n1\"]}\n"
+		   "{\"title\":\"Koch\",\"occupations\":\"occ\\t1|occ:2\"}\n");
+	assert_int_equal(pr_open(&pr, path, PR_AUTO), 0);
+	assert_int_equal(pr_next(&pr, &p), 2);
+	assert_non_null(strstr(pr.err.data, ":1: an occupation holds a control character"));
+	assert_int_equal(pr_next(&pr, &p), 2);
+	assert_non_null(strstr(pr.err.data, ":2: an occupation holds a control character"));
+	assert_int_equal(pr_next(&pr, &p), 0);
+	pr_close(&pr);
+	unlink(path);
 }
 
 /* The hash tag (what lies between the first '{' and the next '}', as
@@ -306,6 +382,8 @@ int main(void)
 		cmocka_unit_test(test_engine),
 		cmocka_unit_test(test_examples_order_free),
 		cmocka_unit_test(test_bad_tables),
+		cmocka_unit_test(test_count_overflow),
+		cmocka_unit_test(test_bad_occupations),
 		cmocka_unit_test(test_key_layout),
 	};
 	return cmocka_run_group_tests_name("tally", tests, NULL, NULL);
