@@ -960,7 +960,7 @@ static int write_all(int fd, const char *p, size_t n)
 static int write_file(rq_place *pl, const rq_queue *q, tm_buf *err)
 {
 	tm_buf tmp = {0}, out = {0};
-	int fd = -1, rc = -1;
+	int fd, rc = -1;
 	const char *why = NULL;
 
 	for (size_t i = 0; i < q->n; i++)
@@ -972,25 +972,23 @@ static int write_file(rq_place *pl, const rq_queue *q, tm_buf *err)
 		msg(err, pl->path, "out of memory", NULL);
 		goto done;
 	}
+	int e = 0;
 	fd = open(tmp.data, O_WRONLY | O_CREAT | O_TRUNC | O_CLOEXEC, 0666);
 	if (fd < 0)
-		why = "cannot create ";
+		why = "cannot create ", e = errno;
 	else if (write_all(fd, out.data ? out.data : "", out.len))
-		why = "cannot write ";
+		why = "cannot write ", e = errno;
 	else if (fsync(fd))
-		why = "cannot flush ";
-	else if (close(fd) ? (fd = -1, 1) : (fd = -1, 0))
-		why = "cannot write ";
-	else if (rename(tmp.data, pl->path))
-		why = "cannot rename over the queue: ";
+		why = "cannot flush ", e = errno;
+	if (fd >= 0 && close(fd) && !why)
+		why = "cannot write ", e = errno;
+	if (!why && rename(tmp.data, pl->path))
+		why = "cannot rename over the queue: ", e = errno;
 	if (why) {
-		int e = errno;
 		msg(err, NULL, why, tmp.data);
 		buf_puts(err, ": ");
 		buf_puts(err, strerror(e));
 		buf_puts(err, " (the queue is unchanged)");
-		if (fd >= 0)
-			close(fd);
 		unlink(tmp.data);
 		goto done;
 	}

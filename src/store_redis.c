@@ -358,6 +358,21 @@ static int add_incr(calls *cs, const char *key, size_t kl, const char *f, size_t
 	return 0;
 }
 
+/* The increments of a table keyed "OCC 1F field": each into the
+ * occupation's hash with that suffix ('f' forms, 'n' totals). */
+static int add_occ_incrs(rstore *r, calls *cs, const strtab *t, char suffix, tm_buf *kb)
+{
+	for (size_t i = 0; i < t->n; i++) {
+		size_t n;
+		const char *k = st_key(t, i, &n);
+		size_t ol = first_field(k, n);
+		if (store_key_occ(r->prefix, k, ol, suffix, kb) ||
+		    add_incr(cs, kb->data, kb->len, k + ol + 1, n - ol - 1, t->ent[i].count))
+			return -1;
+	}
+	return 0;
+}
+
 /* Runs the batch and frees the replies; out[i] gets the integer reply of
  * cmds[i] (or -1 for an error reply, whose text goes to the message). */
 static int run_batch(rstore *r, rc_cmd *cmds, size_t n, long long *ints, const char *what)
@@ -536,22 +551,8 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint6
 	}
 
 	/* 3. the shares, one script call per hash tag */
-	for (i = 0; i < agg.forms.n; i++) {
-		size_t n;
-		const char *k = st_key(&agg.forms, i, &n);
-		size_t ol = first_field(k, n);
-		if (store_key_occ(r->prefix, k, ol, 'f', &kb) ||
-		    add_incr(&cs, kb.data, kb.len, k + ol + 1, n - ol - 1, agg.forms.ent[i].count))
-			goto oom;
-	}
-	for (i = 0; i < agg.occs.n; i++) {
-		size_t n;
-		const char *k = st_key(&agg.occs, i, &n);
-		size_t ol = first_field(k, n);
-		if (store_key_occ(r->prefix, k, ol, 'n', &kb) ||
-		    add_incr(&cs, kb.data, kb.len, k + ol + 1, n - ol - 1, agg.occs.ent[i].count))
-			goto oom;
-	}
+	if (add_occ_incrs(r, &cs, &agg.forms, 'f', &kb) || add_occ_incrs(r, &cs, &agg.occs, 'n', &kb))
+		goto oom;
 	for (i = 0; i < agg.keys.n; i++) {
 		size_t n;
 		const char *k = st_key(&agg.keys, i, &n);

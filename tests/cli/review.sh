@@ -291,6 +291,19 @@ grep -q "nocol.tsv:1: a decisions file needs the columns id, decision" "$tmp/e" 
 	check "decisions without columns" "nocol.tsv:1" "$(cat "$tmp/e")"
 TITLEMILL_NOW=yesterday "$T" review list --queue "$tmp/q.saved" > /dev/null 2>&1
 check "a bad TITLEMILL_NOW: usage error" 2 $?
+# a full disk: a clear message, exit 1, no queue and no temporary left
+mkdir -p "$tmp/full"
+if mount -t tmpfs -o size=64k tmpfs "$tmp/full" 2> /dev/null; then
+	"$T" review add --queue "$tmp/full/q.jsonl" "$tmp/sugg.jsonl" 2> "$tmp/e"
+	check "full disk: exit 1" 1 $?
+	grep -q "cannot write .*q.jsonl.tmp: No space left on device (the queue is unchanged)" "$tmp/e" ||
+		check "full disk: says so" "No space left" "$(cat "$tmp/e")"
+	check "full disk: nothing left behind" "q.jsonl.lock" "$(ls "$tmp/full")"
+	umount "$tmp/full"
+else
+	echo "  notice: cannot mount a small tmpfs here; the full-disk check is skipped"
+fi
+
 # occupation ids that are not IRIs need --base for SKOS
 printf '{"id":"00000000000000ac","kind":"new_alt_label","occupation":"5223","lang":"de","label":"verkäufer","score":9,"postings":9}\n' > "$tmp/plain.jsonl"
 "$T" review add --queue "$tmp/p.jsonl" "$tmp/plain.jsonl" 2> /dev/null
