@@ -1,7 +1,8 @@
 /* cli_review.c - titlemill review: the curators' queue of suggestions.
  *
  * Subcommands: add, list, show, accept, reject, defer, decide (a batch
- * TSV), export (the accepted ones as a label delta), stats.  The queue is
+ * TSV), export (the accepted ones as a label delta), stats, repair (the
+ * unreadable lines of a queue file moved aside).  The queue is
  * a JSON Lines file (--queue, default titlemill-queue.jsonl) or a store
  * (--store URL).  The curators decide; this command only records. */
 #include <errno.h>
@@ -14,6 +15,7 @@
 
 #include "cli.h"
 #include "jsonr.h"
+#include "outfile.h"
 #include "reader.h"
 #include "review.h"
 #include "skos.h"
@@ -32,6 +34,8 @@ static const char review_usage[] =
 	"                             reviewer, note; all or nothing\n"
 	"  export                     the accepted suggestions as a label delta\n"
 	"  stats                      counts per status, kind and language\n"
+	"  repair                     move the queue file's unreadable lines to\n"
+	"                             FILE.rejected (appended) and rewrite the queue\n"
 	"\n"
 	"where the queue lives:\n"
 	"  --queue FILE       a queue file (default $TITLEMILL_QUEUE, else\n"
@@ -56,7 +60,8 @@ static const char review_usage[] =
 	"  --base IRI         prefix for occupation ids that are not IRIs (SKOS)\n"
 	"  --case C           written (default: the label as postings write it, when\n"
 	"                     propose found it so) or clean (the lowercase clean title)\n"
-	"  -o FILE            write FILE atomically instead of standard output\n"
+	"  -o FILE            write FILE instead of standard output (a file is\n"
+	"                     replaced atomically, a device or FIFO written into)\n"
 	"\n"
 	"Times are UTC; TITLEMILL_NOW pins the clock (for tests and replays).\n"
 	"Exit status: 0 done, 1 refused or failed (nothing changed), 2 usage.\n";
@@ -138,6 +143,7 @@ static const char *allowed(const char *sub)
 		{"decide", {O_REVIEWER, O_OVERRULE}},
 		{"export", {O_FORMAT, O_SINCE, O_BASE, O_CASE, 'o'}},
 		{"stats", {0}},
+		{"repair", {0}},
 	};
 	static char set[16];
 	for (size_t i = 0; i < sizeof t / sizeof *t; i++)
@@ -369,6 +375,9 @@ static int sub_add(const review_opts *o, rq_place *pl, int nfiles, char **files,
 		"%zu reopened, %zu rejected before and kept closed, %zu accepted before\n",
 		a.nlines, a.st.added, a.st.refreshed, a.st.unchanged, a.st.reopened, a.st.kept_closed,
 		a.st.accepted_before);
+	if (a.st.unknown_status)
+		fprintf(stderr, "review add: %zu left alone: their status is unknown to this version\n",
+			a.st.unknown_status);
 	rc = EXIT_OK;
 done:
 	buf_free(&a.lines);
@@ -669,7 +678,7 @@ static int sub_list(const review_opts *o, const rq_queue *q)
 			const rq_brief *e = &it->brief;
 			buf_puts(&b, it->id);
 			buf_putc(&b, '\t');
-			buf_puts(&b, rq_status_names[it->status]);
+			buf_puts(&b, rq_status_name(it));
 			buf_putc(&b, '\t');
 			buf_puts(&b, rq_kind_names[it->kind]);
 			buf_putc(&b, '\t');
@@ -795,7 +804,7 @@ static int sub_show(const review_opts *o, const rq_queue *q, int n, char **ids)
 		buf_puts(&b, "id            ");
 		buf_puts(&b, it->id);
 		buf_puts(&b, "\nstatus        ");
-		buf_puts(&b, rq_status_names[it->status]);
+		buf_puts(&b, rq_status_name(it));
 		buf_puts(&b, "\nkind          ");
 		buf_puts(&b, rq_kind_names[it->kind]);
 		buf_puts(&b, "\noccupation    ");
@@ -845,7 +854,7 @@ static int sub_show(const review_opts *o, const rq_queue *q, int n, char **ids)
 /* stats: one row per group */
 typedef struct srow {
 	char by[12], value[80];
-	uint64_t items, st[RQ_NSTATUS];
+	uint64_t items, st[RQ_NSTATUS + 1]; /* the last: statuses unknown here */
 	long long oldest; /* added time of the oldest open item, or -1 */
 } srow;
 
@@ -1012,20 +1021,16 @@ static int write_out(const char *path, const tm_buf *b)
 			return fail("cannot write the output");
 		return finish_stdout();
 	}
-	tm_buf tmp = {0};
-	buf_puts(&tmp, path);
-	buf_puts(&tmp, ".tmp");
-	FILE *fp = fopen(tmp.data, "wb");
-	int ok = fp && (!b->len || fwrite(b->data, 1, b->len, fp) == b->len);
-	if (fp && fclose(fp) != 0)
-		ok = 0;
-	if (ok && rename(tmp.data, path) != 0)
-		ok = 0;
-	if (!ok) {
-		fprintf(stderr, "titlemill review: %s: cannot write: %s\n", path, strerror(errno));
-		unlink(tmp.data);
-	}
-	buf_free(&tmp);
+	of_file f;
+	tm_buf err = {0};
+	int ok = !of_open(&f, path, OF_DASH, &err) && !of_write(&f, b->data, b->len, &err);
+	if (ok && f.warn.len)
+		fprintf(stderr, "titlemill review: note: %s", f.warn.data);
+	ok = ok && !of_commit(&f, &err);
+	if (!ok)
+		fprintf(stderr, "titlemill review: %s\n", err.data ? err.data : "cannot write");
+	of_abort(&f);
+	buf_free(&err);
 	return ok ? EXIT_OK : EXIT_RUNTIME;
 }
 
@@ -1174,6 +1179,40 @@ static int sub_export(const review_opts *o, const rq_queue *q)
 	return rc;
 }
 
+/* What reading or writing the queue noticed: one "warning:" line each. */
+static void print_notes(const rq_place *pl)
+{
+	const char *p = pl->warn.data, *end = p + pl->warn.len;
+	while (p && p < end) {
+		const char *nl = memchr(p, '\n', (size_t)(end - p));
+		size_t n = nl ? (size_t)(nl - p) : (size_t)(end - p);
+		fprintf(stderr, "titlemill review: warning: %.*s\n", (int)n, p);
+		p += n + 1;
+	}
+}
+
+/* ---- repair ---- */
+
+static int sub_repair(rq_place *pl)
+{
+	tm_buf err = {0}, rejected = {0};
+	size_t moved;
+	int rc = EXIT_OK;
+
+	if (rq_repair(pl, &rejected, &moved, &err)) {
+		fprintf(stderr, "titlemill review: %s; nothing changed\n", err.data);
+		rc = EXIT_RUNTIME;
+	} else if (moved)
+		fprintf(stderr, "review repair: %zu unreadable line%s moved to %s\n", moved,
+			moved == 1 ? "" : "s", rejected.data);
+	else
+		fprintf(stderr, "review repair: every line of %s can be read; nothing to do\n",
+			pl->path);
+	buf_free(&err);
+	buf_free(&rejected);
+	return rc;
+}
+
 int cmd_review(int argc, char **argv)
 {
 	review_opts o;
@@ -1201,19 +1240,26 @@ int cmd_review(int argc, char **argv)
 	}
 	if (!strcmp(sub, "decide") && nargs != 1)
 		return usage_error("decide wants one decisions file (TSV: id, decision, reviewer, note)", NULL);
-	if ((!strcmp(sub, "list") || !strcmp(sub, "stats") || !strcmp(sub, "export")) && nargs)
+	if ((!strcmp(sub, "list") || !strcmp(sub, "stats") || !strcmp(sub, "export") ||
+	     !strcmp(sub, "repair")) && nargs)
 		return usage_error("unexpected argument: ", args[0]);
 	if (open_place(&o, &pl))
 		return EXIT_RUNTIME;
 
 	if (!strcmp(sub, "add"))
 		rc = sub_add(&o, &pl, nargs, args, now);
+	else if (!strcmp(sub, "repair"))
+		rc = sub_repair(&pl);
 	else if (!strcmp(sub, "accept") || !strcmp(sub, "reject") || !strcmp(sub, "defer"))
 		rc = sub_decide_ids(&o, &pl, pick(rq_decision_words, 3, sub), nargs, args, now);
 	else if (!strcmp(sub, "decide"))
 		rc = sub_decide_file(&o, &pl, args[0], now);
 	else if (rq_read(&pl, &q, 0, &err)) {
 		fprintf(stderr, "titlemill review: %s\n", err.data);
+		rc = EXIT_RUNTIME;
+	} else if (!strcmp(sub, "export") && q.nbad) {
+		fprintf(stderr, "titlemill review: no export while lines of the queue cannot be read: "
+				"a delta must not miss a decision\n");
 		rc = EXIT_RUNTIME;
 	} else if (!strcmp(sub, "list"))
 		rc = sub_list(&o, &q);
@@ -1223,6 +1269,12 @@ int cmd_review(int argc, char **argv)
 		rc = sub_stats(&q, now);
 	else
 		rc = sub_export(&o, &q);
+	print_notes(&pl);
+	if (pl.nbad && strcmp(sub, "repair"))
+		fprintf(stderr, "titlemill review: %zu line%s of the queue cannot be read and %s kept as "
+				"%s; 'titlemill review repair' moves them to a .rejected file\n",
+			pl.nbad, pl.nbad == 1 ? "" : "s", pl.nbad == 1 ? "is" : "are",
+			pl.nbad == 1 ? "it is" : "they are");
 	rq_free(&q);
 	rq_place_close(&pl);
 	buf_free(&err);

@@ -10,6 +10,7 @@
 
 #include "cli.h"
 #include "norm.h"
+#include "outfile.h"
 #include "postings.h"
 #include "setup.h"
 #include "store.h"
@@ -59,7 +60,8 @@ static const char tally_usage[] =
 	"  --lexicons DIR   read the lexicons in DIR too (repeatable)\n"
 	"  --strict         a malformed row is an error (status 1, nothing written)\n"
 	"  --memo MIB       memory of recent titles for the normaliser (default 16)\n"
-	"  -o FILE          write the table to FILE (replaced only when complete)\n"
+	"  -o FILE          write the table to FILE (a file is replaced only when complete;\n"
+	"                   a device or FIFO is written into)\n"
 	"  --stats          say on standard error how much memory the counts took\n"
 	"  -h, --help       show this help\n";
 
@@ -71,40 +73,40 @@ static const char counts_usage[] =
 	"\n"
 	"  --store URL      read the counts a Redis server holds (see tally)\n"
 	"  --prefix P       the store's key prefix (default titlemill)\n"
-	"  -o FILE          write the table to FILE (replaced only when complete)\n"
+	"  -o FILE          write the table to FILE (a file is replaced only when complete;\n"
+	"                   a device or FIFO is written into)\n"
 	"  -h, --help       show this help\n";
 
-/* Writes m to path atomically (a temporary file beside it, renamed), or
- * to standard output when path is NULL. */
+/* Writes m to standard output (path NULL) or to path by the rules of
+ * outfile.h: a regular file replaced atomically, a device or FIFO
+ * written into, "-" standard output. */
 static int write_table(tally_mem *m, const char *path, const char *cmd)
 {
-	char tmp[4096];
+	of_file f;
+	tm_buf err = {0};
 	FILE *fp;
+	int rc = EXIT_RUNTIME;
 
-	if (!path) {
-		if (tm_write(m, stdout) != 0 || fflush(stdout) != 0) {
-			fprintf(stderr, "titlemill %s: write error: %s\n", cmd, strerror(errno));
-			return EXIT_RUNTIME;
-		}
-		return EXIT_OK;
+	if (of_open(&f, path ? path : "-", OF_DASH, &err) || !(fp = of_stream(&f, &err)))
+		goto done;
+	if (tm_write(m, fp) != 0) {
+		buf_reset(&err);
+		buf_puts(&err, f.target ? f.target : "standard output");
+		buf_puts(&err, ": write error: ");
+		buf_puts(&err, strerror(errno));
+		of_abort(&f);
+		goto done;
 	}
-	snprintf(tmp, sizeof tmp, "%s.tmp-%ld", path, (long)getpid());
-	if (!(fp = fopen(tmp, "w"))) {
-		fprintf(stderr, "titlemill %s: %s: %s\n", cmd, tmp, strerror(errno));
-		return EXIT_RUNTIME;
-	}
-	if (tm_write(m, fp) != 0 || fflush(fp) != 0 || fsync(fileno(fp)) != 0) {
-		fprintf(stderr, "titlemill %s: %s: write error: %s\n", cmd, path, strerror(errno));
-		fclose(fp);
-		unlink(tmp);
-		return EXIT_RUNTIME;
-	}
-	if (fclose(fp) != 0 || rename(tmp, path) != 0) {
-		fprintf(stderr, "titlemill %s: %s: %s\n", cmd, path, strerror(errno));
-		unlink(tmp);
-		return EXIT_RUNTIME;
-	}
-	return EXIT_OK;
+	if (f.warn.len)
+		fprintf(stderr, "titlemill %s: note: %s", cmd, f.warn.data);
+	if (of_commit(&f, &err) == 0)
+		rc = EXIT_OK;
+done:
+	if (rc != EXIT_OK)
+		fprintf(stderr, "titlemill %s: %s\n", cmd, err.data ? err.data : "cannot write");
+	of_abort(&f);
+	buf_free(&err);
+	return rc;
 }
 
 static int parse_memo(const char *arg, long *v)

@@ -4,6 +4,7 @@
 #include <jansson.h>
 #include <stdio.h>
 #include <stdlib.h>
+#include <string.h>
 
 struct jr_doc {
 	json_t *root;
@@ -153,4 +154,27 @@ int jr_dump(const jr_val *v, tm_buf *b)
 	return json_dump_callback((const json_t *)v, dump_cb, b,
 				  JSON_COMPACT | JSON_PRESERVE_ORDER | JSON_REAL_PRECISION(15) |
 				  JSON_ENCODE_ANY) ? -1 : 0;
+}
+
+int jr_dump_others(const jr_val *obj, const char *const *skip, size_t nskip, tm_buf *b)
+{
+	json_t *o = (json_t *)obj;
+	if (!json_is_object(o))
+		return 0;
+	for (void *it = json_object_iter(o); it; it = json_object_iter_next(o, it)) {
+		const char *k = json_object_iter_key(it);
+		size_t i = 0;
+		while (i < nskip && strcmp(k, skip[i]))
+			i++;
+		if (i < nskip)
+			continue;
+		json_t *key = json_string(k);
+		int bad = !key || buf_putc(b, ',') ||
+			  json_dump_callback(key, dump_cb, b, JSON_ENCODE_ANY) || buf_putc(b, ':') ||
+			  jr_dump((const jr_val *)json_object_iter_value(it), b);
+		json_decref(key);
+		if (bad)
+			return -1;
+	}
+	return 0;
 }

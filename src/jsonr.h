@@ -42,5 +42,10 @@ double jr_vnum(const jr_val *v);                  /* an integer or a real */
 /* Appends v as compact JSON (keys in their order, reals to 15 significant
  * digits) to b.  Returns 0, or -1 when out of memory. */
 int jr_dump(const jr_val *v, tm_buf *b);
+/* Appends the members of object obj whose keys are not among the nskip
+ * keys of skip, in their order, each as ,"key":value (compact, as
+ * jr_dump).  Nothing for an absent or non-object value.  Returns 0, or
+ * -1 when out of memory. */
+int jr_dump_others(const jr_val *obj, const char *const *skip, size_t nskip, tm_buf *b);
 
 #endif

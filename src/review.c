@@ -15,6 +15,7 @@
 #include "decode.h"
 #include "jsonr.h"
 #include "jsonw.h"
+#include "outfile.h"
 #include "strtab.h"
 #include "tsv.h"
 
@@ -52,6 +53,7 @@ static void event_free(rq_event *e)
 	free(e->reviewer);
 	free(e->note);
 	free(e->evidence);
+	free(e->extra);
 }
 
 static void item_free(rq_item *it)
@@ -65,6 +67,8 @@ static void item_free(rq_item *it)
 	free(it->evidence);
 	free(it->brief.rival);
 	free(it->brief.variant_of);
+	free(it->status_name);
+	free(it->extra);
 	for (size_t i = 0; i < it->nev; i++)
 		event_free(&it->ev[i]);
 	free(it->ev);
@@ -81,7 +85,14 @@ void rq_free(rq_queue *q)
 		st_free(q->index);
 		free(q->index);
 	}
+	free(q->bad);
+	buf_free(&q->notes);
 	memset(q, 0, sizeof *q);
+}
+
+const char *rq_status_name(const rq_item *it)
+{
+	return it->status_name ? it->status_name : rq_status_names[it->status];
 }
 
 static void msg(tm_buf *err, const char *where, const char *what, const char *detail)
@@ -224,7 +235,7 @@ int rq_item_json(const rq_item *it, tm_buf *b)
 	json_str(b, it->id, strlen(it->id));
 	buf_puts(b, ",\"seq\":");
 	put_u64(b, it->seq);
-	put_field(b, "status", rq_status_names[it->status]);
+	put_field(b, "status", rq_status_name(it));
 	put_field(b, "kind", rq_kind_names[it->kind]);
 	put_field(b, "occupation", it->occ);
 	put_field(b, "lang", it->lang);
@@ -255,9 +266,14 @@ int rq_item_json(const rq_item *it, tm_buf *b)
 			buf_puts(b, ",\"evidence\":");
 			buf_puts(b, e->evidence);
 		}
+		if (e->extra)
+			buf_puts(b, e->extra);
 		buf_putc(b, '}');
 	}
-	return buf_puts(b, "]}\n");
+	buf_putc(b, ']');
+	if (it->extra)
+		buf_puts(b, it->extra);
+	return buf_puts(b, "}\n");
 }
 
 /* A string field of v, copied; NULL (with a message) when it is missing,
@@ -371,6 +387,28 @@ static int set_brief(rq_item *it, const jr_val *ev)
 	return 0;
 }
 
+/* The members this version reads; others are kept as they are. */
+static const char *const item_keys[] = {"id", "seq", "status", "kind", "occupation", "lang",
+					"label", "score", "postings", "added", "proposed",
+					"evidence", "history"};
+static const char *const event_keys[] = {"event", "at", "reviewer", "note", "postings", "score",
+					 "evidence"};
+
+/* The members of v not among keys, for writing back (*out NULL when none). */
+static int others(const jr_val *v, const char *const *keys, size_t nkeys, char **out,
+		  const char *where, tm_buf *err)
+{
+	tm_buf b = {0};
+	*out = NULL;
+	if (jr_dump_others(v, keys, nkeys, &b)) {
+		buf_free(&b);
+		msg(err, where, "out of memory", NULL);
+		return -1;
+	}
+	*out = b.data; /* NULL when nothing was appended */
+	return 0;
+}
+
 static int parse_event(rq_item *it, const jr_val *v, const char *where, tm_buf *err)
 {
 	int what;
@@ -398,23 +436,25 @@ static int parse_event(rq_item *it, const jr_val *v, const char *where, tm_buf *
 	if (jr_vtype(jr_get(v, "evidence")) == JR_OBJECT &&
 	    !(e->evidence = dump(jr_get(v, "evidence"), where, err)))
 		return -1;
-	return 0;
+	return others(v, event_keys, sizeof event_keys / sizeof *event_keys, &e->extra, where, err);
 }
 
+/* Reads one item line into q.  Returns 0, 1 when the line cannot be read
+ * (the reason in err; q unchanged) or -1 when out of memory.  An unknown
+ * status is kept, with a note in q->notes. */
 static int parse_item(rq_queue *q, const char *line, size_t n, const char *where, tm_buf *err)
 {
 	char jerr[200];
 	jr_doc *d = jr_parse(line, n, jerr, sizeof jerr);
 	const jr_val *v = jr_root(d);
-	uint64_t seq;
-	size_t idl;
-	const char *id;
-	rq_item *it;
-	int rc = -1;
+	size_t idl, sl;
+	const char *id, *sn;
+	rq_item x = {0}, *it;
+	int rc = 1;
 
 	if (!d) {
 		msg(err, where, "not a queue item: ", jerr);
-		return -1;
+		return 1;
 	}
 	if (!(id = jr_vstr(jr_get(v, "id"), &idl)) || !idl || idl > ID_MAX || memchr(id, 0, idl)) {
 		msg(err, where, "\"id\" is missing or not an id", NULL);
@@ -424,47 +464,67 @@ static int parse_item(rq_queue *q, const char *line, size_t n, const char *where
 		msg(err, where, "the id appears twice in the queue", NULL);
 		goto done;
 	}
-	if (get_count(v, "seq", &seq, where, err))
+	if (get_count(v, "seq", &x.seq, where, err))
 		goto done;
-	if (!(it = new_item(q, id, idl))) {
-		msg(err, where, "out of memory", NULL);
+	sn = jr_vstr(jr_get(v, "status"), &sl);
+	if (sn && sl && sl <= ID_MAX && name_index(rq_status_names, RQ_NSTATUS, sn, sl) < 0 &&
+	    rq_plain_text(sn, sl)) {
+		/* a status of a newer version: keep the item, decide nothing */
+		x.status = RQ_NSTATUS;
+		if (!(x.status_name = dupn(sn, sl)))
+			goto oom;
+	} else if (get_name(v, "status", rq_status_names, RQ_NSTATUS, &x.status, where, err))
 		goto done;
-	}
-	it->seq = seq;
-	if (seq >= q->next_seq)
-		q->next_seq = seq + 1;
-	if (get_name(v, "status", rq_status_names, RQ_NSTATUS, &it->status, where, err) ||
-	    get_name(v, "kind", rq_kind_names, RK_N, &it->kind, where, err) ||
-	    !(it->occ = get_str(v, "occupation", where, err)) ||
-	    !(it->lang = get_str(v, "lang", where, err)) ||
-	    !(it->label = get_str(v, "label", where, err)) ||
-	    get_score(v, "score", &it->score, where, err) ||
-	    get_count(v, "postings", &it->postings, where, err) ||
-	    get_time(v, "added", &it->added, where, err) ||
-	    get_time(v, "proposed", &it->proposed, where, err))
+	if (get_name(v, "kind", rq_kind_names, RK_N, &x.kind, where, err) ||
+	    !(x.occ = get_str(v, "occupation", where, err)) ||
+	    !(x.lang = get_str(v, "lang", where, err)) ||
+	    !(x.label = get_str(v, "label", where, err)) ||
+	    get_score(v, "score", &x.score, where, err) ||
+	    get_count(v, "postings", &x.postings, where, err) ||
+	    get_time(v, "added", &x.added, where, err) ||
+	    get_time(v, "proposed", &x.proposed, where, err))
 		goto done;
 	if (jr_vtype(jr_get(v, "evidence")) != JR_OBJECT) {
 		msg(err, where, "\"evidence\" must be an object", NULL);
 		goto done;
 	}
-	it->raw = line;
-	it->rawlen = n;
-	if (set_brief(it, jr_get(v, "evidence"))) {
-		msg(err, where, "out of memory", NULL);
-		goto done;
-	}
+	if (set_brief(&x, jr_get(v, "evidence")))
+		goto oom;
 	const jr_val *h = jr_get(v, "history");
 	if (jr_vtype(h) != JR_ARRAY || !jr_vlen(h)) {
 		msg(err, where, "\"history\" must be a list of events", NULL);
 		goto done;
 	}
 	for (size_t i = 0; i < jr_vlen(h); i++)
-		if (parse_event(it, jr_at(h, i), where, err))
+		if (parse_event(&x, jr_at(h, i), where, err))
 			goto done;
+	if (others(v, item_keys, sizeof item_keys / sizeof *item_keys, &x.extra, where, err))
+		goto oom;
+	if (!(it = new_item(q, id, idl)))
+		goto oom;
+	x.id = it->id;
+	*it = x;
+	memset(&x, 0, sizeof x);
+	it->raw = line;
+	it->rawlen = n;
 	it->nev_stored = it->nev;
 	it->changed = 0;
+	if (it->seq >= q->next_seq)
+		q->next_seq = it->seq + 1;
+	if (it->status_name) {
+		buf_puts(&q->notes, where);
+		buf_puts(&q->notes, ": the status \"");
+		buf_puts(&q->notes, it->status_name);
+		buf_puts(&q->notes, "\" is unknown to this version of titlemill: the item is kept as "
+				    "it is and cannot be decided or refreshed here\n");
+	}
 	rc = 0;
+	goto done;
+oom:
+	msg(err, where, "out of memory", NULL);
+	rc = -1;
 done:
+	item_free(&x);
 	jr_free(d);
 	return rc;
 }
@@ -475,11 +535,32 @@ static int cmp_seq(const void *a, const void *b)
 	return x->seq < y->seq ? -1 : x->seq > y->seq;
 }
 
+static int cmp_bad(const void *a, const void *b)
+{
+	const rq_badline *x = a, *y = b;
+	if (x->after != y->after)
+		return x->after < y->after ? -1 : 1;
+	return x->line < y->line ? -1 : x->line > y->line;
+}
+
+/* Records an unreadable line (its reason in why) and a note of it. */
+static int add_bad(rq_queue *q, const char *p, size_t len, long lineno, uint64_t after,
+		   const tm_buf *why)
+{
+	rq_badline *b = realloc(q->bad, (q->nbad + 1) * sizeof *b);
+	if (!b)
+		return -1;
+	q->bad = b;
+	b[q->nbad++] = (rq_badline){p, len, lineno, after};
+	return buf_append(&q->notes, why->data, why->len) || buf_putc(&q->notes, '\n');
+}
+
 int rq_parse(rq_queue *q, const char *text, size_t n, const char *name, tm_buf *err)
 {
 	const char *p, *end;
 	long lineno = 0;
 	char where[600];
+	uint64_t last = 0;
 
 	if (!text)
 		text = "", n = 0;
@@ -494,11 +575,21 @@ int rq_parse(rq_queue *q, const char *text, size_t n, const char *name, tm_buf *
 			len--;
 		if (len) {
 			snprintf(where, sizeof where, "%s:%ld", name, lineno);
-			if (parse_item(q, p, len, where, err))
+			int r = parse_item(q, p, len, where, err);
+			if (r < 0)
 				return -1;
+			if (r == 0)
+				last = q->it[q->n - 1].seq;
+			else if (add_bad(q, p, len, lineno, last, err)) {
+				msg(err, where, "out of memory", NULL);
+				return -1;
+			}
 		}
 		p = nl ? nl + 1 : end;
 	}
+	/* unreadable lines in the order they are written back */
+	if (q->nbad > 1)
+		qsort(q->bad, q->nbad, sizeof *q->bad, cmp_bad);
 	/* a store hands its items in no order: arrival order is seq */
 	if (q->n > 1)
 		qsort(q->it, q->n, sizeof *q->it, cmp_seq);
@@ -591,6 +682,10 @@ int rq_add(rq_queue *q, const char *line, size_t n, const char *where, const cha
 		goto done;
 	}
 	rc = 0;
+	if (it->status == RQ_NSTATUS) {
+		st->unknown_status++;
+		goto done;
+	}
 	if (it->status == RQ_ACCEPTED) {
 		st->accepted_before++;
 		goto done;
@@ -649,6 +744,13 @@ int rq_decide(rq_item *it, int d, const char *reviewer, const char *note, const 
 	int want = status_of[d];
 
 	buf_reset(m);
+	if (it->status == RQ_NSTATUS) {
+		buf_puts(m, it->id);
+		buf_puts(m, ": its status \"");
+		buf_puts(m, it->status_name);
+		buf_puts(m, "\" is unknown to this version of titlemill; not changed");
+		return RD_CONFLICT;
+	}
 	if (it->status == want) {
 		buf_puts(m, it->id);
 		buf_puts(m, ": already ");
@@ -884,8 +986,39 @@ static int read_file(const char *path, tm_buf *text, int missing_ok, tm_buf *err
 	return 0;
 }
 
+/* Parses what pl->text holds; the queue's notes become the place's. */
+static int parse_place(rq_place *pl, rq_queue *q, const char *name, tm_buf *err)
+{
+	int rc = rq_parse(q, pl->text.data, pl->text.len, name, err);
+	pl->nbad = q->nbad;
+	if (q->notes.len && buf_append(&pl->warn, q->notes.data, q->notes.len)) {
+		msg(err, name, "out of memory", NULL);
+		return -1;
+	}
+	return rc;
+}
+
+/* The queue file's text: the items in arrival order, each unreadable
+ * line kept after the item it followed (unless q->drop_bad). */
+static int queue_text(const rq_queue *q, tm_buf *out)
+{
+	size_t k = 0;
+	for (size_t i = 0; i <= q->n; i++) {
+		uint64_t upto = i < q->n ? q->it[i].seq : UINT64_MAX;
+		for (; k < q->nbad && q->bad[k].after < upto; k++)
+			if (!q->drop_bad && (buf_append(out, q->bad[k].text, q->bad[k].len) ||
+					     buf_putc(out, '\n')))
+				return -1;
+		if (i < q->n && rq_item_json(&q->it[i], out))
+			return -1;
+	}
+	return 0;
+}
+
 int rq_read(rq_place *pl, rq_queue *q, int missing_ok, tm_buf *err)
 {
+	buf_reset(&pl->warn);
+	pl->nbad = 0;
 	if (pl->st) {
 		buf_reset(&pl->text);
 		if (pl->st->ops->rq_load(pl->st, &pl->text)) {
@@ -894,26 +1027,30 @@ int rq_read(rq_place *pl, rq_queue *q, int missing_ok, tm_buf *err)
 		}
 		int c;
 		pl->st->ops->rq_commit(pl->st, NULL, 0, NULL, 0, &c); /* unwatch */
-		return rq_parse(q, pl->text.data, pl->text.len, "the store's review queue", err);
+		return parse_place(pl, q, "the store's review queue", err);
 	}
 	if (read_file(pl->path, &pl->text, missing_ok, err))
 		return -1;
-	return rq_parse(q, pl->text.data, pl->text.len, pl->path, err);
+	return parse_place(pl, q, pl->path, err);
 }
 
-static int lock_file(rq_place *pl, tm_buf *err)
+/* Locks the queue whose file (links resolved) is target: TARGET.lock,
+ * never through a link, created with the queue's permission bits and
+ * group (st when the queue exists) so that every curator who may write
+ * the queue may take the lock. */
+static int lock_file(rq_place *pl, const char *target, const struct stat *st, tm_buf *err)
 {
 	tm_buf lp = {0};
 	struct flock fl = {0};
 
-	if (buf_puts(&lp, pl->path) || buf_puts(&lp, ".lock")) {
+	if (buf_puts(&lp, target) || buf_puts(&lp, ".lock")) {
 		buf_free(&lp);
-		msg(err, pl->path, "out of memory", NULL);
+		msg(err, target, "out of memory", NULL);
 		return -1;
 	}
-	pl->lockfd = open(lp.data, O_RDWR | O_CREAT | O_CLOEXEC, 0666);
+	pl->lockfd = of_open_beside(lp.data, O_RDWR, st, &pl->warn, err);
 	if (pl->lockfd < 0) {
-		msg(err, lp.data, "cannot open the lock file: ", strerror(errno));
+		buf_puts(err, " (the lock of the queue)");
 		buf_free(&lp);
 		return -1;
 	}
@@ -939,74 +1076,31 @@ static void unlock_file(rq_place *pl)
 	pl->lockfd = -1;
 }
 
-static int write_all(int fd, const char *p, size_t n)
+/* Writes the whole queue over target by the rules of outfile.h (a new
+ * temporary beside it, flushed, renamed; the mode and group kept): a
+ * reader or a crash sees the old queue or the new one. */
+static int write_file(rq_place *pl, const char *target, const rq_queue *q, tm_buf *err)
 {
-	while (n) {
-		ssize_t w = write(fd, p, n);
-		if (w < 0) {
-			if (errno == EINTR)
-				continue;
-			return -1;
-		}
-		p += w;
-		n -= (size_t)w;
-	}
-	return 0;
-}
+	tm_buf out = {0};
+	of_file f;
+	int rc = -1;
 
-/* Writes the whole queue to PATH.tmp, flushes it to the disk and renames
- * it over PATH: a reader or a crash sees the old queue or the new one.
- * The temporary name is fixed because only the lock holder writes it. */
-static int write_file(rq_place *pl, const rq_queue *q, tm_buf *err)
-{
-	tm_buf tmp = {0}, out = {0};
-	int fd, rc = -1;
-	const char *why = NULL;
-
-	for (size_t i = 0; i < q->n; i++)
-		if (rq_item_json(&q->it[i], &out)) {
-			msg(err, pl->path, "out of memory", NULL);
-			goto done;
-		}
-	if (buf_puts(&tmp, pl->path) || buf_puts(&tmp, ".tmp")) {
-		msg(err, pl->path, "out of memory", NULL);
+	if (queue_text(q, &out)) {
+		msg(err, target, "out of memory", NULL);
 		goto done;
 	}
-	int e = 0;
-	fd = open(tmp.data, O_WRONLY | O_CREAT | O_TRUNC | O_CLOEXEC, 0666);
-	if (fd < 0)
-		why = "cannot create ", e = errno;
-	else if (write_all(fd, out.data ? out.data : "", out.len))
-		why = "cannot write ", e = errno;
-	else if (fsync(fd))
-		why = "cannot flush ", e = errno;
-	if (fd >= 0 && close(fd) && !why)
-		why = "cannot write ", e = errno;
-	if (!why && rename(tmp.data, pl->path))
-		why = "cannot rename over the queue: ", e = errno;
-	if (why) {
-		msg(err, NULL, why, tmp.data);
-		buf_puts(err, ": ");
-		buf_puts(err, strerror(e));
+	if (of_open(&f, target, OF_REGULAR, err) || of_write(&f, out.data, out.len, err)) {
+		of_abort(&f);
 		buf_puts(err, " (the queue is unchanged)");
-		unlink(tmp.data);
 		goto done;
 	}
-	/* make the rename itself durable */
-	char *slash = strrchr(pl->path, '/');
-	tm_buf dir = {0};
-	if (slash ? buf_append(&dir, pl->path, (size_t)(slash - pl->path) + 1) : buf_puts(&dir, "."))
+	buf_append(&pl->warn, f.warn.data, f.warn.len);
+	if (of_commit(&f, err)) {
+		buf_puts(err, " (the queue is unchanged)");
 		goto done;
-	buf_putc(&dir, 0);
-	int dfd = open(dir.data, O_RDONLY | O_CLOEXEC);
-	if (dfd >= 0) {
-		fsync(dfd);
-		close(dfd);
 	}
-	buf_free(&dir);
 	rc = 0;
 done:
-	buf_free(&tmp);
 	buf_free(&out);
 	return rc;
 }
@@ -1044,7 +1138,7 @@ static int commit_store(rq_place *pl, rq_queue *q, int *conflict, tm_buf *err)
 			const rq_event *e = &it->ev[k];
 			char num[32];
 			const char *pairs[] = {"event", rq_what_names[e->what], "id", it->id,
-					       "status", rq_status_names[it->status],
+					       "status", rq_status_name(it),
 					       "kind", rq_kind_names[it->kind], "occupation", it->occ,
 					       "lang", it->lang, "label", it->label, "at", e->at};
 			foff[ne++] = fv.len;
@@ -1102,29 +1196,42 @@ int rq_transact(rq_place *pl, int (*change)(rq_queue *q, void *arg, tm_buf *err)
 	int rc = -1;
 
 	if (!pl->st) {
-		if (lock_file(pl, err))
+		char *target;
+		struct stat st;
+		int exists;
+		buf_reset(&pl->warn);
+		pl->nbad = 0;
+		if (of_resolve(pl->path, &target, &st, &exists, err))
 			return -1;
-		if (read_file(pl->path, &pl->text, 1, err) ||
-		    rq_parse(&q, pl->text.data, pl->text.len, pl->path, err) || change(&q, arg, err))
+		if (exists && !S_ISREG(st.st_mode)) {
+			msg(err, target, "is not a regular file; a queue must be one", NULL);
+			free(target);
+			return -1;
+		}
+		if (lock_file(pl, target, exists ? &st : NULL, err))
 			goto done;
-		int any = 0;
+		if (read_file(target, &pl->text, 1, err) || parse_place(pl, &q, pl->path, err) ||
+		    change(&q, arg, err))
+			goto done;
+		int any = q.drop_bad && q.nbad;
 		for (size_t i = 0; i < q.n; i++)
 			any |= q.it[i].changed;
-		rc = any ? write_file(pl, &q, err) : 0;
+		rc = any ? write_file(pl, target, &q, err) : 0;
 	done:
 		unlock_file(pl);
 		rq_free(&q);
+		free(target);
 		return rc;
 	}
 	for (int attempt = 0; attempt < 1000; attempt++) {
 		int conflict = 0;
 		buf_reset(&pl->text);
+		buf_reset(&pl->warn);
 		if (pl->st->ops->rq_load(pl->st, &pl->text)) {
 			msg(err, NULL, pl->st->err.data, NULL);
 			return -1;
 		}
-		if (rq_parse(&q, pl->text.data, pl->text.len, "the store's review queue", err) ||
-		    change(&q, arg, err)) {
+		if (parse_place(pl, &q, "the store's review queue", err) || change(&q, arg, err)) {
 			pl->st->ops->rq_commit(pl->st, NULL, 0, NULL, 0, &conflict); /* unwatch */
 			rq_free(&q);
 			return -1;
@@ -1147,6 +1254,98 @@ void rq_place_close(rq_place *pl)
 		return;
 	unlock_file(pl);
 	buf_free(&pl->text);
+	buf_free(&pl->warn);
 	store_close(pl->st);
 	pl->st = NULL;
+}
+
+typedef struct repair_arg {
+	const char *rejected;
+	struct stat like;
+	int have_like;
+	size_t moved;
+	tm_buf *warn;
+} repair_arg;
+
+/* Appends the unreadable lines to the rejected file (flushed to the
+ * disk before the queue drops them: a crash in between leaves a line in
+ * both, never in neither); on a failed write the file is cut back to
+ * what it held. */
+static int repair_change(rq_queue *q, void *a0, tm_buf *err)
+{
+	repair_arg *a = a0;
+	tm_buf out = {0};
+	int rc = -1;
+
+	a->moved = q->nbad;
+	if (!q->nbad)
+		return 0;
+	for (size_t k = 0; k < q->nbad; k++)
+		if (buf_append(&out, q->bad[k].text, q->bad[k].len) || buf_putc(&out, '\n')) {
+			buf_free(&out);
+			msg(err, a->rejected, "out of memory", NULL);
+			return -1;
+		}
+	int fd = of_open_beside(a->rejected, O_WRONLY | O_APPEND, a->have_like ? &a->like : NULL,
+				a->warn, err);
+	if (fd < 0)
+		goto done;
+	struct stat st;
+	const char *p = out.data;
+	size_t n = out.len;
+	int e = fstat(fd, &st) ? errno : 0;
+	while (!e && n) {
+		ssize_t w = write(fd, p, n);
+		if (w < 0 && errno != EINTR)
+			e = errno;
+		else if (w > 0)
+			p += w, n -= (size_t)w;
+	}
+	if (!e && fsync(fd))
+		e = errno;
+	if (e) {
+		if (ftruncate(fd, st.st_size)) {
+			/* the failure reported below stands */
+		}
+		msg(err, a->rejected, "cannot write: ", strerror(e));
+		buf_puts(err, " (the queue is unchanged)");
+		close(fd);
+		goto done;
+	}
+	if (close(fd)) {
+		msg(err, a->rejected, "cannot write: ", strerror(errno));
+		goto done;
+	}
+	q->drop_bad = 1;
+	rc = 0;
+done:
+	buf_free(&out);
+	return rc;
+}
+
+int rq_repair(rq_place *pl, tm_buf *rejected, size_t *moved, tm_buf *err)
+{
+	repair_arg a = {NULL, {0}, 0, 0, &pl->warn};
+	char *target;
+	int exists;
+
+	*moved = 0;
+	if (pl->st) {
+		msg(err, NULL, "review repair works on a queue file, not on a store", NULL);
+		return -1;
+	}
+	if (of_resolve(pl->path, &target, &a.like, &exists, err))
+		return -1;
+	buf_reset(rejected);
+	int oom = buf_puts(rejected, target) || buf_puts(rejected, ".rejected");
+	free(target);
+	if (oom) {
+		msg(err, pl->path, "out of memory", NULL);
+		return -1;
+	}
+	a.rejected = rejected->data;
+	a.have_like = exists;
+	int rc = rq_transact(pl, repair_change, &a, err);
+	*moved = a.moved;
+	return rc;
 }

@@ -10,6 +10,13 @@
  * once never lose an update and a killed process leaves the old or the
  * new queue, never a torn one.
  *
+ * A queue written by a newer version is read as far as it can be: the
+ * members of an item or event this version does not know are kept and
+ * written back when the item changes; an item whose status is unknown is
+ * kept, listed, and never changed or decided here; a line that cannot be
+ * read is reported with its line number, kept as it is when the queue is
+ * written again, and moved aside only by rq_repair.
+ *
  * Ownership: a queue owns its items and their strings; rq_free releases
  * everything.  Functions return 0 on success and -1 on failure with a
  * message in err (naming file and line where there is one); a failed
@@ -41,6 +48,8 @@ typedef struct rq_event {
 	double score;
 	char *evidence;       /* decisions and reopenings: the whole evidence
 			       * (compact JSON); NULL otherwise */
+	char *extra;          /* members this version does not know, as
+			       * ,"key":value... (compact JSON); NULL when none */
 } rq_event;
 
 /* What a list shows of the latest evidence, taken when it is read. */
@@ -52,7 +61,10 @@ typedef struct rq_brief {
 
 typedef struct rq_item {
 	char *id, *occ, *lang, *label;
-	int kind, status;
+	int kind, status;     /* status RQ_NSTATUS: unknown, named in status_name */
+	char *status_name;    /* an unknown status as written; NULL otherwise */
+	char *extra;          /* members this version does not know, as in
+			       * rq_event; NULL when none */
 	uint64_t seq;         /* arrival order, from 1 */
 	uint64_t postings;    /* of the latest evidence */
 	double score;
@@ -70,18 +82,35 @@ typedef struct rq_item {
 	int changed;          /* to be written back */
 } rq_item;
 
+/* A line of a queue that cannot be read as an item. */
+typedef struct rq_badline {
+	const char *text;     /* the line as it was, borrowed like an item's raw */
+	size_t len;
+	long line;            /* its line number */
+	uint64_t after;       /* seq of the item before it in the file; 0: none */
+} rq_badline;
+
 typedef struct rq_queue {
 	rq_item *it;
 	size_t n, cap;
 	uint64_t next_seq;
 	struct strtab *index; /* id -> position + 1 */
+	rq_badline *bad;      /* lines that cannot be read, in file order */
+	size_t nbad;
+	int drop_bad;         /* set: the next write leaves the bad lines out */
+	tm_buf notes;         /* what rq_parse reports: "file:line: ...\n" each */
 } rq_queue;
 
 void rq_free(rq_queue *q);
 
+/* The name of the item's status (an unknown one as written). */
+const char *rq_status_name(const rq_item *it);
+
 /* Reads item lines (a queue file, or what a store holds) into an empty
- * queue; name is used in messages.  Items are put in arrival order.  The
- * items borrow text: it must outlive the queue. */
+ * queue; name is used in messages.  Items are put in arrival order.  A
+ * line that cannot be read goes to q->bad and a note of it (name:line:
+ * why) to q->notes, as does an item with an unknown status; -1 only when
+ * memory runs out.  The items borrow text: it must outlive the queue. */
 int rq_parse(rq_queue *q, const char *text, size_t n, const char *name, tm_buf *err);
 
 /* Writes item it as one JSON line, newline included (an unchanged item
@@ -99,12 +128,14 @@ rq_item *rq_find(const rq_queue *q, const char *id, size_t idlen, int *many);
 
 typedef struct rq_addstat {
 	size_t added, refreshed, unchanged, reopened, kept_closed, accepted_before;
+	size_t unknown_status; /* items left alone: their status is unknown */
 } rq_addstat;
 
 /* Takes one line of propose output (JSON) into the queue: new ids are
  * added; open and deferred items get the new evidence; a rejected item
  * reopens when its postings reach reopen_factor times those at the
- * rejection and stays closed otherwise; an accepted item is left alone.
+ * rejection and stays closed otherwise; an accepted item, or one whose
+ * status is unknown, is left alone.
  * where is "file:line" for messages. */
 int rq_add(rq_queue *q, const char *line, size_t n, const char *where, const char *now,
 	   double reopen_factor, rq_addstat *st, tm_buf *err);
@@ -114,7 +145,8 @@ enum { RD_APPLIED, RD_SAME, RD_CONFLICT };
  * RD_APPLIED, RD_SAME (the item already stands so: nothing changes) or
  * RD_CONFLICT (another decision stands; the message in msg says whose;
  * nothing changes unless overrule is set, when the decision is recorded
- * over it and RD_APPLIED returned). */
+ * over it and RD_APPLIED returned; an item whose status is unknown is
+ * always RD_CONFLICT). */
 int rq_decide(rq_item *it, int d, const char *reviewer, const char *note, const char *now,
 	      int overrule, tm_buf *msg);
 
@@ -157,10 +189,17 @@ typedef struct rq_place {
 	store *st;
 	int lockfd;
 	tm_buf text;
+	tm_buf warn;          /* notes for the user (lines that cannot be read,
+			       * unknown statuses, a group not kept), one line
+			       * each, from the last rq_read or rq_transact */
+	size_t nbad;          /* lines that could not be read, from the same */
 } rq_place;
 
 /* Reads the queue for reading only (no lock).  A missing file is an error
- * unless missing_ok. */
+ * unless missing_ok.  The queue file is written by the rules of
+ * outfile.h (a link followed only when it is the user's or root's; the
+ * mode and group kept); FILE.lock beside it is created with the queue's
+ * mode and group and never through a link. */
 int rq_read(rq_place *pl, rq_queue *q, int missing_ok, tm_buf *err);
 
 /* Runs one change: locks (file) or watches (store), reads the queue,
@@ -170,6 +209,13 @@ int rq_read(rq_place *pl, rq_queue *q, int missing_ok, tm_buf *err);
  * nothing and its error is returned. */
 int rq_transact(rq_place *pl, int (*change)(rq_queue *q, void *arg, tm_buf *err),
 		void *arg, tm_buf *err);
+
+/* Moves the lines of a queue file that cannot be read to FILE.rejected
+ * beside it (its name, links resolved, put in rejected; appended, never
+ * replacing what it holds; created with the queue's mode and group) and
+ * writes the queue without them, under the lock.  Sets *moved; nothing is
+ * written when there is nothing to move.  A store is refused. */
+int rq_repair(rq_place *pl, tm_buf *rejected, size_t *moved, tm_buf *err);
 
 void rq_place_close(rq_place *pl);
 

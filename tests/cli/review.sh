@@ -276,15 +276,66 @@ check "an option of another subcommand: usage error" 2 $?
 "$T" review list --queue "$tmp/none.jsonl" 2> "$tmp/e"
 check "missing queue: exit 1" 1 $?
 grep -q "none.jsonl: no review queue here" "$tmp/e" || check "missing queue named" "no review queue here" "$(cat "$tmp/e")"
+# a queue written by a newer version: an unknown status is reported
+# with file:line, the item kept as it was and never decided; the other
+# items are read and decided as ever
 sed '2s/"status":"[a-z]*"/"status":"maybe"/' "$tmp/q.saved" > "$q"
-cp "$q" "$tmp/q.bad"
-"$T" review list --queue "$q" 2> "$tmp/e"
-check "damaged queue: exit 1" 1 $?
-grep -q "q.jsonl:2: \"status\" must be one of open, accepted, rejected, deferred" "$tmp/e" ||
-	check "damaged queue: file and line" "q.jsonl:2" "$(cat "$tmp/e")"
-"$T" review add --queue "$q" "$tmp/sugg.jsonl" 2> /dev/null
-check "add to a damaged queue: exit 1" 1 $?
-cmp -s "$q" "$tmp/q.bad" || check "a damaged queue is left as it was" same differ
+id2=$(sed -n '2s/^{"id":"\([0-9a-f]*\)".*/\1/p' "$q")
+id3=$(sed -n '3s/^{"id":"\([0-9a-f]*\)".*/\1/p' "$q")
+sed -n 2p "$q" > "$tmp/line2"
+"$T" review list --queue "$q" --status all > "$tmp/l" 2> "$tmp/e"
+check "unknown status: list exits 0" 0 $?
+grep -q "q.jsonl:2: the status \"maybe\" is unknown to this version" "$tmp/e" ||
+	check "unknown status: file and line" "q.jsonl:2" "$(cat "$tmp/e")"
+check "unknown status: the item is listed with it" maybe "$(awk -F '\t' -v i="$id2" '$1 == i { print $2 }' "$tmp/l")"
+"$T" review accept --queue "$q" --reviewer ana --overrule "$id2" 2> "$tmp/e"
+check "unknown status: never decided" 1 $?
+grep -q "unknown to this version of titlemill; not changed" "$tmp/e" ||
+	check "unknown status: says why" "unknown" "$(cat "$tmp/e")"
+"$T" review add --queue "$q" "$tmp/grown.jsonl" 2> "$tmp/e"
+check "unknown status: add still works" 0 $?
+grep -q "1 left alone: their status is unknown" "$tmp/e" || check "unknown status: add says so" "1 left alone" "$(cat "$tmp/e")"
+sed -n 2p "$q" | cmp -s - "$tmp/line2" || check "unknown status: the item's line is kept as it was" same differ
+"$T" review defer --queue "$q" --reviewer ana --overrule "$id3" 2> /dev/null
+check "unknown status: the other items are decided" 0 $?
+# members this version does not know survive a change of their item
+cp "$tmp/q.saved" "$q"
+sed "3s/}\$/,\"x_team\":{\"desk\":\"Nordhafen\"}}/; 3s/\"history\":\[{/\"history\":[{\"x_via\":\"board\",/" "$q" > "$tmp/q.x"
+mv "$tmp/q.x" "$q"
+"$T" review reject --queue "$q" --reviewer bo --overrule "$id3" 2> "$tmp/e"
+check "unknown members: the item changes" 0 $?
+grep "\"id\":\"$id3\"" "$q" | grep -q '"status":"rejected".*"x_via":"board".*,"x_team":{"desk":"Nordhafen"}}$' ||
+	check "unknown members survive the change" kept "$(grep "\"id\":\"$id3\"" "$q" | cut -c1-300)"
+# one line that cannot be read: reported with its line, kept, the rest
+# of the queue read and changed; no export; repair moves it aside
+cp "$tmp/q.saved" "$q"
+sed -i '4a{"id":"00000000000000ff","seq":' "$q"
+sed -n 5p "$q" > "$tmp/line5"
+"$T" review list --queue "$q" > /dev/null 2> "$tmp/e"
+check "unreadable line: list exits 0" 0 $?
+grep -q "q.jsonl:5: not a queue item" "$tmp/e" || check "unreadable line: file and line" "q.jsonl:5" "$(cat "$tmp/e")"
+grep -q "review repair" "$tmp/e" || check "unreadable line: repair is offered" "review repair" "$(cat "$tmp/e")"
+"$T" review defer --queue "$q" --reviewer ana --overrule "$id3" 2> /dev/null
+check "unreadable line: a decision is recorded" 0 $?
+sed -n 5p "$q" | cmp -s - "$tmp/line5" || check "unreadable line: kept in its place" same differ
+"$T" review export --queue "$q" > "$tmp/x" 2> "$tmp/e"
+check "unreadable line: no export" 1 $?
+"$T" review repair --queue "$q" 2> "$tmp/e"
+check "repair: exit 0" 0 $?
+grep -q "1 unreadable line moved to .*q.jsonl.rejected" "$tmp/e" || check "repair: says what" "moved" "$(cat "$tmp/e")"
+cmp -s "$q.rejected" "$tmp/line5" || check "repair: the line is in the rejected file" same differ
+grep -c '' "$q" > "$tmp/n"
+check "repair: the queue lost only that line" "$(grep -c '' "$tmp/q.saved")" "$(cat "$tmp/n")"
+"$T" review list --queue "$q" > /dev/null 2> "$tmp/e"
+check "repair: the queue reads without a warning" "" "$(cat "$tmp/e")"
+"$T" review export --queue "$q" > /dev/null 2>&1
+check "repair: export works again" 0 $?
+"$T" review repair --queue "$q" 2> "$tmp/e"
+grep -q "nothing to do" "$tmp/e" || check "repair of a sound queue: nothing to do" "nothing to do" "$(cat "$tmp/e")"
+echo 'not json' >> "$q"
+"$T" review repair --queue "$q" 2> /dev/null
+printf '%s\nnot json\n' "$(cat "$tmp/line5")" | cmp -s - "$q.rejected" ||
+	check "repair appends to the rejected file" appended "$(cat "$q.rejected")"
 printf 'id\tverdict\n' > "$tmp/nocol.tsv"
 "$T" review decide --queue "$tmp/q.saved" --reviewer ana "$tmp/nocol.tsv" 2> "$tmp/e"
 grep -q "nocol.tsv:1: a decisions file needs the columns id, decision" "$tmp/e" ||
@@ -296,7 +347,7 @@ mkdir -p "$tmp/full"
 if mount -t tmpfs -o size=64k tmpfs "$tmp/full" 2> /dev/null; then
 	"$T" review add --queue "$tmp/full/q.jsonl" "$tmp/sugg.jsonl" 2> "$tmp/e"
 	check "full disk: exit 1" 1 $?
-	grep -q "cannot write .*q.jsonl.tmp: No space left on device (the queue is unchanged)" "$tmp/e" ||
+	grep -q "q.jsonl: cannot write: No space left on device (the queue is unchanged)" "$tmp/e" ||
 		check "full disk: says so" "No space left" "$(cat "$tmp/e")"
 	check "full disk: nothing left behind" "q.jsonl.lock" "$(ls "$tmp/full")"
 	umount "$tmp/full"

@@ -29,7 +29,7 @@ static void round_trip(const rq_queue *q)
 	tm_buf a = {0}, b = {0}, err = {0};
 	rq_queue q2 = {0};
 	dump(q, &a);
-	if (rq_parse(&q2, a.data, a.len, "written", &err) != 0) {
+	if (rq_parse(&q2, a.data, a.len, "written", &err) != 0 || q2.nbad) {
 		fprintf(stderr, "cannot read back: %s\n", err.data);
 		abort();
 	}

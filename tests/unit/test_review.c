@@ -196,18 +196,100 @@ static void test_round_trip(void **state)
 	buf_free(&m2);
 	assert_int_equal(q2.next_seq, 31);
 
-	/* a duplicated line is refused with its line number */
+	/* a duplicated line is reported with its line number and kept
+	 * aside; the rest of the queue is read */
 	rq_free(&q2);
 	buf_reset(&a); /* q2 is gone: a may change */
 	rq_item_json(&q.it[0], &a);
 	rq_item_json(&q.it[1], &a);
 	rq_item_json(&q.it[0], &a);
-	assert_int_equal(rq_parse(&q2, a.data, a.len, "q", &err), -1);
-	assert_non_null(strstr(err.data, "q:3: the id appears twice"));
+	buf_puts(&a, "{\"id\":\"00000000000003e8\",\"seq\":\n");
+	assert_int_equal(rq_parse(&q2, a.data, a.len, "q", &err), 0);
+	assert_int_equal(q2.n, 2);
+	assert_int_equal(q2.nbad, 2);
+	assert_int_equal(q2.bad[0].line, 3);
+	assert_int_equal(q2.bad[1].line, 4);
+	assert_int_equal(q2.bad[0].after, q2.it[1].seq);
+	assert_non_null(strstr(q2.notes.data, "q:3: the id appears twice"));
+	assert_non_null(strstr(q2.notes.data, "q:4: not a queue item"));
 	rq_free(&q2);
 	rq_free(&q);
 	buf_free(&a);
 	buf_free(&b);
+	buf_free(&err);
+	buf_free(&m);
+}
+
+/* A queue line of a newer version: members this one does not know. */
+static const char newer[] =
+	"{\"id\":\"00000000000000c3\",\"seq\":1,\"status\":\"%s\",\"kind\":\"new_alt_label\","
+	"\"occupation\":\"occ:1\",\"lang\":\"de\",\"label\":\"koch\",\"score\":2.5,"
+	"\"postings\":2,\"added\":\"2026-12-01T09:00:00Z\",\"proposed\":\"2026-12-01T09:00:00Z\","
+	"\"evidence\":{\"postings\":2},\"history\":[{\"event\":\"added\","
+	"\"at\":\"2026-12-01T09:00:00Z\",\"postings\":2,\"score\":2.5,"
+	"\"channel\":{\"via\":\"Valdoria board\"}}],\"priority\":[3,\"high\"],"
+	"\"team\":\"Nordhafen curators\"}\n";
+
+static void test_unknown_members_survive(void **state)
+{
+	rq_queue q = {0}, q2 = {0};
+	tm_buf a = {0}, b = {0}, err = {0}, m = {0};
+	char line[1024];
+	(void)state;
+
+	snprintf(line, sizeof line, newer, "open");
+	assert_int_equal(rq_parse(&q, line, strlen(line), "q", &err), 0);
+	assert_int_equal(q.n, 1);
+	assert_int_equal(rq_decide(&q.it[0], 0, "ana", NULL, "2026-12-02T09:00:00Z", 0, &m),
+			 RD_APPLIED);
+	assert_true(q.it[0].changed);
+	rq_item_json(&q.it[0], &a);
+	assert_non_null(strstr(a.data, ",\"priority\":[3,\"high\"],\"team\":\"Nordhafen curators\"}"));
+	assert_non_null(strstr(a.data, "\"channel\":{\"via\":\"Valdoria board\"}}"));
+	assert_non_null(strstr(a.data, "\"status\":\"accepted\""));
+	/* and read back and written again, the same bytes */
+	assert_int_equal(rq_parse(&q2, a.data, a.len, "q", &err), 0);
+	q2.it[0].changed = 1;
+	rq_item_json(&q2.it[0], &b);
+	assert_int_equal(a.len, b.len);
+	assert_memory_equal(a.data, b.data, a.len);
+	rq_free(&q);
+	rq_free(&q2);
+	buf_free(&a);
+	buf_free(&b);
+	buf_free(&err);
+	buf_free(&m);
+}
+
+static void test_unknown_status(void **state)
+{
+	rq_queue q = {0};
+	rq_addstat st = {0};
+	tm_buf a = {0}, err = {0}, m = {0};
+	char line[1024], s[512];
+	(void)state;
+
+	snprintf(line, sizeof line, newer, "escalated");
+	assert_int_equal(rq_parse(&q, line, strlen(line), "q", &err), 0);
+	assert_int_equal(q.n, 1);
+	assert_int_equal(q.nbad, 0);
+	assert_string_equal(rq_status_name(&q.it[0]), "escalated");
+	assert_non_null(strstr(q.notes.data, "q:1: the status \"escalated\" is unknown"));
+	/* never decided, not even on purpose */
+	for (int d = 0; d < 3; d++) {
+		assert_int_equal(rq_decide(&q.it[0], d, "ana", NULL, "2026-12-02T09:00:00Z", 1, &m),
+				 RD_CONFLICT);
+		assert_non_null(strstr(m.data, "unknown to this version"));
+	}
+	/* new evidence leaves it alone */
+	add(&q, sugg(s, "00000000000000c3", "new_alt_label", 90), "2026-12-03T09:00:00Z", &st);
+	assert_int_equal(st.unknown_status, 1);
+	assert_false(q.it[0].changed);
+	rq_item_json(&q.it[0], &a);
+	assert_int_equal(a.len, strlen(line));
+	assert_memory_equal(a.data, line, a.len);
+	rq_free(&q);
+	buf_free(&a);
 	buf_free(&err);
 	buf_free(&m);
 }
@@ -219,6 +301,8 @@ int main(void)
 		cmocka_unit_test(test_add_rules),
 		cmocka_unit_test(test_decisions),
 		cmocka_unit_test(test_round_trip),
+		cmocka_unit_test(test_unknown_members_survive),
+		cmocka_unit_test(test_unknown_status),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);
 }
