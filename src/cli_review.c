@@ -1270,11 +1270,15 @@ int cmd_review(int argc, char **argv)
 	else
 		rc = sub_export(&o, &q);
 	print_notes(&pl);
-	if (pl.nbad && strcmp(sub, "repair"))
-		fprintf(stderr, "titlemill review: %zu line%s of the queue cannot be read and %s kept as "
-				"%s; 'titlemill review repair' moves them to a .rejected file\n",
-			pl.nbad, pl.nbad == 1 ? "" : "s", pl.nbad == 1 ? "is" : "are",
+	if (pl.nbad && o.store)
+		fprintf(stderr, "titlemill review: %zu item%s of the store cannot be read and %s left "
+				"as %s\n", pl.nbad, pl.nbad == 1 ? "" : "s", pl.nbad == 1 ? "is" : "are",
 			pl.nbad == 1 ? "it is" : "they are");
+	else if (pl.nbad && strcmp(sub, "repair"))
+		fprintf(stderr, "titlemill review: %zu line%s of the queue cannot be read and %s kept as "
+				"%s; 'titlemill review repair' moves %s to %s.rejected\n",
+			pl.nbad, pl.nbad == 1 ? "" : "s", pl.nbad == 1 ? "is" : "are",
+			pl.nbad == 1 ? "it is" : "they are", pl.nbad == 1 ? "it" : "them", o.queue);
 	rq_free(&q);
 	rq_place_close(&pl);
 	buf_free(&err);

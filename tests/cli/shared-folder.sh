@@ -115,6 +115,16 @@ as "$A" 002 chgrp "$G" "$plain/q.jsonl"
 as "$A" 002 "$T" review defer --queue "$plain/q.jsonl" --reviewer ana 00000000000000d4 2> /dev/null
 check "a group set by hand survives a rewrite" "$G" "$(group "$plain/q.jsonl")"
 
+# --- a group the curator may not give: the write goes ahead and says so
+q4=$team/fourth.jsonl
+as "$A" 002 "$T" review add --queue "$q4" "$tmp/sugg.jsonl" 2> /dev/null
+chgrp root "$q4"
+as "$B" 002 "$T" review defer --queue "$q4" --reviewer bo 00000000000000d4 2> "$tmp/e"
+check "a group that cannot be kept: the decision is recorded" 0 $?
+grep -q "warning: .*fourth.jsonl: could not keep the group root (0): Operation not permitted; it is now $G" "$tmp/e" ||
+	check "a group that cannot be kept: said so" "could not keep the group root" "$(cat "$tmp/e")"
+check "a group that cannot be kept: the folder's group instead" "$G" "$(group "$q4")"
+
 # --- a planted temporary: a link from the second curator to the first
 # curator's private file; the first curator's next decision leaves that
 # file as it was and the queue a regular file
