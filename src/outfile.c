@@ -145,7 +145,9 @@ static int make_temp(of_file *f, tm_buf *err)
 		for (int k = 0; k < 6; k++, x >>= 6)
 			f->tmp[tl + 5 + k] = abc[x % 62];
 		f->tmp[tl + 11] = 0;
-		f->fd = open(f->tmp, O_WRONLY | O_CREAT | O_EXCL | O_NOFOLLOW | O_CLOEXEC, 0666);
+		/* owner only until it has its final mode: nobody may open
+		 * it on the way (and keep reading what a private file gets) */
+		f->fd = open(f->tmp, O_WRONLY | O_CREAT | O_EXCL | O_NOFOLLOW | O_CLOEXEC, 0600);
 		if (f->fd >= 0)
 			return 0;
 		if (errno != EEXIST)
@@ -202,8 +204,17 @@ int of_open(of_file *f, const char *path, int flags, tm_buf *err)
 	f->atomic = 1;
 	if (make_temp(f, err))
 		goto bad;
-	if (exists && keep_owner(f->fd, f->target, &st, &f->warn, err))
-		goto bad;
+	if (exists) {
+		if (keep_owner(f->fd, f->target, &st, &f->warn, err))
+			goto bad;
+	} else {
+		mode_t um = umask(0); /* read it: there is no other way */
+		umask(um);
+		if (fchmod(f->fd, 0666 & ~um)) {
+			fail(err, f->tmp, "cannot set the permissions", errno);
+			goto bad;
+		}
+	}
 	return 0;
 bad:
 	of_abort(f);

@@ -7,7 +7,9 @@
  *    atomically: the content goes to a new temporary file in the same
  *    folder (PATH.tmp-XXXXXX, created with O_CREAT|O_EXCL|O_NOFOLLOW, so
  *    that nothing planted under that name is ever opened), is flushed to
- *    the disk and renamed over PATH, and the folder is flushed too.  A
+ *    the disk and renamed over PATH, and the folder is flushed too.  The
+ *    temporary is readable by its owner only until it has its final mode
+ *    and group, before anything is written to it.  A
  *    crash leaves the old file or the new one, never a torn one; a
  *    failure removes the temporary.  The replacement keeps the old
  *    file's permission bits and group (and its owner when run as root);
