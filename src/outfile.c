@@ -3,6 +3,7 @@
 #include <errno.h>
 #include <fcntl.h>
 #include <grp.h>
+#include <signal.h>
 #include <limits.h>
 #include <stdint.h>
 #include <stdio.h>
@@ -14,6 +15,44 @@
 #include "outfile.h"
 
 enum { LINKS_MAX = 40, TMP_TRIES = 100 };
+
+/* The temporary of the write in progress, for the signal handler: an
+ * interrupted command (Ctrl-C, kill, a closed terminal) removes it before
+ * it dies.  One write at a time, so one name. */
+static const char *volatile live_tmp;
+static const int fatal[] = {SIGINT, SIGTERM, SIGHUP, SIGQUIT};
+static struct sigaction saved[sizeof fatal / sizeof *fatal];
+
+static void on_fatal(int sig)
+{
+	const char *t = live_tmp;
+	if (t)
+		unlink(t);
+	signal(sig, SIG_DFL);
+	raise(sig);
+}
+
+static void watch_tmp(const char *tmp)
+{
+	struct sigaction sa;
+	memset(&sa, 0, sizeof sa);
+	sa.sa_handler = on_fatal;
+	sigemptyset(&sa.sa_mask);
+	for (size_t i = 0; i < sizeof fatal / sizeof *fatal; i++)
+		sigaddset(&sa.sa_mask, fatal[i]);
+	live_tmp = tmp;
+	for (size_t i = 0; i < sizeof fatal / sizeof *fatal; i++)
+		sigaction(fatal[i], &sa, &saved[i]);
+}
+
+static void unwatch_tmp(void)
+{
+	if (!live_tmp)
+		return;
+	for (size_t i = 0; i < sizeof fatal / sizeof *fatal; i++)
+		sigaction(fatal[i], &saved[i], NULL);
+	live_tmp = NULL;
+}
 
 static void fail(tm_buf *err, const char *path, const char *what, int e)
 {
@@ -147,9 +186,11 @@ static int make_temp(of_file *f, tm_buf *err)
 		f->tmp[tl + 11] = 0;
 		/* owner only until it has its final mode: nobody may open
 		 * it on the way (and keep reading what a private file gets) */
+		watch_tmp(f->tmp);
 		f->fd = open(f->tmp, O_WRONLY | O_CREAT | O_EXCL | O_NOFOLLOW | O_CLOEXEC, 0600);
 		if (f->fd >= 0)
 			return 0;
+		unwatch_tmp();
 		if (errno != EEXIST)
 			break;
 	}
@@ -274,6 +315,8 @@ static void sync_dir(const char *path)
 
 static void release(of_file *f)
 {
+	if (f->tmp)
+		unwatch_tmp();
 	free(f->target);
 	free(f->tmp);
 	buf_free(&f->warn);

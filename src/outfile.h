@@ -7,11 +7,13 @@
  *    atomically: the content goes to a new temporary file in the same
  *    folder (PATH.tmp-XXXXXX, created with O_CREAT|O_EXCL|O_NOFOLLOW, so
  *    that nothing planted under that name is ever opened), is flushed to
- *    the disk and renamed over PATH, and the folder is flushed too.  The
+ *    the disk and renamed over PATH, and the folder is flushed too.  A
+ *    crash leaves the old file or the new one, never a torn one.  The
  *    temporary is readable by its owner only until it has its final mode
- *    and group, before anything is written to it.  A
- *    crash leaves the old file or the new one, never a torn one; a
- *    failure removes the temporary.  The replacement keeps the old
+ *    and group, before anything is written to it.  A failure removes it,
+ *    and so does SIGINT, SIGTERM, SIGHUP or SIGQUIT while it exists (a
+ *    handler removes it and dies of the signal; the previous actions are
+ *    back after of_commit or of_abort).  The replacement keeps the old
  *    file's permission bits and group (and its owner when run as root);
  *    a new file gets the umask's mode and the folder's group rules.
  *  - A character device (/dev/null, a terminal) or a FIFO is written

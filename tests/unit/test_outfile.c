@@ -2,12 +2,14 @@
  * atomically with its mode kept, a new one with the umask's mode, no
  * temporary left behind after a commit, an abort or a failed rename; a
  * FIFO and a character device written into and still what they were; a
+ * temporary removed when the command is killed in the middle; a
  * link of ours followed (and still a link), a link of another user's
  * refused (when run as root, which can make one); folders refused; the
  * lock-style open never following a link nor opening a FIFO. */
 #define _DEFAULT_SOURCE /* mkdtemp, lchown */
 #include <dirent.h>
 #include <fcntl.h>
+#include <signal.h>
 #include <setjmp.h>
 #include <stdarg.h>
 #include <stddef.h>
@@ -16,6 +18,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <sys/stat.h>
+#include <sys/wait.h>
 #include <unistd.h>
 
 #include <cmocka.h>
@@ -263,6 +266,45 @@ static void test_open_beside(void **state)
 	buf_free(&err);
 }
 
+/* A command killed (SIGTERM) in the middle of a write removes its
+ * temporary and still dies of that signal; after a commit the signal's
+ * own action is back. */
+static void test_killed_mid_write(void **state)
+{
+	int st;
+	(void)state;
+
+	put(at("sig.tsv"), "old\n");
+	pid_t pid = fork();
+	assert_true(pid >= 0);
+	if (pid == 0) {
+		of_file f;
+		tm_buf err = {0};
+		if (of_open(&f, at("sig.tsv"), 0, &err) || of_write(&f, "half", 4, &err))
+			_exit(3);
+		raise(SIGTERM);
+		_exit(4); /* not reached */
+	}
+	assert_int_equal(waitpid(pid, &st, 0), pid);
+	assert_true(WIFSIGNALED(st));
+	assert_int_equal(WTERMSIG(st), SIGTERM);
+	assert_int_equal(temporaries(), 0);
+	assert_string_equal(get(at("sig.tsv")), "old\n");
+
+	pid = fork();
+	assert_true(pid >= 0);
+	if (pid == 0) {
+		signal(SIGTERM, SIG_IGN);
+		write_text(at("sig.tsv"), 0, "new\n");
+		raise(SIGTERM); /* ignored again after the write */
+		_exit(5);
+	}
+	assert_int_equal(waitpid(pid, &st, 0), pid);
+	assert_true(WIFEXITED(st));
+	assert_int_equal(WEXITSTATUS(st), 5);
+	assert_string_equal(get(at("sig.tsv")), "new\n");
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -271,6 +313,7 @@ int main(void)
 		cmocka_unit_test(test_fifo_and_device_written_into),
 		cmocka_unit_test(test_links),
 		cmocka_unit_test(test_open_beside),
+		cmocka_unit_test(test_killed_mid_write),
 	};
 	return cmocka_run_group_tests(tests, setup, teardown);
 }
