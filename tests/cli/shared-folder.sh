@@ -99,6 +99,17 @@ check "after the second curator: the group" "$G" "$(group "$q")"
 n=$(as "$A" 022 "$T" review list --queue "$q" --status all 2> /dev/null | grep -c -e accepted -e rejected)
 check "both decisions are in the queue" 2 "$n"
 
+# --- a curator's own link to the team's queue: followed, the lock taken
+# beside the queue itself (so both curators lock the same file)
+as "$A" 022 ln -s "$q" "$home/team-queue.jsonl"
+as "$A" 022 "$T" review defer --queue "$home/team-queue.jsonl" --reviewer ana 00000000000000d4 2> "$tmp/e"
+check "through one's own link: decided" 0 $?
+[ -L "$home/team-queue.jsonl" ]; check "the link stays a link" 0 $?
+[ ! -e "$home/team-queue.jsonl.lock" ]; check "no lock beside the link" 0 $?
+as "$A" 022 "$T" review list --queue "$q" --status deferred 2> /dev/null | grep -q 00000000000000d4
+check "the decision is in the team's queue" 0 $?
+check "the team's queue keeps its mode" 660 "$(mode "$q")"
+
 # --- a private queue stays private
 p=$tmp/home-a/own.jsonl
 as "$A" 022 "$T" review add --queue "$p" "$tmp/sugg.jsonl" 2> /dev/null
