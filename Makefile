@@ -30,12 +30,12 @@ override LDLIBS += $(PC_LIBS) -lm
 
 BUILD ?= build
 CORE = buf decode unicode token lexicon norm pass_gender pass_noise pass_place \
-	reader tsv jsonw jsonr setup lang strtab postings tally_mem store_redis \
+	reader tsv jsonw jsonr setup lang fieldcheck strtab postings tally_mem store_redis \
 	stats labels skos review slot cluster
 CLI = cli_norm cli_tally cli_rank propose cli_review main
 CORE_OBJ = $(CORE:%=$(BUILD)/%.o)
 CLI_OBJ = $(CLI:%=$(BUILD)/%.o)
-UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_norm test_reader test_tally test_stats test_review test_slot
+UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_norm test_reader test_tally test_stats test_review test_slot test_fieldcheck
 UNIT_BIN = $(UNIT_TESTS:%=$(BUILD)/%)
 
 all: titlemill

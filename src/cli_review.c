@@ -13,6 +13,7 @@
 #include <unistd.h>
 
 #include "cli.h"
+#include "fieldcheck.h"
 #include "jsonr.h"
 #include "reader.h"
 #include "review.h"
@@ -115,11 +116,6 @@ static int pick(const char *const *names, int n, const char *s)
 		if (!strcmp(names[i], s))
 			return i;
 	return -1;
-}
-
-static int plain_text(const char *s)
-{
-	return rq_plain_text(s, strlen(s));
 }
 
 /* Which options each subcommand takes. */
@@ -289,16 +285,32 @@ static int add_change(rq_queue *q, void *a0, tm_buf *err)
 {
 	add_arg *a = a0;
 	const char *p = a->lines.data;
+	tm_buf all = {0};
+	size_t bad = 0;
 	memset(&a->st, 0, sizeof a->st);
+	/* all or nothing, and every bad line named at once */
 	for (size_t i = 0; i < a->nlines; i++) {
 		const char *where = p;
 		const char *line = where + strlen(where) + 1;
 		size_t n = strlen(line);
-		if (rq_add(q, line, n, where, a->now, a->factor, &a->st, err))
-			return -1;
+		if (rq_add(q, line, n, where, a->now, a->factor, &a->st, err)) {
+			if (bad++)
+				buf_puts(&all, "\ntitlemill review: ");
+			buf_append(&all, err->data, err->len);
+		}
 		p = line + n + 1;
 	}
-	return 0;
+	if (bad) {
+		buf_reset(err);
+		buf_append(err, all.data, all.len);
+		if (bad > 1) {
+			char m[80];
+			snprintf(m, sizeof m, "\ntitlemill review: %zu bad suggestions", bad);
+			buf_puts(err, m);
+		}
+	}
+	buf_free(&all);
+	return bad ? -1 : 0;
 }
 
 /* Reads every input line first: a store transaction may run twice, and
@@ -475,9 +487,9 @@ static int check_reviewer(const char *r)
 		      stderr);
 		return -1;
 	}
-	if (!plain_text(r)) {
-		fputs("titlemill review: a reviewer's name must be UTF-8 without tabs, line ends or control characters\n",
-		      stderr);
+	char why[FC_WHY];
+	if (fc_name(r, strlen(r), why)) {
+		fprintf(stderr, "titlemill review: the reviewer's name %s\n", why);
 		return -1;
 	}
 	return 0;
@@ -492,8 +504,9 @@ static int sub_decide_ids(const review_opts *o, rq_place *pl, int d, int n, char
 		return usage_error("name the suggestions: their ids (or unique prefixes of 6 or more)", NULL);
 	if (check_reviewer(o->reviewer))
 		return EXIT_USAGE;
-	if (o->note && !plain_text(o->note))
-		return usage_error("a note must be UTF-8 without tabs, line ends or control characters", NULL);
+	char why[FC_WHY];
+	if (o->note && fc_note(o->note, strlen(o->note), why))
+		return usage_error("the note ", why);
 	a.now = now;
 	a.overrule = o->overrule;
 	for (int i = 0; i < n; i++) {
@@ -1045,6 +1058,31 @@ static char *label_text(const rq_item *it, int clean)
 	return r;
 }
 
+/* The field of x that no export may carry, or NULL when x is safe to
+ * write in every format: the checks add and decide make, made again for
+ * queues written by older versions or edited by hand.  A TSV field then
+ * holds no tab or line end, a Turtle comment no line end, and serd gets
+ * an IRI of IRI characters and a well-formed language tag. */
+static const char *unsafe_field(const delta *x, char why[FC_WHY])
+{
+	const rq_item *it = x->it;
+	const char *note = x->dec->note ? x->dec->note : "";
+	const char *field = fc_id(it->id, strlen(it->id), why) ? "id"
+		: fc_occupation(it->occ, strlen(it->occ), why) ? "occupation"
+		: fc_lang(it->lang, strlen(it->lang), why) ? "lang"
+		: fc_label(x->text, strlen(x->text), why) ? "label"
+		: fc_name(x->dec->reviewer, strlen(x->dec->reviewer), why) ? "reviewer"
+		: fc_note(note, strlen(note), why) ? "note" : NULL;
+	if (!field && x->review) {
+		evid e;
+		evid_item(it, &e);
+		if (e.rival && fc_occupation(e.rival, strlen(e.rival), why))
+			field = "competitor.occupation";
+		jr_free(e.d);
+	}
+	return field;
+}
+
 static int sub_export(const review_opts *o, const rq_queue *q)
 {
 	delta *v = calloc(q->n + 1, sizeof *v);
@@ -1082,6 +1120,32 @@ static int sub_export(const review_opts *o, const rq_queue *q)
 			jr_free(e.d);
 		}
 	}
+	/* all or nothing: an item that cannot be written safely is named,
+	 * and nothing is written */
+	size_t nbad = 0;
+	for (size_t i = 0; i < n; i++) {
+		char why[FC_WHY], w2[FC_WHY];
+		const char *field = unsafe_field(&v[i], why);
+		if (!field)
+			continue;
+		if (fc_id(v[i].it->id, strlen(v[i].it->id), w2))
+			fprintf(stderr, "titlemill review: the accepted suggestion number %llu in the queue: ",
+				(unsigned long long)v[i].it->seq);
+		else
+			fprintf(stderr, "titlemill review: accepted suggestion %s: ", v[i].it->id);
+		fprintf(stderr, "\"%s\" %s\n", field, why);
+		nbad++;
+	}
+	if (nbad) {
+		fprintf(stderr, "titlemill review: export refused, nothing written: %zu accepted "
+				"suggestion%s cannot be written safely (reject %s with --overrule, or "
+				"correct the queue, and export again)\n",
+			nbad, nbad == 1 ? "" : "s", nbad == 1 ? "it" : "them");
+		for (size_t i = 0; i < n; i++)
+			free(v[i].text);
+		free(v);
+		return EXIT_RUNTIME;
+	}
 	qsort(v, n, sizeof *v, cmp_delta);
 	if (o->format == 0) {
 		buf_puts(&b, "occupation\tkind\tlang\tlabel\tchange\tid\treviewer\tdecided_at\tnote\treason\n");
@@ -1116,7 +1180,8 @@ static int sub_export(const review_opts *o, const rq_queue *q)
 		}
 		snprintf(head, sizeof head, "titlemill review export: %zu label%s to add", nadd,
 			 nadd == 1 ? "" : "s");
-		skos_write_comment(w, head);
+		if (skos_write_comment(w, head))
+			rc = fail("cannot write the SKOS export");
 		for (size_t i = 0; i < n && rc == EXIT_OK; i++) {
 			const delta *x = &v[i];
 			if (x->review)
@@ -1158,7 +1223,8 @@ static int sub_export(const review_opts *o, const rq_queue *q)
 			buf_puts(&c, x->it->lang);
 			buf_puts(&c, " - ");
 			reason(&c, x);
-			skos_write_comment(w, c.data);
+			if (skos_write_comment(w, c.data))
+				rc = fail("cannot write the SKOS export");
 			buf_free(&c);
 		}
 		if (skos_writer_end(w) && rc == EXIT_OK)

@@ -7,6 +7,8 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "fieldcheck.h"
+
 #define SKOS "http://www.w3.org/2004/02/skos/core#"
 
 typedef struct rd {
@@ -180,6 +182,12 @@ int skos_write_label(skos_writer *sw, const char *iri, char kind, const char *la
 {
 	const char *pred = kind == 'p' ? SKOS "prefLabel" : kind == 'a' ? SKOS "altLabel"
 									: SKOS "hiddenLabel";
+	char why[FC_WHY];
+	/* serd writes a language tag and an IRI's characters as they come:
+	 * what could end the statement early is refused here */
+	if (fc_lang(lang, strlen(lang), why) || fc_occupation(iri, strlen(iri), why) ||
+	    fc_text(text, strlen(text), (size_t)-1, why))
+		return -1;
 	SerdNode s = serd_node_from_string(SERD_URI, (const uint8_t *)iri);
 	SerdNode p = serd_node_from_string(SERD_URI, (const uint8_t *)pred);
 	SerdNode o = serd_node_from_string(SERD_LITERAL, (const uint8_t *)text);
@@ -191,6 +199,10 @@ int skos_write_label(skos_writer *sw, const char *iri, char kind, const char *la
 
 int skos_write_comment(skos_writer *sw, const char *text)
 {
+	char why[FC_WHY];
+	/* a comment ends at the line's end: one inside would start a statement */
+	if (fc_text(text, strlen(text), (size_t)-1, why))
+		return -1;
 	/* serd 0.30 has no comment call: close the pending statement first */
 	serd_writer_finish(sw->w);
 	return buf_puts(sw->out, "# ") || buf_puts(sw->out, text) || buf_putc(sw->out, '\n') ? -1 : 0;
