@@ -31,7 +31,7 @@ override LDLIBS += $(PC_LIBS) -lm
 BUILD ?= build
 CORE = buf decode unicode token lexicon norm pass_gender pass_noise pass_place \
 	reader tsv jsonw jsonr setup lang fieldcheck strtab postings tally_mem store_redis \
-	stats labels skos review slot cluster
+	stats labels skos review delta slot cluster
 CLI = cli_norm cli_tally cli_rank propose cli_review main
 CORE_OBJ = $(CORE:%=$(BUILD)/%.o)
 CLI_OBJ = $(CLI:%=$(BUILD)/%.o)
