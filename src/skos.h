@@ -16,6 +16,10 @@ typedef int (*skos_label_fn)(void *ctx, const char *occ, size_t ol, char kind,
  * 0, or -1 with a message "file:line:col: what" in err (a syntax error,
  * or what the callback refused). */
 int skos_read(const char *path, skos_label_fn fn, void *ctx, tm_buf *err);
+/* skos_read, and the number of statements read, labels or not, in
+ * *statements. */
+int skos_read_count(const char *path, skos_label_fn fn, void *ctx, size_t *statements,
+		    tm_buf *err);
 
 /* Writing labels as SKOS: Turtle (with the skos: prefix) or N-Triples,
  * appended to out (borrowed until skos_writer_end).  A comment line is

@@ -136,7 +136,8 @@ q=$tmp/legal.jsonl
 import json, sys
 O = sys.argv[1]
 labels = ['Koch "Chef"', 'back\\slash', '"""', "it's", "#1 @home", "<b>", "a ; b .", "x^^y",
-          "K\u00f6chin", "\u202eevil", "\ufeffbom", "e\u0301", "\U0001F468\u200d\U0001F373", "a,b", "'''"]
+          "K\u00f6chin", "\u202eevil", "\ufeffbom", "e\u0301", "\U0001F468\u200d\U0001F373", "a,b", "'''",
+          'ata.valdor""', 'K "C"\\']
 occs = [O + "/5223", O + "/K%C3%B6chin", O + "/a?x=1&y=[2]#f", "urn:x-valdoria:occ:7",
         O + "/K\u00f6chin", O + "/(1)!$*+,;=~@:"]
 langs = ["de", "de-AT", "zh-Hant-TW", "sl-rozaj-biske", "en-US-x-twain", "i-klingon", "DE-at"]
@@ -156,7 +157,19 @@ check "legal special strings: accept exits 0" 0 $?
 	"$T" review export --queue "$q" --format ntriples > "$tmp/legal.nt"
 check "legal special strings: export exits 0" 0 $?
 /usr/bin/python3 "$here/delta_hostile.py" --check "$q" "$tmp/legal.tsv" "$tmp/legal.ttl" "$tmp/legal.nt" > "$tmp/pb" 2>&1
-check "legal special strings: csv and rdflib read back exactly the accepted items" "ok 15 rows 15 triples" "$(cat "$tmp/pb")"
+check "legal special strings: csv and rdflib read back exactly the accepted items" "ok 17 rows 17 triples" "$(cat "$tmp/pb")"
+# our own SKOS reader (serd) reads the Turtle export back, labels that
+# end in two quotes included (serd reads no long string where a quote
+# meets an escape, so the export writes short strings)
+printf '%s\n' '{"id":"00000000000000f1","kind":"new_alt_label","occupation":"http://data.valdoria.example/occupation/1","lang":"de","label":"fahrer","label_as_written":"Fahrer \"\"","score":9,"postings":9}' \
+	'{"id":"00000000000000f2","kind":"new_alt_label","occupation":"http://data.valdoria.example/occupation/2","lang":"de","label":"lagerist nord","label_as_written":"Lagerist \"Nord\"\"","score":9,"postings":9}' > "$tmp/quotes.jsonl"
+"$T" review add --queue "$tmp/quotes.q" "$tmp/quotes.jsonl" 2> /dev/null &&
+	"$T" review accept --queue "$tmp/quotes.q" --reviewer ana 00000000000000f1 00000000000000f2 2> /dev/null &&
+	"$T" review export --queue "$tmp/quotes.q" --format turtle -o "$tmp/quotes.ttl"
+check "labels ending in two quotes: exported" 0 $?
+"$T" labels "$tmp/quotes.ttl" > "$tmp/quotes.back" 2> "$tmp/e"
+check "labels ending in two quotes: the Turtle reads back through titlemill labels" '0 Fahrer ""|Lagerist "Nord""' \
+	"$? $(tail -n +2 "$tmp/quotes.back" | cut -f4 | sort | paste -sd '|')"
 
 # a few hundred generated hostile strings through add, accept and export
 /usr/bin/python3 "$here/delta_hostile.py" --run "$T" "$tmp/hostile" --count 300 --seed 11 > "$tmp/h" 2>&1
