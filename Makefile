@@ -30,12 +30,12 @@ override LDLIBS += $(PC_LIBS) -lm
 
 BUILD ?= build
 CORE = buf decode unicode token lexicon norm pass_gender pass_noise pass_place \
-	reader tsv jsonw jsonr setup lang strtab postings tally_mem store_redis \
-	stats labels skos review slot cluster outfile
+	reader tsv jsonw jsonr setup lang fieldcheck strtab postings tally_mem store_redis \
+	stats labels skos review delta slot cluster outfile
 CLI = cli_norm cli_tally cli_rank propose cli_review main
 CORE_OBJ = $(CORE:%=$(BUILD)/%.o)
 CLI_OBJ = $(CLI:%=$(BUILD)/%.o)
-UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_norm test_reader test_tally test_stats test_review test_slot test_outfile
+UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_norm test_reader test_tally test_stats test_review test_slot test_outfile test_fieldcheck
 UNIT_BIN = $(UNIT_TESTS:%=$(BUILD)/%)
 
 all: titlemill
@@ -88,7 +88,7 @@ valgrind: titlemill $(UNIT_BIN) $(NTEST) $(G2CASES)
 
 # libFuzzer targets (clang): FUZZ_SECONDS each, corpus in build-fuzz/.
 FUZZ_SECONDS ?= 60
-FUZZ_TARGETS = fuzz_norm fuzz_postings fuzz_counts fuzz_labels fuzz_review
+FUZZ_TARGETS = fuzz_norm fuzz_postings fuzz_counts fuzz_labels fuzz_review fuzz_delta
 FUZZ_CC ?= clang
 FUZZ_FLAGS = -g -O1 -fsanitize=fuzzer,address,undefined -fno-sanitize-recover=all
 fuzz-build:
@@ -102,7 +102,7 @@ fuzz: fuzz-build
 		mkdir -p build-fuzz/corpus-$$t; \
 		sh tests/fuzz/seeds.sh $$t build-fuzz/corpus-$$t; \
 		TITLEMILL_LEXDIR=$(CURDIR)/lexicons build-fuzz/$$t -max_total_time=$(FUZZ_SECONDS) \
-			-max_len=$$(case $$t in fuzz_review) echo 4096;; *) echo 512;; esac) \
+			-max_len=$$(case $$t in fuzz_review|fuzz_delta) echo 4096;; *) echo 512;; esac) \
 			-print_final_stats=1 build-fuzz/corpus-$$t tests/fuzz/seeds-$$t \
 			2>&1 | tail -12; done
 

@@ -14,11 +14,12 @@
 #include <unistd.h>
 
 #include "cli.h"
+#include "delta.h"
+#include "fieldcheck.h"
 #include "jsonr.h"
 #include "outfile.h"
 #include "reader.h"
 #include "review.h"
-#include "skos.h"
 #include "store.h"
 
 static const char review_usage[] =
@@ -120,11 +121,6 @@ static int pick(const char *const *names, int n, const char *s)
 		if (!strcmp(names[i], s))
 			return i;
 	return -1;
-}
-
-static int plain_text(const char *s)
-{
-	return rq_plain_text(s, strlen(s));
 }
 
 /* Which options each subcommand takes. */
@@ -295,16 +291,32 @@ static int add_change(rq_queue *q, void *a0, tm_buf *err)
 {
 	add_arg *a = a0;
 	const char *p = a->lines.data;
+	tm_buf all = {0};
+	size_t bad = 0;
 	memset(&a->st, 0, sizeof a->st);
+	/* all or nothing, and every bad line named at once */
 	for (size_t i = 0; i < a->nlines; i++) {
 		const char *where = p;
 		const char *line = where + strlen(where) + 1;
 		size_t n = strlen(line);
-		if (rq_add(q, line, n, where, a->now, a->factor, &a->st, err))
-			return -1;
+		if (rq_add(q, line, n, where, a->now, a->factor, &a->st, err)) {
+			if (bad++)
+				buf_puts(&all, "\ntitlemill review: ");
+			buf_append(&all, err->data, err->len);
+		}
 		p = line + n + 1;
 	}
-	return 0;
+	if (bad) {
+		buf_reset(err);
+		buf_append(err, all.data, all.len);
+		if (bad > 1) {
+			char m[80];
+			snprintf(m, sizeof m, "\ntitlemill review: %zu bad suggestions", bad);
+			buf_puts(err, m);
+		}
+	}
+	buf_free(&all);
+	return bad ? -1 : 0;
 }
 
 /* Reads every input line first: a store transaction may run twice, and
@@ -484,9 +496,9 @@ static int check_reviewer(const char *r)
 		      stderr);
 		return -1;
 	}
-	if (!plain_text(r)) {
-		fputs("titlemill review: a reviewer's name must be UTF-8 without tabs, line ends or control characters\n",
-		      stderr);
+	char why[FC_WHY];
+	if (fc_name(r, strlen(r), why)) {
+		fprintf(stderr, "titlemill review: the reviewer's name %s\n", why);
 		return -1;
 	}
 	return 0;
@@ -501,8 +513,9 @@ static int sub_decide_ids(const review_opts *o, rq_place *pl, int d, int n, char
 		return usage_error("name the suggestions: their ids (or unique prefixes of 6 or more)", NULL);
 	if (check_reviewer(o->reviewer))
 		return EXIT_USAGE;
-	if (o->note && !plain_text(o->note))
-		return usage_error("a note must be UTF-8 without tabs, line ends or control characters", NULL);
+	char why[FC_WHY];
+	if (o->note && fc_note(o->note, strlen(o->note), why))
+		return usage_error("the note ", why);
 	a.now = now;
 	a.overrule = o->overrule;
 	for (int i = 0; i < n; i++) {
@@ -952,68 +965,6 @@ static int sub_stats(const rq_queue *q, const char *now)
 
 /* export */
 
-typedef struct delta {
-	const rq_item *it;
-	const rq_event *dec;
-	char *text;       /* the label to export */
-	char kind;        /* 'a' 'h', or the existing label's kind for a review */
-	int review;       /* rare_label, used_elsewhere: a label to look at */
-} delta;
-
-static int cmp_delta(const void *a, const void *b)
-{
-	const delta *x = a, *y = b;
-	int c;
-	if ((c = strcmp(x->it->occ, y->it->occ)) || (c = strcmp(x->it->lang, y->it->lang)))
-		return c;
-	if (x->review != y->review)
-		return x->review - y->review;
-	if (x->kind != y->kind)
-		return x->kind - y->kind;
-	if ((c = strcmp(x->text, y->text)))
-		return c;
-	return strcmp(x->it->id, y->it->id);
-}
-
-static const char *kind_word(char k)
-{
-	return k == 'p' ? "pref" : k == 'a' ? "alt" : "hidden";
-}
-
-/* An absolute IRI: a scheme (a letter, then letters, digits, + - .) and a
- * colon, and none of the characters an IRI reference may not hold. */
-static int is_iri(const char *s)
-{
-	const char *p = s;
-	if (!((*p >= 'a' && *p <= 'z') || (*p >= 'A' && *p <= 'Z')))
-		return 0;
-	while ((*p >= 'a' && *p <= 'z') || (*p >= 'A' && *p <= 'Z') || (*p >= '0' && *p <= '9') ||
-	       *p == '+' || *p == '-' || *p == '.')
-		p++;
-	if (*p != ':')
-		return 0;
-	for (p = s; *p; p++)
-		if ((unsigned char)*p <= 0x20 || strchr("<>\"{}|^`\\", *p))
-			return 0;
-	return 1;
-}
-
-static void reason(tm_buf *b, const delta *x)
-{
-	evid e;
-	char line[300];
-	evid_item(x->it, &e);
-	if (x->it->kind == RK_RARE)
-		snprintf(line, sizeof line, "rare: %llu of %llu postings of the occupation",
-			 (unsigned long long)x->it->postings, (unsigned long long)e.n);
-	else
-		snprintf(line, sizeof line, "used elsewhere: %s has %llu of its %llu postings",
-			 e.rival ? e.rival : "another occupation", (unsigned long long)e.rival_postings,
-			 (unsigned long long)e.kt);
-	buf_puts(b, line);
-	jr_free(e.d);
-}
-
 static int write_out(const char *path, const tm_buf *b)
 {
 	if (!path) {
@@ -1034,148 +985,23 @@ static int write_out(const char *path, const tm_buf *b)
 	return ok ? EXIT_OK : EXIT_RUNTIME;
 }
 
-/* The label an accepted suggestion adds: as the postings write it when
- * propose found it so (label_as_written), else the clean title. */
-static char *label_text(const rq_item *it, int clean)
-{
-	evid e;
-	size_t l = 0;
-	const char *w = NULL;
-	char *r;
-	evid_item(it, &e);
-	if (!clean)
-		w = jr_vstr(jr_get(e.v, "label_as_written"), &l);
-	r = w && l && !memchr(w, 0, l) ? strndup(w, l) : strdup(it->label);
-	jr_free(e.d);
-	return r;
-}
-
 static int sub_export(const review_opts *o, const rq_queue *q)
 {
-	delta *v = calloc(q->n + 1, sizeof *v);
-	size_t n = 0, nadd = 0;
-	tm_buf b = {0}, iri = {0};
-	long long since = o->since ? rq_time(o->since) : -1;
+	dl_opts d = {o->format, o->since ? rq_time(o->since) : -1, o->base, o->clean_case};
+	tm_buf b = {0}, err = {0};
 	int rc = EXIT_OK;
 
-	if (!v)
-		return fail("out of memory");
-	for (size_t i = 0; i < q->n; i++) {
-		const rq_item *it = &q->it[i];
-		const rq_event *dec = rq_last_decision(it);
-		if (it->status != RQ_ACCEPTED || !dec || (since >= 0 && rq_time(dec->at) < since))
-			continue;
-		delta *x = &v[n++];
-		x->it = it;
-		x->dec = dec;
-		x->review = it->kind == RK_RARE || it->kind == RK_ELSEWHERE;
-		x->text = label_text(it, o->clean_case);
-		if (!x->text) {
-			for (size_t k = 0; k < n; k++)
-				free(v[k].text);
-			free(v);
-			return fail("out of memory");
+	if (dl_export(q, &d, &b, &err)) {
+		/* one message a line */
+		for (char *p = err.data, *nl; p; p = nl ? nl + 1 : NULL) {
+			nl = strchr(p, '\n');
+			fprintf(stderr, "titlemill review: %.*s\n", (int)(nl ? nl - p : (long)strlen(p)), p);
 		}
-		if (!x->review) {
-			x->kind = it->kind == RK_ALT ? 'a' : 'h';
-			nadd++;
-		} else {
-			evid e;
-			evid_item(it, &e);
-			x->kind = e.label_kind && !strcmp(e.label_kind, "pref") ? 'p'
-				  : e.label_kind && !strcmp(e.label_kind, "hidden") ? 'h' : 'a';
-			jr_free(e.d);
-		}
-	}
-	qsort(v, n, sizeof *v, cmp_delta);
-	if (o->format == 0) {
-		buf_puts(&b, "occupation\tkind\tlang\tlabel\tchange\tid\treviewer\tdecided_at\tnote\treason\n");
-		for (size_t i = 0; i < n; i++) {
-			const delta *x = &v[i];
-			buf_puts(&b, x->it->occ);
-			buf_putc(&b, '\t');
-			buf_puts(&b, kind_word(x->kind));
-			buf_putc(&b, '\t');
-			buf_puts(&b, x->it->lang);
-			buf_putc(&b, '\t');
-			buf_puts(&b, x->text);
-			buf_puts(&b, x->review ? "\treview\t" : "\tadd\t");
-			buf_puts(&b, x->it->id);
-			buf_putc(&b, '\t');
-			buf_puts(&b, x->dec->reviewer);
-			buf_putc(&b, '\t');
-			buf_puts(&b, x->dec->at);
-			buf_putc(&b, '\t');
-			buf_puts(&b, x->dec->note ? x->dec->note : "");
-			buf_putc(&b, '\t');
-			if (x->review)
-				reason(&b, x);
-			buf_putc(&b, '\n');
-		}
-	} else {
-		skos_writer *w = skos_writer_new(&b, o->format == 2);
-		char head[200];
-		if (!w) {
-			free(v);
-			return fail("out of memory");
-		}
-		snprintf(head, sizeof head, "titlemill review export: %zu label%s to add", nadd,
-			 nadd == 1 ? "" : "s");
-		skos_write_comment(w, head);
-		for (size_t i = 0; i < n && rc == EXIT_OK; i++) {
-			const delta *x = &v[i];
-			if (x->review)
-				continue;
-			buf_reset(&iri);
-			if (!is_iri(x->it->occ)) {
-				if (!o->base) {
-					fprintf(stderr, "titlemill review: occupation '%s' is not an IRI; give --base IRI to make one\n",
-						x->it->occ);
-					rc = EXIT_RUNTIME;
-					break;
-				}
-				buf_puts(&iri, o->base);
-			}
-			buf_puts(&iri, x->it->occ);
-			if (!is_iri(iri.data)) {
-				fprintf(stderr, "titlemill review: '%s' is not an IRI\n", iri.data);
-				rc = EXIT_RUNTIME;
-				break;
-			}
-			if (skos_write_label(w, iri.data, x->kind, x->it->lang, x->text)) {
-				rc = fail("cannot write the SKOS export");
-				break;
-			}
-		}
-		/* labels to review are never deletions: a list for the curator */
-		for (size_t i = 0; i < n && rc == EXIT_OK; i++) {
-			const delta *x = &v[i];
-			tm_buf c = {0};
-			if (!x->review)
-				continue;
-			buf_puts(&c, "to review, not changed: ");
-			buf_puts(&c, x->it->occ);
-			buf_putc(&c, ' ');
-			buf_puts(&c, kind_word(x->kind));
-			buf_puts(&c, " \"");
-			buf_puts(&c, x->text);
-			buf_puts(&c, "\"@");
-			buf_puts(&c, x->it->lang);
-			buf_puts(&c, " - ");
-			reason(&c, x);
-			skos_write_comment(w, c.data);
-			buf_free(&c);
-		}
-		if (skos_writer_end(w) && rc == EXIT_OK)
-			rc = fail("cannot write the SKOS export");
-	}
-	if (rc == EXIT_OK)
+		rc = EXIT_RUNTIME;
+	} else
 		rc = write_out(o->out, &b);
-	for (size_t i = 0; i < n; i++)
-		free(v[i].text);
 	buf_free(&b);
-	buf_free(&iri);
-	free(v);
+	buf_free(&err);
 	return rc;
 }
 

@@ -13,6 +13,7 @@
 #include <unistd.h>
 
 #include "decode.h"
+#include "fieldcheck.h"
 #include "jsonr.h"
 #include "jsonw.h"
 #include "outfile.h"
@@ -651,6 +652,15 @@ int rq_add(rq_queue *q, const char *line, size_t n, const char *where, const cha
 	    get_score(v, "score", &score, where, err) ||
 	    get_count(v, "postings", &postings, where, err))
 		goto done;
+	/* every string that can reach an export, before anything changes */
+	const char *field;
+	char why[FC_WHY];
+	if (fc_suggestion(v, &field, why)) {
+		msg(err, where, "\"", field);
+		buf_puts(err, "\" ");
+		buf_puts(err, why);
+		goto done;
+	}
 
 	long at = q->index ? st_find(q->index, id, idl) : -1;
 	rq_item *it = at >= 0 ? &q->it[q->index->ent[at].count - 1] : NULL;
@@ -821,12 +831,8 @@ void rq_decisions_free(rq_decisions *ds)
 
 int rq_plain_text(const char *s, size_t n)
 {
-	if (!dec_is_utf8(s, n))
-		return 0;
-	for (size_t i = 0; i < n; i++)
-		if ((unsigned char)s[i] < 0x20 || s[i] == 0x7f)
-			return 0;
-	return 1;
+	char why[FC_WHY];
+	return !n || fc_text(s, n, (size_t)-1, why) == 0;
 }
 
 long rq_decisions_read(const char *path, const char *reviewer, rq_decisions *ds, FILE *report,
@@ -866,9 +872,16 @@ long rq_decisions_read(const char *path, const char *reviewer, rq_decisions *ds,
 		const char *why = !il ? "no id"
 				  : il > ID_MAX || !rq_plain_text(id, il) ? "that is not an id"
 				  : d < 0 ? NULL
-				  : !rl ? "no reviewer"
-				  : !rq_plain_text(rv, rl) || !rq_plain_text(nt, nl) ? "invalid UTF-8 or control characters in the reviewer or the note"
-								     : "";
+				  : !rl ? "no reviewer" : "";
+		char w[FC_WHY];
+		const char *field = !why || *why ? NULL
+				    : fc_name(rv, rl, w) ? "the reviewer"
+				    : fc_note(nt, nl, w) ? "the note" : NULL;
+		if (field) {
+			fprintf(report, "titlemill review: %s: %s %s\n", where, field, w);
+			bad++;
+			continue;
+		}
 		if (!why) {
 			fprintf(report, "titlemill review: %s: the decision is accept, reject or defer, not '%.*s'\n",
 				where, (int)(dl > 40 ? 40 : dl), dw);

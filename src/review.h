@@ -165,8 +165,9 @@ typedef struct rq_decisions {
 	size_t n;
 } rq_decisions;
 
-/* Whether s[0..n) may be a reviewer's name or a note: valid UTF-8 with
- * no control characters (they end up in TSV and JSON). */
+/* Whether s[0..n) is empty or plain text by fieldcheck.h's fc_text:
+ * valid UTF-8 without control characters or line separators (ids of a
+ * decisions file; names and notes get fc_name and fc_note). */
 int rq_plain_text(const char *s, size_t n);
 
 /* Appends a zeroed decision; NULL when out of memory. */

@@ -7,6 +7,8 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "fieldcheck.h"
+
 #define SKOS "http://www.w3.org/2004/02/skos/core#"
 
 typedef struct rd {
@@ -16,6 +18,7 @@ typedef struct rd {
 	tm_buf *err;
 	const char *path;
 	int failed;
+	size_t statements;
 } rd;
 
 static SerdStatus on_base(void *h, const SerdNode *uri)
@@ -42,6 +45,7 @@ static SerdStatus on_statement(void *h, SerdStatementFlags flags, const SerdNode
 	(void)flags;
 	(void)graph;
 	(void)datatype;
+	r->statements++;
 
 	if (object->type != SERD_LITERAL || !lang || !lang->n_bytes)
 		return SERD_SUCCESS;
@@ -91,12 +95,20 @@ static SerdStatus on_error(void *h, const SerdError *e)
 
 int skos_read(const char *path, skos_label_fn fn, void *ctx, tm_buf *err)
 {
+	size_t n;
+	return skos_read_count(path, fn, ctx, &n, err);
+}
+
+int skos_read_count(const char *path, skos_label_fn fn, void *ctx, size_t *statements,
+		    tm_buf *err)
+{
 	size_t n = strlen(path);
 	SerdSyntax syn = n > 3 && !strcmp(path + n - 3, ".nt") ? SERD_NTRIPLES : SERD_TURTLE;
 	rd r = {0};
 	SerdReader *reader;
 	SerdStatus st;
 
+	*statements = 0;
 	buf_reset(err);
 	r.env = serd_env_new(NULL);
 	r.fn = fn;
@@ -115,6 +127,7 @@ int skos_read(const char *path, skos_label_fn fn, void *ctx, tm_buf *err)
 	st = serd_reader_read_file(reader, (const uint8_t *)path);
 	serd_reader_free(reader);
 	serd_env_free(r.env);
+	*statements = r.statements;
 	if (st != SERD_SUCCESS || r.failed) {
 		if (!err->len) {
 			char m[600];
@@ -180,9 +193,20 @@ int skos_write_label(skos_writer *sw, const char *iri, char kind, const char *la
 {
 	const char *pred = kind == 'p' ? SKOS "prefLabel" : kind == 'a' ? SKOS "altLabel"
 									: SKOS "hiddenLabel";
+	char why[FC_WHY];
+	/* serd writes a language tag and an IRI's characters as they come:
+	 * what could end the statement early is refused here */
+	if (fc_lang(lang, strlen(lang), why) || fc_occupation(iri, strlen(iri), why) ||
+	    fc_text(text, strlen(text), (size_t)-1, why))
+		return -1;
 	SerdNode s = serd_node_from_string(SERD_URI, (const uint8_t *)iri);
 	SerdNode p = serd_node_from_string(SERD_URI, (const uint8_t *)pred);
 	SerdNode o = serd_node_from_string(SERD_LITERAL, (const uint8_t *)text);
+	/* always a short string with its quotes escaped: serd 0.30 writes a
+	 * label holding a quote as a long string, and its own reader refuses
+	 * a long string in which a quote meets an escape (a label ending in
+	 * two quotes is written """a"\"""" and read no more) */
+	o.flags = 0;
 	SerdNode l = serd_node_from_string(SERD_LITERAL, (const uint8_t *)lang);
 	if (serd_writer_write_statement(sw->w, 0, NULL, &s, &p, &o, NULL, &l) || sw->failed)
 		return -1;
@@ -191,6 +215,10 @@ int skos_write_label(skos_writer *sw, const char *iri, char kind, const char *la
 
 int skos_write_comment(skos_writer *sw, const char *text)
 {
+	char why[FC_WHY];
+	/* a comment ends at the line's end: one inside would start a statement */
+	if (fc_text(text, strlen(text), (size_t)-1, why))
+		return -1;
 	/* serd 0.30 has no comment call: close the pending statement first */
 	serd_writer_finish(sw->w);
 	return buf_puts(sw->out, "# ") || buf_puts(sw->out, text) || buf_putc(sw->out, '\n') ? -1 : 0;

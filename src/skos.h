@@ -16,10 +16,18 @@ typedef int (*skos_label_fn)(void *ctx, const char *occ, size_t ol, char kind,
  * 0, or -1 with a message "file:line:col: what" in err (a syntax error,
  * or what the callback refused). */
 int skos_read(const char *path, skos_label_fn fn, void *ctx, tm_buf *err);
+/* skos_read, and the number of statements read, labels or not, in
+ * *statements. */
+int skos_read_count(const char *path, skos_label_fn fn, void *ctx, size_t *statements,
+		    tm_buf *err);
 
 /* Writing labels as SKOS: Turtle (with the skos: prefix) or N-Triples,
  * appended to out (borrowed until skos_writer_end).  A comment line is
- * written as "# text".  kind is 'p', 'a' or 'h'.  Return 0 or -1. */
+ * written as "# text".  kind is 'p', 'a' or 'h'.  Return 0 or -1; -1
+ * also when a string could break out of its place (fieldcheck.h: an
+ * IRI that is not of IRI characters, a tag that is not BCP 47, a
+ * control character or line separator in a label or a comment), and
+ * then nothing is written. */
 typedef struct skos_writer skos_writer;
 skos_writer *skos_writer_new(tm_buf *out, int ntriples);
 int skos_write_label(skos_writer *w, const char *iri, char kind, const char *lang,
