@@ -15,6 +15,9 @@
  *   P:{k:NN}:L    set   the ledger of that key-total shard
  *   P:{i:NN}:i    hash  posting id -> the chunk that counts it (16 hex
  *                       digits of its digest), spread over 64 keys
+ *   P:{j:D}:j     hash  the journal of chunk D (32 hex digits): its
+ *                       postings, while it is being loaded (below)
+ *   P:{j}:open    set   the digests of the journals there are
  *   P:{r}:items   hash  review queue: suggestion id -> the item, one JSON
  *                       line (the same line as in a queue file)
  *   P:{r}:log     stream review events in the order they happened:
@@ -23,6 +26,8 @@
  *
  * Why a chunk counts exactly once, on one server or on a cluster (where
  * a script may touch the keys of one slot only):
+ *  0. Journal.  The chunk's postings are written to its journal, whole,
+ *     before anything else; the journal is deleted after step 3.
  *  1. Claim.  For each id shard, one script gives every new id of the
  *     chunk to the chunk (HSET id digest unless the id has an owner) and
  *     answers which ids the chunk owns.  Ownership is first come, first
@@ -39,7 +44,15 @@
  * A share is thus applied at most once (its ledger, in its slot), and a
  * rerun of what was cut off applies what is missing: steps 1 and 2 give
  * the same shares every time.  An id owned by another chunk was counted
- * there (republished), whichever loader got there first.
+ * there (republished), whichever loader got there first -- or will be:
+ * a chunk cut off after step 1 has its journal left, and every load
+ * ends by running such chunks again from their journals (steps 1 to 3
+ * as the same chunk), so their ids are counted even when the input
+ * that held them changed and will never give that chunk again.
+ *
+ * Within one run, the k-th chunk with the same digest as an earlier one
+ * of that run (an input repeated) is committed under the digest mixed
+ * with k (cli_tally.c), so inputs of one run are distinct, as in memory.
  *
  * With a time to live (tally --ttl), the scripts renew it on every key
  * they touch, so the keys of a tag expire together, some time after the
@@ -61,6 +74,7 @@
 #include <time.h>
 
 #include "cluster.h"
+#include "postings.h"
 #include "slot.h"
 #include "token.h"
 
@@ -592,8 +606,8 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint6
 		const char *lang = get(&p, &ll), *key = get(&p, &kl), *title = get(&p, &tl),
 			   *ex = get(&p, &xl);
 		uint32_t nocc;
-		const char *occ[64];
-		size_t occlen[64];
+		const char *occ[PR_MAXOCC];
+		size_t occlen[PR_MAXOCC];
 		char lg[4] = {0};
 		memcpy(&nocc, p, sizeof nocc);
 		p += sizeof nocc;
@@ -792,10 +806,58 @@ done:
  * went through.  Running it twice at once is harmless for the same
  * reason, so a load may finish a chunk another loader is still busy
  * with.  The writes are idempotent too: two loaders of one chunk write
- * the same bytes under the same fields. */
+ * the same bytes under the same fields.
+ *
+ * P:{j}:open, a set, lists the digests of the journals (added before a
+ * journal is written, removed after it is deleted), so a load finds them
+ * without scanning the keyspace.  An entry without its journal is a
+ * journal not written yet, or gone already: left to its loader. */
 #define JOURNAL_PIECE (1u << 20)
-static int scan_keys(rstore *r, const char *rest,
-		     int (*fn)(rstore *r, void *ctx, const char *k, size_t kl), void *ctx);
+#define JOURNAL_MAX_PIECES 1000000 /* 1 TiB: more is not a journal of ours */
+
+/* Whether p..p+n is a chunk buffer as r_add writes them: every length
+ * within the buffer, at most PR_MAXOCC occupations a posting (what
+ * attempt() relies on); a journal is read from the server. */
+static int chunk_ok(const char *p, size_t n)
+{
+	const char *end = p + n;
+	while (p < end) {
+		/* id, has-id byte, lang, key, title, example, occupations */
+		for (int f = 0; f < 7; f++) {
+			uint32_t l;
+			if (f == 1) {
+				if (end - p < 1)
+					return 0;
+				p++; /* has an id */
+				continue;
+			}
+			if ((size_t)(end - p) < sizeof l)
+				return 0;
+			memcpy(&l, p, sizeof l);
+			p += sizeof l;
+			if (f == 6) {
+				/* the number of occupations, then each */
+				if (l > PR_MAXOCC)
+					return 0;
+				for (uint32_t k = 0; k < l; k++) {
+					uint32_t ol;
+					if ((size_t)(end - p) < sizeof ol)
+						return 0;
+					memcpy(&ol, p, sizeof ol);
+					p += sizeof ol;
+					if ((size_t)(end - p) < ol)
+						return 0;
+					p += ol;
+				}
+			} else {
+				if ((size_t)(end - p) < l)
+					return 0;
+				p += l;
+			}
+		}
+	}
+	return 1;
+}
 static const char journal_magic[4] = {'T', 'M', 'J', '1'};
 
 static int journal_key(rstore *r, const char *dg, tm_buf *kb)
@@ -807,7 +869,35 @@ static int journal_key(rstore *r, const char *dg, tm_buf *kb)
 		       : 0;
 }
 
-static int journal_write(rstore *r, const tm_buf *key)
+/* SADD (add) or SREM the digest dg in P:{j}:open. */
+static int journal_index(rstore *r, int add, const char *dg)
+{
+	tm_buf kb = {0};
+	int rc = -1;
+	if (buf_puts(&kb, r->prefix) || buf_puts(&kb, ":{j}:open")) {
+		rerr(r, "out of memory", NULL);
+		goto done;
+	}
+	const char *av[3] = {add ? "SADD" : "SREM", kb.data, dg};
+	size_t al[3] = {4, kb.len, 32};
+	redisReply *rep = cmd(r, 3, av, al);
+	if (!rep)
+		goto done;
+	freeReplyObject(rep);
+	if (add && strcmp(r->ttl, "0")) {
+		const char *ev[3] = {"EXPIRE", kb.data, r->ttl};
+		size_t el[3] = {6, kb.len, strlen(r->ttl)};
+		if (!(rep = cmd(r, 3, ev, el)))
+			goto done;
+		freeReplyObject(rep);
+	}
+	rc = 0;
+done:
+	buf_free(&kb);
+	return rc;
+}
+
+static int journal_write(rstore *r, const tm_buf *key, const char *dg)
 {
 	size_t npiece = (r->chunk.len + JOURNAL_PIECE - 1) / JOURNAL_PIECE, n = npiece + 3, i;
 	rc_cmd *cmds = calloc(n, sizeof *cmds);
@@ -825,6 +915,8 @@ static int journal_write(rstore *r, const tm_buf *key)
 		rerr(r, "out of memory", NULL);
 		goto done;
 	}
+	if (journal_index(r, 1, dg) != 0)
+		goto done;
 	/* HSET of the pieces 0 (the header) to npiece; then of "n", and the
 	 * time to live */
 	for (i = 0; i < npiece + 2 + (size_t)ttl; i++) {
@@ -865,7 +957,7 @@ done:
 	return rc;
 }
 
-static int journal_drop(rstore *r, const tm_buf *key)
+static int journal_drop(rstore *r, const tm_buf *key, const char *dg)
 {
 	const char *av[2] = {"DEL", key->data};
 	size_t al[2] = {3, key->len};
@@ -873,7 +965,7 @@ static int journal_drop(rstore *r, const tm_buf *key)
 	if (!rep)
 		return -1;
 	freeReplyObject(rep);
-	return 0;
+	return journal_index(r, 0, dg);
 }
 
 static int r_commit(store *st, const uint64_t digest[2], int *applied)
@@ -894,10 +986,10 @@ static int r_commit(store *st, const uint64_t digest[2], int *applied)
 	}
 	r->nattempt++;
 	/* the router waits out short outages and failovers itself */
-	rc = journal_write(r, &key);
+	rc = journal_write(r, &key, dg);
 	if (rc == 0)
 		rc = attempt(r, digest, &counted, &repub);
-	if (rc >= 0 && journal_drop(r, &key) != 0)
+	if (rc >= 0 && journal_drop(r, &key, dg) != 0)
 		rc = -1;
 	buf_free(&key);
 	if (rc < 0)
@@ -912,12 +1004,6 @@ static int r_commit(store *st, const uint64_t digest[2], int *applied)
 	buf_reset(&r->chunk);
 	r->nchunk = 0;
 	return 0;
-}
-
-static int collect_key(rstore *r, void *ctx, const char *k, size_t kl)
-{
-	(void)r;
-	return st_add(ctx, k, kl, 0, NULL) < 0 ? -1 : 0;
 }
 
 /* Reads journal key into r->chunk: 1 done, 0 incomplete (no "n" yet) or
@@ -941,6 +1027,10 @@ static int journal_read(rstore *r, const char *key, size_t kl)
 	freeReplyObject(rep);
 	errno = 0;
 	n = strtoul(nb, &e, 10);
+	if (errno || e == nb || *e || n > JOURNAL_MAX_PIECES) {
+		rerr(r, "a chunk's journal is unreadable (its piece count)", key);
+		return -1;
+	}
 	buf_reset(&r->chunk);
 	r->nchunk = 0;
 	for (unsigned long i = 0; i <= n; i++) {
@@ -964,10 +1054,14 @@ static int journal_read(rstore *r, const char *key, size_t kl)
 			return -1;
 		}
 		freeReplyObject(rep);
-		if (!ok || errno || *e) {
+		if (!ok) {
 			rerr(r, "a chunk's journal is unreadable (written by another kind of machine?)", key);
 			return -1;
 		}
+	}
+	if (!chunk_ok(r->chunk.data, r->chunk.len)) {
+		rerr(r, "a chunk's journal is unreadable (its postings)", key);
+		return -1;
 	}
 	r->nchunk = 1;
 	return 1;
@@ -976,45 +1070,48 @@ static int journal_read(rstore *r, const char *key, size_t kl)
 static int r_settle(store *st)
 {
 	rstore *r = (rstore *)st;
-	strtab keys = {0};
-	size_t pl = strlen(r->prefix);
-	int rc = 0;
+	tm_buf kb = {0};
+	redisReply *open = NULL;
+	int rc = -1;
 
 	if (r->nchunk) {
 		rerr(r, "a chunk is still buffered", NULL);
 		return -1;
 	}
-	if (scan_keys(r, ":{j:*}:j", collect_key, &keys) != 0) {
-		if (!r->base.err.len)
-			rerr(r, "out of memory", NULL);
-		st_free(&keys);
-		return -1;
+	if (buf_puts(&kb, r->prefix) || buf_puts(&kb, ":{j}:open")) {
+		rerr(r, "out of memory", NULL);
+		goto done;
 	}
-	for (size_t i = 0; i < keys.n && !rc; i++) {
-		size_t kl;
-		const char *k = st_key(&keys, i, &kl);
+	const char *av[2] = {"SMEMBERS", kb.data};
+	size_t al[2] = {8, kb.len};
+	if (!(open = cmd(r, 2, av, al)))
+		goto done;
+	if (open->type != REDIS_REPLY_ARRAY) {
+		rerr(r, "unexpected reply to SMEMBERS", kb.data);
+		goto done;
+	}
+	rc = 0;
+	for (size_t i = 0; i < open->elements && !rc; i++) {
+		const redisReply *e = open->element[i];
 		uint64_t digest[2], counted, repub;
-		char h[17] = {0}, *e1, *e2;
-		tm_buf key = {0};
-		if (kl != pl + 39)
-			continue; /* not a journal of ours */
-		memcpy(h, k + pl + 4, 16);
+		char h[17] = {0}, dg[33] = {0}, *e1, *e2;
+		if (e->type != REDIS_REPLY_STRING || e->len != 32 ||
+		    strspn(e->str, "0123456789abcdef") != 32)
+			continue; /* not one of ours */
+		memcpy(dg, e->str, 32);
+		memcpy(h, dg, 16);
 		digest[0] = strtoull(h, &e1, 16);
-		memcpy(h, k + pl + 20, 16);
+		memcpy(h, dg + 16, 16);
 		digest[1] = strtoull(h, &e2, 16);
-		if (*e1 || *e2)
-			continue;
-		if (buf_append(&key, k, kl) || buf_putc(&key, 0)) {
-			buf_free(&key);
+		if (journal_key(r, dg, &kb)) {
 			rerr(r, "out of memory", NULL);
 			rc = -1;
 			break;
 		}
-		key.len = kl;
-		int got = journal_read(r, key.data, key.len);
+		int got = journal_read(r, kb.data, kb.len);
 		if (got == 1) {
 			int a = attempt(r, digest, &counted, &repub);
-			if (a < 0 || journal_drop(r, &key) != 0)
+			if (a < 0 || journal_drop(r, &kb, dg) != 0)
 				rc = -1;
 			else {
 				st->settled++;
@@ -1024,9 +1121,11 @@ static int r_settle(store *st)
 			rc = -1;
 		buf_reset(&r->chunk);
 		r->nchunk = 0;
-		buf_free(&key);
 	}
-	st_free(&keys);
+done:
+	if (open)
+		freeReplyObject(open);
+	buf_free(&kb);
 	return rc;
 }
 

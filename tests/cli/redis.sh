@@ -38,7 +38,12 @@ redis-cli -s "$tmp/a/sock" flushall > /dev/null
 # a loader killed with SIGKILL in the middle, then run again: exact
 $T tally --store "$S" --chunk 100 "$tmp/p.tsv" 2>/dev/null &
 pid=$!
-sleep 0.4
+# (once its first ids are in, however busy the machine)
+for i in $(seq 100); do
+	[ -n "$(redis-cli -s "$tmp/a/sock" --scan --pattern 'titlemill:{i:*' | head -1)" ] && break
+	sleep 0.05
+done
+sleep 0.2
 kill -9 $pid 2>/dev/null; wait $pid 2>/dev/null
 # (part of the postings are in: the ids claimed so far, over the 64 shards)
 part=0
@@ -119,6 +124,21 @@ for stage in claim apply; do
 	$T counts --store "$S" | cmp -s - "$tmp/k.mem"; check "rerun-$stage-exact" 0 $?
 	redis-cli -s "$tmp/a/sock" flushall > /dev/null
 done
+
+# a journal that is not one of ours (bad header, postings cut short):
+# the load stops with status 1 naming it, and does not read past its end
+jk='bj:{j:0123456789abcdef0123456789abcdef}:j'
+redis-cli -s "$tmp/a/sock" sadd 'bj:{j}:open' 0123456789abcdef0123456789abcdef > /dev/null
+printf 'TMJ1\004\003\002\001' | redis-cli -s "$tmp/a/sock" -x hset "$jk" 0 > /dev/null
+printf '\377\377\000\000ab' | redis-cli -s "$tmp/a/sock" -x hset "$jk" 1 > /dev/null
+redis-cli -s "$tmp/a/sock" hset "$jk" n 1 > /dev/null
+$T tally --store "$S" --prefix bj "$tmp/day1" 2> "$tmp/err"; check bad-journal-status 1 $?
+grep -qF "a chunk's journal is unreadable (its postings): $jk" "$tmp/err"; check bad-journal-msg 0 $?
+printf 'XXXX\004\003\002\001' | redis-cli -s "$tmp/a/sock" -x hset "$jk" 0 > /dev/null
+$T tally --store "$S" --prefix bj "$tmp/day1" 2> "$tmp/err"; check bad-journal-header-status 1 $?
+grep -qF "a chunk's journal is unreadable (written by another kind of machine?): $jk" "$tmp/err"
+check bad-journal-header-msg 0 $?
+redis-cli -s "$tmp/a/sock" flushall > /dev/null
 
 # files are distinct inputs within a run, as in memory: two identical
 # files without ids (or one named twice) count twice in both; the same
