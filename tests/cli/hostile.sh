@@ -418,7 +418,11 @@ redis-cli -s "$rd/sock" flushall > /dev/null
 # out named, a few lines (no storm); a reader of a gone server likewise
 $T tally --store "$S" --chunk 20 --retries 1 "$tmp/r.tsv" 2> "$tmp/err" &
 pid=$!
-sleep 0.3
+# (once the load has begun, however slow the build: ASan)
+for i in $(seq 100); do
+	[ "$(redis-cli -s "$rd/sock" dbsize 2>/dev/null)" -gt 0 ] 2>/dev/null && break
+	sleep 0.05
+done
 redis-cli -s "$rd/sock" shutdown nosave > /dev/null 2>&1
 wait $pid; check gone-status 1 $?
 msg gone "$S"
