@@ -32,6 +32,10 @@ static inline void cli_tally_posting(tally_posting *tp, const posting *p,
 	tp->nocc = p->nocc;
 }
 
+/* A --prefix value for a store: 0, or EXIT_USAGE after saying on
+ * standard error, as "titlemill CMD: --prefix: ...", what is wrong. */
+int cli_check_prefix(const char *cmd, const char *prefix);
+
 int cmd_norm(int argc, char **argv);
 int cmd_tally(int argc, char **argv);
 int cmd_counts(int argc, char **argv);

@@ -366,7 +366,11 @@ int cmd_coverage(int argc, char **argv)
 			c.only_lang = lang;
 			break;
 		case 'S': surl = optarg; break;
-		case 'P': sc.prefix = optarg; break;
+		case 'P':
+			if (cli_check_prefix("coverage", optarg))
+				return EXIT_USAGE;
+			sc.prefix = optarg;
+			break;
 		case 'x':
 			if (so.nextra == 16)
 				return EXIT_USAGE;

@@ -47,12 +47,16 @@ static const char tally_usage[] =
 	"input.  A posting id counted once is not counted again.\n"
 	"\n"
 	"  --store URL      add the counts to a Redis server or a Redis Cluster:\n"
-	"                   redis://[user@]host:port[,host:port...][/db] or unix:/path\n"
-	"                   (password: TITLEMILL_REDIS_PASSWORD); a file loaded twice,\n"
-	"                   or a load killed and run again, counts once\n"
+	"                   redis://[user@]host:port[,host:port...][/db], [::1]:port for\n"
+	"                   IPv6, or unix:/path (no rediss://: this build has no TLS);\n"
+	"                   give the password in TITLEMILL_REDIS_PASSWORD, not in the\n"
+	"                   URL (ps shows it as *, but a shell's history keeps it);\n"
+	"                   a file loaded again, or a load killed and run again, counts\n"
+	"                   once (within one run every input counts, as in memory)\n"
 	"  --ttl DAYS       the store's counting keys expire DAYS days after the last\n"
 	"                   load that touched them (default: they stay)\n"
-	"  --prefix P       the store's key prefix (default titlemill)\n"
+	"  --prefix P       the store's key prefix (default titlemill): 1 to 64 letters,\n"
+	"                   digits and . _ : -\n"
 	"  --chunk N        postings per atomic chunk (default 10000)\n"
 	"  --retries N      reconnect attempts after a lost connection (default 5)\n"
 	"  --format F       auto (default: '{' first means JSON Lines), tsv or jsonl\n"
@@ -109,6 +113,41 @@ done:
 	return rc;
 }
 
+int cli_check_prefix(const char *cmd, const char *prefix)
+{
+	tm_buf err = {0};
+	if (store_prefix_check(prefix, &err) == 0)
+		return 0;
+	fprintf(stderr, "titlemill %s: --prefix: %.*s\n", cmd, (int)err.len, err.data ? err.data : "");
+	buf_free(&err);
+	return EXIT_USAGE;
+}
+
+/* Commits the store's chunk under its digest in this run.  A chunk is
+ * known by the digest of its content (and of everything before it in its
+ * input), so the same input loaded again -- a rerun after a kill, a
+ * reload -- changes nothing.  But within one run every input counts, as
+ * in memory: the k-th chunk of this run with the same content digest
+ * (an input named twice, or two identical files) gets the digest mixed
+ * with k, so identical inputs of one run are distinct chunks, and the
+ * same run again gives the same digests.  seen: digest -> chunks so far. */
+static int commit_chunk(store *st, const uint64_t dg[2], strtab *seen, int *applied)
+{
+	size_t i;
+	uint64_t d[2] = {dg[0], dg[1]};
+	if (st_add(seen, (const char *)dg, sizeof d, 1, &i) < 0) {
+		buf_reset(&st->err);
+		buf_puts(&st->err, "out of memory");
+		return -1;
+	}
+	uint64_t k = seen->ent[i].count - 1;
+	if (k) {
+		d[0] = tok_hash_mix(d[0] ^ 0xC0FFEE, k);
+		d[1] = tok_hash_mix(d[1], k * 0x9E3779B97F4A7C15ULL);
+	}
+	return st->ops->commit(st, d, applied);
+}
+
 static int parse_memo(const char *arg, long *v)
 {
 	char *end;
@@ -152,6 +191,7 @@ int cmd_tally(int argc, char **argv)
 	store *st = NULL;
 	tm_buf err = {0};
 	tally_mem m;
+	strtab seen = {0};
 	badlog bl;
 	lexicon *lx;
 	normaliser *nm;
@@ -169,7 +209,11 @@ int cmd_tally(int argc, char **argv)
 		switch (c) {
 		case 'S': o.store = optarg; break;
 		case 'T': o.stats = 1; break;
-		case 'P': o.sconf.prefix = optarg; break;
+		case 'P':
+			if (cli_check_prefix("tally", optarg))
+				return EXIT_USAGE;
+			o.sconf.prefix = optarg;
+			break;
 		case 'C':
 			if (num_opt(optarg, 1, 10000000, &o.chunk) != 0) {
 				fprintf(stderr, "titlemill tally: --chunk: want a number from 1 to 10000000, not '%s'\n", optarg);
@@ -345,7 +389,7 @@ int cmd_tally(int argc, char **argv)
 				}
 				if (++inchunk == o.chunk) {
 					int applied;
-					if (st->ops->commit(st, dg, &applied) != 0) {
+					if (commit_chunk(st, dg, &seen, &applied) != 0) {
 						fprintf(stderr, "titlemill tally: %.*s; %s:%ld was being loaded: every chunk before it is counted, the one at hand is not; run the same load again to finish it\n",
 							(int)st->err.len, st->err.data, pr.lr.name, p.line);
 						rc = EXIT_RUNTIME;
@@ -372,7 +416,7 @@ int cmd_tally(int argc, char **argv)
 		}
 		if (st && rc == EXIT_OK && inchunk) {
 			int applied;
-			if (st->ops->commit(st, dg, &applied) != 0) {
+			if (commit_chunk(st, dg, &seen, &applied) != 0) {
 				fprintf(stderr, "titlemill tally: %.*s; the end of %s was being loaded: run the same load again to finish it\n",
 					(int)st->err.len, st->err.data, pr.lr.name);
 				rc = EXIT_RUNTIME;
@@ -382,6 +426,22 @@ int cmd_tally(int argc, char **argv)
 	}
 	if (tty && last != t0)
 		fputc('\n', stderr);
+	if (st && rc == EXIT_OK) {
+		/* chunks other loads left unfinished (killed, or still at work) */
+		if (st->ops->settle(st) != 0) {
+			fprintf(stderr, "titlemill tally: %.*s; every input is counted, but chunks that "
+				"earlier loads left unfinished are not: run the load again\n",
+				(int)st->err.len, st->err.data);
+			rc = EXIT_RUNTIME;
+		}
+		if (st->settled)
+			fprintf(stderr, "titlemill tally: warning: the store held %llu chunks that a load "
+				"had begun and not finished (it was killed, or is still running); "
+				"they are finished now as they were read then, %llu postings more counted: "
+				"if their input changed since, its changed postings are counted as they were "
+				"(compare the load's files; see README, Long runs)\n",
+				(unsigned long long)st->settled, (unsigned long long)st->settled_postings);
+	}
 	if (st) {
 		fprintf(stderr, "titlemill tally: %llu chunks applied, %llu already in the store; ",
 			(unsigned long long)st->applied, (unsigned long long)st->skipped);
@@ -406,6 +466,7 @@ int cmd_tally(int argc, char **argv)
 		fprintf(stderr, "%s %s", k ? ";" : ":", bl.first[k]);
 	fprintf(stderr, "%s\n", bl.n > 5 ? "; ..." : "");
 	tm_free(&m);
+	st_free(&seen);
 	norm_free(nm);
 	lex_free(lx);
 	buf_free(&err);
@@ -432,7 +493,11 @@ int cmd_counts(int argc, char **argv)
 		switch (c) {
 		case 'o': out = optarg; break;
 		case 'S': surl = optarg; break;
-		case 'P': sc.prefix = optarg; break;
+		case 'P':
+			if (cli_check_prefix("counts", optarg))
+				return EXIT_USAGE;
+			sc.prefix = optarg;
+			break;
 		case 'h': fputs(counts_usage, stdout); return EXIT_OK;
 		default: fputs(counts_usage, stderr); return EXIT_USAGE;
 		}
@@ -446,7 +511,11 @@ int cmd_counts(int argc, char **argv)
 				buf_append(&err, st->err.data, st->err.len);
 			}
 			rc = EXIT_RUNTIME;
-		}
+		} else if (st->unfinished)
+			fprintf(stderr, "titlemill counts: warning: %llu chunks of a load are not finished "
+				"(killed, or still running), so the counts are not all in: the next tally "
+				"with this store and prefix finishes them\n",
+				(unsigned long long)st->unfinished);
 		store_close(st);
 	} else if (optind >= argc && tm_read(&m, "-", &err) != 0)
 		rc = EXIT_RUNTIME;

@@ -43,7 +43,8 @@ static void kerr(rcluster *k, const rc_node *nd, const char *what, const char *d
 	if (nd && nd->path)
 		snprintf(where, sizeof where, "unix:%s", nd->path);
 	else if (nd)
-		snprintf(where, sizeof where, "%s:%d", nd->host, nd->port);
+		snprintf(where, sizeof where, strchr(nd->host, ':') ? "[%s]:%d" : "%s:%d",
+			 nd->host, nd->port);
 	else
 		snprintf(where, sizeof where, "%s", k->name ? k->name : "the store");
 	snprintf(m, sizeof m, "%s: %s%s%s", where, what, detail ? ": " : "", detail ? detail : "");

@@ -452,7 +452,11 @@ int cmd_propose(int argc, char **argv)
 		case 'O': only_occ = optarg; break;
 		case 'l': bad = lang_tag(optarg, lang); only_lang = lang; break;
 		case 'S': surl = optarg; break;
-		case 'P': sc.prefix = optarg; break;
+		case 'P':
+			if (cli_check_prefix("propose", optarg))
+				return EXIT_USAGE;
+			sc.prefix = optarg;
+			break;
 		case 'x':
 			if (so.nextra < 16)
 				so.extra[so.nextra++] = optarg;

@@ -35,7 +35,13 @@ typedef struct store_ops {
 	int (*add)(store *st, const tally_posting *p);
 	/* Applies the buffered chunk; *applied is 0 when the store had it. */
 	int (*commit)(store *st, const uint64_t digest[2], int *applied);
-	/* Adds everything the store holds to m. */
+	/* Finishes the chunks that loads left unfinished (cut off between
+	 * claiming their ids and applying their last share), from what the
+	 * store journalled of them: st->settled of them, st->settled_postings
+	 * postings counted now.  Called at the end of a load. */
+	int (*settle)(store *st);
+	/* Adds everything the store holds to m; st->unfinished counts the
+	 * chunks left unfinished (their counts are not all in). */
 	int (*dump)(store *st, tally_mem *m);
 	void (*close)(store *st);
 
@@ -53,10 +59,21 @@ struct store {
 	const store_ops *ops;
 	tm_buf err;
 	uint64_t counted, republished, applied, skipped; /* postings, chunks */
+	uint64_t settled, settled_postings, unfinished;  /* chunks, postings, chunks */
 };
 
+/* The longest key prefix, and its characters: letters, digits and
+ * . _ : - (no glob characters for SCAN MATCH, no braces that would change
+ * a key's Redis Cluster hash tag, nothing cut short). */
+#define STORE_PREFIX_MAX 64
+
+/* 0 when p is a valid key prefix, else -1 with the reason in err. */
+int store_prefix_check(const char *p, tm_buf *err);
+
 typedef struct store_conf {
-	const char *prefix;  /* all keys start with it; default "titlemill" */
+	const char *prefix;  /* all keys start with it; default "titlemill";
+			      * store_open refuses one store_prefix_check
+			      * refuses */
 	int retries;         /* reconnect attempts after a failure (default 5) */
 	int timeout_ms;      /* connect and reply timeout (default 5000) */
 	long long ttl_s;     /* > 0: the counting keys a load touches expire

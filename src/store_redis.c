@@ -15,6 +15,9 @@
  *   P:{k:NN}:L    set   the ledger of that key-total shard
  *   P:{i:NN}:i    hash  posting id -> the chunk that counts it (16 hex
  *                       digits of its digest), spread over 64 keys
+ *   P:{j:D}:j     hash  the journal of chunk D (32 hex digits): its
+ *                       postings, while it is being loaded (below)
+ *   P:{j}:open    set   the digests of the journals there are
  *   P:{r}:items   hash  review queue: suggestion id -> the item, one JSON
  *                       line (the same line as in a queue file)
  *   P:{r}:log     stream review events in the order they happened:
@@ -23,6 +26,8 @@
  *
  * Why a chunk counts exactly once, on one server or on a cluster (where
  * a script may touch the keys of one slot only):
+ *  0. Journal.  The chunk's postings are written to its journal, whole,
+ *     before anything else; the journal is deleted after step 3.
  *  1. Claim.  For each id shard, one script gives every new id of the
  *     chunk to the chunk (HSET id digest unless the id has an owner) and
  *     answers which ids the chunk owns.  Ownership is first come, first
@@ -39,7 +44,15 @@
  * A share is thus applied at most once (its ledger, in its slot), and a
  * rerun of what was cut off applies what is missing: steps 1 and 2 give
  * the same shares every time.  An id owned by another chunk was counted
- * there (republished), whichever loader got there first.
+ * there (republished), whichever loader got there first -- or will be:
+ * a chunk cut off after step 1 has its journal left, and every load
+ * ends by running such chunks again from their journals (steps 1 to 3
+ * as the same chunk), so their ids are counted even when the input
+ * that held them changed and will never give that chunk again.
+ *
+ * Within one run, the k-th chunk with the same digest as an earlier one
+ * of that run (an input repeated) is committed under the digest mixed
+ * with k (cli_tally.c), so inputs of one run are distinct, as in memory.
  *
  * With a time to live (tally --ttl), the scripts renew it on every key
  * they touch, so the keys of a tag expire together, some time after the
@@ -53,12 +66,15 @@
 #include "store.h"
 
 #include <errno.h>
+#include <signal.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
+#include <strings.h>
 #include <time.h>
 
 #include "cluster.h"
+#include "postings.h"
 #include "slot.h"
 #include "token.h"
 
@@ -77,6 +93,13 @@ static const char claim_script[] =
 	"if tonumber(ARGV[2]) > 0 then redis.call('EXPIRE', k, ARGV[2]) end\n"
 	"return out\n";
 
+/* The largest count the store holds: Redis counts are signed 64-bit
+ * (HINCRBY stops at 2^63 - 1), and a script stopped half way would apply
+ * half a share; so each share is checked first, whole (in decimal, not
+ * in the scripts' doubles), and refused whole if a count would pass
+ * this bound. */
+#define STORE_COUNT_MAX_S "9000000000000000000"
+
 /* Step 3: KEYS[1] the tag's ledger, ARGV[1] the chunk's digest, ARGV[2]
  * the time to live of the tag's keys (0: none); then H and H triples
  * (key index, field, increment); then E and E groups (key index, field,
@@ -85,6 +108,24 @@ static const char apply_script[] =
 	"if redis.call('SISMEMBER', KEYS[1], ARGV[1]) == 1 then return 0 end\n"
 	"local i = 3\n"
 	"local H = tonumber(ARGV[i]); i = i + 1\n"
+	"local function over(a, b)\n"
+	"  if #a < 18 and #b < 18 then return false end\n"
+	"  local r, c, x, y = {}, 0, #a, #b\n"
+	"  while x > 0 or y > 0 or c > 0 do\n"
+	"    local d = c + (x > 0 and a:byte(x) - 48 or 0) + (y > 0 and b:byte(y) - 48 or 0)\n"
+	"    r[#r + 1] = d % 10; c = (d - d % 10) / 10; x = x - 1; y = y - 1\n"
+	"  end\n"
+	"  local s = string.reverse(table.concat(r))\n"
+	"  return #s > 19 or (#s == 19 and s > '" STORE_COUNT_MAX_S "')\n"
+	"end\n"
+	"for h = 1, H do\n"
+	"  local k, f = KEYS[tonumber(ARGV[i])], ARGV[i + 1]\n"
+	"  if over(redis.call('HGET', k, f) or '0', ARGV[i + 2]) then\n"
+	"    return redis.error_reply('a count would pass " STORE_COUNT_MAX_S ", the most the store holds: ' .. k .. ' ' .. f)\n"
+	"  end\n"
+	"  i = i + 3\n"
+	"end\n"
+	"i = 4\n"
 	"for h = 1, H do\n"
 	"  redis.call('HINCRBY', KEYS[tonumber(ARGV[i])], ARGV[i + 1], ARGV[i + 2]); i = i + 3\n"
 	"end\n"
@@ -114,7 +155,7 @@ typedef struct rstore {
 	store base;
 	rcluster k;
 	char *name;
-	char prefix[128];
+	char prefix[STORE_PREFIX_MAX + 1];
 	char sha_claim[41], sha_apply[41];
 	char ttl[24];           /* seconds, as the scripts take it */
 	/* the current chunk: postings as records in one buffer */
@@ -123,6 +164,11 @@ typedef struct rstore {
 	strtab exbound;         /* per title: 1 + the largest example hash the
 				 * store can still hold, as this load knows it */
 	tm_buf pending;
+	/* test hook (TITLEMILL_TEST_KILL=claim:N or apply:N): the process
+	 * kills itself with SIGKILL after the claims of its N-th chunk, or
+	 * after half of that chunk's shares */
+	int kill_stage;         /* 0 none, 1 claim, 2 apply */
+	long kill_at, nattempt;
 } rstore;
 
 static void rerr(rstore *r, const char *what, const char *detail)
@@ -246,6 +292,40 @@ static int r_add(store *st, const tally_posting *p)
 		}
 	r->nchunk++;
 	return 0;
+}
+
+int store_prefix_check(const char *p, tm_buf *err)
+{
+	size_t n = strlen(p);
+	char m[160];
+	if (!n || n > STORE_PREFIX_MAX) {
+		snprintf(m, sizeof m, "a key prefix has 1 to %d characters, not %zu", STORE_PREFIX_MAX, n);
+		buf_puts(err, m);
+		return -1;
+	}
+	for (size_t i = 0; i < n; i++) {
+		unsigned char c = (unsigned char)p[i];
+		if (!((c >= 'a' && c <= 'z') || (c >= 'A' && c <= 'Z') || (c >= '0' && c <= '9') ||
+		      c == '.' || c == '_' || c == ':' || c == '-')) {
+			snprintf(m, sizeof m, "a key prefix is made of letters, digits and . _ : - "
+				 "(character %zu is not)", i + 1);
+			buf_puts(err, m);
+			return -1;
+		}
+	}
+	return 0;
+}
+
+/* The SCAN MATCH pattern of the keys prefix + rest, where rest is a
+ * glob: the prefix's characters are escaped, so whatever it holds it
+ * matches only itself. */
+static int match_pattern(const char *prefix, const char *rest, tm_buf *out)
+{
+	buf_reset(out);
+	for (const char *c = prefix; *c; c++)
+		if ((strchr("*?[]\\", *c) && buf_putc(out, '\\')) || buf_putc(out, *c))
+			return -1;
+	return buf_puts(out, rest);
 }
 
 int store_key_occ(const char *prefix, const char *occ, size_t ol, char suffix, tm_buf *kb)
@@ -394,6 +474,12 @@ static int run_batch(rstore *r, rc_cmd *cmds, size_t n, long long *ints, const c
 	return rc;
 }
 
+static void hexdigest(const uint64_t digest[2], char dg[40])
+{
+	snprintf(dg, 40, "%016llx%016llx", (unsigned long long)digest[0],
+		 (unsigned long long)digest[1]);
+}
+
 /* Applies the buffered chunk: 1 applied (some share was new), 0 every
  * share was in its ledger, -1 failure (message set). */
 static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint64_t *repub)
@@ -415,8 +501,7 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint6
 	tm_init(&agg);
 	*counted = *repub = 0;
 	buf_reset(&r->pending);
-	snprintf(dg, sizeof dg, "%016llx%016llx", (unsigned long long)digest[0],
-		 (unsigned long long)digest[1]);
+	hexdigest(digest, dg);
 	memcpy(owner, dg, 16);
 	owner[16] = 0;
 
@@ -510,6 +595,8 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint6
 		ncmd = 0;
 	}
 	free(shkeys);
+	if (r->kill_stage == 1 && r->nattempt == r->kill_at)
+		raise(SIGKILL);
 
 	/* 2. aggregate the postings the chunk owns */
 	for (p = r->chunk.data, end = p + r->chunk.len; p < end;) {
@@ -519,8 +606,8 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint6
 		const char *lang = get(&p, &ll), *key = get(&p, &kl), *title = get(&p, &tl),
 			   *ex = get(&p, &xl);
 		uint32_t nocc;
-		const char *occ[64];
-		size_t occlen[64];
+		const char *occ[PR_MAXOCC];
+		size_t occlen[PR_MAXOCC];
 		char lg[4] = {0};
 		memcpy(&nocc, p, sizeof nocc);
 		p += sizeof nocc;
@@ -650,6 +737,10 @@ static int attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint6
 			av[q] = get(&x, &al[q]);
 		cmds[ncmd] = (rc_cmd){(int)q, av, al, c->slot, NULL};
 	}
+	if (r->kill_stage == 2 && r->nattempt == r->kill_at) {
+		run_batch(r, cmds, ncmd / 2, res, "the server refused a chunk");
+		raise(SIGKILL);
+	}
 	int brc = run_batch(r, cmds, ncmd, res, "the server refused a chunk");
 	free(nums);
 	if (brc)
@@ -701,17 +792,206 @@ done:
 	return rc;
 }
 
+/* ---- the journal ----
+ * Before a chunk claims anything, its postings go to its journal,
+ * P:{j:DIGEST}:j, a hash: "0" a header (magic and byte order), "1".."n"
+ * the chunk buffer in pieces of at most JOURNAL_PIECE bytes, then "n" = n
+ * (written last: a journal without it is incomplete, and its chunk has
+ * claimed nothing yet).  When every share of the chunk is applied, the
+ * journal is deleted.  A journal left behind is a chunk that was cut off
+ * between its claims and its last share -- the only time ids are owned
+ * by a chunk whose counts are not all in.  Any later load (settle) runs
+ * it again from the journal exactly as it was: it claims as the same
+ * chunk (so it owns the same ids), and the ledgers skip the shares that
+ * went through.  Running it twice at once is harmless for the same
+ * reason, so a load may finish a chunk another loader is still busy
+ * with.  The writes are idempotent too: two loaders of one chunk write
+ * the same bytes under the same fields.
+ *
+ * P:{j}:open, a set, lists the digests of the journals (added before a
+ * journal is written, removed after it is deleted), so a load finds them
+ * without scanning the keyspace.  An entry without its journal is a
+ * journal not written yet, or gone already: left to its loader. */
+#define JOURNAL_PIECE (1u << 20)
+#define JOURNAL_MAX_PIECES 1000000 /* 1 TiB: more is not a journal of ours */
+
+/* Whether p..p+n is a chunk buffer as r_add writes them: every length
+ * within the buffer, at most PR_MAXOCC occupations a posting (what
+ * attempt() relies on); a journal is read from the server. */
+static int chunk_ok(const char *p, size_t n)
+{
+	const char *end = p + n;
+	while (p < end) {
+		/* id, has-id byte, lang, key, title, example, occupations */
+		for (int f = 0; f < 7; f++) {
+			uint32_t l;
+			if (f == 1) {
+				if (end - p < 1)
+					return 0;
+				p++; /* has an id */
+				continue;
+			}
+			if ((size_t)(end - p) < sizeof l)
+				return 0;
+			memcpy(&l, p, sizeof l);
+			p += sizeof l;
+			if (f == 6) {
+				/* the number of occupations, then each */
+				if (l > PR_MAXOCC)
+					return 0;
+				for (uint32_t k = 0; k < l; k++) {
+					uint32_t ol;
+					if ((size_t)(end - p) < sizeof ol)
+						return 0;
+					memcpy(&ol, p, sizeof ol);
+					p += sizeof ol;
+					if ((size_t)(end - p) < ol)
+						return 0;
+					p += ol;
+				}
+			} else {
+				if ((size_t)(end - p) < l)
+					return 0;
+				p += l;
+			}
+		}
+	}
+	return 1;
+}
+static const char journal_magic[4] = {'T', 'M', 'J', '1'};
+
+static int journal_key(rstore *r, const char *dg, tm_buf *kb)
+{
+	buf_reset(kb);
+	return buf_puts(kb, r->prefix) || buf_puts(kb, ":{j:") || buf_append(kb, dg, 32) ||
+			       buf_puts(kb, "}:j")
+		       ? -1
+		       : 0;
+}
+
+/* SADD (add) or SREM the digest dg in P:{j}:open. */
+static int journal_index(rstore *r, int add, const char *dg)
+{
+	tm_buf kb = {0};
+	int rc = -1;
+	if (buf_puts(&kb, r->prefix) || buf_puts(&kb, ":{j}:open")) {
+		rerr(r, "out of memory", NULL);
+		goto done;
+	}
+	const char *av[3] = {add ? "SADD" : "SREM", kb.data, dg};
+	size_t al[3] = {4, kb.len, 32};
+	redisReply *rep = cmd(r, 3, av, al);
+	if (!rep)
+		goto done;
+	freeReplyObject(rep);
+	if (add && strcmp(r->ttl, "0")) {
+		const char *ev[3] = {"EXPIRE", kb.data, r->ttl};
+		size_t el[3] = {6, kb.len, strlen(r->ttl)};
+		if (!(rep = cmd(r, 3, ev, el)))
+			goto done;
+		freeReplyObject(rep);
+	}
+	rc = 0;
+done:
+	buf_free(&kb);
+	return rc;
+}
+
+static int journal_write(rstore *r, const tm_buf *key, const char *dg)
+{
+	size_t npiece = (r->chunk.len + JOURNAL_PIECE - 1) / JOURNAL_PIECE, n = npiece + 3, i;
+	rc_cmd *cmds = calloc(n, sizeof *cmds);
+	char (*fld)[24] = calloc(n, sizeof *fld);
+	const char **avs = calloc(n * 4, sizeof *avs);
+	size_t *als = calloc(n * 4, sizeof *als);
+	unsigned char head[8];
+	uint32_t order = 0x01020304;
+	unsigned slot = slot_of(key->data, key->len);
+	int ttl = strcmp(r->ttl, "0") != 0, rc = -1;
+
+	memcpy(head, journal_magic, 4);
+	memcpy(head + 4, &order, 4);
+	if (!cmds || !fld || !avs || !als) {
+		rerr(r, "out of memory", NULL);
+		goto done;
+	}
+	if (journal_index(r, 1, dg) != 0)
+		goto done;
+	/* HSET of the pieces 0 (the header) to npiece; then of "n", and the
+	 * time to live */
+	for (i = 0; i < npiece + 2 + (size_t)ttl; i++) {
+		const char **a = avs + 4 * i;
+		size_t *l = als + 4 * i;
+		a[0] = "HSET", l[0] = 4;
+		a[1] = key->data, l[1] = key->len;
+		if (i == 0)
+			a[2] = "0", l[2] = 1, a[3] = (const char *)head, l[3] = sizeof head;
+		else if (i <= npiece) {
+			size_t off = (i - 1) * (size_t)JOURNAL_PIECE, left = r->chunk.len - off;
+			snprintf(fld[i], sizeof fld[i], "%zu", i);
+			a[2] = fld[i], l[2] = strlen(fld[i]);
+			a[3] = r->chunk.data + off, l[3] = left < JOURNAL_PIECE ? left : JOURNAL_PIECE;
+		} else if (i == npiece + 1) {
+			snprintf(fld[i], sizeof fld[i], "%zu", npiece);
+			a[2] = "n", l[2] = 1, a[3] = fld[i], l[3] = strlen(fld[i]);
+		} else {
+			a[0] = "EXPIRE", l[0] = 6;
+			a[2] = r->ttl, l[2] = strlen(r->ttl);
+		}
+		cmds[i] = (rc_cmd){i == npiece + 2 ? 3 : 4, a, l, slot, NULL};
+	}
+	/* every piece is in before "n" is written */
+	if (run_batch(r, cmds, npiece + 1, NULL, "the server refused the chunk's journal") == 0 &&
+	    run_batch(r, cmds + npiece + 1, 1 + (size_t)ttl, NULL,
+		      "the server refused the chunk's journal") == 0)
+		rc = 0;
+done:
+	if (cmds)
+		for (i = 0; i < n; i++)
+			if (cmds[i].reply)
+				freeReplyObject(cmds[i].reply);
+	free(cmds);
+	free(fld);
+	free(avs);
+	free(als);
+	return rc;
+}
+
+static int journal_drop(rstore *r, const tm_buf *key, const char *dg)
+{
+	const char *av[2] = {"DEL", key->data};
+	size_t al[2] = {3, key->len};
+	redisReply *rep = cmd(r, 2, av, al);
+	if (!rep)
+		return -1;
+	freeReplyObject(rep);
+	return journal_index(r, 0, dg);
+}
+
 static int r_commit(store *st, const uint64_t digest[2], int *applied)
 {
 	rstore *r = (rstore *)st;
 	uint64_t counted, repub;
+	tm_buf key = {0};
+	char dg[40];
 	int rc;
 
 	*applied = 0;
 	if (!r->nchunk)
 		return 0;
+	hexdigest(digest, dg);
+	if (journal_key(r, dg, &key)) {
+		rerr(r, "out of memory", NULL);
+		return -1;
+	}
+	r->nattempt++;
 	/* the router waits out short outages and failovers itself */
-	rc = attempt(r, digest, &counted, &repub);
+	rc = journal_write(r, &key, dg);
+	if (rc == 0)
+		rc = attempt(r, digest, &counted, &repub);
+	if (rc >= 0 && journal_drop(r, &key, dg) != 0)
+		rc = -1;
+	buf_free(&key);
 	if (rc < 0)
 		return -1;
 	if (rc == 1) {
@@ -724,6 +1004,129 @@ static int r_commit(store *st, const uint64_t digest[2], int *applied)
 	buf_reset(&r->chunk);
 	r->nchunk = 0;
 	return 0;
+}
+
+/* Reads journal key into r->chunk: 1 done, 0 incomplete (no "n" yet) or
+ * gone, -1 failure (message set). */
+static int journal_read(rstore *r, const char *key, size_t kl)
+{
+	const char *av[3] = {"HGET", key, "n"};
+	size_t al[3] = {4, kl, 1};
+	redisReply *rep = cmd(r, 3, av, al);
+	unsigned long n;
+	char nb[24], *e;
+	uint32_t order = 0x01020304;
+
+	if (!rep)
+		return -1;
+	if (rep->type != REDIS_REPLY_STRING) {
+		freeReplyObject(rep);
+		return 0;
+	}
+	snprintf(nb, sizeof nb, "%.*s", (int)rep->len, rep->str);
+	freeReplyObject(rep);
+	errno = 0;
+	n = strtoul(nb, &e, 10);
+	if (errno || e == nb || *e || n > JOURNAL_MAX_PIECES) {
+		rerr(r, "a chunk's journal is unreadable (its piece count)", key);
+		return -1;
+	}
+	buf_reset(&r->chunk);
+	r->nchunk = 0;
+	for (unsigned long i = 0; i <= n; i++) {
+		snprintf(nb, sizeof nb, "%lu", i);
+		av[2] = nb, al[2] = strlen(nb);
+		if (!(rep = cmd(r, 3, av, al)))
+			return -1;
+		if (rep->type == REDIS_REPLY_NIL) {
+			/* its loader finished it meanwhile and dropped the journal */
+			freeReplyObject(rep);
+			buf_reset(&r->chunk);
+			return 0;
+		}
+		int ok = rep->type == REDIS_REPLY_STRING;
+		if (ok && i == 0)
+			ok = rep->len == 8 && !memcmp(rep->str, journal_magic, 4) &&
+			     !memcmp(rep->str + 4, &order, 4);
+		else if (ok && buf_append(&r->chunk, rep->str, rep->len)) {
+			freeReplyObject(rep);
+			rerr(r, "out of memory", NULL);
+			return -1;
+		}
+		freeReplyObject(rep);
+		if (!ok) {
+			rerr(r, "a chunk's journal is unreadable (written by another kind of machine?)", key);
+			return -1;
+		}
+	}
+	if (!chunk_ok(r->chunk.data, r->chunk.len)) {
+		rerr(r, "a chunk's journal is unreadable (its postings)", key);
+		return -1;
+	}
+	r->nchunk = 1;
+	return 1;
+}
+
+static int r_settle(store *st)
+{
+	rstore *r = (rstore *)st;
+	tm_buf kb = {0};
+	redisReply *open = NULL;
+	int rc = -1;
+
+	if (r->nchunk) {
+		rerr(r, "a chunk is still buffered", NULL);
+		return -1;
+	}
+	if (buf_puts(&kb, r->prefix) || buf_puts(&kb, ":{j}:open")) {
+		rerr(r, "out of memory", NULL);
+		goto done;
+	}
+	const char *av[2] = {"SMEMBERS", kb.data};
+	size_t al[2] = {8, kb.len};
+	if (!(open = cmd(r, 2, av, al)))
+		goto done;
+	if (open->type != REDIS_REPLY_ARRAY) {
+		rerr(r, "unexpected reply to SMEMBERS", kb.data);
+		goto done;
+	}
+	rc = 0;
+	for (size_t i = 0; i < open->elements && !rc; i++) {
+		const redisReply *e = open->element[i];
+		uint64_t digest[2], counted, repub;
+		char h[17] = {0}, dg[33] = {0}, *e1, *e2;
+		if (e->type != REDIS_REPLY_STRING || e->len != 32 ||
+		    strspn(e->str, "0123456789abcdef") != 32)
+			continue; /* not one of ours */
+		memcpy(dg, e->str, 32);
+		memcpy(h, dg, 16);
+		digest[0] = strtoull(h, &e1, 16);
+		memcpy(h, dg + 16, 16);
+		digest[1] = strtoull(h, &e2, 16);
+		if (journal_key(r, dg, &kb)) {
+			rerr(r, "out of memory", NULL);
+			rc = -1;
+			break;
+		}
+		int got = journal_read(r, kb.data, kb.len);
+		if (got == 1) {
+			int a = attempt(r, digest, &counted, &repub);
+			if (a < 0 || journal_drop(r, &kb, dg) != 0)
+				rc = -1;
+			else {
+				st->settled++;
+				st->settled_postings += a == 1 ? counted : 0;
+			}
+		} else if (got < 0)
+			rc = -1;
+		buf_reset(&r->chunk);
+		r->nchunk = 0;
+	}
+done:
+	if (open)
+		freeReplyObject(open);
+	buf_free(&kb);
+	return rc;
 }
 
 /* ---- reading back ---- */
@@ -795,20 +1198,27 @@ static int scan_hash(rstore *r, const char *key, size_t kl, int kind, const char
 	return 0;
 }
 
-static int r_dump(store *st, tally_mem *m)
+/* Calls fn(ctx, key, length) for every key of every master that is the
+ * prefix followed by what the glob rest matches; stops at fn's first
+ * non-zero value and returns it (-1 with the message set on failure). */
+static int scan_keys(rstore *r, const char *rest,
+		     int (*fn)(rstore *r, void *ctx, const char *k, size_t kl), void *ctx)
 {
-	rstore *r = (rstore *)st;
-	char match[160];
+	tm_buf match = {0};
 	size_t pl = strlen(r->prefix);
+	int rc = 0;
 
-	snprintf(match, sizeof match, "%s:*", r->prefix);
+	if (match_pattern(r->prefix, rest, &match)) {
+		rerr(r, "out of memory", NULL);
+		return -1;
+	}
 	/* every master holds its share of the keys */
-	for (size_t mi = 0; rc_master(&r->k, mi); mi++) {
+	for (size_t mi = 0; !rc && rc_master(&r->k, mi); mi++) {
 		size_t node = rc_master(&r->k, mi) - 1;
 		char cursor[32] = "0";
 		do {
-			const char *av[6] = {"SCAN", cursor, "MATCH", match, "COUNT", "1000"};
-			size_t al[6] = {4, strlen(cursor), 5, strlen(match), 5, 4};
+			const char *av[6] = {"SCAN", cursor, "MATCH", match.data, "COUNT", "1000"};
+			size_t al[6] = {4, strlen(cursor), 5, match.len, 5, 4};
 			redisContext *c = rc_node_conn(&r->k, node);
 			redisReply *rep = c ? rc_command(c, 6, av, al) : NULL;
 			if (!rep) {
@@ -816,33 +1226,48 @@ static int r_dump(store *st, tally_mem *m)
 					rerr(r, "lost the connection", c->errstr);
 				else
 					kerr_up(r);
-				return -1;
+				rc = -1;
+				break;
 			}
 			if (rep->type != REDIS_REPLY_ARRAY || rep->elements != 2) {
 				rerr(r, "unexpected reply to SCAN", rep->type == REDIS_REPLY_ERROR ? rep->str : NULL);
 				freeReplyObject(rep);
-				return -1;
+				rc = -1;
+				break;
 			}
 			snprintf(cursor, sizeof cursor, "%.*s", (int)rep->element[0]->len, rep->element[0]->str);
 			redisReply *a = rep->element[1];
-			for (size_t i = 0; i < a->elements; i++) {
+			for (size_t i = 0; i < a->elements && !rc; i++) {
 				const char *k = a->element[i]->str;
 				size_t kl = a->element[i]->len;
-				int rc = 0;
-				if (kl > pl + 7 && !memcmp(k + pl, ":{o:", 4) && k[kl - 3] == '}' &&
-				    k[kl - 2] == ':' && strchr("fnx", k[kl - 1]))
-					rc = scan_hash(r, k, kl, k[kl - 1], k + pl + 4, kl - pl - 7, m);
-				else if (kl == pl + 9 && !memcmp(k + pl, ":{k:", 4) && k[kl - 1] == 'k')
-					rc = scan_hash(r, k, kl, 'k', NULL, 0, m);
-				if (rc) {
-					freeReplyObject(rep);
-					return -1;
-				}
+				/* (the pattern is escaped; the prefix checked all the same) */
+				if (kl > pl && !memcmp(k, r->prefix, pl) && k[pl] == ':')
+					rc = fn(r, ctx, k, kl);
 			}
 			freeReplyObject(rep);
-		} while (strcmp(cursor, "0"));
+		} while (!rc && strcmp(cursor, "0"));
 	}
+	buf_free(&match);
+	return rc;
+}
+
+static int dump_key(rstore *r, void *ctx, const char *k, size_t kl)
+{
+	tally_mem *m = ctx;
+	size_t pl = strlen(r->prefix);
+	if (kl > pl + 7 && !memcmp(k + pl, ":{o:", 4) && k[kl - 3] == '}' &&
+	    k[kl - 2] == ':' && strchr("fnx", k[kl - 1]))
+		return scan_hash(r, k, kl, k[kl - 1], k + pl + 4, kl - pl - 7, m);
+	if (kl == pl + 9 && !memcmp(k + pl, ":{k:", 4) && k[kl - 1] == 'k')
+		return scan_hash(r, k, kl, 'k', NULL, 0, m);
+	if (kl == pl + 39 && !memcmp(k + pl, ":{j:", 4))
+		r->base.unfinished++;
 	return 0;
+}
+
+static int r_dump(store *st, tally_mem *m)
+{
+	return scan_keys((rstore *)st, ":*", dump_key, m) ? -1 : 0;
 }
 
 static void r_close(store *st)
@@ -1022,16 +1447,37 @@ done:
 	return rc;
 }
 
-static const store_ops redis_ops = {r_add, r_commit, r_dump, r_close, r_rq_load, r_rq_commit};
+static const store_ops redis_ops = {r_add, r_commit, r_settle, r_dump, r_close, r_rq_load,
+				    r_rq_commit};
 
 /* redis://[user:password@]host:port[,host:port...][/db] or unix:/path;
  * several host:port are the seeds of a cluster (one is enough: the
- * router finds the others). */
+ * router finds the others).  A host may be an IPv6 address in brackets,
+ * [::1]:6379. */
 typedef struct seeds {
 	char *host[16], *path[16];
 	int port[16];
 	size_t n;
 } seeds;
+
+static const char url_forms[] =
+	"a store is redis://[user:password@]host:port[,host:port...][/db] or unix:/path";
+
+/* Puts url into err for a message, its user-info (which may hold a
+ * password) replaced by "...@". */
+static void url_shown(const char *url, tm_buf *err)
+{
+	const char *at = strrchr(url, '@');
+	if (!at) {
+		buf_puts(err, url);
+		return;
+	}
+	const char *sch = strstr(url, "://");
+	if (sch && sch < at)
+		buf_append(err, url, (size_t)(sch + 3 - url));
+	buf_puts(err, "...");
+	buf_puts(err, at);
+}
 
 static int parse_url(rstore *r, const char *url, seeds *sd, tm_buf *err)
 {
@@ -1048,9 +1494,17 @@ static int parse_url(rstore *r, const char *url, seeds *sd, tm_buf *err)
 		r->name = strdup(url);
 		return sd->path[0] && r->name ? 0 : -1;
 	}
-	if (strncmp(url, "redis://", 8)) {
-		buf_puts(err, "a store is redis://[user:password@]host:port[,host:port...][/db] or unix:/path, not '");
-		buf_puts(err, url);
+	if (!strncasecmp(url, "rediss://", 9)) {
+		/* hiredis 0.14 (Debian 12) has no TLS: better no store than a
+		 * password and the counts sent in the clear */
+		buf_puts(err, "rediss:// (TLS) is not supported by this build: reach the server over "
+			      "a Unix socket or a TLS tunnel (e.g. stunnel) and give redis:// or unix: here");
+		return -1;
+	}
+	if (strncasecmp(url, "redis://", 8)) {
+		buf_puts(err, url_forms);
+		buf_puts(err, ", not '");
+		url_shown(url, err);
 		buf_puts(err, "'");
 		return -1;
 	}
@@ -1071,10 +1525,28 @@ static int parse_url(rstore *r, const char *url, seeds *sd, tm_buf *err)
 	while (p < hosts_end) {
 		const char *comma = memchr(p, ',', (size_t)(hosts_end - p));
 		const char *he = comma ? comma : hosts_end;
-		const char *colon = NULL;
-		for (const char *q = p; q < he; q++)
-			if (*q == ':')
-				colon = q;
+		const char *colon = NULL, *hs = p, *hz;
+		if (*p == '[') {
+			/* [IPv6]:port */
+			const char *rb = memchr(p, ']', (size_t)(he - p));
+			if (!rb || rb == p + 1 || rb + 1 == he || rb[1] != ':') {
+				buf_puts(err, "redis:// wants [IPv6 address]:port");
+				return -1;
+			}
+			for (const char *q = p + 1; q < rb; q++)
+				if (!strchr("0123456789abcdefABCDEF:.", *q)) {
+					buf_puts(err, "redis:// wants an IPv6 address between [ and ]");
+					return -1;
+				}
+			hs = p + 1;
+			hz = rb;
+			colon = rb + 1;
+		} else {
+			for (const char *q = p; q < he; q++)
+				if (*q == ':')
+					colon = q;
+			hz = colon;
+		}
 		if (!colon || colon == p) {
 			buf_puts(err, "redis:// wants host:port");
 			return -1;
@@ -1089,7 +1561,7 @@ static int parse_url(rstore *r, const char *url, seeds *sd, tm_buf *err)
 			buf_puts(err, "redis:// port must be a number from 1 to 65535");
 			return -1;
 		}
-		sd->host[sd->n] = strndup(p, (size_t)(colon - p));
+		sd->host[sd->n] = strndup(hs, (size_t)(hz - hs));
 		sd->port[sd->n++] = (int)port;
 		p = comma ? comma + 1 : hosts_end;
 	}
@@ -1107,13 +1579,12 @@ static int parse_url(rstore *r, const char *url, seeds *sd, tm_buf *err)
 		r->k.db = (int)db;
 	}
 	/* the name in messages never shows the password */
-	char nm[300];
+	char nm[300], db[16] = "";
+	int v6 = strchr(sd->host[0], ':') != NULL;
 	if (r->k.db)
-		snprintf(nm, sizeof nm, "redis://%s:%d%s/%d", sd->host[0], sd->port[0],
-			 sd->n > 1 ? ",..." : "", r->k.db);
-	else
-		snprintf(nm, sizeof nm, "redis://%s:%d%s", sd->host[0], sd->port[0],
-			 sd->n > 1 ? ",..." : "");
+		snprintf(db, sizeof db, "/%d", r->k.db);
+	snprintf(nm, sizeof nm, "redis://%s%s%s:%d%s%s", v6 ? "[" : "", sd->host[0], v6 ? "]" : "",
+		 sd->port[0], sd->n > 1 ? ",..." : "", db);
 	r->name = strdup(nm);
 	return r->name ? 0 : -1;
 }
@@ -1133,9 +1604,18 @@ store *store_open(const char *url, const store_conf *conf, tm_buf *err)
 	r->k.retries = conf && conf->retries >= 0 ? conf->retries : 5;
 	r->k.timeout_ms = conf && conf->timeout_ms > 0 ? conf->timeout_ms : 5000;
 	r->k.on_connect = load_scripts;
+	const char *kill = getenv("TITLEMILL_TEST_KILL");
+	if (kill && (!strncmp(kill, "claim:", 6) || !strncmp(kill, "apply:", 6))) {
+		r->kill_stage = kill[0] == 'c' ? 1 : 2;
+		r->kill_at = strtol(kill + 6, NULL, 10);
+	}
 	r->k.ctx = r;
-	snprintf(r->prefix, sizeof r->prefix, "%s",
-		 conf && conf->prefix ? conf->prefix : "titlemill");
+	const char *prefix = conf && conf->prefix ? conf->prefix : "titlemill";
+	if (store_prefix_check(prefix, err) != 0) {
+		r_close(&r->base);
+		return NULL;
+	}
+	memcpy(r->prefix, prefix, strlen(prefix) + 1);
 	snprintf(r->ttl, sizeof r->ttl, "%lld", conf && conf->ttl_s > 0 ? conf->ttl_s : 0LL);
 	if (parse_url(r, url, &sd, err) != 0) {
 		r_close(&r->base);

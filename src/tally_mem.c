@@ -347,16 +347,25 @@ done:
 
 /* ---- reading ---- */
 
+/* A count: every value tm_write can write (0 to 2^64 - 1) reads back.
+ * Returns 0, -1 when s is not a whole number, -2 when it is past 2^64 - 1. */
 static int parse_count(const char *s, size_t n, uint64_t *v)
 {
 	uint64_t x = 0;
-	if (n == 0 || n > 19)
+	int big = 0;
+	if (n == 0)
 		return -1;
 	for (size_t i = 0; i < n; i++) {
 		if (s[i] < '0' || s[i] > '9')
 			return -1;
-		x = x * 10 + (uint64_t)(s[i] - '0');
+		uint64_t d = (uint64_t)(s[i] - '0');
+		if (x > (UINT64_MAX - d) / 10)
+			big = 1;
+		else
+			x = x * 10 + d;
 	}
+	if (big)
+		return -2;
 	*v = x;
 	return 0;
 }
@@ -436,8 +445,9 @@ int tm_read(tally_mem *m, const char *path, tm_buf *err)
 			break;
 		}
 #define IS(w) (kn == strlen(w) && !memcmp(k, w, kn))
-		if (!IS("example") && parse_count(p, pn, &n) != 0) {
-			r = bad(err, t.lr.name, line, "postings is not a whole number");
+		if (!IS("example") && (rc = parse_count(p, pn, &n)) != 0) {
+			r = bad(err, t.lr.name, line, rc == -2 ? "postings is past 18446744073709551615 (2^64 - 1)"
+							       : "postings is not a whole number");
 			break;
 		}
 		if (IS("occupation"))

@@ -258,7 +258,20 @@ grep -q 'hostile.jsonl: 11 malformed rows skipped in all' "$tmp/err"; check json
 # ---- huge numbers in counts tables ----
 printf 'kind\toccupation\tlang\tkey\ttext\tpostings\nkey\t\tde\tkoch\t\t99999999999999999999\n' > "$tmp/huge.counts"
 run huge-count 1 $T counts "$tmp/huge.counts"
-msg huge-count "huge.counts:2: postings is not a whole number"
+msg huge-count "huge.counts:2: postings is past 18446744073709551615 (2^64 - 1)"
+# every count a table can hold reads back: sums of 10^19 and more too
+printf 'kind\toccupation\tlang\tkey\ttext\tpostings\nkey\t\tde\tkoch\t\t6000000000000000000\n' > "$tmp/six.counts"
+run sum-past-19-digits 0 $T counts -o "$tmp/twelve.counts" "$tmp/six.counts" "$tmp/six.counts"
+grep -q '	12000000000000000000$' "$tmp/twelve.counts"; check sum-past-19-digits-written 0 $?
+run reads-back-20-digits 0 $T counts "$tmp/twelve.counts"
+cmp -s "$tmp/out" "$tmp/twelve.counts"; check reads-back-20-digits-same 0 $?
+printf 'kind\toccupation\tlang\tkey\ttext\tpostings\nkey\t\tde\tkoch\t\t18446744073709551615\n' > "$tmp/max.counts"
+run max-count 0 $T counts "$tmp/max.counts"
+run max-count-plus-one 1 $T counts "$tmp/max.counts" "$tmp/six.counts"
+msg max-count-plus-one "six.counts:2: the postings add up past 18446744073709551615 (2^64 - 1)"
+printf 'kind\toccupation\tlang\tkey\ttext\tpostings\nkey\t\tde\tkoch\t\t18446744073709551616\n' > "$tmp/max1.counts"
+run past-max 1 $T counts "$tmp/max1.counts"
+msg past-max "max1.counts:2: postings is past 18446744073709551615"
 printf 'kind\toccupation\tlang\tkey\ttext\tpostings\nkey\t\tde\tkoch\t\t9999999999999999999\n' > "$tmp/big.counts"
 run big-count 0 $T counts "$tmp/big.counts"
 run big-sum 1 $T counts -o "$tmp/big.out" "$tmp/big.counts" "$tmp/big.counts"
@@ -405,7 +418,11 @@ redis-cli -s "$rd/sock" flushall > /dev/null
 # out named, a few lines (no storm); a reader of a gone server likewise
 $T tally --store "$S" --chunk 20 --retries 1 "$tmp/r.tsv" 2> "$tmp/err" &
 pid=$!
-sleep 0.3
+# (once the load has begun, however slow the build: ASan)
+for i in $(seq 100); do
+	[ "$(redis-cli -s "$rd/sock" dbsize 2>/dev/null)" -gt 0 ] 2>/dev/null && break
+	sleep 0.05
+done
 redis-cli -s "$rd/sock" shutdown nosave > /dev/null 2>&1
 wait $pid; check gone-status 1 $?
 msg gone "$S"
