@@ -193,7 +193,11 @@ static int parse_opts(int argc, char **argv, const char *sub, review_opts *o)
 		switch (ch) {
 		case O_QUEUE: o->queue = optarg; break;
 		case O_STORE: o->store = optarg; break;
-		case O_PREFIX: o->prefix = optarg; break;
+		case O_PREFIX:
+			if (cli_check_prefix("review", optarg))
+				return EXIT_USAGE;
+			o->prefix = optarg;
+			break;
 		case O_REVIEWER: o->reviewer = optarg; break;
 		case O_NOTE: o->note = optarg; break;
 		case O_OVERRULE: o->overrule = 1; break;
