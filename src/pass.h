@@ -15,6 +15,13 @@
 
 #define RM_NONE 0xFF
 
+/* Look-aheads of the passes are bounded or remembered, so that every pass
+ * is linear in the line length (tests/cases/check_linear.py):
+ * a reference code is looked for after at most REF_LEAD_MAX lead-in
+ * phrases in a row ("Job-ID Nr. #4711" has three; "#" x 100,000 made
+ * every "#" look to the end of the line). */
+#define REF_LEAD_MAX 4
+
 /* What a line holds, so that a pass with nothing to look for is skipped. */
 enum {
 	LF_NUM = 1,       /* a number */
