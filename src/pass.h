@@ -72,7 +72,7 @@ struct normaliser {
 	size_t nspan, spcap;
 	/* phrases starting at each unit, longest first: mc[moff[k] ..
 	 * moff[k + 1]) (built once per line, again after the gender pass) */
-	struct mcache { uint32_t first; uint16_t cats; uint8_t units; } *mc;
+	struct mcache { uint32_t first, units; uint16_t cats; } *mc;
 	size_t nmc, mccap;
 	uint32_t *moff;
 	uint16_t *ucats;  /* categories of all phrases starting at each unit */
