@@ -21,6 +21,11 @@
  * phrases in a row ("Job-ID Nr. #4711" has three; "#" x 100,000 made
  * every "#" look to the end of the line). */
 #define REF_LEAD_MAX 4
+/* An employer marker ("bei", "chez", "at") is looked for at most
+ * EMPLOYER_BACK units before a legal form ("bei Valdoria Logistik Nord
+ * GmbH"); "a b c d e GmbH " x 70,000 looked back to the segment's start
+ * from every "GmbH". */
+#define EMPLOYER_BACK 8
 
 /* What a line holds, so that a pass with nothing to look for is skipped. */
 enum {
