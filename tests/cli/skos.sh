@@ -136,4 +136,13 @@ print("same" if got == want and len(want) == 6 else "differ %r %r" % (sorted(got
 PY
 check rdflib-relative-iris "same" "$(cat "$tmp/cmp")"
 grep -q "^file://$tmp/rel/1	" "$tmp/ours"; check relative-iri-file-base 0 $?
+# a literal of 10 MB is skipped without being held: the run fits in 100 MB
+# of address space (it took 140 MB of memory when the label was read)
+/usr/bin/python3 -c "
+print('@prefix skos: <http://www.w3.org/2004/02/skos/core#> .')
+print('<occ:1> skos:prefLabel \"' + 'x' * 10000000 + '\"@de .')
+print('<occ:2> skos:prefLabel \"Koch\"@de .')" > "$tmp/big.ttl"
+(ulimit -v 100000; $T labels "$tmp/big.ttl" > "$tmp/out" 2> "$tmp/err"); check big-literal-status 0 $?
+check big-literal-labels "occ:2" "$(tail -n +2 "$tmp/out" | cut -f1)"
+grep -q "big.ttl:2: 1 label longer than 4096 bytes skipped" "$tmp/err"; check big-literal-reported 0 $?
 finish
