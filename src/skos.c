@@ -31,7 +31,7 @@ typedef struct rd {
 	int failed;
 	/* the filter */
 	FILE *f;
-	long line;          /* 1 + newlines passed to serd */
+	long line;          /* 1 + newlines read from the file */
 	int state, q, esc;  /* q: the quote of the string; esc: after "\" */
 	int qrun;           /* quotes in a row inside a long string */
 	int swallow;        /* dropping the rest of an over-long literal */
@@ -55,15 +55,15 @@ static int filter(rd *r, int c)
 {
 	switch (r->state) {
 	case S_OUT:
-		if (c == '"' || c == '\'') {
+		if (r->esc) {
+			r->esc = 0; /* an escaped character of a name: ex:a\( ex:a\' */
+		} else if (c == '"' || c == '\'') {
 			r->state = S_Q1;
 			r->q = c;
 		} else if (c == '<') {
 			r->state = S_IRI;
 		} else if (c == '#') {
 			r->state = S_COMMENT;
-		} else if (r->esc) {
-			r->esc = 0; /* an escaped character of a name: ex:a\( */
 		} else if (c == '\\') {
 			r->esc = 1;
 		} else if (c == '[' || c == '(') {

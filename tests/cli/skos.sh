@@ -107,7 +107,7 @@ with open(sys.argv[1], "w", encoding="utf-8") as f:
     f.write('# a comment %s\n' % (b * 40))
     f.write('<rel/1> skos:prefLabel "Koch %s"@de , \'Kellner %s\'@de .\n' % (b * 20, b * 20))
     f.write('<http://taxonomy.example/a%%5B%s> skos:altLabel """long "" %s \\""" x"""@de .\n' % ("b" * 3, b * 20))
-    f.write("ex:a\\(b skos:hiddenLabel %sit''s %s%s@en .\n" % (q3, b * 20, q3))
+    f.write("ex:a\\(b\\'c\\#d skos:hiddenLabel %sit''s %s%s@en .\n" % (q3, b * 20, q3))
     f.write('_:b1 skos:prefLabel "Ober"@de .\n')
     f.write('[ skos:prefLabel "Page"@en ] .\n')
     f.write('<rel/2> skos:prefLabel "%s"@de .\n' % ("\u00e9" * 3000))
@@ -142,7 +142,15 @@ grep -q "^file://$tmp/rel/1	" "$tmp/ours"; check relative-iri-file-base 0 $?
 print('@prefix skos: <http://www.w3.org/2004/02/skos/core#> .')
 print('<occ:1> skos:prefLabel \"' + 'x' * 10000000 + '\"@de .')
 print('<occ:2> skos:prefLabel \"Koch\"@de .')" > "$tmp/big.ttl"
-(ulimit -v 100000; $T labels "$tmp/big.ttl" > "$tmp/out" 2> "$tmp/err"); check big-literal-status 0 $?
+# (a sanitizer build reserves more address space than that to start:
+# there the labels are checked without the limit)
+if (ulimit -v 100000; $T labels --help > /dev/null 2>&1); then
+	(ulimit -v 100000; $T labels "$tmp/big.ttl" > "$tmp/out" 2> "$tmp/err")
+else
+	echo "  big-literal: no address-space limit (the binary cannot start within 100 MB)"
+	$T labels "$tmp/big.ttl" > "$tmp/out" 2> "$tmp/err"
+fi
+check big-literal-status 0 $?
 check big-literal-labels "occ:2" "$(tail -n +2 "$tmp/out" | cut -f1)"
 grep -q "big.ttl:2: 1 label longer than 4096 bytes skipped" "$tmp/err"; check big-literal-reported 0 $?
 finish
