@@ -86,8 +86,13 @@ valgrind: titlemill $(UNIT_BIN) $(NTEST) $(G2CASES)
 	NORMALIZATION_TEST=$(CURDIR)/$(NTEST) G2_CASES=$(CURDIR)/$(G2CASES) \
 		sh tests/valgrind.sh $(CURDIR)/titlemill $(CURDIR)/$(BUILD)
 
-# libFuzzer targets (clang): FUZZ_SECONDS each, corpus in build-fuzz/.
+# libFuzzer targets (clang): FUZZ_SECONDS each, corpus in build-fuzz/;
+# inputs up to FUZZ_MAX_LEN bytes (so that size-dependent costs are
+# reachable), each within FUZZ_TIMEOUT seconds; a finding fails the run
+# (its log is build-fuzz/TARGET.log).
 FUZZ_SECONDS ?= 60
+FUZZ_MAX_LEN ?= 65536
+FUZZ_TIMEOUT ?= 10
 FUZZ_TARGETS = fuzz_norm fuzz_postings fuzz_counts fuzz_labels fuzz_review fuzz_delta
 FUZZ_CC ?= clang
 FUZZ_FLAGS = -g -O1 -fsanitize=fuzzer,address,undefined -fno-sanitize-recover=all
@@ -101,10 +106,11 @@ fuzz: fuzz-build
 	@set -e; for t in $(FUZZ_TARGETS); do \
 		mkdir -p build-fuzz/corpus-$$t; \
 		sh tests/fuzz/seeds.sh $$t build-fuzz/corpus-$$t; \
-		TITLEMILL_LEXDIR=$(CURDIR)/lexicons build-fuzz/$$t -max_total_time=$(FUZZ_SECONDS) \
-			-max_len=$$(case $$t in fuzz_review|fuzz_delta) echo 4096;; *) echo 512;; esac) \
+		if TITLEMILL_LEXDIR=$(CURDIR)/lexicons build-fuzz/$$t -max_total_time=$(FUZZ_SECONDS) \
+			-max_len=$(FUZZ_MAX_LEN) -timeout=$(FUZZ_TIMEOUT) \
 			-print_final_stats=1 build-fuzz/corpus-$$t tests/fuzz/seeds-$$t \
-			2>&1 | tail -12; done
+			> build-fuzz/$$t.log 2>&1; then tail -12 build-fuzz/$$t.log; \
+		else tail -40 build-fuzz/$$t.log; echo "$$t: a finding (build-fuzz/$$t.log)"; exit 1; fi; done
 
 bench: titlemill
 	sh tests/bench/run.sh $(CURDIR)/titlemill

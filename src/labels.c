@@ -268,8 +268,17 @@ int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_b
 			if (utf16)
 				return -1;
 		}
-		int rc = skos_read(path, on_skos, &c, err);
+		skos_skipped sk;
+		int rc = skos_read(path, on_skos, &c, &sk, err);
 		buf_free(&c.j);
+		if (rc == 0 && warn && sk.blank)
+			fprintf(warn, "titlemill: %s:%ld: %ld label%s of blank nodes skipped (a concept "
+				"needs an IRI to be an occupation); the first on this line\n",
+				path, sk.blank_line, sk.blank, sk.blank == 1 ? "" : "s");
+		if (rc == 0 && warn && sk.toolong)
+			fprintf(warn, "titlemill: %s:%ld: %ld label%s longer than %d bytes skipped; "
+				"the first on this line\n", path, sk.toolong_line, sk.toolong,
+				sk.toolong == 1 ? "" : "s", SKOS_MAX_LABEL);
 		return rc;
 	}
 	if (tsv_open(&t, path) != 0) {

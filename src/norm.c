@@ -171,7 +171,7 @@ static int cache_build(normaliser *nm)
 				nm->mccap = cap;
 			}
 			nm->mc[nm->nmc].first = (uint32_t)lex_entry_index(nm->lx, e);
-			nm->mc[nm->nmc].units = (uint8_t)(endu[L - 1] - k);
+			nm->mc[nm->nmc].units = (uint32_t)(endu[L - 1] - k);
 			uint16_t cats = 0;
 			for (const lex_entry *f = e; f; f = lex_next(nm->lx, f))
 				cats |= (uint16_t)(1u << f->cat);
@@ -198,8 +198,14 @@ static const lex_entry *match_gen(normaliser *nm, size_t k, unsigned mask,
 		if (kept)
 			for (j = k; j < k + nu && ok; j++) {
 				uint32_t t = nm->unit[j];
-				if (nm->rm[t] == NF_GENDER && j > k)
+				if (nm->rm[t] == NF_GENDER && j > k) {
+					/* a run of markers at once ("ab (m/w/d) x
+					 * 300 sofort"): units only ever get removed,
+					 * so the run of cache_build is still one */
+					if (nm->nextk[j] > j)
+						j = nm->nextk[j] - 1;
 					continue;
+				}
 				if (nm->rm[t] != RM_NONE || nm->prot[t])
 					ok = 0;
 			}

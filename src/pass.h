@@ -15,6 +15,18 @@
 
 #define RM_NONE 0xFF
 
+/* Look-aheads of the passes are bounded or remembered, so that every pass
+ * is linear in the line length (tests/cases/check_linear.py):
+ * a reference code is looked for after at most REF_LEAD_MAX lead-in
+ * phrases in a row ("Job-ID Nr. #4711" has three; "#" x 100,000 made
+ * every "#" look to the end of the line). */
+#define REF_LEAD_MAX 4
+/* An employer marker ("bei", "chez", "at") is looked for at most
+ * EMPLOYER_BACK units before a legal form ("bei Valdoria Logistik Nord
+ * GmbH"); "a b c d e GmbH " x 70,000 looked back to the segment's start
+ * from every "GmbH". */
+#define EMPLOYER_BACK 8
+
 /* What a line holds, so that a pass with nothing to look for is skipped. */
 enum {
 	LF_NUM = 1,       /* a number */
@@ -65,7 +77,7 @@ struct normaliser {
 	size_t nspan, spcap;
 	/* phrases starting at each unit, longest first: mc[moff[k] ..
 	 * moff[k + 1]) (built once per line, again after the gender pass) */
-	struct mcache { uint32_t first; uint16_t cats; uint8_t units; } *mc;
+	struct mcache { uint32_t first, units; uint16_t cats; } *mc;
 	size_t nmc, mccap;
 	uint32_t *moff;
 	uint16_t *ucats;  /* categories of all phrases starting at each unit */

@@ -115,8 +115,12 @@ static size_t obfuscated_email(const normaliser *nm, size_t t)
 
 /* A URL without scheme or www that carries a query, as tracking links do:
  * "valdoria.example/jobs?id=991" (host, a path, "?", a key, "="); "Node.js/
- * React" and "ASP.NET/C#" are not.  Returns its last token, or 0. */
-static size_t bare_url(const normaliser *nm, size_t t)
+ * React" and "ASP.NET/C#" are not.  Returns its last token, or 0.  When it
+ * looked for the query up to the URL's end and found none, *none is set
+ * to that end: no host starting before it carries a query either, since
+ * a later host starts after this one's dots and sees less of the path
+ * (so "(a.b" x N costs N, not N squared). */
+static size_t bare_url(const normaliser *nm, size_t t, size_t *none)
 {
 	size_t q = t, e;
 	int dots = 0, slash = 0;
@@ -138,6 +142,7 @@ static size_t bare_url(const normaliser *nm, size_t t)
 		    tok_is(nm, q + 2, '='))
 			return e;
 	}
+	*none = e;
 	return 0;
 }
 
@@ -145,6 +150,12 @@ int pass_pii(normaliser *nm)
 {
 	size_t t;
 	tok_line *tl = &nm->tl;
+	/* Tokens before which the look-ahead of an earlier token already
+	 * showed there is no e-mail address, bare URL or phone number: each
+	 * look-ahead below runs to the end of a glued run, and starting it
+	 * again at every "@", host or digit group of that run cost the
+	 * square of its length ("@" x 160,000 took 33 s). */
+	size_t no_mail = 0, no_url = 0, no_phone = 0, ue;
 
 	for (t = 0; t < tl->n; t++) {
 		const tm_tok *x = &tl->t[t];
@@ -166,38 +177,43 @@ int pass_pii(normaliser *nm)
 			if (remove_toks(nm, t, e, NF_URL, NULL))
 				return -1;
 			t = e;
-		} else if (x->kind == TK_SYM && x->ch == '@' && t > 0 && !x->sp &&
+		} else if (x->kind == TK_SYM && x->ch == '@' && t >= no_mail && t > 0 && !x->sp &&
 			   t + 1 < tl->n && !tl->t[t + 1].sp &&
 			   tl->t[t - 1].kind != TK_PUNCT &&
 			   tl->t[t + 1].kind != TK_PUNCT) {
-			size_t s = glued_start(nm, t - 1), e = glued_end(nm, t + 1);
+			size_t e = glued_end(nm, t + 1), s;
 			int dot = 0;
 			for (size_t q = t + 1; q <= e; q++)
 				dot |= tok_is(nm, q, '.');
+			if (!dot) {
+				/* an "@" later in the run has the same end and sees
+				 * less of it: no dot there either */
+				no_mail = e + 1;
+				continue;
+			}
+			s = glued_start(nm, t - 1);
 			/* "mailto:" goes with it */
 			if (s >= 2 && tok_is(nm, s - 1, ':') && !tl->t[s].sp && !tl->t[s - 1].sp &&
 			    word_is(nm, s - 2, "mailto") && nm->rm[s - 2] == RM_NONE)
 				s -= 2;
-			if (dot) {
-				if (remove_toks(nm, s, e, NF_EMAIL, NULL))
-					return -1;
-				t = e;
-			}
+			if (remove_toks(nm, s, e, NF_EMAIL, NULL))
+				return -1;
+			t = e;
 		} else if ((x->flags & TF_OPEN) && t > 0 && tl->t[t - 1].kind == TK_WORD &&
 			   nm->rm[t - 1] == RM_NONE && obfuscated_email(nm, t)) {
 			size_t s = glued_start(nm, t - 1), e = obfuscated_email(nm, t);
 			if (remove_toks(nm, s, e, NF_EMAIL, NULL))
 				return -1;
 			t = e;
-		} else if (x->kind == TK_WORD && bare_url(nm, t)) {
-			size_t e = bare_url(nm, t);
-			if (remove_toks(nm, t, e, NF_URL, NULL))
+		} else if (x->kind == TK_WORD && t >= no_url && (ue = bare_url(nm, t, &no_url))) {
+			if (remove_toks(nm, t, ue, NF_URL, NULL))
 				return -1;
-			t = e;
-		} else if ((x->kind == TK_SYM && x->ch == '+' && t + 1 < tl->n &&
-			    tl->t[t + 1].kind == TK_NUM && !tl->t[t + 1].sp) ||
-			   (x->kind == TK_NUM && nm->work.data[x->off] == '0' &&
-			    x->len >= 2)) {
+			t = ue;
+		} else if (t >= no_phone &&
+			   ((x->kind == TK_SYM && x->ch == '+' && t + 1 < tl->n &&
+			     tl->t[t + 1].kind == TK_NUM && !tl->t[t + 1].sp) ||
+			    (x->kind == TK_NUM && nm->work.data[x->off] == '0' &&
+			     x->len >= 2))) {
 			/* digits grouped by spaces, - / . ( ) */
 			size_t e = t, q = t + (x->kind == TK_SYM), d = 0;
 			for (; q < tl->n; q++) {
@@ -221,6 +237,10 @@ int pass_pii(normaliser *nm)
 				if (remove_toks(nm, t, e, NF_PHONE, NULL))
 					return -1;
 				t = e;
+			} else {
+				/* a group starting later in the run stops at the
+				 * same token with fewer digits */
+				no_phone = q;
 			}
 		}
 	}
@@ -303,9 +323,12 @@ int pass_reference(normaliser *nm)
 		if (!ukept(nm, k) || nm->prot[nm->unit[k]])
 			continue;
 		if (match_cat(nm, k, LC_REFERENCE, 1, &len)) {
-			size_t j = k + len;
-			while (j < nm->nunit && match_cat(nm, j, LC_REFERENCE, 1, &len))
+			size_t j = k + len, leads = 1;
+			while (j < nm->nunit && leads < REF_LEAD_MAX &&
+			       match_cat(nm, j, LC_REFERENCE, 1, &len)) {
 				j += len;
+				leads++;
+			}
 			/* ref 2291, Ref.: AB-12, Job-ID #44 */
 			if (j < nm->nunit && U(nm, j)->kind == TK_SYM &&
 			    U(nm, j)->ch == '#')

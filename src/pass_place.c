@@ -409,7 +409,7 @@ int pass_employer(normaliser *nm)
 		g = &nm->segs[s];
 		seg_kept(nm, s, &k0, &k1);
 		start = SIZE_MAX;
-		for (m = k; m > k0; m--) {
+		for (m = k; m > k0 && k - m < EMPLOYER_BACK; m--) {
 			size_t l2;
 			if (match_val(nm, m - 1, LC_EMPLOYER, "marker", 1, &l2)) {
 				start = m - 1;

@@ -70,7 +70,7 @@ static int add_labels(lexicon *lx, const char *path, tm_buf *err)
 	size_t pl = strlen(path);
 	if ((pl > 4 && !strcmp(path + pl - 4, ".ttl")) || (pl > 3 && !strcmp(path + pl - 3, ".nt")) ||
 	    (pl > 7 && !strcmp(path + pl - 7, ".turtle")))
-		return skos_read(path, protect_one, lx, err);
+		return skos_read(path, protect_one, lx, NULL, err);
 
 	tsv_reader t;
 	int col, lcol, r;

@@ -12,14 +12,34 @@
 typedef int (*skos_label_fn)(void *ctx, const char *occ, size_t ol, char kind,
 			     const char *lang, size_t ll, const char *text, size_t tl);
 
-/* Reads path (N-Triples when it ends in .nt, Turtle otherwise).  Returns
- * 0, or -1 with a message "file:line:col: what" in err (a syntax error,
- * or what the callback refused). */
-int skos_read(const char *path, skos_label_fn fn, void *ctx, tm_buf *err);
+/* The limits of the reader (README, "Bad input"):
+ * - brackets "[" and "(" nested deeper than SKOS_MAX_DEPTH refuse the
+ *   file with its line, before the parser (which recurses once per
+ *   bracket) sees them; SKOS labels need a depth of one or two;
+ * - a label literal longer than SKOS_MAX_LABEL bytes is skipped and
+ *   counted (the parser never holds more than that much of any literal). */
+#define SKOS_MAX_DEPTH 64
+#define SKOS_MAX_LABEL 4096
+
+/* Labels skipped, each with the line of the first one: labels of
+ * blank-node subjects ("_:b1", "[ ... ]": a concept needs an IRI to be
+ * an occupation) and labels longer than SKOS_MAX_LABEL bytes. */
+typedef struct skos_skipped {
+	long blank, blank_line;
+	long toolong, toolong_line;
+} skos_skipped;
+
+/* Reads path (N-Triples when it ends in .nt, Turtle otherwise).  The
+ * occupation handed to fn is the subject's IRI: prefixed names expanded,
+ * relative IRIs resolved against @base or, before any @base, the file's
+ * own location (file:///...).  sk (may be NULL) receives what was
+ * skipped.  Returns 0, or -1 with a message "file:line[:col]: what" in
+ * err (a syntax error, nesting too deep, or what the callback refused). */
+int skos_read(const char *path, skos_label_fn fn, void *ctx, skos_skipped *sk, tm_buf *err);
 /* skos_read, and the number of statements read, labels or not, in
  * *statements. */
-int skos_read_count(const char *path, skos_label_fn fn, void *ctx, size_t *statements,
-		    tm_buf *err);
+int skos_read_count(const char *path, skos_label_fn fn, void *ctx, skos_skipped *sk,
+		    size_t *statements, tm_buf *err);
 
 /* Writing labels as SKOS: Turtle (with the skos: prefix) or N-Triples,
  * appended to out (borrowed until skos_writer_end).  A comment line is

@@ -14,6 +14,7 @@ void uni_ctx_free(uni_ctx *u)
 	free(u->cp);
 	u->cp = NULL;
 	u->cap = 0;
+	buf_free(&u->safe);
 }
 
 const char *uni_version(void) { return utf8proc_unicode_version(); }
@@ -94,6 +95,80 @@ static utf8proc_int32_t title_map(utf8proc_int32_t c, void *data)
 	}
 }
 
+/* Leading and trailing non-starters of the full (compatibility)
+ * decomposition of cp; *all when it has no starter at all. */
+static void nonstarters(int32_t cp, const utf8proc_property_t *p, size_t *lead,
+			size_t *trail, int *all)
+{
+	utf8proc_int32_t d[32];
+	utf8proc_ssize_t n, i;
+
+	if (p->decomp_seqindex == UINT16_MAX) {
+		*lead = *trail = p->combining_class != 0;
+		*all = p->combining_class != 0;
+		return;
+	}
+	n = utf8proc_decompose_char(cp, d, 32, UTF8PROC_DECOMPOSE | UTF8PROC_COMPAT, NULL);
+	if (n <= 0 || n > 32) {
+		*lead = *trail = 0;
+		*all = 0;
+		return;
+	}
+	for (i = 0; i < n && utf8proc_get_property(d[i])->combining_class; i++)
+		;
+	*lead = (size_t)i;
+	*all = i == n;
+	for (i = n; i > 0 && utf8proc_get_property(d[i - 1])->combining_class; i--)
+		;
+	*trail = (size_t)(n - i);
+}
+
+/* The Stream-Safe Text Format (unicode.h): *s and *n are replaced by a
+ * copy in u->safe when non-starters had to be dropped.  One pass; ASCII
+ * is a starter.  Returns 0, or -1 when memory ran out. */
+static int stream_safe(uni_ctx *u, const char **s, size_t *n)
+{
+	const char *p = *s;
+	size_t i = 0, from = 0, run = 0, lead, trail;
+	int all, cut = 0;
+
+	while (i < *n) {
+		size_t at = i;
+		if ((unsigned char)p[i] < 0x80) {
+			i++;
+			run = 0;
+			continue;
+		}
+		int32_t cp = uni_next(p, *n, &i);
+		const utf8proc_property_t *pr = utf8proc_get_property(cp);
+		if (pr->ignorable)
+			continue;
+		nonstarters(cp, pr, &lead, &trail, &all);
+		if (!all) {
+			run = trail;
+			continue;
+		}
+		if (run + lead <= UNI_MAX_NONSTARTERS) {
+			run += lead;
+			continue;
+		}
+		/* drop it */
+		if (!cut)
+			buf_reset(&u->safe);
+		cut = 1;
+		if (buf_append(&u->safe, p + from, at - from) != 0)
+			return -1;
+		from = i;
+	}
+	if (cut) {
+		if (buf_append(&u->safe, p + from, *n - from) != 0)
+			return -1;
+		*s = u->safe.data;
+		*n = u->safe.len;
+	}
+	return 0;
+}
+
 static int run(uni_ctx *u, const char *s, size_t n, tm_buf *out,
 	       utf8proc_option_t opt, utf8proc_custom_func fn, void *data)
 {
@@ -101,6 +176,8 @@ static int run(uni_ctx *u, const char *s, size_t n, tm_buf *out,
 
 	if (n == 0)
 		return 0;
+	if (stream_safe(u, &s, &n) != 0)
+		return -1;
 	if (n > (size_t)(PTRDIFF_MAX / 8))
 		return -1;
 	if (u->cap < n + 16 && grow(u, n + 16) != 0)

@@ -26,7 +26,20 @@ typedef struct uni_ctx {
 	char prep[UNI_FAST][4], fold[UNI_FAST][4];
 	uint8_t plen[UNI_FAST], flen[UNI_FAST];
 	uint8_t cls[0x180]; /* enum uni_class | UNI_UP | UNI_LOW */
+	tm_buf safe;        /* the input cut to the Stream-Safe Text Format */
 } uni_ctx;
+
+/* Normalising sorts every run of combining marks by their combining
+ * class, which costs the square of the run's length; so every function
+ * below first keeps at most UNI_MAX_NONSTARTERS non-starters in a row
+ * (the Stream-Safe Text Format of UAX #15, section 13) and drops the
+ * non-starters beyond them, rather than inserting U+034F COMBINING
+ * GRAPHEME JOINER: a title never needs more than a few marks on one
+ * letter, and the joiner is a default ignorable the working form drops,
+ * which would merge the runs again.  Default ignorables are transparent
+ * to the count for that reason; a code point with a starter in its
+ * decomposition ends a run.  So the cost is linear in the input. */
+#define UNI_MAX_NONSTARTERS 30
 
 #define UNI_UP 0x10
 #define UNI_LOW 0x20

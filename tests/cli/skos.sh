@@ -63,4 +63,95 @@ cmp -s "$tmp/c1" "$tmp/c2"; check coverage-ttl-equals-tsv 0 $?
 $T propose --labels "$ex/taxonomy.ttl" "$tmp/p.tsv" > "$tmp/s1" 2>/dev/null
 $T propose --labels "$ex/taxonomy.tsv" "$tmp/p.tsv" > "$tmp/s2" 2>/dev/null
 cmp -s "$tmp/s1" "$tmp/s2"; check propose-ttl-equals-tsv 0 $?
+# Limits of the reader.  Brackets nested past the documented depth (64)
+# are refused with the file and line by every command that reads labels,
+# before the parser's recursion (20,000 levels overflowed its stack);
+# 60 levels are read.
+/usr/bin/python3 -c "
+print('@prefix skos: <http://www.w3.org/2004/02/skos/core#> .')
+print('<occ:1> skos:prefLabel \"Koch\"@de .')
+print('<occ:1> skos:related ' + '[ skos:related ' * 20000)" > "$tmp/deep.ttl"
+/usr/bin/python3 -c "
+print('<occ:1> <http://www.w3.org/2004/02/skos/core#related> ' + '(' * 20000)" > "$tmp/deep.nt"
+printf 'title\toccupations\nKoch\tocc:1\n' > "$tmp/one.tsv"
+$T tally "$tmp/one.tsv" > "$tmp/one.counts" 2> /dev/null
+for cmd in "labels $tmp/deep.ttl" "coverage --labels $tmp/deep.ttl $tmp/one.counts" \
+	"propose --labels $tmp/deep.ttl $tmp/one.counts" "tally --labels $tmp/deep.ttl $tmp/one.tsv" \
+	"norm --labels $tmp/deep.ttl $tmp/one.tsv"; do
+	$T $cmd > "$tmp/out" 2> "$tmp/err" < /dev/null
+	check "deep-status ${cmd%% *}" 1 $?
+	grep -q "$f:3: brackets nested deeper than 64" "$tmp/err"; check "deep-message ${cmd%% *}" 0 $?
+done
+# (N-Triples has no brackets: the parser refuses the first one)
+$T labels "$tmp/deep.nt" > /dev/null 2> "$tmp/err"; check deep-nt-status 1 $?
+grep -q "deep.nt:1:" "$tmp/err"; check deep-nt-message 0 $?
+/usr/bin/python3 -c "
+print('@prefix skos: <http://www.w3.org/2004/02/skos/core#> .')
+print('<occ:1> skos:related ' + '[ skos:related ' * 59 + '<occ:2>' + ' ]' * 59 + ' .')
+print('<occ:1> skos:related ' + '(' * 60 + ')' * 60 + ' .')
+print('<occ:1> skos:prefLabel \"Koch\"@de .')" > "$tmp/deep60.ttl"
+$T labels "$tmp/deep60.ttl" > "$tmp/out" 2> "$tmp/err"; check deep60-status 0 $?
+check deep60-label "occ:1 pref de Koch" "$(tail -n +2 "$tmp/out" | cut -f1-4 | tr '\t' ' ')"
+# Brackets in strings, long strings, IRIs, comments and escaped names do
+# not nest; relative IRIs resolve against the file's location, then
+# @base (as rdflib resolves them); labels of blank nodes are skipped and
+# counted with the first one's line; a label longer than 4096 bytes is
+# skipped and counted, the labels after it are read.
+/usr/bin/python3 - "$tmp/tricky.ttl" <<'PY'
+import sys
+b = "[[[[(((("
+q3 = "'" * 3
+with open(sys.argv[1], "w", encoding="utf-8") as f:
+    f.write('@prefix skos: <http://www.w3.org/2004/02/skos/core#> .\n')
+    f.write('@prefix ex: <http://taxonomy.example/x#> .\n')
+    f.write('# a comment %s\n' % (b * 40))
+    f.write('<rel/1> skos:prefLabel "Koch %s"@de , \'Kellner %s\'@de .\n' % (b * 20, b * 20))
+    f.write('<http://taxonomy.example/a%%5B%s> skos:altLabel """long "" %s \\""" x"""@de .\n' % ("b" * 3, b * 20))
+    f.write("ex:a\\(b\\'c\\#d skos:hiddenLabel %sit''s %s%s@en .\n" % (q3, b * 20, q3))
+    f.write('_:b1 skos:prefLabel "Ober"@de .\n')
+    f.write('[ skos:prefLabel "Page"@en ] .\n')
+    f.write('<rel/2> skos:prefLabel "%s"@de .\n' % ("\u00e9" * 3000))
+    f.write('<rel/2> skos:altLabel """%s"""@de .\n' % ("ab\\\"" * 2000))
+    f.write('<rel/2> skos:hiddenLabel "B\u00e4cker"@de .\n')
+    f.write('@base <http://taxonomy.example/base/> .\n')
+    f.write('<rel/3> skos:prefLabel "Maurer"@de .\n')
+PY
+$T labels "$tmp/tricky.ttl" > "$tmp/ours" 2> "$tmp/err"; check tricky-status 0 $?
+grep -q "tricky.ttl:7: 2 labels of blank nodes skipped" "$tmp/err"; check blank-node-skipped 0 $?
+grep -q "tricky.ttl:9: 2 labels longer than 4096 bytes skipped" "$tmp/err"; check long-label-skipped 0 $?
+/usr/bin/python3 - "$tmp/tricky.ttl" "$tmp/ours" <<'PY' > "$tmp/cmp"
+import sys
+import rdflib
+from rdflib.namespace import SKOS
+g = rdflib.Graph()
+g.parse(sys.argv[1], format="turtle")
+kinds = {SKOS.prefLabel: "pref", SKOS.altLabel: "alt", SKOS.hiddenLabel: "hidden"}
+want = set()
+for s, p, o in g:
+    if p in kinds and isinstance(o, rdflib.Literal) and o.language and \
+            isinstance(s, rdflib.URIRef) and len(str(o).encode()) <= 4096:
+        want.add((str(s), kinds[p], o.language, str(o)))
+got = set(tuple(l.split("\t")[:4]) for l in open(sys.argv[2], encoding="utf-8").read().split("\n")[1:] if l)
+print("same" if got == want and len(want) == 6 else "differ %r %r" % (sorted(got ^ want), len(want)))
+PY
+check rdflib-relative-iris "same" "$(cat "$tmp/cmp")"
+grep -q "^file://$tmp/rel/1	" "$tmp/ours"; check relative-iri-file-base 0 $?
+# a literal of 10 MB is skipped without being held: the run fits in 100 MB
+# of address space (it took 140 MB of memory when the label was read)
+/usr/bin/python3 -c "
+print('@prefix skos: <http://www.w3.org/2004/02/skos/core#> .')
+print('<occ:1> skos:prefLabel \"' + 'x' * 10000000 + '\"@de .')
+print('<occ:2> skos:prefLabel \"Koch\"@de .')" > "$tmp/big.ttl"
+# (a sanitizer build reserves more address space than that to start:
+# there the labels are checked without the limit)
+starts=$( (ulimit -v 100000; $T labels --help > /dev/null 2>&1; echo $?) 2> /dev/null)
+if [ "$starts" = 0 ]; then
+	(ulimit -v 100000; $T labels "$tmp/big.ttl" > "$tmp/out" 2> "$tmp/err")
+else
+	echo "  big-literal: no address-space limit (the binary cannot start within 100 MB)"
+	$T labels "$tmp/big.ttl" > "$tmp/out" 2> "$tmp/err"
+fi
+check big-literal-status 0 $?
+check big-literal-labels "occ:2" "$(tail -n +2 "$tmp/out" | cut -f1)"
+grep -q "big.ttl:2: 1 label longer than 4096 bytes skipped" "$tmp/err"; check big-literal-reported 0 $?
 finish

@@ -307,7 +307,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 		CHECK(dl_export(&q, &o, &out, &err) == 0 || (fprintf(stderr, "%s\n", err.data), 0));
 		snprintf(path, sizeof path, "%s.%s", dir, which ? "nt" : "ttl");
 		write_file(path, &out);
-		if (skos_read_count(path, on_label, &c, &statements, &err) != 0) {
+		if (skos_read_count(path, on_label, &c, NULL, &statements, &err) != 0) {
 			fprintf(stderr, "fuzz_delta: %s does not read back: %s\n", path, err.data);
 			CHECK(0);
 		}

@@ -12,6 +12,17 @@ fuzz_norm)
 		i=$((i + 1))
 		printf '%s' "$line" > "$out/seed-$i"
 	done
+	# shapes that once cost the square of their length, at 64 KiB
+	# (tests/cases/check_linear.py times them all)
+	/usr/bin/python3 - "$out" <<'PY'
+import sys
+shapes = {"at": "@", "word-at": "a@", "hash": "#", "ref-nr": "Nr.", "host": "(a.b",
+          "phone": "00 ", "marks": "a\u0316\u0301", "gender": "Koch mit (m/w/d) "}
+for name, unit in shapes.items():
+    b = unit.encode("utf-8")
+    with open("%s/seed-long-%s" % (sys.argv[1], name), "wb") as f:
+        f.write((b * (65536 // len(b)))[:65536])
+PY
 	;;
 fuzz_postings)
 	/usr/bin/python3 "$here/../bench/gen_titles.py" --postings --count 30 --seed 5 > "$out/seed-tsv"
@@ -20,7 +31,7 @@ fuzz_postings)
 	;;
 fuzz_labels)
 	# first byte: 0 a labels TSV, 1 Turtle, 2 N-Triples; whole example
-	# files, and small pieces of them (the runs cut inputs to 512 bytes)
+	# files, and small pieces of them
 	ex=$here/../../examples
 	{ printf '\000'; cat "$ex/taxonomy.tsv"; } > "$out/seed-tsv"
 	{ printf '\001'; cat "$ex/taxonomy.ttl"; } > "$out/seed-ttl"
@@ -35,6 +46,25 @@ fuzz_labels)
 	  printf '<occ:1> <http://www.w3.org/2004/02/skos/core#altLabel> "K\\u00f6chin"@de-AT .\n'
 	  printf '<occ:2> <http://www.w3.org/2004/02/skos/core#hiddenLabel> "fork lift"@en .\n'
 	  printf '_:b <http://www.w3.org/2004/02/skos/core#prefLabel> "x"@en .\n'; } > "$out/seed-nt"
+	# the reader's limits: brackets nested to the limit (64) and past
+	# it, both kinds; a blank node; a label past 4096 bytes
+	/usr/bin/python3 - "$out" <<'PY'
+import sys
+pre = "\x01@prefix skos: <http://www.w3.org/2004/02/skos/core#> .\n"
+lab = '<occ:1> skos:prefLabel "Koch"@de .\n'
+seeds = {
+    "deep-64": pre + "<occ:1> skos:related " + "[ skos:related " * 63 + "<occ:2>" + " ]" * 63 + " .\n" + lab,
+    "deep-65": pre + lab + "<occ:1> skos:related " + "[ skos:related " * 65 + "<occ:2>" + " ]" * 65 + " .\n",
+    "deep-lists": pre + lab + "<occ:1> skos:related " + "(" * 70 + ")" * 70 + " .\n",
+    "deep-mixed": pre + lab + "<occ:1> skos:related " + "( [ skos:related " * 40 + "\n",
+    "blank": pre + lab + "_:b1 skos:prefLabel \"Ober\"@de .\n[ skos:altLabel 'Kellner'@de ] .\n",
+    "long-label": pre + '<occ:2> skos:prefLabel """' + "K\u00f6chin \\\" " * 600 + '"""@de .\n' + lab,
+    "relative": pre + "<rel/1> skos:prefLabel \"Koch\"@de .\n@base <http://taxonomy.example/> .\n<rel/2> skos:altLabel \"Chef\"@de .\n",
+}
+for name, text in seeds.items():
+    with open("%s/seed-%s" % (sys.argv[1], name), "wb") as f:
+        f.write(text.encode("utf-8"))
+PY
 	;;
 fuzz_review)
 	# first byte: 0 a queue file, 1 propose output, 2 a decisions TSV

@@ -211,6 +211,63 @@ static void test_normalization_file(void **state)
 	buf_free(&one);
 }
 
+/* The Stream-Safe Text Format (UAX #15 section 13): at most 30
+ * non-starters in a row are kept, the rest dropped, whatever the form;
+ * ignorables do not end a run, a starter does. */
+static void test_stream_safe(void **state)
+{
+	uni_ctx u = {0};
+	tm_buf in = {0}, out = {0}, want = {0};
+	(void)state;
+	/* "a" + 40 x (U+0316 ccc 220, U+0301 ccc 230): NFD keeps 30 marks
+	 * (15 of each), sorted by class */
+	buf_putc(&in, 'a');
+	for (int i = 0; i < 40; i++)
+		buf_puts(&in, "\xCC\x96\xCC\x81");
+	assert_int_equal(uni_normalize(&u, UNI_NFD, in.data, in.len, &out), 0);
+	buf_putc(&want, 'a');
+	for (int i = 0; i < 15; i++)
+		buf_puts(&want, "\xCC\x96");
+	for (int i = 0; i < 15; i++)
+		buf_puts(&want, "\xCC\x81");
+	assert_int_equal(out.len, want.len);
+	assert_memory_equal(out.data, want.data, want.len);
+	/* 30 marks are left alone; a starter starts a new run */
+	buf_reset(&in);
+	buf_reset(&out);
+	buf_puts(&in, "a");
+	for (int i = 0; i < 30; i++)
+		buf_puts(&in, "\xCC\x81");
+	buf_puts(&in, "b\xCC\x81");
+	assert_int_equal(uni_normalize(&u, UNI_NFD, in.data, in.len, &out), 0);
+	assert_int_equal(out.len, in.len);
+	assert_memory_equal(out.data, in.data, in.len);
+	/* a zero-width joiner (ignorable) between marks does not restart the
+	 * count: 20 + 20 marks keep 30 */
+	buf_reset(&in);
+	buf_reset(&out);
+	buf_puts(&in, "a");
+	for (int i = 0; i < 20; i++)
+		buf_puts(&in, "\xCC\x81");
+	buf_puts(&in, "\xE2\x80\x8D");
+	for (int i = 0; i < 20; i++)
+		buf_puts(&in, "\xCC\x81");
+	assert_int_equal(uni_prepare(&u, in.data, in.len, &out), 0);
+	assert_int_equal(out.len, 2 + 29 * 2); /* á and 29 marks */
+	/* U+0344 decomposes to two non-starters: 20 of them keep 15 */
+	buf_reset(&in);
+	buf_reset(&out);
+	buf_puts(&in, "a");
+	for (int i = 0; i < 20; i++)
+		buf_puts(&in, "\xCD\x84");
+	assert_int_equal(uni_normalize(&u, UNI_NFD, in.data, in.len, &out), 0);
+	assert_int_equal(out.len, 1 + 30 * 2);
+	buf_free(&in);
+	buf_free(&out);
+	buf_free(&want);
+	uni_ctx_free(&u);
+}
+
 static void test_class(void **state)
 {
 	(void)state;
@@ -238,6 +295,7 @@ int main(void)
 		cmocka_unit_test(test_prepare),
 		cmocka_unit_test(test_lower),
 		cmocka_unit_test(test_class),
+		cmocka_unit_test(test_stream_safe),
 		cmocka_unit_test(test_normalization_file),
 	};
 	return cmocka_run_group_tests_name("unicode", tests, NULL, teardown);
