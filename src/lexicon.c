@@ -13,22 +13,36 @@
 #include "unicode.h"
 
 #define VALSLOTS 4096
-/* Bit filters over sequence hashes (2^20 bits each, 128 KiB: they stay
- * in cache where the tables do not): every prefix of a phrase, and every
- * whole phrase.  A clear bit proves absence. */
-#define FBITS 20
 
-typedef struct phrase {
-	uint64_t h;
-	uint32_t str;   /* offset of the folds in lx->strs, 0x1F between tokens */
-	uint32_t slen;
-	uint32_t first; /* index into lx->ent, 1-based */
-	uint8_t ntok;
-} phrase;
+/* The vocabulary: every token of every phrase, with its id (1-based). */
+typedef struct word {
+	uint64_t h;     /* tok_hash of the fold */
+	uint32_t str;   /* offset of the fold in lx->strs */
+	uint32_t len;
+	uint32_t id;    /* 0: empty slot */
+} word;
+
+/* An edge of the phrase trie below the root: (node, word id) -> node. */
+typedef struct edge {
+	uint64_t key;   /* node << 32 | id; 0: empty slot */
+	uint32_t child;
+} edge;
+
+/* A trie node: the entries of the phrase ending there (index into
+ * lx->ent, 0 when the node is only a prefix) and their categories. */
+typedef struct node {
+	uint32_t first;
+	uint32_t cats;
+} node;
 
 struct lexicon {
-	phrase *ph;      /* open addressing, power-of-two size */
-	size_t phcap, nph;
+	word *voc;       /* open addressing, power-of-two size */
+	size_t voccap, nvoc;
+	uint32_t *root;  /* root[id]: the node of the one-word prefix, 0 none */
+	edge *edges;     /* open addressing, power-of-two size */
+	size_t edgecap, nedge;
+	node *nodes;     /* nodes[0] is the root */
+	size_t nnode, nodecap;
 	lex_entry *ent;  /* ent[0] unused */
 	size_t nent, entcap;
 	tm_buf strs;
@@ -40,25 +54,7 @@ struct lexicon {
 	uni_ctx u;
 	tok_line tl;
 	tm_buf work;
-	uint64_t pre[(1u << FBITS) / 64], full[(1u << FBITS) / 64];
 };
-
-static inline size_t fbit(uint64_t h)
-{
-	return (size_t)((h * 0x9E3779B97F4A7C15ULL) >> (64 - FBITS));
-}
-
-int lex_maybe_prefix(const lexicon *lx, uint64_t seq)
-{
-	size_t b = fbit(seq);
-	return (lx->pre[b >> 6] >> (b & 63)) & 1;
-}
-
-int lex_maybe_phrase(const lexicon *lx, uint64_t seq)
-{
-	size_t b = fbit(seq);
-	return (lx->full[b >> 6] >> (b & 63)) & 1;
-}
 
 static const char *const cat_names[LC_NCAT] = {
 	"gender", "seniority", "schedule", "pay", "reference", "marketing",
@@ -106,14 +102,22 @@ lexicon *lex_new(void)
 	lexicon *lx = calloc(1, sizeof *lx);
 	if (!lx)
 		return NULL;
-	/* sized for the bundled lexicons (about 90,000 phrases at a load of
-	 * at most 3/4), so loading them never rehashes */
-	lx->phcap = 1 << 17;
-	lx->ph = calloc(lx->phcap, sizeof *lx->ph);
+	/* sized for the bundled lexicons (about 90,000 phrases over some
+	 * 60,000 words at a load of at most 3/4), so loading them never
+	 * rehashes */
+	lx->voccap = 1 << 17;
+	lx->voc = calloc(lx->voccap, sizeof *lx->voc);
+	lx->root = calloc(lx->voccap, sizeof *lx->root);
+	lx->edgecap = 1 << 16;
+	lx->edges = calloc(lx->edgecap, sizeof *lx->edges);
+	lx->nodecap = 1 << 17;
+	lx->nodes = calloc(lx->nodecap, sizeof *lx->nodes);
+	lx->nnode = 1;
 	lx->entcap = 1 << 17;
 	lx->ent = calloc(lx->entcap, sizeof *lx->ent);
 	lx->nent = 1;
-	if (!lx->ph || !lx->ent || buf_putc(&lx->strs, 0) != 0) {
+	if (!lx->voc || !lx->root || !lx->edges || !lx->nodes || !lx->ent ||
+	    buf_putc(&lx->strs, 0) != 0) {
 		lex_free(lx);
 		return NULL;
 	}
@@ -126,7 +130,10 @@ void lex_free(lexicon *lx)
 
 	if (!lx)
 		return;
-	free(lx->ph);
+	free(lx->voc);
+	free(lx->root);
+	free(lx->edges);
+	free(lx->nodes);
 	free(lx->ent);
 	buf_free(&lx->strs);
 	for (i = 0; i < lx->npairs; i++) {
@@ -143,12 +150,157 @@ void lex_free(lexicon *lx)
 	free(lx);
 }
 
-uint64_t lex_seq_step(uint64_t h, uint64_t th) { return tok_hash_mix(h, th); }
+/* ---- the vocabulary and the phrase trie ---- */
 
-uint64_t lex_seq_final(uint64_t h, size_t ntok)
+uint32_t lex_word(const lexicon *lx, const char *fold, size_t len, uint64_t h)
 {
-	h ^= (uint64_t)ntok * 0x9E3779B97F4A7C15ULL;
-	return h ^ (h >> 31);
+	size_t m = lx->voccap - 1, j = h & m;
+	const word *w;
+
+	while ((w = &lx->voc[j])->id) {
+		if (w->h == h && w->len == len && !memcmp(lx->strs.data + w->str, fold, len))
+			return w->id;
+		j = (j + 1) & m;
+	}
+	return 0;
+}
+
+static int grow_vocab(lexicon *lx)
+{
+	size_t cap = lx->voccap * 2, i, m = cap - 1;
+	word *v = calloc(cap, sizeof *v);
+	uint32_t *r = calloc(cap, sizeof *r);
+	if (!v || !r) {
+		free(v);
+		free(r);
+		return -1;
+	}
+	for (i = 0; i < lx->voccap; i++) {
+		size_t j;
+		if (!lx->voc[i].id)
+			continue;
+		for (j = lx->voc[i].h & m; v[j].id; j = (j + 1) & m)
+			;
+		v[j] = lx->voc[i];
+	}
+	memcpy(r, lx->root, lx->voccap * sizeof *r);
+	free(lx->voc);
+	free(lx->root);
+	lx->voc = v;
+	lx->root = r;
+	lx->voccap = cap;
+	return 0;
+}
+
+/* The id of a word, added when new; 0 when memory ran out.  Ids stay
+ * below voccap, so root[] (as large) has a slot for each. */
+static uint32_t add_word(lexicon *lx, const char *fold, size_t len, uint64_t h)
+{
+	uint32_t id = lex_word(lx, fold, len, h);
+	size_t j;
+
+	if (id)
+		return id;
+	if ((lx->nvoc + 2) * 4 > lx->voccap * 3 && grow_vocab(lx) != 0)
+		return 0;
+	for (j = h & (lx->voccap - 1); lx->voc[j].id; j = (j + 1) & (lx->voccap - 1))
+		;
+	if (len > UINT32_MAX || buf_append(&lx->strs, fold, len) != 0)
+		return 0;
+	lx->voc[j].h = h;
+	lx->voc[j].str = (uint32_t)(lx->strs.len - len);
+	lx->voc[j].len = (uint32_t)len;
+	lx->voc[j].id = (uint32_t)++lx->nvoc;
+	return lx->voc[j].id;
+}
+
+/* The home slot of an edge: every bit of the node and of the word id
+ * mixed into the low bits (fmix64 of MurmurHash3). */
+static inline size_t edge_slot(uint64_t key, size_t cap)
+{
+	key ^= key >> 33;
+	key *= 0xFF51AFD7ED558CCDULL;
+	key ^= key >> 33;
+	return (size_t)key & (cap - 1);
+}
+
+uint32_t lex_step(const lexicon *lx, uint32_t n, uint32_t id)
+{
+	uint64_t key;
+	size_t j, m;
+
+	if (!id)
+		return 0;
+	if (n == LEX_ROOT)
+		return lx->root[id];
+	key = (uint64_t)n << 32 | id;
+	m = lx->edgecap - 1;
+	for (j = edge_slot(key, lx->edgecap); lx->edges[j].key; j = (j + 1) & m)
+		if (lx->edges[j].key == key)
+			return lx->edges[j].child;
+	return 0;
+}
+
+const lex_entry *lex_phrase(const lexicon *lx, uint32_t n, uint32_t *cats)
+{
+	if (n >= lx->nnode || !lx->nodes[n].first)
+		return NULL;
+	if (cats)
+		*cats = lx->nodes[n].cats;
+	return &lx->ent[lx->nodes[n].first];
+}
+
+static int grow_edges(lexicon *lx)
+{
+	size_t cap = lx->edgecap * 2, i, j;
+	edge *e = calloc(cap, sizeof *e);
+	if (!e)
+		return -1;
+	for (i = 0; i < lx->edgecap; i++) {
+		if (!lx->edges[i].key)
+			continue;
+		for (j = edge_slot(lx->edges[i].key, cap); e[j].key; j = (j + 1) & (cap - 1))
+			;
+		e[j] = lx->edges[i];
+	}
+	free(lx->edges);
+	lx->edges = e;
+	lx->edgecap = cap;
+	return 0;
+}
+
+/* The child of node n by word id, made when missing; 0 when memory ran
+ * out. */
+static uint32_t add_step(lexicon *lx, uint32_t n, uint32_t id)
+{
+	uint32_t c = lex_step(lx, n, id);
+	size_t j;
+
+	if (c)
+		return c;
+	if (lx->nnode == lx->nodecap) {
+		node *p = realloc(lx->nodes, lx->nodecap * 2 * sizeof *p);
+		if (!p)
+			return 0;
+		lx->nodes = p;
+		lx->nodecap *= 2;
+	}
+	if (n != LEX_ROOT && (lx->nedge + 1) * 4 > lx->edgecap * 3 && grow_edges(lx) != 0)
+		return 0;
+	c = (uint32_t)lx->nnode++;
+	lx->nodes[c].first = 0;
+	lx->nodes[c].cats = 0;
+	if (n == LEX_ROOT) {
+		lx->root[id] = c;
+		return c;
+	}
+	for (j = edge_slot((uint64_t)n << 32 | id, lx->edgecap); lx->edges[j].key;
+	     j = (j + 1) & (lx->edgecap - 1))
+		;
+	lx->edges[j].key = (uint64_t)n << 32 | id;
+	lx->edges[j].child = c;
+	lx->nedge++;
+	return c;
 }
 
 static const char *intern(lexicon *lx, const char *v)
@@ -174,60 +326,6 @@ static const char *intern(lexicon *lx, const char *v)
 	lx->values[lx->nvalues++] = c;
 	lx->vslot[i] = c;
 	return c;
-}
-
-static int rehash_ph(lexicon *lx)
-{
-	size_t cap = lx->phcap * 2, i;
-	phrase *p = calloc(cap, sizeof *p);
-	if (!p)
-		return -1;
-	for (i = 0; i < lx->phcap; i++) {
-		if (!lx->ph[i].first)
-			continue;
-		size_t j = lx->ph[i].h & (cap - 1);
-		while (p[j].first)
-			j = (j + 1) & (cap - 1);
-		p[j] = lx->ph[i];
-	}
-	free(lx->ph);
-	lx->ph = p;
-	lx->phcap = cap;
-	return 0;
-}
-
-static int same_phrase(const lexicon *lx, const phrase *p, size_t ntok,
-		       const char *const *fold, const uint32_t *flen)
-{
-	const char *s = lx->strs.data + p->str;
-	size_t k, pos = 0;
-
-	if (p->ntok != ntok)
-		return 0;
-	for (k = 0; k < ntok; k++) {
-		if (pos + flen[k] > p->slen || memcmp(s + pos, fold[k], flen[k]))
-			return 0;
-		pos += flen[k];
-		if (k + 1 < ntok) {
-			if (pos >= p->slen || s[pos] != 0x1F)
-				return 0;
-			pos++;
-		}
-	}
-	return pos == p->slen;
-}
-
-const lex_entry *lex_find(const lexicon *lx, uint64_t seq, size_t ntok,
-			  const char *const *fold, const uint32_t *flen)
-{
-	size_t j = seq & (lx->phcap - 1);
-	while (lx->ph[j].first) {
-		const phrase *p = &lx->ph[j];
-		if (p->h == seq && same_phrase(lx, p, ntok, fold, flen))
-			return &lx->ent[p->first];
-		j = (j + 1) & (lx->phcap - 1);
-	}
-	return NULL;
 }
 
 const lex_entry *lex_next(const lexicon *lx, const lex_entry *e)
@@ -332,7 +430,7 @@ int lex_add(lexicon *lx, int cat, const char *lang, const char *ph,
 {
 	const char *fold[MAXTOK + 1];
 	uint32_t flen[MAXTOK + 1];
-	uint64_t th[MAXTOK + 1], seq = LEX_SEQ_SEED;
+	uint64_t th[MAXTOK + 1];
 	char lg[4];
 	uint8_t amb;
 	int nu, k;
@@ -365,25 +463,19 @@ int lex_add(lexicon *lx, int cat, const char *lang, const char *ph,
 		return 1;
 	if (nu > MAXTOK)
 		return err_printf(err, "phrase longer than 12 tokens%s%s", "", "");
-	for (k = 0; k < nu; k++) {
-		seq = lex_seq_step(seq, th[k]);
-		size_t b = fbit(lex_seq_final(seq, (size_t)k + 1));
-		lx->pre[b >> 6] |= 1ULL << (b & 63);
-	}
-	seq = lex_seq_final(seq, (size_t)nu);
-	{
-		size_t b = fbit(seq);
-		lx->full[b >> 6] |= 1ULL << (b & 63);
-	}
-
-	/* find or insert the phrase */
-	const lex_entry *found = lex_find(lx, seq, (size_t)nu, fold, flen);
+	/* the phrase's node: walked, and made only for a phrase added */
+	uint32_t n = LEX_ROOT;
+	for (k = 0; k < nu && (n || k == 0); k++)
+		n = where == LW_OFF ? lex_step(lx, n, lex_word(lx, fold[k], flen[k], th[k]))
+				    : add_step(lx, n, add_word(lx, fold[k], flen[k], th[k]));
 	if (where == LW_OFF) {
-		for (const lex_entry *f = found; f; f = lex_next(lx, f))
+		for (const lex_entry *f = lex_phrase(lx, n, NULL); f; f = lex_next(lx, f))
 			if (f->cat == cat && !strcmp(f->lang, lg))
 				((lex_entry *)f)->off = 1;
 		return 0;
 	}
+	if (!n)
+		return err_printf(err, "out of memory%s%s", "", "");
 	if (lx->nent == lx->entcap) {
 		size_t cap = lx->entcap * 2;
 		lex_entry *p = realloc(lx->ent, cap * sizeof *p);
@@ -391,11 +483,18 @@ int lex_add(lexicon *lx, int cat, const char *lang, const char *ph,
 			return err_printf(err, "out of memory%s%s", "", "");
 		lx->ent = p;
 		lx->entcap = cap;
-		if (found)
-			found = NULL; /* re-found below */
 	}
 	if (!(v = intern(lx, value)))
 		return err_printf(err, "out of memory%s%s", "", "");
+	/* a duplicate line adds nothing (and switches an entry on again) */
+	for (uint32_t r = lx->nodes[n].first; r; r = lx->ent[r].next) {
+		lex_entry *o = &lx->ent[r];
+		if (o->cat == cat && o->where == where && o->amb == amb &&
+		    !strcmp(o->lang, lg) && o->value == v) {
+			o->off = 0;
+			return 0;
+		}
+	}
 	size_t idx = lx->nent++;
 	e = &lx->ent[idx];
 	memset(e, 0, sizeof *e);
@@ -413,51 +512,17 @@ int lex_add(lexicon *lx, int cat, const char *lang, const char *ph,
 		}
 		e->caps = up >= 2 && low == 0;
 	}
-
-	size_t j = seq & (lx->phcap - 1);
-	while (lx->ph[j].first) {
-		phrase *p = &lx->ph[j];
-		if (p->h == seq && same_phrase(lx, p, (size_t)nu, fold, flen)) {
-			/* append to the end of its entry list */
-			uint32_t q = p->first;
-			while (lx->ent[q].next)
-				q = lx->ent[q].next;
-			/* a duplicate line adds nothing */
-			for (uint32_t r = p->first; r; r = lx->ent[r].next) {
-				lex_entry *o = &lx->ent[r];
-				if (o->cat == cat && o->where == where &&
-				    o->amb == amb && !strcmp(o->lang, lg) &&
-				    o->value == v) {
-					o->off = 0;
-					lx->nent--;
-					return 0;
-				}
-			}
-			lx->ent[q].next = (uint32_t)idx;
-			return 0;
-		}
-		j = (j + 1) & (lx->phcap - 1);
+	/* appended to the end of the phrase's entry list: the order of the
+	 * files is the order of the entries */
+	if (!lx->nodes[n].first)
+		lx->nodes[n].first = (uint32_t)idx;
+	else {
+		uint32_t q = lx->nodes[n].first;
+		while (lx->ent[q].next)
+			q = lx->ent[q].next;
+		lx->ent[q].next = (uint32_t)idx;
 	}
-	if ((lx->nph + 1) * 4 > lx->phcap * 3) {
-		if (rehash_ph(lx) != 0)
-			return err_printf(err, "out of memory%s%s", "", "");
-		j = seq & (lx->phcap - 1);
-		while (lx->ph[j].first)
-			j = (j + 1) & (lx->phcap - 1);
-	}
-	phrase *p = &lx->ph[j];
-	p->h = seq;
-	p->ntok = (uint8_t)nu;
-	p->first = (uint32_t)idx;
-	p->str = (uint32_t)lx->strs.len;
-	for (k = 0; k < nu; k++) {
-		if (k && buf_putc(&lx->strs, 0x1F) != 0)
-			return err_printf(err, "out of memory%s%s", "", "");
-		if (buf_append(&lx->strs, fold[k], flen[k]) != 0)
-			return err_printf(err, "out of memory%s%s", "", "");
-	}
-	p->slen = (uint32_t)(lx->strs.len - p->str);
-	lx->nph++;
+	lx->nodes[n].cats |= 1u << cat;
 	return 0;
 }
 

@@ -242,9 +242,14 @@ static int norm_once(normaliser *nm, const char *src, size_t n, norm_result *res
 	if (HAS(ti, LC_PROTECT))
 		protect(ti);
 	f = ti->lflags;
-	if (((f & (LF_NUM | LF_SYM | LF_URL)) && pass_pii(ti)) || pass_gender(ti))
+	if ((f & (LF_NUM | LF_SYM | LF_URL)) && pass_pii(ti))
 		return -1;
-	if (ti->nspan && title_scan(ti) != 0)
+	size_t before = ti->nspan;
+	if (pass_gender(ti))
+		return -1;
+	/* removed markers are transparent to the scan: a phrase written
+	 * across them is found now */
+	if (ti->nspan > before && title_scan(ti) != 0)
 		return -1;
 	/* each rule runs only where the line holds what it looks for */
 	if (((f & (LF_NUM | LF_DIGITWORD | LF_SYM) || HAS(ti, LC_REFERENCE)) &&

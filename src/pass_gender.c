@@ -188,13 +188,10 @@ static int capital_i(tm_title *ti)
 			memcpy(both, tok_fold(&ti->tl, p), p->flen);
 			memcpy(both + p->flen, tok_fold(&ti->tl, t), t->flen);
 			/* a protected whole word (linkedin) is no gender form */
-			uint64_t th = tok_hash(both, len);
-			const char *f[1] = {both};
-			uint32_t fl[1] = {(uint32_t)len};
-			uint64_t seq = lex_seq_final(lex_seq_step(LEX_SEQ_SEED, th), 1);
-			const lex_entry *e = lex_find(ti->lx, seq, 1, f, fl);
+			uint32_t w = lex_word(ti->lx, both, len, tok_hash(both, len));
 			int prot = 0;
-			for (; e; e = lex_next(ti->lx, e))
+			for (const lex_entry *e = lex_phrase(ti->lx, lex_step(ti->lx, LEX_ROOT, w), NULL);
+			     e; e = lex_next(ti->lx, e))
 				if (e->cat == LC_PROTECT)
 					prot = 1;
 			if (prot)

@@ -55,6 +55,10 @@ static int grow_arrays(tm_title *ti, size_t ntok)
 	if (!uc)
 		return -1;
 	ti->ucats = uc;
+	uint32_t *uw = realloc(ti->uword, cap * sizeof *uw);
+	if (!uw)
+		return -1;
+	ti->uword = uw;
 	uint32_t *nk = realloc(ti->nextk, (cap + 1) * sizeof *nk);
 	if (!nk)
 		return -1;
@@ -72,17 +76,40 @@ int entry_applies(const tm_title *ti, const lex_entry *e)
 	return ti->lang && strcmp(e->lang, ti->lang) == 0;
 }
 
-#define MAXPH 12
+#define MAXPH 12 /* units of the longest phrase (lex_add's limit) */
 
-/* Fills the phrase cache: for each unit, every phrase of the lexicon
- * that starts there, longest first.  Units removed by the gender pass
- * are transparent ("Addetto/a alla somministrazione"). */
+static int push_ann(tm_title *ti, uint32_t n, size_t units)
+{
+	uint32_t cats = 0;
+	const lex_entry *e = lex_phrase(ti->lx, n, &cats);
+
+	if (ti->nann == ti->anncap) {
+		size_t cap = ti->anncap ? ti->anncap * 2 : 64;
+		tm_ann *p = realloc(ti->ann, cap * sizeof *p);
+		if (!p)
+			return -1;
+		ti->ann = p;
+		ti->anncap = cap;
+	}
+	ti->ann[ti->nann].first = (uint32_t)lex_entry_index(ti->lx, e);
+	ti->ann[ti->nann].units = (uint32_t)units;
+	ti->ann[ti->nann].cats = cats;
+	ti->nann++;
+	return (int)cats;
+}
+
+/* One scan from left to right: from each unit, the trie is walked one
+ * word id at a time while a phrase can go on, so each unit costs at
+ * most one step per word of the longest phrase, whatever the number of
+ * categories and entries.  A word outside the vocabulary (id 0) ends
+ * every walk.  A walk stays inside the unit's segment; units removed
+ * by the gender rule are transparent ("Addetto/a alla
+ * somministrazione"), and a phrase may go on across the segment end
+ * right after them. */
 int title_scan(tm_title *ti)
 {
-	const char *fold[MAXPH];
-	uint32_t fl[MAXPH];
+	uint32_t hit[MAXPH];
 	size_t endu[MAXPH];
-	uint64_t seq[MAXPH];
 
 	ti->nann = 0;
 	ti->lcats = 0;
@@ -90,53 +117,33 @@ int title_scan(tm_title *ti)
 	for (size_t k = ti->nunit; k-- > 0;)
 		ti->nextk[k] = ti->rm[ti->unit[k]] == NF_GENDER ? ti->nextk[k + 1] : (uint32_t)k;
 	for (size_t k = 0; k < ti->nunit; k++) {
-		size_t n = 0, j, L;
-		uint64_t h = LEX_SEQ_SEED;
-		uint32_t s = useg(ti, k);
+		size_t n = 0, d = 1, j;
+		uint32_t s = useg(ti, k), node = lex_step(ti->lx, LEX_ROOT, ti->uword[k]);
 
 		ti->aoff[k] = (uint32_t)ti->nann;
 		ti->ucats[k] = 0;
-		for (j = k; j < ti->nunit && n < MAXPH; j++) {
-			if (j > k && ti->rm[ti->unit[j]] == NF_GENDER) {
-				/* the whole run of removed markers at once: one by
-				 * one, "(m/w/d) " x 10,000 was quadratic */
-				j = ti->nextk[j] - 1;
-				continue;
+		for (j = k; node;) {
+			if (lex_phrase(ti->lx, node, NULL)) {
+				hit[n] = node;
+				endu[n++] = j + 1;
 			}
-			if (useg(ti, j) != s && !(j > k && ti->rm[ti->unit[j - 1]] == NF_GENDER))
+			/* the next unit, past a run of removed markers at once
+			 * (one by one, "(m/w/d) " x 10,000 was quadratic) */
+			j++;
+			if (j < ti->nunit && ti->rm[ti->unit[j]] == NF_GENDER)
+				j = ti->nextk[j];
+			if (j >= ti->nunit || d++ == MAXPH ||
+			    (useg(ti, j) != s && ti->rm[ti->unit[j - 1]] != NF_GENDER))
 				break;
-			h = lex_seq_step(h, U(ti, j)->hash);
-			seq[n] = lex_seq_final(h, n + 1);
-			/* no phrase goes on like this: stop */
-			if (!lex_maybe_prefix(ti->lx, seq[n]))
-				break;
-			fold[n] = ufold(ti, j, &fl[n]);
-			endu[n] = j + 1;
-			n++;
+			node = lex_step(ti->lx, node, ti->uword[j]);
 		}
-		for (L = n; L >= 1; L--) {
-			if (!lex_maybe_phrase(ti->lx, seq[L - 1]))
-				continue;
-			const lex_entry *e = lex_find(ti->lx, seq[L - 1], L, fold, fl);
-			if (!e)
-				continue;
-			if (ti->nann == ti->anncap) {
-				size_t cap = ti->anncap ? ti->anncap * 2 : 64;
-				tm_ann *p = realloc(ti->ann, cap * sizeof *p);
-				if (!p)
-					return -1;
-				ti->ann = p;
-				ti->anncap = cap;
-			}
-			ti->ann[ti->nann].first = (uint32_t)lex_entry_index(ti->lx, e);
-			ti->ann[ti->nann].units = (uint32_t)(endu[L - 1] - k);
-			uint32_t cats = 0;
-			for (const lex_entry *f = e; f; f = lex_next(ti->lx, f))
-				cats |= 1u << f->cat;
-			ti->ann[ti->nann].cats = cats;
-			ti->ucats[k] |= cats;
-			ti->lcats |= cats;
-			ti->nann++;
+		/* longest first */
+		while (n--) {
+			int cats = push_ann(ti, hit[n], endu[n] - k);
+			if (cats < 0)
+				return -1;
+			ti->ucats[k] |= (uint32_t)cats;
+			ti->lcats |= (uint32_t)cats;
 		}
 	}
 	ti->aoff[ti->nunit] = (uint32_t)ti->nann;
@@ -375,6 +382,7 @@ int title_build(tm_title *ti)
 		}
 		ti->tseg[t] = cur;
 		ti->tunit[t] = (uint32_t)ti->nunit;
+		ti->uword[ti->nunit] = lex_word(ti->lx, tok_fold(tl, x), x->flen, x->hash);
 		ti->unit[ti->nunit++] = (uint32_t)t;
 		ti->segs[cur].u1 = (uint32_t)ti->nunit;
 	}
@@ -431,5 +439,6 @@ void title_free(tm_title *ti)
 	free(ti->aoff);
 	free(ti->ucats);
 	free(ti->nextk);
+	free(ti->uword);
 	memset(ti, 0, sizeof *ti);
 }

@@ -82,6 +82,7 @@ typedef struct tm_title {
 	size_t tcap;
 	/* units */
 	uint32_t *unit;   /* unit -> token */
+	uint32_t *uword;  /* its word id in the lexicon's vocabulary, 0 outside */
 	size_t nunit;
 	tm_seg *segs;
 	size_t nseg;
