@@ -30,6 +30,8 @@ enum lex_cat {
 	LC_PLACE,
 	LC_PROTECT,
 	LC_UNIT,
+	LC_OCCUPATION, /* head words, fields; endings (value suffix) apart */
+	LC_BUSINESS,   /* kinds of business, legal forms, name articles */
 	LC_NCAT
 };
 
@@ -92,6 +94,13 @@ uint32_t lex_step(const lexicon *lx, uint32_t n, uint32_t word);
  * starts longer phrases; *cats (when cats is not NULL) receives the
  * categories of all its entries (1 << cat). */
 const lex_entry *lex_phrase(const lexicon *lx, uint32_t n, uint32_t *cats);
+
+/* The entry of the longest occupational ending (occupation/, value
+ * `suffix`) that the word fold[0..len) ends with, or NULL; *elen
+ * receives the ending's length in bytes.  The word may be the ending
+ * itself.  Costs at most one step per byte of the longest ending. */
+const lex_entry *lex_ending(const lexicon *lx, const char *fold, size_t len,
+			    size_t *elen);
 
 /* The next entry of the same phrase, or NULL. */
 const lex_entry *lex_next(const lexicon *lx, const lex_entry *e);

@@ -257,7 +257,10 @@ static int norm_once(normaliser *nm, const char *src, size_t n, norm_result *res
 	    ((f & LF_NUM) && (pass_pay(ti) || pass_schedule(ti))) ||
 	    ((f & LF_SYM) && pass_hashtags(ti)))
 		return -1;
-	int phrases = ti->lcats || (f & LF_NUM);
+	/* occupation/ and business/ annotate the title; no rule reads
+	 * them yet */
+	unsigned read = ti->lcats & ~(1u << LC_OCCUPATION | 1u << LC_BUSINESS);
+	int phrases = read || (f & LF_NUM);
 	if ((phrases && pass_phrases(ti)) ||
 	    (HAS(ti, LC_EMPLOYER) && pass_employer(ti)) ||
 	    ((HAS(ti, LC_PLACE) || HAS(ti, LC_LOCATION)) && pass_location(ti)) ||

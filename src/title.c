@@ -78,11 +78,11 @@ int entry_applies(const tm_title *ti, const lex_entry *e)
 
 #define MAXPH 12 /* units of the longest phrase (lex_add's limit) */
 
-static int push_ann(tm_title *ti, uint32_t n, size_t units)
+/* Records a phrase (or an ending) of `units` units at the current unit,
+ * entries from e on.  Returns 0 or -1 (memory). */
+static int push_ann(tm_title *ti, size_t k, const lex_entry *e, uint32_t cats,
+		    size_t units)
 {
-	uint32_t cats = 0;
-	const lex_entry *e = lex_phrase(ti->lx, n, &cats);
-
 	if (ti->nann == ti->anncap) {
 		size_t cap = ti->anncap ? ti->anncap * 2 : 64;
 		tm_ann *p = realloc(ti->ann, cap * sizeof *p);
@@ -95,7 +95,9 @@ static int push_ann(tm_title *ti, uint32_t n, size_t units)
 	ti->ann[ti->nann].units = (uint32_t)units;
 	ti->ann[ti->nann].cats = cats;
 	ti->nann++;
-	return (int)cats;
+	ti->ucats[k] |= cats;
+	ti->lcats |= cats;
+	return 0;
 }
 
 /* One scan from left to right: from each unit, the trie is walked one
@@ -105,7 +107,8 @@ static int push_ann(tm_title *ti, uint32_t n, size_t units)
  * every walk.  A walk stays inside the unit's segment; units removed
  * by the gender rule are transparent ("Addetto/a alla
  * somministrazione"), and a phrase may go on across the segment end
- * right after them. */
+ * right after them.  A word is also looked up backwards in the trie of
+ * occupational endings (at most one step per byte of the longest). */
 int title_scan(tm_title *ti)
 {
 	uint32_t hit[MAXPH];
@@ -139,12 +142,19 @@ int title_scan(tm_title *ti)
 		}
 		/* longest first */
 		while (n--) {
-			int cats = push_ann(ti, hit[n], endu[n] - k);
-			if (cats < 0)
+			uint32_t cats = 0;
+			const lex_entry *e = lex_phrase(ti->lx, hit[n], &cats);
+			if (push_ann(ti, k, e, cats, endu[n] - k))
 				return -1;
-			ti->ucats[k] |= (uint32_t)cats;
-			ti->lcats |= (uint32_t)cats;
 		}
+		/* a word with an occupational ending: Lagerfachkraft */
+		const tm_tok *t = U(ti, k);
+		const lex_entry *e;
+		size_t elen;
+		if (t->kind == TK_WORD &&
+		    (e = lex_ending(ti->lx, tok_fold(&ti->tl, t), t->flen, &elen)) &&
+		    push_ann(ti, k, e, 1u << LC_OCCUPATION, 1))
+			return -1;
 	}
 	ti->aoff[ti->nunit] = (uint32_t)ti->nann;
 	return 0;

@@ -151,11 +151,136 @@ static void test_load_dir(void **state)
 	rmdir(dir);
 }
 
+static void write_file(const char *dir, const char *sub, const char *name,
+		       const char *text)
+{
+	char p[512];
+	FILE *fp;
+	snprintf(p, sizeof p, "%s/%s", dir, sub);
+	mkdir(p, 0700);
+	snprintf(p, sizeof p, "%s/%s/%s", dir, sub, name);
+	assert_non_null(fp = fopen(p, "w"));
+	fputs(text, fp);
+	fclose(fp);
+}
+
+static void remove_file(const char *dir, const char *sub, const char *name)
+{
+	char p[512];
+	snprintf(p, sizeof p, "%s/%s/%s", dir, sub, name);
+	unlink(p);
+	snprintf(p, sizeof p, "%s/%s", dir, sub);
+	rmdir(p);
+}
+
+static const lex_entry *ending(lexicon *lx, const char *w, size_t *elen)
+{
+	return lex_ending(lx, w, strlen(w), elen);
+}
+
+/* occupation/ and business/: a sample of each in the agreed format */
+static void test_occupation_and_business(void **state)
+{
+	(void)state;
+	char dir[] = "/tmp/tm-lex-XXXXXX";
+	tm_buf err = {0};
+	lexicon *lx;
+	const lex_entry *e;
+	size_t elen = 0;
+
+	assert_non_null(mkdtemp(dir));
+	write_file(dir, "occupation", "de.txt",
+		   "# occupational words, German\n"
+		   "de\tKoch\thead\n"
+		   "de\tFachkraft\tsuffix\n"
+		   "de\tkraft\tsuffix\n"
+		   "de\t-arbeiter\tsuffix\n"
+		   "da\tør\tsuffix\n"
+		   "de\tBuchhaltung\tfield\n"
+		   "en\tsales manager\thead\n");
+	write_file(dir, "business", "de.txt",
+		   "de\tHotel\tkind\n"
+		   "de\tBäckerei\tkind\n"
+		   "de\te.V.\tlegal\n"
+		   "de\t& Söhne\tlegal\n"
+		   "de\tder\tarticle\n"
+		   "de\tHotel\tkind\n");
+	lx = lex_new();
+	assert_int_equal(lex_load_dir(lx, dir, &err), 0);
+	e = find(lx, "KOCH");
+	assert_non_null(e);
+	assert_int_equal(e->cat, LC_OCCUPATION);
+	assert_string_equal(e->value, "head");
+	assert_string_equal(find(lx, "buchhaltung")->value, "field");
+	assert_string_equal(find(lx, "Sales-Manager")->value, "head");
+	e = find(lx, "hotel");
+	assert_int_equal(e->cat, LC_BUSINESS);
+	assert_string_equal(e->value, "kind");
+	assert_null(lex_next(lx, e)); /* the line given twice: one entry */
+	assert_string_equal(find(lx, "Backerei")->value, "kind");
+	assert_string_equal(find(lx, "E.V.")->value, "legal");
+	assert_string_equal(find(lx, "& Söhne")->value, "legal");
+	assert_string_equal(find(lx, "der")->value, "article");
+	/* endings are no phrases: they match the end of a word, the
+	 * longest one first, the word itself too */
+	assert_null(find(lx, "fachkraft"));
+	e = ending(lx, "lagerfachkraft", &elen);
+	assert_non_null(e);
+	assert_int_equal(e->cat, LC_OCCUPATION);
+	assert_string_equal(e->value, "suffix");
+	assert_string_equal(e->lang, "de");
+	assert_int_equal(elen, strlen("fachkraft"));
+	assert_non_null(ending(lx, "lehrkraft", &elen));
+	assert_int_equal(elen, strlen("kraft"));
+	assert_non_null(ending(lx, "fachkraft", &elen));
+	assert_int_equal(elen, strlen("fachkraft"));
+	assert_non_null(ending(lx, "hilfsarbeiter", &elen));
+	assert_int_equal(elen, strlen("arbeiter"));
+	/* folded like a title's words: ø is o in the match key */
+	assert_non_null(ending(lx, "operator", &elen));
+	assert_int_equal(elen, 2);
+	assert_null(ending(lx, "kraftwerk", &elen));
+	assert_null(ending(lx, "arbeit", &elen));
+	assert_null(ending(lx, "", &elen));
+	lex_free(lx);
+	remove_file(dir, "occupation", "de.txt");
+	remove_file(dir, "business", "de.txt");
+
+	/* refusals name the file and the line */
+	static const struct { const char *sub, *text, *msg; } bad[] = {
+		{"occupation", "de\tKoch\thead\nde\tKoch\tchef\n",
+		 "occupation/x.txt:2: unknown value 'chef' for occupation"},
+		{"occupation", "de\tKoch\thead\tedge\n",
+		 "occupation/x.txt:1: no WHERE in occupation/"},
+		{"occupation", "de\tfach kraft\tsuffix\n",
+		 "occupation/x.txt:1: an ending is one word"},
+		{"occupation", "de\t-\tsuffix\n",
+		 "occupation/x.txt:1: an ending is one word"},
+		{"business", "de\tHotel\tkind\tany\n",
+		 "business/x.txt:1: no WHERE in business/"},
+		{"business", "#\n\nde\tHotel\thotel\n",
+		 "business/x.txt:3: unknown value 'hotel' for business"},
+		{"business", "DE\tHotel\tkind\n", "business/x.txt:1: bad language 'DE'"},
+	};
+	for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++) {
+		write_file(dir, bad[i].sub, "x.txt", bad[i].text);
+		lx = lex_new();
+		assert_int_equal(lex_load_dir(lx, dir, &err), -1);
+		if (!strstr(err.data, bad[i].msg))
+			fail_msg("got \"%.*s\", want \"%s\"", (int)err.len, err.data, bad[i].msg);
+		lex_free(lx);
+		remove_file(dir, bad[i].sub, "x.txt");
+	}
+	rmdir(dir);
+	buf_free(&err);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(test_add_and_find),
 		cmocka_unit_test(test_load_dir),
+		cmocka_unit_test(test_occupation_and_business),
 	};
 	return cmocka_run_group_tests_name("lexicon", tests, NULL, NULL);
 }

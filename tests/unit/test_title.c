@@ -39,6 +39,10 @@ static int setup(void **state)
 	add(LC_SCHEDULE, "it", "tempo pieno", "full_time");
 	add(LC_UNIT, "*", "ab", "connector");
 	add(LC_MARKER, "*", "m/w/d", "-");
+	add(LC_OCCUPATION, "de", "Koch", "head");
+	add(LC_OCCUPATION, "de", "Fachkraft", "head");
+	add(LC_OCCUPATION, "de", "fachkraft", "suffix");
+	add(LC_BUSINESS, "de", "Hotel", "kind");
 	TI.lx = LX;
 	return 0;
 }
@@ -81,7 +85,7 @@ static void at_is(size_t k, const char *want)
 static void test_longest_first(void **state)
 {
 	(void)state;
-	scan("Koch Frankfurt am Main Vollzeit");
+	scan("Maler Frankfurt am Main Vollzeit");
 	at_is(0, "");
 	at_is(1, "3:places 1:places");
 	at_is(2, "1:location");
@@ -149,6 +153,36 @@ static void test_walks_stop_early(void **state)
 	free(s);
 }
 
+/* The value of the i-th phrase at unit k. */
+static const char *value_at(size_t k, size_t i)
+{
+	assert_true(TI.aoff[k] + i < TI.aoff[k + 1]);
+	return lex_entry_at(LX, TI.ann[TI.aoff[k] + i].first)->value;
+}
+
+static void test_occupational_words_and_endings(void **state)
+{
+	(void)state;
+	scan("Lagerfachkraft / Koch - Hotel Bergblick");
+	at_is(0, "1:occupation");
+	assert_string_equal(value_at(0, 0), "suffix");
+	at_is(1, "1:occupation");
+	assert_string_equal(value_at(1, 0), "head");
+	at_is(2, "1:business");
+	at_is(3, "");
+	assert_int_equal(TI.ucats[0], 1u << LC_OCCUPATION);
+	assert_int_equal(TI.lcats, 1u << LC_OCCUPATION | 1u << LC_BUSINESS);
+	/* the word itself: the phrase first, then the ending */
+	scan("FACHKRAFT");
+	at_is(0, "1:occupation 1:occupation");
+	assert_string_equal(value_at(0, 0), "head");
+	assert_string_equal(value_at(0, 1), "suffix");
+	/* an ending ends a word: not inside one, not a number */
+	scan("Fachkraftwerk 12");
+	at_is(0, "");
+	at_is(1, "");
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -156,6 +190,7 @@ int main(void)
 		cmocka_unit_test(test_words_outside_end_a_phrase),
 		cmocka_unit_test(test_removed_markers_are_transparent),
 		cmocka_unit_test(test_walks_stop_early),
+		cmocka_unit_test(test_occupational_words_and_endings),
 	};
 	return cmocka_run_group_tests_name("title", tests, setup, teardown);
 }
