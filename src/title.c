@@ -173,8 +173,12 @@ static const lex_entry *match_gen(tm_title *ti, size_t k, unsigned mask,
 		if (kept)
 			for (j = k; j < k + nu && ok; j++) {
 				uint32_t t = ti->unit[j];
-				if (ti->rm[t] == NF_GENDER && j > k)
+				if (ti->rm[t] == NF_GENDER && j > k) {
+					/* a run removed before the scan at once */
+					if (ti->nextk[j] > j)
+						j = ti->nextk[j] - 1;
 					continue;
+				}
 				if (ti->rm[t] != RM_NONE || ti->prot[t])
 					ok = 0;
 			}
