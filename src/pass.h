@@ -1,7 +1,7 @@
 /* pass.h - the normaliser's rules over an annotated title (title.h).
  * Each marks tokens removed with their kind and records the facet
- * spans; none reads or writes anything but the title it is given.  All
- * return 0, or -1 when memory ran out. */
+ * spans; none touches anything but the title it is given (and reads its
+ * lexicon).  All return 0, or -1 when memory ran out. */
 #ifndef TM_PASS_H
 #define TM_PASS_H
 

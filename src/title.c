@@ -403,7 +403,7 @@ int title_build(tm_title *ti)
 	return 0;
 }
 
-/* Sorts the spans by their first token, stably (each pass adds its own
+/* Sorts the spans by their first token, stably (each rule adds its own
  * in title order).  Insertion for the few pieces of a title; a merge sort
  * for thousands ("(m/w/d) in Berlin - " repeated: insertion was
  * quadratic), or insertion still when memory for it ran out. */
