@@ -13,22 +13,45 @@
 #include "unicode.h"
 
 #define VALSLOTS 4096
-/* Bit filters over sequence hashes (2^20 bits each, 128 KiB: they stay
- * in cache where the tables do not): every prefix of a phrase, and every
- * whole phrase.  A clear bit proves absence. */
-#define FBITS 20
 
-typedef struct phrase {
-	uint64_t h;
-	uint32_t str;   /* offset of the folds in lx->strs, 0x1F between tokens */
-	uint32_t slen;
-	uint32_t first; /* index into lx->ent, 1-based */
-	uint8_t ntok;
-} phrase;
+/* The vocabulary: every token of every phrase, with its id (1-based). */
+typedef struct word {
+	uint64_t h;     /* tok_hash of the fold */
+	uint32_t str;   /* offset of the fold in lx->strs */
+	uint32_t len;
+	uint32_t id;    /* 0: empty slot */
+} word;
+
+/* A trie: nodes (0 is the root) and its edges (node, symbol) -> node in
+ * one open-addressing table.  The phrase trie's symbols are word ids;
+ * the ending trie's are the bytes of a word's fold, read backwards. */
+typedef struct edge {
+	uint64_t key;   /* node << 32 | symbol; 0: empty slot (no edge
+			 * enters the root, and no symbol is 0) */
+	uint32_t child;
+} edge;
+
+/* A node: the entries of what ends there (index into lx->ent, 0 when
+ * the node only leads on) and their categories. */
+typedef struct node {
+	uint32_t first;
+	uint32_t cats;
+} node;
+
+typedef struct trie {
+	edge *edges;     /* power-of-two size, at most 3/4 full */
+	size_t edgecap, nedge;
+	node *nodes;
+	size_t nnode, nodecap;
+} trie;
 
 struct lexicon {
-	phrase *ph;      /* open addressing, power-of-two size */
-	size_t phcap, nph;
+	word *voc;       /* open addressing, power-of-two size */
+	size_t voccap, nvoc;
+	uint32_t *root;  /* root[id]: the phrase trie's node of the one-word
+			  * prefix, 0 none (the root's edges, by direct index) */
+	trie ph;         /* the phrases, over word ids */
+	trie sfx;        /* occupational endings, over reversed fold bytes */
 	lex_entry *ent;  /* ent[0] unused */
 	size_t nent, entcap;
 	tm_buf strs;
@@ -40,29 +63,12 @@ struct lexicon {
 	uni_ctx u;
 	tok_line tl;
 	tm_buf work;
-	uint64_t pre[(1u << FBITS) / 64], full[(1u << FBITS) / 64];
 };
-
-static inline size_t fbit(uint64_t h)
-{
-	return (size_t)((h * 0x9E3779B97F4A7C15ULL) >> (64 - FBITS));
-}
-
-int lex_maybe_prefix(const lexicon *lx, uint64_t seq)
-{
-	size_t b = fbit(seq);
-	return (lx->pre[b >> 6] >> (b & 63)) & 1;
-}
-
-int lex_maybe_phrase(const lexicon *lx, uint64_t seq)
-{
-	size_t b = fbit(seq);
-	return (lx->full[b >> 6] >> (b & 63)) & 1;
-}
 
 static const char *const cat_names[LC_NCAT] = {
 	"gender", "seniority", "schedule", "pay", "reference", "marketing",
-	"employer", "location", "places", "protect", "units",
+	"employer", "location", "places", "protect", "units", "occupation",
+	"business",
 };
 
 const char *lex_cat_name(int cat)
@@ -84,6 +90,8 @@ static const char *const v_location[] = {"prep", "before", "after",
 static const char *const v_unit[] = {"hours", "week", "month", "year", "day", "contact",
 				     "workload", "fte",
 				     "connector", NULL};
+static const char *const v_occupation[] = {"head", "suffix", "field", NULL};
+static const char *const v_business[] = {"kind", "legal", "article", NULL};
 static const char *const v_none[] = {"-", NULL};
 
 static const char *const *allowed_values(int cat)
@@ -96,9 +104,99 @@ static const char *const *allowed_values(int cat)
 	case LC_EMPLOYER: return v_employer;
 	case LC_LOCATION: return v_location;
 	case LC_UNIT: return v_unit;
+	case LC_OCCUPATION: return v_occupation;
+	case LC_BUSINESS: return v_business;
 	case LC_PLACE: return NULL; /* country codes, checked apart */
 	default: return v_none;
 	}
+}
+
+/* The home slot of an edge: every bit of the node and of the symbol
+ * mixed into the low bits (fmix64 of MurmurHash3). */
+static inline size_t edge_slot(uint64_t key, size_t cap)
+{
+	key ^= key >> 33;
+	key *= 0xFF51AFD7ED558CCDULL;
+	key ^= key >> 33;
+	return (size_t)key & (cap - 1);
+}
+
+static int trie_init(trie *t, size_t edgecap, size_t nodecap)
+{
+	t->edgecap = edgecap;
+	t->edges = calloc(edgecap, sizeof *t->edges);
+	t->nodecap = nodecap;
+	t->nodes = calloc(nodecap, sizeof *t->nodes);
+	t->nnode = 1;
+	return t->edges && t->nodes ? 0 : -1;
+}
+
+/* The child of node n by symbol sym (not 0), or 0. */
+static uint32_t trie_get(const trie *t, uint32_t n, uint32_t sym)
+{
+	uint64_t key = (uint64_t)n << 32 | sym;
+	size_t j, m = t->edgecap - 1;
+
+	for (j = edge_slot(key, t->edgecap); t->edges[j].key; j = (j + 1) & m)
+		if (t->edges[j].key == key)
+			return t->edges[j].child;
+	return 0;
+}
+
+static int grow_edges(trie *t)
+{
+	size_t cap = t->edgecap * 2, i, j;
+	edge *e = calloc(cap, sizeof *e);
+	if (!e)
+		return -1;
+	for (i = 0; i < t->edgecap; i++) {
+		if (!t->edges[i].key)
+			continue;
+		for (j = edge_slot(t->edges[i].key, cap); e[j].key; j = (j + 1) & (cap - 1))
+			;
+		e[j] = t->edges[i];
+	}
+	free(t->edges);
+	t->edges = e;
+	t->edgecap = cap;
+	return 0;
+}
+
+/* A new node; 0 when memory ran out. */
+static uint32_t trie_node(trie *t)
+{
+	if (t->nnode == t->nodecap) {
+		node *p = realloc(t->nodes, t->nodecap * 2 * sizeof *p);
+		if (!p)
+			return 0;
+		t->nodes = p;
+		t->nodecap *= 2;
+	}
+	t->nodes[t->nnode].first = 0;
+	t->nodes[t->nnode].cats = 0;
+	return (uint32_t)t->nnode++;
+}
+
+/* The child of node n by symbol sym, made when missing; 0 when memory
+ * ran out. */
+static uint32_t trie_add(trie *t, uint32_t n, uint32_t sym)
+{
+	uint64_t key = (uint64_t)n << 32 | sym;
+	uint32_t c = trie_get(t, n, sym);
+	size_t j;
+
+	if (c)
+		return c;
+	if ((t->nedge + 1) * 4 > t->edgecap * 3 && grow_edges(t) != 0)
+		return 0;
+	if (!(c = trie_node(t)))
+		return 0;
+	for (j = edge_slot(key, t->edgecap); t->edges[j].key; j = (j + 1) & (t->edgecap - 1))
+		;
+	t->edges[j].key = key;
+	t->edges[j].child = c;
+	t->nedge++;
+	return c;
 }
 
 lexicon *lex_new(void)
@@ -106,14 +204,17 @@ lexicon *lex_new(void)
 	lexicon *lx = calloc(1, sizeof *lx);
 	if (!lx)
 		return NULL;
-	/* sized for the bundled lexicons (about 90,000 phrases at a load of
-	 * at most 3/4), so loading them never rehashes */
-	lx->phcap = 1 << 17;
-	lx->ph = calloc(lx->phcap, sizeof *lx->ph);
+	/* sized for the bundled lexicons (about 90,000 phrases over some
+	 * 60,000 words at a load of at most 3/4), so loading them never
+	 * rehashes */
+	lx->voccap = 1 << 17;
+	lx->voc = calloc(lx->voccap, sizeof *lx->voc);
+	lx->root = calloc(lx->voccap, sizeof *lx->root);
 	lx->entcap = 1 << 17;
 	lx->ent = calloc(lx->entcap, sizeof *lx->ent);
 	lx->nent = 1;
-	if (!lx->ph || !lx->ent || buf_putc(&lx->strs, 0) != 0) {
+	if (!lx->voc || !lx->root || !lx->ent || trie_init(&lx->ph, 1 << 16, 1 << 17) ||
+	    trie_init(&lx->sfx, 1 << 10, 1 << 9) || buf_putc(&lx->strs, 0) != 0) {
 		lex_free(lx);
 		return NULL;
 	}
@@ -126,7 +227,12 @@ void lex_free(lexicon *lx)
 
 	if (!lx)
 		return;
-	free(lx->ph);
+	free(lx->voc);
+	free(lx->root);
+	free(lx->ph.edges);
+	free(lx->ph.nodes);
+	free(lx->sfx.edges);
+	free(lx->sfx.nodes);
 	free(lx->ent);
 	buf_free(&lx->strs);
 	for (i = 0; i < lx->npairs; i++) {
@@ -143,12 +249,126 @@ void lex_free(lexicon *lx)
 	free(lx);
 }
 
-uint64_t lex_seq_step(uint64_t h, uint64_t th) { return tok_hash_mix(h, th); }
+/* ---- the vocabulary and the phrase trie ---- */
 
-uint64_t lex_seq_final(uint64_t h, size_t ntok)
+uint32_t lex_word(const lexicon *lx, const char *fold, size_t len, uint64_t h)
 {
-	h ^= (uint64_t)ntok * 0x9E3779B97F4A7C15ULL;
-	return h ^ (h >> 31);
+	size_t m = lx->voccap - 1, j = h & m;
+	const word *w;
+
+	while ((w = &lx->voc[j])->id) {
+		if (w->h == h && w->len == len && !memcmp(lx->strs.data + w->str, fold, len))
+			return w->id;
+		j = (j + 1) & m;
+	}
+	return 0;
+}
+
+static int grow_vocab(lexicon *lx)
+{
+	size_t cap = lx->voccap * 2, i, m = cap - 1;
+	word *v = calloc(cap, sizeof *v);
+	uint32_t *r = calloc(cap, sizeof *r);
+	if (!v || !r) {
+		free(v);
+		free(r);
+		return -1;
+	}
+	for (i = 0; i < lx->voccap; i++) {
+		size_t j;
+		if (!lx->voc[i].id)
+			continue;
+		for (j = lx->voc[i].h & m; v[j].id; j = (j + 1) & m)
+			;
+		v[j] = lx->voc[i];
+	}
+	memcpy(r, lx->root, lx->voccap * sizeof *r);
+	free(lx->voc);
+	free(lx->root);
+	lx->voc = v;
+	lx->root = r;
+	lx->voccap = cap;
+	return 0;
+}
+
+/* The id of a word, added when new; 0 when memory ran out.  Ids stay
+ * below voccap, so root[] (as large) has a slot for each. */
+static uint32_t add_word(lexicon *lx, const char *fold, size_t len, uint64_t h)
+{
+	uint32_t id = lex_word(lx, fold, len, h);
+	size_t j;
+
+	if (id)
+		return id;
+	if ((lx->nvoc + 2) * 4 > lx->voccap * 3 && grow_vocab(lx) != 0)
+		return 0;
+	for (j = h & (lx->voccap - 1); lx->voc[j].id; j = (j + 1) & (lx->voccap - 1))
+		;
+	if (len > UINT32_MAX || buf_append(&lx->strs, fold, len) != 0)
+		return 0;
+	lx->voc[j].h = h;
+	lx->voc[j].str = (uint32_t)(lx->strs.len - len);
+	lx->voc[j].len = (uint32_t)len;
+	lx->voc[j].id = (uint32_t)++lx->nvoc;
+	return lx->voc[j].id;
+}
+
+uint32_t lex_step(const lexicon *lx, uint32_t n, uint32_t id)
+{
+	if (!id)
+		return 0;
+	return n == LEX_ROOT ? lx->root[id] : trie_get(&lx->ph, n, id);
+}
+
+/* The phrase trie's child of node n by word id, made when missing; 0
+ * when memory ran out. */
+static uint32_t add_step(lexicon *lx, uint32_t n, uint32_t id)
+{
+	uint32_t c;
+
+	if (!id)
+		return 0;
+	if (n != LEX_ROOT)
+		return trie_add(&lx->ph, n, id);
+	if (!lx->root[id] && (c = trie_node(&lx->ph)))
+		lx->root[id] = c;
+	return lx->root[id];
+}
+
+static const lex_entry *node_entry(const lexicon *lx, const node *nd,
+				   uint32_t *cats)
+{
+	if (!nd->first)
+		return NULL;
+	if (cats)
+		*cats = nd->cats;
+	return &lx->ent[nd->first];
+}
+
+const lex_entry *lex_phrase(const lexicon *lx, uint32_t n, uint32_t *cats)
+{
+	return n < lx->ph.nnode ? node_entry(lx, &lx->ph.nodes[n], cats) : NULL;
+}
+
+const lex_entry *lex_ending(const lexicon *lx, const char *fold, size_t len,
+			    size_t *elen)
+{
+	const node *best = NULL;
+	uint32_t n = 0;
+
+	if (!lx->sfx.nedge)
+		return NULL;
+	/* backwards from the last byte while some ending goes on: at most
+	 * as many steps as the longest ending has bytes */
+	for (size_t i = len; i-- > 0;) {
+		if (!(n = trie_get(&lx->sfx, n, (unsigned char)fold[i])))
+			break;
+		if (lx->sfx.nodes[n].first) {
+			best = &lx->sfx.nodes[n];
+			*elen = len - i;
+		}
+	}
+	return best ? node_entry(lx, best, NULL) : NULL;
 }
 
 static const char *intern(lexicon *lx, const char *v)
@@ -174,60 +394,6 @@ static const char *intern(lexicon *lx, const char *v)
 	lx->values[lx->nvalues++] = c;
 	lx->vslot[i] = c;
 	return c;
-}
-
-static int rehash_ph(lexicon *lx)
-{
-	size_t cap = lx->phcap * 2, i;
-	phrase *p = calloc(cap, sizeof *p);
-	if (!p)
-		return -1;
-	for (i = 0; i < lx->phcap; i++) {
-		if (!lx->ph[i].first)
-			continue;
-		size_t j = lx->ph[i].h & (cap - 1);
-		while (p[j].first)
-			j = (j + 1) & (cap - 1);
-		p[j] = lx->ph[i];
-	}
-	free(lx->ph);
-	lx->ph = p;
-	lx->phcap = cap;
-	return 0;
-}
-
-static int same_phrase(const lexicon *lx, const phrase *p, size_t ntok,
-		       const char *const *fold, const uint32_t *flen)
-{
-	const char *s = lx->strs.data + p->str;
-	size_t k, pos = 0;
-
-	if (p->ntok != ntok)
-		return 0;
-	for (k = 0; k < ntok; k++) {
-		if (pos + flen[k] > p->slen || memcmp(s + pos, fold[k], flen[k]))
-			return 0;
-		pos += flen[k];
-		if (k + 1 < ntok) {
-			if (pos >= p->slen || s[pos] != 0x1F)
-				return 0;
-			pos++;
-		}
-	}
-	return pos == p->slen;
-}
-
-const lex_entry *lex_find(const lexicon *lx, uint64_t seq, size_t ntok,
-			  const char *const *fold, const uint32_t *flen)
-{
-	size_t j = seq & (lx->phcap - 1);
-	while (lx->ph[j].first) {
-		const phrase *p = &lx->ph[j];
-		if (p->h == seq && same_phrase(lx, p, ntok, fold, flen))
-			return &lx->ent[p->first];
-		j = (j + 1) & (lx->phcap - 1);
-	}
-	return NULL;
 }
 
 const lex_entry *lex_next(const lexicon *lx, const lex_entry *e)
@@ -327,19 +493,106 @@ static int fold_units(lexicon *lx, const char *s, size_t n,
 
 #define MAXTOK 12
 
+/* Adds an entry to the list of node nd (a duplicate line adds nothing
+ * and switches an entry on again).  Returns 0 or -1 (memory). */
+static int add_entry(lexicon *lx, trie *t, uint32_t n, int cat, const char *lg,
+		     uint8_t amb, const char *value, int where, const char *ph,
+		     size_t plen)
+{
+	const char *v = intern(lx, value);
+	lex_entry *e;
+
+	if (!v)
+		return -1;
+	for (uint32_t r = t->nodes[n].first; r; r = lx->ent[r].next) {
+		lex_entry *o = &lx->ent[r];
+		if (o->cat == cat && o->where == where && o->amb == amb &&
+		    !strcmp(o->lang, lg) && o->value == v) {
+			o->off = 0;
+			return 0;
+		}
+	}
+	if (lx->nent == lx->entcap) {
+		size_t cap = lx->entcap * 2;
+		lex_entry *p = realloc(lx->ent, cap * sizeof *p);
+		if (!p)
+			return -1;
+		lx->ent = p;
+		lx->entcap = cap;
+	}
+	size_t idx = lx->nent++;
+	e = &lx->ent[idx];
+	memset(e, 0, sizeof *e);
+	e->cat = (uint8_t)cat;
+	e->where = (uint8_t)where;
+	e->amb = amb;
+	memcpy(e->lang, lg, 4);
+	e->value = v;
+	{
+		size_t up = 0, low = 0;
+		for (size_t q = 0; q < plen; q++) {
+			unsigned char c = (unsigned char)ph[q];
+			up += c >= 'A' && c <= 'Z';
+			low += c >= 'a' && c <= 'z';
+		}
+		e->caps = up >= 2 && low == 0;
+	}
+	/* appended to the end of the list: the order of the files is the
+	 * order of the entries */
+	if (!t->nodes[n].first)
+		t->nodes[n].first = (uint32_t)idx;
+	else {
+		uint32_t q = t->nodes[n].first;
+		while (lx->ent[q].next)
+			q = lx->ent[q].next;
+		lx->ent[q].next = (uint32_t)idx;
+	}
+	t->nodes[n].cats |= 1u << cat;
+	return 0;
+}
+
+/* An occupational ending: one word (a hyphen before it is allowed:
+ * "-fachkraft"), stored backwards in the ending trie. */
+static int add_ending(lexicon *lx, const char *lg, uint8_t amb, const char *ph,
+		      size_t plen, tm_buf *err)
+{
+	const char *fold[2];
+	uint32_t flen[2];
+	uint64_t th[2];
+	uint32_t n = 0;
+	int nu;
+
+	if (plen && ph[0] == '-') {
+		ph++;
+		plen--;
+	}
+	nu = fold_units(lx, ph, plen, fold, flen, th, 1);
+	if (nu < 0)
+		return err_printf(err, "out of memory%s%s", "", "");
+	if (nu != 1)
+		return err_printf(err, "an ending is one word, without spaces or punctuation%s%s", "", "");
+	for (size_t i = flen[0]; i-- > 0 && n != UINT32_MAX;)
+		if (!(n = trie_add(&lx->sfx, n, (unsigned char)fold[0][i])))
+			n = UINT32_MAX;
+	if (n == UINT32_MAX ||
+	    add_entry(lx, &lx->sfx, n, LC_OCCUPATION, lg, amb, "suffix", LW_ANY, ph, plen))
+		return err_printf(err, "out of memory%s%s", "", "");
+	return 0;
+}
+
 int lex_add(lexicon *lx, int cat, const char *lang, const char *ph,
 	    size_t plen, const char *value, int where, tm_buf *err)
 {
 	const char *fold[MAXTOK + 1];
 	uint32_t flen[MAXTOK + 1];
-	uint64_t th[MAXTOK + 1], seq = LEX_SEQ_SEED;
+	uint64_t th[MAXTOK + 1];
 	char lg[4];
 	uint8_t amb;
 	int nu, k;
 	const char *const *allowed = allowed_values(cat);
-	const char *v;
-	lex_entry *e;
 
+	if (cat < 0 || cat >= LC_NCAT)
+		return err_printf(err, "no category %s%s", "", "");
 	if (parse_lang(lang, lg, &amb) != 0)
 		return err_printf(err, "bad language '%s'%s", lang,
 				  " (want a subtag like de, *, or fr?)");
@@ -356,8 +609,13 @@ int lex_add(lexicon *lx, int cat, const char *lang, const char *ph,
 		     value[1] >= 'A' && value[1] <= 'Z'))
 		return err_printf(err, "bad country code '%s'%s", value,
 				  " (want two capitals or -)");
+	if ((cat == LC_OCCUPATION || cat == LC_BUSINESS) && where != LW_ANY)
+		return err_printf(err, "no WHERE in %s/ (write LANG, PHRASE and VALUE)%s",
+				  lex_cat_name(cat), "");
 	if (!dec_is_utf8(ph, plen) || memchr(ph, 0, plen))
 		return err_printf(err, "phrase is not valid UTF-8%s%s", "", "");
+	if (cat == LC_OCCUPATION && !strcmp(value, "suffix"))
+		return add_ending(lx, lg, amb, ph, plen, err);
 	nu = fold_units(lx, ph, plen, fold, flen, th, MAXTOK);
 	if (nu < 0)
 		return err_printf(err, "out of memory%s%s", "", "");
@@ -365,99 +623,19 @@ int lex_add(lexicon *lx, int cat, const char *lang, const char *ph,
 		return 1;
 	if (nu > MAXTOK)
 		return err_printf(err, "phrase longer than 12 tokens%s%s", "", "");
-	for (k = 0; k < nu; k++) {
-		seq = lex_seq_step(seq, th[k]);
-		size_t b = fbit(lex_seq_final(seq, (size_t)k + 1));
-		lx->pre[b >> 6] |= 1ULL << (b & 63);
-	}
-	seq = lex_seq_final(seq, (size_t)nu);
-	{
-		size_t b = fbit(seq);
-		lx->full[b >> 6] |= 1ULL << (b & 63);
-	}
-
-	/* find or insert the phrase */
-	const lex_entry *found = lex_find(lx, seq, (size_t)nu, fold, flen);
+	/* the phrase's node: walked, and made only for a phrase added */
+	uint32_t n = LEX_ROOT;
+	for (k = 0; k < nu && (n || k == 0); k++)
+		n = where == LW_OFF ? lex_step(lx, n, lex_word(lx, fold[k], flen[k], th[k]))
+				    : add_step(lx, n, add_word(lx, fold[k], flen[k], th[k]));
 	if (where == LW_OFF) {
-		for (const lex_entry *f = found; f; f = lex_next(lx, f))
+		for (const lex_entry *f = lex_phrase(lx, n, NULL); f; f = lex_next(lx, f))
 			if (f->cat == cat && !strcmp(f->lang, lg))
 				((lex_entry *)f)->off = 1;
 		return 0;
 	}
-	if (lx->nent == lx->entcap) {
-		size_t cap = lx->entcap * 2;
-		lex_entry *p = realloc(lx->ent, cap * sizeof *p);
-		if (!p)
-			return err_printf(err, "out of memory%s%s", "", "");
-		lx->ent = p;
-		lx->entcap = cap;
-		if (found)
-			found = NULL; /* re-found below */
-	}
-	if (!(v = intern(lx, value)))
+	if (!n || add_entry(lx, &lx->ph, n, cat, lg, amb, value, where, ph, plen))
 		return err_printf(err, "out of memory%s%s", "", "");
-	size_t idx = lx->nent++;
-	e = &lx->ent[idx];
-	memset(e, 0, sizeof *e);
-	e->cat = (uint8_t)cat;
-	e->where = (uint8_t)where;
-	e->amb = amb;
-	memcpy(e->lang, lg, sizeof lg);
-	e->value = v;
-	{
-		size_t up = 0, low = 0;
-		for (size_t q = 0; q < plen; q++) {
-			unsigned char c = (unsigned char)ph[q];
-			up += c >= 'A' && c <= 'Z';
-			low += c >= 'a' && c <= 'z';
-		}
-		e->caps = up >= 2 && low == 0;
-	}
-
-	size_t j = seq & (lx->phcap - 1);
-	while (lx->ph[j].first) {
-		phrase *p = &lx->ph[j];
-		if (p->h == seq && same_phrase(lx, p, (size_t)nu, fold, flen)) {
-			/* append to the end of its entry list */
-			uint32_t q = p->first;
-			while (lx->ent[q].next)
-				q = lx->ent[q].next;
-			/* a duplicate line adds nothing */
-			for (uint32_t r = p->first; r; r = lx->ent[r].next) {
-				lex_entry *o = &lx->ent[r];
-				if (o->cat == cat && o->where == where &&
-				    o->amb == amb && !strcmp(o->lang, lg) &&
-				    o->value == v) {
-					o->off = 0;
-					lx->nent--;
-					return 0;
-				}
-			}
-			lx->ent[q].next = (uint32_t)idx;
-			return 0;
-		}
-		j = (j + 1) & (lx->phcap - 1);
-	}
-	if ((lx->nph + 1) * 4 > lx->phcap * 3) {
-		if (rehash_ph(lx) != 0)
-			return err_printf(err, "out of memory%s%s", "", "");
-		j = seq & (lx->phcap - 1);
-		while (lx->ph[j].first)
-			j = (j + 1) & (lx->phcap - 1);
-	}
-	phrase *p = &lx->ph[j];
-	p->h = seq;
-	p->ntok = (uint8_t)nu;
-	p->first = (uint32_t)idx;
-	p->str = (uint32_t)lx->strs.len;
-	for (k = 0; k < nu; k++) {
-		if (k && buf_putc(&lx->strs, 0x1F) != 0)
-			return err_printf(err, "out of memory%s%s", "", "");
-		if (buf_append(&lx->strs, fold[k], flen[k]) != 0)
-			return err_printf(err, "out of memory%s%s", "", "");
-	}
-	p->slen = (uint32_t)(lx->strs.len - p->str);
-	lx->nph++;
 	return 0;
 }
 
@@ -622,6 +800,12 @@ int lex_load_file(lexicon *lx, int cat, int gk, const char *path, tm_buf *err)
 		} else {
 			int w = parse_where(nf > 3 ? f[3] : NULL, cat);
 			int r;
+			if (nf > 3 && (cat == LC_OCCUPATION || cat == LC_BUSINESS)) {
+				err_printf(err, "no WHERE in %s/ (want LANG<TAB>PHRASE<TAB>VALUE)%s",
+					   lex_cat_name(cat), "");
+				rc = file_error(err, path, line);
+				break;
+			}
 			if (w < 0) {
 				err_printf(err, "unknown place restriction '%s'%s",
 					   f[3], " (any, edge, alone, slot, strong, off)");

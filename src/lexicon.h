@@ -1,11 +1,15 @@
-/* lexicon.h - the noise lexicons, loaded from text files and compiled
- * into hash tables over token sequences (see lexicons/README.md for the
- * file format).
+/* lexicon.h - the lexicons, loaded from text files and compiled into
+ * one trie over the words of all phrases of all categories (see
+ * lexicons/README.md for the file format).
  *
  * A lexicon is built once at start-up and read-only afterwards: any
- * number of normalisers may share it.  Phrases are stored in their
- * match-key fold, one token per unit (weak punctuation dropped), so a
- * lookup is one probe per candidate length. */
+ * number of normalisers may share it.  Every word of every phrase, in
+ * its match-key fold, has an id in the lexicon's vocabulary; a phrase
+ * (weak punctuation dropped) is a path of word ids from the root of the
+ * trie, and the node it ends at holds its entries, of every category.
+ * So the phrases starting at a word are found by walking from the root
+ * one word at a time, one probe per step, however many categories and
+ * entries there are. */
 #ifndef TM_LEXICON_H
 #define TM_LEXICON_H
 
@@ -26,6 +30,8 @@ enum lex_cat {
 	LC_PLACE,
 	LC_PROTECT,
 	LC_UNIT,
+	LC_OCCUPATION, /* head words, fields; endings (value suffix) apart */
+	LC_BUSINESS,   /* kinds of business, legal forms, name articles */
 	LC_NCAT
 };
 
@@ -73,25 +79,35 @@ int lex_load_file(lexicon *lx, int cat, int gender_kind, const char *path,
 int lex_add(lexicon *lx, int cat, const char *lang, const char *phrase,
 	    size_t plen, const char *value, int where, tm_buf *err);
 
-/* The first entry of the phrase whose tokens have the given folds, or
- * NULL.  seq is the sequence hash (lex_seq_hash over the token hashes). */
-const lex_entry *lex_find(const lexicon *lx, uint64_t seq, size_t ntok,
-			  const char *const *fold, const uint32_t *flen);
+/* The trie's root node. */
+#define LEX_ROOT 0
+
+/* The id of a word (its fold; h = tok_hash(fold, len)) in the
+ * vocabulary, or 0 when no phrase holds that word. */
+uint32_t lex_word(const lexicon *lx, const char *fold, size_t len, uint64_t h);
+
+/* The node reached from node n by the word of id `word`, or 0 when no
+ * phrase goes on that way (always 0 for word 0). */
+uint32_t lex_step(const lexicon *lx, uint32_t n, uint32_t word);
+
+/* The first entry of the phrase ending at node n, or NULL when n only
+ * starts longer phrases; *cats (when cats is not NULL) receives the
+ * categories of all its entries (1 << cat). */
+const lex_entry *lex_phrase(const lexicon *lx, uint32_t n, uint32_t *cats);
+
+/* The entry of the longest occupational ending (occupation/, value
+ * `suffix`) that the word fold[0..len) ends with, or NULL; *elen
+ * receives the ending's length in bytes.  The word may be the ending
+ * itself.  Costs at most one step per byte of the longest ending. */
+const lex_entry *lex_ending(const lexicon *lx, const char *fold, size_t len,
+			    size_t *elen);
+
+/* The next entry of the same phrase, or NULL. */
 const lex_entry *lex_next(const lexicon *lx, const lex_entry *e);
 /* An entry's index, and the entry of an index (stable while no entry is
  * added). */
 size_t lex_entry_index(const lexicon *lx, const lex_entry *e);
 const lex_entry *lex_entry_at(const lexicon *lx, size_t i);
-
-uint64_t lex_seq_step(uint64_t h, uint64_t th);
-uint64_t lex_seq_final(uint64_t h, size_t ntok);
-#define LEX_SEQ_SEED 0x243F6A8885A308D3ULL
-
-/* Quick filters: 0 proves that no phrase starts with the token sequence
- * of hash seq (lex_seq_final over its tokens), or that no phrase is
- * exactly that sequence; 1 means maybe. */
-int lex_maybe_prefix(const lexicon *lx, uint64_t seq);
-int lex_maybe_phrase(const lexicon *lx, uint64_t seq);
 
 const lex_pair *lex_pairs(const lexicon *lx, size_t *n);
 

@@ -1,5 +1,6 @@
 /* norm.c - the normaliser pipeline: decode, prepare, tokenise, segment,
- * run the lexicon passes, render the clean title and the match key. */
+ * annotate, run the rules, render the clean title and the match key;
+ * the memory of recent titles. */
 #include "norm.h"
 
 #include <stdlib.h>
@@ -7,24 +8,30 @@
 
 #include "decode.h"
 #include "pass.h"
+#include "title.h"
+#include "unicode.h"
 
-static const char *const kind_names[NF_NKIND] = {
-	"gender", "seniority", "location", "schedule", "hours", "workload",
-	"pay", "reference", "date", "marketing", "employer", "email",
-	"phone", "url", "location-slot",
+struct normaliser {
+	tm_title ti;      /* the line the rules work on */
+	uni_ctx u;
+	tm_buf dec, work, title, key, ptext, again, masked;
+	size_t hidden;    /* kept units the renderer did not show */
+	/* the memory of recent titles: a ring of records, a table of slots */
+	char *ring;
+	size_t ring_cap, ring_pos;
+	uint64_t ring_total;  /* bytes ever written, for validity */
+	struct memo_slot { uint64_t h, at; uint32_t len; } *slot;
+	size_t nslot, hits, calls;
+	nf_piece *pieces;
+	size_t pcap;
 };
-
-const char *nf_kind_name(int kind)
-{
-	return kind >= 0 && kind < NF_NKIND ? kind_names[kind] : "other";
-}
 
 normaliser *norm_new(const lexicon *lx)
 {
 	normaliser *nm = calloc(1, sizeof *nm);
 	if (!nm)
 		return NULL;
-	nm->lx = lx;
+	nm->ti.lx = lx;
 	return nm;
 }
 
@@ -32,8 +39,8 @@ void norm_free(normaliser *nm)
 {
 	if (!nm)
 		return;
+	title_free(&nm->ti);
 	uni_ctx_free(&nm->u);
-	tok_line_free(&nm->tl);
 	buf_free(&nm->dec);
 	buf_free(&nm->work);
 	buf_free(&nm->title);
@@ -41,293 +48,10 @@ void norm_free(normaliser *nm)
 	buf_free(&nm->ptext);
 	buf_free(&nm->again);
 	buf_free(&nm->masked);
-	free(nm->rm);
-	free(nm->prot);
-	free(nm->tseg);
-	free(nm->tunit);
-	free(nm->unit);
-	free(nm->segs);
-	free(nm->spans);
 	free(nm->pieces);
-	free(nm->mc);
-	free(nm->moff);
-	free(nm->ucats);
-	free(nm->nextk);
 	free(nm->ring);
 	free(nm->slot);
 	free(nm);
-}
-
-static int grow_arrays(normaliser *nm, size_t ntok)
-{
-	if (ntok <= nm->tcap)
-		return 0;
-	size_t cap = nm->tcap ? nm->tcap : 64;
-	while (cap < ntok)
-		cap *= 2;
-	uint8_t *rm = realloc(nm->rm, cap);
-	if (!rm)
-		return -1;
-	nm->rm = rm;
-	uint8_t *pr = realloc(nm->prot, cap);
-	if (!pr)
-		return -1;
-	nm->prot = pr;
-	uint32_t *ts = realloc(nm->tseg, cap * sizeof *ts);
-	if (!ts)
-		return -1;
-	nm->tseg = ts;
-	uint32_t *tu = realloc(nm->tunit, cap * sizeof *tu);
-	if (!tu)
-		return -1;
-	nm->tunit = tu;
-	uint32_t *un = realloc(nm->unit, cap * sizeof *un);
-	if (!un)
-		return -1;
-	nm->unit = un;
-	seg *sg = realloc(nm->segs, cap * sizeof *sg);
-	if (!sg)
-		return -1;
-	nm->segs = sg;
-	uint32_t *mo = realloc(nm->moff, (cap + 1) * sizeof *mo);
-	if (!mo)
-		return -1;
-	nm->moff = mo;
-	uint16_t *uc = realloc(nm->ucats, (cap + 1) * sizeof *uc);
-	if (!uc)
-		return -1;
-	nm->ucats = uc;
-	uint32_t *nk = realloc(nm->nextk, (cap + 1) * sizeof *nk);
-	if (!nk)
-		return -1;
-	nm->nextk = nk;
-	nm->tcap = cap;
-	return 0;
-}
-
-int entry_applies(const normaliser *nm, const lex_entry *e)
-{
-	if (e->off)
-		return 0;
-	if (!e->amb || nm->any_lang)
-		return 1;
-	return nm->lang && strcmp(e->lang, nm->lang) == 0;
-}
-
-#define MAXPH 12
-
-/* Fills the phrase cache: for each unit, every phrase of the lexicon
- * that starts there, longest first.  Units removed by the gender pass
- * are transparent ("Addetto/a alla somministrazione"). */
-static int cache_build(normaliser *nm)
-{
-	const char *fold[MAXPH];
-	uint32_t fl[MAXPH];
-	size_t endu[MAXPH];
-	uint64_t seq[MAXPH];
-
-	nm->nmc = 0;
-	nm->lcats = 0;
-	nm->nextk[nm->nunit] = (uint32_t)nm->nunit;
-	for (size_t k = nm->nunit; k-- > 0;)
-		nm->nextk[k] = nm->rm[nm->unit[k]] == NF_GENDER ? nm->nextk[k + 1] : (uint32_t)k;
-	for (size_t k = 0; k < nm->nunit; k++) {
-		size_t n = 0, j, L;
-		uint64_t h = LEX_SEQ_SEED;
-		uint32_t s = useg(nm, k);
-
-		nm->moff[k] = (uint32_t)nm->nmc;
-		nm->ucats[k] = 0;
-		for (j = k; j < nm->nunit && n < MAXPH; j++) {
-			if (j > k && nm->rm[nm->unit[j]] == NF_GENDER) {
-				/* the whole run of removed markers at once: one by
-				 * one, "(m/w/d) " x 10,000 was quadratic */
-				j = nm->nextk[j] - 1;
-				continue;
-			}
-			if (useg(nm, j) != s && !(j > k && nm->rm[nm->unit[j - 1]] == NF_GENDER))
-				break;
-			h = lex_seq_step(h, U(nm, j)->hash);
-			seq[n] = lex_seq_final(h, n + 1);
-			/* no phrase goes on like this: stop */
-			if (!lex_maybe_prefix(nm->lx, seq[n]))
-				break;
-			fold[n] = ufold(nm, j, &fl[n]);
-			endu[n] = j + 1;
-			n++;
-		}
-		for (L = n; L >= 1; L--) {
-			if (!lex_maybe_phrase(nm->lx, seq[L - 1]))
-				continue;
-			const lex_entry *e = lex_find(nm->lx, seq[L - 1], L, fold, fl);
-			if (!e)
-				continue;
-			if (nm->nmc == nm->mccap) {
-				size_t cap = nm->mccap ? nm->mccap * 2 : 64;
-				struct mcache *p = realloc(nm->mc, cap * sizeof *p);
-				if (!p)
-					return -1;
-				nm->mc = p;
-				nm->mccap = cap;
-			}
-			nm->mc[nm->nmc].first = (uint32_t)lex_entry_index(nm->lx, e);
-			nm->mc[nm->nmc].units = (uint32_t)(endu[L - 1] - k);
-			uint16_t cats = 0;
-			for (const lex_entry *f = e; f; f = lex_next(nm->lx, f))
-				cats |= (uint16_t)(1u << f->cat);
-			nm->mc[nm->nmc].cats = cats;
-			nm->ucats[k] |= cats;
-			nm->lcats |= cats;
-			nm->nmc++;
-		}
-	}
-	nm->moff[nm->nunit] = (uint32_t)nm->nmc;
-	return 0;
-}
-
-static const lex_entry *match_gen(normaliser *nm, size_t k, unsigned mask,
-				  const char *value, int kept, size_t *len)
-{
-	if (k >= nm->nunit)
-		return NULL;
-	for (uint32_t i = nm->moff[k]; i < nm->moff[k + 1]; i++) {
-		size_t nu = nm->mc[i].units, j;
-		int ok = 1;
-		if (!(nm->mc[i].cats & mask))
-			continue;
-		if (kept)
-			for (j = k; j < k + nu && ok; j++) {
-				uint32_t t = nm->unit[j];
-				if (nm->rm[t] == NF_GENDER && j > k) {
-					/* a run of markers at once ("ab (m/w/d) x
-					 * 300 sofort"): units only ever get removed,
-					 * so the run of cache_build is still one */
-					if (nm->nextk[j] > j)
-						j = nm->nextk[j] - 1;
-					continue;
-				}
-				if (nm->rm[t] != RM_NONE || nm->prot[t])
-					ok = 0;
-			}
-		if (!ok)
-			continue;
-		for (const lex_entry *e = lex_entry_at(nm->lx, nm->mc[i].first); e;
-		     e = lex_next(nm->lx, e))
-			if ((mask & (1u << e->cat)) && entry_applies(nm, e) &&
-			    (!value || (e->value[0] == value[0] &&
-					strcmp(e->value, value) == 0))) {
-				*len = nu;
-				return e;
-			}
-	}
-	return NULL;
-}
-
-const lex_entry *match_val_(normaliser *nm, size_t k, int cat,
-			    const char *value, int kept, size_t *len)
-{
-	return match_gen(nm, k, 1u << cat, value, kept, len);
-}
-
-const lex_entry *match_mask_(normaliser *nm, size_t k, unsigned mask,
-			     int kept, size_t *len)
-{
-	return match_gen(nm, k, mask, NULL, kept, len);
-}
-
-const lex_entry *match_cat_(normaliser *nm, size_t k, int cat, int kept,
-			    size_t *len)
-{
-	return match_gen(nm, k, 1u << cat, NULL, kept, len);
-}
-
-int remove_toks(normaliser *nm, size_t t0, size_t t1, int kind,
-		const char *value)
-{
-	size_t t, any = 0;
-
-	for (t = t0; t <= t1 && t < nm->tl.n; t++)
-		if (!nm->prot[t] && nm->rm[t] == RM_NONE) {
-			nm->rm[t] = (uint8_t)kind;
-			any++;
-		}
-	if (!any)
-		return 0;
-	nm->gen++;
-	if (nm->nspan == nm->spcap) {
-		size_t cap = nm->spcap ? nm->spcap * 2 : 16;
-		span *p = realloc(nm->spans, cap * sizeof *p);
-		if (!p)
-			return -1;
-		nm->spans = p;
-		nm->spcap = cap;
-	}
-	nm->spans[nm->nspan].t0 = (uint32_t)t0;
-	nm->spans[nm->nspan].t1 = (uint32_t)t1;
-	nm->spans[nm->nspan].kind = (uint8_t)kind;
-	nm->spans[nm->nspan].value = value;
-	nm->nspan++;
-	return 0;
-}
-
-int remove_units(normaliser *nm, size_t k0, size_t k1, int kind,
-		 const char *value)
-{
-	if (k1 <= k0)
-		return 0;
-	return remove_toks(nm, nm->unit[k0], nm->unit[k1 - 1], kind, value);
-}
-
-int units_free(normaliser *nm, size_t k0, size_t k1)
-{
-	for (size_t k = k0; k < k1; k++)
-		if (!ukept(nm, k) || nm->prot[nm->unit[k]])
-			return 0;
-	return 1;
-}
-
-void seg_kept(normaliser *nm, size_t s, size_t *k0, size_t *k1)
-{
-	seg *g = &nm->segs[s];
-	size_t a = g->u0, b = g->u1;
-
-	/* remembered until the next removal */
-	if (g->gen == nm->gen) {
-		*k0 = g->k0;
-		*k1 = g->k1;
-		return;
-	}
-	/* units are only ever removed: go on from the last answer (from
-	 * the segment's ends each time, peeling "ab sofort " x 10,000 off
-	 * an edge was quadratic) */
-	if (g->gen) {
-		a = g->k0;
-		b = g->k1;
-	}
-	while (a < b && !ukept(nm, a))
-		a++;
-	while (b > a && !ukept(nm, b - 1))
-		b--;
-	g->k0 = (uint32_t)a;
-	g->k1 = (uint32_t)b;
-	g->gen = nm->gen;
-	*k0 = a;
-	*k1 = b;
-}
-
-int glued(normaliser *nm, size_t a, size_t b, const char *puncts)
-{
-	size_t t;
-	for (t = nm->unit[a] + 1; t <= nm->unit[b]; t++) {
-		const tm_tok *x = &nm->tl.t[t];
-		if (x->sp)
-			return 0;
-		if (t == nm->unit[b])
-			break;
-		if (x->kind != TK_PUNCT || !x->ch || !strchr(puncts, x->ch))
-			return 0;
-	}
-	return 1;
 }
 
 static int prepare(normaliser *nm, const char *s, size_t n)
@@ -336,121 +60,22 @@ static int prepare(normaliser *nm, const char *s, size_t n)
 	return uni_prepare(&nm->u, s, n, &nm->work);
 }
 
-static int build(normaliser *nm)
-{
-	tok_line *tl = &nm->tl;
-	size_t t, depth = 0;
-	uint32_t cur = 0;
-	int newseg = 1, inbr = 0, outer = -1, resume = -1;
-
-	if (grow_arrays(nm, tl->n + 1) != 0)
-		return -1;
-	memset(nm->rm, RM_NONE, tl->n);
-	memset(nm->prot, 0, tl->n);
-	nm->nunit = nm->nseg = nm->nspan = 0;
-	nm->gen++;
-	nm->lflags = 0;
-	int head_seen = 0;
-	for (t = 0; t < tl->n; t++) {
-		tm_tok *x = &tl->t[t];
-		nm->tunit[t] = UINT32_MAX;
-		nm->tseg[t] = UINT32_MAX;
-		if (x->kind != TK_PUNCT && x->flen == 0) {
-			/* a lone mark or an ignorable: folds to nothing, is
-			 * no word (the renderer never shows it) */
-			nm->rm[t] = NF_SLOT;
-			continue;
-		}
-		switch (x->kind) {
-		case TK_NUM: nm->lflags |= LF_NUM; break;
-		case TK_SYM: nm->lflags |= LF_SYM; break;
-		case TK_WORD:
-			if (x->flags & TF_DIGIT)
-				nm->lflags |= LF_DIGITWORD;
-			if (x->flags & TF_CAPSUF)
-				nm->lflags |= LF_CAPSUF;
-			if ((x->flen == 3 || x->flen == 4 || x->flen == 5) &&
-			    (!memcmp(tok_fold(tl, x), "www", 3) ||
-			     !memcmp(tok_fold(tl, x), "http", x->flen < 4 ? 3 : 4)))
-				nm->lflags |= LF_URL;
-			/* an address written "jobs(at)…" */
-			if (x->flen == 2 && !memcmp(tok_fold(tl, x), "at", 2))
-				nm->lflags |= LF_URL;
-			break;
-		default:
-			if (x->ch && strchr("/-*:_.(,|\x01", x->ch))
-				nm->lflags |= LF_JOIN;
-			if (x->ch == '=') /* a query: "…/jobs?ref=board" */
-				nm->lflags |= LF_URL;
-			break;
-		}
-		if (x->kind == TK_PUNCT) {
-			if (x->flags & TF_OPEN) {
-				/* the text after the bracket goes on with the
-				 * segment before it, "Koch (m/w/d) Vollzeit" */
-				if (depth == 0)
-					outer = nm->nseg ? (int)nm->segs[cur].index : -1;
-				depth++;
-				inbr = 1;
-				newseg = 1;
-				resume = -1;
-			} else if (x->flags & TF_CLOSE) {
-				if (depth)
-					depth--;
-				inbr = depth > 0;
-				newseg = 1;
-				resume = depth == 0 ? outer : -1;
-			} else if (x->flags & TF_STRONG) {
-				newseg = 1;
-				resume = -1;
-			}
-			continue;
-		}
-		if (newseg) {
-			seg *g = &nm->segs[nm->nseg];
-			g->u0 = g->u1 = (uint32_t)nm->nunit;
-			g->bracket = (uint8_t)inbr;
-			/* 0 marks the head: the first segment outside
-			 * brackets and what resumes it after a bracket */
-			g->resumed = 0;
-			if (inbr)
-				g->index = 1;
-			else if (!head_seen || resume == 0) {
-				g->index = 0;
-				g->resumed = head_seen;
-			}
-			else
-				g->index = (uint8_t)(nm->nseg > 255 ? 255 : nm->nseg);
-			if (!inbr)
-				head_seen = 1;
-			g->gen = 0;
-			cur = (uint32_t)nm->nseg++;
-			newseg = 0;
-		}
-		nm->tseg[t] = cur;
-		nm->tunit[t] = (uint32_t)nm->nunit;
-		nm->unit[nm->nunit++] = (uint32_t)t;
-		nm->segs[cur].u1 = (uint32_t)nm->nunit;
-	}
-	return 0;
-}
-
-static void protect(normaliser *nm)
+static void protect(tm_title *ti)
 {
 	size_t k = 0, len;
-	while (k < nm->nunit) {
-		if (match_cat(nm, k, LC_PROTECT, 0, &len)) {
-			for (size_t t = nm->unit[k]; t <= nm->unit[k + len - 1]; t++)
-				nm->prot[t] = 1;
+	while (k < ti->nunit) {
+		if (match_cat(ti, k, LC_PROTECT, 0, &len)) {
+			for (size_t t = ti->unit[k]; t <= ti->unit[k + len - 1]; t++)
+				ti->prot[t] = 1;
 			k += len;
 		} else
 			k++;
 	}
 }
 
-static int put_lower(normaliser *nm, tm_buf *b, const tm_tok *t)
+static int put_lower(const char *text, tm_buf *b, const tm_tok *t)
 {
-	const char *p = nm->work.data + t->off;
+	const char *p = text + t->off;
 	if (!(t->flags & TF_NONASCII) && (unsigned char)p[0] < 0x80) {
 		if (buf_reserve(b, t->len) != 0)
 			return -1;
@@ -463,167 +88,134 @@ static int put_lower(normaliser *nm, tm_buf *b, const tm_tok *t)
 	return uni_lower(p, t->len, b);
 }
 
-static int is_kept_word(normaliser *nm, size_t k)
+static int is_kept_word(tm_title *ti, size_t k)
 {
-	return ukept(nm, k) && U(nm, k)->kind != TK_SYM;
+	return ukept(ti, k) && U(ti, k)->kind != TK_SYM;
 }
 
 /* A symbol unit is shown only for & and + standing between kept words. */
-static int show_unit(normaliser *nm, size_t k)
+static int show_unit(tm_title *ti, size_t k)
 {
-	const tm_tok *t = U(nm, k);
+	const tm_tok *t = U(ti, k);
 	size_t j;
 
-	if (!ukept(nm, k))
+	if (!ukept(ti, k))
 		return 0;
 	if (t->kind != TK_SYM)
 		return 1;
 	if (t->ch != '&' && t->ch != '+')
 		return 0;
-	for (j = k; j > 0 && !ukept(nm, j - 1); j--)
+	for (j = k; j > 0 && !ukept(ti, j - 1); j--)
 		;
-	if (j == 0 || !is_kept_word(nm, j - 1))
+	if (j == 0 || !is_kept_word(ti, j - 1))
 		return 0;
-	for (j = k + 1; j < nm->nunit && !ukept(nm, j); j++)
+	for (j = k + 1; j < ti->nunit && !ukept(ti, j); j++)
 		;
-	return j < nm->nunit && is_kept_word(nm, j);
+	return j < ti->nunit && is_kept_word(ti, j);
 }
 
 /* A dot right after word token a, then a space, then the kept word b
  * of the same segment with nothing removed between. */
-static int abbrev_dot(normaliser *nm, size_t a, size_t b)
+static int abbrev_dot(tm_title *ti, size_t a, size_t b)
 {
-	const tm_tok *w = &nm->tl.t[a];
-	if (w->kind != TK_WORD || a + 2 != b || nm->tseg[a] != nm->tseg[b])
+	const tm_tok *w = &ti->tl.t[a];
+	if (w->kind != TK_WORD || a + 2 != b || ti->tseg[a] != ti->tseg[b])
 		return 0;
 	return w->len <= 6;
 }
 
-static int is_connector(normaliser *nm, size_t k)
+static int is_connector(tm_title *ti, size_t k)
 {
 	size_t len;
-	return match_val(nm, k, LC_UNIT, "connector", 0, &len) != NULL;
+	return match_val(ti, k, LC_UNIT, "connector", 0, &len) != NULL;
 }
 
 static int render(normaliser *nm, norm_result *res)
 {
 	size_t k, prev = SIZE_MAX;
-	tm_buf *ti = &nm->title, *ke = &nm->key;
+	tm_title *ti = &nm->ti;
+	tm_buf *out = &nm->title, *ke = &nm->key;
 
-	buf_reset(ti);
+	buf_reset(out);
 	buf_reset(ke);
 	nm->hidden = 0;
-	for (k = 0; k < nm->nunit; k++) {
-		const tm_tok *t = U(nm, k);
-		if (!show_unit(nm, k)) {
-			nm->hidden += ukept(nm, k);
+	for (k = 0; k < ti->nunit; k++) {
+		const tm_tok *t = U(ti, k);
+		if (!show_unit(ti, k)) {
+			nm->hidden += ukept(ti, k);
 			continue;
 		}
 		if (prev != SIZE_MAX) {
 			/* glue: the weak punctuation written between two kept
 			 * units with no space and nothing removed between */
-			size_t a = nm->unit[prev], b = nm->unit[k], x;
+			size_t a = ti->unit[prev], b = ti->unit[k], x;
 			int space = 0;
 			for (x = a + 1; x <= b; x++) {
-				const tm_tok *m = &nm->tl.t[x];
-				if (m->sp || (x < b && (nm->rm[x] != RM_NONE ||
+				const tm_tok *m = &ti->tl.t[x];
+				if (m->sp || (x < b && (ti->rm[x] != RM_NONE ||
 							(m->flags & TF_STRONG) ||
 							m->kind != TK_PUNCT)))
 					space = 1;
 			}
-			if (space || ((t->kind == TK_SYM || U(nm, prev)->kind == TK_SYM) &&
+			if (space || ((t->kind == TK_SYM || U(ti, prev)->kind == TK_SYM) &&
 				      b != a + 1)) {
 				/* an abbreviation's dot (Kfm. Sachbearbeiter) and a
 				 * suspended hyphen (Energie- und Gebäudetechnik)
 				 * stay with their word */
-				const tm_tok *d = a + 1 < nm->tl.n ? &nm->tl.t[a + 1] : NULL;
+				const tm_tok *d = a + 1 < ti->tl.n ? &ti->tl.t[a + 1] : NULL;
 				if (d && d->kind == TK_PUNCT && !d->sp && a + 1 < b &&
-				    nm->rm[a + 1] == RM_NONE && nm->tl.t[a + 2].sp &&
-				    ((d->ch == '.' && abbrev_dot(nm, a, b)) ||
-				     (d->ch == '-' && is_connector(nm, k))))
-					if (buf_putc(ti, (char)d->ch))
+				    ti->rm[a + 1] == RM_NONE && ti->tl.t[a + 2].sp &&
+				    ((d->ch == '.' && abbrev_dot(ti, a, b)) ||
+				     (d->ch == '-' && is_connector(ti, k))))
+					if (buf_putc(out, (char)d->ch))
 						return -1;
 				/* Lagerist / Kommissionierer: a spaced slash alone
 				 * between two kept words stays (spaced as written:
 				 * "Job/&o" spaced would read as two segments) */
-				if (b == a + 2 && nm->tl.t[a + 1].ch == '/' &&
-				    nm->tl.t[a + 1].kind == TK_PUNCT && nm->rm[a + 1] == RM_NONE &&
-				    (nm->tl.t[a + 1].sp || nm->tl.t[b].sp)) {
-					if (buf_puts(ti, " / ") || buf_putc(ke, ' '))
+				if (b == a + 2 && ti->tl.t[a + 1].ch == '/' &&
+				    ti->tl.t[a + 1].kind == TK_PUNCT && ti->rm[a + 1] == RM_NONE &&
+				    (ti->tl.t[a + 1].sp || ti->tl.t[b].sp)) {
+					if (buf_puts(out, " / ") || buf_putc(ke, ' '))
 						return -1;
-				} else if (buf_putc(ti, ' ') || buf_putc(ke, ' '))
+				} else if (buf_putc(out, ' ') || buf_putc(ke, ' '))
 					return -1;
 			} else if (b == a + 1) {
 				/* directly adjacent: 75 + k, Linked + In */
 			} else {
 				for (x = a + 1; x < b; x++)
-					if (put_lower(nm, ti, &nm->tl.t[x]))
+					if (put_lower(nm->work.data, out, &ti->tl.t[x]))
 						return -1;
 				if (buf_putc(ke, ' '))
 					return -1;
 			}
 		}
-		if (put_lower(nm, ti, t) ||
-		    buf_append(ke, tok_fold(&nm->tl, t), t->flen))
+		if (put_lower(nm->work.data, out, t) ||
+		    buf_append(ke, tok_fold(&ti->tl, t), t->flen))
 			return -1;
 		prev = k;
 	}
-	res->title = ti->data ? ti->data : "";
-	res->title_len = ti->len;
+	res->title = out->data ? out->data : "";
+	res->title_len = out->len;
 	res->key = ke->data ? ke->data : "";
 	res->key_len = ke->len;
 	return 0;
-}
-
-/* Sorts the spans by their first token, stably (each pass adds its own
- * in title order).  Insertion for the few pieces of a title; a merge sort
- * for thousands ("(m/w/d) in Berlin - " repeated: insertion was
- * quadratic), or insertion still when memory for it ran out. */
-static void sort_spans(normaliser *nm)
-{
-	size_t n = nm->nspan;
-	span *v = nm->spans, *tmp;
-
-	if (n <= 32 || !(tmp = malloc(n * sizeof *tmp))) {
-		for (size_t i = 1, j; i < n; i++) {
-			span s = v[i];
-			for (j = i; j > 0 && v[j - 1].t0 > s.t0; j--)
-				v[j] = v[j - 1];
-			v[j] = s;
-		}
-		return;
-	}
-	for (size_t w = 1; w < n; w *= 2) {
-		for (size_t lo = 0; lo < n; lo += 2 * w) {
-			size_t mid = lo + w < n ? lo + w : n, hi = lo + 2 * w < n ? lo + 2 * w : n;
-			size_t i = lo, j = mid, k = lo;
-			while (i < mid && j < hi)
-				tmp[k++] = v[j].t0 < v[i].t0 ? v[j++] : v[i++];
-			while (i < mid)
-				tmp[k++] = v[i++];
-			while (j < hi)
-				tmp[k++] = v[j++];
-		}
-		memcpy(v, tmp, n * sizeof *v);
-	}
-	free(tmp);
 }
 
 static int pieces(normaliser *nm, norm_result *res)
 {
 	size_t i;
 
-	sort_spans(nm);
-	if (nm->nspan > nm->pcap) {
-		nf_piece *p = realloc(nm->pieces, nm->nspan * sizeof *p);
+	title_sort_spans(&nm->ti);
+	if (nm->ti.nspan > nm->pcap) {
+		nf_piece *p = realloc(nm->pieces, nm->ti.nspan * sizeof *p);
 		if (!p)
 			return -1;
 		nm->pieces = p;
-		nm->pcap = nm->nspan;
+		nm->pcap = nm->ti.nspan;
 	}
-	for (i = 0; i < nm->nspan; i++) {
-		const span *s = &nm->spans[i];
-		const tm_tok *a = &nm->tl.t[s->t0], *b = &nm->tl.t[s->t1];
+	for (i = 0; i < nm->ti.nspan; i++) {
+		const tm_span *s = &nm->ti.spans[i];
+		const tm_tok *a = &nm->ti.tl.t[s->t0], *b = &nm->ti.tl.t[s->t1];
 		nf_piece *p = &nm->pieces[i];
 		p->kind = s->kind;
 		p->value = s->value;
@@ -631,40 +223,48 @@ static int pieces(normaliser *nm, norm_result *res)
 		p->len = b->off + b->len - a->off;
 	}
 	res->piece = nm->pieces;
-	res->npiece = nm->nspan;
+	res->npiece = nm->ti.nspan;
 	return 0;
 }
 
 /* One pass of the pipeline over well-formed text. */
 static int norm_once(normaliser *nm, const char *src, size_t n, norm_result *res)
 {
+	tm_title *ti = &nm->ti;
+	unsigned f;
+
 	if (prepare(nm, src, n) != 0)
 		return -1;
-	if (tok_split(&nm->tl, &nm->u, nm->work.data, nm->work.len) != 0)
+	ti->text = nm->work.data;
+	if (tok_split(&ti->tl, &nm->u, nm->work.data, nm->work.len) != 0 ||
+	    title_build(ti) != 0 || title_scan(ti) != 0)
 		return -1;
-	if (build(nm) != 0)
+	if (HAS(ti, LC_PROTECT))
+		protect(ti);
+	f = ti->lflags;
+	if ((f & (LF_NUM | LF_SYM | LF_URL)) && pass_pii(ti))
 		return -1;
-	if (cache_build(nm) != 0)
+	size_t before = ti->nspan;
+	if (pass_gender(ti))
 		return -1;
-	unsigned f;
-	if (HAS(nm, LC_PROTECT))
-		protect(nm);
-	f = nm->lflags;
-	if (((f & (LF_NUM | LF_SYM | LF_URL)) && pass_pii(nm)) || pass_gender(nm))
+	/* removed markers are transparent to the scan: a phrase written
+	 * across them is found now */
+	if (ti->nspan > before && title_scan(ti) != 0)
 		return -1;
-	if (nm->nspan && cache_build(nm) != 0)
+	/* each rule runs only where the line holds what it looks for */
+	if (((f & (LF_NUM | LF_DIGITWORD | LF_SYM) || HAS(ti, LC_REFERENCE)) &&
+	     pass_reference(ti)) ||
+	    ((f & LF_NUM) && (pass_pay(ti) || pass_schedule(ti))) ||
+	    ((f & LF_SYM) && pass_hashtags(ti)))
 		return -1;
-	/* each pass runs only where the line holds what it looks for */
-	if (((f & (LF_NUM | LF_DIGITWORD | LF_SYM) || HAS(nm, LC_REFERENCE)) &&
-	     pass_reference(nm)) ||
-	    ((f & LF_NUM) && (pass_pay(nm) || pass_schedule(nm))) ||
-	    ((f & LF_SYM) && pass_hashtags(nm)))
-		return -1;
-	int phrases = nm->lcats || (f & LF_NUM);
-	if ((phrases && pass_phrases(nm)) ||
-	    (HAS(nm, LC_EMPLOYER) && pass_employer(nm)) ||
-	    ((HAS(nm, LC_PLACE) || HAS(nm, LC_LOCATION)) && pass_location(nm)) ||
-	    (phrases && pass_phrases(nm)))
+	/* occupation/ and business/ annotate the title; no rule reads
+	 * them yet */
+	unsigned read = ti->lcats & ~(1u << LC_OCCUPATION | 1u << LC_BUSINESS);
+	int phrases = read || (f & LF_NUM);
+	if ((phrases && pass_phrases(ti)) ||
+	    (HAS(ti, LC_EMPLOYER) && pass_employer(ti)) ||
+	    ((HAS(ti, LC_PLACE) || HAS(ti, LC_LOCATION)) && pass_location(ti)) ||
+	    (phrases && pass_phrases(ti)))
 		return -1;
 	return render(nm, res);
 }
@@ -675,20 +275,20 @@ static int norm_once(normaliser *nm, const char *src, size_t n, norm_result *res
 static int joined(normaliser *nm)
 {
 	size_t with = 0, a, b;
-	if (nm->nspan || nm->hidden)
+	if (nm->ti.nspan || nm->hidden)
 		return 1;
 	/* punctuation the title does not show (a strong one, or one with
 	 * a space beside it) may have kept apart what the title now joins */
-	for (size_t t = 0; t < nm->tl.n; t++) {
-		const tm_tok *x = &nm->tl.t[t];
+	for (size_t t = 0; t < nm->ti.tl.n; t++) {
+		const tm_tok *x = &nm->ti.tl.t[t];
 		if (x->kind != TK_PUNCT)
 			continue;
-		if ((x->flags & TF_STRONG) || x->sp || t == 0 || t + 1 == nm->tl.n ||
-		    nm->tl.t[t + 1].sp)
+		if ((x->flags & TF_STRONG) || x->sp || t == 0 || t + 1 == nm->ti.tl.n ||
+		    nm->ti.tl.t[t + 1].sp)
 			return 1;
 	}
-	for (size_t s = 0; s < nm->nseg; s++) {
-		seg_kept(nm, s, &a, &b);
+	for (size_t s = 0; s < nm->ti.nseg; s++) {
+		seg_kept(&nm->ti, s, &a, &b);
 		with += a < b;
 	}
 	return with > 1;
@@ -698,10 +298,10 @@ static int joined(normaliser *nm)
  * ptext; pointers are set once all passes are done). */
 static int keep_pieces(normaliser *nm, size_t *npiece)
 {
-	sort_spans(nm);
-	for (size_t i = 0; i < nm->nspan; i++) {
-		const span *s = &nm->spans[i];
-		const tm_tok *a = &nm->tl.t[s->t0], *b = &nm->tl.t[s->t1];
+	title_sort_spans(&nm->ti);
+	for (size_t i = 0; i < nm->ti.nspan; i++) {
+		const tm_span *s = &nm->ti.spans[i];
+		const tm_tok *a = &nm->ti.tl.t[s->t0], *b = &nm->ti.tl.t[s->t1];
 		size_t len = b->off + b->len - a->off, off = nm->ptext.len;
 		if (*npiece == nm->pcap) {
 			size_t cap = nm->pcap ? nm->pcap * 2 : 16;
@@ -728,14 +328,14 @@ static int mask(normaliser *nm)
 {
 	size_t at = 0;
 	buf_reset(&nm->masked);
-	sort_spans(nm);
-	for (size_t i = 0; i < nm->nspan; i++) {
-		const span *s = &nm->spans[i];
+	title_sort_spans(&nm->ti);
+	for (size_t i = 0; i < nm->ti.nspan; i++) {
+		const tm_span *s = &nm->ti.spans[i];
 		const char *what = s->kind == NF_EMAIL ? "<email>" : s->kind == NF_PHONE ? "<phone>"
 				   : s->kind == NF_URL ? "<url>" : NULL;
 		if (!what)
 			continue;
-		size_t a = nm->tl.t[s->t0].off, b = nm->tl.t[s->t1].off + nm->tl.t[s->t1].len;
+		size_t a = nm->ti.tl.t[s->t0].off, b = nm->ti.tl.t[s->t1].off + nm->ti.tl.t[s->t1].len;
 		if (a < at)
 			continue;
 		if (buf_append(&nm->masked, nm->work.data + at, a - at) || buf_puts(&nm->masked, what))
@@ -770,7 +370,7 @@ static int compute(normaliser *nm, const char *raw, size_t n, const char *lang,
 	int rep = 0;
 
 	memset(res, 0, sizeof *res);
-	nm->lang = lang && *lang ? lang : NULL;
+	nm->ti.lang = lang && *lang ? lang : NULL;
 	if (dec_valid_prefix(raw, n) != n) {
 		buf_reset(&nm->dec);
 		rep = dec_repair(raw, n, &nm->dec);
@@ -806,7 +406,7 @@ static int compute(normaliser *nm, const char *raw, size_t n, const char *lang,
 		if (res->title_len == nm->again.len &&
 		    (res->title_len == 0 ||
 		     memcmp(res->title, nm->again.data, res->title_len) == 0) &&
-		    !nm->nspan) {
+		    !nm->ti.nspan) {
 			norm_result st = *res;
 			st.npiece = 0;
 			st.repaired = 0;
@@ -837,7 +437,7 @@ int norm_key_only(normaliser *nm, const char *raw, size_t n,
 	int rep = 0;
 
 	memset(res, 0, sizeof *res);
-	nm->lang = NULL;
+	nm->ti.lang = NULL;
 	if (dec_valid_prefix(raw, n) != n) {
 		buf_reset(&nm->dec);
 		if ((rep = dec_repair(raw, n, &nm->dec)) < 0)
@@ -846,9 +446,11 @@ int norm_key_only(normaliser *nm, const char *raw, size_t n,
 		n = nm->dec.len;
 	}
 	res->repaired = rep;
-	if (prepare(nm, src, n) != 0 ||
-	    tok_split(&nm->tl, &nm->u, nm->work.data, nm->work.len) != 0 ||
-	    build(nm) != 0 || cache_build(nm) != 0)
+	if (prepare(nm, src, n) != 0)
+		return -1;
+	nm->ti.text = nm->work.data;
+	if (tok_split(&nm->ti.tl, &nm->u, nm->work.data, nm->work.len) != 0 ||
+	    title_build(&nm->ti) != 0 || title_scan(&nm->ti) != 0)
 		return -1;
 	return render(nm, res);
 }

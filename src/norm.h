@@ -12,15 +12,7 @@
 #include <stdint.h>
 
 #include "lexicon.h"
-
-/* What a removed piece was. */
-enum nf_kind {
-	NF_GENDER, NF_SENIORITY, NF_LOCATION, NF_SCHEDULE, NF_HOURS,
-	NF_WORKLOAD, NF_PAY, NF_REFERENCE, NF_DATE, NF_MARKETING, NF_EMPLOYER,
-	NF_EMAIL, NF_PHONE, NF_URL,
-	NF_SLOT, /* a location-slot word or postcode: in, Raum, area, 50667 */
-	NF_NKIND
-};
+#include "title.h" /* enum nf_kind, nf_kind_name */
 
 typedef struct nf_piece {
 	uint8_t kind;      /* enum nf_kind */
@@ -69,6 +61,5 @@ void norm_memo_stats(const normaliser *nm, size_t *hits, size_t *calls);
  * table): the fold of its words, nothing removed. */
 int norm_key_only(normaliser *nm, const char *s, size_t n, norm_result *res);
 
-const char *nf_kind_name(int kind);
 
 #endif

@@ -9,9 +9,9 @@
 
 #include "pass.h"
 
-static int pair_applies(const normaliser *nm, const lex_pair *p)
+static int pair_applies(const tm_title *ti, const lex_pair *p)
 {
-	return !p->amb || (nm->lang && strcmp(p->lang, nm->lang) == 0);
+	return !p->amb || (ti->lang && strcmp(p->lang, ti->lang) == 0);
 }
 
 static int ends_with(const char *s, size_t n, const char *e, size_t m)
@@ -20,13 +20,13 @@ static int ends_with(const char *s, size_t n, const char *e, size_t m)
 }
 
 /* b is a written ending of a: "in", "euse", "a", "frau" after kaufmann. */
-static int is_suffix(normaliser *nm, const char *a, size_t an, const char *b,
+static int is_suffix(tm_title *ti, const char *a, size_t an, const char *b,
 		     size_t bn)
 {
 	size_t n, i;
-	const lex_pair *p = lex_pairs(nm->lx, &n);
+	const lex_pair *p = lex_pairs(ti->lx, &n);
 	for (i = 0; i < n; i++) {
-		if (!pair_applies(nm, &p[i]) || p[i].flen != bn ||
+		if (!pair_applies(ti, &p[i]) || p[i].flen != bn ||
 		    memcmp(p[i].fem, b, bn))
 			continue;
 		if (ends_with(a, an, p[i].masc, p[i].mlen) && an >= (size_t)p[i].mlen + 2)
@@ -36,17 +36,17 @@ static int is_suffix(normaliser *nm, const char *a, size_t an, const char *b,
 }
 
 /* b is the feminine form of a (both whole words). */
-static int is_fem(normaliser *nm, const char *a, size_t an, const char *b,
+static int is_fem(tm_title *ti, const char *a, size_t an, const char *b,
 		  size_t bn)
 {
 	size_t n, i;
-	const lex_pair *p = lex_pairs(nm->lx, &n);
+	const lex_pair *p = lex_pairs(ti->lx, &n);
 	/* the two share a stem of two letters at least */
 	if (an < 2 || bn < 2 || a[0] != b[0] || a[1] != b[1])
 		return 0;
 	for (i = 0; i < n; i++) {
 		size_t sa, sb;
-		if (!pair_applies(nm, &p[i]))
+		if (!pair_applies(ti, &p[i]))
 			continue;
 		if (!ends_with(a, an, p[i].masc, p[i].mlen) ||
 		    !ends_with(b, bn, p[i].fem, p[i].flen))
@@ -60,71 +60,71 @@ static int is_fem(normaliser *nm, const char *a, size_t an, const char *b,
 }
 
 /* Tierarzt/-ärztin: b is the feminine of the last part of a. */
-static int is_fem_tail(normaliser *nm, const char *a, size_t an, const char *b,
+static int is_fem_tail(tm_title *ti, const char *a, size_t an, const char *b,
 		       size_t bn)
 {
 	for (size_t i = 2; i + 2 <= an; i++)
-		if (is_fem(nm, a + i, an - i, b, bn))
+		if (is_fem(ti, a + i, an - i, b, bn))
 			return 1;
 	return 0;
 }
 
-static int word_unit(normaliser *nm, size_t k)
+static int word_unit(tm_title *ti, size_t k)
 {
-	const tm_tok *t = U(nm, k);
-	return t->kind == TK_WORD && ukept(nm, k) && !nm->prot[nm->unit[k]];
+	const tm_tok *t = U(ti, k);
+	return t->kind == TK_WORD && ukept(ti, k) && !ti->prot[ti->unit[k]];
 }
 
 /* The base word of a gendered spelling may be protected (a label, such
  * as "Verkäufer"): only its ending is removed. */
-static int base_unit(normaliser *nm, size_t k)
+static int base_unit(tm_title *ti, size_t k)
 {
-	const tm_tok *t = U(nm, k);
-	return t->kind == TK_WORD && ukept(nm, k);
+	const tm_tok *t = U(ti, k);
+	return t->kind == TK_WORD && ukept(ti, k);
 }
 
 /* Removes tokens after unit a up to and including unit b (and a closing
  * bracket right after b when open is set). */
-static int drop_after(normaliser *nm, size_t a, size_t b, int open)
+static int drop_after(tm_title *ti, size_t a, size_t b, int open)
 {
-	size_t t0 = nm->unit[a] + 1, t1 = nm->unit[b];
-	if (open && t1 + 1 < nm->tl.n && (nm->tl.t[t1 + 1].flags & TF_CLOSE) &&
-	    !nm->tl.t[t1 + 1].sp)
+	size_t t0 = ti->unit[a] + 1, t1 = ti->unit[b];
+	if (open && t1 + 1 < ti->tl.n && (ti->tl.t[t1 + 1].flags & TF_CLOSE) &&
+	    !ti->tl.t[t1 + 1].sp)
 		t1++;
-	return remove_toks(nm, t0, t1, NF_GENDER, NULL);
+	return remove_toks(ti, t0, t1, NF_GENDER, NULL);
 }
 
 /* "Koch oder Köchin": a connector of the units lexicon joins a pair. */
-static int is_conj(normaliser *nm, size_t k)
+static int is_conj(tm_title *ti, size_t k)
 {
 	size_t len;
-	return match_val(nm, k, LC_UNIT, "connector", 1, &len) && len == 1;
+	return match_val(ti, k, LC_UNIT, "connector", 1, &len) && len == 1;
 }
 
-static int pairs_and_suffixes(normaliser *nm)
+static int pairs_and_suffixes(tm_title *ti)
 {
 	size_t k;
 
-	for (k = 0; k + 1 < nm->nunit; k++) {
+	for (k = 0; k + 1 < ti->nunit; k++) {
 		uint32_t an, bn;
 		const char *a, *b;
 		size_t ta, tb, j = k + 1;
 		const tm_tok *x;
 
-		if (!base_unit(nm, k) || !word_unit(nm, j))
+		if (!base_unit(ti, k) || !word_unit(ti, j))
 			continue;
-		a = ufold(nm, k, &an);
-		b = ufold(nm, j, &bn);
+		a = ufold(ti, k, &an);
+		b = ufold(ti, j, &bn);
 		if (an < 3)
 			continue;
-		ta = nm->unit[k];
-		tb = nm->unit[j];
-		x = &nm->tl.t[ta + 1];
+		ta = ti->unit[k];
+		tb = ti->unit[j];
+		x = &ti->tl.t[ta + 1];
 		/* written endings glued to the word: / /- * : · _ . ( */
-		if (tb > ta + 1 && tb <= ta + 3 && !x->sp && !nm->tl.t[tb].sp) {
+		if (tb > ta + 1 && tb <= ta + 3 && !x->sp && !ti->tl.t[tb].sp) {
 			int ok = 1, open = 0;
 			for (size_t t = ta + 1; t < tb; t++) {
-				const tm_tok *m = &nm->tl.t[t];
+				const tm_tok *m = &ti->tl.t[t];
 				if (m->kind != TK_PUNCT || m->sp ||
 				    !m->ch || !strchr("/-*:_.(\x01", m->ch))
 					ok = 0;
@@ -133,12 +133,12 @@ static int pairs_and_suffixes(normaliser *nm)
 				if (m->ch == '-' && t == ta + 1)
 					ok = 0;
 			}
-			if (ok && (is_suffix(nm, a, an, b, bn) ||
-				   (x->ch != '.' && is_fem(nm, a, an, b, bn)) ||
+			if (ok && (is_suffix(ti, a, an, b, bn) ||
+				   (x->ch != '.' && is_fem(ti, a, an, b, bn)) ||
 				   (x->ch == '/' && tb == ta + 3 &&
-				    nm->tl.t[ta + 2].ch == '-' &&
-				    is_fem_tail(nm, a, an, b, bn)))) {
-				if (drop_after(nm, k, j, open))
+				    ti->tl.t[ta + 2].ch == '-' &&
+				    is_fem_tail(ti, a, an, b, bn)))) {
+				if (drop_after(ti, k, j, open))
 					return -1;
 				k = j;
 				continue;
@@ -147,24 +147,24 @@ static int pairs_and_suffixes(normaliser *nm)
 		/* whole pairs: Koch / Köchin, vendeur, vendeuse, Koch oder Köchin */
 		if (tb > ta + 1 && tb <= ta + 2 &&
 		    (x->ch == '/' || x->ch == ',' || x->ch == '|')) {
-			if (is_fem(nm, a, an, b, bn)) {
-				if (remove_toks(nm, ta + 1, tb, NF_GENDER, NULL))
+			if (is_fem(ti, a, an, b, bn)) {
+				if (remove_toks(ti, ta + 1, tb, NF_GENDER, NULL))
 					return -1;
 				k = j;
 				continue;
 			}
-			if (is_fem(nm, b, bn, a, an)) {
-				if (remove_toks(nm, ta, tb - 1, NF_GENDER, NULL))
+			if (is_fem(ti, b, bn, a, an)) {
+				if (remove_toks(ti, ta, tb - 1, NF_GENDER, NULL))
 					return -1;
 				k = j;
 				continue;
 			}
 		}
-		if (tb == ta + 1 && is_conj(nm, j) && j + 1 < nm->nunit &&
-		    word_unit(nm, j + 1) && nm->unit[j + 1] == tb + 1) {
-			const char *c = ufold(nm, j + 1, &bn);
-			if (is_fem(nm, a, an, c, bn)) {
-				if (remove_toks(nm, tb, tb + 1, NF_GENDER, NULL))
+		if (tb == ta + 1 && is_conj(ti, j) && j + 1 < ti->nunit &&
+		    word_unit(ti, j + 1) && ti->unit[j + 1] == tb + 1) {
+			const char *c = ufold(ti, j + 1, &bn);
+			if (is_fem(ti, a, an, c, bn)) {
+				if (remove_toks(ti, tb, tb + 1, NF_GENDER, NULL))
 					return -1;
 				k = j + 1;
 			}
@@ -174,45 +174,42 @@ static int pairs_and_suffixes(normaliser *nm)
 }
 
 /* VerkäuferIn, MitarbeiterInnen: the tokeniser split off "In"/"Innen". */
-static int capital_i(normaliser *nm)
+static int capital_i(tm_title *ti)
 {
-	for (size_t k = 1; k < nm->nunit; k++) {
-		const tm_tok *t = U(nm, k), *p = U(nm, k - 1);
+	for (size_t k = 1; k < ti->nunit; k++) {
+		const tm_tok *t = U(ti, k), *p = U(ti, k - 1);
 		char both[256];
 		size_t len;
-		if (!(t->flags & TF_CAPSUF) || nm->unit[k - 1] + 1 != nm->unit[k] ||
-		    !word_unit(nm, k) || !base_unit(nm, k - 1))
+		if (!(t->flags & TF_CAPSUF) || ti->unit[k - 1] + 1 != ti->unit[k] ||
+		    !word_unit(ti, k) || !base_unit(ti, k - 1))
 			continue;
 		len = p->flen + t->flen;
 		if (len < sizeof both) {
-			memcpy(both, tok_fold(&nm->tl, p), p->flen);
-			memcpy(both + p->flen, tok_fold(&nm->tl, t), t->flen);
+			memcpy(both, tok_fold(&ti->tl, p), p->flen);
+			memcpy(both + p->flen, tok_fold(&ti->tl, t), t->flen);
 			/* a protected whole word (linkedin) is no gender form */
-			uint64_t th = tok_hash(both, len);
-			const char *f[1] = {both};
-			uint32_t fl[1] = {(uint32_t)len};
-			uint64_t seq = lex_seq_final(lex_seq_step(LEX_SEQ_SEED, th), 1);
-			const lex_entry *e = lex_find(nm->lx, seq, 1, f, fl);
+			uint32_t w = lex_word(ti->lx, both, len, tok_hash(both, len));
 			int prot = 0;
-			for (; e; e = lex_next(nm->lx, e))
+			for (const lex_entry *e = lex_phrase(ti->lx, lex_step(ti->lx, LEX_ROOT, w), NULL);
+			     e; e = lex_next(ti->lx, e))
 				if (e->cat == LC_PROTECT)
 					prot = 1;
 			if (prot)
 				continue;
 		}
-		if (remove_units(nm, k, k + 1, NF_GENDER, NULL))
+		if (remove_units(ti, k, k + 1, NF_GENDER, NULL))
 			return -1;
 	}
 	return 0;
 }
 
-static int markers(normaliser *nm)
+static int markers(tm_title *ti)
 {
 	size_t k = 0, len;
-	while (k < nm->nunit) {
-		const lex_entry *e = match_cat(nm, k, LC_MARKER, 1, &len);
+	while (k < ti->nunit) {
+		const lex_entry *e = match_cat(ti, k, LC_MARKER, 1, &len);
 		if (e && e->where == LW_ANY) {
-			if (remove_units(nm, k, k + len, NF_GENDER, NULL))
+			if (remove_units(ti, k, k + len, NF_GENDER, NULL))
 				return -1;
 			k += len;
 		} else
@@ -221,11 +218,11 @@ static int markers(normaliser *nm)
 	return 0;
 }
 
-int pass_gender(normaliser *nm)
+int pass_gender(tm_title *ti)
 {
-	if ((HAS(nm, LC_MARKER) && markers(nm)) ||
-	    ((nm->lflags & LF_CAPSUF) && capital_i(nm)) ||
-	    (((nm->lflags & LF_JOIN) || HAS(nm, LC_UNIT)) && pairs_and_suffixes(nm)))
+	if ((HAS(ti, LC_MARKER) && markers(ti)) ||
+	    ((ti->lflags & LF_CAPSUF) && capital_i(ti)) ||
+	    (((ti->lflags & LF_JOIN) || HAS(ti, LC_UNIT)) && pairs_and_suffixes(ti)))
 		return -1;
 	return 0;
 }

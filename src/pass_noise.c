@@ -5,84 +5,84 @@
 
 #include "pass.h"
 
-static int tok_is(const normaliser *nm, size_t t, char ch)
+static int tok_is(const tm_title *ti, size_t t, char ch)
 {
-	return t < nm->tl.n && nm->tl.t[t].kind != TK_WORD &&
-	       nm->tl.t[t].kind != TK_NUM && nm->tl.t[t].ch == ch;
+	return t < ti->tl.n && ti->tl.t[t].kind != TK_WORD &&
+	       ti->tl.t[t].kind != TK_NUM && ti->tl.t[t].ch == ch;
 }
 
-static size_t ndigits(const normaliser *nm, const tm_tok *t)
+static size_t ndigits(const tm_title *ti, const tm_tok *t)
 {
 	size_t d = 0;
-	const char *p = nm->work.data + t->off;
+	const char *p = ti->text + t->off;
 	for (uint32_t i = 0; i < t->len; i++)
 		d += p[i] >= '0' && p[i] <= '9';
 	return d;
 }
 
 /* Last token of the run glued to token t (no whitespace). */
-static size_t glued_end(const normaliser *nm, size_t t)
+static size_t glued_end(const tm_title *ti, size_t t)
 {
-	while (t + 1 < nm->tl.n && !nm->tl.t[t + 1].sp &&
-	       !(nm->tl.t[t + 1].flags & (TF_OPEN | TF_CLOSE)) &&
-	       !(nm->tl.t[t + 1].kind == TK_PUNCT &&
-		 strchr(",;|!?", nm->tl.t[t + 1].ch ? nm->tl.t[t + 1].ch : 'x')))
+	while (t + 1 < ti->tl.n && !ti->tl.t[t + 1].sp &&
+	       !(ti->tl.t[t + 1].flags & (TF_OPEN | TF_CLOSE)) &&
+	       !(ti->tl.t[t + 1].kind == TK_PUNCT &&
+		 strchr(",;|!?", ti->tl.t[t + 1].ch ? ti->tl.t[t + 1].ch : 'x')))
 		t++;
-	while (t > 0 && nm->tl.t[t].kind == TK_PUNCT)
+	while (t > 0 && ti->tl.t[t].kind == TK_PUNCT)
 		t--;
 	return t;
 }
 
-static size_t glued_start(const normaliser *nm, size_t t)
+static size_t glued_start(const tm_title *ti, size_t t)
 {
-	while (t > 0 && !nm->tl.t[t].sp && nm->tl.t[t - 1].kind != TK_PUNCT)
+	while (t > 0 && !ti->tl.t[t].sp && ti->tl.t[t - 1].kind != TK_PUNCT)
 		t--;
-	while (t > 0 && !nm->tl.t[t].sp && nm->tl.t[t - 1].kind == TK_PUNCT &&
-	       nm->tl.t[t - 1].ch && strchr(".-_", nm->tl.t[t - 1].ch) && t >= 2 &&
-	       nm->tl.t[t - 2].kind != TK_PUNCT)
+	while (t > 0 && !ti->tl.t[t].sp && ti->tl.t[t - 1].kind == TK_PUNCT &&
+	       ti->tl.t[t - 1].ch && strchr(".-_", ti->tl.t[t - 1].ch) && t >= 2 &&
+	       ti->tl.t[t - 2].kind != TK_PUNCT)
 		t -= 2;
 	return t;
 }
 
 /* ---- contact data: URLs, e-mail addresses, phone numbers ---- */
 
-static int is_date(const normaliser *nm, const tm_tok *t);
+static int is_date(const tm_title *ti, const tm_tok *t);
 
 /* Last token of a URL starting at t: everything up to whitespace. */
-static size_t url_end(const normaliser *nm, size_t t)
+static size_t url_end(const tm_title *ti, size_t t)
 {
-	while (t + 1 < nm->tl.n && !nm->tl.t[t + 1].sp &&
-	       !(nm->tl.t[t + 1].flags & TF_CLOSE))
+	while (t + 1 < ti->tl.n && !ti->tl.t[t + 1].sp &&
+	       !(ti->tl.t[t + 1].flags & TF_CLOSE))
 		t++;
 	return t;
 }
 
 /* Is token t the word w (its fold)? */
-static int word_is(const normaliser *nm, size_t t, const char *w)
+static int word_is(const tm_title *ti, size_t t, const char *w)
 {
 	const tm_tok *x;
-	if (t >= nm->tl.n)
+	if (t >= ti->tl.n)
 		return 0;
-	x = &nm->tl.t[t];
+	x = &ti->tl.t[t];
 	return x->kind == TK_WORD && x->flen == strlen(w) &&
-	       !memcmp(tok_fold(&nm->tl, x), w, x->flen);
+	       !memcmp(tok_fold(&ti->tl, x), w, x->flen);
 }
 
 /* A word in brackets at t: "(at)", "[dot]".  Returns the closing
  * bracket's index, or 0. */
-static size_t bracketed(const normaliser *nm, size_t t, const char *w)
+static size_t bracketed(const tm_title *ti, size_t t, const char *w)
 {
-	if (t + 2 < nm->tl.n && (nm->tl.t[t].flags & TF_OPEN) && word_is(nm, t + 1, w) &&
-	    (nm->tl.t[t + 2].flags & TF_CLOSE))
+	if (t + 2 < ti->tl.n && (ti->tl.t[t].flags & TF_OPEN) && word_is(ti, t + 1, w) &&
+	    (ti->tl.t[t + 2].flags & TF_CLOSE))
 		return t + 2;
 	return 0;
 }
 
 /* The last word of a host name label from word q: "valdoria-gastro". */
-static size_t label_end(const normaliser *nm, size_t q)
+static size_t label_end(const tm_title *ti, size_t q)
 {
-	while (tok_is(nm, q + 1, '-') && !nm->tl.t[q + 1].sp && q + 2 < nm->tl.n &&
-	       !nm->tl.t[q + 2].sp && nm->tl.t[q + 2].kind == TK_WORD)
+	while (tok_is(ti, q + 1, '-') && !ti->tl.t[q + 1].sp && q + 2 < ti->tl.n &&
+	       !ti->tl.t[q + 2].sp && ti->tl.t[q + 2].kind == TK_WORD)
 		q += 2;
 	return q;
 }
@@ -91,20 +91,20 @@ static size_t label_end(const normaliser *nm, size_t q)
  * or "jobs [at] valdoria [dot] example", whose "(at)" opens at t: the
  * last token of its domain (a dot, plain or bracketed, at least once), or
  * 0. */
-static size_t obfuscated_email(const normaliser *nm, size_t t)
+static size_t obfuscated_email(const tm_title *ti, size_t t)
 {
-	size_t q = bracketed(nm, t, "at"), e = 0;
+	size_t q = bracketed(ti, t, "at"), e = 0;
 	int dots = 0;
-	if (!q || q + 1 >= nm->tl.n || nm->tl.t[q + 1].kind != TK_WORD)
+	if (!q || q + 1 >= ti->tl.n || ti->tl.t[q + 1].kind != TK_WORD)
 		return 0;
 	for (q++;;) {
 		size_t c;
-		e = q = label_end(nm, q); /* a label of the domain */
-		if (tok_is(nm, q + 1, '.') && !nm->tl.t[q + 1].sp && q + 2 < nm->tl.n &&
-		    !nm->tl.t[q + 2].sp && nm->tl.t[q + 2].kind == TK_WORD)
+		e = q = label_end(ti, q); /* a label of the domain */
+		if (tok_is(ti, q + 1, '.') && !ti->tl.t[q + 1].sp && q + 2 < ti->tl.n &&
+		    !ti->tl.t[q + 2].sp && ti->tl.t[q + 2].kind == TK_WORD)
 			q += 2;
-		else if (((c = bracketed(nm, q + 1, "dot")) || (c = bracketed(nm, q + 1, "punkt"))) &&
-			 c + 1 < nm->tl.n && nm->tl.t[c + 1].kind == TK_WORD)
+		else if (((c = bracketed(ti, q + 1, "dot")) || (c = bracketed(ti, q + 1, "punkt"))) &&
+			 c + 1 < ti->tl.n && ti->tl.t[c + 1].kind == TK_WORD)
 			q = c + 1;
 		else
 			break;
@@ -120,36 +120,36 @@ static size_t obfuscated_email(const normaliser *nm, size_t t)
  * to that end: no host starting before it carries a query either, since
  * a later host starts after this one's dots and sees less of the path
  * (so "(a.b" x N costs N, not N squared). */
-static size_t bare_url(const normaliser *nm, size_t t, size_t *none)
+static size_t bare_url(const tm_title *ti, size_t t, size_t *none)
 {
 	size_t q = t, e;
 	int dots = 0, slash = 0;
-	if (nm->tl.t[t].kind != TK_WORD || (t > 0 && !nm->tl.t[t].sp &&
-					      !(nm->tl.t[t - 1].flags & TF_OPEN)))
+	if (ti->tl.t[t].kind != TK_WORD || (t > 0 && !ti->tl.t[t].sp &&
+					      !(ti->tl.t[t - 1].flags & TF_OPEN)))
 		return 0;
-	q = label_end(nm, q);
-	while (tok_is(nm, q + 1, '.') && !nm->tl.t[q + 1].sp && q + 2 < nm->tl.n &&
-	       !nm->tl.t[q + 2].sp && nm->tl.t[q + 2].kind == TK_WORD) {
-		q = label_end(nm, q + 2);
+	q = label_end(ti, q);
+	while (tok_is(ti, q + 1, '.') && !ti->tl.t[q + 1].sp && q + 2 < ti->tl.n &&
+	       !ti->tl.t[q + 2].sp && ti->tl.t[q + 2].kind == TK_WORD) {
+		q = label_end(ti, q + 2);
 		dots++;
 	}
 	if (!dots)
 		return 0;
-	e = url_end(nm, t);
+	e = url_end(ti, t);
 	for (; q + 2 <= e; q++) {
-		slash |= tok_is(nm, q, '/');
-		if (slash && tok_is(nm, q, '?') && nm->tl.t[q + 1].kind == TK_WORD &&
-		    tok_is(nm, q + 2, '='))
+		slash |= tok_is(ti, q, '/');
+		if (slash && tok_is(ti, q, '?') && ti->tl.t[q + 1].kind == TK_WORD &&
+		    tok_is(ti, q + 2, '='))
 			return e;
 	}
 	*none = e;
 	return 0;
 }
 
-int pass_pii(normaliser *nm)
+int pass_pii(tm_title *ti)
 {
 	size_t t;
-	tok_line *tl = &nm->tl;
+	tok_line *tl = &ti->tl;
 	/* Tokens before which the look-ahead of an earlier token already
 	 * showed there is no e-mail address, bare URL or phone number: each
 	 * look-ahead below runs to the end of a glued run, and starting it
@@ -160,59 +160,59 @@ int pass_pii(normaliser *nm)
 	for (t = 0; t < tl->n; t++) {
 		const tm_tok *x = &tl->t[t];
 		const char *f = tok_fold(tl, x);
-		if (nm->rm[t] != RM_NONE)
+		if (ti->rm[t] != RM_NONE)
 			continue;
 		if (x->kind == TK_WORD &&
 		    ((x->flen == 4 && !memcmp(f, "http", 4)) ||
 		     (x->flen == 5 && !memcmp(f, "https", 5))) &&
-		    tok_is(nm, t + 1, ':') && tok_is(nm, t + 2, '/')) {
-			size_t e = url_end(nm, t);
-			if (remove_toks(nm, t, e, NF_URL, NULL))
+		    tok_is(ti, t + 1, ':') && tok_is(ti, t + 2, '/')) {
+			size_t e = url_end(ti, t);
+			if (remove_toks(ti, t, e, NF_URL, NULL))
 				return -1;
 			t = e;
 		} else if (x->kind == TK_WORD && x->flen == 3 &&
-			   !memcmp(f, "www", 3) && tok_is(nm, t + 1, '.') &&
+			   !memcmp(f, "www", 3) && tok_is(ti, t + 1, '.') &&
 			   t + 2 < tl->n && !tl->t[t + 2].sp) {
-			size_t e = url_end(nm, t);
-			if (remove_toks(nm, t, e, NF_URL, NULL))
+			size_t e = url_end(ti, t);
+			if (remove_toks(ti, t, e, NF_URL, NULL))
 				return -1;
 			t = e;
 		} else if (x->kind == TK_SYM && x->ch == '@' && t >= no_mail && t > 0 && !x->sp &&
 			   t + 1 < tl->n && !tl->t[t + 1].sp &&
 			   tl->t[t - 1].kind != TK_PUNCT &&
 			   tl->t[t + 1].kind != TK_PUNCT) {
-			size_t e = glued_end(nm, t + 1), s;
+			size_t e = glued_end(ti, t + 1), s;
 			int dot = 0;
 			for (size_t q = t + 1; q <= e; q++)
-				dot |= tok_is(nm, q, '.');
+				dot |= tok_is(ti, q, '.');
 			if (!dot) {
 				/* an "@" later in the run has the same end and sees
 				 * less of it: no dot there either */
 				no_mail = e + 1;
 				continue;
 			}
-			s = glued_start(nm, t - 1);
+			s = glued_start(ti, t - 1);
 			/* "mailto:" goes with it */
-			if (s >= 2 && tok_is(nm, s - 1, ':') && !tl->t[s].sp && !tl->t[s - 1].sp &&
-			    word_is(nm, s - 2, "mailto") && nm->rm[s - 2] == RM_NONE)
+			if (s >= 2 && tok_is(ti, s - 1, ':') && !tl->t[s].sp && !tl->t[s - 1].sp &&
+			    word_is(ti, s - 2, "mailto") && ti->rm[s - 2] == RM_NONE)
 				s -= 2;
-			if (remove_toks(nm, s, e, NF_EMAIL, NULL))
+			if (remove_toks(ti, s, e, NF_EMAIL, NULL))
 				return -1;
 			t = e;
 		} else if ((x->flags & TF_OPEN) && t > 0 && tl->t[t - 1].kind == TK_WORD &&
-			   nm->rm[t - 1] == RM_NONE && obfuscated_email(nm, t)) {
-			size_t s = glued_start(nm, t - 1), e = obfuscated_email(nm, t);
-			if (remove_toks(nm, s, e, NF_EMAIL, NULL))
+			   ti->rm[t - 1] == RM_NONE && obfuscated_email(ti, t)) {
+			size_t s = glued_start(ti, t - 1), e = obfuscated_email(ti, t);
+			if (remove_toks(ti, s, e, NF_EMAIL, NULL))
 				return -1;
 			t = e;
-		} else if (x->kind == TK_WORD && t >= no_url && (ue = bare_url(nm, t, &no_url))) {
-			if (remove_toks(nm, t, ue, NF_URL, NULL))
+		} else if (x->kind == TK_WORD && t >= no_url && (ue = bare_url(ti, t, &no_url))) {
+			if (remove_toks(ti, t, ue, NF_URL, NULL))
 				return -1;
 			t = ue;
 		} else if (t >= no_phone &&
 			   ((x->kind == TK_SYM && x->ch == '+' && t + 1 < tl->n &&
 			     tl->t[t + 1].kind == TK_NUM && !tl->t[t + 1].sp) ||
-			    (x->kind == TK_NUM && nm->work.data[x->off] == '0' &&
+			    (x->kind == TK_NUM && ti->text[x->off] == '0' &&
 			     x->len >= 2))) {
 			/* digits grouped by spaces, - / . ( ) */
 			size_t e = t, q = t + (x->kind == TK_SYM), d = 0;
@@ -221,11 +221,11 @@ int pass_pii(normaliser *nm)
 				if (m->kind == TK_NUM) {
 					/* "01.03.2026 - 31.12.2026" is dates (a
 					 * group 2015 may be a phone's) */
-					if (m->len >= 8 && is_date(nm, m)) {
+					if (m->len >= 8 && is_date(ti, m)) {
 						d = 0;
 						break;
 					}
-					d += ndigits(nm, m);
+					d += ndigits(ti, m);
 					e = q;
 				} else if (m->kind == TK_PUNCT && m->ch &&
 					   strchr("-/.()", m->ch)) {
@@ -234,7 +234,7 @@ int pass_pii(normaliser *nm)
 					break;
 			}
 			if (d >= (x->kind == TK_SYM ? 8u : 9u)) {
-				if (remove_toks(nm, t, e, NF_PHONE, NULL))
+				if (remove_toks(ti, t, e, NF_PHONE, NULL))
 					return -1;
 				t = e;
 			} else {
@@ -249,48 +249,48 @@ int pass_pii(normaliser *nm)
 
 /* ---- reference codes and dates ---- */
 
-static int code_unit(normaliser *nm, size_t k)
+static int code_unit(tm_title *ti, size_t k)
 {
-	const tm_tok *t = U(nm, k);
-	return ukept(nm, k) && !nm->prot[nm->unit[k]] &&
+	const tm_tok *t = U(ti, k);
+	return ukept(ti, k) && !ti->prot[ti->unit[k]] &&
 	       (t->kind == TK_NUM || (t->kind == TK_WORD && (t->flags & TF_DIGIT)));
 }
 
 /* Extends a code over units glued with - _ / . that are codes or
  * capitals: REQ-0091, AB-12/2025. */
-static int caps_unit(normaliser *nm, size_t k)
+static int caps_unit(tm_title *ti, size_t k)
 {
-	const tm_tok *t = U(nm, k);
+	const tm_tok *t = U(ti, k);
 	return t->kind == TK_WORD && ((t->flags & TF_ALLCAPS) ||
 				      (t->len == 1 && (t->flags & TF_CAP)));
 }
 
-static size_t code_end(normaliser *nm, size_t k)
+static size_t code_end(tm_title *ti, size_t k)
 {
-	while (k + 1 < nm->nunit && glued(nm, k, k + 1, "-_/.") &&
-	       (code_unit(nm, k + 1) || caps_unit(nm, k + 1)))
+	while (k + 1 < ti->nunit && glued(ti, k, k + 1, "-_/.") &&
+	       (code_unit(ti, k + 1) || caps_unit(ti, k + 1)))
 		k++;
 	return k;
 }
 
 /* A code at unit k: 2291, AB12, TM-2291, NL-5512. */
-static int code_at(normaliser *nm, size_t k)
+static int code_at(tm_title *ti, size_t k)
 {
-	if (k >= nm->nunit)
+	if (k >= ti->nunit)
 		return 0;
-	if (code_unit(nm, k))
+	if (code_unit(ti, k))
 		return 1;
-	return caps_unit(nm, k) && ukept(nm, k) && k + 1 < nm->nunit &&
-	       glued(nm, k, k + 1, "-_/.") && code_unit(nm, k + 1);
+	return caps_unit(ti, k) && ukept(ti, k) && k + 1 < ti->nunit &&
+	       glued(ti, k, k + 1, "-_/.") && code_unit(ti, k + 1);
 }
 
-static int is_date(const normaliser *nm, const tm_tok *t)
+static int is_date(const tm_title *ti, const tm_tok *t)
 {
-	const char *p = nm->work.data + t->off;
+	const char *p = ti->text + t->off;
 	size_t d, n = t->len;
 	if (t->kind != TK_NUM || (n != 4 && n != 8 && n != 10))
 		return 0;
-	d = ndigits(nm, t);
+	d = ndigits(ti, t);
 	if (d == 4 && n == 4)
 		return (p[0] == '1' && p[1] == '9') || (p[0] == '2' && p[1] == '0');
 	/* dd.mm.yyyy, dd.mm.yy */
@@ -299,84 +299,84 @@ static int is_date(const normaliser *nm, const tm_tok *t)
 
 /* A year or date at a segment edge (Ausbildung 2026, Saison 2025/26)
  * is removed; returns 1 when it was. */
-static int date_at_edge(normaliser *nm, size_t k)
+static int date_at_edge(tm_title *ti, size_t k)
 {
 	size_t k0, k1, e = k + 1;
-	if (!ukept(nm, k) || nm->prot[nm->unit[k]] || !is_date(nm, U(nm, k)))
+	if (!ukept(ti, k) || ti->prot[ti->unit[k]] || !is_date(ti, U(ti, k)))
 		return 0;
 	/* 2025/26, 2025-2026 */
-	if (e < nm->nunit && glued(nm, k, e, "/-") && U(nm, e)->kind == TK_NUM &&
-	    ndigits(nm, U(nm, e)) <= 4)
+	if (e < ti->nunit && glued(ti, k, e, "/-") && U(ti, e)->kind == TK_NUM &&
+	    ndigits(ti, U(ti, e)) <= 4)
 		e++;
-	seg_kept(nm, useg(nm, k), &k0, &k1);
+	seg_kept(ti, useg(ti, k), &k0, &k1);
 	if (k != k0 && e != k1)
 		return 0;
-	return remove_units(nm, k, e, NF_DATE, NULL) == 0;
+	return remove_units(ti, k, e, NF_DATE, NULL) == 0;
 }
 
-int pass_reference(normaliser *nm)
+int pass_reference(tm_title *ti)
 {
 	size_t k, len;
 
-	for (k = 0; k < nm->nunit; k++) {
-		const tm_tok *t = U(nm, k);
-		if (!ukept(nm, k) || nm->prot[nm->unit[k]])
+	for (k = 0; k < ti->nunit; k++) {
+		const tm_tok *t = U(ti, k);
+		if (!ukept(ti, k) || ti->prot[ti->unit[k]])
 			continue;
-		if (match_cat(nm, k, LC_REFERENCE, 1, &len)) {
+		if (match_cat(ti, k, LC_REFERENCE, 1, &len)) {
 			size_t j = k + len, leads = 1;
-			while (j < nm->nunit && leads < REF_LEAD_MAX &&
-			       match_cat(nm, j, LC_REFERENCE, 1, &len)) {
+			while (j < ti->nunit && leads < REF_LEAD_MAX &&
+			       match_cat(ti, j, LC_REFERENCE, 1, &len)) {
 				j += len;
 				leads++;
 			}
 			/* ref 2291, Ref.: AB-12, Job-ID #44 */
-			if (j < nm->nunit && U(nm, j)->kind == TK_SYM &&
-			    U(nm, j)->ch == '#')
+			if (j < ti->nunit && U(ti, j)->kind == TK_SYM &&
+			    U(ti, j)->ch == '#')
 				j++;
-			if (code_at(nm, j)) {
-				size_t e = code_end(nm, j);
-				if (remove_units(nm, k, e + 1, NF_REFERENCE, NULL))
+			if (code_at(ti, j)) {
+				size_t e = code_end(ti, j);
+				if (remove_units(ti, k, e + 1, NF_REFERENCE, NULL))
 					return -1;
 				k = e;
 				continue;
 			}
 		}
-		if (t->kind == TK_SYM && t->ch == '#' && k + 1 < nm->nunit &&
-		    glued(nm, k, k + 1, "") && code_unit(nm, k + 1)) {
-			size_t e = code_end(nm, k + 1);
-			if (remove_units(nm, k, e + 1, NF_REFERENCE, NULL))
+		if (t->kind == TK_SYM && t->ch == '#' && k + 1 < ti->nunit &&
+		    glued(ti, k, k + 1, "") && code_unit(ti, k + 1)) {
+			size_t e = code_end(ti, k + 1);
+			if (remove_units(ti, k, e + 1, NF_REFERENCE, NULL))
 				return -1;
 			k = e;
 			continue;
 		}
-		if (is_date(nm, t) && date_at_edge(nm, k))
+		if (is_date(ti, t) && date_at_edge(ti, k))
 			continue;
 		/* JR12345: letters with four digits or more, one word */
-		if (t->kind == TK_WORD && (t->flags & TF_DIGIT) && ndigits(nm, t) >= 4) {
-			size_t e = code_end(nm, k);
-			if (remove_units(nm, k, e + 1, NF_REFERENCE, NULL))
+		if (t->kind == TK_WORD && (t->flags & TF_DIGIT) && ndigits(ti, t) >= 4) {
+			size_t e = code_end(ti, k);
+			if (remove_units(ti, k, e + 1, NF_REFERENCE, NULL))
 				return -1;
 			k = e;
 			continue;
 		}
 	}
 	/* a bracket or later segment that is one code: [REQ-0091], - 12345 */
-	for (size_t s = 0; s < nm->nseg; s++) {
+	for (size_t s = 0; s < ti->nseg; s++) {
 		size_t k0, k1, e;
-		const seg *g = &nm->segs[s];
+		const tm_seg *g = &ti->segs[s];
 		if (!g->bracket && g->index == 0)
 			continue;
-		seg_kept(nm, s, &k0, &k1);
-		if (k0 >= k1 || (!code_unit(nm, k0) && !(U(nm, k0)->flags & TF_ALLCAPS)))
+		seg_kept(ti, s, &k0, &k1);
+		if (k0 >= k1 || (!code_unit(ti, k0) && !(U(ti, k0)->flags & TF_ALLCAPS)))
 			continue;
-		e = code_end(nm, k0);
+		e = code_end(ti, k0);
 		if (e + 1 != k1)
 			continue;
 		size_t d = 0;
 		for (size_t q = k0; q < k1; q++)
-			d += ndigits(nm, U(nm, q));
-		if (d >= 3 && units_free(nm, k0, k1))
-			if (remove_units(nm, k0, k1, NF_REFERENCE, NULL))
+			d += ndigits(ti, U(ti, q));
+		if (d >= 3 && units_free(ti, k0, k1))
+			if (remove_units(ti, k0, k1, NF_REFERENCE, NULL))
 				return -1;
 	}
 	return 0;
@@ -386,9 +386,9 @@ int pass_reference(normaliser *nm)
 
 static const unsigned phrase_mask_pay = 1u << LC_SCHEDULE | 1u << LC_MARKETING;
 
-static int is_currency(normaliser *nm, size_t k, size_t *len)
+static int is_currency(tm_title *ti, size_t k, size_t *len)
 {
-	const tm_tok *t = U(nm, k);
+	const tm_tok *t = U(ti, k);
 	if (t->kind == TK_SYM && !strchr("&+%#@", t->ch ? t->ch : '&')) {
 		*len = 1;
 		return 1;
@@ -397,12 +397,12 @@ static int is_currency(normaliser *nm, size_t k, size_t *len)
 		*len = 1;
 		return 1;
 	}
-	return match_val(nm, k, LC_PAY, "currency", 1, len) != NULL;
+	return match_val(ti, k, LC_PAY, "currency", 1, len) != NULL;
 }
 
-static int time_unit(normaliser *nm, size_t k, size_t *len)
+static int time_unit(tm_title *ti, size_t k, size_t *len)
 {
-	const lex_entry *e = match_cat(nm, k, LC_UNIT, 1, len);
+	const lex_entry *e = match_cat(ti, k, LC_UNIT, 1, len);
 	return e && (!strcmp(e->value, "hours") || !strcmp(e->value, "week") ||
 		     !strcmp(e->value, "month") || !strcmp(e->value, "year") ||
 		     !strcmp(e->value, "day"));
@@ -410,60 +410,60 @@ static int time_unit(normaliser *nm, size_t k, size_t *len)
 
 /* An amount: [currency] number [k] [currency].  Returns its end unit
  * (exclusive) or 0. */
-static size_t amount(normaliser *nm, size_t k, int *cur, int *unit)
+static size_t amount(tm_title *ti, size_t k, int *cur, int *unit)
 {
 	size_t len;
-	if (k < nm->nunit && ukept(nm, k) && is_currency(nm, k, &len)) {
+	if (k < ti->nunit && ukept(ti, k) && is_currency(ti, k, &len)) {
 		*cur = 1;
 		k += len;
 	}
-	if (k >= nm->nunit || U(nm, k)->kind != TK_NUM || !ukept(nm, k))
+	if (k >= ti->nunit || U(ti, k)->kind != TK_NUM || !ukept(ti, k))
 		return 0;
 	k++;
 	/* 2 000, 35 000: thousands set apart by a space */
-	while (k < nm->nunit && U(nm, k)->kind == TK_NUM && U(nm, k)->sp &&
-	       U(nm, k)->len == 3 && ndigits(nm, U(nm, k)) == 3 &&
-	       U(nm, k - 1)->len <= 3 && nm->unit[k] == nm->unit[k - 1] + 1)
+	while (k < ti->nunit && U(ti, k)->kind == TK_NUM && U(ti, k)->sp &&
+	       U(ti, k)->len == 3 && ndigits(ti, U(ti, k)) == 3 &&
+	       U(ti, k - 1)->len <= 3 && ti->unit[k] == ti->unit[k - 1] + 1)
 		k++;
-	if (k < nm->nunit && ukept(nm, k) && glued(nm, k - 1, k, "") &&
-	    match_val(nm, k, LC_PAY, "unit", 1, &len) && !time_unit(nm, k, &len)) {
+	if (k < ti->nunit && ukept(ti, k) && glued(ti, k - 1, k, "") &&
+	    match_val(ti, k, LC_PAY, "unit", 1, &len) && !time_unit(ti, k, &len)) {
 		*unit = 1;
 		k += len;
 	}
-	if (k < nm->nunit && ukept(nm, k) && is_currency(nm, k, &len)) {
+	if (k < ti->nunit && ukept(ti, k) && is_currency(ti, k, &len)) {
 		*cur = 1;
 		k += len;
 	}
 	return k;
 }
 
-int pass_pay(normaliser *nm)
+int pass_pay(tm_title *ti)
 {
 	size_t k, len;
 
-	for (k = 0; k < nm->nunit; k++) {
+	for (k = 0; k < ti->nunit; k++) {
 		size_t j = k, e;
 		int cur = 0, unit = 0;
-		if (!ukept(nm, k) || nm->prot[nm->unit[k]])
+		if (!ukept(ti, k) || ti->prot[ti->unit[k]])
 			continue;
-		while (j < nm->nunit && match_val(nm, j, LC_PAY, "lead", 1, &len))
+		while (j < ti->nunit && match_val(ti, j, LC_PAY, "lead", 1, &len))
 			j += len;
-		if (!(e = amount(nm, j, &cur, &unit)))
+		if (!(e = amount(ti, j, &cur, &unit)))
 			continue;
 		/* a range: 3.200 - 4.000 €, 18 bis 22 €, 40/45k */
-		if (e < nm->nunit) {
-			size_t t = nm->unit[e - 1] + 1, r = e, e2;
+		if (e < ti->nunit) {
+			size_t t = ti->unit[e - 1] + 1, r = e, e2;
 			int c2 = 0, u2 = 0;
-			if (t < nm->unit[e] && nm->tl.t[t].kind == TK_PUNCT &&
-			    (nm->tl.t[t].ch == '-' || nm->tl.t[t].ch == '/') &&
-			    t + 1 == nm->unit[e])
+			if (t < ti->unit[e] && ti->tl.t[t].kind == TK_PUNCT &&
+			    (ti->tl.t[t].ch == '-' || ti->tl.t[t].ch == '/') &&
+			    t + 1 == ti->unit[e])
 				r = e;
-			else if (match_val(nm, e, LC_PAY, "lead", 1, &len) ||
-				 (match_val(nm, e, LC_UNIT, "connector", 1, &len)))
+			else if (match_val(ti, e, LC_PAY, "lead", 1, &len) ||
+				 (match_val(ti, e, LC_UNIT, "connector", 1, &len)))
 				r = e + len;
 			else
 				r = SIZE_MAX;
-			if (r != SIZE_MAX && (e2 = amount(nm, r, &c2, &u2))) {
+			if (r != SIZE_MAX && (e2 = amount(ti, r, &c2, &u2))) {
 				e = e2;
 				cur |= c2;
 				unit |= u2;
@@ -471,21 +471,21 @@ int pass_pay(normaliser *nm)
 		}
 		/* trailing units: brutto, p.a., /h, pro Monat */
 		for (;;) {
-			if (e >= nm->nunit || !ukept(nm, e))
+			if (e >= ti->nunit || !ukept(ti, e))
 				break;
-			if (match_val(nm, e, LC_PAY, "unit", 1, &len)) {
+			if (match_val(ti, e, LC_PAY, "unit", 1, &len)) {
 				size_t l2;
-				if (!time_unit(nm, e, &l2) || l2 < len)
+				if (!time_unit(ti, e, &l2) || l2 < len)
 					unit = 1;
 				e += len;
-			} else if ((cur || unit) && time_unit(nm, e, &len))
+			} else if ((cur || unit) && time_unit(ti, e, &len))
 				e += len;
-			else if (is_currency(nm, e, &len)) {
+			else if (is_currency(ti, e, &len)) {
 				cur = 1;
 				e += len;
 			} else if ((cur || unit) &&
-				   match_val(nm, e, LC_UNIT, "connector", 1, &len) &&
-				   e + len < nm->nunit && time_unit(nm, e + len, &len))
+				   match_val(ti, e, LC_UNIT, "connector", 1, &len) &&
+				   e + len < ti->nunit && time_unit(ti, e + len, &len))
 				e += 1 + len;
 			else
 				break;
@@ -495,11 +495,11 @@ int pass_pay(normaliser *nm)
 		/* a longer phrase wins: auf 520-Euro-Basis is a schedule */
 		{
 			size_t pl;
-			const lex_entry *ph = match_mask(nm, j, phrase_mask_pay, 1, &pl);
+			const lex_entry *ph = match_mask(ti, j, phrase_mask_pay, 1, &pl);
 			if (ph && j + pl >= e)
 				continue;
 		}
-		if (remove_units(nm, k, e, NF_PAY, NULL))
+		if (remove_units(ti, k, e, NF_PAY, NULL))
 			return -1;
 		k = e - 1;
 	}
@@ -508,52 +508,52 @@ int pass_pay(normaliser *nm)
 
 /* ---- schedule numbers: 20 h/Woche, 30-35 Std., 80-100 % ---- */
 
-int pass_schedule(normaliser *nm)
+int pass_schedule(tm_title *ti)
 {
 	size_t k, len;
 
-	for (k = 0; k < nm->nunit; k++) {
+	for (k = 0; k < ti->nunit; k++) {
 		size_t j, e;
 		const lex_entry *u;
-		if (U(nm, k)->kind != TK_NUM || !ukept(nm, k) || nm->prot[nm->unit[k]])
+		if (U(ti, k)->kind != TK_NUM || !ukept(ti, k) || ti->prot[ti->unit[k]])
 			continue;
 		j = k + 1;
 		/* range */
-		if (j + 1 < nm->nunit && U(nm, j)->kind == TK_NUM &&
-		    nm->unit[j] == nm->unit[k] + 2 &&
-		    tok_is(nm, nm->unit[k] + 1, '-'))
+		if (j + 1 < ti->nunit && U(ti, j)->kind == TK_NUM &&
+		    ti->unit[j] == ti->unit[k] + 2 &&
+		    tok_is(ti, ti->unit[k] + 1, '-'))
 			j++;
-		else if (j + 1 < nm->nunit &&
-			 (match_val(nm, j, LC_UNIT, "connector", 1, &len) ||
-			  match_val(nm, j, LC_PAY, "lead", 1, &len)) &&
-			 j + len < nm->nunit && U(nm, j + len)->kind == TK_NUM)
+		else if (j + 1 < ti->nunit &&
+			 (match_val(ti, j, LC_UNIT, "connector", 1, &len) ||
+			  match_val(ti, j, LC_PAY, "lead", 1, &len)) &&
+			 j + len < ti->nunit && U(ti, j + len)->kind == TK_NUM)
 			j += len + 1;
-		if (j < nm->nunit && U(nm, j)->kind == TK_SYM && U(nm, j)->ch == '%') {
+		if (j < ti->nunit && U(ti, j)->kind == TK_SYM && U(ti, j)->ch == '%') {
 			size_t b = k, l2;
-			if (k > 0 && ukept(nm, k - 1) &&
-			    match_val(nm, k - 1, LC_UNIT, "workload", 1, &l2) && l2 == 1)
+			if (k > 0 && ukept(ti, k - 1) &&
+			    match_val(ti, k - 1, LC_UNIT, "workload", 1, &l2) && l2 == 1)
 				b = k - 1;
-			if (remove_units(nm, b, j + 1, NF_WORKLOAD, NULL))
+			if (remove_units(ti, b, j + 1, NF_WORKLOAD, NULL))
 				return -1;
 			k = j;
 			continue;
 		}
-		if (j >= nm->nunit || !(u = match_cat(nm, j, LC_UNIT, 1, &len)))
+		if (j >= ti->nunit || !(u = match_cat(ti, j, LC_UNIT, 1, &len)))
 			continue;
 		if (!strcmp(u->value, "week")) {
 			/* 20 Wochenstunden */
 			e = j + len;
 		} else if (!strcmp(u->value, "fte")) {
-			if (remove_units(nm, k, j + len, NF_WORKLOAD, NULL))
+			if (remove_units(ti, k, j + len, NF_WORKLOAD, NULL))
 				return -1;
 			k = j + len - 1;
 			continue;
 		} else if (!strcmp(u->value, "month") || !strcmp(u->value, "year")) {
 			/* a duration in a later segment: CDD 6 mois, 6 months */
-			const seg *g = &nm->segs[useg(nm, k)];
+			const tm_seg *g = &ti->segs[useg(ti, k)];
 			if (!g->bracket && g->index == 0)
 				continue;
-			if (remove_units(nm, k, j + len, NF_SCHEDULE, "temporary"))
+			if (remove_units(ti, k, j + len, NF_SCHEDULE, "temporary"))
 				return -1;
 			k = j + len - 1;
 			continue;
@@ -561,29 +561,29 @@ int pass_schedule(normaliser *nm)
 			e = j + len;
 			size_t l2;
 			const lex_entry *w;
-			if (e < nm->nunit && match_val(nm, e, LC_UNIT, "connector", 1, &l2))
+			if (e < ti->nunit && match_val(ti, e, LC_UNIT, "connector", 1, &l2))
 				e += l2;
-			else if (e < nm->nunit && (match_val(nm, e, LC_PAY, "unit", 1, &l2)))
+			else if (e < ti->nunit && (match_val(ti, e, LC_PAY, "unit", 1, &l2)))
 				e += 0;
-			w = e < nm->nunit ? match_cat(nm, e, LC_UNIT, 1, &l2) : NULL;
+			w = e < ti->nunit ? match_cat(ti, e, LC_UNIT, 1, &l2) : NULL;
 			if (w && (!strcmp(w->value, "week") || !strcmp(w->value, "month") ||
 				  !strcmp(w->value, "day")))
 				e += l2;
 			else {
-				const seg *g = &nm->segs[useg(nm, k)];
-				int hv = atoi(nm->work.data + U(nm, k)->off);
+				const tm_seg *g = &ti->segs[useg(ti, k)];
+				int hv = atoi(ti->text + U(ti, k)->off);
 				e = j + len;
 				/* 35h, 32 uur, 38 Stunden are weekly hours
 				 * wherever they stand (not 24h, a kind of care);
 				 * a spaced "h" only in a slot */
 				if (!g->bracket && g->index == 0 &&
-				    !((glued(nm, j - 1, j, "") || U(nm, j)->flen >= 3) &&
+				    !((glued(ti, j - 1, j, "") || U(ti, j)->flen >= 3) &&
 				      hv >= 5 && hv <= 48 && hv != 24))
 					continue;
 			}
 		} else
 			continue;
-		if (remove_units(nm, k, e, NF_HOURS, NULL))
+		if (remove_units(ti, k, e, NF_HOURS, NULL))
 			return -1;
 		k = e - 1;
 	}
@@ -592,17 +592,17 @@ int pass_schedule(normaliser *nm)
 
 /* ---- hashtags ---- */
 
-int pass_hashtags(normaliser *nm)
+int pass_hashtags(tm_title *ti)
 {
-	for (size_t k = 0; k + 1 < nm->nunit; k++) {
-		const tm_tok *t = U(nm, k);
-		if (t->kind == TK_SYM && t->ch == '#' && U(nm, k + 1)->kind == TK_WORD &&
-		    glued(nm, k, k + 1, "") && ukept(nm, k + 1) &&
-		    !nm->prot[nm->unit[k + 1]]) {
+	for (size_t k = 0; k + 1 < ti->nunit; k++) {
+		const tm_tok *t = U(ti, k);
+		if (t->kind == TK_SYM && t->ch == '#' && U(ti, k + 1)->kind == TK_WORD &&
+		    glued(ti, k, k + 1, "") && ukept(ti, k + 1) &&
+		    !ti->prot[ti->unit[k + 1]]) {
 			size_t e = k + 1;
-			while (e + 1 < nm->nunit && glued(nm, e, e + 1, "-_"))
+			while (e + 1 < ti->nunit && glued(ti, e, e + 1, "-_"))
 				e++;
-			if (remove_units(nm, k, e + 1, NF_MARKETING, NULL))
+			if (remove_units(ti, k, e + 1, NF_MARKETING, NULL))
 				return -1;
 			k = e;
 		}
@@ -629,113 +629,113 @@ static int kind_of(int cat)
 
 /* A word left hanging at a segment edge once its neighbour went: "in",
  * "bei", "bis", "und", "Tel." */
-static int dangling(normaliser *nm, size_t k)
+static int dangling(tm_title *ti, size_t k)
 {
 	size_t len;
 	const lex_entry *e;
-	if (match_val(nm, k, LC_UNIT, "connector", 1, &len) && len == 1)
+	if (match_val(ti, k, LC_UNIT, "connector", 1, &len) && len == 1)
 		return 1;
-	if (match_val(nm, k, LC_UNIT, "contact", 1, &len) && len == 1)
+	if (match_val(ti, k, LC_UNIT, "contact", 1, &len) && len == 1)
 		return 1;
-	if (match_val(nm, k, LC_PAY, "lead", 1, &len) && len == 1)
+	if (match_val(ti, k, LC_PAY, "lead", 1, &len) && len == 1)
 		return 1;
-	if (match_val(nm, k, LC_EMPLOYER, "marker", 1, &len) && len == 1)
+	if (match_val(ti, k, LC_EMPLOYER, "marker", 1, &len) && len == 1)
 		return 1;
-	e = match_cat(nm, k, LC_LOCATION, 1, &len);
+	e = match_cat(ti, k, LC_LOCATION, 1, &len);
 	return e && len == 1 && (!strcmp(e->value, "prep") || !strcmp(e->value, "before"));
 }
 
-static int removed_tok(const normaliser *nm, size_t t)
+static int removed_tok(const tm_title *ti, size_t t)
 {
-	return t < nm->tl.n && nm->rm[t] != RM_NONE;
+	return t < ti->tl.n && ti->rm[t] != RM_NONE;
 }
 
 /* Are units [k0, k1) all the words the title still has?  (Looks outward
  * from them: the nearest kept word is most often next door.) */
-static int last_word(normaliser *nm, size_t k0, size_t k1)
+static int last_word(tm_title *ti, size_t k0, size_t k1)
 {
-	for (size_t k = k1; k < nm->nunit; k++)
-		if (ukept(nm, k) && U(nm, k)->kind == TK_WORD)
+	for (size_t k = k1; k < ti->nunit; k++)
+		if (ukept(ti, k) && U(ti, k)->kind == TK_WORD)
 			return 0;
 	for (size_t k = k0; k-- > 0;)
-		if (ukept(nm, k) && U(nm, k)->kind == TK_WORD)
+		if (ukept(ti, k) && U(ti, k)->kind == TK_WORD)
 			return 0;
 	return 1;
 }
 
-static int peel_segment(normaliser *nm, size_t s, int *changed)
+static int peel_segment(tm_title *ti, size_t s, int *changed)
 {
 	size_t k0, k1, k, len;
 
-	seg_kept(nm, s, &k0, &k1);
+	seg_kept(ti, s, &k0, &k1);
 	size_t a = k0, b = k1;
 	for (k = k0; k < k1; k++) {
 		const lex_entry *e;
-		if (nm->moff[k] == nm->moff[k + 1] || !ukept(nm, k))
+		if (ti->aoff[k] == ti->aoff[k + 1] || !ukept(ti, k))
 			continue;
-		e = match_mask(nm, k, phrase_mask, 1, &len);
+		e = match_mask(ti, k, phrase_mask, 1, &len);
 		if (!e)
 			continue;
 		if (e->cat == LC_PAY && strcmp(e->value, "phrase"))
 			continue;
 		/* an edge word is never the title's last word: Principal */
 		if (e->where == LW_EDGE && e->cat == LC_SENIORITY &&
-		    last_word(nm, k, k + len))
+		    last_word(ti, k, k + len))
 			continue;
 		if ((e->where == LW_EDGE && k != a && k + len != b) ||
 		    (e->where == LW_ALONE && (k != a || k + len != b)) ||
 		    e->where == LW_SLOT || e->where == LW_STRONG)
 			continue;
-		if (remove_units(nm, k, k + len, kind_of(e->cat), e->value))
+		if (remove_units(ti, k, k + len, kind_of(e->cat), e->value))
 			return -1;
 		*changed = 1;
 		k += len - 1;
-		seg_kept(nm, s, &a, &b);
+		seg_kept(ti, s, &a, &b);
 	}
 	/* years left at an edge by the removals */
-	seg_kept(nm, s, &k0, &k1);
-	if (k0 < k1 && date_at_edge(nm, k0))
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 < k1 && date_at_edge(ti, k0))
 		*changed = 1;
-	seg_kept(nm, s, &k0, &k1);
-	if (k0 < k1 && date_at_edge(nm, k1 - 1))
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 < k1 && date_at_edge(ti, k1 - 1))
 		*changed = 1;
 	/* a contact word alone in its segment: "Contact: jobs@..." */
-	seg_kept(nm, s, &k0, &k1);
-	if (k0 + 1 == k1 && !nm->prot[nm->unit[k0]] &&
-	    match_val(nm, k0, LC_UNIT, "contact", 1, &len) && len == 1 &&
-	    nm->tl.n > nm->unit[k0] + 1) {
-		if (remove_units(nm, k0, k1, NF_MARKETING, NULL))
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 + 1 == k1 && !ti->prot[ti->unit[k0]] &&
+	    match_val(ti, k0, LC_UNIT, "contact", 1, &len) && len == 1 &&
+	    ti->tl.n > ti->unit[k0] + 1) {
+		if (remove_units(ti, k0, k1, NF_MARKETING, NULL))
 			return -1;
 		*changed = 1;
 	}
 	/* hanging words at the two edges */
-	seg_kept(nm, s, &k0, &k1);
-	if (k0 < k1 && !nm->prot[nm->unit[k1 - 1]] && dangling(nm, k1 - 1) &&
-	    (removed_tok(nm, nm->unit[k1 - 1] + 1) ||
-	     (k1 < nm->nunit && !ukept(nm, k1) && useg(nm, k1) == s))) {
-		if (remove_units(nm, k1 - 1, k1, NF_MARKETING, NULL))
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 < k1 && !ti->prot[ti->unit[k1 - 1]] && dangling(ti, k1 - 1) &&
+	    (removed_tok(ti, ti->unit[k1 - 1] + 1) ||
+	     (k1 < ti->nunit && !ukept(ti, k1) && useg(ti, k1) == s))) {
+		if (remove_units(ti, k1 - 1, k1, NF_MARKETING, NULL))
 			return -1;
 		*changed = 1;
 	}
-	seg_kept(nm, s, &k0, &k1);
-	if (k0 < k1 && k0 > 0 && !nm->prot[nm->unit[k0]] &&
-	    match_val(nm, k0, LC_UNIT, "connector", 1, &len) && len == 1 &&
-	    nm->unit[k0] > 0 && removed_tok(nm, nm->unit[k0] - 1)) {
-		if (remove_units(nm, k0, k0 + 1, NF_MARKETING, NULL))
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 < k1 && k0 > 0 && !ti->prot[ti->unit[k0]] &&
+	    match_val(ti, k0, LC_UNIT, "connector", 1, &len) && len == 1 &&
+	    ti->unit[k0] > 0 && removed_tok(ti, ti->unit[k0] - 1)) {
+		if (remove_units(ti, k0, k0 + 1, NF_MARKETING, NULL))
 			return -1;
 		*changed = 1;
 	}
 	return 0;
 }
 
-int pass_phrases(normaliser *nm)
+int pass_phrases(tm_title *ti)
 {
 	int changed = 1, rounds = 0;
 
 	while (changed && rounds++ < 64) {
 		changed = 0;
-		for (size_t s = 0; s < nm->nseg; s++)
-			if (peel_segment(nm, s, &changed))
+		for (size_t s = 0; s < ti->nseg; s++)
+			if (peel_segment(ti, s, &changed))
 				return -1;
 	}
 	return 0;

@@ -59,7 +59,7 @@ vg labels $T labels "$ex/taxonomy.tsv" "$ex/taxonomy.ttl"
 
 # the unit tests of those modules (test_unicode reads NormalizationTest.txt
 # when NORMALIZATION_TEST names it; G2_CASES likewise for test_stats)
-for t in test_decode test_unicode test_token test_lexicon test_norm test_reader test_tally test_stats; do
+for t in test_decode test_unicode test_token test_lexicon test_title test_norm test_reader test_tally test_stats; do
 	[ -x "$B/$t" ] || { echo "FAIL $t: $B/$t not built"; failed=$((failed + 1)); continue; }
 	vg "$t" "$B/$t"
 done

@@ -14,34 +14,40 @@
 #include "lexicon.h"
 #include "token.h"
 
+/* The phrase of text as the scanner finds it: the title's tokens, each
+ * word's id in the vocabulary, one trie step per word. */
 static const lex_entry *find(lexicon *lx, const char *text)
 {
 	static uni_ctx u;
 	static tok_line tl;
 	static tm_buf w;
-	const char *f[12];
-	uint32_t fl[12];
-	uint64_t h = LEX_SEQ_SEED;
-	size_t n = 0;
+	uint32_t n = LEX_ROOT;
+	int words = 0;
 
-	buf_reset(&w);
-	uni_prepare(&u, text, strlen(text), &w);
-	tok_split(&tl, &u, w.data, w.len);
-	for (size_t i = 0; i < tl.n; i++) {
-		if (tl.t[i].kind == TK_PUNCT)
-			continue;
-		f[n] = tok_fold(&tl, &tl.t[i]);
-		fl[n] = tl.t[i].flen;
-		h = lex_seq_step(h, tl.t[i].hash);
-		n++;
-	}
 	if (!text[0]) {
 		uni_ctx_free(&u);
 		tok_line_free(&tl);
 		buf_free(&w);
 		return NULL;
 	}
-	return lex_find(lx, lex_seq_final(h, n), n, f, fl);
+	buf_reset(&w);
+	uni_prepare(&u, text, strlen(text), &w);
+	tok_split(&tl, &u, w.data, w.len);
+	for (size_t i = 0; i < tl.n; i++) {
+		const tm_tok *t = &tl.t[i];
+		if (t->kind == TK_PUNCT)
+			continue;
+		n = lex_step(lx, n, lex_word(lx, tok_fold(&tl, t), t->flen, t->hash));
+		words++;
+		if (!n)
+			return NULL;
+	}
+	return words ? lex_phrase(lx, n, NULL) : NULL;
+}
+
+static uint32_t word_id(lexicon *lx, const char *w)
+{
+	return lex_word(lx, w, strlen(w), tok_hash(w, strlen(w)));
 }
 
 static void test_add_and_find(void **state)
@@ -61,9 +67,29 @@ static void test_add_and_find(void **state)
 	assert_non_null(e);
 	assert_int_equal(e->cat, LC_PLACE);
 	assert_string_equal(e->value, "DE");
-	/* the prefix filter knows "full" starts a phrase; "fuller" none */
-	assert_true(lex_maybe_prefix(lx, lex_seq_final(lex_seq_step(LEX_SEQ_SEED, tok_hash("full", 4)), 1)));
-	assert_false(lex_maybe_phrase(lx, lex_seq_final(lex_seq_step(LEX_SEQ_SEED, tok_hash("full", 4)), 1)));
+	/* "full" starts a phrase but is none; "time" is a word of the
+	 * vocabulary that starts none; "fuller" is no word of it */
+	uint32_t full = lex_step(lx, LEX_ROOT, word_id(lx, "full"));
+	assert_int_not_equal(full, 0);
+	assert_null(lex_phrase(lx, full, NULL));
+	uint32_t cats = 0;
+	assert_non_null(lex_phrase(lx, lex_step(lx, full, word_id(lx, "time")), &cats));
+	assert_int_equal(cats, 1u << LC_SCHEDULE);
+	assert_int_not_equal(word_id(lx, "time"), 0);
+	assert_int_equal(lex_step(lx, LEX_ROOT, word_id(lx, "time")), 0);
+	assert_int_equal(word_id(lx, "fuller"), 0);
+	assert_int_equal(lex_step(lx, full, 0), 0);
+	/* one phrase, entries of several categories in the order added */
+	assert_int_equal(lex_add(lx, LC_UNIT, "*", "Full Time", 9, "hours", LW_ANY, &err), 0);
+	e = find(lx, "full time");
+	assert_int_equal(e->cat, LC_SCHEDULE);
+	assert_int_equal(lex_next(lx, e)->cat, LC_UNIT);
+	assert_null(lex_next(lx, lex_next(lx, e)));
+	assert_non_null(lex_phrase(lx, lex_step(lx, full, word_id(lx, "time")), &cats));
+	assert_int_equal(cats, 1u << LC_SCHEDULE | 1u << LC_UNIT);
+	/* a line given twice adds no entry */
+	assert_int_equal(lex_add(lx, LC_UNIT, "*", "full time", 9, "hours", LW_ANY, &err), 0);
+	assert_null(lex_next(lx, lex_next(lx, find(lx, "full time"))));
 	/* bad values are refused with a message */
 	assert_int_equal(lex_add(lx, LC_SENIORITY, "de", "x", 1, "boss", LW_ANY, &err), -1);
 	assert_non_null(strstr(err.data, "unknown value 'boss'"));
@@ -73,6 +99,11 @@ static void test_add_and_find(void **state)
 	/* off switches an entry off */
 	assert_int_equal(lex_add(lx, LC_SCHEDULE, "en", "full time", 9, "full_time", LW_OFF, &err), 0);
 	assert_true(find(lx, "full time")->off);
+	assert_false(lex_next(lx, find(lx, "full time"))->off);
+	/* off for a phrase never added adds nothing */
+	assert_int_equal(lex_add(lx, LC_SCHEDULE, "en", "part time", 9, "part_time", LW_OFF, &err), 0);
+	assert_null(find(lx, "part time"));
+	assert_int_equal(word_id(lx, "part"), 0);
 	find(lx, "");
 	lex_free(lx);
 	buf_free(&err);
@@ -120,11 +151,136 @@ static void test_load_dir(void **state)
 	rmdir(dir);
 }
 
+static void write_file(const char *dir, const char *sub, const char *name,
+		       const char *text)
+{
+	char p[512];
+	FILE *fp;
+	snprintf(p, sizeof p, "%s/%s", dir, sub);
+	mkdir(p, 0700);
+	snprintf(p, sizeof p, "%s/%s/%s", dir, sub, name);
+	assert_non_null(fp = fopen(p, "w"));
+	fputs(text, fp);
+	fclose(fp);
+}
+
+static void remove_file(const char *dir, const char *sub, const char *name)
+{
+	char p[512];
+	snprintf(p, sizeof p, "%s/%s/%s", dir, sub, name);
+	unlink(p);
+	snprintf(p, sizeof p, "%s/%s", dir, sub);
+	rmdir(p);
+}
+
+static const lex_entry *ending(lexicon *lx, const char *w, size_t *elen)
+{
+	return lex_ending(lx, w, strlen(w), elen);
+}
+
+/* occupation/ and business/: a sample of each in the agreed format */
+static void test_occupation_and_business(void **state)
+{
+	(void)state;
+	char dir[] = "/tmp/tm-lex-XXXXXX";
+	tm_buf err = {0};
+	lexicon *lx;
+	const lex_entry *e;
+	size_t elen = 0;
+
+	assert_non_null(mkdtemp(dir));
+	write_file(dir, "occupation", "de.txt",
+		   "# occupational words, German\n"
+		   "de\tKoch\thead\n"
+		   "de\tFachkraft\tsuffix\n"
+		   "de\tkraft\tsuffix\n"
+		   "de\t-arbeiter\tsuffix\n"
+		   "da\tør\tsuffix\n"
+		   "de\tBuchhaltung\tfield\n"
+		   "en\tsales manager\thead\n");
+	write_file(dir, "business", "de.txt",
+		   "de\tHotel\tkind\n"
+		   "de\tBäckerei\tkind\n"
+		   "de\te.V.\tlegal\n"
+		   "de\t& Söhne\tlegal\n"
+		   "de\tder\tarticle\n"
+		   "de\tHotel\tkind\n");
+	lx = lex_new();
+	assert_int_equal(lex_load_dir(lx, dir, &err), 0);
+	e = find(lx, "KOCH");
+	assert_non_null(e);
+	assert_int_equal(e->cat, LC_OCCUPATION);
+	assert_string_equal(e->value, "head");
+	assert_string_equal(find(lx, "buchhaltung")->value, "field");
+	assert_string_equal(find(lx, "Sales-Manager")->value, "head");
+	e = find(lx, "hotel");
+	assert_int_equal(e->cat, LC_BUSINESS);
+	assert_string_equal(e->value, "kind");
+	assert_null(lex_next(lx, e)); /* the line given twice: one entry */
+	assert_string_equal(find(lx, "Backerei")->value, "kind");
+	assert_string_equal(find(lx, "E.V.")->value, "legal");
+	assert_string_equal(find(lx, "& Söhne")->value, "legal");
+	assert_string_equal(find(lx, "der")->value, "article");
+	/* endings are no phrases: they match the end of a word, the
+	 * longest one first, the word itself too */
+	assert_null(find(lx, "fachkraft"));
+	e = ending(lx, "lagerfachkraft", &elen);
+	assert_non_null(e);
+	assert_int_equal(e->cat, LC_OCCUPATION);
+	assert_string_equal(e->value, "suffix");
+	assert_string_equal(e->lang, "de");
+	assert_int_equal(elen, strlen("fachkraft"));
+	assert_non_null(ending(lx, "lehrkraft", &elen));
+	assert_int_equal(elen, strlen("kraft"));
+	assert_non_null(ending(lx, "fachkraft", &elen));
+	assert_int_equal(elen, strlen("fachkraft"));
+	assert_non_null(ending(lx, "hilfsarbeiter", &elen));
+	assert_int_equal(elen, strlen("arbeiter"));
+	/* folded like a title's words: ø is o in the match key */
+	assert_non_null(ending(lx, "operator", &elen));
+	assert_int_equal(elen, 2);
+	assert_null(ending(lx, "kraftwerk", &elen));
+	assert_null(ending(lx, "arbeit", &elen));
+	assert_null(ending(lx, "", &elen));
+	lex_free(lx);
+	remove_file(dir, "occupation", "de.txt");
+	remove_file(dir, "business", "de.txt");
+
+	/* refusals name the file and the line */
+	static const struct { const char *sub, *text, *msg; } bad[] = {
+		{"occupation", "de\tKoch\thead\nde\tKoch\tchef\n",
+		 "occupation/x.txt:2: unknown value 'chef' for occupation"},
+		{"occupation", "de\tKoch\thead\tedge\n",
+		 "occupation/x.txt:1: no WHERE in occupation/"},
+		{"occupation", "de\tfach kraft\tsuffix\n",
+		 "occupation/x.txt:1: an ending is one word"},
+		{"occupation", "de\t-\tsuffix\n",
+		 "occupation/x.txt:1: an ending is one word"},
+		{"business", "de\tHotel\tkind\tany\n",
+		 "business/x.txt:1: no WHERE in business/"},
+		{"business", "#\n\nde\tHotel\thotel\n",
+		 "business/x.txt:3: unknown value 'hotel' for business"},
+		{"business", "DE\tHotel\tkind\n", "business/x.txt:1: bad language 'DE'"},
+	};
+	for (size_t i = 0; i < sizeof bad / sizeof bad[0]; i++) {
+		write_file(dir, bad[i].sub, "x.txt", bad[i].text);
+		lx = lex_new();
+		assert_int_equal(lex_load_dir(lx, dir, &err), -1);
+		if (!strstr(err.data, bad[i].msg))
+			fail_msg("got \"%.*s\", want \"%s\"", (int)err.len, err.data, bad[i].msg);
+		lex_free(lx);
+		remove_file(dir, bad[i].sub, "x.txt");
+	}
+	rmdir(dir);
+	buf_free(&err);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(test_add_and_find),
 		cmocka_unit_test(test_load_dir),
+		cmocka_unit_test(test_occupation_and_business),
 	};
 	return cmocka_run_group_tests_name("lexicon", tests, NULL, NULL);
 }

@@ -14,75 +14,96 @@
 
 #include "norm.h"
 
-static lexicon *LX;
-static normaliser *NM;
+static lexicon *LX, *LX2;
+static normaliser *NM, *NM2;
 
-static void add(int cat, const char *lang, const char *ph, const char *v, int where)
+static void add(lexicon *lx, int cat, const char *lang, const char *ph, const char *v, int where)
 {
 	tm_buf err = {0};
-	int r = lex_add(LX, cat, lang, ph, strlen(ph), v, where, &err);
+	int r = lex_add(lx, cat, lang, ph, strlen(ph), v, where, &err);
 	if (r < 0)
 		fail_msg("lex_add %s: %.*s", ph, (int)err.len, err.data);
 	buf_free(&err);
 }
 
-static int setup(void **state)
+static void fill(lexicon *lx)
 {
-	(void)state;
 	tm_buf err = {0};
-	LX = lex_new();
-	add(LC_MARKER, "*", "m/w/d", "-", LW_ANY);
-	add(LC_MARKER, "fr", "h/f", "-", LW_ANY);
-	add(LC_MARKER, "*", "w", "-", LW_ALONE);
-	add(LC_SENIORITY, "*", "senior", "senior", LW_ANY);
-	add(LC_SENIORITY, "*", "junior", "junior", LW_ANY);
-	add(LC_SENIORITY, "*", "lead", "lead", LW_EDGE);
-	add(LC_SENIORITY, "*", "II", "mid", LW_EDGE);
-	add(LC_SCHEDULE, "de", "Vollzeit", "full_time", LW_ANY);
-	add(LC_SCHEDULE, "fr", "CDI", "permanent", LW_ANY);
-	add(LC_SCHEDULE, "en", "full-time", "full_time", LW_ANY);
-	add(LC_SCHEDULE, "fr?", "stage", "student", LW_ANY);
-	add(LC_PAY, "*", "€", "currency", LW_ANY);
-	add(LC_PAY, "*", "k", "unit", LW_ANY);
-	add(LC_PAY, "de", "brutto", "unit", LW_ANY);
-	add(LC_PAY, "de", "bis", "lead", LW_ANY);
-	add(LC_PAY, "fr", "salaire attractif", "phrase", LW_ANY);
-	add(LC_PAY, "*", "h", "unit", LW_ANY);
-	add(LC_UNIT, "*", "h", "hours", LW_ANY);
-	add(LC_UNIT, "de", "woche", "week", LW_ANY);
-	add(LC_UNIT, "de", "und", "connector", LW_ANY);
-	add(LC_REFERENCE, "*", "ref", "keyword", LW_ANY);
-	add(LC_MARKETING, "*", "urgent", "-", LW_ANY);
-	add(LC_MARKETING, "de", "ab sofort", "-", LW_ANY);
-	add(LC_EMPLOYER, "en", "at", "marker", LW_ANY);
-	add(LC_EMPLOYER, "de", "bei", "marker", LW_ANY);
-	add(LC_EMPLOYER, "de", "GmbH", "legal", LW_ANY);
-	add(LC_LOCATION, "de", "Raum", "before", LW_ANY);
-	add(LC_LOCATION, "*", "in", "prep", LW_ANY);
-	add(LC_LOCATION, "en", "area", "after", LW_ANY);
-	add(LC_LOCATION, "*", "DE", "country-code", LW_ANY);
-	add(LC_SCHEDULE, "en", "remote", "remote", LW_ANY);
-	add(LC_PLACE, "*", "Köln", "DE", LW_SLOT);
-	add(LC_PLACE, "*", "Bonn", "DE", LW_SLOT);
-	add(LC_PLACE, "*", "München", "DE", LW_SLOT);
-	add(LC_PLACE, "*", "Frankfurt am Main", "DE", LW_SLOT);
-	add(LC_PLACE, "*", "Bath", "GB", LW_STRONG);
-	add(LC_PLACE, "*", "Sales", "FR", LW_STRONG);
-	add(LC_PROTECT, "*", "sales assistant", "-", LW_ANY);
-	add(LC_PROTECT, "*", "linkedin", "-", LW_ANY);
-	add(LC_UNIT, "*", "tel", "contact", LW_ANY);
+	add(lx, LC_MARKER, "*", "m/w/d", "-", LW_ANY);
+	add(lx, LC_MARKER, "fr", "h/f", "-", LW_ANY);
+	add(lx, LC_MARKER, "*", "w", "-", LW_ALONE);
+	add(lx, LC_SENIORITY, "*", "senior", "senior", LW_ANY);
+	add(lx, LC_SENIORITY, "*", "junior", "junior", LW_ANY);
+	add(lx, LC_SENIORITY, "*", "lead", "lead", LW_EDGE);
+	add(lx, LC_SENIORITY, "*", "II", "mid", LW_EDGE);
+	add(lx, LC_SCHEDULE, "de", "Vollzeit", "full_time", LW_ANY);
+	add(lx, LC_SCHEDULE, "fr", "CDI", "permanent", LW_ANY);
+	add(lx, LC_SCHEDULE, "en", "full-time", "full_time", LW_ANY);
+	add(lx, LC_SCHEDULE, "fr?", "stage", "student", LW_ANY);
+	add(lx, LC_PAY, "*", "€", "currency", LW_ANY);
+	add(lx, LC_PAY, "*", "k", "unit", LW_ANY);
+	add(lx, LC_PAY, "de", "brutto", "unit", LW_ANY);
+	add(lx, LC_PAY, "de", "bis", "lead", LW_ANY);
+	add(lx, LC_PAY, "fr", "salaire attractif", "phrase", LW_ANY);
+	add(lx, LC_PAY, "*", "h", "unit", LW_ANY);
+	add(lx, LC_UNIT, "*", "h", "hours", LW_ANY);
+	add(lx, LC_UNIT, "de", "woche", "week", LW_ANY);
+	add(lx, LC_UNIT, "de", "und", "connector", LW_ANY);
+	add(lx, LC_REFERENCE, "*", "ref", "keyword", LW_ANY);
+	add(lx, LC_MARKETING, "*", "urgent", "-", LW_ANY);
+	add(lx, LC_MARKETING, "de", "ab sofort", "-", LW_ANY);
+	add(lx, LC_EMPLOYER, "en", "at", "marker", LW_ANY);
+	add(lx, LC_EMPLOYER, "de", "bei", "marker", LW_ANY);
+	add(lx, LC_EMPLOYER, "de", "GmbH", "legal", LW_ANY);
+	add(lx, LC_LOCATION, "de", "Raum", "before", LW_ANY);
+	add(lx, LC_LOCATION, "*", "in", "prep", LW_ANY);
+	add(lx, LC_LOCATION, "en", "area", "after", LW_ANY);
+	add(lx, LC_LOCATION, "*", "DE", "country-code", LW_ANY);
+	add(lx, LC_SCHEDULE, "en", "remote", "remote", LW_ANY);
+	add(lx, LC_PLACE, "*", "Köln", "DE", LW_SLOT);
+	add(lx, LC_PLACE, "*", "Bonn", "DE", LW_SLOT);
+	add(lx, LC_PLACE, "*", "München", "DE", LW_SLOT);
+	add(lx, LC_PLACE, "*", "Frankfurt am Main", "DE", LW_SLOT);
+	add(lx, LC_PLACE, "*", "Bath", "GB", LW_STRONG);
+	add(lx, LC_PLACE, "*", "Sales", "FR", LW_STRONG);
+	add(lx, LC_PROTECT, "*", "sales assistant", "-", LW_ANY);
+	add(lx, LC_PROTECT, "*", "linkedin", "-", LW_ANY);
+	add(lx, LC_UNIT, "*", "tel", "contact", LW_ANY);
 	tm_buf e2 = {0};
 	/* gender endings */
 	FILE *fp = fopen("/tmp/tm-test-pairs.txt", "w");
 	fputs("de\t-\tin\nde\t-\tinnen\nde\tmann\tfrau\nfr\teur\teuse\nfr\tr\tse\n"
 	      "fr\ter\tère\nes\to\ta\n", fp);
 	fclose(fp);
-	if (lex_load_file(LX, LC_MARKER, 3, "/tmp/tm-test-pairs.txt", &e2) != 0)
+	if (lex_load_file(lx, LC_MARKER, 3, "/tmp/tm-test-pairs.txt", &e2) != 0)
 		fail_msg("%.*s", (int)e2.len, e2.data);
 	remove("/tmp/tm-test-pairs.txt");
 	buf_free(&e2);
 	buf_free(&err);
+}
+
+static int setup(void **state)
+{
+	(void)state;
+	LX = lex_new();
+	fill(LX);
 	NM = norm_new(LX);
+	/* the same, with occupational and business words over the same
+	 * titles: they annotate, and change nothing yet */
+	LX2 = lex_new();
+	fill(LX2);
+	add(LX2, LC_OCCUPATION, "de", "Koch", "head", LW_ANY);
+	add(LX2, LC_OCCUPATION, "en", "sales assistant", "head", LW_ANY);
+	add(LX2, LC_OCCUPATION, "*", "senior", "head", LW_ANY);
+	add(LX2, LC_OCCUPATION, "de", "entwickler", "suffix", LW_ANY);
+	add(LX2, LC_OCCUPATION, "de", "er", "suffix", LW_ANY);
+	add(LX2, LC_OCCUPATION, "fr", "eur", "suffix", LW_ANY);
+	add(LX2, LC_OCCUPATION, "de", "Vollzeit", "field", LW_ANY);
+	add(LX2, LC_BUSINESS, "de", "GmbH", "legal", LW_ANY);
+	add(LX2, LC_BUSINESS, "*", "in", "article", LW_ANY);
+	add(LX2, LC_BUSINESS, "de", "Hotel", "kind", LW_ANY);
+	add(LX2, LC_BUSINESS, "*", "Köln", "kind", LW_ANY);
+	NM2 = norm_new(LX2);
 	return 0;
 }
 
@@ -91,6 +112,8 @@ static int teardown(void **state)
 	(void)state;
 	norm_free(NM);
 	lex_free(LX);
+	norm_free(NM2);
+	lex_free(LX2);
 	return 0;
 }
 
@@ -109,7 +132,18 @@ static void title_is(const char *raw, const char *want)
 	if (r2.title_len != strlen(again) || memcmp(r2.title, again, r2.title_len))
 		fail_msg("not idempotent: \"%s\" -> \"%.*s\"", again, (int)r2.title_len, r2.title);
 	free(again);
+	/* the same result with the occupation and business categories */
+	assert_int_equal(norm_title(NM2, raw, strlen(raw), NULL, &r2), 0);
 	assert_int_equal(norm_title(NM, raw, strlen(raw), NULL, &R), 0);
+	if (r2.title_len != R.title_len || memcmp(r2.title, R.title, R.title_len) ||
+	    r2.key_len != R.key_len || memcmp(r2.key, R.key, R.key_len) ||
+	    r2.npiece != R.npiece)
+		fail_msg("\"%s\": \"%.*s\" with occupation/business words", raw,
+			 (int)r2.title_len, r2.title);
+	for (size_t i = 0; i < R.npiece; i++)
+		if (r2.piece[i].kind != R.piece[i].kind || r2.piece[i].len != R.piece[i].len ||
+		    memcmp(r2.piece[i].text, R.piece[i].text, R.piece[i].len))
+			fail_msg("\"%s\": piece %zu differs with occupation/business words", raw, i);
 }
 
 static const nf_piece *piece(int kind)
