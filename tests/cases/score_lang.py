@@ -29,6 +29,7 @@ Exit status: 0 when the run (and the floors, if given) hold, 1 when a file
 is malformed or a floor is not met, 2 on a usage error or a titlemill run
 that failed."""
 import os
+import signal
 import subprocess
 import sys
 from collections import defaultdict
@@ -151,7 +152,11 @@ def run(exe, rows):
     for lang, group in groups.items():
         cmd = [exe, "norm"] + (["--lang", lang] if lang != "-" else [])
         data = "".join(r["raw"] + "\n" for r in group).encode()
-        res = subprocess.run(cmd, input=data, capture_output=True)
+        try:
+            res = subprocess.run(cmd, input=data, capture_output=True)
+        except OSError as e:
+            sys.stderr.write("score_lang.py: cannot run %s: %s\n" % (exe, e.strerror))
+            sys.exit(2)
         if res.returncode != 0:
             sys.stderr.write("score_lang.py: %s exited %d: %s\n"
                              % (" ".join(cmd), res.returncode,
@@ -197,7 +202,10 @@ def share(p, n):
 
 
 def main():
+    signal.signal(signal.SIGPIPE, signal.SIG_DFL)  # quiet under | head
     exe, here, opts = parse_args(sys.argv[1:])
+    if not os.path.isdir(here):
+        usage("%s is not a folder" % here)
     problems = []
     tables = {}
     for name in sorted(os.listdir(here)):
