@@ -192,6 +192,9 @@ static int render(normaliser *nm, norm_result *res)
 		if (put_lower(nm->work.data, out, t) ||
 		    buf_append(ke, tok_fold(&ti->tl, t), t->flen))
 			return -1;
+		const char *add = ti->madd[ti->unit[k]];
+		if (add && (buf_puts(out, add) || buf_puts(ke, add)))
+			return -1;
 		prev = k;
 	}
 	res->title = out->data ? out->data : "";
@@ -249,8 +252,14 @@ static int norm_once(normaliser *nm, const char *src, size_t n, norm_result *res
 		return -1;
 	/* removed markers are transparent to the scan: a phrase written
 	 * across them is found now */
-	if (ti->nspan > before && title_scan(ti) != 0)
-		return -1;
+	if (ti->nspan > before) {
+		if (title_scan(ti) != 0)
+			return -1;
+		/* and a protected phrase written across them is protected
+		 * now: "Chargé/e de recrutement" */
+		if (HAS(ti, LC_PROTECT))
+			protect(ti);
+	}
 	/* each rule runs only where the line holds what it looks for */
 	if (((f & (LF_NUM | LF_DIGITWORD | LF_SYM) || HAS(ti, LC_REFERENCE)) &&
 	     pass_reference(ti)) ||

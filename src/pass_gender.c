@@ -41,8 +41,10 @@ static int is_fem(tm_title *ti, const char *a, size_t an, const char *b,
 {
 	size_t n, i;
 	const lex_pair *p = lex_pairs(ti->lx, &n);
-	/* the two share a stem of two letters at least */
-	if (an < 2 || bn < 2 || a[0] != b[0] || a[1] != b[1])
+	/* the two share a stem of two letters at least, or a pair lists
+	 * them whole (tjener/servitrice, číšník/servírka) */
+	int stem = an >= 2 && bn >= 2 && a[0] == b[0] && a[1] == b[1];
+	if (an < 2 || bn < 2)
 		return 0;
 	for (i = 0; i < n; i++) {
 		size_t sa, sb;
@@ -53,7 +55,8 @@ static int is_fem(tm_title *ti, const char *a, size_t an, const char *b,
 			continue;
 		sa = an - p[i].mlen;
 		sb = bn - p[i].flen;
-		if (sa == sb && sa >= 2 && memcmp(a, b, sa) == 0)
+		if (sa == sb && memcmp(a, b, sa) == 0 &&
+		    ((stem && sa >= 2) || (sa == 0 && an >= 3)))
 			return 1;
 	}
 	return 0;
@@ -218,8 +221,173 @@ static int markers(tm_title *ti)
 	return 0;
 }
 
+/* The pair whose feminine is "@": the masculine ending that a glued "@"
+ * stands for with its feminine ("camarer@" = camarero/camarera), NULL
+ * when the title's language has none. */
+static const lex_pair *at_pair(tm_title *ti)
+{
+	size_t n, i;
+	const lex_pair *p = lex_pairs(ti->lx, &n), *any = NULL;
+	/* the title's language's own, or any when none is given */
+	for (i = 0; i < n; i++)
+		if (p[i].flen == 1 && p[i].fem[0] == '@' && !any &&
+		    (!ti->lang || !strcmp(p[i].lang, ti->lang)))
+			any = &p[i];
+	return any;
+}
+
+/* Is a (an bytes) already a whole masculine form: it ends with a
+ * masculine ending of the "@" pair's language whose feminine adds to it
+ * what the feminine of the "@" pair's masculine is ("profesor@": "or"
+ * and "ora", as "o" and "a")? */
+static int whole_masc(tm_title *ti, const char *a, size_t an, const lex_pair *at)
+{
+	size_t n, i, fn = 0;
+	const lex_pair *p = lex_pairs(ti->lx, &n);
+	const char *f = NULL;
+	/* the feminine ending the "@" pair's masculine pairs with in the
+	 * same language: "a" */
+	for (i = 0; i < n && !f; i++)
+		if (!strcmp(p[i].lang, at->lang) && p[i].mlen == at->mlen &&
+		    !memcmp(p[i].masc, at->masc, at->mlen) && p[i].fem[0] != '@') {
+			f = p[i].fem;
+			fn = p[i].flen;
+		}
+	if (!f)
+		return 0;
+	for (i = 0; i < n; i++)
+		if (!strcmp(p[i].lang, at->lang) && p[i].mlen &&
+		    p[i].flen == p[i].mlen + fn &&
+		    !memcmp(p[i].fem, p[i].masc, p[i].mlen) &&
+		    !memcmp(p[i].fem + p[i].mlen, f, fn) &&
+		    ends_with(a, an, p[i].masc, p[i].mlen) && an >= (size_t)p[i].mlen + 2)
+			return 1;
+	return 0;
+}
+
+/* "camarer@", "profesor@", "addett*": a glued "@" (or, in a language
+ * given with --lang, "*") ending a word stands for both endings of the
+ * language's "@" pair.  It is removed
+ * and, unless the word is a whole masculine form already, the
+ * masculine ending is written after the word. */
+static int open_endings(tm_title *ti)
+{
+	const lex_pair *at = at_pair(ti);
+	if (!at)
+		return 0;
+	for (size_t k = 0; k < ti->nunit; k++) {
+		size_t ta = ti->unit[k];
+		const tm_tok *x, *y;
+		uint32_t an;
+		const char *a;
+		if (!base_unit(ti, k) || ta + 1 >= ti->tl.n)
+			continue;
+		x = &ti->tl.t[ta + 1];
+		/* "*" marks a footnote too: read as an ending only in a
+		 * language that writes "@" for one */
+		if (x->sp || (x->ch != '@' && (x->ch != '*' || !ti->lang)) ||
+		    ti->rm[ta + 1] != RM_NONE)
+			continue;
+		/* the word ends there: "Verkäufer*in" is a suffix */
+		y = ta + 2 < ti->tl.n ? &ti->tl.t[ta + 2] : NULL;
+		if (y && !y->sp && y->kind != TK_PUNCT)
+			continue;
+		a = ufold(ti, k, &an);
+		if (an < 3)
+			continue;
+		if (remove_toks(ti, ta + 1, ta + 1, NF_GENDER, NULL))
+			return -1;
+		if (at->mlen && !whole_masc(ti, a, an, at)) {
+			char w[256];
+			ti->madd[ta] = at->masc;
+			/* the scan reads the word with its ending */
+			if (an + at->mlen < sizeof w) {
+				memcpy(w, a, an);
+				memcpy(w + an, at->masc, at->mlen);
+				ti->uword[k] = lex_word(ti->lx, w, an + at->mlen,
+							tok_hash(w, an + at->mlen));
+			}
+		}
+	}
+	return 0;
+}
+
+/* Are units [k, k + n) kept words of one segment, written apart?  (A
+ * label may protect either form: "vedoucí směny".) */
+static int word_run(tm_title *ti, size_t k, size_t n)
+{
+	if (k + n > ti->nunit)
+		return 0;
+	for (size_t j = k; j < k + n; j++)
+		if (!base_unit(ti, j) || useg(ti, j) != useg(ti, k) ||
+		    (j > k && ti->unit[j] != ti->unit[j - 1] + 1 &&
+		     !ti->tl.t[ti->unit[j]].sp))
+			return 0;
+	return 1;
+}
+
+/* Longest gendered phrase written twice across a spaced slash: the
+ * adjectives agree with the noun ("Samodzielny księgowy / Samodzielna
+ * księgowa", "Starszy specjalista / Starsza specjalistka ds.
+ * sprzedaży"), or the two forms coincide ("Vedoucí směny / vedoucí
+ * směny", when the first is its whole segment).  The second form is
+ * removed.  At most PAIR_WORDS words a side are compared at each slash. */
+#define PAIR_WORDS 3
+static int phrase_pairs(tm_title *ti)
+{
+	for (size_t k = 1; k < ti->nunit; k++) {
+		size_t tl = ti->unit[k - 1], tr = ti->unit[k], n;
+		if (tr != tl + 2 || ti->tl.t[tl + 1].ch != '/' ||
+		    !(ti->tl.t[tl + 1].flags & TF_STRONG) || ti->rm[tl + 1] != RM_NONE)
+			continue;
+		for (n = PAIR_WORDS; n >= 1; n--) {
+			size_t l0, i, fem = 0, same = 0;
+			if (n > k || !word_run(ti, k - n, n) || !word_run(ti, k, n))
+				continue;
+			l0 = k - n;
+			for (i = 0; i < n; i++) {
+				uint32_t an, bn;
+				const char *a = ufold(ti, l0 + i, &an);
+				const char *b = ufold(ti, k + i, &bn);
+				if (an == bn && !memcmp(a, b, an))
+					same++;
+				else if (is_fem(ti, a, an, b, bn))
+					fem++;
+				else
+					break;
+			}
+			if (same + fem != n)
+				continue;
+			/* the same words: only a whole first segment
+			 * repeated, and only a name of at least one word
+			 * of three letters */
+			if (!fem) {
+				uint32_t an;
+				size_t s0, s1;
+				seg_kept(ti, useg(ti, l0), &s0, &s1);
+				ufold(ti, l0, &an);
+				if (s0 != l0 || s1 != k || an < 3)
+					continue;
+			}
+			/* the second form is the first one's other gender:
+			 * a protection it carries is the first one's */
+			for (size_t t = tl + 1; t <= ti->unit[k + n - 1]; t++)
+				ti->prot[t] = 0;
+			if (remove_toks(ti, tl + 1, ti->unit[k + n - 1], NF_GENDER, NULL))
+				return -1;
+			k += n - 1;
+			break;
+		}
+	}
+	return 0;
+}
+
 int pass_gender(tm_title *ti)
 {
+	if ((ti->lflags & (LF_SYM | LF_JOIN)) && open_endings(ti))
+		return -1;
+	if ((ti->lflags & LF_JOIN) && phrase_pairs(ti))
+		return -1;
 	if ((HAS(ti, LC_MARKER) && markers(ti)) ||
 	    ((ti->lflags & LF_CAPSUF) && capital_i(ti)) ||
 	    (((ti->lflags & LF_JOIN) || HAS(ti, LC_UNIT)) && pairs_and_suffixes(ti)))

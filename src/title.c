@@ -39,6 +39,10 @@ static int grow_arrays(tm_title *ti, size_t ntok)
 	if (!tu)
 		return -1;
 	ti->tunit = tu;
+	const char **ma = realloc(ti->madd, cap * sizeof *ma);
+	if (!ma)
+		return -1;
+	ti->madd = ma;
 	uint32_t *un = realloc(ti->unit, cap * sizeof *un);
 	if (!un)
 		return -1;
@@ -138,6 +142,9 @@ int title_scan(tm_title *ti)
 			if (j >= ti->nunit || d++ == MAXPH ||
 			    (useg(ti, j) != s && ti->rm[ti->unit[j - 1]] != NF_GENDER))
 				break;
+			/* past the markers the walk is in the segment it
+			 * went on into: "Chargé(e) de recrutement" */
+			s = useg(ti, j);
 			node = lex_step(ti->lx, node, ti->uword[j]);
 		}
 		/* longest first */
@@ -321,6 +328,7 @@ int title_build(tm_title *ti)
 	for (t = 0; t < tl->n; t++) {
 		tm_tok *x = &tl->t[t];
 		ti->tunit[t] = UINT32_MAX;
+		ti->madd[t] = NULL;
 		ti->tseg[t] = UINT32_MAX;
 		if (x->kind != TK_PUNCT && x->flen == 0) {
 			/* a lone mark or an ignorable: folds to nothing, is
@@ -446,6 +454,7 @@ void title_free(tm_title *ti)
 	free(ti->prot);
 	free(ti->tseg);
 	free(ti->tunit);
+	free(ti->madd);
 	free(ti->unit);
 	free(ti->segs);
 	free(ti->spans);

@@ -79,6 +79,10 @@ typedef struct tm_title {
 	uint8_t *prot;
 	uint32_t *tseg;   /* segment of each token */
 	uint32_t *tunit;  /* unit index of each token, or UINT32_MAX */
+	/* the masculine ending the renderer writes after a token whose
+	 * written ending stood for both forms ("camarer@" -> "camarero"),
+	 * or NULL; borrowed from the lexicon */
+	const char **madd;
 	size_t tcap;
 	/* units */
 	uint32_t *unit;   /* unit -> token */

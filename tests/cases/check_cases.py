@@ -16,7 +16,8 @@ def read(path):
     head = lines[0].split("\t")
     rows = []
     for no, line in enumerate(lines[1:], start=2):
-        if not line:
+        # a line starting with "#" names the kind of the rows below it
+        if not line or line.startswith("#"):
             continue
         cells = line.split("\t")
         cells += [""] * (len(head) - len(cells))

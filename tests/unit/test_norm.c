@@ -69,11 +69,14 @@ static void fill(lexicon *lx)
 	add(lx, LC_PROTECT, "*", "sales assistant", "-", LW_ANY);
 	add(lx, LC_PROTECT, "*", "linkedin", "-", LW_ANY);
 	add(lx, LC_UNIT, "*", "tel", "contact", LW_ANY);
+	add(lx, LC_MARKETING, "fr", "de recrutement", "-", LW_EDGE);
+	add(lx, LC_PROTECT, "fr", "chargé de recrutement", "-", LW_ANY);
 	tm_buf e2 = {0};
 	/* gender endings */
 	FILE *fp = fopen("/tmp/tm-test-pairs.txt", "w");
 	fputs("de\t-\tin\nde\t-\tinnen\nde\tmann\tfrau\nfr\teur\teuse\nfr\tr\tse\n"
-	      "fr\ter\tère\nes\to\ta\n", fp);
+	      "fr\ter\tère\nes\to\ta\nfr\t-\te\nes\tor\tora\nes\to\t@\n"
+	      "pl\ty\ta\npl\tik\ticzka\nda\ttjener\tservitrice\nhr\tik\tica\n", fp);
 	fclose(fp);
 	if (lex_load_file(lx, LC_MARKER, 3, "/tmp/tm-test-pairs.txt", &e2) != 0)
 		fail_msg("%.*s", (int)e2.len, e2.data);
@@ -192,6 +195,49 @@ static void test_gender(void **state)
 	title_is("Vendeur H/F", "vendeur"); /* listed for fr, safe everywhere */
 }
 
+/* title_is in a language given as with --lang */
+static void title_in(const char *lang, const char *raw, const char *want)
+{
+	assert_int_equal(norm_title(NM, raw, strlen(raw), lang, &R), 0);
+	if (R.title_len != strlen(want) || memcmp(R.title, want, R.title_len))
+		fail_msg("norm(\"%s\", %s) = \"%.*s\", want \"%s\"", raw,
+			 lang ? lang : "-", (int)R.title_len, R.title, want);
+}
+
+static void test_gender_forms(void **state)
+{
+	(void)state;
+	/* a phrase protected across a folded ending keeps its words */
+	title_is("Chargé/e de recrutement", "chargé de recrutement");
+	title_is("Chargé de recrutement", "chargé de recrutement");
+	/* and across the bracket's segments */
+	title_is("Chargé(e) de recrutement", "chargé de recrutement");
+	/* "@" stands for the ending of the "@" pair, after a stem or a
+	 * whole masculine form; the words after it stay */
+	title_is("camarer@ de sala", "camarero de sala");
+	title_is("profesor@ de inglés", "profesor de inglés");
+	assert_memory_equal(R.key, "profesor de ingles", R.key_len);
+	title_in("es", "camarer@", "camarero");
+	title_in("es", "addett* vendite", "addetto vendite");
+	/* "*" reads as an ending only in a language that writes "@" */
+	title_in("en", "Driver* Berlin", "driver berlin");
+	title_is("Verkäufer*in", "verkäufer");
+	/* a gendered phrase written twice across a spaced slash */
+	title_is("Samodzielny księgowy / Samodzielna księgowa",
+		 "samodzielny księgowy");
+	title_is("Kierownik / Kierowniczka zmiany", "kierownik zmiany");
+	title_is("Vedoucí směny / vedoucí směny", "vedoucí směny");
+	/* the same words only when the first is its whole segment, and
+	 * two things that are no pair stay */
+	title_is("Koch / Fahrer", "koch / fahrer");
+	title_is("Koch Fahrer / Fahrer", "koch fahrer / fahrer");
+	title_is("Starszy księgowy / Koch", "starszy księgowy / koch");
+	/* a pair written whole */
+	title_is("Tjener/servitrice", "tjener");
+	/* a short whole-word pair is no pair: "ik/ica" */
+	title_is("IK/ICA", "ik/ica");
+}
+
 static void test_lang_hint(void **state)
 {
 	(void)state;
@@ -270,6 +316,7 @@ int main(void)
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(test_example_of_design),
 		cmocka_unit_test(test_gender),
+		cmocka_unit_test(test_gender_forms),
 		cmocka_unit_test(test_lang_hint),
 		cmocka_unit_test(test_places),
 		cmocka_unit_test(test_noise),
