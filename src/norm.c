@@ -157,7 +157,10 @@ static int render(normaliser *nm, norm_result *res)
 							m->kind != TK_PUNCT)))
 					space = 1;
 			}
-			if (space || ((t->kind == TK_SYM || U(ti, prev)->kind == TK_SYM) &&
+			if (ti->madd[a] == title_glue && b == a + 4) {
+				/* the word's two parts around the removed
+				 * "(st)": "medewerk" + "er" */
+			} else if (space || ((t->kind == TK_SYM || U(ti, prev)->kind == TK_SYM) &&
 				      b != a + 1)) {
 				/* an abbreviation's dot (Kfm. Sachbearbeiter) and a
 				 * suspended hyphen (Energie- und Gebäudetechnik)

@@ -312,6 +312,49 @@ static int open_endings(tm_title *ti)
 	return 0;
 }
 
+/* "Medewerk(st)er": a bracketed infix glued between two parts of a
+ * word, where the word without it ends with a masculine ending and the
+ * infix followed by that ending is its feminine ("er"/"ster").  The
+ * infix is removed and the two parts are written as one word. */
+static int infixes(tm_title *ti)
+{
+	for (size_t k = 0; k + 2 < ti->nunit; k++) {
+		size_t ta = ti->unit[k], n, i;
+		uint32_t in, bn, an;
+		const tm_tok *o = ta + 1 < ti->tl.n ? &ti->tl.t[ta + 1] : NULL;
+		if (!o || !(o->flags & TF_OPEN) || o->sp || ti->unit[k + 1] != ta + 2 ||
+		    ti->unit[k + 2] != ta + 4 || !(ti->tl.t[ta + 3].flags & TF_CLOSE) ||
+		    ti->tl.t[ta + 2].sp || ti->tl.t[ta + 3].sp || ti->tl.t[ta + 4].sp ||
+		    !base_unit(ti, k) || !word_unit(ti, k + 1) || !word_unit(ti, k + 2))
+			continue;
+		const char *a = ufold(ti, k, &an);
+		const char *x = ufold(ti, k + 1, &in);
+		const char *b = ufold(ti, k + 2, &bn);
+		const lex_pair *p = lex_pairs(ti->lx, &n);
+		char w[256];
+		for (i = 0; i < n; i++)
+			if (pair_applies(ti, &p[i]) && p[i].mlen &&
+			    ends_with(b, bn, p[i].masc, p[i].mlen) &&
+			    p[i].flen == in + p[i].mlen && !memcmp(p[i].fem, x, in) &&
+			    !memcmp(p[i].fem + in, p[i].masc, p[i].mlen))
+				break;
+		if (i == n || an < 2)
+			continue;
+		if (remove_toks(ti, ta + 1, ta + 3, NF_GENDER, NULL))
+			return -1;
+		ti->madd[ta] = title_glue;
+		/* the scan reads the whole word at the first part */
+		if (an + bn < sizeof w) {
+			memcpy(w, a, an);
+			memcpy(w + an, b, bn);
+			ti->uword[k] = lex_word(ti->lx, w, an + bn, tok_hash(w, an + bn));
+			ti->uword[k + 2] = 0;
+		}
+		k += 2;
+	}
+	return 0;
+}
+
 /* Are units [k, k + n) kept words of one segment, written apart?  (A
  * label may protect either form: "vedoucí směny".) */
 static int word_run(tm_title *ti, size_t k, size_t n)
@@ -386,7 +429,7 @@ int pass_gender(tm_title *ti)
 {
 	if ((ti->lflags & (LF_SYM | LF_JOIN)) && open_endings(ti))
 		return -1;
-	if ((ti->lflags & LF_JOIN) && phrase_pairs(ti))
+	if ((ti->lflags & LF_JOIN) && (phrase_pairs(ti) || infixes(ti)))
 		return -1;
 	if ((HAS(ti, LC_MARKER) && markers(ti)) ||
 	    ((ti->lflags & LF_CAPSUF) && capital_i(ti)) ||

@@ -11,6 +11,8 @@ static const char *const kind_names[NF_NKIND] = {
 	"phone", "url", "location-slot",
 };
 
+const char title_glue[] = "";
+
 const char *nf_kind_name(int kind)
 {
 	return kind >= 0 && kind < NF_NKIND ? kind_names[kind] : "other";

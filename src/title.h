@@ -32,6 +32,9 @@ const char *nf_kind_name(int kind);
 
 #define RM_NONE 0xFF
 
+/* tm_title.madd of a token the next kept word is glued to. */
+extern const char title_glue[];
+
 /* What a line holds, so that a rule with nothing to look for is skipped. */
 enum {
 	LF_NUM = 1,       /* a number */
@@ -81,7 +84,9 @@ typedef struct tm_title {
 	uint32_t *tunit;  /* unit index of each token, or UINT32_MAX */
 	/* the masculine ending the renderer writes after a token whose
 	 * written ending stood for both forms ("camarer@" -> "camarero"),
-	 * or NULL; borrowed from the lexicon */
+	 * title_glue when the next kept word is written right after it
+	 * ("Medewerk(st)er" -> "medewerker"), or NULL; borrowed from the
+	 * lexicon */
 	const char **madd;
 	size_t tcap;
 	/* units */

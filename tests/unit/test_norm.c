@@ -76,7 +76,8 @@ static void fill(lexicon *lx)
 	FILE *fp = fopen("/tmp/tm-test-pairs.txt", "w");
 	fputs("de\t-\tin\nde\t-\tinnen\nde\tmann\tfrau\nfr\teur\teuse\nfr\tr\tse\n"
 	      "fr\ter\tère\nes\to\ta\nfr\t-\te\nes\tor\tora\nes\to\t@\n"
-	      "pl\ty\ta\npl\tik\ticzka\nda\ttjener\tservitrice\nhr\tik\tica\n", fp);
+	      "pl\ty\ta\npl\tik\ticzka\nda\ttjener\tservitrice\nhr\tik\tica\n"
+	      "nl\ter\tster\n", fp);
 	fclose(fp);
 	if (lex_load_file(lx, LC_MARKER, 3, "/tmp/tm-test-pairs.txt", &e2) != 0)
 		fail_msg("%.*s", (int)e2.len, e2.data);
@@ -234,6 +235,10 @@ static void test_gender_forms(void **state)
 	title_is("Starszy księgowy / Koch", "starszy księgowy / koch");
 	/* a pair written whole */
 	title_is("Tjener/servitrice", "tjener");
+	/* a bracketed infix between two parts of a word */
+	title_in("nl", "Medewerk(st)er bediening", "medewerker bediening");
+	assert_memory_equal(R.key, "medewerker bediening", R.key_len);
+	title_is("Mitarbeiter(in) Vertrieb", "mitarbeiter vertrieb");
 	/* a short whole-word pair is no pair: "ik/ica" */
 	title_is("IK/ICA", "ik/ica");
 }
