@@ -85,7 +85,17 @@ static int put_lower(const char *text, tm_buf *b, const tm_tok *t)
 		}
 		return 0;
 	}
-	return uni_lower(p, t->len, b);
+	size_t at = b->len;
+	if (uni_lower(p, t->len, b))
+		return -1;
+	/* a capital sigma ending a Greek word of two letters or more is
+	 * the final form (Unicode's Final_Sigma condition, SpecialCasing.txt;
+	 * a token is a whole word): ΠΩΛΗΤΗΣ -> πωλητης */
+	if (t->kind == TK_WORD && t->len >= 4 && b->len >= at + 4 &&
+	    !memcmp(p + t->len - 2, "\xCE\xA3", 2) &&
+	    !memcmp(b->data + b->len - 2, "\xCF\x83", 2))
+		b->data[b->len - 1] = (char)0x82;
+	return 0;
 }
 
 static int is_kept_word(tm_title *ti, size_t k)

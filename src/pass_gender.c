@@ -19,15 +19,17 @@ static int ends_with(const char *s, size_t n, const char *e, size_t m)
 	return m <= n && memcmp(s + n - m, e, m) == 0;
 }
 
-/* b is a written ending of a: "in", "euse", "a", "frau" after kaufmann. */
+/* b is a written ending of a: "in", "euse", "a", "frau" after kaufmann.
+ * When strict, only an ending that replaces one of a's own, of two
+ * letters at least ("vendeur-euse"; "check-in" is no gender form). */
 static int is_suffix(tm_title *ti, const char *a, size_t an, const char *b,
-		     size_t bn)
+		     size_t bn, int strict)
 {
 	size_t n, i;
 	const lex_pair *p = lex_pairs(ti->lx, &n);
 	for (i = 0; i < n; i++) {
 		if (!pair_applies(ti, &p[i]) || p[i].flen != bn ||
-		    memcmp(p[i].fem, b, bn))
+		    memcmp(p[i].fem, b, bn) || (strict && (!p[i].mlen || bn < 2)))
 			continue;
 		if (ends_with(a, an, p[i].masc, p[i].mlen) && an >= (size_t)p[i].mlen + 2)
 			return 1;
@@ -133,10 +135,22 @@ static int pairs_and_suffixes(tm_title *ti)
 					ok = 0;
 				if (m->ch == '(')
 					open = 1;
-				if (m->ch == '-' && t == ta + 1)
+				if (m->ch == '-' && t == ta + 1 && tb > ta + 2)
 					ok = 0;
 			}
-			if (ok && (is_suffix(ti, a, an, b, bn) ||
+			/* a hyphen alone joins compounds: only an ending
+			 * that replaces the word's own */
+			int hyph = x->ch == '-';
+			if (ok && hyph) {
+				if (is_suffix(ti, a, an, b, bn, 1)) {
+					if (drop_after(ti, k, j, 0))
+						return -1;
+					k = j;
+					continue;
+				}
+				ok = 0;
+			}
+			if (ok && (is_suffix(ti, a, an, b, bn, 0) ||
 				   (x->ch != '.' && is_fem(ti, a, an, b, bn)) ||
 				   (x->ch == '/' && tb == ta + 3 &&
 				    ti->tl.t[ta + 2].ch == '-' &&
@@ -355,16 +369,28 @@ static int infixes(tm_title *ti)
 	return 0;
 }
 
-/* Are units [k, k + n) kept words of one segment, written apart?  (A
- * label may protect either form: "vedoucí směny".) */
+/* How unit j > 0 is joined to the one before: 1 a space, 2 a glued
+ * hyphen ("kasjer-sprzedawca"), 0 otherwise. */
+static int joint(const tm_title *ti, size_t j)
+{
+	size_t a = ti->unit[j - 1], b = ti->unit[j];
+	if (b == a + 1)
+		return ti->tl.t[b].sp ? 1 : 0;
+	if (b == a + 2 && ti->tl.t[a + 1].ch == '-' && !ti->tl.t[a + 1].sp &&
+	    !ti->tl.t[b].sp && ti->rm[a + 1] == RM_NONE)
+		return 2;
+	return 0;
+}
+
+/* Are units [k, k + n) kept words of one segment, apart or hyphened?
+ * (A label may protect either form: "vedoucí směny".) */
 static int word_run(tm_title *ti, size_t k, size_t n)
 {
 	if (k + n > ti->nunit)
 		return 0;
 	for (size_t j = k; j < k + n; j++)
 		if (!base_unit(ti, j) || useg(ti, j) != useg(ti, k) ||
-		    (j > k && ti->unit[j] != ti->unit[j - 1] + 1 &&
-		     !ti->tl.t[ti->unit[j]].sp))
+		    (j > k && !joint(ti, j)))
 			return 0;
 	return 1;
 }
@@ -372,7 +398,8 @@ static int word_run(tm_title *ti, size_t k, size_t n)
 /* Longest gendered phrase written twice across a spaced slash: the
  * adjectives agree with the noun ("Samodzielny księgowy / Samodzielna
  * księgowa", "Starszy specjalista / Starsza specjalistka ds.
- * sprzedaży"), or the two forms coincide ("Vedoucí směny / vedoucí
+ * sprzedaży"), a hyphened compound ("Kasjer-sprzedawca /
+ * Kasjerka-sprzedawczyni"), or the two forms coincide ("Vedoucí směny / vedoucí
  * směny", when the first is its whole segment).  The second form is
  * removed.  At most PAIR_WORDS words a side are compared at each slash. */
 #define PAIR_WORDS 3
@@ -390,6 +417,9 @@ static int phrase_pairs(tm_title *ti)
 			l0 = k - n;
 			for (i = 0; i < n; i++) {
 				uint32_t an, bn;
+				/* joined alike on both sides */
+				if (i && joint(ti, l0 + i) != joint(ti, k + i))
+					break;
 				const char *a = ufold(ti, l0 + i, &an);
 				const char *b = ufold(ti, k + i, &bn);
 				if (an == bn && !memcmp(a, b, an))

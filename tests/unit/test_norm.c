@@ -239,6 +239,9 @@ static void test_gender_forms(void **state)
 	title_in("nl", "Medewerk(st)er bediening", "medewerker bediening");
 	assert_memory_equal(R.key, "medewerker bediening", R.key_len);
 	title_is("Mitarbeiter(in) Vertrieb", "mitarbeiter vertrieb");
+	/* a capital sigma ending a word is the final form, as folded */
+	title_is("ΠΩΛΗΤΗΣ", "πωλητης");
+	title_is("ΣΑ ΟΔΗΓΟΣ-ΔΙΑΝΟΜΕΑΣ", "σα οδηγος-διανομεας");
 	/* a short whole-word pair is no pair: "ik/ica" */
 	title_is("IK/ICA", "ik/ica");
 }
