@@ -400,7 +400,8 @@ static int word_run(tm_title *ti, size_t k, size_t n)
  * księgowa", "Starszy specjalista / Starsza specjalistka ds.
  * sprzedaży"), a hyphened compound ("Kasjer-sprzedawca /
  * Kasjerka-sprzedawczyni"), or the two forms coincide ("Vedoucí směny / vedoucí
- * směny", when the first is its whole segment).  The second form is
+ * směny", when each is its whole segment: "Sales / Sales Manager"
+ * stays).  The second form is
  * removed.  At most PAIR_WORDS words a side are compared at each slash. */
 #define PAIR_WORDS 3
 static int phrase_pairs(tm_title *ti)
@@ -436,10 +437,11 @@ static int phrase_pairs(tm_title *ti)
 			 * of three letters */
 			if (!fem) {
 				uint32_t an;
-				size_t s0, s1;
+				size_t s0, s1, r0, r1;
 				seg_kept(ti, useg(ti, l0), &s0, &s1);
+				seg_kept(ti, useg(ti, k), &r0, &r1);
 				ufold(ti, l0, &an);
-				if (s0 != l0 || s1 != k || an < 3)
+				if (s0 != l0 || s1 != k || r0 != k || r1 != k + n || an < 3)
 					continue;
 			}
 			/* the second form is the first one's other gender:

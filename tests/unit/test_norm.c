@@ -232,6 +232,7 @@ static void test_gender_forms(void **state)
 	 * two things that are no pair stay */
 	title_is("Koch / Fahrer", "koch / fahrer");
 	title_is("Koch Fahrer / Fahrer", "koch fahrer / fahrer");
+	title_is("Fahrer / Fahrer Koch", "fahrer / fahrer koch");
 	title_is("Starszy księgowy / Koch", "starszy księgowy / koch");
 	/* a pair written whole */
 	title_is("Tjener/servitrice", "tjener");
