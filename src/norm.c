@@ -206,6 +206,11 @@ static int render(normaliser *nm, norm_result *res)
 		    buf_append(ke, tok_fold(&ti->tl, t), t->flen))
 			return -1;
 		const char *add = ti->madd[ti->unit[k]];
+		size_t cut = ti->mcut[ti->unit[k]];
+		if (add && cut && out->len >= cut && ke->len >= cut) {
+			out->len -= cut;
+			ke->len -= cut;
+		}
 		if (add && (buf_puts(out, add) || buf_puts(ke, add)))
 			return -1;
 		prev = k;

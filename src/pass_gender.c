@@ -64,6 +64,47 @@ static int is_fem(tm_title *ti, const char *a, size_t an, const char *b,
 	return 0;
 }
 
+static int ascii(const char *s, size_t n)
+{
+	for (size_t i = 0; i < n; i++)
+		if ((unsigned char)s[i] >= 0x80)
+			return 0;
+	return 1;
+}
+
+/* "Addetta/o", "Dependienta/e", "Direttrice/tore": the feminine written
+ * first, b the masculine ending replacing its own.  The pair found, or
+ * NULL.  Only ASCII endings written as their fold (so that the rendered
+ * word can be cut by the same bytes), of the title's language. */
+static const lex_pair *fem_first(tm_title *ti, size_t k, const char *a,
+				 size_t an, const char *b, size_t bn)
+{
+	size_t n, i;
+	const lex_pair *p = lex_pairs(ti->lx, &n);
+	const tm_tok *t = U(ti, k);
+	const char *raw = ti->text + t->off;
+	/* endings of other languages fold plurals ("Barista/i"): only
+	 * the title's own, given with --lang */
+	if (!ti->lang)
+		return NULL;
+	for (i = 0; i < n; i++) {
+		if (strcmp(p[i].lang, ti->lang) || p[i].mlen != bn || !bn ||
+		    memcmp(p[i].masc, b, bn) || !ends_with(a, an, p[i].fem, p[i].flen) ||
+		    an < (size_t)p[i].flen + 2 || !ascii(p[i].fem, p[i].flen) ||
+		    !ascii(p[i].masc, p[i].mlen) || t->len < p[i].flen)
+			continue;
+		size_t j;
+		for (j = 0; j < p[i].flen; j++) {
+			char c = raw[t->len - p[i].flen + j];
+			if ((c >= 'A' && c <= 'Z' ? c + 32 : c) != p[i].fem[j])
+				break;
+		}
+		if (j == p[i].flen)
+			return &p[i];
+	}
+	return NULL;
+}
+
 /* Tierarzt/-ärztin: b is the feminine of the last part of a. */
 static int is_fem_tail(tm_title *ti, const char *a, size_t an, const char *b,
 		       size_t bn)
@@ -125,6 +166,25 @@ static int pairs_and_suffixes(tm_title *ti)
 		ta = ti->unit[k];
 		tb = ti->unit[j];
 		x = &ti->tl.t[ta + 1];
+		/* the feminine first, the masculine ending after it (before the
+		 * suffixes: "o" is one) */
+		const lex_pair *ff;
+		if (tb == ta + 2 && x->ch == '/' && !x->sp && !ti->tl.t[tb].sp &&
+		    (ff = fem_first(ti, k, a, an, b, bn))) {
+			if (remove_toks(ti, ta + 1, tb, NF_GENDER, NULL))
+				return -1;
+			ti->madd[ta] = ff->masc;
+			ti->mcut[ta] = ff->flen;
+			char w[256];
+			size_t wn = an - ff->flen + ff->mlen;
+			if (wn < sizeof w) {
+				memcpy(w, a, an - ff->flen);
+				memcpy(w + an - ff->flen, ff->masc, ff->mlen);
+				ti->uword[k] = lex_word(ti->lx, w, wn, tok_hash(w, wn));
+			}
+			k = j;
+			continue;
+		}
 		/* written endings glued to the word: / /- * : · _ . ( */
 		if (tb > ta + 1 && tb <= ta + 3 && !x->sp && !ti->tl.t[tb].sp) {
 			int ok = 1, open = 0;

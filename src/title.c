@@ -45,6 +45,10 @@ static int grow_arrays(tm_title *ti, size_t ntok)
 	if (!ma)
 		return -1;
 	ti->madd = ma;
+	uint8_t *mc = realloc(ti->mcut, cap);
+	if (!mc)
+		return -1;
+	ti->mcut = mc;
 	uint32_t *un = realloc(ti->unit, cap * sizeof *un);
 	if (!un)
 		return -1;
@@ -331,6 +335,7 @@ int title_build(tm_title *ti)
 		tm_tok *x = &tl->t[t];
 		ti->tunit[t] = UINT32_MAX;
 		ti->madd[t] = NULL;
+		ti->mcut[t] = 0;
 		ti->tseg[t] = UINT32_MAX;
 		if (x->kind != TK_PUNCT && x->flen == 0) {
 			/* a lone mark or an ignorable: folds to nothing, is
@@ -457,6 +462,7 @@ void title_free(tm_title *ti)
 	free(ti->tseg);
 	free(ti->tunit);
 	free(ti->madd);
+	free(ti->mcut);
 	free(ti->unit);
 	free(ti->segs);
 	free(ti->spans);

@@ -88,6 +88,8 @@ typedef struct tm_title {
 	 * ("Medewerk(st)er" -> "medewerker"), or NULL; borrowed from the
 	 * lexicon */
 	const char **madd;
+	uint8_t *mcut;    /* bytes cut off the end of that token's word
+			   * before madd is written ("addetta/o": 1) */
 	size_t tcap;
 	/* units */
 	uint32_t *unit;   /* unit -> token */

@@ -240,6 +240,13 @@ static void test_gender_forms(void **state)
 	title_in("nl", "Medewerk(st)er bediening", "medewerker bediening");
 	assert_memory_equal(R.key, "medewerker bediening", R.key_len);
 	title_is("Mitarbeiter(in) Vertrieb", "mitarbeiter vertrieb");
+	/* the feminine first: in the title's language, the masculine
+	 * ending replaces the feminine one */
+	title_in("es", "Camarera/o de pisos", "camarero de pisos");
+	assert_memory_equal(R.key, "camarero de pisos", R.key_len);
+	title_in("es", "Técnica/o", "técnico");
+	title_in("pl", "Kierowniczka/Kierownik", "kierownik");
+	title_is("Camarera/o", "camarera/o"); /* no language: no guess */
 	/* a capital sigma ending a word is the final form, as folded */
 	title_is("ΠΩΛΗΤΗΣ", "πωλητης");
 	title_is("ΣΑ ΟΔΗΓΟΣ-ΔΙΑΝΟΜΕΑΣ", "σα οδηγος-διανομεας");
