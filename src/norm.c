@@ -1,4 +1,5 @@
-/* norm.c - the normaliser pipeline: decode, prepare, tokenise, segment,
+/* norm.c - the normaliser pipeline: decode (UTF-8, then HTML markup),
+ * prepare, tokenise, segment,
  * annotate, run the rules, render the clean title and the match key;
  * the memory of recent titles. */
 #include "norm.h"
@@ -14,7 +15,7 @@
 struct normaliser {
 	tm_title ti;      /* the line the rules work on */
 	uni_ctx u;
-	tm_buf dec, work, title, key, ptext, again, masked;
+	tm_buf dec, markup, scratch, work, title, key, ptext, again, masked;
 	size_t hidden;    /* kept units the renderer did not show */
 	/* the memory of recent titles: a ring of records, a table of slots */
 	char *ring;
@@ -42,6 +43,8 @@ void norm_free(normaliser *nm)
 	title_free(&nm->ti);
 	uni_ctx_free(&nm->u);
 	buf_free(&nm->dec);
+	buf_free(&nm->markup);
+	buf_free(&nm->scratch);
 	buf_free(&nm->work);
 	buf_free(&nm->title);
 	buf_free(&nm->key);
@@ -378,6 +381,15 @@ static int compute(normaliser *nm, const char *raw, size_t n, const char *lang,
 			return -1;
 		src = nm->dec.data;
 		n = nm->dec.len;
+	}
+	if (dec_has_markup(src, n)) {
+		int r;
+		buf_reset(&nm->markup);
+		if ((r = dec_markup(src, n, &nm->markup, &nm->scratch)) < 0)
+			return -1;
+		rep |= r;
+		src = nm->markup.data ? nm->markup.data : "";
+		n = nm->markup.len;
 	}
 	if (norm_once(nm, src, n, res) != 0 || mask(nm) != 0)
 		return -1;
