@@ -76,10 +76,16 @@ static void protect(tm_title *ti)
 	}
 }
 
-static int put_lower(const char *text, tm_buf *b, const tm_tok *t)
+/* uni_lower_word options for the title's language. */
+static unsigned lower_opt(const tm_title *ti)
+{
+	return ti->lang && (!strcmp(ti->lang, "tr") || !strcmp(ti->lang, "az")) ? UNI_TURKIC : 0;
+}
+
+static int put_lower(const char *text, tm_buf *b, const tm_tok *t, unsigned opt)
 {
 	const char *p = text + t->off;
-	if (!(t->flags & TF_NONASCII) && (unsigned char)p[0] < 0x80) {
+	if (!(t->flags & TF_NONASCII) && (unsigned char)p[0] < 0x80 && !opt) {
 		if (buf_reserve(b, t->len) != 0)
 			return -1;
 		for (size_t i = 0; i < t->len; i++) {
@@ -88,7 +94,7 @@ static int put_lower(const char *text, tm_buf *b, const tm_tok *t)
 		}
 		return 0;
 	}
-	return uni_lower(p, t->len, b);
+	return uni_lower_word(p, t->len, opt, b);
 }
 
 static int is_kept_word(tm_title *ti, size_t k)
@@ -138,6 +144,7 @@ static int render(normaliser *nm, norm_result *res)
 	size_t k, prev = SIZE_MAX;
 	tm_title *ti = &nm->ti;
 	tm_buf *out = &nm->title, *ke = &nm->key;
+	unsigned lo = lower_opt(ti);
 
 	buf_reset(out);
 	buf_reset(ke);
@@ -186,13 +193,13 @@ static int render(normaliser *nm, norm_result *res)
 				/* directly adjacent: 75 + k, Linked + In */
 			} else {
 				for (x = a + 1; x < b; x++)
-					if (put_lower(nm->work.data, out, &ti->tl.t[x]))
+					if (put_lower(nm->work.data, out, &ti->tl.t[x], lo))
 						return -1;
 				if (buf_putc(ke, ' '))
 					return -1;
 			}
 		}
-		if (put_lower(nm->work.data, out, t) ||
+		if (put_lower(nm->work.data, out, t, lo) ||
 		    buf_append(ke, tok_fold(&ti->tl, t), t->flen))
 			return -1;
 		prev = k;

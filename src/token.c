@@ -185,6 +185,18 @@ static size_t scan_word(uni_ctx *u, const char *s, size_t n, size_t i,
 	return i;
 }
 
+/* Is s[0..n) one to three Greek letters (a numeral such as Γ, ΙΒ)? */
+static int greek_numeral(const char *s, size_t n)
+{
+	size_t i = 0, k = 0;
+	while (i < n) {
+		int32_t cp = uni_next(s, n, &i);
+		if (cp < 0x0370 || cp > 0x03FF || ++k > 3)
+			return 0;
+	}
+	return k > 0;
+}
+
 static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 {
 	size_t i = 0;
@@ -245,6 +257,11 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 					if (sym == '+' ? j - i == 2 : 1)
 						i = j;
 			}
+			/* a Greek numeral keeps its keraia, written as an
+			 * apostrophe (NFKC makes U+0374 one): Γ' κατηγορίας */
+			if (i < n && s[i] == '\'' && greek_numeral(s + start, i - start) &&
+			    (i + 1 >= n || !is_alnum_class(peekc(u, s, n, i + 1, &cp, &dummy))))
+				i++;
 			if (capsuf && capsuf < i) {
 				t->len = (uint32_t)(capsuf - start);
 				if (!(t = push(tl)))
