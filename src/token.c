@@ -185,6 +185,15 @@ static size_t scan_word(uni_ctx *u, const char *s, size_t n, size_t i,
 	return i;
 }
 
+/* The number of code points in s[a..b), counting no further than max. */
+static size_t letters_upto(const char *s, size_t a, size_t b, size_t max)
+{
+	size_t k = 0;
+	for (size_t i = a; i < b && k < max; i++)
+		k += ((unsigned char)s[i] & 0xC0) != 0x80;
+	return k;
+}
+
 /* Is s[0..n) one to three Greek letters (a numeral such as Γ, ΙΒ)? */
 static int greek_numeral(const char *s, size_t n)
 {
@@ -247,8 +256,10 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 				i++;
 			i = scan_word(u, s, n, i, &t->flags, &capsuf);
 			/* c++, c#, f#: symbols glued to the end of a short word */
+			/* (counted in letters, not bytes: the lowercase of a
+			 * word may be longer or shorter, as ı is than I) */
 			if (i < n && (s[i] == '+' || s[i] == '#') &&
-			    i - start <= 2 + (s[i] == '+') * 8) {
+			    letters_upto(s, start, i, 3 + 8) <= 2 + (s[i] == '+') * 8) {
 				size_t j = i;
 				char sym = s[i];
 				while (j < n && s[j] == sym && j - i < 2)
