@@ -232,10 +232,25 @@ static size_t read_ref(const unsigned char *s, size_t n, size_t j, char *o,
 	return k + 1;
 }
 
+/* Does out end in what a character reference starts with ("&", "&ama",
+ * "&#3")?  Looks back at most ENT_NAME_MAX + 3 bytes. */
+static int open_ref(const tm_buf *out)
+{
+	for (size_t k = out->len, n = 0; k > 0 && n <= ENT_NAME_MAX + 3; k--, n++) {
+		unsigned char c = (unsigned char)out->data[k - 1];
+		if (c == '&')
+			return 1;
+		if (!is_alpha(c) && !is_digit(c) && c != '#')
+			return 0;
+	}
+	return 0;
+}
+
 /* Decodes every character reference of s into out; a reference that
  * decodes to '&' and is followed by another reference stands for that
- * one (text escaped twice: "&amp;eacute;" is é), so the result holds no
- * reference left to decode. */
+ * one (text escaped twice: "&amp;eacute;" is é), and one that would
+ * complete a reference with the text before it ("&amp&#59;") stays as
+ * written, so the result holds no reference left to decode. */
 static int decode_refs(const unsigned char *s, size_t n, tm_buf *out, int *flags)
 {
 	size_t i = 0, from = 0;
@@ -254,7 +269,13 @@ static int decode_refs(const unsigned char *s, size_t n, tm_buf *out, int *flags
 		for (size_t e2; olen == 1 && o[0] == '&' &&
 				(e2 = read_ref(s, n, end, o, &olen, flags)) != 0;)
 			end = e2;
-		if (buf_append(out, s + from, a - from) || buf_append(out, o, olen))
+		if (buf_append(out, s + from, a - from))
+			return -1;
+		unsigned char c0 = (unsigned char)o[0];
+		if ((is_alpha(c0) || is_digit(c0) || c0 == '#' || c0 == ';') && open_ref(out)) {
+			if (buf_append(out, s + a, end - a))
+				return -1;
+		} else if (buf_append(out, o, olen))
 			return -1;
 		from = i = end;
 	}
@@ -309,8 +330,8 @@ static char element(const unsigned char *s, size_t len)
 
 /* A well-formed tag of a known element at s[i] == '<': returns the index
  * after its '>' and its kind in *kind, or 0.  Attribute values may be
- * quoted; no '<' may stand inside a tag, so an attempt never reads past
- * the next '<' and the scan stays linear. */
+ * quoted; no '<' or '>' may stand inside a tag, so an attempt never reads
+ * past the next '<' and the scan stays linear. */
 static size_t read_tag(const unsigned char *s, size_t n, size_t i, char *kind)
 {
 	size_t k = i + 1, name;
@@ -349,7 +370,7 @@ static size_t read_tag(const unsigned char *s, size_t n, size_t i, char *kind)
 				k++;
 			if (k < n && (s[k] == '"' || s[k] == '\'')) {
 				unsigned char q = s[k++];
-				while (k < n && s[k] != q && s[k] != '<')
+				while (k < n && s[k] != q && s[k] != '<' && s[k] != '>')
 					k++;
 				if (k >= n || s[k] != q)
 					return 0;
@@ -381,11 +402,35 @@ static int space_at(const unsigned char *s, size_t n, size_t i, int back)
 	return is_ws(s[i]) || (i + 1 < n && s[i] == 0xC2 && s[i + 1] == 0xA0);
 }
 
+/* Where out may hold the start of a tag that a removal could complete:
+ * a '<' after the last '>', followed by a letter, a '/' or nothing. */
+typedef struct tag_watch { size_t open, seen; } tag_watch;
+
+static void watch(tag_watch *w, const tm_buf *out)
+{
+	const char *d = out->data;
+	if (w->open != SIZE_MAX && w->open + 1 == w->seen && w->seen < out->len &&
+	    !is_alpha((unsigned char)d[w->seen]) && d[w->seen] != '/')
+		w->open = SIZE_MAX;
+	for (size_t k = w->seen; k < out->len; k++) {
+		if (d[k] == '>')
+			w->open = SIZE_MAX;
+		else if (d[k] == '<' && (k + 1 == out->len || is_alpha((unsigned char)d[k + 1]) ||
+					 d[k + 1] == '/'))
+			w->open = k;
+	}
+	w->seen = out->len;
+}
+
 /* Removes the tags of s: a tag parts the text with " | " (a segment
- * break) unless it is a phrasing element standing inside a word. */
+ * break) unless it is a phrasing element standing inside a word, where
+ * it leaves nothing.  A removal never completes a tag or a reference
+ * with the text around it: a tag after an unclosed "<x" stays as
+ * written, and one inside a word after an unfinished "&x" parts it. */
 static int strip_tags(const unsigned char *s, size_t n, tm_buf *out)
 {
 	size_t i = 0, from = 0, sep_end = SIZE_MAX;
+	tag_watch w = {SIZE_MAX, out->len};
 
 	while (i < n) {
 		const unsigned char *p = memchr(s + i, '<', n - i);
@@ -399,7 +444,14 @@ static int strip_tags(const unsigned char *s, size_t n, tm_buf *out)
 		}
 		if (buf_append(out, s + from, a - from))
 			return -1;
-		if (kind == 'b' || space_at(s, n, a, 1) || space_at(s, n, end, 0)) {
+		watch(&w, out);
+		if (w.open != SIZE_MAX) {
+			/* kept as written, inside what stays open */
+			if (buf_append(out, s + a, end - a))
+				return -1;
+			w.seen = out->len;
+		} else if (kind == 'b' || space_at(s, n, a, 1) || space_at(s, n, end, 0) ||
+			   open_ref(out)) {
 			/* one break for a run of tags: "</b> <br>" */
 			int fresh = sep_end == SIZE_MAX || sep_end > out->len;
 			for (size_t k = fresh ? 0 : sep_end; !fresh && k < out->len; k++)
@@ -415,6 +467,7 @@ static int strip_tags(const unsigned char *s, size_t n, tm_buf *out)
 					return -1;
 				sep_end = out->len;
 			}
+			w.seen = out->len;
 		}
 		from = i = end;
 	}

@@ -49,6 +49,11 @@ int dec_has_markup(const char *s, size_t n);
  *   (Kade<b>ř</b>nice) leaves nothing, any other tag a segment break
  *   " | ".  Other '<' (<3 years, a<b, <Koch>) stay.
  *
+ * The result holds no reference or tag left to read (dec_markup of it
+ * changes nothing): a reference that would complete one with the text
+ * before it (&amp&#59;) and a tag after an unclosed "<x" stay as written,
+ * and a tag inside a word after an unfinished "&x" parts the word.
+ *
  * scratch is working space.  Linear in n.  Returns the DEC_REF flag or
  * 0, or -1 when memory ran out. */
 int dec_markup(const char *s, size_t n, tm_buf *out, tm_buf *scratch);

@@ -63,6 +63,8 @@ SHAPES = {
     "tag": "<b>",
     "tag-open": "<span ",
     "tag-quote": '<b a="',
+    "tag-in-open": "<p<b>",
+    "tag-in-ref": "&a<b></b>",
     "sigma": "ΑΣ ",
     "sigma-marks": "ΑΣ\u0301\u0301",
     "label-mail": "CV an a@b.example ",

@@ -155,7 +155,16 @@ static void test_tags(void **state)
 	markup_is("<3 years", "<3 years", 0);
 	markup_is("a<b", "a<b", 0);
 	markup_is("a < b > c", "a < b > c", 0);
-	markup_is("<Koch> <brx> </b x> <b/x> <b a=\"<b>\">", "<Koch> <brx> </b x> <b/x> <b a=\"\">", 0);
+	markup_is("<Koch> <brx> </b x> <b/x>", "<Koch> <brx> </b x> <b/x>", 0);
+	/* a removal never completes a tag or a reference: after an unclosed
+	 * "<x" a tag stays as written, and inside a word after an unfinished
+	 * "&x" it parts the word */
+	markup_is("<b a=\"<b>\">", "<b a=\"<b>\">", 0);
+	markup_is("<b<br>r>", "<b<br>r>", 0);
+	markup_is("<span class=\"x<b></b>y\">", "<span class=\"x<b></b>y\">", 0);
+	markup_is("a < b <br> c", "a < b | c", 0);
+	markup_is("&am<b></b>p;", "&am | p;", 0);
+	markup_is("&amp&#59; &#38;&#35;233;", "&amp&#59; &&#35;233;", 0);
 	markup_is("<span class=\"x>Koch", "<span class=\"x>Koch", 0);
 	/* escaped markup is markup */
 	markup_is("Koch &lt;br&gt; Wien", "Koch | Wien", 0);
@@ -181,6 +190,41 @@ static void test_markup_linear(void **state)
 	}
 }
 
+/* Reading markup twice reads it once: the result holds no reference or
+ * tag left to read, whatever the input. */
+static void test_markup_idempotent(void **state)
+{
+	(void)state;
+	static const char *const piece[] = {"&", "amp", ";", "#", "38", "x26", "<", ">", "b",
+					    "br", "/", "\"", " ", "a", "lt", "gt", "eacute",
+					    "span", "=", "'", "59", "p"};
+	uint64_t x = 88172645463325252ULL;
+	tm_buf in = {0}, once = {0}, twice = {0}, scratch = {0};
+	for (int round = 0; round < 200000; round++) {
+		buf_reset(&in);
+		x ^= x << 13;
+		x ^= x >> 7;
+		x ^= x << 17;
+		for (int k = (int)(x % 10) + 1; k > 0; k--) {
+			x ^= x << 13;
+			x ^= x >> 7;
+			x ^= x << 17;
+			assert_int_equal(buf_puts(&in, piece[x % (sizeof piece / sizeof piece[0])]), 0);
+		}
+		buf_reset(&once);
+		buf_reset(&twice);
+		assert_true(dec_markup(in.data, in.len, &once, &scratch) >= 0);
+		assert_true(dec_markup(once.data ? once.data : "", once.len, &twice, &scratch) >= 0);
+		if (once.len != twice.len || memcmp(once.data, twice.data, once.len))
+			fail_msg("\"%.*s\" -> \"%.*s\" -> \"%.*s\"", (int)in.len, in.data,
+				 (int)once.len, once.data, (int)twice.len, twice.data);
+	}
+	buf_free(&in);
+	buf_free(&once);
+	buf_free(&twice);
+	buf_free(&scratch);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -194,6 +238,7 @@ int main(void)
 		cmocka_unit_test(test_double_escaped),
 		cmocka_unit_test(test_tags),
 		cmocka_unit_test(test_markup_linear),
+		cmocka_unit_test(test_markup_idempotent),
 	};
 	return cmocka_run_group_tests_name("decode", tests, NULL, NULL);
 }
