@@ -50,9 +50,10 @@ static const char norm_usage[] =
 
 /* Repairs noted for the end-of-run summary. */
 typedef struct repair_log {
-	long lines[4];           /* invalid UTF-8, NUL, cut, CR inside */
-	char first[4][5][300];
-	int nfirst[4];
+	long lines[5];           /* invalid UTF-8, NUL, cut, CR inside,
+				  * bad character reference */
+	char first[5][5][300];
+	int nfirst[5];
 	int wfail;               /* a write error was reported */
 } repair_log;
 
@@ -65,14 +66,16 @@ static void note(repair_log *rl, int which, const char *name, long line)
 
 static void summary(const repair_log *rl)
 {
-	static const char *const what[4] = {
+	static const char *const what[5] = {
 		"with invalid UTF-8 (replaced by U+FFFD)",
 		"with NUL bytes (replaced by U+FFFD)",
 		"longer than 1 MiB (cut; the rest of the line was not read)",
 		"with a carriage return inside (read as a space: lines end at LF, "
 		"CR-only line ends are not split)",
+		"with a character reference to NUL, a surrogate or beyond U+10FFFF "
+		"(replaced by U+FFFD)",
 	};
-	for (int w = 0; w < 4; w++) {
+	for (int w = 0; w < 5; w++) {
 		if (!rl->lines[w])
 			continue;
 		fprintf(stderr, "titlemill norm: %ld line%s %s:", rl->lines[w],
@@ -272,6 +275,7 @@ static int run_file(const norm_opts *o, normaliser *nm, const char *path,
 					lr.cut ? "line longer than 1 MiB"
 					: res.repaired & DEC_INVALID ? "invalid UTF-8"
 					: res.repaired & DEC_NUL     ? "NUL byte"
+					: res.repaired & DEC_REF     ? "bad character reference"
 								     : "carriage return inside the line");
 				lr_close(&lr);
 				return EXIT_RUNTIME;
@@ -284,6 +288,8 @@ static int run_file(const norm_opts *o, normaliser *nm, const char *path,
 				note(rl, 2, lr.name, lr.lineno);
 			if (lr.cr)
 				note(rl, 3, lr.name, lr.lineno);
+			if (res.repaired & DEC_REF)
+				note(rl, 4, lr.name, lr.lineno);
 		}
 		switch (o->mode) {
 		case OUT_TITLE:

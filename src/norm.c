@@ -1,4 +1,5 @@
-/* norm.c - the normaliser pipeline: decode, prepare, tokenise, segment,
+/* norm.c - the normaliser pipeline: decode (UTF-8, then HTML markup),
+ * prepare, tokenise, segment,
  * annotate, run the rules, render the clean title and the match key;
  * the memory of recent titles. */
 #include "norm.h"
@@ -14,7 +15,7 @@
 struct normaliser {
 	tm_title ti;      /* the line the rules work on */
 	uni_ctx u;
-	tm_buf dec, work, title, key, ptext, again, masked;
+	tm_buf dec, markup, scratch, work, title, key, ptext, again, masked;
 	size_t hidden;    /* kept units the renderer did not show */
 	/* the memory of recent titles: a ring of records, a table of slots */
 	char *ring;
@@ -42,6 +43,8 @@ void norm_free(normaliser *nm)
 	title_free(&nm->ti);
 	uni_ctx_free(&nm->u);
 	buf_free(&nm->dec);
+	buf_free(&nm->markup);
+	buf_free(&nm->scratch);
 	buf_free(&nm->work);
 	buf_free(&nm->title);
 	buf_free(&nm->key);
@@ -73,10 +76,16 @@ static void protect(tm_title *ti)
 	}
 }
 
-static int put_lower(const char *text, tm_buf *b, const tm_tok *t)
+/* uni_lower_word options for the title's language. */
+static unsigned lower_opt(const tm_title *ti)
+{
+	return ti->lang && (!strcmp(ti->lang, "tr") || !strcmp(ti->lang, "az")) ? UNI_TURKIC : 0;
+}
+
+static int put_lower(const char *text, tm_buf *b, const tm_tok *t, unsigned opt)
 {
 	const char *p = text + t->off;
-	if (!(t->flags & TF_NONASCII) && (unsigned char)p[0] < 0x80) {
+	if (!(t->flags & TF_NONASCII) && (unsigned char)p[0] < 0x80 && !opt) {
 		if (buf_reserve(b, t->len) != 0)
 			return -1;
 		for (size_t i = 0; i < t->len; i++) {
@@ -85,17 +94,7 @@ static int put_lower(const char *text, tm_buf *b, const tm_tok *t)
 		}
 		return 0;
 	}
-	size_t at = b->len;
-	if (uni_lower(p, t->len, b))
-		return -1;
-	/* a capital sigma ending a Greek word of two letters or more is
-	 * the final form (Unicode's Final_Sigma condition, SpecialCasing.txt;
-	 * a token is a whole word): ΠΩΛΗΤΗΣ -> πωλητης */
-	if (t->kind == TK_WORD && t->len >= 4 && b->len >= at + 4 &&
-	    !memcmp(p + t->len - 2, "\xCE\xA3", 2) &&
-	    !memcmp(b->data + b->len - 2, "\xCF\x83", 2))
-		b->data[b->len - 1] = (char)0x82;
-	return 0;
+	return uni_lower_word(p, t->len, opt, b);
 }
 
 static int is_kept_word(tm_title *ti, size_t k)
@@ -145,6 +144,7 @@ static int render(normaliser *nm, norm_result *res)
 	size_t k, prev = SIZE_MAX;
 	tm_title *ti = &nm->ti;
 	tm_buf *out = &nm->title, *ke = &nm->key;
+	unsigned lo = lower_opt(ti);
 
 	buf_reset(out);
 	buf_reset(ke);
@@ -196,13 +196,13 @@ static int render(normaliser *nm, norm_result *res)
 				/* directly adjacent: 75 + k, Linked + In */
 			} else {
 				for (x = a + 1; x < b; x++)
-					if (put_lower(nm->work.data, out, &ti->tl.t[x]))
+					if (put_lower(nm->work.data, out, &ti->tl.t[x], lo))
 						return -1;
 				if (buf_putc(ke, ' '))
 					return -1;
 			}
 		}
-		if (put_lower(nm->work.data, out, t) ||
+		if (put_lower(nm->work.data, out, t, lo) ||
 		    buf_append(ke, tok_fold(&ti->tl, t), t->flen))
 			return -1;
 		const char *add = ti->madd[ti->unit[k]];
@@ -405,6 +405,15 @@ static int compute(normaliser *nm, const char *raw, size_t n, const char *lang,
 			return -1;
 		src = nm->dec.data;
 		n = nm->dec.len;
+	}
+	if (dec_has_markup(src, n)) {
+		int r;
+		buf_reset(&nm->markup);
+		if ((r = dec_markup(src, n, &nm->markup, &nm->scratch)) < 0)
+			return -1;
+		rep |= r;
+		src = nm->markup.data ? nm->markup.data : "";
+		n = nm->markup.len;
 	}
 	if (norm_once(nm, src, n, res) != 0 || mask(nm) != 0)
 		return -1;

@@ -18,6 +18,10 @@
  * GmbH"); "a b c d e GmbH " x 70,000 looked back to the segment's start
  * from every "GmbH". */
 #define EMPLOYER_BACK 8
+/* The words that may stand before contact data as its label and go with
+ * it ("CV na adres praca@…", "enviar CV a …", "lisätiedot: 01632 …"):
+ * a label is short, and anything longer is more than a label. */
+#define CONTACT_LABEL_MAX 4
 
 int pass_pii(tm_title *ti);       /* contact data: URLs, e-mail, phones */
 int pass_gender(tm_title *ti);    /* markers, gendered spellings, pairs */

@@ -663,6 +663,51 @@ static int last_word(tm_title *ti, size_t k0, size_t k1)
 	return 1;
 }
 
+static int is_contact_kind(int kind)
+{
+	return kind == NF_EMAIL || kind == NF_PHONE || kind == NF_URL;
+}
+
+/* Does the title keep a word outside units [k0, k1)? */
+static int kept_elsewhere(tm_title *ti, size_t k0, size_t k1)
+{
+	return !last_word(ti, k0, k1);
+}
+
+/* Units [k0, k1), the kept words of a segment, are the label of the
+ * contact data that comes right after them ("Gärtner – CV an
+ * jobs@gruenwerk.example", "Maalari – lisätiedot: 01632 960533"): at
+ * most CONTACT_LABEL_MAX words, none of them occupational or protected,
+ * every unit between them kept or removed as contact data, followed
+ * (past removed tokens, dots and colons) by removed contact data before
+ * any kept word or other punctuation; and the title keeps a word
+ * elsewhere. */
+static int contact_label(tm_title *ti, size_t k0, size_t k1)
+{
+	size_t t, contact = 0;
+
+	if (k1 - k0 > CONTACT_LABEL_MAX)
+		return 0;
+	for (size_t k = k0; k < k1; k++)
+		if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
+		    (ti->ucats[k] & (1u << LC_OCCUPATION)))
+			return 0;
+	for (t = ti->unit[k1 - 1] + 1; t < ti->tl.n; t++) {
+		const tm_tok *x = &ti->tl.t[t];
+		if (ti->rm[t] != RM_NONE) {
+			if (is_contact_kind(ti->rm[t]))
+				contact = 1;
+			else if (!contact)
+				return 0;
+			continue;
+		}
+		if (x->kind == TK_PUNCT && (x->ch == ':' || x->ch == '.'))
+			continue;
+		break;
+	}
+	return contact && kept_elsewhere(ti, k0, k1);
+}
+
 static int peel_segment(tm_title *ti, size_t s, int *changed)
 {
 	size_t k0, k1, k, len;
@@ -704,6 +749,13 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 	if (k0 + 1 == k1 && !ti->prot[ti->unit[k0]] &&
 	    match_val(ti, k0, LC_UNIT, "contact", 1, &len) && len == 1 &&
 	    ti->tl.n > ti->unit[k0] + 1) {
+		if (remove_units(ti, k0, k1, NF_MARKETING, NULL))
+			return -1;
+		*changed = 1;
+	}
+	/* a label before contact data: "CV na adres praca@…" */
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 < k1 && ti->lflags & (LF_NUM | LF_SYM | LF_URL) && contact_label(ti, k0, k1)) {
 		if (remove_units(ti, k0, k1, NF_MARKETING, NULL))
 			return -1;
 		*changed = 1;

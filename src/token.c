@@ -185,6 +185,27 @@ static size_t scan_word(uni_ctx *u, const char *s, size_t n, size_t i,
 	return i;
 }
 
+/* The number of code points in s[a..b), counting no further than max. */
+static size_t letters_upto(const char *s, size_t a, size_t b, size_t max)
+{
+	size_t k = 0;
+	for (size_t i = a; i < b && k < max; i++)
+		k += ((unsigned char)s[i] & 0xC0) != 0x80;
+	return k;
+}
+
+/* Is s[0..n) one to three Greek letters (a numeral such as Γ, ΙΒ)? */
+static int greek_numeral(const char *s, size_t n)
+{
+	size_t i = 0, k = 0;
+	while (i < n) {
+		int32_t cp = uni_next(s, n, &i);
+		if (cp < 0x0370 || cp > 0x03FF || ++k > 3)
+			return 0;
+	}
+	return k > 0;
+}
+
 static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 {
 	size_t i = 0;
@@ -235,8 +256,10 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 				i++;
 			i = scan_word(u, s, n, i, &t->flags, &capsuf);
 			/* c++, c#, f#: symbols glued to the end of a short word */
+			/* (counted in letters, not bytes: the lowercase of a
+			 * word may be longer or shorter, as ı is than I) */
 			if (i < n && (s[i] == '+' || s[i] == '#') &&
-			    i - start <= 2 + (s[i] == '+') * 8) {
+			    letters_upto(s, start, i, 3 + 8) <= 2 + (s[i] == '+') * 8) {
 				size_t j = i;
 				char sym = s[i];
 				while (j < n && s[j] == sym && j - i < 2)
@@ -245,6 +268,11 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 					if (sym == '+' ? j - i == 2 : 1)
 						i = j;
 			}
+			/* a Greek numeral keeps its keraia, written as an
+			 * apostrophe (NFKC makes U+0374 one): Γ' κατηγορίας */
+			if (i < n && s[i] == '\'' && greek_numeral(s + start, i - start) &&
+			    (i + 1 >= n || !is_alnum_class(peekc(u, s, n, i + 1, &cp, &dummy))))
+				i++;
 			if (capsuf && capsuf < i) {
 				t->len = (uint32_t)(capsuf - start);
 				if (!(t = push(tl)))

@@ -452,6 +452,57 @@ int uni_lower(const char *s, size_t n, tm_buf *out)
 	return 0;
 }
 
+static int is_mark(int32_t cp)
+{
+	utf8proc_category_t c = utf8proc_category(cp);
+	return c == UTF8PROC_CATEGORY_MN || c == UTF8PROC_CATEGORY_MC ||
+	       c == UTF8PROC_CATEGORY_ME;
+}
+
+int uni_lower_word(const char *s, size_t n, unsigned opt, tm_buf *out)
+{
+	size_t i = 0;
+	int after_letter = 0; /* the code point before (marks aside) is a letter */
+	utf8proc_uint8_t enc[4];
+
+	if (buf_reserve(out, n + 8) != 0)
+		return -1;
+	while (i < n) {
+		unsigned char c = (unsigned char)s[i];
+		int32_t cp, lo;
+		if (c < 0x80) {
+			if (c == 'I' && (opt & UNI_TURKIC)) {
+				if (buf_append(out, "\xC4\xB1", 2) != 0) /* ı */
+					return -1;
+			} else if (buf_putc(out, (char)(c >= 'A' && c <= 'Z' ? c + 32 : c)))
+				return -1;
+			after_letter = (c | 0x20) >= 'a' && (c | 0x20) <= 'z';
+			i++;
+			continue;
+		}
+		cp = uni_next(s, n, &i);
+		if ((cp == 0x03A3 || cp == 0x03C3) && after_letter) {
+			/* final unless a letter follows, marks aside; each mark
+			 * is read here at most once more than by the main loop */
+			int32_t next = -1;
+			for (size_t j = i; j < n;) {
+				next = uni_next(s, n, &j);
+				if (!is_mark(next))
+					break;
+				next = -1;
+			}
+			lo = next >= 0 && uni_classify(next) == UNI_LETTER ? 0x03C3 : 0x03C2;
+		} else
+			lo = utf8proc_tolower(cp);
+		utf8proc_ssize_t l = utf8proc_encode_char(lo, enc);
+		if (buf_append(out, enc, (size_t)l) != 0)
+			return -1;
+		if (!is_mark(cp))
+			after_letter = uni_classify(cp) == UNI_LETTER;
+	}
+	return 0;
+}
+
 enum uni_class uni_classify(int32_t cp)
 {
 	switch (utf8proc_category(cp)) {

@@ -70,6 +70,17 @@ int uni_fold(uni_ctx *u, const char *s, size_t n, tm_buf *out);
  * mapping (UnicodeData.txt field 13): ß stays ß, İ becomes i. */
 int uni_lower(const char *s, size_t n, tm_buf *out);
 
+/* uni_lower_word options. */
+#define UNI_TURKIC 1 /* Turkish and Azerbaijani: I is ı, İ is i */
+
+/* Appends the lowercase form of the word s (a title's word, as the
+ * tokeniser cut it): the simple lowercase mapping as uni_lower, except
+ * that Σ or σ standing last in a word of several letters (after a letter,
+ * before none, combining marks aside: Unicode's Final_Sigma condition,
+ * section 3.13) is written ς, and with UNI_TURKIC the capital I is
+ * dotless ı (SpecialCasing.txt, tr and az).  Linear in n. */
+int uni_lower_word(const char *s, size_t n, unsigned opt, tm_buf *out);
+
 /* Decodes the code point at s[*i] (well-formed UTF-8) and advances *i;
  * a truncated sequence gives U+FFFD and advances one byte. */
 static inline int32_t uni_next(const char *s, size_t n, size_t *i)

@@ -51,6 +51,44 @@ static void lower_is(const char *in, const char *want)
 	buf_free(&b);
 }
 
+static void lower_word_is(const char *in, unsigned opt, const char *want)
+{
+	tm_buf b = {0};
+	assert_int_equal(uni_lower_word(in, strlen(in), opt, &b), 0);
+	assert_int_equal(b.len, strlen(want));
+	assert_memory_equal(b.data ? b.data : "", want, b.len);
+	buf_free(&b);
+}
+
+/* Final sigma (Unicode 15.0 section 3.13, Final_Sigma; written from the
+ * standard's definition), Turkish i (SpecialCasing.txt, conditional
+ * mappings for tr and az), capital sharp s (UnicodeData.txt: 1E9E
+ * lowercases to 00DF). */
+static void test_lower_word(void **state)
+{
+	(void)state;
+	/* FS is ς (U+03C2), S is σ (U+03C3) */
+#define FS "\xCF\x82"
+#define S "\xCF\x83"
+	lower_word_is("ΠΩΛΗΤΗΣ", 0, "πωλητη" FS);
+	lower_word_is("Οδηγό" S, 0, "οδηγό" FS); /* a final σ written as σ */
+	lower_word_is("ΣΟΦΙΑ", 0, S "οφια");      /* initial: σ */
+	lower_word_is("Σ", 0, S);                  /* alone: no letter before */
+	lower_word_is("ΑΣΣΑ", 0, "α" S S "α");     /* inside: σ */
+	lower_word_is("ΑΣΣ", 0, "α" S FS);
+	lower_word_is("ΑΣ\xCC\x81", 0, "α" FS "\xCC\x81"); /* a mark after is no letter */
+	lower_word_is("ΑΣ\xCC\x81Α", 0, "α" S "\xCC\x81α");
+	lower_word_is("ΑΣ1", 0, "α" FS "1");
+#undef FS
+#undef S
+	lower_word_is("KASİYER", UNI_TURKIC, "kasiyer");
+	lower_word_is("MUHASEBE ELEMANI", UNI_TURKIC, "muhasebe elemanı");
+	lower_word_is("IT", UNI_TURKIC, "ıt");
+	lower_word_is("KASİYER ELEMANI", 0, "kasiyer elemani");
+	lower_word_is("GROẞHANDEL", 0, "großhandel");
+	lower_word_is("ПРОДАВАЧ-КОНСУЛТАНТ", 0, "продавач-консултант");
+}
+
 /* Values of ../shared/REFERENCES.md, seen with utf8proc 2.8 and checked
  * against CaseFolding.txt (00DF -> 0073 0073; 0130 -> 0069 0307). */
 static void test_fold(void **state)
@@ -295,6 +333,7 @@ int main(void)
 		cmocka_unit_test(test_prepare),
 		cmocka_unit_test(test_lower),
 		cmocka_unit_test(test_class),
+		cmocka_unit_test(test_lower_word),
 		cmocka_unit_test(test_stream_safe),
 		cmocka_unit_test(test_normalization_file),
 	};
