@@ -246,28 +246,59 @@ PL_SOFT_FINAL = {"ń": "niu", "ś": "siu", "ć": "ciu", "ź": "ziu"}
 
 
 def pl_noun(w):
+    out = pl_noun1(w)
+    # ó of a closed last syllable opens to o (Baligród -> Baligrodzie)
+    m = re.search(r"ó([^aeiouyąęó]+)$", w)
+    if m and not w.lower().endswith("ów"):
+        out += pl_noun1(w[:m.start()] + "o" + m.group(1))
+    return out
+
+
+def pl_noun1(w):
     low = w.lower()
     if low.endswith("ów"):
         return [w[:-2] + "owie"]                        # Kraków
-    if low.endswith(("ice", "yce", "ce", "ki", "ny", "ry", "wy", "hy")):
+    if low.endswith(("ice", "yce", "ce", "ki", "gi", "y")):
         return [w[:-1] + "ach"]                         # Katowice, Tychy
-    if low.endswith(("ia", "ja")):
-        return [w[:-1] + "i"]                           # Gdynia -> Gdyni
+    if low.endswith(("nia", "sia", "cia", "zia")):
+        return [w[:-1]]                                 # Gdynia -> Gdyni
+    if low.endswith("ia"):
+        return [w[:-1] + "i"]                           # Austria -> Austrii
+    if re.search(r"[aeiouy]ja$", low):
+        return [w[:-2] + "i"]                           # Złotoryja
+    if low.endswith("ja"):
+        return [w[:-1] + "i"]                           # Francja
     if low.endswith(("ca", "cza", "sza", "rza", "ża", "dza")):
         return [w[:-1] + "y"]
+    if low.endswith("la"):
+        return [w[:-1] + "i"]                           # Dukla -> Dukli
+    if low.endswith(("owa", "ewa")):
+        return [w[:-2] + "ie", w[:-1] + "ej"]           # Widuchowa (adjective)
     if low.endswith("ka"):
         return [w[:-2] + "ce"]
     if low.endswith("ga"):
         return [w[:-2] + "dze"]
+    if low.endswith(("ko", "go", "cho")):
+        return [w[:-1] + "u"]                           # Dubiecko
     if low.endswith(("a", "o")):
         stem = w[:-1]
         for hard, soft in PL_SOFT:
             if stem.lower().endswith(hard):
                 return [stem[:len(stem) - len(hard)] + soft]
         return [stem + "e"]
+    if low.endswith("ie"):
+        return [w[:-1] + "u", w + "m"]                  # Wodynie; Długie
     if low.endswith("e"):
-        return [w[:-1] + "u"]                           # Opole -> Opolu
-    if low.endswith(("k", "g")):
+        return [w[:-1] + "u", w + "m"]                  # Opole; Zakopane
+    if low.endswith("ek"):
+        return [w[:-2] + "ku"]                          # Chełmek -> Chełmku
+    if low.endswith("niec"):
+        return [w[:-4] + "ńcu"]                         # Kamieniec
+    if low.endswith("iec"):
+        return [w[:-3] + "cu"]                          # Grabowiec
+    if low.endswith("ec"):
+        return [w[:-2] + "cu"]
+    if low.endswith(("k", "g", "ch")):
         return [w + "u"]                                # Gdańsk
     if low.endswith("dź"):
         return [w[:-2] + "dzi", w[:-2].replace("ó", "o") + "dzi"]   # Łódź
