@@ -10,7 +10,9 @@ Reads the committed gazetteer files PLACES/geonames.txt, iso3166.txt,
 cldr.txt and curated.txt, and from Debian's iso-codes the country names in
 each language below (gettext catalogues of iso_3166-1) and the Turkish
 provinces (iso_3166-2.json, TR; named after their capitals, Turkey being
-left out of the gazetteer).  Writes PLACES/inflected.txt, sorted, the same
+left out of the gazetteer); asks Debian's hunspell (hunspell-hu,
+hunspell-lt, hunspell-lv) which forms are ordinary words; reads the word
+lists wamerican wbritish wngerman wfrench wspanish witalian wdutch.  Writes PLACES/inflected.txt, sorted, the same
 bytes for the same inputs.
 
 The rules are rules of thumb of each language's grammar, written from
@@ -42,6 +44,7 @@ import importlib.util
 import json
 import os
 import re
+import subprocess
 import sys
 
 SCRIPT = "lexicons/tools/gen-inflected.py"
@@ -62,6 +65,17 @@ GERMAN_ADJ = ("DE", "AT", "CH")
 ADJ_FILES = ("curated.txt", "cldr.txt", "iso3166.txt")
 # Shortest name inflected: shorter ones make forms that are words.
 MIN_BASE = 4
+# Hunspell dictionaries of Debian (hunspell-hu, hunspell-lt, hunspell-lv)
+# asked whether a case form written in lower case is an ordinary word
+# (Hungarian `alapon`, "on the basis", is the superessive of the village
+# Alap); proper names are capitalised there, so the town's own form is not
+# accepted in lower case.  No such dictionary for Estonian; Finnish is
+# voikko, not hunspell.
+HUNSPELL = {"hu": "hu_HU", "lt": "lt_LT", "lv": "lv_LV"}
+# Only forms of names of at most this many letters are asked: the
+# dictionaries build compounds (alsó + némedi), so they accept the forms of
+# most longer village names, which are no ordinary words.
+HUNSPELL_MAX_BASE = 5
 WORDLISTS = ("american-english", "british-english", "ngerman", "french",
              "spanish", "italian", "dutch")
 
@@ -636,6 +650,20 @@ def ordinary_words(dict_dir, lex_dir, langs):
     return words
 
 
+def hunspell_words(lang, forms):
+    """The forms, lower-cased, that the language's hunspell dictionary
+    accepts: ordinary words."""
+    forms = sorted({f.lower() for f in forms if " " not in f})
+    try:
+        res = subprocess.run(["hunspell", "-d", HUNSPELL[lang], "-G"],
+                             input="\n".join(forms) + "\n",
+                             capture_output=True, text=True, check=True)
+    except (OSError, subprocess.CalledProcessError) as e:
+        sys.exit(f"gen-inflected: hunspell -d {HUNSPELL[lang]} failed ({e}): "
+                 "apt-get install hunspell hunspell-hu hunspell-lt hunspell-lv")
+    return {fold(w) for w in res.stdout.split()}
+
+
 def main():
     ap = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
     ap.add_argument("--places", required=True, help="lexicons/places folder")
@@ -650,6 +678,10 @@ def main():
                                "curated.txt"))
     names = {fold_phrase(n) for n, _, _ in gaz}
     strong_names = {fold_phrase(n) for n, _, w in gaz if w == "strong"}
+    # the larger places keep their forms even when a form is also a word
+    # (Szegeden, "on your nail")
+    notable = {fold_phrase(n) for n, _, _ in
+               read_places(folder, ADJ_FILES)}
     langs = set(COUNTRY_LANG.values()) | {"de", "tr"}
     words = ordinary_words(args.dict_dir, lex_dir, langs)
 
@@ -669,6 +701,10 @@ def main():
         # after a preposition a short name is safe (na Krku); a case form
         # that stands alone needs a longer one
         shortest = 3 if lang in PREP_LANGS else MIN_BASE
+        common = set()
+        if lang in HUNSPELL:
+            common = hunspell_words(lang, [f for name, _ in bases
+                                           for f in RULES[lang](name)])
         for name, cc in sorted(bases):
             if len(name) < shortest or not alphabet_ok(name, lang):
                 continue
@@ -686,6 +722,9 @@ def main():
                     tag = lang + "?" if key in names else lang
                 if name in strong_base and lang not in PREP_LANGS:
                     where = "strong"    # a word's case form is a word
+                if (key in common and len(name) <= HUNSPELL_MAX_BASE and
+                        fold_phrase(name) not in notable):
+                    where = "strong"    # an ordinary word of the language
                 if key in strong_names or (key not in names and
                                            " " not in key and key in words):
                     where = "strong"
@@ -721,7 +760,11 @@ def main():
         "cldr.txt, curated.txt), the country names of Debian's iso-codes in",
         "fi et hu pl cs sk sl hr lt lv (gettext iso_3166-1) and the Turkish",
         "provinces of its iso_3166-2.json; case forms made by per-language",
-        "rules of thumb (common knowledge, from memory; see the script).",
+        "rules of thumb (common knowledge, from memory; see the script);",
+        "a form that Debian's hunspell-hu, -lt or -lv accepts in lower case",
+        "is an ordinary word (strong) when the name has at most "
+        f"{HUNSPELL_MAX_BASE} letters",
+        "and is not a larger place's.",
         "Forms: fi inessive/adessive/allative/illative, et inessive/illative/",
         "adessive/allative, hu -ban/-on and the adjective in -i (larger",
         "places: curated.txt cldr.txt iso3166.txt),",
