@@ -11,7 +11,8 @@ cldr.txt and curated.txt, and from Debian's iso-codes the country names in
 each language below (gettext catalogues of iso_3166-1) and the Turkish
 provinces (iso_3166-2.json, TR; named after their capitals, Turkey being
 left out of the gazetteer); asks Debian's hunspell (hunspell-hu,
-hunspell-lt, hunspell-lv) which forms are ordinary words; reads the word
+hunspell-lt, hunspell-lv) and Voikko (voikko-fi, python3-libvoikko)
+which forms are ordinary words; reads the word
 lists wamerican wbritish wngerman wfrench wspanish witalian wdutch.  Writes PLACES/inflected.txt, sorted, the same
 bytes for the same inputs.
 
@@ -69,8 +70,8 @@ MIN_BASE = 4
 # asked whether a case form written in lower case is an ordinary word
 # (Hungarian `alapon`, "on the basis", is the superessive of the village
 # Alap); proper names are capitalised there, so the town's own form is not
-# accepted in lower case.  No such dictionary for Estonian; Finnish is
-# voikko, not hunspell.
+# accepted in lower case.  Finnish is asked of Voikko the same way; no
+# such dictionary for Estonian.
 HUNSPELL = {"hu": "hu_HU", "lt": "lt_LT", "lv": "lv_LV"}
 # Only forms of names of at most this many letters are asked: the
 # dictionaries build compounds (alsó + némedi), so they accept the forms of
@@ -664,6 +665,22 @@ def hunspell_words(lang, forms):
     return {fold(w) for w in res.stdout.split()}
 
 
+def voikko_words(forms):
+    """The Finnish forms, lower-cased, that Voikko (Debian's voikko-fi and
+    python3-libvoikko) accepts: ordinary words (pellossa, koskella)."""
+    try:
+        import libvoikko
+        v = libvoikko.Voikko("fi")
+    except (ImportError, OSError) as e:
+        sys.exit(f"gen-inflected: Finnish morphology missing ({e}): "
+                 "apt-get install python3-libvoikko voikko-fi, run with "
+                 "/usr/bin/python3")
+    out = {fold(f.lower()) for f in sorted(set(forms))
+           if " " not in f and v.spell(f.lower())}
+    v.terminate()
+    return out
+
+
 def main():
     ap = argparse.ArgumentParser(description=__doc__.split("\n\n")[0])
     ap.add_argument("--places", required=True, help="lexicons/places folder")
@@ -697,7 +714,11 @@ def main():
     for cc_home, lang in sorted(COUNTRY_LANG.items()):
         strong_base = {n for n, cc, w in gaz if cc == cc_home and w == "strong"}
         bases = {(n, cc) for n, cc, w in gaz if cc == cc_home}
-        bases |= set(country_names(args.iso_codes, args.locale_dir, lang))
+        countries = set(country_names(args.iso_codes, args.locale_dir, lang))
+        bases |= countries
+        # a country keeps its forms like a larger place (Finnish saksa is
+        # also the German language)
+        larger = notable | {fold_phrase(n) for n, _ in countries}
         # after a preposition a short name is safe (na Krku); a case form
         # that stands alone needs a longer one
         shortest = 3 if lang in PREP_LANGS else MIN_BASE
@@ -705,6 +726,9 @@ def main():
         if lang in HUNSPELL:
             common = hunspell_words(lang, [f for name, _ in bases
                                            for f in RULES[lang](name)])
+        elif lang == "fi":
+            common = voikko_words([f for name, _ in bases
+                                   for f in RULES[lang](name)])
         for name, cc in sorted(bases):
             if len(name) < shortest or not alphabet_ok(name, lang):
                 continue
@@ -723,7 +747,7 @@ def main():
                 if name in strong_base and lang not in PREP_LANGS:
                     where = "strong"    # a word's case form is a word
                 if (key in common and len(name) <= HUNSPELL_MAX_BASE and
-                        fold_phrase(name) not in notable):
+                        fold_phrase(name) not in larger):
                     where = "strong"    # an ordinary word of the language
                 if key in strong_names or (key not in names and
                                            " " not in key and key in words):
@@ -761,7 +785,7 @@ def main():
         "fi et hu pl cs sk sl hr lt lv (gettext iso_3166-1) and the Turkish",
         "provinces of its iso_3166-2.json; case forms made by per-language",
         "rules of thumb (common knowledge, from memory; see the script);",
-        "a form that Debian's hunspell-hu, -lt or -lv accepts in lower case",
+        "a form that Debian's hunspell-hu, -lt, -lv or voikko-fi accepts in lower case",
         "is an ordinary word (strong) when the name has at most "
         f"{HUNSPELL_MAX_BASE} letters",
         "and is not a larger place's.",
