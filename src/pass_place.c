@@ -5,7 +5,9 @@
  * region word (area, und Umgebung), next to a postcode, or as the whole
  * of a bracket or of a later segment (" - Köln", ", Paris", "(Berlin)").
  * Place names that are also ordinary words (WHERE `strong`) need the
- * first three. */
+ * first three.  A case form (WHERE `any`: Helsingissä, Tartus) is a
+ * location wherever it stands; a place adjective (WHERE `adjective`:
+ * Münchner) is one only before a region word (im Münchner Norden). */
 #include <string.h>
 
 #include "pass.h"
@@ -36,17 +38,19 @@ static int loc_word(tm_title *ti, size_t k, const char *value, size_t *len);
  * country.  A place adjective (Münchner) is a place only when a location
  * `after` word follows it in its segment (im Münchner Norden). */
 static int place_info(tm_title *ti, size_t k, size_t *len, int *strong,
-		      int *free, const char **cc)
+		      int *itself, const char **cc)
 {
 	const lex_entry *e = match_cat(ti, k, LC_PLACE, 1, len);
 	int noun = 0, adj = 0;
 	if (!e)
 		return 0;
-	*strong = *free = 0;
+	*strong = *itself = 0;
 	*cc = NULL;
 	for (; e; e = lex_next(ti->lx, e)) {
 		if (e->cat != LC_PLACE || !entry_applies(ti, e))
 			continue;
+		if (!*cc && strcmp(e->value, "-"))
+			*cc = e->value;
 		if (e->where == LW_ADJ) {
 			adj = 1;
 			continue;
@@ -55,12 +59,10 @@ static int place_info(tm_title *ti, size_t k, size_t *len, int *strong,
 		if (e->where == LW_STRONG)
 			*strong = 1;
 		if (e->where == LW_ANY)
-			*free = 1;
-		if (!*cc && strcmp(e->value, "-"))
-			*cc = e->value;
+			*itself = 1;
 	}
 	if (*strong)
-		*free = 0;
+		*itself = 0; /* an ordinary word too: a slot decides */
 	if (adj && !noun) {
 		size_t e2 = k + *len, l2;
 		if (e2 >= ti->nunit || useg(ti, e2) != useg(ti, k) ||
@@ -73,8 +75,8 @@ static int place_info(tm_title *ti, size_t k, size_t *len, int *strong,
 static int place_at(tm_title *ti, size_t k, size_t *len, int *strong,
 		    const char **cc)
 {
-	int free;
-	return place_info(ti, k, len, strong, &free, cc);
+	int itself;
+	return place_info(ti, k, len, strong, &itself, cc);
 }
 
 static int num_digits(tm_title *ti, size_t k)
@@ -384,14 +386,14 @@ static int after_place(tm_title *ti)
 static int case_forms(tm_title *ti)
 {
 	size_t k, len;
-	int strong, free;
+	int strong, itself;
 	const char *cc;
 
 	for (k = 0; k < ti->nunit; k++) {
 		if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
-		    !place_info(ti, k, &len, &strong, &free, &cc))
+		    !place_info(ti, k, &len, &strong, &itself, &cc))
 			continue;
-		if (!free || !units_free(ti, k, k + len)) {
+		if (!itself || !units_free(ti, k, k + len)) {
 			k += len - 1;
 			continue;
 		}
