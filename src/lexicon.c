@@ -709,6 +709,7 @@ static int parse_where(const char *w, int cat)
 	if (!strcmp(w, "slot")) return LW_SLOT;
 	if (!strcmp(w, "strong")) return LW_STRONG;
 	if (!strcmp(w, "off")) return LW_OFF;
+	if (!strcmp(w, "adjective") && cat == LC_PLACE) return LW_ADJ;
 	return -1;
 }
 
@@ -808,7 +809,7 @@ int lex_load_file(lexicon *lx, int cat, int gk, const char *path, tm_buf *err)
 			}
 			if (w < 0) {
 				err_printf(err, "unknown place restriction '%s'%s",
-					   f[3], " (any, edge, alone, slot, strong, off)");
+					   f[3], " (any, edge, alone, slot, strong, off; places: adjective)");
 				rc = file_error(err, path, line);
 				break;
 			}

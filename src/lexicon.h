@@ -35,7 +35,10 @@ enum lex_cat {
 	LC_NCAT
 };
 
-enum lex_where { LW_ANY, LW_EDGE, LW_ALONE, LW_SLOT, LW_STRONG, LW_OFF };
+/* LW_ADJ (places only): a place adjective, a place only before a location
+ * `after` word (im Münchner Norden). A place written LW_ANY is a location
+ * wherever it stands (a case form: Helsingissä). */
+enum lex_where { LW_ANY, LW_EDGE, LW_ALONE, LW_SLOT, LW_STRONG, LW_OFF, LW_ADJ };
 
 typedef struct lex_entry {
 	uint8_t cat;     /* enum lex_cat */

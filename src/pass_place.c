@@ -5,7 +5,9 @@
  * region word (area, und Umgebung), next to a postcode, or as the whole
  * of a bracket or of a later segment (" - Köln", ", Paris", "(Berlin)").
  * Place names that are also ordinary words (WHERE `strong`) need the
- * first three. */
+ * first three.  A case form (WHERE `any`: Helsingissä, Tartus) is a
+ * location wherever it stands; a place adjective (WHERE `adjective`:
+ * Münchner) is one only before a region word (im Münchner Norden). */
 #include <string.h>
 
 #include "pass.h"
@@ -29,25 +31,52 @@ static int all_caps_line(tm_title *ti)
 	return words >= 2 && caps * 5 >= words * 4;
 }
 
+static int loc_word(tm_title *ti, size_t k, const char *value, size_t *len);
+
 /* A place starting at unit k: its length, whether it needs a strong slot,
- * and its country. */
-static int place_at(tm_title *ti, size_t k, size_t *len, int *strong,
-		    const char **cc)
+ * whether it is a location by itself (a case form: Helsingissä), and its
+ * country.  A place adjective (Münchner) is a place only when a location
+ * `after` word follows it in its segment (im Münchner Norden). */
+static int place_info(tm_title *ti, size_t k, size_t *len, int *strong,
+		      int *itself, const char **cc)
 {
 	const lex_entry *e = match_cat(ti, k, LC_PLACE, 1, len);
+	int noun = 0, adj = 0;
 	if (!e)
 		return 0;
-	*strong = 0;
+	*strong = *itself = 0;
 	*cc = NULL;
 	for (; e; e = lex_next(ti->lx, e)) {
 		if (e->cat != LC_PLACE || !entry_applies(ti, e))
 			continue;
-		if (e->where == LW_STRONG)
-			*strong = 1;
 		if (!*cc && strcmp(e->value, "-"))
 			*cc = e->value;
+		if (e->where == LW_ADJ) {
+			adj = 1;
+			continue;
+		}
+		noun = 1;
+		if (e->where == LW_STRONG)
+			*strong = 1;
+		if (e->where == LW_ANY)
+			*itself = 1;
+	}
+	if (*strong)
+		*itself = 0; /* an ordinary word too: a slot decides */
+	if (adj && !noun) {
+		size_t e2 = k + *len, l2;
+		if (e2 >= ti->nunit || useg(ti, e2) != useg(ti, k) ||
+		    !loc_word(ti, e2, "after", &l2))
+			return 0;
 	}
 	return 1;
+}
+
+static int place_at(tm_title *ti, size_t k, size_t *len, int *strong,
+		    const char **cc)
+{
+	int itself;
+	return place_info(ti, k, len, strong, &itself, cc);
 }
 
 static int num_digits(tm_title *ti, size_t k)
@@ -352,9 +381,33 @@ static int after_place(tm_title *ti)
 	return 0;
 }
 
+/* Case forms that are locations by themselves, with the places joined to
+ * them: Kokk Tallinnas, Lastenhoitaja Espoossa ja Vantaalla. */
+static int case_forms(tm_title *ti)
+{
+	size_t k, len;
+	int strong, itself;
+	const char *cc;
+
+	for (k = 0; k < ti->nunit; k++) {
+		if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
+		    !place_info(ti, k, &len, &strong, &itself, &cc))
+			continue;
+		if (!itself || !units_free(ti, k, k + len)) {
+			k += len - 1;
+			continue;
+		}
+		size_t e = place_run(ti, k, len, 0);
+		if (take(ti, k, e))
+			return -1;
+		k = e - 1;
+	}
+	return 0;
+}
+
 int pass_location(tm_title *ti)
 {
-	if (slots(ti) || whole_segments(ti) || after_place(ti))
+	if (slots(ti) || case_forms(ti) || whole_segments(ti) || after_place(ti))
 		return -1;
 	return 0;
 }

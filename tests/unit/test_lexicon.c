@@ -275,12 +275,54 @@ static void test_occupation_and_business(void **state)
 	buf_free(&err);
 }
 
+/* places: `any` (a case form, a location by itself) and `adjective` (a
+ * place only before an area word); `adjective` is refused elsewhere */
+static void test_place_where(void **state)
+{
+	(void)state;
+	char dir[] = "/tmp/tm-lex-XXXXXX";
+	tm_buf err = {0};
+	lexicon *lx;
+	const lex_entry *e;
+
+	assert_non_null(mkdtemp(dir));
+	write_file(dir, "places", "x.txt",
+		   "fi\tHelsingissä\tFI\tany\n"
+		   "de\tMünchner\tDE\tadjective\n"
+		   "lv?\tRīgā\tLV\tany\n"
+		   "*\tRiga\tLV\tslot\n");
+	lx = lex_new();
+	assert_int_equal(lex_load_dir(lx, dir, &err), 0);
+	e = find(lx, "HELSINGISSA");
+	assert_non_null(e);
+	assert_int_equal(e->cat, LC_PLACE);
+	assert_int_equal(e->where, LW_ANY);
+	assert_string_equal(e->value, "FI");
+	assert_int_equal(find(lx, "münchner")->where, LW_ADJ);
+	/* one match key, two entries: the Latvian case form and the name */
+	e = find(lx, "riga");
+	assert_non_null(e);
+	assert_non_null(lex_next(lx, e));
+	lex_free(lx);
+	remove_file(dir, "places", "x.txt");
+
+	write_file(dir, "schedule", "x.txt", "en\tday shift\tshift\tadjective\n");
+	lx = lex_new();
+	assert_int_equal(lex_load_dir(lx, dir, &err), -1);
+	assert_non_null(strstr(err.data, "schedule/x.txt:1: unknown place restriction 'adjective'"));
+	lex_free(lx);
+	remove_file(dir, "schedule", "x.txt");
+	rmdir(dir);
+	buf_free(&err);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(test_add_and_find),
 		cmocka_unit_test(test_load_dir),
 		cmocka_unit_test(test_occupation_and_business),
+		cmocka_unit_test(test_place_where),
 	};
 	return cmocka_run_group_tests_name("lexicon", tests, NULL, NULL);
 }

@@ -1,0 +1,127 @@
+"""Case forms and place adjectives of lexicons/places/inflected.txt.
+
+1. The file is what lexicons/tools/gen-inflected.py writes: its header
+   names the script, every line has four columns and a known WHERE, and
+   the Polish forms below are in it.
+2. Outside check of the Polish rules: Debian's word list `wpolish`
+   (/usr/share/dict/polish, from the sjp.pl dictionary) holds the
+   inflected forms of many Polish place names.  For every single-word
+   Polish name of the gazetteer that the list holds as a word, one of the
+   locatives the rules make must be in the list for at least
+   PL_FLOOR of them (the rules are rules of thumb; 93 % when written).
+   Skipped with a notice when the list is not installed.  No Debian word
+   list holds the case forms of Finnish, Estonian, Hungarian, Czech,
+   Slovak, Slovene, Croatian, Lithuanian or Latvian place names; those
+   rules are rules of thumb checked by the titles below and the case
+   table (tests/cases/lang/) only.
+3. Titles: a fixed random sample of the forms, each put where titles
+   write it (after the occupation, behind the language's preposition for
+   the Slavic locatives, before an area word for an adjective), must come
+   out as the bare occupation; every miss is listed."""
+import importlib.util
+import os
+import random
+import subprocess
+import sys
+
+exe, root = sys.argv[1], sys.argv[2]
+PL_FLOOR = 0.90
+SAMPLE_PER_LANG = 60
+SEED = 1212
+
+# An occupation and the location preposition of each language (common
+# knowledge).
+OCCUPATION = {
+    "fi": "Sairaanhoitaja", "et": "Kokk", "hu": "Szakács", "pl": "Kelner",
+    "cs": "Skladník", "sk": "Kuchár", "sl": "Natakar", "hr": "Konobar",
+    "lt": "Virėjas", "lv": "Pavārs", "de": "Koch",
+}
+PREP = {"pl": "w", "cs": "v", "sk": "v", "sl": "v", "hr": "u"}
+AREA = {"de": "im {} Norden", "hu": "{} irodába"}
+
+spec = importlib.util.spec_from_file_location(
+    "gen_inflected", os.path.join(root, "lexicons/tools/gen-inflected.py"))
+gen = importlib.util.module_from_spec(spec)
+spec.loader.exec_module(gen)
+
+path = os.path.join(root, "lexicons/places/inflected.txt")
+problems = []
+rows = []
+with open(path, encoding="utf-8") as f:
+    text = f.read().split("\n")
+if "lexicons/tools/gen-inflected.py" not in text[0]:
+    problems.append(f"{path}:1: the header does not name the generator")
+for n, line in enumerate(text, 1):
+    if not line or line.startswith("#"):
+        continue
+    cols = line.split("\t")
+    if len(cols) != 4 or cols[3] not in ("slot", "any", "strong", "adjective"):
+        problems.append(f"{path}:{n}: malformed line {line!r}")
+        continue
+    rows.append(cols)
+forms_in_file = {(lang.rstrip("?"), form) for lang, form, _, _ in rows}
+
+# 2. Polish forms against wpolish
+gaz = gen.read_places(os.path.join(root, "lexicons/places"),
+                      ("geonames.txt", "iso3166.txt", "cldr.txt", "curated.txt"))
+plist = "/usr/share/dict/polish"
+if os.path.exists(plist):
+    with open(plist, encoding="utf-8") as f:
+        words = set(w.strip() for w in f)
+    names = sorted({n for n, cc, _ in gaz if cc == "PL" and " " not in n
+                    and n in words and gen.alphabet_ok(n, "pl")})
+    hits = 0
+    for name in names:
+        forms = gen.pl_forms(name)
+        for form in forms:
+            if gen.fold_phrase(form) != gen.fold_phrase(name) and \
+                    ("pl", form) not in forms_in_file:
+                problems.append(f"inflected.txt lacks pl {form} (of {name}):"
+                                " regenerate it")
+        hits += any(form in words for form in forms)
+    share = hits / len(names) if names else 0.0
+    print(f"  wpolish: {len(names)} Polish names in the list, locative in "
+          f"the list for {hits} ({100 * share:.1f} %, floor "
+          f"{100 * PL_FLOOR:.0f} %)")
+    if share < PL_FLOOR:
+        problems.append(f"Polish locatives: {100 * share:.1f} % in wpolish, "
+                        f"under {100 * PL_FLOOR:.0f} %")
+else:
+    print("  wpolish not installed (apt-get install wpolish): Polish "
+          "locatives not checked against it")
+
+# 3. titles
+rng = random.Random(SEED)
+by_lang = {}
+for lang, form, cc, where in rows:
+    base = lang.rstrip("?")
+    if where == "strong" or base not in OCCUPATION:
+        continue
+    by_lang.setdefault(base, []).append((form, where))
+total = misses = 0
+for lang in sorted(by_lang):
+    pool = sorted(by_lang[lang])
+    sample = rng.sample(pool, min(SAMPLE_PER_LANG, len(pool)))
+    titles = []
+    for form, where in sample:
+        if where == "adjective":
+            place = AREA[lang].format(form)
+        elif lang in PREP:
+            place = f"{PREP[lang]} {form}"
+        else:
+            place = form
+        titles.append(f"{OCCUPATION[lang]} {place}")
+    out = subprocess.run([exe, "norm", "--lang", lang],
+                         input="".join(t + "\n" for t in titles),
+                         capture_output=True, text=True, check=True).stdout
+    want = OCCUPATION[lang].casefold()
+    for title, got in zip(titles, out.split("\n")):
+        total += 1
+        if got != want:
+            misses += 1
+            problems.append(f"[{lang}] {title!r} -> {got!r}, want {want!r}")
+print(f"  titles: {total} sampled forms, {total - misses} stripped")
+
+for p in problems:
+    print("  " + p)
+sys.exit(1 if problems else 0)
