@@ -1,0 +1,231 @@
+/* pass_roles.c - segment roles: which segment names the job, and which
+ * of the others are employers or places.
+ *
+ * Every segment gets a role from its annotations.  Occupational
+ * evidence is a head word or an occupational ending (occupation/,
+ * values `head` and `suffix`) or a protected phrase (protect/ and the
+ * taxonomy's labels); a `field` word qualifies an occupation.  The head
+ * is the first segment with occupational evidence, wherever it stands
+ * ("Salzburg: Hausmeister", "Bäckerei Korngold | Verkäufer"); when no
+ * segment has any, the first segment is the head, as it always was, so
+ * that an occupation no lexicon knows is never lost.
+ *
+ * A segment beside the head without occupational evidence is dropped
+ * when it is
+ *  - an employer name: a business kind word heading or ending it after
+ *    or before a name ("Hotel Bergblick", "Brackenfold Veterinary
+ *    Clinic"), a legal form of business/ ("Musikverein Klangwerk e.V."),
+ *    or a name article before a capitalised word ("The Copper Kettle");
+ *    a field word inside it does not save it ("Metallbau Harlander");
+ *  - a place: gazetteer places, alone or with a region, a country or a
+ *    postcode (place_segment), even when the name is also an ordinary
+ *    word ("– Laufen", "(Wetter, Ruhr)"); a segment with a field word
+ *    is kept.  Before the head only when the head has evidence.
+ * Inside any segment, an employer marker or a location preposition with
+ * an employer name after it and no occupational evidence up to the
+ * segment's end is an employer ("für unser Seniorenzentrum Rosengarten",
+ * "im Landgasthof Zur Linde", "at Fenwick Logistics"), when a kept word
+ * stands before it in the title.
+ *
+ * Linear: every segment is read twice, every unit's annotations a
+ * bounded number of times; nothing is allocated. */
+#include <string.h>
+
+#include "pass.h"
+
+enum { EV_NONE, EV_FIELD, EV_HEAD };
+
+static int is_kind(tm_title *ti, size_t k, size_t *len)
+{
+	return match_val(ti, k, LC_BUSINESS, "kind", 1, len) != NULL;
+}
+
+/* Occupational evidence of unit k; a unit starting a business kind
+ * phrase ("Care Home", "Bäckerei") is at most a field. */
+static int evidence_at(tm_title *ti, size_t k)
+{
+	size_t len;
+	int ev;
+
+	if (!ukept(ti, k))
+		return EV_NONE;
+	if (ti->prot[ti->unit[k]])
+		return EV_HEAD;
+	if (!(ti->ucats[k] & (1u << LC_OCCUPATION)))
+		return EV_NONE;
+	if (match_val(ti, k, LC_OCCUPATION, "head", 1, &len) ||
+	    match_val(ti, k, LC_OCCUPATION, "suffix", 1, &len))
+		ev = EV_HEAD;
+	else if (match_val(ti, k, LC_OCCUPATION, "field", 1, &len))
+		ev = EV_FIELD;
+	else
+		return EV_NONE;
+	if (ev == EV_HEAD && (ti->ucats[k] & (1u << LC_BUSINESS)) && is_kind(ti, k, &len))
+		ev = EV_FIELD;
+	return ev;
+}
+
+/* The strongest evidence among the kept units of segment s; units
+ * inside a business kind phrase count as fields. */
+static int seg_evidence(tm_title *ti, size_t s)
+{
+	size_t k0, k1, k, len, kind_end = 0;
+	int best = EV_NONE;
+
+	seg_kept(ti, s, &k0, &k1);
+	for (k = k0; k < k1 && best != EV_HEAD; k++) {
+		int ev = evidence_at(ti, k);
+		if (ev == EV_HEAD && k < kind_end)
+			ev = EV_FIELD;
+		if (ev > best)
+			best = ev;
+		if (is_kind(ti, k, &len) && k + len > kind_end)
+			kind_end = k + len;
+	}
+	return best;
+}
+
+static int cap_word(tm_title *ti, size_t k, int caps)
+{
+	const tm_tok *t = U(ti, k);
+	return t->kind == TK_WORD && (caps || (t->flags & (TF_CAP | TF_ALLCAPS)));
+}
+
+/* The start of a business kind phrase ending exactly at unit k1 and
+ * starting after unit lo, or SIZE_MAX. */
+static size_t kind_ending(tm_title *ti, size_t lo, size_t k1)
+{
+	size_t len, k = k1 > lo + ROLE_KIND_BACK ? k1 - ROLE_KIND_BACK : lo + 1;
+	for (; k < k1; k++)
+		if (ukept(ti, k) && is_kind(ti, k, &len) && k + len == k1)
+			return k;
+	return SIZE_MAX;
+}
+
+static int legal_at(tm_title *ti, size_t k, size_t *len)
+{
+	return match_val(ti, k, LC_BUSINESS, "legal", 1, len) != NULL ||
+	       match_val(ti, k, LC_EMPLOYER, "legal", 1, len) != NULL;
+}
+
+/* Does a kept capitalised word stand in units [k0, k1)? */
+static int any_cap(tm_title *ti, size_t k0, size_t k1, int caps)
+{
+	for (size_t k = k0; k < k1; k++)
+		if (ukept(ti, k) && cap_word(ti, k, caps))
+			return 1;
+	return 0;
+}
+
+/* Is the kept part of a segment, units [k0, k1) with evidence ev, an
+ * employer name?  A kind word with a name after it (a capitalised
+ * word: "Hotel Belvedere sul Lago", not "de magasin") or before it
+ * ("Solbakken sykehjem"), a legal form after a name, or an article
+ * opening a capitalised name in a segment with no evidence at all
+ * ("The Copper Kettle", not "de Matemática"). */
+static int employer_segment(tm_title *ti, size_t k0, size_t k1, int ev,
+			    int caps)
+{
+	size_t len, k;
+
+	if (k1 - k0 < 2)
+		return 0; /* a kind word alone names a field: "Koch – Hotel" */
+	if (is_kind(ti, k0, &len) && k0 + len < k1 &&
+	    any_cap(ti, k0 + len, k1, caps))
+		return 1;
+	if (kind_ending(ti, k0, k1) != SIZE_MAX && cap_word(ti, k0, caps))
+		return 1;
+	if (ev == EV_NONE && match_val(ti, k0, LC_BUSINESS, "article", 1, &len) &&
+	    k0 + len < k1 && cap_word(ti, k0 + len, caps))
+		return 1;
+	for (k = k0 + 1; k < k1; k++)
+		if (ukept(ti, k) && legal_at(ti, k, &len))
+			return 1;
+	return 0;
+}
+
+/* In segment s: the leftmost employer marker or location preposition
+ * with an employer name after it and no occupational evidence up to the
+ * segment's end; removed from there on.  first: the title's first kept
+ * unit. */
+static int employer_tail(tm_title *ti, size_t s, size_t first, int caps)
+{
+	size_t k0, k1, k, len, best = SIZE_MAX, kind_end;
+	int legal_after = 0;
+
+	seg_kept(ti, s, &k0, &k1);
+	if (k1 - k0 < 3)
+		return 0;
+	kind_end = kind_ending(ti, k0, k1);
+	for (k = k1; k-- > k0 && k > first;) {
+		if (!ukept(ti, k))
+			continue;
+		if (evidence_at(ti, k) == EV_HEAD &&
+		    !(kind_end != SIZE_MAX && k >= kind_end))
+			break;
+		if (legal_at(ti, k, &len))
+			legal_after = 1;
+		if (ti->prot[ti->unit[k]])
+			break;
+		int marker = match_val(ti, k, LC_EMPLOYER, "marker", 1, &len) != NULL;
+		if (!marker && !match_val(ti, k, LC_LOCATION, "prep", 1, &len))
+			continue;
+		size_t j = k + len, l2;
+		if (j >= k1 || !ukept(ti, j))
+			continue;
+		if (match_cat(ti, j, LC_PLACE, 1, &l2))
+			continue; /* bei München: a location */
+		if ((is_kind(ti, j, &l2) && j + l2 < k1) ||
+		    (kind_end != SIZE_MAX && kind_end > j) || legal_after ||
+		    (marker && (cap_word(ti, j, caps) ||
+				match_val(ti, j, LC_BUSINESS, "article", 1, &l2))))
+			best = k;
+	}
+	if (best == SIZE_MAX)
+		return 0;
+	return remove_units(ti, best, k1, NF_EMPLOYER, NULL);
+}
+
+int pass_roles(tm_title *ti)
+{
+	size_t s, head = SIZE_MAX, first = SIZE_MAX, k0, k1;
+	int caps = all_caps_line(ti), evidence = 0;
+
+	for (s = 0; s < ti->nseg; s++) {
+		seg_kept(ti, s, &k0, &k1);
+		if (k0 >= k1)
+			continue;
+		if (first == SIZE_MAX)
+			first = k0;
+		if (head == SIZE_MAX && !ti->segs[s].bracket)
+			head = s;
+		if (seg_evidence(ti, s) == EV_HEAD) {
+			head = s;
+			evidence = 1;
+			break;
+		}
+	}
+	if (first == SIZE_MAX)
+		return 0;
+	for (s = 0; s < ti->nseg; s++) {
+		seg_kept(ti, s, &k0, &k1);
+		if (k0 >= k1)
+			continue;
+		if (s != head && (s > head || evidence)) {
+			int ev = seg_evidence(ti, s);
+			if (ev != EV_HEAD && employer_segment(ti, k0, k1, ev, caps)) {
+				if (remove_units(ti, k0, k1, NF_EMPLOYER, NULL))
+					return -1;
+				continue;
+			}
+			if (ev == EV_NONE && place_segment(ti, s, caps, 1)) {
+				if (remove_place_segment(ti, s))
+					return -1;
+				continue;
+			}
+		}
+		if (employer_tail(ti, s, first, caps))
+			return -1;
+	}
+	return 0;
+}
