@@ -262,7 +262,8 @@ static int norm_once(normaliser *nm, const char *src, size_t n, norm_result *res
 	int phrases = read || (f & LF_NUM);
 	/* roles: once the pieces every lexicon names are gone, what is
 	 * left of each segment shows its role */
-	int roles = ti->nseg > 1 || HAS(ti, LC_BUSINESS);
+	int roles = ti->nseg > 1 || HAS(ti, LC_BUSINESS) || HAS(ti, LC_EMPLOYER) ||
+		    HAS(ti, LC_LOCATION);
 	if ((phrases && pass_phrases(ti)) ||
 	    (HAS(ti, LC_EMPLOYER) && pass_employer(ti)) ||
 	    ((HAS(ti, LC_PLACE) || HAS(ti, LC_LOCATION)) && pass_location(ti)) ||

@@ -22,6 +22,10 @@
  * is looked for at most ROLE_KIND_BACK units before the segment's end
  * (the longest phrase a lexicon holds). */
 #define ROLE_KIND_BACK 12
+/* The region, province or department written after a place as a
+ * segment of its own ("Jönköping, Småland") holds at most
+ * ROLE_REGION_MAX words. */
+#define ROLE_REGION_MAX 3
 
 int pass_pii(tm_title *ti);       /* contact data: URLs, e-mail, phones */
 int pass_gender(tm_title *ti);    /* markers, gendered spellings, pairs */

@@ -108,40 +108,45 @@ static int legal_at(tm_title *ti, size_t k, size_t *len)
 	       match_val(ti, k, LC_EMPLOYER, "legal", 1, len) != NULL;
 }
 
-/* Does a kept capitalised word stand in units [k0, k1)? */
-static int any_cap(tm_title *ti, size_t k0, size_t k1, int caps)
+/* A word of a proper name at unit k: capitalised, and no phrase of an
+ * occupational, business, location or unit word starts there. */
+static int name_word(tm_title *ti, size_t k, int caps)
 {
-	for (size_t k = k0; k < k1; k++)
-		if (ukept(ti, k) && cap_word(ti, k, caps))
-			return 1;
-	return 0;
+	const uint32_t lexical = 1u << LC_OCCUPATION | 1u << LC_BUSINESS |
+				 1u << LC_LOCATION | 1u << LC_UNIT;
+	return ukept(ti, k) && cap_word(ti, k, caps) && !(ti->ucats[k] & lexical);
 }
 
 /* Is the kept part of a segment, units [k0, k1) with evidence ev, an
- * employer name?  A kind word with a name after it (a capitalised
- * word: "Hotel Belvedere sul Lago", not "de magasin") or before it
- * ("Solbakken sykehjem"), a legal form after a name, or an article
- * opening a capitalised name in a segment with no evidence at all
- * ("The Copper Kettle", not "de Matemática"). */
+ * employer name?  A kind phrase with a name word outside it ("Hotel
+ * Belvedere sul Lago", "Solbakken sykehjem", "Veterinární klinika
+ * Lesní"; not "de magasin", not "Koch – Hotel"), a legal form after a
+ * name, or an article opening a capitalised name in a segment with no
+ * evidence at all ("The Copper Kettle", not "de Matemática"). */
 static int employer_segment(tm_title *ti, size_t k0, size_t k1, int ev,
 			    int caps)
 {
-	size_t len, k;
+	size_t len, k, kind_end = k0;
+	int kind = 0, name = 0;
 
 	if (k1 - k0 < 2)
-		return 0; /* a kind word alone names a field: "Koch – Hotel" */
-	if (is_kind(ti, k0, &len) && k0 + len < k1 &&
-	    any_cap(ti, k0 + len, k1, caps))
-		return 1;
-	if (kind_ending(ti, k0, k1) != SIZE_MAX && cap_word(ti, k0, caps))
-		return 1;
-	if (ev == EV_NONE && match_val(ti, k0, LC_BUSINESS, "article", 1, &len) &&
-	    k0 + len < k1 && cap_word(ti, k0 + len, caps))
-		return 1;
-	for (k = k0 + 1; k < k1; k++)
-		if (ukept(ti, k) && legal_at(ti, k, &len))
+		return 0;
+	for (k = k0; k < k1; k++) {
+		if (!ukept(ti, k))
+			continue;
+		if (is_kind(ti, k, &len)) {
+			kind = 1;
+			if (k + len > kind_end)
+				kind_end = k + len;
+		} else if (k >= kind_end && name_word(ti, k, caps))
+			name = 1;
+		if (k > k0 && legal_at(ti, k, &len))
 			return 1;
-	return 0;
+	}
+	if (kind && name)
+		return 1;
+	return ev == EV_NONE && match_val(ti, k0, LC_BUSINESS, "article", 1, &len) &&
+	       k0 + len < k1 && cap_word(ti, k0 + len, caps);
 }
 
 /* In segment s: the leftmost employer marker or location preposition
@@ -173,12 +178,18 @@ static int employer_tail(tm_title *ti, size_t s, size_t first, int caps)
 		size_t j = k + len, l2;
 		if (j >= k1 || !ukept(ti, j))
 			continue;
-		if (match_cat(ti, j, LC_PLACE, 1, &l2))
-			continue; /* bei München: a location */
-		if ((is_kind(ti, j, &l2) && j + l2 < k1) ||
-		    (kind_end != SIZE_MAX && kind_end > j) || legal_after ||
-		    (marker && (cap_word(ti, j, caps) ||
-				match_val(ti, j, LC_BUSINESS, "article", 1, &l2))))
+		size_t n = j;
+		if (match_cat(ti, j, LC_PLACE, 1, &l2)) {
+			/* bei München: a location; at Fenwick Logistics: a
+			 * name that holds a place name */
+			if (!marker || j + l2 >= k1 || match_cat(ti, j + l2, LC_PLACE, 1, &len))
+				continue;
+			n = j + l2;
+		}
+		if ((is_kind(ti, n, &l2) && n + l2 < k1) ||
+		    (kind_end != SIZE_MAX && kind_end > n) || legal_after ||
+		    (marker && (cap_word(ti, n, caps) ||
+				match_val(ti, n, LC_BUSINESS, "article", 1, &l2))))
 			best = k;
 	}
 	if (best == SIZE_MAX)
@@ -186,9 +197,48 @@ static int employer_tail(tm_title *ti, size_t s, size_t first, int caps)
 	return remove_units(ti, best, k1, NF_EMPLOYER, NULL);
 }
 
+/* Was segment s removed whole, a place among its pieces? */
+static int removed_place(tm_title *ti, size_t s)
+{
+	const tm_seg *g = &ti->segs[s];
+	int place = 0;
+	for (size_t k = g->u0; k < g->u1; k++) {
+		uint8_t rm = ti->rm[ti->unit[k]];
+		if (rm == RM_NONE)
+			return 0;
+		place |= rm == NF_LOCATION;
+	}
+	return place;
+}
+
+/* Is the kept part of segment s, units [k0, k1), the region, province
+ * or department written after a place ("Jönköping, Småland", "Singen
+ * (Hohentwiel)", "Bra (CN)", "Cognac (16)"): a few name words, location
+ * words, or in a bracket a code of two capitals or a number of up to
+ * three digits? */
+static int region_after(tm_title *ti, size_t s, size_t k0, size_t k1, int caps)
+{
+	size_t k, len;
+	if (k1 - k0 > ROLE_REGION_MAX)
+		return 0;
+	for (k = k0; k < k1; k++) {
+		const tm_tok *t = U(ti, k);
+		if (!ukept(ti, k) || name_word(ti, k, caps) ||
+		    match_cat(ti, k, LC_LOCATION, 1, &len))
+			continue;
+		if (ti->segs[s].bracket && k1 == k0 + 1 &&
+		    ((t->kind == TK_NUM && t->len <= 3 &&
+		      strspn(ti->text + t->off, "0123456789") >= t->len) ||
+		     (t->kind == TK_WORD && (t->flags & TF_ALLCAPS) && t->len == 2)))
+			continue;
+		return 0;
+	}
+	return 1;
+}
+
 int pass_roles(tm_title *ti)
 {
-	size_t s, head = SIZE_MAX, first = SIZE_MAX, k0, k1;
+	size_t s, head = SIZE_MAX, first = SIZE_MAX, last, k0, k1;
 	int caps = all_caps_line(ti), evidence = 0;
 
 	for (s = 0; s < ti->nseg; s++) {
@@ -207,12 +257,23 @@ int pass_roles(tm_title *ti)
 	}
 	if (first == SIZE_MAX)
 		return 0;
+	for (last = ti->nseg; last-- > 0;) {
+		seg_kept(ti, last, &k0, &k1);
+		if (k0 < k1)
+			break;
+	}
 	for (s = 0; s < ti->nseg; s++) {
 		seg_kept(ti, s, &k0, &k1);
 		if (k0 >= k1)
 			continue;
 		if (s != head && (s > head || evidence)) {
 			int ev = seg_evidence(ti, s);
+			if (ev == EV_NONE && s == last && s > 0 && removed_place(ti, s - 1) &&
+			    region_after(ti, s, k0, k1, caps)) {
+				if (remove_units(ti, k0, k1, NF_LOCATION, NULL))
+					return -1;
+				continue;
+			}
 			if (ev != EV_HEAD && employer_segment(ti, k0, k1, ev, caps)) {
 				if (remove_units(ti, k0, k1, NF_EMPLOYER, NULL))
 					return -1;

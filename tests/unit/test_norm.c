@@ -301,6 +301,18 @@ static void test_roles(void **state)
 	role_is("Fachverkäufer Bäckerei", "fachverkäufer bäckerei");
 	role_is("Salzburg: Xylograph", "salzburg xylograph");
 	role_is("Xylograph – Hotel Bergblick", "xylograph");
+	/* a kind word inside a name; a name holding a place name */
+	role_is("Koch – Alpines Hotel Bergblick", "koch");
+	role_is("Koch bei Salzburg Catering", "koch");
+	role_is("Koch bei Salzburg", "koch bei salzburg");
+	/* a region written after a place */
+	role_is("Koch – Salzburg, Pinzgau", "koch");
+	role_is("Koch – Salzburg (SB)", "koch");
+	role_is("Koch – Pinzgau", "koch pinzgau");
+	/* only as the last segment: a name word before other words may be
+	 * anything */
+	role_is("Koch – Salzburg, Pinzgau, Teilzeit Leitung",
+		"koch pinzgau teilzeit leitung");
 	/* a kind word opening the head is no employer */
 	role_is("Hotel Koch – Salzburg", "hotel koch");
 }
