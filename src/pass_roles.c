@@ -40,9 +40,18 @@ static int is_kind(tm_title *ti, size_t k, size_t *len)
 	return match_val(ti, k, LC_BUSINESS, "kind", 1, len) != NULL;
 }
 
+static int cap_word(tm_title *ti, size_t k, int caps)
+{
+	const tm_tok *t = U(ti, k);
+	return t->kind == TK_WORD && (caps || (t->flags & (TF_CAP | TF_ALLCAPS)));
+}
+
 /* Occupational evidence of unit k; a unit starting a business kind
- * phrase ("Care Home", "Bäckerei") is at most a field. */
-static int evidence_at(tm_title *ti, size_t k)
+ * phrase ("Care Home", "Bäckerei") is at most a field.  With names set
+ * (a mixed-case line), a capitalised word after unit names_from whose
+ * only evidence is an occupational ending is a proper name
+ * ("Åkeri Lindqvist", "Hoivakoti Kotipihlaja"): no evidence. */
+static int evidence_at(tm_title *ti, size_t k, int names, size_t names_from)
 {
 	size_t len;
 	int ev;
@@ -53,9 +62,10 @@ static int evidence_at(tm_title *ti, size_t k)
 		return EV_HEAD;
 	if (!(ti->ucats[k] & (1u << LC_OCCUPATION)))
 		return EV_NONE;
-	if (match_val(ti, k, LC_OCCUPATION, "head", 1, &len) ||
-	    match_val(ti, k, LC_OCCUPATION, "suffix", 1, &len))
+	if (match_val(ti, k, LC_OCCUPATION, "head", 1, &len))
 		ev = EV_HEAD;
+	else if (match_val(ti, k, LC_OCCUPATION, "suffix", 1, &len))
+		ev = names && k > names_from && cap_word(ti, k, 0) ? EV_NONE : EV_HEAD;
 	else if (match_val(ti, k, LC_OCCUPATION, "field", 1, &len))
 		ev = EV_FIELD;
 	else
@@ -66,15 +76,16 @@ static int evidence_at(tm_title *ti, size_t k)
 }
 
 /* The strongest evidence among the kept units of segment s; units
- * inside a business kind phrase count as fields. */
-static int seg_evidence(tm_title *ti, size_t s)
+ * inside a business kind phrase count as fields; names as in
+ * evidence_at. */
+static int seg_evidence(tm_title *ti, size_t s, int names)
 {
 	size_t k0, k1, k, len, kind_end = 0;
 	int best = EV_NONE;
 
 	seg_kept(ti, s, &k0, &k1);
 	for (k = k0; k < k1 && best != EV_HEAD; k++) {
-		int ev = evidence_at(ti, k);
+		int ev = evidence_at(ti, k, names, k0);
 		if (ev == EV_HEAD && k < kind_end)
 			ev = EV_FIELD;
 		if (ev > best)
@@ -83,12 +94,6 @@ static int seg_evidence(tm_title *ti, size_t s)
 			kind_end = k + len;
 	}
 	return best;
-}
-
-static int cap_word(tm_title *ti, size_t k, int caps)
-{
-	const tm_tok *t = U(ti, k);
-	return t->kind == TK_WORD && (caps || (t->flags & (TF_CAP | TF_ALLCAPS)));
 }
 
 /* The start of a business kind phrase ending exactly at unit k1 and
@@ -108,13 +113,15 @@ static int legal_at(tm_title *ti, size_t k, size_t *len)
 	       match_val(ti, k, LC_EMPLOYER, "legal", 1, len) != NULL;
 }
 
-/* A word of a proper name at unit k: capitalised, and no phrase of an
- * occupational, business, location or unit word starts there. */
-static int name_word(tm_title *ti, size_t k, int caps)
+/* A word of a proper name at unit k of a segment starting at unit k0:
+ * capitalised, no business word starts there, and no occupational
+ * evidence (as evidence_at with names: "Valdqvist" is a name).  "Pri",
+ * "Kod" open names ("Gostilna Pri zelenem vrtu"). */
+static int name_word(tm_title *ti, size_t k, size_t k0, int caps)
 {
-	const uint32_t lexical = 1u << LC_OCCUPATION | 1u << LC_BUSINESS |
-				 1u << LC_LOCATION | 1u << LC_UNIT;
-	return ukept(ti, k) && cap_word(ti, k, caps) && !(ti->ucats[k] & lexical);
+	return ukept(ti, k) && cap_word(ti, k, caps) &&
+	       !(ti->ucats[k] & (1u << LC_BUSINESS)) &&
+	       evidence_at(ti, k, !caps, k0) == EV_NONE;
 }
 
 /* Is the kept part of a segment, units [k0, k1) with evidence ev, an
@@ -138,7 +145,7 @@ static int employer_segment(tm_title *ti, size_t k0, size_t k1, int ev,
 			kind = 1;
 			if (k + len > kind_end)
 				kind_end = k + len;
-		} else if (k >= kind_end && name_word(ti, k, caps))
+		} else if (k >= kind_end && name_word(ti, k, k0, caps))
 			name = 1;
 		if (k > k0 && legal_at(ti, k, &len))
 			return 1;
@@ -165,7 +172,7 @@ static int employer_tail(tm_title *ti, size_t s, size_t first, int caps)
 	for (k = k1; k-- > k0 && k > first;) {
 		if (!ukept(ti, k))
 			continue;
-		if (evidence_at(ti, k) == EV_HEAD &&
+		if (evidence_at(ti, k, !caps, k0) == EV_HEAD &&
 		    !(kind_end != SIZE_MAX && k >= kind_end))
 			break;
 		if (legal_at(ti, k, &len))
@@ -223,7 +230,7 @@ static int region_after(tm_title *ti, size_t s, size_t k0, size_t k1, int caps)
 		return 0;
 	for (k = k0; k < k1; k++) {
 		const tm_tok *t = U(ti, k);
-		if (!ukept(ti, k) || name_word(ti, k, caps) ||
+		if (!ukept(ti, k) || name_word(ti, k, k0, caps) ||
 		    match_cat(ti, k, LC_LOCATION, 1, &len))
 			continue;
 		if (ti->segs[s].bracket && k1 == k0 + 1 &&
@@ -241,20 +248,23 @@ int pass_roles(tm_title *ti)
 	size_t s, head = SIZE_MAX, first = SIZE_MAX, last, k0, k1;
 	int caps = all_caps_line(ti), evidence = 0;
 
-	for (s = 0; s < ti->nseg; s++) {
-		seg_kept(ti, s, &k0, &k1);
-		if (k0 >= k1)
-			continue;
-		if (first == SIZE_MAX)
-			first = k0;
-		if (head == SIZE_MAX && !ti->segs[s].bracket)
-			head = s;
-		if (seg_evidence(ti, s) == EV_HEAD) {
-			head = s;
-			evidence = 1;
-			break;
+	/* the head: the first segment with evidence, a proper name that
+	 * ends like an occupation counting only when nothing else does */
+	for (int names = !caps; names >= 0 && !evidence; names--)
+		for (s = 0; s < ti->nseg; s++) {
+			seg_kept(ti, s, &k0, &k1);
+			if (k0 >= k1)
+				continue;
+			if (first == SIZE_MAX)
+				first = k0;
+			if (head == SIZE_MAX && !ti->segs[s].bracket)
+				head = s;
+			if (seg_evidence(ti, s, names) == EV_HEAD) {
+				head = s;
+				evidence = 1;
+				break;
+			}
 		}
-	}
 	if (first == SIZE_MAX)
 		return 0;
 	for (last = ti->nseg; last-- > 0;) {
@@ -267,7 +277,7 @@ int pass_roles(tm_title *ti)
 		if (k0 >= k1)
 			continue;
 		if (s != head && (s > head || evidence)) {
-			int ev = seg_evidence(ti, s);
+			int ev = seg_evidence(ti, s, !caps);
 			if (ev == EV_NONE && s == last && s > 0 && removed_place(ti, s - 1) &&
 			    region_after(ti, s, k0, k1, caps)) {
 				if (remove_units(ti, k0, k1, NF_LOCATION, NULL))

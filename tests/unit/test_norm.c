@@ -305,6 +305,11 @@ static void test_roles(void **state)
 	role_is("Koch – Alpines Hotel Bergblick", "koch");
 	role_is("Koch bei Salzburg Catering", "koch");
 	role_is("Koch bei Salzburg", "koch bei salzburg");
+	/* a proper name that ends like an occupation is a name beside a
+	 * kind word, and no head while another segment has evidence */
+	role_is("Koch – Bäckerei Kornhelfer", "koch");
+	role_is("Bäckerei Kornhelfer | Koch", "koch");
+	role_is("Kornhelfer | Koch", "kornhelfer koch");
 	/* a region written after a place */
 	role_is("Koch – Salzburg, Pinzgau", "koch");
 	role_is("Koch – Salzburg (SB)", "koch");
