@@ -12,15 +12,22 @@
  *
  * A segment beside the head without occupational evidence is dropped
  * when it is
- *  - an employer name: a business kind word heading or ending it after
- *    or before a name ("Hotel Bergblick", "Brackenfold Veterinary
- *    Clinic"), a legal form of business/ ("Musikverein Klangwerk e.V."),
- *    or a name article before a capitalised word ("The Copper Kettle");
- *    a field word inside it does not save it ("Metallbau Harlander");
+ *  - an employer name: a business kind phrase with a name word outside
+ *    it ("Hotel Bergblick", "Brackenfold Veterinary Clinic", "Horský
+ *    hotel Valdoria"), a legal form after a name ("Musikverein Klangwerk
+ *    e.V."), or a name article before a capitalised word ("The Copper
+ *    Kettle"); a field word inside it does not save it ("Metallbau
+ *    Harlander");
  *  - a place: gazetteer places, alone or with a region, a country or a
  *    postcode (place_segment), even when the name is also an ordinary
  *    word ("– Laufen", "(Wetter, Ruhr)"); a segment with a field word
- *    is kept.  Before the head only when the head has evidence.
+ *    is kept;
+ *  - the last segment, right after a segment removed as a place, when
+ *    it looks like its region, district or code ("Kalmar, Småland",
+ *    "Bra (CN)"), known to the gazetteer or not.
+ * Before the head, only when the head was found by evidence.  A
+ * capitalised word whose only evidence is an occupational ending is a
+ * proper name in a mixed-case line ("Åkeri Valdqvist").
  * Inside any segment, an employer marker or a location preposition with
  * an employer name after it and no occupational evidence up to the
  * segment's end is an employer ("für unser Seniorenzentrum Rosengarten",
