@@ -284,13 +284,17 @@ static int norm_once(normaliser *nm, const char *src, size_t n, norm_result *res
 	    ((f & LF_NUM) && (pass_pay(ti) || pass_schedule(ti))) ||
 	    ((f & LF_SYM) && pass_hashtags(ti)))
 		return -1;
-	/* occupation/ and business/ annotate the title; no rule reads
-	 * them yet */
+	/* occupation/ and business/ are read by the segment roles alone */
 	unsigned read = ti->lcats & ~(1u << LC_OCCUPATION | 1u << LC_BUSINESS);
 	int phrases = read || (f & LF_NUM);
+	/* roles: once the pieces every lexicon names are gone, what is
+	 * left of each segment shows its role */
+	int roles = ti->nseg > 1 || HAS(ti, LC_BUSINESS) || HAS(ti, LC_EMPLOYER) ||
+		    HAS(ti, LC_LOCATION);
 	if ((phrases && pass_phrases(ti)) ||
 	    (HAS(ti, LC_EMPLOYER) && pass_employer(ti)) ||
 	    ((HAS(ti, LC_PLACE) || HAS(ti, LC_LOCATION)) && pass_location(ti)) ||
+	    (roles && pass_roles(ti)) ||
 	    (phrases && pass_phrases(ti)))
 		return -1;
 	return render(nm, res);

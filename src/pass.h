@@ -22,6 +22,14 @@
  * it ("CV na adres praca@…", "enviar CV a …", "lisätiedot: 01632 …"):
  * a label is short, and anything longer is more than a label. */
 #define CONTACT_LABEL_MAX 4
+/* A business kind phrase ending a segment ("Larchmoor House Care Home")
+ * is looked for at most ROLE_KIND_BACK units before the segment's end
+ * (the longest phrase a lexicon holds). */
+#define ROLE_KIND_BACK 12
+/* The region, province or department written after a place as a
+ * segment of its own ("Jönköping, Småland") holds at most
+ * ROLE_REGION_MAX words. */
+#define ROLE_REGION_MAX 3
 
 int pass_pii(tm_title *ti);       /* contact data: URLs, e-mail, phones */
 int pass_gender(tm_title *ti);    /* markers, gendered spellings, pairs */
@@ -32,5 +40,17 @@ int pass_hashtags(tm_title *ti);
 int pass_employer(tm_title *ti);
 int pass_location(tm_title *ti);
 int pass_phrases(tm_title *ti);   /* peels edge phrases to a fixpoint */
+int pass_roles(tm_title *ti);     /* the head segment; employers and places beside it */
+
+/* Shared by the rules (pass_place.c). */
+int all_caps_line(tm_title *ti);  /* most words of the line in capitals */
+/* Is the kept part of segment s a place: gazetteer places, country
+ * codes, postcodes, location and connector words, at least one place or
+ * country code?  Without strong_ok a place that is also an ordinary
+ * word (WHERE `strong`) needs one of the others beside it.  caps: the
+ * line is in capitals (all_caps_line). */
+int place_segment(tm_title *ti, size_t s, int caps, int strong_ok);
+/* Removes the kept part of segment s as places and location-slot words. */
+int remove_place_segment(tm_title *ti, size_t s);
 
 #endif

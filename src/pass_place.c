@@ -18,7 +18,7 @@ static int cap_word(tm_title *ti, size_t k)
 	return (t->flags & (TF_CAP | TF_ALLCAPS)) != 0;
 }
 
-static int all_caps_line(tm_title *ti)
+int all_caps_line(tm_title *ti)
 {
 	size_t words = 0, caps = 0;
 	for (size_t k = 0; k < ti->nunit; k++) {
@@ -276,81 +276,92 @@ static int slots(tm_title *ti)
 	return 0;
 }
 
+int place_segment(tm_title *ti, size_t s, int caps, int strong_ok)
+{
+	size_t k0, k1, k, len;
+	int any = 0, weak = 0, need_strong = 0, strong;
+	const char *c;
+
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 >= k1)
+		return 0;
+	for (k = k0; k < k1;) {
+		if (!ukept(ti, k)) {
+			k++;
+			continue;
+		}
+		if (ti->prot[ti->unit[k]]) {
+			return 0;
+		} else if (place_at(ti, k, &len, &strong, &c) &&
+			   !acronym(ti, k, len, caps)) {
+			any = 1;
+			if (strong)
+				need_strong = 1;
+			else
+				weak = 1;
+			k += len;
+			/* Hamburg-Harburg: a district glued to its city */
+			if (!strong && k < k1 && glued(ti, k - 1, k, "-") &&
+			    cap_word(ti, k) && U(ti, k)->kind == TK_WORD)
+				k++;
+		} else if (loc_word(ti, k, "country-code", &len)) {
+			any = weak = 1;
+			k += len;
+		} else if ((len = postcode_at(ti, k))) {
+			weak = 1;
+			k += len;
+		} else if (loc_word(ti, k, NULL, &len) ||
+			   match_val(ti, k, LC_UNIT, "connector", 1, &len)) {
+			weak = 1;
+			k += len;
+		} else
+			return 0;
+	}
+	return any && (strong_ok || !need_strong || weak);
+}
+
+int remove_place_segment(tm_title *ti, size_t s)
+{
+	size_t k0, k1, k, len;
+	int strong;
+	const char *c;
+
+	seg_kept(ti, s, &k0, &k1);
+	for (k = k0; k < k1;) {
+		if (!ukept(ti, k)) {
+			k++;
+			continue;
+		}
+		if (place_at(ti, k, &len, &strong, &c)) {
+			if (!strong && k + len < k1 && glued(ti, k + len - 1, k + len, "-") &&
+			    cap_word(ti, k + len) && U(ti, k + len)->kind == TK_WORD)
+				len++;
+			if (remove_place(ti, k, len, c))
+				return -1;
+		} else if (loc_word(ti, k, "country-code", &len)) {
+			if (remove_units(ti, k, k + len, NF_LOCATION, NULL))
+				return -1;
+		} else {
+			if (!(len = postcode_at(ti, k)))
+				len = 1;
+			if (remove_units(ti, k, k + len, NF_SLOT, NULL))
+				return -1;
+		}
+		k += len;
+	}
+	return 0;
+}
+
 /* A bracket or later segment made only of location words. */
 static int whole_segments(tm_title *ti)
 {
 	int caps = all_caps_line(ti);
 	for (size_t s = 0; s < ti->nseg; s++) {
 		const tm_seg *g = &ti->segs[s];
-		size_t k0, k1, k, len;
-		int any = 0, weak = 0, need_strong = 0, ok = 1;
-		const char *cc = NULL, *c;
-		int strong;
-
 		if (!g->bracket && g->index == 0 && !g->resumed)
 			continue;
-		seg_kept(ti, s, &k0, &k1);
-		if (k0 >= k1)
-			continue;
-		for (k = k0; k < k1 && ok;) {
-			if (!ukept(ti, k)) {
-				k++;
-				continue;
-			}
-			if (ti->prot[ti->unit[k]]) {
-				ok = 0;
-			} else if (place_at(ti, k, &len, &strong, &c) &&
-				   !acronym(ti, k, len, caps)) {
-				any = 1;
-				if (strong)
-					need_strong = 1;
-				else
-					weak = 1;
-				if (!cc)
-					cc = c;
-				k += len;
-				/* Hamburg-Harburg: a district glued to its city */
-				if (!strong && k < k1 && glued(ti, k - 1, k, "-") &&
-				    cap_word(ti, k) && U(ti, k)->kind == TK_WORD)
-					k++;
-			} else if (loc_word(ti, k, "country-code", &len)) {
-				any = weak = 1;
-				k += len;
-			} else if ((len = postcode_at(ti, k))) {
-				weak = 1;
-				k += len;
-			} else if (loc_word(ti, k, NULL, &len) ||
-				   match_val(ti, k, LC_UNIT, "connector", 1, &len)) {
-				weak = 1;
-				k += len;
-			} else
-				ok = 0;
-		}
-		if (!ok || !any || (need_strong && !weak))
-			continue;
-		(void)cc;
-		for (k = k0; k < k1;) {
-			if (!ukept(ti, k)) {
-				k++;
-				continue;
-			}
-			if (place_at(ti, k, &len, &strong, &c)) {
-				if (!strong && k + len < k1 && glued(ti, k + len - 1, k + len, "-") &&
-				    cap_word(ti, k + len) && U(ti, k + len)->kind == TK_WORD)
-					len++;
-				if (remove_place(ti, k, len, c))
-					return -1;
-			} else if (loc_word(ti, k, "country-code", &len)) {
-				if (remove_units(ti, k, k + len, NF_LOCATION, NULL))
-					return -1;
-			} else {
-				if (!(len = postcode_at(ti, k)))
-					len = 1;
-				if (remove_units(ti, k, k + len, NF_SLOT, NULL))
-					return -1;
-			}
-			k += len;
-		}
+		if (place_segment(ti, s, caps, 0) && remove_place_segment(ti, s))
+			return -1;
 	}
 	return 0;
 }

@@ -63,6 +63,11 @@ check pipe-quiet "" "$(cat "$tmp/err")"
 printf 'occupation\tkind\tlang\tlabel\nocc:1\tpref\ten\tsenior care assistant\n' > "$tmp/labels.tsv"
 got=$(printf 'Senior Care Assistant (m/w/d)\n' | $T norm --labels "$tmp/labels.tsv"); check labels "senior care assistant" "$got"
 got=$(printf 'Senior Care Assistant (m/w/d)\n' | $T norm); check no-labels "care assistant" "$got"
+# a label is occupational evidence: it makes its segment the head, and
+# the place before it is dropped (an unknown word alone is kept)
+printf 'occupation\tkind\tlang\tlabel\nocc:2\tpref\tde\tXylograph\n' > "$tmp/l3.tsv"
+got=$(printf 'Salzburg: Xylograph\n' | $T norm --labels "$tmp/l3.tsv"); check labels-head "xylograph" "$got"
+got=$(printf 'Salzburg: Xylograph\n' | $T norm); check no-labels-head "salzburg xylograph" "$got"
 # a protected label still loses a gendered ending (regression)
 printf 'occupation\tkind\tlang\tlabel\nocc:1\tpref\tde\tVerkäufer\n' > "$tmp/l2.tsv"
 got=$(printf 'Verkäufer/in (m/w/d)\nVerkäuferIn\n' | $T norm --labels "$tmp/l2.tsv" | tr '\n' ' ')

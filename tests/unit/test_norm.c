@@ -92,21 +92,30 @@ static int setup(void **state)
 	LX = lex_new();
 	fill(LX);
 	NM = norm_new(LX);
-	/* the same, with occupational and business words over the same
-	 * titles: they annotate, and change nothing yet */
+	/* the same, with occupational and business words: the segment
+	 * roles read them */
 	LX2 = lex_new();
 	fill(LX2);
 	add(LX2, LC_OCCUPATION, "de", "Koch", "head", LW_ANY);
-	add(LX2, LC_OCCUPATION, "en", "sales assistant", "head", LW_ANY);
-	add(LX2, LC_OCCUPATION, "*", "senior", "head", LW_ANY);
-	add(LX2, LC_OCCUPATION, "de", "entwickler", "suffix", LW_ANY);
-	add(LX2, LC_OCCUPATION, "de", "er", "suffix", LW_ANY);
-	add(LX2, LC_OCCUPATION, "fr", "eur", "suffix", LW_ANY);
-	add(LX2, LC_OCCUPATION, "de", "Vollzeit", "field", LW_ANY);
-	add(LX2, LC_BUSINESS, "de", "GmbH", "legal", LW_ANY);
-	add(LX2, LC_BUSINESS, "*", "in", "article", LW_ANY);
+	add(LX2, LC_OCCUPATION, "de", "Hausmeister", "head", LW_ANY);
+	add(LX2, LC_OCCUPATION, "de", "Sachbearbeiter", "head", LW_ANY);
+	add(LX2, LC_OCCUPATION, "de", "verkäufer", "suffix", LW_ANY);
+	add(LX2, LC_OCCUPATION, "de", "helfer", "suffix", LW_ANY);
+	add(LX2, LC_OCCUPATION, "en", "assistant", "suffix", LW_ANY);
+	add(LX2, LC_OCCUPATION, "de", "Buchhaltung", "field", LW_ANY);
+	add(LX2, LC_OCCUPATION, "de", "Bau", "field", LW_ANY);
 	add(LX2, LC_BUSINESS, "de", "Hotel", "kind", LW_ANY);
-	add(LX2, LC_BUSINESS, "*", "Köln", "kind", LW_ANY);
+	add(LX2, LC_BUSINESS, "de", "Bäckerei", "kind", LW_ANY);
+	add(LX2, LC_BUSINESS, "de", "Seniorenzentrum", "kind", LW_ANY);
+	add(LX2, LC_BUSINESS, "en", "care home", "kind", LW_ANY);
+	add(LX2, LC_BUSINESS, "de", "e.V.", "legal", LW_ANY);
+	add(LX2, LC_BUSINESS, "en", "the", "article", LW_ANY);
+	add(LX2, LC_EMPLOYER, "de", "für unser", "marker", LW_ANY);
+	add(LX2, LC_PLACE, "*", "Salzburg", "AT", LW_SLOT);
+	add(LX2, LC_PLACE, "*", "Essen", "DE", LW_STRONG);
+	add(LX2, LC_PLACE, "*", "Wetter", "DE", LW_STRONG);
+	add(LX2, LC_PLACE, "*", "Ruhr", "DE", LW_SLOT);
+	add(LX2, LC_PLACE, "*", "Bau", "DE", LW_STRONG);
 	NM2 = norm_new(LX2);
 	return 0;
 }
@@ -136,18 +145,22 @@ static void title_is(const char *raw, const char *want)
 	if (r2.title_len != strlen(again) || memcmp(r2.title, again, r2.title_len))
 		fail_msg("not idempotent: \"%s\" -> \"%.*s\"", again, (int)r2.title_len, r2.title);
 	free(again);
-	/* the same result with the occupation and business categories */
-	assert_int_equal(norm_title(NM2, raw, strlen(raw), NULL, &r2), 0);
-	assert_int_equal(norm_title(NM, raw, strlen(raw), NULL, &R), 0);
-	if (r2.title_len != R.title_len || memcmp(r2.title, R.title, R.title_len) ||
-	    r2.key_len != R.key_len || memcmp(r2.key, R.key, R.key_len) ||
-	    r2.npiece != R.npiece)
-		fail_msg("\"%s\": \"%.*s\" with occupation/business words", raw,
-			 (int)r2.title_len, r2.title);
-	for (size_t i = 0; i < R.npiece; i++)
-		if (r2.piece[i].kind != R.piece[i].kind || r2.piece[i].len != R.piece[i].len ||
-		    memcmp(r2.piece[i].text, R.piece[i].text, R.piece[i].len))
-			fail_msg("\"%s\": piece %zu differs with occupation/business words", raw, i);
+}
+
+/* The same over the lexicon with occupational and business words. */
+static void role_is(const char *raw, const char *want)
+{
+	norm_result r2;
+	assert_int_equal(norm_title(NM2, raw, strlen(raw), NULL, &R), 0);
+	if (R.title_len != strlen(want) || memcmp(R.title, want, R.title_len))
+		fail_msg("norm(\"%s\") = \"%.*s\", want \"%s\"", raw,
+			 (int)R.title_len, R.title, want);
+	char *again = strndup(R.title, R.title_len);
+	assert_int_equal(norm_title(NM2, again, strlen(again), NULL, &r2), 0);
+	if (r2.title_len != strlen(again) || memcmp(r2.title, again, r2.title_len))
+		fail_msg("not idempotent: \"%s\" -> \"%.*s\"", again, (int)r2.title_len, r2.title);
+	free(again);
+	assert_int_equal(norm_title(NM2, raw, strlen(raw), NULL, &R), 0);
 }
 
 static const nf_piece *piece(int kind)
@@ -274,7 +287,9 @@ static void test_places(void **state)
 	title_is("Koch Frankfurt am Main", "koch frankfurt am main"); /* no slot */
 	title_is("Koch - Frankfurt am Main", "koch");
 	title_is("Bath Attendant", "bath attendant");
-	title_is("Attendant - Bath", "attendant bath"); /* strong: a dash is not enough */
+	/* a whole later segment is a place even when the name is an
+	 * ordinary word */
+	title_is("Attendant - Bath", "attendant");
 	title_is("Attendant in Bath", "attendant");
 	title_is("Sales Assistant - Köln", "sales assistant");
 	title_is("Entwickler (remote, DE)", "entwickler");
@@ -309,6 +324,64 @@ static void test_employer(void **state)
 	title_is("Buchhalter - Nordwerk GmbH", "buchhalter");
 	title_is("Pflegekraft bei Valdoria GmbH", "pflegekraft");
 	title_is("Koch bei München", "koch bei münchen"); /* bei is no prep here */
+}
+
+/* Segment roles: the head by occupational evidence, employers and
+ * places beside it dropped. */
+static void test_roles(void **state)
+{
+	const nf_piece *p;
+	(void)state;
+	/* employers without a legal form, headed or ended by a kind word */
+	role_is("Koch – Hotel Bergblick", "koch");
+	p = piece(NF_EMPLOYER);
+	assert_non_null(p);
+	assert_int_equal(p->len, strlen("Hotel Bergblick"));
+	role_is("Night Assistant – Larchmoor House Care Home", "night assistant");
+	role_is("Koch – Musikverein Klangwerk e.V.", "koch");
+	role_is("Koch – The Copper Kettle", "koch");
+	/* the head after an employer or a place */
+	role_is("Bäckerei Korngold | Verkäufer", "verkäufer");
+	role_is("Salzburg: Hausmeister", "hausmeister");
+	p = piece(NF_LOCATION);
+	assert_non_null(p);
+	assert_memory_equal(p->text, "Salzburg", 8);
+	/* a protected phrase is evidence too */
+	role_is("Salzburg: Sales Assistant", "sales assistant");
+	/* ordinary-word places in place position */
+	role_is("Koch - Essen", "koch");
+	role_is("Koch (Wetter, Ruhr)", "koch");
+	/* after a marker, the gender bracket between */
+	role_is("Pflegehelfer (m/w/d) für unser Seniorenzentrum Rosengarten",
+		"pflegehelfer");
+	role_is("Koch (m/w/d) bei Hotel Sonnhalde", "koch");
+	/* kept: a field, a kind word alone, a lower-case tail, an unknown
+	 * head (no evidence anywhere: the first segment stays) */
+	role_is("Sachbearbeiter - Buchhaltung", "sachbearbeiter buchhaltung");
+	role_is("Koch - Bau", "koch bau");
+	role_is("Koch – Hotel", "koch hotel");
+	role_is("Fachverkäufer Bäckerei", "fachverkäufer bäckerei");
+	role_is("Salzburg: Xylograph", "salzburg xylograph");
+	role_is("Xylograph – Hotel Bergblick", "xylograph");
+	/* a kind word inside a name; a name holding a place name */
+	role_is("Koch – Alpines Hotel Bergblick", "koch");
+	role_is("Koch bei Salzburg Catering", "koch");
+	role_is("Koch bei Salzburg", "koch bei salzburg");
+	/* a proper name that ends like an occupation is a name beside a
+	 * kind word, and no head while another segment has evidence */
+	role_is("Koch – Bäckerei Kornhelfer", "koch");
+	role_is("Bäckerei Kornhelfer | Koch", "koch");
+	role_is("Kornhelfer | Koch", "kornhelfer koch");
+	/* a region written after a place */
+	role_is("Koch – Salzburg, Pinzgau", "koch");
+	role_is("Koch – Salzburg (SB)", "koch");
+	role_is("Koch – Pinzgau", "koch pinzgau");
+	/* only as the last segment: a name word before other words may be
+	 * anything */
+	role_is("Koch – Salzburg, Pinzgau, Teilzeit Leitung",
+		"koch pinzgau teilzeit leitung");
+	/* a kind word opening the head is no employer */
+	role_is("Hotel Koch – Salzburg", "hotel koch");
 }
 
 static void test_text_forms(void **state)
@@ -364,6 +437,7 @@ int main(void)
 		cmocka_unit_test(test_places),
 		cmocka_unit_test(test_noise),
 		cmocka_unit_test(test_employer),
+		cmocka_unit_test(test_roles),
 		cmocka_unit_test(test_text_forms),
 	};
 	return cmocka_run_group_tests_name("norm", tests, setup, teardown);
