@@ -255,7 +255,8 @@ static int norm_once(normaliser *nm, const char *src, size_t n, norm_result *res
 	if (((f & (LF_NUM | LF_DIGITWORD | LF_SYM) || HAS(ti, LC_REFERENCE)) &&
 	     pass_reference(ti)) ||
 	    ((f & LF_NUM) && (pass_pay(ti) || pass_schedule(ti))) ||
-	    ((f & LF_SYM) && pass_hashtags(ti)))
+	    ((f & LF_SYM) && pass_hashtags(ti)) ||
+	    (HAS(ti, LC_PAY) && pass_grade(ti)))
 		return -1;
 	/* occupation/ and business/ annotate the title; no rule reads
 	 * them yet */

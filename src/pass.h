@@ -18,11 +18,16 @@
  * GmbH"); "a b c d e GmbH " x 70,000 looked back to the segment's start
  * from every "GmbH". */
 #define EMPLOYER_BACK 8
+/* The name of a collective agreement after a grade is at most
+ * GRADE_TAIL_MAX units ("CCNL Commercio", "CAO Gemeenten"): a longer rest
+ * of the segment is not a name. */
+#define GRADE_TAIL_MAX 3
 
 int pass_pii(tm_title *ti);       /* contact data: URLs, e-mail, phones */
 int pass_gender(tm_title *ti);    /* markers, gendered spellings, pairs */
 int pass_reference(tm_title *ti); /* reference codes and dates */
 int pass_pay(tm_title *ti);
+int pass_grade(tm_title *ti);    /* pay scales and grades */
 int pass_schedule(tm_title *ti);  /* hours, workload, durations */
 int pass_hashtags(tm_title *ti);
 int pass_employer(tm_title *ti);

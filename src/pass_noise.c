@@ -382,6 +382,8 @@ int pass_reference(tm_title *ti)
 	return 0;
 }
 
+static int last_word(tm_title *ti, size_t k0, size_t k1);
+
 /* ---- pay ---- */
 
 static const unsigned phrase_mask_pay = 1u << LC_SCHEDULE | 1u << LC_MARKETING;
@@ -503,6 +505,176 @@ int pass_pay(tm_title *ti)
 			return -1;
 		k = e - 1;
 	}
+	return 0;
+}
+
+/* ---- pay scales and grades: Band 6, E 9a TVöD, 10. platová třída ---- */
+
+/* Is the fold of unit k a roman numeral of up to six letters (i v x l)? */
+static int roman_unit(tm_title *ti, size_t k)
+{
+	uint32_t n;
+	const char *f = ufold(ti, k, &n);
+	if (U(ti, k)->kind != TK_WORD || n == 0 || n > 6)
+		return 0;
+	for (uint32_t i = 0; i < n; i++)
+		if (!strchr("ivxl", f[i]))
+			return 0;
+	return 1;
+}
+
+/* A grade code at unit k: a number (10, 1,523), a short word with a digit
+ * (8a, A2, SO1, 3S), a roman numeral (XII) or one letter or a short
+ * capitalised abbreviation (B, Γ, OF). */
+static int grade_code(tm_title *ti, size_t k)
+{
+	const tm_tok *t;
+	if (k >= ti->nunit || !ukept(ti, k) || ti->prot[ti->unit[k]])
+		return 0;
+	t = U(ti, k);
+	if (t->kind == TK_NUM)
+		return 1;
+	if (t->kind != TK_WORD)
+		return 0;
+	if (t->flags & TF_DIGIT)
+		return t->flen <= 4;
+	if (roman_unit(ti, k))
+		return 1;
+	/* one letter (a byte, or a two-byte letter: Γ) */
+	if (t->len == 1 || (t->len == 2 && (t->flags & TF_NONASCII)))
+		return 1;
+	return (t->flags & TF_ALLCAPS) && t->len <= 4;
+}
+
+/* A pay-scale word at unit k (pay "lead", "Besoldungsgruppe", "schaal";
+ * an edge lead only at the segment's first kept unit k0): its length in
+ * units, or 0. */
+static size_t grade_word(tm_title *ti, size_t k, size_t k0)
+{
+	size_t len;
+	const lex_entry *e = match_val(ti, k, LC_PAY, "lead", 1, &len);
+	const tm_tok *t = U(ti, k);
+	if (!e || (e->where == LW_EDGE && k != k0))
+		return 0;
+	/* a short word leads an amount ("de 30 a 40 €", "bis 22 €"); as a
+	 * grade word it is written in capitals: E 12, VG 5, GS-11 */
+	if (len == 1 && t->kind == TK_WORD && t->flen <= 3 &&
+	    !(t->flags & TF_ALLCAPS) && !(t->len == 1 && (t->flags & TF_CAP)))
+		return 0;
+	return len;
+}
+
+/* The name of a collective agreement after a grade: a pay phrase (TVöD,
+ * TV-L) or a capitalised abbreviation (CCNL, CAO, BBesO) with what follows
+ * it to the segment's end, at most GRADE_TAIL_MAX units in all.  Returns
+ * the end (exclusive), k when there is none. */
+static size_t grade_tail(tm_title *ti, size_t k, size_t k1)
+{
+	size_t len;
+	const tm_tok *t;
+	if (k >= k1)
+		return k;
+	if (match_val(ti, k, LC_PAY, "phrase", 1, &len) && k + len <= k1)
+		return k + len == k1 || k1 - k <= GRADE_TAIL_MAX ? k1 : k + len;
+	t = U(ti, k);
+	/* a short linking word before the name: "nível 15 da TRU" */
+	if (k + 1 < k1 && t->kind == TK_WORD && !(t->flags & TF_CAP) && t->len <= 3 &&
+	    grade_tail(ti, k + 1, k1) == k1 && units_free(ti, k, k1))
+		return k1;
+	if (t->kind == TK_WORD && (t->flags & TF_CAP) &&
+	    (t->flags & (TF_ALLCAPS | TF_CAPSUF | TF_DIGIT) || t->len <= 6) &&
+	    k1 - k <= GRADE_TAIL_MAX && units_free(ti, k, k1)) {
+		/* only a capitalised abbreviation opens a name of several words */
+		if (k + 1 == k1 || (t->flags & TF_ALLCAPS))
+			return k1;
+	}
+	return k;
+}
+
+/* Does unit k hold a word of a grade segment: a pay word, a grade code
+ * or a seniority word ("III младши ранг")?  Its length in units, or 0. */
+static size_t grade_part(tm_title *ti, size_t k, size_t k0)
+{
+	size_t len;
+	const lex_entry *e;
+	if ((len = grade_word(ti, k, k0)))
+		return len;
+	if (grade_code(ti, k))
+		return 1;
+	/* an ordinal sign glued to a number: 5° livello */
+	if (k > k0 && U(ti, k)->kind == TK_SYM && U(ti, k - 1)->kind == TK_NUM &&
+	    glued(ti, k - 1, k, ""))
+		return 1;
+	e = match_mask(ti, k, 1u << LC_PAY | 1u << LC_SENIORITY, 1, &len);
+	if (e && (e->cat == LC_SENIORITY || !strcmp(e->value, "phrase")))
+		return len;
+	return 0;
+}
+
+/* A grade ends its segment: [code] grade-word code [code…] [agreement]
+ * ("Band 8a", "E 9a TVöD", "SO1 Scale 6", "10. platová třída", "platová
+ * trieda 7"), or a later segment is made of pay words, codes and seniority
+ * words alone with one pay-scale word among them ("grupa zaszeregowania
+ * XII", "III младши ранг", "LC-schaal").  A grade is never the whole
+ * title, so "Band 6" alone stays. */
+static int grade_segment(tm_title *ti, size_t s)
+{
+	size_t k0, k1, k, len, start = SIZE_MAX;
+	int words = 0;
+	const tm_seg *g = &ti->segs[s];
+
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 >= k1)
+		return 0;
+	/* the whole segment */
+	if (g->bracket || g->index != 0) {
+		for (k = k0; k < k1; k += len) {
+			size_t w = grade_word(ti, k, k0);
+			if (!(len = grade_part(ti, k, k0))) {
+				size_t e = words ? grade_tail(ti, k, k1) : k;
+				/* the name after an abbreviation: "CCNL Commercio" */
+				if (words && k > k0 && (U(ti, k - 1)->flags & TF_ALLCAPS) &&
+				    k1 - k <= GRADE_TAIL_MAX && units_free(ti, k, k1))
+					e = k1;
+				if (e == k1)
+					break;
+				return 0;
+			}
+			/* a pay phrase that opens with a grade word: "livello CCNL" */
+			words |= w > 0 || match_val(ti, k, LC_PAY, "lead", 1, &w);
+		}
+		if (words && !last_word(ti, k0, k1))
+			return remove_units(ti, k0, k1, NF_PAY, "grade");
+		return 0;
+	}
+	/* a grade at the head segment's end: look for its grade word */
+	for (k = k0 + 1; k < k1; k++) {
+		size_t e;
+		if (!(len = grade_word(ti, k, k0)) || !grade_code(ti, k + len))
+			continue;
+		e = k + len + 1;
+		while (e < k1 && grade_code(ti, e))
+			e++;
+		e = grade_tail(ti, e, k1);
+		if (e != k1)
+			continue;
+		start = k;
+		/* a code before it: "SO1 Scale 6" */
+		if (start > k0 + 1 && grade_code(ti, start - 1) &&
+		    U(ti, start - 1)->kind != TK_NUM)
+			start--;
+		break;
+	}
+	if (start == SIZE_MAX || !units_free(ti, start, k1))
+		return 0;
+	return remove_units(ti, start, k1, NF_PAY, "grade");
+}
+
+int pass_grade(tm_title *ti)
+{
+	for (size_t s = 0; s < ti->nseg; s++)
+		if (grade_segment(ti, s))
+			return -1;
 	return 0;
 }
 
@@ -676,8 +848,15 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 		e = match_mask(ti, k, phrase_mask, 1, &len);
 		if (!e)
 			continue;
-		if (e->cat == LC_PAY && strcmp(e->value, "phrase"))
-			continue;
+		if (e->cat == LC_PAY && strcmp(e->value, "phrase")) {
+			/* "timelønn" is a unit after an amount and a remark
+			 * alone in its segment */
+			size_t l2;
+			const lex_entry *p = match_val(ti, k, LC_PAY, "phrase", 1, &l2);
+			if (!p || l2 != len)
+				continue;
+			e = p;
+		}
 		/* an edge word is never the title's last word: Principal */
 		if (e->where == LW_EDGE && e->cat == LC_SENIORITY &&
 		    last_word(ti, k, k + len))

@@ -16,7 +16,7 @@ def read(path):
     head = lines[0].split("\t")
     rows = []
     for no, line in enumerate(lines[1:], start=2):
-        if not line:
+        if not line or line.startswith("#"):  # a comment names the kind below
             continue
         cells = line.split("\t")
         cells += [""] * (len(head) - len(cells))

@@ -72,7 +72,7 @@ for i in range(20000):
 rows = open(here + "/norm.tsv", encoding="utf-8").read().split("\n")
 head = rows[0].split("\t")
 ri = head.index("raw")
-raws = [r.split("\t")[ri].encode() for r in rows[1:] if r]
+raws = [r.split("\t")[ri].encode() for r in rows[1:] if r and not r.startswith("#")]
 
 # random mixes of the table's own words and separators
 words = sorted(set(w for r in raws for w in r.split()))
