@@ -29,6 +29,7 @@ int pass_reference(tm_title *ti); /* reference codes and dates */
 int pass_pay(tm_title *ti);
 int pass_grade(tm_title *ti);    /* pay scales and grades */
 int pass_schedule(tm_title *ti);  /* hours, workload, durations */
+int pass_days(tm_title *ti);      /* day ranges, clock ranges, head counts */
 int pass_hashtags(tm_title *ti);
 int pass_employer(tm_title *ti);
 int pass_location(tm_title *ti);

@@ -755,9 +755,160 @@ int pass_schedule(tm_title *ti)
 			}
 		} else
 			continue;
-		if (remove_units(ti, k, e, NF_HOURS, NULL))
+		/* a week or day word before the number: heti 40 óra,
+		 * haftada 45 saat, günde 4 saat */
+		size_t b = k, l2;
+		const lex_entry *w;
+		if (k > 0 && ukept(ti, k - 1) && !ti->prot[ti->unit[k - 1]] &&
+		    ti->unit[k - 1] + 1 == ti->unit[k] &&
+		    (w = match_cat(ti, k - 1, LC_UNIT, 1, &l2)) && l2 == 1 &&
+		    (!strcmp(w->value, "week") || !strcmp(w->value, "day")))
+			b = k - 1;
+		if (remove_units(ti, b, e, NF_HOURS, NULL))
 			return -1;
 		k = e - 1;
+	}
+	return 0;
+}
+
+/* ---- days, clock times and head counts: Mo–Fr 7–15 Uhr, (5 posts) ---- */
+
+static int unit_val(tm_title *ti, size_t k, const char *v, size_t *len)
+{
+	return k < ti->nunit && ukept(ti, k) && !ti->prot[ti->unit[k]] &&
+	       match_val(ti, k, LC_UNIT, v, 1, len) != NULL;
+}
+
+/* Is unit k a kept number? */
+static int num_at(tm_title *ti, size_t k)
+{
+	return k < ti->nunit && ukept(ti, k) && !ti->prot[ti->unit[k]] &&
+	       U(ti, k)->kind == TK_NUM;
+}
+
+/* A time of day at unit k: 7, 08, 15.30, 15:30, 9h30.  Returns its end
+ * (exclusive), or 0. */
+static size_t clock_time(tm_title *ti, size_t k)
+{
+	size_t len;
+	if (!num_at(ti, k) || ndigits(ti, U(ti, k)) > 4 ||
+	    atoi(ti->text + U(ti, k)->off) > 24)
+		return 0;
+	k++;
+	if (num_at(ti, k) && glued(ti, k - 1, k, ":") && U(ti, k)->len == 2)
+		k++;
+	if (unit_val(ti, k, "hours", &len) && len == 1 && glued(ti, k - 1, k, "") &&
+	    num_at(ti, k + 1) && glued(ti, k, k + 1, "") && U(ti, k + 1)->len == 2)
+		k += 2; /* 9h30 */
+	return k;
+}
+
+/* A clock range at k: 7–15, 9-5, 08.00–16.00 Uhr, 7 bis 15 h.  Returns
+ * its end (exclusive), or 0. */
+static size_t clock_range(tm_title *ti, size_t k)
+{
+	size_t e = clock_time(ti, k), r, len;
+	if (!e || e >= ti->nunit)
+		return 0;
+	if (glued(ti, e - 1, e, "-/") && ti->unit[e] == ti->unit[e - 1] + 2)
+		r = e;
+	else if (unit_val(ti, e, "connector", &len) && len == 1)
+		r = e + 1;
+	else
+		return 0;
+	if (!(e = clock_time(ti, r)))
+		return 0;
+	if (unit_val(ti, e, "hours", &len))
+		e += len;
+	return e;
+}
+
+/* Day names: a weekday, a range of them (Mo–Fr, man–fre, de lunes a
+ * sábado, mit-Tnejn sal-Ġimgħa) and the clock range after them.  Returns
+ * the end (exclusive) of the day phrase at k, or 0; *range is set when
+ * two days or a clock range were found. */
+static size_t day_phrase(tm_title *ti, size_t k, int *range)
+{
+	size_t len, e, c;
+	*range = 0;
+	if (!unit_val(ti, k, "weekday", &len))
+		return 0;
+	e = k + len;
+	if (e < ti->nunit && (glued(ti, e - 1, e, "-/.") || U(ti, e)->sp) &&
+	    unit_val(ti, e, "weekday", &len)) {
+		/* Mo–Fr, pon.–pt., "de lunes" "a sábado" */
+		e += len;
+		*range = 1;
+	} else if (unit_val(ti, e, "connector", &c) &&
+		   unit_val(ti, e + c, "weekday", &len)) {
+		/* Monday to Friday, ma t/m vr */
+		e += c + len;
+		*range = 1;
+	}
+	if ((c = clock_range(ti, e))) {
+		e = c;
+		*range = 1;
+	}
+	return e;
+}
+
+/* A head count at k: "5 posts", "3 Stellen", "10 postes", "x2".  Returns
+ * its end (exclusive), or 0. */
+static size_t head_count(tm_title *ti, size_t k)
+{
+	size_t len, e;
+	const tm_tok *t = U(ti, k);
+	if (t->kind == TK_WORD && (t->flags & TF_DIGIT) && t->flen <= 4 &&
+	    tok_fold(&ti->tl, t)[0] == 'x' && ukept(ti, k) && !ti->prot[ti->unit[k]]) {
+		for (uint32_t i = 1; i < t->flen; i++)
+			if (tok_fold(&ti->tl, t)[i] < '0' || tok_fold(&ti->tl, t)[i] > '9')
+				return 0;
+		return k + 1;
+	}
+	if (!num_at(ti, k))
+		return 0;
+	e = k + 1;
+	if (!unit_val(ti, e, "post", &len))
+		return 0;
+	return e + len;
+}
+
+/* Is [k, e) at an edge of its segment's kept units, or the whole of a
+ * bracket? */
+static int at_seg_edge(tm_title *ti, size_t k, size_t e)
+{
+	size_t k0, k1;
+	seg_kept(ti, useg(ti, k), &k0, &k1);
+	return k == k0 || e == k1;
+}
+
+int pass_days(tm_title *ti)
+{
+	for (size_t k = 0; k < ti->nunit; k++) {
+		size_t e;
+		int range;
+		if (!ukept(ti, k))
+			continue;
+		if ((e = day_phrase(ti, k, &range))) {
+			/* one day alone is a word (Sunday school); a range or a
+			 * day with its hours, at a segment's edge, is a rota */
+			if (!range || !at_seg_edge(ti, k, e) || last_word(ti, k, e))
+				continue;
+			/* the word that opened the range: "de lunes a sábado" */
+			size_t b = k, l;
+			if (k > 0 && unit_val(ti, k - 1, "connector", &l) && l == 1 &&
+			    at_seg_edge(ti, k - 1, e))
+				b = k - 1;
+			if (remove_units(ti, b, e, NF_HOURS, NULL))
+				return -1;
+			k = e - 1;
+		} else if ((e = head_count(ti, k))) {
+			if (!at_seg_edge(ti, k, e) || last_word(ti, k, e))
+				continue;
+			if (remove_units(ti, k, e, NF_MARKETING, "headcount"))
+				return -1;
+			k = e - 1;
+		}
 	}
 	return 0;
 }
@@ -886,6 +1037,24 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 		if (remove_units(ti, k0, k1, NF_MARKETING, NULL))
 			return -1;
 		*changed = 1;
+	}
+	/* a degree word left at an edge by the phrase it qualified: "fuld
+	 * remote", "cianobair go hiomlán" */
+	seg_kept(ti, s, &k0, &k1);
+	for (k = k0; k < k1; k++) {
+		size_t t0, t1;
+		if (!match_val(ti, k, LC_UNIT, "degree", 1, &len) || k + len > k1 ||
+		    (k != k0 && k + len != k1) || !units_free(ti, k, k + len))
+			continue;
+		t0 = ti->unit[k];
+		t1 = ti->unit[k + len - 1];
+		if (!(k + len == k1 && removed_tok(ti, t1 + 1)) &&
+		    !(k == k0 && t0 > 0 && removed_tok(ti, t0 - 1)))
+			continue;
+		if (remove_units(ti, k, k + len, NF_MARKETING, NULL))
+			return -1;
+		*changed = 1; /* the next round looks again */
+		break;
 	}
 	/* hanging words at the two edges */
 	seg_kept(ti, s, &k0, &k1);

@@ -59,6 +59,14 @@ static void fill(lexicon *lx)
 	add(lx, LC_PAY, "pl", "grupa zaszeregowania", "lead", LW_ANY);
 	add(lx, LC_PAY, "cs", "platová třída", "lead", LW_ANY);
 	add(lx, LC_PAY, "es", "de", "lead", LW_ANY);
+	add(lx, LC_UNIT, "de", "Mo", "weekday", LW_ANY);
+	add(lx, LC_UNIT, "de", "Fr", "weekday", LW_ANY);
+	add(lx, LC_UNIT, "en", "Sunday", "weekday", LW_ANY);
+	add(lx, LC_UNIT, "de", "Uhr", "hours", LW_ANY);
+	add(lx, LC_UNIT, "hu", "heti", "week", LW_ANY);
+	add(lx, LC_UNIT, "hu", "óra", "hours", LW_ANY);
+	add(lx, LC_UNIT, "de", "Stellen", "post", LW_ANY);
+	add(lx, LC_UNIT, "da", "fuld", "degree", LW_ANY);
 	add(lx, LC_UNIT, "*", "h", "hours", LW_ANY);
 	add(lx, LC_UNIT, "de", "woche", "week", LW_ANY);
 	add(lx, LC_UNIT, "de", "und", "connector", LW_ANY);
@@ -270,6 +278,22 @@ static void test_grade(void **state)
 	title_is("E 12", "e 12");
 }
 
+static void test_rota(void **state)
+{
+	(void)state;
+	title_is("Koch – Mo–Fr 7–15 Uhr", "koch");
+	title_is("Koch – Mo-Fr", "koch");
+	title_is("Koch (Mo–Fr 08.00–16.30 Uhr)", "koch");
+	title_is("Pracovník – heti 40 óra", "pracovník");
+	title_is("Koch (3 Stellen)", "koch");
+	title_is("Koch x2", "koch");
+	title_is("Koch – fuld remote", "koch");
+	/* one day alone is a word; a head count inside the title stays */
+	title_is("Sunday School Teacher", "sunday school teacher");
+	title_is("Koch 3 Stellen Mo", "koch 3 stellen mo");
+	title_is("Mo–Fr", "mo-fr");
+}
+
 static void test_employer(void **state)
 {
 	(void)state;
@@ -305,6 +329,7 @@ int main(void)
 		cmocka_unit_test(test_places),
 		cmocka_unit_test(test_noise),
 		cmocka_unit_test(test_grade),
+		cmocka_unit_test(test_rota),
 		cmocka_unit_test(test_employer),
 		cmocka_unit_test(test_text_forms),
 	};
