@@ -1076,6 +1076,34 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 	return 0;
 }
 
+/* A number is never the whole title once the words around it went: "TVöD
+ * 9", "Vollzeit 9" leave no "9" (a grade or an amount without its word).
+ * A title that was a number and nothing else stays as it was. */
+static int lone_numbers(tm_title *ti)
+{
+	size_t k, first = SIZE_MAX;
+	int pay = 0;
+	if (!ti->nspan)
+		return 0;
+	for (k = 0; k < ti->nunit; k++) {
+		if (!ukept(ti, k))
+			continue;
+		if (U(ti, k)->kind == TK_WORD)
+			return 0;
+		if (U(ti, k)->kind == TK_NUM && first == SIZE_MAX)
+			first = k;
+	}
+	if (first == SIZE_MAX)
+		return 0;
+	for (size_t i = 0; i < ti->nspan; i++)
+		pay |= ti->spans[i].kind == NF_PAY;
+	for (k = first; k < ti->nunit; k++)
+		if (ukept(ti, k) && !ti->prot[ti->unit[k]] &&
+		    remove_units(ti, k, k + 1, pay ? NF_PAY : NF_MARKETING, NULL))
+			return -1;
+	return 0;
+}
+
 int pass_phrases(tm_title *ti)
 {
 	int changed = 1, rounds = 0;
@@ -1086,5 +1114,5 @@ int pass_phrases(tm_title *ti)
 			if (peel_segment(ti, s, &changed))
 				return -1;
 	}
-	return 0;
+	return lone_numbers(ti);
 }

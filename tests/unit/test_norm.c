@@ -276,6 +276,10 @@ static void test_grade(void **state)
 	title_is("Band 6", "band 6");
 	title_is("Albañil oficial de 1ª", "albañil oficial de 1a");
 	title_is("E 12", "e 12");
+	/* a number is never the whole title once its words went */
+	title_is("TVöD 9", "");
+	title_is("9 – Vollzeit", "");
+	title_is("9", "9");
 }
 
 static void test_rota(void **state)
