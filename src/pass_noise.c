@@ -568,7 +568,7 @@ static size_t grade_word(tm_title *ti, size_t k, size_t k0)
  * TV-L) or a capitalised abbreviation (CCNL, CAO, BBesO) with what follows
  * it to the segment's end, at most GRADE_TAIL_MAX units in all.  Returns
  * the end (exclusive), k when there is none. */
-static size_t grade_tail(tm_title *ti, size_t k, size_t k1)
+static size_t grade_tail(tm_title *ti, size_t k, size_t k1, int link)
 {
 	size_t len;
 	const tm_tok *t;
@@ -577,9 +577,10 @@ static size_t grade_tail(tm_title *ti, size_t k, size_t k1)
 	if (match_val(ti, k, LC_PAY, "phrase", 1, &len) && k + len <= k1)
 		return k + len == k1 || k1 - k <= GRADE_TAIL_MAX ? k1 : k + len;
 	t = U(ti, k);
-	/* a short linking word before the name: "nível 15 da TRU" */
-	if (k + 1 < k1 && t->kind == TK_WORD && !(t->flags & TF_CAP) && t->len <= 3 &&
-	    grade_tail(ti, k + 1, k1) == k1 && units_free(ti, k, k1))
+	/* a short linking word before the name: "nível 15 da TRU" (one, so
+	 * that the look-ahead stays bounded) */
+	if (link && k + 1 < k1 && t->kind == TK_WORD && !(t->flags & TF_CAP) &&
+	    t->len <= 3 && grade_tail(ti, k + 1, k1, 0) == k1 && units_free(ti, k, k1))
 		return k1;
 	if (t->kind == TK_WORD && (t->flags & TF_CAP) &&
 	    (t->flags & (TF_ALLCAPS | TF_CAPSUF | TF_DIGIT) || t->len <= 6) &&
@@ -631,7 +632,7 @@ static int grade_segment(tm_title *ti, size_t s)
 		for (k = k0; k < k1; k += len) {
 			size_t w = grade_word(ti, k, k0);
 			if (!(len = grade_part(ti, k, k0))) {
-				size_t e = words ? grade_tail(ti, k, k1) : k;
+				size_t e = words ? grade_tail(ti, k, k1, 1) : k;
 				/* the name after an abbreviation: "CCNL Commercio" */
 				if (words && k > k0 && (U(ti, k - 1)->flags & TF_ALLCAPS) &&
 				    k1 - k <= GRADE_TAIL_MAX && units_free(ti, k, k1))
@@ -655,7 +656,7 @@ static int grade_segment(tm_title *ti, size_t s)
 		e = k + len + 1;
 		while (e < k1 && grade_code(ti, e))
 			e++;
-		e = grade_tail(ti, e, k1);
+		e = grade_tail(ti, e, k1, 1);
 		if (e != k1)
 			continue;
 		start = k;
