@@ -20,6 +20,18 @@ static size_t ndigits(const tm_title *ti, const tm_tok *t)
 	return d;
 }
 
+/* The value of the leading digits of number token t, read inside the
+ * token only (the prepared text is not cut after it), saturating at
+ * 100000. */
+static unsigned lead_value(const tm_title *ti, const tm_tok *t)
+{
+	const char *p = ti->text + t->off;
+	unsigned v = 0;
+	for (uint32_t i = 0; i < t->len && p[i] >= '0' && p[i] <= '9'; i++)
+		v = v < 100000 ? v * 10 + (unsigned)(p[i] - '0') : v;
+	return v;
+}
+
 /* Last token of the run glued to token t (no whitespace). */
 static size_t glued_end(const tm_title *ti, size_t t)
 {
@@ -627,8 +639,8 @@ static int grade_segment(tm_title *ti, size_t s)
 	seg_kept(ti, s, &k0, &k1);
 	if (k0 >= k1)
 		return 0;
-	/* the whole segment */
-	if (g->bracket || g->index != 0) {
+	/* the whole segment (or the head going on after a bracket) */
+	if (g->bracket || g->index != 0 || g->resumed) {
 		for (k = k0; k < k1; k += len) {
 			size_t w = grade_word(ti, k, k0);
 			if (!(len = grade_part(ti, k, k0))) {
@@ -744,7 +756,7 @@ int pass_schedule(tm_title *ti)
 				e += l2;
 			else {
 				const tm_seg *g = &ti->segs[useg(ti, k)];
-				int hv = atoi(ti->text + U(ti, k)->off);
+				unsigned hv = lead_value(ti, U(ti, k));
 				e = j + len;
 				/* 35h, 32 uur, 38 Stunden are weekly hours
 				 * wherever they stand (not 24h, a kind of care);
@@ -793,7 +805,7 @@ static size_t clock_time(tm_title *ti, size_t k)
 {
 	size_t len;
 	if (!num_at(ti, k) || ndigits(ti, U(ti, k)) > 4 ||
-	    atoi(ti->text + U(ti, k)->off) > 24)
+	    lead_value(ti, U(ti, k)) > 24)
 		return 0;
 	k++;
 	if (num_at(ti, k) && glued(ti, k - 1, k, ":") && U(ti, k)->len == 2)
@@ -826,8 +838,8 @@ static size_t clock_range(tm_title *ti, size_t k)
 
 /* Day names: a weekday, a range of them (Mo–Fr, man–fre, de lunes a
  * sábado, mit-Tnejn sal-Ġimgħa) and the clock range after them.  Returns
- * the end (exclusive) of the day phrase at k, or 0; *range is set when
- * two days or a clock range were found. */
+ * the end (exclusive) of the day phrase at k, or 0; *range has 1 when two
+ * days were found, 2 when a clock range was. */
 static size_t day_phrase(tm_title *ti, size_t k, int *range)
 {
 	size_t len, e, c;
@@ -848,7 +860,7 @@ static size_t day_phrase(tm_title *ti, size_t k, int *range)
 	}
 	if ((c = clock_range(ti, e))) {
 		e = c;
-		*range = 1;
+		*range |= 2;
 	}
 	return e;
 }
@@ -890,7 +902,17 @@ int pass_days(tm_title *ti)
 		int range;
 		if (!ukept(ti, k))
 			continue;
-		if ((e = day_phrase(ti, k, &range))) {
+		e = day_phrase(ti, k, &range);
+		if ((!e || !range) && (ti->ucats[k] & (1u << LC_UNIT))) {
+			/* a short day name of another language ("po–pá",
+			 * "ma–pe") counts when its hours follow */
+			ti->any_lang = 1;
+			e = day_phrase(ti, k, &range);
+			ti->any_lang = 0;
+			if (!(range & 2))
+				e = 0;
+		}
+		if (e) {
 			/* one day alone is a word (Sunday school); a range or a
 			 * day with its hours, at a segment's edge, is a rota */
 			if (!range || !at_seg_edge(ti, k, e) || last_word(ti, k, e))
