@@ -89,7 +89,8 @@ static const char *const v_location[] = {"prep", "before", "after",
 					 "country-code", NULL};
 static const char *const v_unit[] = {"hours", "week", "month", "year", "day", "contact",
 				     "workload", "fte",
-				     "connector", NULL};
+				     "connector", "degree", "weekday", "post",
+				     NULL};
 static const char *const v_occupation[] = {"head", "suffix", "field", NULL};
 static const char *const v_business[] = {"kind", "legal", "article", NULL};
 static const char *const v_none[] = {"-", NULL};

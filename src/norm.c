@@ -281,8 +281,10 @@ static int norm_once(normaliser *nm, const char *src, size_t n, norm_result *res
 	/* each rule runs only where the line holds what it looks for */
 	if (((f & (LF_NUM | LF_DIGITWORD | LF_SYM) || HAS(ti, LC_REFERENCE)) &&
 	     pass_reference(ti)) ||
+	    ((HAS(ti, LC_UNIT) || (f & LF_DIGITWORD)) && pass_days(ti)) ||
 	    ((f & LF_NUM) && (pass_pay(ti) || pass_schedule(ti))) ||
-	    ((f & LF_SYM) && pass_hashtags(ti)))
+	    ((f & LF_SYM) && pass_hashtags(ti)) ||
+	    (HAS(ti, LC_PAY) && pass_grade(ti)))
 		return -1;
 	/* occupation/ and business/ are read by the segment roles alone */
 	unsigned read = ti->lcats & ~(1u << LC_OCCUPATION | 1u << LC_BUSINESS);

@@ -30,12 +30,18 @@
  * segment of its own ("Jönköping, Småland") holds at most
  * ROLE_REGION_MAX words. */
 #define ROLE_REGION_MAX 3
+/* The name of a collective agreement after a grade is at most
+ * GRADE_TAIL_MAX units ("CCNL Commercio", "CAO Gemeenten"): a longer rest
+ * of the segment is not a name. */
+#define GRADE_TAIL_MAX 3
 
 int pass_pii(tm_title *ti);       /* contact data: URLs, e-mail, phones */
 int pass_gender(tm_title *ti);    /* markers, gendered spellings, pairs */
 int pass_reference(tm_title *ti); /* reference codes and dates */
 int pass_pay(tm_title *ti);
+int pass_grade(tm_title *ti);    /* pay scales and grades */
 int pass_schedule(tm_title *ti);  /* hours, workload, durations */
+int pass_days(tm_title *ti);      /* day ranges, clock ranges, head counts */
 int pass_hashtags(tm_title *ti);
 int pass_employer(tm_title *ti);
 int pass_location(tm_title *ti);

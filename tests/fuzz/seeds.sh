@@ -7,7 +7,7 @@ here=$(cd "$(dirname "$0")" && pwd)
 case $target in
 fuzz_norm)
 	i=0
-	{ cut -f2 "$here/../cases/norm.tsv" | tail -n +2; cat "$here/../../examples/titles.txt"; } |
+	{ grep -v "^#" "$here/../cases/norm.tsv" | cut -f2 | tail -n +2; cat "$here/../../examples/titles.txt"; } |
 	while IFS= read -r line; do
 		i=$((i + 1))
 		printf '%s' "$line" > "$out/seed-$i"

@@ -46,6 +46,27 @@ static void fill(lexicon *lx)
 	add(lx, LC_PAY, "de", "bis", "lead", LW_ANY);
 	add(lx, LC_PAY, "fr", "salaire attractif", "phrase", LW_ANY);
 	add(lx, LC_PAY, "*", "h", "unit", LW_ANY);
+	add(lx, LC_PAY, "en", "band", "lead", LW_ANY);
+	add(lx, LC_PAY, "en", "grade", "lead", LW_ANY);
+	add(lx, LC_PAY, "en", "scale", "lead", LW_ANY);
+	add(lx, LC_PAY, "de", "E", "lead", LW_EDGE);
+	add(lx, LC_PAY, "de", "Entgeltstufe", "lead", LW_ANY);
+	add(lx, LC_PAY, "de", "Stufe", "lead", LW_EDGE);
+	add(lx, LC_PAY, "de", "TV-H", "phrase", LW_ANY);
+	add(lx, LC_PAY, "de", "TVöD", "phrase", LW_ANY);
+	add(lx, LC_PAY, "de", "+ Trinkgeld", "phrase", LW_ANY);
+	add(lx, LC_PAY, "de", "Stundenlohn", "phrase", LW_ALONE);
+	add(lx, LC_PAY, "pl", "grupa zaszeregowania", "lead", LW_ANY);
+	add(lx, LC_PAY, "cs", "platová třída", "lead", LW_ANY);
+	add(lx, LC_PAY, "es", "de", "lead", LW_ANY);
+	add(lx, LC_UNIT, "de", "Mo", "weekday", LW_ANY);
+	add(lx, LC_UNIT, "de", "Fr", "weekday", LW_ANY);
+	add(lx, LC_UNIT, "en", "Sunday", "weekday", LW_ANY);
+	add(lx, LC_UNIT, "de", "Uhr", "hours", LW_ANY);
+	add(lx, LC_UNIT, "hu", "heti", "week", LW_ANY);
+	add(lx, LC_UNIT, "hu", "óra", "hours", LW_ANY);
+	add(lx, LC_UNIT, "de", "Stellen", "post", LW_ANY);
+	add(lx, LC_UNIT, "da", "fuld", "degree", LW_ANY);
 	add(lx, LC_UNIT, "*", "h", "hours", LW_ANY);
 	add(lx, LC_UNIT, "de", "woche", "week", LW_ANY);
 	add(lx, LC_UNIT, "de", "und", "connector", LW_ANY);
@@ -316,6 +337,44 @@ static void test_noise(void **state)
 	title_is("Lehrer 2026", "lehrer");
 }
 
+static void test_grade(void **state)
+{
+	(void)state;
+	title_is("Clinical Psychologist - Band 8a", "clinical psychologist");
+	title_is("Policy Officer Grade 7", "policy officer");
+	title_is("Housing Officer – SO1 Scale 6", "housing officer");
+	title_is("Referent Haushalt (m/w/d) – E 12 TV-H", "referent haushalt");
+	title_is("Sachbearbeiter (m/w/d) – E 9a TVöD", "sachbearbeiter");
+	title_is("Laborant (m/w/d) – Entgeltstufe 10, Stufe 2", "laborant");
+	title_is("Referent – grupa zaszeregowania XII", "referent");
+	title_is("Referent – 10. platová třída", "referent");
+	title_is("Kellner – Stundenlohn + Trinkgeld", "kellner");
+	/* a grade is never the whole title, nor a word that leads an amount */
+	title_is("Band 6", "band 6");
+	title_is("Albañil oficial de 1ª", "albañil oficial de 1a");
+	title_is("E 12", "e 12");
+	/* a number is never the whole title once its words went */
+	title_is("TVöD 9", "");
+	title_is("9 – Vollzeit", "");
+	title_is("9", "9");
+}
+
+static void test_rota(void **state)
+{
+	(void)state;
+	title_is("Koch – Mo–Fr 7–15 Uhr", "koch");
+	title_is("Koch – Mo-Fr", "koch");
+	title_is("Koch (Mo–Fr 08.00–16.30 Uhr)", "koch");
+	title_is("Pracovník – heti 40 óra", "pracovník");
+	title_is("Koch (3 Stellen)", "koch");
+	title_is("Koch x2", "koch");
+	title_is("Koch – fuld remote", "koch");
+	/* one day alone is a word; a head count inside the title stays */
+	title_is("Sunday School Teacher", "sunday school teacher");
+	title_is("Koch 3 Stellen Mo", "koch 3 stellen mo");
+	title_is("Mo–Fr", "mo-fr");
+}
+
 static void test_employer(void **state)
 {
 	(void)state;
@@ -436,6 +495,8 @@ int main(void)
 		cmocka_unit_test(test_lang_hint),
 		cmocka_unit_test(test_places),
 		cmocka_unit_test(test_noise),
+		cmocka_unit_test(test_grade),
+		cmocka_unit_test(test_rota),
 		cmocka_unit_test(test_employer),
 		cmocka_unit_test(test_roles),
 		cmocka_unit_test(test_text_forms),
