@@ -48,17 +48,20 @@ static int is_fem(tm_title *ti, const char *a, size_t an, const char *b,
 	int stem = an >= 2 && bn >= 2 && a[0] == b[0] && a[1] == b[1];
 	if (an < 2 || bn < 2)
 		return 0;
+	/* the lengths decide most pairs before any byte is compared */
 	for (i = 0; i < n; i++) {
 		size_t sa, sb;
-		if (!pair_applies(ti, &p[i]))
-			continue;
-		if (!ends_with(a, an, p[i].masc, p[i].mlen) ||
-		    !ends_with(b, bn, p[i].fem, p[i].flen))
+		if (p[i].mlen > an || p[i].flen > bn)
 			continue;
 		sa = an - p[i].mlen;
 		sb = bn - p[i].flen;
-		if (sa == sb && memcmp(a, b, sa) == 0 &&
-		    ((stem && sa >= 2) || (sa == 0 && an >= 3)))
+		if (sa != sb || !((stem && sa >= 2) || (sa == 0 && an >= 3)))
+			continue;
+		if (!pair_applies(ti, &p[i]) ||
+		    !ends_with(a, an, p[i].masc, p[i].mlen) ||
+		    !ends_with(b, bn, p[i].fem, p[i].flen))
+			continue;
+		if (memcmp(a, b, sa) == 0)
 			return 1;
 	}
 	return 0;
