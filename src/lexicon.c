@@ -57,6 +57,10 @@ struct lexicon {
 	tm_buf strs;
 	lex_pair *pairs;
 	size_t npairs, paircap;
+	uint32_t *byfem;     /* pair indices grouped by the feminine ending's
+			      * last byte (group 256: empty ending), in
+			      * file order within a group */
+	uint32_t femat[258]; /* group g: byfem[femat[g]..femat[g+1]) */
 	char **values;   /* interned value strings */
 	char *vslot[VALSLOTS];
 	size_t nvalues, valcap;
@@ -241,6 +245,7 @@ void lex_free(lexicon *lx)
 		free((char *)lx->pairs[i].fem);
 	}
 	free(lx->pairs);
+	free(lx->byfem);
 	for (i = 0; i < lx->nvalues; i++)
 		free(lx->values[i]);
 	free(lx->values);
@@ -416,6 +421,13 @@ const lex_pair *lex_pairs(const lexicon *lx, size_t *n)
 {
 	*n = lx->npairs;
 	return lx->pairs;
+}
+
+const uint32_t *lex_pairs_fem_last(const lexicon *lx, int c, size_t *n)
+{
+	size_t g = c < 0 ? 256 : (unsigned char)c;
+	*n = lx->femat[g + 1] - lx->femat[g];
+	return lx->byfem + lx->femat[g];
 }
 
 static int parse_lang(const char *lang, char out[4], uint8_t *amb)
@@ -685,8 +697,28 @@ static int add_pair(lexicon *lx, const char *lang, const char *masc,
 		return err_printf(err, "out of memory%s%s", "", "");
 	}
 	if (lx->npairs == lx->paircap) {
+		size_t cap = lx->paircap ? lx->paircap * 2 : 64;
+		uint32_t *bf;
 		lx->pairs = p;
-		lx->paircap = lx->paircap ? lx->paircap * 2 : 64;
+		if (!(bf = realloc(lx->byfem, cap * sizeof *bf))) {
+			free(m);
+			free(f);
+			return err_printf(err, "out of memory%s%s", "", "");
+		}
+		lx->byfem = bf;
+		lx->paircap = cap;
+	}
+	{
+		/* the new pair goes to the end of its group (the ending
+		 * as stored: at most 255 bytes) */
+		size_t fe = strlen(f) > 255 ? 255 : strlen(f);
+		size_t c = fe ? (unsigned char)f[fe - 1] : 256;
+		uint32_t at = lx->femat[c + 1];
+		memmove(lx->byfem + at + 1, lx->byfem + at,
+			(lx->npairs - at) * sizeof *lx->byfem);
+		lx->byfem[at] = (uint32_t)lx->npairs;
+		for (size_t g = c + 1; g <= 257; g++)
+			lx->femat[g]++;
 	}
 	p = &lx->pairs[lx->npairs++];
 	memcpy(p->lang, lg, sizeof lg);

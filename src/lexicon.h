@@ -114,6 +114,11 @@ const lex_entry *lex_entry_at(const lexicon *lx, size_t i);
 
 const lex_pair *lex_pairs(const lexicon *lx, size_t *n);
 
+/* The indices into lex_pairs() of the pairs whose feminine ending ends
+ * with byte c (0..255; -1: the pairs with an empty ending), in file
+ * order; *n of them.  Owned by the lexicon. */
+const uint32_t *lex_pairs_fem_last(const lexicon *lx, int c, size_t *n);
+
 /* The folder name of a category ("seniority"). */
 const char *lex_cat_name(int cat);
 

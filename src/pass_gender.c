@@ -38,32 +38,42 @@ static int is_suffix(tm_title *ti, const char *a, size_t an, const char *b,
 }
 
 /* b is the feminine form of a (both whole words). */
+static int fem_pair(tm_title *ti, const lex_pair *q, const char *a,
+		    size_t an, const char *b, size_t bn, int stem)
+{
+	size_t sa, sb;
+	/* the lengths decide most pairs before any byte is compared */
+	if (q->mlen > an || q->flen > bn)
+		return 0;
+	sa = an - q->mlen;
+	sb = bn - q->flen;
+	if (sa != sb || !((stem && sa >= 2) || (sa == 0 && an >= 3)))
+		return 0;
+	return pair_applies(ti, q) && ends_with(a, an, q->masc, q->mlen) &&
+	       ends_with(b, bn, q->fem, q->flen) && memcmp(a, b, sa) == 0;
+}
+
+/* Only the pairs whose feminine ending ends as b does (or is empty) can
+ * fit; any one that fits decides. */
 static int is_fem(tm_title *ti, const char *a, size_t an, const char *b,
 		  size_t bn)
 {
-	size_t n, i;
+	size_t n, m, i;
 	const lex_pair *p = lex_pairs(ti->lx, &n);
+	const uint32_t *g;
 	/* the two share a stem of two letters at least, or a pair lists
 	 * them whole (tjener/servitrice, číšník/servírka) */
 	int stem = an >= 2 && bn >= 2 && a[0] == b[0] && a[1] == b[1];
 	if (an < 2 || bn < 2)
 		return 0;
-	/* the lengths decide most pairs before any byte is compared */
-	for (i = 0; i < n; i++) {
-		size_t sa, sb;
-		if (p[i].mlen > an || p[i].flen > bn)
-			continue;
-		sa = an - p[i].mlen;
-		sb = bn - p[i].flen;
-		if (sa != sb || !((stem && sa >= 2) || (sa == 0 && an >= 3)))
-			continue;
-		if (!pair_applies(ti, &p[i]) ||
-		    !ends_with(a, an, p[i].masc, p[i].mlen) ||
-		    !ends_with(b, bn, p[i].fem, p[i].flen))
-			continue;
-		if (memcmp(a, b, sa) == 0)
+	g = lex_pairs_fem_last(ti->lx, (unsigned char)b[bn - 1], &m);
+	for (i = 0; i < m; i++)
+		if (fem_pair(ti, &p[g[i]], a, an, b, bn, stem))
 			return 1;
-	}
+	g = lex_pairs_fem_last(ti->lx, -1, &m);
+	for (i = 0; i < m; i++)
+		if (fem_pair(ti, &p[g[i]], a, an, b, bn, stem))
+			return 1;
 	return 0;
 }
 
