@@ -313,14 +313,16 @@ static int markers(tm_title *ti)
  * when the title's language has none. */
 static const lex_pair *at_pair(tm_title *ti)
 {
-	size_t n, i;
-	const lex_pair *p = lex_pairs(ti->lx, &n), *any = NULL;
-	/* the title's language's own, or any when none is given */
-	for (i = 0; i < n; i++)
-		if (p[i].flen == 1 && p[i].fem[0] == '@' && !any &&
-		    (!ti->lang || !strcmp(p[i].lang, ti->lang)))
-			any = &p[i];
-	return any;
+	size_t n, m, i;
+	const lex_pair *p = lex_pairs(ti->lx, &n);
+	/* the first in file order of those ending in "@": the title's
+	 * language's own, or any when none is given */
+	const uint32_t *g = lex_pairs_fem_last(ti->lx, '@', &m);
+	for (i = 0; i < m; i++)
+		if (p[g[i]].flen == 1 &&
+		    (!ti->lang || !strcmp(p[g[i]].lang, ti->lang)))
+			return &p[g[i]];
+	return NULL;
 }
 
 /* Is a (an bytes) already a whole masculine form: it ends with a
