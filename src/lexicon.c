@@ -778,8 +778,11 @@ int lex_load_file(lexicon *lx, int cat, int gk, const char *path, tm_buf *err)
 		fclose(fp);
 		return err_printf(err, "%s: out of memory%s", path, "");
 	}
+	/* grown only when full: a file read whole at its size is not
+	 * copied again, and the read that finds the end leaves a byte free
+	 * for the last line's terminator */
 	for (;;) {
-		if (text.cap - text.len < 65536 && buf_reserve(&text, 65536) != 0) {
+		if (text.cap == text.len && buf_reserve(&text, 65536) != 0) {
 			fclose(fp);
 			buf_free(&text);
 			return err_printf(err, "%s: out of memory%s", path, "");
