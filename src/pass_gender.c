@@ -25,13 +25,17 @@ static int ends_with(const char *s, size_t n, const char *e, size_t m)
 static int is_suffix(tm_title *ti, const char *a, size_t an, const char *b,
 		     size_t bn, int strict)
 {
-	size_t n, i;
+	size_t n, m, i;
 	const lex_pair *p = lex_pairs(ti->lx, &n);
-	for (i = 0; i < n; i++) {
-		if (!pair_applies(ti, &p[i]) || p[i].flen != bn ||
-		    memcmp(p[i].fem, b, bn) || (strict && (!p[i].mlen || bn < 2)))
+	/* only the pairs whose ending ends as b does can be b; any decides */
+	const uint32_t *g = lex_pairs_fem_last(ti->lx,
+					       bn ? (unsigned char)b[bn - 1] : -1, &m);
+	for (i = 0; i < m; i++) {
+		const lex_pair *q = &p[g[i]];
+		if (!pair_applies(ti, q) || q->flen != bn ||
+		    memcmp(q->fem, b, bn) || (strict && (!q->mlen || bn < 2)))
 			continue;
-		if (ends_with(a, an, p[i].masc, p[i].mlen) && an >= (size_t)p[i].mlen + 2)
+		if (ends_with(a, an, q->masc, q->mlen) && an >= (size_t)q->mlen + 2)
 			return 1;
 	}
 	return 0;
