@@ -5,6 +5,7 @@
 #   make asan         the unit tests and suites built with ASan+UBSan
 #   make valgrind     memcheck over the normaliser and tally paths
 #   make bench        the benchmarks (not tests: figures, not verdicts)
+#   make deps         install the Debian packages of .ci/packages (sudo unless root)
 #   make demo         run the main job on the bundled example data
 #   make install      PREFIX=/usr/local DESTDIR= : binary, lexicons, man page
 
@@ -17,10 +18,10 @@ VERSION = 0.1.0
 CC ?= cc
 PKG_CONFIG ?= pkg-config
 LIBS_PC = libutf8proc jansson hiredis serd-0
-PC_CFLAGS := $(shell $(PKG_CONFIG) --cflags $(LIBS_PC))
-PC_LIBS := $(shell $(PKG_CONFIG) --libs $(LIBS_PC))
-CMOCKA_CFLAGS := $(shell $(PKG_CONFIG) --cflags cmocka)
-CMOCKA_LIBS := $(shell $(PKG_CONFIG) --libs cmocka)
+PC_CFLAGS := $(shell $(PKG_CONFIG) --cflags $(LIBS_PC) 2>/dev/null)
+PC_LIBS := $(shell $(PKG_CONFIG) --libs $(LIBS_PC) 2>/dev/null)
+CMOCKA_CFLAGS := $(shell $(PKG_CONFIG) --cflags cmocka 2>/dev/null)
+CMOCKA_LIBS := $(shell $(PKG_CONFIG) --libs cmocka 2>/dev/null)
 
 WARN = -Wall -Wextra -Wpedantic -Wshadow -Wstrict-prototypes -Wmissing-prototypes
 OPT ?= -O2 -g
@@ -119,6 +120,12 @@ bench: titlemill
 	sh tests/bench/cluster.sh $(CURDIR)/titlemill
 	sh tests/bench/rank.sh $(CURDIR)/titlemill
 
+# The Debian 12 packages of .ci/packages: through sudo unless already root.
+SUDO := $(if $(filter 0,$(shell id -u)),,sudo)
+deps:
+	$(SUDO) apt-get update -qq
+	$(SUDO) apt-get install -y $$(cat .ci/packages)
+
 demo: titlemill
 	sh examples/demo.sh $(CURDIR)/titlemill
 
@@ -138,4 +145,4 @@ clean:
 
 .SECONDARY:
 
-.PHONY: fuzz fuzz-build all unit test asan titlemill-asan-bin valgrind bench demo install uninstall clean
+.PHONY: fuzz fuzz-build all unit test asan titlemill-asan-bin valgrind bench deps demo install uninstall clean
