@@ -1183,11 +1183,20 @@ int pass_phrases(tm_title *ti)
 {
 	int changed = 1, rounds = 0;
 
+	/* nothing removed since the last call ended at its fixpoint: a
+	 * round would find nothing again (the rules read nothing else that
+	 * changes), and neither would lone_numbers */
+	if (ti->peeled == ti->gen)
+		return 0;
 	while (changed && rounds++ < 64) {
 		changed = 0;
 		for (size_t s = 0; s < ti->nseg; s++)
 			if (peel_segment(ti, s, &changed))
 				return -1;
 	}
-	return lone_numbers(ti);
+	if (lone_numbers(ti))
+		return -1;
+	if (!changed)
+		ti->peeled = ti->gen;
+	return 0;
 }

@@ -126,6 +126,7 @@ int title_scan(tm_title *ti)
 
 	ti->nann = 0;
 	ti->lcats = 0;
+	ti->peeled = 0; /* new annotations: pass_phrases looks again */
 	ti->nextk[ti->nunit] = (uint32_t)ti->nunit;
 	for (size_t k = ti->nunit; k-- > 0;)
 		ti->nextk[k] = ti->rm[ti->unit[k]] == NF_GENDER ? ti->nextk[k + 1] : (uint32_t)k;
@@ -272,17 +273,11 @@ int units_free(tm_title *ti, size_t k0, size_t k1)
 	return 1;
 }
 
-void seg_kept(tm_title *ti, size_t s, size_t *k0, size_t *k1)
+void seg_kept_(tm_title *ti, size_t s, size_t *k0, size_t *k1)
 {
 	tm_seg *g = &ti->segs[s];
 	size_t a = g->u0, b = g->u1;
 
-	/* remembered until the next removal */
-	if (g->gen == ti->gen) {
-		*k0 = g->k0;
-		*k1 = g->k1;
-		return;
-	}
 	/* units are only ever removed: go on from the last answer (from
 	 * the segment's ends each time, peeling "ab sofort " x 10,000 off
 	 * an edge was quadratic) */

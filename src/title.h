@@ -77,6 +77,7 @@ typedef struct tm_title {
 	const char *lang; /* primary subtag, or NULL */
 	int any_lang;     /* while set, ambiguous entries apply too */
 	uint64_t gen;     /* bumped by every removal (seg_kept's memory) */
+	uint64_t peeled;  /* gen when pass_phrases last found nothing more */
 	/* per token */
 	uint8_t *rm;      /* enum nf_kind, RM_NONE when kept */
 	uint8_t *prot;
@@ -187,7 +188,18 @@ int remove_units(tm_title *ti, size_t k0, size_t k1, int kind,
 int units_free(tm_title *ti, size_t k0, size_t k1); /* kept and unprotected */
 
 /* First and one-past-last kept unit of segment s (k0 == k1 when empty). */
-void seg_kept(tm_title *ti, size_t s, size_t *k0, size_t *k1);
+void seg_kept_(tm_title *ti, size_t s, size_t *k0, size_t *k1);
+static inline void seg_kept(tm_title *ti, size_t s, size_t *k0, size_t *k1)
+{
+	const tm_seg *g = &ti->segs[s];
+	/* remembered until the next removal */
+	if (g->gen == ti->gen) {
+		*k0 = g->k0;
+		*k1 = g->k1;
+		return;
+	}
+	seg_kept_(ti, s, k0, k1);
+}
 
 /* Are units a and b (a < b) glued: no whitespace and only the given
  * punctuation characters between them? */

@@ -25,16 +25,22 @@ uint64_t tok_hash(const char *s, size_t n)
 	return h ^ (h >> 29);
 }
 
-static tm_tok *push(tok_line *tl)
+static int grow(tok_line *tl)
 {
-	if (tl->n == tl->cap) {
-		size_t cap = tl->cap ? tl->cap * 2 : 64;
-		tm_tok *p = realloc(tl->t, cap * sizeof *p);
-		if (!p)
-			return NULL;
-		tl->t = p;
-		tl->cap = cap;
-	}
+	size_t cap = tl->cap ? tl->cap * 2 : 64;
+	tm_tok *p = realloc(tl->t, cap * sizeof *p);
+	if (!p)
+		return -1;
+	tl->t = p;
+	tl->cap = cap;
+	return 0;
+}
+
+/* A new zeroed token (inline: a title has a token every few bytes). */
+static inline tm_tok *push(tok_line *tl)
+{
+	if (tl->n == tl->cap && grow(tl) != 0)
+		return NULL;
 	tm_tok *t = &tl->t[tl->n++];
 	*t = (tm_tok){0};
 	return t;
@@ -68,12 +74,21 @@ static const unsigned char ascii_class[128] = {
 #undef S
 };
 
-/* Class of the code point at s[i] without advancing; *cc receives the
- * class with its case bits. */
-static enum uni_class peekc(uni_ctx *u, const char *s, size_t n, size_t i,
-			    int32_t *cp, int *cc)
+/* peekc past ASCII. */
+static enum uni_class peekc_utf8(uni_ctx *u, const char *s, size_t n, size_t i,
+				 int32_t *cp, int *cc)
 {
 	size_t j = i;
+	*cp = uni_next(s, n, &j);
+	*cc = uni_class_case(u, *cp);
+	return (enum uni_class)(*cc & 0x0F);
+}
+
+/* Class of the code point at s[i] without advancing; *cc receives the
+ * class with its case bits.  Inline for ASCII, most of most titles. */
+static inline enum uni_class peekc(uni_ctx *u, const char *s, size_t n, size_t i,
+				   int32_t *cp, int *cc)
+{
 	unsigned char c;
 
 	if (i >= n) {
@@ -88,9 +103,7 @@ static enum uni_class peekc(uni_ctx *u, const char *s, size_t n, size_t i,
 		      (c >= 'a' && c <= 'z' ? UNI_LOW : 0);
 		return (enum uni_class)ascii_class[c];
 	}
-	*cp = uni_next(s, n, &j);
-	*cc = uni_class_case(u, *cp);
-	return (enum uni_class)(*cc & 0x0F);
+	return peekc_utf8(u, s, n, i, cp, cc);
 }
 
 static size_t cp_len(const char *s, size_t n, size_t i)
@@ -349,7 +362,8 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 			/* ASCII: lowercase and hash in one go */
 			uint64_t h = 0xCBF29CE484222325ULL;
 			char *d;
-			if (buf_reserve(&tl->fold, t->len) != 0)
+			if (tl->fold.cap - tl->fold.len < t->len &&
+			    buf_reserve(&tl->fold, t->len) != 0)
 				return -1;
 			d = tl->fold.data + tl->fold.len;
 			for (size_t j = 0; j < t->len; j++) {
