@@ -239,6 +239,25 @@ static int ascii_only(const char *s, size_t n)
 	return 1;
 }
 
+/* The prepared form of each ASCII byte: controls become spaces, the
+ * backtick an apostrophe (title_map does the same for the general path). */
+static const unsigned char ascii_prep[128] = {
+	0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20,
+	0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20, 0x20,
+	0x20, 0x21, 0x22, 0x23, 0x24, 0x25, 0x26, 0x27, 0x28, 0x29, 0x2A, 0x2B, 0x2C, 0x2D, 0x2E, 0x2F,
+	0x30, 0x31, 0x32, 0x33, 0x34, 0x35, 0x36, 0x37, 0x38, 0x39, 0x3A, 0x3B, 0x3C, 0x3D, 0x3E, 0x3F,
+	0x40, 0x41, 0x42, 0x43, 0x44, 0x45, 0x46, 0x47, 0x48, 0x49, 0x4A, 0x4B, 0x4C, 0x4D, 0x4E, 0x4F,
+	0x50, 0x51, 0x52, 0x53, 0x54, 0x55, 0x56, 0x57, 0x58, 0x59, 0x5A, 0x5B, 0x5C, 0x5D, 0x5E, 0x5F,
+	0x27, 0x61, 0x62, 0x63, 0x64, 0x65, 0x66, 0x67, 0x68, 0x69, 0x6A, 0x6B, 0x6C, 0x6D, 0x6E, 0x6F,
+	0x70, 0x71, 0x72, 0x73, 0x74, 0x75, 0x76, 0x77, 0x78, 0x79, 0x7A, 0x7B, 0x7C, 0x7D, 0x7E, 0x20,
+};
+
+static inline unsigned char ascii_fold(unsigned char c)
+{
+	c = ascii_prep[c];
+	return (unsigned char)(c + ((unsigned)(c - 'A') < 26u) * 32);
+}
+
 /* Fast-table index of a code point, or -1.  Letters of Latin-1 and
  * Latin Extended-A never combine with what follows them, so their NFKC
  * (and fold) is the same alone as in a line; the same holds for the
@@ -250,6 +269,8 @@ static int fast_index(int32_t cp)
 					0x2026, 0x2010, 0x2011, 0x00B7, 0x2212, 0x200B};
 	if (cp < 0x180)
 		return cp;
+	if (cp < 0x200B || cp > 0x2212)
+		return -1;
 	for (int i = 0; i < (int)(sizeof extra / sizeof extra[0]); i++)
 		if (extra[i] == cp)
 			return 0x180 + i;
@@ -316,13 +337,22 @@ static int fast_map(uni_ctx *u, const char *s, size_t n, tm_buf *out, int fold)
 	while (i < n) {
 		unsigned char b = (unsigned char)s[i];
 		if (b < 0x80) {
-			/* ASCII: the tables hold the same as the ASCII path */
-			if (out->cap - out->len < 4 && buf_reserve(out, 4) != 0)
+			/* a run of ASCII at once: the tables hold the same as
+			 * the ASCII path */
+			size_t e = i + 1;
+			while (e < n && (unsigned char)s[e] < 0x80)
+				e++;
+			if (out->cap - out->len < e - i && buf_reserve(out, e - i) != 0)
 				return -1;
-			out->data[out->len++] = (char)(b < 0x20 || b == 0x7F ? ' '
-						  : b == '`' ? '\''
-						  : fold && b >= 'A' && b <= 'Z' ? b + 32 : b);
-			i++;
+			char *d = out->data + out->len;
+			if (fold)
+				for (size_t k = i; k < e; k++)
+					*d++ = (char)ascii_fold((unsigned char)s[k]);
+			else
+				for (size_t k = i; k < e; k++)
+					*d++ = (char)ascii_prep[(unsigned char)s[k]];
+			out->len += e - i;
+			i = e;
 			continue;
 		}
 		size_t j = i;
@@ -370,10 +400,8 @@ static int slow_prepare(uni_ctx *u, const char *s, size_t n, tm_buf *out)
 		if (buf_reserve(out, n) != 0)
 			return -1;
 		char *d = out->data + out->len;
-		for (size_t i = 0; i < n; i++) {
-			unsigned char c = (unsigned char)s[i];
-			d[i] = (char)(c < 0x20 || c == 0x7F ? ' ' : c == '`' ? '\'' : c);
-		}
+		for (size_t i = 0; i < n; i++)
+			d[i] = (char)ascii_prep[(unsigned char)s[i]];
 		out->len += n;
 		return 0;
 	}
@@ -392,12 +420,8 @@ static int slow_fold(uni_ctx *u, const char *s, size_t n, tm_buf *out)
 		if (buf_reserve(out, n) != 0)
 			return -1;
 		char *d = out->data + out->len;
-		for (i = 0; i < n; i++) {
-			unsigned char c = (unsigned char)s[i];
-			d[i] = (char)(c < 0x20 || c == 0x7F ? ' '
-				      : c == '`' ? '\''
-				      : c >= 'A' && c <= 'Z' ? c + 32 : c);
-		}
+		for (i = 0; i < n; i++)
+			d[i] = (char)ascii_fold((unsigned char)s[i]);
 		out->len += n;
 		return 0;
 	}
