@@ -20,15 +20,7 @@ static int cap_word(tm_title *ti, size_t k)
 
 int all_caps_line(tm_title *ti)
 {
-	size_t words = 0, caps = 0;
-	for (size_t k = 0; k < ti->nunit; k++) {
-		const tm_tok *t = U(ti, k);
-		if (t->kind != TK_WORD || t->len < 2)
-			continue;
-		words++;
-		caps += (t->flags & TF_ALLCAPS) != 0;
-	}
-	return words >= 2 && caps * 5 >= words * 4;
+	return ti->caps; /* counted by title_build */
 }
 
 static int loc_word(tm_title *ti, size_t k, const char *value, size_t *len);

@@ -86,6 +86,46 @@ int entry_applies(const tm_title *ti, const lex_entry *e)
 	return ti->lang && strcmp(e->lang, ti->lang) == 0;
 }
 
+/* The slot remembering token x's lookups, or NULL when x is not
+ * remembered (too long, or no memory). */
+static tm_wordmem *wordmem(tm_title *ti, const tm_tok *x)
+{
+	if (!ti->wmem || x->flen > TITLE_WORDMEM_FOLD || !x->flen)
+		return NULL;
+	tm_wordmem *m = &ti->wmem[x->hash & ((1u << TITLE_WORDMEM_BITS) - 1)];
+	const char *f = tok_fold(&ti->tl, x);
+	if (m->flen != x->flen || m->hash != x->hash || memcmp(m->fold, f, x->flen)) {
+		m->hash = x->hash;
+		m->flen = (uint8_t)x->flen;
+		memcpy(m->fold, f, x->flen);
+		m->word = lex_word(ti->lx, f, x->flen, x->hash);
+		m->ended = 0;
+	}
+	return m;
+}
+
+/* lex_word of token x, remembered. */
+static uint32_t word_of(tm_title *ti, const tm_tok *x)
+{
+	const tm_wordmem *m = wordmem(ti, x);
+	return m ? m->word : lex_word(ti->lx, tok_fold(&ti->tl, x), x->flen, x->hash);
+}
+
+/* lex_ending of token x, remembered. */
+static const lex_entry *ending_of(tm_title *ti, const tm_tok *x)
+{
+	tm_wordmem *m = wordmem(ti, x);
+	size_t elen;
+	if (!m)
+		return lex_ending(ti->lx, tok_fold(&ti->tl, x), x->flen, &elen);
+	if (!m->ended) {
+		const lex_entry *e = lex_ending(ti->lx, m->fold, m->flen, &elen);
+		m->ending = e ? (uint32_t)lex_entry_index(ti->lx, e) + 1 : 0;
+		m->ended = 1;
+	}
+	return m->ending ? lex_entry_at(ti->lx, m->ending - 1) : NULL;
+}
+
 #define MAXPH 12 /* units of the longest phrase (lex_add's limit) */
 
 /* Records a phrase (or an ending) of `units` units at the current unit,
@@ -164,9 +204,7 @@ int title_scan(tm_title *ti)
 		/* a word with an occupational ending: Lagerfachkraft */
 		const tm_tok *t = U(ti, k);
 		const lex_entry *e;
-		size_t elen;
-		if (t->kind == TK_WORD &&
-		    (e = lex_ending(ti->lx, tok_fold(&ti->tl, t), t->flen, &elen)) &&
+		if (t->kind == TK_WORD && (e = ending_of(ti, t)) &&
 		    push_ann(ti, k, e, 1u << LC_OCCUPATION, 1))
 			return -1;
 	}
@@ -320,12 +358,21 @@ int title_build(tm_title *ti)
 
 	if (grow_arrays(ti, tl->n + 1) != 0)
 		return -1;
+	if (ti->wmem_lx != ti->lx) {
+		/* remembered for one lexicon: forget on a change */
+		if (!ti->wmem && !(ti->wmem = malloc(sizeof *ti->wmem << TITLE_WORDMEM_BITS)))
+			return -1;
+		for (size_t i = 0; i < (size_t)1 << TITLE_WORDMEM_BITS; i++)
+			ti->wmem[i].flen = 0;
+		ti->wmem_lx = ti->lx;
+	}
 	memset(ti->rm, RM_NONE, tl->n);
 	memset(ti->prot, 0, tl->n);
 	ti->nunit = ti->nseg = ti->nspan = 0;
 	ti->gen++;
 	ti->lflags = 0;
 	int head_seen = 0;
+	size_t words = 0, caps = 0;
 	for (t = 0; t < tl->n; t++) {
 		tm_tok *x = &tl->t[t];
 		ti->tunit[t] = UINT32_MAX;
@@ -406,10 +453,16 @@ int title_build(tm_title *ti)
 		}
 		ti->tseg[t] = cur;
 		ti->tunit[t] = (uint32_t)ti->nunit;
-		ti->uword[ti->nunit] = lex_word(ti->lx, tok_fold(tl, x), x->flen, x->hash);
+		ti->uword[ti->nunit] = word_of(ti, x);
 		ti->unit[ti->nunit++] = (uint32_t)t;
 		ti->segs[cur].u1 = (uint32_t)ti->nunit;
+		if (x->kind == TK_WORD && x->len >= 2) {
+			words++;
+			caps += (x->flags & TF_ALLCAPS) != 0;
+		}
 	}
+	/* the units never change after this: all_caps_line answers from here */
+	ti->caps = words >= 2 && caps * 5 >= words * 4;
 	return 0;
 }
 
@@ -466,5 +519,6 @@ void title_free(tm_title *ti)
 	free(ti->ucats);
 	free(ti->nextk);
 	free(ti->uword);
+	free(ti->wmem);
 	memset(ti, 0, sizeof *ti);
 }

@@ -70,6 +70,22 @@ typedef struct tm_ann {
 	uint32_t cats;
 } tm_ann;
 
+/* One remembered word lookup (lex_word, lex_ending) of a fold: the words
+ * of job titles repeat from line to line, and the lexicon's tables are
+ * far larger than a processor's cache.  Direct-mapped by the fold's
+ * hash, the fold kept to tell words apart; words longer than
+ * TITLE_WORDMEM_FOLD bytes are looked up every time. */
+#define TITLE_WORDMEM_BITS 12
+#define TITLE_WORDMEM_FOLD 22
+typedef struct tm_wordmem {
+	uint64_t hash;
+	uint32_t word;    /* lex_word */
+	uint32_t ending;  /* 1 + lex_entry_index of lex_ending, 0: none */
+	uint8_t flen;     /* 0: an empty slot */
+	uint8_t ended;    /* ending looked up */
+	char fold[TITLE_WORDMEM_FOLD];
+} tm_wordmem;
+
 typedef struct tm_title {
 	const lexicon *lx;
 	const char *text; /* the prepared line the tokens point into */
@@ -107,6 +123,9 @@ typedef struct tm_title {
 	uint32_t *aoff;
 	uint32_t *ucats;  /* categories of all phrases starting at each unit */
 	uint32_t *nextk;  /* the first unit from each that the gender rule kept */
+	tm_wordmem *wmem; /* 1 << TITLE_WORDMEM_BITS slots, for lx */
+	const lexicon *wmem_lx;
+	uint8_t caps;     /* all_caps_line: most words of the line in capitals */
 	unsigned lcats;   /* all categories of the line */
 	unsigned lflags;  /* LF_* */
 } tm_title;
