@@ -905,10 +905,14 @@ int pass_days(tm_title *ti)
 		e = day_phrase(ti, k, &range);
 		if ((!e || !range) && (ti->ucats[k] & (1u << LC_UNIT))) {
 			/* a short day name of another language ("po–pá",
-			 * "ma–pe") counts when its hours follow */
-			ti->any_lang = 1;
-			e = day_phrase(ti, k, &range);
-			ti->any_lang = 0;
+			 * "ma–pe") counts when its hours follow (numbers:
+			 * without one on the line, none follow) */
+			range = 0;
+			if (ti->lflags & LF_NUM) {
+				ti->any_lang = 1;
+				e = day_phrase(ti, k, &range);
+				ti->any_lang = 0;
+			}
 			if (!(range & 2))
 				e = 0;
 		}

@@ -67,13 +67,14 @@ static int evidence_at(tm_title *ti, size_t k, int names, size_t names_from)
 		return EV_NONE;
 	if (ti->prot[ti->unit[k]])
 		return EV_HEAD;
-	if (!(ti->ucats[k] & (1u << LC_OCCUPATION)))
-		return EV_NONE;
-	if (match_val(ti, k, LC_OCCUPATION, "head", 1, &len))
+	/* the three kinds of occupational word in one look */
+	static const char *const kinds[] = {"head", "suffix", "field"};
+	unsigned f = match_vals(ti, k, LC_OCCUPATION, kinds, 3, 1);
+	if (f & 1)
 		ev = EV_HEAD;
-	else if (match_val(ti, k, LC_OCCUPATION, "suffix", 1, &len))
+	else if (f & 2)
 		ev = names && k > names_from && cap_word(ti, k, 0) ? EV_NONE : EV_HEAD;
-	else if (match_val(ti, k, LC_OCCUPATION, "field", 1, &len))
+	else if (f & 4)
 		ev = EV_FIELD;
 	else
 		return EV_NONE;

@@ -212,29 +212,33 @@ int title_scan(tm_title *ti)
 	return 0;
 }
 
+/* Are the units of annotation i (at unit k) kept and unprotected, the
+ * removed gender units inside it excepted? */
+static inline int ann_kept(const tm_title *ti, size_t k, uint32_t i)
+{
+	size_t nu = ti->ann[i].units;
+	for (size_t j = k; j < k + nu; j++) {
+		uint32_t t = ti->unit[j];
+		if (ti->rm[t] == NF_GENDER && j > k) {
+			/* a run removed before the scan at once */
+			if (ti->nextk[j] > j)
+				j = ti->nextk[j] - 1;
+			continue;
+		}
+		if (ti->rm[t] != RM_NONE || ti->prot[t])
+			return 0;
+	}
+	return 1;
+}
+
 static const lex_entry *match_gen(tm_title *ti, size_t k, unsigned mask,
 				  const char *value, int kept, size_t *len)
 {
 	if (k >= ti->nunit)
 		return NULL;
 	for (uint32_t i = ti->aoff[k]; i < ti->aoff[k + 1]; i++) {
-		size_t nu = ti->ann[i].units, j;
-		int ok = 1;
-		if (!(ti->ann[i].cats & mask))
-			continue;
-		if (kept)
-			for (j = k; j < k + nu && ok; j++) {
-				uint32_t t = ti->unit[j];
-				if (ti->rm[t] == NF_GENDER && j > k) {
-					/* a run removed before the scan at once */
-					if (ti->nextk[j] > j)
-						j = ti->nextk[j] - 1;
-					continue;
-				}
-				if (ti->rm[t] != RM_NONE || ti->prot[t])
-					ok = 0;
-			}
-		if (!ok)
+		size_t nu = ti->ann[i].units;
+		if (!(ti->ann[i].cats & mask) || (kept && !ann_kept(ti, k, i)))
 			continue;
 		for (const lex_entry *e = lex_entry_at(ti->lx, ti->ann[i].first); e;
 		     e = lex_next(ti->lx, e))
@@ -246,6 +250,29 @@ static const lex_entry *match_gen(tm_title *ti, size_t k, unsigned mask,
 			}
 	}
 	return NULL;
+}
+
+unsigned match_vals_(tm_title *ti, size_t k, int cat, const char *const *vals,
+		     size_t nval, int kept)
+{
+	unsigned found = 0, all = (1u << nval) - 1;
+	if (k >= ti->nunit)
+		return 0;
+	for (uint32_t i = ti->aoff[k]; i < ti->aoff[k + 1]; i++) {
+		if (!(ti->ann[i].cats & (1u << cat)) || (kept && !ann_kept(ti, k, i)))
+			continue;
+		for (const lex_entry *e = lex_entry_at(ti->lx, ti->ann[i].first); e;
+		     e = lex_next(ti->lx, e)) {
+			if (e->cat != cat || !entry_applies(ti, e))
+				continue;
+			for (size_t v = 0; v < nval; v++)
+				if (e->value[0] == vals[v][0] && strcmp(e->value, vals[v]) == 0)
+					found |= 1u << v;
+			if (found == all || (found & 1))
+				return found;
+		}
+	}
+	return found;
 }
 
 const lex_entry *match_val_(tm_title *ti, size_t k, int cat,

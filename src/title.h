@@ -168,6 +168,13 @@ const lex_entry *match_val_(tm_title *ti, size_t k, int cat,
 const lex_entry *match_mask_(tm_title *ti, size_t k, unsigned mask,
 			     int kept, size_t *len);
 
+/* Which of the values vals[0..nval) (nval < 32) an applicable entry of
+ * category cat has in some phrase starting at unit k (over kept,
+ * unprotected units when kept is set): bit v for vals[v].  The first
+ * value ends the look: with bit 0 set, the others may be missing. */
+unsigned match_vals_(tm_title *ti, size_t k, int cat, const char *const *vals,
+		     size_t nval, int kept);
+
 /* Most units start no phrase of the category asked for: answer those
  * without a call. */
 static inline const lex_entry *match_cat(tm_title *ti, size_t k, int cat,
@@ -184,6 +191,14 @@ static inline const lex_entry *match_val(tm_title *ti, size_t k, int cat,
 	if (k >= ti->nunit || !(ti->ucats[k] & (1u << cat)))
 		return NULL;
 	return match_val_(ti, k, cat, value, kept, len);
+}
+
+static inline unsigned match_vals(tm_title *ti, size_t k, int cat,
+				  const char *const *vals, size_t nval, int kept)
+{
+	if (k >= ti->nunit || !(ti->ucats[k] & (1u << cat)))
+		return 0;
+	return match_vals_(ti, k, cat, vals, nval, kept);
 }
 
 static inline const lex_entry *match_mask(tm_title *ti, size_t k,
