@@ -38,7 +38,9 @@ typedef struct norm_result {
 
 typedef struct normaliser normaliser;
 
-/* Returns a normaliser over lx, or NULL when memory ran out. */
+/* Returns a normaliser over lx, or NULL when memory ran out.  lx is
+ * borrowed and must not change while the normaliser lives (it remembers
+ * the lexicon's answers for recent words). */
 normaliser *norm_new(const lexicon *lx);
 void norm_free(normaliser *nm);
 
