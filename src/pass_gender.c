@@ -42,7 +42,7 @@ static int is_suffix(tm_title *ti, const char *a, size_t an, const char *b,
 }
 
 /* b is the feminine form of a (both whole words). */
-static int fem_pair(tm_title *ti, const lex_pair *q, const char *a,
+static inline int fem_pair(tm_title *ti, const lex_pair *q, const char *a,
 		    size_t an, const char *b, size_t bn, int stem)
 {
 	size_t sa, sb;

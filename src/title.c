@@ -69,6 +69,10 @@ static int grow_arrays(tm_title *ti, size_t ntok)
 	if (!uw)
 		return -1;
 	ti->uword = uw;
+	uint32_t *ue = realloc(ti->uend, cap * sizeof *ue);
+	if (!ue)
+		return -1;
+	ti->uend = ue;
 	uint32_t *nk = realloc(ti->nextk, (cap + 1) * sizeof *nk);
 	if (!nk)
 		return -1;
@@ -104,33 +108,36 @@ static tm_wordmem *wordmem(tm_title *ti, const tm_tok *x)
 	return m;
 }
 
-/* lex_word of token x, remembered. */
-static uint32_t word_of(tm_title *ti, const tm_tok *x)
-{
-	const tm_wordmem *m = wordmem(ti, x);
-	return m ? m->word : lex_word(ti->lx, tok_fold(&ti->tl, x), x->flen, x->hash);
-}
-
-/* lex_ending of token x, remembered. */
-static const lex_entry *ending_of(tm_title *ti, const tm_tok *x)
+/* The lexicon's answers for token x, remembered: its word id, and for a
+ * word 1 + lex_entry_index of its occupational ending (lex_ending), 0
+ * when none. */
+static void look_up(tm_title *ti, const tm_tok *x, uint32_t *word, uint32_t *end)
 {
 	tm_wordmem *m = wordmem(ti, x);
+	const lex_entry *e;
 	size_t elen;
-	if (!m)
-		return lex_ending(ti->lx, tok_fold(&ti->tl, x), x->flen, &elen);
-	if (!m->ended) {
-		const lex_entry *e = lex_ending(ti->lx, m->fold, m->flen, &elen);
-		m->ending = e ? (uint32_t)lex_entry_index(ti->lx, e) + 1 : 0;
+
+	*word = m ? m->word : lex_word(ti->lx, tok_fold(&ti->tl, x), x->flen, x->hash);
+	*end = 0;
+	if (x->kind != TK_WORD)
+		return;
+	if (m && m->ended) {
+		*end = m->ending;
+		return;
+	}
+	e = lex_ending(ti->lx, tok_fold(&ti->tl, x), x->flen, &elen);
+	*end = e ? (uint32_t)lex_entry_index(ti->lx, e) + 1 : 0;
+	if (m) {
+		m->ending = *end;
 		m->ended = 1;
 	}
-	return m->ending ? lex_entry_at(ti->lx, m->ending - 1) : NULL;
 }
 
 #define MAXPH 12 /* units of the longest phrase (lex_add's limit) */
 
 /* Records a phrase (or an ending) of `units` units at the current unit,
  * entries from e on.  Returns 0 or -1 (memory). */
-static int push_ann(tm_title *ti, size_t k, const lex_entry *e, uint32_t cats,
+static int push_ann(tm_title *ti, size_t k, uint32_t first, uint32_t cats,
 		    size_t units)
 {
 	if (ti->nann == ti->anncap) {
@@ -141,7 +148,7 @@ static int push_ann(tm_title *ti, size_t k, const lex_entry *e, uint32_t cats,
 		ti->ann = p;
 		ti->anncap = cap;
 	}
-	ti->ann[ti->nann].first = (uint32_t)lex_entry_index(ti->lx, e);
+	ti->ann[ti->nann].first = first;
 	ti->ann[ti->nann].units = (uint32_t)units;
 	ti->ann[ti->nann].cats = cats;
 	ti->nann++;
@@ -198,14 +205,12 @@ int title_scan(tm_title *ti)
 		while (n--) {
 			uint32_t cats = 0;
 			const lex_entry *e = lex_phrase(ti->lx, hit[n], &cats);
-			if (push_ann(ti, k, e, cats, endu[n] - k))
+			if (push_ann(ti, k, (uint32_t)lex_entry_index(ti->lx, e), cats,
+				     endu[n] - k))
 				return -1;
 		}
 		/* a word with an occupational ending: Lagerfachkraft */
-		const tm_tok *t = U(ti, k);
-		const lex_entry *e;
-		if (t->kind == TK_WORD && (e = ending_of(ti, t)) &&
-		    push_ann(ti, k, e, 1u << LC_OCCUPATION, 1))
+		if (ti->uend[k] && push_ann(ti, k, ti->uend[k] - 1, 1u << LC_OCCUPATION, 1))
 			return -1;
 	}
 	ti->aoff[ti->nunit] = (uint32_t)ti->nann;
@@ -480,7 +485,7 @@ int title_build(tm_title *ti)
 		}
 		ti->tseg[t] = cur;
 		ti->tunit[t] = (uint32_t)ti->nunit;
-		ti->uword[ti->nunit] = word_of(ti, x);
+		look_up(ti, x, &ti->uword[ti->nunit], &ti->uend[ti->nunit]);
 		ti->unit[ti->nunit++] = (uint32_t)t;
 		ti->segs[cur].u1 = (uint32_t)ti->nunit;
 		if (x->kind == TK_WORD && x->len >= 2) {
@@ -546,6 +551,7 @@ void title_free(tm_title *ti)
 	free(ti->ucats);
 	free(ti->nextk);
 	free(ti->uword);
+	free(ti->uend);
 	free(ti->wmem);
 	memset(ti, 0, sizeof *ti);
 }

@@ -111,6 +111,8 @@ typedef struct tm_title {
 	/* units */
 	uint32_t *unit;   /* unit -> token */
 	uint32_t *uword;  /* its word id in the lexicon's vocabulary, 0 outside */
+	uint32_t *uend;   /* 1 + entry index of its word's occupational ending
+			   * (lex_ending), 0: none or not a word */
 	size_t nunit;
 	tm_seg *segs;
 	size_t nseg;
