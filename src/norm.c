@@ -86,7 +86,7 @@ static int put_lower(const char *text, tm_buf *b, const tm_tok *t, unsigned opt)
 {
 	const char *p = text + t->off;
 	if (!(t->flags & TF_NONASCII) && (unsigned char)p[0] < 0x80 && !opt) {
-		if (buf_reserve(b, t->len) != 0)
+		if ((b->cap - b->len < t->len || !b->data) && buf_reserve(b, t->len) != 0)
 			return -1;
 		for (size_t i = 0; i < t->len; i++) {
 			char c = p[i];

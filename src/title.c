@@ -137,17 +137,22 @@ static void look_up(tm_title *ti, const tm_tok *x, uint32_t *word, uint32_t *end
 
 /* Records a phrase (or an ending) of `units` units at the current unit,
  * entries from e on.  Returns 0 or -1 (memory). */
-static int push_ann(tm_title *ti, size_t k, uint32_t first, uint32_t cats,
-		    size_t units)
+static int grow_ann(tm_title *ti)
 {
-	if (ti->nann == ti->anncap) {
-		size_t cap = ti->anncap ? ti->anncap * 2 : 64;
-		tm_ann *p = realloc(ti->ann, cap * sizeof *p);
-		if (!p)
-			return -1;
-		ti->ann = p;
-		ti->anncap = cap;
-	}
+	size_t cap = ti->anncap ? ti->anncap * 2 : 64;
+	tm_ann *p = realloc(ti->ann, cap * sizeof *p);
+	if (!p)
+		return -1;
+	ti->ann = p;
+	ti->anncap = cap;
+	return 0;
+}
+
+static inline int push_ann(tm_title *ti, size_t k, uint32_t first, uint32_t cats,
+			   size_t units)
+{
+	if (ti->nann == ti->anncap && grow_ann(ti) != 0)
+		return -1;
 	ti->ann[ti->nann].first = first;
 	ti->ann[ti->nann].units = (uint32_t)units;
 	ti->ann[ti->nann].cats = cats;
@@ -168,7 +173,8 @@ static int push_ann(tm_title *ti, size_t k, uint32_t first, uint32_t cats,
  * occupational endings (at most one step per byte of the longest). */
 int title_scan(tm_title *ti)
 {
-	uint32_t hit[MAXPH];
+	const lex_entry *hit[MAXPH];
+	uint32_t hcats[MAXPH];
 	size_t endu[MAXPH];
 
 	ti->nann = 0;
@@ -184,8 +190,11 @@ int title_scan(tm_title *ti)
 		ti->aoff[k] = (uint32_t)ti->nann;
 		ti->ucats[k] = 0;
 		for (j = k; node;) {
-			if (lex_phrase(ti->lx, node, NULL)) {
-				hit[n] = node;
+			uint32_t cats = 0;
+			const lex_entry *e = lex_phrase(ti->lx, node, &cats);
+			if (e) {
+				hit[n] = e;
+				hcats[n] = cats;
 				endu[n++] = j + 1;
 			}
 			/* the next unit, past a run of removed markers at once
@@ -202,13 +211,10 @@ int title_scan(tm_title *ti)
 			node = lex_step(ti->lx, node, ti->uword[j]);
 		}
 		/* longest first */
-		while (n--) {
-			uint32_t cats = 0;
-			const lex_entry *e = lex_phrase(ti->lx, hit[n], &cats);
-			if (push_ann(ti, k, (uint32_t)lex_entry_index(ti->lx, e), cats,
+		while (n--)
+			if (push_ann(ti, k, (uint32_t)lex_entry_index(ti->lx, hit[n]), hcats[n],
 				     endu[n] - k))
 				return -1;
-		}
 		/* a word with an occupational ending: Lagerfachkraft */
 		if (ti->uend[k] && push_ann(ti, k, ti->uend[k] - 1, 1u << LC_OCCUPATION, 1))
 			return -1;

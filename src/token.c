@@ -229,15 +229,15 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 	while (i < n) {
 		int32_t cp, cp2;
 		int dummy;
-		enum uni_class c = peekc(u, s, n, i, &cp, &dummy);
-		size_t start = i;
-		tm_tok *t;
-
 		if (s[i] == ' ') {
 			i++;
 			sp = 1;
 			continue;
 		}
+		enum uni_class c = peekc(u, s, n, i, &cp, &dummy);
+		size_t start = i;
+		tm_tok *t;
+
 		if (c == UNI_SPACE || c == UNI_OTHER) {
 			i += cp < 0x80 ? 1 : cp_len(s, n, i);
 			sp = 1;
