@@ -268,6 +268,7 @@ int lc_build(const lex_file *files, size_t n, lexicon **out, tm_buf *err)
 		}
 	}
 	dg_final(&d, key);
+	(void)lex_freeze(lx);
 	if (path && lex_image_write(lx, key, &img) == 0)
 		write_image(path, &img);
 	*out = lx;

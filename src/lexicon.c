@@ -62,9 +62,19 @@ struct lexicon {
 	wordrec *words;  /* words[id], ids 1..nvoc */
 	uint32_t *root;  /* root[id]: the phrase trie's node of the one-word
 			  * prefix, 0 none (the root's edges, by direct index) */
-	size_t wordcap;  /* of words and root */
+	uint8_t *wnext;  /* wnext[id]: 1 when the word follows another in
+			  * some phrase (else no step below the root can
+			  * take it, and none is probed) */
+	size_t wordcap;  /* of words, root and wnext */
 	trie ph;         /* the phrases, over word ids */
 	trie sfx;        /* occupational endings, over reversed fold bytes */
+	uint64_t sfx2[1024]; /* bit last << 8 | second last byte: some
+			      * ending of two bytes or more ends so */
+	uint64_t sfx1[4];    /* bit last byte: an ending of one byte */
+	uint32_t *skbeg; /* the ending trie's children packed (lex_freeze):
+			  * node n's are skid[skbeg[n]..skbeg[n+1]), each
+			  * child << 8 | byte, by byte; NULL: not built */
+	uint32_t *skid;
 	lex_entry *ent;  /* ent[0] unused */
 	size_t nent, entcap;
 	tm_buf strs;
@@ -231,10 +241,11 @@ lexicon *lex_new(void)
 	lx->wordcap = 1 << 17;
 	lx->words = calloc(lx->wordcap, sizeof *lx->words);
 	lx->root = calloc(lx->wordcap, sizeof *lx->root);
+	lx->wnext = calloc(lx->wordcap, 1);
 	lx->entcap = 1 << 17;
 	lx->ent = calloc(lx->entcap, sizeof *lx->ent);
 	lx->nent = 1;
-	if (!lx->voc || !lx->words || !lx->root || !lx->ent ||
+	if (!lx->voc || !lx->words || !lx->root || !lx->wnext || !lx->ent ||
 	    trie_init(&lx->ph, 1 << 17, 1 << 17) || trie_init(&lx->sfx, 1 << 14, 1 << 13) ||
 	    buf_putc(&lx->strs, 0) != 0) {
 		lex_free(lx);
@@ -283,24 +294,30 @@ static int own_image(lexicon *lx)
 	wslot *v;
 	wordrec *w;
 	uint32_t *r;
+	uint8_t *x;
 	edge *pe, *se;
 	node *pn, *sn;
 	lex_entry *e;
+	uint32_t *kb, *kd;
 	tm_buf st = {0};
 
 	if (!lx->image)
 		return 0;
+	kb = dup_array(lx->skbeg, lx->sfx.nnode + 1, sizeof *kb, lx->sfx.nnode + 1);
+	kd = dup_array(lx->skid, lx->sfx.nedge, sizeof *kd, lx->sfx.nedge + 1);
 	v = dup_array(lx->voc, lx->voccap, sizeof *v, lx->voccap);
 	w = dup_array(lx->words, lx->nvoc + 1, sizeof *w, lx->wordcap);
 	r = dup_array(lx->root, lx->nvoc + 1, sizeof *r, lx->wordcap);
+	x = dup_array(lx->wnext, lx->nvoc + 1, 1, lx->wordcap);
 	pe = dup_array(lx->ph.edges, lx->ph.edgecap, sizeof *pe, lx->ph.edgecap);
 	pn = dup_array(lx->ph.nodes, lx->ph.nnode, sizeof *pn, lx->ph.nodecap);
 	se = dup_array(lx->sfx.edges, lx->sfx.edgecap, sizeof *se, lx->sfx.edgecap);
 	sn = dup_array(lx->sfx.nodes, lx->sfx.nnode, sizeof *sn, lx->sfx.nodecap);
 	e = dup_array(lx->ent, lx->nent, sizeof *e, lx->entcap);
-	if (!v || !w || !r || !pe || !pn || !se || !sn || !e ||
+	if (!v || !w || !r || !x || !pe || !pn || !se || !sn || !e || !kb || !kd ||
 	    buf_append(&st, lx->strs.data, lx->strs.len) != 0) {
-		free(v), free(w), free(r), free(pe), free(pn), free(se), free(sn), free(e);
+		free(v), free(w), free(r), free(x), free(pe), free(pn), free(se), free(sn);
+		free(e), free(kb), free(kd);
 		buf_free(&st);
 		return -1;
 	}
@@ -308,11 +325,14 @@ static int own_image(lexicon *lx)
 	lx->voc = v;
 	lx->words = w;
 	lx->root = r;
+	lx->wnext = x;
 	lx->ph.edges = pe;
 	lx->ph.nodes = pn;
 	lx->sfx.edges = se;
 	lx->sfx.nodes = sn;
 	lx->ent = e;
+	lx->skbeg = kb;
+	lx->skid = kd;
 	lx->strs = st;
 	return 0;
 }
@@ -327,11 +347,14 @@ void lex_free(lexicon *lx)
 		free(lx->voc);
 		free(lx->words);
 		free(lx->root);
+		free(lx->wnext);
 		free(lx->ph.edges);
 		free(lx->ph.nodes);
 		free(lx->sfx.edges);
 		free(lx->sfx.nodes);
 		free(lx->ent);
+		free(lx->skbeg);
+		free(lx->skid);
 		buf_free(&lx->strs);
 	}
 	lex_free_pairs(lx);
@@ -399,6 +422,7 @@ static int grow_words(lexicon *lx)
 	size_t cap = lx->wordcap * 2;
 	wordrec *w = realloc(lx->words, cap * sizeof *w);
 	uint32_t *r;
+	uint8_t *x;
 	if (!w)
 		return -1;
 	lx->words = w;
@@ -406,6 +430,10 @@ static int grow_words(lexicon *lx)
 		return -1;
 	memset(r + lx->wordcap, 0, (cap - lx->wordcap) * sizeof *r);
 	lx->root = r;
+	if (!(x = realloc(lx->wnext, cap)))
+		return -1;
+	memset(x + lx->wordcap, 0, cap - lx->wordcap);
+	lx->wnext = x;
 	lx->wordcap = cap;
 	return 0;
 }
@@ -441,7 +469,9 @@ uint32_t lex_step(const lexicon *lx, uint32_t n, uint32_t id)
 {
 	if (!id)
 		return 0;
-	return n == LEX_ROOT ? lx->root[id] : trie_get(&lx->ph, n, id);
+	if (n == LEX_ROOT)
+		return lx->root[id];
+	return lx->wnext[id] ? trie_get(&lx->ph, n, id) : 0;
 }
 
 /* The phrase trie's child of node n by word id, made when missing; 0
@@ -452,8 +482,10 @@ static uint32_t add_step(lexicon *lx, uint32_t n, uint32_t id)
 
 	if (!id)
 		return 0;
-	if (n != LEX_ROOT)
+	if (n != LEX_ROOT) {
+		lx->wnext[id] = 1;
 		return trie_add(&lx->ph, n, id);
+	}
 	if (!lx->root[id] && (c = trie_node(&lx->ph)))
 		lx->root[id] = c;
 	return lx->root[id];
@@ -474,16 +506,113 @@ const lex_entry *lex_phrase(const lexicon *lx, uint32_t n, uint32_t *cats)
 	return n < lx->ph.nnode ? node_entry(lx, &lx->ph.nodes[n], cats) : NULL;
 }
 
+/* The ending trie's children packed by node (see skbeg): 0, or -1
+ * (memory; too many nodes for 24 bits). */
+static int pack_kids(const lexicon *lx, uint32_t **kbeg, uint32_t **kid)
+{
+	const trie *t = &lx->sfx;
+	uint32_t *b, *k;
+
+	*kbeg = *kid = NULL;
+	if (t->nnode >= 1u << 24)
+		return -1;
+	b = calloc(t->nnode + 1, sizeof *b);
+	k = malloc((t->nedge + 1) * sizeof *k);
+	if (!b || !k) {
+		free(b);
+		free(k);
+		return -1;
+	}
+	for (size_t i = 0; i < t->edgecap; i++)
+		if (t->edges[i].key)
+			b[(t->edges[i].key >> 32) + 1]++;
+	for (size_t i = 0; i < t->nnode; i++)
+		b[i + 1] += b[i];
+	/* placed, then each node's run sorted by byte (insertion: runs are
+	 * short) */
+	{
+		uint32_t *at = malloc((t->nnode + 1) * sizeof *at);
+		if (!at) {
+			free(b);
+			free(k);
+			return -1;
+		}
+		memcpy(at, b, (t->nnode + 1) * sizeof *at);
+		for (size_t i = 0; i < t->edgecap; i++)
+			if (t->edges[i].key)
+				k[at[t->edges[i].key >> 32]++] =
+					t->edges[i].child << 8 | (uint32_t)(t->edges[i].key & 255);
+		free(at);
+	}
+	for (size_t n = 0; n < t->nnode; n++)
+		for (uint32_t i = b[n] + 1; i < b[n + 1]; i++) {
+			uint32_t v = k[i], j = i;
+			for (; j > b[n] && (k[j - 1] & 255) > (v & 255); j--)
+				k[j] = k[j - 1];
+			k[j] = v;
+		}
+	*kbeg = b;
+	*kid = k;
+	return 0;
+}
+
+int lex_freeze(lexicon *lx)
+{
+	uint32_t *b, *k;
+
+	if (lx->skbeg)
+		return 0;
+	if (pack_kids(lx, &b, &k) != 0)
+		return -1;
+	lx->skbeg = b;
+	lx->skid = k;
+	return 0;
+}
+
 const lex_entry *lex_ending(const lexicon *lx, const char *fold, size_t len,
 			    size_t *elen)
 {
 	const node *best = NULL;
 	uint32_t n = 0;
 
-	if (!lx->sfx.nedge)
+	if (!lx->sfx.nedge || !len)
 		return NULL;
+	/* most words end in no ending: told by one bit */
+	{
+		unsigned c = (unsigned char)fold[len - 1];
+		if (!(lx->sfx1[c >> 6] >> (c & 63) & 1) &&
+		    (len < 2 || !(lx->sfx2[(c << 8 | (unsigned char)fold[len - 2]) >> 6] >>
+				  ((unsigned char)fold[len - 2] & 63) & 1)))
+			return NULL;
+	}
 	/* backwards from the last byte while some ending goes on: at most
-	 * as many steps as the longest ending has bytes */
+	 * as many steps as the longest ending has bytes; each step a scan of
+	 * the node's packed children (a cache line or two) when they are
+	 * built, a probe of the edge table otherwise */
+	if (lx->skbeg) {
+		for (size_t i = len; i-- > 0;) {
+			uint32_t c = (unsigned char)fold[i], k = lx->skbeg[n], e = lx->skbeg[n + 1];
+			/* halved while the run is long (the root's and its
+			 * children's: every letter), then scanned */
+			while (e - k > 8) {
+				uint32_t m = k + (e - k) / 2;
+				if ((lx->skid[m] & 255) <= c)
+					k = m;
+				else
+					e = m;
+			}
+			while (k < e && (lx->skid[k] & 255) < c)
+				k++;
+			if (k == e || (lx->skid[k] & 255) != c)
+				break;
+			n = lx->skid[k] >> 8;
+			if (lx->sfx.nodes[n].first) {
+				best = &lx->sfx.nodes[n];
+				*elen = len - i;
+			}
+		}
+		return best ? node_entry(lx, best, NULL) : NULL;
+	}
 	for (size_t i = len; i-- > 0;) {
 		if (!(n = trie_get(&lx->sfx, n, (unsigned char)fold[i])))
 			break;
@@ -676,6 +805,17 @@ static int add_ending(lexicon *lx, const char *lg, uint8_t amb, const char *ph,
 		return err_printf(err, "out of memory%s%s", "", "");
 	if (nu != 1)
 		return err_printf(err, "an ending is one word, without spaces or punctuation%s%s", "", "");
+	/* the packed children no longer hold every ending */
+	free(lx->skbeg);
+	free(lx->skid);
+	lx->skbeg = lx->skid = NULL;
+	if (flen[0] == 1)
+		lx->sfx1[(unsigned char)fold[0][0] >> 6] |= 1ULL << ((unsigned char)fold[0][0] & 63);
+	else if (flen[0] >= 2) {
+		unsigned c = (unsigned char)fold[0][flen[0] - 1] << 8 |
+			     (unsigned char)fold[0][flen[0] - 2];
+		lx->sfx2[c >> 6] |= 1ULL << (c & 63);
+	}
 	for (size_t i = flen[0]; i-- > 0 && n != UINT32_MAX;)
 		if (!(n = trie_add(&lx->sfx, n, (unsigned char)fold[0][i])))
 			n = UINT32_MAX;
@@ -1107,8 +1247,10 @@ int lex_load_dir(lexicon *lx, const char *dir, tm_buf *err)
  * lexicon reads them in place:
  *   strs    the word folds (strslen bytes; byte 0 is 0)
  *   voc     voccap word slots (wslot), at most half full
- *   words   nvoc + 1 wordrec; root: nvoc + 1 uint32
- *   ph      phcap edges, then phnode nodes; sfx: sfxcap edges, sfxnode nodes
+ *   words   nvoc + 1 wordrec; root: nvoc + 1 uint32; wnext: nvoc + 1 bytes
+ *   ph      phcap edges, then phnode nodes; sfx: sfxcap edges, sfxnode
+ *           nodes, the bits sfx2 and sfx1, skbeg (sfxnode + 1 uint32)
+ *           and skid (sfxedge uint32)
  *   ent     nent lex_entry (entry 0 unused)
  *   pairs   npairs img_pair (the endings as offsets into pstr); pstr
  *           (pstrlen bytes of NUL-terminated endings); byfem (npairs
@@ -1158,6 +1300,8 @@ int lex_image_write(const lexicon *lx, const unsigned char key[16], tm_buf *out)
 {
 	img_head h;
 	tm_buf pv = {0}, ps = {0};
+	uint32_t *kbo = NULL, *kdo = NULL;
+	const uint32_t *kb, *kd;
 	size_t i;
 	int rc = -1;
 
@@ -1197,15 +1341,28 @@ int lex_image_write(const lexicon *lx, const unsigned char key[16], tm_buf *out)
 			goto done;
 	}
 	h.pstrlen = (uint32_t)ps.len;
+	if (lx->skbeg) {
+		kb = lx->skbeg;
+		kd = lx->skid;
+	} else if (pack_kids(lx, &kbo, &kdo) != 0)
+		goto done;
+	else {
+		kb = kbo;
+		kd = kdo;
+	}
 	buf_reset(out);
 	if (put(out, &h, sizeof h) || put(out, lx->strs.data, lx->strs.len) ||
 	    put(out, lx->voc, lx->voccap * sizeof *lx->voc) ||
 	    put(out, lx->words, (lx->nvoc + 1) * sizeof *lx->words) ||
 	    put(out, lx->root, (lx->nvoc + 1) * sizeof *lx->root) ||
+	    put(out, lx->wnext, lx->nvoc + 1) ||
 	    put(out, lx->ph.edges, lx->ph.edgecap * sizeof *lx->ph.edges) ||
 	    put(out, lx->ph.nodes, lx->ph.nnode * sizeof *lx->ph.nodes) ||
 	    put(out, lx->sfx.edges, lx->sfx.edgecap * sizeof *lx->sfx.edges) ||
 	    put(out, lx->sfx.nodes, lx->sfx.nnode * sizeof *lx->sfx.nodes) ||
+	    put(out, lx->sfx2, sizeof lx->sfx2) || put(out, lx->sfx1, sizeof lx->sfx1) ||
+	    put(out, kb, (lx->sfx.nnode + 1) * sizeof *kb) ||
+	    put(out, kd, lx->sfx.nedge * sizeof *kd) ||
 	    put(out, lx->ent, lx->nent * sizeof *lx->ent) || put(out, pv.data, pv.len) ||
 	    put(out, ps.data, ps.len) || put(out, lx->byfem, lx->npairs * sizeof *lx->byfem) ||
 	    put(out, lx->femat, sizeof lx->femat))
@@ -1215,6 +1372,8 @@ int lex_image_write(const lexicon *lx, const unsigned char key[16], tm_buf *out)
 	lex_image_seal(out->data, out->len);
 	rc = 0;
 done:
+	free(kbo);
+	free(kdo);
 	buf_free(&pv);
 	buf_free(&ps);
 	if (rc)
@@ -1296,6 +1455,7 @@ int lex_image_use(void *image, size_t n, int mapped, const unsigned char key[16]
 	const char *pstr;
 	const img_pair *ip;
 	const uint32_t *fa;
+	const void *s1, *s2;
 	size_t i;
 
 	*out = NULL;
@@ -1334,16 +1494,22 @@ int lex_image_use(void *image, size_t n, int mapped, const unsigned char key[16]
 	    !(lx->voc = take(&r, (uint64_t)h.voccap * sizeof *lx->voc)) ||
 	    !(lx->words = take(&r, (uint64_t)lx->wordcap * sizeof *lx->words)) ||
 	    !(lx->root = take(&r, (uint64_t)lx->wordcap * sizeof *lx->root)) ||
+	    !(lx->wnext = take(&r, lx->wordcap)) ||
 	    !(lx->ph.edges = take(&r, (uint64_t)h.phcap * sizeof(edge))) ||
 	    !(lx->ph.nodes = take(&r, (uint64_t)h.phnode * sizeof(node))) ||
 	    !(lx->sfx.edges = take(&r, (uint64_t)h.sfxcap * sizeof(edge))) ||
 	    !(lx->sfx.nodes = take(&r, (uint64_t)h.sfxnode * sizeof(node))) ||
+	    !(s2 = take(&r, sizeof lx->sfx2)) || !(s1 = take(&r, sizeof lx->sfx1)) ||
+	    !(lx->skbeg = take(&r, ((uint64_t)h.sfxnode + 1) * sizeof *lx->skbeg)) ||
+	    !(lx->skid = take(&r, (uint64_t)h.sfxedge * sizeof *lx->skid)) ||
 	    !(lx->ent = take(&r, (uint64_t)h.nent * sizeof *lx->ent)) ||
 	    !(ip = take(&r, (uint64_t)h.npairs * sizeof *ip)) ||
 	    !(pstr = take(&r, h.pstrlen)) ||
 	    !(fa = take(&r, (uint64_t)h.npairs * sizeof(uint32_t))) ||
 	    !take(&r, sizeof lx->femat) || r.at != r.n)
 		goto bad;
+	memcpy(lx->sfx2, s2, sizeof lx->sfx2);
+	memcpy(lx->sfx1, s1, sizeof lx->sfx1);
 	/* the vocabulary: as many ids as words, every fold inside strs */
 	{
 		uint64_t got = 0;
@@ -1363,6 +1529,16 @@ int lex_image_use(void *image, size_t n, int mapped, const unsigned char key[16]
 	if (check_trie(&lx->ph, h.phedge, (uint64_t)h.nvoc + 1, h.nent) ||
 	    check_trie(&lx->sfx, h.sfxedge, 256, h.nent))
 		goto bad;
+	/* the packed children: runs in order inside skid, children inside
+	 * the trie */
+	if (lx->skbeg[0] != 0 || lx->skbeg[h.sfxnode] != h.sfxedge)
+		goto bad;
+	for (i = 0; i < h.sfxnode; i++)
+		if (lx->skbeg[i] > lx->skbeg[i + 1])
+			goto bad;
+	for (i = 0; i < h.sfxedge; i++)
+		if ((lx->skid[i] >> 8) == 0 || (lx->skid[i] >> 8) >= h.sfxnode)
+			goto bad;
 	/* the entries: known codes, terminated strings, and lists that only
 	 * go forward (no cycle) */
 	for (i = 1; i < lx->nent; i++) {

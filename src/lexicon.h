@@ -131,6 +131,12 @@ const lex_entry *lex_phrase(const lexicon *lx, uint32_t n, uint32_t *cats);
 const lex_entry *lex_ending(const lexicon *lx, const char *fold, size_t len,
 			    size_t *elen);
 
+/* Packs the trie of endings into flat arrays that lex_ending reads
+ * faster, once the lexicon is loaded (a later lex_add of an ending
+ * drops them; lex_ending answers the same either way).  Returns 0, or
+ * -1 when memory ran out (nothing changed). */
+int lex_freeze(lexicon *lx);
+
 /* The next entry of the same phrase, or NULL. */
 const lex_entry *lex_next(const lexicon *lx, const lex_entry *e);
 /* An entry's index, and the entry of an index (stable while no entry is

@@ -205,6 +205,8 @@ lexicon *setup_lexicon(const setup_opts *o, tm_buf *err)
 			goto fail;
 	}
 labels:
+	/* (when memory runs out the endings are read from the trie) */
+	(void)lex_freeze(lx);
 	if (o->labels && add_labels(lx, o->labels, err) != 0)
 		goto fail;
 	return lx;
