@@ -35,7 +35,7 @@ set -- $(run "TITLEMILL_LEXCACHE=off '$T' norm"); o_min=$1; o_med=$2
 w_kib=$(tail -1 "$dir/time")
 /usr/bin/time -f '%M' -o "$dir/time" env TITLEMILL_LEXCACHE=off "$T" norm < /dev/null > /dev/null
 o_kib=$(tail -1 "$dir/time")
-img=$(ls -l "$cache"/*.img | awk '{ print $5 }')
+img=$(ls -l "$cache"/*.img 2> /dev/null | awk '{ s += $5 } END { print s + 0 }')
 
 echo "start-up, $runs runs each (wall ms: min, median; ratio of medians to cat /dev/null)"
 awk -v bm="$b_min" -v bd="$b_med" -v wm="$w_min" -v wd="$w_med" -v cm="$c_min" \
