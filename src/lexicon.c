@@ -75,6 +75,7 @@ struct lexicon {
 			  * node n's are skid[skbeg[n]..skbeg[n+1]), each
 			  * child << 8 | byte, by byte; NULL: not built */
 	uint32_t *skid;
+	uint32_t skroot[256]; /* the root's child by byte, 0 none (with skbeg) */
 	lex_entry *ent;  /* ent[0] unused */
 	size_t nent, entcap;
 	tm_buf strs;
@@ -566,6 +567,9 @@ int lex_freeze(lexicon *lx)
 		return -1;
 	lx->skbeg = b;
 	lx->skid = k;
+	memset(lx->skroot, 0, sizeof lx->skroot);
+	for (uint32_t i = b[0]; i < b[1]; i++)
+		lx->skroot[k[i] & 255] = k[i] >> 8;
 	return 0;
 }
 
@@ -590,7 +594,15 @@ const lex_entry *lex_ending(const lexicon *lx, const char *fold, size_t len,
 	 * the node's packed children (a cache line or two) when they are
 	 * built, a probe of the edge table otherwise */
 	if (lx->skbeg) {
-		for (size_t i = len; i-- > 0;) {
+		size_t i = len - 1;
+		/* the root's child by direct index: its run is every letter */
+		if (!(n = lx->skroot[(unsigned char)fold[i]]))
+			return NULL;
+		if (lx->sfx.nodes[n].first) {
+			best = &lx->sfx.nodes[n];
+			*elen = 1;
+		}
+		while (i-- > 0) {
 			uint32_t c = (unsigned char)fold[i], k = lx->skbeg[n], e = lx->skbeg[n + 1];
 			/* halved while the run is long (the root's and its
 			 * children's: every letter), then scanned */
@@ -1539,6 +1551,8 @@ int lex_image_use(void *image, size_t n, int mapped, const unsigned char key[16]
 	for (i = 0; i < h.sfxedge; i++)
 		if ((lx->skid[i] >> 8) == 0 || (lx->skid[i] >> 8) >= h.sfxnode)
 			goto bad;
+	for (i = lx->skbeg[0]; i < lx->skbeg[1]; i++)
+		lx->skroot[lx->skid[i] & 255] = lx->skid[i] >> 8;
 	/* the entries: known codes, terminated strings, and lists that only
 	 * go forward (no cycle) */
 	for (i = 1; i < lx->nent; i++) {
