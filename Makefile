@@ -30,7 +30,7 @@ override CFLAGS += -std=c11 -D_POSIX_C_SOURCE=200809L $(WARN) $(OPT) $(PC_CFLAGS
 override LDLIBS += $(PC_LIBS) -lm
 
 BUILD ?= build
-CORE = buf decode unicode token lexicon title norm pass_gender pass_noise pass_place pass_roles \
+CORE = buf decode unicode token digest lexicon lexcache title norm pass_gender pass_noise pass_place pass_roles \
 	reader tsv jsonw jsonr setup lang fieldcheck strtab postings tally_mem store_redis \
 	stats labels skos review delta slot cluster outfile
 CLI = cli_norm cli_tally cli_rank propose cli_review main
@@ -115,6 +115,7 @@ fuzz: fuzz-build
 
 bench: titlemill
 	sh tests/bench/run.sh $(CURDIR)/titlemill
+	sh tests/bench/startup.sh $(CURDIR)/titlemill
 	sh tests/bench/tally.sh $(CURDIR)/titlemill
 	sh tests/bench/review.sh $(CURDIR)/titlemill
 	sh tests/bench/cluster.sh $(CURDIR)/titlemill

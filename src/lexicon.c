@@ -2,6 +2,8 @@
 #include "lexicon.h"
 
 #include <dirent.h>
+#include <stddef.h>
+#include <sys/mman.h>
 #include <sys/stat.h>
 #include <errno.h>
 #include <stdio.h>
@@ -9,18 +11,26 @@
 #include <string.h>
 
 #include "decode.h"
+#include "digest.h"
 #include "token.h"
 #include "unicode.h"
 
-#define VALSLOTS 4096
 
-/* The vocabulary: every token of every phrase, with its id (1-based). */
-typedef struct word {
-	uint64_t h;     /* tok_hash of the fold */
+/* The vocabulary: every token of every phrase, with its id (1-based).
+ * An open-addressing table of 8-byte slots (eight to a cache line), each
+ * a fingerprint of the word's hash beside its id, so that a probe for a
+ * word the lexicon does not hold (most words of a title) reads one line
+ * and compares no string; the table is at most half full.  The fold of
+ * word id is words[id], an offset and length into lx->strs. */
+typedef struct wslot {
+	uint32_t fp;    /* the high half of the mixed hash */
+	uint32_t id;    /* 0: empty slot */
+} wslot;
+
+typedef struct wordrec {
 	uint32_t str;   /* offset of the fold in lx->strs */
 	uint32_t len;
-	uint32_t id;    /* 0: empty slot */
-} word;
+} wordrec;
 
 /* A trie: nodes (0 is the root) and its edges (node, symbol) -> node in
  * one open-addressing table.  The phrase trie's symbols are word ids;
@@ -29,6 +39,7 @@ typedef struct edge {
 	uint64_t key;   /* node << 32 | symbol; 0: empty slot (no edge
 			 * enters the root, and no symbol is 0) */
 	uint32_t child;
+	uint32_t pad;   /* 0: the slot is written to the cache as it is */
 } edge;
 
 /* A node: the entries of what ends there (index into lx->ent, 0 when
@@ -39,19 +50,32 @@ typedef struct node {
 } node;
 
 typedef struct trie {
-	edge *edges;     /* power-of-two size, at most 3/4 full */
+	edge *edges;     /* power-of-two size, at most half full */
 	size_t edgecap, nedge;
 	node *nodes;
 	size_t nnode, nodecap;
 } trie;
 
 struct lexicon {
-	word *voc;       /* open addressing, power-of-two size */
+	wslot *voc;      /* open addressing, power-of-two size */
 	size_t voccap, nvoc;
+	wordrec *words;  /* words[id], ids 1..nvoc */
 	uint32_t *root;  /* root[id]: the phrase trie's node of the one-word
 			  * prefix, 0 none (the root's edges, by direct index) */
+	uint8_t *wnext;  /* wnext[id]: 1 when the word follows another in
+			  * some phrase (else no step below the root can
+			  * take it, and none is probed) */
+	size_t wordcap;  /* of words, root and wnext */
 	trie ph;         /* the phrases, over word ids */
 	trie sfx;        /* occupational endings, over reversed fold bytes */
+	uint64_t sfx2[1024]; /* bit last << 8 | second last byte: some
+			      * ending of two bytes or more ends so */
+	uint64_t sfx1[4];    /* bit last byte: an ending of one byte */
+	uint32_t *skbeg; /* the ending trie's children packed (lex_freeze):
+			  * node n's are skid[skbeg[n]..skbeg[n+1]), each
+			  * child << 8 | byte, by byte; NULL: not built */
+	uint32_t *skid;
+	uint32_t skroot[256]; /* the root's child by byte, 0 none (with skbeg) */
 	lex_entry *ent;  /* ent[0] unused */
 	size_t nent, entcap;
 	tm_buf strs;
@@ -61,9 +85,10 @@ struct lexicon {
 			      * last byte (group 256: empty ending), in
 			      * file order within a group */
 	uint32_t femat[258]; /* group g: byfem[femat[g]..femat[g+1]) */
-	char **values;   /* interned value strings */
-	char *vslot[VALSLOTS];
-	size_t nvalues, valcap;
+	void *image;     /* the image the arrays above are read from in place
+			  * (lex_image_use), or NULL: they are malloc'd */
+	size_t imagelen;
+	int mapped;      /* the image is a mapping (munmap), else malloc'd */
 	uni_ctx u;
 	tok_line tl;
 	tm_buf work;
@@ -192,7 +217,7 @@ static uint32_t trie_add(trie *t, uint32_t n, uint32_t sym)
 
 	if (c)
 		return c;
-	if ((t->nedge + 1) * 4 > t->edgecap * 3 && grow_edges(t) != 0)
+	if ((t->nedge + 1) * 2 > t->edgecap && grow_edges(t) != 0)
 		return 0;
 	if (!(c = trie_node(t)))
 		return 0;
@@ -209,46 +234,131 @@ lexicon *lex_new(void)
 	lexicon *lx = calloc(1, sizeof *lx);
 	if (!lx)
 		return NULL;
-	/* sized for the bundled lexicons (about 90,000 phrases over some
-	 * 60,000 words at a load of at most 3/4), so loading them never
-	 * rehashes */
-	lx->voccap = 1 << 17;
+	/* sized for the bundled lexicons (about 110,000 phrases over some
+	 * 96,000 words, 44,000 edges below the root; tables at most half
+	 * full), so loading them never rehashes */
+	lx->voccap = 1 << 18;
 	lx->voc = calloc(lx->voccap, sizeof *lx->voc);
-	lx->root = calloc(lx->voccap, sizeof *lx->root);
+	lx->wordcap = 1 << 17;
+	lx->words = calloc(lx->wordcap, sizeof *lx->words);
+	lx->root = calloc(lx->wordcap, sizeof *lx->root);
+	lx->wnext = calloc(lx->wordcap, 1);
 	lx->entcap = 1 << 17;
 	lx->ent = calloc(lx->entcap, sizeof *lx->ent);
 	lx->nent = 1;
-	if (!lx->voc || !lx->root || !lx->ent || trie_init(&lx->ph, 1 << 16, 1 << 17) ||
-	    trie_init(&lx->sfx, 1 << 10, 1 << 9) || buf_putc(&lx->strs, 0) != 0) {
+	if (!lx->voc || !lx->words || !lx->root || !lx->wnext || !lx->ent ||
+	    trie_init(&lx->ph, 1 << 17, 1 << 17) || trie_init(&lx->sfx, 1 << 14, 1 << 13) ||
+	    buf_putc(&lx->strs, 0) != 0) {
 		lex_free(lx);
 		return NULL;
 	}
 	return lx;
 }
 
-void lex_free(lexicon *lx)
+/* The gendered pairs, the only arrays an image is not read into. */
+static void lex_free_pairs(lexicon *lx)
 {
-	size_t i;
-
-	if (!lx)
-		return;
-	free(lx->voc);
-	free(lx->root);
-	free(lx->ph.edges);
-	free(lx->ph.nodes);
-	free(lx->sfx.edges);
-	free(lx->sfx.nodes);
-	free(lx->ent);
-	buf_free(&lx->strs);
-	for (i = 0; i < lx->npairs; i++) {
+	for (size_t i = 0; i < lx->npairs; i++) {
 		free((char *)lx->pairs[i].masc);
 		free((char *)lx->pairs[i].fem);
 	}
 	free(lx->pairs);
 	free(lx->byfem);
-	for (i = 0; i < lx->nvalues; i++)
-		free(lx->values[i]);
-	free(lx->values);
+	lx->pairs = NULL;
+	lx->byfem = NULL;
+	lx->npairs = 0;
+}
+
+static void release_image(lexicon *lx)
+{
+	if (lx->mapped)
+		munmap(lx->image, lx->imagelen);
+	else
+		free(lx->image);
+	lx->image = NULL;
+}
+
+static void *dup_array(const void *p, size_t n, size_t size, size_t cap)
+{
+	void *m = malloc(cap * size);
+	if (m)
+		memcpy(m, p, n * size);
+	return m;
+}
+
+/* Before the first change of a lexicon read in place from its image:
+ * its arrays copied out into memory of its own (with room to grow as
+ * lex_add expects) and the image released.  Returns 0 or -1 (memory;
+ * the lexicon unchanged). */
+static int own_image(lexicon *lx)
+{
+	wslot *v;
+	wordrec *w;
+	uint32_t *r;
+	uint8_t *x;
+	edge *pe, *se;
+	node *pn, *sn;
+	lex_entry *e;
+	uint32_t *kb, *kd;
+	tm_buf st = {0};
+
+	if (!lx->image)
+		return 0;
+	kb = dup_array(lx->skbeg, lx->sfx.nnode + 1, sizeof *kb, lx->sfx.nnode + 1);
+	kd = dup_array(lx->skid, lx->sfx.nedge, sizeof *kd, lx->sfx.nedge + 1);
+	v = dup_array(lx->voc, lx->voccap, sizeof *v, lx->voccap);
+	w = dup_array(lx->words, lx->nvoc + 1, sizeof *w, lx->wordcap);
+	r = dup_array(lx->root, lx->nvoc + 1, sizeof *r, lx->wordcap);
+	x = dup_array(lx->wnext, lx->nvoc + 1, 1, lx->wordcap);
+	pe = dup_array(lx->ph.edges, lx->ph.edgecap, sizeof *pe, lx->ph.edgecap);
+	pn = dup_array(lx->ph.nodes, lx->ph.nnode, sizeof *pn, lx->ph.nodecap);
+	se = dup_array(lx->sfx.edges, lx->sfx.edgecap, sizeof *se, lx->sfx.edgecap);
+	sn = dup_array(lx->sfx.nodes, lx->sfx.nnode, sizeof *sn, lx->sfx.nodecap);
+	e = dup_array(lx->ent, lx->nent, sizeof *e, lx->entcap);
+	if (!v || !w || !r || !x || !pe || !pn || !se || !sn || !e || !kb || !kd ||
+	    buf_append(&st, lx->strs.data, lx->strs.len) != 0) {
+		free(v), free(w), free(r), free(x), free(pe), free(pn), free(se), free(sn);
+		free(e), free(kb), free(kd);
+		buf_free(&st);
+		return -1;
+	}
+	release_image(lx);
+	lx->voc = v;
+	lx->words = w;
+	lx->root = r;
+	lx->wnext = x;
+	lx->ph.edges = pe;
+	lx->ph.nodes = pn;
+	lx->sfx.edges = se;
+	lx->sfx.nodes = sn;
+	lx->ent = e;
+	lx->skbeg = kb;
+	lx->skid = kd;
+	lx->strs = st;
+	return 0;
+}
+
+void lex_free(lexicon *lx)
+{
+	if (!lx)
+		return;
+	if (lx->image)
+		release_image(lx);
+	else {
+		free(lx->voc);
+		free(lx->words);
+		free(lx->root);
+		free(lx->wnext);
+		free(lx->ph.edges);
+		free(lx->ph.nodes);
+		free(lx->sfx.edges);
+		free(lx->sfx.nodes);
+		free(lx->ent);
+		free(lx->skbeg);
+		free(lx->skid);
+		buf_free(&lx->strs);
+	}
+	lex_free_pairs(lx);
 	uni_ctx_free(&lx->u);
 	tok_line_free(&lx->tl);
 	buf_free(&lx->work);
@@ -257,73 +367,112 @@ void lex_free(lexicon *lx)
 
 /* ---- the vocabulary and the phrase trie ---- */
 
+/* tok_hash mixed again (fmix64 of MurmurHash3): the slot from the low
+ * bits, the fingerprint from the high half. */
+static inline uint64_t word_mix(uint64_t h)
+{
+	h ^= h >> 33;
+	h *= 0xFF51AFD7ED558CCDULL;
+	h ^= h >> 33;
+	h *= 0xC4CEB9FE1A85EC53ULL;
+	h ^= h >> 33;
+	return h;
+}
+
 uint32_t lex_word(const lexicon *lx, const char *fold, size_t len, uint64_t h)
 {
-	size_t m = lx->voccap - 1, j = h & m;
-	const word *w;
+	uint64_t m = word_mix(h);
+	uint32_t fp = (uint32_t)(m >> 32);
+	size_t mask = lx->voccap - 1, j = (size_t)m & mask;
+	const wslot *v = lx->voc;
 
-	while ((w = &lx->voc[j])->id) {
-		if (w->h == h && w->len == len && !memcmp(lx->strs.data + w->str, fold, len))
-			return w->id;
-		j = (j + 1) & m;
-	}
+	for (; v[j].id; j = (j + 1) & mask)
+		if (v[j].fp == fp) {
+			const wordrec *w = &lx->words[v[j].id];
+			if (w->len == len && !memcmp(lx->strs.data + w->str, fold, len))
+				return v[j].id;
+		}
 	return 0;
 }
 
 static int grow_vocab(lexicon *lx)
 {
 	size_t cap = lx->voccap * 2, i, m = cap - 1;
-	word *v = calloc(cap, sizeof *v);
-	uint32_t *r = calloc(cap, sizeof *r);
-	if (!v || !r) {
-		free(v);
-		free(r);
+	wslot *v = calloc(cap, sizeof *v);
+	if (!v)
 		return -1;
-	}
 	for (i = 0; i < lx->voccap; i++) {
+		const wordrec *w;
 		size_t j;
 		if (!lx->voc[i].id)
 			continue;
-		for (j = lx->voc[i].h & m; v[j].id; j = (j + 1) & m)
+		w = &lx->words[lx->voc[i].id];
+		for (j = (size_t)word_mix(tok_hash(lx->strs.data + w->str, w->len)) & m; v[j].id;
+		     j = (j + 1) & m)
 			;
 		v[j] = lx->voc[i];
 	}
-	memcpy(r, lx->root, lx->voccap * sizeof *r);
 	free(lx->voc);
-	free(lx->root);
 	lx->voc = v;
-	lx->root = r;
 	lx->voccap = cap;
 	return 0;
 }
 
+static int grow_words(lexicon *lx)
+{
+	size_t cap = lx->wordcap * 2;
+	wordrec *w = realloc(lx->words, cap * sizeof *w);
+	uint32_t *r;
+	uint8_t *x;
+	if (!w)
+		return -1;
+	lx->words = w;
+	if (!(r = realloc(lx->root, cap * sizeof *r)))
+		return -1;
+	memset(r + lx->wordcap, 0, (cap - lx->wordcap) * sizeof *r);
+	lx->root = r;
+	if (!(x = realloc(lx->wnext, cap)))
+		return -1;
+	memset(x + lx->wordcap, 0, cap - lx->wordcap);
+	lx->wnext = x;
+	lx->wordcap = cap;
+	return 0;
+}
+
 /* The id of a word, added when new; 0 when memory ran out.  Ids stay
- * below voccap, so root[] (as large) has a slot for each. */
+ * below wordcap, so words[] and root[] have a slot for each. */
 static uint32_t add_word(lexicon *lx, const char *fold, size_t len, uint64_t h)
 {
 	uint32_t id = lex_word(lx, fold, len, h);
+	uint64_t m;
 	size_t j;
 
 	if (id)
 		return id;
-	if ((lx->nvoc + 2) * 4 > lx->voccap * 3 && grow_vocab(lx) != 0)
+	if ((lx->nvoc + 2) * 2 > lx->voccap && grow_vocab(lx) != 0)
 		return 0;
-	for (j = h & (lx->voccap - 1); lx->voc[j].id; j = (j + 1) & (lx->voccap - 1))
+	if (lx->nvoc + 2 > lx->wordcap && grow_words(lx) != 0)
+		return 0;
+	if (len > UINT32_MAX || lx->nvoc + 1 >= UINT32_MAX || buf_append(&lx->strs, fold, len) != 0)
+		return 0;
+	m = word_mix(h);
+	for (j = (size_t)m & (lx->voccap - 1); lx->voc[j].id; j = (j + 1) & (lx->voccap - 1))
 		;
-	if (len > UINT32_MAX || buf_append(&lx->strs, fold, len) != 0)
-		return 0;
-	lx->voc[j].h = h;
-	lx->voc[j].str = (uint32_t)(lx->strs.len - len);
-	lx->voc[j].len = (uint32_t)len;
-	lx->voc[j].id = (uint32_t)++lx->nvoc;
-	return lx->voc[j].id;
+	id = (uint32_t)++lx->nvoc;
+	lx->words[id].str = (uint32_t)(lx->strs.len - len);
+	lx->words[id].len = (uint32_t)len;
+	lx->voc[j].fp = (uint32_t)(m >> 32);
+	lx->voc[j].id = id;
+	return id;
 }
 
 uint32_t lex_step(const lexicon *lx, uint32_t n, uint32_t id)
 {
 	if (!id)
 		return 0;
-	return n == LEX_ROOT ? lx->root[id] : trie_get(&lx->ph, n, id);
+	if (n == LEX_ROOT)
+		return lx->root[id];
+	return lx->wnext[id] ? trie_get(&lx->ph, n, id) : 0;
 }
 
 /* The phrase trie's child of node n by word id, made when missing; 0
@@ -334,8 +483,10 @@ static uint32_t add_step(lexicon *lx, uint32_t n, uint32_t id)
 
 	if (!id)
 		return 0;
-	if (n != LEX_ROOT)
+	if (n != LEX_ROOT) {
+		lx->wnext[id] = 1;
 		return trie_add(&lx->ph, n, id);
+	}
 	if (!lx->root[id] && (c = trie_node(&lx->ph)))
 		lx->root[id] = c;
 	return lx->root[id];
@@ -356,16 +507,124 @@ const lex_entry *lex_phrase(const lexicon *lx, uint32_t n, uint32_t *cats)
 	return n < lx->ph.nnode ? node_entry(lx, &lx->ph.nodes[n], cats) : NULL;
 }
 
+/* The ending trie's children packed by node (see skbeg): 0, or -1
+ * (memory; too many nodes for 24 bits). */
+static int pack_kids(const lexicon *lx, uint32_t **kbeg, uint32_t **kid)
+{
+	const trie *t = &lx->sfx;
+	uint32_t *b, *k;
+
+	*kbeg = *kid = NULL;
+	if (t->nnode >= 1u << 24)
+		return -1;
+	b = calloc(t->nnode + 1, sizeof *b);
+	k = malloc((t->nedge + 1) * sizeof *k);
+	if (!b || !k) {
+		free(b);
+		free(k);
+		return -1;
+	}
+	for (size_t i = 0; i < t->edgecap; i++)
+		if (t->edges[i].key)
+			b[(t->edges[i].key >> 32) + 1]++;
+	for (size_t i = 0; i < t->nnode; i++)
+		b[i + 1] += b[i];
+	/* placed, then each node's run sorted by byte (insertion: runs are
+	 * short) */
+	{
+		uint32_t *at = malloc((t->nnode + 1) * sizeof *at);
+		if (!at) {
+			free(b);
+			free(k);
+			return -1;
+		}
+		memcpy(at, b, (t->nnode + 1) * sizeof *at);
+		for (size_t i = 0; i < t->edgecap; i++)
+			if (t->edges[i].key)
+				k[at[t->edges[i].key >> 32]++] =
+					t->edges[i].child << 8 | (uint32_t)(t->edges[i].key & 255);
+		free(at);
+	}
+	for (size_t n = 0; n < t->nnode; n++)
+		for (uint32_t i = b[n] + 1; i < b[n + 1]; i++) {
+			uint32_t v = k[i], j = i;
+			for (; j > b[n] && (k[j - 1] & 255) > (v & 255); j--)
+				k[j] = k[j - 1];
+			k[j] = v;
+		}
+	*kbeg = b;
+	*kid = k;
+	return 0;
+}
+
+int lex_freeze(lexicon *lx)
+{
+	uint32_t *b, *k;
+
+	if (lx->skbeg)
+		return 0;
+	if (pack_kids(lx, &b, &k) != 0)
+		return -1;
+	lx->skbeg = b;
+	lx->skid = k;
+	memset(lx->skroot, 0, sizeof lx->skroot);
+	for (uint32_t i = b[0]; i < b[1]; i++)
+		lx->skroot[k[i] & 255] = k[i] >> 8;
+	return 0;
+}
+
 const lex_entry *lex_ending(const lexicon *lx, const char *fold, size_t len,
 			    size_t *elen)
 {
 	const node *best = NULL;
 	uint32_t n = 0;
 
-	if (!lx->sfx.nedge)
+	if (!lx->sfx.nedge || !len)
 		return NULL;
+	/* most words end in no ending: told by one bit */
+	{
+		unsigned c = (unsigned char)fold[len - 1];
+		if (!(lx->sfx1[c >> 6] >> (c & 63) & 1) &&
+		    (len < 2 || !(lx->sfx2[(c << 8 | (unsigned char)fold[len - 2]) >> 6] >>
+				  ((unsigned char)fold[len - 2] & 63) & 1)))
+			return NULL;
+	}
 	/* backwards from the last byte while some ending goes on: at most
-	 * as many steps as the longest ending has bytes */
+	 * as many steps as the longest ending has bytes; each step a scan of
+	 * the node's packed children (a cache line or two) when they are
+	 * built, a probe of the edge table otherwise */
+	if (lx->skbeg) {
+		size_t i = len - 1;
+		/* the root's child by direct index: its run is every letter */
+		if (!(n = lx->skroot[(unsigned char)fold[i]]))
+			return NULL;
+		if (lx->sfx.nodes[n].first) {
+			best = &lx->sfx.nodes[n];
+			*elen = 1;
+		}
+		while (i-- > 0) {
+			uint32_t c = (unsigned char)fold[i], k = lx->skbeg[n], e = lx->skbeg[n + 1];
+			/* halved while the run is long (the root's and its
+			 * children's: every letter), then scanned */
+			while (e - k > 8) {
+				uint32_t m = k + (e - k) / 2;
+				if ((lx->skid[m] & 255) <= c)
+					k = m;
+				else
+					e = m;
+			}
+			while (k < e && (lx->skid[k] & 255) < c)
+				k++;
+			if (k == e || (lx->skid[k] & 255) != c)
+				break;
+			n = lx->skid[k] >> 8;
+			if (lx->sfx.nodes[n].first) {
+				best = &lx->sfx.nodes[n];
+				*elen = len - i;
+			}
+		}
+		return best ? node_entry(lx, best, NULL) : NULL;
+	}
 	for (size_t i = len; i-- > 0;) {
 		if (!(n = trie_get(&lx->sfx, n, (unsigned char)fold[i])))
 			break;
@@ -375,31 +634,6 @@ const lex_entry *lex_ending(const lexicon *lx, const char *fold, size_t len,
 		}
 	}
 	return best ? node_entry(lx, best, NULL) : NULL;
-}
-
-static const char *intern(lexicon *lx, const char *v)
-{
-	size_t h = (size_t)tok_hash(v, strlen(v)), i;
-	char *c;
-
-	for (i = h & (VALSLOTS - 1); lx->vslot[i]; i = (i + 1) & (VALSLOTS - 1))
-		if (strcmp(lx->vslot[i], v) == 0)
-			return lx->vslot[i];
-	if (lx->nvalues >= VALSLOTS / 2)
-		return NULL;
-	if (lx->nvalues == lx->valcap) {
-		size_t cap = lx->valcap ? lx->valcap * 2 : 32;
-		char **p = realloc(lx->values, cap * sizeof *p);
-		if (!p)
-			return NULL;
-		lx->values = p;
-		lx->valcap = cap;
-	}
-	if (!(c = strdup(v)))
-		return NULL;
-	lx->values[lx->nvalues++] = c;
-	lx->vslot[i] = c;
-	return c;
 }
 
 const lex_entry *lex_next(const lexicon *lx, const lex_entry *e)
@@ -512,15 +746,14 @@ static int add_entry(lexicon *lx, trie *t, uint32_t n, int cat, const char *lg,
 		     uint8_t amb, const char *value, int where, const char *ph,
 		     size_t plen)
 {
-	const char *v = intern(lx, value);
 	lex_entry *e;
 
-	if (!v)
+	if (strlen(value) >= sizeof e->value)
 		return -1;
 	for (uint32_t r = t->nodes[n].first; r; r = lx->ent[r].next) {
 		lex_entry *o = &lx->ent[r];
 		if (o->cat == cat && o->where == where && o->amb == amb &&
-		    !strcmp(o->lang, lg) && o->value == v) {
+		    !strcmp(o->lang, lg) && !strcmp(o->value, value)) {
 			o->off = 0;
 			return 0;
 		}
@@ -540,7 +773,7 @@ static int add_entry(lexicon *lx, trie *t, uint32_t n, int cat, const char *lg,
 	e->where = (uint8_t)where;
 	e->amb = amb;
 	memcpy(e->lang, lg, 4);
-	e->value = v;
+	memcpy(e->value, value, strlen(value) + 1);
 	{
 		size_t up = 0, low = 0;
 		for (size_t q = 0; q < plen; q++) {
@@ -584,6 +817,17 @@ static int add_ending(lexicon *lx, const char *lg, uint8_t amb, const char *ph,
 		return err_printf(err, "out of memory%s%s", "", "");
 	if (nu != 1)
 		return err_printf(err, "an ending is one word, without spaces or punctuation%s%s", "", "");
+	/* the packed children no longer hold every ending */
+	free(lx->skbeg);
+	free(lx->skid);
+	lx->skbeg = lx->skid = NULL;
+	if (flen[0] == 1)
+		lx->sfx1[(unsigned char)fold[0][0] >> 6] |= 1ULL << ((unsigned char)fold[0][0] & 63);
+	else if (flen[0] >= 2) {
+		unsigned c = (unsigned char)fold[0][flen[0] - 1] << 8 |
+			     (unsigned char)fold[0][flen[0] - 2];
+		lx->sfx2[c >> 6] |= 1ULL << (c & 63);
+	}
 	for (size_t i = flen[0]; i-- > 0 && n != UINT32_MAX;)
 		if (!(n = trie_add(&lx->sfx, n, (unsigned char)fold[0][i])))
 			n = UINT32_MAX;
@@ -599,11 +843,13 @@ int lex_add(lexicon *lx, int cat, const char *lang, const char *ph,
 	const char *fold[MAXTOK + 1];
 	uint32_t flen[MAXTOK + 1];
 	uint64_t th[MAXTOK + 1];
-	char lg[4];
+	char lg[4] = {0};
 	uint8_t amb;
 	int nu, k;
 	const char *const *allowed = allowed_values(cat);
 
+	if (own_image(lx) != 0)
+		return err_printf(err, "out of memory%s%s", "", "");
 	if (cat < 0 || cat >= LC_NCAT)
 		return err_printf(err, "no category %s%s", "", "");
 	if (parse_lang(lang, lg, &amb) != 0)
@@ -659,11 +905,13 @@ static int add_pair(lexicon *lx, const char *lang, const char *masc,
 	uint32_t fl[MAXTOK + 1];
 	uint64_t th[MAXTOK + 1];
 	lex_pair *p;
-	char lg[4];
+	char lg[4] = {0};
 	uint8_t amb;
 	char *m, *f;
 	int nu;
 
+	if (own_image(lx) != 0)
+		return err_printf(err, "out of memory%s%s", "", "");
 	if (parse_lang(lang, lg, &amb) != 0)
 		return err_printf(err, "bad language '%s'%s", lang, "");
 	if (mlen == 1 && masc[0] == '-')
@@ -757,15 +1005,13 @@ static int file_error(tm_buf *err, const char *path, long line)
 	return -1;
 }
 
-int lex_load_file(lexicon *lx, int cat, int gk, const char *path, tm_buf *err)
+int lex_read_text(const char *path, tm_buf *text, tm_buf *err)
 {
 	FILE *fp = fopen(path, "rb");
-	tm_buf text = {0};
-	size_t got, pos = 0;
-	long line = 0;
-	int rc = 0;
+	size_t got;
 	struct stat st;
 
+	buf_reset(text);
 	if (!fp) {
 		buf_reset(err);
 		buf_puts(err, path);
@@ -774,7 +1020,7 @@ int lex_load_file(lexicon *lx, int cat, int gk, const char *path, tm_buf *err)
 		return -1;
 	}
 	if (fstat(fileno(fp), &st) == 0 && st.st_size > 0 &&
-	    buf_reserve(&text, (size_t)st.st_size + 1) != 0) {
+	    buf_reserve(text, (size_t)st.st_size + 1) != 0) {
 		fclose(fp);
 		return err_printf(err, "%s: out of memory%s", path, "");
 	}
@@ -782,22 +1028,47 @@ int lex_load_file(lexicon *lx, int cat, int gk, const char *path, tm_buf *err)
 	 * copied again, and the read that finds the end leaves a byte free
 	 * for the last line's terminator */
 	for (;;) {
-		if (text.cap == text.len && buf_reserve(&text, 65536) != 0) {
+		if (text->cap == text->len && buf_reserve(text, 65536) != 0) {
 			fclose(fp);
-			buf_free(&text);
 			return err_printf(err, "%s: out of memory%s", path, "");
 		}
-		got = fread(text.data + text.len, 1, text.cap - text.len, fp);
+		got = fread(text->data + text->len, 1, text->cap - text->len, fp);
 		if (got == 0)
 			break;
-		text.len += got;
+		text->len += got;
 	}
 	if (ferror(fp)) {
 		fclose(fp);
-		buf_free(&text);
 		return err_printf(err, "%s: read error%s", path, "");
 	}
 	fclose(fp);
+	if (text->cap == text->len && buf_reserve(text, 1) != 0)
+		return err_printf(err, "%s: out of memory%s", path, "");
+	return 0;
+}
+
+int lex_load_file(lexicon *lx, int cat, int gk, const char *path, tm_buf *err)
+{
+	tm_buf text = {0};
+	int rc = lex_read_text(path, &text, err);
+
+	if (rc == 0)
+		rc = lex_load_text(lx, cat, gk, path, text.data, text.len, err);
+	buf_free(&text);
+	return rc;
+}
+
+int lex_load_text(lexicon *lx, int cat, int gk, const char *path, char *data,
+		  size_t size, tm_buf *err)
+{
+	size_t pos = 0;
+	long line = 0;
+	int rc = 0;
+	struct {
+		char *data;
+		size_t len;
+	} text = {data, size};
+
 	if (text.len >= 3 && !memcmp(text.data, "\xEF\xBB\xBF", 3))
 		pos = 3;
 	while (pos < text.len && rc == 0) {
@@ -857,7 +1128,6 @@ int lex_load_file(lexicon *lx, int cat, int gk, const char *path, tm_buf *err)
 				rc = file_error(err, path, line);
 		}
 	}
-	buf_free(&text);
 	return rc;
 }
 
@@ -866,9 +1136,17 @@ static int cmp_str(const void *a, const void *b)
 	return strcmp(*(char *const *)a, *(char *const *)b);
 }
 
-int lex_load_dir(lexicon *lx, const char *dir, tm_buf *err)
+void lex_files_free(lex_file *f, size_t n)
+{
+	for (size_t i = 0; i < n; i++)
+		free(f[i].path);
+	free(f);
+}
+
+int lex_list_dir(const char *dir, lex_file **files, size_t *nfiles, tm_buf *err)
 {
 	int cat, rc = 0;
+	size_t fcap = *nfiles;
 
 	for (cat = 0; cat < LC_NCAT && rc == 0; cat++) {
 		char path[4096];
@@ -908,7 +1186,6 @@ int lex_load_dir(lexicon *lx, const char *dir, tm_buf *err)
 		for (i = 0; i < n && rc == 0; i++) {
 			char fpath[4096 + 256];
 			int gk = GK_NONE;
-			int c = cat;
 			snprintf(fpath, sizeof fpath, "%s/%s", path, names[i]);
 			if (cat == LC_MARKER) {
 				if (!strncmp(names[i], "markers", 7))
@@ -924,11 +1201,414 @@ int lex_load_dir(lexicon *lx, const char *dir, tm_buf *err)
 					break;
 				}
 			}
-			rc = lex_load_file(lx, c, gk, fpath, err);
+			if (*nfiles == fcap) {
+				size_t nc = fcap ? fcap * 2 : 64;
+				lex_file *p = realloc(*files, nc * sizeof *p);
+				if (!p) {
+					rc = err_printf(err, "%s: out of memory%s", path, "");
+					break;
+				}
+				*files = p;
+				fcap = nc;
+			}
+			if (!((*files)[*nfiles].path = strdup(fpath))) {
+				rc = err_printf(err, "%s: out of memory%s", path, "");
+				break;
+			}
+			(*files)[*nfiles].cat = cat;
+			(*files)[*nfiles].gender_kind = gk;
+			++*nfiles;
 		}
 		for (i = 0; i < n; i++)
 			free(names[i]);
 		free(names);
 	}
 	return rc;
+}
+
+int lex_load_dir(lexicon *lx, const char *dir, tm_buf *err)
+{
+	lex_file *f = NULL;
+	size_t n = 0, i;
+	int rc;
+
+	/* the files listed before a listing error (a gender file badly
+	 * named) are read first: an error in one of them is the first met */
+	tm_buf lerr = {0};
+	int lrc = lex_list_dir(dir, &f, &n, &lerr);
+
+	rc = 0;
+	for (i = 0; i < n && rc == 0; i++)
+		rc = lex_load_file(lx, f[i].cat, f[i].gender_kind, f[i].path, err);
+	if (rc == 0 && lrc != 0) {
+		buf_reset(err);
+		buf_append(err, lerr.data, lerr.len);
+		rc = -1;
+	}
+	buf_free(&lerr);
+	lex_files_free(f, n);
+	return rc;
+}
+
+
+/* ---- the compiled image (the lexicon cache) ----
+ *
+ * A header (struct img_head), then these sections, each starting on a
+ * multiple of 8 bytes, in the byte order of the machine that wrote it;
+ * the arrays are the lexicon's own, as they are in memory, so that a
+ * lexicon reads them in place:
+ *   strs    the word folds (strslen bytes; byte 0 is 0)
+ *   voc     voccap word slots (wslot), at most half full
+ *   words   nvoc + 1 wordrec; root: nvoc + 1 uint32; wnext: nvoc + 1 bytes
+ *   ph      phcap edges, then phnode nodes; sfx: sfxcap edges, sfxnode
+ *           nodes, the bits sfx2 and sfx1, skbeg (sfxnode + 1 uint32)
+ *           and skid (sfxedge uint32)
+ *   ent     nent lex_entry (entry 0 unused)
+ *   pairs   npairs img_pair (the endings as offsets into pstr); pstr
+ *           (pstrlen bytes of NUL-terminated endings); byfem (npairs
+ *           uint32); femat (258 uint32)
+ * The checksum (dg_hash) covers every byte after the field `sum`. */
+
+#define IMG_MAGIC "TMLEXIMG"
+#define IMG_ORDER 0x01020304u
+#define IMG_SUM_SEED 0x6C6578696D616765ULL
+
+typedef struct img_head {
+	char magic[8];
+	uint32_t version, order;
+	unsigned char key[16];
+	uint64_t sum;
+	uint64_t total;  /* bytes of the whole image */
+	uint32_t sizes;  /* sizeof of the structures below, packed: another
+			  * compiler's layout is another format */
+	uint32_t nvoc, voccap, phcap, phedge, phnode, sfxcap, sfxedge, sfxnode;
+	uint32_t nent, npairs, strslen, pstrlen, pad;
+} img_head;
+
+typedef struct img_pair {
+	char lang[4];
+	uint8_t amb, mlen, flen, pad;
+	uint32_t masc, fem;
+} img_pair;
+
+#define PAD8(n) (((uint64_t)(n) + 7) & ~(uint64_t)7)
+
+static uint32_t img_sizes(void)
+{
+	return (uint32_t)(sizeof(wslot) | sizeof(wordrec) << 5 | sizeof(edge) << 10 |
+			  sizeof(node) << 15 | sizeof(lex_entry) << 20 |
+			  sizeof(img_pair) << 26);
+}
+
+static int put(tm_buf *o, const void *p, size_t n)
+{
+	static const char zero[8];
+	if (n && buf_append(o, p, n) != 0)
+		return -1;
+	return buf_append(o, zero, (size_t)(PAD8(n) - n));
+}
+
+int lex_image_write(const lexicon *lx, const unsigned char key[16], tm_buf *out)
+{
+	img_head h;
+	tm_buf pv = {0}, ps = {0};
+	uint32_t *kbo = NULL, *kdo = NULL;
+	const uint32_t *kb, *kd;
+	size_t i;
+	int rc = -1;
+
+	memset(&h, 0, sizeof h);
+	memcpy(h.magic, IMG_MAGIC, 8);
+	h.version = LEX_IMAGE_VERSION;
+	h.order = IMG_ORDER;
+	h.sizes = img_sizes();
+	memcpy(h.key, key, 16);
+	if (lx->strs.len > UINT32_MAX || lx->nent > UINT32_MAX || lx->ph.nnode > UINT32_MAX ||
+	    lx->ph.edgecap > UINT32_MAX || lx->voccap > UINT32_MAX || lx->npairs > UINT32_MAX)
+		return -1;
+	h.nvoc = (uint32_t)lx->nvoc;
+	h.voccap = (uint32_t)lx->voccap;
+	h.phcap = (uint32_t)lx->ph.edgecap;
+	h.phedge = (uint32_t)lx->ph.nedge;
+	h.phnode = (uint32_t)lx->ph.nnode;
+	h.sfxcap = (uint32_t)lx->sfx.edgecap;
+	h.sfxedge = (uint32_t)lx->sfx.nedge;
+	h.sfxnode = (uint32_t)lx->sfx.nnode;
+	h.nent = (uint32_t)lx->nent;
+	h.npairs = (uint32_t)lx->npairs;
+	h.strslen = (uint32_t)lx->strs.len;
+	for (i = 0; i < lx->npairs; i++) {
+		const lex_pair *p = &lx->pairs[i];
+		img_pair d;
+		memset(&d, 0, sizeof d);
+		memcpy(d.lang, p->lang, 4);
+		d.amb = p->amb;
+		d.mlen = p->mlen;
+		d.flen = p->flen;
+		d.masc = (uint32_t)ps.len;
+		if (buf_append(&ps, p->masc, strlen(p->masc) + 1))
+			goto done;
+		d.fem = (uint32_t)ps.len;
+		if (buf_append(&ps, p->fem, strlen(p->fem) + 1) || buf_append(&pv, &d, sizeof d))
+			goto done;
+	}
+	h.pstrlen = (uint32_t)ps.len;
+	if (lx->skbeg) {
+		kb = lx->skbeg;
+		kd = lx->skid;
+	} else if (pack_kids(lx, &kbo, &kdo) != 0)
+		goto done;
+	else {
+		kb = kbo;
+		kd = kdo;
+	}
+	buf_reset(out);
+	if (put(out, &h, sizeof h) || put(out, lx->strs.data, lx->strs.len) ||
+	    put(out, lx->voc, lx->voccap * sizeof *lx->voc) ||
+	    put(out, lx->words, (lx->nvoc + 1) * sizeof *lx->words) ||
+	    put(out, lx->root, (lx->nvoc + 1) * sizeof *lx->root) ||
+	    put(out, lx->wnext, lx->nvoc + 1) ||
+	    put(out, lx->ph.edges, lx->ph.edgecap * sizeof *lx->ph.edges) ||
+	    put(out, lx->ph.nodes, lx->ph.nnode * sizeof *lx->ph.nodes) ||
+	    put(out, lx->sfx.edges, lx->sfx.edgecap * sizeof *lx->sfx.edges) ||
+	    put(out, lx->sfx.nodes, lx->sfx.nnode * sizeof *lx->sfx.nodes) ||
+	    put(out, lx->sfx2, sizeof lx->sfx2) || put(out, lx->sfx1, sizeof lx->sfx1) ||
+	    put(out, kb, (lx->sfx.nnode + 1) * sizeof *kb) ||
+	    put(out, kd, lx->sfx.nedge * sizeof *kd) ||
+	    put(out, lx->ent, lx->nent * sizeof *lx->ent) || put(out, pv.data, pv.len) ||
+	    put(out, ps.data, ps.len) || put(out, lx->byfem, lx->npairs * sizeof *lx->byfem) ||
+	    put(out, lx->femat, sizeof lx->femat))
+		goto done;
+	h.total = out->len;
+	memcpy(out->data, &h, sizeof h);
+	lex_image_seal(out->data, out->len);
+	rc = 0;
+done:
+	free(kbo);
+	free(kdo);
+	buf_free(&pv);
+	buf_free(&ps);
+	if (rc)
+		buf_reset(out);
+	return rc;
+}
+
+void lex_image_seal(void *p, size_t n)
+{
+	size_t at = offsetof(img_head, total);
+	uint64_t sum;
+	if (n < sizeof(img_head))
+		return;
+	sum = dg_hash((char *)p + at, n - at, IMG_SUM_SEED);
+	memcpy((char *)p + offsetof(img_head, sum), &sum, sizeof sum);
+}
+
+/* The sections of an image, each taken in turn with its size. */
+typedef struct img_rd {
+	char *p;
+	uint64_t at, n;
+} img_rd;
+
+static void *take(img_rd *r, uint64_t len)
+{
+	void *q = r->p + r->at;
+	if (PAD8(len) > r->n - r->at)
+		return NULL;
+	r->at += PAD8(len);
+	return q;
+}
+
+static int pow2(uint64_t x)
+{
+	return x >= 2 && (x & (x - 1)) == 0;
+}
+
+static int why_not(tm_buf *w, const char *s)
+{
+	buf_reset(w);
+	buf_puts(w, s);
+	return 1;
+}
+
+/* Every edge between the trie's nodes, by a symbol below lim; the
+ * number of edges as counted, at least one slot empty (a probe ends);
+ * every node's entries inside the entry array. */
+static int check_trie(const trie *t, uint64_t nedge, uint64_t lim, uint64_t nent)
+{
+	uint64_t got = 0;
+	for (size_t i = 0; i < t->edgecap; i++) {
+		uint64_t k = t->edges[i].key;
+		if (!k)
+			continue;
+		got++;
+		if ((k >> 32) >= t->nnode || (uint32_t)k == 0 || (uint32_t)k >= lim ||
+		    t->edges[i].child == 0 || t->edges[i].child >= t->nnode)
+			return -1;
+	}
+	if (got != nedge || got >= t->edgecap)
+		return -1;
+	for (size_t i = 0; i < t->nnode; i++)
+		if (t->nodes[i].first >= nent || t->nodes[i].cats >> LC_NCAT)
+			return -1;
+	return 0;
+}
+
+static int cstr_ok(const char *s, size_t n)
+{
+	return memchr(s, 0, n) != NULL;
+}
+
+int lex_image_use(void *image, size_t n, int mapped, const unsigned char key[16],
+		  lexicon **out, tm_buf *w)
+{
+	img_head h;
+	img_rd r = {image, sizeof h, n};
+	lexicon *lx;
+	const char *pstr;
+	const img_pair *ip;
+	const uint32_t *fa;
+	const void *s1, *s2;
+	size_t i;
+
+	*out = NULL;
+	if (n < sizeof h || ((uintptr_t)image & 7))
+		return why_not(w, "shorter than its header");
+	memcpy(&h, image, sizeof h);
+	if (memcmp(h.magic, IMG_MAGIC, 8))
+		return why_not(w, "not a lexicon image");
+	if (h.version != LEX_IMAGE_VERSION || h.order != IMG_ORDER || h.sizes != img_sizes())
+		return why_not(w, "another version, byte order or layout");
+	if (memcmp(h.key, key, 16))
+		return why_not(w, "made from other lexicon files or by another build");
+	if (h.total != n)
+		return why_not(w, "truncated or extended");
+	if (dg_hash((const char *)image + offsetof(img_head, total),
+		    n - offsetof(img_head, total), IMG_SUM_SEED) != h.sum)
+		return why_not(w, "checksum mismatch");
+	if (!pow2(h.voccap) || h.nvoc >= h.voccap || !pow2(h.phcap) || !pow2(h.sfxcap) ||
+	    h.phnode < 1 || h.sfxnode < 1 || h.nent < 1 || h.strslen < 1)
+		return why_not(w, "bad counts");
+	if (!(lx = calloc(1, sizeof *lx)))
+		return -1;
+	lx->voccap = h.voccap;
+	lx->nvoc = h.nvoc;
+	lx->wordcap = (size_t)h.nvoc + 1;
+	lx->ph.edgecap = h.phcap;
+	lx->ph.nedge = h.phedge;
+	lx->ph.nnode = lx->ph.nodecap = h.phnode;
+	lx->sfx.edgecap = h.sfxcap;
+	lx->sfx.nedge = h.sfxedge;
+	lx->sfx.nnode = lx->sfx.nodecap = h.sfxnode;
+	lx->entcap = lx->nent = h.nent;
+	lx->strs.len = h.strslen;
+	lx->strs.cap = h.strslen;
+	if (!(lx->strs.data = take(&r, h.strslen)) ||
+	    !(lx->voc = take(&r, (uint64_t)h.voccap * sizeof *lx->voc)) ||
+	    !(lx->words = take(&r, (uint64_t)lx->wordcap * sizeof *lx->words)) ||
+	    !(lx->root = take(&r, (uint64_t)lx->wordcap * sizeof *lx->root)) ||
+	    !(lx->wnext = take(&r, lx->wordcap)) ||
+	    !(lx->ph.edges = take(&r, (uint64_t)h.phcap * sizeof(edge))) ||
+	    !(lx->ph.nodes = take(&r, (uint64_t)h.phnode * sizeof(node))) ||
+	    !(lx->sfx.edges = take(&r, (uint64_t)h.sfxcap * sizeof(edge))) ||
+	    !(lx->sfx.nodes = take(&r, (uint64_t)h.sfxnode * sizeof(node))) ||
+	    !(s2 = take(&r, sizeof lx->sfx2)) || !(s1 = take(&r, sizeof lx->sfx1)) ||
+	    !(lx->skbeg = take(&r, ((uint64_t)h.sfxnode + 1) * sizeof *lx->skbeg)) ||
+	    !(lx->skid = take(&r, (uint64_t)h.sfxedge * sizeof *lx->skid)) ||
+	    !(lx->ent = take(&r, (uint64_t)h.nent * sizeof *lx->ent)) ||
+	    !(ip = take(&r, (uint64_t)h.npairs * sizeof *ip)) ||
+	    !(pstr = take(&r, h.pstrlen)) ||
+	    !(fa = take(&r, (uint64_t)h.npairs * sizeof(uint32_t))) ||
+	    !take(&r, sizeof lx->femat) || r.at != r.n)
+		goto bad;
+	memcpy(lx->sfx2, s2, sizeof lx->sfx2);
+	memcpy(lx->sfx1, s1, sizeof lx->sfx1);
+	/* the vocabulary: as many ids as words, every fold inside strs */
+	{
+		uint64_t got = 0;
+		for (i = 0; i < lx->voccap; i++)
+			if (lx->voc[i].id) {
+				if (lx->voc[i].id > lx->nvoc)
+					goto bad;
+				got++;
+			}
+		if (got != lx->nvoc || lx->root[0] != 0)
+			goto bad;
+		for (i = 1; i <= lx->nvoc; i++)
+			if ((uint64_t)lx->words[i].str + lx->words[i].len > lx->strs.len ||
+			    lx->root[i] >= lx->ph.nnode)
+				goto bad;
+	}
+	if (check_trie(&lx->ph, h.phedge, (uint64_t)h.nvoc + 1, h.nent) ||
+	    check_trie(&lx->sfx, h.sfxedge, 256, h.nent))
+		goto bad;
+	/* the packed children: runs in order inside skid, children inside
+	 * the trie */
+	if (lx->skbeg[0] != 0 || lx->skbeg[h.sfxnode] != h.sfxedge)
+		goto bad;
+	for (i = 0; i < h.sfxnode; i++)
+		if (lx->skbeg[i] > lx->skbeg[i + 1])
+			goto bad;
+	for (i = 0; i < h.sfxedge; i++)
+		if ((lx->skid[i] >> 8) == 0 || (lx->skid[i] >> 8) >= h.sfxnode)
+			goto bad;
+	for (i = lx->skbeg[0]; i < lx->skbeg[1]; i++)
+		lx->skroot[lx->skid[i] & 255] = lx->skid[i] >> 8;
+	/* the entries: known codes, terminated strings, and lists that only
+	 * go forward (no cycle) */
+	for (i = 1; i < lx->nent; i++) {
+		const lex_entry *e = &lx->ent[i];
+		if (e->cat >= LC_NCAT || e->where > LW_ADJ || e->amb > 1 || e->off > 1 ||
+		    e->caps > 1 || e->lang[sizeof e->lang - 1] ||
+		    e->value[sizeof e->value - 1] ||
+		    (e->next && (e->next <= i || e->next >= lx->nent)))
+			goto bad;
+	}
+	/* the gendered pairs (copied: they hold pointers) and their index by
+	 * the feminine ending */
+	memcpy(lx->femat, (const char *)fa + PAD8((uint64_t)h.npairs * sizeof(uint32_t)),
+	       sizeof lx->femat);
+	if (h.pstrlen && pstr[h.pstrlen - 1] != 0)
+		goto bad;
+	if (lx->femat[0] != 0 || lx->femat[257] != h.npairs)
+		goto bad;
+	for (i = 0; i < 257; i++)
+		if (lx->femat[i] > lx->femat[i + 1])
+			goto bad;
+	if (!(lx->pairs = calloc((size_t)h.npairs + 1, sizeof *lx->pairs)) ||
+	    !(lx->byfem = malloc(((size_t)h.npairs + 1) * sizeof *lx->byfem)))
+		goto nomem;
+	for (i = 0; i < h.npairs; i++) {
+		img_pair d;
+		lex_pair *p = &lx->pairs[i];
+		memcpy(&d, &ip[i], sizeof d);
+		if (!cstr_ok(d.lang, sizeof d.lang) || d.amb > 1 || d.masc >= h.pstrlen ||
+		    d.fem >= h.pstrlen || fa[i] >= h.npairs)
+			goto bad;
+		memcpy(p->lang, d.lang, 4);
+		p->amb = d.amb;
+		p->mlen = d.mlen;
+		p->flen = d.flen;
+		lx->byfem[i] = fa[i];
+		if (!(p->masc = strdup(pstr + d.masc)) || !(p->fem = strdup(pstr + d.fem)))
+			goto nomem_pairs;
+		lx->npairs = lx->paircap = i + 1;
+		if (p->mlen != (strlen(p->masc) > 255 ? 255 : strlen(p->masc)) ||
+		    p->flen != (strlen(p->fem) > 255 ? 255 : strlen(p->fem)))
+			goto bad;
+	}
+	lx->image = image;
+	lx->imagelen = n;
+	lx->mapped = mapped;
+	*out = lx;
+	return 0;
+nomem_pairs:
+	free((char *)lx->pairs[i].masc);
+nomem:
+	lex_free_pairs(lx);
+	free(lx);
+	return -1;
+bad:
+	lex_free_pairs(lx);
+	free(lx);
+	return why_not(w, "inconsistent contents");
 }

@@ -8,6 +8,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include "lexcache.h"
 #include "skos.h"
 #include "tsv.h"
 
@@ -116,6 +117,31 @@ static int add_labels(lexicon *lx, const char *path, tm_buf *err)
 	return r < 0 ? -1 : 0;
 }
 
+/* The files of every lexicon folder in reading order (the bundled
+ * folder, TITLEMILL_LEXICONS, --lexicons); -1 when a folder is missing
+ * or a file badly named (the reading without the cache then reports
+ * it as it meets it). */
+static int list_all(const char *base, const char *env, const setup_opts *o,
+		    lex_file **f, size_t *n)
+{
+	tm_buf e = {0};
+	int rc = lex_list_dir(base, f, n, &e);
+
+	if (rc == 0 && env && *env) {
+		char *copy = strdup(env), *save = NULL, *d;
+		if (!copy)
+			rc = -1;
+		for (d = copy ? strtok_r(copy, ":", &save) : NULL; d && rc == 0;
+		     d = strtok_r(NULL, ":", &save))
+			rc = is_dir(d) ? lex_list_dir(d, f, n, &e) : -1;
+		free(copy);
+	}
+	for (int i = 0; i < o->nextra && rc == 0; i++)
+		rc = is_dir(o->extra[i]) ? lex_list_dir(o->extra[i], f, n, &e) : -1;
+	buf_free(&e);
+	return rc;
+}
+
 lexicon *setup_lexicon(const setup_opts *o, tm_buf *err)
 {
 	const char *base = o->base ? o->base : setup_base_dir();
@@ -131,6 +157,17 @@ lexicon *setup_lexicon(const setup_opts *o, tm_buf *err)
 		buf_puts(err, base);
 		buf_puts(err, ": not a lexicon folder");
 		return NULL;
+	}
+	if (lc_enabled()) {
+		lex_file *f = NULL;
+		size_t n = 0;
+		int r = list_all(base, env, o, &f, &n) == 0 ? lc_build(f, n, &lx, err) : 1;
+		lex_files_free(f, n);
+		if (r < 0)
+			return NULL;
+		if (r == 0)
+			goto labels;
+		buf_reset(err);
 	}
 	if (!(lx = lex_new())) {
 		buf_puts(err, "out of memory");
@@ -167,6 +204,9 @@ lexicon *setup_lexicon(const setup_opts *o, tm_buf *err)
 		if (lex_load_dir(lx, o->extra[i], err) != 0)
 			goto fail;
 	}
+labels:
+	/* (when memory runs out the endings are read from the trie) */
+	(void)lex_freeze(lx);
 	if (o->labels && add_labels(lx, o->labels, err) != 0)
 		goto fail;
 	return lx;

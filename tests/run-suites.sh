@@ -7,6 +7,12 @@ set -u
 here=$(cd "$(dirname "$0")" && pwd)
 TITLEMILL=${TITLEMILL:-$here/../titlemill}
 export TITLEMILL
+# a private lexicon cache for the run, unless one is given
+if [ -z "${TITLEMILL_LEXCACHE:-}" ]; then
+	TITLEMILL_LEXCACHE=$(mktemp -d "${TMPDIR:-/tmp}/tm-lexcache-XXXXXX")
+	trap 'rm -rf "$TITLEMILL_LEXCACHE"' EXIT
+fi
+export TITLEMILL_LEXCACHE
 pass=0 fail=0
 for s in "$here"/cli/*.sh "$here"/cases/*.sh; do
 	[ -f "$s" ] || continue

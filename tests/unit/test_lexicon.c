@@ -316,6 +316,152 @@ static void test_place_where(void **state)
 	buf_free(&err);
 }
 
+/* A small lexicon of every kind of data an image holds. */
+static lexicon *small_lexicon(void)
+{
+	lexicon *lx = lex_new();
+	tm_buf err = {0};
+	static const char *const ph[][4] = {
+		{"en", "full-time", "full_time", ""}, {"de", "Vollzeit", "full_time", ""},
+		{"fr", "temps plein", "full_time", ""}, {"*", "Köln", "DE", ""},
+		{"*", "Zürich", "CH", ""}, {"en", "care home", "kind", "b"},
+		{"de", "-fachkraft", "suffix", "o"}, {"en", "manager", "head", "o"},
+		{"en", "part time", "part_time", ""}, {"en", "part time job", "part_time", ""},
+	};
+	assert_non_null(lx);
+	for (size_t i = 0; i < sizeof ph / sizeof ph[0]; i++) {
+		int cat = ph[i][3][0] == 'b' ? LC_BUSINESS : ph[i][3][0] == 'o' ? LC_OCCUPATION
+			: ph[i][2][0] >= 'A' && ph[i][2][0] <= 'Z' ? LC_PLACE : LC_SCHEDULE;
+		assert_int_equal(lex_add(lx, cat, ph[i][0], ph[i][1], strlen(ph[i][1]), ph[i][2],
+					 cat == LC_PLACE ? LW_SLOT : LW_ANY, &err), 0);
+	}
+	/* the phrase entered twice, in two categories */
+	assert_int_equal(lex_add(lx, LC_UNIT, "*", "Full Time", 9, "hours", LW_ANY, &err), 0);
+	FILE *f = fopen("/tmp/tm-test-img-pairs.txt", "w");
+	assert_non_null(f);
+	fputs("de\ter\terin\nfr\teur\teuse\nes\to\ta\n", f);
+	fclose(f);
+	assert_int_equal(lex_load_file(lx, LC_MARKER, 3, "/tmp/tm-test-img-pairs.txt", &err), 0);
+	unlink("/tmp/tm-test-img-pairs.txt");
+	buf_free(&err);
+	return lx;
+}
+
+/* Every lookup of the small lexicon, walking what it finds: on a
+ * damaged image that was accepted this must stay in bounds (ASan). */
+static void walk(lexicon *lx)
+{
+	static const char *const words[] = {"full", "time", "koln", "zurich", "care", "home",
+					    "manager", "job", "part", "vollzeit", "x"};
+	size_t n, elen;
+	for (size_t i = 0; i < sizeof words / sizeof words[0]; i++) {
+		uint32_t node = lex_step(lx, LEX_ROOT, word_id(lx, words[i]));
+		for (size_t j = 0; j < sizeof words / sizeof words[0] && node; j++) {
+			uint32_t cats;
+			for (const lex_entry *e = lex_phrase(lx, node, &cats); e; e = lex_next(lx, e))
+				assert_true(strlen(e->value) < sizeof e->value);
+			node = lex_step(lx, node, word_id(lx, words[j]));
+		}
+	}
+	lex_ending(lx, "lagerfachkraft", 14, &elen);
+	lex_pairs(lx, &n);
+	for (int c = -1; c < 256; c++) {
+		const uint32_t *g = lex_pairs_fem_last(lx, c, &n);
+		for (size_t i = 0; i < n; i++)
+			assert_true(g[i] < 1000);
+	}
+}
+
+static void *copy8(const tm_buf *b)
+{
+	void *p = NULL;
+	assert_int_equal(posix_memalign(&p, 8, b->len), 0);
+	memcpy(p, b->data, b->len);
+	return p;
+}
+
+/* The image of a lexicon read back in place gives the same lookups,
+ * stays extendable, and a damaged, truncated or foreign image is refused
+ * (never read out of bounds, also when its checksum was made right). */
+static void test_image(void **state)
+{
+	(void)state;
+	static const unsigned char key[16] = "0123456789abcdef", other[16] = "0123456789abcdeX";
+	lexicon *lx = small_lexicon(), *back = NULL;
+	tm_buf img = {0}, img2 = {0}, why = {0}, err = {0};
+	size_t n, n2, elen;
+	void *p;
+
+	assert_int_equal(lex_image_write(lx, key, &img), 0);
+	p = copy8(&img);
+	assert_int_equal(lex_image_use(p, img.len, 0, other, &back, &why), 1);
+	assert_null(back);
+	assert_non_null(strstr(why.data, "other lexicon files"));
+	assert_int_equal(lex_image_use(p, img.len, 0, key, &back, &why), 0);
+	/* the same lookups and the same image again */
+	assert_int_equal(word_id(back, "vollzeit"), word_id(lx, "vollzeit"));
+	assert_string_equal(find(back, "full time")->value, "full_time");
+	assert_string_equal(lex_next(back, find(back, "full time"))->value, "hours");
+	assert_string_equal(find(back, "Köln")->value, "DE");
+	assert_string_equal(find(back, "part time job")->value, "part_time");
+	assert_non_null(lex_ending(back, "lagerfachkraft", 14, &elen));
+	assert_int_equal(elen, 9);
+	assert_string_equal(lex_pairs(back, &n)[1].fem, "euse");
+	assert_int_equal(n, 3);
+	assert_int_equal(lex_pairs_fem_last(back, 'a', &n)[0], 2);
+	assert_int_equal(lex_image_write(back, key, &img2), 0);
+	assert_int_equal(img2.len, img.len);
+	assert_memory_equal(img2.data, img.data, img.len);
+	/* extendable: a label added after the image was read */
+	assert_int_equal(lex_add(back, LC_PROTECT, "*", "Pflegefachkraft Intensiv", 24, "-", LW_ANY, &err), 0);
+	assert_non_null(find(back, "pflegefachkraft intensiv"));
+	assert_string_equal(find(back, "full time")->value, "full_time");
+	assert_int_equal(lex_add(back, LC_SCHEDULE, "en", "full time", 9, "full_time", LW_OFF, &err), 0);
+	assert_true(find(back, "full time")->off);
+	lex_free(back); /* and the image it owned */
+	p = copy8(&img);
+
+	/* truncated at every length of the header, and at a sample past it */
+	for (n = 0; n < img.len; n = n < 256 ? n + 1 : n * 3 / 2 + 7) {
+		assert_int_equal(lex_image_use(p, n, 0, key, &back, &why), 1);
+		assert_null(back);
+	}
+	/* bytes flipped: refused by the checksum; with the checksum made
+	 * right again, refused by the checks or read within bounds */
+	srand(7);
+	for (int k = 0; k < 400; k++) {
+		unsigned char *q = p;
+		size_t at = k < 200 ? (size_t)rand() % img.len
+				    : img.len - 1 - (size_t)rand() % (img.len / 8);
+		unsigned char bit = (unsigned char)(1u << (rand() % 8));
+		q[at] ^= bit;
+		if (at >= 48)
+			assert_int_equal(lex_image_use(p, img.len, 0, key, &back, &why), 1);
+		lex_image_seal(p, img.len);
+		n2 = 0;
+		int r = lex_image_use(p, img.len, 0, key, &back, &why);
+		assert_true(r == 0 || r == 1);
+		if (r == 0) {
+			walk(back);
+			/* the lexicon owns the image now: give it a copy back */
+			lex_free(back);
+			p = copy8(&img);
+			n2 = 1;
+		}
+		if (!n2) {
+			q[at] ^= bit;
+			lex_image_seal(p, img.len);
+		}
+	}
+	free(p);
+	find(lx, "");
+	lex_free(lx);
+	buf_free(&img);
+	buf_free(&img2);
+	buf_free(&why);
+	buf_free(&err);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -323,6 +469,7 @@ int main(void)
 		cmocka_unit_test(test_load_dir),
 		cmocka_unit_test(test_occupation_and_business),
 		cmocka_unit_test(test_place_where),
+		cmocka_unit_test(test_image),
 	};
 	return cmocka_run_group_tests_name("lexicon", tests, NULL, NULL);
 }
