@@ -542,6 +542,61 @@ def lv_forms(name):
 
 
 # ---------------------------------------------------------------------------
+# Greek accusative after στη(ν), στο(ν), στα, στις, στους
+# ---------------------------------------------------------------------------
+
+# Nominative ending -> accusative ending of a word of a Greek place name
+# (Βόλος -> στο Βόλο, Ρόδος -> στη Ρόδο, Πειραιάς -> στον Πειραιά); a
+# name in -α, -η, -ο, -ι or a plural in -α, -ες is the same in both cases.
+EL_ACC = (("ος", "ο"), ("ός", "ό"), ("ας", "α"), ("άς", "ά"),
+          ("ης", "η"), ("ής", "ή"))
+GREEK = re.compile(r"[\u0370-\u03ff\u1f00-\u1fff]")
+
+
+def el_forms(name):
+    if not GREEK.search(name):
+        return []
+    words = []
+    for w in name.split(" "):
+        for nom, acc in EL_ACC:
+            if w.endswith(nom) and len(w) > len(nom) + 1:
+                w = w[:-len(nom)] + acc
+                break
+        words.append(w)
+    form = " ".join(words)
+    return [form] if form != name else []
+
+
+# ---------------------------------------------------------------------------
+# Irish initial mutations of a place name
+# ---------------------------------------------------------------------------
+
+# Eclipsis after `i` and `ar an` (i nGaillimh, i gCorcaigh, i mBaile Átha
+# Cliath, ar an gCeathrú Rua); lenition after `Co.`, `Contae` and in
+# compounds (Co. Chiarraí, Contae Mhaigh Eo).  A name opening with the
+# article (An Uaimh) is not mutated.
+GA_ECLIPSIS = {"b": "m", "c": "g", "d": "n", "f": "bh", "g": "n",
+               "p": "b", "t": "d"}
+GA_LENITE = "bcdfgmpst"
+
+
+def ga_forms(name):
+    first = name.split(" ")[0]
+    if first.lower() in ("an", "na") or len(first) < 2:
+        return []
+    c = first[0].lower()
+    out = []
+    if c in GA_ECLIPSIS:
+        out.append(GA_ECLIPSIS[c] + name)
+    elif c in "aeiouáéíóú":
+        out.append("n" + name)
+    if c in GA_LENITE and first[1].lower() != "h" and not (
+            c == "s" and first[1].lower() not in "aeiouáéíóúlnr"):
+        out.append(name[0] + "h" + name[1:])
+    return out
+
+
+# ---------------------------------------------------------------------------
 # German place adjectives in -er
 # ---------------------------------------------------------------------------
 
@@ -769,6 +824,21 @@ def main():
             for form in de_adjectives(name):
                 add("de", form, cc, "adjective")
 
+    # Greek accusatives of the Greek-script names (after στη, στο, στα: a
+    # location slot), Irish mutated forms of the Irish-language names (the
+    # LANG column `ga` of curated.txt)
+    for fname in ("cldr.txt", "curated.txt"):
+        with open(os.path.join(folder, fname), encoding="utf-8") as f:
+            for line in f:
+                cols = line.rstrip("\n").split("\t")
+                if line.startswith("#") or len(cols) < 3:
+                    continue
+                rule = {"ga": ga_forms}.get(cols[0].rstrip("?"), el_forms)
+                lang = "ga" if rule is ga_forms else "el"
+                for form in rule(cols[1]):
+                    if fold_phrase(form) not in names:
+                        add(lang, form, cols[2], "slot")
+
     # Turkish provinces: the locative follows an apostrophe (Ankara'da), a
     # token of its own, which location/tr.txt lists as an `after` word; the
     # name is all that is needed
@@ -793,7 +863,8 @@ def main():
         "adessive/allative, hu -ban/-on and the adjective in -i (larger",
         "places: curated.txt cldr.txt iso3166.txt),",
         "pl cs sk sl hr locative, lt lv locative, German adjectives in -er",
-        "of the larger places in DE AT CH.",
+        "of the larger places in DE AT CH, el accusatives of the Greek-script",
+        "names, ga eclipsed and lenited forms of the Irish names (curated.txt).",
         "WHERE: slot (after a preposition), any (a location by itself),",
         "strong (also an ordinary word), adjective (a place only before a",
         "location `after` word); LANG? where the form's match key is a name.",
