@@ -633,32 +633,40 @@ static size_t grade_part(tm_title *ti, size_t k, size_t k0)
 static int grade_segment(tm_title *ti, size_t s)
 {
 	size_t k0, k1, k, len, start = SIZE_MAX;
-	int words = 0;
+	int words = 0, codes = 0;
 	const tm_seg *g = &ti->segs[s];
 
 	seg_kept(ti, s, &k0, &k1);
 	if (k0 >= k1)
 		return 0;
-	/* the whole segment (or the head going on after a bracket) */
-	if (g->bracket || g->index != 0 || g->resumed) {
+	/* the whole segment (or the head going on after a bracket); the
+	 * first segment only when it is all grade, with no agreement name
+	 * that could be the occupation ("Vergütungsgruppe 9: Bäcker") */
+	int first = !g->bracket && g->index == 0 && !g->resumed;
+	if (!first || ti->nseg > 1) {
 		for (k = k0; k < k1; k += len) {
 			size_t w = grade_word(ti, k, k0);
 			if (!(len = grade_part(ti, k, k0))) {
-				size_t e = words ? grade_tail(ti, k, k1, 1) : k;
+				size_t e = words && !first ? grade_tail(ti, k, k1, 1) : k;
 				/* the name after an abbreviation: "CCNL Commercio" */
-				if (words && k > k0 && (U(ti, k - 1)->flags & TF_ALLCAPS) &&
+				if (words && !first && k > k0 && (U(ti, k - 1)->flags & TF_ALLCAPS) &&
 				    k1 - k <= GRADE_TAIL_MAX && units_free(ti, k, k1))
 					e = k1;
 				if (e == k1)
 					break;
-				return 0;
+				words = 0;
+				break;
 			}
 			/* a pay phrase that opens with a grade word: "livello CCNL" */
 			words |= w > 0 || match_val(ti, k, LC_PAY, "lead", 1, &w);
+			codes += !w && grade_code(ti, k);
 		}
-		if (words && !last_word(ti, k0, k1))
+		/* a first segment holds a code too: "PA" is a word, not the
+		 * Irish grade word "pá" */
+		if (words && (!first || codes) && !last_word(ti, k0, k1))
 			return remove_units(ti, k0, k1, NF_PAY, "grade");
-		return 0;
+		if (!first)
+			return 0;
 	}
 	/* a grade at the head segment's end: look for its grade word */
 	for (k = k0 + 1; k < k1; k++) {
@@ -1076,10 +1084,24 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 				continue;
 			e = p;
 		}
-		/* an edge word is never the title's last word: Principal */
+		/* an edge word is never the title's last word: Principal;
+		 * whether it is shows only once the other rules removed
+		 * their noise ("Trainee – neu", "Trainee – Hardegg"), so
+		 * it goes in the last run alone */
 		if (e->where == LW_EDGE && e->cat == LC_SENIORITY &&
-		    last_word(ti, k, k + len))
-			continue;
+		    (ti->phrase_runs < 2 || last_word(ti, k, k + len))) {
+			/* the same phrase in another category goes as that
+			 * ("ouvert aux débutants" is marketing too) */
+			size_t l2;
+			const lex_entry *o = match_mask(ti, k, phrase_mask &
+							~(1u << LC_SENIORITY), 1, &l2);
+			if (!o || l2 != len) {
+				if (ti->phrase_runs < 2)
+					k += len - 1; /* not a word of it alone */
+				continue;
+			}
+			e = o;
+		}
 		if ((e->where == LW_EDGE && k != a && k + len != b) ||
 		    (e->where == LW_ALONE && (k != a || k + len != b)) ||
 		    e->where == LW_SLOT || e->where == LW_STRONG)
@@ -1183,6 +1205,7 @@ int pass_phrases(tm_title *ti)
 {
 	int changed = 1, rounds = 0;
 
+	ti->phrase_runs++;
 	while (changed && rounds++ < 64) {
 		changed = 0;
 		for (size_t s = 0; s < ti->nseg; s++)

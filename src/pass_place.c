@@ -352,16 +352,54 @@ int remove_place_segment(tm_title *ti, size_t s)
 	return 0;
 }
 
-/* A bracket or later segment made only of location words. */
+int ending_whole(tm_title *ti, size_t k)
+{
+	const tm_tok *t = U(ti, k);
+	size_t elen;
+	return t->kind == TK_WORD &&
+	       lex_ending(ti->lx, tok_fold(&ti->tl, t), t->flen, &elen) &&
+	       elen == t->flen;
+}
+
+/* Does segment s hold an occupational word: a `head` of occupation/, or
+ * a word that is an occupational ending whole ("kock")?  A place name
+ * that merely ends like one ("Montpellier") is no such word. */
+static int occupation_word(tm_title *ti, size_t s)
+{
+	size_t k0, k1, len;
+	seg_kept(ti, s, &k0, &k1);
+	for (size_t k = k0; k < k1; k++) {
+		if (!(ti->ucats[k] & (1u << LC_OCCUPATION)))
+			continue;
+		if (match_val(ti, k, LC_OCCUPATION, "head", 1, &len) ||
+		    (match_val(ti, k, LC_OCCUPATION, "suffix", 1, &len) &&
+		     ending_whole(ti, k)))
+			return 1;
+	}
+	return 0;
+}
+
+/* A bracket or later segment made only of location words.  When the
+ * rules before removed every other segment as noise ("Teilzeit: Kock"),
+ * a place that is also an occupational word is the title. */
 static int whole_segments(tm_title *ti)
 {
 	int caps = all_caps_line(ti);
+	size_t a, b, with = 0;
+	for (size_t s = 0; s < ti->nseg; s++) {
+		seg_kept(ti, s, &a, &b);
+		with += a < b;
+	}
 	for (size_t s = 0; s < ti->nseg; s++) {
 		const tm_seg *g = &ti->segs[s];
 		if (!g->bracket && g->index == 0 && !g->resumed)
 			continue;
-		if (place_segment(ti, s, caps, 0) && remove_place_segment(ti, s))
-			return -1;
+		if (place_segment(ti, s, caps, 0) &&
+		    (with > 1 || !occupation_word(ti, s))) {
+			if (remove_place_segment(ti, s))
+				return -1;
+			with--;
+		}
 	}
 	return 0;
 }

@@ -53,6 +53,14 @@ static int cap_word(tm_title *ti, size_t k, int caps)
 	return t->kind == TK_WORD && (caps || (t->flags & (TF_CAP | TF_ALLCAPS)));
 }
 
+/* Is unit k a place name that merely ends like an occupation ("List",
+ * "Montpellier"), not an occupational ending written whole ("Kock")? */
+static int place_ending(tm_title *ti, size_t k)
+{
+	size_t len;
+	return match_cat(ti, k, LC_PLACE, 1, &len) && len == 1 && !ending_whole(ti, k);
+}
+
 /* Occupational evidence of unit k; a unit starting a business kind
  * phrase ("Care Home", "Bäckerei") is at most a field.  With names set
  * (a mixed-case line), a capitalised word after unit names_from whose
@@ -72,7 +80,8 @@ static int evidence_at(tm_title *ti, size_t k, int names, size_t names_from)
 	if (match_val(ti, k, LC_OCCUPATION, "head", 1, &len))
 		ev = EV_HEAD;
 	else if (match_val(ti, k, LC_OCCUPATION, "suffix", 1, &len))
-		ev = names && k > names_from && cap_word(ti, k, 0) ? EV_NONE : EV_HEAD;
+		ev = (names && k > names_from && cap_word(ti, k, 0)) ||
+		     place_ending(ti, k) ? EV_NONE : EV_HEAD;
 	else if (match_val(ti, k, LC_OCCUPATION, "field", 1, &len))
 		ev = EV_FIELD;
 	else

@@ -108,6 +108,7 @@ typedef struct tm_title {
 	uint32_t *nextk;  /* the first unit from each that the gender rule kept */
 	unsigned lcats;   /* all categories of the line */
 	unsigned lflags;  /* LF_* */
+	unsigned phrase_runs; /* pass_phrases calls since title_build */
 } tm_title;
 
 void title_free(tm_title *ti);
