@@ -463,6 +463,20 @@ int pass_location(tm_title *ti)
 
 /* ---- employers ---- */
 
+/* The longest legal form at unit k, of employer/ or business/ ("Limited
+ * Company", "S.Coop.And.", "aktiebolag"). */
+static const lex_entry *legal_form(tm_title *ti, size_t k, size_t *len)
+{
+	size_t l2;
+	const lex_entry *e = match_val(ti, k, LC_EMPLOYER, "legal", 1, len);
+	const lex_entry *b = match_val(ti, k, LC_BUSINESS, "legal", 1, &l2);
+	if (b && (!e || l2 > *len)) {
+		*len = l2;
+		return b;
+	}
+	return e;
+}
+
 /* A legal form of any language written in capitals at the end of a
  * segment, after a capitalised name: Norrsvalk Krog AB, Mirandol SAS. */
 static int caps_legal(tm_title *ti, size_t k, size_t *len)
@@ -473,7 +487,7 @@ static int caps_legal(tm_title *ti, size_t k, size_t *len)
 	    !ukept(ti, k - 1))
 		return 0;
 	ti->any_lang = 1;
-	e = match_val(ti, k, LC_EMPLOYER, "legal", 1, len);
+	e = legal_form(ti, k, len);
 	ti->any_lang = 0;
 	if (!e)
 		return 0;
@@ -504,8 +518,7 @@ int pass_employer(tm_title *ti)
 		size_t start, m;
 		uint32_t s;
 		const tm_seg *g;
-		if (!match_val(ti, k, LC_EMPLOYER, "legal", 1, &len) &&
-		    !caps_legal(ti, k, &len))
+		if (!legal_form(ti, k, &len) && !caps_legal(ti, k, &len))
 			continue;
 		s = useg(ti, k);
 		g = &ti->segs[s];
@@ -535,6 +548,15 @@ int pass_employer(tm_title *ti)
 		}
 		if (start == k && k == k0 && k + len < k1)
 			continue; /* a lone legal word opening a title: not a firm */
+		/* the business kind before the name, from the segment's start,
+		 * when the title goes on elsewhere: "domov pro seniory
+		 * Brenriven a.s.: chůva" */
+		{
+			size_t kl;
+			if (start > k0 && (g->bracket || g->index > 0 || later_content(ti, s)) &&
+			    match_val(ti, k0, LC_BUSINESS, "kind", 1, &kl) && k0 + kl == start)
+				start = k0;
+		}
 		if (remove_units(ti, start, k + len, NF_EMPLOYER, NULL))
 			return -1;
 		k += len - 1;

@@ -60,11 +60,14 @@ Left out, each for a reason, never item by item:
     number is no segment on its own);
   - a gazetteer name that is one of the title's own words: "t – s" would
     repeat a word of the occupation;
-  - in the lead form of the place kinds, a title with no occupational
-    evidence: with none anywhere, the first segment is the head by
+  - in the lead form of the place and employer kinds, a title with no
+    occupational evidence: with none anywhere, the first segment is the head by
     design, so that a title no lexicon knows is never lost (norm.tsv:
     "Salzburg: Xylograph" stays whole); such titles are counted per
     language instead (a gap of occupation/);
+  - in the lead form, a title that is a gazetteer name ("tata" is also a
+    Hungarian town): a place that is also an occupation, standing where
+    places stand, is ambiguous;
   - a title t that is a gazetteer name with no occupational evidence
     ("dělnice" is also a Czech place): beside a noise segment it cannot
     be told from an all-noise title such as "Vacature – Amsterdam",
@@ -125,6 +128,8 @@ KINDS = ["place", "place-word", "place-region", "place-inflected", "schedule",
          "contract", "pay", "pay-grade", "marketing", "contact", "reference", "seniority",
          "employer"]
 TRAIL_ONLY = {"place-region", "seniority"}
+# kinds the segment roles decide by occupational evidence
+BY_ROLES = {"place", "place-word", "place-region", "place-inflected", "employer"}
 SEP_TRAIL, SEP_LEAD = " \u2013 ", ": "
 
 FOLD_MAP = str.maketrans({"ł": "l", "ø": "o", "đ": "d", "ħ": "h", "ı": "i",
@@ -412,7 +417,8 @@ def main():
                 meta.append(None)
                 lines.append(t + SEP_TRAIL + s)
                 meta.append((kind, "trail", t, s))
-                if kind not in TRAIL_ONLY and (not kind.startswith("place") or t in known):
+                if kind not in TRAIL_ONLY and (kind not in BY_ROLES or t in known) \
+                        and tuple(fold_words(t)) not in place_keys:
                     lines.append(s + SEP_LEAD + t)
                     meta.append((kind, "lead", t, s))
         got = run(lang, lines)
