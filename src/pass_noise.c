@@ -309,12 +309,18 @@ static int is_date(const tm_title *ti, const tm_tok *t)
 	return (n == 10 || n == 8) && p[2] == '.' && p[5] == '.';
 }
 
+static int is_currency(tm_title *ti, size_t k, size_t *len);
+
 /* A year or date at a segment edge (Ausbildung 2026, Saison 2025/26)
- * is removed; returns 1 when it was. */
+ * is removed; returns 1 when it was.  A number with a currency beside it
+ * is an amount ("2027 € brutto", "1966 kroner"), left to the pay rule. */
 static int date_at_edge(tm_title *ti, size_t k)
 {
-	size_t k0, k1, e = k + 1;
+	size_t k0, k1, e = k + 1, len;
 	if (!ukept(ti, k) || ti->prot[ti->unit[k]] || !is_date(ti, U(ti, k)))
+		return 0;
+	if ((e < ti->nunit && ukept(ti, e) && is_currency(ti, e, &len)) ||
+	    (k > 0 && ukept(ti, k - 1) && is_currency(ti, k - 1, &len)))
 		return 0;
 	/* 2025/26, 2025-2026 */
 	if (e < ti->nunit && glued(ti, k, e, "/-") && U(ti, e)->kind == TK_NUM &&
@@ -345,7 +351,12 @@ int pass_reference(tm_title *ti)
 			if (j < ti->nunit && U(ti, j)->kind == TK_SYM &&
 			    U(ti, j)->ch == '#')
 				j++;
-			if (code_at(ti, j)) {
+			/* a number with a currency after it is an amount: "až
+			 * 25000 Kč" (Czech "up to"; German "Az" is a file number) */
+			size_t cl;
+			if (code_at(ti, j) &&
+			    !(U(ti, j)->kind == TK_NUM && code_end(ti, j) + 1 < ti->nunit &&
+			      is_currency(ti, code_end(ti, j) + 1, &cl))) {
 				size_t e = code_end(ti, j);
 				if (remove_units(ti, k, e + 1, NF_REFERENCE, NULL))
 					return -1;
@@ -483,9 +494,10 @@ int pass_pay(tm_title *ti)
 				unit |= u2;
 			}
 		}
-		/* trailing units: brutto, p.a., /h, pro Monat */
+		/* trailing units: brutto, p.a., /h, pro Monat; in the amount's
+		 * segment ("2719 chf: HR-partner" keeps "HR") */
 		for (;;) {
-			if (e >= ti->nunit || !ukept(ti, e))
+			if (e >= ti->nunit || !ukept(ti, e) || useg(ti, e) != useg(ti, e - 1))
 				break;
 			if (match_val(ti, e, LC_PAY, "unit", 1, &len)) {
 				size_t l2;

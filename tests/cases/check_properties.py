@@ -33,7 +33,9 @@ Noise segments s, by kind (entries of L, L? and *):
                  student);
   pay            pay/ entries of value `phrase`; an amount with a
                  currency, at random behind a `lead` word and before a
-                 unit ("bis 3200 € brutto");
+                 unit of letters alone ("bis 3200 € brutto"; units that
+                 hold a currency, "kč/h", or stand before it, "k", would
+                 make no amount);
   pay-grade      a `lead` word with a grade code ("Entgeltgruppe 9"),
                  for leads of more than three letters or of two words
                  (the lexicon does not tell grade words from amount
@@ -275,7 +277,9 @@ def segments(lang, rng, places, taken):
         seg["contract" if v in CONTRACT else "schedule"].append(p)
     pay = read_dir("pay", lang)
     cur = [p for p, v, _ in pay if v == "currency"]
-    unit = [p for p, v, _ in pay if v == "unit" and has_letter(p)]
+    cur_words = {w for c in cur for w in fold_words(c)}
+    unit = [p for p, v, _ in pay if v == "unit" and re.fullmatch(r"[^\W\d_]{2,}( [^\W\d_]+)*", p)
+            and not set(fold_words(p)) & cur_words]
     leads = [p for p, v, _ in pay if v == "lead"]
     for p, v, _ in pay:
         if v == "phrase":
