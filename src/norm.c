@@ -294,7 +294,7 @@ static int norm_once(normaliser *nm, const char *src, size_t n, norm_result *res
 	int roles = ti->nseg > 1 || HAS(ti, LC_BUSINESS) || HAS(ti, LC_EMPLOYER) ||
 		    HAS(ti, LC_LOCATION);
 	if ((phrases && pass_phrases(ti)) ||
-	    (HAS(ti, LC_EMPLOYER) && pass_employer(ti)) ||
+	    ((HAS(ti, LC_EMPLOYER) || HAS(ti, LC_BUSINESS)) && pass_employer(ti)) ||
 	    ((HAS(ti, LC_PLACE) || HAS(ti, LC_LOCATION)) && pass_location(ti)) ||
 	    (roles && pass_roles(ti)) ||
 	    (phrases && pass_phrases(ti)))

@@ -45,7 +45,10 @@ int pass_days(tm_title *ti);      /* day ranges, clock ranges, head counts */
 int pass_hashtags(tm_title *ti);
 int pass_employer(tm_title *ti);
 int pass_location(tm_title *ti);
-int pass_phrases(tm_title *ti);   /* peels edge phrases to a fixpoint */
+int pass_phrases(tm_title *ti);   /* peels edge phrases to a fixpoint;
+				   * run before and after the employer,
+				   * place and role rules: an edge seniority
+				   * word goes in the second run */
 int pass_roles(tm_title *ti);     /* the head segment; employers and places beside it */
 
 /* Shared by the rules (pass_place.c). */
@@ -58,5 +61,8 @@ int all_caps_line(tm_title *ti);  /* most words of the line in capitals */
 int place_segment(tm_title *ti, size_t s, int caps, int strong_ok);
 /* Removes the kept part of segment s as places and location-slot words. */
 int remove_place_segment(tm_title *ti, size_t s);
+/* Is the word of unit k an occupational ending written whole ("kock",
+ * "arbeiter"), not a word that merely ends like one ("List")? */
+int ending_whole(tm_title *ti, size_t k);
 
 #endif

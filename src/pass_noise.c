@@ -309,12 +309,18 @@ static int is_date(const tm_title *ti, const tm_tok *t)
 	return (n == 10 || n == 8) && p[2] == '.' && p[5] == '.';
 }
 
+static int is_currency(tm_title *ti, size_t k, size_t *len);
+
 /* A year or date at a segment edge (Ausbildung 2026, Saison 2025/26)
- * is removed; returns 1 when it was. */
+ * is removed; returns 1 when it was.  A number with a currency beside it
+ * is an amount ("2027 € brutto", "1966 kroner"), left to the pay rule. */
 static int date_at_edge(tm_title *ti, size_t k)
 {
-	size_t k0, k1, e = k + 1;
+	size_t k0, k1, e = k + 1, len;
 	if (!ukept(ti, k) || ti->prot[ti->unit[k]] || !is_date(ti, U(ti, k)))
+		return 0;
+	if ((e < ti->nunit && ukept(ti, e) && is_currency(ti, e, &len)) ||
+	    (k > 0 && ukept(ti, k - 1) && is_currency(ti, k - 1, &len)))
 		return 0;
 	/* 2025/26, 2025-2026 */
 	if (e < ti->nunit && glued(ti, k, e, "/-") && U(ti, e)->kind == TK_NUM &&
@@ -345,7 +351,12 @@ int pass_reference(tm_title *ti)
 			if (j < ti->nunit && U(ti, j)->kind == TK_SYM &&
 			    U(ti, j)->ch == '#')
 				j++;
-			if (code_at(ti, j)) {
+			/* a number with a currency after it is an amount: "až
+			 * 25000 Kč" (Czech "up to"; German "Az" is a file number) */
+			size_t cl;
+			if (code_at(ti, j) &&
+			    !(U(ti, j)->kind == TK_NUM && code_end(ti, j) + 1 < ti->nunit &&
+			      is_currency(ti, code_end(ti, j) + 1, &cl))) {
 				size_t e = code_end(ti, j);
 				if (remove_units(ti, k, e + 1, NF_REFERENCE, NULL))
 					return -1;
@@ -483,9 +494,10 @@ int pass_pay(tm_title *ti)
 				unit |= u2;
 			}
 		}
-		/* trailing units: brutto, p.a., /h, pro Monat */
+		/* trailing units: brutto, p.a., /h, pro Monat; in the amount's
+		 * segment ("2719 chf: HR-partner" keeps "HR") */
 		for (;;) {
-			if (e >= ti->nunit || !ukept(ti, e))
+			if (e >= ti->nunit || !ukept(ti, e) || useg(ti, e) != useg(ti, e - 1))
 				break;
 			if (match_val(ti, e, LC_PAY, "unit", 1, &len)) {
 				size_t l2;
@@ -633,32 +645,40 @@ static size_t grade_part(tm_title *ti, size_t k, size_t k0)
 static int grade_segment(tm_title *ti, size_t s)
 {
 	size_t k0, k1, k, len, start = SIZE_MAX;
-	int words = 0;
+	int words = 0, codes = 0;
 	const tm_seg *g = &ti->segs[s];
 
 	seg_kept(ti, s, &k0, &k1);
 	if (k0 >= k1)
 		return 0;
-	/* the whole segment (or the head going on after a bracket) */
-	if (g->bracket || g->index != 0 || g->resumed) {
+	/* the whole segment (or the head going on after a bracket); the
+	 * first segment only when it is all grade, with no agreement name
+	 * that could be the occupation ("Vergütungsgruppe 9: Bäcker") */
+	int first = !g->bracket && g->index == 0 && !g->resumed;
+	if (!first || ti->nseg > 1) {
 		for (k = k0; k < k1; k += len) {
 			size_t w = grade_word(ti, k, k0);
 			if (!(len = grade_part(ti, k, k0))) {
-				size_t e = words ? grade_tail(ti, k, k1, 1) : k;
+				size_t e = words && !first ? grade_tail(ti, k, k1, 1) : k;
 				/* the name after an abbreviation: "CCNL Commercio" */
-				if (words && k > k0 && (U(ti, k - 1)->flags & TF_ALLCAPS) &&
+				if (words && !first && k > k0 && (U(ti, k - 1)->flags & TF_ALLCAPS) &&
 				    k1 - k <= GRADE_TAIL_MAX && units_free(ti, k, k1))
 					e = k1;
 				if (e == k1)
 					break;
-				return 0;
+				words = 0;
+				break;
 			}
 			/* a pay phrase that opens with a grade word: "livello CCNL" */
 			words |= w > 0 || match_val(ti, k, LC_PAY, "lead", 1, &w);
+			codes += !w && grade_code(ti, k);
 		}
-		if (words && !last_word(ti, k0, k1))
+		/* a first segment holds a code too: "PA" is a word, not the
+		 * Irish grade word "pá" */
+		if (words && (!first || codes) && !last_word(ti, k0, k1))
 			return remove_units(ti, k0, k1, NF_PAY, "grade");
-		return 0;
+		if (!first)
+			return 0;
 	}
 	/* a grade at the head segment's end: look for its grade word */
 	for (k = k0 + 1; k < k1; k++) {
@@ -1080,10 +1100,24 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 				continue;
 			e = p;
 		}
-		/* an edge word is never the title's last word: Principal */
+		/* an edge word is never the title's last word: Principal;
+		 * whether it is shows only once the other rules removed
+		 * their noise ("Trainee – neu", "Trainee – Hardegg"), so
+		 * it goes in the last run alone */
 		if (e->where == LW_EDGE && e->cat == LC_SENIORITY &&
-		    last_word(ti, k, k + len))
-			continue;
+		    (ti->phrase_runs < 2 || last_word(ti, k, k + len))) {
+			/* the same phrase in another category goes as that
+			 * ("ouvert aux débutants" is marketing too) */
+			size_t l2;
+			const lex_entry *o = match_mask(ti, k, phrase_mask &
+							~(1u << LC_SENIORITY), 1, &l2);
+			if (!o || l2 != len) {
+				if (ti->phrase_runs < 2)
+					k += len - 1; /* not a word of it alone */
+				continue;
+			}
+			e = o;
+		}
 		if ((e->where == LW_EDGE && k != a && k + len != b) ||
 		    (e->where == LW_ALONE && (k != a || k + len != b)) ||
 		    e->where == LW_SLOT || e->where == LW_STRONG)
@@ -1187,11 +1221,13 @@ int pass_phrases(tm_title *ti)
 {
 	int changed = 1, rounds = 0;
 
-	/* nothing removed since the last call ended at its fixpoint: a
-	 * round would find nothing again (the rules read nothing else that
-	 * changes), and neither would lone_numbers */
-	if (ti->peeled == ti->gen)
+	/* nothing removed since the last call ended at its fixpoint, and
+	 * the edge seniority words already had their run (phrase_runs 2):
+	 * a round would find nothing again (the rules read nothing else
+	 * that changes), and neither would lone_numbers */
+	if (ti->peeled == ti->gen && ti->phrase_runs >= 2)
 		return 0;
+	ti->phrase_runs++;
 	while (changed && rounds++ < 64) {
 		changed = 0;
 		for (size_t s = 0; s < ti->nseg; s++)

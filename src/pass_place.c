@@ -344,16 +344,54 @@ int remove_place_segment(tm_title *ti, size_t s)
 	return 0;
 }
 
-/* A bracket or later segment made only of location words. */
+int ending_whole(tm_title *ti, size_t k)
+{
+	const tm_tok *t = U(ti, k);
+	size_t elen;
+	return t->kind == TK_WORD &&
+	       lex_ending(ti->lx, tok_fold(&ti->tl, t), t->flen, &elen) &&
+	       elen == t->flen;
+}
+
+/* Does segment s hold an occupational word: a `head` of occupation/, or
+ * a word that is an occupational ending whole ("kock")?  A place name
+ * that merely ends like one ("Montpellier") is no such word. */
+static int occupation_word(tm_title *ti, size_t s)
+{
+	size_t k0, k1, len;
+	seg_kept(ti, s, &k0, &k1);
+	for (size_t k = k0; k < k1; k++) {
+		if (!(ti->ucats[k] & (1u << LC_OCCUPATION)))
+			continue;
+		if (match_val(ti, k, LC_OCCUPATION, "head", 1, &len) ||
+		    (match_val(ti, k, LC_OCCUPATION, "suffix", 1, &len) &&
+		     ending_whole(ti, k)))
+			return 1;
+	}
+	return 0;
+}
+
+/* A bracket or later segment made only of location words.  When the
+ * rules before removed every other segment as noise ("Teilzeit: Kock"),
+ * a place that is also an occupational word is the title. */
 static int whole_segments(tm_title *ti)
 {
 	int caps = all_caps_line(ti);
+	size_t a, b, with = 0;
+	for (size_t s = 0; s < ti->nseg; s++) {
+		seg_kept(ti, s, &a, &b);
+		with += a < b;
+	}
 	for (size_t s = 0; s < ti->nseg; s++) {
 		const tm_seg *g = &ti->segs[s];
 		if (!g->bracket && g->index == 0 && !g->resumed)
 			continue;
-		if (place_segment(ti, s, caps, 0) && remove_place_segment(ti, s))
-			return -1;
+		if (place_segment(ti, s, caps, 0) &&
+		    (with > 1 || !occupation_word(ti, s))) {
+			if (remove_place_segment(ti, s))
+				return -1;
+			with--;
+		}
 	}
 	return 0;
 }
@@ -417,6 +455,20 @@ int pass_location(tm_title *ti)
 
 /* ---- employers ---- */
 
+/* The longest legal form at unit k, of employer/ or business/ ("Limited
+ * Company", "S.Coop.And.", "aktiebolag"). */
+static const lex_entry *legal_form(tm_title *ti, size_t k, size_t *len)
+{
+	size_t l2;
+	const lex_entry *e = match_val(ti, k, LC_EMPLOYER, "legal", 1, len);
+	const lex_entry *b = match_val(ti, k, LC_BUSINESS, "legal", 1, &l2);
+	if (b && (!e || l2 > *len)) {
+		*len = l2;
+		return b;
+	}
+	return e;
+}
+
 /* A legal form of any language written in capitals at the end of a
  * segment, after a capitalised name: Norrsvalk Krog AB, Mirandol SAS. */
 static int caps_legal(tm_title *ti, size_t k, size_t *len)
@@ -427,7 +479,7 @@ static int caps_legal(tm_title *ti, size_t k, size_t *len)
 	    !ukept(ti, k - 1))
 		return 0;
 	ti->any_lang = 1;
-	e = match_val(ti, k, LC_EMPLOYER, "legal", 1, len);
+	e = legal_form(ti, k, len);
 	ti->any_lang = 0;
 	if (!e)
 		return 0;
@@ -458,8 +510,7 @@ int pass_employer(tm_title *ti)
 		size_t start, m;
 		uint32_t s;
 		const tm_seg *g;
-		if (!match_val(ti, k, LC_EMPLOYER, "legal", 1, &len) &&
-		    !caps_legal(ti, k, &len))
+		if (!legal_form(ti, k, &len) && !caps_legal(ti, k, &len))
 			continue;
 		s = useg(ti, k);
 		g = &ti->segs[s];
@@ -489,6 +540,15 @@ int pass_employer(tm_title *ti)
 		}
 		if (start == k && k == k0 && k + len < k1)
 			continue; /* a lone legal word opening a title: not a firm */
+		/* the business kind before the name, from the segment's start,
+		 * when the title goes on elsewhere: "domov pro seniory
+		 * Brenriven a.s.: chůva" */
+		{
+			size_t kl;
+			if (start > k0 && (g->bracket || g->index > 0 || later_content(ti, s)) &&
+			    match_val(ti, k0, LC_BUSINESS, "kind", 1, &kl) && k0 + kl == start)
+				start = k0;
+		}
 		if (remove_units(ti, start, k + len, NF_EMPLOYER, NULL))
 			return -1;
 		k += len - 1;

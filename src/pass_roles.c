@@ -85,15 +85,22 @@ static int evidence_at(tm_title *ti, size_t k, int names, size_t names_from)
 
 /* The strongest evidence among the kept units of segment s; units
  * inside a business kind phrase count as fields; names as in
- * evidence_at. */
+ * evidence_at.  A word of a place name that merely ends like an
+ * occupation ("List", "Ozoir-la-Ferrière"), not an occupational ending
+ * written whole ("Kock"), is none. */
 static int seg_evidence(tm_title *ti, size_t s, int names)
 {
-	size_t k0, k1, k, len, kind_end = 0;
+	size_t k0, k1, k, len, kind_end = 0, place_end = 0;
 	int best = EV_NONE;
 
 	seg_kept(ti, s, &k0, &k1);
 	for (k = k0; k < k1 && best != EV_HEAD; k++) {
 		int ev = evidence_at(ti, k, names, k0);
+		if (match_cat(ti, k, LC_PLACE, 1, &len) && k + len > place_end)
+			place_end = k + len;
+		if (ev == EV_HEAD && k < place_end && !ti->prot[ti->unit[k]] &&
+		    !match_val(ti, k, LC_OCCUPATION, "head", 1, &len) && !ending_whole(ti, k))
+			ev = EV_NONE;
 		if (ev == EV_HEAD && k < kind_end)
 			ev = EV_FIELD;
 		if (ev > best)

@@ -409,6 +409,7 @@ int title_build(tm_title *ti)
 	ti->nunit = ti->nseg = ti->nspan = 0;
 	ti->gen++;
 	ti->lflags = 0;
+	ti->phrase_runs = 0;
 	int head_seen = 0;
 	size_t words = 0, caps = 0;
 	for (t = 0; t < tl->n; t++) {

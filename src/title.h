@@ -130,6 +130,7 @@ typedef struct tm_title {
 	uint8_t caps;     /* all_caps_line: most words of the line in capitals */
 	unsigned lcats;   /* all categories of the line */
 	unsigned lflags;  /* LF_* */
+	unsigned phrase_runs; /* pass_phrases calls since title_build */
 } tm_title;
 
 void title_free(tm_title *ti);

@@ -7,14 +7,28 @@ Sources:
 - ISO 3166-1 country names of European countries from Debian's iso-codes
   (/usr/share/iso-codes/json/iso_3166-1.json) with their de, fr, nl,
   es, it, pl, pt translations from its gettext catalogues.
+- ISO 3166-2 subdivision names of the same countries, from Debian's
+  iso-codes (/usr/share/iso-codes/json/iso_3166-2.json), as the region
+  written after a place.
 
-A name the gazetteer marks `strong` (it is also an ordinary word, such
-as Bath or Essen) is only a place after a preposition, so it is checked
-in that slot alone.  The check passes when at least 99 % of the slotted
-titles come out as the bare occupation; every miss is listed."""
+Checks, each over both sources:
+1. slots: after " - ", in brackets, after "in", after ", " (a name the
+   gazetteer marks `strong`, also an ordinary word such as Bath or
+   Essen, only after "in");
+2. whole segments: every name, ordinary words included, as the whole
+   trailing segment or bracket after a title, alone and followed by a
+   region or the country ("Koch – March, Cambridgeshire", "Koch (Wetter,
+   Ruhr)"): the region is a subdivision of the place's country drawn with
+   a fixed seed (any subdivision of the country: the rule reads the shape,
+   not the map), the country its ISO 3166-1 name;
+3. place-first segments: "Graz: Koch", "Graz | Koch" (the title after
+   the place has occupational evidence, so the place is beside it).
+Each check passes when at least 99 % of its titles come out as the bare
+occupation; every miss is listed (the first 40 of each)."""
 import gettext
 import json
 import os
+import random
 import subprocess
 import sys
 
@@ -33,11 +47,11 @@ EUROPE = ("AD AL AT BA BE BG BY CH CY CZ DE DK EE ES FI FR GB GR HR HU IE IS IT 
           "LI LT LU LV MC MD ME MK MT NL NO PL PT RO RS SE SI SK SM UA VA").split()
 
 
-def geonames():
+def geonames_cc():
     rows = open(root + "/tests/data/geonames-sample.tsv", encoding="utf-8").read().split("\n")
     head = rows[0].split("\t")
-    i = head.index("name")
-    return [r.split("\t")[i] for r in rows[1:] if r]
+    i, c = head.index("name"), head.index("country")
+    return [(r.split("\t")[i], r.split("\t")[c]) for r in rows[1:] if r]
 
 
 def iso_names():
@@ -60,12 +74,12 @@ def iso_names():
     return sorted(set(n for n in names if "," not in n[1]))
 
 
-def check(label, names, templates_any, templates_strong):
+def check(label, names, templates_any, templates_strong, region=None):
     lines, want = [], []
     for n in names:
         temps = templates_strong if n.casefold() in strong else templates_any
         for t, expect in temps:
-            lines.append(t.format(n))
+            lines.append(t.format(n, region(n) if region else ""))
             want.append(expect)
     res = subprocess.run([exe, "norm"], input="".join(l + "\n" for l in lines).encode(),
                          capture_output=True, check=True)
@@ -80,11 +94,52 @@ def check(label, names, templates_any, templates_strong):
     return share >= 0.99
 
 
-SLOTS = [("Koch - {}", "koch"), ("Software Engineer ({})", "software engineer"),
-         ("Pflegefachkraft in {}", "pflegefachkraft"), ("Lagerist, {}", "lagerist")]
-STRONG = [("Pflegefachkraft in {}", "pflegefachkraft"), ("Koch - {}", "koch {}")]
-ok1 = check("geonames", geonames(), SLOTS,
-            [("Pflegefachkraft in {}", "pflegefachkraft")])
-ok2 = check("iso3166", [n for _, n in iso_names()], SLOTS,
-            [("Pflegefachkraft in {}", "pflegefachkraft")])
-sys.exit(0 if ok1 and ok2 else 1)
+def subdivisions():
+    """ISO 3166-2 names per country, those a title can write after a
+    place (no comma, bracket or slash)."""
+    data = json.load(open("/usr/share/iso-codes/json/iso_3166-2.json", encoding="utf-8"))
+    by = {}
+    for d in data["3166-2"]:
+        cc = d["code"][:2]
+        if cc in EUROPE and not any(c in d["name"] for c in ",()/[]"):
+            by.setdefault(cc, []).append(d["name"])
+    return by
+
+
+def country_names():
+    data = json.load(open("/usr/share/iso-codes/json/iso_3166-1.json", encoding="utf-8"))
+    return {c["alpha_2"]: c.get("common_name", c["name"]) for c in data["3166-1"]
+            if c["alpha_2"] in EUROPE}
+
+
+SLOTS = [("Koch - {0}", "koch"), ("Software Engineer ({0})", "software engineer"),
+         ("Pflegefachkraft in {0}", "pflegefachkraft"), ("Lagerist, {0}", "lagerist")]
+IN_SLOT = [("Pflegefachkraft in {0}", "pflegefachkraft")]
+# whole trailing segments and brackets, ordinary words included
+SEGMENTS = [("Koch \u2013 {0}", "koch"), ("Koch (m/w/d) ({0})", "koch"),
+            ("Koch \u2013 {0}, {1}", "koch"), ("Koch ({0}, {1})", "koch")]
+FIRST = [("{0}: Koch", "koch"), ("{0} | Koch", "koch")]
+
+rng = random.Random(3166)
+subs, countries = subdivisions(), country_names()
+geo = geonames_cc()
+iso = [n for _, n in iso_names()]
+
+
+def region_of(cc):
+    def pick(name):
+        pool = subs.get(cc.get(name, ""), []) + ([countries[cc[name]]] if cc.get(name) in countries else [])
+        pool = [p for p in pool if p != name]
+        return rng.choice(pool) if pool else "Europa"
+    return pick
+
+
+ok = [check("geonames slots", [n for n, _ in geo], SLOTS, IN_SLOT),
+      check("iso3166 slots", iso, SLOTS, IN_SLOT),
+      check("geonames whole segments", [n for n, _ in geo], SEGMENTS, SEGMENTS,
+            region_of(dict(geo))),
+      check("iso3166 whole segments", iso, SEGMENTS, SEGMENTS,
+            region_of({})),
+      check("geonames place-first", [n for n, _ in geo], FIRST, FIRST),
+      check("iso3166 place-first", iso, FIRST, FIRST)]
+sys.exit(0 if all(ok) else 1)
