@@ -20,6 +20,7 @@
 #include "outfile.h"
 #include "reader.h"
 #include "review.h"
+#include "queue.h"
 #include "store.h"
 
 static const char review_usage[] =
@@ -257,22 +258,13 @@ static int parse_opts(int argc, char **argv, const char *sub, review_opts *o)
 
 static int open_place(const review_opts *o, rq_place *pl)
 {
-	memset(pl, 0, sizeof *pl);
-	pl->lockfd = -1;
-	if (!o->store) {
-		pl->path = o->queue;
-		return 0;
-	}
 	tm_buf err = {0};
 	store_conf conf = {o->prefix, 2, 5000, 0};
-	pl->st = store_open(o->store, &conf, &err);
-	if (!pl->st) {
+	int rc = rq_place_open(pl, o->queue, o->store, &conf, &err);
+	if (rc)
 		fprintf(stderr, "titlemill review: %s\n", err.data);
-		buf_free(&err);
-		return -1;
-	}
 	buf_free(&err);
-	return 0;
+	return rc;
 }
 
 static int fail(const char *m)

@@ -15,7 +15,6 @@
 #include "setup.h"
 #include "store.h"
 #include "tally.h"
-#include "token.h"
 
 typedef struct tally_opts {
 	enum pr_format format;
@@ -123,31 +122,6 @@ int cli_check_prefix(const char *cmd, const char *prefix)
 	return EXIT_USAGE;
 }
 
-/* Commits the store's chunk under its digest in this run.  A chunk is
- * known by the digest of its content (and of everything before it in its
- * input), so the same input loaded again -- a rerun after a kill, a
- * reload -- changes nothing.  But within one run every input counts, as
- * in memory: the k-th chunk of this run with the same content digest
- * (an input named twice, or two identical files) gets the digest mixed
- * with k, so identical inputs of one run are distinct chunks, and the
- * same run again gives the same digests.  seen: digest -> chunks so far. */
-static int commit_chunk(store *st, const uint64_t dg[2], strtab *seen, int *applied)
-{
-	size_t i;
-	uint64_t d[2] = {dg[0], dg[1]};
-	if (st_add(seen, (const char *)dg, sizeof d, 1, &i) < 0) {
-		buf_reset(&st->err);
-		buf_puts(&st->err, "out of memory");
-		return -1;
-	}
-	uint64_t k = seen->ent[i].count - 1;
-	if (k) {
-		d[0] = tok_hash_mix(d[0] ^ 0xC0FFEE, k);
-		d[1] = tok_hash_mix(d[1], k * 0x9E3779B97F4A7C15ULL);
-	}
-	return st->ops->commit(st, d, applied);
-}
-
 static int parse_memo(const char *arg, long *v)
 {
 	char *end;
@@ -191,8 +165,8 @@ int cmd_tally(int argc, char **argv)
 	store *st = NULL;
 	tm_buf err = {0};
 	tally_mem m;
-	strtab seen = {0};
 	badlog bl;
+	uint64_t nread = 0;
 	lexicon *lx;
 	normaliser *nm;
 	int c, rc = EXIT_OK, tty = isatty(2);
@@ -201,7 +175,7 @@ int cmd_tally(int argc, char **argv)
 	memset(&o, 0, sizeof o);
 	memset(&bl, 0, sizeof bl);
 	o.memo_mib = 16;
-	o.chunk = 10000;
+	o.chunk = STORE_CHUNK_DEFAULT;
 	o.sconf.retries = 5;
 	optind = 1;
 	while ((c = getopt_long(argc, argv, "ho:", longopts, NULL)) != -1) {
@@ -316,20 +290,21 @@ int cmd_tally(int argc, char **argv)
 			return rc;
 		}
 	}
-	if (o.store && !(st = store_open(o.store, &o.sconf, &err))) {
+	/* the counts go to the store, or to memory and then the table */
+	tm_init(&m);
+	st = o.store ? store_open(o.store, &o.sconf, &err) : store_mem_open(&m, &err);
+	if (!st) {
 		fprintf(stderr, "titlemill tally: %.*s\n", (int)err.len, err.data ? err.data : "");
 		norm_free(nm);
 		lex_free(lx);
 		buf_free(&err);
 		return EXIT_RUNTIME;
 	}
-	tm_init(&m);
+	store_set_chunk(st, o.chunk);
 	for (int i = optind; i < argc && rc == EXIT_OK; i++) {
 		postings_reader pr;
 		posting p;
 		int r;
-		uint64_t dg[2] = {0x84222325CBF29CE4ULL, 0x9E3779B97F4A7C15ULL};
-		long inchunk = 0;
 
 		if (pr_open(&pr, argv[i], o.format) != 0) {
 			fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
@@ -368,87 +343,46 @@ int cmd_tally(int argc, char **argv)
 				break;
 			}
 			cli_tally_posting(&tp, &p, &res);
-			if (st) {
-				/* the chunk's digest: its postings as read */
-				const char *fv[4] = {p.id ? p.id : "", p.lang, p.title, p.date ? p.date : ""};
-				size_t fl[4] = {p.id ? p.idlen : 0, strlen(p.lang), p.titlelen,
-						p.date ? p.datelen : 0};
-				for (int f = 0; f < 4; f++) {
-					dg[0] = tok_hash_mix(dg[0], tok_hash(fv[f], fl[f]) ^ (uint64_t)f);
-					dg[1] = tok_hash_mix(dg[1] ^ 0x5555, tok_hash(fv[f], fl[f]) + fl[f]);
-				}
-				for (size_t q = 0; q < p.nocc; q++) {
-					dg[0] = tok_hash_mix(dg[0], tok_hash(p.occ[q], p.occlen[q]));
-					dg[1] = tok_hash_mix(dg[1] ^ 0xAAAA, tok_hash(p.occ[q], p.occlen[q]) + q);
-				}
-				dg[1] = tok_hash_mix(dg[1], p.id ? 1 : 2);
-				if (st->ops->add(st, &tp) != 0) {
-					fprintf(stderr, "titlemill tally: %.*s\n", (int)st->err.len, st->err.data);
-					rc = EXIT_RUNTIME;
-					break;
-				}
-				if (++inchunk == o.chunk) {
-					int applied;
-					if (commit_chunk(st, dg, &seen, &applied) != 0) {
-						fprintf(stderr, "titlemill tally: %.*s; %s:%ld was being loaded: every chunk before it is counted, the one at hand is not; run the same load again to finish it\n",
-							(int)st->err.len, st->err.data, pr.lr.name, p.line);
-						rc = EXIT_RUNTIME;
-						break;
-					}
-					inchunk = 0;
-					dg[0] = tok_hash_mix(dg[0], 0x1234);
-				}
-				m.postings++;
-			} else if (tm_add(&m, &tp) < 0) {
-				fputs("titlemill tally: out of memory\n", stderr);
+			if (store_feed(st, &p, &tp, pr.lr.name, p.line) != 0) {
+				fprintf(stderr, "titlemill tally: %.*s\n", (int)st->err.len, st->err.data);
 				rc = EXIT_RUNTIME;
 				break;
 			}
-			if (tty && ((m.postings + m.republished) & 0x3FFF) == 0) {
+			if (tty && (++nread & 0x3FFF) == 0) {
 				double t = now();
 				if (t - last > 0.5) {
 					fprintf(stderr, "\rtitlemill tally: %llu postings, %.0f/s ",
-						(unsigned long long)(m.postings + m.republished),
-						(double)(m.postings + m.republished) / (t - t0));
+						(unsigned long long)nread, (double)nread / (t - t0));
 					last = t;
 				}
 			}
 		}
-		if (st && rc == EXIT_OK && inchunk) {
-			int applied;
-			if (commit_chunk(st, dg, &seen, &applied) != 0) {
-				fprintf(stderr, "titlemill tally: %.*s; the end of %s was being loaded: run the same load again to finish it\n",
-					(int)st->err.len, st->err.data, pr.lr.name);
-				rc = EXIT_RUNTIME;
-			}
+		if (rc == EXIT_OK && store_input_end(st, pr.lr.name) != 0) {
+			fprintf(stderr, "titlemill tally: %.*s\n", (int)st->err.len, st->err.data);
+			rc = EXIT_RUNTIME;
 		}
 		pr_close(&pr);
 	}
 	if (tty && last != t0)
 		fputc('\n', stderr);
-	if (st && rc == EXIT_OK) {
+	if (rc == EXIT_OK && st->ops->finish(st) != 0) {
 		/* chunks other loads left unfinished (killed, or still at work) */
-		if (st->ops->settle(st) != 0) {
-			fprintf(stderr, "titlemill tally: %.*s; every input is counted, but chunks that "
-				"earlier loads left unfinished are not: run the load again\n",
-				(int)st->err.len, st->err.data);
-			rc = EXIT_RUNTIME;
-		}
-		if (st->settled)
-			fprintf(stderr, "titlemill tally: warning: the store held %llu chunks that a load "
-				"had begun and not finished (it was killed, or is still running); "
-				"they are finished now as they were read then, %llu postings more counted: "
-				"if their input changed since, its changed postings are counted as they were "
-				"(compare the load's files; see README, Long runs)\n",
-				(unsigned long long)st->settled, (unsigned long long)st->settled_postings);
+		fprintf(stderr, "titlemill tally: %.*s; every input is counted, but chunks that "
+			"earlier loads left unfinished are not: run the load again\n",
+			(int)st->err.len, st->err.data);
+		rc = EXIT_RUNTIME;
 	}
-	if (st) {
+	if (st->settled)
+		fprintf(stderr, "titlemill tally: warning: the store held %llu chunks that a load "
+			"had begun and not finished (it was killed, or is still running); "
+			"they are finished now as they were read then, %llu postings more counted: "
+			"if their input changed since, its changed postings are counted as they were "
+			"(compare the load's files; see README, Long runs)\n",
+			(unsigned long long)st->settled, (unsigned long long)st->settled_postings);
+	if (o.store)
 		fprintf(stderr, "titlemill tally: %llu chunks applied, %llu already in the store; ",
 			(unsigned long long)st->applied, (unsigned long long)st->skipped);
-		m.postings = st->counted;
-		m.republished = st->republished;
-		store_close(st);
-	} else if (rc == EXIT_OK) {
+	else if (rc == EXIT_OK) {
 		if (o.stats)
 			fprintf(stderr, "titlemill tally: %zu distinct (occupation, language, key), %zu forms, "
 				"%zu (language, key), %zu ids; engine %zu bytes, %.1f bytes per form beyond "
@@ -460,13 +394,13 @@ int cmd_tally(int argc, char **argv)
 		rc = write_table(&m, o.out, "tally");
 	}
 	fprintf(stderr, "%s%llu postings counted, %llu republished ids skipped, %ld malformed rows skipped",
-		st ? "" : "titlemill tally: ",
-		(unsigned long long)m.postings, (unsigned long long)m.republished, bl.n);
+		o.store ? "" : "titlemill tally: ",
+		(unsigned long long)st->counted, (unsigned long long)st->republished, bl.n);
 	for (long k = 0; k < bl.n && k < 5; k++)
 		fprintf(stderr, "%s %s", k ? ";" : ":", bl.first[k]);
 	fprintf(stderr, "%s\n", bl.n > 5 ? "; ..." : "");
+	store_close(st);
 	tm_free(&m);
-	st_free(&seen);
 	norm_free(nm);
 	lex_free(lx);
 	buf_free(&err);

@@ -12,9 +12,10 @@
  * safe to run again after a lost reply (ours are: the scripts check a
  * ledger).
  *
- * With store_redis.c, the only module that knows hiredis; only those two
- * include this header.  Errors: -1 or NULL with a message in k->err
- * naming the node (and the slots) concerned. */
+ * With the Redis store (store_redis*.c), the only module that knows
+ * hiredis; only they include this header (through store_redis.h).
+ * Errors: -1 or NULL with a message in k->err naming the node (and the
+ * slots) concerned. */
 #ifndef TM_CLUSTER_H
 #define TM_CLUSTER_H
 

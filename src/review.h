@@ -29,7 +29,6 @@
 #include <stdio.h>
 
 #include "buf.h"
-#include "store.h"
 
 enum rq_status { RQ_OPEN, RQ_ACCEPTED, RQ_REJECTED, RQ_DEFERRED, RQ_NSTATUS };
 enum rq_kind { RK_ALT, RK_HIDDEN, RK_RARE, RK_ELSEWHERE, RK_N };
@@ -182,43 +181,6 @@ void rq_decisions_free(rq_decisions *ds);
  * or lacks the columns (message in err). */
 long rq_decisions_read(const char *path, const char *reviewer, rq_decisions *ds, FILE *report,
 		       tm_buf *err);
-
-/* ---- where the queue lives ---- */
-
-typedef struct rq_place {
-	const char *path;     /* a queue file, or NULL with st */
-	store *st;
-	int lockfd;
-	tm_buf text;
-	tm_buf warn;          /* notes for the user (lines that cannot be read,
-			       * unknown statuses, a group not kept), one line
-			       * each, from the last rq_read or rq_transact */
-	size_t nbad;          /* lines that could not be read, from the same */
-} rq_place;
-
-/* Reads the queue for reading only (no lock).  A missing file is an error
- * unless missing_ok.  The queue file is written by the rules of
- * outfile.h (a link followed only when it is the user's or root's; the
- * mode and group kept); FILE.lock beside it is created with the queue's
- * mode and group and never through a link. */
-int rq_read(rq_place *pl, rq_queue *q, int missing_ok, tm_buf *err);
-
-/* Runs one change: locks (file) or watches (store), reads the queue,
- * calls change(q, arg, err), and writes back the changed items when it
- * returns 0; a store transaction that lost a race is run again (change
- * must then decide afresh on what it reads).  change returning -1 writes
- * nothing and its error is returned. */
-int rq_transact(rq_place *pl, int (*change)(rq_queue *q, void *arg, tm_buf *err),
-		void *arg, tm_buf *err);
-
-/* Moves the lines of a queue file that cannot be read to FILE.rejected
- * beside it (its name, links resolved, put in rejected; appended, never
- * replacing what it holds; created with the queue's mode and group) and
- * writes the queue without them, under the lock.  Sets *moved; nothing is
- * written when there is nothing to move.  A store is refused. */
-int rq_repair(rq_place *pl, tm_buf *rejected, size_t *moved, tm_buf *err);
-
-void rq_place_close(rq_place *pl);
 
 /* The current time in ISO 8601 UTC (or TITLEMILL_NOW when set, checked);
  * returns 0 or -1 with a message. */

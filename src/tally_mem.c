@@ -6,6 +6,7 @@
 #include <string.h>
 
 #include "decode.h"
+#include "store.h"
 #include "token.h"
 #include "tsv.h"
 
@@ -565,4 +566,124 @@ uint64_t tm_key_postings(tally_mem *m, const char *lang, const char *key, size_t
 		return 0;
 	i = st_find(&m->keys, m->scratch.data, m->scratch.len);
 	return i < 0 ? 0 : m->keys.ent[i].count;
+}
+
+/* ---- the memory backend (store.h) ---- */
+
+typedef struct mstore {
+	store base;
+	tally_mem *m;
+} mstore;
+
+static int m_add(store *st, const tally_posting *p)
+{
+	int r = tm_add(((mstore *)st)->m, p);
+	if (r < 0) {
+		buf_reset(&st->err);
+		buf_puts(&st->err, "out of memory");
+		return -1;
+	}
+	if (r == 1)
+		st->republished++;
+	else
+		st->counted++;
+	return 0;
+}
+
+/* Counted as they came: no chunks (store_mem_open chunks by 0). */
+static int m_commit(store *st, const uint64_t digest[2])
+{
+	(void)st;
+	(void)digest;
+	return 0;
+}
+
+static int m_finish(store *st)
+{
+	(void)st;
+	return 0;
+}
+
+/* The language field of a joined key, NUL-terminated in lang. */
+static void lang_of(const char *k, size_t n, char lang[8])
+{
+	const char *f;
+	size_t fl;
+	field(k, n, 1, &f, &fl);
+	memset(lang, 0, 8);
+	memcpy(lang, f, fl < 7 ? fl : 7);
+}
+
+/* Adds what src holds to dst (not its posting ids). */
+static int merge(tally_mem *dst, const tally_mem *src)
+{
+	char lang[8];
+	const char *f, *f2, *f3;
+	size_t n, fl, fl2, fl3;
+	int r = 0;
+
+	for (size_t i = 0; i < src->forms.n && !r; i++) {
+		const char *k = st_key(&src->forms, i, &n);
+		lang_of(k, n, lang);
+		field(k, n, 0, &f, &fl);
+		field(k, n, 2, &f2, &fl2);
+		field(k, n, 3, &f3, &fl3);
+		r = tm_add_form(dst, f, fl, lang, f2, fl2, f3, fl3, src->forms.ent[i].count);
+	}
+	for (size_t i = 0; i < src->keys.n && !r; i++) {
+		const char *k = st_key(&src->keys, i, &n);
+		field(k, n, 0, &f, &fl);
+		memset(lang, 0, sizeof lang);
+		memcpy(lang, f, fl < 7 ? fl : 7);
+		field(k, n, 1, &f2, &fl2);
+		r = tm_add_key(dst, lang, f2, fl2, src->keys.ent[i].count);
+	}
+	for (size_t i = 0; i < src->occs.n && !r; i++) {
+		const char *k = st_key(&src->occs, i, &n);
+		lang_of(k, n, lang);
+		field(k, n, 0, &f, &fl);
+		r = tm_add_occ(dst, f, fl, lang, src->occs.ent[i].count);
+	}
+	for (size_t i = 0; i < src->exkeys.n && !r; i++) {
+		const char *k = st_key(&src->exkeys, i, &n);
+		const struct tm_example *e = &src->ex[src->exkeys.ent[i].count];
+		lang_of(k, n, lang);
+		field(k, n, 0, &f, &fl);
+		field(k, n, 2, &f2, &fl2);
+		for (int q = 0; q < e->n && !r; q++)
+			r = tm_add_example(dst, f, fl, lang, f2, fl2, src->exarena.data + e->off[q],
+					   e->len[q]);
+	}
+	return r;
+}
+
+static int m_dump(store *st, tally_mem *out)
+{
+	tally_mem *m = ((mstore *)st)->m;
+	int r = out == m ? 0 : merge(out, m);
+	if (r) {
+		buf_reset(&st->err);
+		buf_puts(&st->err, r == -2 ? "the counts add up past 2^64 - 1" : "out of memory");
+		return -1;
+	}
+	return 0;
+}
+
+static void m_close(store *st)
+{
+	free(st);
+}
+
+static const store_ops mem_ops = {m_add, m_commit, m_finish, m_dump, m_close};
+
+store *store_mem_open(tally_mem *m, tm_buf *err)
+{
+	mstore *s = calloc(1, sizeof *s);
+	if (!s) {
+		buf_puts(err, "out of memory");
+		return NULL;
+	}
+	store_base_init(&s->base, &mem_ops, 0);
+	s->m = m;
+	return &s->base;
 }

@@ -42,6 +42,14 @@ slots=$("$ts" --print < "$tmp/keys" | md5sum)
 server=$(sed 's/^/CLUSTER KEYSLOT "/; s/$/"/' "$tmp/keys" | redis-cli -p "$P1" | md5sum)
 check "our slots equal CLUSTER KEYSLOT on 3000 keys" "$server" "$slots"
 
+# the backends' own suite (tests/unit/test_backend.c) against the
+# cluster: the same assertions as for memory and one server
+tb=$root/build/test_backend
+[ -x "$tb" ] || tb=$root/build-asan/test_backend
+[ -x "$tb" ] || { echo "  build/test_backend is missing: run make unit first"; exit 1; }
+TITLEMILL_TEST_REDIS=$C "$tb" > "$tmp/tb.out" 2>&1; check "backend suite on the cluster" 0 $?
+grep -q 'PASSED.*5 test' "$tmp/tb.out"; check "backend suite ran every test" 0 $?
+
 # 2. one file: memory, one server and the cluster give the same table
 /usr/bin/python3 "$gen" --postings --count 30000 --seed 11 > "$tmp/a.tsv"
 /usr/bin/python3 "$gen" --postings --count 20000 --seed 12 > "$tmp/b.tsv"

@@ -19,6 +19,15 @@ trap 'stop a; stop b; stop c; stop d; stop v6; rm -rf "$tmp"' EXIT INT TERM
 start a --appendonly no || exit 1
 S=unix:$tmp/a/sock
 
+# the backends' own suite (tests/unit/test_backend.c) against this server:
+# the same assertions as for memory and the queue file
+root=$(cd "$(dirname "$0")/../.." && pwd)
+tb=$root/build/test_backend
+[ -x "$tb" ] || tb=$root/build-asan/test_backend
+[ -x "$tb" ] || { echo "  build/test_backend is missing: run make unit first"; exit 1; }
+TITLEMILL_TEST_REDIS=$S "$tb" > "$tmp/tb.out" 2>&1; check backend-suite-on-redis 0 $?
+grep -q 'PASSED.*5 test' "$tmp/tb.out"; check backend-suite-ran-all 0 $?
+
 /usr/bin/python3 "$gen" --postings --count 30000 --seed 11 > "$tmp/p.tsv"
 $T tally "$tmp/p.tsv" > "$tmp/mem.tsv" 2>/dev/null
 
@@ -61,7 +70,11 @@ start b --appendonly yes --appendfsync always || exit 1
 B=unix:$tmp/b/sock
 $T tally --store "$B" --chunk 100 --retries 0 "$tmp/p.tsv" 2> "$tmp/err" &
 pid=$!
-sleep 0.4
+# (once its first chunk is in, however long the lexicons took to load)
+for i in $(seq 100); do
+	[ -n "$(redis-cli -s "$tmp/b/sock" --scan --pattern 'titlemill:{i:*' | head -1)" ] && break
+	sleep 0.05
+done
 kill -9 "$(cat "$tmp/b/pid")"
 wait $pid; check server-lost-status 1 $?
 grep -q "unix:$tmp/b/sock: lost the connection" "$tmp/err"; check server-lost-msg 0 $?
