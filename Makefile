@@ -32,8 +32,8 @@ override LDLIBS += $(PC_LIBS) -lm
 BUILD ?= build
 CORE = buf decode unicode token lexicon title norm pass_gender pass_noise pass_place pass_roles \
 	reader tsv jsonw jsonr setup lang fieldcheck strtab postings tally_mem store_redis \
-	stats labels skos review delta slot cluster outfile
-CLI = cli_norm cli_tally cli_rank propose cli_review main
+	stats labels skos review review_item review_json review_change review_batch review_time delta slot cluster outfile
+CLI = cli_norm cli_tally cli_rank propose cli_review cli_review_change cli_review_read main
 CORE_OBJ = $(CORE:%=$(BUILD)/%.o)
 CLI_OBJ = $(CLI:%=$(BUILD)/%.o)
 UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_title test_norm test_reader test_tally test_stats test_review test_slot test_outfile test_fieldcheck

@@ -8,6 +8,8 @@
 
 #include "fieldcheck.h"
 #include "jsonr.h"
+#include "review_json.h"
+#include "review_time.h"
 #include "skos.h"
 
 typedef struct delta {
