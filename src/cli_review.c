@@ -275,10 +275,21 @@ int rv_fail(const char *m)
 
 int rv_flush(tm_buf *b, FILE *fp)
 {
+	if (buf_status(b))
+		return TM_ENOMEM; /* never a part of what was to be written */
 	if (b->len && fwrite(b->data, 1, b->len, fp) != b->len)
-		return -1;
+		return TM_EFAIL;
 	buf_reset(b);
-	return 0;
+	return TM_OK;
+}
+
+int rv_finish(tm_buf *b)
+{
+	int rc = rv_flush(b, stdout);
+	buf_free(b);
+	if (rc == TM_ENOMEM)
+		return rv_fail("out of memory: the output is incomplete");
+	return rv_finish_stdout();
 }
 
 int rv_finish_stdout(void)

@@ -34,8 +34,12 @@ int rv_usage_error(const char *what, const char *detail);
 int rv_pick(const char *const *names, int n, const char *s);
 /* Prints "titlemill review: m" on standard error; returns EXIT_RUNTIME. */
 int rv_fail(const char *m);
-/* Writes b to fp and empties it; -1 when the write failed. */
+/* Writes b to fp and empties it: TM_OK, TM_EFAIL when the write failed,
+ * TM_ENOMEM (nothing written) when an append to b failed. */
 int rv_flush(tm_buf *b, FILE *fp);
+/* Flushes b to standard output and frees it: EXIT_OK, or EXIT_RUNTIME
+ * with a message when b or the output failed. */
+int rv_finish(tm_buf *b);
 /* Flushes standard output: EXIT_OK, or EXIT_RUNTIME with a message. */
 int rv_finish_stdout(void);
 

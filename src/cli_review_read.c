@@ -14,6 +14,7 @@
 #include "outfile.h"
 #include "review_json.h"
 #include "review_time.h"
+#include "tsv.h"
 
 /* ---- reading: list, show, stats, export ---- */
 
@@ -135,17 +136,9 @@ int rv_list(const review_opts *o, const rq_queue *q)
 		} else {
 			const rq_event *dec = rq_last_decision(it);
 			const rq_brief *e = &it->brief;
-			buf_puts(&b, it->id);
-			buf_putc(&b, '\t');
-			buf_puts(&b, rq_status_name(it));
-			buf_putc(&b, '\t');
-			buf_puts(&b, rq_kind_names[it->kind]);
-			buf_putc(&b, '\t');
-			buf_puts(&b, it->occ);
-			buf_putc(&b, '\t');
-			buf_puts(&b, it->lang);
-			buf_putc(&b, '\t');
-			buf_puts(&b, it->label);
+			const char *head[] = {it->id,  rq_status_name(it), rq_kind_names[it->kind],
+					      it->occ, it->lang,           it->label};
+			tsv_put_fields(&b, head, sizeof head / sizeof *head);
 			snprintf(num, sizeof num, "\t%.4f\t%llu\t%llu\t%.4f\t", it->score,
 				 (unsigned long long)it->postings, (unsigned long long)e->occ_postings,
 				 e->precision);
@@ -155,27 +148,21 @@ int rv_list(const review_opts *o, const rq_queue *q)
 				buf_puts(&b, e->rival);
 				buf_puts(&b, num);
 			}
+			const char *tail[] = {e->variant_of ? e->variant_of : "",
+					      it->added,
+					      it->proposed,
+					      dec ? dec->reviewer : "",
+					      dec ? dec->at : "",
+					      dec && dec->note ? dec->note : ""};
 			buf_putc(&b, '\t');
-			buf_puts(&b, e->variant_of ? e->variant_of : "");
-			buf_putc(&b, '\t');
-			buf_puts(&b, it->added);
-			buf_putc(&b, '\t');
-			buf_puts(&b, it->proposed);
-			buf_putc(&b, '\t');
-			buf_puts(&b, dec ? dec->reviewer : "");
-			buf_putc(&b, '\t');
-			buf_puts(&b, dec ? dec->at : "");
-			buf_putc(&b, '\t');
-			buf_puts(&b, dec && dec->note ? dec->note : "");
+			tsv_put_fields(&b, tail, sizeof tail / sizeof *tail);
 			buf_putc(&b, '\n');
 		}
 		if (b.len > 65536 && rv_flush(&b, stdout))
 			break;
 	}
-	rv_flush(&b, stdout);
-	buf_free(&b);
 	free(v);
-	return rv_finish_stdout();
+	return rv_finish(&b);
 }
 
 static void show_event(tm_buf *b, const rq_event *e, const rq_item *it, const rq_event *prev_dec)
@@ -260,18 +247,11 @@ int rv_show(const review_opts *o, const rq_queue *q, int n, char **ids)
 		evid_item(it, &e);
 		if (k)
 			buf_putc(&b, '\n');
-		buf_puts(&b, "id            ");
-		buf_puts(&b, it->id);
-		buf_puts(&b, "\nstatus        ");
-		buf_puts(&b, rq_status_name(it));
-		buf_puts(&b, "\nkind          ");
-		buf_puts(&b, rq_kind_names[it->kind]);
-		buf_puts(&b, "\noccupation    ");
-		buf_puts(&b, it->occ);
-		buf_puts(&b, "\nlang          ");
-		buf_puts(&b, it->lang);
-		buf_puts(&b, "\nlabel         ");
-		buf_puts(&b, it->label);
+		const char *head[][2] = {{"id", it->id},          {"status", rq_status_name(it)},
+					 {"kind", rq_kind_names[it->kind]}, {"occupation", it->occ},
+					 {"lang", it->lang},      {"label", it->label}};
+		for (size_t j = 0; j < sizeof head / sizeof *head; j++)
+			buf_printf(&b, "%s%-14s%s", j ? "\n" : "", head[j][0], head[j][1]);
 		size_t wl;
 		const char *wr = jr_vstr(jr_get(e.v, "label_as_written"), &wl);
 		if (wr) {
@@ -304,9 +284,7 @@ int rv_show(const review_opts *o, const rq_queue *q, int n, char **ids)
 				last_dec = &it->ev[i];
 		}
 	}
-	rv_flush(&b, stdout);
-	buf_free(&b);
-	int w = rv_finish_stdout();
+	int w = rv_finish(&b);
 	return rc ? rc : w;
 }
 
@@ -403,10 +381,8 @@ int rv_stats(const rq_queue *q, const char *now)
 			 (unsigned long long)r->st[3], rate, age);
 		buf_puts(&b, line);
 	}
-	rv_flush(&b, stdout);
-	buf_free(&b);
 	free(v);
-	return rv_finish_stdout();
+	return rv_finish(&b);
 }
 
 /* export */
