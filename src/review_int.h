@@ -33,8 +33,10 @@ rq_item *rqi_new_item(rq_queue *q, const char *id, size_t idl);
  * time is not counted, it unchanged). */
 rq_event *rqi_new_event(rq_item *it, int what, const char *at);
 
-/* Field readers of a JSON object v: each returns TM_OK (the value in
- * *out) or a negative kind with the message in err. */
+/* Field readers of a JSON object v, the message in err on failure.
+ * rqi_get_str: a malloc'd copy of a string field that is present, not
+ * empty and free of NUL bytes, or NULL.  The others: TM_OK with the value
+ * in *out, TM_EINPUT (missing or of the wrong type or value). */
 char *rqi_get_str(const jr_val *v, const char *field, const char *where, tm_buf *err);
 int rqi_get_count(const jr_val *v, const char *field, uint64_t *out, const char *where,
 		  tm_buf *err);
