@@ -33,11 +33,12 @@ BUILD ?= build
 CORE = buf decode unicode token digest lexicon lexcache title norm pass_gender pass_noise pass_place pass_roles \
 	reader tsv jsonw jsonr setup lang fieldcheck strtab postings tally_mem chunk store store_redis store_redis_url \
 	store_redis_keys store_redis_chunk store_redis_apply store_redis_dump store_redis_queue \
-	stats labels skos review queue queue_file delta slot cluster outfile
-CLI = cli_norm cli_tally cli_rank propose cli_review main
+	stats labels skos review_item review_json review_change review_batch review_time queue queue_file \
+	delta slot cluster outfile
+CLI = cli_norm cli_tally cli_rank propose cli_review cli_review_change cli_review_read main
 CORE_OBJ = $(CORE:%=$(BUILD)/%.o)
 CLI_OBJ = $(CLI:%=$(BUILD)/%.o)
-UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_title test_norm test_reader test_tally test_stats test_review test_slot test_outfile test_fieldcheck \
+UNIT_TESTS = test_buf test_decode test_unicode test_token test_lexicon test_title test_norm test_reader test_tally test_stats test_review test_slot test_outfile test_fieldcheck \
 	test_backend
 UNIT_BIN = $(UNIT_TESTS:%=$(BUILD)/%)
 

@@ -71,19 +71,19 @@ static int count_postings(tally_mem *m, normaliser *nm, const char *path, tm_buf
 		pr_close(&pr);
 		return -1;
 	}
-	while ((r = pr_next(&pr, &p)) != 0) {
+	while ((r = pr_next_row(&pr, &p)) != 0) {
 		norm_result res;
 		tally_posting tp;
+		if (r == TM_EINPUT) {
+			if (bad++ < 5)
+				fprintf(stderr, "titlemill: %.*s (skipped)\n", (int)pr.err.len, pr.err.data);
+			continue;
+		}
 		if (r < 0) {
 			buf_reset(err);
 			buf_append(err, pr.err.data, pr.err.len);
 			pr_close(&pr);
 			return -1;
-		}
-		if (r == 2) {
-			if (bad++ < 5)
-				fprintf(stderr, "titlemill: %.*s (skipped)\n", (int)pr.err.len, pr.err.data);
-			continue;
 		}
 		if (pr.lr.noeol)
 			fprintf(stderr, "titlemill: %s:%ld: the last row has no line end: was the file "

@@ -276,7 +276,7 @@ int cmd_tally(int argc, char **argv)
 				fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
 				rc = EXIT_RUNTIME;
 			}
-			while (rc == EXIT_OK && (r = pr_next(&pr, &p)) != 0)
+			while (rc == EXIT_OK && (r = pr_next_row(&pr, &p)) != 0)
 				if (r != 1) {
 					fprintf(stderr, "titlemill tally: %.*s (--strict: nothing applied)\n",
 						(int)pr.err.len, pr.err.data);
@@ -312,15 +312,15 @@ int cmd_tally(int argc, char **argv)
 			rc = EXIT_RUNTIME;
 			break;
 		}
-		while ((r = pr_next(&pr, &p)) != 0) {
+		while ((r = pr_next_row(&pr, &p)) != 0) {
 			norm_result res;
 			tally_posting tp;
-			if (r < 0) {
+			if (r < 0 && r != TM_EINPUT) {
 				fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
 				rc = EXIT_RUNTIME;
 				break;
 			}
-			if (r == 2) {
+			if (r == TM_EINPUT) {
 				if (o.strict) {
 					fprintf(stderr, "titlemill tally: %.*s (--strict: nothing written)\n",
 						(int)pr.err.len, pr.err.data);

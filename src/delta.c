@@ -8,7 +8,10 @@
 
 #include "fieldcheck.h"
 #include "jsonr.h"
+#include "review_json.h"
+#include "review_time.h"
 #include "skos.h"
+#include "tsv.h"
 
 typedef struct delta {
 	const rq_item *it;
@@ -78,6 +81,7 @@ static int is_iri(const char *s)
 	return 1;
 }
 
+/* Appends why x is to be reviewed; returns buf_status(b). */
 static int reason(tm_buf *b, const delta *x)
 {
 	char line[300];
@@ -87,8 +91,8 @@ static int reason(tm_buf *b, const delta *x)
 	else {
 		const char *rival = ev_str(x, "competitor", "occupation");
 		/* the rival is checked (FC_OCC_MAX bytes) before it gets here */
-		if (buf_puts(b, "used elsewhere: ") || buf_puts(b, rival ? rival : "another occupation"))
-			return -1;
+		buf_puts(b, "used elsewhere: ");
+		buf_puts(b, rival ? rival : "another occupation");
 		snprintf(line, sizeof line, " has %llu of its %llu postings",
 			 ev_count(x, "competitor", "postings"), ev_count(x, NULL, "key_postings"));
 	}
@@ -123,21 +127,22 @@ static void say(tm_buf *err, const char *a, const char *b, const char *c)
 	buf_puts(err, c ? c : "");
 }
 
+/* TM_OK, or TM_ENOMEM when b failed (checked once: buf.h). */
 static int write_tsv(const delta *v, size_t n, tm_buf *b)
 {
-	int bad = buf_puts(b, "occupation\tkind\tlang\tlabel\tchange\tid\treviewer\tdecided_at\tnote\treason\n");
-	for (size_t i = 0; i < n && !bad; i++) {
+	buf_puts(b, "occupation\tkind\tlang\tlabel\tchange\tid\treviewer\tdecided_at\tnote\treason\n");
+	for (size_t i = 0; i < n; i++) {
 		const delta *x = &v[i];
 		const char *f[] = {x->it->occ, kind_word(x->kind), x->it->lang, x->text,
 				   x->review ? "review" : "add", x->it->id, x->dec->reviewer,
 				   x->dec->at, x->dec->note ? x->dec->note : ""};
-		for (size_t k = 0; k < sizeof f / sizeof *f; k++)
-			bad |= buf_puts(b, f[k]) | buf_putc(b, '\t');
+		tsv_put_fields(b, f, sizeof f / sizeof *f);
+		buf_putc(b, '\t');
 		if (x->review)
-			bad |= reason(b, x);
-		bad |= buf_putc(b, '\n');
+			reason(b, x);
+		buf_putc(b, '\n');
 	}
-	return bad ? -1 : 0;
+	return buf_status(b);
 }
 
 static int write_skos(const delta *v, size_t n, size_t nadd, const dl_opts *o, tm_buf *b,

@@ -21,7 +21,7 @@ typedef struct dl_opts {
 	int clean_case;   /* the clean label, not label_as_written */
 } dl_opts;
 
-/* Appends the delta of q to out.  Returns 0, or -1 with err holding one
+/* Appends the delta of q to out.  Returns TM_OK, or TM_EFAIL (err.h) with err holding one
  * message a line (no trailing newline): each accepted item that cannot
  * be written safely, an occupation that is no IRI in a SKOS export, or
  * running out of memory.  On -1, out is left as it was. */

@@ -39,7 +39,7 @@ static int is_break(uint32_t c)
 static int says(char why[FC_WHY], const char *what)
 {
 	snprintf(why, FC_WHY, "%s", what);
-	return -1;
+	return TM_EINPUT;
 }
 
 /* The length and encoding checks every field shares. */
@@ -49,23 +49,23 @@ static int sized(const char *s, size_t n, size_t max, char why[FC_WHY])
 		return says(why, "is empty");
 	if (n > max) {
 		snprintf(why, FC_WHY, "is longer than %zu bytes", max);
-		return -1;
+		return TM_EINPUT;
 	}
 	if (!dec_is_utf8(s, n))
 		return says(why, "is not valid UTF-8");
-	return 0;
+	return TM_OK;
 }
 
 static int bad_char(uint32_t c, size_t at, const char *what, char why[FC_WHY])
 {
 	snprintf(why, FC_WHY, "holds U+%04X (%s) at byte %zu", (unsigned)c, what, at + 1);
-	return -1;
+	return TM_EINPUT;
 }
 
 int fc_text(const char *s, size_t n, size_t max, char why[FC_WHY])
 {
 	if (sized(s, n, max, why))
-		return -1;
+		return TM_EINPUT;
 	for (size_t i = 0; i < n;) {
 		size_t at = i;
 		uint32_t c = next_cp(s, &i);
@@ -73,7 +73,7 @@ int fc_text(const char *s, size_t n, size_t max, char why[FC_WHY])
 			return bad_char(c, at, c >= 0x2028 ? "a line or paragraph separator"
 							   : "a control character", why);
 	}
-	return 0;
+	return TM_OK;
 }
 
 int fc_label(const char *s, size_t n, char why[FC_WHY])
@@ -88,26 +88,26 @@ int fc_name(const char *s, size_t n, char why[FC_WHY])
 
 int fc_note(const char *s, size_t n, char why[FC_WHY])
 {
-	return n ? fc_text(s, n, FC_NOTE_MAX, why) : 0;
+	return n ? fc_text(s, n, FC_NOTE_MAX, why) : TM_OK;
 }
 
 int fc_id(const char *s, size_t n, char why[FC_WHY])
 {
 	if (sized(s, n, FC_ID_MAX, why))
-		return -1;
+		return TM_EINPUT;
 	for (size_t i = 0; i < n; i++)
 		if (s[i] <= 0x20 || s[i] >= 0x7f)
 			return says(why, "holds a character other than printable ASCII");
-	return 0;
+	return TM_OK;
 }
 
 int fc_lang(const char *s, size_t n, char why[FC_WHY])
 {
 	if (sized(s, n, FC_LANG_MAX, why))
-		return -1;
+		return TM_EINPUT;
 	if (!lang_wellformed(s, n))
 		return says(why, "is not a well-formed BCP 47 language tag (RFC 5646)");
-	return 0;
+	return TM_OK;
 }
 
 static int is_hex(char c)
@@ -138,7 +138,7 @@ int fc_occupation(const char *s, size_t n, char why[FC_WHY])
 	/* unreserved, gen-delims and sub-delims of RFC 3986/3987 */
 	static const char ascii[] = "-._~:/?#[]@!$&'()*+,;=";
 	if (sized(s, n, FC_OCC_MAX, why))
-		return -1;
+		return TM_EINPUT;
 	for (size_t i = 0; i < n;) {
 		size_t at = i;
 		uint32_t c = next_cp(s, &i);
@@ -154,7 +154,7 @@ int fc_occupation(const char *s, size_t n, char why[FC_WHY])
 					       : c == ' ' ? "a space"
 							  : "a character an IRI may not hold", why);
 	}
-	return 0;
+	return TM_OK;
 }
 
 int fc_suggestion(const struct jr_val *v, const char **field, char why[FC_WHY])
@@ -179,8 +179,8 @@ int fc_suggestion(const struct jr_val *v, const char **field, char why[FC_WHY])
 		const char *s = jr_vstr(x, &n);
 		if (s && f[i].check(s, n, why)) {
 			*field = f[i].sub ? "competitor.occupation" : f[i].name;
-			return -1;
+			return TM_EINPUT;
 		}
 	}
-	return 0;
+	return TM_OK;
 }

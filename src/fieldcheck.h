@@ -8,13 +8,16 @@
  * invalid UTF-8, bounded lengths, BCP 47 tags and IRI characters where
  * the formats expect them.
  *
- * Each check returns 0 when s[0..n) is fine, or -1 with a reason in why
+ * Each check returns TM_OK (0) when s[0..n) is fine, or TM_EINPUT (err.h)
+ * with a reason in why
  * (FC_WHY bytes, a phrase such as "holds U+000A (a control character)
  * at byte 5" that never quotes the string itself). */
 #ifndef TM_FIELDCHECK_H
 #define TM_FIELDCHECK_H
 
 #include <stddef.h>
+
+#include "err.h"
 
 /* The limits, in bytes of UTF-8 (README, "The curators' queue"). */
 #define FC_ID_MAX 64      /* a suggestion's id (ours are 16 hex digits) */
@@ -50,7 +53,7 @@ int fc_occupation(const char *s, size_t n, char why[FC_WHY]);
 /* A suggestion (a propose object): its id, occupation, lang and label,
  * and label_as_written, variant_of and competitor.occupation when they
  * are strings.  Missing or mistyped required fields are the caller's to
- * report; this only judges the strings present.  Returns 0, or -1 with
+ * report; this only judges the strings present.  Returns TM_OK, or TM_EINPUT with
  * the field's name in *field and the reason in why. */
 struct jr_val;
 int fc_suggestion(const struct jr_val *v, const char **field, char why[FC_WHY]);

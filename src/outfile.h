@@ -27,7 +27,8 @@
  *    folder cannot steer another curator's writes into that curator's
  *    own files.
  *
- * Functions return 0 on success and -1 with "path: what" in err.
+ * Functions return TM_OK (0) on success and TM_EFAIL (-1) with
+ * "path: what" in err (err.h).
  * Ownership: an of_file owns its names, descriptor and stream; of_commit
  * and of_abort release them and leave the of_file zeroed (of_abort on a
  * zeroed or committed of_file does nothing).  Notes that are not errors

@@ -9,6 +9,7 @@
 #include "decode.h"
 #include "lang.h"
 
+/* Puts "file:line: what" in pr->err (cut at 400 bytes). */
 static void say(postings_reader *pr, long line, const char *what)
 {
 	char msg[400];
@@ -16,8 +17,7 @@ static void say(postings_reader *pr, long line, const char *what)
 		snprintf(msg, sizeof msg, "%s:%ld: %s", pr->lr.name, line, what);
 	else /* an empty file has no line to name */
 		snprintf(msg, sizeof msg, "%s: %s", pr->lr.name, what);
-	buf_reset(&pr->err);
-	buf_puts(&pr->err, msg);
+	tm_fail(&pr->err, TM_EINPUT, NULL, msg, NULL);
 }
 
 int pr_valid_date(const char *s, size_t n)
@@ -102,8 +102,7 @@ int pr_open(postings_reader *pr, const char *path, enum pr_format format)
 	if (lr_open(&pr->lr, path) != 0) {
 		char m[512];
 		snprintf(m, sizeof m, "%s: %s", path, strerror(errno));
-		buf_puts(&pr->err, m);
-		return -1;
+		return tm_fail(&pr->err, TM_EFAIL, NULL, m, NULL);
 	}
 	/* the first non-empty line tells the format */
 	do {
@@ -133,7 +132,7 @@ int pr_open(postings_reader *pr, const char *path, enum pr_format format)
 		}
 		return read_header(pr, s, n);
 	}
-	/* JSON Lines: keep the line for the first pr_next */
+	/* JSON Lines: keep the line for the first pr_next_row */
 	if (buf_append(&pr->hold, s, n) != 0)
 		return -1;
 	pr->pending = 1;
@@ -200,18 +199,18 @@ static int finish(postings_reader *pr, posting *p)
 {
 	if (!p->titlelen) {
 		say(pr, p->line, "no title");
-		return 2;
+		return TM_EINPUT;
 	}
 	if (!p->nocc) {
 		say(pr, p->line, "no occupation");
-		return 2;
+		return TM_EINPUT;
 	}
 	if (p->date && !pr_valid_date(p->date, p->datelen)) {
 		char m[120];
 		snprintf(m, sizeof m, "bad date '%.*s' (want YYYY-MM-DD)",
 			 (int)(p->datelen > 40 ? 40 : p->datelen), p->date);
 		say(pr, p->line, m);
-		return 2;
+		return TM_EINPUT;
 	}
 	return 1;
 }
@@ -249,11 +248,11 @@ static int next_tsv(postings_reader *pr, posting *p, const char *s, size_t n)
 #undef FIELD
 	if ((size_t)pr->c_title >= nf || (size_t)pr->c_occ >= nf) {
 		say(pr, p->line, "row has fewer fields than the header");
-		return 2;
+		return TM_EINPUT;
 	}
 	if (over) {
 		say(pr, p->line, "row has more fields than the header (a TAB inside a field?)");
-		return 2;
+		return TM_EINPUT;
 	}
 	if (p->id && !p->idlen)
 		p->id = NULL;
@@ -262,11 +261,11 @@ static int next_tsv(postings_reader *pr, posting *p, const char *s, size_t n)
 	if (occ && (r = add_occs(p, occ, occlen)) != 0) {
 		say(pr, p->line, r == -2 ? "an occupation holds a control character or invalid UTF-8"
 					 : "more than 64 occupations");
-		return 2;
+		return TM_EINPUT;
 	}
 	if (set_lang(pr, p, lang, langlen) != 0) {
 		say(pr, p->line, "bad lang (want a BCP 47 tag such as de or fr-BE)");
-		return 2;
+		return TM_EINPUT;
 	}
 	return finish(pr, p);
 }
@@ -282,12 +281,12 @@ static int next_json(postings_reader *pr, posting *p, const char *s, size_t n)
 	if (!pr->doc) {
 		snprintf(m, sizeof m, "bad JSON: %s", err);
 		say(pr, p->line, m);
-		return 2;
+		return TM_EINPUT;
 	}
 	t = jr_type(pr->doc, "title");
 	if (t != JR_STRING && t != JR_MISSING && t != JR_NULL) {
 		say(pr, p->line, "'title' is not a string");
-		return 2;
+		return TM_EINPUT;
 	}
 	p->title = jr_str(pr->doc, "title", &p->titlelen);
 	t = jr_type(pr->doc, "occupations");
@@ -297,26 +296,26 @@ static int next_json(postings_reader *pr, posting *p, const char *s, size_t n)
 		if (r != 0) {
 			say(pr, p->line, r == -2 ? "an occupation holds a control character or invalid UTF-8"
 						 : "more than 64 occupations");
-			return 2;
+			return TM_EINPUT;
 		}
 	} else if (t == JR_ARRAY) {
 		for (size_t i = 0; i < jr_len(pr->doc, "occupations"); i++) {
 			const char *o = jr_elem_str(pr->doc, "occupations", i, &len);
 			if (!o) {
 				say(pr, p->line, "'occupations' holds something that is not a string");
-				return 2;
+				return TM_EINPUT;
 			}
 			int r = memchr(o, '|', len) ? 1 : add_occs(p, o, len);
 			if (r != 0) {
 				say(pr, p->line, r == 1 ? "an occupation in the 'occupations' array contains '|'"
 					: r == -2 ? "an occupation holds a control character or invalid UTF-8"
 						  : "more than 64 occupations");
-				return 2;
+				return TM_EINPUT;
 			}
 		}
 	} else if (t != JR_MISSING && t != JR_NULL) {
 		say(pr, p->line, "'occupations' is neither a string nor an array");
-		return 2;
+		return TM_EINPUT;
 	}
 	t = jr_type(pr->doc, "id");
 	if (t == JR_STRING) {
@@ -329,14 +328,14 @@ static int next_json(postings_reader *pr, posting *p, const char *s, size_t n)
 		p->id = pr->idnum;
 	} else if (t != JR_MISSING && t != JR_NULL) {
 		say(pr, p->line, "'id' is neither a string nor an integer");
-		return 2;
+		return TM_EINPUT;
 	}
 	t = jr_type(pr->doc, "date");
 	if (t == JR_STRING)
 		p->date = jr_str(pr->doc, "date", &p->datelen);
 	else if (t != JR_MISSING && t != JR_NULL) {
 		say(pr, p->line, "'date' is not a string");
-		return 2;
+		return TM_EINPUT;
 	}
 	t = jr_type(pr->doc, "lang");
 	const char *lang = NULL;
@@ -345,16 +344,16 @@ static int next_json(postings_reader *pr, posting *p, const char *s, size_t n)
 		lang = jr_str(pr->doc, "lang", &len);
 	else if (t != JR_MISSING && t != JR_NULL) {
 		say(pr, p->line, "'lang' is not a string");
-		return 2;
+		return TM_EINPUT;
 	}
 	if (set_lang(pr, p, lang, len) != 0) {
 		say(pr, p->line, "bad lang (want a BCP 47 tag such as de or fr-BE)");
-		return 2;
+		return TM_EINPUT;
 	}
 	return finish(pr, p);
 }
 
-int pr_next(postings_reader *pr, posting *p)
+int pr_next_row(postings_reader *pr, posting *p)
 {
 	const char *s;
 	size_t n;
@@ -370,7 +369,7 @@ int pr_next(postings_reader *pr, posting *p)
 			r = lr_next(&pr->lr, &s, &n);
 			if (r < 0) {
 				say(pr, pr->lr.lineno + 1, lr_strerror(&pr->lr));
-				return -1;
+				return TM_EFAIL;
 			}
 			if (r == 0)
 				return 0;
@@ -382,7 +381,7 @@ int pr_next(postings_reader *pr, posting *p)
 		p->line = pr->lr.lineno;
 		if (pr->lr.cut) {
 			say(pr, p->line, "line longer than 1 MiB");
-			return 2;
+			return TM_EINPUT;
 		}
 		return pr->format == PR_TSV ? next_tsv(pr, p, s, n) : next_json(pr, p, s, n);
 	}

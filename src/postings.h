@@ -4,7 +4,11 @@
  * '|' or an array of strings; `id` a string or an integer).
  *
  * A reader owns what it returns: a posting's fields point into the reader
- * and live until the next pr_next call. */
+ * and live until the next pr_next_row call.
+ *
+ * Returns as err.h says: pr_open gives TM_OK or TM_EFAIL; pr_next_row is
+ * an iterator (1, 0, or a negative kind), each failure with its message
+ * in pr->err. */
 #ifndef TM_POSTINGS_H
 #define TM_POSTINGS_H
 
@@ -47,10 +51,11 @@ typedef struct postings_reader {
  * detects the format.  Returns 0, or -1 with a message in pr->err. */
 int pr_open(postings_reader *pr, const char *path, enum pr_format format);
 
-/* Returns 1 with the next posting; 0 at the end; 2 for a malformed row
- * (message "file:line: what" in pr->err; the row is to be skipped); -1
- * on a read error (message in pr->err). */
-int pr_next(postings_reader *pr, posting *p);
+/* Returns 1 with the next posting; 0 at the end; TM_EINPUT for a
+ * malformed row (message "file:line: what" in pr->err; the row is to be
+ * skipped, the reader goes on); TM_EFAIL on a read error (message in
+ * pr->err; stop).  (Test TM_EINPUT before `< 0`.) */
+int pr_next_row(postings_reader *pr, posting *p);
 
 void pr_close(postings_reader *pr);
 

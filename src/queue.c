@@ -17,14 +17,7 @@
 
 void rq_store_msg(tm_buf *err, const char *where, const char *what, const char *detail)
 {
-	buf_reset(err);
-	if (where) {
-		buf_puts(err, where);
-		buf_puts(err, ": ");
-	}
-	buf_puts(err, what);
-	if (detail)
-		buf_puts(err, detail);
+	tm_fail(err, TM_EFAIL, where, what, detail);
 }
 
 /* Parses what pl->text holds; the queue's notes become the place's. */

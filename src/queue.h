@@ -18,6 +18,7 @@
 
 #include "buf.h"
 #include "review.h"
+#include "review_json.h"
 #include "store.h"
 
 typedef struct rq_store rq_store;

@@ -17,10 +17,17 @@
  * read is reported with its line number, kept as it is when the queue is
  * written again, and moved aside only by rq_repair.
  *
+ * This header holds the queue in memory (items, events, finding one).
+ * Beside it: queue.h (where the queue lives: rq_read, rq_transact,
+ * rq_repair over the file or the store), review_json.h (an item as a
+ * JSON line), review_change.h (adding suggestions, recording decisions),
+ * review_batch.h (a TSV file of decisions), review_time.h (the times of
+ * events).
+ *
  * Ownership: a queue owns its items and their strings; rq_free releases
- * everything.  Functions return 0 on success and -1 on failure with a
- * message in err (naming file and line where there is one); a failed
- * operation leaves the queue as it was unless it says otherwise. */
+ * everything.  Functions return TM_OK (0) or a negative kind of err.h
+ * with a message in err (naming file and line where there is one); a
+ * failed operation leaves the queue as it was unless it says otherwise. */
 #ifndef TM_REVIEW_H
 #define TM_REVIEW_H
 
@@ -95,7 +102,7 @@ typedef struct rq_queue {
 	uint64_t next_seq;
 	struct strtab *index; /* id -> position + 1 */
 	rq_badline *bad;      /* lines that cannot be read, in file order */
-	size_t nbad;
+	size_t nbad, badcap;
 	int drop_bad;         /* set: the next write leaves the bad lines out */
 	tm_buf notes;         /* what rq_parse reports: "file:line: ...\n" each */
 } rq_queue;
@@ -105,87 +112,12 @@ void rq_free(rq_queue *q);
 /* The name of the item's status (an unknown one as written). */
 const char *rq_status_name(const rq_item *it);
 
-/* Reads item lines (a queue file, or what a store holds) into an empty
- * queue; name is used in messages.  Items are put in arrival order.  A
- * line that cannot be read goes to q->bad and a note of it (name:line:
- * why) to q->notes, as does an item with an unknown status; -1 only when
- * memory runs out.  The items borrow text: it must outlive the queue. */
-int rq_parse(rq_queue *q, const char *text, size_t n, const char *name, tm_buf *err);
-
-/* Writes item it as one JSON line, newline included (an unchanged item
- * read from a queue: its line as it was). */
-int rq_item_json(const rq_item *it, tm_buf *b);
-
-/* The item's latest evidence as compact JSON (read from its line the
- * first time and kept), or NULL when out of memory. */
-const char *rq_item_evidence(const rq_item *it);
-
 /* The item whose id is id, or whose id starts with id when that is
  * unique and at least 6 characters long.  NULL when there is none; *many
  * is set when a prefix fits more than one. */
 rq_item *rq_find(const rq_queue *q, const char *id, size_t idlen, int *many);
 
-typedef struct rq_addstat {
-	size_t added, refreshed, unchanged, reopened, kept_closed, accepted_before;
-	size_t unknown_status; /* items left alone: their status is unknown */
-} rq_addstat;
-
-/* Takes one line of propose output (JSON) into the queue: new ids are
- * added; open and deferred items get the new evidence; a rejected item
- * reopens when its postings reach reopen_factor times those at the
- * rejection and stays closed otherwise; an accepted item, or one whose
- * status is unknown, is left alone.
- * where is "file:line" for messages. */
-int rq_add(rq_queue *q, const char *line, size_t n, const char *where, const char *now,
-	   double reopen_factor, rq_addstat *st, tm_buf *err);
-
-enum { RD_APPLIED, RD_SAME, RD_CONFLICT };
-/* Records decision d (0 accept, 1 reject, 2 defer) on it.  Returns
- * RD_APPLIED, RD_SAME (the item already stands so: nothing changes) or
- * RD_CONFLICT (another decision stands; the message in msg says whose;
- * nothing changes unless overrule is set, when the decision is recorded
- * over it and RD_APPLIED returned; an item whose status is unknown is
- * always RD_CONFLICT). */
-int rq_decide(rq_item *it, int d, const char *reviewer, const char *note, const char *now,
-	      int overrule, tm_buf *msg);
-
 /* The latest decision event of an item, or NULL. */
 const rq_event *rq_last_decision(const rq_item *it);
-
-/* A decision to record: d is 0 accept, 1 reject, 2 defer; where is
- * "file:line" for a batch, or NULL. */
-typedef struct rq_decision {
-	char *id, *reviewer, *note, *where;
-	int d;
-} rq_decision;
-
-typedef struct rq_decisions {
-	rq_decision *v;
-	size_t n;
-} rq_decisions;
-
-/* Whether s[0..n) is empty or plain text by fieldcheck.h's fc_text:
- * valid UTF-8 without control characters or line separators (ids of a
- * decisions file; names and notes get fc_name and fc_note). */
-int rq_plain_text(const char *s, size_t n);
-
-/* Appends a zeroed decision; NULL when out of memory. */
-rq_decision *rq_decisions_push(rq_decisions *ds);
-void rq_decisions_free(rq_decisions *ds);
-
-/* Reads a batch of decisions from a TSV file with the columns id,
- * decision (accept, reject, defer), reviewer (or the default reviewer
- * when the column or the field is empty) and note (optional).  Each bad
- * line gets one message "file:line: what" on report.  Returns the
- * number of bad lines (0: all good), or -1 when the file cannot be read
- * or lacks the columns (message in err). */
-long rq_decisions_read(const char *path, const char *reviewer, rq_decisions *ds, FILE *report,
-		       tm_buf *err);
-
-/* The current time in ISO 8601 UTC (or TITLEMILL_NOW when set, checked);
- * returns 0 or -1 with a message. */
-int rq_now(char out[21], tm_buf *err);
-/* Seconds since 1970 of an ISO 8601 UTC time as rq_now writes it, or -1. */
-long long rq_time(const char *iso);
 
 #endif

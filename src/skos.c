@@ -45,10 +45,7 @@ typedef struct rd {
 
 static void refuse(rd *r, const char *what)
 {
-	char m[700];
-	snprintf(m, sizeof m, "%s:%ld: %s", r->path, r->line, what);
-	buf_reset(r->err);
-	buf_puts(r->err, m);
+	tm_failf(r->err, TM_EINPUT, "%s:%ld: %s", r->path, r->line, what);
 	r->failed = 1;
 }
 
@@ -319,10 +316,7 @@ int skos_read_count(const char *path, skos_label_fn fn, void *ctx, skos_skipped 
 	r.sk = sk ? sk : &none;
 	r.f = fopen(path, "rb");
 	if (!r.f) {
-		char m[600];
-		snprintf(m, sizeof m, "%s: %s", path, strerror(errno));
-		buf_puts(err, m);
-		return -1;
+		return tm_failf(err, TM_EFAIL, "%s: %s", path, strerror(errno));
 	}
 	r.line = 1;
 	r.env = serd_env_new(NULL);
@@ -332,7 +326,7 @@ int skos_read_count(const char *path, skos_label_fn fn, void *ctx, skos_skipped 
 	r.path = path;
 	reader = serd_reader_new(syn, &r, NULL, on_base, on_prefix, on_statement, NULL);
 	if (!reader || !r.env) {
-		buf_puts(err, "out of memory");
+		tm_fail(err, TM_ENOMEM, NULL, "out of memory", NULL);
 		serd_reader_free(reader);
 		serd_env_free(r.env);
 		fclose(r.f);
@@ -347,20 +341,14 @@ int skos_read_count(const char *path, skos_label_fn fn, void *ctx, skos_skipped 
 	serd_env_free(r.env);
 	*statements = r.statements;
 	if (ferror(r.f) && !r.failed) {
-		char m[600];
-		snprintf(m, sizeof m, "%s: cannot be read", path);
-		buf_reset(err);
-		buf_puts(err, m);
+		tm_failf(err, TM_EFAIL, "%s: cannot be read", path);
 		r.failed = 1;
 	}
 	fclose(r.f);
 	if (st != SERD_SUCCESS || r.failed) {
-		if (!err->len) {
-			char m[600];
-			snprintf(m, sizeof m, "%s: %s", path,
+		if (!err->len)
+			tm_failf(err, TM_EFAIL, "%s: %s", path,
 				 st == SERD_ERR_UNKNOWN ? "cannot be read" : (const char *)serd_strerror(st));
-			buf_puts(err, m);
-		}
 		return -1;
 	}
 	return 0;

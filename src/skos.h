@@ -33,7 +33,7 @@ typedef struct skos_skipped {
  * occupation handed to fn is the subject's IRI: prefixed names expanded,
  * relative IRIs resolved against @base or, before any @base, the file's
  * own location (file:///...).  sk (may be NULL) receives what was
- * skipped.  Returns 0, or -1 with a message "file:line[:col]: what" in
+ * skipped.  Returns TM_OK, or TM_EFAIL (err.h) with a message "file:line[:col]: what" in
  * err (a syntax error, nesting too deep, or what the callback refused). */
 int skos_read(const char *path, skos_label_fn fn, void *ctx, skos_skipped *sk, tm_buf *err);
 /* skos_read, and the number of statements read, labels or not, in
@@ -43,7 +43,7 @@ int skos_read_count(const char *path, skos_label_fn fn, void *ctx, skos_skipped 
 
 /* Writing labels as SKOS: Turtle (with the skos: prefix) or N-Triples,
  * appended to out (borrowed until skos_writer_end).  A comment line is
- * written as "# text".  kind is 'p', 'a' or 'h'.  Return 0 or -1; -1
+ * written as "# text".  kind is 'p', 'a' or 'h'.  Return TM_OK or TM_EFAIL (err.h); TM_EFAIL
  * also when a string could break out of its place (fieldcheck.h: an
  * IRI that is not of IRI characters, a tag that is not BCP 47, a
  * control character or line separator in a label or a comment), and

@@ -70,12 +70,10 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 	if ((t->n + 1) * 4 > t->nslot * 3 && grow_slots(t) != 0)
 		return -1;
 	if (t->n == t->cap) {
-		size_t cap = t->cap ? t->cap * 2 : 1024;
-		st_entry *p = realloc(t->ent, cap * sizeof *p);
+		st_entry *p = tm_grow(t->ent, &t->cap, t->n + 1, sizeof *p, 1024);
 		if (!p)
 			return -1;
 		t->ent = p;
-		t->cap = cap;
 	}
 	if (t->arena.len + n > UINT32_MAX || buf_append(&t->arena, key, n) != 0)
 		return -1;

@@ -35,38 +35,29 @@ int tsv_open(tsv_reader *t, const char *path)
 	char msg[512];
 
 	memset(t, 0, sizeof *t);
-	if (lr_open(&t->lr, path) != 0) {
-		snprintf(msg, sizeof msg, "%s: %s", path, strerror(errno));
-		buf_puts(&t->err, msg);
-		return -1;
-	}
+	if (lr_open(&t->lr, path) != 0)
+		return tm_failf(&t->err, TM_EFAIL, "%s: %s", path, strerror(errno));
 	r = lr_next(&t->lr, &s, &n);
-	if (r <= 0) {
-		snprintf(msg, sizeof msg, "%s: %s", t->lr.name,
-			 r < 0 ? lr_strerror(&t->lr) : "empty file, no header line");
-		buf_puts(&t->err, msg);
-		return -1;
-	}
-	if (t->lr.cr) {
-		snprintf(msg, sizeof msg, "%s:1: a carriage return inside the header line: "
-			 "lines must end in LF or CRLF, not CR alone", t->lr.name);
-		buf_puts(&t->err, msg);
-		return -1;
-	}
+	if (r <= 0)
+		return tm_failf(&t->err, TM_EFAIL, "%s: %s", t->lr.name,
+				r < 0 ? lr_strerror(&t->lr) : "empty file, no header line");
+	if (t->lr.cr)
+		return tm_failf(&t->err, TM_EFAIL,
+				"%s:1: a carriage return inside the header line: "
+				"lines must end in LF or CRLF, not CR alone", t->lr.name);
 	t->nhead = (size_t)-1;
 	split(t, s, n, &t->nhead);
 	for (i = 0; i < t->nfield; i++) {
 		t->names[i] = strndup(t->field[i], t->flen[i]);
 		if (!t->names[i])
-			return -1;
+			return tm_failf(&t->err, TM_ENOMEM, "%s: out of memory", t->lr.name);
 		for (size_t j = 0; j < i; j++)
 			if (!strcmp(t->names[j], t->names[i]) && t->names[i][0]) {
-				snprintf(msg, sizeof msg,
+				snprintf(msg, sizeof msg, /* the name cut: a header may be long */
 					 "%s:1: column '%s' appears twice", t->lr.name,
 					 t->names[i]);
-				buf_puts(&t->err, msg);
 				t->ncol = i + 1;
-				return -1;
+				return tm_fail(&t->err, TM_EINPUT, NULL, msg, NULL);
 			}
 	}
 	t->ncol = t->nfield;
@@ -89,14 +80,9 @@ int tsv_next(tsv_reader *t)
 
 	do {
 		r = lr_next(&t->lr, &s, &n);
-		if (r < 0) {
-			char msg[512];
-			snprintf(msg, sizeof msg, "%s:%ld: %s", t->lr.name,
-				 t->lr.lineno + 1, lr_strerror(&t->lr));
-			buf_reset(&t->err);
-			buf_puts(&t->err, msg);
-			return -1;
-		}
+		if (r < 0)
+			return tm_failf(&t->err, TM_EFAIL, "%s:%ld: %s", t->lr.name,
+					t->lr.lineno + 1, lr_strerror(&t->lr));
 		if (r == 0)
 			return 0;
 	} while (n == 0);
@@ -111,4 +97,14 @@ void tsv_close(tsv_reader *t)
 	t->ncol = 0;
 	lr_close(&t->lr);
 	buf_free(&t->err);
+}
+
+int tsv_put_fields(tm_buf *b, const char *const *f, size_t n)
+{
+	for (size_t i = 0; i < n; i++) {
+		if (i)
+			buf_putc(b, '\t');
+		buf_puts(b, f[i]);
+	}
+	return buf_status(b);
 }

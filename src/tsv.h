@@ -24,15 +24,16 @@ typedef struct tsv_reader {
 	tm_buf err;
 } tsv_reader;
 
-/* Opens path and reads its header.  Returns 0, or -1 with a message in
- * t->err (naming the file). */
+/* Opens path and reads its header.  Returns TM_OK, or a negative kind
+ * (err.h: TM_EFAIL, TM_EINPUT for a column named twice, TM_ENOMEM) with a
+ * message in t->err (naming the file). */
 int tsv_open(tsv_reader *t, const char *path);
 
 /* Index of the column called name, or -1. */
 int tsv_col(const tsv_reader *t, const char *name);
 
-/* Returns 1 with the next row's fields, 0 at the end, -1 on a read error
- * (message in t->err).  Blank lines are skipped.  t->over says that the
+/* An iterator (err.h): returns 1 with the next row's fields, 0 at the
+ * end, TM_EFAIL on a read error (message in t->err).  Blank lines are skipped.  t->over says that the
  * row has more fields than the header (a TAB inside a field?): the
  * caller decides. */
 int tsv_next(tsv_reader *t);
@@ -49,5 +50,10 @@ static inline const char *tsv_field(const tsv_reader *t, int i, size_t *n)
 }
 
 void tsv_close(tsv_reader *t);
+
+/* Writing: appends f[0] TAB f[1] ... TAB f[n-1] to b (no line end; the
+ * fields must hold no TAB or line end: the caller checks).  Returns
+ * buf_status(b). */
+int tsv_put_fields(tm_buf *b, const char *const *f, size_t n);
 
 #endif

@@ -28,6 +28,7 @@
 #include "delta.h"
 #include "fieldcheck.h"
 #include "review.h"
+#include "review_change.h"
 #include "skos.h"
 #include "tsv.h"
 
@@ -289,7 +290,9 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 		if (note)
 			owned[nowned++] = note;
 		rq_item *it = rq_find(&q, r->id, 16, &(int){0});
-		CHECK(it && rq_decide(it, 0, r->reviewer, r->note, now, 0, &msg) == RD_APPLIED);
+		int outcome = -1;
+		CHECK(it && rq_decide(it, 0, r->reviewer, r->note, now, 0, &outcome, &msg) == TM_OK &&
+		      outcome == RD_APPLIED);
 	}
 	/* export in the three formats, read back */
 	char path[96];

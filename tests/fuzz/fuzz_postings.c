@@ -48,10 +48,10 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 	fclose(fp);
 	tm_init(&m);
 	if (pr_open(&pr, path, PR_AUTO) == 0) {
-		while ((r = pr_next(&pr, &p)) != 0) {
-			if (r < 0)
+		while ((r = pr_next_row(&pr, &p)) != 0) {
+			if (r < 0 && r != TM_EINPUT)
 				break;
-			if (r == 2) {
+			if (r == TM_EINPUT) {
 				if (!pr.err.len || !memmem(pr.err.data, pr.err.len, path, strlen(path)))
 					abort();
 				continue;

@@ -10,6 +10,9 @@
 #include <unistd.h>
 
 #include "review.h"
+#include "review_batch.h"
+#include "review_change.h"
+#include "review_json.h"
 
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
 
@@ -98,17 +101,19 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 		fp = fopen(path, "wb");
 		fwrite(s, 1, n, fp);
 		fclose(fp);
-		long bad = rq_decisions_read(path, "fuzz", &ds, report, &err);
+		long bad = 0;
+		int rc = rq_decisions_read(path, "fuzz", &ds, report, &bad, &err);
 		fclose(report);
-		if (bad < 0 && !err.len)
+		if (rc < 0 && !err.len)
 			abort();
-		if (bad == 0) {
+		if (rc == TM_OK && bad == 0) {
 			tm_buf m = {0};
 			for (size_t i = 0; i < ds.n; i++) {
 				int many;
 				rq_item *it = rq_find(&q, ds.v[i].id, strlen(ds.v[i].id), &many);
+				int outcome;
 				if (it && rq_decide(it, ds.v[i].d, ds.v[i].reviewer, ds.v[i].note, now,
-						    (int)(i & 1), &m) < 0)
+						    (int)(i & 1), &outcome, &m) < 0)
 					abort();
 			}
 			buf_free(&m);

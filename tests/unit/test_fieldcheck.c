@@ -73,32 +73,32 @@ static void test_text(void **state)
 	/* every C0 control, DEL, every C1 control, LS, PS */
 	for (unsigned c = 1; c < 0x20; c++) {
 		char s[4] = {'a', (char)c, 'b', 0};
-		assert_int_equal(text(s), -1);
+		assert_int_equal(text(s), TM_EINPUT);
 	}
-	assert_int_equal(text("a\x7f"), -1);
+	assert_int_equal(text("a\x7f"), TM_EINPUT);
 	for (unsigned c = 0x80; c < 0xa0; c++) {
 		char s[4] = {(char)0xc2, (char)c, 0, 0};
-		assert_int_equal(fc_text(s, 2, 10, why), -1);
+		assert_int_equal(fc_text(s, 2, 10, why), TM_EINPUT);
 	}
-	assert_int_equal(fc_text("a\0b", 3, 10, why), -1);
-	assert_int_equal(text("a\xe2\x80\xa8" "b"), -1);
+	assert_int_equal(fc_text("a\0b", 3, 10, why), TM_EINPUT);
+	assert_int_equal(text("a\xe2\x80\xa8" "b"), TM_EINPUT);
 	assert_non_null(strstr((fc_text("a\xe2\x80\xa9", 4, 10, why), why), "U+2029"));
 	assert_non_null(strstr((fc_text("ab\ncd", 5, 10, why), why), "U+000A (a control character) at byte 3"));
 	/* invalid UTF-8, empty, too long */
-	assert_int_equal(text("\xc3"), -1);
-	assert_int_equal(text("\xed\xa0\x80"), -1); /* a surrogate */
-	assert_int_equal(text(""), -1);
-	assert_int_equal(fc_text("abcd", 4, 3, why), -1);
+	assert_int_equal(text("\xc3"), TM_EINPUT);
+	assert_int_equal(text("\xed\xa0\x80"), TM_EINPUT); /* a surrogate */
+	assert_int_equal(text(""), TM_EINPUT);
+	assert_int_equal(fc_text("abcd", 4, 3, why), TM_EINPUT);
 	assert_int_equal(fc_text("abc", 3, 3, why), 0);
 	assert_int_equal(fc_note("", 0, why), 0);
-	assert_int_equal(fc_name("", 0, why), -1);
+	assert_int_equal(fc_name("", 0, why), TM_EINPUT);
 	/* ids */
 	assert_int_equal(fc_id("840717ed2fa8afce", 16, why), 0);
-	assert_int_equal(fc_id("84 07", 5, why), -1);
-	assert_int_equal(fc_id("\xc3\xa4", 2, why), -1);
+	assert_int_equal(fc_id("84 07", 5, why), TM_EINPUT);
+	assert_int_equal(fc_id("\xc3\xa4", 2, why), TM_EINPUT);
 	/* lang with the length limit */
 	assert_int_equal(fc_lang("de-AT", 5, why), 0);
-	assert_int_equal(fc_lang("de .", 4, why), -1);
+	assert_int_equal(fc_lang("de .", 4, why), TM_EINPUT);
 }
 
 static int occ(const char *s)
@@ -123,7 +123,7 @@ static void test_occupation(void **state)
 		"a\xef\xbf\xbe", "a\xef\xb7\x90", "a\xf3\xa0\x80\x81", "", "a\x7f",
 	};
 	for (size_t i = 0; i < sizeof bad / sizeof *bad; i++)
-		if (occ(bad[i]) != -1)
+		if (occ(bad[i]) != TM_EINPUT)
 			fail_msg("not an IRI or id, taken: case %zu", i);
 }
 

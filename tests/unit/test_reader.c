@@ -97,7 +97,7 @@ static void test_tsv(void **state)
 	tsv_close(&t);
 	unlink(path);
 	write_file("a\tb\ta\n", 6);
-	assert_int_equal(tsv_open(&t, path), -1);
+	assert_int_equal(tsv_open(&t, path), TM_EINPUT);
 	assert_non_null(strstr(t.err.data, ":1: column 'a' appears twice"));
 	tsv_close(&t);
 	unlink(path);

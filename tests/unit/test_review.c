@@ -15,6 +15,18 @@
 #include <cmocka.h>
 
 #include "review.h"
+#include "review_change.h"
+#include "review_json.h"
+#include "review_time.h"
+
+/* rq_decide's outcome (RD_*); the call itself must succeed. */
+static int decide(rq_item *it, int d, const char *reviewer, const char *note, const char *now,
+		  int overrule, tm_buf *m)
+{
+	int outcome;
+	assert_int_equal(rq_decide(it, d, reviewer, note, now, overrule, &outcome, m), TM_OK);
+	return outcome;
+}
 
 static void test_time_against_timegm(void **state)
 {
@@ -87,7 +99,7 @@ static void test_add_rules(void **state)
 	assert_string_equal(q.it[0].proposed, "2026-12-03T09:00:00Z");
 
 	/* rejected at 12 postings: closed below 36, open again at 36 */
-	assert_int_equal(rq_decide(&q.it[0], 1, "bo", "no", "2026-12-04T09:00:00Z", 0, &m), RD_APPLIED);
+	assert_int_equal(decide(&q.it[0], 1, "bo", "no", "2026-12-04T09:00:00Z", 0, &m), RD_APPLIED);
 	add(&q, sugg(b, "00000000000000a1", "new_alt_label", 35), "2026-12-05T09:00:00Z", &st);
 	assert_int_equal(st.kept_closed, 1);
 	assert_int_equal(q.it[0].status, RQ_REJECTED);
@@ -101,7 +113,7 @@ static void test_add_rules(void **state)
 	assert_int_equal(rq_last_decision(&q.it[0])->postings, 12);
 
 	/* accepted: left alone */
-	assert_int_equal(rq_decide(&q.it[1], 0, "ana", NULL, "2026-12-04T09:00:00Z", 0, &m), RD_APPLIED);
+	assert_int_equal(decide(&q.it[1], 0, "ana", NULL, "2026-12-04T09:00:00Z", 0, &m), RD_APPLIED);
 	size_t nev = q.it[1].nev;
 	add(&q, sugg(b, "00000000000000b2", "new_alt_label", 400), "2026-12-07T09:00:00Z", &st);
 	assert_int_equal(st.accepted_before, 1);
@@ -111,7 +123,7 @@ static void test_add_rules(void **state)
 	/* the same id for another suggestion is refused */
 	tm_buf err = {0};
 	sugg(b, "00000000000000b2", "rare_label", 4);
-	assert_int_equal(rq_add(&q, b, strlen(b), "t:9", "2026-12-07T09:00:00Z", 3, &st, &err), -1);
+	assert_int_equal(rq_add(&q, b, strlen(b), "t:9", "2026-12-07T09:00:00Z", 3, &st, &err), TM_EINPUT);
 	assert_non_null(strstr(err.data, "t:9: id 00000000000000b2 is in the queue for another suggestion"));
 	buf_free(&err);
 	buf_free(&m);
@@ -136,17 +148,17 @@ static void test_decisions(void **state)
 	assert_true(many);
 	assert_null(rq_find(&q, "01234", 5, &many));    /* too short a prefix */
 
-	assert_int_equal(rq_decide(it, 2, "ana", NULL, "2026-12-02T09:00:00Z", 0, &m), RD_APPLIED);
+	assert_int_equal(decide(it, 2, "ana", NULL, "2026-12-02T09:00:00Z", 0, &m), RD_APPLIED);
 	assert_int_equal(it->status, RQ_DEFERRED);
 	/* deferred takes any decision */
-	assert_int_equal(rq_decide(it, 0, "bo", "ok", "2026-12-03T09:00:00Z", 0, &m), RD_APPLIED);
+	assert_int_equal(decide(it, 0, "bo", "ok", "2026-12-03T09:00:00Z", 0, &m), RD_APPLIED);
 	assert_int_equal(it->status, RQ_ACCEPTED);
-	assert_int_equal(rq_decide(it, 0, "cy", NULL, "2026-12-04T09:00:00Z", 0, &m), RD_SAME);
+	assert_int_equal(decide(it, 0, "cy", NULL, "2026-12-04T09:00:00Z", 0, &m), RD_SAME);
 	assert_non_null(strstr(m.data, "already accepted by bo at 2026-12-03T09:00:00Z"));
-	assert_int_equal(rq_decide(it, 1, "cy", NULL, "2026-12-04T09:00:00Z", 0, &m), RD_CONFLICT);
+	assert_int_equal(decide(it, 1, "cy", NULL, "2026-12-04T09:00:00Z", 0, &m), RD_CONFLICT);
 	assert_non_null(strstr(m.data, "accepted by bo"));
 	assert_int_equal(it->status, RQ_ACCEPTED);
-	assert_int_equal(rq_decide(it, 1, "cy", "wrong", "2026-12-04T09:00:00Z", 1, &m), RD_APPLIED);
+	assert_int_equal(decide(it, 1, "cy", "wrong", "2026-12-04T09:00:00Z", 1, &m), RD_APPLIED);
 	assert_int_equal(it->status, RQ_REJECTED);
 	const rq_event *d = rq_last_decision(it);
 	assert_string_equal(d->reviewer, "cy");
@@ -170,7 +182,7 @@ static void test_round_trip(void **state)
 		snprintf(id, sizeof id, "%016x", 1000 + i * 7);
 		add(&q, sugg(s, id, i % 2 ? "new_alt_label" : "used_elsewhere", 5 + i), "2026-12-01T09:00:00Z", &st);
 		if (i % 3 == 0)
-			rq_decide(&q.it[i], (i / 3) % 3, "ana", i % 2 ? "a \"quoted\" note \\ é" : NULL,
+			decide(&q.it[i], (i / 3) % 3, "ana", i % 2 ? "a \"quoted\" note \\ é" : NULL,
 				  "2026-12-02T09:00:00Z", 0, &m);
 	}
 	/* written in reverse order, read back in arrival order */
@@ -190,7 +202,7 @@ static void test_round_trip(void **state)
 	buf_free(&c);
 	/* a changed item is written anew, an unchanged one as it was read */
 	tm_buf m2 = {0};
-	assert_int_equal(rq_decide(&q2.it[1], 2, "bo", NULL, "2026-12-03T09:00:00Z", 0, &m2), RD_APPLIED);
+	assert_int_equal(decide(&q2.it[1], 2, "bo", NULL, "2026-12-03T09:00:00Z", 0, &m2), RD_APPLIED);
 	assert_true(q2.it[1].changed);
 	assert_false(q2.it[2].changed);
 	buf_free(&m2);
@@ -240,7 +252,7 @@ static void test_unknown_members_survive(void **state)
 	snprintf(line, sizeof line, newer, "open");
 	assert_int_equal(rq_parse(&q, line, strlen(line), "q", &err), 0);
 	assert_int_equal(q.n, 1);
-	assert_int_equal(rq_decide(&q.it[0], 0, "ana", NULL, "2026-12-02T09:00:00Z", 0, &m),
+	assert_int_equal(decide(&q.it[0], 0, "ana", NULL, "2026-12-02T09:00:00Z", 0, &m),
 			 RD_APPLIED);
 	assert_true(q.it[0].changed);
 	rq_item_json(&q.it[0], &a);
@@ -277,7 +289,7 @@ static void test_unknown_status(void **state)
 	assert_non_null(strstr(q.notes.data, "q:1: the status \"escalated\" is unknown"));
 	/* never decided, not even on purpose */
 	for (int d = 0; d < 3; d++) {
-		assert_int_equal(rq_decide(&q.it[0], d, "ana", NULL, "2026-12-02T09:00:00Z", 1, &m),
+		assert_int_equal(decide(&q.it[0], d, "ana", NULL, "2026-12-02T09:00:00Z", 1, &m),
 				 RD_CONFLICT);
 		assert_non_null(strstr(m.data, "unknown to this version"));
 	}
@@ -294,6 +306,60 @@ static void test_unknown_status(void **state)
 	buf_free(&m);
 }
 
+/* A queue line is written whole or not at all: whatever the point at
+ * which the buffer runs out, nothing of the failed line stays in it, the
+ * lines before it are intact and the failure is reported. */
+static void test_item_json_all_or_nothing(void **state)
+{
+	rq_queue q = {0};
+	rq_addstat st = {0};
+	tm_buf ref = {0}, m = {0};
+	char s[512];
+	(void)state;
+
+	for (int i = 0; i < 3; i++) {
+		char id[17];
+		snprintf(id, sizeof id, "%016x", 77 + i);
+		add(&q, sugg(s, id, "new_alt_label", 9 + i), "2026-12-01T09:00:00Z", &st);
+	}
+	decide(&q.it[1], 1, "ana", "a note with \"quotes\"", "2026-12-02T09:00:00Z", 0, &m);
+	for (size_t i = 0; i < q.n; i++)
+		assert_int_equal(rq_item_json(&q.it[i], &ref), TM_OK);
+	size_t first = (size_t)(strchr(ref.data, '\n') - ref.data) + 1;
+	for (size_t cap = 1; cap < ref.len; cap++) {
+		tm_buf b = {0};
+		size_t whole = 0; /* bytes of the lines that fit whole */
+		int rc = TM_OK;
+		b.max = cap;
+		for (size_t i = 0; i < q.n && rc == TM_OK; i++) {
+			rc = rq_item_json(&q.it[i], &b);
+			if (rc == TM_OK)
+				whole = b.len;
+		}
+		assert_int_equal(rc, TM_ENOMEM);
+		assert_int_equal(buf_status(&b), TM_ENOMEM);
+		assert_int_equal(b.len, whole);
+		assert_true(whole <= cap);
+		if (whole)
+			assert_memory_equal(b.data, ref.data, whole);
+		assert_true(whole == 0 || whole == first || ref.data[whole - 1] == '\n');
+		/* the buffer stays failed: a later short line is refused too */
+		assert_int_equal(buf_puts(&b, "x"), TM_ENOMEM);
+		assert_int_equal(b.len, whole);
+		buf_free(&b);
+	}
+	tm_buf b = {0};
+	b.max = ref.len;
+	for (size_t i = 0; i < q.n; i++)
+		assert_int_equal(rq_item_json(&q.it[i], &b), TM_OK);
+	assert_int_equal(b.len, ref.len);
+	assert_memory_equal(b.data, ref.data, ref.len);
+	buf_free(&b);
+	rq_free(&q);
+	buf_free(&ref);
+	buf_free(&m);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -303,6 +369,7 @@ int main(void)
 		cmocka_unit_test(test_round_trip),
 		cmocka_unit_test(test_unknown_members_survive),
 		cmocka_unit_test(test_unknown_status),
+		cmocka_unit_test(test_item_json_all_or_nothing),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);
 }
