@@ -32,11 +32,11 @@ override LDLIBS += $(PC_LIBS) -lm
 BUILD ?= build
 CORE = buf decode unicode token lexicon title norm pass_gender pass_noise pass_place pass_roles \
 	reader tsv jsonw jsonr setup lang fieldcheck strtab postings tally_mem store_redis \
-	stats labels skos review delta slot cluster outfile
-CLI = cli_norm cli_tally cli_rank propose cli_review main
+	stats labels skos review delta slot cluster outfile record options inputs coverage propose
+CLI = cli_norm cli_tally cli_rank cli_propose cli_review main
 CORE_OBJ = $(CORE:%=$(BUILD)/%.o)
 CLI_OBJ = $(CLI:%=$(BUILD)/%.o)
-UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_title test_norm test_reader test_tally test_stats test_review test_slot test_outfile test_fieldcheck
+UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_title test_norm test_reader test_tally test_stats test_review test_slot test_outfile test_fieldcheck test_rank
 UNIT_BIN = $(UNIT_TESTS:%=$(BUILD)/%)
 
 all: titlemill
