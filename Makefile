@@ -32,7 +32,7 @@ override LDLIBS += $(PC_LIBS) -lm
 BUILD ?= build
 CORE = buf decode unicode token lexicon title norm pass_gender pass_noise pass_place pass_roles \
 	reader tsv jsonw jsonr setup lang fieldcheck strtab postings tally_mem store_redis \
-	stats labels skos review delta slot cluster outfile record options inputs coverage propose
+	stats labels skos review delta slot cluster outfile record options inputs coverage propose facets
 CLI = cli_norm cli_tally cli_rank cli_propose cli_review main
 CORE_OBJ = $(CORE:%=$(BUILD)/%.o)
 CLI_OBJ = $(CLI:%=$(BUILD)/%.o)

@@ -80,7 +80,7 @@ static int take(const opt_cmd *cmd, const opt_spec *s, void *o, const char *arg)
 	char *at = (char *)o + s->off;
 	switch (s->kind) {
 	case OPT_FLAG:
-		*(int *)at = 1;
+		*(int *)at += 1;
 		return 0;
 	case OPT_STR:
 		*(const char **)at = arg;

@@ -10,7 +10,7 @@
  * titlemill.1 state the defaults that --help prints.
  *
  * Value kinds and the struct member each one fills:
- *   OPT_FLAG    int, set to 1
+ *   OPT_FLAG    int, counts how often the option is given
  *   OPT_STR     const char *, borrowed from argv
  *   OPT_U64     uint64_t, a whole number in [lo, hi]; with no default,
  *               UINT64_MAX when not given
