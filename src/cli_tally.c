@@ -63,7 +63,8 @@ static const char tally_usage[] =
 	"  --labels FILE    a labels TSV: labels are never cut down when cleaning\n"
 	"  --lexicons DIR   read the lexicons in DIR too (repeatable)\n"
 	"  --strict         a malformed row is an error (status 1, nothing written)\n"
-	"  --memo MIB       memory of recent titles for the normaliser (default 16)\n"
+	"  --memo MIB       memory of recent titles for the normaliser (default "
+	OPT_XSTR(OPT_MEMO_MIB) ")\n"
 	"  -o FILE          write the table to FILE (a file is replaced only when complete;\n"
 	"                   a device or FIFO is written into)\n"
 	"  --stats          say on standard error how much memory the counts took\n"
@@ -153,7 +154,7 @@ static int parse_memo(const char *arg, long *v)
 	char *end;
 	errno = 0;
 	*v = strtol(arg, &end, 10);
-	return errno || end == arg || *end || *v < 0 || *v > 4096 ? -1 : 0;
+	return errno || end == arg || *end || *v < 0 || *v > OPT_MEMO_MAX_MIB ? -1 : 0;
 }
 
 /* Reports of malformed rows: the first few in full, then a count. */
@@ -200,7 +201,7 @@ int cmd_tally(int argc, char **argv)
 
 	memset(&o, 0, sizeof o);
 	memset(&bl, 0, sizeof bl);
-	o.memo_mib = 16;
+	o.memo_mib = OPT_MEMO_MIB;
 	o.chunk = 10000;
 	o.sconf.retries = 5;
 	optind = 1;
@@ -254,7 +255,7 @@ int cmd_tally(int argc, char **argv)
 		case 's': o.strict = 1; break;
 		case 'm':
 			if (parse_memo(optarg, &o.memo_mib) != 0) {
-				fprintf(stderr, "titlemill tally: --memo: want a whole number of MiB from 0 to 4096, not '%s'\n", optarg);
+				fprintf(stderr, "titlemill tally: --memo: want a whole number of MiB from 0 to %d, not '%s'\n", OPT_MEMO_MAX_MIB, optarg);
 				return EXIT_USAGE;
 			}
 			break;
