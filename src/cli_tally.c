@@ -294,6 +294,7 @@ int cmd_tally(int argc, char **argv)
 			postings_reader pr;
 			posting p;
 			int r;
+			pr_row row;
 			if (!strcmp(argv[i], "-")) {
 				fputs("titlemill tally: --strict --store cannot read standard input twice; name the files\n", stderr);
 				rc = EXIT_USAGE;
@@ -303,8 +304,8 @@ int cmd_tally(int argc, char **argv)
 				fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
 				rc = EXIT_RUNTIME;
 			}
-			while (rc == EXIT_OK && (r = pr_next(&pr, &p)) != 0)
-				if (r != 1) {
+			while (rc == EXIT_OK && ((r = pr_next(&pr, &p, &row)) < 0 || row != PR_END))
+				if (r < 0 || row == PR_SKIP) {
 					fprintf(stderr, "titlemill tally: %.*s (--strict: nothing applied)\n",
 						(int)pr.err.len, pr.err.data);
 					rc = EXIT_RUNTIME;
@@ -329,6 +330,7 @@ int cmd_tally(int argc, char **argv)
 		postings_reader pr;
 		posting p;
 		int r;
+		pr_row row;
 		uint64_t dg[2] = {0x84222325CBF29CE4ULL, 0x9E3779B97F4A7C15ULL};
 		long inchunk = 0;
 
@@ -338,7 +340,7 @@ int cmd_tally(int argc, char **argv)
 			rc = EXIT_RUNTIME;
 			break;
 		}
-		while ((r = pr_next(&pr, &p)) != 0) {
+		while ((r = pr_next(&pr, &p, &row)) < 0 || row != PR_END) {
 			norm_result res;
 			tally_posting tp;
 			if (r < 0) {
@@ -346,7 +348,7 @@ int cmd_tally(int argc, char **argv)
 				rc = EXIT_RUNTIME;
 				break;
 			}
-			if (r == 2) {
+			if (row == PR_SKIP) {
 				if (o.strict) {
 					fprintf(stderr, "titlemill tally: %.*s (--strict: nothing written)\n",
 						(int)pr.err.len, pr.err.data);

@@ -37,6 +37,7 @@ static int count_postings(tally_mem *m, normaliser *nm, const char *path, FILE *
 {
 	postings_reader pr;
 	posting p;
+	pr_row row;
 	int r;
 	long bad = 0;
 
@@ -45,15 +46,10 @@ static int count_postings(tally_mem *m, normaliser *nm, const char *path, FILE *
 		pr_close(&pr);
 		return -1;
 	}
-	while ((r = pr_next(&pr, &p)) != 0) {
+	while ((r = pr_next(&pr, &p, &row)) == 0 && row != PR_END) {
 		norm_result res;
 		tally_posting tp;
-		if (r < 0) {
-			set_err(err, &pr.err);
-			pr_close(&pr);
-			return -1;
-		}
-		if (r == 2) {
+		if (row == PR_SKIP) {
 			if (bad++ < 5)
 				fprintf(warn, "titlemill: %.*s (skipped)\n", (int)pr.err.len, pr.err.data);
 			continue;
@@ -66,6 +62,11 @@ static int count_postings(tally_mem *m, normaliser *nm, const char *path, FILE *
 		cli_tally_posting(&tp, &p, &res);
 		if (tm_add(m, &tp) < 0)
 			goto oom;
+	}
+	if (r < 0) {
+		set_err(err, &pr.err);
+		pr_close(&pr);
+		return -1;
 	}
 	if (bad > 5)
 		fprintf(warn, "titlemill: %s: %ld malformed rows skipped in all\n", pr.lr.name, bad);

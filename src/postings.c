@@ -133,7 +133,7 @@ int pr_open(postings_reader *pr, const char *path, enum pr_format format)
 		}
 		return read_header(pr, s, n);
 	}
-	/* JSON Lines: keep the line for the first pr_next */
+	/* JSON Lines: keep the line for the first read_row */
 	if (buf_append(&pr->hold, s, n) != 0)
 		return -1;
 	pr->pending = 1;
@@ -354,7 +354,9 @@ static int next_json(postings_reader *pr, posting *p, const char *s, size_t n)
 	return finish(pr, p);
 }
 
-int pr_next(postings_reader *pr, posting *p)
+/* 1 with a posting, 0 at the end, 2 for a malformed row, -1 on a read
+ * error. */
+static int read_row(postings_reader *pr, posting *p)
 {
 	const char *s;
 	size_t n;
@@ -386,6 +388,15 @@ int pr_next(postings_reader *pr, posting *p)
 		}
 		return pr->format == PR_TSV ? next_tsv(pr, p, s, n) : next_json(pr, p, s, n);
 	}
+}
+
+int pr_next(postings_reader *pr, posting *p, pr_row *row)
+{
+	int r = read_row(pr, p);
+	if (r < 0)
+		return -1;
+	*row = r == 0 ? PR_END : r == 1 ? PR_POSTING : PR_SKIP;
+	return 0;
 }
 
 void pr_close(postings_reader *pr)

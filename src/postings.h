@@ -47,10 +47,17 @@ typedef struct postings_reader {
  * detects the format.  Returns 0, or -1 with a message in pr->err. */
 int pr_open(postings_reader *pr, const char *path, enum pr_format format);
 
-/* Returns 1 with the next posting; 0 at the end; 2 for a malformed row
- * (message "file:line: what" in pr->err; the row is to be skipped); -1
- * on a read error (message in pr->err). */
-int pr_next(postings_reader *pr, posting *p);
+/* What pr_next read. */
+typedef enum pr_row {
+	PR_END,      /* no more rows */
+	PR_POSTING,  /* a posting, in p */
+	PR_SKIP      /* a malformed row, to be skipped: "file:line: what" in
+		      * pr->err */
+} pr_row;
+
+/* Reads the next row.  Returns 0 with *row saying what it was, or -1 on
+ * a read error (message in pr->err; *row unchanged). */
+int pr_next(postings_reader *pr, posting *p, pr_row *row);
 
 void pr_close(postings_reader *pr);
 
