@@ -36,7 +36,7 @@ CORE = buf decode unicode token lexicon title norm pass_gender pass_noise pass_p
 CLI = cli_norm cli_tally cli_rank cli_propose cli_review main
 CORE_OBJ = $(CORE:%=$(BUILD)/%.o)
 CLI_OBJ = $(CLI:%=$(BUILD)/%.o)
-UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_title test_norm test_reader test_tally test_stats test_review test_slot test_outfile test_fieldcheck test_rank
+UNIT_TESTS = test_decode test_unicode test_token test_lexicon test_title test_norm test_reader test_tally test_stats test_review test_slot test_outfile test_fieldcheck test_rank test_options
 UNIT_BIN = $(UNIT_TESTS:%=$(BUILD)/%)
 
 all: titlemill
