@@ -4,7 +4,6 @@
 
 #include "cli.h"
 #include "inputs.h"
-#include "options.h"
 #include "postings.h"
 
 /* Is path a counts table (its header names the table's columns)? */
@@ -93,7 +92,8 @@ int inputs_load(rank_inputs *in, const rank_sources *src, FILE *warn, tm_buf *er
 	if (labels_read(&in->ls, src->setup->labels, in->nm, warn, err) != 0)
 		return -1;
 	if (src->store_url) {
-		store_conf sc = {src->prefix, OPT_STORE_RETRIES, OPT_STORE_TIMEOUT_MS, 0};
+		/* retries -1 and timeout 0: the store's own defaults */
+		store_conf sc = {src->prefix, -1, 0, 0};
 		store *st = store_open(src->store_url, &sc, err);
 		int rc = 0;
 		if (!st || st->ops->dump(st, &in->m) != 0) {

@@ -55,9 +55,6 @@ typedef struct opt_cmd {
  * command that cleans titles (0: clean every title afresh). */
 #define OPT_MEMO_MIB 16
 #define OPT_MEMO_MAX_MIB 4096
-/* The store's connection: reconnect attempts and the reply timeout. */
-#define OPT_STORE_RETRIES 5
-#define OPT_STORE_TIMEOUT_MS 5000
 
 #define OPT_STR_(x) #x
 #define OPT_XSTR(x) OPT_STR_(x)
