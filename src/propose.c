@@ -477,7 +477,8 @@ int propose_run(tally_mem *m, const labelset *ls, const propose_bars *b,
 			goto done;
 		snprintf(s->id, sizeof s->id, "%016llx", (unsigned long long)tok_hash(j->data, j->len));
 	}
-	qsort(out->v, out->n, sizeof *out->v, cmp_sugg);
+	if (out->n > 1)
+		qsort(out->v, out->n, sizeof *out->v, cmp_sugg);
 	rc = 0;
 done:
 	if (rc != 0)
