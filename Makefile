@@ -30,16 +30,16 @@ override CFLAGS += -std=c11 -D_POSIX_C_SOURCE=200809L $(WARN) $(OPT) $(PC_CFLAGS
 override LDLIBS += $(PC_LIBS) -lm
 
 BUILD ?= build
-CORE = buf decode unicode token digest lexicon lexcache title norm pass_gender pass_noise pass_place pass_roles \
+CORE = buf decode unicode token digest lexicon lexcache title norm facets pass_gender pass_noise pass_place pass_roles \
 	reader tsv jsonw jsonr setup lang fieldcheck strtab postings tally_mem chunk store store_redis store_redis_url \
 	store_redis_keys store_redis_chunk store_redis_apply store_redis_dump store_redis_queue \
 	stats labels skos review_item review_json review_change review_batch review_time queue queue_file \
-	delta slot cluster outfile
-CLI = cli_norm cli_tally cli_rank propose cli_review cli_review_change cli_review_read main
+	delta slot cluster outfile record options inputs coverage propose
+CLI = cli_norm cli_tally cli_rank cli_propose cli_review cli_review_change cli_review_read main
 CORE_OBJ = $(CORE:%=$(BUILD)/%.o)
 CLI_OBJ = $(CLI:%=$(BUILD)/%.o)
-UNIT_TESTS = test_buf test_decode test_unicode test_token test_lexicon test_title test_norm test_reader test_tally test_stats test_review test_slot test_outfile test_fieldcheck \
-	test_backend
+UNIT_TESTS = test_buf test_decode test_unicode test_token test_lexicon test_title test_norm test_reader test_tally \
+	test_stats test_review test_slot test_outfile test_fieldcheck test_backend test_rank test_options
 UNIT_BIN = $(UNIT_TESTS:%=$(BUILD)/%)
 
 all: titlemill

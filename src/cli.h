@@ -5,7 +5,9 @@
 
 #include <string.h>
 
+#include "inputs.h"
 #include "norm.h"
+#include "options.h"
 #include "postings.h"
 #include "tally.h"
 
@@ -35,6 +37,25 @@ static inline void cli_tally_posting(tally_posting *tp, const posting *p,
 /* A --prefix value for a store: 0, or EXIT_USAGE after saying on
  * standard error, as "titlemill CMD: --prefix: ...", what is wrong. */
 int cli_check_prefix(const char *cmd, const char *prefix);
+
+/* Writes out to standard output and flushes: 0, or -1 after saying on
+ * standard error, as "titlemill CMD: write error: ...", why not. */
+int cli_write_stdout(const char *cmd, const tm_buf *out);
+
+/* The options every ranking command (coverage, propose) takes. */
+typedef struct rank_opts {
+	const char *store, *prefix;
+	setup_opts setup;   /* the lexicons, and the labels (setup.labels) */
+} rank_opts;
+
+/* The start of a ranking command: parses argv by cmd into o (whose
+ * rank_opts is ro), checks that --labels and counts (files or --store)
+ * are given, and loads them into in.  Returns 1 to run; 0 to stop with
+ * *status the exit status (after --help, a misuse, or a failed load,
+ * each said on its stream).  in is for inputs_free whenever loading
+ * began (*status EXIT_RUNTIME or 1 returned). */
+int cli_rank_start(const opt_cmd *cmd, void *o, const rank_opts *ro, int argc, char **argv,
+		   rank_inputs *in, int *status);
 
 int cmd_norm(int argc, char **argv);
 int cmd_tally(int argc, char **argv);

@@ -1,15 +1,16 @@
 /* cli_norm.c - titlemill norm: the title filter. */
 #include <errno.h>
-#include <getopt.h>
+#include <stddef.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
 #include "cli.h"
 #include "decode.h"
-#include "jsonw.h"
+#include "facets.h"
 #include "lang.h"
 #include "norm.h"
+#include "options.h"
 #include "reader.h"
 #include "setup.h"
 
@@ -19,34 +20,45 @@ typedef struct norm_opts {
 	enum out_mode mode;
 	char lang[4];
 	int strict, stats;
-	long memo_mib;
+	int key, json, facets;   /* each: how often given */
+	uint64_t memo_mib;
 	setup_opts setup;
 } norm_opts;
 
-static const char norm_usage[] =
+static const opt_spec norm_specs[] = {
+	{"key", OPT_FLAG, offsetof(norm_opts, key), NULL, NULL, 0, 0,
+	 "print the match key instead of the clean title", NULL},
+	{"json", OPT_FLAG, offsetof(norm_opts, json), NULL, NULL, 0, 0,
+	 "print one JSON object per line with the title, the key and the facets "
+	 "(what was removed and why)", NULL},
+	{"facets", OPT_FLAG, offsetof(norm_opts, facets), NULL, NULL, 0, 0,
+	 "print TAB-separated: title, seniority, gender, location, schedule, pay, "
+	 "reference, other removed (no header)", NULL},
+	OPT_SPEC_LANG(norm_opts, lang, "the titles' language (BCP 47, e.g. de, fr-BE); "
+		      "enables that language's ambiguous rules"),
+	OPT_SPEC_LABELS(norm_opts, setup.labels, "a labels TSV: its labels are never cut down"),
+	OPT_SPEC_LEXICONS(norm_opts, setup),
+	{"strict", OPT_FLAG, offsetof(norm_opts, strict), NULL, NULL, 0, 0,
+	 "stop with status 1 at the first line that needs repair", NULL},
+	OPT_SPEC_MEMO(norm_opts, memo_mib),
+	{"stats", OPT_FLAG, offsetof(norm_opts, stats), NULL, NULL, 0, 0,
+	 "say on standard error how many titles came from memory", NULL},
+	OPT_SPEC_END,
+};
+
+static const opt_cmd norm_cmd = {
+	"norm",
 	"usage: titlemill norm [--key|--json|--facets] [--lang L] [--labels FILE]\n"
 	"                      [--lexicons DIR] [--strict] [FILE...]\n"
 	"\n"
 	"Cleans raw job-posting titles: one title per input line, exactly one\n"
 	"clean title per output line, in the same order (an all-noise title\n"
 	"gives an empty line).  Reads the FILEs, or standard input ('-').\n"
-	"\n"
-	"  --key            print the match key instead of the clean title\n"
-	"  --json           print one JSON object per line with the title, the\n"
-	"                   key and the facets (what was removed and why)\n"
-	"  --facets         print TAB-separated: title, seniority, gender, location,\n"
-	"                   schedule, pay, reference, other removed (no header)\n"
-	"  --lang L         the titles' language (BCP 47, e.g. de, fr-BE); enables\n"
-	"                   that language's ambiguous rules\n"
-	"  --labels FILE    a labels TSV: its labels are never cut down\n"
-	"  --lexicons DIR   read the lexicons in DIR too (repeatable); see\n"
-	"                   lexicons/README.md.  TITLEMILL_LEXICONS=DIR[:DIR]\n"
-	"                   does the same; TITLEMILL_LEXDIR replaces the bundled folder\n"
-	"  --strict         stop with status 1 at the first line that needs repair\n"
-	"  --memo MIB       remember the results of recent distinct titles in MIB\n"
-	"                   mebibytes (default 16; 0: clean every line afresh)\n"
-	"  --stats          say on standard error how many titles came from memory\n"
-	"  -h, --help       show this help\n";
+	"The lexicons: see lexicons/README.md; TITLEMILL_LEXICONS=DIR[:DIR] adds\n"
+	"folders as --lexicons does, TITLEMILL_LEXDIR replaces the bundled one.\n"
+	"\n",
+	norm_specs,
+};
 
 /* Repairs noted for the end-of-run summary. */
 typedef struct repair_log {
@@ -84,160 +96,6 @@ static void summary(const repair_log *rl)
 			fprintf(stderr, " %s", rl->first[w][i]);
 		fprintf(stderr, "%s\n", rl->lines[w] > rl->nfirst[w] ? " ..." : "");
 	}
-}
-
-static int add_list(tm_buf *b, const norm_result *r, int kind, int values,
-		    const char *sep)
-{
-	int n = 0;
-	for (size_t i = 0; i < r->npiece; i++) {
-		const nf_piece *p = &r->piece[i];
-		if (p->kind != kind)
-			continue;
-		if (n++ && buf_puts(b, sep))
-			return -1;
-		if (values && p->value) {
-			if (buf_puts(b, p->value))
-				return -1;
-		} else if (buf_append(b, p->text, p->len))
-			return -1;
-	}
-	return 0;
-}
-
-static int json_list(tm_buf *b, const norm_result *r, int kind, int values)
-{
-	int n = 0;
-	if (buf_putc(b, '['))
-		return -1;
-	for (size_t i = 0; i < r->npiece; i++) {
-		const nf_piece *p = &r->piece[i];
-		if (p->kind != kind)
-			continue;
-		/* a schedule value said twice is listed once */
-		if (values && p->value) {
-			int dup = 0;
-			for (size_t j = 0; j < i; j++)
-				if (r->piece[j].kind == kind && r->piece[j].value &&
-				    !strcmp(r->piece[j].value, p->value))
-					dup = 1;
-			if (dup)
-				continue;
-		}
-		if (n++ && buf_putc(b, ','))
-			return -1;
-		if (values && p->value ? json_str(b, p->value, strlen(p->value))
-				       : json_str(b, p->text, p->len))
-			return -1;
-	}
-	return buf_putc(b, ']');
-}
-
-static int json_first(tm_buf *b, const norm_result *r, int kind, int values)
-{
-	for (size_t i = 0; i < r->npiece; i++) {
-		const nf_piece *p = &r->piece[i];
-		if (p->kind != kind)
-			continue;
-		if (values && p->value)
-			return json_str(b, p->value, strlen(p->value));
-		return json_str(b, p->text, p->len);
-	}
-	return buf_puts(b, "null");
-}
-
-/* Seniority: the highest step named (a title that says both "senior" and
- * "lead" is lead). */
-static const char *seniority(const norm_result *r)
-{
-	static const char *const scale[] = {"entry", "junior", "mid", "senior", "lead"};
-	int best = -1;
-	for (size_t i = 0; i < r->npiece; i++) {
-		if (r->piece[i].kind != NF_SENIORITY || !r->piece[i].value)
-			continue;
-		for (int s = 0; s < 5; s++)
-			if (!strcmp(r->piece[i].value, scale[s]) && s > best)
-				best = s;
-	}
-	return best < 0 ? NULL : scale[best];
-}
-
-static int is_other(int kind)
-{
-	return kind == NF_MARKETING || kind == NF_EMPLOYER || kind == NF_DATE ||
-	       kind == NF_EMAIL || kind == NF_PHONE || kind == NF_URL ||
-	       kind == NF_HOURS || kind == NF_WORKLOAD || kind == NF_SLOT;
-}
-
-static int write_json(tm_buf *b, const char *raw, size_t rawn,
-		      const norm_result *r, const char *lang)
-{
-	const char *sen = seniority(r);
-	int n = 0;
-
-	if (buf_putc(b, '{') || json_key(b, "raw") || json_str(b, raw, rawn) ||
-	    buf_putc(b, ',') || json_key(b, "title") ||
-	    json_str(b, r->title, r->title_len) || buf_putc(b, ',') ||
-	    json_key(b, "key") || json_str(b, r->key, r->key_len))
-		return -1;
-	if (lang && (buf_putc(b, ',') || json_key(b, "lang") ||
-		     json_str(b, lang, strlen(lang))))
-		return -1;
-	if (buf_putc(b, ',') || json_key(b, "seniority") ||
-	    (sen ? json_str(b, sen, strlen(sen)) : buf_puts(b, "null")) ||
-	    buf_putc(b, ',') || json_key(b, "gender") ||
-	    json_first(b, r, NF_GENDER, 0) || buf_putc(b, ',') ||
-	    json_key(b, "location") || json_list(b, r, NF_LOCATION, 0) ||
-	    buf_putc(b, ',') || json_key(b, "schedule") ||
-	    json_list(b, r, NF_SCHEDULE, 1) || buf_putc(b, ',') ||
-	    json_key(b, "hours") || json_first(b, r, NF_HOURS, 0) ||
-	    buf_putc(b, ',') || json_key(b, "workload") ||
-	    json_first(b, r, NF_WORKLOAD, 0) || buf_putc(b, ',') ||
-	    json_key(b, "pay") || json_first(b, r, NF_PAY, 0) ||
-	    buf_putc(b, ',') || json_key(b, "reference") ||
-	    json_first(b, r, NF_REFERENCE, 0) || buf_putc(b, ',') ||
-	    json_key(b, "removed") || buf_putc(b, '['))
-		return -1;
-	for (size_t i = 0; i < r->npiece; i++) {
-		const nf_piece *p = &r->piece[i];
-		if (n++ && buf_putc(b, ','))
-			return -1;
-		if (buf_putc(b, '{') || json_key(b, "kind") ||
-		    json_str(b, nf_kind_name(p->kind), strlen(nf_kind_name(p->kind))) ||
-		    buf_putc(b, ',') || json_key(b, "text") ||
-		    json_str(b, p->text, p->len) || buf_putc(b, '}'))
-			return -1;
-	}
-	if (buf_putc(b, ']'))
-		return -1;
-	if (r->repaired && buf_puts(b, ",\"repaired\":true"))
-		return -1;
-	return buf_puts(b, "}\n");
-}
-
-static int write_facets(tm_buf *b, const norm_result *r)
-{
-	const char *sen = seniority(r);
-	int n = 0;
-	if (buf_append(b, r->title, r->title_len) || buf_putc(b, '\t') ||
-	    (sen && buf_puts(b, sen)) || buf_putc(b, '\t') ||
-	    add_list(b, r, NF_GENDER, 0, "; ") || buf_putc(b, '\t') ||
-	    add_list(b, r, NF_LOCATION, 0, "; ") || buf_putc(b, '\t') ||
-	    add_list(b, r, NF_SCHEDULE, 1, ",") || buf_putc(b, '\t') ||
-	    add_list(b, r, NF_PAY, 0, "; ") || buf_putc(b, '\t') ||
-	    add_list(b, r, NF_REFERENCE, 0, "; ") || buf_putc(b, '\t'))
-		return -1;
-	for (size_t i = 0; i < r->npiece; i++) {
-		const nf_piece *p = &r->piece[i];
-		if (!is_other(p->kind))
-			continue;
-		if ((n++ && buf_puts(b, "; ")) || buf_puts(b, nf_kind_name(p->kind)) ||
-		    buf_putc(b, ':') || buf_append(b, p->text, p->len))
-			return -1;
-	}
-	/* a TAB inside a removed text would shift the columns: none can be
-	 * there, the tokeniser treats TAB as a space */
-	return buf_putc(b, '\n');
 }
 
 static int flush(tm_buf *out)
@@ -310,12 +168,12 @@ static int run_file(const norm_opts *o, normaliser *nm, const char *path,
 				raw = rawfix->data;
 				rn = rawfix->len;
 			}
-			if (write_json(out, raw, rn, &res, o->lang[0] ? o->lang : NULL))
+			if (facets_json(out, raw, rn, &res, o->lang[0] ? o->lang : NULL))
 				goto nomem;
 			break;
 		}
 		case OUT_FACETS:
-			if (write_facets(out, &res))
+			if (facets_tsv(out, &res))
 				goto nomem;
 			break;
 		}
@@ -343,71 +201,24 @@ nomem:
 
 int cmd_norm(int argc, char **argv)
 {
-	static const struct option longopts[] = {
-		{"key", no_argument, NULL, 'k'},
-		{"json", no_argument, NULL, 'j'},
-		{"facets", no_argument, NULL, 'f'},
-		{"lang", required_argument, NULL, 'l'},
-		{"labels", required_argument, NULL, 'L'},
-		{"lexicons", required_argument, NULL, 'x'},
-		{"strict", no_argument, NULL, 's'},
-		{"memo", required_argument, NULL, 'm'},
-		{"stats", no_argument, NULL, 'S'},
-		{"help", no_argument, NULL, 'h'},
-		{NULL, 0, NULL, 0},
-	};
 	norm_opts o;
 	tm_buf err = {0}, out = {0}, rawfix = {0};
 	repair_log rl;
 	lexicon *lx;
 	normaliser *nm;
-	int c, rc = EXIT_OK, modes = 0;
+	int first, rc = EXIT_OK;
 
 	memset(&o, 0, sizeof o);
 	memset(&rl, 0, sizeof rl);
-	o.memo_mib = 16;
-	optind = 1;
-	while ((c = getopt_long(argc, argv, "h", longopts, NULL)) != -1) {
-		switch (c) {
-		case 'k': o.mode = OUT_KEY; modes++; break;
-		case 'j': o.mode = OUT_JSON; modes++; break;
-		case 'f': o.mode = OUT_FACETS; modes++; break;
-		case 'l':
-			if (lang_tag(optarg, o.lang) != 0) {
-				fprintf(stderr, "titlemill norm: --lang: '%s' is not a BCP 47 language tag\n",
-					optarg);
-				return EXIT_USAGE;
-			}
-			break;
-		case 'L': o.setup.labels = optarg; break;
-		case 'x':
-			if (o.setup.nextra == 16) {
-				fputs("titlemill norm: at most 16 --lexicons folders\n", stderr);
-				return EXIT_USAGE;
-			}
-			o.setup.extra[o.setup.nextra++] = optarg;
-			break;
-		case 's': o.strict = 1; break;
-		case 'S': o.stats = 1; break;
-		case 'm': {
-			char *end;
-			errno = 0;
-			o.memo_mib = strtol(optarg, &end, 10);
-			if (errno || end == optarg || *end || o.memo_mib < 0 || o.memo_mib > 4096) {
-				fprintf(stderr, "titlemill norm: --memo: want a whole number of MiB from 0 to 4096, not '%s'\n",
-					optarg);
-				return EXIT_USAGE;
-			}
-			break;
-		}
-		case 'h': fputs(norm_usage, stdout); return EXIT_OK;
-		default: fputs(norm_usage, stderr); return EXIT_USAGE;
-		}
+	switch (opt_parse(&norm_cmd, &o, argc, argv, &first)) {
+	case OPT_HELP_SHOWN: return EXIT_OK;
+	case OPT_MISUSE: return EXIT_USAGE;
 	}
-	if (modes > 1) {
+	if (o.key + o.json + o.facets > 1) {
 		fputs("titlemill norm: choose one of --key, --json, --facets\n", stderr);
 		return EXIT_USAGE;
 	}
+	o.mode = o.key ? OUT_KEY : o.json ? OUT_JSON : o.facets ? OUT_FACETS : OUT_TITLE;
 	if (!(lx = setup_lexicon(&o.setup, &err))) {
 		fprintf(stderr, "titlemill norm: %.*s\n", (int)err.len, err.data ? err.data : "");
 		buf_free(&err);
@@ -424,9 +235,9 @@ int cmd_norm(int argc, char **argv)
 		lex_free(lx);
 		return EXIT_RUNTIME;
 	}
-	if (optind >= argc)
+	if (first >= argc)
 		rc = run_file(&o, nm, "-", &out, &rawfix, &rl);
-	for (int i = optind; i < argc && rc == EXIT_OK; i++)
+	for (int i = first; i < argc && rc == EXIT_OK; i++)
 		rc = run_file(&o, nm, argv[i], &out, &rawfix, &rl);
 	if (!rl.wfail && (flush(&out) != 0 || fflush(stdout) != 0)) {
 		fprintf(stderr, "titlemill norm: write error: %s\n", strerror(errno));

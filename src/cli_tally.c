@@ -62,7 +62,8 @@ static const char tally_usage[] =
 	"  --labels FILE    a labels TSV: labels are never cut down when cleaning\n"
 	"  --lexicons DIR   read the lexicons in DIR too (repeatable)\n"
 	"  --strict         a malformed row is an error (status 1, nothing written)\n"
-	"  --memo MIB       memory of recent titles for the normaliser (default 16)\n"
+	"  --memo MIB       memory of recent titles for the normaliser (default "
+	OPT_XSTR(OPT_MEMO_MIB) ")\n"
 	"  -o FILE          write the table to FILE (a file is replaced only when complete;\n"
 	"                   a device or FIFO is written into)\n"
 	"  --stats          say on standard error how much memory the counts took\n"
@@ -127,7 +128,7 @@ static int parse_memo(const char *arg, long *v)
 	char *end;
 	errno = 0;
 	*v = strtol(arg, &end, 10);
-	return errno || end == arg || *end || *v < 0 || *v > 4096 ? -1 : 0;
+	return errno || end == arg || *end || *v < 0 || *v > OPT_MEMO_MAX_MIB ? -1 : 0;
 }
 
 /* Reports of malformed rows: the first few in full, then a count. */
@@ -174,7 +175,7 @@ int cmd_tally(int argc, char **argv)
 
 	memset(&o, 0, sizeof o);
 	memset(&bl, 0, sizeof bl);
-	o.memo_mib = 16;
+	o.memo_mib = OPT_MEMO_MIB;
 	o.chunk = STORE_CHUNK_DEFAULT;
 	o.sconf.retries = 5;
 	optind = 1;
@@ -228,7 +229,7 @@ int cmd_tally(int argc, char **argv)
 		case 's': o.strict = 1; break;
 		case 'm':
 			if (parse_memo(optarg, &o.memo_mib) != 0) {
-				fprintf(stderr, "titlemill tally: --memo: want a whole number of MiB from 0 to 4096, not '%s'\n", optarg);
+				fprintf(stderr, "titlemill tally: --memo: want a whole number of MiB from 0 to %d, not '%s'\n", OPT_MEMO_MAX_MIB, optarg);
 				return EXIT_USAGE;
 			}
 			break;
@@ -267,6 +268,7 @@ int cmd_tally(int argc, char **argv)
 			postings_reader pr;
 			posting p;
 			int r;
+			pr_row row;
 			if (!strcmp(argv[i], "-")) {
 				fputs("titlemill tally: --strict --store cannot read standard input twice; name the files\n", stderr);
 				rc = EXIT_USAGE;
@@ -276,8 +278,8 @@ int cmd_tally(int argc, char **argv)
 				fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
 				rc = EXIT_RUNTIME;
 			}
-			while (rc == EXIT_OK && (r = pr_next_row(&pr, &p)) != 0)
-				if (r != 1) {
+			while (rc == EXIT_OK && ((r = pr_next(&pr, &p, &row)) < 0 || row != PR_END))
+				if (r < 0 || row == PR_SKIP) {
 					fprintf(stderr, "titlemill tally: %.*s (--strict: nothing applied)\n",
 						(int)pr.err.len, pr.err.data);
 					rc = EXIT_RUNTIME;
@@ -305,6 +307,7 @@ int cmd_tally(int argc, char **argv)
 		postings_reader pr;
 		posting p;
 		int r;
+		pr_row row;
 
 		if (pr_open(&pr, argv[i], o.format) != 0) {
 			fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
@@ -312,15 +315,15 @@ int cmd_tally(int argc, char **argv)
 			rc = EXIT_RUNTIME;
 			break;
 		}
-		while ((r = pr_next_row(&pr, &p)) != 0) {
+		while ((r = pr_next(&pr, &p, &row)) < 0 || row != PR_END) {
 			norm_result res;
 			tally_posting tp;
-			if (r < 0 && r != TM_EINPUT) {
+			if (r < 0) {
 				fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
 				rc = EXIT_RUNTIME;
 				break;
 			}
-			if (r == TM_EINPUT) {
+			if (row == PR_SKIP) {
 				if (o.strict) {
 					fprintf(stderr, "titlemill tally: %.*s (--strict: nothing written)\n",
 						(int)pr.err.len, pr.err.data);

@@ -132,7 +132,7 @@ int pr_open(postings_reader *pr, const char *path, enum pr_format format)
 		}
 		return read_header(pr, s, n);
 	}
-	/* JSON Lines: keep the line for the first pr_next_row */
+	/* JSON Lines: keep the line for the first read_row */
 	if (buf_append(&pr->hold, s, n) != 0)
 		return -1;
 	pr->pending = 1;
@@ -353,7 +353,9 @@ static int next_json(postings_reader *pr, posting *p, const char *s, size_t n)
 	return finish(pr, p);
 }
 
-int pr_next_row(postings_reader *pr, posting *p)
+/* 1 with a posting, 0 at the end, TM_EINPUT for a malformed row,
+ * TM_EFAIL on a read error. */
+static int read_row(postings_reader *pr, posting *p)
 {
 	const char *s;
 	size_t n;
@@ -385,6 +387,15 @@ int pr_next_row(postings_reader *pr, posting *p)
 		}
 		return pr->format == PR_TSV ? next_tsv(pr, p, s, n) : next_json(pr, p, s, n);
 	}
+}
+
+int pr_next(postings_reader *pr, posting *p, pr_row *row)
+{
+	int r = read_row(pr, p);
+	if (r < 0 && r != TM_EINPUT)
+		return TM_EFAIL;
+	*row = r == 0 ? PR_END : r == 1 ? PR_POSTING : PR_SKIP;
+	return TM_OK;
 }
 
 void pr_close(postings_reader *pr)

@@ -4,11 +4,11 @@
  * '|' or an array of strings; `id` a string or an integer).
  *
  * A reader owns what it returns: a posting's fields point into the reader
- * and live until the next pr_next_row call.
+ * and live until the next pr_next call.
  *
- * Returns as err.h says: pr_open gives TM_OK or TM_EFAIL; pr_next_row is
- * an iterator (1, 0, or a negative kind), each failure with its message
- * in pr->err. */
+ * Returns as err.h says: pr_open and pr_next give TM_OK or TM_EFAIL, each
+ * failure with its message in pr->err; what pr_next read (a posting, a
+ * malformed row to skip, the end) comes back through its pr_row. */
 #ifndef TM_POSTINGS_H
 #define TM_POSTINGS_H
 
@@ -51,11 +51,17 @@ typedef struct postings_reader {
  * detects the format.  Returns 0, or -1 with a message in pr->err. */
 int pr_open(postings_reader *pr, const char *path, enum pr_format format);
 
-/* Returns 1 with the next posting; 0 at the end; TM_EINPUT for a
- * malformed row (message "file:line: what" in pr->err; the row is to be
- * skipped, the reader goes on); TM_EFAIL on a read error (message in
- * pr->err; stop).  (Test TM_EINPUT before `< 0`.) */
-int pr_next_row(postings_reader *pr, posting *p);
+/* What pr_next read. */
+typedef enum pr_row {
+	PR_END,      /* no more rows */
+	PR_POSTING,  /* a posting, in p */
+	PR_SKIP      /* a malformed row, to be skipped: "file:line: what" in
+		      * pr->err */
+} pr_row;
+
+/* Reads the next row.  Returns TM_OK (0) with *row saying what it was, or
+ * TM_EFAIL on a read error (message in pr->err; *row unchanged). */
+int pr_next(postings_reader *pr, posting *p, pr_row *row);
 
 void pr_close(postings_reader *pr);
 

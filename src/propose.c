@@ -1,45 +1,30 @@
-/* propose.c - titlemill propose: scored suggestions for the curators.
+/* propose.c - the ranker: suggestions with their evidence (propose.h).
  *
- * Every threshold lives in struct bars below and is an option; the
- * README explains each.  Suggestions are evidence for a human curator,
- * who decides. */
-#include <errno.h>
-#include <getopt.h>
-#include <math.h>
+ * One pass over the counts' triples finds each (language, key)'s two
+ * strongest occupations; a second pass scores every counted title that
+ * is none of its occupation's labels (new_alt_label, or new_hidden_label
+ * when it is a spelling variant of one); a pass over the labels scores
+ * rare_label and used_elsewhere.  Cost: linear in triples and labels
+ * (hash lookups), plus the labels of one occupation and language per
+ * title for the variants. */
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
-#include "cli.h"
 #include "decode.h"
-#include "jsonw.h"
-#include "labels.h"
-#include "lang.h"
-#include "norm.h"
-#include "setup.h"
-#include "stats.h"
-#include "store.h"
-#include "tally.h"
+#include "propose.h"
+#include "strtab.h"
 #include "token.h"
 #include "unicode.h"
 
-/* The evidence bars, with their defaults. */
-typedef struct bars {
-	uint64_t min_postings;   /* new_alt_label: postings of the title (5) */
-	double min_share;        /* new_alt_label: lower Wilson bound of the share of the occupation's postings (0.01) */
-	double min_precision;    /* new_alt_label: share of the key's postings that carry the occupation (0.6) */
-	double min_g2;           /* new_alt_label: G^2 above chi2(1 df) at p = 0.001 (10.827566) */
-	uint64_t hidden_min;     /* new_hidden_label: postings of the variant (3) */
-	double hidden_precision; /* new_hidden_label: precision of the variant (0.5) */
-	uint64_t rare_min;       /* rare_label: postings of the occupation (200) */
-	double rare_share;       /* rare_label: upper Wilson bound below it (0.005) */
-	double elsewhere_share;  /* used_elsewhere: share of the key's postings with another occupation (0.6) */
-	uint64_t elsewhere_min;  /* used_elsewhere: postings of the key (5) */
-} bars;
+const char *const propose_kind_names[PROPOSE_NKINDS + 1] = {
+	"new_alt_label", "new_hidden_label", "rare_label", "used_elsewhere", NULL};
 
-enum { K_ALT, K_HIDDEN, K_RARE, K_ELSEWHERE, K_N };
-static const char *const kind_names[K_N] = {"new_alt_label", "new_hidden_label",
-					    "rare_label", "used_elsewhere"};
+#define PROPOSE_BAR_DEFAULT(type, kind, m, opt, arg, def, lo, hi, meaning) b->m = (type)(def);
+void propose_bars_default(propose_bars *b)
+{
+	PROPOSE_BARS(PROPOSE_BAR_DEFAULT)
+}
 
 typedef struct trip {
 	const char *occ, *lang, *key, *title;
@@ -47,28 +32,32 @@ typedef struct trip {
 	uint64_t k;
 } trip;
 
-typedef struct sugg {
-	int kind;
-	const trip *t;          /* the title (alt, hidden) or NULL */
-	const label *lb;        /* the label (rare, elsewhere, the label varied) */
-	const char *occ, *key;
-	size_t ol, kl;
-	char lang[4];
-	uint64_t k, n, kt, nl;   /* postings: title, occupation, key, language */
-	double score, g2, precision;
-	const trip *rival;      /* the strongest other occupation of the key */
-	const char *variant;    /* "spacing" or "typo" */
-	char id[17];
-} sugg;
+/* The two strongest occupations of one (lang, key): trip index + 1. */
+typedef struct best2 {
+	uint32_t i1, i2;
+} best2;
 
-typedef struct ctx {
+typedef struct ranker {
+	tally_mem *m;
+	const labelset *ls;
+	const propose_bars *b;
+	const propose_filter *f;
 	trip *t;
 	size_t n, cap;
-} ctx;
+	strtab kidx;     /* lang 1F key -> best[] */
+	strtab tidx;     /* occ 1F lang 1F key -> its trip (count) */
+	strtab nlang;    /* lang -> postings */
+	strtab groups;   /* occ 1F lang -> labels in order[]: start << 20 | count */
+	best2 *best;
+	uint32_t *order;
+	tm_buf j;        /* scratch for joined keys */
+	propose_list *out;
+	size_t outcap;
+} ranker;
 
 static int collect(void *c0, const tm_triple *x)
 {
-	ctx *c = c0;
+	ranker *c = c0;
 	if (c->n == c->cap) {
 		size_t cap = c->cap ? c->cap * 2 : 4096;
 		trip *p = realloc(c->t, cap * sizeof *p);
@@ -77,22 +66,26 @@ static int collect(void *c0, const tm_triple *x)
 		c->t = p;
 		c->cap = cap;
 	}
-	trip *t = &c->t[c->n++];
-	t->occ = x->occ;
-	t->ol = x->ol;
-	t->lang = x->lang;
-	t->ll = x->ll;
-	t->key = x->key;
-	t->kl = x->kl;
-	t->title = x->title;
-	t->tl = x->tl;
-	t->k = x->postings;
+	c->t[c->n++] = (trip){x->occ, x->lang, x->key, x->title, x->ol, x->ll, x->kl, x->tl,
+			      x->postings};
 	return 0;
 }
 
 static int same(const char *a, size_t an, const char *b, size_t bn)
 {
 	return an == bn && !memcmp(a, b, an);
+}
+
+/* The scratch key: the pieces joined by U+001F. */
+static const tm_buf *join(ranker *c, const char *a, size_t al, const char *b, size_t bl,
+			  const char *d, size_t dl)
+{
+	int bad;
+	buf_reset(&c->j);
+	bad = buf_append(&c->j, a, al) || buf_putc(&c->j, '\x1F') || buf_append(&c->j, b, bl);
+	if (d)
+		bad = bad || buf_putc(&c->j, '\x1F') || buf_append(&c->j, d, dl);
+	return bad ? NULL : &c->j;
 }
 
 /* The key without its spaces. */
@@ -113,11 +106,7 @@ static size_t ncp(const char *s, size_t n)
 	return c;
 }
 
-/* Is key a spelling variant of label key lk?  "spacing": equal without
- * spaces (software entwickler, softwareentwickler; fork lift, forklift);
- * "typo": the same words but one, and that one a single edit
- * (Levenshtein) from its counterpart, both of six code points or more. */
-static const char *variant(const char *key, size_t kl, const char *lk, size_t ll)
+const char *propose_variant(const char *key, size_t kl, const char *lk, size_t ll)
 {
 	char a[512], b[512];
 	size_t an, bn;
@@ -146,7 +135,7 @@ static const char *variant(const char *key, size_t kl, const char *lk, size_t ll
 
 static int cmp_sugg(const void *a, const void *b)
 {
-	const sugg *x = a, *y = b;
+	const propose_sugg *x = a, *y = b;
 	int c;
 	if (x->kind != y->kind)
 		return x->kind - y->kind;
@@ -161,33 +150,18 @@ static int cmp_sugg(const void *a, const void *b)
 	return 0;
 }
 
-static void put_d(tm_buf *b, double v)
-{
-	char s[40];
-	snprintf(s, sizeof s, "%.4f", v);
-	buf_puts(b, s);
-}
-
-static void put_u(tm_buf *b, uint64_t v)
-{
-	char s[32];
-	snprintf(s, sizeof s, "%llu", (unsigned long long)v);
-	buf_puts(b, s);
-}
-
 static int wordish(unsigned char c)
 {
 	return c >= 0x80 || (c >= '0' && c <= '9') || ((c | 0x20) >= 'a' && (c | 0x20) <= 'z');
 }
 
-/* The label as the postings write it: the first example holding the
- * (lowercase) label as whole words, in mixed case rather than shouting
- * capitals; appended to out, or nothing when no example shows it. */
-static void as_written(const char *const *ex, const size_t *exl, int nex, const char *text,
+int propose_as_written(const char *const *ex, const size_t *exl, int nex, const char *text,
 		       size_t tl, tm_buf *out)
 {
 	tm_buf low = {0}, cand = {0};
-	for (int i = 0; i < nex && !out->len; i++) {
+	size_t len0 = out->len;
+	int rc = 0;
+	for (int i = 0; i < nex && out->len == len0 && rc == 0; i++) {
 		buf_reset(&low);
 		if (uni_lower(ex[i], exl[i], &low) || low.len != exl[i] || tl == 0 || tl > exl[i])
 			continue;
@@ -203,507 +177,228 @@ static void as_written(const char *const *ex, const size_t *exl, int nex, const 
 				lower |= ex[i][k] >= 'a' && ex[i][k] <= 'z';
 			if (lower) {
 				buf_reset(&cand);
-				buf_append(&cand, ex[i] + o, tl);
-				if (dec_is_utf8(cand.data, cand.len) && !memchr(cand.data, 0, cand.len))
-					buf_append(out, cand.data, cand.len);
+				if (buf_append(&cand, ex[i] + o, tl))
+					rc = -1;
+				else if (dec_is_utf8(cand.data, cand.len) && !memchr(cand.data, 0, cand.len))
+					rc = buf_append(out, cand.data, cand.len);
 			}
 			break;
 		}
 	}
 	buf_free(&low);
 	buf_free(&cand);
+	return rc;
 }
 
-static void write_sugg(tm_buf *b, const sugg *s, tally_mem *m, const labelset *ls, int tsv)
+static int push(ranker *c, const propose_sugg *s)
 {
-	double lo, hi, share = s->n ? (double)s->k / (double)s->n : 0;
-	const char *ex[TALLY_EXAMPLES];
-	size_t exl[TALLY_EXAMPLES];
-	int nex = tm_examples(m, s->occ, s->ol, s->lang, s->key, s->kl, ex, exl);
-	const char *text = s->t ? s->t->title : lab_str(ls, s->lb->text);
-	size_t labell = s->t ? s->t->tl : s->lb->textlen;
-
-	wilson(s->k, s->n, STATS_Z95, &lo, &hi);
-	if (tsv) {
-		buf_puts(b, s->id);
-		buf_putc(b, '\t');
-		buf_puts(b, kind_names[s->kind]);
-		buf_putc(b, '\t');
-		buf_append(b, s->occ, s->ol);
-		buf_putc(b, '\t');
-		buf_puts(b, s->lang);
-		buf_putc(b, '\t');
-		buf_append(b, text, labell);
-		buf_putc(b, '\t');
-		put_d(b, s->score);
-		buf_putc(b, '\t');
-		put_u(b, s->k);
-		buf_putc(b, '\t');
-		put_u(b, s->n);
-		buf_putc(b, '\t');
-		put_u(b, s->kt);
-		buf_putc(b, '\t');
-		put_d(b, share);
-		buf_putc(b, '\t');
-		put_d(b, lo);
-		buf_putc(b, '\t');
-		put_d(b, hi);
-		buf_putc(b, '\t');
-		put_d(b, s->precision);
-		buf_putc(b, '\t');
-		put_d(b, s->g2);
-		buf_putc(b, '\t');
-		if (s->rival) {
-			buf_append(b, s->rival->occ, s->rival->ol);
-			buf_puts(b, " (");
-			put_u(b, s->rival->k);
-			buf_putc(b, ')');
-		}
-		buf_putc(b, '\t');
-		if (s->variant && s->lb)
-			buf_append(b, lab_str(ls, s->lb->text), s->lb->textlen);
-		buf_putc(b, '\t');
-		for (int i = 0; i < nex; i++) {
-			if (i)
-				buf_puts(b, " | ");
-			buf_append(b, ex[i], exl[i]);
-		}
-		buf_putc(b, '\n');
-		return;
+	propose_list *l = c->out;
+	if (l->n == c->outcap) {
+		size_t cap = c->outcap ? c->outcap * 2 : 256;
+		propose_sugg *p = realloc(l->v, cap * sizeof *p);
+		if (!p)
+			return -1;
+		l->v = p;
+		c->outcap = cap;
 	}
-	buf_puts(b, "{\"id\":\"");
-	buf_puts(b, s->id);
-	buf_puts(b, "\",\"kind\":\"");
-	buf_puts(b, kind_names[s->kind]);
-	buf_puts(b, "\",\"occupation\":");
-	json_str(b, s->occ, s->ol);
-	buf_puts(b, ",\"lang\":");
-	json_str(b, s->lang, strlen(s->lang));
-	buf_puts(b, ",\"label\":");
-	json_str(b, text, labell);
-	buf_puts(b, ",\"key\":");
-	json_str(b, s->key, s->kl);
-	if (s->t) {
-		tm_buf w = {0};
-		as_written(ex, exl, nex, text, labell, &w);
-		if (w.len && (w.len != labell || memcmp(w.data, text, labell))) {
-			buf_puts(b, ",\"label_as_written\":");
-			json_str(b, w.data, w.len);
-		}
-		buf_free(&w);
-	}
-	if ((s->kind == K_RARE || s->kind == K_ELSEWHERE) && s->lb)
-		buf_puts(b, s->lb->kind == 'p' ? ",\"label_kind\":\"pref\""
-			 : s->lb->kind == 'a' ? ",\"label_kind\":\"alt\""
-					      : ",\"label_kind\":\"hidden\"");
-	buf_puts(b, ",\"score\":");
-	put_d(b, s->score);
-	buf_puts(b, ",\"postings\":");
-	put_u(b, s->k);
-	buf_puts(b, ",\"occupation_postings\":");
-	put_u(b, s->n);
-	buf_puts(b, ",\"key_postings\":");
-	put_u(b, s->kt);
-	buf_puts(b, ",\"lang_postings\":");
-	put_u(b, s->nl);
-	buf_puts(b, ",\"share\":");
-	put_d(b, share);
-	buf_puts(b, ",\"share_low\":");
-	put_d(b, lo);
-	buf_puts(b, ",\"share_high\":");
-	put_d(b, hi);
-	buf_puts(b, ",\"precision\":");
-	put_d(b, s->precision);
-	buf_puts(b, ",\"g2\":");
-	put_d(b, s->g2);
-	buf_puts(b, ",\"competitor\":");
-	if (s->rival) {
-		buf_puts(b, "{\"occupation\":");
-		json_str(b, s->rival->occ, s->rival->ol);
-		buf_puts(b, ",\"postings\":");
-		put_u(b, s->rival->k);
-		buf_puts(b, ",\"share\":");
-		put_d(b, s->kt ? (double)s->rival->k / (double)s->kt : 0);
-		buf_putc(b, '}');
-	} else
-		buf_puts(b, "null");
-	if (s->variant && s->lb) {
-		buf_puts(b, ",\"variant_of\":");
-		json_str(b, lab_str(ls, s->lb->text), s->lb->textlen);
-		buf_puts(b, ",\"variant\":\"");
-		buf_puts(b, s->variant);
-		buf_putc(b, '"');
-	}
-	buf_puts(b, ",\"examples\":[");
-	for (int i = 0; i < nex; i++) {
-		if (i)
-			buf_putc(b, ',');
-		json_str(b, ex[i], exl[i]);
-	}
-	buf_puts(b, "]}\n");
-}
-
-/* The strongest occupation other than occ among the triples of one
- * (lang, key): trips [a, b) sorted by occupation... they are spread over
- * the whole table, so a map keyed by lang 1F key holds the two best. */
-typedef struct best2 {
-	uint32_t i1, i2; /* trip index + 1 */
-} best2;
-
-static const char propose_usage[] =
-	"usage: titlemill propose --labels FILE [--tsv] [--top N] [--kind K]\n"
-	"                         [--occupation ID] [--lang L] [thresholds]\n"
-	"                         (COUNTS|POSTINGS...|--store URL [--prefix P])\n"
-	"\n"
-	"Scored suggestions for the taxonomy's curators, as JSON Lines (or TSV):\n"
-	"new_alt_label, new_hidden_label, rare_label, used_elsewhere, each with\n"
-	"its evidence.  They inform a curator, who decides.\n"
-	"\n"
-	"  --labels FILE          the taxonomy's labels TSV\n"
-	"  --tsv                  a table instead of JSON Lines\n"
-	"  --top N                at most N suggestions of each kind\n"
-	"  --kind K               only this kind\n"
-	"  --occupation ID, --lang L   only these\n"
-	"  --min-postings N       new_alt_label: postings of the title (5)\n"
-	"  --min-share X          new_alt_label: lower Wilson bound of its share (0.01)\n"
-	"  --min-precision X      new_alt_label: share of the key's postings (0.6)\n"
-	"  --min-g2 X             new_alt_label: Dunning's G2 (10.827566, p = 0.001)\n"
-	"  --hidden-min N         new_hidden_label: postings of the variant (3)\n"
-	"  --hidden-precision X   new_hidden_label: precision of the variant (0.5)\n"
-	"  --rare-min N           rare_label: postings of the occupation (200)\n"
-	"  --rare-share X         rare_label: upper Wilson bound below X (0.005)\n"
-	"  --elsewhere-share X    used_elsewhere: share of another occupation (0.6)\n"
-	"  --elsewhere-min N      used_elsewhere: postings of the key (5)\n"
-	"  --store URL, --prefix P, --lexicons DIR   as for coverage\n"
-	"  -h, --help             show this help\n";
-
-int coverage_load(tally_mem *m, labelset *ls, normaliser **nmp, lexicon **lxp,
-		  setup_opts *so, const char *surl, store_conf *sc, int argc, char **argv,
-		  int first, tm_buf *err);
-
-static int dnum(const char *s, double lo, double hi, double *v)
-{
-	char *e;
-	errno = 0;
-	*v = strtod(s, &e);
-	return errno || e == s || *e || !(*v >= lo && *v <= hi) ? -1 : 0;
-}
-
-static int unum(const char *s, uint64_t *v)
-{
-	char *e;
-	errno = 0;
-	unsigned long long x = strtoull(s, &e, 10);
-	if (errno || e == s || *e || s[0] == '-')
-		return -1;
-	*v = x;
+	l->v[l->n++] = *s;
 	return 0;
 }
 
-int cmd_propose(int argc, char **argv)
+/* The indexes: each (lang, key)'s two strongest occupations, each
+ * triple by (occ, lang, key), postings per language, and the labels
+ * grouped by occupation and language (order[] holds each group's labels
+ * together). */
+static int index_all(ranker *c)
 {
-	static const struct option longopts[] = {
-		{"labels", required_argument, NULL, 'L'}, {"tsv", no_argument, NULL, 't'},
-		{"top", required_argument, NULL, 'T'}, {"kind", required_argument, NULL, 'K'},
-		{"occupation", required_argument, NULL, 'O'}, {"lang", required_argument, NULL, 'l'},
-		{"store", required_argument, NULL, 'S'}, {"prefix", required_argument, NULL, 'P'},
-		{"lexicons", required_argument, NULL, 'x'},
-		{"min-postings", required_argument, NULL, 1}, {"min-share", required_argument, NULL, 2},
-		{"min-precision", required_argument, NULL, 3}, {"min-g2", required_argument, NULL, 4},
-		{"hidden-min", required_argument, NULL, 5}, {"hidden-precision", required_argument, NULL, 6},
-		{"rare-min", required_argument, NULL, 7}, {"rare-share", required_argument, NULL, 8},
-		{"elsewhere-share", required_argument, NULL, 9}, {"elsewhere-min", required_argument, NULL, 10},
-		{"help", no_argument, NULL, 'h'}, {NULL, 0, NULL, 0},
-	};
-	bars bar = {5, 0.01, 0.6, STATS_CHI2_1DF_P001, 3, 0.5, 200, 0.005, 0.6, 5};
-	setup_opts so;
-	store_conf sc = {NULL, 5, 5000, 0};
-	const char *surl = NULL, *only_occ = NULL, *only_lang = NULL;
-	char lang[4];
-	int tsv = 0, only_kind = -1, ch, rc = EXIT_OK;
-	uint64_t top = UINT64_MAX;
-	tally_mem m;
-	labelset ls;
-	tm_buf err = {0}, out = {0};
-	normaliser *nm = NULL;
-	lexicon *lx = NULL;
-	ctx c = {0};
-	sugg *sv = NULL;
-	size_t ns = 0, scap = 0;
-	strtab kidx = {0}, groups = {0}, tidx = {0};
-	best2 *best = NULL;
-	uint32_t *order = NULL;
+	const labelset *ls = c->ls;
+	tally_mem *m = c->m;
+	const tm_buf *j;
+	size_t idx;
 
-	memset(&so, 0, sizeof so);
-	optind = 1;
-	int oi = 0;
-	while ((ch = getopt_long(argc, argv, "h", longopts, &oi)) != -1) {
-		int bad = 0;
-		switch (ch) {
-		case 'L': so.labels = optarg; break;
-		case 't': tsv = 1; break;
-		case 'T': bad = unum(optarg, &top); break;
-		case 'K':
-			for (int k = 0; k < K_N; k++)
-				if (!strcmp(optarg, kind_names[k]))
-					only_kind = k;
-			bad = only_kind < 0;
-			break;
-		case 'O': only_occ = optarg; break;
-		case 'l': bad = lang_tag(optarg, lang); only_lang = lang; break;
-		case 'S': surl = optarg; break;
-		case 'P':
-			if (cli_check_prefix("propose", optarg))
-				return EXIT_USAGE;
-			sc.prefix = optarg;
-			break;
-		case 'x':
-			if (so.nextra < 16)
-				so.extra[so.nextra++] = optarg;
-			break;
-		case 1: bad = unum(optarg, &bar.min_postings); break;
-		case 2: bad = dnum(optarg, 0, 1, &bar.min_share); break;
-		case 3: bad = dnum(optarg, 0, 1, &bar.min_precision); break;
-		case 4: bad = dnum(optarg, 0, 1e12, &bar.min_g2); break;
-		case 5: bad = unum(optarg, &bar.hidden_min); break;
-		case 6: bad = dnum(optarg, 0, 1, &bar.hidden_precision); break;
-		case 7: bad = unum(optarg, &bar.rare_min); break;
-		case 8: bad = dnum(optarg, 0, 1, &bar.rare_share); break;
-		case 9: bad = dnum(optarg, 0, 1, &bar.elsewhere_share); break;
-		case 10: bad = unum(optarg, &bar.elsewhere_min); break;
-		case 'h': fputs(propose_usage, stdout); return EXIT_OK;
-		default: fputs(propose_usage, stderr); return EXIT_USAGE;
-		}
-		if (bad) {
-			fprintf(stderr, "titlemill propose: --%s: bad value '%s'\n",
-				longopts[oi].name, optarg);
-			return EXIT_USAGE;
-		}
-	}
-	if (!so.labels) {
-		fputs("titlemill propose: --labels FILE is required\n", stderr);
-		return EXIT_USAGE;
-	}
-	if (!surl && optind >= argc) {
-		fputs("titlemill propose: name a counts table or postings files, or --store\n", stderr);
-		return EXIT_USAGE;
-	}
-	tm_init(&m);
-	if (coverage_load(&m, &ls, &nm, &lx, &so, surl, &sc, argc, argv, optind, &err) != 0) {
-		fprintf(stderr, "titlemill propose: %.*s\n", (int)err.len, err.data ? err.data : "");
-		rc = EXIT_RUNTIME;
-		goto done;
-	}
-	if (tm_each_triple(&m, collect, &c) != 0)
-		goto oom;
-	/* the two strongest occupations of each (lang, key) */
-	best = calloc(c.n + 1, sizeof *best);
-	if (!best)
-		goto oom;
-	for (size_t i = 0; i < c.n; i++) {
-		tm_buf j = {0};
-		size_t idx;
-		buf_append(&j, c.t[i].lang, c.t[i].ll);
-		buf_putc(&j, '\x1F');
-		buf_append(&j, c.t[i].key, c.t[i].kl);
-		int r = st_add(&kidx, j.data, j.len, 0, &idx);
-		buf_free(&j);
-		if (r < 0)
-			goto oom;
-		best2 *bb = &best[idx];
+	c->best = calloc(c->n + 1, sizeof *c->best);
+	c->order = malloc((ls->n + 1) * sizeof *c->order);
+	if (!c->best || !c->order)
+		return -1;
+	for (size_t i = 0; i < c->n; i++) {
+		const trip *t = &c->t[i];
+		if (!(j = join(c, t->lang, t->ll, t->key, t->kl, NULL, 0)) ||
+		    st_add(&c->kidx, j->data, j->len, 0, &idx) < 0)
+			return -1;
+		best2 *bb = &c->best[idx];
 		uint32_t me = (uint32_t)i + 1;
-		{
-			tm_buf j2 = {0};
-			size_t ti;
-			buf_append(&j2, c.t[i].occ, c.t[i].ol);
-			buf_putc(&j2, '\x1F');
-			buf_append(&j2, c.t[i].lang, c.t[i].ll);
-			buf_putc(&j2, '\x1F');
-			buf_append(&j2, c.t[i].key, c.t[i].kl);
-			int r2 = st_add(&tidx, j2.data, j2.len, 0, &ti);
-			buf_free(&j2);
-			if (r2 < 0)
-				goto oom;
-			tidx.ent[ti].count = i;
-		}
-		if (!bb->i1 || c.t[i].k > c.t[bb->i1 - 1].k) {
+		size_t ti;
+		if (!(j = join(c, t->occ, t->ol, t->lang, t->ll, t->key, t->kl)) ||
+		    st_add(&c->tidx, j->data, j->len, 0, &ti) < 0)
+			return -1;
+		c->tidx.ent[ti].count = i;
+		if (!bb->i1 || t->k > c->t[bb->i1 - 1].k) {
 			bb->i2 = bb->i1;
 			bb->i1 = me;
-		} else if (!bb->i2 || c.t[i].k > c.t[bb->i2 - 1].k)
+		} else if (!bb->i2 || t->k > c->t[bb->i2 - 1].k)
 			bb->i2 = me;
 	}
-	/* postings per language */
-	strtab nlang = {0};
-	for (size_t i = 0; i < m.keys.n; i++) {
+	for (size_t i = 0; i < m->keys.n; i++) {
 		size_t n;
-		const char *k = st_key(&m.keys, i, &n);
+		const char *k = st_key(&m->keys, i, &n);
 		const char *sep = memchr(k, '\x1F', n);
-		if (st_add(&nlang, k, sep ? (size_t)(sep - k) : n, m.keys.ent[i].count, NULL) < 0)
-			goto oom;
+		if (st_add(&c->nlang, k, sep ? (size_t)(sep - k) : n, m->keys.ent[i].count, NULL) < 0)
+			return -1;
 	}
-	/* labels grouped by occupation and language, for the variants:
-	 * order[] holds each group's labels together, groups maps the group
-	 * to (start << 20 | count) */
-	order = malloc((ls.n + 1) * sizeof *order);
-	if (!order)
-		goto oom;
-	{
-		tm_buf j = {0};
-		size_t gidx;
-		uint64_t *cnt = calloc(ls.n + 1, sizeof *cnt);
-		uint32_t *gof = malloc((ls.n + 1) * sizeof *gof);
-		if (!cnt || !gof) {
-			free(cnt);
-			free(gof);
-			goto oom;
-		}
-		for (size_t q = 0; q < ls.n; q++) {
-			buf_reset(&j);
-			buf_append(&j, lab_str(&ls, ls.v[q].occ), ls.v[q].occlen);
-			buf_putc(&j, '\x1F');
-			buf_puts(&j, ls.v[q].lang);
-			if (st_add(&groups, j.data, j.len, 0, &gidx) < 0) {
-				free(cnt);
-				free(gof);
-				buf_free(&j);
-				goto oom;
-			}
-			gof[q] = (uint32_t)gidx;
-			cnt[gidx]++;
-		}
-		uint64_t at = 0;
-		for (size_t gq = 0; gq < groups.n; gq++) {
-			groups.ent[gq].count = at << 20 | (cnt[gq] & 0xFFFFF);
-			cnt[gq] = at;
-			at += groups.ent[gq].count & 0xFFFFF;
-		}
-		for (size_t q = 0; q < ls.n; q++)
-			order[cnt[gof[q]]++] = (uint32_t)q;
-		free(cnt);
-		free(gof);
-		buf_free(&j);
+	uint64_t *cnt = calloc(ls->n + 1, sizeof *cnt);
+	uint32_t *gof = malloc((ls->n + 1) * sizeof *gof);
+	int rc = -1;
+	if (!cnt || !gof)
+		goto out;
+	for (size_t q = 0; q < ls->n; q++) {
+		const label *lb = &ls->v[q];
+		if (!(j = join(c, lab_str(ls, lb->occ), lb->occlen, lb->lang, strlen(lb->lang), NULL, 0)) ||
+		    st_add(&c->groups, j->data, j->len, 0, &idx) < 0)
+			goto out;
+		gof[q] = (uint32_t)idx;
+		cnt[idx]++;
 	}
-	for (size_t i = 0; i < c.n; i++) {
-		const trip *t = &c.t[i];
+	uint64_t at = 0;
+	for (size_t g = 0; g < c->groups.n; g++) {
+		c->groups.ent[g].count = at << 20 | (cnt[g] & 0xFFFFF);
+		cnt[g] = at;
+		at += c->groups.ent[g].count & 0xFFFFF;
+	}
+	for (size_t q = 0; q < ls->n; q++)
+		c->order[cnt[gof[q]]++] = (uint32_t)q;
+	rc = 0;
+out:
+	free(cnt);
+	free(gof);
+	return rc;
+}
+
+static int filtered(const propose_filter *f, const char *occ, size_t ol, const char *lang)
+{
+	return f && ((f->occ && !same(f->occ, strlen(f->occ), occ, ol)) ||
+		     (f->lang && strcmp(f->lang, lang)));
+}
+
+/* new_alt_label and new_hidden_label: the counted titles that are none
+ * of their occupation's labels. */
+static int rank_titles(ranker *c)
+{
+	const labelset *ls = c->ls;
+	const propose_bars *bar = c->b;
+	const tm_buf *j;
+
+	for (size_t i = 0; i < c->n; i++) {
+		const trip *t = &c->t[i];
 		char lg[4] = {0};
 		memcpy(lg, t->lang, t->ll < 3 ? t->ll : 3);
-		if ((only_occ && !same(only_occ, strlen(only_occ), t->occ, t->ol)) ||
-		    (only_lang && strcmp(only_lang, lg)) || !t->kl)
+		if (filtered(c->f, t->occ, t->ol, lg) || !t->kl)
 			continue;
-		if (labels_find(&ls, t->occ, t->ol, lg, t->key, t->kl))
+		if (labels_find(ls, t->occ, t->ol, lg, t->key, t->kl))
 			continue;
-		uint64_t n = tm_occ_postings(&m, t->occ, t->ol, lg);
-		uint64_t kt = tm_key_postings(&m, lg, t->key, t->kl);
-		long li = st_find(&nlang, lg, strlen(lg));
-		uint64_t nl = li < 0 ? 0 : nlang.ent[li].count;
+		uint64_t n = tm_occ_postings(c->m, t->occ, t->ol, lg);
+		uint64_t kt = tm_key_postings(c->m, lg, t->key, t->kl);
+		long li = st_find(&c->nlang, lg, strlen(lg));
+		uint64_t nl = li < 0 ? 0 : c->nlang.ent[li].count;
 		double prec = kt ? (double)t->k / (double)kt : 0;
-		sugg s;
+		propose_sugg s;
 		memset(&s, 0, sizeof s);
-		s.t = t;
+		s.is_title = 1;
+		s.text = t->title;
+		s.tl = t->tl;
 		s.occ = t->occ;
 		s.ol = t->ol;
 		s.key = t->key;
 		s.kl = t->kl;
 		memcpy(s.lang, lg, 4);
-		s.k = t->k;
-		s.n = n;
-		s.kt = kt;
+		s.postings = t->k;
+		s.occ_postings = n;
+		s.key_postings = kt;
 		s.precision = prec;
-		s.nl = nl;
+		s.lang_postings = nl;
 		if (kt >= t->k && nl >= kt + n - t->k)
 			s.g2 = g2(t->k, kt - t->k, n - t->k, nl - kt - n + t->k);
 		/* the rival: the strongest other occupation of the key */
-		{
-			tm_buf j = {0};
-			buf_append(&j, t->lang, t->ll);
-			buf_putc(&j, '\x1F');
-			buf_append(&j, t->key, t->kl);
-			long bi = st_find(&kidx, j.data, j.len);
-			buf_free(&j);
-			if (bi >= 0) {
-				best2 *bb = &best[bi];
-				uint32_t r = bb->i1 && bb->i1 - 1 != i ? bb->i1 : bb->i2;
-				s.rival = r ? &c.t[r - 1] : NULL;
+		if (!(j = join(c, t->lang, t->ll, t->key, t->kl, NULL, 0)))
+			return -1;
+		long bi = st_find(&c->kidx, j->data, j->len);
+		if (bi >= 0) {
+			best2 *bb = &c->best[bi];
+			uint32_t r = bb->i1 && bb->i1 - 1 != i ? bb->i1 : bb->i2;
+			if (r) {
+				s.rival = c->t[r - 1].occ;
+				s.rl = c->t[r - 1].ol;
+				s.rival_postings = c->t[r - 1].k;
 			}
 		}
 		/* a spelling variant of one of its labels? */
 		const label *var = NULL;
 		const char *how = NULL;
-		{
-			tm_buf j = {0};
-			buf_append(&j, t->occ, t->ol);
-			buf_putc(&j, '\x1F');
-			buf_puts(&j, lg);
-			long gi = st_find(&groups, j.data, j.len);
-			buf_free(&j);
-			uint64_t g = gi < 0 ? 0 : groups.ent[gi].count;
-			for (uint64_t q = g >> 20, e = q + (g & 0xFFFFF); q < e && !var; q++) {
-				const label *lb = &ls.v[order[q]];
-				if ((how = variant(t->key, t->kl, lab_str(&ls, lb->key), lb->keylen)))
-					var = lb;
-			}
+		if (!(j = join(c, t->occ, t->ol, lg, strlen(lg), NULL, 0)))
+			return -1;
+		long gi = st_find(&c->groups, j->data, j->len);
+		uint64_t g = gi < 0 ? 0 : c->groups.ent[gi].count;
+		for (uint64_t q = g >> 20, e = q + (g & 0xFFFFF); q < e && !var; q++) {
+			const label *lb = &ls->v[c->order[q]];
+			if ((how = propose_variant(t->key, t->kl, lab_str(ls, lb->key), lb->keylen)))
+				var = lb;
 		}
 		if (var) {
 			/* a key that is some other occupation's label is no
 			 * misspelling: "delta01 agent" is not a typo of
 			 * "delta00 agent" when both are labels */
-			tm_buf j = {0};
-			buf_puts(&j, lg);
-			buf_putc(&j, '\x1F');
-			buf_append(&j, t->key, t->kl);
-			long other = st_find(&ls.keys, j.data, j.len);
-			buf_free(&j);
-			if (other >= 0 || t->k < bar.hidden_min || prec < bar.hidden_precision)
+			if (!(j = join(c, lg, strlen(lg), t->key, t->kl, NULL, 0)))
+				return -1;
+			long other = st_find(&ls->keys, j->data, j->len);
+			if (other >= 0 || t->k < bar->hidden_min || prec < bar->hidden_precision)
 				continue;
-			s.kind = K_HIDDEN;
+			s.kind = PROPOSE_HIDDEN;
 			s.lb = var;
 			s.variant = how;
 			s.score = (double)t->k * prec;
 		} else {
 			double lo, hi;
 			wilson(t->k, n, STATS_Z95, &lo, &hi);
-			if (t->k < bar.min_postings || lo < bar.min_share || prec < bar.min_precision ||
-			    s.g2 <= bar.min_g2)
+			if (t->k < bar->min_postings || lo < bar->min_share ||
+			    prec < bar->min_precision || s.g2 <= bar->min_g2)
 				continue;
-			s.kind = K_ALT;
+			s.kind = PROPOSE_ALT;
 			s.score = s.g2;
 		}
-		if (ns == scap) {
-			scap = scap ? scap * 2 : 256;
-			sugg *p = realloc(sv, scap * sizeof *p);
-			if (!p)
-				goto oom;
-			sv = p;
-		}
-		sv[ns++] = s;
+		if (push(c, &s) != 0)
+			return -1;
 	}
-	/* the labels: rare, or used for another occupation */
-	for (size_t q = 0; q < ls.n; q++) {
-		const label *lb = &ls.v[q];
-		const char *occ = lab_str(&ls, lb->occ), *key = lab_str(&ls, lb->key);
-		if ((only_occ && !same(only_occ, strlen(only_occ), occ, lb->occlen)) ||
-		    (only_lang && strcmp(only_lang, lb->lang)))
+	return 0;
+}
+
+/* rare_label and used_elsewhere: the labels. */
+static int rank_labels(ranker *c)
+{
+	const labelset *ls = c->ls;
+	const propose_bars *bar = c->b;
+	const tm_buf *j;
+
+	for (size_t q = 0; q < ls->n; q++) {
+		const label *lb = &ls->v[q];
+		const char *occ = lab_str(ls, lb->occ), *key = lab_str(ls, lb->key);
+		if (filtered(c->f, occ, lb->occlen, lb->lang))
 			continue;
 		/* one suggestion per key, even when a key has two labels */
-		if (labels_find(&ls, occ, lb->occlen, lb->lang, key, lb->keylen) != lb)
+		if (labels_find(ls, occ, lb->occlen, lb->lang, key, lb->keylen) != lb)
 			continue;
-		uint64_t n = tm_occ_postings(&m, occ, lb->occlen, lb->lang);
-		uint64_t kt = tm_key_postings(&m, lb->lang, key, lb->keylen);
+		uint64_t n = tm_occ_postings(c->m, occ, lb->occlen, lb->lang);
+		uint64_t kt = tm_key_postings(c->m, lb->lang, key, lb->keylen);
 		uint64_t k = 0;
 		const trip *rival = NULL;
-		tm_buf j = {0};
-		buf_puts(&j, lb->lang);
-		buf_putc(&j, '\x1F');
-		buf_append(&j, key, lb->keylen);
-		long bi = st_find(&kidx, j.data, j.len);
-		buf_free(&j);
+		if (!(j = join(c, lb->lang, strlen(lb->lang), key, lb->keylen, NULL, 0)))
+			return -1;
+		long bi = st_find(&c->kidx, j->data, j->len);
 		if (bi >= 0) {
-			best2 *bb = &best[bi];
+			best2 *bb = &c->best[bi];
 			for (uint32_t r = 0; r < 2; r++) {
 				uint32_t x = r ? bb->i2 : bb->i1;
 				if (!x)
 					continue;
-				const trip *t = &c.t[x - 1];
+				const trip *t = &c->t[x - 1];
 				if (same(t->occ, t->ol, occ, lb->occlen))
 					k = t->k;
 				else if (!rival)
@@ -711,103 +406,96 @@ int cmd_propose(int argc, char **argv)
 			}
 			/* the label's own count, when it is not among the best two */
 			if (!k) {
-				long ti;
-				tm_buf j2 = {0};
-				buf_append(&j2, occ, lb->occlen);
-				buf_putc(&j2, '\x1F');
-				buf_puts(&j2, lb->lang);
-				buf_putc(&j2, '\x1F');
-				buf_append(&j2, key, lb->keylen);
-				ti = st_find(&tidx, j2.data, j2.len);
-				buf_free(&j2);
+				if (!(j = join(c, occ, lb->occlen, lb->lang, strlen(lb->lang), key,
+					       lb->keylen)))
+					return -1;
+				long ti = st_find(&c->tidx, j->data, j->len);
 				if (ti >= 0)
-					k = c.t[tidx.ent[ti].count].k;
+					k = c->t[c->tidx.ent[ti].count].k;
 			}
 		}
-		sugg s;
+		propose_sugg s;
 		memset(&s, 0, sizeof s);
 		s.lb = lb;
+		s.text = lab_str(ls, lb->text);
+		s.tl = lb->textlen;
 		s.occ = occ;
 		s.ol = lb->occlen;
 		s.key = key;
 		s.kl = lb->keylen;
 		memcpy(s.lang, lb->lang, 4);
-		s.k = k;
-		s.n = n;
-		s.kt = kt;
+		s.postings = k;
+		s.occ_postings = n;
+		s.key_postings = kt;
 		s.precision = kt ? (double)k / (double)kt : 0;
-		s.rival = rival;
+		if (rival) {
+			s.rival = rival->occ;
+			s.rl = rival->ol;
+			s.rival_postings = rival->k;
+		}
 		double lo, hi;
 		wilson(k, n, STATS_Z95, &lo, &hi);
-		if (n >= bar.rare_min && hi < bar.rare_share) {
-			s.kind = K_RARE;
-			s.score = (double)n * (bar.rare_share - hi);
-		} else if (rival && kt >= bar.elsewhere_min &&
-			   (double)rival->k / (double)kt >= bar.elsewhere_share) {
-			s.kind = K_ELSEWHERE;
+		if (n >= bar->rare_min && hi < bar->rare_share) {
+			s.kind = PROPOSE_RARE;
+			s.score = (double)n * (bar->rare_share - hi);
+		} else if (rival && kt >= bar->elsewhere_min &&
+			   (double)rival->k / (double)kt >= bar->elsewhere_share) {
+			s.kind = PROPOSE_ELSEWHERE;
 			s.score = (double)rival->k / (double)kt;
 		} else
 			continue;
-		if (ns == scap) {
-			scap = scap ? scap * 2 : 256;
-			sugg *p = realloc(sv, scap * sizeof *p);
-			if (!p)
-				goto oom;
-			sv = p;
-		}
-		sv[ns++] = s;
+		if (push(c, &s) != 0)
+			return -1;
 	}
-	st_free(&nlang);
+	return 0;
+}
+
+int propose_run(tally_mem *m, const labelset *ls, const propose_bars *b,
+		const propose_filter *f, propose_list *out)
+{
+	ranker c;
+	int rc = -1;
+
+	memset(&c, 0, sizeof c);
+	memset(out, 0, sizeof *out);
+	c.m = m;
+	c.ls = ls;
+	c.b = b;
+	c.f = f;
+	c.out = out;
+	if (tm_each_triple(m, collect, &c) != 0 || index_all(&c) != 0 || rank_titles(&c) != 0 ||
+	    rank_labels(&c) != 0)
+		goto done;
 	/* stable ids: the kind, occupation, language and key */
-	for (size_t i = 0; i < ns; i++) {
-		tm_buf j = {0};
-		buf_puts(&j, kind_names[sv[i].kind]);
-		buf_putc(&j, '\x1F');
-		buf_append(&j, sv[i].occ, sv[i].ol);
-		buf_putc(&j, '\x1F');
-		buf_puts(&j, sv[i].lang);
-		buf_putc(&j, '\x1F');
-		buf_append(&j, sv[i].key, sv[i].kl);
-		snprintf(sv[i].id, sizeof sv[i].id, "%016llx",
-			 (unsigned long long)tok_hash(j.data, j.len));
-		buf_free(&j);
+	for (size_t i = 0; i < out->n; i++) {
+		propose_sugg *s = &out->v[i];
+		tm_buf *j = &c.j;
+		buf_reset(j);
+		if (buf_puts(j, propose_kind_names[s->kind]) || buf_putc(j, '\x1F') ||
+		    buf_append(j, s->occ, s->ol) || buf_putc(j, '\x1F') || buf_puts(j, s->lang) ||
+		    buf_putc(j, '\x1F') || buf_append(j, s->key, s->kl))
+			goto done;
+		snprintf(s->id, sizeof s->id, "%016llx", (unsigned long long)tok_hash(j->data, j->len));
 	}
-	qsort(sv, ns, sizeof *sv, cmp_sugg);
-	if (tsv)
-		buf_puts(&out, "id\tkind\toccupation\tlang\tlabel\tscore\tpostings\toccupation_postings\t"
-			       "key_postings\tshare\tshare_low\tshare_high\tprecision\tg2\tcompetitor\t"
-			       "variant_of\texamples\n");
-	{
-		uint64_t per[K_N] = {0};
-		for (size_t i = 0; i < ns; i++) {
-			if (only_kind >= 0 && sv[i].kind != only_kind)
-				continue;
-			if (per[sv[i].kind]++ >= top)
-				continue;
-			write_sugg(&out, &sv[i], &m, &ls, tsv);
-		}
-	}
-	if (fwrite(out.data ? out.data : "", 1, out.len, stdout) != out.len || fflush(stdout) != 0) {
-		fprintf(stderr, "titlemill propose: write error: %s\n", strerror(errno));
-		rc = EXIT_RUNTIME;
-	}
-	goto done;
-oom:
-	fputs("titlemill propose: out of memory\n", stderr);
-	rc = EXIT_RUNTIME;
+	if (out->n > 1)
+		qsort(out->v, out->n, sizeof *out->v, cmp_sugg);
+	rc = 0;
 done:
-	free(sv);
-	free(best);
-	free(order);
-	st_free(&groups);
-	st_free(&tidx);
+	if (rc != 0)
+		propose_list_free(out);
 	free(c.t);
-	st_free(&kidx);
-	buf_free(&out);
-	buf_free(&err);
-	labels_free(&ls);
-	tm_free(&m);
-	norm_free(nm);
-	lex_free(lx);
+	free(c.best);
+	free(c.order);
+	st_free(&c.kidx);
+	st_free(&c.tidx);
+	st_free(&c.nlang);
+	st_free(&c.groups);
+	buf_free(&c.j);
 	return rc;
+}
+
+void propose_list_free(propose_list *l)
+{
+	free(l->v);
+	memset(l, 0, sizeof *l);
 }

@@ -48,15 +48,14 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 	fclose(fp);
 	tm_init(&m);
 	if (pr_open(&pr, path, PR_AUTO) == 0) {
-		while ((r = pr_next_row(&pr, &p)) != 0) {
-			if (r < 0 && r != TM_EINPUT)
-				break;
-			if (r == TM_EINPUT) {
+		pr_row row;
+		while ((r = pr_next(&pr, &p, &row)) == 0 && row != PR_END) {
+			if (row == PR_SKIP) {
 				if (!pr.err.len || !memmem(pr.err.data, pr.err.len, path, strlen(path)))
 					abort();
 				continue;
 			}
-			if (r != 1 || !p.titlelen || !p.nocc)
+			if (row != PR_POSTING || !p.titlelen || !p.nocc)
 				abort();
 			/* count the posting with its raw title as its key */
 			/* (titles reach the engine cleaned: UTF-8, no controls) */

@@ -19,6 +19,13 @@
 
 static char path[64];
 
+/* What pr_next read (pr_row), or -1 on a read error. */
+static int next_row(postings_reader *pr, posting *p)
+{
+	pr_row row;
+	return pr_next(pr, p, &row) == 0 ? (int)row : -1;
+}
+
 static void write_file(const char *s)
 {
 	strcpy(path, "/tmp/tm-tally-XXXXXX");
@@ -55,19 +62,19 @@ static void test_tsv_reader(void **state)
 		   "en\tCook\n");
 	assert_int_equal(pr_open(&pr, path, PR_AUTO), 0);
 	assert_int_equal(pr.format, PR_TSV);
-	assert_int_equal(pr_next_row(&pr, &p), 1);
+	assert_int_equal(next_row(&pr, &p), PR_POSTING);
 	assert_string_equal(p.lang, "de");
 	assert_int_equal(p.nocc, 2); /* trimmed, the repeat dropped */
 	assert_memory_equal(p.occ[1], "occ:2", 5);
 	assert_memory_equal(p.id, "7", 1);
 	assert_int_equal(p.line, 2);
-	assert_int_equal(pr_next_row(&pr, &p), TM_EINPUT); /* bad lang */
+	assert_int_equal(next_row(&pr, &p), PR_SKIP); /* bad lang */
 	assert_non_null(strstr(pr.err.data, ":4: bad lang"));
-	assert_int_equal(pr_next_row(&pr, &p), TM_EINPUT); /* no title */
+	assert_int_equal(next_row(&pr, &p), PR_SKIP); /* no title */
 	assert_non_null(strstr(pr.err.data, ":5: no title"));
-	assert_int_equal(pr_next_row(&pr, &p), TM_EINPUT); /* short row */
+	assert_int_equal(next_row(&pr, &p), PR_SKIP); /* short row */
 	assert_non_null(strstr(pr.err.data, ":6: row has fewer fields"));
-	assert_int_equal(pr_next_row(&pr, &p), 0);
+	assert_int_equal(next_row(&pr, &p), PR_END);
 	pr_close(&pr);
 	unlink(path);
 }
@@ -85,23 +92,23 @@ static void test_json_reader(void **state)
 		   "{\"title\":\"Koch\",\"occupations\":\"o\",\"date\":\"2026-02-30\"}\n");
 	assert_int_equal(pr_open(&pr, path, PR_AUTO), 0);
 	assert_int_equal(pr.format, PR_JSONL);
-	assert_int_equal(pr_next_row(&pr, &p), 1);
+	assert_int_equal(next_row(&pr, &p), PR_POSTING);
 	assert_int_equal(p.nocc, 2);
 	assert_memory_equal(p.id, "42", 2);
 	assert_string_equal(p.lang, "und");
 	assert_int_equal(p.line, 2);
-	assert_int_equal(pr_next_row(&pr, &p), 1);
+	assert_int_equal(next_row(&pr, &p), PR_POSTING);
 	assert_int_equal(p.nocc, 2);
 	assert_string_equal(p.lang, "fr");
-	assert_int_equal(pr_next_row(&pr, &p), TM_EINPUT);
+	assert_int_equal(next_row(&pr, &p), PR_SKIP);
 	assert_non_null(strstr(pr.err.data, ":4: 'occupations' holds something that is not a string"));
-	assert_int_equal(pr_next_row(&pr, &p), TM_EINPUT);
+	assert_int_equal(next_row(&pr, &p), PR_SKIP);
 	assert_non_null(strstr(pr.err.data, ":5: bad JSON: not a JSON object"));
-	assert_int_equal(pr_next_row(&pr, &p), TM_EINPUT); /* duplicate key */
+	assert_int_equal(next_row(&pr, &p), PR_SKIP); /* duplicate key */
 	assert_non_null(strstr(pr.err.data, ":6: bad JSON"));
-	assert_int_equal(pr_next_row(&pr, &p), TM_EINPUT);
+	assert_int_equal(next_row(&pr, &p), PR_SKIP);
 	assert_non_null(strstr(pr.err.data, ":7: bad date"));
-	assert_int_equal(pr_next_row(&pr, &p), 0);
+	assert_int_equal(next_row(&pr, &p), PR_END);
 	pr_close(&pr);
 	unlink(path);
 }
@@ -309,27 +316,27 @@ static void test_bad_occupations(void **state)
 	assert_int_equal(pr_open(&pr, path, PR_AUTO), 0);
 	for (int line = 2; line <= 4; line++) {
 		char want[80];
-		assert_int_equal(pr_next_row(&pr, &p), TM_EINPUT);
+		assert_int_equal(next_row(&pr, &p), PR_SKIP);
 		snprintf(want, sizeof want, ":%d: an occupation holds a control character", line);
 		assert_non_null(strstr(pr.err.data, want));
 	}
-	assert_int_equal(pr_next_row(&pr, &p), TM_EINPUT);
+	assert_int_equal(next_row(&pr, &p), PR_SKIP);
 	assert_non_null(strstr(pr.err.data, ":5: bad lang"));
-	assert_int_equal(pr_next_row(&pr, &p), TM_EINPUT);
+	assert_int_equal(next_row(&pr, &p), PR_SKIP);
 	assert_non_null(strstr(pr.err.data, ":6: row has more fields than the header"));
-	assert_int_equal(pr_next_row(&pr, &p), 1); /* an empty extra field is fine */
+	assert_int_equal(next_row(&pr, &p), PR_POSTING); /* an empty extra field is fine */
 	assert_int_equal(p.line, 7);
-	assert_int_equal(pr_next_row(&pr, &p), 0);
+	assert_int_equal(next_row(&pr, &p), PR_END);
 	pr_close(&pr);
 	unlink(path);
 	write_file("{\"title\":\"Koch\",\"occupations\":[\"occ\\n1\"]}\n"
 		   "{\"title\":\"Koch\",\"occupations\":\"occ\\t1|occ:2\"}\n");
 	assert_int_equal(pr_open(&pr, path, PR_AUTO), 0);
-	assert_int_equal(pr_next_row(&pr, &p), TM_EINPUT);
+	assert_int_equal(next_row(&pr, &p), PR_SKIP);
 	assert_non_null(strstr(pr.err.data, ":1: an occupation holds a control character"));
-	assert_int_equal(pr_next_row(&pr, &p), TM_EINPUT);
+	assert_int_equal(next_row(&pr, &p), PR_SKIP);
 	assert_non_null(strstr(pr.err.data, ":2: an occupation holds a control character"));
-	assert_int_equal(pr_next_row(&pr, &p), 0);
+	assert_int_equal(next_row(&pr, &p), PR_END);
 	pr_close(&pr);
 	unlink(path);
 }

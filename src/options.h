@@ -1,0 +1,96 @@
+/* options.h - the command line of every command: one table of options
+ * per command, the options several commands share, and the defaults.
+ *
+ * An option is an opt_spec: its long name, the kind of value, where the
+ * value goes in the command's options struct (an offset), the name of
+ * its argument, its default as text, the range of a number, and its
+ * meaning.  The default is written once, in the table: opt_parse sets
+ * it by parsing that text as if it had been given, and --help prints it
+ * (opt_help).  tests/cli/defaults.sh checks that README.md and
+ * titlemill.1 state the defaults that --help prints.
+ *
+ * Value kinds and the struct member each one fills:
+ *   OPT_FLAG    int, counts how often the option is given
+ *   OPT_STR     const char *, borrowed from argv
+ *   OPT_U64     uint64_t, a whole number in [lo, hi]; with no default,
+ *               UINT64_MAX when not given
+ *   OPT_REAL    double, a number in [lo, hi]
+ *   OPT_LANG    char[4], a BCP 47 tag's language ("" when not given)
+ *   OPT_CHOICE  int: 1 + the index of the value in choices, 0 when not
+ *               given
+ *   OPT_LEXDIR  setup_opts: appends to its extra folders (repeatable)
+ *   OPT_PREFIX  const char *, a store key prefix (store_prefix_check)
+ * Numbers are parsed strictly: the whole argument, no sign on a whole
+ * number, within the range. */
+#ifndef TM_OPTIONS_H
+#define TM_OPTIONS_H
+
+#include <stddef.h>
+#include <stdint.h>
+#include <stdio.h>
+
+typedef enum opt_kind {
+	OPT_FLAG, OPT_STR, OPT_U64, OPT_REAL, OPT_LANG, OPT_CHOICE, OPT_LEXDIR, OPT_PREFIX
+} opt_kind;
+
+typedef struct opt_spec {
+	const char *name;      /* without the leading "--"; NULL ends a table */
+	opt_kind kind;
+	size_t off;            /* offsetof the member in the options struct */
+	const char *arg;       /* the argument in --help: "FILE", "N", "X" */
+	const char *def;       /* the default as it would be written; NULL: none */
+	double lo, hi;         /* the range of a number */
+	const char *help;      /* the meaning, for --help */
+	const char *const *choices; /* OPT_CHOICE: the values, NULL-terminated */
+} opt_spec;
+
+typedef struct opt_cmd {
+	const char *name;      /* the command, as in "titlemill NAME" */
+	const char *synopsis;  /* --help before the options: usage lines and
+				* what the command does, ending in a blank line */
+	const opt_spec *specs;
+} opt_cmd;
+
+/* The memory of recent titles the normaliser keeps, in MiB, for every
+ * command that cleans titles (0: clean every title afresh). */
+#define OPT_MEMO_MIB 16
+#define OPT_MEMO_MAX_MIB 4096
+
+#define OPT_STR_(x) #x
+#define OPT_XSTR(x) OPT_STR_(x)
+
+/* The options several commands share, with one meaning each. */
+#define OPT_SPEC_LABELS(type, m, meaning) \
+	{"labels", OPT_STR, offsetof(type, m), "FILE", NULL, 0, 0, meaning, NULL}
+#define OPT_SPEC_LEXICONS(type, m) \
+	{"lexicons", OPT_LEXDIR, offsetof(type, m), "DIR", NULL, 0, 0, \
+	 "read the lexicons in DIR too (repeatable)", NULL}
+#define OPT_SPEC_LANG(type, m, meaning) \
+	{"lang", OPT_LANG, offsetof(type, m), "L", NULL, 0, 0, meaning, NULL}
+#define OPT_SPEC_STORE(type, m) \
+	{"store", OPT_STR, offsetof(type, m), "URL", NULL, 0, 0, \
+	 "read the counts of a Redis store (see tally)", NULL}
+#define OPT_SPEC_PREFIX(type, m) \
+	{"prefix", OPT_PREFIX, offsetof(type, m), "P", NULL, 0, 0, \
+	 "the store's key prefix (default titlemill)", NULL}
+#define OPT_SPEC_MEMO(type, m) \
+	{"memo", OPT_U64, offsetof(type, m), "MIB", OPT_XSTR(OPT_MEMO_MIB), 0, OPT_MEMO_MAX_MIB, \
+	 "remember the results of recent distinct titles in MIB mebibytes " \
+	 "(0: clean every title afresh)", NULL}
+#define OPT_SPEC_END {NULL, OPT_FLAG, 0, NULL, NULL, 0, 0, NULL, NULL}
+
+enum { OPT_RUN, OPT_HELP_SHOWN, OPT_MISUSE };
+
+/* Sets the defaults of cmd's options in o, then reads argv[1..] into o.
+ * Returns OPT_RUN with *first the index of the first operand;
+ * OPT_HELP_SHOWN after --help / -h printed the help on standard output;
+ * OPT_MISUSE after saying on standard error, as "titlemill CMD: --OPT:
+ * ...", what is wrong (an unknown option: the help follows).  A command
+ * returns EXIT_OK, EXIT_USAGE for the last two. */
+int opt_parse(const opt_cmd *cmd, void *o, int argc, char **argv, int *first);
+
+/* The help of cmd: the synopsis, then one line per option with its
+ * meaning and its default, then -h, --help. */
+void opt_help(const opt_cmd *cmd, FILE *fp);
+
+#endif
