@@ -19,6 +19,7 @@
 
 #include "queue.h"
 #include "review.h"
+#include "review_change.h"
 #include "store.h"
 #include "tally.h"
 
@@ -332,10 +333,10 @@ static int add_change(rq_queue *q, void *a0, tm_buf *err)
 static int decide_change(rq_queue *q, void *a0, tm_buf *err)
 {
 	(void)a0;
-	int many;
+	int many, outcome;
 	rq_item *it = rq_find(q, "00000000000000b1", 16, &many);
-	if (!it || rq_decide(it, 0, "Mira Ostvalden", "kept", "2026-12-03T10:00:00Z", 0, err) !=
-			   RD_APPLIED)
+	if (!it || rq_decide(it, 0, "Mira Ostvalden", "kept", "2026-12-03T10:00:00Z", 0, &outcome,
+			     err) != TM_OK || outcome != RD_APPLIED)
 		return -1;
 	return 0;
 }
