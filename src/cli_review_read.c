@@ -296,12 +296,12 @@ typedef struct srow {
 } srow;
 
 /* The index of the row (by, value), added when new; -1 when out of memory. */
-static long row_for(srow **v, size_t *n, const char *by, const char *value)
+static long row_for(srow **v, size_t *n, size_t *cap, const char *by, const char *value)
 {
 	for (size_t i = 0; i < *n; i++)
 		if (!strcmp((*v)[i].by, by) && !strcmp((*v)[i].value, value))
 			return (long)i;
-	srow *p = realloc(*v, (*n + 1) * sizeof *p);
+	srow *p = tm_grow(*v, cap, *n + 1, sizeof *p, 16);
 	if (!p)
 		return -1;
 	*v = p;
@@ -334,22 +334,23 @@ static int cmp_row(const void *a, const void *b)
 int rv_stats(const rq_queue *q, const char *now)
 {
 	srow *v = NULL;
-	size_t n = 0;
+	size_t n = 0, cap = 0;
 	long long t_now = rq_time(now);
 	tm_buf b = {0};
 
-	if (row_for(&v, &n, "all", "*") < 0)
+	if (row_for(&v, &n, &cap, "all", "*") < 0)
 		return rv_fail("out of memory");
 	for (int k = 0; k < RK_N; k++)
-		if (row_for(&v, &n, "kind", rq_kind_names[k]) < 0)
+		if (row_for(&v, &n, &cap, "kind", rq_kind_names[k]) < 0)
 			return rv_fail("out of memory");
 	for (size_t i = 0; i < q->n; i++) {
 		const rq_item *it = &q->it[i];
 		const rq_event *dec = rq_last_decision(it);
 		/* indices, not pointers: a new row moves the array */
-		long rs[4] = {row_for(&v, &n, "all", "*"), row_for(&v, &n, "kind", rq_kind_names[it->kind]),
-			      row_for(&v, &n, "lang", it->lang),
-			      dec ? row_for(&v, &n, "reviewer", dec->reviewer) : -2};
+		long rs[4] = {row_for(&v, &n, &cap, "all", "*"),
+			      row_for(&v, &n, &cap, "kind", rq_kind_names[it->kind]),
+			      row_for(&v, &n, &cap, "lang", it->lang),
+			      dec ? row_for(&v, &n, &cap, "reviewer", dec->reviewer) : -2};
 		for (int k = 0; k < 4; k++) {
 			if (rs[k] == -1) {
 				free(v);

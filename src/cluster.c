@@ -151,7 +151,7 @@ static long node_index(rcluster *k, const char *host, size_t hl, int port)
 		if (k->node[i].host && (int)strlen(k->node[i].host) == (int)hl &&
 		    !memcmp(k->node[i].host, host, hl) && k->node[i].port == port)
 			return (long)i;
-	rc_node *p = realloc(k->node, (k->nnode + 1) * sizeof *p);
+	rc_node *p = tm_grow(k->node, &k->nodecap, k->nnode + 1, sizeof *p, 8);
 	if (!p)
 		return -1;
 	k->node = p;
@@ -232,7 +232,7 @@ int rc_open(rcluster *k, char **hosts, const int *ports, char **paths, size_t ns
 	for (size_t i = 0; i < nseeds; i++) {
 		long ni;
 		if (paths && paths[i]) {
-			rc_node *p = realloc(k->node, (k->nnode + 1) * sizeof *p);
+			rc_node *p = tm_grow(k->node, &k->nodecap, k->nnode + 1, sizeof *p, 8);
 			if (!p)
 				return -1;
 			k->node = p;

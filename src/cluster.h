@@ -42,7 +42,7 @@ typedef struct rc_cmd {
 typedef struct rcluster {
 	int cluster;          /* 0: one server (every slot on node 0) */
 	rc_node *node;
-	size_t nnode;
+	size_t nnode, nodecap;
 	short slot[SLOT_COUNT]; /* node index, -1 when no master serves it */
 	char *user, *pass;
 	int db, timeout_ms, retries;

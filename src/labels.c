@@ -157,14 +157,10 @@ static int add_one(labelset *ls, normaliser *nm, label *lbp, const char *o, size
 	lb.keylen = (uint32_t)res.key_len;
 	if (buf_append(&ls->arena, res.key, res.key_len) || buf_putc(&ls->arena, 0))
 		goto oom;
-	if (ls->n == ls->cap) {
-		size_t cap = ls->cap ? ls->cap * 2 : 256;
-		label *p = realloc(ls->v, cap * sizeof *p);
-		if (!p)
-			goto oom;
-		ls->v = p;
-		ls->cap = cap;
-	}
+	label *v = tm_grow(ls->v, &ls->cap, ls->n + 1, sizeof *v, 256);
+	if (!v)
+		goto oom;
+	ls->v = v;
 	ls->v[ls->n++] = lb;
 	if (check_repeats(ls, &ls->v[ls->n - 1], tag, where, skos, warn, jb) != 0)
 		goto oom;

@@ -58,14 +58,10 @@ typedef struct ranker {
 static int collect(void *c0, const tm_triple *x)
 {
 	ranker *c = c0;
-	if (c->n == c->cap) {
-		size_t cap = c->cap ? c->cap * 2 : 4096;
-		trip *p = realloc(c->t, cap * sizeof *p);
-		if (!p)
-			return -1;
-		c->t = p;
-		c->cap = cap;
-	}
+	trip *t = tm_grow(c->t, &c->cap, c->n + 1, sizeof *t, 4096);
+	if (!t)
+		return -1;
+	c->t = t;
 	c->t[c->n++] = (trip){x->occ, x->lang, x->key, x->title, x->ol, x->ll, x->kl, x->tl,
 			      x->postings};
 	return 0;
@@ -193,14 +189,10 @@ int propose_as_written(const char *const *ex, const size_t *exl, int nex, const 
 static int push(ranker *c, const propose_sugg *s)
 {
 	propose_list *l = c->out;
-	if (l->n == c->outcap) {
-		size_t cap = c->outcap ? c->outcap * 2 : 256;
-		propose_sugg *p = realloc(l->v, cap * sizeof *p);
-		if (!p)
-			return -1;
-		l->v = p;
-		c->outcap = cap;
-	}
+	propose_sugg *v = tm_grow(l->v, &c->outcap, l->n + 1, sizeof *v, 256);
+	if (!v)
+		return -1;
+	l->v = v;
 	l->v[l->n++] = *s;
 	return 0;
 }

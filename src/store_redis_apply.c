@@ -120,14 +120,10 @@ static call *call_for(calls *cs, const char *key, size_t kl, long *kn)
 	if (fresh < 0)
 		return NULL;
 	if (fresh) {
-		if (cs->n == cs->cap) {
-			size_t cap = cs->cap ? cs->cap * 2 : 64;
-			call *p = realloc(cs->v, cap * sizeof *p);
-			if (!p)
-				return NULL;
-			cs->v = p;
-			cs->cap = cap;
-		}
+		call *v = tm_grow(cs->v, &cs->cap, cs->n + 1, sizeof *v, 64);
+		if (!v)
+			return NULL;
+		cs->v = v;
 		call *c = &cs->v[cs->n];
 		memset(c, 0, sizeof *c);
 		tm_buf lk = {0};

@@ -106,14 +106,10 @@ int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
 	if (r < 0)
 		return -1;
 	if (r == 1) {
-		if (m->nex == m->excap) {
-			size_t cap = m->excap ? m->excap * 2 : 1024;
-			struct tm_example *p = realloc(m->ex, cap * sizeof *p);
-			if (!p)
-				return -1;
-			m->ex = p;
-			m->excap = cap;
-		}
+		struct tm_example *ex = tm_grow(m->ex, &m->excap, m->nex + 1, sizeof *ex, 1024);
+		if (!ex)
+			return -1;
+		m->ex = ex;
 		memset(&m->ex[m->nex], 0, sizeof m->ex[0]);
 		m->exkeys.ent[idx].count = m->nex++;
 	}
