@@ -3,8 +3,6 @@
 #ifndef TM_CLI_H
 #define TM_CLI_H
 
-#include <string.h>
-
 #include "inputs.h"
 #include "norm.h"
 #include "options.h"
@@ -12,27 +10,6 @@
 #include "tally.h"
 
 enum { EXIT_OK = 0, EXIT_RUNTIME = 1, EXIT_USAGE = 2 };
-
-/* What the engines count of a posting once its title is cleaned: the
- * raw example is the prepared title with contact data masked.  Borrows
- * from p and r. */
-static inline void cli_tally_posting(tally_posting *tp, const posting *p,
-				     const norm_result *r)
-{
-	memset(tp, 0, sizeof *tp);
-	tp->id = p->id;
-	tp->idlen = p->idlen;
-	tp->lang = p->lang;
-	tp->key = r->key;
-	tp->keylen = r->key_len;
-	tp->title = r->title;
-	tp->titlelen = r->title_len;
-	tp->example = r->masked;
-	tp->examplelen = r->masked_len;
-	tp->occ = p->occ;
-	tp->occlen = p->occlen;
-	tp->nocc = p->nocc;
-}
 
 /* A --prefix value for a store: 0, or EXIT_USAGE after saying on
  * standard error, as "titlemill CMD: --prefix: ...", what is wrong. */

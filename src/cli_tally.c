@@ -345,7 +345,7 @@ int cmd_tally(int argc, char **argv)
 				rc = EXIT_RUNTIME;
 				break;
 			}
-			cli_tally_posting(&tp, &p, &res);
+			tally_posting_of(&tp, &p, &res);
 			if (store_feed(st, &p, &tp, pr.lr.name, p.line) != 0) {
 				fprintf(stderr, "titlemill tally: %.*s\n", (int)st->err.len, st->err.data);
 				rc = EXIT_RUNTIME;

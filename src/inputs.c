@@ -2,7 +2,7 @@
 #include <stdio.h>
 #include <string.h>
 
-#include "cli.h"
+#include "tally.h"
 #include "inputs.h"
 #include "postings.h"
 
@@ -58,7 +58,7 @@ static int count_postings(tally_mem *m, normaliser *nm, const char *path, FILE *
 				"cut short? (counted as it is)\n", pr.lr.name, p.line);
 		if (norm_title(nm, p.title, p.titlelen, strcmp(p.lang, "und") ? p.lang : NULL, &res))
 			goto oom;
-		cli_tally_posting(&tp, &p, &res);
+		tally_posting_of(&tp, &p, &res);
 		if (tm_add(m, &tp) < 0)
 			goto oom;
 	}

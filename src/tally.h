@@ -19,8 +19,11 @@
 #include <stddef.h>
 #include <stdint.h>
 #include <stdio.h>
+#include <string.h>
 
 #include "buf.h"
+#include "norm.h"
+#include "postings.h"
 #include "strtab.h"
 
 #define TALLY_EXAMPLES 3
@@ -107,5 +110,26 @@ uint64_t tm_occ_postings(tally_mem *m, const char *occ, size_t ol, const char *l
 
 /* Bytes held by the engine, for measurements. */
 size_t tm_bytes(const tally_mem *m);
+
+/* What the engines count of a posting once its title is cleaned: the
+ * raw example is the prepared title with contact data masked.  Borrows
+ * from p and r. */
+static inline void tally_posting_of(tally_posting *tp, const posting *p,
+				    const norm_result *r)
+{
+	memset(tp, 0, sizeof *tp);
+	tp->id = p->id;
+	tp->idlen = p->idlen;
+	tp->lang = p->lang;
+	tp->key = r->key;
+	tp->keylen = r->key_len;
+	tp->title = r->title;
+	tp->titlelen = r->title_len;
+	tp->example = r->masked;
+	tp->examplelen = r->masked_len;
+	tp->occ = p->occ;
+	tp->occlen = p->occlen;
+	tp->nocc = p->nocc;
+}
 
 #endif
