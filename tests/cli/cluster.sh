@@ -42,7 +42,7 @@ slots=$("$ts" --print < "$tmp/keys" | md5sum)
 server=$(sed 's/^/CLUSTER KEYSLOT "/; s/$/"/' "$tmp/keys" | redis-cli -p "$P1" | md5sum)
 check "our slots equal CLUSTER KEYSLOT on 3000 keys" "$server" "$slots"
 
-# the backends' own suite (tests/unit/test_backend.c) against the
+# the backends' own suite (tests/unit/count/test_backend.c) against the
 # cluster: the same assertions as for memory and one server
 tb=$root/build/test_backend
 [ -x "$tb" ] || tb=$root/build-asan/test_backend

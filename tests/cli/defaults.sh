@@ -1,7 +1,7 @@
 #!/bin/sh
 # The documented defaults are the program's: every option whose --help
 # line gives a default (the one table of options each command is read
-# by, src/options.h) must be stated with that same value in README.md,
+# by, src/cli/options.h) must be stated with that same value in README.md,
 # in a clause that names the option, and in titlemill.1 wherever the man
 # page describes the option.
 . "$(dirname "$0")/lib.inc"

@@ -1,5 +1,5 @@
 #!/bin/sh
-# The compiled lexicon cache (src/lexcache.c): the normaliser's output is
+# The compiled lexicon cache (src/norm/lexcache.c): the normaliser's output is
 # byte-identical with a warm cache, a cold one and the cache off (the
 # case tables and 200,000 generated titles, plain, --key, --json, with
 # --labels); an edited, added or removed lexicon file takes effect on the

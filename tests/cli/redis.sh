@@ -19,7 +19,7 @@ trap 'stop a; stop b; stop c; stop d; stop v6; rm -rf "$tmp"' EXIT INT TERM
 start a --appendonly no || exit 1
 S=unix:$tmp/a/sock
 
-# the backends' own suite (tests/unit/test_backend.c) against this server:
+# the backends' own suite (tests/unit/count/test_backend.c) against this server:
 # the same assertions as for memory and the queue file
 root=$(cd "$(dirname "$0")/../.." && pwd)
 tb=$root/build/test_backend

@@ -7,7 +7,7 @@
 #include <string.h>
 #include <unistd.h>
 
-#include "tally.h"
+#include "count/tally.h"
 
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
 

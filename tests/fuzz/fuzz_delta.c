@@ -25,12 +25,12 @@
 #include <string.h>
 #include <unistd.h>
 
-#include "delta.h"
-#include "fieldcheck.h"
-#include "review.h"
-#include "review_change.h"
-#include "skos.h"
-#include "tsv.h"
+#include "review/delta.h"
+#include "io/fieldcheck.h"
+#include "review/review.h"
+#include "review/review_change.h"
+#include "io/skos.h"
+#include "io/tsv.h"
 
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
 

@@ -20,9 +20,9 @@
 #include <string.h>
 #include <unistd.h>
 
-#include "decode.h"
-#include "labels.h"
-#include "setup.h"
+#include "io/decode.h"
+#include "rank/labels.h"
+#include "norm/setup.h"
 
 int LLVMFuzzerInitialize(int *argc, char ***argv);
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);

@@ -17,9 +17,9 @@
 #include <stdlib.h>
 #include <string.h>
 
-#include "decode.h"
-#include "norm.h"
-#include "setup.h"
+#include "io/decode.h"
+#include "norm/norm.h"
+#include "norm/setup.h"
 
 static lexicon *LX;
 static normaliser *NM, *NM2;

@@ -12,9 +12,9 @@
 #include <string.h>
 #include <unistd.h>
 
-#include "decode.h"
-#include "postings.h"
-#include "tally.h"
+#include "io/decode.h"
+#include "io/postings.h"
+#include "count/tally.h"
 
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
 

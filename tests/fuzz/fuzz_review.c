@@ -9,10 +9,10 @@
 #include <string.h>
 #include <unistd.h>
 
-#include "review.h"
-#include "review_batch.h"
-#include "review_change.h"
-#include "review_json.h"
+#include "review/review.h"
+#include "review/review_batch.h"
+#include "review/review_change.h"
+#include "review/review_json.h"
 
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
 

@@ -1,0 +1,232 @@
+/* cli_rank.c - titlemill coverage (how much of each occupation's
+ * postings its labels already match) and titlemill labels (a taxonomy's
+ * labels with their keys): options, inputs, output. */
+#include <errno.h>
+#include <stddef.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "cli/cli.h"
+#include "rank/coverage.h"
+#include "rank/inputs.h"
+#include "cli/options.h"
+#include "io/record.h"
+
+typedef struct coverage_opts {
+	rank_opts in;
+	const char *occ;
+	char lang[4];
+	int json;
+} coverage_opts;
+
+static const opt_spec coverage_specs[] = {
+	OPT_SPEC_LABELS(coverage_opts, in.setup.labels,
+			"the taxonomy's labels: TSV (occupation, kind, lang, label) or SKOS"),
+	{"json", OPT_FLAG, offsetof(coverage_opts, json), NULL, NULL, 0, 0,
+	 "JSON Lines instead of TSV", NULL},
+	{"occupation", OPT_STR, offsetof(coverage_opts, occ), "ID", NULL, 0, 0,
+	 "only this occupation", NULL},
+	OPT_SPEC_LANG(coverage_opts, lang, "only this language"),
+	OPT_SPEC_STORE(coverage_opts, in.store),
+	OPT_SPEC_PREFIX(coverage_opts, in.prefix),
+	OPT_SPEC_LEXICONS(coverage_opts, in.setup),
+	OPT_SPEC_END,
+};
+
+static const opt_cmd coverage_cmd = {
+	"coverage",
+	"usage: titlemill coverage --labels FILE [--json] [--occupation ID] [--lang L]\n"
+	"                          (COUNTS|POSTINGS...|--store URL [--prefix P])\n"
+	"\n"
+	"Per occupation and language: postings, postings whose key matches one of\n"
+	"its labels (a share with its Wilson 95 % interval), the share matched by\n"
+	"the preferred label alone, labels never seen, and the top unmatched titles.\n"
+	"A last line sums all occupations.  Inputs are counts tables (from tally or\n"
+	"counts) or postings files (counted in memory first, with the labels\n"
+	"protected), or what a store holds.\n"
+	"\n",
+	coverage_specs,
+};
+
+/* A coverage row: the fields of both formats. */
+static const rec_field coverage_fields[] = {
+	{"occupation", REC_BOTH}, {"lang", REC_BOTH}, {"postings", REC_BOTH},
+	{"matched", REC_BOTH}, {"coverage", REC_BOTH}, {"coverage_low", REC_BOTH},
+	{"coverage_high", REC_BOTH}, {"pref_matched", REC_BOTH}, {"pref_coverage", REC_BOTH},
+	{"labels", REC_BOTH}, {"labels_unseen", REC_BOTH}, {"top_unmatched", REC_BOTH},
+	{NULL, 0},
+};
+
+static int write_row(void *ctx, const coverage_row *row)
+{
+	rec *r = ctx;
+	rec_begin(r);
+	rec_str(r, row->occ, row->ol);
+	rec_cstr(r, row->lang);
+	rec_u64(r, row->postings);
+	rec_u64(r, row->matched);
+	rec_num(r, row->share);
+	rec_num(r, row->low);
+	rec_num(r, row->high);
+	rec_u64(r, row->pref_matched);
+	rec_num(r, row->pref_share);
+	rec_u64(r, row->labels);
+	rec_u64(r, row->unseen);
+	rec_list_begin(r, "; ");
+	for (int i = 0; i < row->ntop; i++) {
+		const coverage_title *t = &row->top[i];
+		if (rec_is_json(r)) {
+			rec_obj_begin(r);
+			rec_member_str(r, "title", t->title, t->tl);
+			rec_member_str(r, "key", t->key, t->kl);
+			rec_member_u64(r, "postings", t->postings);
+			rec_obj_end(r);
+		} else {
+			rec_cell_begin(r);
+			rec_cell_str(r, t->title, t->tl);
+			rec_cell_str(r, " (", 2);
+			rec_cell_u64(r, t->postings);
+			rec_cell_str(r, ")", 1);
+			rec_cell_end(r);
+		}
+	}
+	rec_list_end(r);
+	return rec_end(r);
+}
+
+/* Writes out to standard output: 0, or -1 after saying why not. */
+int cli_write_stdout(const char *cmd, const tm_buf *out)
+{
+	if (fwrite(out->data ? out->data : "", 1, out->len, stdout) != out->len ||
+	    fflush(stdout) != 0) {
+		fprintf(stderr, "titlemill %s: write error: %s\n", cmd, strerror(errno));
+		return -1;
+	}
+	return 0;
+}
+
+int cli_rank_start(const opt_cmd *cmd, void *o, const rank_opts *ro, int argc, char **argv,
+		   rank_inputs *in, int *status)
+{
+	int first;
+	tm_buf err = {0};
+
+	memset(in, 0, sizeof *in);
+	switch (opt_parse(cmd, o, argc, argv, &first)) {
+	case OPT_HELP_SHOWN: *status = EXIT_OK; return 0;
+	case OPT_MISUSE: *status = EXIT_USAGE; return 0;
+	}
+	*status = EXIT_USAGE;
+	if (!ro->setup.labels) {
+		fprintf(stderr, "titlemill %s: --labels FILE is required\n", cmd->name);
+		return 0;
+	}
+	if (!ro->store && first >= argc) {
+		fprintf(stderr, "titlemill %s: name a counts table or postings files, or --store\n",
+			cmd->name);
+		return 0;
+	}
+	rank_sources src = {&ro->setup, ro->store, ro->prefix, argv + first, argc - first,
+			    (size_t)OPT_MEMO_MIB << 20};
+	if (inputs_load(in, &src, stderr, &err) != 0) {
+		fprintf(stderr, "titlemill %s: %.*s\n", cmd->name, (int)err.len,
+			err.data ? err.data : "");
+		*status = EXIT_RUNTIME;
+	} else
+		*status = EXIT_OK;
+	buf_free(&err);
+	return *status == EXIT_OK;
+}
+
+int cmd_coverage(int argc, char **argv)
+{
+	coverage_opts o;
+	rank_inputs in;
+	coverage_filter f = {NULL, NULL};
+	tm_buf out = {0};
+	rec r;
+	int rc;
+
+	memset(&o, 0, sizeof o);
+	if (!cli_rank_start(&coverage_cmd, &o, &o.in, argc, argv, &in, &rc)) {
+		inputs_free(&in);
+		return rc;
+	}
+	f.occ = o.occ;
+	f.lang = o.lang[0] ? o.lang : NULL;
+	rec_init(&r, &out, o.json ? REC_JSON : REC_TSV, coverage_fields);
+	rec_header(&r);
+	rc = coverage_run(&in.m, &in.ls, &f, write_row, &r);
+	if (rc != 0 || r.failed) {
+		fputs("titlemill coverage: out of memory\n", stderr);
+		rc = EXIT_RUNTIME;
+	} else
+		rc = cli_write_stdout("coverage", &out) ? EXIT_RUNTIME : EXIT_OK;
+	buf_free(&out);
+	inputs_free(&in);
+	return rc;
+}
+
+static const rec_field label_fields[] = {
+	{"occupation", REC_TSV}, {"kind", REC_TSV}, {"lang", REC_TSV}, {"label", REC_TSV},
+	{"key", REC_TSV}, {NULL, 0},
+};
+
+/* titlemill labels: a taxonomy's labels (TSV or SKOS) as a labels TSV
+ * with their match keys. */
+int cmd_labels(int argc, char **argv)
+{
+	setup_opts so;
+	tm_buf err = {0}, out = {0};
+	rec r;
+	int rc = EXIT_OK;
+
+	memset(&so, 0, sizeof so);
+	if (argc < 2 || !strcmp(argv[1], "--help") || !strcmp(argv[1], "-h")) {
+		fputs("usage: titlemill labels FILE...\n\n"
+		      "Prints the labels of labels TSVs or SKOS files (Turtle .ttl, N-Triples .nt:\n"
+		      "skos:prefLabel, altLabel, hiddenLabel with a language tag) as one labels\n"
+		      "TSV, with each label's match key; doubtful labels are reported.\n",
+		      argc < 2 ? stderr : stdout);
+		return argc < 2 ? EXIT_USAGE : EXIT_OK;
+	}
+	lexicon *lx = setup_lexicon(&so, &err);
+	normaliser *nm = lx ? norm_new(lx) : NULL;
+	if (!nm) {
+		fprintf(stderr, "titlemill labels: %.*s\n", (int)err.len, err.data ? err.data : "out of memory");
+		lex_free(lx);
+		buf_free(&err);
+		return EXIT_RUNTIME;
+	}
+	rec_init(&r, &out, REC_TSV, label_fields);
+	rec_header(&r);
+	for (int i = 1; i < argc && rc == EXIT_OK; i++) {
+		labelset ls;
+		if (labels_read(&ls, argv[i], nm, stderr, &err) != 0) {
+			fprintf(stderr, "titlemill labels: %.*s\n", (int)err.len, err.data);
+			rc = EXIT_RUNTIME;
+		} else
+			for (size_t k = 0; k < ls.n; k++) {
+				const label *lb = &ls.v[k];
+				rec_begin(&r);
+				rec_str(&r, lab_str(&ls, lb->occ), lb->occlen);
+				rec_cstr(&r, lb->kind == 'p' ? "pref" : lb->kind == 'a' ? "alt" : "hidden");
+				rec_cstr(&r, lb->lang);
+				rec_str(&r, lab_str(&ls, lb->text), lb->textlen);
+				rec_str(&r, lab_str(&ls, lb->key), lb->keylen);
+				rec_end(&r);
+			}
+		labels_free(&ls);
+	}
+	if (rc == EXIT_OK && r.failed) {
+		fputs("titlemill labels: out of memory\n", stderr);
+		rc = EXIT_RUNTIME;
+	}
+	if (rc == EXIT_OK && cli_write_stdout("labels", &out) != 0)
+		rc = EXIT_RUNTIME;
+	buf_free(&out);
+	buf_free(&err);
+	norm_free(nm);
+	lex_free(lx);
+	return rc;
+}

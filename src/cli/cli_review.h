@@ -1,0 +1,60 @@
+/* cli_review.h - what the files of `titlemill review` share: the
+ * options, the subcommands and their output helpers.  Internal to
+ * cli_review*.c.
+ *
+ * A subcommand returns an exit status (cli.h: EXIT_OK, EXIT_RUNTIME,
+ * EXIT_USAGE) and prints its own messages; only cmd_review returns it
+ * to main. */
+#ifndef TM_CLI_REVIEW_H
+#define TM_CLI_REVIEW_H
+
+#include <stdio.h>
+
+#include "core/buf.h"
+#include "review/queue.h"
+#include "review/review.h"
+
+typedef struct review_opts {
+	const char *queue, *store, *prefix;
+	const char *reviewer, *note;
+	int overrule, json;
+	int status;              /* -1 all */
+	int kind;                /* -1 any */
+	const char *occ, *lang, *sort;
+	long limit;
+	double reopen_factor;
+	int format;              /* 0 tsv, 1 turtle, 2 ntriples */
+	const char *since, *base, *out;
+	int clean_case;          /* export the clean (lowercase) label */
+} review_opts;
+
+/* Prints the usage error "what detail" (detail may be NULL) and a
+ * pointer to --help; returns EXIT_USAGE. */
+int rv_usage_error(const char *what, const char *detail);
+/* The index of s among names[0..n), or -1. */
+int rv_pick(const char *const *names, int n, const char *s);
+/* Prints "titlemill review: m" on standard error; returns EXIT_RUNTIME. */
+int rv_fail(const char *m);
+/* Writes b to fp and empties it: TM_OK, TM_EFAIL when the write failed,
+ * TM_ENOMEM (nothing written) when an append to b failed. */
+int rv_flush(tm_buf *b, FILE *fp);
+/* Flushes b to standard output and frees it: EXIT_OK, or EXIT_RUNTIME
+ * with a message when b or the output failed. */
+int rv_finish(tm_buf *b);
+/* Flushes standard output: EXIT_OK, or EXIT_RUNTIME with a message. */
+int rv_finish_stdout(void);
+
+/* cli_review_change.c: the subcommands that change the queue. */
+int rv_add(const review_opts *o, rq_place *pl, int nfiles, char **files, const char *now);
+int rv_decide_ids(const review_opts *o, rq_place *pl, int d, int n, char **ids,
+		  const char *now);
+int rv_decide_file(const review_opts *o, rq_place *pl, const char *path, const char *now);
+int rv_repair(rq_place *pl);
+
+/* cli_review_read.c: the subcommands that read it. */
+int rv_list(const review_opts *o, const rq_queue *q);
+int rv_show(const review_opts *o, const rq_queue *q, int n, char **ids);
+int rv_stats(const rq_queue *q, const char *now);
+int rv_export(const review_opts *o, const rq_queue *q);
+
+#endif

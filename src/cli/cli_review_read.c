@@ -1,0 +1,429 @@
+/* cli_review_read.c - the subcommands of `titlemill review` that read
+ * the queue: list, show, stats, export. */
+#include <errno.h>
+#include <math.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+#include "cli/cli.h"
+#include "cli/cli_review.h"
+#include "review/delta.h"
+#include "io/jsonr.h"
+#include "io/outfile.h"
+#include "review/review_json.h"
+#include "review/review_time.h"
+#include "io/tsv.h"
+
+/* ---- reading: list, show, stats, export ---- */
+
+/* The evidence fields list and show print. */
+typedef struct evid {
+	jr_doc *d;
+	uint64_t n, kt;
+	double precision, share, lo, hi, g2;
+	const char *rival, *variant_of, *label_kind, *as_written;
+	const jr_val *v;         /* the evidence object */
+	uint64_t rival_postings;
+	double rival_share;
+} evid;
+
+static void evid_fill(evid *e, const jr_val *v)
+{
+	size_t l;
+	e->n = (uint64_t)jr_vint(jr_get(v, "occupation_postings"));
+	e->kt = (uint64_t)jr_vint(jr_get(v, "key_postings"));
+	e->precision = jr_vnum(jr_get(v, "precision"));
+	e->share = jr_vnum(jr_get(v, "share"));
+	e->lo = jr_vnum(jr_get(v, "share_low"));
+	e->hi = jr_vnum(jr_get(v, "share_high"));
+	e->g2 = jr_vnum(jr_get(v, "g2"));
+	e->variant_of = jr_vstr(jr_get(v, "variant_of"), &l);
+	e->label_kind = jr_vstr(jr_get(v, "label_kind"), &l);
+	e->as_written = jr_vstr(jr_get(v, "label_as_written"), &l);
+	const jr_val *c = jr_get(v, "competitor");
+	e->rival = jr_vstr(jr_get(c, "occupation"), &l);
+	e->rival_postings = (uint64_t)jr_vint(jr_get(c, "postings"));
+	e->rival_share = jr_vnum(jr_get(c, "share"));
+	e->v = v;
+}
+
+/* The evidence of an evidence object's text (NULL: no figures). */
+static void evid_read(const char *json, evid *e)
+{
+	char jerr[64];
+	memset(e, 0, sizeof *e);
+	if (!json)
+		return;
+	e->d = jr_parse(json, strlen(json), jerr, sizeof jerr);
+	evid_fill(e, jr_root(e->d));
+}
+
+/* The latest evidence of an item, read straight from its queue line when
+ * it has one (one parse instead of two). */
+static void evid_item(const rq_item *it, evid *e)
+{
+	char jerr[64];
+	if (it->evidence || !it->raw) {
+		evid_read(rq_item_evidence(it), e);
+		return;
+	}
+	memset(e, 0, sizeof *e);
+	e->d = jr_parse(it->raw, it->rawlen, jerr, sizeof jerr);
+	evid_fill(e, jr_get(jr_root(e->d), "evidence"));
+}
+
+static const rq_item **selected(const rq_queue *q, const review_opts *o, size_t *n)
+{
+	const rq_item **v = malloc((q->n + 1) * sizeof *v);
+	*n = 0;
+	if (!v)
+		return NULL;
+	for (size_t i = 0; i < q->n; i++) {
+		const rq_item *it = &q->it[i];
+		if ((o->status >= 0 && it->status != o->status) || (o->kind >= 0 && it->kind != o->kind) ||
+		    (o->occ && strcmp(o->occ, it->occ)) || (o->lang && strcmp(o->lang, it->lang)))
+			continue;
+		v[(*n)++] = it;
+	}
+	return v;
+}
+
+static int by_score(const void *a, const void *b)
+{
+	const rq_item *x = *(const rq_item *const *)a, *y = *(const rq_item *const *)b;
+	if (x->score != y->score)
+		return x->score > y->score ? -1 : 1;
+	return strcmp(x->id, y->id);
+}
+
+static int by_postings(const void *a, const void *b)
+{
+	const rq_item *x = *(const rq_item *const *)a, *y = *(const rq_item *const *)b;
+	if (x->postings != y->postings)
+		return x->postings > y->postings ? -1 : 1;
+	return by_score(a, b);
+}
+
+static int by_seq(const void *a, const void *b)
+{
+	const rq_item *x = *(const rq_item *const *)a, *y = *(const rq_item *const *)b;
+	return x->seq < y->seq ? -1 : x->seq > y->seq;
+}
+
+
+int rv_list(const review_opts *o, const rq_queue *q)
+{
+	size_t n;
+	const rq_item **v = selected(q, o, &n);
+	tm_buf b = {0};
+	char num[64];
+
+	if (!v)
+		return rv_fail("out of memory");
+	qsort(v, n, sizeof *v, !strcmp(o->sort, "added") ? by_seq
+			       : !strcmp(o->sort, "postings") ? by_postings : by_score);
+	if (o->limit >= 0 && (size_t)o->limit < n)
+		n = (size_t)o->limit;
+	if (!o->json)
+		buf_puts(&b, "id\tstatus\tkind\toccupation\tlang\tlabel\tscore\tpostings\toccupation_postings"
+			     "\tprecision\tcompetitor\tvariant_of\tadded\tproposed\tdecided_by\tdecided_at\tnote\n");
+	for (size_t i = 0; i < n; i++) {
+		const rq_item *it = v[i];
+		if (o->json) {
+			rq_item_json(it, &b);
+		} else {
+			const rq_event *dec = rq_last_decision(it);
+			const rq_brief *e = &it->brief;
+			const char *head[] = {it->id,  rq_status_name(it), rq_kind_names[it->kind],
+					      it->occ, it->lang,           it->label};
+			tsv_put_fields(&b, head, sizeof head / sizeof *head);
+			snprintf(num, sizeof num, "\t%.4f\t%llu\t%llu\t%.4f\t", it->score,
+				 (unsigned long long)it->postings, (unsigned long long)e->occ_postings,
+				 e->precision);
+			buf_puts(&b, num);
+			if (e->rival) {
+				snprintf(num, sizeof num, " (%llu)", (unsigned long long)e->rival_postings);
+				buf_puts(&b, e->rival);
+				buf_puts(&b, num);
+			}
+			const char *tail[] = {e->variant_of ? e->variant_of : "",
+					      it->added,
+					      it->proposed,
+					      dec ? dec->reviewer : "",
+					      dec ? dec->at : "",
+					      dec && dec->note ? dec->note : ""};
+			buf_putc(&b, '\t');
+			tsv_put_fields(&b, tail, sizeof tail / sizeof *tail);
+			buf_putc(&b, '\n');
+		}
+		if (b.len > 65536 && rv_flush(&b, stdout))
+			break;
+	}
+	free(v);
+	return rv_finish(&b);
+}
+
+static void show_event(tm_buf *b, const rq_event *e, const rq_item *it, const rq_event *prev_dec)
+{
+	char line[160];
+	snprintf(line, sizeof line, "  %s  %-9s ", e->at, rq_what_names[e->what]);
+	buf_puts(b, line);
+	if (e->reviewer) {
+		buf_puts(b, "by ");
+		buf_puts(b, e->reviewer);
+		buf_puts(b, ", ");
+	}
+	snprintf(line, sizeof line, "on %llu postings, score %.4f", (unsigned long long)e->postings,
+		 e->score);
+	buf_puts(b, line);
+	if (e->what == RE_REOPENED && prev_dec && prev_dec->postings) {
+		snprintf(line, sizeof line, " (%.1f times the %llu postings at the rejection)",
+			 (double)e->postings / (double)prev_dec->postings,
+			 (unsigned long long)prev_dec->postings);
+		buf_puts(b, line);
+	}
+	if (e->note) {
+		buf_puts(b, ": \"");
+		buf_puts(b, e->note);
+		buf_putc(b, '"');
+	}
+	buf_putc(b, '\n');
+	(void)it;
+}
+
+static void show_evidence(tm_buf *b, const char *title, const char *json)
+{
+	evid e;
+	char line[400];
+	evid_read(json, &e);
+	const jr_val *v = e.v;
+	snprintf(line, sizeof line,
+		 "%s%llu postings of %llu (share %.4f, 95 %% interval %.4f-%.4f), "
+		 "key postings %llu, precision %.4f, G2 %.4f\n",
+		 title, (unsigned long long)jr_vint(jr_get(v, "postings")), (unsigned long long)e.n,
+		 e.share, e.lo, e.hi, (unsigned long long)e.kt, e.precision, e.g2);
+	buf_puts(b, line);
+	if (e.rival) {
+		snprintf(line, sizeof line, "              competitor %s: %llu postings (%.4f of the key's)\n",
+			 e.rival, (unsigned long long)e.rival_postings, e.rival_share);
+		buf_puts(b, line);
+	}
+	const jr_val *x = jr_get(v, "examples");
+	for (size_t i = 0; i < jr_vlen(x); i++) {
+		size_t l;
+		const char *s = jr_vstr(jr_at(x, i), &l);
+		if (!s)
+			continue;
+		buf_puts(b, "              example: ");
+		buf_append(b, s, l);
+		buf_putc(b, '\n');
+	}
+	jr_free(e.d);
+}
+
+int rv_show(const review_opts *o, const rq_queue *q, int n, char **ids)
+{
+	tm_buf b = {0};
+	int rc = EXIT_OK;
+	if (!n)
+		return rv_usage_error("show wants the id of a suggestion", NULL);
+	for (int k = 0; k < n; k++) {
+		int many;
+		const rq_item *it = rq_find(q, ids[k], strlen(ids[k]), &many);
+		if (!it) {
+			fprintf(stderr, "titlemill review: %s %s\n",
+				many ? "more than one suggestion starts with" : "no suggestion in the queue is",
+				ids[k]);
+			rc = EXIT_RUNTIME;
+			continue;
+		}
+		if (o->json) {
+			rq_item_json(it, &b);
+			continue;
+		}
+		evid e;
+		evid_item(it, &e);
+		if (k)
+			buf_putc(&b, '\n');
+		const char *head[][2] = {{"id", it->id},          {"status", rq_status_name(it)},
+					 {"kind", rq_kind_names[it->kind]}, {"occupation", it->occ},
+					 {"lang", it->lang},      {"label", it->label}};
+		for (size_t j = 0; j < sizeof head / sizeof *head; j++)
+			buf_printf(&b, "%s%-14s%s", j ? "\n" : "", head[j][0], head[j][1]);
+		size_t wl;
+		const char *wr = jr_vstr(jr_get(e.v, "label_as_written"), &wl);
+		if (wr) {
+			buf_puts(&b, "\nas written    ");
+			buf_append(&b, wr, wl);
+		}
+		if (e.variant_of) {
+			buf_puts(&b, "\nvariant of    ");
+			buf_puts(&b, e.variant_of);
+		}
+		if (e.label_kind) {
+			buf_puts(&b, "\nlabel kind    ");
+			buf_puts(&b, e.label_kind);
+		}
+		char line[64];
+		snprintf(line, sizeof line, "\nscore         %.4f\n", it->score);
+		buf_puts(&b, line);
+		jr_free(e.d);
+		show_evidence(&b, "evidence      ", rq_item_evidence(it));
+		buf_puts(&b, "history\n");
+		const rq_event *last_dec = NULL;
+		for (size_t i = 0; i < it->nev; i++) {
+			show_event(&b, &it->ev[i], it, last_dec);
+			if (it->ev[i].what == RE_REOPENED && it->ev[i].evidence && last_dec &&
+			    last_dec->evidence) {
+				show_evidence(&b, "    before:   ", last_dec->evidence);
+				show_evidence(&b, "    now:      ", it->ev[i].evidence);
+			}
+			if (it->ev[i].what >= RE_ACCEPTED)
+				last_dec = &it->ev[i];
+		}
+	}
+	int w = rv_finish(&b);
+	return rc ? rc : w;
+}
+
+/* stats: one row per group */
+typedef struct srow {
+	char by[12], value[80];
+	uint64_t items, st[RQ_NSTATUS + 1]; /* the last: statuses unknown here */
+	long long oldest; /* added time of the oldest open item, or -1 */
+} srow;
+
+/* The index of the row (by, value), added when new; -1 when out of memory. */
+static long row_for(srow **v, size_t *n, size_t *cap, const char *by, const char *value)
+{
+	for (size_t i = 0; i < *n; i++)
+		if (!strcmp((*v)[i].by, by) && !strcmp((*v)[i].value, value))
+			return (long)i;
+	srow *p = tm_grow(*v, cap, *n + 1, sizeof *p, 16);
+	if (!p)
+		return -1;
+	*v = p;
+	srow *r = &p[*n];
+	memset(r, 0, sizeof *r);
+	snprintf(r->by, sizeof r->by, "%s", by);
+	snprintf(r->value, sizeof r->value, "%s", value);
+	r->oldest = -1;
+	return (long)(*n)++;
+}
+
+static int cmp_row(const void *a, const void *b)
+{
+	const srow *x = a, *y = b;
+	static const char *const order[] = {"all", "kind", "lang", "reviewer"};
+	int ox = 0, oy = 0;
+	for (int i = 0; i < 4; i++) {
+		if (!strcmp(x->by, order[i]))
+			ox = i;
+		if (!strcmp(y->by, order[i]))
+			oy = i;
+	}
+	if (ox != oy)
+		return ox - oy;
+	if (ox == 1)
+		return rv_pick(rq_kind_names, RK_N, x->value) - rv_pick(rq_kind_names, RK_N, y->value);
+	return strcmp(x->value, y->value);
+}
+
+int rv_stats(const rq_queue *q, const char *now)
+{
+	srow *v = NULL;
+	size_t n = 0, cap = 0;
+	long long t_now = rq_time(now);
+	tm_buf b = {0};
+
+	if (row_for(&v, &n, &cap, "all", "*") < 0)
+		return rv_fail("out of memory");
+	for (int k = 0; k < RK_N; k++)
+		if (row_for(&v, &n, &cap, "kind", rq_kind_names[k]) < 0)
+			return rv_fail("out of memory");
+	for (size_t i = 0; i < q->n; i++) {
+		const rq_item *it = &q->it[i];
+		const rq_event *dec = rq_last_decision(it);
+		/* indices, not pointers: a new row moves the array */
+		long rs[4] = {row_for(&v, &n, &cap, "all", "*"),
+			      row_for(&v, &n, &cap, "kind", rq_kind_names[it->kind]),
+			      row_for(&v, &n, &cap, "lang", it->lang),
+			      dec ? row_for(&v, &n, &cap, "reviewer", dec->reviewer) : -2};
+		for (int k = 0; k < 4; k++) {
+			if (rs[k] == -1) {
+				free(v);
+				return rv_fail("out of memory");
+			}
+			if (rs[k] < 0)
+				continue;
+			srow *r = &v[rs[k]];
+			r->items++;
+			r->st[it->status]++;
+			long long t = rq_time(it->added);
+			if (it->status == RQ_OPEN && (r->oldest < 0 || t < r->oldest))
+				r->oldest = t;
+		}
+	}
+	qsort(v, n, sizeof *v, cmp_row);
+	buf_puts(&b, "by\tvalue\titems\topen\taccepted\trejected\tdeferred\tacceptance_rate\toldest_open_days\n");
+	for (size_t i = 0; i < n; i++) {
+		const srow *r = &v[i];
+		char line[400], rate[32] = "", age[32] = "";
+		uint64_t decided = r->st[RQ_ACCEPTED] + r->st[RQ_REJECTED];
+		if (decided)
+			snprintf(rate, sizeof rate, "%.4f", (double)r->st[RQ_ACCEPTED] / (double)decided);
+		if (r->oldest >= 0)
+			snprintf(age, sizeof age, "%.1f", (double)(t_now - r->oldest) / 86400.0);
+		snprintf(line, sizeof line, "%s\t%s\t%llu\t%llu\t%llu\t%llu\t%llu\t%s\t%s\n", r->by,
+			 r->value, (unsigned long long)r->items, (unsigned long long)r->st[0],
+			 (unsigned long long)r->st[1], (unsigned long long)r->st[2],
+			 (unsigned long long)r->st[3], rate, age);
+		buf_puts(&b, line);
+	}
+	free(v);
+	return rv_finish(&b);
+}
+
+/* export */
+
+static int write_out(const char *path, const tm_buf *b)
+{
+	if (!path) {
+		if (b->len && fwrite(b->data, 1, b->len, stdout) != b->len)
+			return rv_fail("cannot write the output");
+		return rv_finish_stdout();
+	}
+	of_file f;
+	tm_buf err = {0};
+	int ok = !of_open(&f, path, OF_DASH, &err) && !of_write(&f, b->data, b->len, &err);
+	if (ok && f.warn.len)
+		fprintf(stderr, "titlemill review: note: %s", f.warn.data);
+	ok = ok && !of_commit(&f, &err);
+	if (!ok)
+		fprintf(stderr, "titlemill review: %s\n", err.data ? err.data : "cannot write");
+	of_abort(&f);
+	buf_free(&err);
+	return ok ? EXIT_OK : EXIT_RUNTIME;
+}
+
+int rv_export(const review_opts *o, const rq_queue *q)
+{
+	dl_opts d = {o->format, o->since ? rq_time(o->since) : -1, o->base, o->clean_case};
+	tm_buf b = {0}, err = {0};
+	int rc = EXIT_OK;
+
+	if (dl_export(q, &d, &b, &err)) {
+		/* one message a line */
+		for (char *p = err.data, *nl; p; p = nl ? nl + 1 : NULL) {
+			nl = strchr(p, '\n');
+			fprintf(stderr, "titlemill review: %.*s\n", (int)(nl ? nl - p : (long)strlen(p)), p);
+		}
+		rc = EXIT_RUNTIME;
+	} else
+		rc = write_out(o->out, &b);
+	buf_free(&b);
+	buf_free(&err);
+	return rc;
+}

@@ -1,0 +1,469 @@
+/* cli_tally.c - titlemill tally (count title variants) and titlemill
+ * counts (print counts tables summed). */
+#include <errno.h>
+#include <getopt.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <time.h>
+#include <unistd.h>
+
+#include "cli/cli.h"
+#include "norm/norm.h"
+#include "io/outfile.h"
+#include "io/postings.h"
+#include "norm/setup.h"
+#include "count/store.h"
+#include "count/tally.h"
+
+typedef struct tally_opts {
+	enum pr_format format;
+	int strict, stats;
+	long memo_mib, chunk;
+	const char *out, *store;
+	store_conf sconf;
+	setup_opts setup;
+} tally_opts;
+
+/* Strict whole numbers for options. */
+static int num_opt(const char *arg, long lo, long hi, long *v)
+{
+	char *end;
+	errno = 0;
+	*v = strtol(arg, &end, 10);
+	return errno || end == arg || *end || *v < lo || *v > hi ? -1 : 0;
+}
+
+static const char tally_usage[] =
+	"usage: titlemill tally [--store URL [--prefix P] [--chunk N] [--retries N] [--ttl DAYS]]\n"
+	"                       [--format auto|tsv|jsonl] [--labels FILE] [--lexicons DIR]\n"
+	"                       [--strict] [-o FILE] POSTINGS...\n"
+	"\n"
+	"Counts, per occupation, language and match key, how often each cleaned\n"
+	"title is used, and writes a counts table (TSV) to standard output or FILE.\n"
+	"POSTINGS are TSV files with a header (title and occupations required; id,\n"
+	"date, lang optional) or JSON Lines with the same fields; '-' reads standard\n"
+	"input.  A posting id counted once is not counted again.\n"
+	"\n"
+	"  --store URL      add the counts to a Redis server or a Redis Cluster:\n"
+	"                   redis://[user@]host:port[,host:port...][/db], [::1]:port for\n"
+	"                   IPv6, or unix:/path (no rediss://: this build has no TLS);\n"
+	"                   give the password in TITLEMILL_REDIS_PASSWORD, not in the\n"
+	"                   URL (ps shows it as *, but a shell's history keeps it);\n"
+	"                   a file loaded again, or a load killed and run again, counts\n"
+	"                   once (within one run every input counts, as in memory)\n"
+	"  --ttl DAYS       the store's counting keys expire DAYS days after the last\n"
+	"                   load that touched them (default: they stay)\n"
+	"  --prefix P       the store's key prefix (default titlemill): 1 to 64 letters,\n"
+	"                   digits and . _ : -\n"
+	"  --chunk N        postings per atomic chunk (default 10000)\n"
+	"  --retries N      reconnect attempts after a lost connection (default 5)\n"
+	"  --format F       auto (default: '{' first means JSON Lines), tsv or jsonl\n"
+	"  --labels FILE    a labels TSV: labels are never cut down when cleaning\n"
+	"  --lexicons DIR   read the lexicons in DIR too (repeatable)\n"
+	"  --strict         a malformed row is an error (status 1, nothing written)\n"
+	"  --memo MIB       memory of recent titles for the normaliser (default "
+	OPT_XSTR(OPT_MEMO_MIB) ")\n"
+	"  -o FILE          write the table to FILE (a file is replaced only when complete;\n"
+	"                   a device or FIFO is written into)\n"
+	"  --stats          say on standard error how much memory the counts took\n"
+	"  -h, --help       show this help\n";
+
+static const char counts_usage[] =
+	"usage: titlemill counts [--store URL [--prefix P]] [-o FILE] [COUNTS...]\n"
+	"\n"
+	"Reads counts tables (from tally or counts; '-', or none without --store:\n"
+	"standard input) and what a store holds, sums them and prints one counts table.\n"
+	"\n"
+	"  --store URL      read the counts a Redis server holds (see tally)\n"
+	"  --prefix P       the store's key prefix (default titlemill)\n"
+	"  -o FILE          write the table to FILE (a file is replaced only when complete;\n"
+	"                   a device or FIFO is written into)\n"
+	"  -h, --help       show this help\n";
+
+/* Writes m to standard output (path NULL) or to path by the rules of
+ * outfile.h: a regular file replaced atomically, a device or FIFO
+ * written into, "-" standard output. */
+static int write_table(tally_mem *m, const char *path, const char *cmd)
+{
+	of_file f;
+	tm_buf err = {0};
+	FILE *fp;
+	int rc = EXIT_RUNTIME;
+
+	if (of_open(&f, path ? path : "-", OF_DASH, &err) || !(fp = of_stream(&f, &err)))
+		goto done;
+	if (tm_write(m, fp) != 0) {
+		buf_reset(&err);
+		buf_puts(&err, f.target ? f.target : "standard output");
+		buf_puts(&err, ": write error: ");
+		buf_puts(&err, strerror(errno));
+		of_abort(&f);
+		goto done;
+	}
+	if (f.warn.len)
+		fprintf(stderr, "titlemill %s: note: %s", cmd, f.warn.data);
+	if (of_commit(&f, &err) == 0)
+		rc = EXIT_OK;
+done:
+	if (rc != EXIT_OK)
+		fprintf(stderr, "titlemill %s: %s\n", cmd, err.data ? err.data : "cannot write");
+	of_abort(&f);
+	buf_free(&err);
+	return rc;
+}
+
+int cli_check_prefix(const char *cmd, const char *prefix)
+{
+	tm_buf err = {0};
+	if (store_prefix_check(prefix, &err) == 0)
+		return 0;
+	fprintf(stderr, "titlemill %s: --prefix: %.*s\n", cmd, (int)err.len, err.data ? err.data : "");
+	buf_free(&err);
+	return EXIT_USAGE;
+}
+
+static int parse_memo(const char *arg, long *v)
+{
+	char *end;
+	errno = 0;
+	*v = strtol(arg, &end, 10);
+	return errno || end == arg || *end || *v < 0 || *v > OPT_MEMO_MAX_MIB ? -1 : 0;
+}
+
+/* Reports of malformed rows: the first few in full, then a count. */
+typedef struct badlog {
+	long n;
+	char first[5][300];
+} badlog;
+
+static double now(void)
+{
+	struct timespec ts;
+	clock_gettime(CLOCK_MONOTONIC, &ts);
+	return (double)ts.tv_sec + (double)ts.tv_nsec / 1e9;
+}
+
+int cmd_tally(int argc, char **argv)
+{
+	static const struct option longopts[] = {
+		{"format", required_argument, NULL, 'F'},
+		{"labels", required_argument, NULL, 'L'},
+		{"lexicons", required_argument, NULL, 'x'},
+		{"strict", no_argument, NULL, 's'},
+		{"memo", required_argument, NULL, 'm'},
+		{"output", required_argument, NULL, 'o'},
+		{"store", required_argument, NULL, 'S'},
+		{"prefix", required_argument, NULL, 'P'},
+		{"chunk", required_argument, NULL, 'C'},
+		{"retries", required_argument, NULL, 'R'},
+		{"ttl", required_argument, NULL, 'E'},
+		{"stats", no_argument, NULL, 'T'},
+		{"help", no_argument, NULL, 'h'},
+		{NULL, 0, NULL, 0},
+	};
+	tally_opts o;
+	store *st = NULL;
+	tm_buf err = {0};
+	tally_mem m;
+	badlog bl;
+	uint64_t nread = 0;
+	lexicon *lx;
+	normaliser *nm;
+	int c, rc = EXIT_OK, tty = isatty(2);
+	double t0 = now(), last = t0;
+
+	memset(&o, 0, sizeof o);
+	memset(&bl, 0, sizeof bl);
+	o.memo_mib = OPT_MEMO_MIB;
+	o.chunk = STORE_CHUNK_DEFAULT;
+	o.sconf.retries = 5;
+	optind = 1;
+	while ((c = getopt_long(argc, argv, "ho:", longopts, NULL)) != -1) {
+		long v;
+		switch (c) {
+		case 'S': o.store = optarg; break;
+		case 'T': o.stats = 1; break;
+		case 'P':
+			if (cli_check_prefix("tally", optarg))
+				return EXIT_USAGE;
+			o.sconf.prefix = optarg;
+			break;
+		case 'C':
+			if (num_opt(optarg, 1, 10000000, &o.chunk) != 0) {
+				fprintf(stderr, "titlemill tally: --chunk: want a number from 1 to 10000000, not '%s'\n", optarg);
+				return EXIT_USAGE;
+			}
+			break;
+		case 'E':
+			if (num_opt(optarg, 1, 36500, &v) != 0) {
+				fprintf(stderr, "titlemill tally: --ttl: want a number of days from 1 to 36500, not '%s'\n", optarg);
+				return EXIT_USAGE;
+			}
+			o.sconf.ttl_s = (long long)v * 86400;
+			break;
+		case 'R':
+			if (num_opt(optarg, 0, 1000, &v) != 0) {
+				fprintf(stderr, "titlemill tally: --retries: want a number from 0 to 1000, not '%s'\n", optarg);
+				return EXIT_USAGE;
+			}
+			o.sconf.retries = (int)v;
+			break;
+		case 'F':
+			if (!strcmp(optarg, "auto")) o.format = PR_AUTO;
+			else if (!strcmp(optarg, "tsv")) o.format = PR_TSV;
+			else if (!strcmp(optarg, "jsonl")) o.format = PR_JSONL;
+			else {
+				fprintf(stderr, "titlemill tally: --format: want auto, tsv or jsonl, not '%s'\n", optarg);
+				return EXIT_USAGE;
+			}
+			break;
+		case 'L': o.setup.labels = optarg; break;
+		case 'x':
+			if (o.setup.nextra == 16) {
+				fputs("titlemill tally: at most 16 --lexicons folders\n", stderr);
+				return EXIT_USAGE;
+			}
+			o.setup.extra[o.setup.nextra++] = optarg;
+			break;
+		case 's': o.strict = 1; break;
+		case 'm':
+			if (parse_memo(optarg, &o.memo_mib) != 0) {
+				fprintf(stderr, "titlemill tally: --memo: want a whole number of MiB from 0 to %d, not '%s'\n", OPT_MEMO_MAX_MIB, optarg);
+				return EXIT_USAGE;
+			}
+			break;
+		case 'o': o.out = optarg; break;
+		case 'h': fputs(tally_usage, stdout); return EXIT_OK;
+		default: fputs(tally_usage, stderr); return EXIT_USAGE;
+		}
+	}
+	if (optind >= argc) {
+		fputs("titlemill tally: name the postings files ('-' for standard input)\n", stderr);
+		fputs(tally_usage, stderr);
+		return EXIT_USAGE;
+	}
+	if (!(lx = setup_lexicon(&o.setup, &err))) {
+		fprintf(stderr, "titlemill tally: %.*s\n", (int)err.len, err.data ? err.data : "");
+		buf_free(&err);
+		return EXIT_RUNTIME;
+	}
+	nm = norm_new(lx);
+	if (!nm || norm_memo(nm, (size_t)o.memo_mib << 20) != 0) {
+		fputs("titlemill tally: out of memory\n", stderr);
+		norm_free(nm);
+		lex_free(lx);
+		return EXIT_RUNTIME;
+	}
+	if (o.store && o.out) {
+		fputs("titlemill tally: -o writes a counts table; with --store the counts go to the store\n", stderr);
+		norm_free(nm);
+		lex_free(lx);
+		return EXIT_USAGE;
+	}
+	if (o.store && o.strict) {
+		/* --strict with a store: every row is checked before anything
+		 * is applied */
+		for (int i = optind; i < argc && rc == EXIT_OK; i++) {
+			postings_reader pr;
+			posting p;
+			int r;
+			pr_row row;
+			if (!strcmp(argv[i], "-")) {
+				fputs("titlemill tally: --strict --store cannot read standard input twice; name the files\n", stderr);
+				rc = EXIT_USAGE;
+				break;
+			}
+			if (pr_open(&pr, argv[i], o.format) != 0) {
+				fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
+				rc = EXIT_RUNTIME;
+			}
+			while (rc == EXIT_OK && ((r = pr_next(&pr, &p, &row)) < 0 || row != PR_END))
+				if (r < 0 || row == PR_SKIP) {
+					fprintf(stderr, "titlemill tally: %.*s (--strict: nothing applied)\n",
+						(int)pr.err.len, pr.err.data);
+					rc = EXIT_RUNTIME;
+				}
+			pr_close(&pr);
+		}
+		if (rc != EXIT_OK) {
+			norm_free(nm);
+			lex_free(lx);
+			return rc;
+		}
+	}
+	/* the counts go to the store, or to memory and then the table */
+	tm_init(&m);
+	st = o.store ? store_open(o.store, &o.sconf, &err) : store_mem_open(&m, &err);
+	if (!st) {
+		fprintf(stderr, "titlemill tally: %.*s\n", (int)err.len, err.data ? err.data : "");
+		norm_free(nm);
+		lex_free(lx);
+		buf_free(&err);
+		return EXIT_RUNTIME;
+	}
+	store_set_chunk(st, o.chunk);
+	for (int i = optind; i < argc && rc == EXIT_OK; i++) {
+		postings_reader pr;
+		posting p;
+		int r;
+		pr_row row;
+
+		if (pr_open(&pr, argv[i], o.format) != 0) {
+			fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
+			pr_close(&pr);
+			rc = EXIT_RUNTIME;
+			break;
+		}
+		while ((r = pr_next(&pr, &p, &row)) < 0 || row != PR_END) {
+			norm_result res;
+			tally_posting tp;
+			if (r < 0) {
+				fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
+				rc = EXIT_RUNTIME;
+				break;
+			}
+			if (row == PR_SKIP) {
+				if (o.strict) {
+					fprintf(stderr, "titlemill tally: %.*s (--strict: nothing written)\n",
+						(int)pr.err.len, pr.err.data);
+					rc = EXIT_RUNTIME;
+					break;
+				}
+				if (bl.n < 5)
+					snprintf(bl.first[bl.n], sizeof bl.first[0], "%.*s",
+						 (int)pr.err.len, pr.err.data);
+				bl.n++;
+				continue;
+			}
+			if (pr.lr.noeol)
+				fprintf(stderr, "titlemill tally: %s:%ld: the last row has no line end: "
+					"was the file cut short? (counted as it is)\n", pr.lr.name, p.line);
+			if (norm_title(nm, p.title, p.titlelen,
+				       strcmp(p.lang, "und") ? p.lang : NULL, &res) != 0) {
+				fputs("titlemill tally: out of memory\n", stderr);
+				rc = EXIT_RUNTIME;
+				break;
+			}
+			tally_posting_of(&tp, &p, &res);
+			if (store_feed(st, &p, &tp, pr.lr.name, p.line) != 0) {
+				fprintf(stderr, "titlemill tally: %.*s\n", (int)st->err.len, st->err.data);
+				rc = EXIT_RUNTIME;
+				break;
+			}
+			if (tty && (++nread & 0x3FFF) == 0) {
+				double t = now();
+				if (t - last > 0.5) {
+					fprintf(stderr, "\rtitlemill tally: %llu postings, %.0f/s ",
+						(unsigned long long)nread, (double)nread / (t - t0));
+					last = t;
+				}
+			}
+		}
+		if (rc == EXIT_OK && store_input_end(st, pr.lr.name) != 0) {
+			fprintf(stderr, "titlemill tally: %.*s\n", (int)st->err.len, st->err.data);
+			rc = EXIT_RUNTIME;
+		}
+		pr_close(&pr);
+	}
+	if (tty && last != t0)
+		fputc('\n', stderr);
+	if (rc == EXIT_OK && st->ops->finish(st) != 0) {
+		/* chunks other loads left unfinished (killed, or still at work) */
+		fprintf(stderr, "titlemill tally: %.*s; every input is counted, but chunks that "
+			"earlier loads left unfinished are not: run the load again\n",
+			(int)st->err.len, st->err.data);
+		rc = EXIT_RUNTIME;
+	}
+	if (st->settled)
+		fprintf(stderr, "titlemill tally: warning: the store held %llu chunks that a load "
+			"had begun and not finished (it was killed, or is still running); "
+			"they are finished now as they were read then, %llu postings more counted: "
+			"if their input changed since, its changed postings are counted as they were "
+			"(compare the load's files; see README, Long runs)\n",
+			(unsigned long long)st->settled, (unsigned long long)st->settled_postings);
+	if (o.store)
+		fprintf(stderr, "titlemill tally: %llu chunks applied, %llu already in the store; ",
+			(unsigned long long)st->applied, (unsigned long long)st->skipped);
+	else if (rc == EXIT_OK) {
+		if (o.stats)
+			fprintf(stderr, "titlemill tally: %zu distinct (occupation, language, key), %zu forms, "
+				"%zu (language, key), %zu ids; engine %zu bytes, %.1f bytes per form beyond "
+				"its string bytes\n",
+				m.exkeys.n, m.forms.n, m.keys.n, m.ids.n, tm_bytes(&m),
+				m.forms.n ? (double)(tm_bytes(&m) - m.forms.arena.len - m.keys.arena.len -
+						     m.occs.arena.len - m.ids.arena.len - m.exkeys.arena.len -
+						     m.exarena.len) / (double)m.forms.n : 0.0);
+		rc = write_table(&m, o.out, "tally");
+	}
+	fprintf(stderr, "%s%llu postings counted, %llu republished ids skipped, %ld malformed rows skipped",
+		o.store ? "" : "titlemill tally: ",
+		(unsigned long long)st->counted, (unsigned long long)st->republished, bl.n);
+	for (long k = 0; k < bl.n && k < 5; k++)
+		fprintf(stderr, "%s %s", k ? ";" : ":", bl.first[k]);
+	fprintf(stderr, "%s\n", bl.n > 5 ? "; ..." : "");
+	store_close(st);
+	tm_free(&m);
+	norm_free(nm);
+	lex_free(lx);
+	buf_free(&err);
+	return rc;
+}
+
+int cmd_counts(int argc, char **argv)
+{
+	static const struct option longopts[] = {
+		{"output", required_argument, NULL, 'o'},
+		{"store", required_argument, NULL, 'S'},
+		{"prefix", required_argument, NULL, 'P'},
+		{"help", no_argument, NULL, 'h'},
+		{NULL, 0, NULL, 0},
+	};
+	const char *out = NULL, *surl = NULL;
+	store_conf sc = {NULL, 5, 5000, 0};
+	tm_buf err = {0};
+	tally_mem m;
+	int c, rc = EXIT_OK;
+
+	optind = 1;
+	while ((c = getopt_long(argc, argv, "ho:", longopts, NULL)) != -1) {
+		switch (c) {
+		case 'o': out = optarg; break;
+		case 'S': surl = optarg; break;
+		case 'P':
+			if (cli_check_prefix("counts", optarg))
+				return EXIT_USAGE;
+			sc.prefix = optarg;
+			break;
+		case 'h': fputs(counts_usage, stdout); return EXIT_OK;
+		default: fputs(counts_usage, stderr); return EXIT_USAGE;
+		}
+	}
+	tm_init(&m);
+	if (surl) {
+		store *st = store_open(surl, &sc, &err);
+		if (!st || st->ops->dump(st, &m) != 0) {
+			if (st) {
+				buf_reset(&err);
+				buf_append(&err, st->err.data, st->err.len);
+			}
+			rc = EXIT_RUNTIME;
+		} else if (st->unfinished)
+			fprintf(stderr, "titlemill counts: warning: %llu chunks of a load are not finished "
+				"(killed, or still running), so the counts are not all in: the next tally "
+				"with this store and prefix finishes them\n",
+				(unsigned long long)st->unfinished);
+		store_close(st);
+	} else if (optind >= argc && tm_read(&m, "-", &err) != 0)
+		rc = EXIT_RUNTIME;
+	for (int i = optind; i < argc && rc == EXIT_OK; i++)
+		if (tm_read(&m, argv[i], &err) != 0)
+			rc = EXIT_RUNTIME;
+	if (rc != EXIT_OK)
+		fprintf(stderr, "titlemill counts: %.*s\n", (int)err.len, err.data ? err.data : "");
+	else
+		rc = write_table(&m, out, "counts");
+	tm_free(&m);
+	buf_free(&err);
+	return rc;
+}

@@ -1,0 +1,176 @@
+/* options.c - parsing a command line by a table of options. */
+#include <errno.h>
+#include <getopt.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "core/buf.h"
+#include "core/lang.h"
+#include "cli/options.h"
+#include "norm/setup.h"
+#include "count/store.h"
+
+enum { MAX_SPECS = 48 };
+
+enum { HELP_COL = 24, HELP_WIDTH = 79 };
+
+/* One option's line: its name and argument, then its meaning wrapped
+ * at HELP_WIDTH columns under HELP_COL. */
+static void help_line(FILE *fp, const char *head, const char *text, const char *def)
+{
+	char buf[512];
+	int col;
+	snprintf(buf, sizeof buf, "%s%s%s%s", text, def ? " (default " : "", def ? def : "",
+		 def ? ")" : "");
+	col = fprintf(fp, "  %-*s", HELP_COL - 3, head);
+	if (col > HELP_COL - 1) {
+		fprintf(fp, "\n%*s", HELP_COL - 1, "");
+		col = HELP_COL - 1;
+	}
+	for (const char *w = buf; *w;) {
+		size_t n = strcspn(w, " ");
+		if (col + 1 + (int)n > HELP_WIDTH && col > HELP_COL - 1) {
+			fprintf(fp, "\n%*s", HELP_COL - 1, "");
+			col = HELP_COL - 1;
+		}
+		col += fprintf(fp, " %.*s", (int)n, w);
+		w += n;
+		w += strspn(w, " ");
+	}
+	fputc('\n', fp);
+}
+
+void opt_help(const opt_cmd *cmd, FILE *fp)
+{
+	fputs(cmd->synopsis, fp);
+	for (const opt_spec *s = cmd->specs; s->name; s++) {
+		char head[64];
+		snprintf(head, sizeof head, "--%s%s%s", s->name, s->arg ? " " : "",
+			 s->arg ? s->arg : "");
+		help_line(fp, head, s->help, s->def);
+	}
+	help_line(fp, "-h, --help", "show this help", NULL);
+}
+
+static int whole(const char *a, double lo, double hi, uint64_t *v)
+{
+	char *e;
+	errno = 0;
+	unsigned long long x = strtoull(a, &e, 10);
+	if (errno || e == a || *e || a[0] < '0' || a[0] > '9' || (double)x < lo || (double)x > hi)
+		return -1;
+	*v = x;
+	return 0;
+}
+
+static int real(const char *a, double lo, double hi, double *v)
+{
+	char *e;
+	errno = 0;
+	double x = strtod(a, &e);
+	if (errno || e == a || *e || !(x >= lo && x <= hi))
+		return -1;
+	*v = x;
+	return 0;
+}
+
+/* Stores arg as the value of s in o: 0, or -1 after saying why not. */
+static int take(const opt_cmd *cmd, const opt_spec *s, void *o, const char *arg)
+{
+	char *at = (char *)o + s->off;
+	switch (s->kind) {
+	case OPT_FLAG:
+		*(int *)at += 1;
+		return 0;
+	case OPT_STR:
+		*(const char **)at = arg;
+		return 0;
+	case OPT_U64:
+		if (whole(arg, s->lo, s->hi, (uint64_t *)at) == 0)
+			return 0;
+		fprintf(stderr, "titlemill %s: --%s: want a whole number from %.0f to %.0f, not '%s'\n",
+			cmd->name, s->name, s->lo, s->hi, arg);
+		return -1;
+	case OPT_REAL:
+		if (real(arg, s->lo, s->hi, (double *)at) == 0)
+			return 0;
+		fprintf(stderr, "titlemill %s: --%s: want a number from %g to %g, not '%s'\n",
+			cmd->name, s->name, s->lo, s->hi, arg);
+		return -1;
+	case OPT_LANG:
+		if (lang_tag(arg, at) == 0)
+			return 0;
+		fprintf(stderr, "titlemill %s: --%s: '%s' is not a BCP 47 language tag\n",
+			cmd->name, s->name, arg);
+		return -1;
+	case OPT_CHOICE:
+		for (int k = 0; s->choices[k]; k++)
+			if (!strcmp(arg, s->choices[k])) {
+				*(int *)at = k + 1;
+				return 0;
+			}
+		fprintf(stderr, "titlemill %s: --%s: want one of", cmd->name, s->name);
+		for (int k = 0; s->choices[k]; k++)
+			fprintf(stderr, "%s %s", k ? "," : "", s->choices[k]);
+		fprintf(stderr, ", not '%s'\n", arg);
+		return -1;
+	case OPT_LEXDIR: {
+		setup_opts *so = (setup_opts *)at;
+		if (so->nextra == (int)(sizeof so->extra / sizeof so->extra[0])) {
+			fprintf(stderr, "titlemill %s: at most %zu --%s folders\n", cmd->name,
+				sizeof so->extra / sizeof so->extra[0], s->name);
+			return -1;
+		}
+		so->extra[so->nextra++] = arg;
+		return 0;
+	}
+	case OPT_PREFIX: {
+		tm_buf err = {0};
+		if (store_prefix_check(arg, &err) == 0) {
+			*(const char **)at = arg;
+			return 0;
+		}
+		fprintf(stderr, "titlemill %s: --%s: %.*s\n", cmd->name, s->name, (int)err.len,
+			err.data ? err.data : "");
+		buf_free(&err);
+		return -1;
+	}
+	}
+	return -1;
+}
+
+int opt_parse(const opt_cmd *cmd, void *o, int argc, char **argv, int *first)
+{
+	struct option lo[MAX_SPECS + 2];
+	int n = 0, ch, idx = 0;
+
+	for (const opt_spec *s = cmd->specs; s->name; s++, n++) {
+		if (n == MAX_SPECS)
+			return OPT_MISUSE; /* a table larger than the parser: a build error in practice */
+		lo[n].name = s->name;
+		lo[n].has_arg = s->kind == OPT_FLAG ? no_argument : required_argument;
+		lo[n].flag = NULL;
+		lo[n].val = 0x100 + n;
+		if (s->kind == OPT_U64 && !s->def)
+			*(uint64_t *)((char *)o + s->off) = UINT64_MAX;
+		if (s->def && take(cmd, s, o, s->def) != 0)
+			return OPT_MISUSE;
+	}
+	lo[n] = (struct option){"help", no_argument, NULL, 'h'};
+	lo[n + 1] = (struct option){NULL, 0, NULL, 0};
+	optind = 1;
+	while ((ch = getopt_long(argc, argv, "h", lo, &idx)) != -1) {
+		if (ch == 'h') {
+			opt_help(cmd, stdout);
+			return OPT_HELP_SHOWN;
+		}
+		if (ch < 0x100 || ch >= 0x100 + n) {
+			opt_help(cmd, stderr);
+			return OPT_MISUSE;
+		}
+		if (take(cmd, &cmd->specs[ch - 0x100], o, optarg) != 0)
+			return OPT_MISUSE;
+	}
+	*first = optind;
+	return OPT_RUN;
+}

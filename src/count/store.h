@@ -1,0 +1,133 @@
+/* store.h - the counting backend: one interface (a struct of function
+ * pointers) that every place counts can live implements -- the memory
+ * engine (store_mem_open, tally_mem.c) and Redis, one server or a Redis
+ * Cluster (store_open, store_redis*.c).  The same suite runs against
+ * each (tests/unit/count/test_backend.c).
+ *
+ * A load hands the backend its postings with store_feed, input by input,
+ * and store_input_end after each input; store_feed cuts them into chunks
+ * (chunk.h) for a backend that commits in chunks (st->chunk > 0).  A
+ * chunking backend applies a chunk atomically and remembers its digest,
+ * so a chunk seen before (the same file loaded twice, or a load killed
+ * and run again) changes nothing.  Then finish, once; dump reads what
+ * the backend holds back into a memory engine (the common currency:
+ * counts tables are written from one).
+ *
+ * Errors: functions return 0 or -1 and leave a message in st->err; a
+ * failed backend stays usable only for close.  Ownership: the caller
+ * owns the backend and closes it with store_close; a memory backend
+ * borrows the tally_mem it counts into.
+ *
+ * What comes next fits here: a posting's period travels in its
+ * tally_posting (its digest and chunk record then carry it), and a
+ * window of periods would be an argument of dump; a chunk handed to
+ * commit is the backend's to keep until finish, so a backend may keep
+ * chunks in flight, and parallel normalisers hand postings to one
+ * backend in their input order. */
+#ifndef TM_STORE_H
+#define TM_STORE_H
+
+#include <stdint.h>
+
+#include "core/buf.h"
+#include "count/chunk.h"
+#include "io/postings.h"
+#include "count/tally.h"
+
+typedef struct store store;
+
+typedef struct store_ops {
+	/* Counts one posting, or buffers it in the current chunk (copied). */
+	int (*add)(store *st, const tally_posting *p);
+	/* Applies the buffered chunk under its digest (chunking backends
+	 * only): st->applied or st->skipped (the backend had it) goes up. */
+	int (*commit)(store *st, const uint64_t digest[2]);
+	/* Ends a load (called once, after the last input).  Redis: finishes
+	 * the chunks that loads left unfinished (cut off between claiming
+	 * their ids and applying their last share) from what the store
+	 * journalled of them: st->settled of them, st->settled_postings
+	 * postings counted now. */
+	int (*finish)(store *st);
+	/* Adds everything the backend holds to m; st->unfinished counts the
+	 * chunks left unfinished (their counts are not all in).  A memory
+	 * backend dumped into the table it counts into changes nothing. */
+	int (*dump)(store *st, tally_mem *m);
+	void (*close)(store *st);
+
+} store_ops;
+
+struct store {
+	const store_ops *ops;
+	tm_buf err;
+	uint64_t counted, republished;  /* postings: counted, their id seen before */
+	uint64_t applied, skipped;      /* chunks: applied, already in the backend */
+	uint64_t settled, settled_postings, unfinished; /* chunks, postings, chunks */
+	/* the loader's state (store_feed): postings per chunk (0: the
+	 * backend does not chunk), postings in the current chunk, its
+	 * digest so far, the digests of this run */
+	long chunk, inchunk;
+	uint64_t dg[2];
+	chunk_run run;
+};
+
+/* The longest key prefix, and its characters: letters, digits and
+ * . _ : - (no glob characters for SCAN MATCH, no braces that would change
+ * a key's Redis Cluster hash tag, nothing cut short). */
+#define STORE_PREFIX_MAX 64
+/* Postings per chunk of a chunking backend unless store_set_chunk says. */
+#define STORE_CHUNK_DEFAULT 10000
+
+/* 0 when p is a valid key prefix, else -1 with the reason in err. */
+int store_prefix_check(const char *p, tm_buf *err);
+
+typedef struct store_conf {
+	const char *prefix;  /* all keys start with it; default "titlemill";
+			      * store_open refuses one store_prefix_check
+			      * refuses */
+	int retries;         /* reconnect attempts after a failure (default 5) */
+	int timeout_ms;      /* connect and reply timeout (default 5000) */
+	long long ttl_s;     /* > 0: the counting keys a load touches expire
+			      * this many seconds after it (renewed by each
+			      * load); 0: they stay */
+} store_conf;
+
+/* Opens the store named by url: redis://[user:password@]host:port[/db] or
+ * unix:/path/to/socket (the password may also come from the environment
+ * variable TITLEMILL_REDIS_PASSWORD).  Returns the store, or NULL with a
+ * message naming the server in err. */
+store *store_open(const char *url, const store_conf *conf, tm_buf *err);
+
+/* A memory backend counting into m (initialised, borrowed: it must
+ * outlive the backend).  Does not chunk.  NULL when memory ran out. */
+store *store_mem_open(tally_mem *m, tm_buf *err);
+
+/* Postings per chunk (n >= 1) for a backend that chunks; a backend that
+ * counts postings as they come stays so. */
+void store_set_chunk(store *st, long n);
+
+/* Hands the backend one posting: raw as read (for the chunk's digest),
+ * tp normalised; commits the chunk when it is full.  name and line say
+ * where raw was read, for the message of a failed commit. */
+int store_feed(store *st, const posting *raw, const tally_posting *tp, const char *name,
+	       long line);
+/* The end of an input named name: commits what is left of its chunk,
+ * and the next input's digest starts afresh. */
+int store_input_end(store *st, const char *name);
+
+/* The Redis key layout (see store_redis_keys.c): the key of an
+ * occupation's hash ('f' forms, 'n' totals, 'x' examples), and of shard
+ * h % 64 of a spread key ('k' key totals, 'i' posting ids).  Return 0 or
+ * -1. */
+int store_key_occ(const char *prefix, const char *occ, size_t ol, char suffix, tm_buf *kb);
+int store_key_shard(const char *prefix, char kind, uint64_t h, tm_buf *kb);
+
+/* Closes st (NULL is fine). */
+void store_close(store *st);
+
+/* For backends: sets up the common part of a new backend (zeroed
+ * before); chunk 0 for a backend that does not chunk.  A backend's close
+ * frees its own state and the struct, after store_close has freed the
+ * common part. */
+void store_base_init(store *st, const store_ops *ops, long chunk);
+
+#endif

@@ -1,0 +1,200 @@
+/* store_redis.c - the Redis store, one server or a Redis Cluster: opening
+ * (the scripts loaded on every connection), closing, errors and routed
+ * commands.  The store's other parts are listed in store_redis.h; with
+ * its router (cluster.c), the only files that know hiredis. */
+#include "count/store_redis.h"
+
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <time.h>
+
+#include "count/chunk.h"
+#include "count/slot.h"
+
+void sr_err(rstore *r, const char *what, const char *detail)
+{
+	char m[800];
+	snprintf(m, sizeof m, "%s: %s%s%s", r->name, what, detail ? ": " : "",
+		 detail ? detail : "");
+	buf_reset(&r->base.err);
+	buf_puts(&r->base.err, m);
+}
+
+/* The router's message as the store's. */
+void sr_kerr_up(rstore *r)
+{
+	buf_reset(&r->base.err);
+	buf_append(&r->base.err, r->k.err.data ? r->k.err.data : "", r->k.err.len);
+	if (!r->k.cluster && !strncmp(r->base.err.data, r->name, strlen(r->name)))
+		return;
+	if (r->k.cluster) {
+		/* name the cluster too */
+		tm_buf b = {0};
+		buf_puts(&b, r->name);
+		buf_puts(&b, ": ");
+		buf_append(&b, r->base.err.data, r->base.err.len);
+		buf_free(&r->base.err);
+		r->base.err = b;
+	}
+}
+
+/* Loads the scripts on a new connection: also where a server that wants
+ * a password says so. */
+static int load_scripts(void *ctx, redisContext *c, tm_buf *err)
+{
+	rstore *r = ctx;
+	const char *src[2] = {sr_claim_script, sr_apply_script};
+	char *sha[2] = {r->sha_claim, r->sha_apply};
+	for (int i = 0; i < 2; i++) {
+		const char *av[3] = {"SCRIPT", "LOAD", src[i]};
+		size_t al[3] = {6, 4, strlen(src[i])};
+		redisReply *rep = redisCommandArgv(c, 3, av, al);
+		buf_reset(err);
+		if (!rep) {
+			buf_puts(err, "lost the connection");
+			return -1;
+		}
+		if (rep->type == REDIS_REPLY_ERROR) {
+			if (strstr(rep->str, "NOAUTH"))
+				buf_puts(err, "the server requires a password: set TITLEMILL_REDIS_PASSWORD "
+					      "or put user:password@ in the URL");
+			else {
+				buf_puts(err, "the server refused the script: ");
+				buf_puts(err, rep->str);
+			}
+			freeReplyObject(rep);
+			return -1;
+		}
+		if (rep->type != REDIS_REPLY_STRING || rep->len != 40) {
+			freeReplyObject(rep);
+			buf_puts(err, "unexpected reply to SCRIPT LOAD");
+			return -1;
+		}
+		memcpy(sha[i], rep->str, 40);
+		sha[i][40] = 0;
+		freeReplyObject(rep);
+	}
+	return 0;
+}
+
+redisReply *sr_cmd(rstore *r, int argc, const char **argv, const size_t *len)
+{
+	rc_cmd c = {argc, argv, len, argc > 1 ? slot_of(argv[1], len[1]) : 0, NULL};
+	if (rc_run(&r->k, &c, 1) != 0) {
+		sr_kerr_up(r);
+		return NULL;
+	}
+	if (c.reply->type == REDIS_REPLY_ERROR) {
+		sr_err(r, "the server answered with an error", c.reply->str);
+		freeReplyObject(c.reply);
+		return NULL;
+	}
+	return c.reply;
+}
+
+static int r_add(store *st, const tally_posting *p)
+{
+	rstore *r = (rstore *)st;
+	if (chunk_put(&r->chunk, p)) {
+		sr_err(r, "out of memory", NULL);
+		return -1;
+	}
+	r->nchunk++;
+	return 0;
+}
+
+int sr_run_batch(rstore *r, rc_cmd *cmds, size_t n, long long *ints, const char *what)
+{
+	int rc = 0;
+	if (rc_run(&r->k, cmds, n) != 0) {
+		sr_kerr_up(r);
+		return -1;
+	}
+	for (size_t i = 0; i < n; i++) {
+		redisReply *x = cmds[i].reply;
+		if (x->type == REDIS_REPLY_ERROR) {
+			if (!rc)
+				sr_err(r, what, x->str);
+			rc = -1;
+		} else if (ints)
+			ints[i] = x->type == REDIS_REPLY_INTEGER ? x->integer : -1;
+	}
+	return rc;
+}
+
+static void r_close(store *st)
+{
+	rstore *r = (rstore *)st;
+	if (!r)
+		return;
+	rc_close(&r->k);
+	free(r->k.user);
+	free(r->k.pass);
+	free(r->k.name);
+	free(r->name);
+	buf_free(&r->chunk);
+	st_free(&r->exbound);
+	buf_free(&r->pending);
+	free(r);
+}
+
+static const store_ops redis_ops = {r_add, sr_commit, sr_finish, sr_dump, r_close};
+
+store *store_open(const char *url, const store_conf *conf, tm_buf *err)
+{
+	rstore *r = calloc(1, sizeof *r);
+	const char *env = getenv("TITLEMILL_REDIS_PASSWORD");
+	sr_seeds sd = {0};
+	store *out = NULL;
+
+	if (!r) {
+		buf_puts(err, "out of memory");
+		return NULL;
+	}
+	store_base_init(&r->base, &redis_ops, STORE_CHUNK_DEFAULT);
+	r->k.retries = conf && conf->retries >= 0 ? conf->retries : 5;
+	r->k.timeout_ms = conf && conf->timeout_ms > 0 ? conf->timeout_ms : 5000;
+	r->k.on_connect = load_scripts;
+	const char *kill = getenv("TITLEMILL_TEST_KILL");
+	if (kill && (!strncmp(kill, "claim:", 6) || !strncmp(kill, "apply:", 6))) {
+		r->kill_stage = kill[0] == 'c' ? 1 : 2;
+		r->kill_at = strtol(kill + 6, NULL, 10);
+	}
+	r->k.ctx = r;
+	const char *prefix = conf && conf->prefix ? conf->prefix : "titlemill";
+	if (store_prefix_check(prefix, err) != 0) {
+		store_close(&r->base);
+		return NULL;
+	}
+	memcpy(r->prefix, prefix, strlen(prefix) + 1);
+	snprintf(r->ttl, sizeof r->ttl, "%lld", conf && conf->ttl_s > 0 ? conf->ttl_s : 0LL);
+	if (sr_parse_url(r, url, &sd, err) != 0) {
+		store_close(&r->base);
+		goto done;
+	}
+	if (!r->k.pass && env && *env)
+		r->k.pass = strdup(env);
+	r->k.name = strdup(r->name);
+	/* a short outage at the start is waited out like one later on */
+	long wait = 100;
+	for (int a = 0;; a++) {
+		if (rc_open(&r->k, sd.host, sd.port, sd.path, sd.n) == 0)
+			break;
+		if (a >= r->k.retries || strstr(r->k.err.data, "password") ||
+		    strstr(r->k.err.data, "not a Redis Cluster") || strstr(r->k.err.data, "database 0")) {
+			sr_kerr_up(r);
+			buf_append(err, r->base.err.data, r->base.err.len);
+			store_close(&r->base);
+			goto done;
+		}
+		rc_close(&r->k);
+		struct timespec ts = {wait / 1000, (wait % 1000) * 1000000L};
+		nanosleep(&ts, NULL);
+		wait = wait * 2 > 2000 ? 2000 : wait * 2;
+	}
+	out = &r->base;
+done:
+	sr_seeds_free(&sd);
+	return out;
+}

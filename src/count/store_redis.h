@@ -1,0 +1,105 @@
+/* store_redis.h - what the parts of the Redis store share (internal:
+ * only store_redis*.c include it; with cluster.c they are the only files
+ * that know hiredis).
+ *
+ * The store is in parts, one concept each:
+ *   store_redis.c        opening (the scripts loaded on each connection),
+ *                        closing, errors, one routed command
+ *   store_redis_url.c    the store's URL: seeds, user, password, db
+ *   store_redis_keys.c   the key layout (documented there) and the key
+ *                        prefix
+ *   store_redis_chunk.c  a chunk's life: its journal, commit, and the
+ *                        chunks other loads left unfinished (finish);
+ *                        why a chunk counts exactly once is told there
+ *   store_redis_apply.c  one attempt at a chunk: claim its ids, split
+ *                        what it owns into shares, apply each share
+ *   store_redis_dump.c   reading the counts back
+ *   store_redis_queue.c  the review queue's storage (queue.h)
+ *
+ * Errors: -1 or NULL with a message naming the server in r->base.err
+ * (rerr, or kerr_up for the router's). */
+#ifndef TM_STORE_REDIS_H
+#define TM_STORE_REDIS_H
+
+#include <stdint.h>
+
+#include "count/cluster.h"
+#include "count/store.h"
+#include "count/strtab.h"
+
+#define SR_SHARDS 64      /* spread keys: 'k' key totals, 'i' posting ids */
+#define SR_SEP '\x1F'     /* joins the fields of a hash field */
+
+typedef struct rstore {
+	store base;
+	rcluster k;
+	char *name;             /* for messages: the URL without password */
+	char prefix[STORE_PREFIX_MAX + 1];
+	char sha_claim[41], sha_apply[41];
+	char ttl[24];           /* seconds, as the scripts take it; "0" none */
+	/* the current chunk, in the format of chunk.h */
+	tm_buf chunk;
+	size_t nchunk;
+	strtab exbound;         /* per title: 1 + the largest example hash the
+				 * store can still hold, as this load knows it */
+	tm_buf pending;         /* bounds noted by an attempt, kept once its
+				 * chunk has gone through */
+	/* test hook (TITLEMILL_TEST_KILL=claim:N or apply:N): the process
+	 * kills itself with SIGKILL after the claims of its N-th chunk, or
+	 * after half of that chunk's shares */
+	int kill_stage;         /* 0 none, 1 claim, 2 apply */
+	long kill_at, nattempt;
+} rstore;
+
+/* ---- store_redis.c ---- */
+void sr_err(rstore *r, const char *what, const char *detail);
+void sr_kerr_up(rstore *r);
+/* One command routed by the slot of its key argv[1]: the reply (the
+ * caller frees it), or NULL with the message set (error replies become
+ * messages). */
+redisReply *sr_cmd(rstore *r, int argc, const char **argv, const size_t *len);
+/* Runs the batch and frees the replies; ints[i] (when ints) gets the
+ * integer reply of cmds[i] (-1 for another reply); an error reply's text
+ * goes to the message after what.  Returns 0 or -1. */
+int sr_run_batch(rstore *r, rc_cmd *cmds, size_t n, long long *ints, const char *what);
+/* The scripts (store_redis_apply.c), loaded on every connection. */
+extern const char sr_claim_script[], sr_apply_script[];
+
+/* ---- store_redis_url.c ---- */
+typedef struct sr_seeds {
+	char *host[16], *path[16];
+	int port[16];
+	size_t n;
+} sr_seeds;
+/* Parses url into seeds, r->k.user, r->k.pass, r->k.db and r->name.
+ * Returns 0, or -1 with the reason in err (never the password). */
+int sr_parse_url(rstore *r, const char *url, sr_seeds *sd, tm_buf *err);
+void sr_seeds_free(sr_seeds *sd);
+
+/* ---- store_redis_keys.c ---- */
+/* The length of the first field of a joined key a 1F b 1F c. */
+size_t sr_first_field(const char *s, size_t n);
+/* P:{j:DG}:j, the journal of chunk dg (32 hex digits). */
+int sr_key_journal(const char *prefix, const char *dg, tm_buf *kb);
+/* P:{TAG}:WHAT: the journals' index ("j", "open"), the review queue
+ * ("r", "items" or "log"). */
+int sr_key_tagged(const char *prefix, const char *tag, const char *what, tm_buf *kb);
+/* The SCAN MATCH pattern of the keys prefix + rest (a glob): the
+ * prefix's characters escaped, so it matches only itself. */
+int sr_match_pattern(const char *prefix, const char *rest, tm_buf *out);
+
+/* ---- store_redis_apply.c ---- */
+/* One attempt at the chunk in r->chunk under digest: 1 applied (some
+ * share was new), 0 every share was in its ledger, -1 failure (message
+ * set).  *counted and *repub: its postings counted, and skipped for an
+ * id another chunk owns. */
+int sr_attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint64_t *repub);
+
+/* ---- store_redis_chunk.c ---- */
+int sr_commit(store *st, const uint64_t digest[2]);
+int sr_finish(store *st);
+
+/* ---- store_redis_dump.c ---- */
+int sr_dump(store *st, tally_mem *m);
+
+#endif

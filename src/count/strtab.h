@@ -1,0 +1,51 @@
+/* strtab.h - a hash table from byte strings to 64-bit counts, with the
+ * strings kept in one arena.
+ *
+ * Built for millions of keys: an entry costs 24 bytes in the slot array
+ * (at a load of at most 3/4) plus its string bytes; nothing is allocated
+ * per key.  Keys are any bytes (the engine joins fields with 0x1F).
+ * Entry indices are stable while no entry is removed (none ever is);
+ * string pointers move when the arena grows: take them afresh after an
+ * insert. */
+#ifndef TM_STRTAB_H
+#define TM_STRTAB_H
+
+#include <stddef.h>
+#include <stdint.h>
+
+#include "core/buf.h"
+
+typedef struct st_entry {
+	uint64_t hash;
+	uint64_t count;
+	uint32_t off, len; /* the key in the arena */
+} st_entry;
+
+typedef struct strtab {
+	st_entry *ent;     /* entries in insertion order */
+	size_t n, cap;
+	uint32_t *slot;    /* open addressing: entry index + 1, 0 empty */
+	size_t nslot;
+	tm_buf arena;
+} strtab;
+
+/* Adds by to the count of key (inserting it at 0 first); *idx receives
+ * its entry index.  Returns 1 when the key is new, 0 when it was there,
+ * -1 when memory ran out (table unchanged). */
+int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx);
+
+/* Index of key, or -1. */
+long st_find(const strtab *t, const char *key, size_t n);
+
+static inline const char *st_key(const strtab *t, size_t i, size_t *n)
+{
+	*n = t->ent[i].len;
+	return t->arena.data + t->ent[i].off;
+}
+
+void st_free(strtab *t);
+
+/* Bytes held (slots, entries, arena), for measurements. */
+size_t st_bytes(const strtab *t);
+
+#endif

@@ -1,0 +1,135 @@
+/* tally.h - the frequency engine: what is counted, and the interface every
+ * counting backend (memory, Redis) implements.
+ *
+ * Counted, for each posting (each distinct posting id once, when the
+ * postings have ids):
+ *   per (occupation, language, key): postings, per clean surface form
+ *   (the display title is the most frequent form), and up to three raw
+ *   example titles (the three with the smallest hash: a deterministic
+ *   sample that merges exactly);
+ *   per (language, key): postings, each posting once whatever its
+ *   occupations;
+ *   per (occupation, language): postings.
+ * Fields are UTF-8 and never contain 0x1F (the separator of joined keys)
+ * or other controls: the posting readers refuse such occupations, titles
+ * come cleaned, and the counts-table reader refuses such fields. */
+#ifndef TM_TALLY_H
+#define TM_TALLY_H
+
+#include <stddef.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <string.h>
+
+#include "core/buf.h"
+#include "norm/norm.h"
+#include "io/postings.h"
+#include "count/strtab.h"
+
+#define TALLY_EXAMPLES 3
+
+/* One normalised posting as the engines receive it.  Borrowed. */
+typedef struct tally_posting {
+	const char *id;  /* NULL: no id, always counted */
+	size_t idlen;
+	const char *lang; /* primary subtag, "und" when unknown */
+	const char *key, *title, *example;
+	size_t keylen, titlelen, examplelen;
+	const char *const *occ;
+	const size_t *occlen;
+	size_t nocc;
+} tally_posting;
+
+/* ---- the memory engine (also the common currency: every store can be
+ * read into one, and counts tables are written from one) ---- */
+
+typedef struct tally_mem {
+	strtab forms;   /* occ 1F lang 1F key 1F title -> postings */
+	strtab keys;    /* lang 1F key -> postings */
+	strtab occs;    /* occ 1F lang -> postings */
+	strtab ids;     /* posting ids seen */
+	strtab exkeys;  /* occ 1F lang 1F key -> index into ex */
+	struct tm_example { uint64_t h[TALLY_EXAMPLES]; uint32_t off[TALLY_EXAMPLES],
+		len[TALLY_EXAMPLES]; uint8_t n; } *ex;
+	size_t nex, excap;
+	tm_buf exarena;
+	tm_buf scratch;
+	uint64_t postings, republished;
+	uint64_t added[3]; /* the counts added to forms, keys, occs: while
+			    * each stays below 2^64, no count and no sum of
+			    * counts of its table can overflow */
+} tally_mem;
+
+void tm_init(tally_mem *m);
+void tm_free(tally_mem *m);
+
+/* Counts one posting.  Returns 0, 1 when its id was counted before (the
+ * posting is then skipped), -1 when memory ran out. */
+int tm_add(tally_mem *m, const tally_posting *p);
+
+/* The pieces a counts table holds, added one by one (merging tables).
+ * Return 0, -1 when memory ran out, -2 when the counts would add up past
+ * 2^64 - 1 (nothing is changed then). */
+int tm_add_form(tally_mem *m, const char *occ, size_t ol, const char *lang,
+		const char *key, size_t kl, const char *title, size_t tl, uint64_t n);
+int tm_add_key(tally_mem *m, const char *lang, const char *key, size_t kl, uint64_t n);
+int tm_add_occ(tally_mem *m, const char *occ, size_t ol, const char *lang, uint64_t n);
+int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
+		   const char *key, size_t kl, const char *text, size_t tl);
+
+/* Writes the counts table (TSV, header first, sorted; see README).
+ * Returns 0, or -1 on a write error or when memory ran out. */
+int tm_write(tally_mem *m, FILE *out);
+
+/* Reads a counts table and adds it to m.  Returns 0, or -1 with a
+ * message naming file and line in err. */
+int tm_read(tally_mem *m, const char *path, tm_buf *err);
+
+/* One (occupation, language, key) with its postings and display title;
+ * strings point into the engine. */
+typedef struct tm_triple {
+	const char *occ, *lang, *key, *title;
+	size_t ol, ll, kl, tl;
+	uint64_t postings;
+} tm_triple;
+
+/* Calls fn for every triple, sorted by occupation, language, key (bytes).
+ * Stops and returns fn's value when it is not 0; -1 when memory ran out. */
+int tm_each_triple(tally_mem *m, int (*fn)(void *ctx, const tm_triple *t), void *ctx);
+
+/* The examples of a triple (at most TALLY_EXAMPLES, byte order): their
+ * texts and lengths; returns their number.  Pointers into the engine. */
+int tm_examples(tally_mem *m, const char *occ, size_t ol, const char *lang,
+		const char *key, size_t kl, const char **text, size_t *len);
+
+/* Postings of a language and key whatever the occupation. */
+uint64_t tm_key_postings(tally_mem *m, const char *lang, const char *key, size_t kl);
+
+/* Postings of an occupation in a language (0 when unknown). */
+uint64_t tm_occ_postings(tally_mem *m, const char *occ, size_t ol, const char *lang);
+
+/* Bytes held by the engine, for measurements. */
+size_t tm_bytes(const tally_mem *m);
+
+/* What the engines count of a posting once its title is cleaned: the
+ * raw example is the prepared title with contact data masked.  Borrows
+ * from p and r. */
+static inline void tally_posting_of(tally_posting *tp, const posting *p,
+				    const norm_result *r)
+{
+	memset(tp, 0, sizeof *tp);
+	tp->id = p->id;
+	tp->idlen = p->idlen;
+	tp->lang = p->lang;
+	tp->key = r->key;
+	tp->keylen = r->key_len;
+	tp->title = r->title;
+	tp->titlelen = r->title_len;
+	tp->example = r->masked;
+	tp->examplelen = r->masked_len;
+	tp->occ = p->occ;
+	tp->occlen = p->occlen;
+	tp->nocc = p->nocc;
+}
+
+#endif

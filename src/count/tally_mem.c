@@ -1,0 +1,685 @@
+/* tally_mem.c - the memory engine and the counts table. */
+#include "count/tally.h"
+
+#include <errno.h>
+#include <stdlib.h>
+#include <string.h>
+
+#include "io/decode.h"
+#include "count/store.h"
+#include "norm/token.h"
+#include "io/tsv.h"
+
+#define SEP '\x1F'
+
+void tm_init(tally_mem *m)
+{
+	memset(m, 0, sizeof *m);
+}
+
+void tm_free(tally_mem *m)
+{
+	st_free(&m->forms);
+	st_free(&m->keys);
+	st_free(&m->occs);
+	st_free(&m->ids);
+	st_free(&m->exkeys);
+	free(m->ex);
+	buf_free(&m->exarena);
+	buf_free(&m->scratch);
+	memset(m, 0, sizeof *m);
+}
+
+size_t tm_bytes(const tally_mem *m)
+{
+	return st_bytes(&m->forms) + st_bytes(&m->keys) + st_bytes(&m->occs) +
+	       st_bytes(&m->ids) + st_bytes(&m->exkeys) +
+	       m->excap * sizeof *m->ex + m->exarena.cap;
+}
+
+/* Joins up to four fields with SEP into m->scratch. */
+static int join(tally_mem *m, const char *a, size_t al, const char *b, size_t bl,
+		const char *c, size_t cl, const char *d, size_t dl)
+{
+	tm_buf *s = &m->scratch;
+	buf_reset(s);
+	if (buf_append(s, a, al))
+		return -1;
+	if (b && (buf_putc(s, SEP) || buf_append(s, b, bl)))
+		return -1;
+	if (c && (buf_putc(s, SEP) || buf_append(s, c, cl)))
+		return -1;
+	if (d && (buf_putc(s, SEP) || buf_append(s, d, dl)))
+		return -1;
+	return 0;
+}
+
+/* Adds n to the entry in m->scratch of t, keeping *added a bound of
+ * every count and sum of t (tables read from files can hold any 19-digit
+ * number). */
+static int add_count(tally_mem *m, strtab *t, uint64_t *added, uint64_t n)
+{
+	if (n > UINT64_MAX - *added)
+		return -2;
+	if (st_add(t, m->scratch.data, m->scratch.len, n, NULL) < 0)
+		return -1;
+	*added += n;
+	return 0;
+}
+
+int tm_add_form(tally_mem *m, const char *occ, size_t ol, const char *lang,
+		const char *key, size_t kl, const char *title, size_t tl, uint64_t n)
+{
+	if (join(m, occ, ol, lang, strlen(lang), key, kl, title, tl))
+		return -1;
+	return add_count(m, &m->forms, &m->added[0], n);
+}
+
+int tm_add_key(tally_mem *m, const char *lang, const char *key, size_t kl, uint64_t n)
+{
+	if (join(m, lang, strlen(lang), key, kl, NULL, 0, NULL, 0))
+		return -1;
+	return add_count(m, &m->keys, &m->added[1], n);
+}
+
+int tm_add_occ(tally_mem *m, const char *occ, size_t ol, const char *lang, uint64_t n)
+{
+	if (join(m, occ, ol, lang, strlen(lang), NULL, 0, NULL, 0))
+		return -1;
+	return add_count(m, &m->occs, &m->added[2], n);
+}
+
+int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
+		   const char *key, size_t kl, const char *text, size_t tl)
+{
+	size_t idx;
+	int r;
+	uint64_t h = tok_hash(text, tl);
+	struct tm_example *e;
+	int worst = -1;
+
+	if (tl == 0)
+		return 0; /* an empty example is no evidence */
+	if (join(m, occ, ol, lang, strlen(lang), key, kl, NULL, 0))
+		return -1;
+	r = st_add(&m->exkeys, m->scratch.data, m->scratch.len, 0, &idx);
+	if (r < 0)
+		return -1;
+	if (r == 1) {
+		struct tm_example *ex = tm_grow(m->ex, &m->excap, m->nex + 1, sizeof *ex, 1024);
+		if (!ex)
+			return -1;
+		m->ex = ex;
+		memset(&m->ex[m->nex], 0, sizeof m->ex[0]);
+		m->exkeys.ent[idx].count = m->nex++;
+	}
+	e = &m->ex[m->exkeys.ent[idx].count];
+	/* keep the TALLY_EXAMPLES distinct texts of smallest hash */
+	for (int i = 0; i < e->n; i++) {
+		if (e->h[i] == h && e->len[i] == tl &&
+		    !memcmp(m->exarena.data + e->off[i], text, tl))
+			return 0;
+		if (worst < 0 || e->h[i] > e->h[worst] ||
+		    (e->h[i] == e->h[worst] &&
+		     memcmp(m->exarena.data + e->off[i], m->exarena.data + e->off[worst],
+			    e->len[i] < e->len[worst] ? e->len[i] : e->len[worst]) > 0))
+			worst = i;
+	}
+	int slot;
+	if (e->n < TALLY_EXAMPLES)
+		slot = e->n++;
+	else if (h < e->h[worst])
+		slot = worst;
+	else
+		return 0;
+	if (buf_append(&m->exarena, text, tl))
+		return -1;
+	e->h[slot] = h;
+	e->off[slot] = (uint32_t)(m->exarena.len - tl);
+	e->len[slot] = (uint32_t)tl;
+	return 0;
+}
+
+int tm_add(tally_mem *m, const tally_posting *p)
+{
+	if (p->id) {
+		int r = st_add(&m->ids, p->id, p->idlen, 1, NULL);
+		if (r < 0)
+			return -1;
+		if (r == 0) {
+			m->republished++;
+			return 1;
+		}
+	}
+	m->postings++;
+	if (tm_add_key(m, p->lang, p->key, p->keylen, 1))
+		return -1;
+	for (size_t i = 0; i < p->nocc; i++) {
+		if (tm_add_occ(m, p->occ[i], p->occlen[i], p->lang, 1) ||
+		    tm_add_form(m, p->occ[i], p->occlen[i], p->lang, p->key, p->keylen,
+				p->title, p->titlelen, 1) ||
+		    (p->examplelen &&
+		     tm_add_example(m, p->occ[i], p->occlen[i], p->lang, p->key,
+				    p->keylen, p->example, p->examplelen)))
+			return -1;
+	}
+	return 0;
+}
+
+/* ---- writing ---- */
+
+typedef struct srt {
+	const char *s;
+	size_t n;
+	size_t i;
+} srt;
+
+static int cmp_srt(const void *a, const void *b)
+{
+	const srt *x = a, *y = b;
+	size_t n = x->n < y->n ? x->n : y->n;
+	int c = memcmp(x->s, y->s, n);
+	if (c)
+		return c;
+	return x->n < y->n ? -1 : x->n > y->n;
+}
+
+static srt *sorted(const strtab *t)
+{
+	srt *v = malloc((t->n ? t->n : 1) * sizeof *v);
+	if (!v)
+		return NULL;
+	for (size_t i = 0; i < t->n; i++) {
+		v[i].s = st_key(t, i, &v[i].n);
+		v[i].i = i;
+	}
+	qsort(v, t->n, sizeof *v, cmp_srt);
+	return v;
+}
+
+/* Length of the first f fields of a joined key. */
+static size_t prefix(const char *s, size_t n, int f)
+{
+	for (size_t i = 0; i < n; i++)
+		if (s[i] == SEP && --f == 0)
+			return i;
+	return n;
+}
+
+static void field(const char *s, size_t n, int k, const char **f, size_t *fl)
+{
+	size_t start = 0;
+	for (size_t i = 0; i <= n; i++)
+		if (i == n || s[i] == SEP) {
+			if (k-- == 0) {
+				*f = s + start;
+				*fl = i - start;
+				return;
+			}
+			start = i + 1;
+		}
+	*f = "";
+	*fl = 0;
+}
+
+/* kind, occupation, lang, key, text, postings */
+static void row(FILE *out, const char *kind, const char *joined, size_t jn, int nf,
+		const char *text, size_t tl, uint64_t n, int with_n)
+{
+	const char *f;
+	size_t fl;
+	fputs(kind, out);
+	if (nf == 2 && !strcmp(kind, "key")) {
+		/* lang 1F key: no occupation */
+		fputc('\t', out);
+		for (int k = 0; k < 2; k++) {
+			field(joined, jn, k, &f, &fl);
+			fputc('\t', out);
+			fwrite(f, 1, fl, out);
+		}
+	} else {
+		for (int k = 0; k < 3; k++) {
+			fputc('\t', out);
+			if (k < nf) {
+				field(joined, jn, k, &f, &fl);
+				fwrite(f, 1, fl, out);
+			}
+		}
+	}
+	fputc('\t', out);
+	fwrite(text, 1, tl, out);
+	fputc('\t', out);
+	if (with_n)
+		fprintf(out, "%llu", (unsigned long long)n);
+	fputc('\n', out);
+}
+
+int tm_write(tally_mem *m, FILE *out)
+{
+	srt *occ = sorted(&m->occs), *form = sorted(&m->forms), *ex = sorted(&m->exkeys),
+	    *key = sorted(&m->keys);
+	size_t io = 0, jf = 0, je = 0;
+	int rc = 0;
+
+	if (!occ || !form || !ex || !key) {
+		rc = -1;
+		goto done;
+	}
+	fputs("kind\toccupation\tlang\tkey\ttext\tpostings\n", out);
+	/* occupation rows, each followed by its titles, forms and examples */
+	while (io < m->occs.n || jf < m->forms.n) {
+		const srt *o = io < m->occs.n ? &occ[io] : NULL;
+		size_t fp = jf < m->forms.n ? prefix(form[jf].s, form[jf].n, 2) : 0;
+		int c;
+		if (o && jf < m->forms.n) {
+			srt a = {form[jf].s, fp, 0};
+			c = cmp_srt(o, &a);
+		} else
+			c = o ? -1 : 1;
+		if (c <= 0 && o) {
+			row(out, "occupation", o->s, o->n, 2, "", 0, m->occs.ent[o->i].count, 1);
+			io++;
+			if (c < 0)
+				continue;
+		}
+		/* the triples under this occupation and language */
+		const char *ol = form[jf].s;
+		size_t oln = fp;
+		while (jf < m->forms.n && prefix(form[jf].s, form[jf].n, 2) == oln &&
+		       !memcmp(form[jf].s, ol, oln)) {
+			size_t tp = prefix(form[jf].s, form[jf].n, 3), end = jf, best = jf;
+			uint64_t sum = 0;
+			while (end < m->forms.n && prefix(form[end].s, form[end].n, 3) == tp &&
+			       !memcmp(form[end].s, form[jf].s, tp)) {
+				uint64_t c2 = m->forms.ent[form[end].i].count;
+				sum += c2;
+				if (c2 > m->forms.ent[form[best].i].count)
+					best = end; /* ties: the first in byte order */
+				end++;
+			}
+			const char *t;
+			size_t tl;
+			field(form[best].s, form[best].n, 3, &t, &tl);
+			row(out, "title", form[jf].s, tp, 3, t, tl, sum, 1);
+			for (size_t q = jf; q < end; q++) {
+				field(form[q].s, form[q].n, 3, &t, &tl);
+				row(out, "form", form[q].s, tp, 3, t, tl,
+				    m->forms.ent[form[q].i].count, 1);
+			}
+			/* its examples, in byte order */
+			while (je < m->exkeys.n && cmp_srt(&ex[je], &(srt){form[jf].s, tp, 0}) < 0)
+				je++;
+			if (je < m->exkeys.n && !cmp_srt(&ex[je], &(srt){form[jf].s, tp, 0})) {
+				struct tm_example *e = &m->ex[m->exkeys.ent[ex[je].i].count];
+				int ord[TALLY_EXAMPLES] = {0, 1, 2};
+				for (int a = 0; a < e->n; a++)
+					for (int b = a + 1; b < e->n; b++) {
+						srt x = {m->exarena.data + e->off[ord[a]], e->len[ord[a]], 0};
+						srt y = {m->exarena.data + e->off[ord[b]], e->len[ord[b]], 0};
+						if (cmp_srt(&x, &y) > 0) {
+							int tmp = ord[a];
+							ord[a] = ord[b];
+							ord[b] = tmp;
+						}
+					}
+				for (int a = 0; a < e->n; a++)
+					row(out, "example", form[jf].s, tp, 3,
+					    m->exarena.data + e->off[ord[a]], e->len[ord[a]], 0, 0);
+				je++;
+			}
+			jf = end;
+		}
+	}
+	for (size_t k = 0; k < m->keys.n; k++)
+		row(out, "key", key[k].s, key[k].n, 2, "", 0, m->keys.ent[key[k].i].count, 1);
+	if (ferror(out))
+		rc = -1;
+done:
+	free(occ);
+	free(form);
+	free(ex);
+	free(key);
+	return rc;
+}
+
+/* ---- reading ---- */
+
+/* A count: every value tm_write can write (0 to 2^64 - 1) reads back.
+ * Returns 0, -1 when s is not a whole number, -2 when it is past 2^64 - 1. */
+static int parse_count(const char *s, size_t n, uint64_t *v)
+{
+	uint64_t x = 0;
+	int big = 0;
+	if (n == 0)
+		return -1;
+	for (size_t i = 0; i < n; i++) {
+		if (s[i] < '0' || s[i] > '9')
+			return -1;
+		uint64_t d = (uint64_t)(s[i] - '0');
+		if (x > (UINT64_MAX - d) / 10)
+			big = 1;
+		else
+			x = x * 10 + d;
+	}
+	if (big)
+		return -2;
+	*v = x;
+	return 0;
+}
+
+/* A field as the engine writes them: UTF-8 without control characters
+ * (0x1F joins the engine's keys; TAB and newline would break the table). */
+static int clean_field(const char *s, size_t n)
+{
+	for (size_t i = 0; i < n; i++)
+		if ((unsigned char)s[i] < 0x20 || s[i] == 0x7F)
+			return 0;
+	return dec_is_utf8(s, n);
+}
+
+static int bad(tm_buf *err, const char *name, long line, const char *what)
+{
+	char m[512];
+	snprintf(m, sizeof m, "%s:%ld: %s", name, line, what);
+	buf_reset(err);
+	buf_puts(err, m);
+	return -1;
+}
+
+int tm_read(tally_mem *m, const char *path, tm_buf *err)
+{
+	tsv_reader t;
+	int ck, co, cl, cy, ct, cp, r;
+
+	if (tsv_open(&t, path) != 0) {
+		buf_reset(err);
+		buf_append(err, t.err.data, t.err.len);
+		tsv_close(&t);
+		return -1;
+	}
+	ck = tsv_col(&t, "kind");
+	co = tsv_col(&t, "occupation");
+	cl = tsv_col(&t, "lang");
+	cy = tsv_col(&t, "key");
+	ct = tsv_col(&t, "text");
+	cp = tsv_col(&t, "postings");
+	if (ck < 0 || co < 0 || cl < 0 || cy < 0 || ct < 0 || cp < 0) {
+		r = bad(err, t.lr.name, 1,
+			"not a counts table: want the columns kind, occupation, lang, key, text, postings");
+		tsv_close(&t);
+		return r;
+	}
+	while ((r = tsv_next(&t)) > 0) {
+		size_t kn, on, ln, yn, tn, pn;
+		const char *k = tsv_field(&t, ck, &kn), *o = tsv_field(&t, co, &on),
+			   *l = tsv_field(&t, cl, &ln), *y = tsv_field(&t, cy, &yn),
+			   *x = tsv_field(&t, ct, &tn), *p = tsv_field(&t, cp, &pn);
+		char lang[8];
+		uint64_t n = 0;
+		long line = t.lr.lineno;
+		int rc = 0;
+
+		if (t.over) {
+			r = bad(err, t.lr.name, line, "row has more fields than the header");
+			break;
+		}
+		if (t.lr.noeol) {
+			/* tables are written whole, every row with its line end */
+			r = bad(err, t.lr.name, line, "the last row has no line end: the table was cut short");
+			break;
+		}
+		int lok = ln >= 2 && ln <= 3;
+		for (size_t q = 0; q < ln && lok; q++)
+			lok = l[q] >= 'a' && l[q] <= 'z';
+		if (!lok) {
+			r = bad(err, t.lr.name, line, "bad lang (want a primary language subtag: de, fr, und)");
+			break;
+		}
+		memcpy(lang, l, ln);
+		lang[ln] = 0;
+		if (!clean_field(o, on) || !clean_field(y, yn) || !clean_field(x, tn)) {
+			r = bad(err, t.lr.name, line, "a field holds a control character or invalid UTF-8");
+			break;
+		}
+#define IS(w) (kn == strlen(w) && !memcmp(k, w, kn))
+		if (!IS("example") && (rc = parse_count(p, pn, &n)) != 0) {
+			r = bad(err, t.lr.name, line, rc == -2 ? "postings is past 18446744073709551615 (2^64 - 1)"
+							       : "postings is not a whole number");
+			break;
+		}
+		if (IS("occupation"))
+			rc = on ? tm_add_occ(m, o, on, lang, n) : bad(err, t.lr.name, line, "no occupation");
+		else if (IS("key"))
+			rc = tm_add_key(m, lang, y, yn, n);
+		else if (IS("form"))
+			rc = on ? tm_add_form(m, o, on, lang, y, yn, x, tn, n)
+				: bad(err, t.lr.name, line, "no occupation");
+		else if (IS("example"))
+			rc = on ? tm_add_example(m, o, on, lang, y, yn, x, tn)
+				: bad(err, t.lr.name, line, "no occupation");
+		else if (IS("title"))
+			rc = 0; /* derived from the forms */
+		else
+			rc = bad(err, t.lr.name, line,
+				 "unknown kind (want occupation, title, form, example or key)");
+#undef IS
+		if (rc) {
+			if (rc == -2)
+				bad(err, t.lr.name, line,
+				    "the postings add up past 18446744073709551615 (2^64 - 1)");
+			else if (!err->len)
+				bad(err, t.lr.name, line, "out of memory");
+			r = -1;
+			break;
+		}
+	}
+	if (r < 0 && !err->len) {
+		buf_reset(err);
+		buf_append(err, t.err.data, t.err.len);
+	}
+	tsv_close(&t);
+	return r < 0 ? -1 : 0;
+}
+
+/* ---- walking the triples ---- */
+
+int tm_each_triple(tally_mem *m, int (*fn)(void *ctx, const tm_triple *t), void *ctx)
+{
+	srt *form = sorted(&m->forms);
+	size_t jf = 0;
+	int rc = 0;
+
+	if (!form)
+		return -1;
+	while (jf < m->forms.n && rc == 0) {
+		size_t tp = prefix(form[jf].s, form[jf].n, 3), end = jf, best = jf;
+		uint64_t sum = 0;
+		tm_triple t;
+		while (end < m->forms.n && prefix(form[end].s, form[end].n, 3) == tp &&
+		       !memcmp(form[end].s, form[jf].s, tp)) {
+			uint64_t c = m->forms.ent[form[end].i].count;
+			sum += c;
+			if (c > m->forms.ent[form[best].i].count)
+				best = end;
+			end++;
+		}
+		field(form[jf].s, tp, 0, &t.occ, &t.ol);
+		field(form[jf].s, tp, 1, &t.lang, &t.ll);
+		field(form[jf].s, tp, 2, &t.key, &t.kl);
+		field(form[best].s, form[best].n, 3, &t.title, &t.tl);
+		t.postings = sum;
+		rc = fn(ctx, &t);
+		jf = end;
+	}
+	free(form);
+	return rc;
+}
+
+uint64_t tm_occ_postings(tally_mem *m, const char *occ, size_t ol, const char *lang)
+{
+	long i;
+	if (join(m, occ, ol, lang, strlen(lang), NULL, 0, NULL, 0))
+		return 0;
+	i = st_find(&m->occs, m->scratch.data, m->scratch.len);
+	return i < 0 ? 0 : m->occs.ent[i].count;
+}
+
+int tm_examples(tally_mem *m, const char *occ, size_t ol, const char *lang,
+		const char *key, size_t kl, const char **text, size_t *len)
+{
+	long i;
+	int n = 0;
+	if (join(m, occ, ol, lang, strlen(lang), key, kl, NULL, 0))
+		return 0;
+	i = st_find(&m->exkeys, m->scratch.data, m->scratch.len);
+	if (i < 0)
+		return 0;
+	const struct tm_example *e = &m->ex[m->exkeys.ent[i].count];
+	for (int a = 0; a < e->n; a++) {
+		text[n] = m->exarena.data + e->off[a];
+		len[n++] = e->len[a];
+	}
+	/* byte order */
+	for (int a = 0; a < n; a++)
+		for (int b = a + 1; b < n; b++) {
+			srt x = {text[a], len[a], 0}, y = {text[b], len[b], 0};
+			if (cmp_srt(&x, &y) > 0) {
+				const char *t = text[a];
+				size_t l = len[a];
+				text[a] = text[b];
+				len[a] = len[b];
+				text[b] = t;
+				len[b] = l;
+			}
+		}
+	return n;
+}
+
+uint64_t tm_key_postings(tally_mem *m, const char *lang, const char *key, size_t kl)
+{
+	long i;
+	if (join(m, lang, strlen(lang), key, kl, NULL, 0, NULL, 0))
+		return 0;
+	i = st_find(&m->keys, m->scratch.data, m->scratch.len);
+	return i < 0 ? 0 : m->keys.ent[i].count;
+}
+
+/* ---- the memory backend (store.h) ---- */
+
+typedef struct mstore {
+	store base;
+	tally_mem *m;
+} mstore;
+
+static int m_add(store *st, const tally_posting *p)
+{
+	int r = tm_add(((mstore *)st)->m, p);
+	if (r < 0) {
+		buf_reset(&st->err);
+		buf_puts(&st->err, "out of memory");
+		return -1;
+	}
+	if (r == 1)
+		st->republished++;
+	else
+		st->counted++;
+	return 0;
+}
+
+/* Counted as they came: no chunks (store_mem_open chunks by 0). */
+static int m_commit(store *st, const uint64_t digest[2])
+{
+	(void)st;
+	(void)digest;
+	return 0;
+}
+
+static int m_finish(store *st)
+{
+	(void)st;
+	return 0;
+}
+
+/* The language field of a joined key, NUL-terminated in lang. */
+static void lang_of(const char *k, size_t n, char lang[8])
+{
+	const char *f;
+	size_t fl;
+	field(k, n, 1, &f, &fl);
+	memset(lang, 0, 8);
+	memcpy(lang, f, fl < 7 ? fl : 7);
+}
+
+/* Adds what src holds to dst (not its posting ids). */
+static int merge(tally_mem *dst, const tally_mem *src)
+{
+	char lang[8];
+	const char *f, *f2, *f3;
+	size_t n, fl, fl2, fl3;
+	int r = 0;
+
+	for (size_t i = 0; i < src->forms.n && !r; i++) {
+		const char *k = st_key(&src->forms, i, &n);
+		lang_of(k, n, lang);
+		field(k, n, 0, &f, &fl);
+		field(k, n, 2, &f2, &fl2);
+		field(k, n, 3, &f3, &fl3);
+		r = tm_add_form(dst, f, fl, lang, f2, fl2, f3, fl3, src->forms.ent[i].count);
+	}
+	for (size_t i = 0; i < src->keys.n && !r; i++) {
+		const char *k = st_key(&src->keys, i, &n);
+		field(k, n, 0, &f, &fl);
+		memset(lang, 0, sizeof lang);
+		memcpy(lang, f, fl < 7 ? fl : 7);
+		field(k, n, 1, &f2, &fl2);
+		r = tm_add_key(dst, lang, f2, fl2, src->keys.ent[i].count);
+	}
+	for (size_t i = 0; i < src->occs.n && !r; i++) {
+		const char *k = st_key(&src->occs, i, &n);
+		lang_of(k, n, lang);
+		field(k, n, 0, &f, &fl);
+		r = tm_add_occ(dst, f, fl, lang, src->occs.ent[i].count);
+	}
+	for (size_t i = 0; i < src->exkeys.n && !r; i++) {
+		const char *k = st_key(&src->exkeys, i, &n);
+		const struct tm_example *e = &src->ex[src->exkeys.ent[i].count];
+		lang_of(k, n, lang);
+		field(k, n, 0, &f, &fl);
+		field(k, n, 2, &f2, &fl2);
+		for (int q = 0; q < e->n && !r; q++)
+			r = tm_add_example(dst, f, fl, lang, f2, fl2, src->exarena.data + e->off[q],
+					   e->len[q]);
+	}
+	return r;
+}
+
+static int m_dump(store *st, tally_mem *out)
+{
+	tally_mem *m = ((mstore *)st)->m;
+	int r = out == m ? 0 : merge(out, m);
+	if (r) {
+		buf_reset(&st->err);
+		buf_puts(&st->err, r == -2 ? "the counts add up past 2^64 - 1" : "out of memory");
+		return -1;
+	}
+	return 0;
+}
+
+static void m_close(store *st)
+{
+	free(st);
+}
+
+static const store_ops mem_ops = {m_add, m_commit, m_finish, m_dump, m_close};
+
+store *store_mem_open(tally_mem *m, tm_buf *err)
+{
+	mstore *s = calloc(1, sizeof *s);
+	if (!s) {
+		buf_puts(err, "out of memory");
+		return NULL;
+	}
+	store_base_init(&s->base, &mem_ops, 0);
+	s->m = m;
+	return &s->base;
+}

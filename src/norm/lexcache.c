@@ -1,0 +1,283 @@
+/* lexcache.c - the compiled lexicon cache: where it lives, its key, and
+ * reading and writing it without trusting what another user could have
+ * put there (see lexcache.h). */
+/* MAP_POPULATE */
+#define _DEFAULT_SOURCE
+#include "norm/lexcache.h"
+
+#include <errno.h>
+#include <fcntl.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <sys/mman.h>
+#include <sys/stat.h>
+#include <unistd.h>
+
+#include "core/digest.h"
+#include "io/outfile.h"
+#include "norm/unicode.h"
+
+/* An image larger than this is not read (the bundled lexicons' image is
+ * about 12 MB). */
+#define LC_MAX_IMAGE ((off_t)1 << 30)
+
+/* the pages mapped at once, not one fault at a time */
+#ifdef MAP_POPULATE
+#define LC_POPULATE MAP_POPULATE
+#else
+#define LC_POPULATE 0
+#endif
+
+int lc_enabled(void)
+{
+	const char *e = getenv("TITLEMILL_LEXCACHE");
+	return !(e && strcmp(e, "off") == 0);
+}
+
+/* A folder is safe when it is one (not a link), the user's own, and
+ * writable by no one else.  Returns 0 when it is. */
+static int safe_dir(const char *path)
+{
+	struct stat st;
+	int fd = open(path, O_RDONLY | O_DIRECTORY | O_NOFOLLOW | O_CLOEXEC);
+	int ok;
+
+	if (fd < 0)
+		return -1;
+	ok = fstat(fd, &st) == 0 && S_ISDIR(st.st_mode) && st.st_uid == geteuid() &&
+	     !(st.st_mode & (S_IWGRP | S_IWOTH));
+	close(fd);
+	return ok ? 0 : -1;
+}
+
+static char *join(const char *a, const char *b)
+{
+	size_t la = strlen(a), lb = strlen(b);
+	char *s = malloc(la + lb + 2);
+	if (!s)
+		return NULL;
+	memcpy(s, a, la);
+	s[la] = '/';
+	memcpy(s + la + 1, b, lb + 1);
+	return s;
+}
+
+char *lc_dir(void)
+{
+	const char *env = getenv("TITLEMILL_LEXCACHE");
+	const char *xdg = getenv("XDG_CACHE_HOME");
+	const char *home = getenv("HOME");
+	char *dir;
+
+	if (env && *env) {
+		if (!strcmp(env, "off"))
+			return NULL;
+		if (!(dir = strdup(env)))
+			return NULL;
+	} else {
+		char *base;
+		if (xdg && xdg[0] == '/')
+			base = strdup(xdg);
+		else if (home && home[0] == '/')
+			base = join(home, ".cache");
+		else
+			return NULL;
+		if (!base)
+			return NULL;
+		if (mkdir(base, 0700) != 0 && errno != EEXIST) {
+			free(base);
+			return NULL;
+		}
+		dir = join(base, "titlemill");
+		free(base);
+		if (!dir)
+			return NULL;
+	}
+	if ((mkdir(dir, 0700) != 0 && errno != EEXIST) || safe_dir(dir) != 0) {
+		free(dir);
+		return NULL;
+	}
+	return dir;
+}
+
+/* The image at path, mapped, when it is a regular file of the user's,
+ * writable by no one else: 0 with the mapping in *img, *n; -1 otherwise. */
+static int map_image(const char *path, void **img, size_t *n)
+{
+	struct stat st;
+	int fd = open(path, O_RDONLY | O_NOFOLLOW | O_NONBLOCK | O_CLOEXEC);
+	void *m;
+
+	if (fd < 0)
+		return -1;
+	if (fstat(fd, &st) != 0 || !S_ISREG(st.st_mode) || st.st_uid != geteuid() ||
+	    (st.st_mode & (S_IWGRP | S_IWOTH)) || st.st_size <= 0 ||
+	    st.st_size > LC_MAX_IMAGE) {
+		close(fd);
+		return -1;
+	}
+	m = mmap(NULL, (size_t)st.st_size, PROT_READ, MAP_PRIVATE | LC_POPULATE, fd, 0);
+	close(fd);
+	if (m == MAP_FAILED)
+		return -1;
+	*img = m;
+	*n = (size_t)st.st_size;
+	return 0;
+}
+
+/* Writes the image to path atomically; whatever stands under the name
+ * and is not a regular file of the user's (a link, another user's file)
+ * is removed first, never followed.  Failures are ignored: the cache is
+ * an optimisation. */
+static void write_image(const char *path, const tm_buf *img)
+{
+	struct stat st;
+	of_file f;
+	tm_buf err = {0};
+
+	if (lstat(path, &st) == 0 &&
+	    (!S_ISREG(st.st_mode) || st.st_uid != geteuid() ||
+	     (st.st_mode & (S_IWGRP | S_IWOTH))) &&
+	    unlink(path) != 0)
+		return;
+	if (of_open(&f, path, OF_REGULAR, &err) == 0) {
+		if (fchmod(f.fd, 0600) != 0 || of_write(&f, img->data, img->len, &err) != 0)
+			of_abort(&f);
+		else
+			of_commit(&f, &err);
+	}
+	buf_free(&err);
+	buf_free(&f.warn);
+}
+
+/* The running binary, as far as it decides what an image holds. */
+static void add_build(dg_state *d, dg_state *name)
+{
+	struct stat st;
+	char exe[4096];
+	ssize_t n = readlink("/proc/self/exe", exe, sizeof exe - 1);
+	uint64_t v[6] = {0};
+	const char *uv = uni_version();
+
+	if (n > 0)
+		dg_add(name, exe, (size_t)n);
+	if (stat("/proc/self/exe", &st) == 0) {
+		v[0] = (uint64_t)st.st_dev;
+		v[1] = (uint64_t)st.st_ino;
+		v[2] = (uint64_t)st.st_size;
+		v[3] = (uint64_t)st.st_mtim.tv_sec;
+		v[4] = (uint64_t)st.st_mtim.tv_nsec;
+	}
+	v[5] = LEX_IMAGE_VERSION;
+	dg_add(d, v, sizeof v);
+	dg_add(d, uv, strlen(uv));
+}
+
+/* One file's part of the key: its category, name and content. */
+static void key_file(dg_state *d, const lex_file *f, const tm_buf *text)
+{
+	uint32_t kind[2] = {(uint32_t)f->cat, (uint32_t)f->gender_kind};
+
+	dg_add(d, kind, sizeof kind);
+	dg_add(d, f->path, strlen(f->path));
+	dg_add(d, text->data, text->len);
+}
+
+/* The key of the files' current contents (read into text, reused) and
+ * the name of their cache file. */
+static int file_key(const lex_file *f, size_t n, tm_buf *text, unsigned char key[16],
+		    unsigned char nkey[16], tm_buf *err)
+{
+	dg_state d, nm;
+
+	dg_init(&d);
+	dg_init(&nm);
+	add_build(&d, &nm);
+	for (size_t i = 0; i < n; i++) {
+		/* read into one buffer, reused: mapping each file costs more
+		 * in page-table work than the copy */
+		if (lex_read_text(f[i].path, text, err) != 0)
+			return -1;
+		key_file(&d, &f[i], text);
+		dg_add(&nm, f[i].path, strlen(f[i].path));
+	}
+	dg_final(&d, key);
+	dg_final(&nm, nkey);
+	return 0;
+}
+
+int lc_build(const lex_file *files, size_t n, lexicon **out, tm_buf *err)
+{
+	tm_buf text = {0}, img = {0}, why = {0};
+	dg_state d, nm;
+	unsigned char key[16], nkey[16];
+	char *dir = NULL, *path = NULL;
+	lexicon *lx = NULL;
+	void *map;
+	size_t i, mlen;
+	int rc = 1;
+
+	*out = NULL;
+	if (file_key(files, n, &text, key, nkey, err) != 0)
+		goto done;
+	if ((dir = lc_dir())) {
+		char name[64];
+		snprintf(name, sizeof name, "lexicon-%016llx.img",
+			 (unsigned long long)dg_hash(nkey, sizeof nkey, 0));
+		path = join(dir, name);
+	}
+	if (path && map_image(path, &map, &mlen) == 0) {
+		int r = lex_image_use(map, mlen, 1, key, &lx, &why);
+		if (r == 0) {
+			*out = lx;
+			rc = 0;
+			goto done;
+		}
+		munmap(map, mlen);
+		if (r < 0) {
+			buf_reset(err);
+			buf_puts(err, "out of memory");
+			rc = -1;
+			goto done;
+		}
+	}
+	/* built from the files, read again: the image is written under the
+	 * key of the very texts it was built from */
+	if (!(lx = lex_new())) {
+		buf_reset(err);
+		buf_puts(err, "out of memory");
+		rc = -1;
+		goto done;
+	}
+	dg_init(&d);
+	dg_init(&nm);
+	add_build(&d, &nm);
+	for (i = 0; i < n; i++) {
+		if (lex_read_text(files[i].path, &text, err) != 0) {
+			lex_free(lx);
+			goto done;
+		}
+		key_file(&d, &files[i], &text);
+		if (lex_load_text(lx, files[i].cat, files[i].gender_kind, files[i].path,
+				  text.data, text.len, err) != 0) {
+			lex_free(lx);
+			rc = -1;
+			goto done;
+		}
+	}
+	dg_final(&d, key);
+	(void)lex_freeze(lx);
+	if (path && lex_image_write(lx, key, &img) == 0)
+		write_image(path, &img);
+	*out = lx;
+	rc = 0;
+done:
+	buf_free(&text);
+	buf_free(&img);
+	buf_free(&why);
+	free(dir);
+	free(path);
+	return rc;
+}

@@ -1,0 +1,68 @@
+/* pass.h - the normaliser's rules over an annotated title (title.h).
+ * Each marks tokens removed with their kind and records the facet
+ * spans; none touches anything but the title it is given (and reads its
+ * lexicon).  All return 0, or -1 when memory ran out. */
+#ifndef TM_PASS_H
+#define TM_PASS_H
+
+#include "norm/title.h"
+
+/* Look-aheads of the passes are bounded or remembered, so that every pass
+ * is linear in the line length (tests/cases/check_linear.py):
+ * a reference code is looked for after at most REF_LEAD_MAX lead-in
+ * phrases in a row ("Job-ID Nr. #4711" has three; "#" x 100,000 made
+ * every "#" look to the end of the line). */
+#define REF_LEAD_MAX 4
+/* An employer marker ("bei", "chez", "at") is looked for at most
+ * EMPLOYER_BACK units before a legal form ("bei Valdoria Logistik Nord
+ * GmbH"); "a b c d e GmbH " x 70,000 looked back to the segment's start
+ * from every "GmbH". */
+#define EMPLOYER_BACK 8
+/* The words that may stand before contact data as its label and go with
+ * it ("CV na adres praca@…", "enviar CV a …", "lisätiedot: 01632 …"):
+ * a label is short, and anything longer is more than a label. */
+#define CONTACT_LABEL_MAX 4
+/* A business kind phrase ending a segment ("Larchmoor House Care Home")
+ * is looked for at most ROLE_KIND_BACK units before the segment's end
+ * (the longest phrase a lexicon holds). */
+#define ROLE_KIND_BACK 12
+/* The region, province or department written after a place as a
+ * segment of its own ("Jönköping, Småland") holds at most
+ * ROLE_REGION_MAX words. */
+#define ROLE_REGION_MAX 3
+/* The name of a collective agreement after a grade is at most
+ * GRADE_TAIL_MAX units ("CCNL Commercio", "CAO Gemeenten"): a longer rest
+ * of the segment is not a name. */
+#define GRADE_TAIL_MAX 3
+
+int pass_pii(tm_title *ti);       /* contact data: URLs, e-mail, phones */
+int pass_gender(tm_title *ti);    /* markers, gendered spellings, pairs */
+int pass_reference(tm_title *ti); /* reference codes and dates */
+int pass_pay(tm_title *ti);
+int pass_grade(tm_title *ti);    /* pay scales and grades */
+int pass_schedule(tm_title *ti);  /* hours, workload, durations */
+int pass_days(tm_title *ti);      /* day ranges, clock ranges, head counts */
+int pass_hashtags(tm_title *ti);
+int pass_employer(tm_title *ti);
+int pass_location(tm_title *ti);
+int pass_phrases(tm_title *ti);   /* peels edge phrases to a fixpoint;
+				   * run before and after the employer,
+				   * place and role rules: an edge seniority
+				   * word goes in the second run */
+int pass_roles(tm_title *ti);     /* the head segment; employers and places beside it */
+
+/* Shared by the rules (pass_place.c). */
+int all_caps_line(tm_title *ti);  /* most words of the line in capitals */
+/* Is the kept part of segment s a place: gazetteer places, country
+ * codes, postcodes, location and connector words, at least one place or
+ * country code?  Without strong_ok a place that is also an ordinary
+ * word (WHERE `strong`) needs one of the others beside it.  caps: the
+ * line is in capitals (all_caps_line). */
+int place_segment(tm_title *ti, size_t s, int caps, int strong_ok);
+/* Removes the kept part of segment s as places and location-slot words. */
+int remove_place_segment(tm_title *ti, size_t s);
+/* Is the word of unit k an occupational ending written whole ("kock",
+ * "arbeiter"), not a word that merely ends like one ("List")? */
+int ending_whole(tm_title *ti, size_t k);
+
+#endif

@@ -1,0 +1,579 @@
+/* pass_place.c - employer slots and location slots.
+ *
+ * A place name is removed only where it stands in a location slot: after
+ * a location preposition or region word (in, à, Raum, région), before a
+ * region word (area, und Umgebung), next to a postcode, or as the whole
+ * of a bracket or of a later segment (" - Köln", ", Paris", "(Berlin)").
+ * Place names that are also ordinary words (WHERE `strong`) need the
+ * first three.  A case form (WHERE `any`: Helsingissä, Tartus) is a
+ * location wherever it stands; a place adjective (WHERE `adjective`:
+ * Münchner) is one only before a region word (im Münchner Norden). */
+#include <string.h>
+
+#include "norm/pass.h"
+
+static int cap_word(tm_title *ti, size_t k)
+{
+	const tm_tok *t = U(ti, k);
+	return (t->flags & (TF_CAP | TF_ALLCAPS)) != 0;
+}
+
+int all_caps_line(tm_title *ti)
+{
+	return ti->caps; /* counted by title_build */
+}
+
+static int loc_word(tm_title *ti, size_t k, const char *value, size_t *len);
+
+/* A place starting at unit k: its length, whether it needs a strong slot,
+ * whether it is a location by itself (a case form: Helsingissä), and its
+ * country.  A place adjective (Münchner) is a place only when a location
+ * `after` word follows it in its segment (im Münchner Norden). */
+static int place_info(tm_title *ti, size_t k, size_t *len, int *strong,
+		      int *itself, const char **cc)
+{
+	const lex_entry *e = match_cat(ti, k, LC_PLACE, 1, len);
+	int noun = 0, adj = 0;
+	if (!e)
+		return 0;
+	*strong = *itself = 0;
+	*cc = NULL;
+	for (; e; e = lex_next(ti->lx, e)) {
+		if (e->cat != LC_PLACE || !entry_applies(ti, e))
+			continue;
+		if (!*cc && strcmp(e->value, "-"))
+			*cc = e->value;
+		if (e->where == LW_ADJ) {
+			adj = 1;
+			continue;
+		}
+		noun = 1;
+		if (e->where == LW_STRONG)
+			*strong = 1;
+		if (e->where == LW_ANY)
+			*itself = 1;
+	}
+	if (*strong)
+		*itself = 0; /* an ordinary word too: a slot decides */
+	if (adj && !noun) {
+		size_t e2 = k + *len, l2;
+		if (e2 >= ti->nunit || useg(ti, e2) != useg(ti, k) ||
+		    !loc_word(ti, e2, "after", &l2))
+			return 0;
+	}
+	return 1;
+}
+
+static int place_at(tm_title *ti, size_t k, size_t *len, int *strong,
+		    const char **cc)
+{
+	int itself;
+	return place_info(ti, k, len, strong, &itself, cc);
+}
+
+static int num_digits(tm_title *ti, size_t k)
+{
+	const tm_tok *t = U(ti, k);
+	const char *p = ti->text + t->off;
+	if (t->kind != TK_NUM)
+		return -1;
+	for (uint32_t i = 0; i < t->len; i++)
+		if (p[i] < '0' || p[i] > '9')
+			return -1;
+	return (int)t->len;
+}
+
+static int letters_only(tm_title *ti, size_t k, size_t lo, size_t hi)
+{
+	const tm_tok *t = U(ti, k);
+	if (t->kind != TK_WORD || (t->flags & TF_DIGIT) || t->len < lo || t->len > hi)
+		return 0;
+	return (t->flags & TF_ALLCAPS) || t->len == 1;
+}
+
+/* A postcode at unit k: 50667, D-50667, 00-950, SW1A 1AA, 1012 AB. */
+static size_t postcode_at(tm_title *ti, size_t k)
+{
+	int d;
+	if (k >= ti->nunit || !ukept(ti, k) || ti->prot[ti->unit[k]])
+		return 0;
+	d = num_digits(ti, k);
+	if ((d == 2 || d == 4) && k + 1 < ti->nunit && glued(ti, k, k + 1, "-") &&
+	    num_digits(ti, k + 1) == 3)
+		return 2; /* PL 00-950, PT 1100-148 */
+	if (d == 4 && k + 1 < ti->nunit && letters_only(ti, k + 1, 2, 2) &&
+	    !glued(ti, k, k + 1, ""))
+		return 2;
+	/* CZ, SK, GR, SE: 702 00, 111 22 */
+	if (d == 3 && k + 1 < ti->nunit && num_digits(ti, k + 1) == 2 &&
+	    !glued(ti, k, k + 1, ""))
+		return 2;
+	if (d == 4 || d == 5)
+		return 1;
+	if (letters_only(ti, k, 1, 2) && k + 1 < ti->nunit &&
+	    glued(ti, k, k + 1, "-") && (num_digits(ti, k + 1) == 4 ||
+					  num_digits(ti, k + 1) == 5))
+		return 2;
+	/* UK: outward code (letters then a digit) and inward code (digit and
+	 * two letters, split by the tokeniser into 1 + AA) */
+	{
+		const tm_tok *t = U(ti, k);
+		if (t->kind == TK_WORD && (t->flags & TF_DIGIT) && t->len >= 2 &&
+		    t->len <= 4 && (t->flags & TF_CAP) && k + 2 < ti->nunit &&
+		    num_digits(ti, k + 1) == 1 && glued(ti, k + 1, k + 2, "") &&
+		    letters_only(ti, k + 2, 2, 2))
+			return 3;
+	}
+	return 0;
+}
+
+static int loc_word(tm_title *ti, size_t k, const char *value, size_t *len)
+{
+	const lex_entry *e = match_val(ti, k, LC_LOCATION, value, 1, len);
+	if (!e)
+		return 0;
+	/* a country code is one only in capitals: DE, not "de" */
+	if (!strcmp(e->value, "country-code") && !(U(ti, k)->flags & TF_ALLCAPS))
+		return value == NULL && match_val(ti, k, LC_LOCATION, "prep", 1, len);
+	return 1;
+}
+
+/* An acronym in a mixed-case title is no place unless the lexicon
+ * writes the place in capitals too: (OSS) is a qualification, not Oss;
+ * NRW is a region. */
+static int acronym(tm_title *ti, size_t k, size_t len, int caps)
+{
+	const tm_tok *t = U(ti, k);
+	size_t l2;
+	if (caps || len != 1 || !(t->flags & TF_ALLCAPS) || t->len > 4)
+		return 0;
+	for (const lex_entry *e = match_cat(ti, k, LC_PLACE, 1, &l2); e;
+	     e = lex_next(ti->lx, e))
+		if (e->cat == LC_PLACE && e->caps && entry_applies(ti, e))
+			return 0;
+	return 1;
+}
+
+/* From unit k (a place), the end of a run of places joined by
+ * connectors or slashes: Köln/Bonn, Köln und Bonn. */
+static size_t place_run(tm_title *ti, size_t k, size_t plen, int allow_strong)
+{
+	size_t e = k + plen, len, l2;
+	int strong;
+	const char *cc;
+
+	for (;;) {
+		size_t j = e;
+		if (j < ti->nunit && match_val(ti, j, LC_UNIT, "connector", 1, &len))
+			j += len;
+		if (j < ti->nunit && useg(ti, j) == useg(ti, k) &&
+		    place_at(ti, j, &l2, &strong, &cc) && (allow_strong || !strong))
+			e = j + l2;
+		else
+			break;
+	}
+	if (e < ti->nunit && loc_word(ti, e, "after", &len))
+		e += len;
+	if ((len = postcode_at(ti, e)) && useg(ti, e) == useg(ti, k))
+		e += len;
+	return e;
+}
+
+/* Removes a place of len units at k, with an apostrophe written
+ * against its start ('s-Hertogenbosch). */
+static int remove_place(tm_title *ti, size_t k, size_t len, const char *cc)
+{
+	size_t t0 = ti->unit[k];
+	if (t0 > 0 && !ti->tl.t[t0].sp && ti->tl.t[t0 - 1].kind == TK_PUNCT &&
+	    ti->tl.t[t0 - 1].ch == '\'' && (t0 == 1 || ti->tl.t[t0 - 1].sp))
+		t0--;
+	return remove_toks(ti, t0, ti->unit[k + len - 1], NF_LOCATION, cc);
+}
+
+/* Removes units [k, e) of a location slot piece by piece: places as
+ * locations (their facet), the rest (prepositions, region words,
+ * postcodes, connectors) as slot words. */
+static int take(tm_title *ti, size_t k, size_t e)
+{
+	size_t len;
+	int strong;
+	const char *cc;
+
+	while (k < e) {
+		if (place_at(ti, k, &len, &strong, &cc) && k + len <= e) {
+			if (remove_place(ti, k, len, cc))
+				return -1;
+		} else {
+			if (!(len = postcode_at(ti, k)) || k + len > e)
+				len = 1;
+			if (remove_units(ti, k, k + len, NF_SLOT, NULL))
+				return -1;
+		}
+		k += len;
+	}
+	return 0;
+}
+
+static int slots(tm_title *ti)
+{
+	size_t k, len, plen, pc;
+	int strong;
+	const char *cc;
+
+	for (k = 0; k < ti->nunit; k++) {
+		if (!ukept(ti, k) || ti->prot[ti->unit[k]])
+			continue;
+		/* in Köln, Raum Stuttgart, à 75001 Paris */
+		if (loc_word(ti, k, "prep", &len) || loc_word(ti, k, "before", &len)) {
+			size_t j = k + len, e;
+			/* at most a few slot words in a row ("in der Region"): a
+			 * run of them to the end of the line, tried again from
+			 * each of its words, was quadratic ("a/" x 50,000) */
+			for (int more = 0; more < 4 && j < ti->nunit &&
+					   (loc_word(ti, j, "before", &plen) ||
+					    loc_word(ti, j, "prep", &plen)); more++)
+				j += plen;
+			pc = postcode_at(ti, j);
+			if (j + pc < ti->nunit && useg(ti, j + pc) == useg(ti, k) &&
+			    place_at(ti, j + pc, &plen, &strong, &cc)) {
+				e = place_run(ti, j + pc, plen, 1);
+				if (take(ti, k, e))
+					return -1;
+				k = e - 1;
+				continue;
+			}
+		}
+		/* 50667 Köln */
+		if ((pc = postcode_at(ti, k)) && k + pc < ti->nunit &&
+		    place_at(ti, k + pc, &plen, &strong, &cc)) {
+			size_t e = place_run(ti, k + pc, plen, 1);
+			if (take(ti, k, e))
+				return -1;
+			k = e - 1;
+			continue;
+		}
+		/* Paris area, Köln und Umgebung, Paris 75001 */
+		if (place_at(ti, k, &plen, &strong, &cc)) {
+			size_t e = k + plen;
+			if (e < ti->nunit && (loc_word(ti, e, "after", &len) ||
+					      (len = postcode_at(ti, e)))) {
+				e = place_run(ti, k, plen, 1);
+				if (take(ti, k, e))
+					return -1;
+				k = e - 1;
+			} else
+				k += plen - 1; /* Roveredo in Piano: no "in Piano" inside */
+		}
+	}
+	return 0;
+}
+
+int place_segment(tm_title *ti, size_t s, int caps, int strong_ok)
+{
+	size_t k0, k1, k, len;
+	int any = 0, weak = 0, need_strong = 0, strong;
+	const char *c;
+
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 >= k1)
+		return 0;
+	for (k = k0; k < k1;) {
+		if (!ukept(ti, k)) {
+			k++;
+			continue;
+		}
+		if (ti->prot[ti->unit[k]]) {
+			return 0;
+		} else if (place_at(ti, k, &len, &strong, &c) &&
+			   !acronym(ti, k, len, caps)) {
+			any = 1;
+			if (strong)
+				need_strong = 1;
+			else
+				weak = 1;
+			k += len;
+			/* Hamburg-Harburg: a district glued to its city */
+			if (!strong && k < k1 && glued(ti, k - 1, k, "-") &&
+			    cap_word(ti, k) && U(ti, k)->kind == TK_WORD)
+				k++;
+		} else if (loc_word(ti, k, "country-code", &len)) {
+			any = weak = 1;
+			k += len;
+		} else if ((len = postcode_at(ti, k))) {
+			weak = 1;
+			k += len;
+		} else if (loc_word(ti, k, NULL, &len) ||
+			   match_val(ti, k, LC_UNIT, "connector", 1, &len)) {
+			weak = 1;
+			k += len;
+		} else
+			return 0;
+	}
+	return any && (strong_ok || !need_strong || weak);
+}
+
+int remove_place_segment(tm_title *ti, size_t s)
+{
+	size_t k0, k1, k, len;
+	int strong;
+	const char *c;
+
+	seg_kept(ti, s, &k0, &k1);
+	for (k = k0; k < k1;) {
+		if (!ukept(ti, k)) {
+			k++;
+			continue;
+		}
+		if (place_at(ti, k, &len, &strong, &c)) {
+			if (!strong && k + len < k1 && glued(ti, k + len - 1, k + len, "-") &&
+			    cap_word(ti, k + len) && U(ti, k + len)->kind == TK_WORD)
+				len++;
+			if (remove_place(ti, k, len, c))
+				return -1;
+		} else if (loc_word(ti, k, "country-code", &len)) {
+			if (remove_units(ti, k, k + len, NF_LOCATION, NULL))
+				return -1;
+		} else {
+			if (!(len = postcode_at(ti, k)))
+				len = 1;
+			if (remove_units(ti, k, k + len, NF_SLOT, NULL))
+				return -1;
+		}
+		k += len;
+	}
+	return 0;
+}
+
+int ending_whole(tm_title *ti, size_t k)
+{
+	const tm_tok *t = U(ti, k);
+	size_t elen;
+	return t->kind == TK_WORD &&
+	       lex_ending(ti->lx, tok_fold(&ti->tl, t), t->flen, &elen) &&
+	       elen == t->flen;
+}
+
+/* Does segment s hold an occupational word: a `head` of occupation/, or
+ * a word that is an occupational ending whole ("kock")?  A place name
+ * that merely ends like one ("Montpellier") is no such word. */
+static int occupation_word(tm_title *ti, size_t s)
+{
+	size_t k0, k1, len;
+	seg_kept(ti, s, &k0, &k1);
+	for (size_t k = k0; k < k1; k++) {
+		if (!(ti->ucats[k] & (1u << LC_OCCUPATION)))
+			continue;
+		if (match_val(ti, k, LC_OCCUPATION, "head", 1, &len) ||
+		    (match_val(ti, k, LC_OCCUPATION, "suffix", 1, &len) &&
+		     ending_whole(ti, k)))
+			return 1;
+	}
+	return 0;
+}
+
+/* A bracket or later segment made only of location words.  When the
+ * rules before removed every other segment as noise ("Teilzeit: Kock"),
+ * a place that is also an occupational word is the title. */
+static int whole_segments(tm_title *ti)
+{
+	int caps = all_caps_line(ti);
+	size_t a, b, with = 0;
+	for (size_t s = 0; s < ti->nseg; s++) {
+		seg_kept(ti, s, &a, &b);
+		with += a < b;
+	}
+	for (size_t s = 0; s < ti->nseg; s++) {
+		const tm_seg *g = &ti->segs[s];
+		if (!g->bracket && g->index == 0 && !g->resumed)
+			continue;
+		if (place_segment(ti, s, caps, 0) &&
+		    (with > 1 || !occupation_word(ti, s))) {
+			if (remove_place_segment(ti, s))
+				return -1;
+			with--;
+		}
+	}
+	return 0;
+}
+
+/* A bracket right after a removed place holding only a department or
+ * province number or code: Bordeaux (33), Milano (MI), Paris (75). */
+static int after_place(tm_title *ti)
+{
+	for (size_t s = 1; s < ti->nseg; s++) {
+		const tm_seg *g = &ti->segs[s];
+		size_t k0, k1, open;
+		if (!g->bracket)
+			continue;
+		seg_kept(ti, s, &k0, &k1);
+		if (k1 != k0 + 1 || g->u0 == 0 || !units_free(ti, k0, k1))
+			continue;
+		open = ti->unit[k0] - 1;
+		if (!(ti->tl.t[open].flags & TF_OPEN) || open == 0 ||
+		    ti->rm[open - 1] != NF_LOCATION)
+			continue;
+		const tm_tok *t = U(ti, k0);
+		int d = num_digits(ti, k0);
+		if ((d >= 1 && d <= 3) ||
+		    (t->kind == TK_WORD && (t->flags & TF_ALLCAPS) && t->len == 2))
+			if (remove_units(ti, k0, k1, NF_SLOT, NULL))
+				return -1;
+	}
+	return 0;
+}
+
+/* Case forms that are locations by themselves, with the places joined to
+ * them: Kokk Tallinnas, Lastenhoitaja Espoossa ja Vantaalla. */
+static int case_forms(tm_title *ti)
+{
+	size_t k, len;
+	int strong, itself;
+	const char *cc;
+
+	for (k = 0; k < ti->nunit; k++) {
+		if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
+		    !place_info(ti, k, &len, &strong, &itself, &cc))
+			continue;
+		if (!itself || !units_free(ti, k, k + len)) {
+			k += len - 1;
+			continue;
+		}
+		size_t e = place_run(ti, k, len, 0);
+		if (take(ti, k, e))
+			return -1;
+		k = e - 1;
+	}
+	return 0;
+}
+
+int pass_location(tm_title *ti)
+{
+	if (slots(ti) || case_forms(ti) || whole_segments(ti) || after_place(ti))
+		return -1;
+	return 0;
+}
+
+/* ---- employers ---- */
+
+/* The longest legal form at unit k, of employer/ or business/ ("Limited
+ * Company", "S.Coop.And.", "aktiebolag"). */
+static const lex_entry *legal_form(tm_title *ti, size_t k, size_t *len)
+{
+	size_t l2;
+	const lex_entry *e = match_val(ti, k, LC_EMPLOYER, "legal", 1, len);
+	const lex_entry *b = match_val(ti, k, LC_BUSINESS, "legal", 1, &l2);
+	if (b && (!e || l2 > *len)) {
+		*len = l2;
+		return b;
+	}
+	return e;
+}
+
+/* A legal form of any language written in capitals at the end of a
+ * segment, after a capitalised name: Norrsvalk Krog AB, Mirandol SAS. */
+static int caps_legal(tm_title *ti, size_t k, size_t *len)
+{
+	size_t k0, k1;
+	const lex_entry *e;
+	if (!(U(ti, k)->flags & TF_ALLCAPS) || k == 0 || !cap_word(ti, k - 1) ||
+	    !ukept(ti, k - 1))
+		return 0;
+	ti->any_lang = 1;
+	e = legal_form(ti, k, len);
+	ti->any_lang = 0;
+	if (!e)
+		return 0;
+	seg_kept(ti, useg(ti, k), &k0, &k1);
+	return k + *len == k1 && k - 1 >= k0 &&
+	       (ti->segs[useg(ti, k)].index > 0 || ti->segs[useg(ti, k)].bracket);
+}
+
+/* Does a segment after s hold kept words? */
+static int later_content(tm_title *ti, size_t s)
+{
+	for (size_t t = s + 1; t < ti->nseg; t++) {
+		size_t a, b;
+		seg_kept(ti, t, &a, &b);
+		if (a < b)
+			return 1;
+	}
+	return 0;
+}
+
+int pass_employer(tm_title *ti)
+{
+	size_t k, len, k0, k1;
+	int caps = all_caps_line(ti);
+
+	/* legal forms: Nordwerk GmbH, Maison Ortalie SARL */
+	for (k = 0; k < ti->nunit; k++) {
+		size_t start, m;
+		uint32_t s;
+		const tm_seg *g;
+		if (!legal_form(ti, k, &len) && !caps_legal(ti, k, &len))
+			continue;
+		s = useg(ti, k);
+		g = &ti->segs[s];
+		seg_kept(ti, s, &k0, &k1);
+		start = SIZE_MAX;
+		for (m = k; m > k0 && k - m < EMPLOYER_BACK; m--) {
+			size_t l2;
+			if (match_val(ti, m - 1, LC_EMPLOYER, "marker", 1, &l2)) {
+				start = m - 1;
+				break;
+			}
+		}
+		if (start == SIZE_MAX) {
+			if (g->bracket || g->index > 0)
+				start = k0;
+			else if (k > k0 && k - k0 <= 3 &&
+				 (k + len < k1 || later_content(ti, s)))
+				start = k0; /* Nordwerk GmbH sucht ..., Nordwerk GmbH - Koch */
+			else {
+				/* the capitalised name before the form, at most
+				 * three words, never the first word of the title */
+				start = k;
+				while (start > k0 + 1 && k - start < 3 &&
+				       cap_word(ti, start - 1) && ukept(ti, start - 1))
+					start--;
+			}
+		}
+		if (start == k && k == k0 && k + len < k1)
+			continue; /* a lone legal word opening a title: not a firm */
+		/* the business kind before the name, from the segment's start,
+		 * when the title goes on elsewhere: "domov pro seniory
+		 * Brenriven a.s.: chůva" */
+		{
+			size_t kl;
+			if (start > k0 && (g->bracket || g->index > 0 || later_content(ti, s)) &&
+			    match_val(ti, k0, LC_BUSINESS, "kind", 1, &kl) && k0 + kl == start)
+				start = k0;
+		}
+		if (remove_units(ti, start, k + len, NF_EMPLOYER, NULL))
+			return -1;
+		k += len - 1;
+	}
+	/* markers: at Brennfeld Foods, bei Valdoria, chez Ortalie, @ Nordwerk */
+	for (k = 0; k + 1 < ti->nunit; k++) {
+		size_t j, plen;
+		int strong;
+		const char *cc;
+		if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
+		    !match_val(ti, k, LC_EMPLOYER, "marker", 1, &len))
+			continue;
+		j = k + len;
+		if (j >= ti->nunit || useg(ti, j) != useg(ti, k) || !ukept(ti, j))
+			continue;
+		if (place_at(ti, j, &plen, &strong, &cc))
+			continue; /* bei München: a location */
+		if (!(cap_word(ti, j) || caps || (U(ti, k)->kind == TK_SYM)))
+			continue;
+		seg_kept(ti, useg(ti, k), &k0, &k1);
+		if (k == k0)
+			continue; /* nothing before it: not an employer slot */
+		if (remove_units(ti, k, k1, NF_EMPLOYER, NULL))
+			return -1;
+		k = k1;
+	}
+	return 0;
+}
