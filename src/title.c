@@ -81,12 +81,8 @@ static int grow_arrays(tm_title *ti, size_t ntok)
 	return 0;
 }
 
-int entry_applies(const tm_title *ti, const lex_entry *e)
+int entry_applies_amb(const tm_title *ti, const lex_entry *e)
 {
-	if (e->off)
-		return 0;
-	if (!e->amb || ti->any_lang)
-		return 1;
 	return ti->lang && strcmp(e->lang, ti->lang) == 0;
 }
 
