@@ -52,11 +52,13 @@ static size_t seq_len(const unsigned char *s, size_t n, size_t i, size_t *bad)
 	return len;
 }
 
-static int ascii_word(const unsigned char *s)
+/* Eight bytes of ASCII, none of them NUL (a byte is 0 exactly when
+ * subtracting 1 borrows into its top bit while that bit was clear). */
+static int ascii_word_nonul(const unsigned char *s)
 {
 	uint64_t w;
 	memcpy(&w, s, 8);
-	return (w & 0x8080808080808080ULL) == 0;
+	return ((w | ((w - 0x0101010101010101ULL) & ~w)) & 0x8080808080808080ULL) == 0;
 }
 
 size_t dec_valid_prefix(const char *str, size_t n)
@@ -65,7 +67,7 @@ size_t dec_valid_prefix(const char *str, size_t n)
 	size_t i = 0, bad;
 
 	while (i < n) {
-		if (i + 8 <= n && ascii_word(s + i) && !memchr(s + i, 0, 8)) {
+		if (i + 8 <= n && ascii_word_nonul(s + i)) {
 			i += 8;
 			continue;
 		}

@@ -95,10 +95,12 @@ static int put_lower(const char *text, tm_buf *b, const tm_tok *t, unsigned opt)
 	if (!(t->flags & TF_NONASCII) && (unsigned char)p[0] < 0x80 && !opt) {
 		if ((b->cap - b->len < t->len || !b->data) && buf_reserve(b, t->len) != 0)
 			return -1;
+		char *d = b->data + b->len;
 		for (size_t i = 0; i < t->len; i++) {
 			char c = p[i];
-			b->data[b->len++] = (char)(c >= 'A' && c <= 'Z' ? c + 32 : c);
+			d[i] = (char)(c >= 'A' && c <= 'Z' ? c + 32 : c);
 		}
+		b->len += t->len;
 		return 0;
 	}
 	return uni_lower_word(p, t->len, opt, b);

@@ -436,8 +436,14 @@ int title_build(tm_title *ti)
 				ti->lflags |= LF_URL;
 			break;
 		default:
-			if (x->ch && strchr("/-*:_.(,|\x01", x->ch))
+			switch (x->ch) {
+			case '/': case '-': case '*': case ':': case '_':
+			case '.': case '(': case ',': case '|': case TOK_MIDDOT:
 				ti->lflags |= LF_JOIN;
+				break;
+			default:
+				break;
+			}
 			if (x->ch == '=') /* a query: "…/jobs?ref=board" */
 				ti->lflags |= LF_URL;
 			break;

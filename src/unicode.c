@@ -337,22 +337,19 @@ static int fast_map(uni_ctx *u, const char *s, size_t n, tm_buf *out, int fold)
 	while (i < n) {
 		unsigned char b = (unsigned char)s[i];
 		if (b < 0x80) {
-			/* a run of ASCII at once: the tables hold the same as
-			 * the ASCII path */
-			size_t e = i + 1;
-			while (e < n && (unsigned char)s[e] < 0x80)
-				e++;
-			if (out->cap - out->len < e - i && buf_reserve(out, e - i) != 0)
+			/* a run of ASCII at once, mapped as it is found: the
+			 * tables hold the same as the ASCII path (room for
+			 * the rest of the line, the longest the run can be) */
+			if (out->cap - out->len < n - i && buf_reserve(out, n - i) != 0)
 				return -1;
-			char *d = out->data + out->len;
+			char *d = out->data + out->len, *d0 = d;
 			if (fold)
-				for (size_t k = i; k < e; k++)
-					*d++ = (char)ascii_fold((unsigned char)s[k]);
+				for (; i < n && (b = (unsigned char)s[i]) < 0x80; i++)
+					*d++ = (char)ascii_fold(b);
 			else
-				for (size_t k = i; k < e; k++)
-					*d++ = (char)ascii_prep[(unsigned char)s[k]];
-			out->len += e - i;
-			i = e;
+				for (; i < n && (b = (unsigned char)s[i]) < 0x80; i++)
+					*d++ = (char)ascii_prep[b];
+			out->len += (size_t)(d - d0);
 			continue;
 		}
 		size_t j = i;
