@@ -97,8 +97,7 @@ static int put_lower(const char *text, tm_buf *b, const tm_tok *t, unsigned opt)
 			return -1;
 		char *d = b->data + b->len;
 		for (size_t i = 0; i < t->len; i++) {
-			char c = p[i];
-			d[i] = (char)(c >= 'A' && c <= 'Z' ? c + 32 : c);
+			d[i] = (char)uni_ascii_lower[(unsigned char)p[i]];
 		}
 		b->len += t->len;
 		return 0;

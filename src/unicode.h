@@ -81,6 +81,10 @@ int uni_lower(const char *s, size_t n, tm_buf *out);
  * dotless ı (SpecialCasing.txt, tr and az).  Linear in n. */
 int uni_lower_word(const char *s, size_t n, unsigned opt, tm_buf *out);
 
+/* A byte lowercased: A-Z to a-z, every other byte as it is (the lowercase
+ * of ASCII text, byte by byte). */
+extern const unsigned char uni_ascii_lower[256];
+
 /* Decodes the code point at s[*i] (well-formed UTF-8) and advances *i;
  * a truncated sequence gives U+FFFD and advances one byte. */
 static inline int32_t uni_next(const char *s, size_t n, size_t *i)
