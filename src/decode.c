@@ -140,7 +140,7 @@ static int is_digit(unsigned c) { return c >= '0' && c <= '9'; }
 static int is_hex(unsigned c) { return is_digit(c) || ((c | 0x20) >= 'a' && (c | 0x20) <= 'f'); }
 static int is_ws(unsigned c) { return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f'; }
 
-static size_t put_utf8(uint32_t cp, char *o)
+size_t dec_put_utf8(uint32_t cp, char *o)
 {
 	if (cp < 0x80) {
 		o[0] = (char)cp;
@@ -219,7 +219,7 @@ static size_t read_ref(const unsigned char *s, size_t n, size_t j, char *o,
 			v = 0xFFFD;
 		} else if (v >= 0x80 && v <= 0x9F && ent_c1[v - 0x80])
 			v = ent_c1[v - 0x80];
-		*olen = put_utf8(v, o);
+		*olen = dec_put_utf8(v, o);
 		return k + 1;
 	}
 	while (k < n && k - j <= ENT_NAME_MAX && (is_alpha(s[k]) || is_digit(s[k])))

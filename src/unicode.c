@@ -15,6 +15,7 @@ void uni_ctx_free(uni_ctx *u)
 	u->cp = NULL;
 	u->cap = 0;
 	buf_free(&u->safe);
+	buf_free(&u->one);
 }
 
 const char *uni_version(void) { return utf8proc_unicode_version(); }
@@ -344,6 +345,46 @@ int uni_class_case(uni_ctx *u, int32_t cp)
 /* Maps s code point by code point through a fast table; returns 1 when
  * every code point had an entry (out then holds the result), 0 when the
  * general algorithm is needed (out unchanged), -1 on memory. */
+/* A code point outside the fast table that no normalisation joins to
+ * what stands beside it: combining class 0, no decomposition, in no
+ * canonical composition (neither first nor second: utf8proc's
+ * comb_index is UINT16_MAX), not Hangul (composed by rule, not by
+ * table).  Its prepared form and fold are then its own, whatever its
+ * neighbours, as for the table's code points.  Returns them (computed
+ * once with the general algorithm, then remembered), or NULL: the line
+ * takes the general path. */
+static const char *inert_map(uni_ctx *u, int32_t cp, int fold, uint8_t *l)
+{
+	struct uni_inert *e = &u->inert[(uint32_t)cp % UNI_INERT];
+
+	if (e->cp != cp) {
+		const utf8proc_property_t *p;
+		utf8proc_uint8_t enc[4];
+		utf8proc_ssize_t len;
+
+		if (cp < 0x80 || cp > 0x10FFFF || (cp >= 0x1100 && cp <= 0x11FF) ||
+		    (cp >= 0xA960 && cp <= 0xA97F) || (cp >= 0xAC00 && cp <= 0xD7FF))
+			return NULL;
+		p = utf8proc_get_property(cp);
+		if (p->combining_class || p->comb_index != UINT16_MAX ||
+		    p->decomp_seqindex != UINT16_MAX)
+			return NULL;
+		len = utf8proc_encode_char(cp, enc);
+		e->cp = 0;
+		for (int f = 0; f < 2; f++) {
+			buf_reset(&u->one);
+			if ((f ? slow_fold : slow_prepare)(u, (const char *)enc, (size_t)len,
+							   &u->one) != 0 || u->one.len > 4)
+				return NULL;
+			memcpy(f ? e->fold : e->prep, u->one.data, u->one.len);
+			*(f ? &e->flen : &e->plen) = (uint8_t)u->one.len;
+		}
+		e->cp = cp;
+	}
+	*l = fold ? e->flen : e->plen;
+	return fold ? e->fold : e->prep;
+}
+
 static int fast_map(uni_ctx *u, const char *s, size_t n, tm_buf *out, int fold)
 {
 	size_t start = out->len, i = 0;
@@ -374,13 +415,16 @@ static int fast_map(uni_ctx *u, const char *s, size_t n, tm_buf *out, int fold)
 		int32_t cp = uni_next(s, n, &j);
 		int x = fast_index(cp);
 		uint8_t l;
-		if (x < 0 || (l = fold ? u->flen[x] : u->plen[x]) == 0xFF) {
+		const char *rep;
+		if (x >= 0 && (l = fold ? u->flen[x] : u->plen[x]) != 0xFF)
+			rep = fold ? u->fold[x] : u->prep[x];
+		else if (!(rep = inert_map(u, cp, fold, &l))) {
 			out->len = start;
 			return 0;
 		}
 		if (out->cap - out->len < 4 && buf_reserve(out, 4) != 0)
 			return -1;
-		memcpy(out->data + out->len, fold ? u->fold[x] : u->prep[x], l);
+		memcpy(out->data + out->len, rep, l);
 		out->len += l;
 		i = j;
 	}
