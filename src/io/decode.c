@@ -52,11 +52,13 @@ static size_t seq_len(const unsigned char *s, size_t n, size_t i, size_t *bad)
 	return len;
 }
 
-static int ascii_word(const unsigned char *s)
+/* Eight bytes of ASCII, none of them NUL (a byte is 0 exactly when
+ * subtracting 1 borrows into its top bit while that bit was clear). */
+static int ascii_word_nonul(const unsigned char *s)
 {
 	uint64_t w;
 	memcpy(&w, s, 8);
-	return (w & 0x8080808080808080ULL) == 0;
+	return ((w | ((w - 0x0101010101010101ULL) & ~w)) & 0x8080808080808080ULL) == 0;
 }
 
 size_t dec_valid_prefix(const char *str, size_t n)
@@ -65,7 +67,7 @@ size_t dec_valid_prefix(const char *str, size_t n)
 	size_t i = 0, bad;
 
 	while (i < n) {
-		if (i + 8 <= n && ascii_word(s + i) && !memchr(s + i, 0, 8)) {
+		if (i + 8 <= n && ascii_word_nonul(s + i)) {
 			i += 8;
 			continue;
 		}
@@ -138,7 +140,7 @@ static int is_digit(unsigned c) { return c >= '0' && c <= '9'; }
 static int is_hex(unsigned c) { return is_digit(c) || ((c | 0x20) >= 'a' && (c | 0x20) <= 'f'); }
 static int is_ws(unsigned c) { return c == ' ' || c == '\t' || c == '\n' || c == '\r' || c == '\f'; }
 
-static size_t put_utf8(uint32_t cp, char *o)
+size_t dec_put_utf8(uint32_t cp, char *o)
 {
 	if (cp < 0x80) {
 		o[0] = (char)cp;
@@ -217,7 +219,7 @@ static size_t read_ref(const unsigned char *s, size_t n, size_t j, char *o,
 			v = 0xFFFD;
 		} else if (v >= 0x80 && v <= 0x9F && ent_c1[v - 0x80])
 			v = ent_c1[v - 0x80];
-		*olen = put_utf8(v, o);
+		*olen = dec_put_utf8(v, o);
 		return k + 1;
 	}
 	while (k < n && k - j <= ENT_NAME_MAX && (is_alpha(s[k]) || is_digit(s[k])))

@@ -9,6 +9,7 @@
 #define TM_DECODE_H
 
 #include <stddef.h>
+#include <stdint.h>
 
 #include "core/buf.h"
 
@@ -30,6 +31,10 @@ int dec_repair(const char *s, size_t n, tm_buf *out);
 
 /* True when s[0..n) is well-formed UTF-8 (NUL bytes allowed). */
 int dec_is_utf8(const char *s, size_t n);
+
+/* Writes code point cp (at most U+10FFFF) to o as UTF-8; its length
+ * (1 to 4 bytes). */
+size_t dec_put_utf8(uint32_t cp, char *o);
 
 /* True when s[0..n) holds a '&' or a '<', so that dec_markup may change
  * it. */

@@ -42,7 +42,7 @@ typedef struct edge {
 	uint32_t pad;   /* 0: the slot is written to the cache as it is */
 } edge;
 
-/* A node: the entries of what ends there (index into lx->ent, 0 when
+/* A node: the entries of what ends there (index into lx->h.ent, 0 when
  * the node only leads on) and their categories. */
 typedef struct node {
 	uint32_t first;
@@ -57,14 +57,11 @@ typedef struct trie {
 } trie;
 
 struct lexicon {
+	lex_head h;      /* first: the inline readers of lexicon.h see it
+			  * (entries; root and wnext by word id: see there) */
 	wslot *voc;      /* open addressing, power-of-two size */
 	size_t voccap, nvoc;
 	wordrec *words;  /* words[id], ids 1..nvoc */
-	uint32_t *root;  /* root[id]: the phrase trie's node of the one-word
-			  * prefix, 0 none (the root's edges, by direct index) */
-	uint8_t *wnext;  /* wnext[id]: 1 when the word follows another in
-			  * some phrase (else no step below the root can
-			  * take it, and none is probed) */
 	size_t wordcap;  /* of words, root and wnext */
 	trie ph;         /* the phrases, over word ids */
 	trie sfx;        /* occupational endings, over reversed fold bytes */
@@ -76,8 +73,7 @@ struct lexicon {
 			  * child << 8 | byte, by byte; NULL: not built */
 	uint32_t *skid;
 	uint32_t skroot[256]; /* the root's child by byte, 0 none (with skbeg) */
-	lex_entry *ent;  /* ent[0] unused */
-	size_t nent, entcap;
+	size_t nent, entcap; /* of h.ent */
 	tm_buf strs;
 	lex_pair *pairs;
 	size_t npairs, paircap;
@@ -241,12 +237,12 @@ lexicon *lex_new(void)
 	lx->voc = calloc(lx->voccap, sizeof *lx->voc);
 	lx->wordcap = 1 << 17;
 	lx->words = calloc(lx->wordcap, sizeof *lx->words);
-	lx->root = calloc(lx->wordcap, sizeof *lx->root);
-	lx->wnext = calloc(lx->wordcap, 1);
+	lx->h.root = calloc(lx->wordcap, sizeof *lx->h.root);
+	lx->h.wnext = calloc(lx->wordcap, 1);
 	lx->entcap = 1 << 17;
-	lx->ent = calloc(lx->entcap, sizeof *lx->ent);
+	lx->h.ent = calloc(lx->entcap, sizeof *lx->h.ent);
 	lx->nent = 1;
-	if (!lx->voc || !lx->words || !lx->root || !lx->wnext || !lx->ent ||
+	if (!lx->voc || !lx->words || !lx->h.root || !lx->h.wnext || !lx->h.ent ||
 	    trie_init(&lx->ph, 1 << 17, 1 << 17) || trie_init(&lx->sfx, 1 << 14, 1 << 13) ||
 	    buf_putc(&lx->strs, 0) != 0) {
 		lex_free(lx);
@@ -308,13 +304,13 @@ static int own_image(lexicon *lx)
 	kd = dup_array(lx->skid, lx->sfx.nedge, sizeof *kd, lx->sfx.nedge + 1);
 	v = dup_array(lx->voc, lx->voccap, sizeof *v, lx->voccap);
 	w = dup_array(lx->words, lx->nvoc + 1, sizeof *w, lx->wordcap);
-	r = dup_array(lx->root, lx->nvoc + 1, sizeof *r, lx->wordcap);
-	x = dup_array(lx->wnext, lx->nvoc + 1, 1, lx->wordcap);
+	r = dup_array(lx->h.root, lx->nvoc + 1, sizeof *r, lx->wordcap);
+	x = dup_array(lx->h.wnext, lx->nvoc + 1, 1, lx->wordcap);
 	pe = dup_array(lx->ph.edges, lx->ph.edgecap, sizeof *pe, lx->ph.edgecap);
 	pn = dup_array(lx->ph.nodes, lx->ph.nnode, sizeof *pn, lx->ph.nodecap);
 	se = dup_array(lx->sfx.edges, lx->sfx.edgecap, sizeof *se, lx->sfx.edgecap);
 	sn = dup_array(lx->sfx.nodes, lx->sfx.nnode, sizeof *sn, lx->sfx.nodecap);
-	e = dup_array(lx->ent, lx->nent, sizeof *e, lx->entcap);
+	e = dup_array(lx->h.ent, lx->nent, sizeof *e, lx->entcap);
 	if (!v || !w || !r || !x || !pe || !pn || !se || !sn || !e || !kb || !kd ||
 	    buf_append(&st, lx->strs.data, lx->strs.len) != 0) {
 		free(v), free(w), free(r), free(x), free(pe), free(pn), free(se), free(sn);
@@ -325,13 +321,13 @@ static int own_image(lexicon *lx)
 	release_image(lx);
 	lx->voc = v;
 	lx->words = w;
-	lx->root = r;
-	lx->wnext = x;
+	lx->h.root = r;
+	lx->h.wnext = x;
 	lx->ph.edges = pe;
 	lx->ph.nodes = pn;
 	lx->sfx.edges = se;
 	lx->sfx.nodes = sn;
-	lx->ent = e;
+	lx->h.ent = e;
 	lx->skbeg = kb;
 	lx->skid = kd;
 	lx->strs = st;
@@ -347,13 +343,13 @@ void lex_free(lexicon *lx)
 	else {
 		free(lx->voc);
 		free(lx->words);
-		free(lx->root);
-		free(lx->wnext);
+		free(lx->h.root);
+		free(lx->h.wnext);
 		free(lx->ph.edges);
 		free(lx->ph.nodes);
 		free(lx->sfx.edges);
 		free(lx->sfx.nodes);
-		free(lx->ent);
+		free(lx->h.ent);
 		free(lx->skbeg);
 		free(lx->skid);
 		buf_free(&lx->strs);
@@ -427,14 +423,14 @@ static int grow_words(lexicon *lx)
 	if (!w)
 		return -1;
 	lx->words = w;
-	if (!(r = realloc(lx->root, cap * sizeof *r)))
+	if (!(r = realloc(lx->h.root, cap * sizeof *r)))
 		return -1;
 	memset(r + lx->wordcap, 0, (cap - lx->wordcap) * sizeof *r);
-	lx->root = r;
-	if (!(x = realloc(lx->wnext, cap)))
+	lx->h.root = r;
+	if (!(x = realloc(lx->h.wnext, cap)))
 		return -1;
 	memset(x + lx->wordcap, 0, cap - lx->wordcap);
-	lx->wnext = x;
+	lx->h.wnext = x;
 	lx->wordcap = cap;
 	return 0;
 }
@@ -466,13 +462,9 @@ static uint32_t add_word(lexicon *lx, const char *fold, size_t len, uint64_t h)
 	return id;
 }
 
-uint32_t lex_step(const lexicon *lx, uint32_t n, uint32_t id)
+uint32_t lex_step_below(const lexicon *lx, uint32_t n, uint32_t id)
 {
-	if (!id)
-		return 0;
-	if (n == LEX_ROOT)
-		return lx->root[id];
-	return lx->wnext[id] ? trie_get(&lx->ph, n, id) : 0;
+	return trie_get(&lx->ph, n, id);
 }
 
 /* The phrase trie's child of node n by word id, made when missing; 0
@@ -484,12 +476,12 @@ static uint32_t add_step(lexicon *lx, uint32_t n, uint32_t id)
 	if (!id)
 		return 0;
 	if (n != LEX_ROOT) {
-		lx->wnext[id] = 1;
+		lx->h.wnext[id] = 1;
 		return trie_add(&lx->ph, n, id);
 	}
-	if (!lx->root[id] && (c = trie_node(&lx->ph)))
-		lx->root[id] = c;
-	return lx->root[id];
+	if (!lx->h.root[id] && (c = trie_node(&lx->ph)))
+		lx->h.root[id] = c;
+	return lx->h.root[id];
 }
 
 static const lex_entry *node_entry(const lexicon *lx, const node *nd,
@@ -499,7 +491,7 @@ static const lex_entry *node_entry(const lexicon *lx, const node *nd,
 		return NULL;
 	if (cats)
 		*cats = nd->cats;
-	return &lx->ent[nd->first];
+	return &lx->h.ent[nd->first];
 }
 
 const lex_entry *lex_phrase(const lexicon *lx, uint32_t n, uint32_t *cats)
@@ -636,21 +628,6 @@ const lex_entry *lex_ending(const lexicon *lx, const char *fold, size_t len,
 	return best ? node_entry(lx, best, NULL) : NULL;
 }
 
-const lex_entry *lex_next(const lexicon *lx, const lex_entry *e)
-{
-	return e->next ? &lx->ent[e->next] : NULL;
-}
-
-size_t lex_entry_index(const lexicon *lx, const lex_entry *e)
-{
-	return (size_t)(e - lx->ent);
-}
-
-const lex_entry *lex_entry_at(const lexicon *lx, size_t i)
-{
-	return &lx->ent[i];
-}
-
 const lex_pair *lex_pairs(const lexicon *lx, size_t *n)
 {
 	*n = lx->npairs;
@@ -750,8 +727,8 @@ static int add_entry(lexicon *lx, trie *t, uint32_t n, int cat, const char *lg,
 
 	if (strlen(value) >= sizeof e->value)
 		return -1;
-	for (uint32_t r = t->nodes[n].first; r; r = lx->ent[r].next) {
-		lex_entry *o = &lx->ent[r];
+	for (uint32_t r = t->nodes[n].first; r; r = lx->h.ent[r].next) {
+		lex_entry *o = &lx->h.ent[r];
 		if (o->cat == cat && o->where == where && o->amb == amb &&
 		    !strcmp(o->lang, lg) && !strcmp(o->value, value)) {
 			o->off = 0;
@@ -760,14 +737,14 @@ static int add_entry(lexicon *lx, trie *t, uint32_t n, int cat, const char *lg,
 	}
 	if (lx->nent == lx->entcap) {
 		size_t cap = lx->entcap * 2;
-		lex_entry *p = realloc(lx->ent, cap * sizeof *p);
+		lex_entry *p = realloc(lx->h.ent, cap * sizeof *p);
 		if (!p)
 			return -1;
-		lx->ent = p;
+		lx->h.ent = p;
 		lx->entcap = cap;
 	}
 	size_t idx = lx->nent++;
-	e = &lx->ent[idx];
+	e = &lx->h.ent[idx];
 	memset(e, 0, sizeof *e);
 	e->cat = (uint8_t)cat;
 	e->where = (uint8_t)where;
@@ -789,9 +766,9 @@ static int add_entry(lexicon *lx, trie *t, uint32_t n, int cat, const char *lg,
 		t->nodes[n].first = (uint32_t)idx;
 	else {
 		uint32_t q = t->nodes[n].first;
-		while (lx->ent[q].next)
-			q = lx->ent[q].next;
-		lx->ent[q].next = (uint32_t)idx;
+		while (lx->h.ent[q].next)
+			q = lx->h.ent[q].next;
+		lx->h.ent[q].next = (uint32_t)idx;
 	}
 	t->nodes[n].cats |= 1u << cat;
 	return 0;
@@ -1366,8 +1343,8 @@ int lex_image_write(const lexicon *lx, const unsigned char key[16], tm_buf *out)
 	if (put(out, &h, sizeof h) || put(out, lx->strs.data, lx->strs.len) ||
 	    put(out, lx->voc, lx->voccap * sizeof *lx->voc) ||
 	    put(out, lx->words, (lx->nvoc + 1) * sizeof *lx->words) ||
-	    put(out, lx->root, (lx->nvoc + 1) * sizeof *lx->root) ||
-	    put(out, lx->wnext, lx->nvoc + 1) ||
+	    put(out, lx->h.root, (lx->nvoc + 1) * sizeof *lx->h.root) ||
+	    put(out, lx->h.wnext, lx->nvoc + 1) ||
 	    put(out, lx->ph.edges, lx->ph.edgecap * sizeof *lx->ph.edges) ||
 	    put(out, lx->ph.nodes, lx->ph.nnode * sizeof *lx->ph.nodes) ||
 	    put(out, lx->sfx.edges, lx->sfx.edgecap * sizeof *lx->sfx.edges) ||
@@ -1375,7 +1352,7 @@ int lex_image_write(const lexicon *lx, const unsigned char key[16], tm_buf *out)
 	    put(out, lx->sfx2, sizeof lx->sfx2) || put(out, lx->sfx1, sizeof lx->sfx1) ||
 	    put(out, kb, (lx->sfx.nnode + 1) * sizeof *kb) ||
 	    put(out, kd, lx->sfx.nedge * sizeof *kd) ||
-	    put(out, lx->ent, lx->nent * sizeof *lx->ent) || put(out, pv.data, pv.len) ||
+	    put(out, lx->h.ent, lx->nent * sizeof *lx->h.ent) || put(out, pv.data, pv.len) ||
 	    put(out, ps.data, ps.len) || put(out, lx->byfem, lx->npairs * sizeof *lx->byfem) ||
 	    put(out, lx->femat, sizeof lx->femat))
 		goto done;
@@ -1505,8 +1482,8 @@ int lex_image_use(void *image, size_t n, int mapped, const unsigned char key[16]
 	if (!(lx->strs.data = take(&r, h.strslen)) ||
 	    !(lx->voc = take(&r, (uint64_t)h.voccap * sizeof *lx->voc)) ||
 	    !(lx->words = take(&r, (uint64_t)lx->wordcap * sizeof *lx->words)) ||
-	    !(lx->root = take(&r, (uint64_t)lx->wordcap * sizeof *lx->root)) ||
-	    !(lx->wnext = take(&r, lx->wordcap)) ||
+	    !(lx->h.root = take(&r, (uint64_t)lx->wordcap * sizeof *lx->h.root)) ||
+	    !(lx->h.wnext = take(&r, lx->wordcap)) ||
 	    !(lx->ph.edges = take(&r, (uint64_t)h.phcap * sizeof(edge))) ||
 	    !(lx->ph.nodes = take(&r, (uint64_t)h.phnode * sizeof(node))) ||
 	    !(lx->sfx.edges = take(&r, (uint64_t)h.sfxcap * sizeof(edge))) ||
@@ -1514,7 +1491,7 @@ int lex_image_use(void *image, size_t n, int mapped, const unsigned char key[16]
 	    !(s2 = take(&r, sizeof lx->sfx2)) || !(s1 = take(&r, sizeof lx->sfx1)) ||
 	    !(lx->skbeg = take(&r, ((uint64_t)h.sfxnode + 1) * sizeof *lx->skbeg)) ||
 	    !(lx->skid = take(&r, (uint64_t)h.sfxedge * sizeof *lx->skid)) ||
-	    !(lx->ent = take(&r, (uint64_t)h.nent * sizeof *lx->ent)) ||
+	    !(lx->h.ent = take(&r, (uint64_t)h.nent * sizeof *lx->h.ent)) ||
 	    !(ip = take(&r, (uint64_t)h.npairs * sizeof *ip)) ||
 	    !(pstr = take(&r, h.pstrlen)) ||
 	    !(fa = take(&r, (uint64_t)h.npairs * sizeof(uint32_t))) ||
@@ -1531,11 +1508,11 @@ int lex_image_use(void *image, size_t n, int mapped, const unsigned char key[16]
 					goto bad;
 				got++;
 			}
-		if (got != lx->nvoc || lx->root[0] != 0)
+		if (got != lx->nvoc || lx->h.root[0] != 0)
 			goto bad;
 		for (i = 1; i <= lx->nvoc; i++)
 			if ((uint64_t)lx->words[i].str + lx->words[i].len > lx->strs.len ||
-			    lx->root[i] >= lx->ph.nnode)
+			    lx->h.root[i] >= lx->ph.nnode)
 				goto bad;
 	}
 	if (check_trie(&lx->ph, h.phedge, (uint64_t)h.nvoc + 1, h.nent) ||
@@ -1556,7 +1533,7 @@ int lex_image_use(void *image, size_t n, int mapped, const unsigned char key[16]
 	/* the entries: known codes, terminated strings, and lists that only
 	 * go forward (no cycle) */
 	for (i = 1; i < lx->nent; i++) {
-		const lex_entry *e = &lx->ent[i];
+		const lex_entry *e = &lx->h.ent[i];
 		if (e->cat >= LC_NCAT || e->where > LW_ADJ || e->amb > 1 || e->off > 1 ||
 		    e->caps > 1 || e->lang[sizeof e->lang - 1] ||
 		    e->value[sizeof e->value - 1] ||

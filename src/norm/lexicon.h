@@ -63,6 +63,23 @@ typedef struct lex_pair {
 
 typedef struct lexicon lexicon;
 
+/* The first member of every lexicon: what the inline readers below
+ * (called for almost every word of every title) read without a call.
+ * Owned by the lexicon; nobody else writes it. */
+typedef struct lex_head {
+	lex_entry *ent;  /* entries by index, ent[0] unused */
+	uint32_t *root;  /* root[id]: the phrase trie's node of the one-word
+			  * prefix, 0 none (the root's edges, by direct index) */
+	uint8_t *wnext;  /* wnext[id]: 1 when the word follows another in
+			  * some phrase (else no step below the root can
+			  * take it, and none is probed) */
+} lex_head;
+
+static inline const lex_head *lex_head_of(const lexicon *lx)
+{
+	return (const lex_head *)(const void *)lx;
+}
+
 /* Returns an empty lexicon, or NULL when memory ran out. */
 lexicon *lex_new(void);
 void lex_free(lexicon *lx);
@@ -115,9 +132,20 @@ int lex_add(lexicon *lx, int cat, const char *lang, const char *phrase,
  * vocabulary, or 0 when no phrase holds that word. */
 uint32_t lex_word(const lexicon *lx, const char *fold, size_t len, uint64_t h);
 
+/* lex_step below the root, for a word that follows another somewhere. */
+uint32_t lex_step_below(const lexicon *lx, uint32_t n, uint32_t word);
+
 /* The node reached from node n by the word of id `word`, or 0 when no
  * phrase goes on that way (always 0 for word 0). */
-uint32_t lex_step(const lexicon *lx, uint32_t n, uint32_t word);
+static inline uint32_t lex_step(const lexicon *lx, uint32_t n, uint32_t word)
+{
+	const lex_head *h = lex_head_of(lx);
+	if (!word)
+		return 0;
+	if (n == LEX_ROOT)
+		return h->root[word];
+	return h->wnext[word] ? lex_step_below(lx, n, word) : 0;
+}
 
 /* The first entry of the phrase ending at node n, or NULL when n only
  * starts longer phrases; *cats (when cats is not NULL) receives the
@@ -137,12 +165,23 @@ const lex_entry *lex_ending(const lexicon *lx, const char *fold, size_t len,
  * -1 when memory ran out (nothing changed). */
 int lex_freeze(lexicon *lx);
 
-/* The next entry of the same phrase, or NULL. */
-const lex_entry *lex_next(const lexicon *lx, const lex_entry *e);
 /* An entry's index, and the entry of an index (stable while no entry is
  * added). */
-size_t lex_entry_index(const lexicon *lx, const lex_entry *e);
-const lex_entry *lex_entry_at(const lexicon *lx, size_t i);
+static inline size_t lex_entry_index(const lexicon *lx, const lex_entry *e)
+{
+	return (size_t)(e - lex_head_of(lx)->ent);
+}
+
+static inline const lex_entry *lex_entry_at(const lexicon *lx, size_t i)
+{
+	return &lex_head_of(lx)->ent[i];
+}
+
+/* The next entry of the same phrase, or NULL. */
+static inline const lex_entry *lex_next(const lexicon *lx, const lex_entry *e)
+{
+	return e->next ? lex_entry_at(lx, e->next) : NULL;
+}
 
 const lex_pair *lex_pairs(const lexicon *lx, size_t *n);
 

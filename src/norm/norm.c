@@ -23,6 +23,12 @@ struct normaliser {
 	uint64_t ring_total;  /* bytes ever written, for validity */
 	struct memo_slot { uint64_t h, at; uint32_t len; } *slot;
 	size_t nslot, hits, calls;
+	/* titles seen once lately: one bit per hash, nslot * 4 bits, all
+	 * cleared once a quarter are set; a title enters the ring the
+	 * second time it is cleaned, so the many seen only once are not
+	 * copied into it */
+	uint64_t *door;
+	size_t ndoor;     /* set bits */
 	nf_piece *pieces;
 	size_t pcap;
 };
@@ -54,6 +60,7 @@ void norm_free(normaliser *nm)
 	free(nm->pieces);
 	free(nm->ring);
 	free(nm->slot);
+	free(nm->door);
 	free(nm);
 }
 
@@ -88,10 +95,11 @@ static int put_lower(const char *text, tm_buf *b, const tm_tok *t, unsigned opt)
 	if (!(t->flags & TF_NONASCII) && (unsigned char)p[0] < 0x80 && !opt) {
 		if ((b->cap - b->len < t->len || !b->data) && buf_reserve(b, t->len) != 0)
 			return -1;
+		char *d = b->data + b->len;
 		for (size_t i = 0; i < t->len; i++) {
-			char c = p[i];
-			b->data[b->len++] = (char)(c >= 'A' && c <= 'Z' ? c + 32 : c);
+			d[i] = (char)uni_ascii_lower[(unsigned char)p[i]];
 		}
+		b->len += t->len;
 		return 0;
 	}
 	return uni_lower_word(p, t->len, opt, b);
@@ -503,11 +511,13 @@ int norm_memo(normaliser *nm, size_t bytes)
 {
 	free(nm->ring);
 	free(nm->slot);
+	free(nm->door);
 	nm->ring = NULL;
 	nm->slot = NULL;
+	nm->door = NULL;
 	nm->ring_cap = nm->ring_pos = 0;
 	nm->ring_total = 0;
-	nm->nslot = 0;
+	nm->nslot = nm->ndoor = 0;
 	if (bytes < 4096)
 		return 0;
 	size_t slots = 1024;
@@ -515,11 +525,14 @@ int norm_memo(normaliser *nm, size_t bytes)
 		slots *= 2;
 	nm->ring = malloc(bytes);
 	nm->slot = calloc(slots, sizeof *nm->slot);
-	if (!nm->ring || !nm->slot) {
+	nm->door = calloc(slots / 16, sizeof *nm->door);
+	if (!nm->ring || !nm->slot || !nm->door) {
 		free(nm->ring);
 		free(nm->slot);
+		free(nm->door);
 		nm->ring = NULL;
 		nm->slot = NULL;
+		nm->door = NULL;
 		return -1;
 	}
 	nm->ring_cap = bytes;
@@ -546,11 +559,32 @@ typedef struct memo_piece {
 	uint8_t kind;
 } memo_piece;
 
+/* Eight bytes at a step (the memory only needs slots spread well: a
+ * record is compared in full before use). */
 static uint64_t memo_hash(const char *s, size_t n, const char *lang)
 {
-	uint64_t h = tok_hash(s, n);
-	if (lang)
-		h = tok_hash_mix(h, tok_hash(lang, strlen(lang)));
+	uint64_t h = 0x9E3779B97F4A7C15ULL ^ n, w;
+	size_t i = 0;
+
+	for (; i + 8 <= n; i += 8) {
+		memcpy(&w, s + i, 8);
+		h = (h ^ w) * 0xFF51AFD7ED558CCDULL;
+		h ^= h >> 29;
+	}
+	if (i < n) {
+		w = 0;
+		memcpy(&w, s + i, n - i);
+		h = (h ^ w) * 0xFF51AFD7ED558CCDULL;
+		h ^= h >> 29;
+	}
+	if (lang) {
+		w = 0;
+		memcpy(&w, lang, strnlen(lang, 8));
+		h = (h ^ w ^ 0xA5) * 0xC4CEB9FE1A85EC53ULL;
+	}
+	h ^= h >> 33;
+	h *= 0xC4CEB9FE1A85EC53ULL;
+	h ^= h >> 33;
 	return h | 1;
 }
 
@@ -686,6 +720,22 @@ static void memo_put(normaliser *nm, uint64_t h, const char *raw, size_t n,
 	nm->ring_total += need;
 }
 
+/* Was a title of hash h cleaned lately?  Notes it when not. */
+static int memo_admit(normaliser *nm, uint64_t h)
+{
+	size_t nbit = nm->nslot * 4, b = (size_t)(h >> 32) & (nbit - 1);
+	uint64_t *w = &nm->door[b / 64], m = 1ULL << (b % 64);
+
+	if (*w & m)
+		return 1;
+	if (++nm->ndoor > nbit / 4) {
+		memset(nm->door, 0, nbit / 8);
+		nm->ndoor = 1;
+	}
+	*w |= m;
+	return 0;
+}
+
 int norm_title(normaliser *nm, const char *raw, size_t n, const char *lang,
 	       norm_result *res)
 {
@@ -703,6 +753,7 @@ int norm_title(normaliser *nm, const char *raw, size_t n, const char *lang,
 	}
 	if (compute(nm, raw, n, lang, res) != 0)
 		return -1;
-	memo_put(nm, h, raw, n, lang, res);
+	if (memo_admit(nm, h))
+		memo_put(nm, h, raw, n, lang, res);
 	return 0;
 }

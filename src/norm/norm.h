@@ -52,8 +52,10 @@ int norm_title(normaliser *nm, const char *raw, size_t n, const char *lang,
 
 /* Remembers the results of up to `bytes` of recent distinct titles
  * (raw bytes, title, key, facets) so a title seen again is not cleaned
- * again: job-posting streams repeat titles heavily.  0 switches the
- * memory off (the default).  Returns 0 or -1 (memory; nothing changed). */
+ * again: job-posting streams repeat titles heavily.  A title is kept
+ * from its second cleaning on (most titles of a stream are seen once:
+ * they are not copied in).  0 switches the memory off (the default).
+ * Returns 0 or -1 (memory; nothing changed). */
 int norm_memo(normaliser *nm, size_t bytes);
 
 /* Titles answered from the memory, and all titles, so far. */

@@ -81,12 +81,8 @@ static int grow_arrays(tm_title *ti, size_t ntok)
 	return 0;
 }
 
-int entry_applies(const tm_title *ti, const lex_entry *e)
+int entry_applies_amb(const tm_title *ti, const lex_entry *e)
 {
-	if (e->off)
-		return 0;
-	if (!e->amb || ti->any_lang)
-		return 1;
 	return ti->lang && strcmp(e->lang, ti->lang) == 0;
 }
 
@@ -441,8 +437,14 @@ int title_build(tm_title *ti)
 				ti->lflags |= LF_URL;
 			break;
 		default:
-			if (x->ch && strchr("/-*:_.(,|\x01", x->ch))
+			switch (x->ch) {
+			case '/': case '-': case '*': case ':': case '_':
+			case '.': case '(': case ',': case '|': case TOK_MIDDOT:
 				ti->lflags |= LF_JOIN;
+				break;
+			default:
+				break;
+			}
 			if (x->ch == '=') /* a query: "…/jobs?ref=board" */
 				ti->lflags |= LF_URL;
 			break;

@@ -212,8 +212,16 @@ static inline const lex_entry *match_mask(tm_title *ti, size_t k,
 	return match_mask_(ti, k, mask, kept, len);
 }
 
+/* entry_applies for an entry that applies in one language only. */
+int entry_applies_amb(const tm_title *ti, const lex_entry *e);
+
 /* Does entry e apply to this title's language? */
-int entry_applies(const tm_title *ti, const lex_entry *e);
+static inline int entry_applies(const tm_title *ti, const lex_entry *e)
+{
+	if (e->off)
+		return 0;
+	return !e->amb || ti->any_lang || entry_applies_amb(ti, e);
+}
 
 /* Marks tokens [t0, t1] removed as kind (protected tokens excepted) and
  * records the span.  Returns 0 or -1 (memory). */

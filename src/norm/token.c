@@ -133,11 +133,15 @@ static size_t scan_word(uni_ctx *u, const char *s, size_t n, size_t i,
 		unsigned char b = i < n ? (unsigned char)s[i] : 0;
 		if (b && b < 0x80) {
 			if (b >= 'a' && b <= 'z') {
-				letters++;
+				/* a run of small letters at once */
+				size_t j = i + 1;
+				while (j < n && (unsigned char)(s[j] - 'a') < 26u)
+					j++;
+				letters += (int)(j - i);
 				lower_seen = 1;
 				prevlow = 1;
-				prev = b;
-				i++;
+				prev = (unsigned char)s[j - 1];
+				i = j;
 				continue;
 			}
 			if (b >= 'A' && b <= 'Z') {
@@ -367,8 +371,7 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 				return -1;
 			d = tl->fold.data + tl->fold.len;
 			for (size_t j = 0; j < t->len; j++) {
-				unsigned char ch = (unsigned char)p[j];
-				ch = (unsigned char)(ch >= 'A' && ch <= 'Z' ? ch + 32 : ch);
+				unsigned char ch = uni_ascii_lower[(unsigned char)p[j]];
 				d[j] = (char)ch;
 				h ^= ch;
 				h *= 0x100000001B3ULL;

@@ -15,6 +15,7 @@ void uni_ctx_free(uni_ctx *u)
 	u->cp = NULL;
 	u->cap = 0;
 	buf_free(&u->safe);
+	buf_free(&u->one);
 }
 
 const char *uni_version(void) { return utf8proc_unicode_version(); }
@@ -252,10 +253,28 @@ static const unsigned char ascii_prep[128] = {
 	0x70, 0x71, 0x72, 0x73, 0x74, 0x75, 0x76, 0x77, 0x78, 0x79, 0x7A, 0x7B, 0x7C, 0x7D, 0x7E, 0x20,
 };
 
+const unsigned char uni_ascii_lower[256] = {
+	0x00, 0x01, 0x02, 0x03, 0x04, 0x05, 0x06, 0x07, 0x08, 0x09, 0x0A, 0x0B, 0x0C, 0x0D, 0x0E, 0x0F,
+	0x10, 0x11, 0x12, 0x13, 0x14, 0x15, 0x16, 0x17, 0x18, 0x19, 0x1A, 0x1B, 0x1C, 0x1D, 0x1E, 0x1F,
+	0x20, 0x21, 0x22, 0x23, 0x24, 0x25, 0x26, 0x27, 0x28, 0x29, 0x2A, 0x2B, 0x2C, 0x2D, 0x2E, 0x2F,
+	0x30, 0x31, 0x32, 0x33, 0x34, 0x35, 0x36, 0x37, 0x38, 0x39, 0x3A, 0x3B, 0x3C, 0x3D, 0x3E, 0x3F,
+	0x40, 0x61, 0x62, 0x63, 0x64, 0x65, 0x66, 0x67, 0x68, 0x69, 0x6A, 0x6B, 0x6C, 0x6D, 0x6E, 0x6F,
+	0x70, 0x71, 0x72, 0x73, 0x74, 0x75, 0x76, 0x77, 0x78, 0x79, 0x7A, 0x5B, 0x5C, 0x5D, 0x5E, 0x5F,
+	0x60, 0x61, 0x62, 0x63, 0x64, 0x65, 0x66, 0x67, 0x68, 0x69, 0x6A, 0x6B, 0x6C, 0x6D, 0x6E, 0x6F,
+	0x70, 0x71, 0x72, 0x73, 0x74, 0x75, 0x76, 0x77, 0x78, 0x79, 0x7A, 0x7B, 0x7C, 0x7D, 0x7E, 0x7F,
+	0x80, 0x81, 0x82, 0x83, 0x84, 0x85, 0x86, 0x87, 0x88, 0x89, 0x8A, 0x8B, 0x8C, 0x8D, 0x8E, 0x8F,
+	0x90, 0x91, 0x92, 0x93, 0x94, 0x95, 0x96, 0x97, 0x98, 0x99, 0x9A, 0x9B, 0x9C, 0x9D, 0x9E, 0x9F,
+	0xA0, 0xA1, 0xA2, 0xA3, 0xA4, 0xA5, 0xA6, 0xA7, 0xA8, 0xA9, 0xAA, 0xAB, 0xAC, 0xAD, 0xAE, 0xAF,
+	0xB0, 0xB1, 0xB2, 0xB3, 0xB4, 0xB5, 0xB6, 0xB7, 0xB8, 0xB9, 0xBA, 0xBB, 0xBC, 0xBD, 0xBE, 0xBF,
+	0xC0, 0xC1, 0xC2, 0xC3, 0xC4, 0xC5, 0xC6, 0xC7, 0xC8, 0xC9, 0xCA, 0xCB, 0xCC, 0xCD, 0xCE, 0xCF,
+	0xD0, 0xD1, 0xD2, 0xD3, 0xD4, 0xD5, 0xD6, 0xD7, 0xD8, 0xD9, 0xDA, 0xDB, 0xDC, 0xDD, 0xDE, 0xDF,
+	0xE0, 0xE1, 0xE2, 0xE3, 0xE4, 0xE5, 0xE6, 0xE7, 0xE8, 0xE9, 0xEA, 0xEB, 0xEC, 0xED, 0xEE, 0xEF,
+	0xF0, 0xF1, 0xF2, 0xF3, 0xF4, 0xF5, 0xF6, 0xF7, 0xF8, 0xF9, 0xFA, 0xFB, 0xFC, 0xFD, 0xFE, 0xFF,
+};
+
 static inline unsigned char ascii_fold(unsigned char c)
 {
-	c = ascii_prep[c];
-	return (unsigned char)(c + ((unsigned)(c - 'A') < 26u) * 32);
+	return uni_ascii_lower[ascii_prep[c]];
 }
 
 /* Fast-table index of a code point, or -1.  Letters of Latin-1 and
@@ -326,6 +345,46 @@ int uni_class_case(uni_ctx *u, int32_t cp)
 /* Maps s code point by code point through a fast table; returns 1 when
  * every code point had an entry (out then holds the result), 0 when the
  * general algorithm is needed (out unchanged), -1 on memory. */
+/* A code point outside the fast table that no normalisation joins to
+ * what stands beside it: combining class 0, no decomposition, in no
+ * canonical composition (neither first nor second: utf8proc's
+ * comb_index is UINT16_MAX), not Hangul (composed by rule, not by
+ * table).  Its prepared form and fold are then its own, whatever its
+ * neighbours, as for the table's code points.  Returns them (computed
+ * once with the general algorithm, then remembered), or NULL: the line
+ * takes the general path. */
+static const char *inert_map(uni_ctx *u, int32_t cp, int fold, uint8_t *l)
+{
+	struct uni_inert *e = &u->inert[(uint32_t)cp % UNI_INERT];
+
+	if (e->cp != cp) {
+		const utf8proc_property_t *p;
+		utf8proc_uint8_t enc[4];
+		utf8proc_ssize_t len;
+
+		if (cp < 0x80 || cp > 0x10FFFF || (cp >= 0x1100 && cp <= 0x11FF) ||
+		    (cp >= 0xA960 && cp <= 0xA97F) || (cp >= 0xAC00 && cp <= 0xD7FF))
+			return NULL;
+		p = utf8proc_get_property(cp);
+		if (p->combining_class || p->comb_index != UINT16_MAX ||
+		    p->decomp_seqindex != UINT16_MAX)
+			return NULL;
+		len = utf8proc_encode_char(cp, enc);
+		e->cp = 0;
+		for (int f = 0; f < 2; f++) {
+			buf_reset(&u->one);
+			if ((f ? slow_fold : slow_prepare)(u, (const char *)enc, (size_t)len,
+							   &u->one) != 0 || u->one.len > 4)
+				return NULL;
+			memcpy(f ? e->fold : e->prep, u->one.data, u->one.len);
+			*(f ? &e->flen : &e->plen) = (uint8_t)u->one.len;
+		}
+		e->cp = cp;
+	}
+	*l = fold ? e->flen : e->plen;
+	return fold ? e->fold : e->prep;
+}
+
 static int fast_map(uni_ctx *u, const char *s, size_t n, tm_buf *out, int fold)
 {
 	size_t start = out->len, i = 0;
@@ -337,35 +396,35 @@ static int fast_map(uni_ctx *u, const char *s, size_t n, tm_buf *out, int fold)
 	while (i < n) {
 		unsigned char b = (unsigned char)s[i];
 		if (b < 0x80) {
-			/* a run of ASCII at once: the tables hold the same as
-			 * the ASCII path */
-			size_t e = i + 1;
-			while (e < n && (unsigned char)s[e] < 0x80)
-				e++;
-			if (out->cap - out->len < e - i && buf_reserve(out, e - i) != 0)
+			/* a run of ASCII at once, mapped as it is found: the
+			 * tables hold the same as the ASCII path (room for
+			 * the rest of the line, the longest the run can be) */
+			if (out->cap - out->len < n - i && buf_reserve(out, n - i) != 0)
 				return -1;
-			char *d = out->data + out->len;
+			char *d = out->data + out->len, *d0 = d;
 			if (fold)
-				for (size_t k = i; k < e; k++)
-					*d++ = (char)ascii_fold((unsigned char)s[k]);
+				for (; i < n && (b = (unsigned char)s[i]) < 0x80; i++)
+					*d++ = (char)ascii_fold(b);
 			else
-				for (size_t k = i; k < e; k++)
-					*d++ = (char)ascii_prep[(unsigned char)s[k]];
-			out->len += e - i;
-			i = e;
+				for (; i < n && (b = (unsigned char)s[i]) < 0x80; i++)
+					*d++ = (char)ascii_prep[b];
+			out->len += (size_t)(d - d0);
 			continue;
 		}
 		size_t j = i;
 		int32_t cp = uni_next(s, n, &j);
 		int x = fast_index(cp);
 		uint8_t l;
-		if (x < 0 || (l = fold ? u->flen[x] : u->plen[x]) == 0xFF) {
+		const char *rep;
+		if (x >= 0 && (l = fold ? u->flen[x] : u->plen[x]) != 0xFF)
+			rep = fold ? u->fold[x] : u->prep[x];
+		else if (!(rep = inert_map(u, cp, fold, &l))) {
 			out->len = start;
 			return 0;
 		}
 		if (out->cap - out->len < 4 && buf_reserve(out, 4) != 0)
 			return -1;
-		memcpy(out->data + out->len, fold ? u->fold[x] : u->prep[x], l);
+		memcpy(out->data + out->len, rep, l);
 		out->len += l;
 		i = j;
 	}

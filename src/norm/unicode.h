@@ -15,6 +15,7 @@
 #include "core/buf.h"
 
 #define UNI_FAST 0x190
+#define UNI_INERT 64
 
 typedef struct uni_ctx {
 	int32_t *cp;
@@ -27,6 +28,15 @@ typedef struct uni_ctx {
 	uint8_t plen[UNI_FAST], flen[UNI_FAST];
 	uint8_t cls[0x180]; /* enum uni_class | UNI_UP | UNI_LOW */
 	tm_buf safe;        /* the input cut to the Stream-Safe Text Format */
+	/* the same for code points outside that table that normalisation
+	 * never joins to a neighbour (emoji, symbols: see inert_map),
+	 * remembered by code point; cp 0 marks a free slot */
+	struct uni_inert {
+		int32_t cp;
+		uint8_t plen, flen;
+		char prep[4], fold[4];
+	} inert[UNI_INERT];
+	tm_buf one;         /* one code point's results while computed */
 } uni_ctx;
 
 /* Normalising sorts every run of combining marks by their combining
@@ -80,6 +90,10 @@ int uni_lower(const char *s, size_t n, tm_buf *out);
  * section 3.13) is written ς, and with UNI_TURKIC the capital I is
  * dotless ı (SpecialCasing.txt, tr and az).  Linear in n. */
 int uni_lower_word(const char *s, size_t n, unsigned opt, tm_buf *out);
+
+/* A byte lowercased: A-Z to a-z, every other byte as it is (the lowercase
+ * of ASCII text, byte by byte). */
+extern const unsigned char uni_ascii_lower[256];
 
 /* Decodes the code point at s[*i] (well-formed UTF-8) and advances *i;
  * a truncated sequence gives U+FFFD and advances one byte. */

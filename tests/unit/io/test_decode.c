@@ -30,6 +30,16 @@ static void test_valid_passes(void **state)
 	repair_is("", 0, "", 0);
 	repair_is("\xF0\x9F\x98\x80", 4, "\xF0\x9F\x98\x80", 0); /* U+1F600 */
 	assert_int_equal(dec_valid_prefix("abc\xC3", 4), 3);
+	/* ASCII is read eight bytes at a step: a NUL stops the prefix
+	 * wherever it stands, bytes next to 0 (1, 0x7F) do not */
+	char buf[24];
+	for (size_t at = 0; at <= sizeof buf; at++) {
+		for (size_t i = 0; i < sizeof buf; i++)
+			buf[i] = (char)(i % 3 == 0 ? 0x01 : i % 3 == 1 ? 0x7F : 'a');
+		if (at < sizeof buf)
+			buf[at] = 0;
+		assert_int_equal(dec_valid_prefix(buf, sizeof buf), at);
+	}
 }
 
 /* Unicode 15.0 Table 3-8: 61 F1 80 80 E1 80 C2 62 80 63 80 BF 64 gives

@@ -20,6 +20,7 @@
 
 #include <cmocka.h>
 
+#include "io/decode.h"
 #include "norm/unicode.h"
 
 static uni_ctx U_;
@@ -121,6 +122,64 @@ static void test_prepare(void **state)
 	prep_is("Cafe\xCC\x81", "Café");                               /* composed */
 	prep_is("vendeur\xC2\xB7" "euse", "vendeur\xC2\xB7" "euse");   /* middle dot kept */
 	prep_is("tab\there", "tab here");
+}
+
+/* A line of Latin letters (which compose with a following mark) and
+ * code point X takes the per-code-point path when X allows it; a
+ * trailing " U+FB01" (a ligature: decomposed, so never taken code point
+ * by code point; it changes nothing before it) sends the same line down
+ * the general algorithm.  Both must agree, in
+ * the working form and the fold, for every code point sampled (every
+ * 61st; whole: the emoji and symbol blocks, and the combining marks,
+ * Indic vowel signs and Hangul jamo that compose with what precedes). */
+static void test_fast_paths_agree(void **state)
+{
+	(void)state;
+	tm_buf a = {0}, b = {0}, c = {0};
+	char line[64];
+	static const char mark[] = " \xEF\xAC\x81"; /* " ﬁ": a decomposition */
+	for (int32_t cp = 0x80; cp <= 0x10FFFF; cp++) {
+		if (cp % 61 && !(cp >= 0x2000 && cp <= 0x2BFF) &&
+		    !(cp >= 0x1F000 && cp <= 0x1FAFF) && !(cp >= 0x300 && cp <= 0x36F) &&
+		    !(cp >= 0x900 && cp <= 0xDFF) && !(cp >= 0x1100 && cp <= 0x11FF) &&
+		    !(cp >= 0x3099 && cp <= 0x309A))
+			continue;
+		if (cp >= 0xD800 && cp <= 0xDFFF)
+			continue;
+		for (int shape = 0; shape < 2; shape++) {
+			/* "EeXeXa"; "EᄀXXa" (a Hangul leading consonant, which
+			 * composes with a vowel jamo after it) */
+			size_t n = 0;
+			line[n++] = 'E';
+			if (shape)
+				n += dec_put_utf8(0x1100, line + n);
+			else
+				line[n++] = 'e';
+			n += dec_put_utf8(cp, line + n);
+			if (!shape)
+				line[n++] = 'e';
+			n += dec_put_utf8(cp, line + n);
+			line[n++] = 'a';
+			for (int fold = 0; fold < 2; fold++) {
+				int (*f)(uni_ctx *, const char *, size_t, tm_buf *) =
+					fold ? uni_fold : uni_prepare;
+				buf_reset(&a);
+				buf_reset(&b);
+				buf_reset(&c);
+				assert_int_equal(f(&U_, line, n, &a), 0);
+				assert_int_equal(f(&U_, mark, sizeof mark - 1, &c), 0);
+				assert_int_equal(buf_append(&a, c.data, c.len), 0);
+				memcpy(line + n, mark, sizeof mark - 1);
+				assert_int_equal(f(&U_, line, n + sizeof mark - 1, &b), 0);
+				if (a.len != b.len || memcmp(a.data, b.data, a.len))
+					fail_msg("U+%04X (%s): the two paths differ", (unsigned)cp,
+						 fold ? "fold" : "prepare");
+			}
+		}
+	}
+	buf_free(&a);
+	buf_free(&b);
+	buf_free(&c);
 }
 
 static void test_lower(void **state)
@@ -331,6 +390,7 @@ int main(void)
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(test_fold),
 		cmocka_unit_test(test_prepare),
+		cmocka_unit_test(test_fast_paths_agree),
 		cmocka_unit_test(test_lower),
 		cmocka_unit_test(test_class),
 		cmocka_unit_test(test_lower_word),
