@@ -6,9 +6,11 @@
  * a JSON Lines file (--queue, default titlemill-queue.jsonl) or a store
  * (--store URL).  The curators decide; this command only records.
  *
- * This file holds the options and the dispatch; the subcommands that
- * change the queue are in cli_review_change.c, those that read it in
- * cli_review_read.c (cli_review.h between them). */
+ * This file holds the options, opening the queue's storage and the
+ * dispatch; the subcommands that change the queue are in
+ * cli_review_change.c, those that read it in cli_review_read.c, what
+ * they share for messages and output in cli_review_out.c (cli_review.h
+ * between them). */
 #include <errno.h>
 #include <getopt.h>
 #include <math.h>
@@ -99,22 +101,6 @@ static const struct option longopts[] = {
 	{"output", required_argument, NULL, 'o'},
 	{"help", no_argument, NULL, 'h'},
 	{NULL, 0, NULL, 0}};
-
-int rv_usage_error(const char *what, const char *detail)
-{
-	fprintf(stderr, "titlemill review: %s%s\nRun 'titlemill review --help' for the options.\n",
-		what, detail ? detail : "");
-	return EXIT_USAGE;
-}
-
-/* A name from a list, or -1. */
-int rv_pick(const char *const *names, int n, const char *s)
-{
-	for (int i = 0; i < n; i++)
-		if (!strcmp(names[i], s))
-			return i;
-	return -1;
-}
 
 /* Which options each subcommand takes. */
 static const char *allowed(const char *sub)
@@ -252,43 +238,14 @@ static int open_place(const review_opts *o, rq_place *pl)
 {
 	tm_buf err = {0};
 	store_conf conf = {o->prefix, 2, 5000, 0};
-	int rc = rq_place_open(pl, o->queue, o->store, &conf, &err);
+	rq_store *qs = o->store ? rq_store_redis_open(o->store, &conf, &err)
+				: rq_store_file_open(o->queue, &err);
+	int rc = qs ? 0 : -1;
+	rq_place_init(pl, qs, o->store ? NULL : o->queue);
 	if (rc)
 		fprintf(stderr, "titlemill review: %s\n", err.data);
 	buf_free(&err);
 	return rc;
-}
-
-int rv_fail(const char *m)
-{
-	fprintf(stderr, "titlemill review: %s\n", m);
-	return EXIT_RUNTIME;
-}
-
-int rv_flush(tm_buf *b, FILE *fp)
-{
-	if (buf_status(b))
-		return TM_ENOMEM; /* never a part of what was to be written */
-	if (b->len && fwrite(b->data, 1, b->len, fp) != b->len)
-		return TM_EFAIL;
-	buf_reset(b);
-	return TM_OK;
-}
-
-int rv_finish(tm_buf *b)
-{
-	int rc = rv_flush(b, stdout);
-	buf_free(b);
-	if (rc == TM_ENOMEM)
-		return rv_fail("out of memory: the output is incomplete");
-	return rv_finish_stdout();
-}
-
-int rv_finish_stdout(void)
-{
-	if (fflush(stdout) != 0 || ferror(stdout))
-		return rv_fail("cannot write the output"), EXIT_RUNTIME;
-	return EXIT_OK;
 }
 
 /* What reading or writing the queue noticed: one "warning:" line each. */

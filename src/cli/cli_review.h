@@ -1,6 +1,6 @@
 /* cli_review.h - what the files of `titlemill review` share: the
- * options, the subcommands and their output helpers.  Internal to
- * cli_review*.c.
+ * options, the subcommands and their output helpers (cli_review_out.c).
+ * Internal to cli_review*.c.
  *
  * A subcommand returns an exit status (cli.h: EXIT_OK, EXIT_RUNTIME,
  * EXIT_USAGE) and prints its own messages; only cmd_review returns it

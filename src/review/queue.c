@@ -32,13 +32,11 @@ static int parse_place(rq_place *pl, rq_queue *q, const char *name, tm_buf *err)
 	return rc;
 }
 
-int rq_place_open(rq_place *pl, const char *path, const char *url, const store_conf *conf,
-		  tm_buf *err)
+void rq_place_init(rq_place *pl, rq_store *qs, const char *path)
 {
 	memset(pl, 0, sizeof *pl);
-	pl->path = url ? NULL : path;
-	pl->qs = url ? rq_store_redis_open(url, conf, err) : rq_store_file_open(path, err);
-	return pl->qs ? 0 : -1;
+	pl->path = path;
+	pl->qs = qs;
 }
 
 int rq_read(rq_place *pl, rq_queue *q, int missing_ok, tm_buf *err)

@@ -60,10 +60,11 @@ typedef struct rq_place {
 	size_t nbad;          /* lines that could not be read, from the same */
 } rq_place;
 
-/* Opens the queue in the store at url (with conf) when url is not NULL,
- * else the queue file path.  0, or -1 with a message in err. */
-int rq_place_open(rq_place *pl, const char *path, const char *url, const store_conf *conf,
-		  tm_buf *err);
+/* A place over the queue storage qs, opened by the caller with
+ * rq_store_file_open (path: the same file, which repair needs) or
+ * rq_store_redis_open (path NULL).  The place owns qs from now on:
+ * rq_place_close closes it. */
+void rq_place_init(rq_place *pl, rq_store *qs, const char *path);
 
 /* Reads the queue for reading only (no lock).  A missing file is an error
  * unless missing_ok.  The queue file is written by the rules of

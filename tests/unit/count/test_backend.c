@@ -368,7 +368,10 @@ static void test_queue(void **state)
 		add_arg a = {alt_line, "2026-12-02T09:00:00Z"};
 
 		fresh_prefix(pfx, sizeof pfx);
-		assert_int_equal(rq_place_open(&pl, qpath, backends[b].url, &conf, &err), 0);
+		rq_store *qs = backends[b].url ? rq_store_redis_open(backends[b].url, &conf, &err)
+					       : rq_store_file_open(qpath, &err);
+		assert_non_null(qs);
+		rq_place_init(&pl, qs, backends[b].url ? NULL : qpath);
 		/* no queue yet: empty when that is allowed */
 		assert_int_equal(rq_read(&pl, &q, 1, &err), 0);
 		assert_int_equal(q.n, 0);
@@ -381,7 +384,10 @@ static void test_queue(void **state)
 		assert_string_equal(err.data, "refused");
 		rq_place_close(&pl);
 
-		assert_int_equal(rq_place_open(&pl, qpath, backends[b].url, &conf, &err), 0);
+		qs = backends[b].url ? rq_store_redis_open(backends[b].url, &conf, &err)
+					       : rq_store_file_open(qpath, &err);
+		assert_non_null(qs);
+		rq_place_init(&pl, qs, backends[b].url ? NULL : qpath);
 		memset(&q, 0, sizeof q);
 		assert_int_equal(rq_read(&pl, &q, 0, &err), 0);
 		assert_int_equal(q.n, 2);
