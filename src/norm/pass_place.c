@@ -154,6 +154,36 @@ static int acronym(tm_title *ti, size_t k, size_t len, int caps)
 	return 1;
 }
 
+/* A district written after a place as the last word of its segment: a
+ * number of one or two digits (Praha 5, Dublin 8) or a postal district
+ * in capitals, letters then digits and at most one letter more (Derby
+ * DE1, London SE15, Swindon SN2). */
+static size_t district_at(tm_title *ti, size_t k, size_t seg)
+{
+	const tm_tok *t;
+	const char *p;
+	size_t i = 0, a, d;
+
+	if (k >= ti->nunit || useg(ti, k) != seg || !ukept(ti, k) || ti->prot[ti->unit[k]] ||
+	    (k + 1 < ti->nunit && useg(ti, k + 1) == seg))
+		return 0;
+	d = (size_t)num_digits(ti, k);
+	if (d == 1 || d == 2)
+		return 1;
+	t = U(ti, k);
+	if (t->kind != TK_WORD || !(t->flags & TF_DIGIT) || !(t->flags & TF_ALLCAPS) ||
+	    t->len < 2 || t->len > 4)
+		return 0;
+	p = ti->text + t->off;
+	for (a = 0; i < t->len && p[i] >= 'A' && p[i] <= 'Z'; i++)
+		a++;
+	for (d = 0; i < t->len && p[i] >= '0' && p[i] <= '9'; i++)
+		d++;
+	if (i < t->len && p[i] >= 'A' && p[i] <= 'Z')
+		i++;
+	return a >= 1 && a <= 2 && d >= 1 && d <= 2 && i == t->len;
+}
+
 /* From unit k (a place), the end of a run of places joined by
  * connectors or slashes: Köln/Bonn, Köln und Bonn. */
 static size_t place_run(tm_title *ti, size_t k, size_t plen, int allow_strong)
@@ -176,6 +206,8 @@ static size_t place_run(tm_title *ti, size_t k, size_t plen, int allow_strong)
 		e += len;
 	if ((len = postcode_at(ti, e)) && useg(ti, e) == useg(ti, k))
 		e += len;
+	else
+		e += district_at(ti, e, useg(ti, k));
 	return e;
 }
 
@@ -302,6 +334,8 @@ int place_segment(tm_title *ti, size_t s, int caps, int strong_ok)
 		} else if ((len = postcode_at(ti, k))) {
 			weak = 1;
 			k += len;
+		} else if (any && k + 1 == k1 && district_at(ti, k, useg(ti, k))) {
+			k++;
 		} else if (loc_word(ti, k, NULL, &len) ||
 			   match_val(ti, k, LC_UNIT, "connector", 1, &len)) {
 			weak = 1;
