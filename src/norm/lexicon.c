@@ -192,11 +192,10 @@ static int grow_edges(trie *t)
 static uint32_t trie_node(trie *t)
 {
 	if (t->nnode == t->nodecap) {
-		node *p = realloc(t->nodes, t->nodecap * 2 * sizeof *p);
+		node *p = tm_grow(t->nodes, &t->nodecap, t->nnode + 1, sizeof *p, 64);
 		if (!p)
 			return 0;
 		t->nodes = p;
-		t->nodecap *= 2;
 	}
 	t->nodes[t->nnode].first = 0;
 	t->nodes[t->nnode].cats = 0;
@@ -416,18 +415,19 @@ static int grow_vocab(lexicon *lx)
 
 static int grow_words(lexicon *lx)
 {
-	size_t cap = lx->wordcap * 2;
-	wordrec *w = realloc(lx->words, cap * sizeof *w);
+	/* the three arrays double alike from wordcap to cap */
+	size_t cap = lx->wordcap, rcap = cap, xcap = cap;
+	wordrec *w = tm_grow(lx->words, &cap, lx->wordcap + 1, sizeof *w, 64);
 	uint32_t *r;
 	uint8_t *x;
 	if (!w)
 		return -1;
 	lx->words = w;
-	if (!(r = realloc(lx->h.root, cap * sizeof *r)))
+	if (!(r = tm_grow(lx->h.root, &rcap, cap, sizeof *r, 64)))
 		return -1;
 	memset(r + lx->wordcap, 0, (cap - lx->wordcap) * sizeof *r);
 	lx->h.root = r;
-	if (!(x = realloc(lx->h.wnext, cap)))
+	if (!(x = tm_grow(lx->h.wnext, &xcap, cap, 1, 64)))
 		return -1;
 	memset(x + lx->wordcap, 0, cap - lx->wordcap);
 	lx->h.wnext = x;
@@ -736,12 +736,10 @@ static int add_entry(lexicon *lx, trie *t, uint32_t n, int cat, const char *lg,
 		}
 	}
 	if (lx->nent == lx->entcap) {
-		size_t cap = lx->entcap * 2;
-		lex_entry *p = realloc(lx->h.ent, cap * sizeof *p);
+		lex_entry *p = tm_grow(lx->h.ent, &lx->entcap, lx->nent + 1, sizeof *p, 64);
 		if (!p)
 			return -1;
 		lx->h.ent = p;
-		lx->entcap = cap;
 	}
 	size_t idx = lx->nent++;
 	e = &lx->h.ent[idx];
@@ -914,24 +912,23 @@ static int add_pair(lexicon *lx, const char *lang, const char *masc,
 		return err_printf(err, "ending is not one word%s%s", "", "");
 	}
 	f = strndup(fold[0], fl[0]);
-	if (!m || !f || (lx->npairs == lx->paircap &&
-			 !(p = realloc(lx->pairs, (lx->paircap ? lx->paircap * 2 : 64) *
-							  sizeof *p)))) {
+	if (m && f && lx->npairs == lx->paircap) {
+		/* pairs and byfem double alike from paircap to cap */
+		size_t cap = lx->paircap, bcap = cap;
+		uint32_t *bf = NULL;
+		if ((p = tm_grow(lx->pairs, &cap, lx->npairs + 1, sizeof *p, 64))) {
+			lx->pairs = p;
+			bf = tm_grow(lx->byfem, &bcap, cap, sizeof *bf, 64);
+		}
+		if (bf) {
+			lx->byfem = bf;
+			lx->paircap = cap;
+		}
+	}
+	if (!m || !f || lx->npairs == lx->paircap) {
 		free(m);
 		free(f);
 		return err_printf(err, "out of memory%s%s", "", "");
-	}
-	if (lx->npairs == lx->paircap) {
-		size_t cap = lx->paircap ? lx->paircap * 2 : 64;
-		uint32_t *bf;
-		lx->pairs = p;
-		if (!(bf = realloc(lx->byfem, cap * sizeof *bf))) {
-			free(m);
-			free(f);
-			return err_printf(err, "out of memory%s%s", "", "");
-		}
-		lx->byfem = bf;
-		lx->paircap = cap;
 	}
 	{
 		/* the new pair goes to the end of its group (the ending
@@ -1141,8 +1138,7 @@ int lex_list_dir(const char *dir, lex_file **files, size_t *nfiles, tm_buf *err)
 			    de->d_name[0] == '.')
 				continue;
 			if (n == cap) {
-				char **p = realloc(names, (cap = cap ? cap * 2 : 16) *
-								  sizeof *p);
+				char **p = tm_grow(names, &cap, n + 1, sizeof *p, 16);
 				if (!p) {
 					rc = -1;
 					break;
@@ -1179,14 +1175,12 @@ int lex_list_dir(const char *dir, lex_file **files, size_t *nfiles, tm_buf *err)
 				}
 			}
 			if (*nfiles == fcap) {
-				size_t nc = fcap ? fcap * 2 : 64;
-				lex_file *p = realloc(*files, nc * sizeof *p);
+				lex_file *p = tm_grow(*files, &fcap, *nfiles + 1, sizeof *p, 64);
 				if (!p) {
 					rc = err_printf(err, "%s: out of memory%s", path, "");
 					break;
 				}
 				*files = p;
-				fcap = nc;
 			}
 			if (!((*files)[*nfiles].path = strdup(fpath))) {
 				rc = err_printf(err, "%s: out of memory%s", path, "");
