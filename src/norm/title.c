@@ -108,9 +108,9 @@ static void look_up(tm_title *ti, const tm_tok *x, uint32_t *word, uint32_t *end
 
 #define MAXPH 12 /* units of the longest phrase (lex_add's limit) */
 
-/* Records a phrase (or an ending) of `units` units at the current unit,
- * entries from e on.  Returns 0 or -1 (memory). */
-static int grow_ann(tm_title *ti)
+/* Room for one more annotation; kept out of line, the rare path of
+ * push_ann's loop. */
+__attribute__((noinline)) static int grow_ann(tm_title *ti)
 {
 	tm_ann *p = tm_grow(ti->ann, &ti->anncap, ti->nann + 1, sizeof *p, 64);
 	if (!p)
@@ -119,6 +119,8 @@ static int grow_ann(tm_title *ti)
 	return 0;
 }
 
+/* Records a phrase (or an ending) of `units` units at the current unit,
+ * entries from e on.  Returns 0 or -1 (memory). */
 static inline int push_ann(tm_title *ti, size_t k, uint32_t first, uint32_t cats,
 			   size_t units)
 {
