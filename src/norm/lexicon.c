@@ -58,7 +58,7 @@ static int grow_edges(trie *t)
 }
 
 /* A new node; 0 when memory ran out. */
-static uint32_t trie_node(trie *t)
+uint32_t lex_trie_node(trie *t)
 {
 	if (t->nnode == t->nodecap) {
 		node *p = tm_grow(t->nodes, &t->nodecap, t->nnode + 1, sizeof *p, 64);
@@ -83,7 +83,7 @@ uint32_t lex_trie_add(trie *t, uint32_t n, uint32_t sym)
 		return c;
 	if ((t->nedge + 1) * 2 > t->edgecap && grow_edges(t) != 0)
 		return 0;
-	if (!(c = trie_node(t)))
+	if (!(c = lex_trie_node(t)))
 		return 0;
 	for (j = edge_slot(key, t->edgecap); t->edges[j].key; j = (j + 1) & (t->edgecap - 1))
 		;
@@ -231,18 +231,6 @@ void lex_free(lexicon *lx)
 
 /* ---- the vocabulary and the phrase trie ---- */
 
-/* tok_hash mixed again (fmix64 of MurmurHash3): the slot from the low
- * bits, the fingerprint from the high half. */
-static inline uint64_t word_mix(uint64_t h)
-{
-	h ^= h >> 33;
-	h *= 0xFF51AFD7ED558CCDULL;
-	h ^= h >> 33;
-	h *= 0xC4CEB9FE1A85EC53ULL;
-	h ^= h >> 33;
-	return h;
-}
-
 uint32_t lex_word(const lexicon *lx, const char *fold, size_t len, uint64_t h)
 {
 	uint64_t m = word_mix(h);
@@ -259,7 +247,7 @@ uint32_t lex_word(const lexicon *lx, const char *fold, size_t len, uint64_t h)
 	return 0;
 }
 
-static int grow_vocab(lexicon *lx)
+int lex_grow_vocab(lexicon *lx)
 {
 	size_t cap = lx->voccap * 2, i, m = cap - 1;
 	wslot *v = calloc(cap, sizeof *v);
@@ -282,7 +270,7 @@ static int grow_vocab(lexicon *lx)
 	return 0;
 }
 
-static int grow_words(lexicon *lx)
+int lex_grow_words(lexicon *lx)
 {
 	/* the three arrays double alike from wordcap to cap */
 	size_t cap = lx->wordcap, rcap = cap, xcap = cap;
@@ -304,53 +292,9 @@ static int grow_words(lexicon *lx)
 	return 0;
 }
 
-/* The id of a word, added when new; 0 when memory ran out.  Ids stay
- * below wordcap, so words[] and root[] have a slot for each. */
-uint32_t lex_add_word(lexicon *lx, const char *fold, size_t len, uint64_t h)
-{
-	uint32_t id = lex_word(lx, fold, len, h);
-	uint64_t m;
-	size_t j;
-
-	if (id)
-		return id;
-	if ((lx->nvoc + 2) * 2 > lx->voccap && grow_vocab(lx) != 0)
-		return 0;
-	if (lx->nvoc + 2 > lx->wordcap && grow_words(lx) != 0)
-		return 0;
-	if (len > UINT32_MAX || lx->nvoc + 1 >= UINT32_MAX || buf_append(&lx->strs, fold, len) != 0)
-		return 0;
-	m = word_mix(h);
-	for (j = (size_t)m & (lx->voccap - 1); lx->voc[j].id; j = (j + 1) & (lx->voccap - 1))
-		;
-	id = (uint32_t)++lx->nvoc;
-	lx->words[id].str = (uint32_t)(lx->strs.len - len);
-	lx->words[id].len = (uint32_t)len;
-	lx->voc[j].fp = (uint32_t)(m >> 32);
-	lx->voc[j].id = id;
-	return id;
-}
-
 uint32_t lex_step_below(const lexicon *lx, uint32_t n, uint32_t id)
 {
 	return trie_get(&lx->ph, n, id);
-}
-
-/* The phrase trie's child of node n by word id, made when missing; 0
- * when memory ran out. */
-uint32_t lex_add_step(lexicon *lx, uint32_t n, uint32_t id)
-{
-	uint32_t c;
-
-	if (!id)
-		return 0;
-	if (n != LEX_ROOT) {
-		lx->h.wnext[id] = 1;
-		return lex_trie_add(&lx->ph, n, id);
-	}
-	if (!lx->h.root[id] && (c = trie_node(&lx->ph)))
-		lx->h.root[id] = c;
-	return lx->h.root[id];
 }
 
 static const lex_entry *node_entry(const lexicon *lx, const node *nd,

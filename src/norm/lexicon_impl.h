@@ -96,13 +96,72 @@ struct lexicon {
  * ran out. */
 uint32_t lex_trie_add(trie *t, uint32_t n, uint32_t sym);
 
-/* The id of a word (its fold and tok_hash), added when new; 0 when
- * memory ran out. */
-uint32_t lex_add_word(lexicon *lx, const char *fold, size_t len, uint64_t h);
+/* A new node of t; 0 when memory ran out. */
+uint32_t lex_trie_node(trie *t);
+
+/* The vocabulary's table, and the arrays by word id, doubled: 0, or -1
+ * (memory). */
+int lex_grow_vocab(lexicon *lx);
+int lex_grow_words(lexicon *lx);
+
+/* The three below are inline: lex_add (lexicon_read.c) calls them for
+ * every word of every phrase it loads, at every start without a cache.
+ *
+ * tok_hash mixed again (fmix64 of MurmurHash3): the slot from the low
+ * bits, the fingerprint from the high half. */
+static inline uint64_t word_mix(uint64_t h)
+{
+	h ^= h >> 33;
+	h *= 0xFF51AFD7ED558CCDULL;
+	h ^= h >> 33;
+	h *= 0xC4CEB9FE1A85EC53ULL;
+	h ^= h >> 33;
+	return h;
+}
+
+/* The id of a word, added when new; 0 when memory ran out.  Ids stay
+ * below wordcap, so words[] and root[] have a slot for each. */
+static inline uint32_t lex_add_word(lexicon *lx, const char *fold, size_t len, uint64_t h)
+{
+	uint32_t id = lex_word(lx, fold, len, h);
+	uint64_t m;
+	size_t j;
+
+	if (id)
+		return id;
+	if ((lx->nvoc + 2) * 2 > lx->voccap && lex_grow_vocab(lx) != 0)
+		return 0;
+	if (lx->nvoc + 2 > lx->wordcap && lex_grow_words(lx) != 0)
+		return 0;
+	if (len > UINT32_MAX || lx->nvoc + 1 >= UINT32_MAX || buf_append(&lx->strs, fold, len) != 0)
+		return 0;
+	m = word_mix(h);
+	for (j = (size_t)m & (lx->voccap - 1); lx->voc[j].id; j = (j + 1) & (lx->voccap - 1))
+		;
+	id = (uint32_t)++lx->nvoc;
+	lx->words[id].str = (uint32_t)(lx->strs.len - len);
+	lx->words[id].len = (uint32_t)len;
+	lx->voc[j].fp = (uint32_t)(m >> 32);
+	lx->voc[j].id = id;
+	return id;
+}
 
 /* The phrase trie's child of node n by word id, made when missing; 0
  * when memory ran out. */
-uint32_t lex_add_step(lexicon *lx, uint32_t n, uint32_t id);
+static inline uint32_t lex_add_step(lexicon *lx, uint32_t n, uint32_t id)
+{
+	uint32_t c;
+
+	if (!id)
+		return 0;
+	if (n != LEX_ROOT) {
+		lx->h.wnext[id] = 1;
+		return lex_trie_add(&lx->ph, n, id);
+	}
+	if (!lx->h.root[id] && (c = lex_trie_node(&lx->ph)))
+		lx->h.root[id] = c;
+	return lx->h.root[id];
+}
 
 /* Before the first change of a lexicon read in place from its image:
  * its arrays copied into memory of its own.  Returns 0 or -1 (memory;
