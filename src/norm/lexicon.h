@@ -193,7 +193,7 @@ const uint32_t *lex_pairs_fem_last(const lexicon *lx, int c, size_t *n);
 /* The compiled image of a lexicon (the lexicon cache's content): its
  * arrays as they are in memory, behind a header with a format version,
  * the caller's key (what the lexicon was built from) and a checksum.
- * The format is described beside the code in lexicon.c; raise
+ * The format is described beside the code in lexicon_image.c; raise
  * LEX_IMAGE_VERSION whenever it or the meaning of its content changes. */
 #define LEX_IMAGE_VERSION 1
 

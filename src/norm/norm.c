@@ -236,11 +236,10 @@ static int pieces(normaliser *nm, norm_result *res)
 
 	title_sort_spans(&nm->ti);
 	if (nm->ti.nspan > nm->pcap) {
-		nf_piece *p = realloc(nm->pieces, nm->ti.nspan * sizeof *p);
+		nf_piece *p = tm_grow(nm->pieces, &nm->pcap, nm->ti.nspan, sizeof *p, 16);
 		if (!p)
 			return -1;
 		nm->pieces = p;
-		nm->pcap = nm->ti.nspan;
 	}
 	for (i = 0; i < nm->ti.nspan; i++) {
 		const tm_span *s = &nm->ti.spans[i];
@@ -345,12 +344,10 @@ static int keep_pieces(normaliser *nm, size_t *npiece)
 		const tm_tok *a = &nm->ti.tl.t[s->t0], *b = &nm->ti.tl.t[s->t1];
 		size_t len = b->off + b->len - a->off, off = nm->ptext.len;
 		if (*npiece == nm->pcap) {
-			size_t cap = nm->pcap ? nm->pcap * 2 : 16;
-			nf_piece *p = realloc(nm->pieces, cap * sizeof *p);
+			nf_piece *p = tm_grow(nm->pieces, &nm->pcap, *npiece + 1, sizeof *p, 16);
 			if (!p)
 				return -1;
 			nm->pieces = p;
-			nm->pcap = cap;
 		}
 		if (buf_append(&nm->ptext, nm->work.data + a->off, len))
 			return -1;
@@ -614,11 +611,10 @@ static int memo_get(normaliser *nm, uint64_t h, const char *raw, size_t n,
 	res->masked_len = hd.masked;
 	p += hd.masked;
 	if (hd.npiece > nm->pcap) {
-		nf_piece *q = realloc(nm->pieces, hd.npiece * sizeof *q);
+		nf_piece *q = tm_grow(nm->pieces, &nm->pcap, hd.npiece, sizeof *q, 16);
 		if (!q)
 			return 0;
 		nm->pieces = q;
-		nm->pcap = hd.npiece;
 	}
 	for (uint32_t i = 0; i < hd.npiece; i++) {
 		memo_piece mp;

@@ -18,68 +18,45 @@ const char *nf_kind_name(int kind)
 	return kind >= 0 && kind < NF_NKIND ? kind_names[kind] : "other";
 }
 
+/* Resizes the per-token array a to exactly n elements (overflow
+ * checked); returns -1 from the caller when memory runs out. */
+#define RESIZE(a, n)                                                     \
+	do {                                                             \
+		size_t c_ = 0;                                           \
+		void *p_ = tm_grow((a), &c_, (n), sizeof *(a), (n));     \
+		if (!p_)                                                 \
+			return -1;                                       \
+		(a) = p_;                                                \
+	} while (0)
+
+/* Room for ntok tokens in every per-token array; the capacity doubles
+ * from 64.  Returns 0 or -1 (memory). */
 static int grow_arrays(tm_title *ti, size_t ntok)
 {
 	if (ntok <= ti->tcap)
 		return 0;
-	size_t cap = ti->tcap ? ti->tcap : 64;
-	while (cap < ntok)
-		cap *= 2;
-	uint8_t *rm = realloc(ti->rm, cap);
+	size_t cap = ti->tcap;
+	uint8_t *rm = tm_grow(ti->rm, &cap, ntok, 1, 64);
 	if (!rm)
 		return -1;
 	ti->rm = rm;
-	uint8_t *pr = realloc(ti->prot, cap);
-	if (!pr)
-		return -1;
-	ti->prot = pr;
-	uint32_t *ts = realloc(ti->tseg, cap * sizeof *ts);
-	if (!ts)
-		return -1;
-	ti->tseg = ts;
-	uint32_t *tu = realloc(ti->tunit, cap * sizeof *tu);
-	if (!tu)
-		return -1;
-	ti->tunit = tu;
-	const char **ma = realloc(ti->madd, cap * sizeof *ma);
-	if (!ma)
-		return -1;
-	ti->madd = ma;
-	uint8_t *mc = realloc(ti->mcut, cap);
-	if (!mc)
-		return -1;
-	ti->mcut = mc;
-	uint32_t *un = realloc(ti->unit, cap * sizeof *un);
-	if (!un)
-		return -1;
-	ti->unit = un;
-	tm_seg *sg = realloc(ti->segs, cap * sizeof *sg);
-	if (!sg)
-		return -1;
-	ti->segs = sg;
-	uint32_t *mo = realloc(ti->aoff, (cap + 1) * sizeof *mo);
-	if (!mo)
-		return -1;
-	ti->aoff = mo;
-	uint32_t *uc = realloc(ti->ucats, (cap + 1) * sizeof *uc);
-	if (!uc)
-		return -1;
-	ti->ucats = uc;
-	uint32_t *uw = realloc(ti->uword, cap * sizeof *uw);
-	if (!uw)
-		return -1;
-	ti->uword = uw;
-	uint32_t *ue = realloc(ti->uend, cap * sizeof *ue);
-	if (!ue)
-		return -1;
-	ti->uend = ue;
-	uint32_t *nk = realloc(ti->nextk, (cap + 1) * sizeof *nk);
-	if (!nk)
-		return -1;
-	ti->nextk = nk;
+	RESIZE(ti->prot, cap);
+	RESIZE(ti->tseg, cap);
+	RESIZE(ti->tunit, cap);
+	RESIZE(ti->madd, cap);
+	RESIZE(ti->mcut, cap);
+	RESIZE(ti->unit, cap);
+	RESIZE(ti->segs, cap);
+	RESIZE(ti->aoff, cap + 1);
+	RESIZE(ti->ucats, cap + 1);
+	RESIZE(ti->uword, cap);
+	RESIZE(ti->uend, cap);
+	RESIZE(ti->nextk, cap + 1);
 	ti->tcap = cap;
 	return 0;
 }
+
+#undef RESIZE
 
 int entry_applies_amb(const tm_title *ti, const lex_entry *e)
 {
@@ -131,19 +108,19 @@ static void look_up(tm_title *ti, const tm_tok *x, uint32_t *word, uint32_t *end
 
 #define MAXPH 12 /* units of the longest phrase (lex_add's limit) */
 
-/* Records a phrase (or an ending) of `units` units at the current unit,
- * entries from e on.  Returns 0 or -1 (memory). */
-static int grow_ann(tm_title *ti)
+/* Room for one more annotation; kept out of line, the rare path of
+ * push_ann's loop. */
+__attribute__((noinline)) static int grow_ann(tm_title *ti)
 {
-	size_t cap = ti->anncap ? ti->anncap * 2 : 64;
-	tm_ann *p = realloc(ti->ann, cap * sizeof *p);
+	tm_ann *p = tm_grow(ti->ann, &ti->anncap, ti->nann + 1, sizeof *p, 64);
 	if (!p)
 		return -1;
 	ti->ann = p;
-	ti->anncap = cap;
 	return 0;
 }
 
+/* Records a phrase (or an ending) of `units` units at the current unit,
+ * entries from e on.  Returns 0 or -1 (memory). */
 static inline int push_ann(tm_title *ti, size_t k, uint32_t first, uint32_t cats,
 			   size_t units)
 {
@@ -314,12 +291,10 @@ int remove_toks(tm_title *ti, size_t t0, size_t t1, int kind,
 		return 0;
 	ti->gen++;
 	if (ti->nspan == ti->spcap) {
-		size_t cap = ti->spcap ? ti->spcap * 2 : 16;
-		tm_span *p = realloc(ti->spans, cap * sizeof *p);
+		tm_span *p = tm_grow(ti->spans, &ti->spcap, ti->nspan + 1, sizeof *p, 16);
 		if (!p)
 			return -1;
 		ti->spans = p;
-		ti->spcap = cap;
 	}
 	ti->spans[ti->nspan].t0 = (uint32_t)t0;
 	ti->spans[ti->nspan].t1 = (uint32_t)t1;

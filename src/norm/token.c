@@ -27,12 +27,10 @@ uint64_t tok_hash(const char *s, size_t n)
 
 static int grow(tok_line *tl)
 {
-	size_t cap = tl->cap ? tl->cap * 2 : 64;
-	tm_tok *p = realloc(tl->t, cap * sizeof *p);
+	tm_tok *p = tm_grow(tl->t, &tl->cap, tl->n + 1, sizeof *p, 64);
 	if (!p)
 		return -1;
 	tl->t = p;
-	tl->cap = cap;
 	return 0;
 }
 

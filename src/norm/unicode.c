@@ -22,19 +22,10 @@ const char *uni_version(void) { return utf8proc_unicode_version(); }
 
 static int grow(uni_ctx *u, size_t need)
 {
-	size_t cap = u->cap ? u->cap : 256;
-	int32_t *p;
-
-	while (cap < need) {
-		if (cap > SIZE_MAX / 2 / sizeof(int32_t))
-			return -1;
-		cap *= 2;
-	}
-	p = realloc(u->cp, cap * sizeof(int32_t));
+	int32_t *p = tm_grow(u->cp, &u->cap, need, sizeof *p, 256);
 	if (!p)
 		return -1;
 	u->cp = p;
-	u->cap = cap;
 	return 0;
 }
 

@@ -1,4 +1,5 @@
-/* Unit tests for lexicon loading and lookup (src/norm/lexicon.c). */
+/* Unit tests for lexicon loading and lookup (src/norm/lexicon.c,
+ * lexicon_read.c) and its image (lexicon_image.c). */
 #include <setjmp.h>
 #include <stdarg.h>
 #include <stddef.h>

@@ -1,0 +1,545 @@
+/* pass_pay.c - pay, pay scales and grades, schedule numbers, days,
+ * clock times and head counts. */
+#include <stdlib.h>
+#include <string.h>
+
+#include "norm/pass_noise.h"
+
+/* ---- pay ---- */
+
+static const unsigned phrase_mask_pay = 1u << LC_SCHEDULE | 1u << LC_MARKETING;
+
+static int time_unit(tm_title *ti, size_t k, size_t *len)
+{
+	const lex_entry *e = match_cat(ti, k, LC_UNIT, 1, len);
+	return e && (!strcmp(e->value, "hours") || !strcmp(e->value, "week") ||
+		     !strcmp(e->value, "month") || !strcmp(e->value, "year") ||
+		     !strcmp(e->value, "day"));
+}
+
+/* An amount: [currency] number [k] [currency].  Returns its end unit
+ * (exclusive) or 0. */
+size_t noise_amount(tm_title *ti, size_t k, int *cur, int *unit)
+{
+	size_t len;
+	if (k < ti->nunit && ukept(ti, k) && is_currency(ti, k, &len)) {
+		*cur = 1;
+		k += len;
+	}
+	if (k >= ti->nunit || U(ti, k)->kind != TK_NUM || !ukept(ti, k))
+		return 0;
+	k++;
+	/* 2 000, 35 000: thousands set apart by a space */
+	while (k < ti->nunit && U(ti, k)->kind == TK_NUM && U(ti, k)->sp &&
+	       U(ti, k)->len == 3 && ndigits(ti, U(ti, k)) == 3 &&
+	       U(ti, k - 1)->len <= 3 && ti->unit[k] == ti->unit[k - 1] + 1)
+		k++;
+	if (k < ti->nunit && ukept(ti, k) && glued(ti, k - 1, k, "") &&
+	    match_val(ti, k, LC_PAY, "unit", 1, &len) && !time_unit(ti, k, &len)) {
+		*unit = 1;
+		k += len;
+	}
+	if (k < ti->nunit && ukept(ti, k) && is_currency(ti, k, &len)) {
+		*cur = 1;
+		k += len;
+	}
+	return k;
+}
+
+int pass_pay(tm_title *ti)
+{
+	size_t k, len;
+
+	for (k = 0; k < ti->nunit; k++) {
+		size_t j = k, e;
+		int cur = 0, unit = 0;
+		if (!ukept(ti, k) || ti->prot[ti->unit[k]])
+			continue;
+		while (j < ti->nunit && match_val(ti, j, LC_PAY, "lead", 1, &len))
+			j += len;
+		if (!(e = noise_amount(ti, j, &cur, &unit)))
+			continue;
+		/* a range: 3.200 - 4.000 €, 18 bis 22 €, 40/45k */
+		if (e < ti->nunit) {
+			size_t t = ti->unit[e - 1] + 1, r = e, e2;
+			int c2 = 0, u2 = 0;
+			if (t < ti->unit[e] && ti->tl.t[t].kind == TK_PUNCT &&
+			    (ti->tl.t[t].ch == '-' || ti->tl.t[t].ch == '/') &&
+			    t + 1 == ti->unit[e])
+				r = e;
+			else if (match_val(ti, e, LC_PAY, "lead", 1, &len) ||
+				 (match_val(ti, e, LC_UNIT, "connector", 1, &len)))
+				r = e + len;
+			else
+				r = SIZE_MAX;
+			if (r != SIZE_MAX && (e2 = noise_amount(ti, r, &c2, &u2))) {
+				e = e2;
+				cur |= c2;
+				unit |= u2;
+			}
+		}
+		/* trailing units: brutto, p.a., /h, pro Monat; in the amount's
+		 * segment ("2719 chf: HR-partner" keeps "HR") */
+		for (;;) {
+			if (e >= ti->nunit || !ukept(ti, e) || useg(ti, e) != useg(ti, e - 1))
+				break;
+			if (match_val(ti, e, LC_PAY, "unit", 1, &len)) {
+				size_t l2;
+				if (!time_unit(ti, e, &l2) || l2 < len)
+					unit = 1;
+				e += len;
+			} else if ((cur || unit) && time_unit(ti, e, &len))
+				e += len;
+			else if (is_currency(ti, e, &len)) {
+				cur = 1;
+				e += len;
+			} else if ((cur || unit) &&
+				   match_val(ti, e, LC_UNIT, "connector", 1, &len) &&
+				   e + len < ti->nunit && time_unit(ti, e + len, &len))
+				e += 1 + len;
+			else
+				break;
+		}
+		if (!cur && !unit)
+			continue;
+		/* a longer phrase wins: auf 520-Euro-Basis is a schedule */
+		{
+			size_t pl;
+			const lex_entry *ph = match_mask(ti, j, phrase_mask_pay, 1, &pl);
+			if (ph && j + pl >= e)
+				continue;
+		}
+		if (remove_units(ti, k, e, NF_PAY, NULL))
+			return -1;
+		k = e - 1;
+	}
+	return 0;
+}
+
+/* ---- pay scales and grades: Band 6, E 9a TVöD, 10. platová třída ---- */
+
+/* Is the fold of unit k a roman numeral of up to six letters (i v x l)? */
+static int roman_unit(tm_title *ti, size_t k)
+{
+	uint32_t n;
+	const char *f = ufold(ti, k, &n);
+	if (U(ti, k)->kind != TK_WORD || n == 0 || n > 6)
+		return 0;
+	for (uint32_t i = 0; i < n; i++)
+		if (!strchr("ivxl", f[i]))
+			return 0;
+	return 1;
+}
+
+/* A grade code at unit k: a number (10, 1,523), a short word with a digit
+ * (8a, A2, SO1, 3S), a roman numeral (XII) or one letter or a short
+ * capitalised abbreviation (B, Γ, OF). */
+static int grade_code(tm_title *ti, size_t k)
+{
+	const tm_tok *t;
+	if (k >= ti->nunit || !ukept(ti, k) || ti->prot[ti->unit[k]])
+		return 0;
+	t = U(ti, k);
+	if (t->kind == TK_NUM)
+		return 1;
+	if (t->kind != TK_WORD)
+		return 0;
+	if (t->flags & TF_DIGIT)
+		return t->flen <= 4;
+	if (roman_unit(ti, k))
+		return 1;
+	/* one letter (a byte, or a two-byte letter: Γ) */
+	if (t->len == 1 || (t->len == 2 && (t->flags & TF_NONASCII)))
+		return 1;
+	return (t->flags & TF_ALLCAPS) && t->len <= 4;
+}
+
+/* A pay-scale word at unit k (pay "lead", "Besoldungsgruppe", "schaal";
+ * an edge lead only at the segment's first kept unit k0): its length in
+ * units, or 0. */
+static size_t grade_word(tm_title *ti, size_t k, size_t k0)
+{
+	size_t len;
+	const lex_entry *e = match_val(ti, k, LC_PAY, "lead", 1, &len);
+	const tm_tok *t = U(ti, k);
+	if (!e || (e->where == LW_EDGE && k != k0))
+		return 0;
+	/* a short word leads an amount ("de 30 a 40 €", "bis 22 €"); as a
+	 * grade word it is written in capitals: E 12, VG 5, GS-11 */
+	if (len == 1 && t->kind == TK_WORD && t->flen <= 3 &&
+	    !(t->flags & TF_ALLCAPS) && !(t->len == 1 && (t->flags & TF_CAP)))
+		return 0;
+	return len;
+}
+
+/* The name of a collective agreement after a grade: a pay phrase (TVöD,
+ * TV-L) or a capitalised abbreviation (CCNL, CAO, BBesO) with what follows
+ * it to the segment's end, at most GRADE_TAIL_MAX units in all.  Returns
+ * the end (exclusive), k when there is none. */
+static size_t grade_tail(tm_title *ti, size_t k, size_t k1, int link)
+{
+	size_t len;
+	const tm_tok *t;
+	if (k >= k1)
+		return k;
+	if (match_val(ti, k, LC_PAY, "phrase", 1, &len) && k + len <= k1)
+		return k + len == k1 || k1 - k <= GRADE_TAIL_MAX ? k1 : k + len;
+	t = U(ti, k);
+	/* a short linking word before the name: "nível 15 da TRU" (one, so
+	 * that the look-ahead stays bounded) */
+	if (link && k + 1 < k1 && t->kind == TK_WORD && !(t->flags & TF_CAP) &&
+	    t->len <= 3 && grade_tail(ti, k + 1, k1, 0) == k1 && units_free(ti, k, k1))
+		return k1;
+	if (t->kind == TK_WORD && (t->flags & TF_CAP) &&
+	    (t->flags & (TF_ALLCAPS | TF_CAPSUF | TF_DIGIT) || t->len <= 6) &&
+	    k1 - k <= GRADE_TAIL_MAX && units_free(ti, k, k1)) {
+		/* only a capitalised abbreviation opens a name of several words */
+		if (k + 1 == k1 || (t->flags & TF_ALLCAPS))
+			return k1;
+	}
+	return k;
+}
+
+/* Does unit k hold a word of a grade segment: a pay word, a grade code
+ * or a seniority word ("III младши ранг")?  Its length in units, or 0. */
+static size_t grade_part(tm_title *ti, size_t k, size_t k0)
+{
+	size_t len;
+	const lex_entry *e;
+	if ((len = grade_word(ti, k, k0)))
+		return len;
+	if (grade_code(ti, k))
+		return 1;
+	/* an ordinal sign glued to a number: 5° livello */
+	if (k > k0 && U(ti, k)->kind == TK_SYM && U(ti, k - 1)->kind == TK_NUM &&
+	    glued(ti, k - 1, k, ""))
+		return 1;
+	e = match_mask(ti, k, 1u << LC_PAY | 1u << LC_SENIORITY, 1, &len);
+	if (e && (e->cat == LC_SENIORITY || !strcmp(e->value, "phrase")))
+		return len;
+	return 0;
+}
+
+/* A grade ends its segment: [code] grade-word code [code…] [agreement]
+ * ("Band 8a", "E 9a TVöD", "SO1 Scale 6", "10. platová třída", "platová
+ * trieda 7"), or a later segment is made of pay words, codes and seniority
+ * words alone with one pay-scale word among them ("grupa zaszeregowania
+ * XII", "III младши ранг", "LC-schaal").  A grade is never the whole
+ * title, so "Band 6" alone stays. */
+static int grade_segment(tm_title *ti, size_t s)
+{
+	size_t k0, k1, k, len, start = SIZE_MAX;
+	int words = 0, codes = 0;
+	const tm_seg *g = &ti->segs[s];
+
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 >= k1)
+		return 0;
+	/* the whole segment (or the head going on after a bracket); the
+	 * first segment only when it is all grade, with no agreement name
+	 * that could be the occupation ("Vergütungsgruppe 9: Bäcker") */
+	int first = !g->bracket && g->index == 0 && !g->resumed;
+	if (!first || ti->nseg > 1) {
+		for (k = k0; k < k1; k += len) {
+			size_t w = grade_word(ti, k, k0);
+			if (!(len = grade_part(ti, k, k0))) {
+				size_t e = words && !first ? grade_tail(ti, k, k1, 1) : k;
+				/* the name after an abbreviation: "CCNL Commercio" */
+				if (words && !first && k > k0 && (U(ti, k - 1)->flags & TF_ALLCAPS) &&
+				    k1 - k <= GRADE_TAIL_MAX && units_free(ti, k, k1))
+					e = k1;
+				if (e == k1)
+					break;
+				words = 0;
+				break;
+			}
+			/* a pay phrase that opens with a grade word: "livello CCNL" */
+			words |= w > 0 || match_val(ti, k, LC_PAY, "lead", 1, &w);
+			codes += !w && grade_code(ti, k);
+		}
+		/* a first segment holds a code too: "PA" is a word, not the
+		 * Irish grade word "pá" */
+		if (words && (!first || codes) && !last_word(ti, k0, k1))
+			return remove_units(ti, k0, k1, NF_PAY, "grade");
+		if (!first)
+			return 0;
+	}
+	/* a grade at the head segment's end: look for its grade word */
+	for (k = k0 + 1; k < k1; k++) {
+		size_t e;
+		if (!(len = grade_word(ti, k, k0)) || !grade_code(ti, k + len))
+			continue;
+		e = k + len + 1;
+		while (e < k1 && grade_code(ti, e))
+			e++;
+		e = grade_tail(ti, e, k1, 1);
+		if (e != k1)
+			continue;
+		start = k;
+		/* a code before it: "SO1 Scale 6" */
+		if (start > k0 + 1 && grade_code(ti, start - 1) &&
+		    U(ti, start - 1)->kind != TK_NUM)
+			start--;
+		break;
+	}
+	if (start == SIZE_MAX || !units_free(ti, start, k1))
+		return 0;
+	return remove_units(ti, start, k1, NF_PAY, "grade");
+}
+
+int pass_grade(tm_title *ti)
+{
+	for (size_t s = 0; s < ti->nseg; s++)
+		if (grade_segment(ti, s))
+			return -1;
+	return 0;
+}
+
+/* ---- schedule numbers: 20 h/Woche, 30-35 Std., 80-100 % ---- */
+
+int pass_schedule(tm_title *ti)
+{
+	size_t k, len;
+
+	for (k = 0; k < ti->nunit; k++) {
+		size_t j, e;
+		const lex_entry *u;
+		if (U(ti, k)->kind != TK_NUM || !ukept(ti, k) || ti->prot[ti->unit[k]])
+			continue;
+		j = k + 1;
+		/* range */
+		if (j + 1 < ti->nunit && U(ti, j)->kind == TK_NUM &&
+		    ti->unit[j] == ti->unit[k] + 2 &&
+		    tok_is(ti, ti->unit[k] + 1, '-'))
+			j++;
+		else if (j + 1 < ti->nunit &&
+			 (match_val(ti, j, LC_UNIT, "connector", 1, &len) ||
+			  match_val(ti, j, LC_PAY, "lead", 1, &len)) &&
+			 j + len < ti->nunit && U(ti, j + len)->kind == TK_NUM)
+			j += len + 1;
+		if (j < ti->nunit && U(ti, j)->kind == TK_SYM && U(ti, j)->ch == '%') {
+			size_t b = k, l2;
+			if (k > 0 && ukept(ti, k - 1) &&
+			    match_val(ti, k - 1, LC_UNIT, "workload", 1, &l2) && l2 == 1)
+				b = k - 1;
+			if (remove_units(ti, b, j + 1, NF_WORKLOAD, NULL))
+				return -1;
+			k = j;
+			continue;
+		}
+		if (j >= ti->nunit || !(u = match_cat(ti, j, LC_UNIT, 1, &len)))
+			continue;
+		if (!strcmp(u->value, "week")) {
+			/* 20 Wochenstunden */
+			e = j + len;
+		} else if (!strcmp(u->value, "fte")) {
+			if (remove_units(ti, k, j + len, NF_WORKLOAD, NULL))
+				return -1;
+			k = j + len - 1;
+			continue;
+		} else if (!strcmp(u->value, "month") || !strcmp(u->value, "year")) {
+			/* a duration in a later segment: CDD 6 mois, 6 months */
+			const tm_seg *g = &ti->segs[useg(ti, k)];
+			if (!g->bracket && g->index == 0)
+				continue;
+			if (remove_units(ti, k, j + len, NF_SCHEDULE, "temporary"))
+				return -1;
+			k = j + len - 1;
+			continue;
+		} else if (!strcmp(u->value, "hours")) {
+			e = j + len;
+			size_t l2;
+			const lex_entry *w;
+			if (e < ti->nunit && match_val(ti, e, LC_UNIT, "connector", 1, &l2))
+				e += l2;
+			else if (e < ti->nunit && (match_val(ti, e, LC_PAY, "unit", 1, &l2)))
+				e += 0;
+			w = e < ti->nunit ? match_cat(ti, e, LC_UNIT, 1, &l2) : NULL;
+			if (w && (!strcmp(w->value, "week") || !strcmp(w->value, "month") ||
+				  !strcmp(w->value, "day")))
+				e += l2;
+			else {
+				const tm_seg *g = &ti->segs[useg(ti, k)];
+				unsigned hv = lead_value(ti, U(ti, k));
+				e = j + len;
+				/* 35h, 32 uur, 38 Stunden are weekly hours
+				 * wherever they stand (not 24h, a kind of care);
+				 * a spaced "h" only in a slot */
+				if (!g->bracket && g->index == 0 &&
+				    !((glued(ti, j - 1, j, "") || U(ti, j)->flen >= 3) &&
+				      hv >= 5 && hv <= 48 && hv != 24))
+					continue;
+			}
+		} else
+			continue;
+		/* a week or day word before the number: heti 40 óra,
+		 * haftada 45 saat, günde 4 saat */
+		size_t b = k, l2;
+		const lex_entry *w;
+		if (k > 0 && ukept(ti, k - 1) && !ti->prot[ti->unit[k - 1]] &&
+		    ti->unit[k - 1] + 1 == ti->unit[k] &&
+		    (w = match_cat(ti, k - 1, LC_UNIT, 1, &l2)) && l2 == 1 &&
+		    (!strcmp(w->value, "week") || !strcmp(w->value, "day")))
+			b = k - 1;
+		if (remove_units(ti, b, e, NF_HOURS, NULL))
+			return -1;
+		k = e - 1;
+	}
+	return 0;
+}
+
+/* ---- days, clock times and head counts: Mo–Fr 7–15 Uhr, (5 posts) ---- */
+
+static int unit_val(tm_title *ti, size_t k, const char *v, size_t *len)
+{
+	return k < ti->nunit && ukept(ti, k) && !ti->prot[ti->unit[k]] &&
+	       match_val(ti, k, LC_UNIT, v, 1, len) != NULL;
+}
+
+/* Is unit k a kept number? */
+static int num_at(tm_title *ti, size_t k)
+{
+	return k < ti->nunit && ukept(ti, k) && !ti->prot[ti->unit[k]] &&
+	       U(ti, k)->kind == TK_NUM;
+}
+
+/* A time of day at unit k: 7, 08, 15.30, 15:30, 9h30.  Returns its end
+ * (exclusive), or 0. */
+static size_t clock_time(tm_title *ti, size_t k)
+{
+	size_t len;
+	if (!num_at(ti, k) || ndigits(ti, U(ti, k)) > 4 ||
+	    lead_value(ti, U(ti, k)) > 24)
+		return 0;
+	k++;
+	if (num_at(ti, k) && glued(ti, k - 1, k, ":") && U(ti, k)->len == 2)
+		k++;
+	if (unit_val(ti, k, "hours", &len) && len == 1 && glued(ti, k - 1, k, "") &&
+	    num_at(ti, k + 1) && glued(ti, k, k + 1, "") && U(ti, k + 1)->len == 2)
+		k += 2; /* 9h30 */
+	return k;
+}
+
+/* A clock range at k: 7–15, 9-5, 08.00–16.00 Uhr, 7 bis 15 h.  Returns
+ * its end (exclusive), or 0. */
+static size_t clock_range(tm_title *ti, size_t k)
+{
+	size_t e = clock_time(ti, k), r, len;
+	if (!e || e >= ti->nunit)
+		return 0;
+	if (glued(ti, e - 1, e, "-/") && ti->unit[e] == ti->unit[e - 1] + 2)
+		r = e;
+	else if (unit_val(ti, e, "connector", &len) && len == 1)
+		r = e + 1;
+	else
+		return 0;
+	if (!(e = clock_time(ti, r)))
+		return 0;
+	if (unit_val(ti, e, "hours", &len))
+		e += len;
+	return e;
+}
+
+/* Day names: a weekday, a range of them (Mo–Fr, man–fre, de lunes a
+ * sábado, mit-Tnejn sal-Ġimgħa) and the clock range after them.  Returns
+ * the end (exclusive) of the day phrase at k, or 0; *range has 1 when two
+ * days were found, 2 when a clock range was. */
+static size_t day_phrase(tm_title *ti, size_t k, int *range)
+{
+	size_t len, e, c;
+	*range = 0;
+	if (!unit_val(ti, k, "weekday", &len))
+		return 0;
+	e = k + len;
+	if (e < ti->nunit && (glued(ti, e - 1, e, "-/.") || U(ti, e)->sp) &&
+	    unit_val(ti, e, "weekday", &len)) {
+		/* Mo–Fr, pon.–pt., "de lunes" "a sábado" */
+		e += len;
+		*range = 1;
+	} else if (unit_val(ti, e, "connector", &c) &&
+		   unit_val(ti, e + c, "weekday", &len)) {
+		/* Monday to Friday, ma t/m vr */
+		e += c + len;
+		*range = 1;
+	}
+	if ((c = clock_range(ti, e))) {
+		e = c;
+		*range |= 2;
+	}
+	return e;
+}
+
+/* A head count at k: "5 posts", "3 Stellen", "10 postes", "x2".  Returns
+ * its end (exclusive), or 0. */
+static size_t head_count(tm_title *ti, size_t k)
+{
+	size_t len, e;
+	const tm_tok *t = U(ti, k);
+	if (t->kind == TK_WORD && (t->flags & TF_DIGIT) && t->flen <= 4 &&
+	    tok_fold(&ti->tl, t)[0] == 'x' && ukept(ti, k) && !ti->prot[ti->unit[k]]) {
+		for (uint32_t i = 1; i < t->flen; i++)
+			if (tok_fold(&ti->tl, t)[i] < '0' || tok_fold(&ti->tl, t)[i] > '9')
+				return 0;
+		return k + 1;
+	}
+	if (!num_at(ti, k))
+		return 0;
+	e = k + 1;
+	if (!unit_val(ti, e, "post", &len))
+		return 0;
+	return e + len;
+}
+
+/* Is [k, e) at an edge of its segment's kept units, or the whole of a
+ * bracket? */
+static int at_seg_edge(tm_title *ti, size_t k, size_t e)
+{
+	size_t k0, k1;
+	seg_kept(ti, useg(ti, k), &k0, &k1);
+	return k == k0 || e == k1;
+}
+
+int pass_days(tm_title *ti)
+{
+	for (size_t k = 0; k < ti->nunit; k++) {
+		size_t e;
+		int range;
+		if (!ukept(ti, k))
+			continue;
+		e = day_phrase(ti, k, &range);
+		if ((!e || !range) && (ti->ucats[k] & (1u << LC_UNIT))) {
+			/* a short day name of another language ("po–pá",
+			 * "ma–pe") counts when its hours follow (numbers:
+			 * without one on the line, none follow) */
+			range = 0;
+			if (ti->lflags & LF_NUM) {
+				ti->any_lang = 1;
+				e = day_phrase(ti, k, &range);
+				ti->any_lang = 0;
+			}
+			if (!(range & 2))
+				e = 0;
+		}
+		if (e) {
+			/* one day alone is a word (Sunday school); a range or a
+			 * day with its hours, at a segment's edge, is a rota */
+			if (!range || !at_seg_edge(ti, k, e) || last_word(ti, k, e))
+				continue;
+			/* the word that opened the range: "de lunes a sábado" */
+			size_t b = k, l;
+			if (k > 0 && unit_val(ti, k - 1, "connector", &l) && l == 1 &&
+			    at_seg_edge(ti, k - 1, e))
+				b = k - 1;
+			if (remove_units(ti, b, e, NF_HOURS, NULL))
+				return -1;
+			k = e - 1;
+		} else if ((e = head_count(ti, k))) {
+			if (!at_seg_edge(ti, k, e) || last_word(ti, k, e))
+				continue;
+			if (remove_units(ti, k, e, NF_MARKETING, "headcount"))
+				return -1;
+			k = e - 1;
+		}
+	}
+	return 0;
+}
