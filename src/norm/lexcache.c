@@ -12,6 +12,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <sys/mman.h>
+#include <dirent.h>
 #include <sys/stat.h>
 #include <unistd.h>
 
@@ -22,6 +23,13 @@
 /* An image larger than this is not read (the bundled lexicons' image is
  * about 12 MB). */
 #define LC_MAX_IMAGE ((off_t)1 << 30)
+
+/* Images kept in the folder: the newest, by modification time.  Each
+ * build of the binary and each edit of a lexicon makes a new one (about
+ * 11 MB), so the older ones go when a new one is written. */
+#define LC_KEEP 4
+/* Images looked at when pruning: more are left for the next write. */
+#define LC_PRUNE_MAX 256
 
 /* the pages mapped at once, not one fault at a time */
 #ifdef MAP_POPULATE
@@ -152,6 +160,63 @@ static void write_image(const char *path, const tm_buf *img)
 	buf_free(&f.warn);
 }
 
+/* Is name an image's name: lexicon-<16 hex digits>.img? */
+static int image_name(const char *name)
+{
+	if (strncmp(name, "lexicon-", 8) != 0 || strlen(name) != 8 + 16 + 4 ||
+	    strcmp(name + 24, ".img") != 0)
+		return 0;
+	for (int i = 8; i < 24; i++)
+		if (!((name[i] >= '0' && name[i] <= '9') || (name[i] >= 'a' && name[i] <= 'f')))
+			return 0;
+	return 1;
+}
+
+typedef struct lc_old {
+	char name[32];
+	struct timespec mtime;
+} lc_old;
+
+static int newer_first(const void *a, const void *b)
+{
+	const struct timespec *x = &((const lc_old *)a)->mtime, *y = &((const lc_old *)b)->mtime;
+	if (x->tv_sec != y->tv_sec)
+		return x->tv_sec < y->tv_sec ? 1 : -1;
+	return x->tv_nsec < y->tv_nsec ? 1 : x->tv_nsec > y->tv_nsec ? -1 : 0;
+}
+
+/* Removes all but the LC_KEEP newest images of dir (keep, the one just
+ * written, always stays): only regular files of the user's with an
+ * image's name, never through a link.  Failures are ignored. */
+static void prune_images(const char *dir, const char *keep)
+{
+	DIR *d = opendir(dir);
+	struct dirent *de;
+	lc_old *v;
+	size_t n = 0;
+
+	if (!d)
+		return;
+	if (!(v = malloc(LC_PRUNE_MAX * sizeof *v))) {
+		closedir(d);
+		return;
+	}
+	while (n < LC_PRUNE_MAX && (de = readdir(d))) {
+		struct stat st;
+		if (!image_name(de->d_name) || !strcmp(de->d_name, keep) ||
+		    fstatat(dirfd(d), de->d_name, &st, AT_SYMLINK_NOFOLLOW) != 0 ||
+		    !S_ISREG(st.st_mode) || st.st_uid != geteuid())
+			continue;
+		memcpy(v[n].name, de->d_name, strlen(de->d_name) + 1);
+		v[n++].mtime = st.st_mtim;
+	}
+	qsort(v, n, sizeof *v, newer_first);
+	for (size_t i = LC_KEEP - 1; i < n; i++)
+		(void)unlinkat(dirfd(d), v[i].name, 0);
+	free(v);
+	closedir(d);
+}
+
 /* The running binary, as far as it decides what an image holds. */
 static void add_build(dg_state *d, dg_state *name)
 {
@@ -217,13 +282,13 @@ int lc_build(const lex_file *files, size_t n, lexicon **out, tm_buf *err)
 	lexicon *lx = NULL;
 	void *map;
 	size_t i, mlen;
+	char name[64] = "";
 	int rc = 1;
 
 	*out = NULL;
 	if (file_key(files, n, &text, key, nkey, err) != 0)
 		goto done;
 	if ((dir = lc_dir())) {
-		char name[64];
 		snprintf(name, sizeof name, "lexicon-%016llx.img",
 			 (unsigned long long)dg_hash(nkey, sizeof nkey, 0));
 		path = join(dir, name);
@@ -269,8 +334,10 @@ int lc_build(const lex_file *files, size_t n, lexicon **out, tm_buf *err)
 	}
 	dg_final(&d, key);
 	(void)lex_freeze(lx);
-	if (path && lex_image_write(lx, key, &img) == 0)
+	if (path && lex_image_write(lx, key, &img) == 0) {
 		write_image(path, &img);
+		prune_images(dir, name);
+	}
 	*out = lx;
 	rc = 0;
 done:

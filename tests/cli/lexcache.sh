@@ -203,4 +203,28 @@ if [ "$(id -u)" = 0 ] && command -v setpriv > /dev/null; then
 	cmp -s "$tmp/few.ref" "$u/few.got"; check "root's image in a user's folder: same output" 0 $?
 	check "root's image in a user's folder: replaced by the user's" 65534 "$(stat -c %u "$j")"
 fi
+# at most four images stay in the folder: each new set of lexicon files
+# (or build of the binary) writes an image of its own name and the oldest
+# go; a link, a file that is not an image and the image in use stay
+P=$tmp/prune
+mkdir -p "$P/lex/schedule"
+echo target > "$P/target"
+for n in 1 2 3 4 5 6; do
+	rm -f "$P/lex/schedule"/*.txt
+	printf 'en\tcopper shift %s\tshift\n' $n > "$P/lex/schedule/extra$n.txt"
+	TITLEMILL_LEXCACHE="$P/c" "$T" norm --lexicons "$P/lex" "$tmp/one.txt" > "$P/out" 2>&1
+	if [ $n = 1 ]; then
+		ln -s "$P/target" "$P/c/lexicon-0000000000000000.img"
+		echo notes > "$P/c/notes.txt"
+	fi
+done
+check "six file sets: four images kept" 4 \
+	"$(find "$P/c" -maxdepth 1 -type f -name 'lexicon-*.img' | wc -l)"
+[ -L "$P/c/lexicon-0000000000000000.img" ]; check "six file sets: a link left alone" 0 $?
+check "six file sets: its target untouched" target "$(cat "$P/target")"
+check "six file sets: another file left alone" notes "$(cat "$P/c/notes.txt")"
+newest=$(ls -t "$P/c"/lexicon-*.img | head -1)
+n6=$(ino "$newest")
+TITLEMILL_LEXCACHE="$P/c" "$T" norm --lexicons "$P/lex" "$tmp/one.txt" > /dev/null 2>&1
+check "six file sets: the newest image in use" "$n6" "$(ino "$newest")"
 finish
