@@ -20,22 +20,22 @@ typedef struct propose_opts {
 } propose_opts;
 
 #define BAR_SPEC(type, kind, m, opt, arg, def, lo, hi, meaning) \
-	{opt, kind, offsetof(propose_opts, bar.m), arg, OPT_XSTR(def), lo, hi, meaning, NULL},
+	{opt, kind, offsetof(propose_opts, bar.m), arg, OPT_XSTR(def), lo, hi, meaning, NULL, 0},
 
 static const opt_spec propose_specs[] = {
 	OPT_SPEC_LABELS(propose_opts, in.setup.labels,
 			"the taxonomy's labels: TSV (occupation, kind, lang, label) or SKOS"),
 	{"tsv", OPT_FLAG, offsetof(propose_opts, tsv), NULL, NULL, 0, 0,
-	 "a table instead of JSON Lines", NULL},
+	 "a table instead of JSON Lines", NULL, 0},
 	{"top", OPT_U64, offsetof(propose_opts, top), "N", NULL, 0, 1.8e19,
-	 "at most N suggestions of each kind", NULL},
+	 "at most N suggestions of each kind", NULL, 0},
 	{"kind", OPT_CHOICE, offsetof(propose_opts, kind), "K", NULL, 0, 0, "only this kind",
-	 propose_kind_names},
+	 propose_kind_names, 0},
 	{"occupation", OPT_STR, offsetof(propose_opts, occ), "ID", NULL, 0, 0,
-	 "only this occupation", NULL},
+	 "only this occupation", NULL, 0},
 	OPT_SPEC_LANG(propose_opts, lang, "only this language"),
 	PROPOSE_BARS(BAR_SPEC)
-	OPT_SPEC_STORE(propose_opts, in.store),
+	OPT_SPEC_STORE(propose_opts, in.store, OPT_STORE_READ),
 	OPT_SPEC_PREFIX(propose_opts, in.prefix),
 	OPT_SPEC_LEXICONS(propose_opts, in.setup),
 	OPT_SPEC_END,
@@ -52,6 +52,7 @@ static const opt_cmd propose_cmd = {
 	"its evidence.  They inform a curator, who decides.\n"
 	"\n",
 	propose_specs,
+	NULL,
 };
 
 /* A suggestion: the fields of both formats. */

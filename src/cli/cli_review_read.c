@@ -83,7 +83,7 @@ static const rq_item **selected(const rq_queue *q, const review_opts *o, size_t 
 	for (size_t i = 0; i < q->n; i++) {
 		const rq_item *it = &q->it[i];
 		if ((o->status >= 0 && it->status != o->status) || (o->kind >= 0 && it->kind != o->kind) ||
-		    (o->occ && strcmp(o->occ, it->occ)) || (o->lang && strcmp(o->lang, it->lang)))
+		    (o->occ && strcmp(o->occ, it->occ)) || (o->lang[0] && strcmp(o->lang, it->lang)))
 			continue;
 		v[(*n)++] = it;
 	}
@@ -124,7 +124,7 @@ int rv_list(const review_opts *o, const rq_queue *q)
 		return rv_fail("out of memory");
 	qsort(v, n, sizeof *v, !strcmp(o->sort, "added") ? by_seq
 			       : !strcmp(o->sort, "postings") ? by_postings : by_score);
-	if (o->limit >= 0 && (size_t)o->limit < n)
+	if (o->limit < n)
 		n = (size_t)o->limit;
 	if (!o->json)
 		buf_puts(&b, "id\tstatus\tkind\toccupation\tlang\tlabel\tscore\tpostings\toccupation_postings"
