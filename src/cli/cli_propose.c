@@ -115,14 +115,8 @@ static void write_sugg(rec *r, const propose_sugg *s, tally_mem *m, const labels
 		rec_member_num(r, "share", s->key_postings ? (double)s->rival_postings /
 							     (double)s->key_postings : 0);
 		rec_obj_end(r);
-	} else {
-		rec_cell_begin(r);
-		rec_cell_str(r, s->rival, s->rl);
-		rec_cell_str(r, " (", 2);
-		rec_cell_u64(r, s->rival_postings);
-		rec_cell_str(r, ")", 1);
-		rec_cell_end(r);
-	}
+	} else
+		rec_cell_counted(r, s->rival, s->rl, s->rival_postings);
 	if (s->variant && s->lb) {
 		rec_str(r, lab_str(ls, s->lb->text), s->lb->textlen);
 		rec_cstr(r, s->variant);

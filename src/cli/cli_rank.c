@@ -82,14 +82,8 @@ static int write_row(void *ctx, const coverage_row *row)
 			rec_member_str(r, "key", t->key, t->kl);
 			rec_member_u64(r, "postings", t->postings);
 			rec_obj_end(r);
-		} else {
-			rec_cell_begin(r);
-			rec_cell_str(r, t->title, t->tl);
-			rec_cell_str(r, " (", 2);
-			rec_cell_u64(r, t->postings);
-			rec_cell_str(r, ")", 1);
-			rec_cell_end(r);
-		}
+		} else
+			rec_cell_counted(r, t->title, t->tl, t->postings);
 	}
 	rec_list_end(r);
 	return rec_end(r);

@@ -47,7 +47,7 @@ static const opt_spec review_specs[] = {
 	       "FILE.lock beside it is the lock", NULL, 0),
 	OPT_SPEC_STORE(review_opts, store, "the queue in a Redis store instead (as for tally)"),
 	OPT_SPEC_PREFIX(review_opts, prefix),
-	RV_OPT("reopen-factor", OPT_REAL, reopen_factor, "F", "3", 1, 1e300,
+	RV_OPT("reopen-factor", OPT_REAL, reopen_factor, "F", "3", 1, OPT_UNBOUNDED,
 	       "add: a rejected suggestion reopens when its postings reach F times those "
 	       "at the rejection", NULL, 0),
 	RV_OPT("status", OPT_CHOICE, status_k, "S", "open", 0, 0,

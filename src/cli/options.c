@@ -97,8 +97,12 @@ static int take(const opt_cmd *cmd, const opt_spec *s, void *o, const char *arg)
 	case OPT_REAL:
 		if (real(arg, s->lo, s->hi, (double *)at) == 0)
 			return 0;
-		fprintf(stderr, "titlemill %s: --%s: want a number from %g to %g, not '%s'\n",
-			cmd->name, s->name, s->lo, s->hi, arg);
+		if (s->hi >= OPT_UNBOUNDED)
+			fprintf(stderr, "titlemill %s: --%s: want a number of %g or more, not '%s'\n",
+				cmd->name, s->name, s->lo, arg);
+		else
+			fprintf(stderr, "titlemill %s: --%s: want a number from %g to %g, not '%s'\n",
+				cmd->name, s->name, s->lo, s->hi, arg);
 		return -1;
 	case OPT_LANG:
 		if (lang_tag(arg, at) == 0)

@@ -20,7 +20,8 @@
  *               given
  *   OPT_LEXDIR  setup_opts: appends to its extra folders (repeatable)
  *   OPT_PREFIX  const char *, a store key prefix (store_prefix_check)
- * Numbers are parsed strictly: the whole argument, no sign on a whole
+ * A real number's hi of OPT_UNBOUNDED or more means no upper bound
+ * (still finite).  Numbers are parsed strictly: the whole argument, no sign on a whole
  * number, within the range. */
 #ifndef TM_OPTIONS_H
 #define TM_OPTIONS_H
@@ -85,6 +86,8 @@ typedef struct opt_cmd {
 	 "remember the results of recent distinct titles in MIB mebibytes " \
 	 "(0: clean every title afresh)", NULL, 0}
 #define OPT_SPEC_END {NULL, OPT_FLAG, 0, NULL, NULL, 0, 0, NULL, NULL, 0}
+
+#define OPT_UNBOUNDED 1e300
 
 enum { OPT_RUN, OPT_HELP_SHOWN, OPT_MISUSE };
 
