@@ -172,7 +172,9 @@ int opt_parse(const opt_cmd *cmd, void *o, int argc, char **argv, int *first)
 	}
 	lo[n] = (struct option){"help", no_argument, NULL, 'h'};
 	lo[n + 1] = (struct option){NULL, 0, NULL, 0};
-	optind = 1;
+	/* 0: glibc starts afresh, whatever an earlier parse left (the unit
+	 * tests parse many command lines in one process) */
+	optind = 0;
 	while ((ch = getopt_long(argc, argv, letters, lo, &idx)) != -1) {
 		if (ch == 'h') {
 			opt_help(cmd, stdout);
