@@ -11,19 +11,12 @@
  * cli_review_change.c, those that read it in cli_review_read.c, what
  * they share for messages and output in cli_review_out.c (cli_review.h
  * between them). */
-#include <errno.h>
 #include <stddef.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <unistd.h>
 
 #include "cli/cli.h"
-#include "review/delta.h"
-#include "io/fieldcheck.h"
-#include "io/jsonr.h"
-#include "io/outfile.h"
-#include "io/reader.h"
 #include "cli/cli_review.h"
 #include "review/review.h"
 #include "review/queue.h"

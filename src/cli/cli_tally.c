@@ -129,16 +129,6 @@ done:
 	return rc;
 }
 
-int cli_check_prefix(const char *cmd, const char *prefix)
-{
-	tm_buf err = {0};
-	if (store_prefix_check(prefix, &err) == 0)
-		return 0;
-	fprintf(stderr, "titlemill %s: --prefix: %.*s\n", cmd, (int)err.len, err.data ? err.data : "");
-	buf_free(&err);
-	return EXIT_USAGE;
-}
-
 /* Reports of malformed rows: the first few in full, then a count. */
 typedef struct badlog {
 	long n;
