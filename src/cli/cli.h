@@ -11,10 +11,6 @@
 
 enum { EXIT_OK = 0, EXIT_RUNTIME = 1, EXIT_USAGE = 2 };
 
-/* A --prefix value for a store: 0, or EXIT_USAGE after saying on
- * standard error, as "titlemill CMD: --prefix: ...", what is wrong. */
-int cli_check_prefix(const char *cmd, const char *prefix);
-
 /* Writes out to standard output and flushes: 0, or -1 after saying on
  * standard error, as "titlemill CMD: write error: ...", why not. */
 int cli_write_stdout(const char *cmd, const tm_buf *out);

@@ -27,22 +27,22 @@ typedef struct norm_opts {
 
 static const opt_spec norm_specs[] = {
 	{"key", OPT_FLAG, offsetof(norm_opts, key), NULL, NULL, 0, 0,
-	 "print the match key instead of the clean title", NULL},
+	 "print the match key instead of the clean title", NULL, 0},
 	{"json", OPT_FLAG, offsetof(norm_opts, json), NULL, NULL, 0, 0,
 	 "print one JSON object per line with the title, the key and the facets "
-	 "(what was removed and why)", NULL},
+	 "(what was removed and why)", NULL, 0},
 	{"facets", OPT_FLAG, offsetof(norm_opts, facets), NULL, NULL, 0, 0,
 	 "print TAB-separated: title, seniority, gender, location, schedule, pay, "
-	 "reference, other removed (no header)", NULL},
+	 "reference, other removed (no header)", NULL, 0},
 	OPT_SPEC_LANG(norm_opts, lang, "the titles' language (BCP 47, e.g. de, fr-BE); "
 		      "enables that language's ambiguous rules"),
 	OPT_SPEC_LABELS(norm_opts, setup.labels, "a labels TSV: its labels are never cut down"),
 	OPT_SPEC_LEXICONS(norm_opts, setup),
 	{"strict", OPT_FLAG, offsetof(norm_opts, strict), NULL, NULL, 0, 0,
-	 "stop with status 1 at the first line that needs repair", NULL},
+	 "stop with status 1 at the first line that needs repair", NULL, 0},
 	OPT_SPEC_MEMO(norm_opts, memo_mib),
 	{"stats", OPT_FLAG, offsetof(norm_opts, stats), NULL, NULL, 0, 0,
-	 "say on standard error how many titles came from memory", NULL},
+	 "say on standard error how many titles came from memory", NULL, 0},
 	OPT_SPEC_END,
 };
 
@@ -58,6 +58,7 @@ static const opt_cmd norm_cmd = {
 	"folders as --lexicons does, TITLEMILL_LEXDIR replaces the bundled one.\n"
 	"\n",
 	norm_specs,
+	NULL,
 };
 
 /* Repairs noted for the end-of-run summary. */

@@ -20,22 +20,22 @@ typedef struct propose_opts {
 } propose_opts;
 
 #define BAR_SPEC(type, kind, m, opt, arg, def, lo, hi, meaning) \
-	{opt, kind, offsetof(propose_opts, bar.m), arg, OPT_XSTR(def), lo, hi, meaning, NULL},
+	{opt, kind, offsetof(propose_opts, bar.m), arg, OPT_XSTR(def), lo, hi, meaning, NULL, 0},
 
 static const opt_spec propose_specs[] = {
 	OPT_SPEC_LABELS(propose_opts, in.setup.labels,
 			"the taxonomy's labels: TSV (occupation, kind, lang, label) or SKOS"),
 	{"tsv", OPT_FLAG, offsetof(propose_opts, tsv), NULL, NULL, 0, 0,
-	 "a table instead of JSON Lines", NULL},
+	 "a table instead of JSON Lines", NULL, 0},
 	{"top", OPT_U64, offsetof(propose_opts, top), "N", NULL, 0, 1.8e19,
-	 "at most N suggestions of each kind", NULL},
+	 "at most N suggestions of each kind", NULL, 0},
 	{"kind", OPT_CHOICE, offsetof(propose_opts, kind), "K", NULL, 0, 0, "only this kind",
-	 propose_kind_names},
+	 propose_kind_names, 0},
 	{"occupation", OPT_STR, offsetof(propose_opts, occ), "ID", NULL, 0, 0,
-	 "only this occupation", NULL},
+	 "only this occupation", NULL, 0},
 	OPT_SPEC_LANG(propose_opts, lang, "only this language"),
 	PROPOSE_BARS(BAR_SPEC)
-	OPT_SPEC_STORE(propose_opts, in.store),
+	OPT_SPEC_STORE(propose_opts, in.store, OPT_STORE_READ),
 	OPT_SPEC_PREFIX(propose_opts, in.prefix),
 	OPT_SPEC_LEXICONS(propose_opts, in.setup),
 	OPT_SPEC_END,
@@ -52,6 +52,7 @@ static const opt_cmd propose_cmd = {
 	"its evidence.  They inform a curator, who decides.\n"
 	"\n",
 	propose_specs,
+	NULL,
 };
 
 /* A suggestion: the fields of both formats. */
@@ -114,14 +115,8 @@ static void write_sugg(rec *r, const propose_sugg *s, tally_mem *m, const labels
 		rec_member_num(r, "share", s->key_postings ? (double)s->rival_postings /
 							     (double)s->key_postings : 0);
 		rec_obj_end(r);
-	} else {
-		rec_cell_begin(r);
-		rec_cell_str(r, s->rival, s->rl);
-		rec_cell_str(r, " (", 2);
-		rec_cell_u64(r, s->rival_postings);
-		rec_cell_str(r, ")", 1);
-		rec_cell_end(r);
-	}
+	} else
+		rec_cell_counted(r, s->rival, s->rl, s->rival_postings);
 	if (s->variant && s->lb) {
 		rec_str(r, lab_str(ls, s->lb->text), s->lb->textlen);
 		rec_cstr(r, s->variant);

@@ -23,11 +23,11 @@ static const opt_spec coverage_specs[] = {
 	OPT_SPEC_LABELS(coverage_opts, in.setup.labels,
 			"the taxonomy's labels: TSV (occupation, kind, lang, label) or SKOS"),
 	{"json", OPT_FLAG, offsetof(coverage_opts, json), NULL, NULL, 0, 0,
-	 "JSON Lines instead of TSV", NULL},
+	 "JSON Lines instead of TSV", NULL, 0},
 	{"occupation", OPT_STR, offsetof(coverage_opts, occ), "ID", NULL, 0, 0,
-	 "only this occupation", NULL},
+	 "only this occupation", NULL, 0},
 	OPT_SPEC_LANG(coverage_opts, lang, "only this language"),
-	OPT_SPEC_STORE(coverage_opts, in.store),
+	OPT_SPEC_STORE(coverage_opts, in.store, OPT_STORE_READ),
 	OPT_SPEC_PREFIX(coverage_opts, in.prefix),
 	OPT_SPEC_LEXICONS(coverage_opts, in.setup),
 	OPT_SPEC_END,
@@ -46,6 +46,7 @@ static const opt_cmd coverage_cmd = {
 	"protected), or what a store holds.\n"
 	"\n",
 	coverage_specs,
+	NULL,
 };
 
 /* A coverage row: the fields of both formats. */
@@ -81,14 +82,8 @@ static int write_row(void *ctx, const coverage_row *row)
 			rec_member_str(r, "key", t->key, t->kl);
 			rec_member_u64(r, "postings", t->postings);
 			rec_obj_end(r);
-		} else {
-			rec_cell_begin(r);
-			rec_cell_str(r, t->title, t->tl);
-			rec_cell_str(r, " (", 2);
-			rec_cell_u64(r, t->postings);
-			rec_cell_str(r, ")", 1);
-			rec_cell_end(r);
-		}
+		} else
+			rec_cell_counted(r, t->title, t->tl, t->postings);
 	}
 	rec_list_end(r);
 	return rec_end(r);

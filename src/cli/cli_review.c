@@ -11,27 +11,116 @@
  * cli_review_change.c, those that read it in cli_review_read.c, what
  * they share for messages and output in cli_review_out.c (cli_review.h
  * between them). */
-#include <errno.h>
-#include <getopt.h>
-#include <math.h>
+#include <stddef.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
-#include <unistd.h>
 
 #include "cli/cli.h"
-#include "review/delta.h"
-#include "io/fieldcheck.h"
-#include "io/jsonr.h"
-#include "io/outfile.h"
-#include "io/reader.h"
 #include "cli/cli_review.h"
 #include "review/review.h"
 #include "review/queue.h"
 #include "review/review_time.h"
 #include "count/store.h"
 
-static const char review_usage[] =
+/* The values of the options that take a word, NULL-terminated; the
+ * statuses and kinds are the queue's own (review.h), filled at start. */
+static const char *status_choices[RQ_NSTATUS + 2];
+static const char *kind_choices[RK_N + 1];
+static const char *const sort_choices[] = {"score", "postings", "added", NULL};
+static const char *const format_choices[] = {"tsv", "turtle", "ntriples", NULL};
+static const char *const case_choices[] = {"written", "clean", NULL};
+
+#define RV_OPT(name, kind, m, arg, def, lo, hi, meaning, choices, letter) \
+	{name, kind, offsetof(review_opts, m), arg, def, lo, hi, meaning, choices, letter}
+
+static const opt_spec review_specs[] = {
+	RV_OPT("queue", OPT_STR, queue, "FILE", "titlemill-queue.jsonl", 0, 0,
+	       "a queue file ($TITLEMILL_QUEUE when set and --queue is not given); "
+	       "FILE.lock beside it is the lock", NULL, 0),
+	OPT_SPEC_STORE(review_opts, store, "the queue in a Redis store instead (as for tally)"),
+	OPT_SPEC_PREFIX(review_opts, prefix),
+	RV_OPT("reopen-factor", OPT_REAL, reopen_factor, "F", "3", 1, OPT_UNBOUNDED,
+	       "add: a rejected suggestion reopens when its postings reach F times those "
+	       "at the rejection", NULL, 0),
+	RV_OPT("status", OPT_CHOICE, status_k, "S", "open", 0, 0,
+	       "list: open, accepted, rejected, deferred or all", status_choices, 0),
+	RV_OPT("kind", OPT_CHOICE, kind_k, "K", NULL, 0, 0, "list: only this kind", kind_choices,
+	       0),
+	RV_OPT("occupation", OPT_STR, occ, "ID", NULL, 0, 0, "list: only this occupation", NULL,
+	       0),
+	OPT_SPEC_LANG(review_opts, lang, "list: only this language"),
+	RV_OPT("sort", OPT_CHOICE, sort_k, "S", "score", 0, 0, "list: score, postings or added",
+	       sort_choices, 0),
+	RV_OPT("limit", OPT_U64, limit, "N", NULL, 0, 9e18, "list: at most N lines", NULL, 0),
+	RV_OPT("json", OPT_FLAG, json, NULL, NULL, 0, 0, "list, show: the queue's own JSON lines",
+	       NULL, 0),
+	RV_OPT("reviewer", OPT_STR, reviewer, "NAME", NULL, 0, 0,
+	       "accept, reject, defer, decide: who decides ($TITLEMILL_REVIEWER when not "
+	       "given); required", NULL, 0),
+	RV_OPT("note", OPT_STR, note, "TEXT", NULL, 0, 0, "accept, reject, defer: why", NULL, 0),
+	RV_OPT("overrule", OPT_FLAG, overrule, NULL, NULL, 0, 0,
+	       "accept, reject, defer, decide: change a decision that was already taken", NULL,
+	       0),
+	RV_OPT("format", OPT_CHOICE, format_k, "F", "tsv", 0, 0,
+	       "export: tsv, turtle or ntriples", format_choices, 0),
+	RV_OPT("since", OPT_STR, since, "TIME", NULL, 0, 0,
+	       "export: only decisions at or after TIME (ISO 8601 UTC)", NULL, 0),
+	RV_OPT("base", OPT_STR, base, "IRI", NULL, 0, 0,
+	       "export: prefix for occupation ids that are not IRIs (SKOS)", NULL, 0),
+	RV_OPT("case", OPT_CHOICE, case_k, "C", "written", 0, 0,
+	       "export: written (the label as postings write it, when propose found it so) or "
+	       "clean (the lowercase clean title)", case_choices, 0),
+	RV_OPT("output", OPT_STR, out, "FILE", NULL, 0, 0,
+	       "export: write FILE instead of standard output (a file is replaced atomically, "
+	       "a device or FIFO written into)", NULL, 'o'),
+	OPT_SPEC_END,
+};
+
+/* The subcommands, and the options each takes besides --queue, --store
+ * and --prefix. */
+static const struct {
+	const char *sub, *opts;
+} subs[] = {
+	{"add", " reopen-factor "},
+	{"list", " status kind occupation lang sort limit json "},
+	{"show", " json "},
+	{"accept", " reviewer note overrule "},
+	{"reject", " reviewer note overrule "},
+	{"defer", " reviewer note overrule "},
+	{"decide", " reviewer overrule "},
+	{"export", " format since base case output "},
+	{"stats", " "},
+	{"repair", " "},
+};
+
+static const char *sub_opts(const char *sub)
+{
+	for (size_t i = 0; i < sizeof subs / sizeof *subs; i++)
+		if (!strcmp(subs[i].sub, sub))
+			return subs[i].opts;
+	return NULL;
+}
+
+static int admit(const opt_spec *s, void *ov)
+{
+	review_opts *o = ov;
+	char word[32];
+	if (!strcmp(s->name, "queue"))
+		o->queue_given = 1;
+	if (!strcmp(s->name, "queue") || !strcmp(s->name, "store") || !strcmp(s->name, "prefix"))
+		return 0;
+	snprintf(word, sizeof word, " %s ", s->name);
+	if (strstr(sub_opts(o->sub), word))
+		return 0;
+	char m[128];
+	snprintf(m, sizeof m, "--%s does not apply to 'review %s'", s->name, o->sub);
+	rv_usage_error(m, NULL);
+	return OPT_MISUSE;
+}
+
+static const opt_cmd review_cmd = {
+	"review",
 	"usage: titlemill review SUBCOMMAND [OPTIONS]\n"
 	"\n"
 	"The curators' queue of suggestions from 'titlemill propose'.\n"
@@ -47,188 +136,41 @@ static const char review_usage[] =
 	"  repair                     move the queue file's unreadable lines to\n"
 	"                             FILE.rejected (appended) and rewrite the queue\n"
 	"\n"
-	"where the queue lives:\n"
-	"  --queue FILE       a queue file (default $TITLEMILL_QUEUE, else\n"
-	"                     titlemill-queue.jsonl); FILE.lock beside it is the lock\n"
-	"  --store URL        a Redis store instead (as for tally), --prefix P\n"
-	"add:\n"
-	"  --reopen-factor F  a rejected suggestion reopens when its postings reach\n"
-	"                     F times those at the rejection (default 3)\n"
-	"list:\n"
-	"  --status S         open (default), accepted, rejected, deferred or all\n"
-	"  --kind K --occupation ID --lang L   filters\n"
-	"  --sort S           score (default), postings or added\n"
-	"  --limit N          at most N lines\n"
-	"  --json             the queue's own JSON lines\n"
-	"accept, reject, defer, decide:\n"
-	"  --reviewer NAME    who decides (default $TITLEMILL_REVIEWER); required\n"
-	"  --note TEXT        why (accept, reject, defer)\n"
-	"  --overrule         change a decision that was already taken\n"
-	"export:\n"
-	"  --format F         tsv (default), turtle or ntriples\n"
-	"  --since TIME       only decisions at or after TIME (ISO 8601 UTC)\n"
-	"  --base IRI         prefix for occupation ids that are not IRIs (SKOS)\n"
-	"  --case C           written (default: the label as postings write it, when\n"
-	"                     propose found it so) or clean (the lowercase clean title)\n"
-	"  -o FILE            write FILE instead of standard output (a file is\n"
-	"                     replaced atomically, a device or FIFO written into)\n"
-	"\n"
 	"Times are UTC; TITLEMILL_NOW pins the clock (for tests and replays).\n"
-	"Exit status: 0 done, 1 refused or failed (nothing changed), 2 usage.\n";
+	"Exit status: 0 done, 1 refused or failed (nothing changed), 2 usage.\n"
+	"\n"
+	"Options (each says the subcommands it applies to; the first three, all):\n",
+	review_specs,
+	admit,
+};
 
-enum { O_QUEUE = 256, O_STORE, O_PREFIX, O_REVIEWER, O_NOTE, O_OVERRULE, O_JSON, O_STATUS,
-       O_KIND, O_OCC, O_LANG, O_SORT, O_LIMIT, O_REOPEN, O_FORMAT, O_SINCE, O_BASE, O_CASE };
-
-static const struct option longopts[] = {
-	{"queue", required_argument, NULL, O_QUEUE},
-	{"store", required_argument, NULL, O_STORE},
-	{"prefix", required_argument, NULL, O_PREFIX},
-	{"reviewer", required_argument, NULL, O_REVIEWER},
-	{"note", required_argument, NULL, O_NOTE},
-	{"overrule", no_argument, NULL, O_OVERRULE},
-	{"json", no_argument, NULL, O_JSON},
-	{"status", required_argument, NULL, O_STATUS},
-	{"kind", required_argument, NULL, O_KIND},
-	{"occupation", required_argument, NULL, O_OCC},
-	{"lang", required_argument, NULL, O_LANG},
-	{"sort", required_argument, NULL, O_SORT},
-	{"limit", required_argument, NULL, O_LIMIT},
-	{"reopen-factor", required_argument, NULL, O_REOPEN},
-	{"format", required_argument, NULL, O_FORMAT},
-	{"since", required_argument, NULL, O_SINCE},
-	{"base", required_argument, NULL, O_BASE},
-	{"case", required_argument, NULL, O_CASE},
-	{"output", required_argument, NULL, 'o'},
-	{"help", no_argument, NULL, 'h'},
-	{NULL, 0, NULL, 0}};
-
-/* Which options each subcommand takes. */
-static const char *allowed(const char *sub)
+/* Reads the options of subcommand sub (argv[0]) into o: 0 to run, 1
+ * after --help, EXIT_USAGE after a misuse (said); *first the index of
+ * the first operand. */
+static int parse_opts(int argc, char **argv, const char *sub, review_opts *o, int *first)
 {
-	static const struct {
-		const char *sub;
-		int opts[12];
-	} t[] = {
-		{"add", {O_REOPEN}},
-		{"list", {O_STATUS, O_KIND, O_OCC, O_LANG, O_SORT, O_LIMIT, O_JSON}},
-		{"show", {O_JSON}},
-		{"accept", {O_REVIEWER, O_NOTE, O_OVERRULE}},
-		{"reject", {O_REVIEWER, O_NOTE, O_OVERRULE}},
-		{"defer", {O_REVIEWER, O_NOTE, O_OVERRULE}},
-		{"decide", {O_REVIEWER, O_OVERRULE}},
-		{"export", {O_FORMAT, O_SINCE, O_BASE, O_CASE, 'o'}},
-		{"stats", {0}},
-		{"repair", {0}},
-	};
-	static char set[16];
-	for (size_t i = 0; i < sizeof t / sizeof *t; i++)
-		if (!strcmp(t[i].sub, sub)) {
-			size_t k = 0;
-			for (; k < 12 && t[i].opts[k]; k++)
-				set[k] = (char)(t[i].opts[k] == 'o' ? 'o' : t[i].opts[k] - O_QUEUE + 'A');
-			set[k] = 0;
-			return set;
-		}
-	return NULL;
-}
-
-static int parse_opts(int argc, char **argv, const char *sub, review_opts *o)
-{
-	const char *ok = allowed(sub);
-	int ch, oi;
-	char *e;
-
 	memset(o, 0, sizeof *o);
-	o->status = RQ_OPEN;
-	o->kind = -1;
-	o->reopen_factor = 3;
-	o->limit = -1;
-	o->sort = "score";
+	o->sub = sub;
+	for (int k = 0; k < RQ_NSTATUS; k++)
+		status_choices[k] = rq_status_names[k];
+	status_choices[RQ_NSTATUS] = "all";
+	for (int k = 0; k < RK_N; k++)
+		kind_choices[k] = rq_kind_names[k];
 	o->reviewer = getenv("TITLEMILL_REVIEWER");
-	o->queue = getenv("TITLEMILL_QUEUE");
-	if (!o->queue || !*o->queue)
-		o->queue = "titlemill-queue.jsonl";
-	optind = 1;
-	opterr = 0;
-	while ((ch = getopt_long(argc, argv, ":ho:", longopts, &oi)) != -1) {
-		if (ch == 'h') {
-			fputs(review_usage, stdout);
-			return 1;
-		}
-		if (ch == '?' || ch == ':') {
-			char opt[64];
-			snprintf(opt, sizeof opt, "%s", argv[optind - 1]);
-			return rv_usage_error(ch == ':' ? "this option wants a value: " : "unknown option: ",
-					   opt);
-		}
-		if (ch >= O_REVIEWER || ch == 'o') {
-			char c = (char)(ch == 'o' ? 'o' : ch - O_QUEUE + 'A');
-			if (!strchr(ok, c)) {
-				char m[128];
-				snprintf(m, sizeof m, "%s does not apply to 'review %s'", argv[optind - 1], sub);
-				return rv_usage_error(m, NULL);
-			}
-		}
-		switch (ch) {
-		case O_QUEUE: o->queue = optarg; break;
-		case O_STORE: o->store = optarg; break;
-		case O_PREFIX:
-			if (cli_check_prefix("review", optarg))
-				return EXIT_USAGE;
-			o->prefix = optarg;
-			break;
-		case O_REVIEWER: o->reviewer = optarg; break;
-		case O_NOTE: o->note = optarg; break;
-		case O_OVERRULE: o->overrule = 1; break;
-		case O_JSON: o->json = 1; break;
-		case O_STATUS:
-			if (!strcmp(optarg, "all"))
-				o->status = -1;
-			else if ((o->status = rv_pick(rq_status_names, RQ_NSTATUS, optarg)) < 0)
-				return rv_usage_error("--status is open, accepted, rejected, deferred or all, not ", optarg);
-			break;
-		case O_KIND:
-			if ((o->kind = rv_pick(rq_kind_names, RK_N, optarg)) < 0)
-				return rv_usage_error("--kind is new_alt_label, new_hidden_label, rare_label or used_elsewhere, not ", optarg);
-			break;
-		case O_OCC: o->occ = optarg; break;
-		case O_LANG: o->lang = optarg; break;
-		case O_SORT:
-			if (strcmp(optarg, "score") && strcmp(optarg, "postings") && strcmp(optarg, "added"))
-				return rv_usage_error("--sort is score, postings or added, not ", optarg);
-			o->sort = optarg;
-			break;
-		case O_LIMIT:
-			errno = 0;
-			o->limit = strtol(optarg, &e, 10);
-			if (errno || e == optarg || *e || o->limit < 0)
-				return rv_usage_error("--limit wants a whole number of 0 or more, not ", optarg);
-			break;
-		case O_REOPEN:
-			errno = 0;
-			o->reopen_factor = strtod(optarg, &e);
-			if (errno || e == optarg || *e || !isfinite(o->reopen_factor) ||
-			    o->reopen_factor < 1)
-				return rv_usage_error("--reopen-factor wants a number of 1 or more, not ", optarg);
-			break;
-		case O_FORMAT:
-			if ((o->format = rv_pick((const char *const[]){"tsv", "turtle", "ntriples"}, 3, optarg)) < 0)
-				return rv_usage_error("--format is tsv, turtle or ntriples, not ", optarg);
-			break;
-		case O_SINCE:
-			if (rq_time(optarg) < 0)
-				return rv_usage_error("--since wants an ISO 8601 UTC time like 2026-12-02T09:30:00Z, not ", optarg);
-			o->since = optarg;
-			break;
-		case O_BASE: o->base = optarg; break;
-		case O_CASE:
-			if (strcmp(optarg, "written") && strcmp(optarg, "clean"))
-				return rv_usage_error("--case is written or clean, not ", optarg);
-			o->clean_case = !strcmp(optarg, "clean");
-			break;
-		case 'o': o->out = optarg; break;
-		}
+	switch (opt_parse(&review_cmd, o, argc, argv, first)) {
+	case OPT_HELP_SHOWN: return 1;
+	case OPT_MISUSE: return EXIT_USAGE;
 	}
+	const char *env = getenv("TITLEMILL_QUEUE");
+	if (!o->queue_given && env && *env)
+		o->queue = env;
+	o->status = o->status_k - 1 == RQ_NSTATUS ? -1 : o->status_k - 1;
+	o->kind = o->kind_k - 1;
+	o->sort = sort_choices[o->sort_k - 1];
+	o->format = o->format_k - 1;
+	o->clean_case = o->case_k == 2;
+	if (o->since && rq_time(o->since) < 0)
+		return rv_usage_error("--since wants an ISO 8601 UTC time like 2026-12-02T09:30:00Z, not ", o->since);
 	if (o->prefix && !o->store)
 		return rv_usage_error("--prefix goes with --store", NULL);
 	return 0;
@@ -237,7 +179,8 @@ static int parse_opts(int argc, char **argv, const char *sub, review_opts *o)
 static int open_place(const review_opts *o, rq_place *pl)
 {
 	tm_buf err = {0};
-	store_conf conf = {o->prefix, 2, 5000, 0};
+	store_conf conf = STORE_CONF_INIT(o->prefix);
+	conf.retries = RQ_STORE_RETRIES;
 	rq_store *qs = o->store ? rq_store_redis_open(o->store, &conf, &err)
 				: rq_store_file_open(o->queue, &err);
 	int rc = qs ? 0 : -1;
@@ -270,16 +213,17 @@ int cmd_review(int argc, char **argv)
 	int rc;
 
 	if (argc < 2 || !strcmp(argv[1], "--help") || !strcmp(argv[1], "-h")) {
-		fputs(review_usage, argc < 2 ? stderr : stdout);
+		opt_help(&review_cmd, argc < 2 ? stderr : stdout);
 		return argc < 2 ? EXIT_USAGE : EXIT_OK;
 	}
 	const char *sub = argv[1];
-	if (!allowed(sub))
+	int first;
+	if (!sub_opts(sub))
 		return rv_usage_error("unknown subcommand: ", sub);
-	if ((rc = parse_opts(argc - 1, argv + 1, sub, &o)) != 0)
+	if ((rc = parse_opts(argc - 1, argv + 1, sub, &o, &first)) != 0)
 		return rc == 1 ? EXIT_OK : rc;
-	int nargs = argc - 1 - optind;
-	char **args = argv + 1 + optind;
+	int nargs = argc - 1 - first;
+	char **args = argv + 1 + first;
 	if (rq_now(now, &err)) {
 		fprintf(stderr, "titlemill review: %s\n", err.data);
 		buf_free(&err);

@@ -8,6 +8,7 @@
 #ifndef TM_CLI_REVIEW_H
 #define TM_CLI_REVIEW_H
 
+#include <stdint.h>
 #include <stdio.h>
 
 #include "core/buf.h"
@@ -15,17 +16,22 @@
 #include "review/review.h"
 
 typedef struct review_opts {
+	const char *sub;         /* the subcommand */
 	const char *queue, *store, *prefix;
+	int queue_given;         /* --queue was given (else $TITLEMILL_QUEUE may say) */
 	const char *reviewer, *note;
 	int overrule, json;
 	int status;              /* -1 all */
 	int kind;                /* -1 any */
-	const char *occ, *lang, *sort;
-	long limit;
+	const char *occ, *sort;
+	char lang[4];            /* "" any */
+	uint64_t limit;          /* UINT64_MAX: all */
 	double reopen_factor;
 	int format;              /* 0 tsv, 1 turtle, 2 ntriples */
 	const char *since, *base, *out;
 	int clean_case;          /* export the clean (lowercase) label */
+	/* as opt_parse reads them: 1 + the index of the value given */
+	int status_k, kind_k, sort_k, format_k, case_k;
 } review_opts;
 
 /* Prints the usage error "what detail" (detail may be NULL) and a

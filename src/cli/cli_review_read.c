@@ -14,7 +14,7 @@
 #include "io/outfile.h"
 #include "review/review_json.h"
 #include "review/review_time.h"
-#include "io/tsv.h"
+#include "io/record.h"
 
 /* ---- reading: list, show, stats, export ---- */
 
@@ -83,7 +83,7 @@ static const rq_item **selected(const rq_queue *q, const review_opts *o, size_t 
 	for (size_t i = 0; i < q->n; i++) {
 		const rq_item *it = &q->it[i];
 		if ((o->status >= 0 && it->status != o->status) || (o->kind >= 0 && it->kind != o->kind) ||
-		    (o->occ && strcmp(o->occ, it->occ)) || (o->lang && strcmp(o->lang, it->lang)))
+		    (o->occ && strcmp(o->occ, it->occ)) || (o->lang[0] && strcmp(o->lang, it->lang)))
 			continue;
 		v[(*n)++] = it;
 	}
@@ -113,55 +113,71 @@ static int by_seq(const void *a, const void *b)
 }
 
 
+/* A line of list: its TSV (with --json, list prints the queue's own
+ * lines instead, rq_item_json). */
+static const rec_field list_fields[] = {
+	{"id", REC_TSV}, {"status", REC_TSV}, {"kind", REC_TSV}, {"occupation", REC_TSV},
+	{"lang", REC_TSV}, {"label", REC_TSV}, {"score", REC_TSV}, {"postings", REC_TSV},
+	{"occupation_postings", REC_TSV}, {"precision", REC_TSV}, {"competitor", REC_TSV},
+	{"variant_of", REC_TSV}, {"added", REC_TSV}, {"proposed", REC_TSV},
+	{"decided_by", REC_TSV}, {"decided_at", REC_TSV}, {"note", REC_TSV}, {NULL, 0},
+};
+
+static void list_row(rec *r, const rq_item *it)
+{
+	const rq_event *dec = rq_last_decision(it);
+	const rq_brief *e = &it->brief;
+	rec_begin(r);
+	rec_cstr(r, it->id);
+	rec_cstr(r, rq_status_name(it));
+	rec_cstr(r, rq_kind_names[it->kind]);
+	rec_cstr(r, it->occ);
+	rec_cstr(r, it->lang);
+	rec_cstr(r, it->label);
+	rec_num(r, it->score);
+	rec_u64(r, it->postings);
+	rec_u64(r, e->occ_postings);
+	rec_num(r, e->precision);
+	if (e->rival)
+		rec_cell_counted(r, e->rival, strlen(e->rival), e->rival_postings);
+	else
+		rec_null(r);
+	rec_cstr(r, e->variant_of ? e->variant_of : "");
+	rec_cstr(r, it->added);
+	rec_cstr(r, it->proposed);
+	rec_cstr(r, dec ? dec->reviewer : "");
+	rec_cstr(r, dec ? dec->at : "");
+	rec_cstr(r, dec && dec->note ? dec->note : "");
+	rec_end(r);
+}
+
 int rv_list(const review_opts *o, const rq_queue *q)
 {
 	size_t n;
 	const rq_item **v = selected(q, o, &n);
 	tm_buf b = {0};
-	char num[64];
+	rec r;
 
 	if (!v)
 		return rv_fail("out of memory");
 	qsort(v, n, sizeof *v, !strcmp(o->sort, "added") ? by_seq
 			       : !strcmp(o->sort, "postings") ? by_postings : by_score);
-	if (o->limit >= 0 && (size_t)o->limit < n)
+	if (o->limit < n)
 		n = (size_t)o->limit;
+	rec_init(&r, &b, REC_TSV, list_fields);
 	if (!o->json)
-		buf_puts(&b, "id\tstatus\tkind\toccupation\tlang\tlabel\tscore\tpostings\toccupation_postings"
-			     "\tprecision\tcompetitor\tvariant_of\tadded\tproposed\tdecided_by\tdecided_at\tnote\n");
+		rec_header(&r);
 	for (size_t i = 0; i < n; i++) {
-		const rq_item *it = v[i];
-		if (o->json) {
-			rq_item_json(it, &b);
-		} else {
-			const rq_event *dec = rq_last_decision(it);
-			const rq_brief *e = &it->brief;
-			const char *head[] = {it->id,  rq_status_name(it), rq_kind_names[it->kind],
-					      it->occ, it->lang,           it->label};
-			tsv_put_fields(&b, head, sizeof head / sizeof *head);
-			snprintf(num, sizeof num, "\t%.4f\t%llu\t%llu\t%.4f\t", it->score,
-				 (unsigned long long)it->postings, (unsigned long long)e->occ_postings,
-				 e->precision);
-			buf_puts(&b, num);
-			if (e->rival) {
-				snprintf(num, sizeof num, " (%llu)", (unsigned long long)e->rival_postings);
-				buf_puts(&b, e->rival);
-				buf_puts(&b, num);
-			}
-			const char *tail[] = {e->variant_of ? e->variant_of : "",
-					      it->added,
-					      it->proposed,
-					      dec ? dec->reviewer : "",
-					      dec ? dec->at : "",
-					      dec && dec->note ? dec->note : ""};
-			buf_putc(&b, '\t');
-			tsv_put_fields(&b, tail, sizeof tail / sizeof *tail);
-			buf_putc(&b, '\n');
-		}
+		if (o->json)
+			rq_item_json(v[i], &b);
+		else
+			list_row(&r, v[i]);
 		if (b.len > 65536 && rv_flush(&b, stdout))
 			break;
 	}
 	free(v);
+	if (r.failed)
+		return buf_free(&b), rv_fail("out of memory: the output is incomplete");
 	return rv_finish(&b);
 }
 
@@ -289,6 +305,12 @@ int rv_show(const review_opts *o, const rq_queue *q, int n, char **ids)
 }
 
 /* stats: one row per group */
+static const rec_field stats_fields[] = {
+	{"by", REC_TSV}, {"value", REC_TSV}, {"items", REC_TSV}, {"open", REC_TSV},
+	{"accepted", REC_TSV}, {"rejected", REC_TSV}, {"deferred", REC_TSV},
+	{"acceptance_rate", REC_TSV}, {"oldest_open_days", REC_TSV}, {NULL, 0},
+};
+
 typedef struct srow {
 	char by[12], value[80];
 	uint64_t items, st[RQ_NSTATUS + 1]; /* the last: statuses unknown here */
@@ -367,20 +389,34 @@ int rv_stats(const rq_queue *q, const char *now)
 		}
 	}
 	qsort(v, n, sizeof *v, cmp_row);
-	buf_puts(&b, "by\tvalue\titems\topen\taccepted\trejected\tdeferred\tacceptance_rate\toldest_open_days\n");
+	rec r;
+	rec_init(&r, &b, REC_TSV, stats_fields);
+	rec_header(&r);
 	for (size_t i = 0; i < n; i++) {
-		const srow *r = &v[i];
-		char line[400], rate[32] = "", age[32] = "";
-		uint64_t decided = r->st[RQ_ACCEPTED] + r->st[RQ_REJECTED];
+		const srow *w = &v[i];
+		uint64_t decided = w->st[RQ_ACCEPTED] + w->st[RQ_REJECTED];
+		rec_begin(&r);
+		rec_cstr(&r, w->by);
+		rec_cstr(&r, w->value);
+		rec_u64(&r, w->items);
+		for (int k = 0; k < RQ_NSTATUS; k++)
+			rec_u64(&r, w->st[k]);
 		if (decided)
-			snprintf(rate, sizeof rate, "%.4f", (double)r->st[RQ_ACCEPTED] / (double)decided);
-		if (r->oldest >= 0)
-			snprintf(age, sizeof age, "%.1f", (double)(t_now - r->oldest) / 86400.0);
-		snprintf(line, sizeof line, "%s\t%s\t%llu\t%llu\t%llu\t%llu\t%llu\t%s\t%s\n", r->by,
-			 r->value, (unsigned long long)r->items, (unsigned long long)r->st[0],
-			 (unsigned long long)r->st[1], (unsigned long long)r->st[2],
-			 (unsigned long long)r->st[3], rate, age);
-		buf_puts(&b, line);
+			rec_num(&r, (double)w->st[RQ_ACCEPTED] / (double)decided);
+		else
+			rec_null(&r);
+		if (w->oldest >= 0) {
+			char age[32];
+			snprintf(age, sizeof age, "%.1f", (double)(t_now - w->oldest) / 86400.0);
+			rec_cstr(&r, age);
+		} else
+			rec_null(&r);
+		rec_end(&r);
+	}
+	if (r.failed) {
+		free(v);
+		buf_free(&b);
+		return rv_fail("out of memory: the output is incomplete");
 	}
 	free(v);
 	return rv_finish(&b);

@@ -1,7 +1,6 @@
 /* cli_tally.c - titlemill tally (count title variants) and titlemill
  * counts (print counts tables summed). */
 #include <errno.h>
-#include <getopt.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
@@ -17,24 +16,49 @@
 #include "count/tally.h"
 
 typedef struct tally_opts {
-	enum pr_format format;
+	int format;        /* 1 + the index in format_names */
 	int strict, stats;
-	long memo_mib, chunk;
-	const char *out, *store;
-	store_conf sconf;
+	uint64_t memo_mib, chunk, retries, ttl_days; /* ttl_days: UINT64_MAX: none */
+	const char *out, *store, *prefix;
 	setup_opts setup;
 } tally_opts;
 
-/* Strict whole numbers for options. */
-static int num_opt(const char *arg, long lo, long hi, long *v)
-{
-	char *end;
-	errno = 0;
-	*v = strtol(arg, &end, 10);
-	return errno || end == arg || *end || *v < lo || *v > hi ? -1 : 0;
-}
+static const char *const format_names[] = {"auto", "tsv", "jsonl", NULL};
 
-static const char tally_usage[] =
+static const opt_spec tally_specs[] = {
+	OPT_SPEC_STORE(tally_opts, store,
+		       "add the counts to a Redis server or a Redis Cluster: "
+		       "redis://[user@]host:port[,host:port...][/db], [::1]:port for IPv6, or "
+		       "unix:/path (no rediss://: this build has no TLS); give the password in "
+		       "TITLEMILL_REDIS_PASSWORD, not in the URL (ps shows it as *, but a "
+		       "shell's history keeps it); a file loaded again, or a load killed and "
+		       "run again, counts once (within one run every input counts, as in memory)"),
+	{"ttl", OPT_U64, offsetof(tally_opts, ttl_days), "DAYS", NULL, 1, 36500,
+	 "the store's counting keys expire DAYS days after the last load that touched "
+	 "them (not given: they stay)", NULL, 0},
+	OPT_SPEC_PREFIX(tally_opts, prefix),
+	{"chunk", OPT_U64, offsetof(tally_opts, chunk), "N", OPT_XSTR(STORE_CHUNK_DEFAULT),
+	 1, 10000000, "postings per atomic chunk", NULL, 0},
+	{"retries", OPT_U64, offsetof(tally_opts, retries), "N", OPT_XSTR(STORE_RETRIES_DEFAULT),
+	 0, 1000, "reconnect attempts after a lost connection", NULL, 0},
+	{"format", OPT_CHOICE, offsetof(tally_opts, format), "F", "auto", 0, 0,
+	 "auto ('{' first means JSON Lines), tsv or jsonl", format_names, 0},
+	OPT_SPEC_LABELS(tally_opts, setup.labels,
+			"a labels TSV: labels are never cut down when cleaning"),
+	OPT_SPEC_LEXICONS(tally_opts, setup),
+	{"strict", OPT_FLAG, offsetof(tally_opts, strict), NULL, NULL, 0, 0,
+	 "a malformed row is an error (status 1, nothing written)", NULL, 0},
+	OPT_SPEC_MEMO(tally_opts, memo_mib),
+	{"output", OPT_STR, offsetof(tally_opts, out), "FILE", NULL, 0, 0,
+	 "write the table to FILE (a file is replaced only when complete; a device or "
+	 "FIFO is written into)", NULL, 'o'},
+	{"stats", OPT_FLAG, offsetof(tally_opts, stats), NULL, NULL, 0, 0,
+	 "say on standard error how much memory the counts took", NULL, 0},
+	OPT_SPEC_END,
+};
+
+static const opt_cmd tally_cmd = {
+	"tally",
 	"usage: titlemill tally [--store URL [--prefix P] [--chunk N] [--retries N] [--ttl DAYS]]\n"
 	"                       [--format auto|tsv|jsonl] [--labels FILE] [--lexicons DIR]\n"
 	"                       [--strict] [-o FILE] POSTINGS...\n"
@@ -44,42 +68,34 @@ static const char tally_usage[] =
 	"POSTINGS are TSV files with a header (title and occupations required; id,\n"
 	"date, lang optional) or JSON Lines with the same fields; '-' reads standard\n"
 	"input.  A posting id counted once is not counted again.\n"
-	"\n"
-	"  --store URL      add the counts to a Redis server or a Redis Cluster:\n"
-	"                   redis://[user@]host:port[,host:port...][/db], [::1]:port for\n"
-	"                   IPv6, or unix:/path (no rediss://: this build has no TLS);\n"
-	"                   give the password in TITLEMILL_REDIS_PASSWORD, not in the\n"
-	"                   URL (ps shows it as *, but a shell's history keeps it);\n"
-	"                   a file loaded again, or a load killed and run again, counts\n"
-	"                   once (within one run every input counts, as in memory)\n"
-	"  --ttl DAYS       the store's counting keys expire DAYS days after the last\n"
-	"                   load that touched them (default: they stay)\n"
-	"  --prefix P       the store's key prefix (default titlemill): 1 to 64 letters,\n"
-	"                   digits and . _ : -\n"
-	"  --chunk N        postings per atomic chunk (default 10000)\n"
-	"  --retries N      reconnect attempts after a lost connection (default 5)\n"
-	"  --format F       auto (default: '{' first means JSON Lines), tsv or jsonl\n"
-	"  --labels FILE    a labels TSV: labels are never cut down when cleaning\n"
-	"  --lexicons DIR   read the lexicons in DIR too (repeatable)\n"
-	"  --strict         a malformed row is an error (status 1, nothing written)\n"
-	"  --memo MIB       memory of recent titles for the normaliser (default "
-	OPT_XSTR(OPT_MEMO_MIB) ")\n"
-	"  -o FILE          write the table to FILE (a file is replaced only when complete;\n"
-	"                   a device or FIFO is written into)\n"
-	"  --stats          say on standard error how much memory the counts took\n"
-	"  -h, --help       show this help\n";
+	"\n",
+	tally_specs,
+	NULL,
+};
 
-static const char counts_usage[] =
+typedef struct counts_opts {
+	const char *out, *store, *prefix;
+} counts_opts;
+
+static const opt_spec counts_specs[] = {
+	OPT_SPEC_STORE(counts_opts, store, OPT_STORE_READ),
+	OPT_SPEC_PREFIX(counts_opts, prefix),
+	{"output", OPT_STR, offsetof(counts_opts, out), "FILE", NULL, 0, 0,
+	 "write the table to FILE (a file is replaced only when complete; a device or "
+	 "FIFO is written into)", NULL, 'o'},
+	OPT_SPEC_END,
+};
+
+static const opt_cmd counts_cmd = {
+	"counts",
 	"usage: titlemill counts [--store URL [--prefix P]] [-o FILE] [COUNTS...]\n"
 	"\n"
 	"Reads counts tables (from tally or counts; '-', or none without --store:\n"
 	"standard input) and what a store holds, sums them and prints one counts table.\n"
-	"\n"
-	"  --store URL      read the counts a Redis server holds (see tally)\n"
-	"  --prefix P       the store's key prefix (default titlemill)\n"
-	"  -o FILE          write the table to FILE (a file is replaced only when complete;\n"
-	"                   a device or FIFO is written into)\n"
-	"  -h, --help       show this help\n";
+	"\n",
+	counts_specs,
+	NULL,
+};
 
 /* Writes m to standard output (path NULL) or to path by the rules of
  * outfile.h: a regular file replaced atomically, a device or FIFO
@@ -113,24 +129,6 @@ done:
 	return rc;
 }
 
-int cli_check_prefix(const char *cmd, const char *prefix)
-{
-	tm_buf err = {0};
-	if (store_prefix_check(prefix, &err) == 0)
-		return 0;
-	fprintf(stderr, "titlemill %s: --prefix: %.*s\n", cmd, (int)err.len, err.data ? err.data : "");
-	buf_free(&err);
-	return EXIT_USAGE;
-}
-
-static int parse_memo(const char *arg, long *v)
-{
-	char *end;
-	errno = 0;
-	*v = strtol(arg, &end, 10);
-	return errno || end == arg || *end || *v < 0 || *v > OPT_MEMO_MAX_MIB ? -1 : 0;
-}
-
 /* Reports of malformed rows: the first few in full, then a count. */
 typedef struct badlog {
 	long n;
@@ -146,22 +144,6 @@ static double now(void)
 
 int cmd_tally(int argc, char **argv)
 {
-	static const struct option longopts[] = {
-		{"format", required_argument, NULL, 'F'},
-		{"labels", required_argument, NULL, 'L'},
-		{"lexicons", required_argument, NULL, 'x'},
-		{"strict", no_argument, NULL, 's'},
-		{"memo", required_argument, NULL, 'm'},
-		{"output", required_argument, NULL, 'o'},
-		{"store", required_argument, NULL, 'S'},
-		{"prefix", required_argument, NULL, 'P'},
-		{"chunk", required_argument, NULL, 'C'},
-		{"retries", required_argument, NULL, 'R'},
-		{"ttl", required_argument, NULL, 'E'},
-		{"stats", no_argument, NULL, 'T'},
-		{"help", no_argument, NULL, 'h'},
-		{NULL, 0, NULL, 0},
-	};
 	tally_opts o;
 	store *st = NULL;
 	tm_buf err = {0};
@@ -170,77 +152,23 @@ int cmd_tally(int argc, char **argv)
 	uint64_t nread = 0;
 	lexicon *lx;
 	normaliser *nm;
-	int c, rc = EXIT_OK, tty = isatty(2);
+	int first, rc = EXIT_OK, tty = isatty(2);
 	double t0 = now(), last = t0;
 
 	memset(&o, 0, sizeof o);
 	memset(&bl, 0, sizeof bl);
-	o.memo_mib = OPT_MEMO_MIB;
-	o.chunk = STORE_CHUNK_DEFAULT;
-	o.sconf.retries = 5;
-	optind = 1;
-	while ((c = getopt_long(argc, argv, "ho:", longopts, NULL)) != -1) {
-		long v;
-		switch (c) {
-		case 'S': o.store = optarg; break;
-		case 'T': o.stats = 1; break;
-		case 'P':
-			if (cli_check_prefix("tally", optarg))
-				return EXIT_USAGE;
-			o.sconf.prefix = optarg;
-			break;
-		case 'C':
-			if (num_opt(optarg, 1, 10000000, &o.chunk) != 0) {
-				fprintf(stderr, "titlemill tally: --chunk: want a number from 1 to 10000000, not '%s'\n", optarg);
-				return EXIT_USAGE;
-			}
-			break;
-		case 'E':
-			if (num_opt(optarg, 1, 36500, &v) != 0) {
-				fprintf(stderr, "titlemill tally: --ttl: want a number of days from 1 to 36500, not '%s'\n", optarg);
-				return EXIT_USAGE;
-			}
-			o.sconf.ttl_s = (long long)v * 86400;
-			break;
-		case 'R':
-			if (num_opt(optarg, 0, 1000, &v) != 0) {
-				fprintf(stderr, "titlemill tally: --retries: want a number from 0 to 1000, not '%s'\n", optarg);
-				return EXIT_USAGE;
-			}
-			o.sconf.retries = (int)v;
-			break;
-		case 'F':
-			if (!strcmp(optarg, "auto")) o.format = PR_AUTO;
-			else if (!strcmp(optarg, "tsv")) o.format = PR_TSV;
-			else if (!strcmp(optarg, "jsonl")) o.format = PR_JSONL;
-			else {
-				fprintf(stderr, "titlemill tally: --format: want auto, tsv or jsonl, not '%s'\n", optarg);
-				return EXIT_USAGE;
-			}
-			break;
-		case 'L': o.setup.labels = optarg; break;
-		case 'x':
-			if (o.setup.nextra == 16) {
-				fputs("titlemill tally: at most 16 --lexicons folders\n", stderr);
-				return EXIT_USAGE;
-			}
-			o.setup.extra[o.setup.nextra++] = optarg;
-			break;
-		case 's': o.strict = 1; break;
-		case 'm':
-			if (parse_memo(optarg, &o.memo_mib) != 0) {
-				fprintf(stderr, "titlemill tally: --memo: want a whole number of MiB from 0 to %d, not '%s'\n", OPT_MEMO_MAX_MIB, optarg);
-				return EXIT_USAGE;
-			}
-			break;
-		case 'o': o.out = optarg; break;
-		case 'h': fputs(tally_usage, stdout); return EXIT_OK;
-		default: fputs(tally_usage, stderr); return EXIT_USAGE;
-		}
+	switch (opt_parse(&tally_cmd, &o, argc, argv, &first)) {
+	case OPT_HELP_SHOWN: return EXIT_OK;
+	case OPT_MISUSE: return EXIT_USAGE;
 	}
-	if (optind >= argc) {
+	store_conf sconf = STORE_CONF_INIT(o.prefix);
+	sconf.retries = (int)o.retries;
+	if (o.ttl_days != UINT64_MAX)
+		sconf.ttl_s = (long long)o.ttl_days * 86400;
+	enum pr_format format = o.format == 3 ? PR_JSONL : o.format == 2 ? PR_TSV : PR_AUTO;
+	if (first >= argc) {
 		fputs("titlemill tally: name the postings files ('-' for standard input)\n", stderr);
-		fputs(tally_usage, stderr);
+		opt_help(&tally_cmd, stderr);
 		return EXIT_USAGE;
 	}
 	if (!(lx = setup_lexicon(&o.setup, &err))) {
@@ -264,7 +192,7 @@ int cmd_tally(int argc, char **argv)
 	if (o.store && o.strict) {
 		/* --strict with a store: every row is checked before anything
 		 * is applied */
-		for (int i = optind; i < argc && rc == EXIT_OK; i++) {
+		for (int i = first; i < argc && rc == EXIT_OK; i++) {
 			postings_reader pr;
 			posting p;
 			int r;
@@ -274,7 +202,7 @@ int cmd_tally(int argc, char **argv)
 				rc = EXIT_USAGE;
 				break;
 			}
-			if (pr_open(&pr, argv[i], o.format) != 0) {
+			if (pr_open(&pr, argv[i], format) != 0) {
 				fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
 				rc = EXIT_RUNTIME;
 			}
@@ -294,7 +222,7 @@ int cmd_tally(int argc, char **argv)
 	}
 	/* the counts go to the store, or to memory and then the table */
 	tm_init(&m);
-	st = o.store ? store_open(o.store, &o.sconf, &err) : store_mem_open(&m, &err);
+	st = o.store ? store_open(o.store, &sconf, &err) : store_mem_open(&m, &err);
 	if (!st) {
 		fprintf(stderr, "titlemill tally: %.*s\n", (int)err.len, err.data ? err.data : "");
 		norm_free(nm);
@@ -302,14 +230,14 @@ int cmd_tally(int argc, char **argv)
 		buf_free(&err);
 		return EXIT_RUNTIME;
 	}
-	store_set_chunk(st, o.chunk);
-	for (int i = optind; i < argc && rc == EXIT_OK; i++) {
+	store_set_chunk(st, (long)o.chunk);
+	for (int i = first; i < argc && rc == EXIT_OK; i++) {
 		postings_reader pr;
 		posting p;
 		int r;
 		pr_row row;
 
-		if (pr_open(&pr, argv[i], o.format) != 0) {
+		if (pr_open(&pr, argv[i], format) != 0) {
 			fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
 			pr_close(&pr);
 			rc = EXIT_RUNTIME;
@@ -412,36 +340,20 @@ int cmd_tally(int argc, char **argv)
 
 int cmd_counts(int argc, char **argv)
 {
-	static const struct option longopts[] = {
-		{"output", required_argument, NULL, 'o'},
-		{"store", required_argument, NULL, 'S'},
-		{"prefix", required_argument, NULL, 'P'},
-		{"help", no_argument, NULL, 'h'},
-		{NULL, 0, NULL, 0},
-	};
-	const char *out = NULL, *surl = NULL;
-	store_conf sc = {NULL, 5, 5000, 0};
+	counts_opts o;
 	tm_buf err = {0};
 	tally_mem m;
-	int c, rc = EXIT_OK;
+	int first, rc = EXIT_OK;
 
-	optind = 1;
-	while ((c = getopt_long(argc, argv, "ho:", longopts, NULL)) != -1) {
-		switch (c) {
-		case 'o': out = optarg; break;
-		case 'S': surl = optarg; break;
-		case 'P':
-			if (cli_check_prefix("counts", optarg))
-				return EXIT_USAGE;
-			sc.prefix = optarg;
-			break;
-		case 'h': fputs(counts_usage, stdout); return EXIT_OK;
-		default: fputs(counts_usage, stderr); return EXIT_USAGE;
-		}
+	memset(&o, 0, sizeof o);
+	switch (opt_parse(&counts_cmd, &o, argc, argv, &first)) {
+	case OPT_HELP_SHOWN: return EXIT_OK;
+	case OPT_MISUSE: return EXIT_USAGE;
 	}
+	store_conf sc = STORE_CONF_INIT(o.prefix);
 	tm_init(&m);
-	if (surl) {
-		store *st = store_open(surl, &sc, &err);
+	if (o.store) {
+		store *st = store_open(o.store, &sc, &err);
 		if (!st || st->ops->dump(st, &m) != 0) {
 			if (st) {
 				buf_reset(&err);
@@ -454,15 +366,15 @@ int cmd_counts(int argc, char **argv)
 				"with this store and prefix finishes them\n",
 				(unsigned long long)st->unfinished);
 		store_close(st);
-	} else if (optind >= argc && tm_read(&m, "-", &err) != 0)
+	} else if (first >= argc && tm_read(&m, "-", &err) != 0)
 		rc = EXIT_RUNTIME;
-	for (int i = optind; i < argc && rc == EXIT_OK; i++)
+	for (int i = first; i < argc && rc == EXIT_OK; i++)
 		if (tm_read(&m, argv[i], &err) != 0)
 			rc = EXIT_RUNTIME;
 	if (rc != EXIT_OK)
 		fprintf(stderr, "titlemill counts: %.*s\n", (int)err.len, err.data ? err.data : "");
 	else
-		rc = write_table(&m, out, "counts");
+		rc = write_table(&m, o.out, "counts");
 	tm_free(&m);
 	buf_free(&err);
 	return rc;

@@ -45,7 +45,10 @@ void opt_help(const opt_cmd *cmd, FILE *fp)
 	fputs(cmd->synopsis, fp);
 	for (const opt_spec *s = cmd->specs; s->name; s++) {
 		char head[64];
-		snprintf(head, sizeof head, "--%s%s%s", s->name, s->arg ? " " : "",
+		char letter[8] = "";
+		if (s->letter)
+			snprintf(letter, sizeof letter, "-%c, ", s->letter);
+		snprintf(head, sizeof head, "%s--%s%s%s", letter, s->name, s->arg ? " " : "",
 			 s->arg ? s->arg : "");
 		help_line(fp, head, s->help, s->def);
 	}
@@ -94,8 +97,12 @@ static int take(const opt_cmd *cmd, const opt_spec *s, void *o, const char *arg)
 	case OPT_REAL:
 		if (real(arg, s->lo, s->hi, (double *)at) == 0)
 			return 0;
-		fprintf(stderr, "titlemill %s: --%s: want a number from %g to %g, not '%s'\n",
-			cmd->name, s->name, s->lo, s->hi, arg);
+		if (s->hi >= OPT_UNBOUNDED)
+			fprintf(stderr, "titlemill %s: --%s: want a number of %g or more, not '%s'\n",
+				cmd->name, s->name, s->lo, arg);
+		else
+			fprintf(stderr, "titlemill %s: --%s: want a number from %g to %g, not '%s'\n",
+				cmd->name, s->name, s->lo, s->hi, arg);
 		return -1;
 	case OPT_LANG:
 		if (lang_tag(arg, at) == 0)
@@ -142,6 +149,8 @@ static int take(const opt_cmd *cmd, const opt_spec *s, void *o, const char *arg)
 int opt_parse(const opt_cmd *cmd, void *o, int argc, char **argv, int *first)
 {
 	struct option lo[MAX_SPECS + 2];
+	char letters[2 * MAX_SPECS + 2] = "h";
+	size_t nl = 1;
 	int n = 0, ch, idx = 0;
 
 	for (const opt_spec *s = cmd->specs; s->name; s++, n++) {
@@ -151,6 +160,11 @@ int opt_parse(const opt_cmd *cmd, void *o, int argc, char **argv, int *first)
 		lo[n].has_arg = s->kind == OPT_FLAG ? no_argument : required_argument;
 		lo[n].flag = NULL;
 		lo[n].val = 0x100 + n;
+		if (s->letter) {
+			letters[nl++] = (char)s->letter;
+			if (s->kind != OPT_FLAG)
+				letters[nl++] = ':';
+		}
 		if (s->kind == OPT_U64 && !s->def)
 			*(uint64_t *)((char *)o + s->off) = UINT64_MAX;
 		if (s->def && take(cmd, s, o, s->def) != 0)
@@ -158,17 +172,24 @@ int opt_parse(const opt_cmd *cmd, void *o, int argc, char **argv, int *first)
 	}
 	lo[n] = (struct option){"help", no_argument, NULL, 'h'};
 	lo[n + 1] = (struct option){NULL, 0, NULL, 0};
-	optind = 1;
-	while ((ch = getopt_long(argc, argv, "h", lo, &idx)) != -1) {
+	/* 0: glibc starts afresh, whatever an earlier parse left (the unit
+	 * tests parse many command lines in one process) */
+	optind = 0;
+	while ((ch = getopt_long(argc, argv, letters, lo, &idx)) != -1) {
 		if (ch == 'h') {
 			opt_help(cmd, stdout);
 			return OPT_HELP_SHOWN;
 		}
+		if (ch > 0 && ch < 0x100 && ch != '?' && ch != ':')
+			for (int k = 0; k < n; k++)
+				if (cmd->specs[k].letter == ch)
+					ch = 0x100 + k;
 		if (ch < 0x100 || ch >= 0x100 + n) {
 			opt_help(cmd, stderr);
 			return OPT_MISUSE;
 		}
-		if (take(cmd, &cmd->specs[ch - 0x100], o, optarg) != 0)
+		const opt_spec *s = &cmd->specs[ch - 0x100];
+		if ((cmd->admit && cmd->admit(s, o) != 0) || take(cmd, s, o, optarg) != 0)
 			return OPT_MISUSE;
 	}
 	*first = optind;

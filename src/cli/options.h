@@ -20,7 +20,8 @@
  *               given
  *   OPT_LEXDIR  setup_opts: appends to its extra folders (repeatable)
  *   OPT_PREFIX  const char *, a store key prefix (store_prefix_check)
- * Numbers are parsed strictly: the whole argument, no sign on a whole
+ * A real number's hi of OPT_UNBOUNDED or more means no upper bound
+ * (still finite).  Numbers are parsed strictly: the whole argument, no sign on a whole
  * number, within the range. */
 #ifndef TM_OPTIONS_H
 #define TM_OPTIONS_H
@@ -28,6 +29,8 @@
 #include <stddef.h>
 #include <stdint.h>
 #include <stdio.h>
+
+#include "count/store.h"
 
 typedef enum opt_kind {
 	OPT_FLAG, OPT_STR, OPT_U64, OPT_REAL, OPT_LANG, OPT_CHOICE, OPT_LEXDIR, OPT_PREFIX
@@ -42,6 +45,7 @@ typedef struct opt_spec {
 	double lo, hi;         /* the range of a number */
 	const char *help;      /* the meaning, for --help */
 	const char *const *choices; /* OPT_CHOICE: the values, NULL-terminated */
+	int letter;            /* a one-letter form ('o' for -o), or 0 */
 } opt_spec;
 
 typedef struct opt_cmd {
@@ -49,6 +53,10 @@ typedef struct opt_cmd {
 	const char *synopsis;  /* --help before the options: usage lines and
 				* what the command does, ending in a blank line */
 	const opt_spec *specs;
+	/* NULL, or called before each option given on the command line is
+	 * taken: 0 to take it, or OPT_MISUSE after saying why not on
+	 * standard error (an option that does not apply here). */
+	int (*admit)(const opt_spec *s, void *o);
 } opt_cmd;
 
 /* The memory of recent titles the normaliser keeps, in MiB, for every
@@ -61,23 +69,25 @@ typedef struct opt_cmd {
 
 /* The options several commands share, with one meaning each. */
 #define OPT_SPEC_LABELS(type, m, meaning) \
-	{"labels", OPT_STR, offsetof(type, m), "FILE", NULL, 0, 0, meaning, NULL}
+	{"labels", OPT_STR, offsetof(type, m), "FILE", NULL, 0, 0, meaning, NULL, 0}
 #define OPT_SPEC_LEXICONS(type, m) \
 	{"lexicons", OPT_LEXDIR, offsetof(type, m), "DIR", NULL, 0, 0, \
-	 "read the lexicons in DIR too (repeatable)", NULL}
+	 "read the lexicons in DIR too (repeatable)", NULL, 0}
 #define OPT_SPEC_LANG(type, m, meaning) \
-	{"lang", OPT_LANG, offsetof(type, m), "L", NULL, 0, 0, meaning, NULL}
-#define OPT_SPEC_STORE(type, m) \
-	{"store", OPT_STR, offsetof(type, m), "URL", NULL, 0, 0, \
-	 "read the counts of a Redis store (see tally)", NULL}
+	{"lang", OPT_LANG, offsetof(type, m), "L", NULL, 0, 0, meaning, NULL, 0}
+#define OPT_SPEC_STORE(type, m, meaning) \
+	{"store", OPT_STR, offsetof(type, m), "URL", NULL, 0, 0, meaning, NULL, 0}
+#define OPT_STORE_READ "read the counts of a Redis store (see tally)"
 #define OPT_SPEC_PREFIX(type, m) \
 	{"prefix", OPT_PREFIX, offsetof(type, m), "P", NULL, 0, 0, \
-	 "the store's key prefix (default titlemill)", NULL}
+	 "the store's key prefix (default " STORE_PREFIX_DEFAULT ")", NULL, 0}
 #define OPT_SPEC_MEMO(type, m) \
 	{"memo", OPT_U64, offsetof(type, m), "MIB", OPT_XSTR(OPT_MEMO_MIB), 0, OPT_MEMO_MAX_MIB, \
 	 "remember the results of recent distinct titles in MIB mebibytes " \
-	 "(0: clean every title afresh)", NULL}
-#define OPT_SPEC_END {NULL, OPT_FLAG, 0, NULL, NULL, 0, 0, NULL, NULL}
+	 "(0: clean every title afresh)", NULL, 0}
+#define OPT_SPEC_END {NULL, OPT_FLAG, 0, NULL, NULL, 0, 0, NULL, NULL, 0}
+
+#define OPT_UNBOUNDED 1e300
 
 enum { OPT_RUN, OPT_HELP_SHOWN, OPT_MISUSE };
 

@@ -74,6 +74,15 @@ struct store {
  * . _ : - (no glob characters for SCAN MATCH, no braces that would change
  * a key's Redis Cluster hash tag, nothing cut short). */
 #define STORE_PREFIX_MAX 64
+/* The key prefix when none is given. */
+#define STORE_PREFIX_DEFAULT "titlemill"
+/* Reconnect attempts after a lost connection, and the connect and reply
+ * timeout in milliseconds, when the caller does not say. */
+#define STORE_RETRIES_DEFAULT 5
+#define STORE_TIMEOUT_MS_DEFAULT 5000
+/* The settings of a store with the given prefix (NULL: the default) and
+ * everything else by default. */
+#define STORE_CONF_INIT(prefix) {(prefix), STORE_RETRIES_DEFAULT, STORE_TIMEOUT_MS_DEFAULT, 0}
 /* Postings per chunk of a chunking backend unless store_set_chunk says. */
 #define STORE_CHUNK_DEFAULT 10000
 
@@ -81,11 +90,13 @@ struct store {
 int store_prefix_check(const char *p, tm_buf *err);
 
 typedef struct store_conf {
-	const char *prefix;  /* all keys start with it; default "titlemill";
+	const char *prefix;  /* all keys start with it; NULL: STORE_PREFIX_DEFAULT;
 			      * store_open refuses one store_prefix_check
 			      * refuses */
-	int retries;         /* reconnect attempts after a failure (default 5) */
-	int timeout_ms;      /* connect and reply timeout (default 5000) */
+	int retries;         /* reconnect attempts after a failure (< 0:
+			      * STORE_RETRIES_DEFAULT) */
+	int timeout_ms;      /* connect and reply timeout (<= 0:
+			      * STORE_TIMEOUT_MS_DEFAULT) */
 	long long ttl_s;     /* > 0: the counting keys a load touches expire
 			      * this many seconds after it (renewed by each
 			      * load); 0: they stay */

@@ -153,8 +153,8 @@ store *store_open(const char *url, const store_conf *conf, tm_buf *err)
 		return NULL;
 	}
 	store_base_init(&r->base, &redis_ops, STORE_CHUNK_DEFAULT);
-	r->k.retries = conf && conf->retries >= 0 ? conf->retries : 5;
-	r->k.timeout_ms = conf && conf->timeout_ms > 0 ? conf->timeout_ms : 5000;
+	r->k.retries = conf && conf->retries >= 0 ? conf->retries : STORE_RETRIES_DEFAULT;
+	r->k.timeout_ms = conf && conf->timeout_ms > 0 ? conf->timeout_ms : STORE_TIMEOUT_MS_DEFAULT;
 	r->k.on_connect = load_scripts;
 	const char *kill = getenv("TITLEMILL_TEST_KILL");
 	if (kill && (!strncmp(kill, "claim:", 6) || !strncmp(kill, "apply:", 6))) {
@@ -162,7 +162,7 @@ store *store_open(const char *url, const store_conf *conf, tm_buf *err)
 		r->kill_at = strtol(kill + 6, NULL, 10);
 	}
 	r->k.ctx = r;
-	const char *prefix = conf && conf->prefix ? conf->prefix : "titlemill";
+	const char *prefix = conf && conf->prefix ? conf->prefix : STORE_PREFIX_DEFAULT;
 	if (store_prefix_check(prefix, err) != 0) {
 		store_close(&r->base);
 		return NULL;

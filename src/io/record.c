@@ -268,3 +268,13 @@ void rec_cell_end(rec *r)
 		r->failed = 1;
 	r->cell = 0;
 }
+
+void rec_cell_counted(rec *r, const char *s, size_t n, uint64_t v)
+{
+	rec_cell_begin(r);
+	rec_cell_str(r, s, n);
+	rec_cell_str(r, " (", 2);
+	rec_cell_u64(r, v);
+	rec_cell_str(r, ")", 1);
+	rec_cell_end(r);
+}

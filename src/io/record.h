@@ -90,5 +90,7 @@ void rec_cell_begin(rec *r);
 void rec_cell_str(rec *r, const char *s, size_t n);
 void rec_cell_u64(rec *r, uint64_t v);
 void rec_cell_end(rec *r);
+/* TSV only: "TEXT (N)" as one cell, a name with its count. */
+void rec_cell_counted(rec *r, const char *s, size_t n, uint64_t v);
 
 #endif

@@ -92,8 +92,7 @@ int inputs_load(rank_inputs *in, const rank_sources *src, FILE *warn, tm_buf *er
 	if (labels_read(&in->ls, src->setup->labels, in->nm, warn, err) != 0)
 		return -1;
 	if (src->store_url) {
-		/* retries -1 and timeout 0: the store's own defaults */
-		store_conf sc = {src->prefix, -1, 0, 0};
+		store_conf sc = STORE_CONF_INIT(src->prefix);
 		store *st = store_open(src->store_url, &sc, err);
 		int rc = 0;
 		if (!st || st->ops->dump(st, &in->m) != 0) {

@@ -48,6 +48,9 @@ struct rq_store {
 
 /* The queue file at path (borrowed), or the queue in the store at url. */
 rq_store *rq_store_file_open(const char *path, tm_buf *err);
+/* Reconnect attempts of `titlemill review` on a store after a lost
+ * connection (a load's are STORE_RETRIES_DEFAULT). */
+#define RQ_STORE_RETRIES 2
 rq_store *rq_store_redis_open(const char *url, const store_conf *conf, tm_buf *err);
 
 typedef struct rq_place {
