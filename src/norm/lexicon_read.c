@@ -34,7 +34,7 @@ static const char *const v_pay[] = {"phrase", "currency", "unit", "lead", NULL};
 static const char *const v_reference[] = {"keyword", NULL};
 static const char *const v_employer[] = {"marker", "legal", NULL};
 static const char *const v_location[] = {"prep", "before", "after",
-					 "country-code", NULL};
+					 "country-code", "subdivision", NULL};
 static const char *const v_unit[] = {"hours", "week", "month", "year", "day", "contact",
 				     "workload", "fte",
 				     "connector", "degree", "weekday", "post",

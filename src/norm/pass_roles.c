@@ -258,6 +258,22 @@ static int region_after(tm_title *ti, size_t s, size_t k0, size_t k1, int caps)
 	return 1;
 }
 
+/* Is the kept part of segment s, units [k0, k1), a bracket holding only
+ * the code of a subdivision of the country of the title's language
+ * (location/subdivisions.txt: "(TO)", "(69)")?  A code of letters counts
+ * only in capitals. */
+static int subdivision_bracket(tm_title *ti, size_t s, size_t k0, size_t k1)
+{
+	const tm_tok *t;
+	size_t len;
+
+	if (!ti->segs[s].bracket || k1 != k0 + 1 ||
+	    !match_val(ti, k0, LC_LOCATION, "subdivision", 1, &len) || len != 1)
+		return 0;
+	t = U(ti, k0);
+	return t->kind == TK_NUM || (t->flags & TF_ALLCAPS);
+}
+
 int pass_roles(tm_title *ti)
 {
 	size_t s, head = SIZE_MAX, first = SIZE_MAX, last, k0, k1;
@@ -293,6 +309,11 @@ int pass_roles(tm_title *ti)
 			continue;
 		if (s != head && (s > head || evidence)) {
 			int ev = seg_evidence(ti, s, !caps);
+			if (ev == EV_NONE && s > head && subdivision_bracket(ti, s, k0, k1)) {
+				if (remove_units(ti, k0, k1, NF_LOCATION, NULL))
+					return -1;
+				continue;
+			}
 			if (ev == EV_NONE && s == last && s > 0 && removed_place(ti, s - 1) &&
 			    region_after(ti, s, k0, k1, caps)) {
 				if (remove_units(ti, k0, k1, NF_LOCATION, NULL))
