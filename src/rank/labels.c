@@ -104,16 +104,20 @@ static int check_repeats(labelset *ls, const label *lb, const char *tag, const c
 	if (buf_append(jb, o, lb->occlen) || buf_putc(jb, '\x1F') || buf_puts(jb, low) ||
 	    (r = st_add(&ls->preftag, jb->data, jb->len, 0, &idx)) < 0)
 		return -1;
-	if (r == 1)
-		ls->preftag.ent[idx].count = ls->n;
-	else {
+	if (r == 0) {
 		const label *f = &ls->v[ls->preftag.ent[idx].count - 1];
 		ls->repeats++;
 		if (warn)
 			fprintf(warn, "titlemill: %s: a second preferred label '%s'@%s for %s (the first: "
 				"'%s', %s %ld; SKOS: one per language)\n", where, x, tag, o,
 				lab_str(ls, f->text), unit, f->line);
+		return 0;
 	}
+	ls->preftag.ent[idx].count = ls->n;
+	if ((r = st_add(&ls->prefocc, o, lb->occlen, 0, &idx)) < 0)
+		return -1;
+	if (r == 1)
+		ls->prefocc.ent[idx].count = ls->n;
 	return 0;
 }
 
@@ -369,6 +373,24 @@ uint64_t labels_count(const labelset *ls, const char *occ, size_t ol, const char
 	return i < 0 ? 0 : ls->perocc.ent[i].count;
 }
 
+const label *labels_pref(const labelset *ls, const char *occ, size_t ol, const char *lang)
+{
+	char b[256];
+	long i = -1;
+	size_t ll = strlen(lang);
+	if (ol + 1 + ll <= sizeof b) {
+		memcpy(b, occ, ol);
+		b[ol] = '\x1F';
+		for (size_t k = 0; k < ll; k++)
+			b[ol + 1 + k] = (char)(lang[k] >= 'A' && lang[k] <= 'Z' ? lang[k] + 32 : lang[k]);
+		i = st_find(&ls->preftag, b, ol + 1 + ll);
+	}
+	if (i >= 0)
+		return &ls->v[ls->preftag.ent[i].count - 1];
+	i = st_find(&ls->prefocc, occ, ol);
+	return i < 0 ? NULL : &ls->v[ls->prefocc.ent[i].count - 1];
+}
+
 void labels_free(labelset *ls)
 {
 	free(ls->v);
@@ -379,5 +401,6 @@ void labels_free(labelset *ls)
 	st_free(&ls->prefs);
 	st_free(&ls->lits);
 	st_free(&ls->preftag);
+	st_free(&ls->prefocc);
 	memset(ls, 0, sizeof *ls);
 }

@@ -28,6 +28,7 @@ typedef struct labelset {
 	strtab prefs;   /* occ 1F lang 1F key of the preferred labels */
 	strtab lits;    /* occ 1F tag 1F text -> first label + 1 (repeats) */
 	strtab preftag; /* occ 1F tag -> first preferred label + 1 */
+	strtab prefocc; /* occ -> first preferred label + 1, any language */
 	long empty, collisions;
 	long repeats;   /* a literal given again, or with two kinds; a second
 			 * preferred label in one language tag */
@@ -57,6 +58,12 @@ static inline const char *lab_str(const labelset *ls, uint32_t off)
 {
 	return ls->arena.data + off;
 }
+
+/* The label that names occ to a curator: its preferred label in lang
+ * (a primary subtag such as "de", or a full tag), else its first
+ * preferred label in the file's order, whatever the language; NULL when
+ * the occupation has no preferred label. */
+const label *labels_pref(const labelset *ls, const char *occ, size_t ol, const char *lang);
 
 void labels_free(labelset *ls);
 

@@ -270,6 +270,38 @@ static void test_propose(void **state)
 	propose_list_free(&l);
 }
 
+/* The name of an occupation for curators: its preferred label in the
+ * language asked for, else its first preferred label in file order. */
+static void test_pref(void **state)
+{
+	(void)state;
+	char path[] = "/tmp/tm-pref-XXXXXX";
+	int fd = mkstemp(path);
+	const char *labels = "occupation\tkind\tlang\tlabel\n"
+			     "occ:7\talt\tde\tLagerhelfer\n"
+			     "occ:7\tpref\tfr\tMagasinier\n"
+			     "occ:7\tpref\tde\tLagerist\n"
+			     "occ:8\talt\ten\tCook\n";
+	labelset ls;
+	tm_buf err = {0};
+	assert_true(fd >= 0);
+	assert_int_equal(write(fd, labels, strlen(labels)), (ssize_t)strlen(labels));
+	close(fd);
+	assert_int_equal(labels_read(&ls, path, NM, stderr, &err), 0);
+	remove(path);
+	const label *l = labels_pref(&ls, "occ:7", 5, "de");
+	assert_non_null(l);
+	assert_string_equal(lab_str(&ls, l->text), "Lagerist");
+	l = labels_pref(&ls, "occ:7", 5, "DE");
+	assert_string_equal(lab_str(&ls, l->text), "Lagerist");
+	l = labels_pref(&ls, "occ:7", 5, "it"); /* none in Italian: the first */
+	assert_string_equal(lab_str(&ls, l->text), "Magasinier");
+	assert_null(labels_pref(&ls, "occ:8", 5, "en")); /* no preferred label */
+	assert_null(labels_pref(&ls, "occ:9", 5, "de"));
+	labels_free(&ls);
+	buf_free(&err);
+}
+
 static void test_variant(void **state)
 {
 	(void)state;
@@ -391,6 +423,7 @@ int main(void)
 		cmocka_unit_test(test_coverage),
 		cmocka_unit_test(test_coverage_stops),
 		cmocka_unit_test(test_propose),
+		cmocka_unit_test(test_pref),
 		cmocka_unit_test(test_variant),
 		cmocka_unit_test(test_as_written),
 		cmocka_unit_test(test_record),
