@@ -34,7 +34,7 @@ BUILD ?= build
 # includes only from the folders before it (DEVELOPERS.md says what each
 # holds).  Objects and unit tests go flat into $(BUILD): names are unique.
 SRC_core = buf digest lang period
-SRC_io = decode reader tsv jsonw jsonr postings skos record outfile fieldcheck
+SRC_io = decode reader tsv jsonw jsonr htmlw postings skos record outfile fieldcheck
 SRC_norm = unicode token lexicon lexicon_read lexicon_image lexcache setup title pass_gender pass_contact pass_pay pass_noise pass_place pass_roles \
 	norm facets
 SRC_count = strtab tally_mem chunk store store_redis store_redis_url store_redis_keys store_redis_chunk \
@@ -42,9 +42,10 @@ SRC_count = strtab tally_mem chunk store store_redis store_redis_url store_redis
 SRC_rank = stats labels inputs coverage propose
 SRC_review = review_item review_json review_change review_batch review_time queue queue_file \
 	store_redis_queue delta
+SRC_report = chart
 SRC_cli = options cli_norm cli_tally cli_rank cli_propose cli_review cli_review_change cli_review_read \
 	cli_review_out
-DIRS = core io norm count rank review cli
+DIRS = core io norm count rank review report cli
 vpath %.c $(DIRS:%=src/%) $(DIRS:%=tests/unit/%)
 HEADERS = $(wildcard src/*/*.h src/*/*.inc)
 # what the unit tests link: everything but main
