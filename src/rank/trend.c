@@ -1,0 +1,211 @@
+/* trend.c - titles rising and falling between two windows (trend.h).
+ *
+ * Both counts' triples are listed in their sorted order (occupation,
+ * language, key) and walked together, one occupation and language at a
+ * time: linear in the triples of both windows, plus the sort of the rows
+ * reported. */
+#include "rank/trend.h"
+
+#include <stdlib.h>
+#include <string.h>
+
+const char *const trend_direction_names[2] = {"rising", "falling"};
+
+#define TREND_BAR_DEFAULT(type, kind, m, opt, arg, def, lo, hi, meaning) b->m = (type)(def);
+void trend_bars_default(trend_bars *b)
+{
+	TREND_BARS(TREND_BAR_DEFAULT)
+}
+
+typedef struct side {
+	tm_triple *t;
+	size_t n, cap;
+} side;
+
+static int collect(void *c0, const tm_triple *x)
+{
+	side *s = c0;
+	tm_triple *t = tm_grow(s->t, &s->cap, s->n + 1, sizeof *t, 4096);
+	if (!t)
+		return -1;
+	s->t = t;
+	s->t[s->n++] = *x;
+	return 0;
+}
+
+static int bytes_cmp(const char *a, size_t an, const char *b, size_t bn)
+{
+	int c = memcmp(a, b, an < bn ? an : bn);
+	return c ? c : (an > bn) - (an < bn);
+}
+
+/* Order of the (occupation, language) of two triples. */
+static int group_cmp(const tm_triple *a, const tm_triple *b)
+{
+	int c = bytes_cmp(a->occ, a->ol, b->occ, b->ol);
+	return c ? c : bytes_cmp(a->lang, a->ll, b->lang, b->ll);
+}
+
+static int key_cmp(const tm_triple *a, const tm_triple *b)
+{
+	return bytes_cmp(a->key, a->kl, b->key, b->kl);
+}
+
+static int wanted(const tm_triple *t, const trend_filter *f)
+{
+	if (!f)
+		return 1;
+	if (f->occ && (strlen(f->occ) != t->ol || memcmp(f->occ, t->occ, t->ol)))
+		return 0;
+	if (f->lang && (strlen(f->lang) != t->ll || memcmp(f->lang, t->lang, t->ll)))
+		return 0;
+	return 1;
+}
+
+typedef struct walk {
+	tally_mem *mb, *ma;
+	const labelset *ls;
+	const trend_bars *b;
+	trend_list *out;
+	size_t cap;
+} walk;
+
+/* Tests one title of a group; pb, pa its postings, ob, oa the
+ * occupation's; x the triple of the window where it is stronger. */
+static int test(walk *w, const tm_triple *x, uint64_t pb, uint64_t pa, uint64_t ob,
+		uint64_t oa)
+{
+	double sb = (double)pb / (double)ob, sa = (double)pa / (double)oa;
+	int dir;
+	if (sa > sb)
+		dir = TREND_RISING;
+	else if (sb > sa)
+		dir = TREND_FALLING;
+	else
+		return 0;
+	uint64_t strong = dir == TREND_RISING ? pa : pb;
+	double hi = dir == TREND_RISING ? sa : sb, lo = dir == TREND_RISING ? sb : sa;
+	if (strong < w->b->min_postings || hi < w->b->min_ratio * lo)
+		return 0;
+	double g = g2(pa, oa - pa, pb, ob - pb);
+	if (!(g >= w->b->min_g2))
+		return 0;
+	trend_row *v = tm_grow(w->out->v, &w->cap, w->out->n + 1, sizeof *v, 256);
+	if (!v)
+		return -1;
+	w->out->v = v;
+	trend_row *r = &v[w->out->n++];
+	memset(r, 0, sizeof *r);
+	r->direction = dir;
+	r->occ = x->occ;
+	r->ol = x->ol;
+	r->key = x->key;
+	r->kl = x->kl;
+	r->title = x->title;
+	r->tl = x->tl;
+	memcpy(r->lang, x->lang, x->ll < 3 ? x->ll : 3);
+	r->lb = labels_find(w->ls, x->occ, x->ol, r->lang, x->key, x->kl);
+	r->before = pb;
+	r->after = pa;
+	r->occ_before = ob;
+	r->occ_after = oa;
+	r->share_before = sb;
+	r->share_after = sa;
+	wilson(pb, ob, STATS_Z95, &r->lo_before, &r->hi_before);
+	wilson(pa, oa, STATS_Z95, &r->lo_after, &r->hi_after);
+	r->g2 = g;
+	return 0;
+}
+
+static int row_cmp(const void *a0, const void *b0)
+{
+	const trend_row *a = a0, *b = b0;
+	int c;
+	if (a->direction != b->direction)
+		return a->direction - b->direction;
+	if (a->g2 != b->g2)
+		return a->g2 > b->g2 ? -1 : 1;
+	if ((c = bytes_cmp(a->occ, a->ol, b->occ, b->ol)))
+		return c;
+	if ((c = strcmp(a->lang, b->lang)))
+		return c;
+	return bytes_cmp(a->key, a->kl, b->key, b->kl);
+}
+
+int trend_run(tally_mem *before, tally_mem *after, const labelset *ls, const trend_bars *b,
+	      const trend_filter *f, trend_list *out)
+{
+	side sb = {0}, sa = {0};
+	walk w = {before, after, ls, b, out, 0};
+	int r = 0;
+	memset(out, 0, sizeof *out);
+	if (tm_each_triple(before, collect, &sb) || tm_each_triple(after, collect, &sa)) {
+		r = -1;
+		goto done;
+	}
+	size_t i = 0, j = 0;
+	while (r == 0 && (i < sb.n || j < sa.n)) {
+		/* the next (occupation, language) group of either side */
+		int c = i == sb.n ? 1 : j == sa.n ? -1 : group_cmp(&sb.t[i], &sa.t[j]);
+		size_t ie = i, je = j;
+		const tm_triple *g = c <= 0 ? &sb.t[i] : &sa.t[j];
+		if (c <= 0)
+			while (ie < sb.n && !group_cmp(&sb.t[ie], g))
+				ie++;
+		if (c >= 0)
+			while (je < sa.n && !group_cmp(&sa.t[je], g))
+				je++;
+		if (!wanted(g, f)) {
+			i = ie;
+			j = je;
+			continue;
+		}
+		if (c != 0) {
+			out->one_window++;
+			i = ie;
+			j = je;
+			continue;
+		}
+		char lang[4] = {0};
+		memcpy(lang, g->lang, g->ll < 3 ? g->ll : 3);
+		uint64_t ob = tm_occ_postings(before, g->occ, g->ol, lang);
+		uint64_t oa = tm_occ_postings(after, g->occ, g->ol, lang);
+		if (!ob || !oa) {
+			out->one_window++;
+			i = ie;
+			j = je;
+			continue;
+		}
+		while (r == 0 && (i < ie || j < je)) {
+			int k = i == ie ? 1 : j == je ? -1 : key_cmp(&sb.t[i], &sa.t[j]);
+			uint64_t pb = k <= 0 ? sb.t[i].postings : 0, pa = k >= 0 ? sa.t[j].postings : 0;
+			/* the display title of the window where the share is higher */
+			const tm_triple *x = k < 0 ? &sb.t[i] : k > 0 ? &sa.t[j]
+				: (double)pa / (double)oa >= (double)pb / (double)ob ? &sa.t[j] : &sb.t[i];
+			/* counts tables hold a title's postings at most once per
+			 * occupation: a share above 1 is a broken table, left out */
+			if (pb <= ob && pa <= oa)
+				r = test(&w, x, pb, pa, ob, oa);
+			if (k <= 0)
+				i++;
+			if (k >= 0)
+				j++;
+		}
+	}
+	if (r == 0 && out->n)
+		qsort(out->v, out->n, sizeof *out->v, row_cmp);
+done:
+	free(sb.t);
+	free(sa.t);
+	if (r) {
+		trend_list_free(out);
+		return -1;
+	}
+	return 0;
+}
+
+void trend_list_free(trend_list *l)
+{
+	free(l->v);
+	memset(l, 0, sizeof *l);
+}

@@ -1,0 +1,101 @@
+/* trend.h - titles rising and falling between two windows of time.
+ *
+ * The engine compares two counts, each the sum of the periods of one
+ * window (the earlier "before", the later "after"), occupation by
+ * occupation and language by language.  For each title (match key) of
+ * an occupation counted in either window it tests the 2x2 table
+ *
+ *                     before              after
+ *     this title      postings_before     postings_after
+ *     its other       occ_before - pb     occ_after - pa
+ *
+ * with Dunning's G^2 (Dunning 1993) and reports the title when its
+ * share of the occupation's postings changed beyond chance:
+ *
+ *   rising   share after > share before (titles never counted before
+ *            included), postings after >= min_postings, G^2 >= min_g2,
+ *            share after >= min_ratio x share before;
+ *   falling  the mirror: share before > share after (titles and labels
+ *            that vanished included), postings before >= min_postings,
+ *            share before >= min_ratio x share after.
+ *
+ * An occupation counted in one window only has no share to compare: it
+ * is left out and counted (trend_list.one_window).  Shares come with
+ * their Wilson 95 % intervals.  These are suggestions for a curator,
+ * who decides; the engine changes nothing.
+ *
+ * Ownership: a trend_list owns its array; the strings of a row point
+ * into the two counts and the labels, which must outlive it. */
+#ifndef TM_TREND_H
+#define TM_TREND_H
+
+#include <stddef.h>
+#include <stdint.h>
+
+#include "count/tally.h"
+#include "rank/labels.h"
+#include "rank/stats.h"
+
+enum { TREND_RISING, TREND_FALLING };
+
+/* The directions' names, by the enum. */
+extern const char *const trend_direction_names[2];
+
+/* The bars: each an option of titlemill trend with the same name (X:
+ * type, option kind (cli/options.h), member, option, argument, default,
+ * low, high, meaning).  The one place where they are defined.  The
+ * defaults are common practice for keeping day-to-day noise out, not
+ * fitted to any data: a G^2 at p = 0.001 with one degree of freedom, a
+ * title seen at least ten times in the window where it is strong, and a
+ * share that at least doubled or halved. */
+#define TREND_BARS(X) \
+	X(uint64_t, OPT_U64, min_postings, "min-postings", "N", 10, 1, 1e18, \
+	  "postings of the title in the window where its share is higher") \
+	X(double, OPT_REAL, min_g2, "min-g2", "X", STATS_CHI2_1DF_P001, 0, 1e12, \
+	  "Dunning's G2 of the change at least X (chi2 at p=0.001, 1 df)") \
+	X(double, OPT_REAL, min_ratio, "min-ratio", "X", 2.0, 1, 1e12, \
+	  "the higher share at least X times the lower")
+
+#define TREND_BAR_MEMBER(type, kind, m, opt, arg, def, lo, hi, meaning) type m;
+typedef struct trend_bars {
+	TREND_BARS(TREND_BAR_MEMBER)
+} trend_bars;
+
+void trend_bars_default(trend_bars *b);
+
+typedef struct trend_filter {
+	const char *occ;   /* only this occupation, or NULL */
+	const char *lang;  /* only this language, or NULL */
+} trend_filter;
+
+typedef struct trend_row {
+	int direction;
+	const char *occ, *key, *title; /* title: the display title of the
+					* window where the title is strong */
+	size_t ol, kl, tl;
+	char lang[4];
+	const label *lb;               /* the label with this key, or NULL */
+	uint64_t before, after;        /* postings of the title */
+	uint64_t occ_before, occ_after;
+	double share_before, lo_before, hi_before;
+	double share_after, lo_after, hi_after;
+	double g2;
+} trend_row;
+
+typedef struct trend_list {
+	trend_row *v;      /* rising first, then falling; each by G^2
+			    * (highest first), occupation, language, key */
+	size_t n;
+	uint64_t one_window; /* occupations (with a language) counted in
+			      * one window only */
+} trend_list;
+
+/* Compares before and after under bars b (filtered by f, which may be
+ * NULL) into out.  Returns 0, or -1 when memory ran out (out then
+ * empty).  Deterministic. */
+int trend_run(tally_mem *before, tally_mem *after, const labelset *ls, const trend_bars *b,
+	      const trend_filter *f, trend_list *out);
+
+void trend_list_free(trend_list *l);
+
+#endif
