@@ -42,9 +42,9 @@ SRC_count = strtab tally_mem chunk store store_redis store_redis_url store_redis
 SRC_rank = stats labels inputs coverage propose trend
 SRC_review = review_item review_json review_change review_batch review_time queue queue_file \
 	store_redis_queue delta
-SRC_report = chart
+SRC_report = chart report
 SRC_cli = options cli_norm cli_tally cli_rank cli_propose cli_review cli_review_change cli_review_read \
-	cli_review_out
+	cli_review_out cli_report
 DIRS = core io norm count rank review report cli
 vpath %.c $(DIRS:%=src/%) $(DIRS:%=tests/unit/%)
 HEADERS = $(wildcard src/*/*.h src/*/*.inc)
@@ -138,6 +138,7 @@ bench: titlemill
 	sh tests/bench/review.sh $(CURDIR)/titlemill
 	sh tests/bench/cluster.sh $(CURDIR)/titlemill
 	sh tests/bench/rank.sh $(CURDIR)/titlemill
+	sh tests/bench/report.sh $(CURDIR)/titlemill
 
 # The Debian 12 packages of .ci/packages: through sudo unless already root.
 SUDO := $(if $(filter 0,$(shell id -u)),,sudo)

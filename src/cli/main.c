@@ -22,6 +22,7 @@ static const char usage[] =
 	"  propose   scored suggestions: missing, rare and misused labels\n"
 	"  labels    print a taxonomy's labels (TSV or SKOS) with their keys\n"
 	"  review    the curators' queue: add, list, decide, export suggestions\n"
+	"  report    one HTML page of coverage, labels' shares and suggestions\n"
 	"\n"
 	"Run 'titlemill COMMAND --help' for the options of a command.\n";
 
@@ -88,6 +89,8 @@ int main(int argc, char **argv)
 		return cmd_labels(argc - 1, argv + 1);
 	if (!strcmp(argv[1], "review"))
 		return cmd_review(argc - 1, argv + 1);
+	if (!strcmp(argv[1], "report"))
+		return cmd_report(argc - 1, argv + 1);
 	fprintf(stderr, "titlemill: unknown command '%s'\n%s", argv[1], usage);
 	return EXIT_USAGE;
 }

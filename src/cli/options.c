@@ -131,6 +131,16 @@ static int take(const opt_cmd *cmd, const opt_spec *s, void *o, const char *arg)
 		so->extra[so->nextra++] = arg;
 		return 0;
 	}
+	case OPT_STRS: {
+		opt_strs *l = (opt_strs *)at;
+		if (l->n == OPT_STRS_MAX) {
+			fprintf(stderr, "titlemill %s: --%s: at most %d of them\n", cmd->name, s->name,
+				OPT_STRS_MAX);
+			return -1;
+		}
+		l->v[l->n++] = arg;
+		return 0;
+	}
 	case OPT_PREFIX: {
 		tm_buf err = {0};
 		if (store_prefix_check(arg, &err) == 0) {

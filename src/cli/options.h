@@ -20,6 +20,8 @@
  *               given
  *   OPT_LEXDIR  setup_opts: appends to its extra folders (repeatable)
  *   OPT_PREFIX  const char *, a store key prefix (store_prefix_check)
+ *   OPT_STRS    opt_strs: each value given, in order (repeatable),
+ *               borrowed from argv
  * A real number's hi of OPT_UNBOUNDED or more means no upper bound
  * (still finite).  Numbers are parsed strictly: the whole argument, no sign on a whole
  * number, within the range. */
@@ -33,8 +35,16 @@
 #include "count/store.h"
 
 typedef enum opt_kind {
-	OPT_FLAG, OPT_STR, OPT_U64, OPT_REAL, OPT_LANG, OPT_CHOICE, OPT_LEXDIR, OPT_PREFIX
+	OPT_FLAG, OPT_STR, OPT_U64, OPT_REAL, OPT_LANG, OPT_CHOICE, OPT_LEXDIR, OPT_PREFIX,
+	OPT_STRS
 } opt_kind;
+
+/* The values of a repeatable option. */
+#define OPT_STRS_MAX 256
+typedef struct opt_strs {
+	const char *v[OPT_STRS_MAX];
+	int n;
+} opt_strs;
 
 typedef struct opt_spec {
 	const char *name;      /* without the leading "--"; NULL ends a table */

@@ -7,7 +7,7 @@
 
 /* The geometry of the row charts, in SVG user units (the figure scales
  * with the page through its viewBox). */
-enum { W = 720, NAME_W = 250, VAL_W = 150, ROW_H = 20, TOP = 24, PLOT_W = W - NAME_W - VAL_W };
+enum { W = 800, NAME_W = 310, VAL_W = 170, ROW_H = 20, TOP = 24, PLOT_W = W - NAME_W - VAL_W };
 
 static double clamp01(double v)
 {
@@ -19,9 +19,16 @@ static double x_of(double v)
 	return NAME_W + clamp01(v) * PLOT_W;
 }
 
-static void pct(tm_buf *b, double v)
+void chart_pct(tm_buf *b, double v)
 {
 	buf_printf(b, "%.1f\xC2\xA0%%", 100 * clamp01(v));
+}
+
+void chart_range(tm_buf *b, double lo, double hi)
+{
+	chart_pct(b, lo);
+	buf_puts(b, "\xE2\x80\x93");
+	chart_pct(b, hi);
 }
 
 static void head(tm_buf *b, const char *id, const char *title, const char *desc, int h)
@@ -93,7 +100,7 @@ int chart_rows(tm_buf *b, const char *id, int style, const char *title, const ch
 			buf_printf(b, "<circle class=\"tm-dot\" cx=\"%.1f\" cy=\"%d\" r=\"4\"/>", v,
 				   y + ROW_H / 2);
 		buf_printf(b, "<text class=\"tm-value\" x=\"%d\" y=\"%d\">", W - VAL_W + 8, y + 14);
-		pct(b, r->value);
+		chart_pct(b, r->value);
 		if (r->mark) {
 			buf_puts(b, " (");
 			html_str(b, r->mark);
@@ -111,11 +118,9 @@ int chart_rows(tm_buf *b, const char *id, int style, const char *title, const ch
 		buf_puts(b, "<tr><td>");
 		html_text(b, r->name, r->nl, 0);
 		buf_puts(b, "</td><td>");
-		pct(b, r->value);
+		chart_pct(b, r->value);
 		buf_puts(b, "</td><td>");
-		pct(b, r->low);
-		buf_puts(b, "\xE2\x80\x93");
-		pct(b, r->high);
+		chart_range(b, r->low, r->high);
 		buf_puts(b, "</td><td>");
 		if (r->mark)
 			html_str(b, r->mark);
@@ -174,11 +179,9 @@ int chart_series(tm_buf *b, const char *id, const char *title, const char *desc,
 		buf_puts(b, "<tr><td>");
 		html_str(b, p[i].period);
 		buf_puts(b, "</td><td>");
-		pct(b, p[i].value);
+		chart_pct(b, p[i].value);
 		buf_puts(b, "</td><td>");
-		pct(b, p[i].low);
-		buf_puts(b, "\xE2\x80\x93");
-		pct(b, p[i].high);
+		chart_range(b, p[i].low, p[i].high);
 		buf_printf(b, "</td><td>%llu</td></tr>\n", p[i].n);
 	}
 	buf_puts(b, "</tbody></table></details>\n</figure>\n");

@@ -36,7 +36,13 @@ typedef struct chart_point {
 
 enum { CHART_BARS, CHART_DOTS };
 
-#define CHART_NAME 40
+#define CHART_NAME 44
+
+/* A share as a percentage with one decimal ("42.5 %"). */
+void chart_pct(tm_buf *b, double v);
+
+/* An interval of shares ("40.1 %\u201343.0 %"). */
+void chart_range(tm_buf *b, double lo, double hi);
 
 /* A figure of one row per item: bars from 0 (CHART_BARS) or a dot
  * (CHART_DOTS), each with its interval as a whisker.  id must be unique

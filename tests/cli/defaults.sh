@@ -6,7 +6,7 @@
 # page describes the option.
 . "$(dirname "$0")/lib.inc"
 top=$(dirname "$0")/../..
-for cmd in norm tally counts coverage propose review; do
+for cmd in norm tally counts coverage propose report review; do
 	"$TITLEMILL" $cmd --help > "$tmp/help.$cmd" || check "$cmd --help status" 0 $?
 done
 /usr/bin/python3 - "$top/README.md" "$top/titlemill.1" "$tmp" <<'PY'

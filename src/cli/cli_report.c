@@ -1,0 +1,167 @@
+/* cli_report.c - titlemill report: one self-contained HTML page of the
+ * coverage, the labels' shares and the suggestions (report.h). */
+#include <stddef.h>
+#include <stdio.h>
+#include <string.h>
+#include <time.h>
+
+#include "cli/cli.h"
+#include "cli/options.h"
+#include "io/outfile.h"
+#include "rank/inputs.h"
+#include "rank/propose.h"
+#include "report/report.h"
+#include "review/queue.h"
+
+typedef struct report_cli {
+	rank_opts in;
+	const char *out, *queue;
+	opt_strs occ;
+	char lang[4];
+	uint64_t sections, min_postings, top;
+	int stamp;
+	propose_bars bar;
+} report_cli;
+
+#define BAR_SPEC(type, kind, m, opt, arg, def, lo, hi, meaning) \
+	{opt, kind, offsetof(report_cli, bar.m), arg, OPT_XSTR(def), lo, hi, meaning, NULL, 0},
+
+static const opt_spec report_specs[] = {
+	OPT_SPEC_LABELS(report_cli, in.setup.labels,
+			"the taxonomy's labels: TSV (occupation, kind, lang, label) or SKOS"),
+	{"output", OPT_STR, offsetof(report_cli, out), "FILE", NULL, 0, 0,
+	 "write the page to FILE (required; '-' for standard output)", NULL, 'o'},
+	{"queue", OPT_STR, offsetof(report_cli, queue), "FILE", NULL, 0, 0,
+	 "show the decisions of this review queue (with --store: the store's queue "
+	 "unless a FILE is given)", NULL, 0},
+	{"occupation", OPT_STRS, offsetof(report_cli, occ), "ID", NULL, 0, 0,
+	 "a section for this occupation (repeatable) instead of the weakest", NULL, 0},
+	OPT_SPEC_LANG(report_cli, lang, "only this language"),
+	{"sections", OPT_U64, offsetof(report_cli, sections), "N", "10", 0, 10000,
+	 "without --occupation: sections for the N occupations with the lowest coverage", NULL,
+	 0},
+	{"min-postings", OPT_U64, offsetof(report_cli, min_postings), "N", "100", 1, 1e18,
+	 "an occupation needs N postings in a language to count among the lowest covered",
+	 NULL, 0},
+	{"top", OPT_U64, offsetof(report_cli, top), "N", "100", 0, 1e18,
+	 "list at most N suggestions of each kind (the strongest)", NULL, 0},
+	{"stamp", OPT_FLAG, offsetof(report_cli, stamp), NULL, NULL, 0, 0,
+	 "write the time the page was made (without it the same inputs give the same bytes)",
+	 NULL, 0},
+	PROPOSE_BARS(BAR_SPEC)
+	OPT_SPEC_STORE(report_cli, in.store, OPT_STORE_READ),
+	OPT_SPEC_PREFIX(report_cli, in.prefix),
+	OPT_SPEC_LEXICONS(report_cli, in.setup),
+	OPT_SPEC_END,
+};
+
+static const opt_cmd report_cmd = {
+	"report",
+	"usage: titlemill report --labels FILE -o FILE [--queue FILE] [--lang L]\n"
+	"                        [--occupation ID]... [--sections N] [--stamp]\n"
+	"                        [thresholds] (COUNTS|POSTINGS...|--store URL [--prefix P])\n"
+	"\n"
+	"One self-contained HTML page for curators: coverage overall, per language\n"
+	"and per occupation with intervals, the labels' shares of the weakest\n"
+	"occupations, the biggest unmatched titles, and the suggestions with their\n"
+	"evidence (and the queue's decisions).  It opens from a file with no network.\n"
+	"The thresholds are those of titlemill propose.\n"
+	"\n",
+	report_specs,
+	NULL,
+};
+
+/* Loads the queue whose decisions the page shows: 0, or -1 after saying
+ * why not. */
+static int load_queue(const report_cli *o, rq_queue *q, int *have)
+{
+	tm_buf err = {0};
+	rq_place pl;
+	store_conf conf = STORE_CONF_INIT(o->in.prefix);
+	rq_store *qs;
+	int rc;
+	*have = 0;
+	if (!o->queue && !o->in.store)
+		return 0;
+	qs = o->queue ? rq_store_file_open(o->queue, &err) : rq_store_redis_open(o->in.store,
+										 &conf, &err);
+	rq_place_init(&pl, qs, o->queue);
+	/* a store with no queue yet shows no decisions; a named file must exist */
+	rc = qs ? rq_read(&pl, q, !o->queue, &err) : -1;
+	if (rc)
+		fprintf(stderr, "titlemill report: %s\n", err.data ? err.data : "cannot read the queue");
+	else
+		*have = 1;
+	rq_place_close(&pl);
+	buf_free(&err);
+	return rc ? -1 : 0;
+}
+
+/* Writes the page to path by the rules of outfile.h. */
+static int write_page(const char *path, const tm_buf *page)
+{
+	of_file f;
+	tm_buf err = {0};
+	int rc = EXIT_RUNTIME;
+	if (of_open(&f, path, OF_DASH, &err) || of_write(&f, page->data, page->len, &err))
+		goto done;
+	if (f.warn.len)
+		fprintf(stderr, "titlemill report: note: %s", f.warn.data);
+	if (of_commit(&f, &err) == 0)
+		rc = EXIT_OK;
+done:
+	if (rc != EXIT_OK)
+		fprintf(stderr, "titlemill report: %s\n", err.data ? err.data : "cannot write");
+	of_abort(&f);
+	buf_free(&err);
+	return rc;
+}
+
+int cmd_report(int argc, char **argv)
+{
+	report_cli o;
+	rank_inputs in;
+	rq_queue q;
+	tm_buf page = {0}, err = {0}, notes = {0};
+	int status, have_queue = 0;
+	char stamp[32];
+
+	memset(&o, 0, sizeof o);
+	memset(&q, 0, sizeof q);
+	if (!cli_rank_start(&report_cmd, &o, &o.in, argc, argv, &in, &status))
+		goto done;
+	status = EXIT_USAGE;
+	if (!o.out) {
+		fprintf(stderr, "titlemill report: -o FILE is required (the page; '-' for standard "
+				"output)\n");
+		goto done;
+	}
+	status = EXIT_RUNTIME;
+	if (load_queue(&o, &q, &have_queue))
+		goto done;
+	if (o.stamp) {
+		time_t t = time(NULL);
+		struct tm tmv;
+		strftime(stamp, sizeof stamp, "%Y-%m-%dT%H:%M:%SZ", gmtime_r(&t, &tmv));
+	}
+	report_opts ro = {o.lang[0] ? o.lang : NULL, o.occ.n ? (char *const *)o.occ.v : NULL,
+			  o.occ.n, o.sections, o.min_postings, &o.bar, o.top, have_queue ? &q : NULL,
+			  NULL, o.stamp ? stamp : NULL, TM_VERSION, &notes};
+	if (report_write(&in.m, &in.ls, &ro, &page, &err)) {
+		fprintf(stderr, "titlemill report: %s\n", err.data);
+		goto done;
+	}
+	for (const char *p = notes.data, *e = p + notes.len; p && p < e;) {
+		const char *nl = memchr(p, '\n', (size_t)(e - p));
+		fprintf(stderr, "titlemill report: note: %.*s\n", (int)(nl - p), p);
+		p = nl + 1;
+	}
+	status = write_page(o.out, &page);
+done:
+	rq_free(&q);
+	inputs_free(&in);
+	buf_free(&page);
+	buf_free(&err);
+	buf_free(&notes);
+	return status;
+}

@@ -1,0 +1,60 @@
+/* report.h - one self-contained HTML page a curator opens in a browser,
+ * forwards by e-mail or puts on an intranet: what the representativeness
+ * review computes, with the pictures that make the case.
+ *
+ * Sections: an overview (postings, occupations, languages, coverage with
+ * its interval, coverage per language as a chart); coverage per
+ * occupation (the lowest covered as a dot-and-interval chart, all of them
+ * in a sortable table); one section per occupation to look at (those
+ * asked for, or the weakest): each label's share of its postings with
+ * its interval, unseen labels marked, the biggest unmatched titles with
+ * masked examples, its suggestions; the suggestions by kind with their
+ * evidence and the queue's decision when a queue is given; how to read
+ * the report (the methods and bars used, and that every suggestion is
+ * for a curator, who decides).
+ *
+ * The page needs nothing from the network: inline CSS, SVG drawn here,
+ * and a little inline JavaScript that only sorts and filters tables (the
+ * page reads the same without it).  Every text from the inputs is
+ * escaped (io/htmlw.h).  The same inputs give the same bytes: no time is
+ * written unless the caller passes a stamp.
+ *
+ * The numbers are those of the engines the commands print (coverage.h,
+ * propose.h): the report calls them, it does not compute them again. */
+#ifndef TM_REPORT_H
+#define TM_REPORT_H
+
+#include <stddef.h>
+#include <stdint.h>
+
+#include "core/buf.h"
+#include "count/tally.h"
+#include "rank/labels.h"
+#include "rank/propose.h"
+#include "review/review.h"
+
+typedef struct report_opts {
+	const char *lang;          /* only this language, or NULL */
+	char *const *occs;         /* the occupations given a section of their
+				    * own, or NULL for the weakest */
+	int nocc;
+	uint64_t sections;         /* without occs: the weakest this many */
+	uint64_t min_postings;     /* an occupation needs this many postings in
+				    * a language to count among the weakest */
+	const propose_bars *bars;  /* the ranker's bars */
+	uint64_t top;              /* the suggestions of each kind listed */
+	const rq_queue *queue;     /* decisions to show, or NULL */
+	const char *window;        /* the time covered, in words, or NULL */
+	const char *stamp;         /* a time to print, or NULL */
+	const char *version;       /* titlemill's version */
+	tm_buf *notes;             /* NULL, or receives what the reader should
+				    * know, a line each (an occupation asked
+				    * for that has no postings) */
+} report_opts;
+
+/* Writes the page for counts m and labels ls to out.  Returns 0, or a
+ * negative kind of err.h with a message in err (memory ran out). */
+int report_write(tally_mem *m, const labelset *ls, const report_opts *o, tm_buf *out,
+		 tm_buf *err);
+
+#endif
