@@ -46,6 +46,31 @@ size_t noise_amount(tm_title *ti, size_t k, int *cur, int *unit)
 	return k;
 }
 
+/* The start of the pay word written right before an amount at unit k,
+ * in its segment, or k: a phrase of pay/ ending at k ("Day Rate £180",
+ * "Net 60.000 TL", "Gehalt 2.500 €"), with the words glued to it by a
+ * hyphen before it, a scheme's name ("KV-Lohn € 2.100",
+ * "Brutto-Monatslohn 2.400 €").  A word naming an occupation is never
+ * taken.  lead: a pay word opens the amount at k, and only the words
+ * glued to it are looked for. */
+static size_t pay_word_before(tm_title *ti, size_t k, int lead)
+{
+	size_t b, len, start = k;
+	for (b = k; !lead && b-- > 0 && k - b <= PAY_WORD_BACK;) {
+		if (!ukept(ti, b) || useg(ti, b) != useg(ti, k) ||
+		    U(ti, b)->kind != TK_WORD)
+			break;
+		if (match_cat(ti, b, LC_PAY, 1, &len) && b + len == k)
+			start = b; /* the longest: "Sign-on Bonus £1,000" */
+	}
+	if (start == k && !lead)
+		return k;
+	while (start > 0 && ukept(ti, start - 1) && U(ti, start - 1)->kind == TK_WORD &&
+	       glued(ti, start - 1, start, "-"))
+		start--;
+	return head_within(ti, start, k) ? k : start;
+}
+
 int pass_pay(tm_title *ti)
 {
 	size_t k, len;
@@ -109,7 +134,7 @@ int pass_pay(tm_title *ti)
 			if (ph && j + pl >= e)
 				continue;
 		}
-		if (remove_units(ti, k, e, NF_PAY, NULL))
+		if (remove_units(ti, pay_word_before(ti, k, j > k), e, NF_PAY, NULL))
 			return -1;
 		k = e - 1;
 	}

@@ -534,6 +534,39 @@ static int later_content(tm_title *ti, size_t s)
 	return 0;
 }
 
+int head_within(tm_title *ti, size_t k0, size_t k1)
+{
+	size_t len;
+	for (size_t k = k0; k < k1; k++)
+		if (ukept(ti, k) && (ti->prot[ti->unit[k]] ||
+				     match_val(ti, k, LC_OCCUPATION, "head", 1, &len)))
+			return 1;
+	return 0;
+}
+
+/* Is the legal form at unit k (len units), in segment s whose kept units
+ * are [k0, k1), written before the name of its firm, with the title
+ * going on elsewhere?  The form in capitals or capitalised, then a
+ * capitalised name of at most EMPLOYER_NAME_MAX words to the segment's
+ * end with no word naming an occupation; and the title goes on in
+ * another segment ("Sandėlininkas – UAB Nemuno logistika", "UAB Valdas
+ * – vairuotojas") or before the form, with a word naming the occupation
+ * ("Vairuotojas UAB Valdas"). */
+static int form_before_name(tm_title *ti, size_t s, size_t k, size_t len,
+			    size_t k0, size_t k1, int caps)
+{
+	size_t n = k + len;
+	const tm_seg *g = &ti->segs[s];
+
+	if (!(caps || cap_word(ti, k)) || n >= k1 || k1 - n > EMPLOYER_NAME_MAX ||
+	    U(ti, n)->kind != TK_WORD || !(caps || cap_word(ti, n)) ||
+	    head_within(ti, n, k1))
+		return 0;
+	if (k == k0)
+		return g->bracket || g->index > 0 || later_content(ti, s);
+	return head_within(ti, k0, k);
+}
+
 int pass_employer(tm_title *ti)
 {
 	size_t k, len, k0, k1;
@@ -549,6 +582,12 @@ int pass_employer(tm_title *ti)
 		s = useg(ti, k);
 		g = &ti->segs[s];
 		seg_kept(ti, s, &k0, &k1);
+		if (form_before_name(ti, s, k, len, k0, k1, caps)) {
+			if (remove_units(ti, k, k1, NF_EMPLOYER, NULL))
+				return -1;
+			k = k1 - 1;
+			continue;
+		}
 		start = SIZE_MAX;
 		for (m = k; m > k0 && k - m < EMPLOYER_BACK; m--) {
 			size_t l2;
