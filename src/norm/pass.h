@@ -29,6 +29,14 @@
 /* A pay word written before an amount ("Day Rate £180", "KV-Lohn
  * € 2.100") is looked for at most PAY_WORD_BACK units before it. */
 #define PAY_WORD_BACK 3
+/* Shift patterns (pass_schedule): shifts times hours, "3x8", with at
+ * most ROTA_SHIFTS_MAX shifts of ROTA_HOURS_MIN to ROTA_HOURS_MAX hours
+ * (or 24; "4x4" is a vehicle); days on and off, "4/4", "14/14", at most
+ * ROTA_DAYS_MAX days each. */
+#define ROTA_SHIFTS_MAX 5
+#define ROTA_HOURS_MIN 6
+#define ROTA_HOURS_MAX 12
+#define ROTA_DAYS_MAX 28
 /* The name of a firm written after its legal form ("UAB Nemuno
  * logistika", "SIA Daugavas loģistika") holds at most EMPLOYER_NAME_MAX
  * words; a longer rest of the segment is not a name. */

@@ -231,6 +231,18 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 		*changed = 1; /* the next round looks again */
 		break;
 	}
+	/* a contract word or preposition left before the duration the
+	 * schedule rule removed: "befristet für [2 Jahre]", "contrat de
+	 * [3 mois]", "initial [3 month contract]" */
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 < k1 && !ti->prot[ti->unit[k1 - 1]] &&
+	    match_val(ti, k1 - 1, LC_UNIT, "duration", 1, &len) && len == 1 &&
+	    ti->unit[k1 - 1] + 1 < ti->tl.n &&
+	    ti->rm[ti->unit[k1 - 1] + 1] == NF_SCHEDULE && kept_elsewhere(ti, k1 - 1, k1)) {
+		if (remove_units(ti, k1 - 1, k1, NF_SCHEDULE, NULL))
+			return -1;
+		*changed = 1;
+	}
 	/* hanging words at the two edges */
 	seg_kept(ti, s, &k0, &k1);
 	if (k0 < k1 && !ti->prot[ti->unit[k1 - 1]] && dangling(ti, k1 - 1) &&

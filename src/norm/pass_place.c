@@ -257,7 +257,14 @@ static int slots(tm_title *ti)
 			continue;
 		/* in Köln, Raum Stuttgart, à 75001 Paris */
 		if (loc_word(ti, k, "prep", &len) || loc_word(ti, k, "before", &len)) {
-			size_t j = k + len, e;
+			size_t j = k + len, e, ml;
+			/* an employer marker opened by the preposition is the
+			 * longer phrase: "till vår restaurang" (not the place
+			 * Var), "til vores plejecenter" */
+			if (match_val(ti, k, LC_EMPLOYER, "marker", 1, &ml) && ml > len) {
+				k += ml - 1;
+				continue;
+			}
 			/* at most a few slot words in a row ("in der Region"): a
 			 * run of them to the end of the line, tried again from
 			 * each of its words, was quadratic ("a/" x 50,000) */
