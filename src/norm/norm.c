@@ -132,13 +132,17 @@ static int show_unit(tm_title *ti, size_t k)
 }
 
 /* A dot right after word token a, then a space, then the kept word b
- * of the same segment with nothing removed between. */
+ * of the same segment with nothing removed between; or the dot of an
+ * ordinal number of one or two digits before a word ("1. stupně", "3.
+ * Lehrjahr"). */
 static int abbrev_dot(tm_title *ti, size_t a, size_t b)
 {
 	const tm_tok *w = &ti->tl.t[a];
-	if (w->kind != TK_WORD || a + 2 != b || ti->tseg[a] != ti->tseg[b])
+	if (a + 2 != b || ti->tseg[a] != ti->tseg[b])
 		return 0;
-	return w->len <= 6;
+	if (w->kind == TK_NUM)
+		return w->len <= 2 && ti->tl.t[b].kind == TK_WORD;
+	return w->kind == TK_WORD && w->len <= 6;
 }
 
 static int is_connector(tm_title *ti, size_t k)
