@@ -42,6 +42,8 @@ normaliser *norm_new(const lexicon *lx)
 	return nm;
 }
 
+static void memo_free(normaliser *nm);
+
 void norm_free(normaliser *nm)
 {
 	if (!nm)
@@ -58,9 +60,7 @@ void norm_free(normaliser *nm)
 	buf_free(&nm->again);
 	buf_free(&nm->masked);
 	free(nm->pieces);
-	free(nm->ring);
-	free(nm->slot);
-	free(nm->door);
+	memo_free(nm);
 	free(nm);
 }
 
@@ -132,13 +132,17 @@ static int show_unit(tm_title *ti, size_t k)
 }
 
 /* A dot right after word token a, then a space, then the kept word b
- * of the same segment with nothing removed between. */
+ * of the same segment with nothing removed between; or the dot of an
+ * ordinal number of one or two digits before a word ("1. stupně", "3.
+ * Lehrjahr"). */
 static int abbrev_dot(tm_title *ti, size_t a, size_t b)
 {
 	const tm_tok *w = &ti->tl.t[a];
-	if (w->kind != TK_WORD || a + 2 != b || ti->tseg[a] != ti->tseg[b])
+	if (a + 2 != b || ti->tseg[a] != ti->tseg[b])
 		return 0;
-	return w->len <= 6;
+	if (w->kind == TK_NUM)
+		return w->len <= 2 && ti->tl.t[b].kind == TK_WORD;
+	return w->kind == TK_WORD && w->len <= 6;
 }
 
 static int is_connector(tm_title *ti, size_t k)
@@ -504,7 +508,8 @@ int norm_key_only(normaliser *nm, const char *raw, size_t n,
 
 /* ---- the memory of recent titles ---- */
 
-int norm_memo(normaliser *nm, size_t bytes)
+/* Frees the memory of recent titles and leaves it empty (off). */
+static void memo_free(normaliser *nm)
 {
 	free(nm->ring);
 	free(nm->slot);
@@ -515,6 +520,11 @@ int norm_memo(normaliser *nm, size_t bytes)
 	nm->ring_cap = nm->ring_pos = 0;
 	nm->ring_total = 0;
 	nm->nslot = nm->ndoor = 0;
+}
+
+int norm_memo(normaliser *nm, size_t bytes)
+{
+	memo_free(nm);
 	if (bytes < 4096)
 		return 0;
 	size_t slots = 1024;
@@ -524,12 +534,7 @@ int norm_memo(normaliser *nm, size_t bytes)
 	nm->slot = calloc(slots, sizeof *nm->slot);
 	nm->door = calloc(slots / 16, sizeof *nm->door);
 	if (!nm->ring || !nm->slot || !nm->door) {
-		free(nm->ring);
-		free(nm->slot);
-		free(nm->door);
-		nm->ring = NULL;
-		nm->slot = NULL;
-		nm->door = NULL;
+		memo_free(nm);
 		return -1;
 	}
 	nm->ring_cap = bytes;

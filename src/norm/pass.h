@@ -22,6 +22,25 @@
  * it ("CV na adres praca@…", "enviar CV a …", "lisätiedot: 01632 …"):
  * a label is short, and anything longer is more than a label. */
 #define CONTACT_LABEL_MAX 4
+/* An application channel ("apply via", "bewerben über", "postuler
+ * via") takes the rest of its segment with it, the board or portal it
+ * names: at most CHANNEL_REST_MAX units after the phrase. */
+#define CHANNEL_REST_MAX 6
+/* A pay word written before an amount ("Day Rate £180", "KV-Lohn
+ * € 2.100") is looked for at most PAY_WORD_BACK units before it. */
+#define PAY_WORD_BACK 3
+/* Shift patterns (pass_schedule): shifts times hours, "3x8", with at
+ * most ROTA_SHIFTS_MAX shifts of ROTA_HOURS_MIN to ROTA_HOURS_MAX hours
+ * (or 24; "4x4" is a vehicle); days on and off, "4/4", "14/14", at most
+ * ROTA_DAYS_MAX days each. */
+#define ROTA_SHIFTS_MAX 5
+#define ROTA_HOURS_MIN 6
+#define ROTA_HOURS_MAX 12
+#define ROTA_DAYS_MAX 28
+/* The name of a firm written after its legal form ("UAB Nemuno
+ * logistika", "SIA Daugavas loģistika") holds at most EMPLOYER_NAME_MAX
+ * words; a longer rest of the segment is not a name. */
+#define EMPLOYER_NAME_MAX 4
 /* A business kind phrase ending a segment ("Larchmoor House Care Home")
  * is looked for at most ROLE_KIND_BACK units before the segment's end
  * (the longest phrase a lexicon holds). */
@@ -61,6 +80,9 @@ int all_caps_line(tm_title *ti);  /* most words of the line in capitals */
 int place_segment(tm_title *ti, size_t s, int caps, int strong_ok);
 /* Removes the kept part of segment s as places and location-slot words. */
 int remove_place_segment(tm_title *ti, size_t s);
+/* Does a kept unit of [k0, k1) name an occupation: a `head` of
+ * occupation/ or a protected phrase? */
+int head_within(tm_title *ti, size_t k0, size_t k1);
 /* Is the word of unit k an occupational ending written whole ("kock",
  * "arbeiter"), not a word that merely ends like one ("List")? */
 int ending_whole(tm_title *ti, size_t k);

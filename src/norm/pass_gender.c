@@ -35,6 +35,11 @@ static int is_suffix(tm_title *ti, const char *a, size_t an, const char *b,
 		if (!pair_applies(ti, q) || q->flen != bn ||
 		    memcmp(q->fem, b, bn) || (strict && (!q->mlen || bn < 2)))
 			continue;
+		/* one replaced letter is too little to tell an ending from a
+		 * compound's particle ("Live-in", "Drive-in": e -> in), but
+		 * for a pair of the title's own language ("créatif-ve") */
+		if (strict && q->mlen < 2 && !(ti->lang && !strcmp(q->lang, ti->lang)))
+			continue;
 		if (ends_with(a, an, q->masc, q->mlen) && an >= (size_t)q->mlen + 2)
 			return 1;
 	}

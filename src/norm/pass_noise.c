@@ -110,11 +110,41 @@ static int contact_label(tm_title *ti, size_t k0, size_t k1)
 	return contact && kept_elsewhere(ti, k0, k1);
 }
 
+/* An application channel in segment s, kept units [k0, k1): "apply
+ * via", "bewerben über", "postuler via", "solliciteer via" (units/,
+ * value `channel`) with what it names after it to the segment's end
+ * ("Jobboard Kestrel", "unser Karriereportal", "email"), at most
+ * CHANNEL_REST_MAX units holding no word that names an occupation; the
+ * title keeps a word elsewhere.  Returns 1 when it removed one, 0, or
+ * -1 (memory). */
+static int channel(tm_title *ti, size_t k0, size_t k1)
+{
+	size_t len;
+	for (size_t k = k0; k < k1; k++) {
+		if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
+		    !match_val(ti, k, LC_UNIT, "channel", 1, &len) || k + len > k1 ||
+		    k1 - (k + len) > CHANNEL_REST_MAX || head_within(ti, k, k1) ||
+		    !kept_elsewhere(ti, k, k1))
+			continue;
+		return remove_units(ti, k, k1, NF_MARKETING, NULL) ? -1 : 1;
+	}
+	return 0;
+}
+
 static int peel_segment(tm_title *ti, size_t s, int *changed)
 {
 	size_t k0, k1, k, len;
 
 	seg_kept(ti, s, &k0, &k1);
+	if (HAS(ti, LC_UNIT) && k0 < k1) {
+		int r = channel(ti, k0, k1);
+		if (r < 0)
+			return -1;
+		if (r) {
+			*changed = 1;
+			seg_kept(ti, s, &k0, &k1);
+		}
+	}
 	size_t a = k0, b = k1;
 	for (k = k0; k < k1; k++) {
 		const lex_entry *e;
@@ -200,6 +230,18 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 			return -1;
 		*changed = 1; /* the next round looks again */
 		break;
+	}
+	/* a contract word or preposition left before the duration the
+	 * schedule rule removed: "befristet für [2 Jahre]", "contrat de
+	 * [3 mois]", "initial [3 month contract]" */
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 < k1 && !ti->prot[ti->unit[k1 - 1]] &&
+	    match_val(ti, k1 - 1, LC_UNIT, "duration", 1, &len) && len == 1 &&
+	    ti->unit[k1 - 1] + 1 < ti->tl.n &&
+	    ti->rm[ti->unit[k1 - 1] + 1] == NF_SCHEDULE && kept_elsewhere(ti, k1 - 1, k1)) {
+		if (remove_units(ti, k1 - 1, k1, NF_SCHEDULE, NULL))
+			return -1;
+		*changed = 1;
 	}
 	/* hanging words at the two edges */
 	seg_kept(ti, s, &k0, &k1);

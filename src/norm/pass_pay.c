@@ -46,6 +46,31 @@ size_t noise_amount(tm_title *ti, size_t k, int *cur, int *unit)
 	return k;
 }
 
+/* The start of the pay word written right before an amount at unit k,
+ * in its segment, or k: a phrase of pay/ ending at k ("Day Rate £180",
+ * "Net 60.000 TL", "Gehalt 2.500 €"), with the words glued to it by a
+ * hyphen before it, a scheme's name ("KV-Lohn € 2.100",
+ * "Brutto-Monatslohn 2.400 €").  A word naming an occupation is never
+ * taken.  lead: a pay word opens the amount at k, and only the words
+ * glued to it are looked for. */
+static size_t pay_word_before(tm_title *ti, size_t k, int lead)
+{
+	size_t b, len, start = k;
+	for (b = k; !lead && b-- > 0 && k - b <= PAY_WORD_BACK;) {
+		if (!ukept(ti, b) || useg(ti, b) != useg(ti, k) ||
+		    U(ti, b)->kind != TK_WORD)
+			break;
+		if (match_cat(ti, b, LC_PAY, 1, &len) && b + len == k)
+			start = b; /* the longest: "Sign-on Bonus £1,000" */
+	}
+	if (start == k && !lead)
+		return k;
+	while (start > 0 && ukept(ti, start - 1) && U(ti, start - 1)->kind == TK_WORD &&
+	       glued(ti, start - 1, start, "-"))
+		start--;
+	return head_within(ti, start, k) ? k : start;
+}
+
 int pass_pay(tm_title *ti)
 {
 	size_t k, len;
@@ -109,7 +134,7 @@ int pass_pay(tm_title *ti)
 			if (ph && j + pl >= e)
 				continue;
 		}
-		if (remove_units(ti, k, e, NF_PAY, NULL))
+		if (remove_units(ti, pay_word_before(ti, k, j > k), e, NF_PAY, NULL))
 			return -1;
 		k = e - 1;
 	}
@@ -297,6 +322,103 @@ int pass_grade(tm_title *ti)
 
 /* ---- schedule numbers: 20 h/Woche, 30-35 Std., 80-100 % ---- */
 
+/* The digits of a fold from byte i to its end, as a number (at most
+ * two digits), else -1. */
+static int small_digits(const char *f, uint32_t i, uint32_t n)
+{
+	int v = 0;
+	if (i >= n || n - i > 2)
+		return -1;
+	for (; i < n; i++) {
+		if (f[i] < '0' || f[i] > '9')
+			return -1;
+		v = v * 10 + (f[i] - '0');
+	}
+	return v;
+}
+
+/* Does a workload or share-of-a-post word stand at unit k? */
+static int post_share(tm_title *ti, size_t k)
+{
+	size_t len;
+	return k < ti->nunit && (match_val(ti, k, LC_UNIT, "fte", 1, &len) ||
+				 match_val(ti, k, LC_UNIT, "workload", 1, &len));
+}
+
+/* A shift pattern at unit k: shifts times hours ("3x8", "2x8h",
+ * "3 × 8", "2x12": the hours ROTA_HOURS_MIN to ROTA_HOURS_MAX or 24, so
+ * that "4x4" stays a vehicle) or days on and off ("4/4", "2/2", "14/14",
+ * "7/7": two days at least, at most ROTA_DAYS_MAX each, not before a
+ * share of a post ("1/2 etatu"), only beside the occupation's
+ * segment, in a bracket or after a schedule word, a time unit after it
+ * taken too: "turnusy 2/2 týždne").  Returns its end (exclusive) or 0. */
+static size_t rotation_(tm_title *ti, size_t k)
+{
+	size_t j = k + 1, e = 0, len;
+	uint32_t n;
+	const char *f;
+	unsigned a = lead_value(ti, U(ti, k)), b;
+
+	if (U(ti, k)->len > 2 || a == 0 || j >= ti->nunit || !ukept(ti, j))
+		return 0;
+	f = ufold(ti, j, &n);
+	if (U(ti, j)->kind == TK_WORD && glued(ti, k, j, "") && n >= 2 && f[0] == 'x') {
+		/* 3x8, 2x8h */
+		int v = small_digits(f, 1, n);
+		if (v < 0 && n >= 3 && f[n - 1] == 'h')
+			v = small_digits(f, 1, n - 1);
+		if (v < 0)
+			return 0;
+		b = (unsigned)v;
+		e = j + 1;
+	} else if (U(ti, j)->kind == TK_NUM && U(ti, j)->len <= 2 &&
+		   ti->unit[j] == ti->unit[k] + 2) {
+		const tm_tok *m = &ti->tl.t[ti->unit[k] + 1];
+		const char *mt = ti->text + m->off;
+		b = lead_value(ti, U(ti, j));
+		if (m->kind == TK_PUNCT && m->len == 2 && !memcmp(mt, "\xc3\x97", 2) &&
+		    !m->sp && !U(ti, j)->sp) {
+			e = j + 1; /* 3×8 */
+		} else if (m->kind == TK_PUNCT && m->ch == '/' && !m->sp && !U(ti, j)->sp) {
+			/* days on and off */
+			const tm_seg *g = &ti->segs[useg(ti, k)];
+			/* not a share of a post: "1/2 etatu", "3/4 Stelle" */
+			if (post_share(ti, j + 1))
+				return 0;
+			if (a < 2 || b < 2 || a > ROTA_DAYS_MAX || b > ROTA_DAYS_MAX ||
+			    !(g->bracket || g->index > 0 ||
+			      (k > 0 && ukept(ti, k - 1) &&
+			       match_cat(ti, k - 1, LC_SCHEDULE, 1, &len))))
+				return 0;
+			e = j + 1;
+			if (e < ti->nunit && time_unit(ti, e, &len))
+				e += len;
+			return e;
+		} else
+			return 0;
+	} else if (j + 1 < ti->nunit && U(ti, j)->kind == TK_WORD && n == 1 && f[0] == 'x' &&
+		   U(ti, j + 1)->kind == TK_NUM && U(ti, j + 1)->len <= 2) {
+		b = lead_value(ti, U(ti, j + 1)); /* 3 x 8 */
+		e = j + 2;
+	} else
+		return 0;
+	if (a > ROTA_SHIFTS_MAX || !((b >= ROTA_HOURS_MIN && b <= ROTA_HOURS_MAX) || b == 24))
+		return 0;
+	if (e < ti->nunit && ukept(ti, e) && time_unit(ti, e, &len) && glued(ti, e - 1, e, ""))
+		e += len; /* 3x8 h */
+	return e;
+}
+
+/* rotation_, unless a longer phrase of the lexicons starts there:
+ * "3/4 etatu" is a share of a post. */
+static size_t rotation(tm_title *ti, size_t k)
+{
+	size_t e = rotation_(ti, k), len;
+	if (e && match_cat(ti, k, LC_SCHEDULE, 1, &len) && k + len > e)
+		return 0;
+	return e;
+}
+
 int pass_schedule(tm_title *ti)
 {
 	size_t k, len;
@@ -306,6 +428,12 @@ int pass_schedule(tm_title *ti)
 		const lex_entry *u;
 		if (U(ti, k)->kind != TK_NUM || !ukept(ti, k) || ti->prot[ti->unit[k]])
 			continue;
+		if ((e = rotation(ti, k))) {
+			if (remove_units(ti, k, e, NF_SCHEDULE, "shift"))
+				return -1;
+			k = e - 1;
+			continue;
+		}
 		j = k + 1;
 		/* range */
 		if (j + 1 < ti->nunit && U(ti, j)->kind == TK_NUM &&
@@ -506,6 +634,14 @@ int pass_days(tm_title *ti)
 		int range;
 		if (!ukept(ti, k))
 			continue;
+		/* a shift pattern before "x8" reads as a head count */
+		if (U(ti, k)->kind == TK_NUM && !ti->prot[ti->unit[k]] &&
+		    (e = rotation(ti, k))) {
+			if (remove_units(ti, k, e, NF_SCHEDULE, "shift"))
+				return -1;
+			k = e - 1;
+			continue;
+		}
 		e = day_phrase(ti, k, &range);
 		if ((!e || !range) && (ti->ucats[k] & (1u << LC_UNIT))) {
 			/* a short day name of another language ("po–pá",

@@ -257,7 +257,14 @@ static int slots(tm_title *ti)
 			continue;
 		/* in Köln, Raum Stuttgart, à 75001 Paris */
 		if (loc_word(ti, k, "prep", &len) || loc_word(ti, k, "before", &len)) {
-			size_t j = k + len, e;
+			size_t j = k + len, e, ml;
+			/* an employer marker opened by the preposition is the
+			 * longer phrase: "till vår restaurang" (not the place
+			 * Var), "til vores plejecenter" */
+			if (match_val(ti, k, LC_EMPLOYER, "marker", 1, &ml) && ml > len) {
+				k += ml - 1;
+				continue;
+			}
 			/* at most a few slot words in a row ("in der Region"): a
 			 * run of them to the end of the line, tried again from
 			 * each of its words, was quadratic ("a/" x 50,000) */
@@ -534,6 +541,39 @@ static int later_content(tm_title *ti, size_t s)
 	return 0;
 }
 
+int head_within(tm_title *ti, size_t k0, size_t k1)
+{
+	size_t len;
+	for (size_t k = k0; k < k1; k++)
+		if (ukept(ti, k) && (ti->prot[ti->unit[k]] ||
+				     match_val(ti, k, LC_OCCUPATION, "head", 1, &len)))
+			return 1;
+	return 0;
+}
+
+/* Is the legal form at unit k (len units), in segment s whose kept units
+ * are [k0, k1), written before the name of its firm, with the title
+ * going on elsewhere?  The form in capitals or capitalised, then a
+ * capitalised name of at most EMPLOYER_NAME_MAX words to the segment's
+ * end with no word naming an occupation; and the title goes on in
+ * another segment ("Sandėlininkas – UAB Nemuno logistika", "UAB Valdas
+ * – vairuotojas") or before the form, with a word naming the occupation
+ * ("Vairuotojas UAB Valdas"). */
+static int form_before_name(tm_title *ti, size_t s, size_t k, size_t len,
+			    size_t k0, size_t k1, int caps)
+{
+	size_t n = k + len;
+	const tm_seg *g = &ti->segs[s];
+
+	if (!(caps || cap_word(ti, k)) || n >= k1 || k1 - n > EMPLOYER_NAME_MAX ||
+	    U(ti, n)->kind != TK_WORD || !(caps || cap_word(ti, n)) ||
+	    head_within(ti, n, k1))
+		return 0;
+	if (k == k0)
+		return g->bracket || g->index > 0 || later_content(ti, s);
+	return head_within(ti, k0, k);
+}
+
 int pass_employer(tm_title *ti)
 {
 	size_t k, len, k0, k1;
@@ -549,6 +589,12 @@ int pass_employer(tm_title *ti)
 		s = useg(ti, k);
 		g = &ti->segs[s];
 		seg_kept(ti, s, &k0, &k1);
+		if (form_before_name(ti, s, k, len, k0, k1, caps)) {
+			if (remove_units(ti, k, k1, NF_EMPLOYER, NULL))
+				return -1;
+			k = k1 - 1;
+			continue;
+		}
 		start = SIZE_MAX;
 		for (m = k; m > k0 && k - m < EMPLOYER_BACK; m--) {
 			size_t l2;

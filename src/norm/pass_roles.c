@@ -22,6 +22,10 @@
  *    postcode (place_segment), even when the name is also an ordinary
  *    word ("– Laufen", "(Wetter, Ruhr)"); a segment with a field word
  *    is kept;
+ *  - a place written beside what the place rules removed: one or two
+ *    name words before a removed slot or bracketed place ("Bø i
+ *    Telemark", "Ed (Dalsland)"), or a region word with its region's
+ *    name or adjective ("région bruxelloise");
  *  - the last segment, right after a segment removed as a place, when
  *    it looks like its region, district or code ("Kalmar, Småland",
  *    "Bra (CN)"), known to the gazetteer or not.
@@ -258,6 +262,40 @@ static int region_after(tm_title *ti, size_t s, size_t k0, size_t k1, int caps)
 	return 1;
 }
 
+/* Is the kept part of segment s, units [k0, k1), a place written with
+ * what the place rules removed right after it: one or two name words
+ * before a location slot or a bracketed place ("Bø [i Telemark]", "Ed
+ * [(Dalsland)]"), or a region word with the name or adjective of its
+ * region, in capitals or not ("région bruxelloise", "regione
+ * Lombardia")?  At most ROLE_REGION_MAX words. */
+static int place_beside_removed(tm_title *ti, size_t k0, size_t k1, int caps)
+{
+	size_t k, len, t;
+	const lex_entry *e;
+
+	if (k1 - k0 > ROLE_REGION_MAX)
+		return 0;
+	e = match_val(ti, k0, LC_LOCATION, "before", 1, &len);
+	if (e && k0 + len < k1) {
+		for (k = k0 + len; k < k1; k++)
+			if (!ukept(ti, k) || U(ti, k)->kind != TK_WORD ||
+			    evidence_at(ti, k, 0, k0) != EV_NONE ||
+			    (ti->ucats[k] & (1u << LC_BUSINESS)))
+				return 0;
+		return 1;
+	}
+	if (k1 - k0 > 2)
+		return 0;
+	for (k = k0; k < k1; k++)
+		if (!name_word(ti, k, k0, caps))
+			return 0;
+	/* past brackets, the next token is a removed place or slot word */
+	for (t = ti->unit[k1 - 1] + 1; t < ti->tl.n && ti->tl.t[t].kind == TK_PUNCT &&
+	     (ti->tl.t[t].flags & TF_OPEN); t++)
+		;
+	return t < ti->tl.n && (ti->rm[t] == NF_LOCATION || ti->rm[t] == NF_SLOT);
+}
+
 /* Is the kept part of segment s, units [k0, k1), a bracket holding only
  * the code of a subdivision of the country of the title's language
  * (location/subdivisions.txt: "(TO)", "(69)")?  A code of letters counts
@@ -316,6 +354,11 @@ int pass_roles(tm_title *ti)
 			}
 			if (ev == EV_NONE && s == last && s > 0 && removed_place(ti, s - 1) &&
 			    region_after(ti, s, k0, k1, caps)) {
+				if (remove_units(ti, k0, k1, NF_LOCATION, NULL))
+					return -1;
+				continue;
+			}
+			if (ev == EV_NONE && s > head && place_beside_removed(ti, k0, k1, caps)) {
 				if (remove_units(ti, k0, k1, NF_LOCATION, NULL))
 					return -1;
 				continue;

@@ -77,7 +77,10 @@ static utf8proc_int32_t title_map(utf8proc_int32_t c, void *data)
 		return ' ';
 	case UTF8PROC_CATEGORY_SO: case UTF8PROC_CATEGORY_SK:
 		/* emoji and dingbats part a title like a bullet:
-		 * "Koch 📍 München" */
+		 * "Koch 📍 München"; the degree and numero signs write
+		 * numbers ("N° d'offre: 2291", "30°C") */
+		if (c == 0xB0 || c == 0x2116)
+			return c;
 		return c == 0xFFFD ? ' ' : '|';
 	case UTF8PROC_CATEGORY_CO: case UTF8PROC_CATEGORY_CS:
 	case UTF8PROC_CATEGORY_CN:
