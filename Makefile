@@ -37,7 +37,7 @@ SRC_core = buf digest lang
 SRC_io = decode reader tsv jsonw jsonr postings skos record outfile fieldcheck
 SRC_norm = unicode token lexicon lexicon_read lexicon_image lexcache setup title pass_gender pass_contact pass_pay pass_noise pass_place pass_roles \
 	norm facets
-SRC_count = strtab tally_mem chunk store load store_redis store_redis_url store_redis_keys store_redis_chunk \
+SRC_count = strtab idset tally_mem chunk store load store_redis store_redis_url store_redis_keys store_redis_chunk \
 	store_redis_apply store_redis_dump cluster slot
 SRC_rank = stats labels inputs coverage propose
 SRC_review = review_item review_json review_change review_batch review_time queue queue_file \
