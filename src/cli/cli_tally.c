@@ -347,14 +347,15 @@ int cmd_tally(int argc, char **argv)
 			(unsigned long long)st->applied, plural(st->applied, "chunk", "chunks"),
 			(unsigned long long)st->skipped);
 	else if (rc == EXIT_OK) {
-		if (o.stats)
+		if (o.stats) {
+			size_t strs = m.forms.arena.len + m.keys.arena.len + m.occs.arena.len +
+				      m.ids.arena.len + m.exkeys.arena.len + m.exarena.len;
 			fprintf(stderr, "titlemill tally: %zu distinct (occupation, language, key), %zu forms, "
-				"%zu (language, key), %zu ids; engine %zu bytes, %.1f bytes per form beyond "
-				"its string bytes\n",
+				"%zu (language, key), %zu ids; engine %zu bytes, %.1f bytes per distinct "
+				"(occupation, language, key) beyond the string bytes\n",
 				m.exkeys.n, m.forms.n, m.keys.n, m.ids.n, tm_bytes(&m),
-				m.forms.n ? (double)(tm_bytes(&m) - m.forms.arena.len - m.keys.arena.len -
-						     m.occs.arena.len - m.ids.arena.len - m.exkeys.arena.len -
-						     m.exarena.len) / (double)m.forms.n : 0.0);
+				m.exkeys.n ? (double)(tm_bytes(&m) - strs) / (double)m.exkeys.n : 0.0);
+		}
 		rc = write_table(&m, o.out, "tally");
 	}
 	fprintf(stderr, "%s%llu %s counted, %llu republished %s skipped, %ld malformed %s skipped",
