@@ -163,6 +163,7 @@ typedef struct tally_run {
 	int progress;      /* 0 off, 1 on a terminal, 2 on a pipe */
 	uint64_t total;    /* input bytes, 0 when unknown (standard input, a FIFO) */
 	double t0, last;
+	uint64_t postings, bytes; /* the latest figures */
 	int shown;
 } tally_run;
 
@@ -193,14 +194,15 @@ static const char *plural(uint64_t n, const char *one, const char *many)
 }
 
 /* Postings read, their rate, and with the inputs' size known the share
- * of their bytes read and the time left at the rate so far. */
-static void on_progress(void *ctx, uint64_t postings, uint64_t bytes)
+ * of their bytes read and the time left at the rate so far: at most
+ * once per interval, or now (force). */
+static void show_progress(tally_run *t, int force)
 {
-	tally_run *t = ctx;
 	double at = now(), el = at - t->t0;
+	uint64_t postings = t->postings, bytes = t->bytes;
 	char share[64] = "";
 
-	if (at - t->last < (t->progress == 1 ? PROGRESS_TTY_S : PROGRESS_PIPE_S))
+	if (!force && at - t->last < (t->progress == 1 ? PROGRESS_TTY_S : PROGRESS_PIPE_S))
 		return;
 	t->last = at;
 	if (t->total && bytes) {
@@ -214,6 +216,14 @@ static void on_progress(void *ctx, uint64_t postings, uint64_t bytes)
 		plural(postings, "posting", "postings"), el > 0 ? (double)postings / el : 0.0,
 		share, t->progress == 1 ? "" : "\n");
 	t->shown = 1;
+}
+
+static void on_progress(void *ctx, uint64_t postings, uint64_t bytes)
+{
+	tally_run *t = ctx;
+	t->postings = postings;
+	t->bytes = bytes;
+	show_progress(t, 0);
 }
 
 /* The bytes of every input, or 0 when one of them is not a regular file. */
@@ -322,6 +332,8 @@ int cmd_tally(int argc, char **argv)
 		.ctx = &run,
 	};
 	int lr = load_run(st, lx, &lc, argv + first, argc - first, &err);
+	if (run.progress == 2 && lr == TM_OK)
+		show_progress(&run, 1); /* a log ends with the whole load's figures */
 	progress_clear(&run);
 	if (lr != TM_OK) {
 		fprintf(stderr, "titlemill tally: %.*s%s\n", (int)err.len, err.data ? err.data : "",

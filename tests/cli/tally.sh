@@ -169,6 +169,27 @@ printf 'id\toccupations\ttitle\n1\tocc:1\tKoch\n' > "$tmp/one"
 $T tally "$tmp/one" 2>&1 > /dev/null | grep -q 'tally: 1 posting counted, 0 republished ids skipped, 0 malformed rows skipped$'
 check one-posting 0 $?
 
+# --- progress: --progress on a pipe ends with the whole load's figures
+# (the share of the input when its size is known), --quiet and a pipe
+# by default show none; the table is the same
+$T tally --progress "$tmp/t1.tsv" "$tmp/t2.tsv" "$tmp/t3.tsv" 2> "$tmp/pg.err" | cmp -s - "$tmp/th1.tsv"
+check progress-same-table 0 $?
+grep -q "^titlemill tally: [0-9]* postings read, [0-9]*/s, 100 % of the input, 0:00 left$" "$tmp/pg.err"
+check progress-final-line 0 $?
+# postings read: those counted and those whose id was seen before
+want=$(sed -n 's/.* \([0-9]*\) postings counted, \([0-9]*\) republished.*/\1 \2/p' "$tmp/pg.err" | awk '{ print $1 + $2 }')
+got=$(sed -n 's/.* \([0-9]*\) postings read.*/\1/p' "$tmp/pg.err")
+check progress-postings-read "$want" "$got"
+$T tally --progress - < "$tmp/t1.tsv" 2>&1 > /dev/null | grep -q '^titlemill tally: [0-9]* postings read, [0-9]*/s$'
+check progress-stdin-no-share 0 $?
+n=$($T tally "$tmp/t1.tsv" 2>&1 > /dev/null | grep -c 'postings read')
+check progress-pipe-default-off 0 "$n"
+if command -v script > /dev/null 2>&1; then
+	n=$(script -qc "$T tally --quiet $tmp/t1.tsv $tmp/t2.tsv $tmp/t3.tsv -o /dev/null" /dev/null | grep -c 'postings read')
+	check progress-quiet-terminal 0 "$n"
+fi
+$T tally --progress --quiet "$tmp/t1.tsv" > /dev/null 2>&1; check progress-quiet-usage 2 $?
+
 # --- into a store: 1 and 5 threads, chunks of 1,000 and 100,000, give
 # the memory's table, and the chunks (their digests) are the same: a
 # reload with another thread count finds every chunk in the store
