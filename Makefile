@@ -25,9 +25,9 @@ CMOCKA_LIBS := $(shell $(PKG_CONFIG) --libs cmocka 2>/dev/null)
 
 WARN = -Wall -Wextra -Wpedantic -Wshadow -Wstrict-prototypes -Wmissing-prototypes
 OPT ?= -O2 -g
-override CFLAGS += -std=c11 -D_POSIX_C_SOURCE=200809L $(WARN) $(OPT) $(PC_CFLAGS) \
+override CFLAGS += -std=c11 -D_POSIX_C_SOURCE=200809L -pthread $(WARN) $(OPT) $(PC_CFLAGS) \
 	-DTM_VERSION='"$(VERSION)"' -DTM_LEXDIR='"$(DATADIR)/lexicons"'
-override LDLIBS += $(PC_LIBS) -lm
+override LDLIBS += $(PC_LIBS) -lm -pthread
 
 BUILD ?= build
 # The sources, folder by folder in the order of the pipeline; a folder
@@ -37,7 +37,7 @@ SRC_core = buf digest lang period
 SRC_io = decode reader tsv jsonw jsonr htmlw postings skos record outfile fieldcheck
 SRC_norm = unicode token lexicon lexicon_read lexicon_image lexcache setup title pass_gender pass_contact pass_pay pass_noise pass_place pass_roles \
 	norm facets
-SRC_count = strtab tally_mem chunk store store_redis store_redis_url store_redis_keys store_redis_chunk \
+SRC_count = strtab idset tally_mem chunk store load store_redis store_redis_url store_redis_keys store_redis_chunk \
 	store_redis_apply store_redis_dump cluster slot
 SRC_rank = stats labels inputs coverage propose trend
 SRC_review = review_item review_json review_change review_batch review_time queue queue_file \
@@ -120,7 +120,7 @@ fuzz-build:
 	@set -e; for t in $(FUZZ_TARGETS); do \
 		$(FUZZ_CC) -std=c11 -D_POSIX_C_SOURCE=200809L $(FUZZ_FLAGS) $(PC_CFLAGS) -Isrc \
 			-DTM_LEXDIR='"$(DATADIR)/lexicons"' -o build-fuzz/$$t tests/fuzz/$$t.c \
-			$(CORE_SRC) $(PC_LIBS); done
+			$(CORE_SRC) $(PC_LIBS) -pthread; done
 fuzz: fuzz-build
 	@set -e; for t in $(FUZZ_TARGETS); do \
 		mkdir -p build-fuzz/corpus-$$t; \
@@ -131,10 +131,14 @@ fuzz: fuzz-build
 			> build-fuzz/$$t.log 2>&1; then tail -12 build-fuzz/$$t.log; \
 		else tail -40 build-fuzz/$$t.log; echo "$$t: a finding (build-fuzz/$$t.log)"; exit 1; fi; done
 
-bench: titlemill
+# the counting stage of tally alone (tests/bench/count_stage.c)
+$(BUILD)/count_stage: tests/bench/count_stage.c $(CORE_OBJ) $(HEADERS)
+	$(CC) $(CFLAGS) -Isrc $(LDFLAGS) -o $@ tests/bench/count_stage.c $(CORE_OBJ) $(LDLIBS)
+
+bench: titlemill $(BUILD)/count_stage
 	sh tests/bench/run.sh $(CURDIR)/titlemill
 	sh tests/bench/startup.sh $(CURDIR)/titlemill
-	sh tests/bench/tally.sh $(CURDIR)/titlemill
+	COUNT_STAGE=$(CURDIR)/$(BUILD)/count_stage sh tests/bench/tally.sh $(CURDIR)/titlemill
 	sh tests/bench/review.sh $(CURDIR)/titlemill
 	sh tests/bench/cluster.sh $(CURDIR)/titlemill
 	sh tests/bench/rank.sh $(CURDIR)/titlemill

@@ -5,6 +5,7 @@
 #include <stdlib.h>
 #include <string.h>
 #include <time.h>
+#include <sys/stat.h>
 #include <unistd.h>
 
 #include "cli/cli.h"
@@ -12,13 +13,15 @@
 #include "io/outfile.h"
 #include "io/postings.h"
 #include "norm/setup.h"
+#include "count/load.h"
 #include "count/store.h"
 #include "count/tally.h"
 
 typedef struct tally_opts {
 	int format;        /* 1 + the index in format_names */
-	int strict, stats;
+	int strict, stats, progress, quiet;
 	uint64_t memo_mib, chunk, retries, ttl_days; /* ttl_days: UINT64_MAX: none */
+	uint64_t threads;  /* UINT64_MAX: the online processors */
 	const char *out, *store, *prefix;
 	setup_opts setup;
 } tally_opts;
@@ -49,6 +52,13 @@ static const opt_spec tally_specs[] = {
 	{"strict", OPT_FLAG, offsetof(tally_opts, strict), NULL, NULL, 0, 0,
 	 "a malformed row is an error (status 1, nothing written)", NULL, 0},
 	OPT_SPEC_MEMO(tally_opts, memo_mib),
+	{"threads", OPT_U64, offsetof(tally_opts, threads), "N", NULL, 1, LOAD_THREADS_MAX,
+	 "clean titles in N threads (not given: one per online processor); the "
+	 "counts are the same bytes whatever N", NULL, 0},
+	{"progress", OPT_FLAG, offsetof(tally_opts, progress), NULL, NULL, 0, 0,
+	 "show progress on standard error even when it is not a terminal", NULL, 0},
+	{"quiet", OPT_FLAG, offsetof(tally_opts, quiet), NULL, NULL, 0, 0,
+	 "no progress display, even on a terminal", NULL, 0},
 	{"output", OPT_STR, offsetof(tally_opts, out), "FILE", NULL, 0, 0,
 	 "write the table to FILE (a file is replaced only when complete; a device or "
 	 "FIFO is written into)", NULL, 'o'},
@@ -61,7 +71,7 @@ static const opt_cmd tally_cmd = {
 	"tally",
 	"usage: titlemill tally [--store URL [--prefix P] [--chunk N] [--retries N] [--ttl DAYS]]\n"
 	"                       [--format auto|tsv|jsonl] [--labels FILE] [--lexicons DIR]\n"
-	"                       [--strict] [-o FILE] POSTINGS...\n"
+	"                       [--strict] [--threads N] [--progress|--quiet] [-o FILE] POSTINGS...\n"
 	"\n"
 	"Counts, per occupation, language and match key, how often each cleaned\n"
 	"title is used, and writes a counts table (TSV) to standard output or FILE.\n"
@@ -142,21 +152,105 @@ static double now(void)
 	return (double)ts.tv_sec + (double)ts.tv_nsec / 1e9;
 }
 
+/* Seconds between two progress lines on a terminal (rewritten in place)
+ * and on a pipe or file (one line each). */
+#define PROGRESS_TTY_S 0.25
+#define PROGRESS_PIPE_S 5.0
+
+/* What the load tells the command as it goes. */
+typedef struct tally_run {
+	badlog bl;
+	int progress;      /* 0 off, 1 on a terminal, 2 on a pipe */
+	uint64_t total;    /* input bytes, 0 when unknown (standard input, a FIFO) */
+	double t0, last;
+	uint64_t postings, bytes; /* the latest figures */
+	int shown;
+} tally_run;
+
+static void on_skipped(void *ctx, const char *msg, size_t len)
+{
+	badlog *bl = &((tally_run *)ctx)->bl;
+	if (bl->n < 5)
+		snprintf(bl->first[bl->n], sizeof bl->first[0], "%.*s", (int)len, msg);
+	bl->n++;
+}
+
+static void progress_clear(tally_run *t)
+{
+	if (t->shown && t->progress == 1)
+		fputs("\r\033[K", stderr);
+	t->shown = 0;
+}
+
+static void on_note(void *ctx, const char *msg, size_t len)
+{
+	progress_clear(ctx);
+	fprintf(stderr, "titlemill tally: %.*s\n", (int)len, msg);
+}
+
+static const char *plural(uint64_t n, const char *one, const char *many)
+{
+	return n == 1 ? one : many;
+}
+
+/* Postings read, their rate, and with the inputs' size known the share
+ * of their bytes read and the time left at the rate so far: at most
+ * once per interval, or now (force). */
+static void show_progress(tally_run *t, int force)
+{
+	double at = now(), el = at - t->t0;
+	uint64_t postings = t->postings, bytes = t->bytes;
+	char share[64] = "";
+
+	if (!force && at - t->last < (t->progress == 1 ? PROGRESS_TTY_S : PROGRESS_PIPE_S))
+		return;
+	t->last = at;
+	if (t->total && bytes) {
+		double left = el * (double)(t->total > bytes ? t->total - bytes : 0) / (double)bytes;
+		snprintf(share, sizeof share, ", %.0f %% of the input, %d:%02d left",
+			 100.0 * (double)bytes / (double)t->total, (int)(left / 60),
+			 (int)left % 60);
+	}
+	fprintf(stderr, "%stitlemill tally: %llu %s read, %.0f/s%s%s",
+		t->progress == 1 ? "\r\033[K" : "", (unsigned long long)postings,
+		plural(postings, "posting", "postings"), el > 0 ? (double)postings / el : 0.0,
+		share, t->progress == 1 ? "" : "\n");
+	t->shown = 1;
+}
+
+static void on_progress(void *ctx, uint64_t postings, uint64_t bytes)
+{
+	tally_run *t = ctx;
+	t->postings = postings;
+	t->bytes = bytes;
+	show_progress(t, 0);
+}
+
+/* The bytes of every input, or 0 when one of them is not a regular file. */
+static uint64_t input_bytes(char *const *paths, int n)
+{
+	uint64_t sum = 0;
+	for (int i = 0; i < n; i++) {
+		struct stat sb;
+		if (!strcmp(paths[i], "-") || stat(paths[i], &sb) != 0 || !S_ISREG(sb.st_mode))
+			return 0;
+		sum += (uint64_t)sb.st_size;
+	}
+	return sum;
+}
+
 int cmd_tally(int argc, char **argv)
 {
 	tally_opts o;
 	store *st = NULL;
 	tm_buf err = {0};
 	tally_mem m;
-	badlog bl;
-	uint64_t nread = 0;
+	tally_run run;
 	lexicon *lx;
-	normaliser *nm;
-	int first, rc = EXIT_OK, tty = isatty(2);
-	double t0 = now(), last = t0;
+	int first, rc = EXIT_OK;
 
 	memset(&o, 0, sizeof o);
-	memset(&bl, 0, sizeof bl);
+	memset(&run, 0, sizeof run);
 	switch (opt_parse(&tally_cmd, &o, argc, argv, &first)) {
 	case OPT_HELP_SHOWN: return EXIT_OK;
 	case OPT_MISUSE: return EXIT_USAGE;
@@ -171,23 +265,18 @@ int cmd_tally(int argc, char **argv)
 		opt_help(&tally_cmd, stderr);
 		return EXIT_USAGE;
 	}
+	if (o.progress && o.quiet) {
+		fputs("titlemill tally: --progress and --quiet contradict each other\n", stderr);
+		return EXIT_USAGE;
+	}
+	if (o.store && o.out) {
+		fputs("titlemill tally: -o writes a counts table; with --store the counts go to the store\n", stderr);
+		return EXIT_USAGE;
+	}
 	if (!(lx = setup_lexicon(&o.setup, &err))) {
 		fprintf(stderr, "titlemill tally: %.*s\n", (int)err.len, err.data ? err.data : "");
 		buf_free(&err);
 		return EXIT_RUNTIME;
-	}
-	nm = norm_new(lx);
-	if (!nm || norm_memo(nm, (size_t)o.memo_mib << 20) != 0) {
-		fputs("titlemill tally: out of memory\n", stderr);
-		norm_free(nm);
-		lex_free(lx);
-		return EXIT_RUNTIME;
-	}
-	if (o.store && o.out) {
-		fputs("titlemill tally: -o writes a counts table; with --store the counts go to the store\n", stderr);
-		norm_free(nm);
-		lex_free(lx);
-		return EXIT_USAGE;
 	}
 	if (o.store && o.strict) {
 		/* --strict with a store: every row is checked before anything
@@ -215,7 +304,6 @@ int cmd_tally(int argc, char **argv)
 			pr_close(&pr);
 		}
 		if (rc != EXIT_OK) {
-			norm_free(nm);
 			lex_free(lx);
 			return rc;
 		}
@@ -225,77 +313,33 @@ int cmd_tally(int argc, char **argv)
 	st = o.store ? store_open(o.store, &sconf, &err) : store_mem_open(&m, &err);
 	if (!st) {
 		fprintf(stderr, "titlemill tally: %.*s\n", (int)err.len, err.data ? err.data : "");
-		norm_free(nm);
 		lex_free(lx);
 		buf_free(&err);
 		return EXIT_RUNTIME;
 	}
 	store_set_chunk(st, (long)o.chunk);
-	for (int i = first; i < argc && rc == EXIT_OK; i++) {
-		postings_reader pr;
-		posting p;
-		int r;
-		pr_row row;
-
-		if (pr_open(&pr, argv[i], format) != 0) {
-			fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
-			pr_close(&pr);
-			rc = EXIT_RUNTIME;
-			break;
-		}
-		while ((r = pr_next(&pr, &p, &row)) < 0 || row != PR_END) {
-			norm_result res;
-			tally_posting tp;
-			if (r < 0) {
-				fprintf(stderr, "titlemill tally: %.*s\n", (int)pr.err.len, pr.err.data);
-				rc = EXIT_RUNTIME;
-				break;
-			}
-			if (row == PR_SKIP) {
-				if (o.strict) {
-					fprintf(stderr, "titlemill tally: %.*s (--strict: nothing written)\n",
-						(int)pr.err.len, pr.err.data);
-					rc = EXIT_RUNTIME;
-					break;
-				}
-				if (bl.n < 5)
-					snprintf(bl.first[bl.n], sizeof bl.first[0], "%.*s",
-						 (int)pr.err.len, pr.err.data);
-				bl.n++;
-				continue;
-			}
-			if (pr.lr.noeol)
-				fprintf(stderr, "titlemill tally: %s:%ld: the last row has no line end: "
-					"was the file cut short? (counted as it is)\n", pr.lr.name, p.line);
-			if (norm_title(nm, p.title, p.titlelen,
-				       strcmp(p.lang, "und") ? p.lang : NULL, &res) != 0) {
-				fputs("titlemill tally: out of memory\n", stderr);
-				rc = EXIT_RUNTIME;
-				break;
-			}
-			tally_posting_of(&tp, &p, &res);
-			if (store_feed(st, &p, &tp, pr.lr.name, p.line) != 0) {
-				fprintf(stderr, "titlemill tally: %.*s\n", (int)st->err.len, st->err.data);
-				rc = EXIT_RUNTIME;
-				break;
-			}
-			if (tty && (++nread & 0x3FFF) == 0) {
-				double t = now();
-				if (t - last > 0.5) {
-					fprintf(stderr, "\rtitlemill tally: %llu postings, %.0f/s ",
-						(unsigned long long)nread, (double)nread / (t - t0));
-					last = t;
-				}
-			}
-		}
-		if (rc == EXIT_OK && store_input_end(st, pr.lr.name) != 0) {
-			fprintf(stderr, "titlemill tally: %.*s\n", (int)st->err.len, st->err.data);
-			rc = EXIT_RUNTIME;
-		}
-		pr_close(&pr);
+	run.progress = o.quiet ? 0 : o.progress ? (isatty(2) ? 1 : 2) : isatty(2) ? 1 : 0;
+	run.total = input_bytes(argv + first, argc - first);
+	run.t0 = run.last = now();
+	load_conf lc = {
+		.format = format,
+		.threads = o.threads == UINT64_MAX ? load_online_cpus() : (int)o.threads,
+		.memo_bytes = (size_t)o.memo_mib << 20,
+		.strict = o.strict,
+		.skipped = on_skipped,
+		.note = on_note,
+		.progress = run.progress ? on_progress : NULL,
+		.ctx = &run,
+	};
+	int lr = load_run(st, lx, &lc, argv + first, argc - first, &err);
+	if (run.progress == 2 && lr == TM_OK)
+		show_progress(&run, 1); /* a log ends with the whole load's figures */
+	progress_clear(&run);
+	if (lr != TM_OK) {
+		fprintf(stderr, "titlemill tally: %.*s%s\n", (int)err.len, err.data ? err.data : "",
+			lr == TM_EINPUT ? " (--strict: nothing written)" : "");
+		rc = EXIT_RUNTIME;
 	}
-	if (tty && last != t0)
-		fputc('\n', stderr);
 	if (rc == EXIT_OK && st->ops->finish(st) != 0) {
 		/* chunks other loads left unfinished (killed, or still at work) */
 		fprintf(stderr, "titlemill tally: %.*s; every input is counted, but chunks that "
@@ -311,28 +355,31 @@ int cmd_tally(int argc, char **argv)
 			"(compare the load's files; see README, Long runs)\n",
 			(unsigned long long)st->settled, (unsigned long long)st->settled_postings);
 	if (o.store)
-		fprintf(stderr, "titlemill tally: %llu chunks applied, %llu already in the store; ",
-			(unsigned long long)st->applied, (unsigned long long)st->skipped);
+		fprintf(stderr, "titlemill tally: %llu %s applied, %llu already in the store; ",
+			(unsigned long long)st->applied, plural(st->applied, "chunk", "chunks"),
+			(unsigned long long)st->skipped);
 	else if (rc == EXIT_OK) {
-		if (o.stats)
+		if (o.stats) {
+			size_t strs = m.forms.arena.len + m.keys.arena.len + m.occs.arena.len +
+				      m.ids.arena.len + m.exkeys.arena.len + m.exarena.len;
 			fprintf(stderr, "titlemill tally: %zu distinct (occupation, language, key), %zu forms, "
-				"%zu (language, key), %zu ids; engine %zu bytes, %.1f bytes per form beyond "
-				"its string bytes\n",
+				"%zu (language, key), %zu ids; engine %zu bytes, %.1f bytes per distinct "
+				"(occupation, language, key) beyond the string bytes\n",
 				m.exkeys.n, m.forms.n, m.keys.n, m.ids.n, tm_bytes(&m),
-				m.forms.n ? (double)(tm_bytes(&m) - m.forms.arena.len - m.keys.arena.len -
-						     m.occs.arena.len - m.ids.arena.len - m.exkeys.arena.len -
-						     m.exarena.len) / (double)m.forms.n : 0.0);
+				m.exkeys.n ? (double)(tm_bytes(&m) - strs) / (double)m.exkeys.n : 0.0);
+		}
 		rc = write_table(&m, o.out, "tally");
 	}
-	fprintf(stderr, "%s%llu postings counted, %llu republished ids skipped, %ld malformed rows skipped",
-		o.store ? "" : "titlemill tally: ",
-		(unsigned long long)st->counted, (unsigned long long)st->republished, bl.n);
-	for (long k = 0; k < bl.n && k < 5; k++)
-		fprintf(stderr, "%s %s", k ? ";" : ":", bl.first[k]);
-	fprintf(stderr, "%s\n", bl.n > 5 ? "; ..." : "");
+	fprintf(stderr, "%s%llu %s counted, %llu republished %s skipped, %ld malformed %s skipped",
+		o.store ? "" : "titlemill tally: ", (unsigned long long)st->counted,
+		plural(st->counted, "posting", "postings"), (unsigned long long)st->republished,
+		plural(st->republished, "id", "ids"), run.bl.n,
+		plural((uint64_t)run.bl.n, "row", "rows"));
+	for (long k = 0; k < run.bl.n && k < 5; k++)
+		fprintf(stderr, "%s %s", k ? ";" : ":", run.bl.first[k]);
+	fprintf(stderr, "%s\n", run.bl.n > 5 ? "; ..." : "");
 	store_close(st);
 	tm_free(&m);
-	norm_free(nm);
 	lex_free(lx);
 	buf_free(&err);
 	return rc;

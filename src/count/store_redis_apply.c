@@ -493,7 +493,7 @@ int sr_attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint64_t 
 	for (p = r->chunk.data; (got = chunk_next(&p, end, &rec)) == 1;) {
 		if (rec.p.id) {
 			long idx = st_find(&ids, rec.p.id, rec.p.idlen);
-			if (!mine[idx] || st_add(&agg.ids, rec.p.id, rec.p.idlen, 0, NULL) == 0) {
+			if (!mine[idx] || ids_add(&agg.ids, rec.p.id, rec.p.idlen) == 0) {
 				(*repub)++;
 				continue;
 			}

@@ -48,25 +48,48 @@ long st_find(const strtab *t, const char *key, size_t n)
 	return -1;
 }
 
-int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
+/* The joined length of a key given as fields. */
+static size_t fields_len(const st_fields *k)
 {
-	uint64_t h = tok_hash(key, n);
-	size_t j;
+	size_t n = k->k ? (size_t)k->k - 1 : 0;
+	for (int i = 0; i < k->k; i++)
+		n += k->n[i];
+	return n;
+}
 
-	if (n > UINT32_MAX || t->n >= UINT32_MAX - 1)
-		return -1;
-	if (t->nslot) {
-		for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
-			st_entry *e = &t->ent[t->slot[j] - 1];
-			if (e->hash == h && e->len == n &&
-			    (n == 0 || !memcmp(t->arena.data + e->off, key, n))) {
-				e->count += by;
-				if (idx)
-					*idx = t->slot[j] - 1;
-				return 0;
-			}
-		}
+/* Does the entry's key (of the joined length) read as the fields? */
+static int same_fields(const strtab *t, const st_entry *e, const st_fields *k)
+{
+	const char *s = t->arena.data + e->off;
+	for (int i = 0; i < k->k; i++) {
+		if (i && *s++ != k->sep)
+			return 0;
+		if (k->n[i] && memcmp(s, k->f[i], k->n[i]))
+			return 0;
+		s += k->n[i];
 	}
+	return 1;
+}
+
+long st_find_fields(const strtab *t, const st_fields *k)
+{
+	size_t j, n = fields_len(k);
+
+	if (!t->nslot)
+		return -1;
+	for (j = home(k->h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+		const st_entry *e = &t->ent[t->slot[j] - 1];
+		if (e->hash == k->h && e->len == n && same_fields(t, e, k))
+			return (long)(t->slot[j] - 1);
+	}
+	return -1;
+}
+
+/* Room for one more entry of n bytes: slots and entries.  0 or -1. */
+static int room(strtab *t, size_t n)
+{
+	if (n > UINT32_MAX || t->n >= UINT32_MAX - 1 || t->arena.len + n > UINT32_MAX)
+		return -1;
 	if ((t->n + 1) * 4 > t->nslot * 3 && grow_slots(t) != 0)
 		return -1;
 	if (t->n == t->cap) {
@@ -75,8 +98,14 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 			return -1;
 		t->ent = p;
 	}
-	if (t->arena.len + n > UINT32_MAX || buf_append(&t->arena, key, n) != 0)
-		return -1;
+	return 0;
+}
+
+/* Files a new key of n bytes under h, its bytes the arena's last (room
+ * made first).  Returns 1. */
+static int insert(strtab *t, uint64_t h, size_t n, uint64_t by, size_t *idx)
+{
+	size_t j;
 	st_entry *e = &t->ent[t->n];
 	e->hash = h;
 	e->count = by;
@@ -89,6 +118,49 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 		*idx = t->n;
 	t->n++;
 	return 1;
+}
+
+int st_add_fields(strtab *t, const st_fields *k, uint64_t by, size_t *idx)
+{
+	size_t n = fields_len(k);
+	long i = st_find_fields(t, k);
+
+	if (i >= 0) {
+		t->ent[i].count += by;
+		if (idx)
+			*idx = (size_t)i;
+		return 0;
+	}
+	if (room(t, n) != 0 || buf_reserve(&t->arena, n + 1) != 0)
+		return -1;
+	for (int f = 0; f < k->k; f++) {
+		if (f)
+			buf_putc(&t->arena, k->sep);
+		buf_append(&t->arena, k->f[f], k->n[f]);
+	}
+	return insert(t, k->h, n, by, idx);
+}
+
+int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
+{
+	uint64_t h = tok_hash(key, n);
+	size_t j;
+
+	if (t->nslot) {
+		for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+			st_entry *e = &t->ent[t->slot[j] - 1];
+			if (e->hash == h && e->len == n &&
+			    (n == 0 || !memcmp(t->arena.data + e->off, key, n))) {
+				e->count += by;
+				if (idx)
+					*idx = t->slot[j] - 1;
+				return 0;
+			}
+		}
+	}
+	if (room(t, n) != 0 || buf_append(&t->arena, key, n) != 0)
+		return -1;
+	return insert(t, h, n, by, idx);
 }
 
 void st_free(strtab *t)

@@ -37,6 +37,24 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx);
 /* Index of key, or -1. */
 long st_find(const strtab *t, const char *key, size_t n);
 
+/* A key given as its fields f[0..k) (k <= ST_FIELDS_MAX), to be joined
+ * with sep, and the hash the caller files it under: the joined key is
+ * never built to be looked up, only its bytes copied into the arena when
+ * it is new.  A table is used either with st_add and st_find (the hash
+ * of the whole key) or with these two (the caller's hash), never both. */
+#define ST_FIELDS_MAX 4
+typedef struct st_fields {
+	const char *f[ST_FIELDS_MAX];
+	size_t n[ST_FIELDS_MAX];
+	int k;
+	char sep;
+	uint64_t h;
+} st_fields;
+
+/* As st_add and st_find, for a key given as fields. */
+int st_add_fields(strtab *t, const st_fields *key, uint64_t by, size_t *idx);
+long st_find_fields(const strtab *t, const st_fields *key);
+
 static inline const char *st_key(const strtab *t, size_t i, size_t *n)
 {
 	*n = t->ent[i].len;

@@ -24,6 +24,7 @@
 #include "core/buf.h"
 #include "norm/norm.h"
 #include "io/postings.h"
+#include "count/idset.h"
 #include "count/strtab.h"
 
 #define TALLY_EXAMPLES 3
@@ -44,16 +45,17 @@ typedef struct tally_posting {
  * read into one, and counts tables are written from one) ---- */
 
 typedef struct tally_mem {
+	/* keys are fields joined by 1F, filed under a hash of the fields'
+	 * hashes (st_fields): look them up through the functions below */
 	strtab forms;   /* occ 1F lang 1F key 1F title -> postings */
 	strtab keys;    /* lang 1F key -> postings */
 	strtab occs;    /* occ 1F lang -> postings */
-	strtab ids;     /* posting ids seen */
+	idset ids;      /* posting ids seen */
 	strtab exkeys;  /* occ 1F lang 1F key -> index into ex */
 	struct tm_example { uint64_t h[TALLY_EXAMPLES]; uint32_t off[TALLY_EXAMPLES],
 		len[TALLY_EXAMPLES]; uint8_t n; } *ex;
 	size_t nex, excap;
 	tm_buf exarena;
-	tm_buf scratch;
 	uint64_t postings, republished;
 	uint64_t added[3]; /* the counts added to forms, keys, occs: while
 			    * each stays below 2^64, no count and no sum of

@@ -22,87 +22,109 @@ void tm_free(tally_mem *m)
 	st_free(&m->forms);
 	st_free(&m->keys);
 	st_free(&m->occs);
-	st_free(&m->ids);
+	ids_free(&m->ids);
 	st_free(&m->exkeys);
 	free(m->ex);
 	buf_free(&m->exarena);
-	buf_free(&m->scratch);
 	memset(m, 0, sizeof *m);
 }
 
 size_t tm_bytes(const tally_mem *m)
 {
 	return st_bytes(&m->forms) + st_bytes(&m->keys) + st_bytes(&m->occs) +
-	       st_bytes(&m->ids) + st_bytes(&m->exkeys) +
+	       ids_bytes(&m->ids) + st_bytes(&m->exkeys) +
 	       m->excap * sizeof *m->ex + m->exarena.cap;
 }
 
-/* Joins up to four fields with SEP into m->scratch. */
-static int join(tally_mem *m, const char *a, size_t al, const char *b, size_t bl,
-		const char *c, size_t cl, const char *d, size_t dl)
+/* The tables' keys are fields joined with SEP, filed under a hash made
+ * of the fields' own hashes: a posting hashes its language, key, title
+ * and each occupation once, and every key it counts under is derived
+ * from those, never joined to be looked up. */
+static void fk_init(st_fields *k)
 {
-	tm_buf *s = &m->scratch;
-	buf_reset(s);
-	if (buf_append(s, a, al))
-		return -1;
-	if (b && (buf_putc(s, SEP) || buf_append(s, b, bl)))
-		return -1;
-	if (c && (buf_putc(s, SEP) || buf_append(s, c, cl)))
-		return -1;
-	if (d && (buf_putc(s, SEP) || buf_append(s, d, dl)))
-		return -1;
-	return 0;
+	k->k = 0;
+	k->sep = SEP;
+	k->h = 0x243F6A8885A308D3ULL;
 }
 
-/* Adds n to the entry in m->scratch of t, keeping *added a bound of
- * every count and sum of t (tables read from files can hold any 19-digit
- * number). */
-static int add_count(tally_mem *m, strtab *t, uint64_t *added, uint64_t n)
+static void fk_push(st_fields *k, const char *s, size_t n, uint64_t h)
+{
+	k->f[k->k] = s;
+	k->n[k->k++] = n;
+	k->h = tok_hash_mix(k->h, h);
+}
+
+/* Adds n to the entry of key in t, keeping *added a bound of every count
+ * and sum of t (tables read from files can hold any 19-digit number). */
+static int add_count(strtab *t, uint64_t *added, const st_fields *key, uint64_t n)
 {
 	if (n > UINT64_MAX - *added)
 		return -2;
-	if (st_add(t, m->scratch.data, m->scratch.len, n, NULL) < 0)
+	if (st_add_fields(t, key, n, NULL) < 0)
 		return -1;
 	*added += n;
 	return 0;
 }
 
+/* The key of an occupation and language; of a triple (occupation,
+ * language, key); of a language and key. */
+static void occ_key(st_fields *k, const char *occ, size_t ol, const char *lang)
+{
+	size_t ll = strlen(lang);
+	fk_init(k);
+	fk_push(k, occ, ol, tok_hash(occ, ol));
+	fk_push(k, lang, ll, tok_hash(lang, ll));
+}
+
+static void triple_key(st_fields *k, const char *occ, size_t ol, const char *lang,
+		       const char *key, size_t kl)
+{
+	occ_key(k, occ, ol, lang);
+	fk_push(k, key, kl, tok_hash(key, kl));
+}
+
+static void lang_key(st_fields *k, const char *lang, const char *key, size_t kl)
+{
+	size_t ll = strlen(lang);
+	fk_init(k);
+	fk_push(k, lang, ll, tok_hash(lang, ll));
+	fk_push(k, key, kl, tok_hash(key, kl));
+}
+
 int tm_add_form(tally_mem *m, const char *occ, size_t ol, const char *lang,
 		const char *key, size_t kl, const char *title, size_t tl, uint64_t n)
 {
-	if (join(m, occ, ol, lang, strlen(lang), key, kl, title, tl))
-		return -1;
-	return add_count(m, &m->forms, &m->added[0], n);
+	st_fields k;
+	triple_key(&k, occ, ol, lang, key, kl);
+	fk_push(&k, title, tl, tok_hash(title, tl));
+	return add_count(&m->forms, &m->added[0], &k, n);
 }
 
 int tm_add_key(tally_mem *m, const char *lang, const char *key, size_t kl, uint64_t n)
 {
-	if (join(m, lang, strlen(lang), key, kl, NULL, 0, NULL, 0))
-		return -1;
-	return add_count(m, &m->keys, &m->added[1], n);
+	st_fields k;
+	lang_key(&k, lang, key, kl);
+	return add_count(&m->keys, &m->added[1], &k, n);
 }
 
 int tm_add_occ(tally_mem *m, const char *occ, size_t ol, const char *lang, uint64_t n)
 {
-	if (join(m, occ, ol, lang, strlen(lang), NULL, 0, NULL, 0))
-		return -1;
-	return add_count(m, &m->occs, &m->added[2], n);
+	st_fields k;
+	occ_key(&k, occ, ol, lang);
+	return add_count(&m->occs, &m->added[2], &k, n);
 }
 
-int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
-		   const char *key, size_t kl, const char *text, size_t tl)
+/* Offers text (hash h) as an example of the triple k. */
+static int add_example(tally_mem *m, const st_fields *k, const char *text, size_t tl, uint64_t h)
 {
 	size_t idx;
 	int r;
-	uint64_t h = tok_hash(text, tl);
 	struct tm_example *e;
 	int worst = -1;
 
 	if (tl == 0)
 		return 0; /* an empty example is no evidence */
-	if (join(m, occ, ol, lang, strlen(lang), key, kl, NULL, 0))
-		return -1;
-	r = st_add(&m->exkeys, m->scratch.data, m->scratch.len, 0, &idx);
+	r = st_add_fields(&m->exkeys, k, 0, &idx);
 	if (r < 0)
 		return -1;
 	if (r == 1) {
@@ -140,10 +162,22 @@ int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
 	return 0;
 }
 
+int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
+		   const char *key, size_t kl, const char *text, size_t tl)
+{
+	st_fields k;
+	triple_key(&k, occ, ol, lang, key, kl);
+	return add_example(m, &k, text, tl, tok_hash(text, tl));
+}
+
 int tm_add(tally_mem *m, const tally_posting *p)
 {
+	size_t ll = strlen(p->lang);
+	uint64_t hl, hk, ht, hx;
+	st_fields lk;
+
 	if (p->id) {
-		int r = st_add(&m->ids, p->id, p->idlen, 1, NULL);
+		int r = ids_add(&m->ids, p->id, p->idlen);
 		if (r < 0)
 			return -1;
 		if (r == 0) {
@@ -152,15 +186,28 @@ int tm_add(tally_mem *m, const tally_posting *p)
 		}
 	}
 	m->postings++;
-	if (tm_add_key(m, p->lang, p->key, p->keylen, 1))
+	hl = tok_hash(p->lang, ll);
+	hk = tok_hash(p->key, p->keylen);
+	ht = tok_hash(p->title, p->titlelen);
+	hx = p->examplelen ? tok_hash(p->example, p->examplelen) : 0;
+	fk_init(&lk);
+	fk_push(&lk, p->lang, ll, hl);
+	fk_push(&lk, p->key, p->keylen, hk);
+	if (add_count(&m->keys, &m->added[1], &lk, 1))
 		return -1;
 	for (size_t i = 0; i < p->nocc; i++) {
-		if (tm_add_occ(m, p->occ[i], p->occlen[i], p->lang, 1) ||
-		    tm_add_form(m, p->occ[i], p->occlen[i], p->lang, p->key, p->keylen,
-				p->title, p->titlelen, 1) ||
-		    (p->examplelen &&
-		     tm_add_example(m, p->occ[i], p->occlen[i], p->lang, p->key,
-				    p->keylen, p->example, p->examplelen)))
+		st_fields ok, tk;
+		fk_init(&ok);
+		fk_push(&ok, p->occ[i], p->occlen[i], tok_hash(p->occ[i], p->occlen[i]));
+		fk_push(&ok, p->lang, ll, hl);
+		if (add_count(&m->occs, &m->added[2], &ok, 1))
+			return -1;
+		tk = ok;
+		fk_push(&tk, p->key, p->keylen, hk);
+		if (p->examplelen && add_example(m, &tk, p->example, p->examplelen, hx))
+			return -1;
+		fk_push(&tk, p->title, p->titlelen, ht);
+		if (add_count(&m->forms, &m->added[0], &tk, 1))
 			return -1;
 	}
 	return 0;
@@ -517,21 +564,21 @@ int tm_each_triple(tally_mem *m, int (*fn)(void *ctx, const tm_triple *t), void 
 
 uint64_t tm_occ_postings(tally_mem *m, const char *occ, size_t ol, const char *lang)
 {
+	st_fields k;
 	long i;
-	if (join(m, occ, ol, lang, strlen(lang), NULL, 0, NULL, 0))
-		return 0;
-	i = st_find(&m->occs, m->scratch.data, m->scratch.len);
+	occ_key(&k, occ, ol, lang);
+	i = st_find_fields(&m->occs, &k);
 	return i < 0 ? 0 : m->occs.ent[i].count;
 }
 
 int tm_examples(tally_mem *m, const char *occ, size_t ol, const char *lang,
 		const char *key, size_t kl, const char **text, size_t *len)
 {
+	st_fields k;
 	long i;
 	int n = 0;
-	if (join(m, occ, ol, lang, strlen(lang), key, kl, NULL, 0))
-		return 0;
-	i = st_find(&m->exkeys, m->scratch.data, m->scratch.len);
+	triple_key(&k, occ, ol, lang, key, kl);
+	i = st_find_fields(&m->exkeys, &k);
 	if (i < 0)
 		return 0;
 	const struct tm_example *e = &m->ex[m->exkeys.ent[i].count];
@@ -557,10 +604,10 @@ int tm_examples(tally_mem *m, const char *occ, size_t ol, const char *lang,
 
 uint64_t tm_key_postings(tally_mem *m, const char *lang, const char *key, size_t kl)
 {
+	st_fields k;
 	long i;
-	if (join(m, lang, strlen(lang), key, kl, NULL, 0, NULL, 0))
-		return 0;
-	i = st_find(&m->keys, m->scratch.data, m->scratch.len);
+	lang_key(&k, lang, key, kl);
+	i = st_find_fields(&m->keys, &k);
 	return i < 0 ? 0 : m->keys.ent[i].count;
 }
 

@@ -61,7 +61,7 @@ printf 'id\tdate\toccupations\ttitle\n7\t2026-03-02\tocc:1\tKoch (m/w/d)\n9\t202
 $T tally "$tmp/day1" "$tmp/day2" > "$tmp/d" 2> "$tmp/err"
 got=$(awk -F '\t' '$1 == "title" && $2 == "occ:1" { print $6 }' "$tmp/d"); check ids-once 3 "$got"
 got=$(awk -F '\t' '$1 == "key" { print $6 }' "$tmp/d"); check key-once 3 "$got"
-grep -q '3 postings counted, 1 republished ids skipped' "$tmp/err"; check ids-summary 0 $?
+grep -q '3 postings counted, 1 republished id skipped' "$tmp/err"; check ids-summary 0 $?
 printf 'date\toccupations\ttitle\n\tocc:1\tKoch\n\tocc:1\tKoch\n' > "$tmp/noid"
 got=$($T tally "$tmp/noid" 2>/dev/null | awk -F '\t' '$1 == "title" { print $6 }'); check no-id-all-count 2 "$got"
 
@@ -109,7 +109,7 @@ printf 'id\tdate\toccupations\ttitle\n1\t2026-02-30\tocc:1\tKoch\n2\t2026-03-01\
 $T tally "$tmp/badrows" > "$tmp/o" 2> "$tmp/err"; check bad-rows-status 0 $?
 grep -q "badrows:2: bad date '2026-02-30'" "$tmp/err"; check bad-date-msg 0 $?
 grep -q "badrows:3: no occupation" "$tmp/err"; check no-occ-msg 0 $?
-grep -q "1 postings counted, 0 republished ids skipped, 2 malformed rows skipped" "$tmp/err"; check bad-summary 0 $?
+grep -q "1 posting counted, 0 republished ids skipped, 2 malformed rows skipped" "$tmp/err"; check bad-summary 0 $?
 $T tally --strict -o "$tmp/out.tsv" "$tmp/badrows" 2> "$tmp/err"; check strict-status 1 $?
 [ ! -e "$tmp/out.tsv" ]; check strict-no-output 0 $?
 ls "$tmp" | grep -q 'out.tsv.tmp'; check strict-no-temp 1 $?
@@ -117,7 +117,7 @@ printf '{"title": "Koch", "occupations": ["occ:1"]}\n{"title": 5, "occupations":
 $T tally "$tmp/bad.jsonl" > /dev/null 2> "$tmp/err"
 grep -q "bad.jsonl:2: 'title' is not a string" "$tmp/err"; check json-type-msg 0 $?
 grep -q "bad.jsonl:3: bad JSON" "$tmp/err"; check json-syntax-msg 0 $?
-grep -q "1 postings counted, 0 republished ids skipped, 3 malformed rows skipped" "$tmp/err"; check json-summary 0 $?
+grep -q "1 posting counted, 0 republished ids skipped, 3 malformed rows skipped" "$tmp/err"; check json-summary 0 $?
 $T tally "$tmp/missing" > /dev/null 2> "$tmp/err"; check unreadable 1 $?
 grep -q "missing: No such file" "$tmp/err"; check unreadable-msg 0 $?
 printf 'kind\toccupation\tlang\tkey\ttext\tpostings\nform\tocc:1\tde\tkoch\tkoch\tx12\n' > "$tmp/badcounts"
@@ -133,4 +133,81 @@ $T tally "$tmp/pii" 2>/dev/null | awk -F '\t' '$1 == "example" { print $5 }' > "
 check masked-example "Koch - Tel. <phone> - <email>" "$(cat "$tmp/ex")"
 n=$(awk -F '\t' '$1 == "example" { c[$2 $3 $4]++ } END { m = 0; for (k in c) if (c[k] > m) m = c[k]; print m }' "$tmp/c.tsv")
 check examples-at-most-3 3 "$n"
+# --- threads: the same load with 1, 2 and 5 cleaning threads (more than
+# the processors) gives the same bytes: table and summary, over several
+# inputs with republished ids across them, malformed rows, a last row
+# without a line end, and with the memory of titles off
+head -8001 "$tmp/p.tsv" > "$tmp/t1.tsv"
+{ head -1 "$tmp/p.tsv"; sed -n '6001,14000p' "$tmp/p.tsv"; printf '9\t2026-03-02\tde\t\tno occupation\n'; } > "$tmp/t2.tsv"
+{ head -1 "$tmp/p.tsv"; sed -n '14001,16000p' "$tmp/p.tsv"; } | head -c -1 > "$tmp/t3.tsv"
+for n in 1 2 5; do
+	$T tally --threads $n "$tmp/t1.tsv" "$tmp/t2.tsv" "$tmp/t3.tsv" > "$tmp/th$n.tsv" 2> "$tmp/th$n.err"
+	check threads-$n-status 0 $?
+	$T tally --threads $n --memo 0 "$tmp/t1.tsv" "$tmp/t2.tsv" - < "$tmp/t3.tsv" > "$tmp/thm$n.tsv" 2> "$tmp/thm$n.err"
+	check threads-$n-memo0-status 0 $?
+done
+for n in 2 5; do
+	cmp -s "$tmp/th1.tsv" "$tmp/th$n.tsv"; check threads-$n-table 0 $?
+	cmp -s "$tmp/th1.err" "$tmp/th$n.err"; check threads-$n-summary 0 $?
+	cmp -s "$tmp/th1.tsv" "$tmp/thm$n.tsv"; check threads-$n-memo0-table 0 $?
+	cmp -s "$tmp/thm1.err" "$tmp/thm$n.err"; check threads-$n-memo0-summary 0 $?
+done
+grep -q 'malformed rows skipped: [^ ]*t1.tsv:[0-9]*: no title; ' "$tmp/th1.err"; check threads-skip-named 0 $?
+grep -q 't3.tsv:2001: the last row has no line end' "$tmp/th1.err"; check threads-noeol-named 0 $?
+$T tally "$tmp/t1.tsv" "$tmp/t2.tsv" "$tmp/t3.tsv" 2>/dev/null | cmp -s - "$tmp/th1.tsv"; check threads-default 0 $?
+# a malformed row under --strict stops the load the same way, named
+for n in 1 2 5; do
+	$T tally --strict --threads $n "$tmp/t1.tsv" "$tmp/t2.tsv" "$tmp/t3.tsv" > /dev/null 2> "$tmp/ths$n.err"
+	check threads-$n-strict-status 1 $?
+done
+grep -q '^titlemill tally: [^ ]*t1.tsv:[0-9]*: no title (--strict: nothing written)$' "$tmp/ths1.err"; check threads-strict-named 0 $?
+cmp -s "$tmp/ths1.err" "$tmp/ths2.err"; check threads-2-strict-same 0 $?
+cmp -s "$tmp/ths1.err" "$tmp/ths5.err"; check threads-5-strict-same 0 $?
+$T tally --threads 0 "$tmp/t1.tsv" > /dev/null 2>&1; check threads-0-refused 2 $?
+# one posting, in the singular
+printf 'id\toccupations\ttitle\n1\tocc:1\tKoch\n' > "$tmp/one"
+$T tally "$tmp/one" 2>&1 > /dev/null | grep -q 'tally: 1 posting counted, 0 republished ids skipped, 0 malformed rows skipped$'
+check one-posting 0 $?
+
+# --- progress: --progress on a pipe ends with the whole load's figures
+# (the share of the input when its size is known), --quiet and a pipe
+# by default show none; the table is the same
+$T tally --progress "$tmp/t1.tsv" "$tmp/t2.tsv" "$tmp/t3.tsv" 2> "$tmp/pg.err" | cmp -s - "$tmp/th1.tsv"
+check progress-same-table 0 $?
+grep -q "^titlemill tally: [0-9]* postings read, [0-9]*/s, 100 % of the input, 0:00 left$" "$tmp/pg.err"
+check progress-final-line 0 $?
+# postings read: those counted and those whose id was seen before
+want=$(sed -n 's/.* \([0-9]*\) postings counted, \([0-9]*\) republished.*/\1 \2/p' "$tmp/pg.err" | awk '{ print $1 + $2 }')
+got=$(sed -n 's/.* \([0-9]*\) postings read.*/\1/p' "$tmp/pg.err")
+check progress-postings-read "$want" "$got"
+$T tally --progress - < "$tmp/t1.tsv" 2>&1 > /dev/null | grep -q '^titlemill tally: [0-9]* postings read, [0-9]*/s$'
+check progress-stdin-no-share 0 $?
+n=$($T tally "$tmp/t1.tsv" 2>&1 > /dev/null | grep -c 'postings read')
+check progress-pipe-default-off 0 "$n"
+if command -v script > /dev/null 2>&1; then
+	n=$(script -qc "$T tally --quiet $tmp/t1.tsv $tmp/t2.tsv $tmp/t3.tsv -o /dev/null" /dev/null | grep -c 'postings read')
+	check progress-quiet-terminal 0 "$n"
+fi
+$T tally --progress --quiet "$tmp/t1.tsv" > /dev/null 2>&1; check progress-quiet-usage 2 $?
+
+# --- into a store: 1 and 5 threads, chunks of 1,000 and 100,000, give
+# the memory's table, and the chunks (their digests) are the same: a
+# reload with another thread count finds every chunk in the store
+if command -v redis-server > /dev/null 2>&1 && redis_start "$tmp/rd"; then
+	U=unix:$tmp/rd/sock
+	for c in 1000 100000; do
+		for n in 1 5; do
+			$T tally --store "$U" --prefix "th$c.$n" --chunk $c --threads $n \
+				"$tmp/t1.tsv" "$tmp/t2.tsv" "$tmp/t3.tsv" 2> "$tmp/sto.err"
+			check store-$c-$n-status 0 $?
+			$T counts --store "$U" --prefix "th$c.$n" > "$tmp/sto.tsv"
+			cmp -s "$tmp/th1.tsv" "$tmp/sto.tsv"; check store-$c-$n-table 0 $?
+			m=$((6 - n))
+			$T tally --store "$U" --prefix "th$c.$n" --chunk $c --threads $m \
+				"$tmp/t1.tsv" "$tmp/t2.tsv" "$tmp/t3.tsv" 2> "$tmp/sto2.err"
+			grep -q ' 0 chunks applied, ' "$tmp/sto2.err"; check store-$c-$n-reload-$m 0 $?
+		done
+	done
+	redis_stop "$tmp/rd"
+fi
 finish

@@ -13,6 +13,7 @@
 #include <cmocka.h>
 
 #include "io/postings.h"
+#include "count/idset.h"
 #include "count/store.h"
 #include "count/strtab.h"
 #include "count/tally.h"
@@ -379,6 +380,107 @@ static void test_key_layout(void **state)
 	buf_free(&k);
 }
 
+/* The id set: growth from empty past a million members, every member
+ * found and its bytes kept, ids that are not members not found, the
+ * empty id, and ids of equal fingerprint (the hash's upper half) but
+ * different bytes kept apart. */
+static void test_idset(void **state)
+{
+	(void)state;
+	idset s = {0};
+	char k[32];
+	enum { N = 1100000 };
+
+	assert_int_equal(ids_has(&s, "x", 1), 0);
+	for (uint32_t i = 0; i < N; i++) {
+		int n = snprintf(k, sizeof k, "posting-%u", i);
+		assert_int_equal(ids_add(&s, k, (size_t)n), 1);
+	}
+	assert_int_equal(s.n, N);
+	assert_true(s.nslot >= 2 * (size_t)N); /* at most half full */
+	for (uint32_t i = 0; i < N; i += 7) {
+		int n = snprintf(k, sizeof k, "posting-%u", i);
+		size_t ml;
+		const char *m = ids_member(&s, i, &ml);
+		assert_int_equal(ids_add(&s, k, (size_t)n), 0);
+		assert_int_equal(ids_has(&s, k, (size_t)n), 1);
+		assert_int_equal(ml, (size_t)n);
+		assert_memory_equal(m, k, ml);
+		n = snprintf(k, sizeof k, "posting-%u", N + i);
+		assert_int_equal(ids_has(&s, k, (size_t)n), 0);
+		/* its first bytes are another member: posting-(110000 + i / 10) */
+		assert_int_equal(ids_has(&s, k, (size_t)n - 1), 1);
+	}
+	assert_int_equal(s.n, N);
+	assert_int_equal(ids_has(&s, "", 0), 0);
+	assert_int_equal(ids_add(&s, "", 0), 1);
+	assert_int_equal(ids_add(&s, "", 0), 0);
+	assert_int_equal(ids_has(&s, "", 0), 1);
+	ids_free(&s);
+
+	/* two ids whose hashes share the fingerprint and the home slot of
+	 * the first 1,024 slots (found by a search over "fp-N" for N below
+	 * 4,000,000: 42 equal bits): the second meets the first's slot
+	 * first, and only the bytes tell them apart */
+	const char *ka = "fp-887156", *kb = "fp-1288938";
+	size_t la = strlen(ka), lb = strlen(kb);
+	uint64_t ha = ids_hash(ka, la), hb = ids_hash(kb, lb);
+	assert_true(ha >> 32 == hb >> 32 && (ha & 1023) == (hb & 1023));
+	assert_int_equal(ids_add(&s, ka, la), 1);
+	assert_int_equal(ids_has(&s, kb, lb), 0);
+	assert_int_equal(ids_add(&s, kb, lb), 1);
+	assert_int_equal(ids_add(&s, ka, la), 0);
+	assert_int_equal(ids_add(&s, kb, lb), 0);
+	assert_int_equal(s.n, 2);
+	/* and through growth: the pair, then enough ids to double the slots
+	 * three times, the pair still two members */
+	for (uint32_t i = 0; i < 5000; i++) {
+		int n = snprintf(k, sizeof k, "g-%u", i);
+		assert_int_equal(ids_add(&s, k, (size_t)n), 1);
+	}
+	assert_true(s.nslot >= 8192);
+	assert_int_equal(ids_add(&s, ka, la), 0);
+	assert_int_equal(ids_add(&s, kb, lb), 0);
+	assert_int_equal(s.n, 5002);
+	ids_free(&s);
+}
+
+/* Keys given as fields: one entry per joined key, found again from its
+ * fields, the joined bytes in the arena; fields that join differently
+ * are different keys, even under one hash. */
+static void test_fields(void **state)
+{
+	(void)state;
+	strtab t = {0};
+	st_fields a = {{"occ:1", "de", "koch"}, {5, 2, 4}, 3, '\x1F', 42};
+	st_fields b = {{"occ:1", "dek", "och"}, {5, 3, 3}, 3, '\x1F', 42};
+	st_fields c = {{"occ:1", "de"}, {5, 2}, 2, '\x1F', 42};
+	size_t i, n;
+
+	assert_int_equal(st_add_fields(&t, &a, 2, &i), 1);
+	assert_int_equal(st_add_fields(&t, &a, 3, &i), 0);
+	assert_int_equal(t.ent[i].count, 5);
+	assert_int_equal(st_find_fields(&t, &b), -1);
+	assert_int_equal(st_find_fields(&t, &c), -1);
+	assert_int_equal(st_add_fields(&t, &b, 1, NULL), 1);
+	assert_int_equal(st_add_fields(&t, &c, 1, NULL), 1);
+	assert_int_equal(t.n, 3);
+	assert_int_equal(st_find_fields(&t, &a), 0);
+	assert_int_equal(st_find_fields(&t, &b), 1);
+	const char *s = st_key(&t, 0, &n);
+	assert_int_equal(n, 13);
+	assert_memory_equal(s, "occ:1\x1F" "de\x1F" "koch", 13);
+	/* past a growth of the slots */
+	for (int q = 0; q < 3000; q++) {
+		char w[16];
+		st_fields d = {{w}, {(size_t)snprintf(w, sizeof w, "w%d", q)}, 1, '\x1F', (uint64_t)q * 7919};
+		assert_int_equal(st_add_fields(&t, &d, 1, NULL), 1);
+	}
+	assert_int_equal(st_find_fields(&t, &a), 0);
+	assert_int_equal(st_find_fields(&t, &c), 2);
+	st_free(&t);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -386,6 +488,8 @@ int main(void)
 		cmocka_unit_test(test_tsv_reader),
 		cmocka_unit_test(test_json_reader),
 		cmocka_unit_test(test_strtab),
+		cmocka_unit_test(test_idset),
+		cmocka_unit_test(test_fields),
 		cmocka_unit_test(test_engine),
 		cmocka_unit_test(test_examples_order_free),
 		cmocka_unit_test(test_bad_tables),

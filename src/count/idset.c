@@ -1,0 +1,114 @@
+/* idset.c - the set of posting ids (see idset.h). */
+#include "count/idset.h"
+
+#include <stdlib.h>
+#include <string.h>
+
+#include "core/err.h"
+#include "norm/token.h"
+
+/* The slots are grown when they would be more than half full. */
+#define IDS_FIRST_SLOTS 1024
+
+uint64_t ids_hash(const char *s, size_t n)
+{
+	/* tok_hash, then a full avalanche, so that both halves (the slot,
+	 * the fingerprint) depend on every byte */
+	uint64_t h = tok_hash(s, n);
+	h ^= h >> 33;
+	h *= 0xFF51AFD7ED558CCDULL;
+	h ^= h >> 33;
+	h *= 0xC4CEB9FE1A85EC53ULL;
+	return h ^ (h >> 33);
+}
+
+static inline int same(const idset *t, uint64_t v, const char *s, size_t n)
+{
+	size_t i = (size_t)(v & 0xFFFFFFFFu) - 1;
+	return t->start[i + 1] - t->start[i] == n &&
+	       (n == 0 || !memcmp(t->arena.data + t->start[i], s, n));
+}
+
+int ids_has(const idset *t, const char *s, size_t n)
+{
+	uint64_t h = ids_hash(s, n), fp = h >> 32 << 32;
+	size_t mask = t->nslot - 1, j;
+
+	if (!t->nslot)
+		return 0;
+	for (j = (size_t)h & mask; t->slot[j]; j = (j + 1) & mask)
+		if ((t->slot[j] & ~0xFFFFFFFFull) == fp && same(t, t->slot[j], s, n))
+			return 1;
+	return 0;
+}
+
+/* Doubles the slots and files every member again. */
+static int grow(idset *t)
+{
+	size_t ns = t->nslot ? t->nslot * 2 : IDS_FIRST_SLOTS, mask = ns - 1;
+	uint64_t *s;
+
+	if (ns > SIZE_MAX / sizeof *s || !(s = calloc(ns, sizeof *s)))
+		return TM_ENOMEM;
+	for (size_t i = 0; i < t->n; i++) {
+		size_t len;
+		const char *m = ids_member(t, i, &len);
+		uint64_t h = ids_hash(m, len);
+		size_t j = (size_t)h & mask;
+		while (s[j])
+			j = (j + 1) & mask;
+		s[j] = (h >> 32 << 32) | (uint64_t)(i + 1);
+	}
+	free(t->slot);
+	t->slot = s;
+	t->nslot = ns;
+	return TM_OK;
+}
+
+int ids_add_h(idset *t, const char *s, size_t n, uint64_t h)
+{
+	uint64_t fp = h >> 32 << 32;
+	size_t j;
+
+	if (t->nslot) {
+		size_t mask = t->nslot - 1;
+		for (j = (size_t)h & mask; t->slot[j]; j = (j + 1) & mask)
+			if ((t->slot[j] & ~0xFFFFFFFFull) == fp && same(t, t->slot[j], s, n))
+				return 0;
+	}
+	if (t->n >= UINT32_MAX - 1)
+		return TM_ENOMEM;
+	if ((t->n + 1) * 2 > t->nslot && grow(t) != TM_OK)
+		return TM_ENOMEM;
+	if (t->n + 2 > t->cap) {
+		uint64_t *p = tm_grow(t->start, &t->cap, t->n + 2, sizeof *p, 1024);
+		if (!p)
+			return TM_ENOMEM;
+		t->start = p;
+		if (t->n == 0)
+			p[0] = 0;
+	}
+	if (buf_append(&t->arena, s, n) != 0)
+		return TM_ENOMEM;
+	t->start[t->n + 1] = t->arena.len;
+	for (j = (size_t)h & (t->nslot - 1); t->slot[j]; j = (j + 1) & (t->nslot - 1))
+		;
+	t->slot[j] = fp | (uint64_t)(t->n + 1);
+	t->n++;
+	return 1;
+}
+
+size_t ids_bytes(const idset *t)
+{
+	return t->nslot * sizeof *t->slot + t->cap * sizeof *t->start + t->arena.cap;
+}
+
+void ids_free(idset *t)
+{
+	if (!t)
+		return;
+	free(t->slot);
+	free(t->start);
+	buf_free(&t->arena);
+	memset(t, 0, sizeof *t);
+}

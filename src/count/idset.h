@@ -1,0 +1,58 @@
+/* idset.h - a set of byte strings (posting ids), built for hundreds of
+ * millions of members.
+ *
+ * Open addressing, at most half full, 8-byte slots: the upper 32 bits of
+ * the member's 64-bit hash (its fingerprint) beside its index + 1 (0: an
+ * empty slot).  Eight slots share a cache line, so a lookup of an id not
+ * in the set (most ids of a load) reads one line and no string; a
+ * member's bytes are read only when its fingerprint matches.  The
+ * members' bytes lie end to end in one arena, their starts in one array:
+ * nothing is allocated per member; a member costs 16 to 32 bytes of
+ * slots, 8 of offset and its bytes.  Growing rehashes the members in
+ * their order (the arena read front to back).
+ *
+ * Ownership: the set owns its arrays; ids_free releases them. */
+#ifndef TM_IDSET_H
+#define TM_IDSET_H
+
+#include <stddef.h>
+#include <stdint.h>
+
+#include "core/buf.h"
+
+typedef struct idset {
+	uint64_t *slot;    /* fingerprint << 32 | (index + 1); 0 empty */
+	size_t nslot;      /* a power of two, or 0 */
+	uint64_t *start;   /* member i is arena[start[i] .. start[i + 1]) */
+	size_t n, cap;     /* members; room in start (n + 1 used) */
+	tm_buf arena;
+} idset;
+
+/* The hash the set files a member under. */
+uint64_t ids_hash(const char *s, size_t n);
+
+/* Adds s[0..n) (h = ids_hash(s, n)).  Returns 1 when it is new, 0 when
+ * it was there, TM_ENOMEM when memory ran out (the set unchanged). */
+int ids_add_h(idset *t, const char *s, size_t n, uint64_t h);
+
+static inline int ids_add(idset *t, const char *s, size_t n)
+{
+	return ids_add_h(t, s, n, ids_hash(s, n));
+}
+
+/* 1 when s[0..n) is a member, else 0. */
+int ids_has(const idset *t, const char *s, size_t n);
+
+/* Member i (0 <= i < t->n) and its length. */
+static inline const char *ids_member(const idset *t, size_t i, size_t *n)
+{
+	*n = (size_t)(t->start[i + 1] - t->start[i]);
+	return t->arena.data + t->start[i];
+}
+
+/* Bytes held (slots, starts, arena), for measurements. */
+size_t ids_bytes(const idset *t);
+
+void ids_free(idset *t);
+
+#endif
