@@ -147,8 +147,10 @@ def expected(queue, base):
             reason = ""
             occ = it["occupation"] if is_iri(it["occupation"]) or not base else base + it["occupation"]
             triples.add((occ, SKOS + kind + "Label", text, it["lang"].lower()))
+        ol = ev.get("occupation_label")
         rows.append([it["occupation"], kind, it["lang"], text, "review" if review else "add",
-                     it["id"], dec["reviewer"], dec["at"], dec.get("note", ""), reason])
+                     it["id"], dec["reviewer"], dec["at"], dec.get("note", ""), reason,
+                     ol if isinstance(ol, str) else ""])
     return rows, triples
 
 
@@ -157,7 +159,7 @@ def check(queue, tsv, ttl, nt, base=None):
     rows, triples = expected(queue, base)
     with open(tsv, encoding="utf-8", newline="") as f:
         got = list(csv.reader(f, delimiter="\t", quoting=csv.QUOTE_NONE, strict=True))
-    head = "occupation kind lang label change id reviewer decided_at note reason".split()
+    head = "occupation kind lang label change id reviewer decided_at note reason occupation_label".split()
     if not got or got[0] != head:
         return "TSV header: %r" % (got[:1],)
     if sorted(got[1:]) != sorted(rows):
