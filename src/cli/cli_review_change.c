@@ -286,7 +286,7 @@ static int run_decisions(rq_place *pl, decide_arg *a)
 	tm_buf err = {0};
 	int rc = EXIT_OK;
 	if (rq_transact(pl, decide_change, a, &err)) {
-		fprintf(stderr, "titlemill review: %s\nNothing changed.\n", err.data);
+		fprintf(stderr, "titlemill review: %s\ntitlemill review: nothing changed\n", err.data);
 		rc = EXIT_RUNTIME;
 	} else {
 		fputs(a->notes.data ? a->notes.data : "", stderr);
@@ -465,7 +465,7 @@ int rv_reopen(const review_opts *o, rq_place *pl, int n, char **ids, const char 
 	if ((rc = check_who(o)) != 0)
 		return rc;
 	if (rq_transact(pl, reopen_change, &a, &err)) {
-		fprintf(stderr, "titlemill review: %s\nNothing changed.\n", err.data);
+		fprintf(stderr, "titlemill review: %s\ntitlemill review: nothing changed\n", err.data);
 		rc = EXIT_RUNTIME;
 	} else {
 		fputs(a.notes.data ? a.notes.data : "", stderr);
@@ -491,7 +491,7 @@ int rv_undo(const review_opts *o, rq_place *pl, const char *now)
 	if ((rc = check_who(o)) != 0)
 		return rc;
 	if (rq_transact(pl, undo_change, &a, &err)) {
-		fprintf(stderr, "titlemill review: %s\nNothing changed.\n", err.data);
+		fprintf(stderr, "titlemill review: %s\ntitlemill review: nothing changed\n", err.data);
 		rc = EXIT_RUNTIME;
 	} else
 		fprintf(stderr, "titlemill review: batch %llu undone: %zu decision%s taken back\n",
