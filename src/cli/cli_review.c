@@ -378,6 +378,9 @@ int cmd_review(int argc, char **argv)
 	int first;
 	if (!sub_opts(sub))
 		return rv_usage_error("unknown subcommand: ", sub);
+	/* getopt names the program as argv[0]: its messages then start as ours */
+	static char prog[] = "titlemill review";
+	argv[1] = prog;
 	if ((rc = parse_opts(argc - 1, argv + 1, sub, &o, &first)) != 0)
 		return rc == 1 ? EXIT_OK : rc;
 	int nargs = argc - 1 - first;

@@ -70,6 +70,8 @@ grep -q -- "--labels FILE" "$tmp/h" && grep -q -- "--overrule" "$tmp/h" && ! gre
 run noise-words --help | grep -q "Candidates for a curator" || check "noise-words --help says candidates" said not
 run list --note --help $Q > /dev/null 2>&1
 check "an option's value that reads --help is no help" 2 $?
+got=$("$T" review list --bogus 2>&1 | head -1)
+check "an unknown option: named as ours" "titlemill review: unrecognized option '--bogus'" "$got"
 
 # --- a clash of keys at decision time: refused, naming the other
 # occupation and its label; --overrule accepts it with a warning
