@@ -50,7 +50,8 @@ enum rq_status { RQ_OPEN, RQ_ACCEPTED, RQ_REJECTED, RQ_DEFERRED, RQ_NSTATUS };
 	X(RK_ALT, "new_alt_label", 'a')       \
 	X(RK_HIDDEN, "new_hidden_label", 'h') \
 	X(RK_RARE, "rare_label", 'r')         \
-	X(RK_ELSEWHERE, "used_elsewhere", 'r')
+	X(RK_ELSEWHERE, "used_elsewhere", 'r') \
+	/* a new kind goes above this line */
 
 #define RQ_KIND_ENUM(e, name, delta) e,
 enum rq_kind { RQ_KINDS(RQ_KIND_ENUM) RK_N };

@@ -105,7 +105,7 @@ def suggestion_ok(s):
     """Whether review add must take suggestion s (a dict)."""
     checks = [id_ok(s["id"]), occ_ok(s["occupation"]), lang_ok(s["lang"]),
               text_ok(s["label"], 512)]
-    for k in ("label_as_written", "variant_of"):
+    for k in ("label_as_written", "variant_of", "occupation_label"):
         if isinstance(s.get(k), str):
             checks.append(text_ok(s[k], 512))
     c = s.get("competitor")
@@ -221,10 +221,12 @@ def gen(rng, i):
         s["label_kind"] = rng.choice(["pref", "alt", "hidden"])
     if rng.random() < 0.5:
         s["label_as_written"] = "Lagerist %d" % i
+    if rng.random() < 0.5:
+        s["occupation_label"] = "Fachkraft für Lagerlogistik %d" % i
     # corrupt one field or two, or none
     for _ in range(rng.choice([0, 1, 1, 1, 2])):
         f = rng.choice(["occupation", "lang", "label", "label_as_written", "competitor", "id",
-                        "variant_of"])
+                        "variant_of", "occupation_label"])
         if f == "lang":
             s["lang"] = gen_lang(rng)
         elif f == "occupation":
