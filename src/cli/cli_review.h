@@ -26,7 +26,12 @@ typedef struct review_opts {
 	const char *occ, *sort;
 	char lang[4];            /* "" any */
 	uint64_t limit;          /* UINT64_MAX: all */
-	double reopen_factor;
+	double reopen_factor;    /* 0: off */
+	double reopen_precision;
+	const char *labels;      /* the taxonomy, for accept's clashes and noise-words */
+	int noise;               /* reject: as noise, for good */
+	uint64_t batch;          /* undo: the batch; UINT64_MAX: not given */
+	uint64_t min_rejections; /* noise-words: the floor */
 	int format;              /* 0 tsv, 1 turtle, 2 ntriples */
 	const char *since, *base, *out;
 	int clean_case;          /* export the clean (lowercase) label */
@@ -56,11 +61,17 @@ int rv_decide_ids(const review_opts *o, rq_place *pl, int d, int n, char **ids,
 		  const char *now);
 int rv_decide_file(const review_opts *o, rq_place *pl, const char *path, const char *now);
 int rv_repair(rq_place *pl);
+int rv_reopen(const review_opts *o, rq_place *pl, int n, char **ids, const char *now);
+int rv_undo(const review_opts *o, rq_place *pl, const char *now);
+/* The taxonomy of --labels in *ls: 0, or -1 after saying why. */
+struct labelset;
+int rv_labels(const review_opts *o, struct labelset *ls);
 
 /* cli_review_read.c: the subcommands that read it. */
 int rv_list(const review_opts *o, const rq_queue *q);
 int rv_show(const review_opts *o, const rq_queue *q, int n, char **ids);
-int rv_stats(const rq_queue *q, const char *now);
+int rv_stats(const review_opts *o, const rq_queue *q, const char *now);
+int rv_noise_words(const review_opts *o, const rq_queue *q);
 int rv_export(const review_opts *o, const rq_queue *q);
 
 #endif

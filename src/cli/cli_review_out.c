@@ -8,7 +8,8 @@
 
 int rv_usage_error(const char *what, const char *detail)
 {
-	fprintf(stderr, "titlemill review: %s%s\nRun 'titlemill review --help' for the options.\n",
+	fprintf(stderr, "titlemill review: %s%s\ntitlemill review: 'titlemill review --help' lists the "
+			"subcommands, 'titlemill review SUBCOMMAND --help' their options\n",
 		what, detail ? detail : "");
 	return EXIT_USAGE;
 }

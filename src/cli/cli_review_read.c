@@ -1,5 +1,5 @@
 /* cli_review_read.c - the subcommands of `titlemill review` that read
- * the queue: list, show, stats, export. */
+ * the queue: list, show, stats, export, noise-words. */
 #include <errno.h>
 #include <math.h>
 #include <stdio.h>
@@ -13,8 +13,10 @@
 #include "io/jsonr.h"
 #include "io/outfile.h"
 #include "review/review_json.h"
+#include "review/review_noise.h"
 #include "review/review_time.h"
 #include "io/record.h"
+#include "rank/labels.h"
 
 /* ---- reading: list, show, stats, export ---- */
 
@@ -98,6 +100,17 @@ static int by_score(const void *a, const void *b)
 	return strcmp(x->id, y->id);
 }
 
+/* Strongest first: strength in [0, 1] is comparable across kinds (an
+ * item without one, from an older propose, comes after those with one),
+ * then the score. */
+static int by_strength(const void *a, const void *b)
+{
+	const rq_item *x = *(const rq_item *const *)a, *y = *(const rq_item *const *)b;
+	if (x->brief.strength != y->brief.strength)
+		return x->brief.strength > y->brief.strength ? -1 : 1;
+	return by_score(a, b);
+}
+
 static int by_postings(const void *a, const void *b)
 {
 	const rq_item *x = *(const rq_item *const *)a, *y = *(const rq_item *const *)b;
@@ -117,10 +130,12 @@ static int by_seq(const void *a, const void *b)
  * lines instead, rq_item_json). */
 static const rec_field list_fields[] = {
 	{"id", REC_TSV}, {"status", REC_TSV}, {"kind", REC_TSV}, {"occupation", REC_TSV},
-	{"lang", REC_TSV}, {"label", REC_TSV}, {"score", REC_TSV}, {"postings", REC_TSV},
+	{"occupation_label", REC_TSV}, {"lang", REC_TSV}, {"label", REC_TSV},
+	{"strength", REC_TSV}, {"score", REC_TSV}, {"postings", REC_TSV},
 	{"occupation_postings", REC_TSV}, {"precision", REC_TSV}, {"competitor", REC_TSV},
-	{"variant_of", REC_TSV}, {"added", REC_TSV}, {"proposed", REC_TSV},
-	{"decided_by", REC_TSV}, {"decided_at", REC_TSV}, {"note", REC_TSV}, {NULL, 0},
+	{"competitor_postings", REC_TSV}, {"variant_of", REC_TSV}, {"added", REC_TSV},
+	{"proposed", REC_TSV}, {"decided_by", REC_TSV}, {"decided_at", REC_TSV},
+	{"note", REC_TSV}, {NULL, 0},
 };
 
 static void list_row(rec *r, const rq_item *it)
@@ -132,16 +147,24 @@ static void list_row(rec *r, const rq_item *it)
 	rec_cstr(r, rq_status_name(it));
 	rec_cstr(r, rq_kind_names[it->kind]);
 	rec_cstr(r, it->occ);
+	rec_cstr(r, e->occ_label ? e->occ_label : "");
 	rec_cstr(r, it->lang);
 	rec_cstr(r, it->label);
+	if (e->strength >= 0)
+		rec_num(r, e->strength);
+	else
+		rec_null(r);
 	rec_num(r, it->score);
 	rec_u64(r, it->postings);
 	rec_u64(r, e->occ_postings);
 	rec_num(r, e->precision);
-	if (e->rival)
-		rec_cell_counted(r, e->rival, strlen(e->rival), e->rival_postings);
-	else
+	if (e->rival) {
+		rec_cstr(r, e->rival);
+		rec_u64(r, e->rival_postings);
+	} else {
 		rec_null(r);
+		rec_null(r);
+	}
 	rec_cstr(r, e->variant_of ? e->variant_of : "");
 	rec_cstr(r, it->added);
 	rec_cstr(r, it->proposed);
@@ -161,7 +184,8 @@ int rv_list(const review_opts *o, const rq_queue *q)
 	if (!v)
 		return rv_fail("out of memory");
 	qsort(v, n, sizeof *v, !strcmp(o->sort, "added") ? by_seq
-			       : !strcmp(o->sort, "postings") ? by_postings : by_score);
+			       : !strcmp(o->sort, "postings") ? by_postings
+			       : !strcmp(o->sort, "score") ? by_score : by_strength);
 	if (o->limit < n)
 		n = (size_t)o->limit;
 	rec_init(&r, &b, REC_TSV, list_fields);
@@ -194,7 +218,17 @@ static void show_event(tm_buf *b, const rq_event *e, const rq_item *it, const rq
 	snprintf(line, sizeof line, "on %llu postings, score %.4f", (unsigned long long)e->postings,
 		 e->score);
 	buf_puts(b, line);
-	if (e->what == RE_REOPENED && prev_dec && prev_dec->postings) {
+	if (e->noise)
+		buf_puts(b, ", as noise (for good)");
+	if (e->batch) {
+		snprintf(line, sizeof line, ", batch %llu", (unsigned long long)e->batch);
+		buf_puts(b, line);
+	}
+	if (e->reason) {
+		buf_puts(b, " (");
+		buf_puts(b, e->reason);
+		buf_putc(b, ')');
+	} else if (e->what == RE_REOPENED && prev_dec && prev_dec->postings) {
 		snprintf(line, sizeof line, " (%.1f times the %llu postings at the rejection)",
 			 (double)e->postings / (double)prev_dec->postings,
 			 (unsigned long long)prev_dec->postings);
@@ -265,9 +299,11 @@ int rv_show(const review_opts *o, const rq_queue *q, int n, char **ids)
 			buf_putc(&b, '\n');
 		const char *head[][2] = {{"id", it->id},          {"status", rq_status_name(it)},
 					 {"kind", rq_kind_names[it->kind]}, {"occupation", it->occ},
+					 {"occ. label", it->brief.occ_label},
 					 {"lang", it->lang},      {"label", it->label}};
 		for (size_t j = 0; j < sizeof head / sizeof *head; j++)
-			buf_printf(&b, "%s%-14s%s", j ? "\n" : "", head[j][0], head[j][1]);
+			if (head[j][1])
+				buf_printf(&b, "%s%-14s%s", j ? "\n" : "", head[j][0], head[j][1]);
 		size_t wl;
 		const char *wr = jr_vstr(jr_get(e.v, "label_as_written"), &wl);
 		if (wr) {
@@ -283,6 +319,10 @@ int rv_show(const review_opts *o, const rq_queue *q, int n, char **ids)
 			buf_puts(&b, e.label_kind);
 		}
 		char line[64];
+		if (it->brief.strength >= 0) {
+			snprintf(line, sizeof line, "\nstrength      %.4f", it->brief.strength);
+			buf_puts(&b, line);
+		}
 		snprintf(line, sizeof line, "\nscore         %.4f\n", it->score);
 		buf_puts(&b, line);
 		jr_free(e.d);
@@ -296,7 +336,7 @@ int rv_show(const review_opts *o, const rq_queue *q, int n, char **ids)
 				show_evidence(&b, "    before:   ", last_dec->evidence);
 				show_evidence(&b, "    now:      ", it->ev[i].evidence);
 			}
-			if (it->ev[i].what >= RE_ACCEPTED)
+			if (rq_is_decision(it->ev[i].what))
 				last_dec = &it->ev[i];
 		}
 	}
@@ -306,9 +346,9 @@ int rv_show(const review_opts *o, const rq_queue *q, int n, char **ids)
 
 /* stats: one row per group */
 static const rec_field stats_fields[] = {
-	{"by", REC_TSV}, {"value", REC_TSV}, {"items", REC_TSV}, {"open", REC_TSV},
-	{"accepted", REC_TSV}, {"rejected", REC_TSV}, {"deferred", REC_TSV},
-	{"acceptance_rate", REC_TSV}, {"oldest_open_days", REC_TSV}, {NULL, 0},
+	{"by", REC_BOTH}, {"value", REC_BOTH}, {"items", REC_BOTH}, {"open", REC_BOTH},
+	{"accepted", REC_BOTH}, {"rejected", REC_BOTH}, {"deferred", REC_BOTH},
+	{"acceptance_rate", REC_BOTH}, {"oldest_open_days", REC_BOTH}, {NULL, 0},
 };
 
 typedef struct srow {
@@ -353,7 +393,7 @@ static int cmp_row(const void *a, const void *b)
 	return strcmp(x->value, y->value);
 }
 
-int rv_stats(const rq_queue *q, const char *now)
+int rv_stats(const review_opts *o, const rq_queue *q, const char *now)
 {
 	srow *v = NULL;
 	size_t n = 0, cap = 0;
@@ -390,7 +430,7 @@ int rv_stats(const rq_queue *q, const char *now)
 	}
 	qsort(v, n, sizeof *v, cmp_row);
 	rec r;
-	rec_init(&r, &b, REC_TSV, stats_fields);
+	rec_init(&r, &b, o->json ? REC_JSON : REC_TSV, stats_fields);
 	rec_header(&r);
 	for (size_t i = 0; i < n; i++) {
 		const srow *w = &v[i];
@@ -405,7 +445,9 @@ int rv_stats(const rq_queue *q, const char *now)
 			rec_num(&r, (double)w->st[RQ_ACCEPTED] / (double)decided);
 		else
 			rec_null(&r);
-		if (w->oldest >= 0) {
+		if (w->oldest >= 0 && o->json)
+			rec_num(&r, (double)(t_now - w->oldest) / 86400.0);
+		else if (w->oldest >= 0) {
 			char age[32];
 			snprintf(age, sizeof age, "%.1f", (double)(t_now - w->oldest) / 86400.0);
 			rec_cstr(&r, age);
@@ -446,7 +488,7 @@ static int write_out(const char *path, const tm_buf *b)
 
 int rv_export(const review_opts *o, const rq_queue *q)
 {
-	dl_opts d = {o->format, o->since ? rq_time(o->since) : -1, o->base, o->clean_case};
+	dl_opts d = {o->format, o->since ? rq_since(o->since) : -1, o->base, o->clean_case};
 	tm_buf b = {0}, err = {0};
 	int rc = EXIT_OK;
 
@@ -462,4 +504,43 @@ int rv_export(const review_opts *o, const rq_queue *q)
 	buf_free(&b);
 	buf_free(&err);
 	return rc;
+}
+
+/* noise-words */
+
+typedef struct nw_out {
+	tm_buf b;
+	uint64_t n;
+} nw_out;
+
+static int print_word(const rq_noise_word *w, void *a0)
+{
+	nw_out *a = a0;
+	if (!a->n++)
+		buf_puts(&a->b, "# titlemill review noise-words: candidates for a curator, not rules:\n"
+				"# check each before putting it into a lexicon folder (marketing/ for\n"
+				"# noise words) given with --lexicons DIR.  Each line follows the\n"
+				"# rejections as noise whose titles hold the word.\n");
+	buf_printf(&a->b, "# %llu of %llu rejection%s as noise\n%s\t%s\t-\n",
+		   (unsigned long long)w->items, (unsigned long long)w->of, w->of == 1 ? "" : "s",
+		   w->lang, w->word);
+	return buf_status(&a->b);
+}
+
+int rv_noise_words(const review_opts *o, const rq_queue *q)
+{
+	labelset ls;
+	nw_out a = {{0}, 0};
+	if (rv_labels(o, &ls))
+		return EXIT_RUNTIME;
+	int rc = rq_noise_words(q, o->labels ? &ls : NULL, o->min_rejections, print_word, &a);
+	labels_free(&ls);
+	if (rc) {
+		buf_free(&a.b);
+		return rv_fail("out of memory");
+	}
+	if (!a.n)
+		fprintf(stderr, "titlemill review: no word is shared by %llu or more rejections as noise "
+				"and absent from the labels\n", (unsigned long long)o->min_rejections);
+	return rv_finish(&a.b);
 }

@@ -169,6 +169,7 @@ int fc_suggestion(const struct jr_val *v, const char **field, char why[FC_WHY])
 		{"label", NULL, fc_label},
 		{"label_as_written", NULL, fc_label},
 		{"variant_of", NULL, fc_label},
+		{"occupation_label", NULL, fc_label},
 		{"competitor", "occupation", fc_occupation},
 	};
 	for (size_t i = 0; i < sizeof f / sizeof *f; i++) {

@@ -19,7 +19,7 @@ typedef struct delta {
 	jr_doc *ev;       /* the item's latest evidence, parsed */
 	char *text;       /* the label to export */
 	char kind;        /* 'a' 'h', or the existing label's kind for a review */
-	int review;       /* rare_label, used_elsewhere: a label to look at */
+	int review;       /* a kind whose delta is a `review` row: a finding to look at */
 } delta;
 
 static int cmp_delta(const void *a, const void *b)
@@ -85,6 +85,12 @@ static int is_iri(const char *s)
 static int reason(tm_buf *b, const delta *x)
 {
 	char line[300];
+	if (x->it->kind != RK_RARE && x->it->kind != RK_ELSEWHERE) {
+		/* a kind of another engine: its name and its figures */
+		snprintf(line, sizeof line, "%s: score %.4f on %llu postings",
+			 rq_kind_names[x->it->kind], x->it->score, (unsigned long long)x->it->postings);
+		return buf_puts(b, line);
+	}
 	if (x->it->kind == RK_RARE)
 		snprintf(line, sizeof line, "rare: %llu of %llu postings of the occupation",
 			 (unsigned long long)x->it->postings, ev_count(x, NULL, "occupation_postings"));
@@ -115,7 +121,9 @@ static const char *unsafe_field(const delta *x, char why[FC_WHY])
 	       : fc_name(x->dec->reviewer, strlen(x->dec->reviewer), why) ? "reviewer"
 	       : fc_note(note, strlen(note), why) ? "note"
 	       : rival && fc_occupation(rival, strlen(rival), why) ? "competitor.occupation"
-							       : NULL;
+	       : it->brief.occ_label && fc_label(it->brief.occ_label, strlen(it->brief.occ_label), why)
+		       ? "occupation_label"
+		       : NULL;
 }
 
 static void say(tm_buf *err, const char *a, const char *b, const char *c)
@@ -130,7 +138,8 @@ static void say(tm_buf *err, const char *a, const char *b, const char *c)
 /* TM_OK, or TM_ENOMEM when b failed (checked once: buf.h). */
 static int write_tsv(const delta *v, size_t n, tm_buf *b)
 {
-	buf_puts(b, "occupation\tkind\tlang\tlabel\tchange\tid\treviewer\tdecided_at\tnote\treason\n");
+	buf_puts(b, "occupation\tkind\tlang\tlabel\tchange\tid\treviewer\tdecided_at\tnote\treason\t"
+		    "occupation_label\n");
 	for (size_t i = 0; i < n; i++) {
 		const delta *x = &v[i];
 		const char *f[] = {x->it->occ, kind_word(x->kind), x->it->lang, x->text,
@@ -140,6 +149,9 @@ static int write_tsv(const delta *v, size_t n, tm_buf *b)
 		buf_putc(b, '\t');
 		if (x->review)
 			reason(b, x);
+		buf_putc(b, '\t');
+		if (x->it->brief.occ_label)
+			buf_puts(b, x->it->brief.occ_label);
 		buf_putc(b, '\n');
 	}
 	return buf_status(b);
@@ -234,7 +246,7 @@ int dl_export(const rq_queue *q, const dl_opts *o, tm_buf *out, tm_buf *err)
 		delta *x = &v[n++];
 		x->it = it;
 		x->dec = dec;
-		x->review = it->kind == RK_RARE || it->kind == RK_ELSEWHERE;
+		x->review = rq_kind_delta[it->kind] == 'r';
 		/* the label as postings write it when propose found it so
 		 * (label_as_written), else the clean title */
 		if (!ev || !(x->ev = jr_parse(ev, strlen(ev), jerr, sizeof jerr))) {
@@ -247,7 +259,7 @@ int dl_export(const rq_queue *q, const dl_opts *o, tm_buf *out, tm_buf *err)
 			goto done;
 		}
 		if (!x->review) {
-			x->kind = it->kind == RK_ALT ? 'a' : 'h';
+			x->kind = rq_kind_delta[it->kind];
 			nadd++;
 		} else {
 			const char *lk = ev_str(x, NULL, "label_kind");

@@ -38,11 +38,34 @@
 #include "core/buf.h"
 
 enum rq_status { RQ_OPEN, RQ_ACCEPTED, RQ_REJECTED, RQ_DEFERRED, RQ_NSTATUS };
-enum rq_kind { RK_ALT, RK_HIDDEN, RK_RARE, RK_ELSEWHERE, RK_N };
-enum rq_what { RE_ADDED, RE_REFRESHED, RE_REOPENED, RE_ACCEPTED, RE_REJECTED, RE_DEFERRED, RE_N };
+
+/* The kinds of suggestion the queue takes, one line each: the name in
+ * the enum, the kind as the engine that finds it writes it (propose;
+ * trend and overlap add theirs here), and what an accepted one becomes
+ * in the delta: 'a' an alternative label to add, 'h' a hidden label to
+ * add, 'r' a `review` row, a finding for the curator that never changes
+ * the taxonomy.  Adding a kind is adding its line; the queue, its
+ * options, stats and export take it from here. */
+#define RQ_KINDS(X)                           \
+	X(RK_ALT, "new_alt_label", 'a')       \
+	X(RK_HIDDEN, "new_hidden_label", 'h') \
+	X(RK_RARE, "rare_label", 'r')         \
+	X(RK_ELSEWHERE, "used_elsewhere", 'r') \
+	/* a new kind goes above this line */
+
+#define RQ_KIND_ENUM(e, name, delta) e,
+enum rq_kind { RQ_KINDS(RQ_KIND_ENUM) RK_N };
+#undef RQ_KIND_ENUM
+
+/* What happened to an item.  A curator's own reopening (review reopen)
+ * is a "reopened" event with a reviewer; "undone" takes back the
+ * decision of a batch (review undo) and follows it directly. */
+enum rq_what { RE_ADDED, RE_REFRESHED, RE_REOPENED, RE_ACCEPTED, RE_REJECTED, RE_DEFERRED,
+	       RE_UNDONE, RE_N };
 
 extern const char *const rq_status_names[RQ_NSTATUS]; /* open accepted ... */
 extern const char *const rq_kind_names[RK_N];         /* new_alt_label ... */
+extern const char rq_kind_delta[RK_N];                /* 'a' 'h' 'r', as above */
 extern const char *const rq_what_names[RE_N];         /* added refreshed ... */
 extern const char *const rq_decision_words[3];        /* accept reject defer */
 
@@ -54,6 +77,13 @@ typedef struct rq_event {
 	double score;
 	char *evidence;       /* decisions and reopenings: the whole evidence
 			       * (compact JSON); NULL otherwise */
+	char *reason;         /* a reopening: why (the share, the precision or
+			       * the postings grew, or a curator's); NULL */
+	uint64_t batch;       /* a decision of `decide`, and its undoing: the
+			       * batch number; 0 otherwise */
+	int was;              /* a decision of a batch: the status before it
+			       * (RQ_*), -1 when not known */
+	int noise;            /* a rejection as noise: never reopens by itself */
 	char *extra;          /* members this version does not know, as
 			       * ,"key":value... (compact JSON); NULL when none */
 } rq_event;
@@ -62,7 +92,8 @@ typedef struct rq_event {
 typedef struct rq_brief {
 	uint64_t occ_postings, rival_postings;
 	double precision;
-	char *rival, *variant_of; /* NULL when absent */
+	double strength;      /* in [0, 1]; -1 when the evidence has none */
+	char *rival, *variant_of, *occ_label; /* NULL when absent */
 } rq_brief;
 
 typedef struct rq_item {
@@ -117,7 +148,11 @@ const char *rq_status_name(const rq_item *it);
  * is set when a prefix fits more than one. */
 rq_item *rq_find(const rq_queue *q, const char *id, size_t idlen, int *many);
 
-/* The latest decision event of an item, or NULL. */
+/* The latest decision event of an item that was not undone, or NULL. */
 const rq_event *rq_last_decision(const rq_item *it);
+
+/* Whether an event of kind what is a decision (accepted, rejected,
+ * deferred). */
+int rq_is_decision(int what);
 
 #endif

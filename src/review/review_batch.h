@@ -13,6 +13,7 @@
  * "file:line" for a batch, or NULL. */
 typedef struct rq_decision {
 	char *id, *reviewer, *note, *where;
+	char *label;      /* the sheet's label column, to check; NULL: none */
 	int d;
 } rq_decision;
 
@@ -32,7 +33,11 @@ void rq_decisions_free(rq_decisions *ds);
 
 /* Reads a batch of decisions from a TSV file with the columns id,
  * decision (accept, reject, defer), reviewer (or the default reviewer
- * when the column or the field is empty) and note (optional).  Each bad
+ * when the column or the field is empty), note and label (optional:
+ * checked against the item's label when the batch is applied).  As
+ * spreadsheets write them: column names and decision words are matched
+ * whatever their case (ID, Accept), a field wholly in double quotes is
+ * read without them, a doubled quote inside as one.  Each bad
  * line gets one message "file:line: what" on report, and *bad counts
  * them (0: all good).  Returns TM_OK; TM_EFAIL when the file cannot be
  * read or lacks the columns, TM_ENOMEM (message in err). */

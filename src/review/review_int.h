@@ -48,6 +48,10 @@ int rqi_get_name(const jr_val *v, const char *field, const char *const *names, i
 /* v as compact JSON (malloc'd), or NULL with "out of memory" in err. */
 char *rqi_dump(const jr_val *v, const char *where, tm_buf *err);
 
+/* The item's match key: its evidence's "key", else its label; malloc'd,
+ * NULL when memory runs out. */
+char *rqi_item_key(const rq_item *it);
+
 /* The list's figures (it->brief) from an evidence object; TM_ENOMEM when
  * memory runs out. */
 int rqi_set_brief(rq_item *it, const jr_val *ev);

@@ -9,10 +9,12 @@
 #include "count/strtab.h"
 
 const char *const rq_status_names[RQ_NSTATUS] = {"open", "accepted", "rejected", "deferred"};
-const char *const rq_kind_names[RK_N] = {"new_alt_label", "new_hidden_label", "rare_label",
-					 "used_elsewhere"};
-const char *const rq_what_names[RE_N] = {"added",    "refreshed", "reopened",
-					 "accepted", "rejected",  "deferred"};
+#define RQ_KIND_NAME(e, name, delta) name,
+#define RQ_KIND_DELTA(e, name, delta) delta,
+const char *const rq_kind_names[RK_N] = {RQ_KINDS(RQ_KIND_NAME)};
+const char rq_kind_delta[RK_N] = {RQ_KINDS(RQ_KIND_DELTA)};
+const char *const rq_what_names[RE_N] = {"added",    "refreshed", "reopened", "accepted",
+					 "rejected", "deferred",  "undone"};
 const char *const rq_decision_words[3] = {"accept", "reject", "defer"};
 
 int rqi_name_index(const char *const *names, int n, const char *s, size_t len)
@@ -29,6 +31,7 @@ void rqi_event_free(rq_event *e)
 	free(e->reviewer);
 	free(e->note);
 	free(e->evidence);
+	free(e->reason);
 	free(e->extra);
 }
 
@@ -43,6 +46,7 @@ void rqi_item_free(rq_item *it)
 	free(it->evidence);
 	free(it->brief.rival);
 	free(it->brief.variant_of);
+	free(it->brief.occ_label);
 	free(it->status_name);
 	free(it->extra);
 	for (size_t i = 0; i < it->nev; i++)
@@ -102,6 +106,7 @@ rq_event *rqi_new_event(rq_item *it, int what, const char *at)
 	e->what = what;
 	e->postings = it->postings;
 	e->score = it->score;
+	e->was = -1;
 	if (!(e->at = strdup(at)))
 		return NULL;
 	it->nev++;
@@ -131,10 +136,22 @@ rq_item *rq_find(const rq_queue *q, const char *id, size_t idlen, int *many)
 	return hit;
 }
 
+int rq_is_decision(int what)
+{
+	return what == RE_ACCEPTED || what == RE_REJECTED || what == RE_DEFERRED;
+}
+
 const rq_event *rq_last_decision(const rq_item *it)
 {
-	for (size_t i = it->nev; i-- > 0;)
-		if (it->ev[i].what >= RE_ACCEPTED)
+	for (size_t i = it->nev; i-- > 0;) {
+		if (it->ev[i].what == RE_UNDONE) {
+			/* an undoing follows the decision it takes back */
+			if (i-- == 0)
+				break;
+			continue;
+		}
+		if (rq_is_decision(it->ev[i].what))
 			return &it->ev[i];
+	}
 	return NULL;
 }

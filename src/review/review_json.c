@@ -30,6 +30,18 @@ const char *rq_item_evidence(const rq_item *c)
 	return it->evidence;
 }
 
+char *rqi_item_key(const rq_item *it)
+{
+	const char *ev = rq_item_evidence(it);
+	char jerr[64];
+	size_t n;
+	jr_doc *d = ev ? jr_parse(ev, strlen(ev), jerr, sizeof jerr) : NULL;
+	const char *k = jr_vstr(jr_get(jr_root(d), "key"), &n);
+	char *r = k && n && !memchr(k, 0, n) ? tm_dupn(k, n) : strdup(it->label);
+	jr_free(d);
+	return r;
+}
+
 int rq_item_json(const rq_item *it, tm_buf *b)
 {
 	size_t start = b->len;
@@ -71,6 +83,16 @@ int rq_item_json(const rq_item *it, tm_buf *b)
 			json_u64(b, e->postings);
 			buf_puts(b, ",\"score\":");
 			json_num(b, e->score);
+			if (e->reason)
+				json_field(b, "reason", e->reason);
+			if (e->batch) {
+				buf_puts(b, ",\"batch\":");
+				json_u64(b, e->batch);
+			}
+			if (e->was >= 0 && e->was < RQ_NSTATUS)
+				json_field(b, "was", rq_status_names[e->was]);
+			if (e->noise)
+				buf_puts(b, ",\"noise\":true");
 			if (e->evidence) {
 				buf_puts(b, ",\"evidence\":");
 				buf_puts(b, e->evidence);
@@ -190,6 +212,8 @@ int rqi_set_brief(rq_item *it, const jr_val *ev)
 	memset(b, 0, sizeof *b);
 	b->occ_postings = (uint64_t)jr_vint(jr_get(ev, "occupation_postings"));
 	b->precision = jr_vnum(jr_get(ev, "precision"));
+	const jr_val *sv = jr_get(ev, "strength");
+	b->strength = jr_vtype(sv) == JR_INT || jr_vtype(sv) == JR_REAL ? jr_vnum(sv) : -1;
 	const jr_val *c = jr_get(ev, "competitor");
 	b->rival_postings = (uint64_t)jr_vint(jr_get(c, "postings"));
 	if ((s = jr_vstr(jr_get(c, "occupation"), &l)) && !memchr(s, 0, l) &&
@@ -198,6 +222,9 @@ int rqi_set_brief(rq_item *it, const jr_val *ev)
 	if ((s = jr_vstr(jr_get(ev, "variant_of"), &l)) && !memchr(s, 0, l) &&
 	    !(b->variant_of = tm_dupn(s, l)))
 		return TM_ENOMEM;
+	if ((s = jr_vstr(jr_get(ev, "occupation_label"), &l)) && l && !memchr(s, 0, l) &&
+	    !(b->occ_label = tm_dupn(s, l)))
+		return TM_ENOMEM;
 	return TM_OK;
 }
 
@@ -205,8 +232,9 @@ int rqi_set_brief(rq_item *it, const jr_val *ev)
 static const char *const item_keys[] = {"id", "seq", "status", "kind", "occupation", "lang",
 					"label", "score", "postings", "added", "proposed",
 					"evidence", "history"};
-static const char *const event_keys[] = {"event", "at", "reviewer", "note", "postings", "score",
-					 "evidence"};
+static const char *const event_keys[] = {"event",  "at",    "reviewer", "note",
+					 "postings", "score", "reason",   "batch",
+					 "was",    "noise", "evidence"};
 
 /* The members of v not among keys, for writing back (*out NULL when none). */
 static int others(const jr_val *v, const char *const *keys, size_t nkeys, char **out,
@@ -221,6 +249,15 @@ static int others(const jr_val *v, const char *const *keys, size_t nkeys, char *
 	}
 	*out = b.data; /* NULL when nothing was appended */
 	return TM_OK;
+}
+
+/* Whether v is the JSON literal true. */
+static int is_true(const jr_val *v)
+{
+	tm_buf b = {0};
+	int yes = jr_vtype(v) == JR_OTHER && !jr_dump(v, &b) && b.len == 4 && !memcmp(b.data, "true", 4);
+	buf_free(&b);
+	return yes;
 }
 
 /* Reads one history entry into it: TM_OK, TM_EINPUT or TM_ENOMEM. */
@@ -244,8 +281,17 @@ static int parse_event(rq_item *it, const jr_val *v, const char *where, tm_buf *
 	if (rqi_get_count(v, "postings", &e->postings, where, err) ||
 	    rqi_get_score(v, "score", &e->score, where, err))
 		return TM_EINPUT;
-	if (what >= RE_ACCEPTED && !(e->reviewer = rqi_get_str(v, "reviewer", where, err)))
+	if ((rq_is_decision(what) || what == RE_UNDONE || jr_get(v, "reviewer")) &&
+	    !(e->reviewer = rqi_get_str(v, "reviewer", where, err)))
 		return TM_EINPUT;
+	if (jr_get(v, "reason") && !(e->reason = rqi_get_str(v, "reason", where, err)))
+		return TM_EINPUT;
+	if (jr_get(v, "batch") && rqi_get_count(v, "batch", &e->batch, where, err))
+		return TM_EINPUT;
+	if (jr_get(v, "was") &&
+	    rqi_get_name(v, "was", rq_status_names, RQ_NSTATUS, &e->was, where, err))
+		return TM_EINPUT;
+	e->noise = is_true(jr_get(v, "noise"));
 	if (jr_get(v, "note") && !(e->note = rqi_get_str(v, "note", where, err)))
 		return TM_EINPUT;
 	if (jr_vtype(jr_get(v, "evidence")) == JR_OBJECT &&

@@ -40,6 +40,16 @@ long long rq_time(const char *s)
 	return days_from_civil(v[0], v[1], v[2]) * 86400 + v[3] * 3600 + v[4] * 60 + v[5];
 }
 
+long long rq_since(const char *s)
+{
+	char t[21];
+	if (strlen(s) != 10)
+		return rq_time(s);
+	memcpy(t, s, 10);
+	memcpy(t + 10, "T00:00:00Z", 11);
+	return rq_time(t);
+}
+
 int rq_now(char out[21], tm_buf *err)
 {
 	const char *env = getenv("TITLEMILL_NOW");

@@ -10,5 +10,9 @@
 int rq_now(char out[21], tm_buf *err);
 /* Seconds since 1970 of an ISO 8601 UTC time as rq_now writes it, or -1. */
 long long rq_time(const char *iso);
+/* A point in time a curator gives (--since): an ISO 8601 date
+ * (2026-12-02, its start in UTC) or UTC time as rq_time; -1 when it is
+ * neither. */
+long long rq_since(const char *s);
 
 #endif

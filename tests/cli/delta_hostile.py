@@ -105,7 +105,7 @@ def suggestion_ok(s):
     """Whether review add must take suggestion s (a dict)."""
     checks = [id_ok(s["id"]), occ_ok(s["occupation"]), lang_ok(s["lang"]),
               text_ok(s["label"], 512)]
-    for k in ("label_as_written", "variant_of"):
+    for k in ("label_as_written", "variant_of", "occupation_label"):
         if isinstance(s.get(k), str):
             checks.append(text_ok(s[k], 512))
     c = s.get("competitor")
@@ -147,8 +147,10 @@ def expected(queue, base):
             reason = ""
             occ = it["occupation"] if is_iri(it["occupation"]) or not base else base + it["occupation"]
             triples.add((occ, SKOS + kind + "Label", text, it["lang"].lower()))
+        ol = ev.get("occupation_label")
         rows.append([it["occupation"], kind, it["lang"], text, "review" if review else "add",
-                     it["id"], dec["reviewer"], dec["at"], dec.get("note", ""), reason])
+                     it["id"], dec["reviewer"], dec["at"], dec.get("note", ""), reason,
+                     ol if isinstance(ol, str) else ""])
     return rows, triples
 
 
@@ -157,7 +159,7 @@ def check(queue, tsv, ttl, nt, base=None):
     rows, triples = expected(queue, base)
     with open(tsv, encoding="utf-8", newline="") as f:
         got = list(csv.reader(f, delimiter="\t", quoting=csv.QUOTE_NONE, strict=True))
-    head = "occupation kind lang label change id reviewer decided_at note reason".split()
+    head = "occupation kind lang label change id reviewer decided_at note reason occupation_label".split()
     if not got or got[0] != head:
         return "TSV header: %r" % (got[:1],)
     if sorted(got[1:]) != sorted(rows):
@@ -219,10 +221,12 @@ def gen(rng, i):
         s["label_kind"] = rng.choice(["pref", "alt", "hidden"])
     if rng.random() < 0.5:
         s["label_as_written"] = "Lagerist %d" % i
+    if rng.random() < 0.5:
+        s["occupation_label"] = "Fachkraft für Lagerlogistik %d" % i
     # corrupt one field or two, or none
     for _ in range(rng.choice([0, 1, 1, 1, 2])):
         f = rng.choice(["occupation", "lang", "label", "label_as_written", "competitor", "id",
-                        "variant_of"])
+                        "variant_of", "occupation_label"])
         if f == "lang":
             s["lang"] = gen_lang(rng)
         elif f == "occupation":
