@@ -33,7 +33,7 @@ BUILD ?= build
 # The sources, folder by folder in the order of the pipeline; a folder
 # includes only from the folders before it (DEVELOPERS.md says what each
 # holds).  Objects and unit tests go flat into $(BUILD): names are unique.
-SRC_core = buf digest lang
+SRC_core = buf digest lang msg
 SRC_io = decode reader tsv jsonw jsonr postings skos record outfile fieldcheck
 SRC_norm = unicode token lexicon lexicon_read lexicon_image lexcache setup title pass_gender pass_contact pass_pay pass_noise pass_place pass_roles \
 	norm facets

@@ -105,6 +105,49 @@ check tsv-rows 5 "$(wc -l < "$tmp/t")"
 $T propose --labels "$tmp/labels.tsv" --kind bogus "$tmp/c.tsv" > /dev/null 2>&1; check bad-kind 2 $?
 $T propose --labels "$tmp/labels.tsv" --min-share 2 "$tmp/c.tsv" > /dev/null 2>&1; check bad-share 2 $?
 
+# each suggestion names its occupation by its preferred label
+/usr/bin/python3 -c '
+import json, sys
+got = [json.loads(l) for l in open(sys.argv[1], encoding="utf-8")]
+bad = [s for s in got if s["occupation_label"] != "Alpha%s Worker" % s["occupation"][4:]]
+print("ok" if got and not bad else "bad %d of %d" % (len(bad), len(got)))' "$tmp/s1" > "$tmp/x"
+check occupation-label ok "$(cat "$tmp/x")"
+
+# TSV: examples in columns of their own, since a raw title holds any
+# separator (" | " here); every row has the header's columns, and the
+# columns are the JSON's examples
+{
+	printf 'id\tlang\toccupations\ttitle\n'
+	for i in $(seq 1 40); do printf '%d\ten\tocc:1\tCook\n' "$i"; done
+	for i in $(seq 41 60); do
+		case $((i % 3)) in
+		0) t='Line Cook | Full Time' ;;
+		1) t='Line Cook | Part Time | Valdoria Gastro GmbH' ;;
+		*) t='LINE COOK | Vollzeit' ;;
+		esac
+		printf '%d\ten\tocc:1\t%s\n' "$i" "$t"
+	done
+	for i in $(seq 61 100); do printf '%d\ten\tocc:2\tDriver\n' "$i"; done
+} > "$tmp/pipes.tsv"
+printf 'occupation\tkind\tlang\tlabel\nocc:1\tpref\ten\tCook\nocc:2\tpref\ten\tDriver\n' > "$tmp/pipes-labels.tsv"
+$T propose --labels "$tmp/pipes-labels.tsv" "$tmp/pipes.tsv" > "$tmp/pj" 2>/dev/null
+$T propose --labels "$tmp/pipes-labels.tsv" --tsv "$tmp/pipes.tsv" > "$tmp/pt" 2>/dev/null
+/usr/bin/python3 - "$tmp/pj" "$tmp/pt" > "$tmp/x" <<'PY'
+import json, sys
+js = {s["id"]: s for s in map(json.loads, open(sys.argv[1], encoding="utf-8"))}
+rows = [l.rstrip("\n").split("\t") for l in open(sys.argv[2], encoding="utf-8")]
+h = rows[0]
+ok = len(rows) > 1 and all(len(r) == len(h) for r in rows) and "examples" not in h
+piped = 0
+for r in rows[1:]:
+    r = dict(zip(h, r))
+    ex = [r["example_%d" % i] for i in (1, 2, 3) if r["example_%d" % i]]
+    ok = ok and ex == js[r["id"]]["examples"] and r["occupation_label"] == js[r["id"]]["occupation_label"]
+    piped += any(" | " in e for e in ex)
+print("ok" if ok and piped else "bad")
+PY
+check tsv-examples-columns ok "$(cat "$tmp/x")"
+
 # a store gives the same suggestions
 if command -v redis-server > /dev/null 2>&1; then
 	redis_start "$tmp/r" --appendonly no || exit 1
