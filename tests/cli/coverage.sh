@@ -120,6 +120,11 @@ if command -v redis-server > /dev/null 2>&1; then
 	$T tally --labels "$tmp/labels.tsv" --store "unix:$tmp/r/sock" "$tmp/p.tsv" 2>/dev/null
 	$T coverage --labels "$tmp/labels.tsv" --store "unix:$tmp/r/sock" > "$tmp/from-store" 2>/dev/null
 	cmp -s "$tmp/from-store" "$tmp/from-counts"; check store-equals-counts 0 $?
+	# a prefix under which the store holds nothing is said
+	$T counts --store "unix:$tmp/r/sock" --prefix nothere > "$tmp/out" 2> "$tmp/err"
+	check empty-prefix-status 0 $?
+	grep -q '^titlemill counts: the store holds no counts under the prefix nothere$' "$tmp/err"
+	check empty-prefix-msg 0 $?
 	redis_stop "$tmp/r"
 else
 	echo "  SKIPPED store check: redis-server is not installed"
