@@ -67,7 +67,7 @@ static const rec_field sugg_fields[] = {
 	{"occupation_postings", REC_BOTH}, {"key_postings", REC_BOTH},
 	{"lang_postings", REC_JSON}, {"share", REC_BOTH}, {"share_low", REC_BOTH},
 	{"share_high", REC_BOTH}, {"precision", REC_BOTH}, {"g2", REC_BOTH},
-	{"competitor", REC_BOTH}, {"variant_of", REC_BOTH}, {"variant", REC_JSON},
+	{"competitor", REC_BOTH}, {"competitor_postings", REC_TSV}, {"variant_of", REC_BOTH}, {"variant", REC_JSON},
 	/* JSON: an array; TSV: one column each (raw titles hold any separator) */
 	{"examples", REC_JSON}, {"example_1", REC_TSV}, {"example_2", REC_TSV},
 	{"example_3", REC_TSV}, {NULL, 0},
@@ -115,17 +115,22 @@ static void write_sugg(rec *r, const propose_sugg *s, tally_mem *m, const labels
 	rec_num(r, hi);
 	rec_num(r, s->precision);
 	rec_num(r, s->g2);
-	if (!s->rival)
+	/* JSON: an object; TSV: the occupation and its postings in two columns */
+	if (!s->rival) {
 		rec_null(r);
-	else if (rec_is_json(r)) {
+		rec_null(r);
+	} else if (rec_is_json(r)) {
 		rec_obj_begin(r);
 		rec_member_str(r, "occupation", s->rival, s->rl);
 		rec_member_u64(r, "postings", s->rival_postings);
 		rec_member_num(r, "share", s->key_postings ? (double)s->rival_postings /
 							     (double)s->key_postings : 0);
 		rec_obj_end(r);
-	} else
-		rec_cell_counted(r, s->rival, s->rl, s->rival_postings);
+		rec_omit(r);
+	} else {
+		rec_str(r, s->rival, s->rl);
+		rec_u64(r, s->rival_postings);
+	}
 	if (s->variant && s->lb) {
 		rec_str(r, lab_str(ls, s->lb->text), s->lb->textlen);
 		rec_cstr(r, s->variant);

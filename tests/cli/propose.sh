@@ -132,21 +132,30 @@ check occupation-label ok "$(cat "$tmp/x")"
 printf 'occupation\tkind\tlang\tlabel\nocc:1\tpref\ten\tCook\nocc:2\tpref\ten\tDriver\n' > "$tmp/pipes-labels.tsv"
 $T propose --labels "$tmp/pipes-labels.tsv" "$tmp/pipes.tsv" > "$tmp/pj" 2>/dev/null
 $T propose --labels "$tmp/pipes-labels.tsv" --tsv "$tmp/pipes.tsv" > "$tmp/pt" 2>/dev/null
-/usr/bin/python3 - "$tmp/pj" "$tmp/pt" > "$tmp/x" <<'PY'
+# (the competitor too: its occupation and postings in two columns)
+$T propose --labels "$tmp/labels.tsv" --tsv "$tmp/c.tsv" > "$tmp/t1" 2>/dev/null
+/usr/bin/python3 - "$tmp/pj" "$tmp/pt" "$tmp/s1" "$tmp/t1" > "$tmp/x" <<'PY'
 import json, sys
-js = {s["id"]: s for s in map(json.loads, open(sys.argv[1], encoding="utf-8"))}
-rows = [l.rstrip("\n").split("\t") for l in open(sys.argv[2], encoding="utf-8")]
-h = rows[0]
-ok = len(rows) > 1 and all(len(r) == len(h) for r in rows) and "examples" not in h
-piped = 0
-for r in rows[1:]:
-    r = dict(zip(h, r))
-    ex = [r["example_%d" % i] for i in (1, 2, 3) if r["example_%d" % i]]
-    ok = ok and ex == js[r["id"]]["examples"] and r["occupation_label"] == js[r["id"]]["occupation_label"]
-    piped += any(" | " in e for e in ex)
-print("ok" if ok and piped else "bad")
+ok, piped, rivals = True, 0, 0
+for jf, tf in ((sys.argv[1], sys.argv[2]), (sys.argv[3], sys.argv[4])):
+    js = {s["id"]: s for s in map(json.loads, open(jf, encoding="utf-8"))}
+    rows = [l.rstrip("\n").split("\t") for l in open(tf, encoding="utf-8")]
+    h = rows[0]
+    ok = ok and len(rows) == len(js) + 1 and all(len(r) == len(h) for r in rows)
+    ok = ok and "examples" not in h
+    for r in rows[1:]:
+        r = dict(zip(h, r))
+        j = js[r["id"]]
+        ex = [r["example_%d" % i] for i in (1, 2, 3) if r["example_%d" % i]]
+        ok = ok and ex == j["examples"] and r["occupation_label"] == j["occupation_label"]
+        piped += any(" | " in e for e in ex)
+        c = j.get("competitor")
+        want = (c["occupation"], str(c["postings"])) if c else ("", "")
+        ok = ok and (r["competitor"], r["competitor_postings"]) == want
+        rivals += c is not None
+print("ok" if ok and piped and rivals else "bad %s %d %d" % (ok, piped, rivals))
 PY
-check tsv-examples-columns ok "$(cat "$tmp/x")"
+check tsv-examples-competitor-columns ok "$(cat "$tmp/x")"
 
 # a store gives the same suggestions
 if command -v redis-server > /dev/null 2>&1; then

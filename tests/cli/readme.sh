@@ -34,3 +34,40 @@ for line in lines:
 print("  README: %d examples, %d differ" % (n, fails))
 sys.exit(1 if fails or n == 0 else 0)
 PY
+[ $? -eq 0 ] || failures=$((failures + 1))
+
+# make demo, the README's first command after the set-up: clean paths,
+# columns aligned by display width (unicodedata's east_asian_width and
+# combining classes, Python's standard library), every kind of
+# suggestion shown, "1 posting".
+top=$(cd "$(dirname "$0")/../.." && pwd)
+(cd "$top" && DEMO_OUT="$tmp/demo" sh examples/demo.sh "$TITLEMILL") > "$tmp/demo.out" 2>&1
+check demo-status 0 $?
+/usr/bin/python3 - "$tmp/demo.out" <<'PY' > "$tmp/demo.check"
+import re, sys, unicodedata
+def width(s):
+    return sum(0 if unicodedata.combining(c) else 2 if unicodedata.east_asian_width(c) in "WF" else 1
+               for c in s)
+out = open(sys.argv[1], encoding="utf-8").read()
+bad = []
+if "/../" in out or "/./" in out:
+    bad.append("unclean path")
+arrows = set(width(l[:l.index(" -> ")]) for l in out.split("\n") if " -> " in l)
+if len(arrows) != 1:
+    bad.append("titles not aligned: %r" % sorted(arrows))
+if not any(ord(c) > 127 for l in out.split("\n") if " -> " in l for c in l):
+    bad.append("no title with non-ASCII letters to align")
+for k in ("new_alt_label", "new_hidden_label", "rare_label", "used_elsewhere"):
+    m = re.search(r"^  %s: (\d+)$" % k, out, re.M)
+    if not m or int(m.group(1)) == 0:
+        bad.append("no %s" % k)
+if re.search(r"\b1 postings\b", out):
+    bad.append("1 postings")
+# the suggestion lines: the label column starts at one display column
+cols = set(width(l[:l.index(' "')]) for l in out.split("\n") if re.match(r"    occ:\S+ +.* [a-z]{2}  \"", l))
+if len(cols) != 1:
+    bad.append("suggestions not aligned: %r" % sorted(cols))
+print("; ".join(bad) or "ok")
+PY
+check demo-output ok "$(cat "$tmp/demo.check")"
+finish
