@@ -138,11 +138,10 @@ bench: titlemill
 	sh tests/bench/cluster.sh $(CURDIR)/titlemill
 	sh tests/bench/rank.sh $(CURDIR)/titlemill
 
-# The Debian 12 packages of .ci/packages: through sudo unless already root.
-SUDO := $(if $(filter 0,$(shell id -u)),,sudo)
+# The Debian 12 packages of .ci/packages: through sudo unless already root
+# (.ci/deps, which a fresh machine runs before make is installed).
 deps:
-	$(SUDO) apt-get update -qq
-	$(SUDO) apt-get install -y $$(cat .ci/packages)
+	sh .ci/deps
 
 demo: titlemill
 	sh examples/demo.sh $(CURDIR)/titlemill

@@ -70,4 +70,33 @@ if len(cols) != 1:
 print("; ".join(bad) or "ok")
 PY
 check demo-output ok "$(cat "$tmp/demo.check")"
+# The README's first command works as root without sudo and as a user
+# with sudo, and says why not as a user without it: .ci/deps run with
+# stand-ins for id, sudo and apt-get (which log what they were asked),
+# and nothing else on its PATH.
+first=$(sed -n '/^```$/{n;p;q;}' "$top/README.md")
+case $first in
+"sh .ci/deps && make demo") check readme-first-command 0 0 ;;
+*) check readme-first-command "sh .ci/deps && make demo" "$first" ;;
+esac
+fake() { # fake DIR UID WITH_SUDO
+	rm -rf "$1"; mkdir -p "$1"
+	for t in sh grep tr env dirname cat; do ln -s "$(command -v $t)" "$1/$t"; done
+	printf '#!/bin/sh\necho %s\n' "$2" > "$1/id"
+	printf '#!/bin/sh\necho "${AS:-direct} apt-get $*" >> "%s/log"\n' "$1" > "$1/apt-get"
+	[ "$3" = yes ] && printf '#!/bin/sh\nAS=sudo exec "$@"\n' > "$1/sudo"
+	chmod +x "$1"/id "$1"/apt-get "$1"/sudo 2>/dev/null
+	: > "$1/log"
+}
+fake "$tmp/root" 0 no
+(cd "$top" && PATH="$tmp/root" sh .ci/deps) > /dev/null 2>&1; check deps-root-status 0 $?
+grep -c '^direct apt-get' "$tmp/root/log" > "$tmp/n"; check deps-root-direct 2 "$(cat "$tmp/n")"
+grep -q '^direct apt-get install -y -qq .*libserd-dev' "$tmp/root/log"; check deps-root-packages 0 $?
+fake "$tmp/user" 1000 yes
+(cd "$top" && PATH="$tmp/user" sh .ci/deps) > /dev/null 2>&1; check deps-user-status 0 $?
+grep -c '^sudo apt-get' "$tmp/user/log" > "$tmp/n"; check deps-user-sudo 2 "$(cat "$tmp/n")"
+fake "$tmp/nosudo" 1000 no
+(cd "$top" && PATH="$tmp/nosudo" sh .ci/deps) > /dev/null 2> "$tmp/err"; check deps-nosudo-status 1 $?
+check deps-nosudo-nothing-run 0 "$(wc -l < "$tmp/nosudo/log")"
+grep -q 'not root, and sudo is not installed: run it as root' "$tmp/err"; check deps-nosudo-msg 0 $?
 finish
