@@ -205,79 +205,89 @@ static int add_code(void *ctx, const tm_triple *t)
 	return labels_idmap_code(m, t->occ, t->ol) ? -1 : 0;
 }
 
-typedef struct survey_ctx {
-	rank_inputs *in;
-	inputs_survey *s;
-	const char *occ, *lang;
-	size_t ol;
-	const char *last;      /* the occupation of the last triple */
-	size_t lastl;
-	strtab keys;           /* lang 1F key seen (no occupation filter) */
-	tm_buf j;
-	int oom;
-} survey_ctx;
-
-static int survey_one(void *ctx, const tm_triple *t)
+/* The part of a joined key before its first 0x1F, and the rest. */
+static void split1f(const char *k, size_t n, size_t *head, const char **rest, size_t *rl)
 {
-	survey_ctx *c = ctx;
-	inputs_survey *s = c->s;
-	int occ_ok = !c->occ || (t->ol == c->ol && !memcmp(t->occ, c->occ, c->ol));
-	int lang_ok = !c->lang || (t->ll == strlen(c->lang) && !memcmp(t->lang, c->lang, t->ll));
-
-	if (!c->last || c->lastl != t->ol || memcmp(c->last, t->occ, t->ol)) {
-		s->occupations++;
-		if (labels_has_occ(&c->in->ls, t->occ, t->ol))
-			s->labelled++;
-		else if (s->nunmatched < INPUTS_IDS_SHOWN) {
-			s->unmatched[s->nunmatched] = t->occ;
-			s->unmatched_len[s->nunmatched++] = t->ol;
-		}
-		c->last = t->occ;
-		c->lastl = t->ol;
-	}
-	s->occ_seen |= occ_ok && t->postings;
-	s->lang_seen |= lang_ok && t->postings;
-	s->both_seen |= occ_ok && lang_ok && t->postings;
-	if (!occ_ok || !lang_ok)
-		return 0;
-	if (c->occ) {
-		/* one posting, one key per occupation */
-		s->distinct += t->postings;
-		return 0;
-	}
-	buf_reset(&c->j);
-	if (buf_append(&c->j, t->lang, t->ll) || buf_putc(&c->j, '\x1F') ||
-	    buf_append(&c->j, t->key, t->kl)) {
-		c->oom = 1;
-		return -1;
-	}
-	int r = st_add(&c->keys, c->j.data, c->j.len, 0, NULL);
-	if (r < 0) {
-		c->oom = 1;
-		return -1;
-	}
-	if (r == 1) {
-		char lang[16];
-		snprintf(lang, sizeof lang, "%.*s", (int)t->ll, t->lang);
-		s->distinct += tm_key_postings(&c->in->m, lang, t->key, t->kl);
-	}
-	return 0;
+	const char *u = memchr(k, '\x1F', n);
+	*head = u ? (size_t)(u - k) : n;
+	*rest = u ? u + 1 : k + n;
+	*rl = u ? n - *head - 1 : 0;
 }
 
+static int same(const char *a, size_t al, const char *b)
+{
+	return b && strlen(b) == al && !memcmp(a, b, al);
+}
+
+/* Keeps s->unmatched the INPUTS_IDS_SHOWN smallest codes in byte order. */
+static void keep_smallest(inputs_survey *s, const char *o, size_t ol)
+{
+	int i = s->nunmatched;
+	if (i == INPUTS_IDS_SHOWN) {
+		const char *l = s->unmatched[i - 1];
+		size_t ll = s->unmatched_len[i - 1];
+		int c = memcmp(o, l, ol < ll ? ol : ll);
+		if (c > 0 || (c == 0 && ol >= ll))
+			return;
+		i--;
+	} else
+		s->nunmatched++;
+	for (; i > 0; i--) {
+		const char *p = s->unmatched[i - 1];
+		size_t pl = s->unmatched_len[i - 1];
+		int c = memcmp(o, p, ol < pl ? ol : pl);
+		if (c > 0 || (c == 0 && ol > pl))
+			break;
+		s->unmatched[i] = p;
+		s->unmatched_len[i] = pl;
+	}
+	s->unmatched[i] = o;
+	s->unmatched_len[i] = ol;
+}
+
+/* One pass over the occupation rows and one over the key rows of the
+ * counts (no sorting: linear in the counts). */
 int inputs_survey_run(rank_inputs *in, const char *occ, const char *lang, inputs_survey *s)
 {
-	survey_ctx c;
+	const strtab *occs = &in->m.occs, *keys = &in->m.keys;
+	strtab seen = {0};
+	int rc = 0;
+
 	memset(s, 0, sizeof *s);
-	memset(&c, 0, sizeof c);
-	c.in = in;
-	c.s = s;
-	c.occ = occ;
-	c.ol = occ ? strlen(occ) : 0;
-	c.lang = lang;
-	int r = tm_each_triple(&in->m, survey_one, &c);
-	st_free(&c.keys);
-	buf_free(&c.j);
-	return r != 0 || c.oom ? -1 : 0;
+	for (size_t i = 0; i < occs->n; i++) {
+		size_t n, ol, ll;
+		const char *k = st_key(occs, i, &n), *lg;
+		uint64_t c = occs->ent[i].count;
+		split1f(k, n, &ol, &lg, &ll);
+		int r = st_add(&seen, k, ol, 0, NULL);
+		if (r < 0) {
+			rc = -1;
+			break;
+		}
+		if (r == 1) {
+			s->occupations++;
+			if (labels_has_occ(&in->ls, k, ol))
+				s->labelled++;
+			else
+				keep_smallest(s, k, ol);
+		}
+		int occ_ok = !occ || same(k, ol, occ), lang_ok = !lang || same(lg, ll, lang);
+		s->occ_seen |= occ_ok && c;
+		s->lang_seen |= lang_ok && c;
+		s->both_seen |= occ_ok && lang_ok && c;
+		if (occ && occ_ok && lang_ok)
+			s->distinct += c; /* a posting counts once per occupation */
+	}
+	/* without an occupation: each posting once, under its language and key */
+	for (size_t i = 0; !occ && rc == 0 && i < keys->n; i++) {
+		size_t n, ll, kl;
+		const char *k = st_key(keys, i, &n), *key;
+		split1f(k, n, &ll, &key, &kl);
+		if (!lang || same(k, ll, lang))
+			s->distinct += keys->ent[i].count;
+	}
+	st_free(&seen);
+	return rc;
 }
 
 void inputs_free(rank_inputs *in)
