@@ -102,6 +102,13 @@ $T propose --labels "$tmp/labels.tsv" --kind rare_label --top 3 "$tmp/c.tsv" 2>/
 check top-kind 3 "$(wc -l < "$tmp/f")"
 $T propose --labels "$tmp/labels.tsv" --tsv --occupation occ:03 "$tmp/c.tsv" 2>/dev/null > "$tmp/t"
 check tsv-rows 5 "$(wc -l < "$tmp/t")"
+$T propose --labels "$tmp/labels.tsv" --lang xx --occupation occ:03 "$tmp/c.tsv" > "$tmp/t" 2> "$tmp/err"
+check nothing-lang-rows 0 "$(wc -l < "$tmp/t")"
+grep -q '^titlemill propose: --lang xx: no postings in this language in the counts$' "$tmp/err"
+check nothing-lang-msg 0 $?
+$T propose --labels "$tmp/labels.tsv" --occupation occ:99 "$tmp/c.tsv" > /dev/null 2> "$tmp/err"
+grep -q '^titlemill propose: --occupation occ:99: no postings of this occupation in the counts$' "$tmp/err"
+check nothing-occ-msg 0 $?
 $T propose --labels "$tmp/labels.tsv" --kind bogus "$tmp/c.tsv" > /dev/null 2>&1; check bad-kind 2 $?
 $T propose --labels "$tmp/labels.tsv" --min-share 2 "$tmp/c.tsv" > /dev/null 2>&1; check bad-share 2 $?
 
