@@ -133,18 +133,21 @@ static size_t last_of(const char *s, size_t n, char c)
 
 const char *labels_local_name(const char *id, size_t n, size_t *len)
 {
-	size_t end = n, at = last_of(id, n, '#');
-	if (at == n) {
+	size_t end = n, start = 0, at = last_of(id, n, '#');
+	if (at < n)
+		start = at + 1;
+	else {
 		if (end > 1 && id[end - 1] == '/')
 			end--;
 		at = last_of(id, end, '/');
-		if (at == end) {
-			*len = n;
-			return id;
-		}
+		start = at < end ? at + 1 : 0;
 	}
-	*len = end - at - 1;
-	return id + at + 1;
+	if (end == start) { /* nothing after it: the whole id, never "" */
+		*len = n;
+		return id;
+	}
+	*len = end - start;
+	return id + start;
 }
 
 /* The code a concept is read under: the map's, else the code of the same

@@ -65,7 +65,8 @@ typedef struct labels_idmap {
 } labels_idmap;
 
 /* The local name of an id: after the last '#', else after the last '/'
- * (a trailing '/' ignored); the whole id when it has neither.  Returns
+ * (a trailing '/' ignored); the whole id when it has neither or nothing
+ * follows them (never an empty name, which would meet others).  Returns
  * its start in id and its length in *len. */
 const char *labels_local_name(const char *id, size_t n, size_t *len);
 
