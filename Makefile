@@ -33,7 +33,7 @@ BUILD ?= build
 # The sources, folder by folder in the order of the pipeline; a folder
 # includes only from the folders before it (DEVELOPERS.md says what each
 # holds).  Objects and unit tests go flat into $(BUILD): names are unique.
-SRC_core = buf digest lang period
+SRC_core = buf digest lang msg period
 SRC_io = decode reader tsv jsonw jsonr htmlw postings skos record outfile fieldcheck
 SRC_norm = unicode token lexicon lexicon_read lexicon_image lexcache setup title pass_gender pass_contact pass_pay pass_noise pass_place pass_roles \
 	norm facets
@@ -145,11 +145,10 @@ bench: titlemill $(BUILD)/count_stage
 	sh tests/bench/rank.sh $(CURDIR)/titlemill
 	sh tests/bench/report.sh $(CURDIR)/titlemill
 
-# The Debian 12 packages of .ci/packages: through sudo unless already root.
-SUDO := $(if $(filter 0,$(shell id -u)),,sudo)
+# The Debian 12 packages of .ci/packages: through sudo unless already root
+# (.ci/deps, which a fresh machine runs before make is installed).
 deps:
-	$(SUDO) apt-get update -qq
-	$(SUDO) apt-get install -y $$(cat .ci/packages)
+	sh .ci/deps
 
 demo: titlemill
 	sh examples/demo.sh $(CURDIR)/titlemill

@@ -2,51 +2,57 @@
 # make demo: the main job on the bundled example data, in memory, with no
 # server.  The scenario is our own: examples/taxonomy.tsv holds the labels
 # of 115 occupations in English, German and French (ordinary occupational
-# words; ids on the ISCO-08 pattern), and a day of some 55,000 postings
-# in those languages is generated deterministically by
-# tests/bench/gen_titles.py (seed 2026):
-# invented employers such as Valdoria Logistik or Brennfeld Foods, real
-# places.  examples/titles.txt is a short list of messy titles.
+# words; ids on the ISCO-08 pattern), and a day of some 80,000 postings in
+# those languages is generated deterministically by examples/gen_day.py
+# (the bench generator, seed 2026, with a few postings planted so that
+# every kind of suggestion shows): invented employers such as Valdoria
+# Logistik or Brennfeld Foods, real places.  examples/titles.txt is a
+# short list of messy titles.  The tables are laid out by
+# examples/show.py.
 set -eu
 T=${1:-./titlemill}
 here=$(cd "$(dirname "$0")" && pwd)
-out=${DEMO_OUT:-$here/../out}
+top=$(cd "$here/.." && pwd)
+out=${DEMO_OUT:-$top/out}
 mkdir -p "$out"
+out=$(cd "$out" && pwd)
+py=/usr/bin/python3
+show() { "$py" "$here/show.py" "$@"; }
+# a path as the reader would type it: relative to the current folder when
+# under it
+rel() {
+	case $1 in
+	"$PWD"/*) printf '%s' "${1#"$PWD"/}" ;;
+	*) printf '%s' "$1" ;;
+	esac
+}
+ex=$(rel "$here")
+o=$(rel "$out")
 
-echo "== cleaning titles: titlemill norm examples/titles.txt"
+echo "== cleaning titles: titlemill norm $ex/titles.txt"
 "$T" norm "$here/titles.txt" > "$out/titles.clean.txt"
 "$T" norm --json "$here/titles.txt" > "$out/titles.jsonl"
-paste -d '\t' "$here/titles.txt" "$out/titles.clean.txt" | head -12 |
-	awk -F '\t' '{ printf "  %-62s -> %s\n", substr($1, 1, 62), $2 }'
-echo "  ... all $(wc -l < "$here/titles.txt") in $out/titles.clean.txt (facets: $out/titles.jsonl)"
+show titles "$here/titles.txt" "$out/titles.clean.txt" 12
+echo "  ... all $(wc -l < "$here/titles.txt") in $o/titles.clean.txt (facets: $o/titles.jsonl)"
 
 echo
-echo "== a day of postings in English, German and French: generated (seed 2026)"
-/usr/bin/python3 "$here/../tests/bench/gen_titles.py" --postings --count 140000 --seed 2026 |
-	awk -F '\t' 'NR == 1 || $3 == "en" || $3 == "de" || $3 == "fr"' > "$out/day.tsv"
-"$T" tally --labels "$here/taxonomy.tsv" -o "$out/day.counts.tsv" "$out/day.tsv" 2>&1 | sed 's/^/  /'
+echo "== a day of postings in English, German and French: generated ($ex/gen_day.py)"
+"$py" "$here/gen_day.py" > "$out/day.tsv"
+"$T" tally --labels "$here/taxonomy.tsv" -o "$out/day.counts.tsv" "$out/day.tsv" 2>&1 |
+	sed "s|$out/|$o/|g; s/^/  /"
 
 echo
 echo "== coverage: how much of each occupation's postings its labels match"
 "$T" coverage --labels "$here/taxonomy.tsv" "$out/day.counts.tsv" > "$out/coverage.tsv" 2> "$out/labels.warnings"
-tail -1 "$out/coverage.tsv" | awk -F '\t' '{ printf "  all occupations: %s postings, %s matched by a label (%.1f %%, 95 %% interval %.1f-%.1f %%), %.1f %% by the preferred label alone\n", $3, $4, 100 * $5, 100 * $6, 100 * $7, 100 * $9 }'
-echo "  the five occupations and languages with the lowest coverage (100 postings or more):"
-awk -F '\t' 'NR > 1 && $1 != "*" && $3 >= 100' "$out/coverage.tsv" | sort -t "$(printf '\t')" -k5,5g -k1,1 | head -5 |
-	awk -F '\t' '{ printf "    %-9s %s  %5.1f %% of %4d  biggest unmatched: %s\n", $1, $2, 100 * $5, $3, substr($12, 1, 70) }'
-
+show coverage "$out/coverage.tsv"
 "$T" coverage --labels "$here/taxonomy.ttl" "$out/day.counts.tsv" > "$out/coverage.skos.tsv" 2>/dev/null
-echo "  the same taxonomy in SKOS (examples/taxonomy.ttl) gives the same coverage: $(cmp -s "$out/coverage.tsv" "$out/coverage.skos.tsv" && echo yes || echo NO)"
+echo "  the same taxonomy in SKOS ($ex/taxonomy.ttl) gives the same coverage: $(cmp -s "$out/coverage.tsv" "$out/coverage.skos.tsv" && echo yes || echo NO)"
 
 echo
 echo "== suggestions for the curators: titlemill propose"
 "$T" propose --labels "$here/taxonomy.tsv" "$out/day.counts.tsv" > "$out/suggestions.jsonl" 2>/dev/null
 "$T" propose --labels "$here/taxonomy.tsv" --tsv "$out/day.counts.tsv" > "$out/suggestions.tsv" 2>/dev/null
-for k in new_alt_label new_hidden_label rare_label used_elsewhere; do
-	n=$(awk -F '\t' -v K=$k '$2 == K' "$out/suggestions.tsv" | wc -l)
-	echo "  $k: $n"
-	awk -F '\t' -v K=$k '$2 == K' "$out/suggestions.tsv" | head -3 |
-		awk -F '\t' '{ printf "    %-9s %s  \"%s\"  %s postings of %s, precision %.2f%s\n", $3, $4, $5, $7, $8, $13, ($16 != "" ? ", a variant of \"" $16 "\"" : "") }'
-done
+show suggestions "$out/suggestions.tsv"
 echo
 echo "  These are suggestions for a curator, who decides; each comes with its evidence."
 echo
@@ -60,9 +66,9 @@ set -- $ids
 "$T" review reject --queue "$q" --reviewer demo --note "already covered" "$3" 2>&1 | sed 's/^/  /'
 "$T" review export --queue "$q" -o "$out/delta.tsv"
 "$T" review export --queue "$q" --format turtle -o "$out/delta.ttl"
-echo "  the label delta for the taxonomy ($out/delta.tsv, and .ttl in SKOS):"
-cut -f1-6 "$out/delta.tsv" | sed 's/^/    /'
-"$T" review stats --queue "$q" | awk -F '\t' '$1 == "all" { printf "  queue: %s suggestions, %s open, %s accepted, %s rejected\n", $3, $4, $5, $6 }' 
-echo "  Full outputs: $out/coverage.tsv, $out/suggestions.jsonl (and .tsv), $out/day.counts.tsv, $out/queue.jsonl"
-[ -s "$out/labels.warnings" ] && echo "  Label warnings: $out/labels.warnings ($(wc -l < "$out/labels.warnings") lines)"
+echo "  the label delta for the taxonomy ($o/delta.tsv, and .ttl in SKOS):"
+show table "$out/delta.tsv" occupation kind lang label change id
+"$T" review stats --queue "$q" | awk -F '\t' '$1 == "all" { printf "  queue: %s suggestions, %s open, %s accepted, %s rejected\n", $3, $4, $5, $6 }'
+echo "  Full outputs: $o/coverage.tsv, $o/suggestions.jsonl (and .tsv), $o/day.counts.tsv, $o/queue.jsonl"
+[ -s "$out/labels.warnings" ] && echo "  Label warnings: $o/labels.warnings ($(wc -l < "$out/labels.warnings") lines)"
 exit 0

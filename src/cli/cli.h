@@ -8,6 +8,7 @@
 #include "cli/options.h"
 #include "io/postings.h"
 #include "count/tally.h"
+#include "io/record.h"
 
 enum { EXIT_OK = 0, EXIT_RUNTIME = 1, EXIT_USAGE = 2 };
 
@@ -19,16 +20,44 @@ int cli_write_stdout(const char *cmd, const tm_buf *out);
 typedef struct rank_opts {
 	const char *store, *prefix;
 	setup_opts setup;   /* the lexicons, and the labels (setup.labels) */
+	const char *occ;    /* --occupation, or NULL */
+	char lang[4];       /* --lang, or "" */
+	int ids;            /* --ids: 1 exact, 2 local */
+	const char *id_map; /* --id-map FILE, or NULL */
+	int strict;         /* --strict: ids that do not match stop the run */
 } rank_opts;
+
+/* --ids, --id-map and --strict, in the table of a command whose options
+ * struct holds its rank_opts as m. */
+extern const char *const rank_ids_names[];
+#define RANK_SPEC_IDS(type, m) \
+	{"ids", OPT_CHOICE, offsetof(type, m.ids), "HOW", "exact", 0, 0, \
+	 "how the labels' occupation ids meet the postings' codes: exact, or local " \
+	 "(the last path segment or fragment of both: http://x/occ/0001 is 0001)", \
+	 rank_ids_names, 0}, \
+	{"id-map", OPT_STR, offsetof(type, m.id_map), "FILE", NULL, 0, 0, \
+	 "a TSV with columns code and concept: read each concept's labels under " \
+	 "the postings' code", NULL, 0}, \
+	{"strict", OPT_FLAG, offsetof(type, m.strict), NULL, NULL, 0, 0, \
+	 "stop (status 1) when fewer than half of the postings' occupations have " \
+	 "labels", NULL, 0}
 
 /* The start of a ranking command: parses argv by cmd into o (whose
  * rank_opts is ro), checks that --labels and counts (files or --store)
- * are given, and loads them into in.  Returns 1 to run; 0 to stop with
- * *status the exit status (after --help, a misuse, or a failed load,
- * each said on its stream).  in is for inputs_free whenever loading
- * began (*status EXIT_RUNTIME or 1 returned). */
+ * are given, loads them into in and surveys them into sv (inputs.h):
+ * it warns when the labels' ids do not meet the postings' codes (and
+ * stops under --strict) and when --occupation or --lang match nothing.
+ * Returns 1 to run; 0 to stop with *status the exit status (after
+ * --help, a misuse, or a failed load, each said on its stream).  in is
+ * for inputs_free whenever loading began (*status EXIT_RUNTIME or 1
+ * returned). */
 int cli_rank_start(const opt_cmd *cmd, void *o, const rank_opts *ro, int argc, char **argv,
-		   rank_inputs *in, int *status);
+		   rank_inputs *in, inputs_survey *sv, int *status);
+
+/* occupation_label: the preferred label of occ in lang, else its first
+ * (labels_pref), as the next value of r; null when it has none. */
+void cli_occupation_label(rec *r, const labelset *ls, const char *occ, size_t ol,
+			  const char *lang);
 
 int cmd_norm(int argc, char **argv);
 int cmd_tally(int argc, char **argv);

@@ -6,6 +6,7 @@
 #include <string.h>
 
 #include "cli/cli.h"
+#include "core/msg.h"
 #include "io/decode.h"
 #include "norm/facets.h"
 #include "core/lang.h"
@@ -248,8 +249,9 @@ int cmd_norm(int argc, char **argv)
 	if (o.stats) {
 		size_t hits, calls;
 		norm_memo_stats(nm, &hits, &calls);
-		fprintf(stderr, "titlemill norm: %zu titles, %zu answered from memory (%.1f %%)\n",
-			calls, hits, calls ? 100.0 * (double)hits / (double)calls : 0.0);
+		fprintf(stderr, "titlemill norm: %zu title%s, %zu answered from memory (%.1f %%)\n",
+			calls, msg_plural(calls), hits,
+			calls ? 100.0 * (double)hits / (double)calls : 0.0);
 	}
 	norm_free(nm);
 	lex_free(lx);

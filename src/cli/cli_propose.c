@@ -12,8 +12,6 @@
 
 typedef struct propose_opts {
 	rank_opts in;
-	const char *occ;
-	char lang[4];
 	int tsv, kind;     /* kind: 1 + the kind's index, 0 for all */
 	uint64_t top;      /* UINT64_MAX: all */
 	propose_bars bar;
@@ -31,9 +29,10 @@ static const opt_spec propose_specs[] = {
 	 "at most N suggestions of each kind", NULL, 0},
 	{"kind", OPT_CHOICE, offsetof(propose_opts, kind), "K", NULL, 0, 0, "only this kind",
 	 propose_kind_names, 0},
-	{"occupation", OPT_STR, offsetof(propose_opts, occ), "ID", NULL, 0, 0,
+	{"occupation", OPT_STR, offsetof(propose_opts, in.occ), "ID", NULL, 0, 0,
 	 "only this occupation", NULL, 0},
-	OPT_SPEC_LANG(propose_opts, lang, "only this language"),
+	OPT_SPEC_LANG(propose_opts, in.lang, "only this language"),
+	RANK_SPEC_IDS(propose_opts, in),
 	PROPOSE_BARS(BAR_SPEC)
 	OPT_SPEC_STORE(propose_opts, in.store, OPT_STORE_READ),
 	OPT_SPEC_PREFIX(propose_opts, in.prefix),
@@ -45,11 +44,15 @@ static const opt_cmd propose_cmd = {
 	"propose",
 	"usage: titlemill propose --labels FILE [--tsv] [--top N] [--kind K]\n"
 	"                         [--occupation ID] [--lang L] [thresholds]\n"
-	"                         (COUNTS|POSTINGS...|--store URL [--prefix P])\n"
+	"                         [--ids local] [--id-map FILE] [--strict]\n"
+	"                         (COUNTS|POSTINGS...|-|--store URL [--prefix P])\n"
 	"\n"
 	"Scored suggestions for the taxonomy's curators, as JSON Lines (or TSV):\n"
 	"new_alt_label, new_hidden_label, rare_label, used_elsewhere, each with\n"
-	"its evidence.  They inform a curator, who decides.\n"
+	"its evidence and the occupation's name (occupation_label).  They inform a\n"
+	"curator, who decides.  In TSV the examples are the columns example_1 to\n"
+	"example_3.  '-' reads standard input, a counts table or postings as its\n"
+	"header says.\n"
 	"\n",
 	propose_specs,
 	NULL,
@@ -57,15 +60,20 @@ static const opt_cmd propose_cmd = {
 
 /* A suggestion: the fields of both formats. */
 static const rec_field sugg_fields[] = {
-	{"id", REC_BOTH}, {"kind", REC_BOTH}, {"occupation", REC_BOTH}, {"lang", REC_BOTH},
+	{"id", REC_BOTH}, {"kind", REC_BOTH}, {"occupation", REC_BOTH},
+	{"occupation_label", REC_BOTH}, {"lang", REC_BOTH},
 	{"label", REC_BOTH}, {"key", REC_JSON}, {"label_as_written", REC_JSON},
 	{"label_kind", REC_JSON}, {"score", REC_BOTH}, {"postings", REC_BOTH},
 	{"occupation_postings", REC_BOTH}, {"key_postings", REC_BOTH},
 	{"lang_postings", REC_JSON}, {"share", REC_BOTH}, {"share_low", REC_BOTH},
 	{"share_high", REC_BOTH}, {"precision", REC_BOTH}, {"g2", REC_BOTH},
-	{"competitor", REC_BOTH}, {"variant_of", REC_BOTH}, {"variant", REC_JSON},
-	{"examples", REC_BOTH}, {NULL, 0},
+	{"competitor", REC_BOTH}, {"competitor_postings", REC_TSV}, {"variant_of", REC_BOTH}, {"variant", REC_JSON},
+	/* JSON: an array; TSV: one column each (raw titles hold any separator) */
+	{"examples", REC_JSON}, {"example_1", REC_TSV}, {"example_2", REC_TSV},
+	{"example_3", REC_TSV}, {NULL, 0},
 };
+
+_Static_assert(TALLY_EXAMPLES == 3, "propose --tsv has one column per example");
 
 static void write_sugg(rec *r, const propose_sugg *s, tally_mem *m, const labelset *ls,
 		       tm_buf *scratch)
@@ -80,6 +88,7 @@ static void write_sugg(rec *r, const propose_sugg *s, tally_mem *m, const labels
 	rec_cstr(r, s->id);
 	rec_cstr(r, propose_kind_names[s->kind]);
 	rec_str(r, s->occ, s->ol);
+	cli_occupation_label(r, ls, s->occ, s->ol, s->lang);
 	rec_cstr(r, s->lang);
 	rec_str(r, s->text, s->tl);
 	rec_str(r, s->key, s->kl);
@@ -106,17 +115,22 @@ static void write_sugg(rec *r, const propose_sugg *s, tally_mem *m, const labels
 	rec_num(r, hi);
 	rec_num(r, s->precision);
 	rec_num(r, s->g2);
-	if (!s->rival)
+	/* JSON: an object; TSV: the occupation and its postings in two columns */
+	if (!s->rival) {
 		rec_null(r);
-	else if (rec_is_json(r)) {
+		rec_null(r);
+	} else if (rec_is_json(r)) {
 		rec_obj_begin(r);
 		rec_member_str(r, "occupation", s->rival, s->rl);
 		rec_member_u64(r, "postings", s->rival_postings);
 		rec_member_num(r, "share", s->key_postings ? (double)s->rival_postings /
 							     (double)s->key_postings : 0);
 		rec_obj_end(r);
-	} else
-		rec_cell_counted(r, s->rival, s->rl, s->rival_postings);
+		rec_omit(r);
+	} else {
+		rec_str(r, s->rival, s->rl);
+		rec_u64(r, s->rival_postings);
+	}
 	if (s->variant && s->lb) {
 		rec_str(r, lab_str(ls, s->lb->text), s->lb->textlen);
 		rec_cstr(r, s->variant);
@@ -124,10 +138,15 @@ static void write_sugg(rec *r, const propose_sugg *s, tally_mem *m, const labels
 		rec_omit(r);
 		rec_omit(r);
 	}
-	rec_list_begin(r, " | ");
+	rec_list_begin(r, "");
 	for (int i = 0; i < nex; i++)
 		rec_str(r, ex[i], exl[i]);
 	rec_list_end(r);
+	for (int i = 0; i < TALLY_EXAMPLES; i++)
+		if (i < nex)
+			rec_str(r, ex[i], exl[i]);
+		else
+			rec_null(r);
 	rec_end(r);
 }
 
@@ -135,17 +154,18 @@ int cmd_propose(int argc, char **argv)
 {
 	propose_opts o;
 	rank_inputs in;
+	inputs_survey sv;
 	propose_list l = {0};
 	tm_buf out = {0}, scratch = {0};
 	rec r;
 	int rc;
 
 	memset(&o, 0, sizeof o);
-	if (!cli_rank_start(&propose_cmd, &o, &o.in, argc, argv, &in, &rc)) {
+	if (!cli_rank_start(&propose_cmd, &o, &o.in, argc, argv, &in, &sv, &rc)) {
 		inputs_free(&in);
 		return rc;
 	}
-	propose_filter f = {o.occ, o.lang[0] ? o.lang : NULL};
+	propose_filter f = {o.in.occ, o.in.lang[0] ? o.in.lang : NULL};
 	rec_init(&r, &out, o.tsv ? REC_TSV : REC_JSON, sugg_fields);
 	if (propose_run(&in.m, &in.ls, &o.bar, &f, &l) == 0) {
 		uint64_t per[PROPOSE_NKINDS] = {0};

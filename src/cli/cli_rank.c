@@ -7,6 +7,7 @@
 #include <string.h>
 
 #include "cli/cli.h"
+#include "core/msg.h"
 #include "rank/coverage.h"
 #include "rank/inputs.h"
 #include "cli/options.h"
@@ -14,19 +15,20 @@
 
 typedef struct coverage_opts {
 	rank_opts in;
-	const char *occ;
-	char lang[4];
 	int json;
 } coverage_opts;
+
+const char *const rank_ids_names[] = {"exact", "local", NULL};
 
 static const opt_spec coverage_specs[] = {
 	OPT_SPEC_LABELS(coverage_opts, in.setup.labels,
 			"the taxonomy's labels: TSV (occupation, kind, lang, label) or SKOS"),
 	{"json", OPT_FLAG, offsetof(coverage_opts, json), NULL, NULL, 0, 0,
 	 "JSON Lines instead of TSV", NULL, 0},
-	{"occupation", OPT_STR, offsetof(coverage_opts, occ), "ID", NULL, 0, 0,
+	{"occupation", OPT_STR, offsetof(coverage_opts, in.occ), "ID", NULL, 0, 0,
 	 "only this occupation", NULL, 0},
-	OPT_SPEC_LANG(coverage_opts, lang, "only this language"),
+	OPT_SPEC_LANG(coverage_opts, in.lang, "only this language"),
+	RANK_SPEC_IDS(coverage_opts, in),
 	OPT_SPEC_STORE(coverage_opts, in.store, OPT_STORE_READ),
 	OPT_SPEC_PREFIX(coverage_opts, in.prefix),
 	OPT_SPEC_LEXICONS(coverage_opts, in.setup),
@@ -36,14 +38,18 @@ static const opt_spec coverage_specs[] = {
 static const opt_cmd coverage_cmd = {
 	"coverage",
 	"usage: titlemill coverage --labels FILE [--json] [--occupation ID] [--lang L]\n"
-	"                          (COUNTS|POSTINGS...|--store URL [--prefix P])\n"
+	"                          [--ids local] [--id-map FILE] [--strict]\n"
+	"                          (COUNTS|POSTINGS...|-|--store URL [--prefix P])\n"
 	"\n"
-	"Per occupation and language: postings, postings whose key matches one of\n"
-	"its labels (a share with its Wilson 95 % interval), the share matched by\n"
-	"the preferred label alone, labels never seen, and the top unmatched titles.\n"
-	"A last line sums all occupations.  Inputs are counts tables (from tally or\n"
-	"counts) or postings files (counted in memory first, with the labels\n"
-	"protected), or what a store holds.\n"
+	"Per occupation and language: its name (occupation_label), postings,\n"
+	"postings whose key matches one of its labels (a share with its Wilson\n"
+	"95 % interval), the share matched by the preferred label alone, labels\n"
+	"never seen, and the top unmatched titles.  A last line '*' sums all\n"
+	"occupations: its postings count posting-occupation pairs (a posting coded\n"
+	"to two occupations counts twice), its distinct_postings each posting once.\n"
+	"Inputs are counts tables (from tally or counts) or postings files (counted\n"
+	"in memory first, with the labels protected), or what a store holds; '-'\n"
+	"reads standard input, a counts table or postings as its header says.\n"
 	"\n",
 	coverage_specs,
 	NULL,
@@ -51,20 +57,46 @@ static const opt_cmd coverage_cmd = {
 
 /* A coverage row: the fields of both formats. */
 static const rec_field coverage_fields[] = {
-	{"occupation", REC_BOTH}, {"lang", REC_BOTH}, {"postings", REC_BOTH},
-	{"matched", REC_BOTH}, {"coverage", REC_BOTH}, {"coverage_low", REC_BOTH},
+	{"occupation", REC_BOTH}, {"occupation_label", REC_BOTH}, {"lang", REC_BOTH},
+	{"postings", REC_BOTH}, {"distinct_postings", REC_BOTH}, {"matched", REC_BOTH}, {"coverage", REC_BOTH}, {"coverage_low", REC_BOTH},
 	{"coverage_high", REC_BOTH}, {"pref_matched", REC_BOTH}, {"pref_coverage", REC_BOTH},
 	{"labels", REC_BOTH}, {"labels_unseen", REC_BOTH}, {"top_unmatched", REC_BOTH},
 	{NULL, 0},
 };
 
+typedef struct coverage_out {
+	rec r;
+	const labelset *ls;
+	uint64_t distinct;  /* of the '*' row */
+	uint64_t rows;      /* occupation rows written */
+} coverage_out;
+
+/* The name of an occupation for curators (labels_pref), or null. */
+void cli_occupation_label(rec *r, const labelset *ls, const char *occ, size_t ol,
+			  const char *lang)
+{
+	const label *lb = labels_pref(ls, occ, ol, lang);
+	if (lb)
+		rec_str(r, lab_str(ls, lb->text), lb->textlen);
+	else
+		rec_null(r);
+}
+
 static int write_row(void *ctx, const coverage_row *row)
 {
-	rec *r = ctx;
+	coverage_out *co = ctx;
+	rec *r = &co->r;
+	int total = row->ol == 1 && row->occ[0] == '*' && !strcmp(row->lang, "*");
 	rec_begin(r);
 	rec_str(r, row->occ, row->ol);
+	if (total)
+		rec_null(r);
+	else
+		cli_occupation_label(r, co->ls, row->occ, row->ol, row->lang);
 	rec_cstr(r, row->lang);
 	rec_u64(r, row->postings);
+	rec_u64(r, total ? co->distinct : row->postings);
+	co->rows += !total;
 	rec_u64(r, row->matched);
 	rec_num(r, row->share);
 	rec_num(r, row->low);
@@ -100,8 +132,48 @@ int cli_write_stdout(const char *cmd, const tm_buf *out)
 	return 0;
 }
 
+/* Warns when the labels' ids do not meet the postings' codes, and when
+ * a filter matches nothing.  Returns 0, or -1 to stop (--strict). */
+static int survey_say(const rank_opts *ro, const rank_inputs *in,
+		      const inputs_survey *sv)
+{
+	const char *lang = ro->lang[0] ? ro->lang : NULL;
+	if (inputs_ids_doubtful(sv)) {
+		fprintf(stderr, "%s: only %llu of the %llu occupation%s of the postings ha%s labels "
+			"in %s (none for", msg_prefix(), (unsigned long long)sv->labelled,
+			(unsigned long long)sv->occupations, msg_plural(sv->occupations),
+			sv->labelled == 1 ? "s" : "ve", ro->setup.labels);
+		for (int i = 0; i < sv->nunmatched; i++)
+			fprintf(stderr, "%s %.*s", i ? "," : "", (int)sv->unmatched_len[i],
+				sv->unmatched[i]);
+		if ((uint64_t)sv->nunmatched < sv->occupations - sv->labelled)
+			fputs(", ...", stderr);
+		fputs(")", stderr);
+		if (in->ls.n)
+			fprintf(stderr, "; the labels name occupations such as %s",
+				lab_str(&in->ls, in->ls.v[0].occ));
+		fprintf(stderr, ".  Do the ids match the codes?  --ids local matches on the "
+			"last path segment or fragment of both, --id-map FILE maps codes to "
+			"concepts%s\n", ro->strict ? " (--strict: stopped)" : "");
+		if (ro->strict)
+			return -1;
+	}
+	if (ro->occ && !sv->occ_seen)
+		fprintf(stderr, "%s: --occupation %s: no postings of this occupation in the "
+			"counts%s\n", msg_prefix(), ro->occ,
+			labels_has_occ(&in->ls, ro->occ, strlen(ro->occ)) ? " (the labels know it)"
+									   : "");
+	if (lang && !sv->lang_seen)
+		fprintf(stderr, "%s: --lang %s: no postings in this language in the counts\n",
+			msg_prefix(), lang);
+	if (ro->occ && lang && sv->occ_seen && sv->lang_seen && !sv->both_seen)
+		fprintf(stderr, "%s: --occupation %s --lang %s: no postings of this occupation "
+			"in this language\n", msg_prefix(), ro->occ, lang);
+	return 0;
+}
+
 int cli_rank_start(const opt_cmd *cmd, void *o, const rank_opts *ro, int argc, char **argv,
-		   rank_inputs *in, int *status)
+		   rank_inputs *in, inputs_survey *sv, int *status)
 {
 	int first;
 	tm_buf err = {0};
@@ -121,14 +193,24 @@ int cli_rank_start(const opt_cmd *cmd, void *o, const rank_opts *ro, int argc, c
 			cmd->name);
 		return 0;
 	}
+	int dashes = 0;
+	for (int i = first; i < argc; i++)
+		dashes += !strcmp(argv[i], "-");
+	if (dashes > 1) {
+		fprintf(stderr, "titlemill %s: '-' (standard input) can be read once\n", cmd->name);
+		return 0;
+	}
 	rank_sources src = {&ro->setup, ro->store, ro->prefix, argv + first, argc - first,
-			    (size_t)OPT_MEMO_MIB << 20};
+			    (size_t)OPT_MEMO_MIB << 20, ro->ids == 2, ro->id_map};
 	if (inputs_load(in, &src, stderr, &err) != 0) {
 		fprintf(stderr, "titlemill %s: %.*s\n", cmd->name, (int)err.len,
 			err.data ? err.data : "");
 		*status = EXIT_RUNTIME;
+	} else if (inputs_survey_run(in, ro->occ, ro->lang[0] ? ro->lang : NULL, sv) != 0) {
+		fprintf(stderr, "titlemill %s: out of memory\n", cmd->name);
+		*status = EXIT_RUNTIME;
 	} else
-		*status = EXIT_OK;
+		*status = survey_say(ro, in, sv) ? EXIT_RUNTIME : EXIT_OK;
 	buf_free(&err);
 	return *status == EXIT_OK;
 }
@@ -137,22 +219,26 @@ int cmd_coverage(int argc, char **argv)
 {
 	coverage_opts o;
 	rank_inputs in;
+	inputs_survey sv;
 	coverage_filter f = {NULL, NULL};
 	tm_buf out = {0};
-	rec r;
+	coverage_out co;
 	int rc;
 
 	memset(&o, 0, sizeof o);
-	if (!cli_rank_start(&coverage_cmd, &o, &o.in, argc, argv, &in, &rc)) {
+	if (!cli_rank_start(&coverage_cmd, &o, &o.in, argc, argv, &in, &sv, &rc)) {
 		inputs_free(&in);
 		return rc;
 	}
-	f.occ = o.occ;
-	f.lang = o.lang[0] ? o.lang : NULL;
-	rec_init(&r, &out, o.json ? REC_JSON : REC_TSV, coverage_fields);
-	rec_header(&r);
-	rc = coverage_run(&in.m, &in.ls, &f, write_row, &r);
-	if (rc != 0 || r.failed) {
+	f.occ = o.in.occ;
+	f.lang = o.in.lang[0] ? o.in.lang : NULL;
+	memset(&co, 0, sizeof co);
+	co.ls = &in.ls;
+	co.distinct = sv.distinct;
+	rec_init(&co.r, &out, o.json ? REC_JSON : REC_TSV, coverage_fields);
+	rec_header(&co.r);
+	rc = coverage_run(&in.m, &in.ls, &f, write_row, &co);
+	if (rc != 0 || co.r.failed) {
 		fputs("titlemill coverage: out of memory\n", stderr);
 		rc = EXIT_RUNTIME;
 	} else

@@ -412,6 +412,9 @@ int cmd_counts(int argc, char **argv)
 				"(killed, or still running), so the counts are not all in: the next tally "
 				"with this store and prefix finishes them\n",
 				(unsigned long long)st->unfinished);
+		else if (!m.occs.n)
+			fprintf(stderr, "titlemill counts: the store holds no counts under the "
+				"prefix %s\n", o.prefix ? o.prefix : STORE_PREFIX_DEFAULT);
 		store_close(st);
 	} else if (first >= argc && tm_read(&m, "-", &err) != 0)
 		rc = EXIT_RUNTIME;

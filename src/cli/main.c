@@ -4,6 +4,7 @@
 #include <string.h>
 
 #include "cli/cli.h"
+#include "core/msg.h"
 
 #ifndef TM_VERSION
 #define TM_VERSION "0.1.0"
@@ -75,6 +76,9 @@ int main(int argc, char **argv)
 		printf("titlemill %s\n", TM_VERSION);
 		return EXIT_OK;
 	}
+	/* every diagnostic from here on reads "titlemill COMMAND: " (an
+	 * unknown command is said below with the bare prefix) */
+	msg_command(argv[1]);
 	if (!strcmp(argv[1], "norm"))
 		return cmd_norm(argc - 1, argv + 1);
 	if (!strcmp(argv[1], "tally"))

@@ -6,6 +6,7 @@
 
 #include "core/buf.h"
 #include "core/lang.h"
+#include "core/msg.h"
 #include "cli/options.h"
 #include "norm/setup.h"
 #include "count/store.h"
@@ -163,6 +164,7 @@ int opt_parse(const opt_cmd *cmd, void *o, int argc, char **argv, int *first)
 	size_t nl = 1;
 	int n = 0, ch, idx = 0;
 
+	msg_command(cmd->name);
 	for (const opt_spec *s = cmd->specs; s->name; s++, n++) {
 		if (n == MAX_SPECS)
 			return OPT_MISUSE; /* a table larger than the parser: a build error in practice */

@@ -6,6 +6,7 @@
 
 #include "io/decode.h"
 #include "core/lang.h"
+#include "core/msg.h"
 #include "io/skos.h"
 #include "io/tsv.h"
 
@@ -90,10 +91,10 @@ static int check_repeats(labelset *ls, const label *lb, const char *tag, const c
 		const label *f = &ls->v[ls->lits.ent[idx].count - 1];
 		ls->repeats++;
 		if (warn && f->kind == lb->kind)
-			fprintf(warn, "titlemill: %s: label '%s'@%s of %s repeats %s %ld\n", where, x,
+			msg_warnf(warn, "%s: label '%s'@%s of %s repeats %s %ld\n", where, x,
 				tag, o, unit, f->line);
 		else if (warn)
-			fprintf(warn, "titlemill: %s: label '%s'@%s of %s is %s here and %s on %s %ld "
+			msg_warnf(warn, "%s: label '%s'@%s of %s is %s here and %s on %s %ld "
 				"(SKOS: one kind per label)\n", where, x, tag, o, kind_name(lb->kind),
 				kind_name(f->kind), unit, f->line);
 		return 0;
@@ -108,7 +109,7 @@ static int check_repeats(labelset *ls, const label *lb, const char *tag, const c
 		const label *f = &ls->v[ls->preftag.ent[idx].count - 1];
 		ls->repeats++;
 		if (warn)
-			fprintf(warn, "titlemill: %s: a second preferred label '%s'@%s for %s (the first: "
+			msg_warnf(warn, "%s: a second preferred label '%s'@%s for %s (the first: "
 				"'%s', %s %ld; SKOS: one per language)\n", where, x, tag, o,
 				lab_str(ls, f->text), unit, f->line);
 		return 0;
@@ -121,11 +122,162 @@ static int check_repeats(labelset *ls, const label *lb, const char *tag, const c
 	return 0;
 }
 
+/* The index of the last c in s[0..n), or n when there is none. */
+static size_t last_of(const char *s, size_t n, char c)
+{
+	for (size_t i = n; i > 0; i--)
+		if (s[i - 1] == c)
+			return i - 1;
+	return n;
+}
+
+const char *labels_local_name(const char *id, size_t n, size_t *len)
+{
+	size_t end = n, start = 0, at = last_of(id, n, '#');
+	if (at < n)
+		start = at + 1;
+	else {
+		if (end > 1 && id[end - 1] == '/')
+			end--;
+		at = last_of(id, end, '/');
+		start = at < end ? at + 1 : 0;
+	}
+	if (end == start) { /* nothing after it: the whole id, never "" */
+		*len = n;
+		return id;
+	}
+	*len = end - start;
+	return id + start;
+}
+
+/* The code a concept is read under: the map's, else the code of the same
+ * local name (m->local), else the concept itself. */
+static const char *map_occ(const labels_idmap *m, const char *o, size_t on, size_t *len)
+{
+	long i;
+	*len = on;
+	if (!m)
+		return o;
+	if ((i = st_find(&m->concepts, o, on)) >= 0)
+		return st_key(&m->codes, m->concepts.ent[i].count - 1, len);
+	if (m->local) {
+		size_t ln;
+		const char *l = labels_local_name(o, on, &ln);
+		if ((i = st_find(&m->locals, l, ln)) >= 0)
+			return st_key(&m->codes, m->locals.ent[i].count - 1, len);
+	}
+	return o;
+}
+
+int labels_idmap_code(labels_idmap *m, const char *code, size_t n)
+{
+	size_t ci, li, ln;
+	const char *l;
+	int r;
+	if (st_add(&m->codes, code, n, 0, &ci) < 0)
+		return -1;
+	/* the arena may have moved: the local name from the caller's copy */
+	l = labels_local_name(code, n, &ln);
+	if ((r = st_add(&m->locals, l, ln, 0, &li)) < 0)
+		return -1;
+	if (r == 1)
+		m->locals.ent[li].count = ci + 1;
+	else if (m->locals.ent[li].count != ci + 1 && !m->shared++) {
+		m->shared_a = (uint32_t)(m->locals.ent[li].count - 1);
+		m->shared_b = (uint32_t)ci;
+	}
+	return 0;
+}
+
+int labels_idmap_read(labels_idmap *m, const char *path, tm_buf *err)
+{
+	tsv_reader t;
+	int cc, cn, r;
+
+	if (tsv_open(&t, path) != 0) {
+		buf_reset(err);
+		buf_append(err, t.err.data, t.err.len);
+		tsv_close(&t);
+		return -1;
+	}
+	cc = tsv_col(&t, "code");
+	cn = tsv_col(&t, "concept");
+	if (cc < 0 || cn < 0) {
+		r = fail(err, t.lr.name, 1, "an id map has the columns code and concept");
+		tsv_close(&t);
+		return r;
+	}
+	while ((r = tsv_next(&t)) > 0) {
+		size_t cl, nl, ci, ni;
+		const char *c = tsv_field(&t, cc, &cl), *x = tsv_field(&t, cn, &nl);
+		long line = t.lr.lineno;
+		char m2[600];
+		int rc;
+		if (t.over) {
+			r = fail(err, t.lr.name, line, "row has more fields than the header");
+			break;
+		}
+		if (!cl || !nl || memchr(c, '\x1F', cl) || memchr(x, '\x1F', nl) ||
+		    !dec_is_utf8(c, cl) || !dec_is_utf8(x, nl) || memchr(c, 0, cl) || memchr(x, 0, nl)) {
+			r = fail(err, t.lr.name, line, "a row names a code and its concept (UTF-8, "
+				 "no control characters)");
+			break;
+		}
+		if ((rc = st_add(&m->codes, c, cl, 0, &ci)) < 0)
+			goto oom;
+		if (rc == 0 && m->codes.ent[ci].count) {
+			snprintf(m2, sizeof m2, "code '%.*s' is mapped on line %llu already",
+				 (int)(cl > 200 ? 200 : cl), c,
+				 (unsigned long long)m->codes.ent[ci].count);
+			r = fail(err, t.lr.name, line, m2);
+			break;
+		}
+		m->codes.ent[ci].count = (uint64_t)line;
+		if ((rc = st_add(&m->concepts, x, nl, 0, &ni)) < 0)
+			goto oom;
+		if (rc == 0) {
+			size_t ol;
+			const char *other = st_key(&m->codes, m->concepts.ent[ni].count - 1, &ol);
+			snprintf(m2, sizeof m2, "concept '%.*s' is the concept of code '%.*s' already "
+				 "(one code per concept: the labels are read under it)",
+				 (int)(nl > 200 ? 200 : nl), x, (int)(ol > 200 ? 200 : ol), other);
+			r = fail(err, t.lr.name, line, m2);
+			break;
+		}
+		m->concepts.ent[ni].count = ci + 1;
+	}
+	if (r < 0 && !err->len) {
+		buf_reset(err);
+		buf_append(err, t.err.data, t.err.len);
+	}
+	tsv_close(&t);
+	return r < 0 ? -1 : 0;
+oom:
+	tsv_close(&t);
+	buf_reset(err);
+	buf_puts(err, "out of memory");
+	return -1;
+}
+
+void labels_idmap_free(labels_idmap *m)
+{
+	st_free(&m->codes);
+	st_free(&m->concepts);
+	st_free(&m->locals);
+	memset(m, 0, sizeof *m);
+}
+
+int labels_has_occ(const labelset *ls, const char *occ, size_t ol)
+{
+	return st_find(&ls->occs, occ, ol) >= 0;
+}
+
 /* Adds one label (lb has kind, lang and line, or the statement number
- * when skos) with its key; tag is its language tag as written. */
+ * when skos) with its key; tag is its language tag as written.  The
+ * occupation o is put through map (NULL: taken as written). */
 static int add_one(labelset *ls, normaliser *nm, label *lbp, const char *o, size_t on,
 		   const char *x, size_t xn, const char *tag, const char *name, int skos,
-		   FILE *warn, tm_buf *jb, tm_buf *err)
+		   const labels_idmap *map, FILE *warn, tm_buf *jb, tm_buf *err)
 {
 	label lb = *lbp;
 	norm_result res;
@@ -140,12 +292,13 @@ static int add_one(labelset *ls, normaliser *nm, label *lbp, const char *o, size
 		return fail_at(err, where, "the occupation is not valid UTF-8 (or has a NUL byte)");
 	if (!dec_is_utf8(x, xn) || memchr(x, 0, xn))
 		return fail_at(err, where, "the label is not valid UTF-8 (or has a NUL byte)");
+	o = map_occ(map, o, on, &on);
 	if (norm_key_only(nm, x, xn, &res) != 0)
 		return fail_at(err, where, "out of memory");
 	if (!res.key_len) {
 		ls->empty++;
 		if (warn)
-			fprintf(warn, "titlemill: %s: label '%.*s' normalises to nothing; left out\n",
+			msg_warnf(warn, "%s: label '%.*s' normalises to nothing; left out\n",
 				where, (int)xn, x);
 		return 0;
 	}
@@ -168,6 +321,10 @@ static int add_one(labelset *ls, normaliser *nm, label *lbp, const char *o, size
 	ls->v[ls->n++] = lb;
 	if (check_repeats(ls, &ls->v[ls->n - 1], tag, where, skos, warn, jb) != 0)
 		goto oom;
+	if (st_add(&ls->occs, o, on, 0, &idx) < 0)
+		goto oom;
+	if (!ls->occs.ent[idx].count)
+		ls->occs.ent[idx].count = ls->n;
 	if (join3(jb, o, on, lang, lab_str(ls, lb.key), lb.keylen) ||
 	    st_add(&ls->index, jb->data, jb->len, 0, &idx) < 0)
 		goto oom;
@@ -190,7 +347,7 @@ static int add_one(labelset *ls, normaliser *nm, label *lbp, const char *o, size
 		if (f->occlen != on || memcmp(lab_str(ls, f->occ), o, on)) {
 			ls->collisions++;
 			if (warn)
-				fprintf(warn, "titlemill: %s: label '%.*s' of %.*s has the key '%s' of "
+				msg_warnf(warn, "%s: label '%.*s' of %.*s has the key '%s' of "
 					"label '%s' of %s (%s %ld)\n",
 					where, (int)xn, x, (int)on, o, lab_str(ls, lb.key),
 					lab_str(ls, f->text), lab_str(ls, f->occ),
@@ -207,6 +364,7 @@ typedef struct skctx {
 	labelset *ls;
 	normaliser *nm;
 	const char *path;
+	const labels_idmap *map;
 	FILE *warn;
 	tm_buf *err, j;
 	long n;
@@ -231,8 +389,8 @@ static int on_skos(void *c0, const char *occ, size_t ol, char kind, const char *
 		snprintf(m, sizeof m, "bad language tag '@%.40s'", tag);
 		return fail_at(c->err, w, m);
 	}
-	return add_one(c->ls, c->nm, &lb, occ, ol, text, tl, tag, c->path, 1, c->warn, &c->j,
-		       c->err);
+	return add_one(c->ls, c->nm, &lb, occ, ol, text, tl, tag, c->path, 1, c->map, c->warn,
+		       &c->j, c->err);
 }
 
 static int is_rdf(const char *path)
@@ -244,13 +402,19 @@ static int is_rdf(const char *path)
 
 int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_buf *err)
 {
+	return labels_read_mapped(ls, path, nm, NULL, warn, err);
+}
+
+int labels_read_mapped(labelset *ls, const char *path, normaliser *nm,
+		       const labels_idmap *map, FILE *warn, tm_buf *err)
+{
 	tsv_reader t;
 	int co, ck, cl, cx, r;
 	tm_buf j = {0};
 
 	memset(ls, 0, sizeof *ls);
 	if (is_rdf(path)) {
-		skctx c = {ls, nm, path, warn, err, {0}, 0};
+		skctx c = {ls, nm, path, map, warn, err, {0}, 0};
 		/* serd would say "invalid UTF-8 start 0xFF": say what it is, as
 		 * the line reader does for TSV */
 		line_reader lr;
@@ -272,11 +436,11 @@ int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_b
 		int rc = skos_read(path, on_skos, &c, &sk, err);
 		buf_free(&c.j);
 		if (rc == 0 && warn && sk.blank)
-			fprintf(warn, "titlemill: %s:%ld: %ld label%s of blank nodes skipped (a concept "
+			msg_warnf(warn, "%s:%ld: %ld label%s of blank nodes skipped (a concept "
 				"needs an IRI to be an occupation); the first on this line\n",
 				path, sk.blank_line, sk.blank, sk.blank == 1 ? "" : "s");
 		if (rc == 0 && warn && sk.toolong)
-			fprintf(warn, "titlemill: %s:%ld: %ld label%s longer than %d bytes skipped; "
+			msg_warnf(warn, "%s:%ld: %ld label%s longer than %d bytes skipped; "
 				"the first on this line\n", path, sk.toolong_line, sk.toolong,
 				sk.toolong == 1 ? "" : "s", SKOS_MAX_LABEL);
 		return rc;
@@ -336,9 +500,9 @@ int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_b
 		}
 		memcpy(lb.lang, lang, sizeof lang);
 		if (t.lr.noeol && warn)
-			fprintf(warn, "titlemill: %s:%ld: the last row has no line end: was the file cut "
+			msg_warnf(warn, "%s:%ld: the last row has no line end: was the file cut "
 				"short? (read as it is)\n", t.lr.name, line);
-		if (add_one(ls, nm, &lb, o, on, x, xn, tag, t.lr.name, 0, warn, &j, err) != 0) {
+		if (add_one(ls, nm, &lb, o, on, x, xn, tag, t.lr.name, 0, map, warn, &j, err) != 0) {
 			r = -1;
 			break;
 		}
@@ -402,5 +566,6 @@ void labels_free(labelset *ls)
 	st_free(&ls->lits);
 	st_free(&ls->preftag);
 	st_free(&ls->prefocc);
+	st_free(&ls->occs);
 	memset(ls, 0, sizeof *ls);
 }

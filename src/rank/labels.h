@@ -29,6 +29,7 @@ typedef struct labelset {
 	strtab lits;    /* occ 1F tag 1F text -> first label + 1 (repeats) */
 	strtab preftag; /* occ 1F tag -> first preferred label + 1 */
 	strtab prefocc; /* occ -> first preferred label + 1, any language */
+	strtab occs;    /* occ -> first label + 1 */
 	long empty, collisions;
 	long repeats;   /* a literal given again, or with two kinds; a second
 			 * preferred label in one language tag */
@@ -42,6 +43,50 @@ typedef struct labelset {
  * column, more fields than the header, invalid UTF-8) is an error: -1
  * with a message in err. */
 int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_buf *err);
+
+/* How the taxonomy's ids (often IRIs: http://example.org/occ/0001) meet
+ * the postings' codes (occ/0001) when they are not written alike.  The
+ * labels are then read under the postings' codes, so that every engine
+ * and every output names an occupation as the counts do:
+ *   - an --id-map file (TSV, columns code and concept found by name)
+ *     gives each code its concept; a concept is looked up as written;
+ *   - local: a concept not in the map is matched on its local name (the
+ *     part after the last '#', else after the last '/'), against the
+ *     local names of the codes in the counts (labels_idmap_code).
+ * A concept that finds no code keeps its own id.  The map owns its
+ * strings. */
+typedef struct labels_idmap {
+	int local;
+	strtab codes;       /* the codes; count: the line of the map, or 0 */
+	strtab concepts;    /* concept -> code entry + 1 (the map file) */
+	strtab locals;      /* local name of a code -> code entry + 1 */
+	long shared;        /* codes whose local name an earlier code had */
+	uint32_t shared_a, shared_b; /* the first such pair: code entries */
+} labels_idmap;
+
+/* The local name of an id: after the last '#', else after the last '/'
+ * (a trailing '/' ignored); the whole id when it has neither or nothing
+ * follows them (never an empty name, which would meet others).  Returns
+ * its start in id and its length in *len. */
+const char *labels_local_name(const char *id, size_t n, size_t *len);
+
+/* Reads a map file into m (zeroed or already holding codes).  Returns 0,
+ * or -1 with "file:line: what" in err: a missing column, an empty code
+ * or concept, a code given twice, a concept given to two codes. */
+int labels_idmap_read(labels_idmap *m, const char *path, tm_buf *err);
+
+/* A code of the counts, for matching on local names (m->local): 0, or
+ * -1 when memory ran out. */
+int labels_idmap_code(labels_idmap *m, const char *code, size_t n);
+
+void labels_idmap_free(labels_idmap *m);
+
+/* labels_read with each label's occupation put through map (NULL: none). */
+int labels_read_mapped(labelset *ls, const char *path, normaliser *nm,
+		       const labels_idmap *map, FILE *warn, tm_buf *err);
+
+/* Does occ have any label? */
+int labels_has_occ(const labelset *ls, const char *occ, size_t ol);
 
 /* The label of occ and lang with this key, or NULL. */
 /* Is key the key of a preferred label of occ in lang? */

@@ -40,6 +40,14 @@ msg() {
 no_out() {
 	check "$1-no-output" 0 "$(wc -c < "$tmp/out" | tr -d ' ')"
 }
+# prefixed NAME COMMAND: every line on standard error (at least one)
+# starts with "titlemill COMMAND: ", including the messages of the
+# modules several commands share (the labels and postings readers)
+prefixed() {
+	n=$(grep -c '' "$tmp/err")
+	k=$(grep -c "^titlemill $2: " "$tmp/err")
+	[ "$n" -gt 0 ] && [ "$n" = "$k" ]; check "$1-prefix" 0 $?
+}
 # counts as a TSV of postings in the columns title, occupations, lang, id
 P() { printf 'title\toccupations\tlang\tid\n'; printf "$@"; }
 
@@ -292,6 +300,20 @@ msg dup-ttl-kinds "dup.ttl: label statement 2: label 'Koch'@DE of occ:1 is alt h
 msg dup-ttl-pref "dup.ttl: label statement 3: a second preferred label 'Chefkoch'@de for occ:1"
 run dup-labels-coverage 0 $T coverage --labels "$tmp/dup-labels.tsv" "$tmp/p.counts"
 msg dup-labels-coverage "dup-labels.tsv:3: label 'Koch'@de of occ:1 repeats line 2"
+prefixed dup-labels-coverage coverage
+run dup-labels-propose 0 $T propose --labels "$tmp/dup-labels.tsv" "$tmp/p.counts"
+prefixed dup-labels-propose propose
+run dup-ttl-prefix 0 $T labels "$tmp/dup.ttl"
+prefixed dup-ttl labels
+# a malformed posting and a cut last row, read by propose: its messages
+P 'Koch\tocc:1\tde\t1\n\tocc:1\tde\t2\nKoch\tocc:1\tde\t3' > "$tmp/bad-postings.tsv"
+run bad-postings-propose 0 $T propose --labels "$tmp/dup-labels.tsv" "$tmp/bad-postings.tsv"
+msg bad-postings-propose "bad-postings.tsv:3: no title (skipped)"
+msg bad-postings-propose "bad-postings.tsv:4: the last row has no line end"
+prefixed bad-postings-propose propose
+# one title is "1 title"
+printf 'Koch\n' | $T norm --stats > /dev/null 2> "$tmp/err"
+msg one-title "titlemill norm: 1 title, 0 answered"
 
 # ---- a Turtle syntax error on line 5: the message names it ----
 printf '@prefix skos: <http://www.w3.org/2004/02/skos/core#> .\n<occ:1> skos:prefLabel "Koch"@de .\n\n<occ:2> skos:prefLabel "Kellner"@de ;\n  skos:altLabel "Ober"@de ,, "x"@de .\n' > "$tmp/bad.ttl"

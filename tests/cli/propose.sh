@@ -102,8 +102,67 @@ $T propose --labels "$tmp/labels.tsv" --kind rare_label --top 3 "$tmp/c.tsv" 2>/
 check top-kind 3 "$(wc -l < "$tmp/f")"
 $T propose --labels "$tmp/labels.tsv" --tsv --occupation occ:03 "$tmp/c.tsv" 2>/dev/null > "$tmp/t"
 check tsv-rows 5 "$(wc -l < "$tmp/t")"
+$T propose --labels "$tmp/labels.tsv" --lang xx --occupation occ:03 "$tmp/c.tsv" > "$tmp/t" 2> "$tmp/err"
+check nothing-lang-rows 0 "$(wc -l < "$tmp/t")"
+grep -q '^titlemill propose: --lang xx: no postings in this language in the counts$' "$tmp/err"
+check nothing-lang-msg 0 $?
+$T propose --labels "$tmp/labels.tsv" --occupation occ:99 "$tmp/c.tsv" > /dev/null 2> "$tmp/err"
+grep -q '^titlemill propose: --occupation occ:99: no postings of this occupation in the counts$' "$tmp/err"
+check nothing-occ-msg 0 $?
 $T propose --labels "$tmp/labels.tsv" --kind bogus "$tmp/c.tsv" > /dev/null 2>&1; check bad-kind 2 $?
 $T propose --labels "$tmp/labels.tsv" --min-share 2 "$tmp/c.tsv" > /dev/null 2>&1; check bad-share 2 $?
+
+# each suggestion names its occupation by its preferred label
+/usr/bin/python3 -c '
+import json, sys
+got = [json.loads(l) for l in open(sys.argv[1], encoding="utf-8")]
+bad = [s for s in got if s["occupation_label"] != "Alpha%s Worker" % s["occupation"][4:]]
+print("ok" if got and not bad else "bad %d of %d" % (len(bad), len(got)))' "$tmp/s1" > "$tmp/x"
+check occupation-label ok "$(cat "$tmp/x")"
+
+# TSV: examples in columns of their own, since a raw title holds any
+# separator (" | " here); every row has the header's columns, and the
+# columns are the JSON's examples
+{
+	printf 'id\tlang\toccupations\ttitle\n'
+	for i in $(seq 1 40); do printf '%d\ten\tocc:1\tCook\n' "$i"; done
+	for i in $(seq 41 60); do
+		case $((i % 3)) in
+		0) t='Line Cook | Full Time' ;;
+		1) t='Line Cook | Part Time | Valdoria Gastro GmbH' ;;
+		*) t='LINE COOK | Vollzeit' ;;
+		esac
+		printf '%d\ten\tocc:1\t%s\n' "$i" "$t"
+	done
+	for i in $(seq 61 100); do printf '%d\ten\tocc:2\tDriver\n' "$i"; done
+} > "$tmp/pipes.tsv"
+printf 'occupation\tkind\tlang\tlabel\nocc:1\tpref\ten\tCook\nocc:2\tpref\ten\tDriver\n' > "$tmp/pipes-labels.tsv"
+$T propose --labels "$tmp/pipes-labels.tsv" "$tmp/pipes.tsv" > "$tmp/pj" 2>/dev/null
+$T propose --labels "$tmp/pipes-labels.tsv" --tsv "$tmp/pipes.tsv" > "$tmp/pt" 2>/dev/null
+# (the competitor too: its occupation and postings in two columns)
+$T propose --labels "$tmp/labels.tsv" --tsv "$tmp/c.tsv" > "$tmp/t1" 2>/dev/null
+/usr/bin/python3 - "$tmp/pj" "$tmp/pt" "$tmp/s1" "$tmp/t1" > "$tmp/x" <<'PY'
+import json, sys
+ok, piped, rivals = True, 0, 0
+for jf, tf in ((sys.argv[1], sys.argv[2]), (sys.argv[3], sys.argv[4])):
+    js = {s["id"]: s for s in map(json.loads, open(jf, encoding="utf-8"))}
+    rows = [l.rstrip("\n").split("\t") for l in open(tf, encoding="utf-8")]
+    h = rows[0]
+    ok = ok and len(rows) == len(js) + 1 and all(len(r) == len(h) for r in rows)
+    ok = ok and "examples" not in h
+    for r in rows[1:]:
+        r = dict(zip(h, r))
+        j = js[r["id"]]
+        ex = [r["example_%d" % i] for i in (1, 2, 3) if r["example_%d" % i]]
+        ok = ok and ex == j["examples"] and r["occupation_label"] == j["occupation_label"]
+        piped += any(" | " in e for e in ex)
+        c = j.get("competitor")
+        want = (c["occupation"], str(c["postings"])) if c else ("", "")
+        ok = ok and (r["competitor"], r["competitor_postings"]) == want
+        rivals += c is not None
+print("ok" if ok and piped and rivals else "bad %s %d %d" % (ok, piped, rivals))
+PY
+check tsv-examples-competitor-columns ok "$(cat "$tmp/x")"
 
 # a store gives the same suggestions
 if command -v redis-server > /dev/null 2>&1; then

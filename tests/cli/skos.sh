@@ -154,4 +154,87 @@ fi
 check big-literal-status 0 $?
 check big-literal-labels "occ:2" "$(tail -n +2 "$tmp/out" | cut -f1)"
 grep -q "big.ttl:2: 1 label longer than 4096 bytes skipped" "$tmp/err"; check big-literal-reported 0 $?
+# ids that do not match: a taxonomy whose concepts are
+# http://taxonomy.example/occ/NNNN against postings coded occ/NNNN.  The
+# labels are the demo's; the suggestions from the SKOS file matched with
+# --ids local, or with --id-map, are those from a labels TSV written with
+# the postings' own codes, byte for byte.
+top=$(dirname "$0")/../..
+/usr/bin/python3 "$top/tests/bench/gen_titles.py" --postings --count 6000 --seed 15 > "$tmp/gen.tsv"
+/usr/bin/python3 - "$top/examples/taxonomy.tsv" "$tmp/gen.tsv" "$tmp" <<'PY'
+import sys
+tax, gen, d = sys.argv[1], sys.argv[2], sys.argv[3]
+rows = [l.rstrip("\n").split("\t") for l in open(tax, encoding="utf-8")]
+h = rows[0]
+iri = "http://taxonomy.example/occ/"
+kinds = {"pref": "prefLabel", "alt": "altLabel", "hidden": "hiddenLabel"}
+with open(d + "/iri.ttl", "w", encoding="utf-8") as ttl, \
+        open(d + "/codes.tsv", "w", encoding="utf-8") as same, \
+        open(d + "/iri.tsv", "w", encoding="utf-8") as itsv, \
+        open(d + "/map.tsv", "w", encoding="utf-8") as m:
+    ttl.write("@prefix skos: <http://www.w3.org/2004/02/skos/core#> .\n")
+    same.write("occupation\tkind\tlang\tlabel\n")
+    itsv.write("occupation\tkind\tlang\tlabel\n")
+    m.write("concept\tcode\n")
+    seen = set()
+    for r in rows[1:]:
+        r = dict(zip(h, r))
+        n = r["occupation"].split(":")[1]
+        lit = r["label"].replace("\\", "\\\\").replace('"', '\\"')
+        ttl.write('<%s%s> skos:%s "%s"@%s .\n' % (iri, n, kinds[r["kind"]], lit, r["lang"]))
+        same.write("occ/%s\t%s\t%s\t%s\n" % (n, r["kind"], r["lang"], r["label"]))
+        itsv.write("%s%s\t%s\t%s\t%s\n" % (iri, n, r["kind"], r["lang"], r["label"]))
+        if n not in seen:
+            seen.add(n)
+            m.write("%s%s\tocc/%s\n" % (iri, n, n))
+with open(d + "/coded.tsv", "w", encoding="utf-8", errors="surrogateescape") as o:
+    for i, l in enumerate(open(gen, encoding="utf-8", errors="surrogateescape")):
+        f = l.rstrip("\n").split("\t")
+        if i:
+            f[3] = f[3].replace("occ:", "occ/")
+        o.write("\t".join(f) + "\n")
+PY
+$T tally --labels "$tmp/codes.tsv" "$tmp/coded.tsv" > "$tmp/coded.counts" 2>/dev/null
+$T propose --labels "$tmp/codes.tsv" "$tmp/coded.counts" > "$tmp/want" 2> "$tmp/err"
+check ids-reference-quiet "" "$(grep 'have labels' "$tmp/err")"
+[ "$(wc -l < "$tmp/want")" -gt 20 ]; check ids-reference-some 0 $?
+# as they are: a warning naming unmatched codes and the way out
+$T coverage --labels "$tmp/iri.ttl" "$tmp/coded.counts" > "$tmp/cov" 2> "$tmp/err"
+check ids-mismatch-status 0 $?
+grep -q "^titlemill coverage: only 0 of the [0-9]* occupations of the postings have labels in .*iri.ttl (none for occ/[0-9]*, occ/[0-9]*, occ/[0-9]*, ...); the labels name occupations such as http://taxonomy.example/occ/[0-9]*.  Do the ids match the codes?  --ids local .*--id-map FILE" "$tmp/err"
+check ids-mismatch-warning 0 $?
+$T propose --strict --labels "$tmp/iri.ttl" "$tmp/coded.counts" > "$tmp/out" 2> "$tmp/err"
+check ids-mismatch-strict 1 $?
+check ids-mismatch-strict-nothing-out 0 "$(wc -c < "$tmp/out")"
+grep -q "(--strict: stopped)" "$tmp/err"; check ids-mismatch-strict-msg 0 $?
+# matched on local names, from SKOS and from a TSV of IRIs alike
+$T propose --ids local --strict --labels "$tmp/iri.ttl" "$tmp/coded.counts" > "$tmp/got" 2> "$tmp/err"
+check ids-local-status 0 $?
+cmp -s "$tmp/got" "$tmp/want"; check ids-local-skos-same 0 $?
+check ids-local-quiet "" "$(grep 'have labels' "$tmp/err")"
+$T propose --ids local --labels "$tmp/iri.tsv" "$tmp/coded.counts" > "$tmp/got" 2>/dev/null
+cmp -s "$tmp/got" "$tmp/want"; check ids-local-tsv-same 0 $?
+$T propose --ids local --labels "$tmp/iri.ttl" "$tmp/coded.tsv" > "$tmp/got" 2>/dev/null
+cmp -s "$tmp/got" "$tmp/want"; check ids-local-from-postings 0 $?
+$T coverage --ids local --labels "$tmp/iri.ttl" "$tmp/coded.counts" > "$tmp/cov" 2>/dev/null
+$T coverage --labels "$tmp/codes.tsv" "$tmp/coded.counts" > "$tmp/cov-want" 2>/dev/null
+cmp -s "$tmp/cov" "$tmp/cov-want"; check ids-local-coverage-same 0 $?
+# an id map: code to concept
+$T propose --id-map "$tmp/map.tsv" --labels "$tmp/iri.ttl" "$tmp/coded.counts" > "$tmp/got" 2>/dev/null
+cmp -s "$tmp/got" "$tmp/want"; check id-map-same 0 $?
+printf 'code\tidea\nocc/1\thttp://x/1\n' > "$tmp/badmap1.tsv"
+$T coverage --id-map "$tmp/badmap1.tsv" --labels "$tmp/iri.ttl" "$tmp/coded.counts" > /dev/null 2> "$tmp/err"
+check id-map-no-column 1 $?
+grep -q "^titlemill coverage: .*badmap1.tsv:1: an id map has the columns code and concept$" "$tmp/err"
+check id-map-no-column-msg 0 $?
+printf 'code\tconcept\nocc/1\thttp://x/1\nocc/2\thttp://x/2\nocc/1\thttp://x/3\n' > "$tmp/badmap2.tsv"
+$T coverage --id-map "$tmp/badmap2.tsv" --labels "$tmp/iri.ttl" "$tmp/coded.counts" > /dev/null 2> "$tmp/err"
+check id-map-code-twice 1 $?
+grep -q "badmap2.tsv:4: code 'occ/1' is mapped on line 2 already" "$tmp/err"; check id-map-code-twice-msg 0 $?
+printf 'code\tconcept\nocc/1\thttp://x/1\nocc/2\thttp://x/1\n' > "$tmp/badmap3.tsv"
+$T coverage --id-map "$tmp/badmap3.tsv" --labels "$tmp/iri.ttl" "$tmp/coded.counts" > /dev/null 2> "$tmp/err"
+check id-map-concept-twice 1 $?
+grep -q "badmap3.tsv:3: concept 'http://x/1' is the concept of code 'occ/1' already" "$tmp/err"
+check id-map-concept-twice-msg 0 $?
+$T coverage --ids iri --labels "$tmp/iri.ttl" "$tmp/coded.counts" > /dev/null 2>&1; check ids-bad-choice 2 $?
 finish
