@@ -17,7 +17,6 @@ typedef struct report_cli {
 	rank_opts in;
 	const char *out, *queue;
 	opt_strs occ;
-	char lang[4];
 	uint64_t sections, min_postings, top;
 	int stamp;
 	propose_bars bar;
@@ -36,7 +35,8 @@ static const opt_spec report_specs[] = {
 	 "unless a FILE is given)", NULL, 0},
 	{"occupation", OPT_STRS, offsetof(report_cli, occ), "ID", NULL, 0, 0,
 	 "a section for this occupation (repeatable) instead of the weakest", NULL, 0},
-	OPT_SPEC_LANG(report_cli, lang, "only this language"),
+	OPT_SPEC_LANG(report_cli, in.lang, "only this language"),
+	RANK_SPEC_IDS(report_cli, in),
 	{"sections", OPT_U64, offsetof(report_cli, sections), "N", "10", 0, 10000,
 	 "without --occupation: sections for the N occupations with the lowest coverage", NULL,
 	 0},
@@ -59,7 +59,8 @@ static const opt_cmd report_cmd = {
 	"report",
 	"usage: titlemill report --labels FILE -o FILE [--queue FILE] [--lang L]\n"
 	"                        [--occupation ID]... [--sections N] [--stamp]\n"
-	"                        [thresholds] (COUNTS|POSTINGS...|--store URL [--prefix P])\n"
+	"                        [--ids local] [--id-map FILE] [--strict] [thresholds]\n"
+	"                        (COUNTS|POSTINGS...|-|--store URL [--prefix P])\n"
 	"\n"
 	"One self-contained HTML page for curators: coverage overall, per language\n"
 	"and per occupation with intervals, the labels' shares of the weakest\n"
@@ -121,6 +122,7 @@ int cmd_report(int argc, char **argv)
 {
 	report_cli o;
 	rank_inputs in;
+	inputs_survey sv;
 	rq_queue q;
 	tm_buf page = {0}, err = {0}, notes = {0};
 	int status, have_queue = 0;
@@ -128,7 +130,7 @@ int cmd_report(int argc, char **argv)
 
 	memset(&o, 0, sizeof o);
 	memset(&q, 0, sizeof q);
-	if (!cli_rank_start(&report_cmd, &o, &o.in, argc, argv, &in, &status))
+	if (!cli_rank_start(&report_cmd, &o, &o.in, argc, argv, &in, &sv, &status))
 		goto done;
 	status = EXIT_USAGE;
 	if (!o.out) {
@@ -144,9 +146,9 @@ int cmd_report(int argc, char **argv)
 		struct tm tmv;
 		strftime(stamp, sizeof stamp, "%Y-%m-%dT%H:%M:%SZ", gmtime_r(&t, &tmv));
 	}
-	report_opts ro = {o.lang[0] ? o.lang : NULL, o.occ.n ? (char *const *)o.occ.v : NULL,
+	report_opts ro = {o.in.lang[0] ? o.in.lang : NULL, o.occ.n ? (char *const *)o.occ.v : NULL,
 			  o.occ.n, o.sections, o.min_postings, &o.bar, o.top, have_queue ? &q : NULL,
-			  NULL, o.stamp ? stamp : NULL, TM_VERSION, &notes};
+			  NULL, o.stamp ? stamp : NULL, TM_VERSION, &notes, sv.distinct};
 	if (report_write(&in.m, &in.ls, &ro, &page, &err)) {
 		fprintf(stderr, "titlemill report: %s\n", err.data);
 		goto done;

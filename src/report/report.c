@@ -499,9 +499,9 @@ static int overview(rep *r)
 	put(r, "<section id=\"overview\">\n<h2>Overview</h2>\n<dl class=\"tm-facts\">\n");
 	buf_printf(r->out, "<dt>Postings counted per occupation</dt><dd>%llu (a posting with "
 			   "two occupations counts for each)</dd>\n", (unsigned long long)t->postings);
-	if (r->m->postings)
+	if (r->o->distinct)
 		buf_printf(r->out, "<dt>Distinct postings</dt><dd>%llu</dd>\n",
-			   (unsigned long long)r->m->postings);
+			   (unsigned long long)r->o->distinct);
 	buf_printf(r->out, "<dt>Occupations with postings</dt><dd>%zu</dd>\n"
 			   "<dt>Languages</dt><dd>%zu</dd>\n", nocc, nl);
 	buf_printf(r->out, "<dt>Matched by a label</dt><dd>%llu: ", (unsigned long long)t->matched);

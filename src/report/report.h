@@ -50,6 +50,7 @@ typedef struct report_opts {
 	tm_buf *notes;             /* NULL, or receives what the reader should
 				    * know, a line each (an occupation asked
 				    * for that has no postings) */
+	uint64_t distinct;         /* the distinct postings, when known (else 0) */
 } report_opts;
 
 /* Writes the page for counts m and labels ls to out.  Returns 0, or a
