@@ -38,7 +38,9 @@
 #include "core/buf.h"
 
 enum rq_status { RQ_OPEN, RQ_ACCEPTED, RQ_REJECTED, RQ_DEFERRED, RQ_NSTATUS };
-enum rq_kind { RK_ALT, RK_HIDDEN, RK_RARE, RK_ELSEWHERE, RK_N };
+/* RK_OVERLAP and RK_NEARER come from titlemill overlap: findings about
+ * the taxonomy's structure, exported as a review row, never a change. */
+enum rq_kind { RK_ALT, RK_HIDDEN, RK_RARE, RK_ELSEWHERE, RK_OVERLAP, RK_NEARER, RK_N };
 enum rq_what { RE_ADDED, RE_REFRESHED, RE_REOPENED, RE_ACCEPTED, RE_REJECTED, RE_DEFERRED, RE_N };
 
 extern const char *const rq_status_names[RQ_NSTATUS]; /* open accepted ... */

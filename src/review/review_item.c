@@ -10,7 +10,8 @@
 
 const char *const rq_status_names[RQ_NSTATUS] = {"open", "accepted", "rejected", "deferred"};
 const char *const rq_kind_names[RK_N] = {"new_alt_label", "new_hidden_label", "rare_label",
-					 "used_elsewhere"};
+					 "used_elsewhere", "overlapping_occupations",
+					 "nearer_other_group"};
 const char *const rq_what_names[RE_N] = {"added",    "refreshed", "reopened",
 					 "accepted", "rejected",  "deferred"};
 const char *const rq_decision_words[3] = {"accept", "reject", "defer"};
