@@ -323,9 +323,10 @@ static int load_groups(const overlap_cli *o, groupmap *g)
 
 static void summary(const overlap_stats *s, const overlap_cli *o, const groupmap *g)
 {
-	fprintf(stderr, "titlemill overlap: %llu occupation-language distributions; %llu pairs "
+	fprintf(stderr, "titlemill overlap: %llu occupation-language distribution%s; %llu pair%s "
 		"compared of %llu (%.4f %%)",
-		(unsigned long long)s->distributions, (unsigned long long)s->pairs_compared,
+		(unsigned long long)s->distributions, s->distributions == 1 ? "" : "s",
+		(unsigned long long)s->pairs_compared, s->pairs_compared == 1 ? "" : "s",
 		(unsigned long long)s->pairs_all,
 		s->pairs_all ? 100.0 * (double)s->pairs_compared / (double)s->pairs_all : 0.0);
 	if (s->pairs_small)

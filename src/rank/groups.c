@@ -116,8 +116,9 @@ int groups_read_tsv(groupmap *g, const char *path, const char *level, tm_buf *er
 				}
 			} else if (first.len != ln || memcmp(first.data, lv, ln)) {
 				char m[300];
-				snprintf(m, sizeof m, "the file has several levels ('%.60s', '%.60s', ...): "
-						      "choose one with --level", first.data, lv);
+				snprintf(m, sizeof m, "the file has several levels ('%.*s', '%.*s', ...): "
+						      "choose one with --level", (int)(first.len < 60 ? first.len : 60),
+					 first.data, (int)(ln < 60 ? ln : 60), lv);
 				r = bad(err, path, line, m);
 				break;
 			}
