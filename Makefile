@@ -82,9 +82,13 @@ G2CASES = $(BUILD)/g2-cases.txt
 $(G2CASES): tests/unit/rank/gen_g2_cases.py | $(BUILD)
 	/usr/bin/python3 tests/unit/rank/gen_g2_cases.py $@.tmp && mv $@.tmp $@
 
-unit: $(UNIT_BIN) $(NTEST) $(G2CASES)
+JSDCASES = $(BUILD)/jsd-cases.txt
+$(JSDCASES): tests/unit/rank/gen_jsd_cases.py | $(BUILD)
+	/usr/bin/python3 tests/unit/rank/gen_jsd_cases.py $@.tmp && mv $@.tmp $@
+
+unit: $(UNIT_BIN) $(NTEST) $(G2CASES) $(JSDCASES)
 	@set -e; for t in $(UNIT_BIN); do \
-		NORMALIZATION_TEST=$(NTEST) G2_CASES=$(CURDIR)/$(G2CASES) $$t; done
+		NORMALIZATION_TEST=$(NTEST) G2_CASES=$(CURDIR)/$(G2CASES) JSD_CASES=$(CURDIR)/$(JSDCASES) $$t; done
 
 test: titlemill unit
 	TITLEMILL=$(CURDIR)/titlemill sh tests/run-suites.sh
@@ -100,8 +104,8 @@ titlemill-asan-bin: $(CORE_OBJ) $(CLI_OBJ) unit
 
 # valgrind memcheck over the normaliser and tally paths and their unit
 # tests: zero errors, zero definite or indirect leaks.
-valgrind: titlemill $(UNIT_BIN) $(NTEST) $(G2CASES)
-	NORMALIZATION_TEST=$(CURDIR)/$(NTEST) G2_CASES=$(CURDIR)/$(G2CASES) \
+valgrind: titlemill $(UNIT_BIN) $(NTEST) $(G2CASES) $(JSDCASES)
+	NORMALIZATION_TEST=$(CURDIR)/$(NTEST) G2_CASES=$(CURDIR)/$(G2CASES) JSD_CASES=$(CURDIR)/$(JSDCASES) \
 		sh tests/valgrind.sh $(CURDIR)/titlemill $(CURDIR)/$(BUILD)
 
 # libFuzzer targets (clang): FUZZ_SECONDS each, corpus in build-fuzz/;
