@@ -24,6 +24,16 @@ echo
 echo "== a day of postings in English, German and French: generated (seed 2026)"
 /usr/bin/python3 "$here/../tests/bench/gen_titles.py" --postings --count 140000 --seed 2026 |
 	awk -F '\t' 'NR == 1 || $3 == "en" || $3 == "de" || $3 == "fr"' > "$out/day.tsv"
+# The taxonomy's structure, planted: Valdoria Logistik advertises packers
+# (occ:9321) under the warehouse operatives' titles (occ:9333), and the
+# graphic designers (occ:2166, filed with the engineers of group 21 by
+# their code) are advertised like the marketing executives of group 24
+# (occ:2431).
+awk -F '\t' -v OFS='\t' 'NR == 1 { for (i = 1; i <= NF; i++) c[$i] = i; next }
+	$c["occupations"] == "occ:9333" && ++w % 2 == 0 { $c["id"] = $c["id"] "-p"; $c["occupations"] = "occ:9321"; print }
+	$c["occupations"] == "occ:2431" && ++k % 2 == 0 { $c["id"] = $c["id"] "-g"; $c["occupations"] = "occ:2166"; print }' \
+	"$out/day.tsv" > "$out/day.planted"
+cat "$out/day.planted" >> "$out/day.tsv"
 "$T" tally --labels "$here/taxonomy.tsv" -o "$out/day.counts.tsv" "$out/day.tsv" 2>&1 | sed 's/^/  /'
 
 echo
@@ -49,6 +59,15 @@ for k in new_alt_label new_hidden_label rare_label used_elsewhere; do
 done
 echo
 echo "  These are suggestions for a curator, who decides; each comes with its evidence."
+echo
+echo "== occupations the postings cannot tell apart: titlemill overlap (groups: the first two digits of the code)"
+"$T" overlap --labels "$here/taxonomy.tsv" --group-prefix 2 --json "$out/day.counts.tsv" > "$out/overlap.jsonl" 2> "$out/overlap.log"
+"$T" overlap --labels "$here/taxonomy.tsv" --group-prefix 2 "$out/day.counts.tsv" > "$out/overlap.tsv" 2>/dev/null
+sed 's/^titlemill overlap: /  /' "$out/overlap.log"
+awk -F '\t' '$1 == "overlapping_occupations"' "$out/overlap.tsv" | head -4 |
+	awk -F '\t' '{ printf "  %s %s %-22s ~ %s %-24s divergence %s, shared %s\n", $6, $2, $3, $4, $5, $7, $8 }'
+awk -F '\t' '$1 == "nearer_other_group"' "$out/overlap.tsv" | head -2 |
+	awk -F '\t' '{ printf "  %s %s %s: filed in %s (%s bits), nearer %s (%s bits): %s\n", $6, $2, $3, $11, $13, $12, $7, substr($14, 1, 60) }'
 echo
 echo "== the curators' queue: titlemill review (here a curator called 'demo' decides three)"
 q=$out/queue.jsonl
