@@ -284,4 +284,19 @@ assert len(rows) == 1 and rows[0]["divergence"] == 0, rows
 '; check hostile-json 0 $?
 check hostile-tsv 14 "$($T overlap --labels "$tmp/nolabels.tsv" "$tmp/h.tsv" 2>/dev/null | awk -F '\t' '{ print NF }' | sort -u)"
 
+# ---- the README's example is what the demo gives ----
+DEMO_OUT="$tmp/demo" sh "$here/../../examples/demo.sh" "$T" > "$tmp/demo.log" 2>&1
+check demo-status 0 $?
+/usr/bin/python3 - "$here/../../README.md" "$tmp/demo" "$T" <<'PY' > "$tmp/readme.check"
+import subprocess, sys
+readme, demo, t = sys.argv[1:4]
+text = open(readme, encoding="utf-8").read()
+start = text.index("$ titlemill overlap --labels examples/taxonomy.tsv --group-prefix 2")
+block = text[start:text.index("```", start)].split("\n")
+cmd = block[0][2:].replace("titlemill", t, 1).replace("out/", demo + "/")
+got = subprocess.run(["sh", "-c", cmd], capture_output=True, cwd=sys.argv[1].rsplit("/", 1)[0]).stdout.decode()
+print("ok" if got.rstrip("\n") == "\n".join(block[1:]).rstrip("\n") else "differs:\n" + got)
+PY
+check readme-example ok "$(cat "$tmp/readme.check")"
+
 finish
