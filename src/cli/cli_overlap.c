@@ -362,8 +362,8 @@ int cmd_overlap(int argc, char **argv)
 		fputs("titlemill overlap: --json and --tsv exclude each other\n", stderr);
 	else if (o.group_prefix != UINT64_MAX && o.groups)
 		fputs("titlemill overlap: --groups and --group-prefix exclude each other\n", stderr);
-	else if (o.level && !o.groups)
-		fputs("titlemill overlap: --level needs --groups FILE\n", stderr);
+	else if (o.level && (!o.groups || skos_is_rdf_path(o.groups)))
+		fputs("titlemill overlap: --level applies to a groups TSV (--groups FILE)\n", stderr);
 	else if (load_groups(&o, &g) != 0)
 		rc = EXIT_RUNTIME;
 	else

@@ -266,7 +266,7 @@ check groups-bad-ttl 1 $?
 grep -q "bad.ttl:" "$tmp/e"; check groups-bad-ttl-named 0 $?
 for bad in "--json --tsv" "--group-prefix 0" "--max-divergence 1.5" "--max-divergence x" \
 	"--min-postings 0" "--key-cap 1" "--top 0" "--show pairs" "--level 1" \
-	"--groups $tmp/g2.tsv --group-prefix 2"; do
+	"--groups $tmp/g2.tsv --group-prefix 2" "--groups $tmp/pt/groups.ttl --level 2"; do
 	# shellcheck disable=SC2086
 	$T overlap --labels "$tmp/nolabels.tsv" $bad "$tmp/small.tsv" > /dev/null 2>&1
 	check "usage $bad" 2 $?
