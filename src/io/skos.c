@@ -199,7 +199,8 @@ static void skipped(long *n, long *first, long line)
 		*first = line;
 }
 
-/* A skos:broader statement between two IRIs, to r->broader. */
+/* A skos:broader (or skos:narrower, turned round) statement between two
+ * IRIs, to r->broader. */
 static SerdStatus on_broader(rd *r, const SerdNode *subject, const SerdNode *predicate,
 			     const SerdNode *object)
 {
@@ -208,12 +209,18 @@ static SerdStatus on_broader(rd *r, const SerdNode *subject, const SerdNode *pre
 	    (object->type != SERD_URI && object->type != SERD_CURIE))
 		return SERD_SUCCESS;
 	SerdNode p = serd_env_expand_node(r->env, predicate);
-	int is = p.buf && !strcmp((const char *)p.buf, SKOS "broader");
+	int broader = p.buf && !strcmp((const char *)p.buf, SKOS "broader");
+	int narrower = p.buf && !strcmp((const char *)p.buf, SKOS "narrower");
 	serd_node_free(&p);
-	if (!is)
+	if (!broader && !narrower)
 		return SERD_SUCCESS;
 	SerdNode s = serd_env_expand_node(r->env, subject), o = serd_env_expand_node(r->env, object);
 	const SerdNode *sub = s.buf ? &s : subject, *obj = o.buf ? &o : object;
+	if (narrower) { /* G skos:narrower C is C skos:broader G */
+		const SerdNode *t = sub;
+		sub = obj;
+		obj = t;
+	}
 	if (r->broader(r->ctx, (const char *)sub->buf, sub->n_bytes, (const char *)obj->buf,
 		       obj->n_bytes) != 0) {
 		r->failed = 1;

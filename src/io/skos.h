@@ -46,7 +46,8 @@ int skos_is_rdf_path(const char *path);
 
 /* The skos:broader statements of path whose subject and object are both
  * IRIs (expanded and resolved as above), each handed to fn as the
- * concept and its broader concept, in the file's order.  Returns as
+ * concept and its broader concept, in the file's order; a skos:narrower
+ * statement is handed over turned round (G narrower C: C broader G).  Returns as
  * skos_read. */
 typedef int (*skos_broader_fn)(void *ctx, const char *occ, size_t ol, const char *broader,
 			       size_t bl);

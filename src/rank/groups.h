@@ -3,7 +3,8 @@
  * characters of the occupation's code.
  *
  *   SKOS     an occupation's group is its broader concept (skos:broader
- *            with an IRI object); one with several broader concepts is
+ *            with an IRI object, or skos:narrower from the group's
+ *            side); one with several broader concepts is
  *            put in the byte-smallest of them, and they are counted.
  *   TSV      columns occupation, group, and optionally level (found by
  *            name); with a level column only the rows of one level are

@@ -139,6 +139,12 @@ check skos-status 0 $?
 cmp -s "$tmp/pt.out" "$tmp/pt.skos"; check skos-broader-equals-tsv 0 $?
 $T overlap --labels "$tmp/pt/labels.tsv" --groups "$tmp/pt/groups.ttl" --json "$tmp/pt/postings.tsv" > "$tmp/pt.skos2" 2>/dev/null
 cmp -s "$tmp/pt.out" "$tmp/pt.skos2"; check groups-ttl-equals-tsv 0 $?
+# skos:narrower from the groups' side gives the same groups
+awk '/skos:broader/ { split($0, f, " "); print f[length(f) - 1] " skos:narrower " f[1] " ." } !/skos:broader/' \
+	"$tmp/pt/groups.ttl" > "$tmp/pt/narrower.ttl"
+grep -q 'grp:00 skos:narrower occ:0000 .' "$tmp/pt/narrower.ttl"; check narrower-made 0 $?
+$T overlap --labels "$tmp/pt/labels.tsv" --groups "$tmp/pt/narrower.ttl" --json "$tmp/pt/postings.tsv" > "$tmp/pt.narrower" 2>/dev/null
+cmp -s "$tmp/pt.out" "$tmp/pt.narrower"; check narrower-equals-broader 0 $?
 # a code prefix: the ids occ:GGNN, prefix 2 = the groups
 $T overlap --labels "$tmp/pt/labels.tsv" --group-prefix 2 --show groups "$tmp/pt/postings.tsv" > "$tmp/pt.pre" 2>/dev/null
 check prefix-groups "00 01 02 03 04 05" "$(awk -F '\t' 'NR > 1 && $2 == "en" { printf "%s%s", s, $1; s = " " }' "$tmp/pt.pre")"
