@@ -36,7 +36,7 @@ static const opt_spec overlap_specs[] = {
 	{"groups", OPT_STR, offsetof(overlap_cli, groups), "FILE", NULL, 0, 0,
 	 "the groups: TSV (occupation, group, optional level) or SKOS (skos:broader)", NULL, 0},
 	{"level", OPT_STR, offsetof(overlap_cli, level), "L", NULL, 0, 0,
-	 "read only this level of the groups TSV", NULL, 0},
+	 "use this level of the groups TSV (default: the one with the most groups)", NULL, 0},
 	{"group-prefix", OPT_U64, offsetof(overlap_cli, group_prefix), "N", NULL, 1, 64,
 	 "group occupations by the first N characters of their code", NULL, 0},
 	{"show", OPT_CHOICE, offsetof(overlap_cli, show), "WHAT", "findings", 0, 0,
@@ -312,6 +312,10 @@ static int load_groups(const overlap_cli *o, groupmap *g)
 		fprintf(stderr, "titlemill overlap: %.*s\n", (int)err.len, err.data ? err.data : "");
 		rc = -1;
 	} else {
+		if (g->levels > 1 && !(o->level && *o->level))
+			fprintf(stderr, "titlemill overlap: %s has %d levels: the groups of level '%s' "
+				"(the finest: the most groups); choose another with --level\n", o->groups,
+				g->levels, g->level);
 		if (g->several)
 			fprintf(stderr, "titlemill overlap: %ld occupation%s with more than one broader "
 				"concept: each is put in the byte-smallest\n", g->several,

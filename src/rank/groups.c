@@ -66,14 +66,22 @@ static int bad(tm_buf *err, const char *path, long line, const char *what)
 	return tm_failf(err, TM_EINPUT, "%s:%ld: %s", path, line, what);
 }
 
+/* The rows of one level of a groups TSV. */
+typedef struct level_map {
+	tm_buf name;
+	groupmap m;
+	long rows;
+} level_map;
+
 int groups_read_tsv(groupmap *g, const char *path, const char *level, tm_buf *err)
 {
 	tsv_reader t;
-	int r;
-	tm_buf first = {0};
-	long line;
+	level_map lv[GROUPS_MAX_LEVELS];
+	int nlv = 0, r, pick = -1;
+	long rows = 0;
 
 	memset(g, 0, sizeof *g);
+	memset(lv, 0, sizeof lv);
 	if (tsv_open(&t, path) != 0) {
 		buf_reset(err);
 		buf_append(err, t.err.data, t.err.len);
@@ -92,40 +100,38 @@ int groups_read_tsv(groupmap *g, const char *path, const char *level, tm_buf *er
 		tsv_close(&t);
 		return bad(err, path, 1, "--level is given but the file has no level column");
 	}
-	r = 0;
 	while ((r = tsv_next(&t)) > 0) {
 		size_t on, gn, ln;
 		const char *o = tsv_field(&t, co, &on), *gr = tsv_field(&t, cg, &gn);
-		const char *lv = tsv_field(&t, cl, &ln);
-		line = t.lr.lineno;
+		const char *ls = tsv_field(&t, cl, &ln);
+		long line = t.lr.lineno;
+		int i;
 		if (t.over || !on || !gn || memchr(o, '\x1F', on) || memchr(gr, '\x1F', gn)) {
 			r = bad(err, path, line, t.over ? "more fields than the header (a TAB inside a field?)"
 							: "an empty occupation or group, or a control character");
 			break;
 		}
-		if (cl >= 0) {
-			if (level) {
-				if (strlen(level) != ln || memcmp(level, lv, ln)) {
-					g->skipped++;
-					continue;
-				}
-			} else if (!first.data) {
-				if (buf_append(&first, lv, ln)) {
-					r = TM_ENOMEM;
-					break;
-				}
-			} else if (first.len != ln || memcmp(first.data, lv, ln)) {
-				char m[300];
-				snprintf(m, sizeof m, "the file has several levels ('%.*s', '%.*s', ...): "
-						      "choose one with --level", (int)(first.len < 60 ? first.len : 60),
-					 first.data, (int)(ln < 60 ? ln : 60), lv);
+		for (i = 0; i < nlv; i++)
+			if (lv[i].name.len == ln && !memcmp(lv[i].name.data, ls, ln))
+				break;
+		if (i == nlv) {
+			if (nlv == GROUPS_MAX_LEVELS) {
+				char m[120];
+				snprintf(m, sizeof m, "more than %d levels", GROUPS_MAX_LEVELS);
 				r = bad(err, path, line, m);
 				break;
 			}
+			if (buf_append(&lv[nlv++].name, ls, ln)) {
+				r = tm_fail(err, TM_ENOMEM, NULL, "out of memory", NULL);
+				break;
+			}
 		}
-		int p = put(g, o, on, gr, gn, 0);
+		rows++;
+		lv[i].rows++;
+		int p = put(&lv[i].m, o, on, gr, gn, 0);
 		if (p == 1) {
-			r = bad(err, path, line, "an occupation given a second group");
+			r = bad(err, path, line, cl >= 0 ? "an occupation given a second group in one level"
+							 : "an occupation given a second group");
 			break;
 		}
 		if (p < 0) {
@@ -137,7 +143,36 @@ int groups_read_tsv(groupmap *g, const char *path, const char *level, tm_buf *er
 		buf_reset(err);
 		buf_append(err, t.err.data, t.err.len);
 	}
-	buf_free(&first);
+	if (r == 0) {
+		/* the level asked for; else the finest: the most groups, ties to
+		 * the byte-smaller name */
+		for (int i = 0; i < nlv; i++) {
+			const tm_buf *n = &lv[i].name;
+			if (level) {
+				if (strlen(level) == n->len && !memcmp(level, n->data, n->len))
+					pick = i;
+				continue;
+			}
+			if (pick < 0 || lv[i].m.names.n > lv[pick].m.names.n ||
+			    (lv[i].m.names.n == lv[pick].m.names.n &&
+			     strcmp(n->data ? n->data : "", lv[pick].name.data ? lv[pick].name.data : "") < 0))
+				pick = i;
+		}
+		if (level && pick < 0)
+			r = bad(err, path, 1, "no row has the level given with --level");
+	}
+	if (r == 0 && pick >= 0) {
+		*g = lv[pick].m;
+		memset(&lv[pick].m, 0, sizeof lv[pick].m);
+		g->skipped = rows - lv[pick].rows;
+		g->levels = cl >= 0 ? nlv : 0;
+		snprintf(g->level, sizeof g->level, "%.*s", (int)lv[pick].name.len,
+			 lv[pick].name.data ? lv[pick].name.data : "");
+	}
+	for (int i = 0; i < nlv; i++) {
+		groups_free(&lv[i].m);
+		buf_free(&lv[i].name);
+	}
 	tsv_close(&t);
 	return r < 0 ? r : TM_OK;
 }

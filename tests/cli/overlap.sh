@@ -258,11 +258,16 @@ grep -q "g1.tsv:1: a groups TSV has the columns occupation and group" "$tmp/e"; 
 printf 'occupation\tgroup\nA\tg1\nA\tg2\n' > "$tmp/g2.tsv"
 $T overlap --labels "$tmp/nolabels.tsv" --groups "$tmp/g2.tsv" "$tmp/small.tsv" > /dev/null 2> "$tmp/e"
 check groups-twice 1 $?
-grep -q "g2.tsv:3: an occupation given a second group" "$tmp/e"; check groups-twice-said 0 $?
-$T overlap --labels "$tmp/nolabels.tsv" --groups "$tmp/pt/groups.tsv" "$tmp/small.tsv" > /dev/null 2> "$tmp/e"
-check groups-levels 1 $?
-grep -q "groups.tsv:3: the file has several levels ('2', '1', ...): choose one with --level" "$tmp/e"
+grep -q "g2.tsv:3: an occupation given a second group$" "$tmp/e"; check groups-twice-said 0 $?
+# several levels, none chosen: the finest (level 1, twice the groups), said
+$T overlap --labels "$tmp/pt/labels.tsv" --groups "$tmp/pt/groups.tsv" --show groups "$tmp/pt/postings.tsv" > "$tmp/e.out" 2> "$tmp/e"
+check groups-levels 0 $?
+cmp -s "$tmp/e.out" "$tmp/pt.l1"; check groups-levels-finest 0 $?
+grep -q "groups.tsv has 2 levels: the groups of level '1' (the finest: the most groups); choose another with --level" "$tmp/e"
 check groups-levels-said 0 $?
+$T overlap --labels "$tmp/nolabels.tsv" --groups "$tmp/pt/groups.tsv" --level 3 "$tmp/small.tsv" > /dev/null 2> "$tmp/e"
+check groups-level-none 1 $?
+grep -q "groups.tsv:1: no row has the level given with --level" "$tmp/e"; check groups-level-none-said 0 $?
 printf 'occupation\tgroup\tlevel\nA\tg\t1\tstray\n' > "$tmp/g3.tsv"
 $T overlap --labels "$tmp/nolabels.tsv" --groups "$tmp/g3.tsv" "$tmp/small.tsv" > /dev/null 2> "$tmp/e"
 grep -q "g3.tsv:2: more fields than the header" "$tmp/e"; check groups-wide 0 $?
