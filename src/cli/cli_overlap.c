@@ -244,7 +244,7 @@ static int write_nearer(void *ctx, const overlap_occ *o)
 	rec_num(r, o->nearest_divergence);
 	rec_omit(r);
 	rec_u64(r, o->postings);
-	rec_omit(r);
+	rec_u64(r, o->nearest_postings);
 	rec_str(r, o->group, o->gl);
 	rec_str(r, o->nearest, o->nl);
 	rec_num(r, o->own_divergence);

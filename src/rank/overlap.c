@@ -786,7 +786,7 @@ int overlap_occupations(overlap *ov, int only_nearer, uint64_t top, overlap_occ_
 		int near = is_nearer(ov, o);
 		overlap_occ r = {name_of(ov, d), g ? name_of(ov, g) : NULL, h ? name_of(ov, h) : NULL,
 				 d->namelen, g ? g->namelen : 0, h ? h->namelen : 0, d->lang, d->total,
-				 ov->own[o] >= 0, ov->own[o] >= 0 ? ov->own[o] : 0,
+				 h ? h->total : 0, ov->own[o] >= 0, ov->own[o] >= 0 ? ov->own[o] : 0,
 				 h ? ov->near[o] : 0, near, t, near ? pull_titles(ov, o, t) : 0};
 		rc = fn(ctx, &r);
 	}

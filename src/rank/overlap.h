@@ -103,7 +103,7 @@ typedef struct overlap_occ {
 	const char *occ, *group, *nearest; /* group NULL: none; nearest NULL: none */
 	size_t ol, gl, nl;
 	const char *lang;
-	uint64_t postings;
+	uint64_t postings, nearest_postings; /* its own; the nearest group's */
 	int has_own;              /* own_divergence is defined */
 	double own_divergence, nearest_divergence;
 	int nearer;               /* nearer the other group than its own */

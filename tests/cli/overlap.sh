@@ -206,6 +206,11 @@ check export-status 0 $?
 check export-all-review "review review" "$(awk -F '\t' 'NR > 1 { printf "%s%s", s, $5; s = " " }' "$tmp/delta")"
 grep -q 'overlaps occ:0401: divergence 0.0846 bits' "$tmp/delta"; check export-reason-pair 0 $?
 grep -q 'nearer group grp:03 (' "$tmp/delta"; check export-reason-group 0 $?
+# show gives the finding's own evidence
+$T review show --queue "$q" "$(grep nearer_other_group "$tmp/pt.out" | head -1 | cut -c8-23)" > "$tmp/show" 2>&1
+grep -q 'evidence      divergence [0-9.]* bits from group grp:03 ([1-9][0-9]* postings; this occupation [0-9]*); [0-9.]* bits from its own group grp:01' "$tmp/show"
+check review-show-group 0 $?
+grep -c '^              title: ' "$tmp/show" > "$tmp/x"; check review-show-titles 5 "$(cat "$tmp/x")"
 # adding the same findings again changes nothing
 $T review add --queue "$q" "$tmp/pt.out" 2>&1 | grep -q ' 0 new, 0 with new evidence'; check review-readd 0 $?
 
