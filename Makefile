@@ -39,13 +39,13 @@ SRC_norm = unicode token lexicon lexicon_read lexicon_image lexcache setup title
 	norm facets
 SRC_count = strtab idset tally_mem chunk store load store_redis store_redis_url store_redis_keys store_redis_chunk \
 	store_redis_apply store_redis_dump cluster slot
-SRC_rank = stats labels inputs coverage propose trend
+SRC_rank = stats labels inputs coverage propose trend groups overlap
 SRC_review = review_item review_json review_change review_batch review_time review_clash review_noise \
 	queue queue_file \
 	store_redis_queue delta
 SRC_report = chart report
 SRC_cli = options cli_norm cli_tally cli_rank cli_propose cli_review cli_review_change cli_review_read \
-	cli_review_out cli_report
+	cli_review_out cli_report cli_overlap
 DIRS = core io norm count rank review report cli
 vpath %.c $(DIRS:%=src/%) $(DIRS:%=tests/unit/%)
 HEADERS = $(wildcard src/*/*.h src/*/*.inc)
@@ -84,9 +84,13 @@ G2CASES = $(BUILD)/g2-cases.txt
 $(G2CASES): tests/unit/rank/gen_g2_cases.py | $(BUILD)
 	/usr/bin/python3 tests/unit/rank/gen_g2_cases.py $@.tmp && mv $@.tmp $@
 
-unit: $(UNIT_BIN) $(NTEST) $(G2CASES)
+JSDCASES = $(BUILD)/jsd-cases.txt
+$(JSDCASES): tests/unit/rank/gen_jsd_cases.py | $(BUILD)
+	/usr/bin/python3 tests/unit/rank/gen_jsd_cases.py $@.tmp && mv $@.tmp $@
+
+unit: $(UNIT_BIN) $(NTEST) $(G2CASES) $(JSDCASES)
 	@set -e; for t in $(UNIT_BIN); do \
-		NORMALIZATION_TEST=$(NTEST) G2_CASES=$(CURDIR)/$(G2CASES) $$t; done
+		NORMALIZATION_TEST=$(NTEST) G2_CASES=$(CURDIR)/$(G2CASES) JSD_CASES=$(CURDIR)/$(JSDCASES) $$t; done
 
 test: titlemill unit
 	TITLEMILL=$(CURDIR)/titlemill sh tests/run-suites.sh
@@ -102,8 +106,8 @@ titlemill-asan-bin: $(CORE_OBJ) $(CLI_OBJ) unit
 
 # valgrind memcheck over the normaliser and tally paths and their unit
 # tests: zero errors, zero definite or indirect leaks.
-valgrind: titlemill $(UNIT_BIN) $(NTEST) $(G2CASES)
-	NORMALIZATION_TEST=$(CURDIR)/$(NTEST) G2_CASES=$(CURDIR)/$(G2CASES) \
+valgrind: titlemill $(UNIT_BIN) $(NTEST) $(G2CASES) $(JSDCASES)
+	NORMALIZATION_TEST=$(CURDIR)/$(NTEST) G2_CASES=$(CURDIR)/$(G2CASES) JSD_CASES=$(CURDIR)/$(JSDCASES) \
 		sh tests/valgrind.sh $(CURDIR)/titlemill $(CURDIR)/$(BUILD)
 
 # libFuzzer targets (clang): FUZZ_SECONDS each, corpus in build-fuzz/;
@@ -144,6 +148,7 @@ bench: titlemill $(BUILD)/count_stage
 	sh tests/bench/cluster.sh $(CURDIR)/titlemill
 	sh tests/bench/rank.sh $(CURDIR)/titlemill
 	sh tests/bench/report.sh $(CURDIR)/titlemill
+	sh tests/bench/overlap.sh $(CURDIR)/titlemill
 
 # The Debian 12 packages of .ci/packages: through sudo unless already root
 # (.ci/deps, which a fresh machine runs before make is installed).

@@ -38,6 +38,16 @@ echo "  ... all $(wc -l < "$here/titles.txt") in $o/titles.clean.txt (facets: $o
 echo
 echo "== a day of postings in English, German and French: generated ($ex/gen_day.py)"
 "$py" "$here/gen_day.py" > "$out/day.tsv"
+# The taxonomy's structure, planted: Valdoria Logistik advertises packers
+# (occ:9321) under the warehouse operatives' titles (occ:9333), and the
+# graphic designers (occ:2166, filed with the engineers of group 21 by
+# their code) are advertised like the marketing executives of group 24
+# (occ:2431).
+awk -F '\t' -v OFS='\t' 'NR == 1 { for (i = 1; i <= NF; i++) c[$i] = i; next }
+	$c["occupations"] == "occ:9333" && ++w % 2 == 0 { $c["id"] = $c["id"] "-p"; $c["occupations"] = "occ:9321"; print }
+	$c["occupations"] == "occ:2431" && ++k % 2 == 0 { $c["id"] = $c["id"] "-g"; $c["occupations"] = "occ:2166"; print }' \
+	"$out/day.tsv" > "$out/day.planted"
+cat "$out/day.planted" >> "$out/day.tsv"
 "$T" tally --labels "$here/taxonomy.tsv" -o "$out/day.counts.tsv" "$out/day.tsv" 2>&1 |
 	sed "s|$out/|$o/|g; s/^/  /"
 
@@ -55,6 +65,15 @@ echo "== suggestions for the curators: titlemill propose"
 show suggestions "$out/suggestions.tsv"
 echo
 echo "  These are suggestions for a curator, who decides; each comes with its evidence."
+echo
+echo "== occupations the postings cannot tell apart: titlemill overlap (groups: the first two digits of the code)"
+"$T" overlap --labels "$here/taxonomy.tsv" --group-prefix 2 --json "$out/day.counts.tsv" > "$out/overlap.jsonl" 2> "$out/overlap.log"
+"$T" overlap --labels "$here/taxonomy.tsv" --group-prefix 2 "$out/day.counts.tsv" > "$out/overlap.tsv" 2>/dev/null
+sed 's/^titlemill overlap: /  /' "$out/overlap.log"
+awk -F '\t' '$1 == "overlapping_occupations"' "$out/overlap.tsv" | head -4 |
+	awk -F '\t' '{ printf "  %s %s %-22s ~ %s %-24s divergence %s, shared %s\n", $6, $2, $3, $4, $5, $7, $8 }'
+awk -F '\t' '$1 == "nearer_other_group"' "$out/overlap.tsv" | head -2 |
+	awk -F '\t' '{ printf "  %s %s %s: filed in %s (%s bits), nearer %s (%s bits): %s\n", $6, $2, $3, $11, $13, $12, $7, substr($14, 1, 60) }'
 echo
 echo "== the curators' queue: titlemill review (here a curator called 'demo' decides three)"
 q=$out/queue.jsonl

@@ -67,5 +67,6 @@ int cmd_propose(int argc, char **argv);
 int cmd_labels(int argc, char **argv);
 int cmd_review(int argc, char **argv);
 int cmd_report(int argc, char **argv);
+int cmd_overlap(int argc, char **argv);
 
 #endif

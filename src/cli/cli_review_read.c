@@ -249,6 +249,34 @@ static void show_evidence(tm_buf *b, const char *title, const char *json)
 	char line[400];
 	evid_read(json, &e);
 	const jr_val *v = e.v;
+	if (jr_get(v, "divergence")) { /* a finding of overlap */
+		size_t gl = 0, hl = 0, ol = 0;
+		const char *g = jr_vstr(jr_get(v, "group"), &gl), *h = jr_vstr(jr_get(v, "other_group"), &hl);
+		const char *o = jr_vstr(jr_get(v, "other_occupation"), &ol);
+		snprintf(line, sizeof line, "%sdivergence %.4f bits from %s %.*s (%llu postings; this "
+			 "occupation %llu)", title, jr_vnum(jr_get(v, "divergence")),
+			 o ? "occupation" : "group", (int)(o ? ol : hl), o ? o : h ? h : "",
+			 (unsigned long long)jr_vint(jr_get(v, "other_postings")),
+			 (unsigned long long)jr_vint(jr_get(v, "postings")));
+		buf_puts(b, line);
+		if (o)
+			snprintf(line, sizeof line, ", shared mass %.4f\n", jr_vnum(jr_get(v, "shared")));
+		else
+			snprintf(line, sizeof line, "; %.4f bits from its own group %.*s\n",
+				 jr_vnum(jr_get(v, "group_divergence")), (int)gl, g ? g : "");
+		buf_puts(b, line);
+		const jr_val *x = jr_get(v, "titles");
+		for (size_t i = 0; i < jr_vlen(x); i++) {
+			size_t l;
+			const char *s = jr_vstr(jr_get(jr_at(x, i), "title"), &l);
+			snprintf(line, sizeof line, "              title: %.*s (%llu / %llu)\n", (int)(s ? l : 0),
+				 s ? s : "", (unsigned long long)jr_vint(jr_get(jr_at(x, i), "postings")),
+				 (unsigned long long)jr_vint(jr_get(jr_at(x, i), "other_postings")));
+			buf_puts(b, line);
+		}
+		jr_free(e.d);
+		return;
+	}
 	snprintf(line, sizeof line,
 		 "%s%llu postings of %llu (share %.4f, 95 %% interval %.4f-%.4f), "
 		 "key postings %llu, precision %.4f, G2 %.4f\n",

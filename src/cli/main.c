@@ -24,6 +24,7 @@ static const char usage[] =
 	"  labels    print a taxonomy's labels (TSV or SKOS) with their keys\n"
 	"  review    the curators' queue: add, list, decide, export suggestions\n"
 	"  report    one HTML page of coverage, labels' shares and suggestions\n"
+	"  overlap   occupations named alike, and those nearer another group\n"
 	"\n"
 	"Run 'titlemill COMMAND --help' for the options of a command.\n";
 
@@ -91,6 +92,8 @@ int main(int argc, char **argv)
 		return cmd_propose(argc - 1, argv + 1);
 	if (!strcmp(argv[1], "labels"))
 		return cmd_labels(argc - 1, argv + 1);
+	if (!strcmp(argv[1], "overlap"))
+		return cmd_overlap(argc - 1, argv + 1);
 	if (!strcmp(argv[1], "review"))
 		return cmd_review(argc - 1, argv + 1);
 	if (!strcmp(argv[1], "report"))

@@ -26,6 +26,7 @@ enum { S_OUT, S_Q1, S_Q2, S_SHORT, S_LONG, S_IRI, S_COMMENT };
 typedef struct rd {
 	SerdEnv *env;
 	skos_label_fn fn;
+	skos_broader_fn broader; /* set: skos:broader is read, labels are not */
 	void *ctx;
 	tm_buf *err;
 	const char *path;
@@ -198,6 +199,38 @@ static void skipped(long *n, long *first, long line)
 		*first = line;
 }
 
+/* A skos:broader (or skos:narrower, turned round) statement between two
+ * IRIs, to r->broader. */
+static SerdStatus on_broader(rd *r, const SerdNode *subject, const SerdNode *predicate,
+			     const SerdNode *object)
+{
+	SerdStatus st = SERD_SUCCESS;
+	if ((subject->type != SERD_URI && subject->type != SERD_CURIE) ||
+	    (object->type != SERD_URI && object->type != SERD_CURIE))
+		return SERD_SUCCESS;
+	SerdNode p = serd_env_expand_node(r->env, predicate);
+	int broader = p.buf && !strcmp((const char *)p.buf, SKOS "broader");
+	int narrower = p.buf && !strcmp((const char *)p.buf, SKOS "narrower");
+	serd_node_free(&p);
+	if (!broader && !narrower)
+		return SERD_SUCCESS;
+	SerdNode s = serd_env_expand_node(r->env, subject), o = serd_env_expand_node(r->env, object);
+	const SerdNode *sub = s.buf ? &s : subject, *obj = o.buf ? &o : object;
+	if (narrower) { /* G skos:narrower C is C skos:broader G */
+		const SerdNode *t = sub;
+		sub = obj;
+		obj = t;
+	}
+	if (r->broader(r->ctx, (const char *)sub->buf, sub->n_bytes, (const char *)obj->buf,
+		       obj->n_bytes) != 0) {
+		r->failed = 1;
+		st = SERD_FAILURE;
+	}
+	serd_node_free(&s);
+	serd_node_free(&o);
+	return st;
+}
+
 static SerdStatus on_statement(void *h, SerdStatementFlags flags, const SerdNode *graph,
 			       const SerdNode *subject, const SerdNode *predicate,
 			       const SerdNode *object, const SerdNode *datatype,
@@ -215,6 +248,8 @@ static SerdStatus on_statement(void *h, SerdStatementFlags flags, const SerdNode
 
 	if (object->type == SERD_LITERAL)
 		r->cut = 0; /* this statement's literal was the last one read */
+	if (r->broader)
+		return on_broader(r, subject, predicate, object);
 	if (object->type != SERD_LITERAL || !lang || !lang->n_bytes)
 		return SERD_SUCCESS;
 	p = serd_env_expand_node(r->env, predicate);
@@ -300,8 +335,30 @@ int skos_read(const char *path, skos_label_fn fn, void *ctx, skos_skipped *sk, t
 	return skos_read_count(path, fn, ctx, sk, &n, err);
 }
 
+static int read_file(const char *path, skos_label_fn fn, skos_broader_fn broader, void *ctx,
+		     skos_skipped *sk, size_t *statements, tm_buf *err);
+
 int skos_read_count(const char *path, skos_label_fn fn, void *ctx, skos_skipped *sk,
 		    size_t *statements, tm_buf *err)
+{
+	return read_file(path, fn, NULL, ctx, sk, statements, err);
+}
+
+int skos_is_rdf_path(const char *path)
+{
+	size_t n = strlen(path);
+	return (n > 4 && !strcmp(path + n - 4, ".ttl")) || (n > 3 && !strcmp(path + n - 3, ".nt")) ||
+	       (n > 7 && !strcmp(path + n - 7, ".turtle"));
+}
+
+int skos_read_broader(const char *path, skos_broader_fn fn, void *ctx, tm_buf *err)
+{
+	size_t n;
+	return read_file(path, NULL, fn, ctx, NULL, &n, err);
+}
+
+static int read_file(const char *path, skos_label_fn fn, skos_broader_fn broader, void *ctx,
+		     skos_skipped *sk, size_t *statements, tm_buf *err)
 {
 	size_t n = strlen(path);
 	SerdSyntax syn = n > 3 && !strcmp(path + n - 3, ".nt") ? SERD_NTRIPLES : SERD_TURTLE;
@@ -321,6 +378,7 @@ int skos_read_count(const char *path, skos_label_fn fn, void *ctx, skos_skipped 
 	r.line = 1;
 	r.env = serd_env_new(NULL);
 	r.fn = fn;
+	r.broader = broader;
 	r.ctx = ctx;
 	r.err = err;
 	r.path = path;

@@ -41,6 +41,18 @@ int skos_read(const char *path, skos_label_fn fn, void *ctx, skos_skipped *sk, t
 int skos_read_count(const char *path, skos_label_fn fn, void *ctx, skos_skipped *sk,
 		    size_t *statements, tm_buf *err);
 
+/* Does path name an RDF file this reader takes (.ttl, .turtle, .nt)? */
+int skos_is_rdf_path(const char *path);
+
+/* The skos:broader statements of path whose subject and object are both
+ * IRIs (expanded and resolved as above), each handed to fn as the
+ * concept and its broader concept, in the file's order; a skos:narrower
+ * statement is handed over turned round (G narrower C: C broader G).  Returns as
+ * skos_read. */
+typedef int (*skos_broader_fn)(void *ctx, const char *occ, size_t ol, const char *broader,
+			       size_t bl);
+int skos_read_broader(const char *path, skos_broader_fn fn, void *ctx, tm_buf *err);
+
 /* Writing labels as SKOS: Turtle (with the skos: prefix) or N-Triples,
  * appended to out (borrowed until skos_writer_end).  A comment line is
  * written as "# text".  kind is 'p', 'a' or 'h'.  Return TM_OK or TM_EFAIL (err.h); TM_EFAIL

@@ -54,6 +54,11 @@ static const char *ev_str(const delta *x, const char *obj, const char *field)
 	return s && n && !memchr(s, 0, n) ? s : NULL;
 }
 
+static double ev_num(const delta *x, const char *field)
+{
+	return jr_vnum(jr_get(jr_root(x->ev), field));
+}
+
 static unsigned long long ev_count(const delta *x, const char *obj, const char *field)
 {
 	const jr_val *v = jr_root(x->ev);
@@ -94,7 +99,22 @@ static int reason(tm_buf *b, const delta *x)
 	if (x->it->kind == RK_RARE)
 		snprintf(line, sizeof line, "rare: %llu of %llu postings of the occupation",
 			 (unsigned long long)x->it->postings, ev_count(x, NULL, "occupation_postings"));
-	else {
+	else if (x->it->kind == RK_OVERLAP) {
+		const char *other = ev_str(x, NULL, "other_occupation");
+		buf_puts(b, "overlaps ");
+		buf_puts(b, other ? other : "another occupation");
+		snprintf(line, sizeof line, ": divergence %.4f bits, shared mass %.4f",
+			 ev_num(x, "divergence"), ev_num(x, "shared"));
+	} else if (x->it->kind == RK_NEARER) {
+		const char *g = ev_str(x, NULL, "group"), *h = ev_str(x, NULL, "other_group");
+		buf_puts(b, "nearer group ");
+		buf_puts(b, h ? h : "another");
+		snprintf(line, sizeof line, " (%.4f bits) than its own", ev_num(x, "divergence"));
+		buf_puts(b, line);
+		buf_puts(b, g ? " " : "");
+		buf_puts(b, g ? g : "");
+		snprintf(line, sizeof line, " (%.4f bits)", ev_num(x, "group_divergence"));
+	} else {
 		const char *rival = ev_str(x, "competitor", "occupation");
 		/* the rival is checked (FC_OCC_MAX bytes) before it gets here */
 		buf_puts(b, "used elsewhere: ");
@@ -114,6 +134,8 @@ static const char *unsafe_field(const delta *x, char why[FC_WHY])
 	const rq_item *it = x->it;
 	const char *note = x->dec->note ? x->dec->note : "";
 	const char *rival = x->review ? ev_str(x, "competitor", "occupation") : NULL;
+	const char *other = ev_str(x, NULL, "other_occupation");
+	const char *g = ev_str(x, NULL, "group"), *h = ev_str(x, NULL, "other_group");
 	return fc_id(it->id, strlen(it->id), why) ? "id"
 	       : fc_occupation(it->occ, strlen(it->occ), why) ? "occupation"
 	       : fc_lang(it->lang, strlen(it->lang), why) ? "lang"
@@ -123,6 +145,9 @@ static const char *unsafe_field(const delta *x, char why[FC_WHY])
 	       : rival && fc_occupation(rival, strlen(rival), why) ? "competitor.occupation"
 	       : it->brief.occ_label && fc_label(it->brief.occ_label, strlen(it->brief.occ_label), why)
 		       ? "occupation_label"
+	       : other && fc_occupation(other, strlen(other), why) ? "other_occupation"
+	       : g && fc_label(g, strlen(g), why) ? "group"
+	       : h && fc_label(h, strlen(h), why) ? "other_group"
 		       : NULL;
 }
 

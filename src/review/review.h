@@ -51,6 +51,8 @@ enum rq_status { RQ_OPEN, RQ_ACCEPTED, RQ_REJECTED, RQ_DEFERRED, RQ_NSTATUS };
 	X(RK_HIDDEN, "new_hidden_label", 'h') \
 	X(RK_RARE, "rare_label", 'r')         \
 	X(RK_ELSEWHERE, "used_elsewhere", 'r') \
+	X(RK_OVERLAP, "overlapping_occupations", 'r') \
+	X(RK_NEARER, "nearer_other_group", 'r') \
 	/* a new kind goes above this line */
 
 #define RQ_KIND_ENUM(e, name, delta) e,
