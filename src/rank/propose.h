@@ -46,6 +46,8 @@ extern const char *const propose_kind_names[PROPOSE_NKINDS + 1];
 	  "new_hidden_label: postings of the variant") \
 	X(double, OPT_REAL, hidden_precision, "hidden-precision", "X", 0.5, 0, 1, \
 	  "new_hidden_label: precision of the variant") \
+	X(double, OPT_REAL, hidden_share, "hidden-share", "X", 0.01, 0, 1, \
+	  "new_hidden_label: lower Wilson bound of its share of the label's and its postings above X") \
 	X(uint64_t, OPT_U64, rare_min, "rare-min", "N", 200, 0, 1e18, \
 	  "rare_label: postings of the occupation") \
 	X(double, OPT_REAL, rare_share, "rare-share", "X", 0.005, 0, 1, \
@@ -86,7 +88,12 @@ typedef struct propose_sugg {
 				       * key, or NULL */
 	size_t rl;
 	uint64_t rival_postings;
-	const char *variant;          /* hidden: "spacing" or "typo" */
+	double strength;              /* in [0, 1]: the mid-rank percentile of
+				       * score among the run's suggestions of
+				       * the same kind, before any filter */
+	uint64_t label_postings;      /* hidden: postings of the label varied
+				       * with the occupation */
+	const char *variant;          /* hidden: "spacing", "typo" or "spelling" */
 	char id[17];                  /* 16 hex digits of the hash of kind,
 				       * occupation, language and key */
 } propose_sugg;
@@ -106,10 +113,17 @@ int propose_run(tally_mem *m, const labelset *ls, const propose_bars *b,
 
 void propose_list_free(propose_list *l);
 
+/* The word lengths (code points) for variants one and two edits apart. */
+#define PROPOSE_TYPO_MIN 6
+#define PROPOSE_SPELLING_MIN 7
+
 /* Is key a spelling variant of label key lk?  "spacing": equal without
- * spaces; "typo": the same words but one, and that one a single edit
- * (Levenshtein) from its counterpart, both of six code points or more.
- * NULL when neither (or when they are equal). */
+ * spaces and hyphens ("gabelstapler-fahrer", "gabelstaplerfahrer");
+ * otherwise the same words but one, whose two forms both have
+ * PROPOSE_TYPO_MIN code points or more and are "typo": one edit
+ * (Levenshtein) apart ("schweiser"), or "spelling": two edits apart when
+ * the longer has PROPOSE_SPELLING_MIN or more ("theater" / "theatre",
+ * "dialog" / "dialogue").  NULL when none (or when they are equal). */
 const char *propose_variant(const char *key, size_t kl, const char *lk, size_t ll);
 
 /* The label as the postings write it: the first of the nex examples
