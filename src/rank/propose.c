@@ -36,12 +36,14 @@ typedef struct trip {
 	uint32_t lab;    /* the label with its key in its group: labkeys index + 1, or 0 */
 	uint32_t grp;    /* its (occupation, language): index in grp[] */
 	char lang[4];
+	uint64_t hash;   /* of its (language, key) */
 } trip;
 
 /* A (language, key) over all occupations. */
 typedef struct kinfo {
-	uint64_t hash;
-	uint32_t first;  /* a triple holding it */
+	const char *key; /* a triple's */
+	uint32_t kl;
+	char lang[4];
 	uint32_t i1, i2; /* its two strongest triples: index + 1, 0 none */
 	uint64_t postings; /* of the key in the language, whatever the occupation */
 } kinfo;
@@ -62,11 +64,13 @@ typedef struct ranker {
 	size_t n, cap;
 	kinfo *keys;
 	size_t nkeys, keycap;
-	uint32_t *slot;  /* open addressing over keys[]: index + 1, 0 empty */
+	uint64_t *slot;  /* open addressing over keys[]: the hash's high 32
+			  * bits, then index + 1 (0: empty) */
 	size_t nslot;
 	group *grp;
 	size_t ngrp, grpcap;
 	labkeys lk;
+	uint64_t *labsig;  /* per label key: variant_sig */
 	uint32_t *labtrip; /* per label: the triple of its occupation, language
 			    * and key, index + 1, or 0 */
 	strtab nlang;    /* lang -> postings */
@@ -84,28 +88,38 @@ static uint64_t key_hash(const char *lang, const char *key, size_t kl)
 	return tok_hash_mix(tok_hash(key, kl), tok_hash(lang, strlen(lang)));
 }
 
-/* The (language, key)'s entry in keys[], added when absent (first is
- * then its triple); -1 when memory ran out.  The table is sized once
- * for every triple (at most one key each): it never grows. */
-static long key_id(ranker *c, const char *lang, const char *key, size_t kl, uint32_t first,
-		   int add)
+/* The (language, key) of hash h: its entry in keys[], added when absent
+ * and add is set; -1 when absent.  The table is sized once for every
+ * triple (at most one key each): it never grows, and most lookups read
+ * one slot (its hash's high bits tell most keys apart). */
+static long key_id(ranker *c, uint64_t h, const char *lang, const char *key, size_t kl, int add)
 {
-	uint64_t h = key_hash(lang, key, kl);
 	size_t mask = c->nslot - 1;
+	uint64_t hi = h & 0xFFFFFFFF00000000ULL;
 	for (size_t s = (size_t)h & mask;; s = (s + 1) & mask) {
-		uint32_t e = c->slot[s];
+		uint64_t e = c->slot[s];
 		if (!e) {
 			if (!add)
 				return -1;
-			c->keys[c->nkeys] = (kinfo){h, first, 0, 0, 0};
-			c->slot[s] = (uint32_t)++c->nkeys;
+			kinfo *ki = &c->keys[c->nkeys];
+			memset(ki, 0, sizeof *ki);
+			ki->key = key;
+			ki->kl = (uint32_t)kl;
+			memcpy(ki->lang, lang, strlen(lang) + 1);
+			c->slot[s] = hi | (uint32_t)++c->nkeys;
 			return (long)c->nkeys - 1;
 		}
-		const kinfo *ki = &c->keys[e - 1];
-		const trip *t = &c->t[ki->first];
-		if (ki->hash == h && same(t->key, t->kl, key, kl) && !strcmp(t->lang, lang))
-			return (long)e - 1;
+		if ((e & 0xFFFFFFFF00000000ULL) != hi)
+			continue;
+		const kinfo *ki = &c->keys[(uint32_t)e - 1];
+		if (same(ki->key, ki->kl, key, kl) && !strcmp(ki->lang, lang))
+			return (long)(uint32_t)e - 1;
 	}
+}
+
+static void key_prefetch(const ranker *c, uint64_t h)
+{
+	__builtin_prefetch(&c->slot[(size_t)h & (c->nslot - 1)]);
 }
 
 static int collect(void *c0, const tm_triple *x)
@@ -127,6 +141,7 @@ static int collect(void *c0, const tm_triple *x)
 	t->tl = x->tl;
 	t->k = x->postings;
 	memcpy(t->lang, x->lang, x->ll < 3 ? x->ll : 3);
+	t->hash = key_hash(t->lang, t->key, t->kl);
 	/* a new (occupation, language)? */
 	group *g = c->ngrp ? &c->grp[c->ngrp - 1] : NULL;
 	if (!g || !same(c->t[g->first].occ, c->t[g->first].ol, t->occ, t->ol) ||
@@ -179,6 +194,22 @@ static size_t ncp(const char *s, size_t n)
 	return c;
 }
 
+/* Do two words differ only inside one stretch of at most two code points
+ * on each side ("re" / "er", "ue" / "")? */
+static int one_stretch(const char *a, size_t an, const char *b, size_t bn)
+{
+	size_t p = 0, s = 0;
+	while (p < an && p < bn && a[p] == b[p])
+		p++;
+	while (p > 0 && ((unsigned char)a[p] & 0xC0) == 0x80) /* to a code point's start */
+		p--;
+	while (s < an - p && s < bn - p && a[an - 1 - s] == b[bn - 1 - s])
+		s++;
+	while (s > 0 && ((unsigned char)a[an - s] & 0xC0) == 0x80)
+		s--;
+	return ncp(a + p, an - p - s) <= 2 && ncp(b + p, bn - p - s) <= 2;
+}
+
 const char *propose_variant(const char *key, size_t kl, const char *lk, size_t ll)
 {
 	char a[512], b[512];
@@ -193,8 +224,9 @@ const char *propose_variant(const char *key, size_t kl, const char *lk, size_t l
 	 * counterpart, both long enough that the edits are slips or a
 	 * spelling convention rather than another word: one edit when both
 	 * have PROPOSE_TYPO_MIN code points ("schweisser" / "schweiser", not
-	 * "tig" / "mig"), two when the longer has PROPOSE_SPELLING_MIN too
-	 * ("theatre" / "theater", "dialogue" / "dialog") */
+	 * "tig" / "mig"), two inside one stretch of two code points when the
+	 * longer has PROPOSE_SPELLING_MIN too ("theatre" / "theater",
+	 * "dialogue" / "dialog", not "technicien" / "mecanicien") */
 	const char *p = key, *q = lk, *pe = key + kl, *qe = lk + ll;
 	int diff = 0, d = 0;
 	while (p < pe && q < qe) {
@@ -206,7 +238,7 @@ const char *propose_variant(const char *key, size_t kl, const char *lk, size_t l
 				return NULL;
 			int max = (ca > cb ? ca : cb) >= PROPOSE_SPELLING_MIN ? 2 : 1;
 			d = levenshtein(p, wa, q, wb, max);
-			if (d < 1 || d > max)
+			if (d < 1 || d > max || (d == 2 && !one_stretch(p, wa, q, wb)))
 				return NULL;
 		}
 		p += wa + (a1 != NULL);
@@ -292,6 +324,7 @@ static int index_keys(ranker *c)
 {
 	tally_mem *m = c->m;
 	size_t need = c->n + 1;
+	enum { AHEAD = 8 }; /* slots fetched ahead of their use */
 
 	for (c->nslot = 16; c->nslot < need + need / 2; c->nslot *= 2)
 		;
@@ -301,7 +334,9 @@ static int index_keys(ranker *c)
 		return -1;
 	for (size_t i = 0; i < c->n; i++) {
 		trip *t = &c->t[i];
-		long id = key_id(c, t->lang, t->key, t->kl, (uint32_t)i, 1);
+		if (i + AHEAD < c->n)
+			key_prefetch(c, c->t[i + AHEAD].hash);
+		long id = key_id(c, t->hash, t->lang, t->key, t->kl, 1);
 		kinfo *ki = &c->keys[id];
 		uint32_t me = (uint32_t)i + 1;
 		t->kid = (uint32_t)id;
@@ -311,15 +346,33 @@ static int index_keys(ranker *c)
 		} else if (!ki->i2 || t->k > c->t[ki->i2 - 1].k)
 			ki->i2 = me;
 	}
+	/* the counts' keys (lang 1F key), their hashes a few ahead */
+	uint64_t ring[AHEAD];
+	char rlang[AHEAD][4];
 	size_t li = 0, pll = 0;
 	const char *plang = NULL;
-	for (size_t i = 0; i < m->keys.n; i++) {
+	for (size_t i = 0; i < m->keys.n + AHEAD; i++) {
+		if (i >= AHEAD) {
+			size_t q = i - AHEAD, n;
+			const char *k = st_key(&m->keys, q, &n);
+			const char *lg = rlang[q % AHEAD];
+			size_t ll = strlen(lg);
+			long id = ll ? key_id(c, ring[q % AHEAD], lg, k + ll + 1, n - ll - 1, 0) : -1;
+			if (id >= 0)
+				c->keys[id].postings = m->keys.ent[q].count;
+		}
+		if (i >= m->keys.n)
+			continue;
 		size_t n;
 		const char *k = st_key(&m->keys, i, &n);
 		const char *sep = memchr(k, '\x1F', n);
 		size_t ll = sep ? (size_t)(sep - k) : n;
-		uint64_t cnt = m->keys.ent[i].count;
-		char lg[4] = {0};
+		char *lg = rlang[i % AHEAD];
+		memset(lg, 0, 4);
+		if (sep && ll <= 3)
+			memcpy(lg, k, ll);
+		ring[i % AHEAD] = lg[0] ? key_hash(lg, sep + 1, n - ll - 1) : 0;
+		key_prefetch(c, ring[i % AHEAD]);
 		/* the keys of one language mostly follow each other */
 		if (!plang || !same(plang, pll, k, ll)) {
 			if (st_add(&c->nlang, k, ll, 0, &li) < 0)
@@ -327,13 +380,7 @@ static int index_keys(ranker *c)
 			plang = k;
 			pll = ll;
 		}
-		c->nlang.ent[li].count += cnt;
-		if (!sep || ll > 3)
-			continue;
-		memcpy(lg, k, ll);
-		long id = key_id(c, lg, sep + 1, n - ll - 1, 0, 0);
-		if (id >= 0)
-			c->keys[id].postings = cnt;
+		c->nlang.ent[li].count += m->keys.ent[i].count;
 	}
 	return 0;
 }
@@ -350,6 +397,26 @@ static uint64_t lang_postings(const ranker *c, const char *lang)
 	return li < 0 ? 0 : c->nlang.ent[li].count;
 }
 
+/* The code points of a key but spaces and hyphens, each as one of 64
+ * bits.  When propose_variant finds a variant, the two keys' sets differ
+ * by at most four bits (two edits, each dropping one code point and
+ * adding one; spacing none): a cheap test that passes every variant of a
+ * key short enough (VARIANT_SIG_MAX bytes) for propose_variant to see
+ * whole. */
+#define VARIANT_SIG_MAX 128
+static uint64_t variant_sig(const char *s, size_t n)
+{
+	uint64_t sig = 0;
+	for (size_t i = 0; i < n;) {
+		uint32_t cp = (unsigned char)s[i++];
+		while (i < n && ((unsigned char)s[i] & 0xC0) == 0x80)
+			cp = cp << 6 | ((unsigned char)s[i++] & 0x3F);
+		if (cp != ' ' && cp != '-')
+			sig |= 1ULL << ((cp ^ cp >> 6 ^ cp >> 12) & 63);
+	}
+	return sig;
+}
+
 /* A spelling variant of one of the labels of t's group: the first such
  * label in the labels file, with how it varies; NULL when none. */
 static const label *variant_of(const ranker *c, const trip *t, const char **how)
@@ -357,11 +424,17 @@ static const label *variant_of(const ranker *c, const trip *t, const char **how)
 	const labelset *ls = c->ls;
 	const group *g = &c->grp[t->grp];
 	const label *var = NULL;
+	int quick = t->kl <= VARIANT_SIG_MAX;
+	uint64_t sig = quick ? variant_sig(t->key, t->kl) : 0;
 	for (size_t q = g->lo; q < g->hi; q++) {
 		const label *lb = &ls->v[c->lk.v[q].lab];
 		const char *h;
-		if ((!var || lb < var) &&
-		    (h = propose_variant(t->key, t->kl, lab_str(ls, lb->key), lb->keylen))) {
+		if (var && lb > var)
+			continue;
+		if (quick && lb->keylen <= VARIANT_SIG_MAX &&
+		    __builtin_popcountll(sig ^ c->labsig[q]) > 4)
+			continue;
+		if ((h = propose_variant(t->key, t->kl, lab_str(ls, lb->key), lb->keylen))) {
 			var = lb;
 			*how = h;
 		}
@@ -467,7 +540,7 @@ static int rank_labels(ranker *c)
 		uint32_t own = c->labtrip[c->lk.v[e].lab];
 		uint64_t k = own ? c->t[own - 1].k : 0;
 		const trip *rival = NULL;
-		long id = key_id(c, lb->lang, key, lb->keylen, 0, 0);
+		long id = key_id(c, key_hash(lb->lang, key, lb->keylen), lb->lang, key, lb->keylen, 0);
 		if (id >= 0) {
 			const kinfo *ki = &c->keys[id];
 			for (uint32_t r = 0; r < 2 && !rival; r++) {
@@ -551,7 +624,14 @@ int propose_run(tally_mem *m, const labelset *ls, const propose_bars *b,
 	c.b = b;
 	c.out = out;
 	c.labtrip = calloc(ls->n + 1, sizeof *c.labtrip);
-	if (!c.labtrip || labkeys_build(&c.lk, ls) != 0 || tm_each_triple(m, collect, &c) != 0 ||
+	c.labsig = malloc((ls->n + 1) * sizeof *c.labsig);
+	if (!c.labtrip || !c.labsig || labkeys_build(&c.lk, ls) != 0)
+		goto done;
+	for (size_t q = 0; q < c.lk.n; q++) {
+		const label *lb = &ls->v[c.lk.v[q].lab];
+		c.labsig[q] = variant_sig(lab_str(ls, lb->key), lb->keylen);
+	}
+	if (tm_each_triple(m, collect, &c) != 0 ||
 	    index_keys(&c) != 0 || rank_titles(&c) != 0 || rank_labels(&c) != 0)
 		goto done;
 	/* stable ids: the kind, occupation, language and key */
@@ -583,6 +663,7 @@ done:
 	free(c.slot);
 	free(c.grp);
 	free(c.labtrip);
+	free(c.labsig);
 	labkeys_free(&c.lk);
 	st_free(&c.nlang);
 	buf_free(&j);

@@ -121,9 +121,11 @@ void propose_list_free(propose_list *l);
  * spaces and hyphens ("gabelstapler-fahrer", "gabelstaplerfahrer");
  * otherwise the same words but one, whose two forms both have
  * PROPOSE_TYPO_MIN code points or more and are "typo": one edit
- * (Levenshtein) apart ("schweiser"), or "spelling": two edits apart when
- * the longer has PROPOSE_SPELLING_MIN or more ("theater" / "theatre",
- * "dialog" / "dialogue").  NULL when none (or when they are equal). */
+ * (Levenshtein) apart ("schweiser"), or "spelling": two edits apart,
+ * both inside one stretch of at most two code points of each, when the
+ * longer has PROPOSE_SPELLING_MIN or more ("theater" / "theatre",
+ * "dialog" / "dialogue"; not "technicien" / "mecanicien", whose edits
+ * are apart).  NULL when none (or when they are equal). */
 const char *propose_variant(const char *key, size_t kl, const char *lk, size_t ll);
 
 /* The label as the postings write it: the first of the nex examples

@@ -401,6 +401,10 @@ static void test_variant(void **state)
 	assert_null(propose_variant("fahrer", 6, "f\xc3\xa4rber", 7));      /* six letters each */
 	assert_null(propose_variant("maler", 5, "malerin", 7));            /* a word under six */
 	assert_null(propose_variant("mechaniker", 10, "mechatroniker", 13)); /* three edits */
+	/* two edits apart from each other: another word, not a spelling */
+	assert_null(propose_variant("technicien automobile", 21, "mecanicien automobile", 21));
+	assert_string_equal(propose_variant("programme", 9, "program", 7), "spelling");
+	assert_string_equal(propose_variant("th\xc3\xa9\xc3\xa2tre", 9, "theatre", 7), "spelling");
 }
 
 static void test_as_written(void **state)
