@@ -5,7 +5,8 @@
  * Kinds (README.md, "Suggestions", explains each with its bars):
  *   new_alt_label     a cleaned title the occupation's postings use often
  *                     and specifically, matching none of its labels
- *   new_hidden_label  a spelling variant of one of its labels
+ *   new_hidden_label  a recurrent spelling variant of one of its labels
+ *                     (propose_variant says which variants count)
  *   rare_label        a label the occupation's postings hardly use
  *   used_elsewhere    a label whose postings mostly carry another
  *                     occupation
@@ -107,7 +108,13 @@ typedef struct propose_list {
 /* Ranks the suggestions of m and ls passing bars b (filtered by f, which
  * may be NULL) into out.  Returns 0, or -1 when memory ran out (out is
  * then empty).  Deterministic: the same counts and labels give the same
- * list. */
+ * list, and each suggestion the same strength whatever f.  Prints
+ * nothing.  Cost: one sort of the counts' forms by occupation
+ * (tm_each_triple), then linear in triples and labels (one hash table of
+ * compact ids over the (language, key)s, the labels met in key order
+ * beside each occupation's triples), plus, for each title that is none
+ * of its labels, a cheap test against each label of its occupation and
+ * language. */
 int propose_run(tally_mem *m, const labelset *ls, const propose_bars *b,
 		const propose_filter *f, propose_list *out);
 
