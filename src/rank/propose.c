@@ -176,14 +176,22 @@ static int collect(void *c0, const tm_triple *x)
 	return 0;
 }
 
-/* The key without its spaces and hyphens. */
-static size_t nosep(const char *s, size_t n, char *out, size_t cap)
+/* Are a and b the same once their spaces and hyphens are dropped, and
+ * not empty then? */
+static int same_nosep(const char *a, size_t an, const char *b, size_t bn)
 {
-	size_t k = 0;
-	for (size_t i = 0; i < n && k < cap; i++)
-		if (s[i] != ' ' && s[i] != '-')
-			out[k++] = s[i];
-	return k;
+	size_t i = 0, j = 0, kept = 0;
+	for (;;) {
+		while (i < an && (a[i] == ' ' || a[i] == '-'))
+			i++;
+		while (j < bn && (b[j] == ' ' || b[j] == '-'))
+			j++;
+		if (i == an || j == bn)
+			return i == an && j == bn && kept;
+		if (a[i++] != b[j++])
+			return 0;
+		kept++;
+	}
 }
 
 static size_t ncp(const char *s, size_t n)
@@ -212,13 +220,9 @@ static int one_stretch(const char *a, size_t an, const char *b, size_t bn)
 
 const char *propose_variant(const char *key, size_t kl, const char *lk, size_t ll)
 {
-	char a[512], b[512];
-	size_t an, bn;
 	if (same(key, kl, lk, ll))
 		return NULL;
-	an = nosep(key, kl, a, sizeof a);
-	bn = nosep(lk, ll, b, sizeof b);
-	if (an == bn && an && !memcmp(a, b, an))
+	if (same_nosep(key, kl, lk, ll))
 		return "spacing";
 	/* the other words the same, and one word a few edits from its
 	 * counterpart, both long enough that the edits are slips or a
@@ -401,8 +405,8 @@ static uint64_t lang_postings(const ranker *c, const char *lang)
  * bits.  When propose_variant finds a variant, the two keys' sets differ
  * by at most four bits (two edits, each dropping one code point and
  * adding one; spacing none): a cheap test that passes every variant of a
- * key short enough (VARIANT_SIG_MAX bytes) for propose_variant to see
- * whole. */
+ * key short enough (VARIANT_SIG_MAX bytes) for levenshtein to see its
+ * words whole. */
 #define VARIANT_SIG_MAX 128
 static uint64_t variant_sig(const char *s, size_t n)
 {
