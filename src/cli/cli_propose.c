@@ -63,7 +63,8 @@ static const rec_field sugg_fields[] = {
 	{"id", REC_BOTH}, {"kind", REC_BOTH}, {"occupation", REC_BOTH},
 	{"occupation_label", REC_BOTH}, {"lang", REC_BOTH},
 	{"label", REC_BOTH}, {"key", REC_JSON}, {"label_as_written", REC_JSON},
-	{"label_kind", REC_JSON}, {"score", REC_BOTH}, {"postings", REC_BOTH},
+	{"label_kind", REC_JSON}, {"strength", REC_BOTH}, {"score", REC_BOTH},
+	{"postings", REC_BOTH},
 	{"occupation_postings", REC_BOTH}, {"key_postings", REC_BOTH},
 	{"lang_postings", REC_JSON}, {"share", REC_BOTH}, {"share_low", REC_BOTH},
 	{"share_high", REC_BOTH}, {"precision", REC_BOTH}, {"g2", REC_BOTH},
@@ -105,6 +106,7 @@ static void write_sugg(rec *r, const propose_sugg *s, tally_mem *m, const labels
 		rec_cstr(r, s->lb->kind == 'p' ? "pref" : s->lb->kind == 'a' ? "alt" : "hidden");
 	else
 		rec_omit(r);
+	rec_num(r, s->strength);
 	rec_num(r, s->score);
 	rec_u64(r, s->postings);
 	rec_u64(r, s->occ_postings);

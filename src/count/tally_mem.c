@@ -231,16 +231,66 @@ static int cmp_srt(const void *a, const void *b)
 	return x->n < y->n ? -1 : x->n > y->n;
 }
 
+static size_t prefix(const char *s, size_t n, int f);
+
+/* t's keys in byte order.  One bucket per distinct first field (fields
+ * hold no control, so SEP sorts before any of their bytes: the buckets in
+ * the order of their first fields, then each sorted on its own, are the
+ * order of one sort of all); a bucket's strings (an occupation's forms)
+ * then fit in cache while they are sorted.  NULL when memory ran out. */
 static srt *sorted(const strtab *t)
 {
-	srt *v = malloc((t->n ? t->n : 1) * sizeof *v);
-	if (!v)
-		return NULL;
-	for (size_t i = 0; i < t->n; i++) {
+	size_t n = t->n, ng = 0, g;
+	srt *v = malloc((n ? n : 1) * sizeof *v), *w = NULL, *fv = NULL;
+	uint32_t *grp = malloc((n ? n : 1) * sizeof *grp);
+	size_t *at = NULL;
+	strtab first = {0};
+	int ok = v && grp;
+	for (size_t i = 0; i < n && ok; i++) {
 		v[i].s = st_key(t, i, &v[i].n);
 		v[i].i = i;
+		ok = st_add(&first, v[i].s, prefix(v[i].s, v[i].n, 1), 0, &g) >= 0;
+		grp[i] = (uint32_t)g;
 	}
-	qsort(v, t->n, sizeof *v, cmp_srt);
+	ng = first.n;
+	if (ok && ng > 1) {
+		fv = malloc(ng * sizeof *fv);
+		at = calloc(ng + 1, sizeof *at);
+		w = malloc(n * sizeof *w);
+		ok = fv && at && w;
+	}
+	if (ok && ng > 1) {
+		for (g = 0; g < ng; g++) {
+			fv[g].s = st_key(&first, g, &fv[g].n);
+			fv[g].i = g;
+		}
+		qsort(fv, ng, sizeof *fv, cmp_srt);
+		for (g = 0; g < ng; g++)
+			first.ent[fv[g].i].count = g; /* each first field's rank */
+		for (size_t i = 0; i < n; i++)
+			at[first.ent[grp[i]].count + 1]++;
+		for (g = 0; g < ng; g++)
+			at[g + 1] += at[g];
+		for (size_t i = 0; i < n; i++)
+			w[at[first.ent[grp[i]].count]++] = v[i];
+		for (g = 0; g < ng; g++) { /* at[g]: the end of bucket g now */
+			size_t b = g ? at[g - 1] : 0;
+			qsort(w + b, at[g] - b, sizeof *w, cmp_srt);
+		}
+		free(v);
+		v = w;
+		w = NULL;
+	} else if (ok)
+		qsort(v, n, sizeof *v, cmp_srt);
+	if (!ok) {
+		free(v);
+		v = NULL;
+	}
+	free(w);
+	free(fv);
+	free(at);
+	free(grp);
+	st_free(&first);
 	return v;
 }
 

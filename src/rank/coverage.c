@@ -1,8 +1,11 @@
 /* coverage.c - the coverage figures, one occupation and language at a
- * time over the counts' triples. */
+ * time over the counts' triples: each group's triples (in key order)
+ * walk beside its labels' keys (in the same order), so that the cost is
+ * one step per triple and per label, and one binary search per group. */
 #include <string.h>
 
 #include "rank/coverage.h"
+#include "rank/labkeys.h"
 #include "rank/stats.h"
 
 typedef struct top_t {
@@ -12,6 +15,7 @@ typedef struct top_t {
 
 typedef struct cov {
 	const labelset *ls;
+	labkeys lk;
 	tally_mem *m;
 	const coverage_filter *f;
 	coverage_fn fn;
@@ -21,6 +25,7 @@ typedef struct cov {
 	char lang[4];
 	int open;
 	uint64_t matched, pref, seen;
+	size_t at, end;  /* the group's label keys not yet passed: lk.v[at, end) */
 	top_t top[COVERAGE_TOP];
 	int ntop;
 	/* all groups */
@@ -53,7 +58,10 @@ static int flush_group(cov *c)
 	if (!c->open)
 		return 0;
 	c->open = 0;
-	uint64_t labels = labels_count(c->ls, c->occ.data, c->occ.len, c->lang);
+	uint64_t labels = 0;
+	size_t lo, hi;
+	labkeys_group(&c->lk, c->ls, c->occ.data, c->occ.len, c->lang, &lo, &hi);
+	labels = hi - lo;
 	uint64_t unseen = labels > c->seen ? labels - c->seen : 0;
 	uint64_t postings = tm_occ_postings(c->m, c->occ.data, c->occ.len, c->lang);
 	c->t_postings += postings;
@@ -86,11 +94,20 @@ static int on_triple(void *ctx, const tm_triple *t)
 		c->open = 1;
 		c->matched = c->pref = c->seen = 0;
 		c->ntop = 0;
+		labkeys_group(&c->lk, c->ls, t->occ, t->ol, lang, &c->at, &c->end);
 	}
-	if (t->kl && labels_find(c->ls, t->occ, t->ol, lang, t->key, t->kl)) {
+	/* the triples come in key order: pass the label keys before this one */
+	int cmp = 1;
+	while (c->at < c->end) {
+		const label *lb = &c->ls->v[c->lk.v[c->at].lab];
+		if ((cmp = labkeys_cmp(lab_str(c->ls, lb->key), lb->keylen, t->key, t->kl)) >= 0)
+			break;
+		c->at++;
+	}
+	if (t->kl && c->at < c->end && cmp == 0) {
 		c->matched += t->postings;
 		c->seen++;
-		if (labels_is_pref(c->ls, t->occ, t->ol, lang, t->key, t->kl))
+		if (c->lk.v[c->at].pref)
 			c->pref += t->postings;
 		return 0;
 	}
@@ -126,6 +143,8 @@ int coverage_run(tally_mem *m, const labelset *ls, const coverage_filter *f, cov
 	c.f = f;
 	c.fn = fn;
 	c.ctx = ctx;
+	if (labkeys_build(&c.lk, ls) != 0)
+		return -1;
 	rc = tm_each_triple(m, on_triple, &c);
 	if (rc == 0)
 		rc = flush_group(&c);
@@ -139,5 +158,6 @@ int coverage_run(tally_mem *m, const labelset *ls, const coverage_filter *f, cov
 		buf_free(&c.top[i].key);
 	}
 	buf_free(&c.occ);
+	labkeys_free(&c.lk);
 	return rc;
 }

@@ -12,6 +12,7 @@
 #include <string.h>
 
 #include "io/decode.h"
+#include "rank/labkeys.h"
 #include "rank/propose.h"
 #include "count/strtab.h"
 #include "norm/token.h"
@@ -26,72 +27,171 @@ void propose_bars_default(propose_bars *b)
 	PROPOSE_BARS(PROPOSE_BAR_DEFAULT)
 }
 
+/* A counted (occupation, language, key) with its display title. */
 typedef struct trip {
-	const char *occ, *lang, *key, *title;
-	size_t ol, ll, kl, tl;
+	const char *occ, *key, *title;
+	size_t ol, kl, tl;
 	uint64_t k;
+	uint32_t kid;    /* its (language, key): index in keys[] */
+	uint32_t lab;    /* the label with its key in its group: labkeys index + 1, or 0 */
+	uint32_t grp;    /* its (occupation, language): index in grp[] */
+	char lang[4];
+	uint64_t hash;   /* of its (language, key) */
 } trip;
 
-/* The two strongest occupations of one (lang, key): trip index + 1. */
-typedef struct best2 {
-	uint32_t i1, i2;
-} best2;
+/* A (language, key) over all occupations. */
+typedef struct kinfo {
+	const char *key; /* a triple's */
+	uint32_t kl;
+	char lang[4];
+	uint32_t i1, i2; /* its two strongest triples: index + 1, 0 none */
+	uint64_t postings; /* of the key in the language, whatever the occupation */
+} kinfo;
+
+/* An (occupation, language): its triples are t[first, first + n). */
+typedef struct group {
+	uint32_t first, n;
+	size_t lo, hi;   /* its label keys: lk.v[lo, hi) */
+	size_t at;       /* the first of them not passed yet by the triples */
+	uint64_t postings;
+} group;
 
 typedef struct ranker {
 	tally_mem *m;
 	const labelset *ls;
 	const propose_bars *b;
-	const propose_filter *f;
 	trip *t;
 	size_t n, cap;
-	strtab kidx;     /* lang 1F key -> best[] */
-	strtab tidx;     /* occ 1F lang 1F key -> its trip (count) */
+	kinfo *keys;
+	size_t nkeys, keycap;
+	uint64_t *slot;  /* open addressing over keys[]: the hash's high 32
+			  * bits, then index + 1 (0: empty) */
+	size_t nslot;
+	group *grp;
+	size_t ngrp, grpcap;
+	labkeys lk;
+	uint64_t *labsig;  /* per label key: variant_sig */
+	uint32_t *labtrip; /* per label: the triple of its occupation, language
+			    * and key, index + 1, or 0 */
 	strtab nlang;    /* lang -> postings */
-	strtab groups;   /* occ 1F lang -> labels in order[]: start << 20 | count */
-	best2 *best;
-	uint32_t *order;
-	tm_buf j;        /* scratch for joined keys */
 	propose_list *out;
 	size_t outcap;
 } ranker;
-
-static int collect(void *c0, const tm_triple *x)
-{
-	ranker *c = c0;
-	trip *t = tm_grow(c->t, &c->cap, c->n + 1, sizeof *t, 4096);
-	if (!t)
-		return -1;
-	c->t = t;
-	c->t[c->n++] = (trip){x->occ, x->lang, x->key, x->title, x->ol, x->ll, x->kl, x->tl,
-			      x->postings};
-	return 0;
-}
 
 static int same(const char *a, size_t an, const char *b, size_t bn)
 {
 	return an == bn && !memcmp(a, b, an);
 }
 
-/* The scratch key: the pieces joined by U+001F. */
-static const tm_buf *join(ranker *c, const char *a, size_t al, const char *b, size_t bl,
-			  const char *d, size_t dl)
+static uint64_t key_hash(const char *lang, const char *key, size_t kl)
 {
-	int bad;
-	buf_reset(&c->j);
-	bad = buf_append(&c->j, a, al) || buf_putc(&c->j, '\x1F') || buf_append(&c->j, b, bl);
-	if (d)
-		bad = bad || buf_putc(&c->j, '\x1F') || buf_append(&c->j, d, dl);
-	return bad ? NULL : &c->j;
+	return tok_hash_mix(tok_hash(key, kl), tok_hash(lang, strlen(lang)));
 }
 
-/* The key without its spaces. */
-static size_t nosep(const char *s, size_t n, char *out, size_t cap)
+/* The (language, key) of hash h: its entry in keys[], added when absent
+ * and add is set; -1 when absent.  The table is sized once for every
+ * triple (at most one key each): it never grows, and most lookups read
+ * one slot (its hash's high bits tell most keys apart). */
+static long key_id(ranker *c, uint64_t h, const char *lang, const char *key, size_t kl, int add)
 {
-	size_t k = 0;
-	for (size_t i = 0; i < n && k < cap; i++)
-		if (s[i] != ' ')
-			out[k++] = s[i];
-	return k;
+	size_t mask = c->nslot - 1;
+	uint64_t hi = h & 0xFFFFFFFF00000000ULL;
+	for (size_t s = (size_t)h & mask;; s = (s + 1) & mask) {
+		uint64_t e = c->slot[s];
+		if (!e) {
+			if (!add)
+				return -1;
+			kinfo *ki = &c->keys[c->nkeys];
+			memset(ki, 0, sizeof *ki);
+			ki->key = key;
+			ki->kl = (uint32_t)kl;
+			memcpy(ki->lang, lang, strlen(lang) + 1);
+			c->slot[s] = hi | (uint32_t)++c->nkeys;
+			return (long)c->nkeys - 1;
+		}
+		if ((e & 0xFFFFFFFF00000000ULL) != hi)
+			continue;
+		const kinfo *ki = &c->keys[(uint32_t)e - 1];
+		if (same(ki->key, ki->kl, key, kl) && !strcmp(ki->lang, lang))
+			return (long)(uint32_t)e - 1;
+	}
+}
+
+static void key_prefetch(const ranker *c, uint64_t h)
+{
+	__builtin_prefetch(&c->slot[(size_t)h & (c->nslot - 1)]);
+}
+
+static int collect(void *c0, const tm_triple *x)
+{
+	ranker *c = c0;
+	if (c->n >= UINT32_MAX - 1)
+		return -1;
+	trip *t = tm_grow(c->t, &c->cap, c->n + 1, sizeof *t, 4096);
+	if (!t)
+		return -1;
+	c->t = t;
+	t = &c->t[c->n];
+	memset(t, 0, sizeof *t);
+	t->occ = x->occ;
+	t->ol = x->ol;
+	t->key = x->key;
+	t->kl = x->kl;
+	t->title = x->title;
+	t->tl = x->tl;
+	t->k = x->postings;
+	memcpy(t->lang, x->lang, x->ll < 3 ? x->ll : 3);
+	t->hash = key_hash(t->lang, t->key, t->kl);
+	/* a new (occupation, language)? */
+	group *g = c->ngrp ? &c->grp[c->ngrp - 1] : NULL;
+	if (!g || !same(c->t[g->first].occ, c->t[g->first].ol, t->occ, t->ol) ||
+	    strcmp(c->t[g->first].lang, t->lang)) {
+		g = tm_grow(c->grp, &c->grpcap, c->ngrp + 1, sizeof *g, 256);
+		if (!g)
+			return -1;
+		c->grp = g;
+		g = &c->grp[c->ngrp++];
+		memset(g, 0, sizeof *g);
+		g->first = (uint32_t)c->n;
+		labkeys_group(&c->lk, c->ls, t->occ, t->ol, t->lang, &g->lo, &g->hi);
+		g->at = g->lo;
+		g->postings = tm_occ_postings(c->m, t->occ, t->ol, t->lang);
+	}
+	t->grp = (uint32_t)(c->ngrp - 1);
+	/* the triples of a group come in key order, as its label keys do:
+	 * pass the label keys before this one */
+	while (g->at < g->hi) {
+		const label *lb = &c->ls->v[c->lk.v[g->at].lab];
+		int cmp = labkeys_cmp(lab_str(c->ls, lb->key), lb->keylen, t->key, t->kl);
+		if (cmp > 0)
+			break;
+		if (cmp == 0 && t->kl) {
+			t->lab = (uint32_t)g->at + 1;
+			c->labtrip[lb - c->ls->v] = (uint32_t)c->n + 1;
+		}
+		g->at++;
+	}
+	g->n++;
+	c->n++;
+	return 0;
+}
+
+/* Are a and b the same once their spaces and hyphens are dropped, and
+ * not empty then? */
+static int same_nosep(const char *a, size_t an, const char *b, size_t bn)
+{
+	size_t i = 0, j = 0, kept = 0;
+	for (;;) {
+		while (i < an && (a[i] == ' ' || a[i] == '-'))
+			i++;
+		while (j < bn && (b[j] == ' ' || b[j] == '-'))
+			j++;
+		if (i == an || j == bn)
+			return i == an && j == bn && kept;
+		if (a[i++] != b[j++])
+			return 0;
+		kept++;
+	}
 }
 
 static size_t ncp(const char *s, size_t n)
@@ -102,31 +202,55 @@ static size_t ncp(const char *s, size_t n)
 	return c;
 }
 
+/* Do two words differ only inside one stretch of at most two code points
+ * on each side ("re" / "er", "ue" / "")? */
+static int one_stretch(const char *a, size_t an, const char *b, size_t bn)
+{
+	size_t p = 0, s = 0;
+	while (p < an && p < bn && a[p] == b[p])
+		p++;
+	while (p > 0 && ((unsigned char)a[p] & 0xC0) == 0x80) /* to a code point's start */
+		p--;
+	while (s < an - p && s < bn - p && a[an - 1 - s] == b[bn - 1 - s])
+		s++;
+	while (s > 0 && ((unsigned char)a[an - s] & 0xC0) == 0x80)
+		s--;
+	return ncp(a + p, an - p - s) <= 2 && ncp(b + p, bn - p - s) <= 2;
+}
+
 const char *propose_variant(const char *key, size_t kl, const char *lk, size_t ll)
 {
-	char a[512], b[512];
-	size_t an, bn;
 	if (same(key, kl, lk, ll))
 		return NULL;
-	an = nosep(key, kl, a, sizeof a);
-	bn = nosep(lk, ll, b, sizeof b);
-	if (an == bn && an && !memcmp(a, b, an))
+	if (same_nosep(key, kl, lk, ll))
 		return "spacing";
-	/* one edit inside one word of six letters or more, the other words
-	 * the same: "schweisser" / "schweiser", not "tig" / "mig" */
+	/* the other words the same, and one word a few edits from its
+	 * counterpart, both long enough that the edits are slips or a
+	 * spelling convention rather than another word: one edit when both
+	 * have PROPOSE_TYPO_MIN code points ("schweisser" / "schweiser", not
+	 * "tig" / "mig"), two inside one stretch of two code points when the
+	 * longer has PROPOSE_SPELLING_MIN too ("theatre" / "theater",
+	 * "dialogue" / "dialog", not "technicien" / "mecanicien") */
 	const char *p = key, *q = lk, *pe = key + kl, *qe = lk + ll;
-	int diff = 0;
+	int diff = 0, d = 0;
 	while (p < pe && q < qe) {
 		const char *a1 = memchr(p, ' ', (size_t)(pe - p)), *b1 = memchr(q, ' ', (size_t)(qe - q));
 		size_t wa = a1 ? (size_t)(a1 - p) : (size_t)(pe - p), wb = b1 ? (size_t)(b1 - q) : (size_t)(qe - q);
 		if (!same(p, wa, q, wb)) {
-			if (diff++ || ncp(p, wa) < 6 || ncp(q, wb) < 6 || levenshtein(p, wa, q, wb, 1) != 1)
+			size_t ca = ncp(p, wa), cb = ncp(q, wb);
+			if (diff++ || ca < PROPOSE_TYPO_MIN || cb < PROPOSE_TYPO_MIN)
+				return NULL;
+			int max = (ca > cb ? ca : cb) >= PROPOSE_SPELLING_MIN ? 2 : 1;
+			d = levenshtein(p, wa, q, wb, max);
+			if (d < 1 || d > max || (d == 2 && !one_stretch(p, wa, q, wb)))
 				return NULL;
 		}
 		p += wa + (a1 != NULL);
 		q += wb + (b1 != NULL);
 	}
-	return p >= pe && q >= qe && diff == 1 ? "typo" : NULL;
+	if (p < pe || q < qe || diff != 1)
+		return NULL;
+	return d == 1 ? "typo" : "spelling";
 }
 
 static int cmp_sugg(const void *a, const void *b)
@@ -197,72 +321,72 @@ static int push(ranker *c, const propose_sugg *s)
 	return 0;
 }
 
-/* The indexes: each (lang, key)'s two strongest occupations, each
- * triple by (occ, lang, key), postings per language, and the labels
- * grouped by occupation and language (order[] holds each group's labels
- * together). */
-static int index_all(ranker *c)
+/* Every (language, key)'s two strongest triples and its postings, and
+ * the postings per language: one pass over the triples, one over the
+ * counts' keys. */
+static int index_keys(ranker *c)
 {
-	const labelset *ls = c->ls;
 	tally_mem *m = c->m;
-	const tm_buf *j;
-	size_t idx;
+	size_t need = c->n + 1;
+	enum { AHEAD = 8 }; /* slots fetched ahead of their use */
 
-	c->best = calloc(c->n + 1, sizeof *c->best);
-	c->order = malloc((ls->n + 1) * sizeof *c->order);
-	if (!c->best || !c->order)
+	for (c->nslot = 16; c->nslot < need + need / 2; c->nslot *= 2)
+		;
+	c->slot = calloc(c->nslot, sizeof *c->slot);
+	c->keys = malloc(need * sizeof *c->keys);
+	if (!c->slot || !c->keys)
 		return -1;
 	for (size_t i = 0; i < c->n; i++) {
-		const trip *t = &c->t[i];
-		if (!(j = join(c, t->lang, t->ll, t->key, t->kl, NULL, 0)) ||
-		    st_add(&c->kidx, j->data, j->len, 0, &idx) < 0)
-			return -1;
-		best2 *bb = &c->best[idx];
+		trip *t = &c->t[i];
+		if (i + AHEAD < c->n)
+			key_prefetch(c, c->t[i + AHEAD].hash);
+		long id = key_id(c, t->hash, t->lang, t->key, t->kl, 1);
+		kinfo *ki = &c->keys[id];
 		uint32_t me = (uint32_t)i + 1;
-		size_t ti;
-		if (!(j = join(c, t->occ, t->ol, t->lang, t->ll, t->key, t->kl)) ||
-		    st_add(&c->tidx, j->data, j->len, 0, &ti) < 0)
-			return -1;
-		c->tidx.ent[ti].count = i;
-		if (!bb->i1 || t->k > c->t[bb->i1 - 1].k) {
-			bb->i2 = bb->i1;
-			bb->i1 = me;
-		} else if (!bb->i2 || t->k > c->t[bb->i2 - 1].k)
-			bb->i2 = me;
+		t->kid = (uint32_t)id;
+		if (!ki->i1 || t->k > c->t[ki->i1 - 1].k) {
+			ki->i2 = ki->i1;
+			ki->i1 = me;
+		} else if (!ki->i2 || t->k > c->t[ki->i2 - 1].k)
+			ki->i2 = me;
 	}
-	for (size_t i = 0; i < m->keys.n; i++) {
+	/* the counts' keys (lang 1F key), their hashes a few ahead */
+	uint64_t ring[AHEAD];
+	char rlang[AHEAD][4];
+	size_t li = 0, pll = 0;
+	const char *plang = NULL;
+	for (size_t i = 0; i < m->keys.n + AHEAD; i++) {
+		if (i >= AHEAD) {
+			size_t q = i - AHEAD, n;
+			const char *k = st_key(&m->keys, q, &n);
+			const char *lg = rlang[q % AHEAD];
+			size_t ll = strlen(lg);
+			long id = ll ? key_id(c, ring[q % AHEAD], lg, k + ll + 1, n - ll - 1, 0) : -1;
+			if (id >= 0)
+				c->keys[id].postings = m->keys.ent[q].count;
+		}
+		if (i >= m->keys.n)
+			continue;
 		size_t n;
 		const char *k = st_key(&m->keys, i, &n);
 		const char *sep = memchr(k, '\x1F', n);
-		if (st_add(&c->nlang, k, sep ? (size_t)(sep - k) : n, m->keys.ent[i].count, NULL) < 0)
-			return -1;
+		size_t ll = sep ? (size_t)(sep - k) : n;
+		char *lg = rlang[i % AHEAD];
+		memset(lg, 0, 4);
+		if (sep && ll <= 3)
+			memcpy(lg, k, ll);
+		ring[i % AHEAD] = lg[0] ? key_hash(lg, sep + 1, n - ll - 1) : 0;
+		key_prefetch(c, ring[i % AHEAD]);
+		/* the keys of one language mostly follow each other */
+		if (!plang || !same(plang, pll, k, ll)) {
+			if (st_add(&c->nlang, k, ll, 0, &li) < 0)
+				return -1;
+			plang = k;
+			pll = ll;
+		}
+		c->nlang.ent[li].count += m->keys.ent[i].count;
 	}
-	uint64_t *cnt = calloc(ls->n + 1, sizeof *cnt);
-	uint32_t *gof = malloc((ls->n + 1) * sizeof *gof);
-	int rc = -1;
-	if (!cnt || !gof)
-		goto out;
-	for (size_t q = 0; q < ls->n; q++) {
-		const label *lb = &ls->v[q];
-		if (!(j = join(c, lab_str(ls, lb->occ), lb->occlen, lb->lang, strlen(lb->lang), NULL, 0)) ||
-		    st_add(&c->groups, j->data, j->len, 0, &idx) < 0)
-			goto out;
-		gof[q] = (uint32_t)idx;
-		cnt[idx]++;
-	}
-	uint64_t at = 0;
-	for (size_t g = 0; g < c->groups.n; g++) {
-		c->groups.ent[g].count = at << 20 | (cnt[g] & 0xFFFFF);
-		cnt[g] = at;
-		at += c->groups.ent[g].count & 0xFFFFF;
-	}
-	for (size_t q = 0; q < ls->n; q++)
-		c->order[cnt[gof[q]]++] = (uint32_t)q;
-	rc = 0;
-out:
-	free(cnt);
-	free(gof);
-	return rc;
+	return 0;
 }
 
 static int filtered(const propose_filter *f, const char *occ, size_t ol, const char *lang)
@@ -271,26 +395,71 @@ static int filtered(const propose_filter *f, const char *occ, size_t ol, const c
 		     (f->lang && strcmp(f->lang, lang)));
 }
 
+static uint64_t lang_postings(const ranker *c, const char *lang)
+{
+	long li = st_find(&c->nlang, lang, strlen(lang));
+	return li < 0 ? 0 : c->nlang.ent[li].count;
+}
+
+/* The code points of a key but spaces and hyphens, each as one of 64
+ * bits.  When propose_variant finds a variant, the two keys' sets differ
+ * by at most four bits (two edits, each dropping one code point and
+ * adding one; spacing none): a cheap test that passes every variant of a
+ * key short enough (VARIANT_SIG_MAX bytes) for levenshtein to see its
+ * words whole. */
+#define VARIANT_SIG_MAX 128
+static uint64_t variant_sig(const char *s, size_t n)
+{
+	uint64_t sig = 0;
+	for (size_t i = 0; i < n;) {
+		uint32_t cp = (unsigned char)s[i++];
+		while (i < n && ((unsigned char)s[i] & 0xC0) == 0x80)
+			cp = cp << 6 | ((unsigned char)s[i++] & 0x3F);
+		if (cp != ' ' && cp != '-')
+			sig |= 1ULL << ((cp ^ cp >> 6 ^ cp >> 12) & 63);
+	}
+	return sig;
+}
+
+/* A spelling variant of one of the labels of t's group: the first such
+ * label in the labels file, with how it varies; NULL when none. */
+static const label *variant_of(const ranker *c, const trip *t, const char **how)
+{
+	const labelset *ls = c->ls;
+	const group *g = &c->grp[t->grp];
+	const label *var = NULL;
+	int quick = t->kl <= VARIANT_SIG_MAX;
+	uint64_t sig = quick ? variant_sig(t->key, t->kl) : 0;
+	for (size_t q = g->lo; q < g->hi; q++) {
+		const label *lb = &ls->v[c->lk.v[q].lab];
+		const char *h;
+		if (var && lb > var)
+			continue;
+		if (quick && lb->keylen <= VARIANT_SIG_MAX &&
+		    __builtin_popcountll(sig ^ c->labsig[q]) > 4)
+			continue;
+		if ((h = propose_variant(t->key, t->kl, lab_str(ls, lb->key), lb->keylen))) {
+			var = lb;
+			*how = h;
+		}
+	}
+	return var;
+}
+
 /* new_alt_label and new_hidden_label: the counted titles that are none
  * of their occupation's labels. */
 static int rank_titles(ranker *c)
 {
 	const labelset *ls = c->ls;
 	const propose_bars *bar = c->b;
-	const tm_buf *j;
 
 	for (size_t i = 0; i < c->n; i++) {
 		const trip *t = &c->t[i];
-		char lg[4] = {0};
-		memcpy(lg, t->lang, t->ll < 3 ? t->ll : 3);
-		if (filtered(c->f, t->occ, t->ol, lg) || !t->kl)
+		if (!t->kl || t->lab)
 			continue;
-		if (labels_find(ls, t->occ, t->ol, lg, t->key, t->kl))
-			continue;
-		uint64_t n = tm_occ_postings(c->m, t->occ, t->ol, lg);
-		uint64_t kt = tm_key_postings(c->m, lg, t->key, t->kl);
-		long li = st_find(&c->nlang, lg, strlen(lg));
-		uint64_t nl = li < 0 ? 0 : c->nlang.ent[li].count;
+		const kinfo *ki = &c->keys[t->kid];
+		uint64_t n = c->grp[t->grp].postings, kt = ki->postings;
+		uint64_t nl = lang_postings(c, t->lang);
 		double prec = kt ? (double)t->k / (double)kt : 0;
 		propose_sugg s;
 		memset(&s, 0, sizeof s);
@@ -301,7 +470,7 @@ static int rank_titles(ranker *c)
 		s.ol = t->ol;
 		s.key = t->key;
 		s.kl = t->kl;
-		memcpy(s.lang, lg, 4);
+		memcpy(s.lang, t->lang, 4);
 		s.postings = t->k;
 		s.occ_postings = n;
 		s.key_postings = kt;
@@ -310,42 +479,40 @@ static int rank_titles(ranker *c)
 		if (kt >= t->k && nl >= kt + n - t->k)
 			s.g2 = g2(t->k, kt - t->k, n - t->k, nl - kt - n + t->k);
 		/* the rival: the strongest other occupation of the key */
-		if (!(j = join(c, t->lang, t->ll, t->key, t->kl, NULL, 0)))
-			return -1;
-		long bi = st_find(&c->kidx, j->data, j->len);
-		if (bi >= 0) {
-			best2 *bb = &c->best[bi];
-			uint32_t r = bb->i1 && bb->i1 - 1 != i ? bb->i1 : bb->i2;
-			if (r) {
-				s.rival = c->t[r - 1].occ;
-				s.rl = c->t[r - 1].ol;
-				s.rival_postings = c->t[r - 1].k;
-			}
+		uint32_t r = ki->i1 && ki->i1 - 1 != i ? ki->i1 : ki->i2;
+		if (r) {
+			s.rival = c->t[r - 1].occ;
+			s.rl = c->t[r - 1].ol;
+			s.rival_postings = c->t[r - 1].k;
 		}
 		/* a spelling variant of one of its labels? */
-		const label *var = NULL;
 		const char *how = NULL;
-		if (!(j = join(c, t->occ, t->ol, lg, strlen(lg), NULL, 0)))
-			return -1;
-		long gi = st_find(&c->groups, j->data, j->len);
-		uint64_t g = gi < 0 ? 0 : c->groups.ent[gi].count;
-		for (uint64_t q = g >> 20, e = q + (g & 0xFFFFF); q < e && !var; q++) {
-			const label *lb = &ls->v[c->order[q]];
-			if ((how = propose_variant(t->key, t->kl, lab_str(ls, lb->key), lb->keylen)))
-				var = lb;
-		}
+		const label *var = variant_of(c, t, &how);
 		if (var) {
 			/* a key that is some other occupation's label is no
 			 * misspelling: "delta01 agent" is not a typo of
 			 * "delta00 agent" when both are labels */
-			if (!(j = join(c, lg, strlen(lg), t->key, t->kl, NULL, 0)))
+			tm_buf j = {0};
+			long other = -1;
+			if (buf_puts(&j, t->lang) || buf_putc(&j, '\x1F') || buf_append(&j, t->key, t->kl)) {
+				buf_free(&j);
 				return -1;
-			long other = st_find(&ls->keys, j->data, j->len);
-			if (other >= 0 || t->k < bar->hidden_min || prec < bar->hidden_precision)
+			}
+			other = st_find(&ls->keys, j.data, j.len);
+			buf_free(&j);
+			/* recurrent, not a one-off slip: the variant's share of
+			 * the postings of the label varied and the variant */
+			uint32_t lt = c->labtrip[var - ls->v];
+			uint64_t base = t->k + (lt ? c->t[lt - 1].k : 0);
+			double lo, hi;
+			wilson(t->k, base, STATS_Z95, &lo, &hi);
+			if (other >= 0 || t->k < bar->hidden_min || prec < bar->hidden_precision ||
+			    lo <= bar->hidden_share)
 				continue;
 			s.kind = PROPOSE_HIDDEN;
 			s.lb = var;
 			s.variant = how;
+			s.label_postings = base - t->k;
 			s.score = (double)t->k * prec;
 		} else {
 			double lo, hi;
@@ -362,48 +529,28 @@ static int rank_titles(ranker *c)
 	return 0;
 }
 
-/* rare_label and used_elsewhere: the labels. */
+/* rare_label and used_elsewhere: the labels, one per distinct key of an
+ * occupation and language (the first label with it). */
 static int rank_labels(ranker *c)
 {
 	const labelset *ls = c->ls;
 	const propose_bars *bar = c->b;
-	const tm_buf *j;
 
-	for (size_t q = 0; q < ls->n; q++) {
-		const label *lb = &ls->v[q];
+	for (size_t e = 0; e < c->lk.n; e++) {
+		const label *lb = &ls->v[c->lk.v[e].lab];
 		const char *occ = lab_str(ls, lb->occ), *key = lab_str(ls, lb->key);
-		if (filtered(c->f, occ, lb->occlen, lb->lang))
-			continue;
-		/* one suggestion per key, even when a key has two labels */
-		if (labels_find(ls, occ, lb->occlen, lb->lang, key, lb->keylen) != lb)
-			continue;
 		uint64_t n = tm_occ_postings(c->m, occ, lb->occlen, lb->lang);
 		uint64_t kt = tm_key_postings(c->m, lb->lang, key, lb->keylen);
-		uint64_t k = 0;
+		uint32_t own = c->labtrip[c->lk.v[e].lab];
+		uint64_t k = own ? c->t[own - 1].k : 0;
 		const trip *rival = NULL;
-		if (!(j = join(c, lb->lang, strlen(lb->lang), key, lb->keylen, NULL, 0)))
-			return -1;
-		long bi = st_find(&c->kidx, j->data, j->len);
-		if (bi >= 0) {
-			best2 *bb = &c->best[bi];
-			for (uint32_t r = 0; r < 2; r++) {
-				uint32_t x = r ? bb->i2 : bb->i1;
-				if (!x)
-					continue;
-				const trip *t = &c->t[x - 1];
-				if (same(t->occ, t->ol, occ, lb->occlen))
-					k = t->k;
-				else if (!rival)
-					rival = t;
-			}
-			/* the label's own count, when it is not among the best two */
-			if (!k) {
-				if (!(j = join(c, occ, lb->occlen, lb->lang, strlen(lb->lang), key,
-					       lb->keylen)))
-					return -1;
-				long ti = st_find(&c->tidx, j->data, j->len);
-				if (ti >= 0)
-					k = c->t[c->tidx.ent[ti].count].k;
+		long id = key_id(c, key_hash(lb->lang, key, lb->keylen), lb->lang, key, lb->keylen, 0);
+		if (id >= 0) {
+			const kinfo *ki = &c->keys[id];
+			for (uint32_t r = 0; r < 2 && !rival; r++) {
+				uint32_t x = r ? ki->i2 : ki->i1;
+				if (x && x != own)
+					rival = &c->t[x - 1];
 			}
 		}
 		propose_sugg s;
@@ -427,7 +574,9 @@ static int rank_labels(ranker *c)
 		}
 		double lo, hi;
 		wilson(k, n, STATS_Z95, &lo, &hi);
-		if (n >= bar->rare_min && hi < bar->rare_share) {
+		/* hidden labels are there to catch misspellings, which are
+		 * rare by nature: never rare_label */
+		if (lb->kind != 'h' && n >= bar->rare_min && hi < bar->rare_share) {
 			s.kind = PROPOSE_RARE;
 			s.score = (double)n * (bar->rare_share - hi);
 		} else if (rival && kt >= bar->elsewhere_min &&
@@ -442,47 +591,86 @@ static int rank_labels(ranker *c)
 	return 0;
 }
 
+/* Each suggestion's strength: the mid-rank percentile of its score among
+ * the suggestions of its kind (v is sorted by kind, then score). */
+static void strengths(propose_sugg *v, size_t n)
+{
+	for (size_t a = 0; a < n;) {
+		size_t z = a;
+		while (z < n && v[z].kind == v[a].kind)
+			z++;
+		/* [a, z): one kind, strongest first */
+		for (size_t i = a; i < z;) {
+			size_t j = i;
+			while (j < z && v[j].score == v[i].score)
+				j++;
+			/* [i, j) tie; z - j suggestions score lower */
+			double st = ((double)(z - j) + 0.5 * (double)(j - i)) / (double)(z - a);
+			for (size_t q = i; q < j; q++)
+				v[q].strength = st;
+			i = j;
+		}
+		a = z;
+	}
+}
+
 int propose_run(tally_mem *m, const labelset *ls, const propose_bars *b,
 		const propose_filter *f, propose_list *out)
 {
 	ranker c;
 	int rc = -1;
+	tm_buf j = {0};
 
 	memset(&c, 0, sizeof c);
 	memset(out, 0, sizeof *out);
 	c.m = m;
 	c.ls = ls;
 	c.b = b;
-	c.f = f;
 	c.out = out;
-	if (tm_each_triple(m, collect, &c) != 0 || index_all(&c) != 0 || rank_titles(&c) != 0 ||
-	    rank_labels(&c) != 0)
+	c.labtrip = calloc(ls->n + 1, sizeof *c.labtrip);
+	c.labsig = malloc((ls->n + 1) * sizeof *c.labsig);
+	if (!c.labtrip || !c.labsig || labkeys_build(&c.lk, ls) != 0)
+		goto done;
+	for (size_t q = 0; q < c.lk.n; q++) {
+		const label *lb = &ls->v[c.lk.v[q].lab];
+		c.labsig[q] = variant_sig(lab_str(ls, lb->key), lb->keylen);
+	}
+	if (tm_each_triple(m, collect, &c) != 0 ||
+	    index_keys(&c) != 0 || rank_titles(&c) != 0 || rank_labels(&c) != 0)
 		goto done;
 	/* stable ids: the kind, occupation, language and key */
 	for (size_t i = 0; i < out->n; i++) {
 		propose_sugg *s = &out->v[i];
-		tm_buf *j = &c.j;
-		buf_reset(j);
-		if (buf_puts(j, propose_kind_names[s->kind]) || buf_putc(j, '\x1F') ||
-		    buf_append(j, s->occ, s->ol) || buf_putc(j, '\x1F') || buf_puts(j, s->lang) ||
-		    buf_putc(j, '\x1F') || buf_append(j, s->key, s->kl))
+		buf_reset(&j);
+		if (buf_puts(&j, propose_kind_names[s->kind]) || buf_putc(&j, '\x1F') ||
+		    buf_append(&j, s->occ, s->ol) || buf_putc(&j, '\x1F') || buf_puts(&j, s->lang) ||
+		    buf_putc(&j, '\x1F') || buf_append(&j, s->key, s->kl))
 			goto done;
-		snprintf(s->id, sizeof s->id, "%016llx", (unsigned long long)tok_hash(j->data, j->len));
+		snprintf(s->id, sizeof s->id, "%016llx", (unsigned long long)tok_hash(j.data, j.len));
 	}
 	if (out->n > 1)
 		qsort(out->v, out->n, sizeof *out->v, cmp_sugg);
+	/* strength over the whole run, then the filter: a suggestion's
+	 * strength does not depend on what else is shown */
+	strengths(out->v, out->n);
+	size_t kept = 0;
+	for (size_t i = 0; i < out->n; i++)
+		if (!filtered(f, out->v[i].occ, out->v[i].ol, out->v[i].lang))
+			out->v[kept++] = out->v[i];
+	out->n = kept;
 	rc = 0;
 done:
 	if (rc != 0)
 		propose_list_free(out);
 	free(c.t);
-	free(c.best);
-	free(c.order);
-	st_free(&c.kidx);
-	st_free(&c.tidx);
+	free(c.keys);
+	free(c.slot);
+	free(c.grp);
+	free(c.labtrip);
+	free(c.labsig);
+	labkeys_free(&c.lk);
 	st_free(&c.nlang);
-	st_free(&c.groups);
-	buf_free(&c.j);
+	buf_free(&j);
 	return rc;
 }
 

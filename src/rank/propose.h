@@ -5,7 +5,8 @@
  * Kinds (README.md, "Suggestions", explains each with its bars):
  *   new_alt_label     a cleaned title the occupation's postings use often
  *                     and specifically, matching none of its labels
- *   new_hidden_label  a spelling variant of one of its labels
+ *   new_hidden_label  a recurrent spelling variant of one of its labels
+ *                     (propose_variant says which variants count)
  *   rare_label        a label the occupation's postings hardly use
  *   used_elsewhere    a label whose postings mostly carry another
  *                     occupation
@@ -46,6 +47,8 @@ extern const char *const propose_kind_names[PROPOSE_NKINDS + 1];
 	  "new_hidden_label: postings of the variant") \
 	X(double, OPT_REAL, hidden_precision, "hidden-precision", "X", 0.5, 0, 1, \
 	  "new_hidden_label: precision of the variant") \
+	X(double, OPT_REAL, hidden_share, "hidden-share", "X", 0.01, 0, 1, \
+	  "new_hidden_label: lower Wilson bound of its share of the label's and its postings above X") \
 	X(uint64_t, OPT_U64, rare_min, "rare-min", "N", 200, 0, 1e18, \
 	  "rare_label: postings of the occupation") \
 	X(double, OPT_REAL, rare_share, "rare-share", "X", 0.005, 0, 1, \
@@ -86,7 +89,12 @@ typedef struct propose_sugg {
 				       * key, or NULL */
 	size_t rl;
 	uint64_t rival_postings;
-	const char *variant;          /* hidden: "spacing" or "typo" */
+	double strength;              /* in [0, 1]: the mid-rank percentile of
+				       * score among the run's suggestions of
+				       * the same kind, before any filter */
+	uint64_t label_postings;      /* hidden: postings of the label varied
+				       * with the occupation */
+	const char *variant;          /* hidden: "spacing", "typo" or "spelling" */
 	char id[17];                  /* 16 hex digits of the hash of kind,
 				       * occupation, language and key */
 } propose_sugg;
@@ -100,16 +108,31 @@ typedef struct propose_list {
 /* Ranks the suggestions of m and ls passing bars b (filtered by f, which
  * may be NULL) into out.  Returns 0, or -1 when memory ran out (out is
  * then empty).  Deterministic: the same counts and labels give the same
- * list. */
+ * list, and each suggestion the same strength whatever f.  Prints
+ * nothing.  Cost: one sort of the counts' forms by occupation
+ * (tm_each_triple), then linear in triples and labels (one hash table of
+ * compact ids over the (language, key)s, the labels met in key order
+ * beside each occupation's triples), plus, for each title that is none
+ * of its labels, a cheap test against each label of its occupation and
+ * language. */
 int propose_run(tally_mem *m, const labelset *ls, const propose_bars *b,
 		const propose_filter *f, propose_list *out);
 
 void propose_list_free(propose_list *l);
 
+/* The word lengths (code points) for variants one and two edits apart. */
+#define PROPOSE_TYPO_MIN 6
+#define PROPOSE_SPELLING_MIN 7
+
 /* Is key a spelling variant of label key lk?  "spacing": equal without
- * spaces; "typo": the same words but one, and that one a single edit
- * (Levenshtein) from its counterpart, both of six code points or more.
- * NULL when neither (or when they are equal). */
+ * spaces and hyphens ("gabelstapler-fahrer", "gabelstaplerfahrer");
+ * otherwise the same words but one, whose two forms both have
+ * PROPOSE_TYPO_MIN code points or more and are "typo": one edit
+ * (Levenshtein) apart ("schweiser"), or "spelling": two edits apart,
+ * both inside one stretch of at most two code points of each, when the
+ * longer has PROPOSE_SPELLING_MIN or more ("theater" / "theatre",
+ * "dialog" / "dialogue"; not "technicien" / "mecanicien", whose edits
+ * are apart).  NULL when none (or when they are equal). */
 const char *propose_variant(const char *key, size_t kl, const char *lk, size_t ll);
 
 /* The label as the postings write it: the first of the nex examples

@@ -32,7 +32,7 @@ for i in range(N):
     p(i, "Alpha%02d Worker" % i, 900)
     p(i, "Senior Alpha%02d Worker (m/w/d) - Berlin" % i, 5)  # decoy: the label with noise
     p(i, "Beta%02d Specialist" % i, 30)                      # planted: new_alt_label
-    p(i, "Alpha%02dworker" % i, 10)                          # planted: new_hidden_label
+    p(i, "Alpha%02dworker" % i, 30)                          # planted: new_hidden_label (3 % of the label's)
     p(i, "Assistant", 20)                                    # decoy: generic
     p(i, "Omega%02d Thing" % i, 1)                           # decoy: a one-off
     p(i, "Delta%02d Agent" % i, 2)
@@ -96,6 +96,62 @@ PY
 set -- $(cat "$tmp/sc")
 check g2-wilson-vs-scipy 0 "$1"
 [ "$2" -gt 10 ]; check g2-checked 0 $?
+
+# the typo flood: 1 % of the titles carry a random one-letter slip, many
+# of them repeated 3 times or more by chance; recurrent variants
+# (compounding, hyphenation, common misspellings, spellings two letters
+# apart) at 2-5 % of their label's postings.  No slip is proposed, every
+# planted variant is, as new_hidden_label.
+f=$tmp/flood
+mkdir "$f"
+/usr/bin/python3 "$(dirname "$0")/gen_typos.py" "$f"
+for lang in de en; do
+	awk -F'\t' -v l=$lang '$1 == l { print $3 }' "$f/typos.txt" | $T norm --key --lang $lang > "$f/typokeys.$lang"
+	awk -F'\t' -v l=$lang '$1 == l { print $3 }' "$f/variants.txt" | $T norm --key --lang $lang > "$f/varkeys.$lang"
+done
+$T propose --labels "$f/labels.tsv" "$f/postings.tsv" > "$f/s" 2>/dev/null; check flood-status 0 $?
+/usr/bin/python3 - "$f" > "$f/verdict" <<'PY'
+import json, sys
+d = sys.argv[1]
+typos, planted = set(), set()
+for lang in ("de", "en"):
+    for src, kf, dst in (("typos.txt", "typokeys", typos), ("variants.txt", "varkeys", planted)):
+        rows = [l.rstrip("\n").split("\t") for l in open("%s/%s" % (d, src), encoding="utf-8")]
+        rows = [r for r in rows if r[0] == lang]
+        keys = [l.rstrip("\n") for l in open("%s/%s.%s" % (d, kf, lang), encoding="utf-8")]
+        dst.update((r[1], lang, k) for r, k in zip(rows, keys))
+repeated = sum(1 for l in open(d + "/typos.txt", encoding="utf-8") if int(l.split("\t")[3]) >= 3)
+got = [json.loads(l) for l in open(d + "/s", encoding="utf-8")]
+hidden = set((s["occupation"], s["lang"], s["key"]) for s in got if s["kind"] == "new_hidden_label")
+slips = [s for s in got if (s["occupation"], s["lang"], s["key"]) in typos]
+print("  typo flood: %d slips (%d repeated 3 times or more), %d proposed; %d of %d planted variants proposed, %d other hidden labels"
+      % (len(typos), repeated, len(slips), len(hidden & planted), len(planted), len(hidden - planted)), file=sys.stderr)
+print("ok" if repeated > 20 and not slips and hidden == planted and len(planted) == 10 else "bad")
+PY
+check typo-flood ok "$(cat "$f/verdict")"
+
+# strength: the mid-rank percentile of the score within its kind, by
+# scipy's percentileofscore(kind="mean"); in [0, 1]; the same whatever
+# the --occupation or --lang filter
+/usr/bin/python3 - "$tmp/s1" "$f/s" > "$tmp/st" <<'PY'
+import json, sys
+from scipy.stats import percentileofscore
+bad = n = 0
+for path in sys.argv[1:]:
+    got = [json.loads(l) for l in open(path, encoding="utf-8")]
+    for s in got:
+        same = [x["score"] for x in got if x["kind"] == s["kind"]]
+        want = percentileofscore(same, s["score"], kind="mean") / 100
+        bad += not (0 <= s["strength"] <= 1) or abs(want - s["strength"]) > 6e-5
+        n += 1
+print(bad, n)
+PY
+set -- $(cat "$tmp/st")
+check strength-vs-scipy 0 "$1"
+[ "$2" -ge 90 ]; check strength-checked 0 $?
+$T propose --labels "$f/labels.tsv" --occupation occ:t05 --lang en "$f/postings.tsv" > "$tmp/s5" 2>/dev/null
+grep '^{"id":"[0-9a-f]*","kind":"[a-z_]*","occupation":"occ:t05"' "$f/s" > "$tmp/s6"
+[ -s "$tmp/s6" ] && cmp -s "$tmp/s5" "$tmp/s6"; check strength-unfiltered 0 $?
 
 # filters, TSV, bad options
 $T propose --labels "$tmp/labels.tsv" --kind rare_label --top 3 "$tmp/c.tsv" 2>/dev/null > "$tmp/f"

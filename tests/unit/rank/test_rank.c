@@ -270,25 +270,103 @@ static void test_propose(void **state)
 	propose_list_free(&l);
 }
 
+/* A labelset from the text of a labels TSV. */
+static void read_labels(labelset *ls, const char *text)
+{
+	char path[] = "/tmp/tm-labels-XXXXXX";
+	int fd = mkstemp(path);
+	tm_buf err = {0};
+	assert_true(fd >= 0);
+	assert_int_equal(write(fd, text, strlen(text)), (ssize_t)strlen(text));
+	close(fd);
+	assert_int_equal(labels_read(ls, path, NM, stderr, &err), 0);
+	remove(path);
+	buf_free(&err);
+}
+
+static void form_in(tally_mem *m, const char *occ, const char *key, uint64_t n)
+{
+	assert_int_equal(tm_add_form(m, occ, strlen(occ), "de", key, strlen(key), key,
+				     strlen(key), n), 0);
+	assert_int_equal(tm_add_key(m, "de", key, strlen(key), n), 0);
+	assert_int_equal(tm_add_occ(m, occ, strlen(occ), "de", n), 0);
+}
+
+/* new_hidden_label needs a recurrent variant: the Wilson lower bound of
+ * its share of its and the label's postings above hidden_share; a
+ * variant may be two edits apart in a word of seven letters or more;
+ * rare_label never names a hidden label.  occ:9 (415 postings):
+ * schweisser 200 (its label), schweiser 3 (a slip), dialogue editor 200
+ * (its label), dialog editor 12; its alternative label lagerhelfer and
+ * its hidden label schwiesser are never seen. */
+static void test_hidden(void **state)
+{
+	(void)state;
+	labelset ls;
+	tally_mem m;
+	propose_bars b;
+	propose_list l;
+	const propose_sugg *s;
+
+	read_labels(&ls, "occupation\tkind\tlang\tlabel\n"
+			 "occ:9\tpref\tde\tSchweisser\n"
+			 "occ:9\talt\tde\tDialogue Editor\n"
+			 "occ:9\talt\tde\tLagerhelfer\n"
+			 "occ:9\thidden\tde\tSchwiesser\n");
+	tm_init(&m);
+	form_in(&m, "occ:9", "schweisser", 200);
+	form_in(&m, "occ:9", "schweiser", 3);
+	form_in(&m, "occ:9", "dialogue editor", 200);
+	form_in(&m, "occ:9", "dialog editor", 12);
+	propose_bars_default(&b);
+	assert_float_equal(b.hidden_share, 0.01, 0);
+	b.rare_min = 100;
+	b.rare_share = 0.02;
+	assert_int_equal(propose_run(&m, &ls, &b, NULL, &l), 0);
+	/* dialog editor: two edits in a word of eight letters; 12 in 212,
+	 * Wilson lower bound 0.032673 by scipy */
+	s = find(&l, PROPOSE_HIDDEN, "occ:9", "dialog editor");
+	assert_non_null(s);
+	assert_string_equal(s->variant, "spelling");
+	assert_memory_equal(lab_str(&ls, s->lb->text), "Dialogue Editor", 15);
+	assert_int_equal(s->label_postings, 200);
+	/* schweiser: 3 in 203, Wilson lower bound 0.005038 by scipy: a slip */
+	assert_null(find(&l, PROPOSE_HIDDEN, "occ:9", "schweiser"));
+	/* the unseen alternative label is rare, the unseen hidden one not */
+	assert_non_null(find(&l, PROPOSE_RARE, "occ:9", "lagerhelfer"));
+	assert_null(find(&l, PROPOSE_RARE, "occ:9", "schwiesser"));
+	assert_int_equal(l.n, 2);
+	/* strength: alone in its kind, the middle */
+	for (size_t i = 0; i < l.n; i++)
+		assert_float_equal(l.v[i].strength, 0.5, 0);
+	propose_list_free(&l);
+
+	/* a bar under the slip's bound lets it through */
+	b.hidden_share = 0.005;
+	assert_int_equal(propose_run(&m, &ls, &b, NULL, &l), 0);
+	s = find(&l, PROPOSE_HIDDEN, "occ:9", "schweiser");
+	assert_non_null(s);
+	assert_string_equal(s->variant, "typo");
+	assert_int_equal(s->label_postings, 200);
+	/* two of a kind: dialog editor (12) above schweiser (3) */
+	assert_float_equal(find(&l, PROPOSE_HIDDEN, "occ:9", "dialog editor")->strength, 0.75, 0);
+	assert_float_equal(s->strength, 0.25, 0);
+	propose_list_free(&l);
+	tm_free(&m);
+	labels_free(&ls);
+}
+
 /* The name of an occupation for curators: its preferred label in the
  * language asked for, else its first preferred label in file order. */
 static void test_pref(void **state)
 {
 	(void)state;
-	char path[] = "/tmp/tm-pref-XXXXXX";
-	int fd = mkstemp(path);
-	const char *labels = "occupation\tkind\tlang\tlabel\n"
-			     "occ:7\talt\tde\tLagerhelfer\n"
-			     "occ:7\tpref\tfr\tMagasinier\n"
-			     "occ:7\tpref\tde\tLagerist\n"
-			     "occ:8\talt\ten\tCook\n";
 	labelset ls;
-	tm_buf err = {0};
-	assert_true(fd >= 0);
-	assert_int_equal(write(fd, labels, strlen(labels)), (ssize_t)strlen(labels));
-	close(fd);
-	assert_int_equal(labels_read(&ls, path, NM, stderr, &err), 0);
-	remove(path);
+	read_labels(&ls, "occupation\tkind\tlang\tlabel\n"
+			 "occ:7\talt\tde\tLagerhelfer\n"
+			 "occ:7\tpref\tfr\tMagasinier\n"
+			 "occ:7\tpref\tde\tLagerist\n"
+			 "occ:8\talt\ten\tCook\n");
 	const label *l = labels_pref(&ls, "occ:7", 5, "de");
 	assert_non_null(l);
 	assert_string_equal(lab_str(&ls, l->text), "Lagerist");
@@ -299,7 +377,6 @@ static void test_pref(void **state)
 	assert_null(labels_pref(&ls, "occ:8", 5, "en")); /* no preferred label */
 	assert_null(labels_pref(&ls, "occ:9", 5, "de"));
 	labels_free(&ls);
-	buf_free(&err);
 }
 
 static void test_variant(void **state)
@@ -311,6 +388,23 @@ static void test_variant(void **state)
 	assert_null(propose_variant("tig", 3, "mig", 3));             /* words under six */
 	assert_null(propose_variant("lagerist", 8, "lagerist", 8));   /* the same */
 	assert_null(propose_variant("lagerrist helfer", 16, "lagerist hilfe", 14)); /* two words */
+	/* hyphens count as spaces */
+	assert_string_equal(propose_variant("gabelstapler-fahrer", 19, "gabelstapler fahrer", 19),
+			    "spacing");
+	assert_string_equal(propose_variant("gabelstapler-fahrer", 19, "gabelstaplerfahrer", 18),
+			    "spacing");
+	/* two edits: when the longer word has seven letters or more */
+	assert_string_equal(propose_variant("theater technician", 18, "theatre technician", 18),
+			    "spelling");
+	assert_string_equal(propose_variant("catalog", 7, "catalogue", 9), "spelling");
+	assert_string_equal(propose_variant("dialog editor", 13, "dialogue editor", 15), "spelling");
+	assert_null(propose_variant("fahrer", 6, "f\xc3\xa4rber", 7));      /* six letters each */
+	assert_null(propose_variant("maler", 5, "malerin", 7));            /* a word under six */
+	assert_null(propose_variant("mechaniker", 10, "mechatroniker", 13)); /* three edits */
+	/* two edits apart from each other: another word, not a spelling */
+	assert_null(propose_variant("technicien automobile", 21, "mecanicien automobile", 21));
+	assert_string_equal(propose_variant("programme", 9, "program", 7), "spelling");
+	assert_string_equal(propose_variant("th\xc3\xa9\xc3\xa2tre", 9, "theatre", 7), "spelling");
 }
 
 static void test_as_written(void **state)
@@ -423,6 +517,7 @@ int main(void)
 		cmocka_unit_test(test_coverage),
 		cmocka_unit_test(test_coverage_stops),
 		cmocka_unit_test(test_propose),
+		cmocka_unit_test(test_hidden),
 		cmocka_unit_test(test_pref),
 		cmocka_unit_test(test_variant),
 		cmocka_unit_test(test_as_written),
