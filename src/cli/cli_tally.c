@@ -71,7 +71,8 @@ static const opt_cmd tally_cmd = {
 	"tally",
 	"usage: titlemill tally [--store URL [--prefix P] [--chunk N] [--retries N] [--ttl DAYS]]\n"
 	"                       [--format auto|tsv|jsonl] [--labels FILE] [--lexicons DIR]\n"
-	"                       [--strict] [--threads N] [--progress|--quiet] [-o FILE] POSTINGS...\n"
+	"                       [--strict] [--threads N] [--progress|--quiet]\n"
+	"                       [-o FILE] POSTINGS...\n"
 	"\n"
 	"Counts, per occupation, language and match key, how often each cleaned\n"
 	"title is used, and writes a counts table (TSV) to standard output or FILE.\n"

@@ -142,8 +142,9 @@ static int copy_posting(loader *L, batch *b, const posting *p)
 	return 0;
 }
 
-/* Reads the next rows into b, up to LOAD_BATCH postings; the last row
- * of the load is an error or the end of the last input. */
+/* Reads the next rows into b, up to LOAD_BATCH postings or
+ * LOAD_BATCH_BYTES; the last row of the load is an error or the end of
+ * the last input. */
 static void fill(loader *L, batch *b)
 {
 	size_t postings = 0;
@@ -151,7 +152,7 @@ static void fill(loader *L, batch *b)
 	b->n = b->nocc = 0;
 	buf_reset(&b->raw);
 	buf_reset(&b->res);
-	while (postings < LOAD_BATCH && !L->over && !L->oom) {
+	while (postings < LOAD_BATCH && b->raw.len < LOAD_BATCH_BYTES && !L->over && !L->oom) {
 		posting p;
 		pr_row row;
 		if (!L->open) {

@@ -3,7 +3,7 @@
  * order.
  *
  * The reader (the calling thread) cuts the input into batches of
- * LOAD_BATCH rows under sequence numbers; each worker cleans whole
+ * LOAD_BATCH rows (or LOAD_BATCH_BYTES) under sequence numbers; each worker cleans whole
  * batches with a normaliser of its own over the shared, read-only
  * lexicon; the calling thread takes the batches back in sequence order
  * and replays each row as the single-threaded loop would: a malformed
@@ -35,6 +35,9 @@
  * beside cleaning it, small enough that the workers share the work
  * evenly on short inputs. */
 #define LOAD_BATCH 512
+/* A batch is also cut once its rows hold this many bytes, so that long
+ * titles (a row may hold a mebibyte) keep the batches in flight small. */
+#define LOAD_BATCH_BYTES ((size_t)1 << 20)
 /* Batches in flight per worker. */
 #define LOAD_AHEAD 4
 /* The most workers a load starts. */

@@ -5,6 +5,7 @@
 #include <stdlib.h>
 #include <string.h>
 
+#include "core/digest.h"
 #include "io/decode.h"
 #include "count/store.h"
 #include "norm/token.h"
@@ -39,7 +40,14 @@ size_t tm_bytes(const tally_mem *m)
 /* The tables' keys are fields joined with SEP, filed under a hash made
  * of the fields' own hashes: a posting hashes its language, key, title
  * and each occupation once, and every key it counts under is derived
- * from those, never joined to be looked up. */
+ * from those, never joined to be looked up.  A field's hash reads eight
+ * bytes at a step (the examples keep tok_hash: which three are kept
+ * depends on it, here and in the store). */
+static inline uint64_t fh(const char *s, size_t n)
+{
+	return dg_hash(s, n, 0);
+}
+
 static void fk_init(st_fields *k)
 {
 	k->k = 0;
@@ -72,23 +80,23 @@ static void occ_key(st_fields *k, const char *occ, size_t ol, const char *lang)
 {
 	size_t ll = strlen(lang);
 	fk_init(k);
-	fk_push(k, occ, ol, tok_hash(occ, ol));
-	fk_push(k, lang, ll, tok_hash(lang, ll));
+	fk_push(k, occ, ol, fh(occ, ol));
+	fk_push(k, lang, ll, fh(lang, ll));
 }
 
 static void triple_key(st_fields *k, const char *occ, size_t ol, const char *lang,
 		       const char *key, size_t kl)
 {
 	occ_key(k, occ, ol, lang);
-	fk_push(k, key, kl, tok_hash(key, kl));
+	fk_push(k, key, kl, fh(key, kl));
 }
 
 static void lang_key(st_fields *k, const char *lang, const char *key, size_t kl)
 {
 	size_t ll = strlen(lang);
 	fk_init(k);
-	fk_push(k, lang, ll, tok_hash(lang, ll));
-	fk_push(k, key, kl, tok_hash(key, kl));
+	fk_push(k, lang, ll, fh(lang, ll));
+	fk_push(k, key, kl, fh(key, kl));
 }
 
 int tm_add_form(tally_mem *m, const char *occ, size_t ol, const char *lang,
@@ -96,7 +104,7 @@ int tm_add_form(tally_mem *m, const char *occ, size_t ol, const char *lang,
 {
 	st_fields k;
 	triple_key(&k, occ, ol, lang, key, kl);
-	fk_push(&k, title, tl, tok_hash(title, tl));
+	fk_push(&k, title, tl, fh(title, tl));
 	return add_count(&m->forms, &m->added[0], &k, n);
 }
 
@@ -186,9 +194,9 @@ int tm_add(tally_mem *m, const tally_posting *p)
 		}
 	}
 	m->postings++;
-	hl = tok_hash(p->lang, ll);
-	hk = tok_hash(p->key, p->keylen);
-	ht = tok_hash(p->title, p->titlelen);
+	hl = fh(p->lang, ll);
+	hk = fh(p->key, p->keylen);
+	ht = fh(p->title, p->titlelen);
 	hx = p->examplelen ? tok_hash(p->example, p->examplelen) : 0;
 	fk_init(&lk);
 	fk_push(&lk, p->lang, ll, hl);
@@ -198,7 +206,7 @@ int tm_add(tally_mem *m, const tally_posting *p)
 	for (size_t i = 0; i < p->nocc; i++) {
 		st_fields ok, tk;
 		fk_init(&ok);
-		fk_push(&ok, p->occ[i], p->occlen[i], tok_hash(p->occ[i], p->occlen[i]));
+		fk_push(&ok, p->occ[i], p->occlen[i], fh(p->occ[i], p->occlen[i]));
 		fk_push(&ok, p->lang, ll, hl);
 		if (add_count(&m->occs, &m->added[2], &ok, 1))
 			return -1;

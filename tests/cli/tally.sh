@@ -169,6 +169,16 @@ printf 'id\toccupations\ttitle\n1\tocc:1\tKoch\n' > "$tmp/one"
 $T tally "$tmp/one" 2>&1 > /dev/null | grep -q 'tally: 1 posting counted, 0 republished ids skipped, 0 malformed rows skipped$'
 check one-posting 0 $?
 
+# long titles (a batch is cut by its bytes too): 60 rows of 100 KB
+# among short ones, the same bytes with 1 and 3 threads
+awk 'BEGIN { print "id\toccupations\ttitle"; s = "Koch ";
+	for (i = 0; i < 17; i++) s = s s; # 5 * 2^17 bytes
+	for (i = 0; i < 300; i++) printf "%d\tocc:%d\t%s\n", i, i % 7, (i % 5 ? "Koch " i : substr(s, 1, 100000 + i)) }' > "$tmp/long.tsv"
+$T tally --threads 1 "$tmp/long.tsv" > "$tmp/long1" 2> "$tmp/long1.err"; check long-1-status 0 $?
+$T tally --threads 3 "$tmp/long.tsv" > "$tmp/long3" 2> "$tmp/long3.err"; check long-3-status 0 $?
+cmp -s "$tmp/long1" "$tmp/long3"; check long-threads-table 0 $?
+cmp -s "$tmp/long1.err" "$tmp/long3.err"; check long-threads-summary 0 $?
+
 # --- progress: --progress on a pipe ends with the whole load's figures
 # (the share of the input when its size is known), --quiet and a pipe
 # by default show none; the table is the same

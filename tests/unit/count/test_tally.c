@@ -419,10 +419,10 @@ static void test_idset(void **state)
 	ids_free(&s);
 
 	/* two ids whose hashes share the fingerprint and the home slot of
-	 * the first 1,024 slots (found by a search over "fp-N" for N below
+	 * the first 1,024 slots (found by a search over "fs-N" for N below
 	 * 4,000,000: 42 equal bits): the second meets the first's slot
 	 * first, and only the bytes tell them apart */
-	const char *ka = "fp-887156", *kb = "fp-1288938";
+	const char *ka = "fs-526287", *kb = "fs-1799457";
 	size_t la = strlen(ka), lb = strlen(kb);
 	uint64_t ha = ids_hash(ka, la), hb = ids_hash(kb, lb);
 	assert_true(ha >> 32 == hb >> 32 && (ha & 1023) == (hb & 1023));
