@@ -147,15 +147,6 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 	size_t k0, k1, k, len;
 
 	seg_kept(ti, s, &k0, &k1);
-	if (HAS(ti, LC_UNIT) && k0 < k1) {
-		int r = channel(ti, k0, k1);
-		if (r < 0)
-			return -1;
-		if (r) {
-			*changed = 1;
-			seg_kept(ti, s, &k0, &k1);
-		}
-	}
 	size_t a = k0, b = k1;
 	for (k = k0; k < k1; k++) {
 		const lex_entry *e;
@@ -315,6 +306,14 @@ int pass_phrases(tm_title *ti)
 	if (ti->peeled == ti->gen && ti->phrase_runs >= 2)
 		return 0;
 	ti->phrase_runs++;
+	/* application channels, once a call (no other removal makes one) */
+	if (HAS(ti, LC_UNIT))
+		for (size_t s = 0; s < ti->nseg; s++) {
+			size_t k0, k1;
+			seg_kept(ti, s, &k0, &k1);
+			if (k0 < k1 && channel(ti, k0, k1) < 0)
+				return -1;
+		}
 	while (changed && rounds++ < 64) {
 		changed = 0;
 		for (size_t s = 0; s < ti->nseg; s++)
