@@ -26,6 +26,10 @@
  * via") takes the rest of its segment with it, the board or portal it
  * names: at most CHANNEL_REST_MAX units after the phrase. */
 #define CHANNEL_REST_MAX 6
+/* The words left before a removed duration in a segment beside the
+ * occupation ("befristet für [2 Jahre]", "contrat de [3 mois]") go with
+ * it when they are at most DURATION_LEAD_MAX. */
+#define DURATION_LEAD_MAX 2
 /* A pay word written before an amount ("Day Rate £180", "KV-Lohn
  * € 2.100") is looked for at most PAY_WORD_BACK units before it. */
 #define PAY_WORD_BACK 3

@@ -131,20 +131,22 @@ static int channel(tm_title *ti, size_t k0, size_t k1)
 	return 0;
 }
 
+/* Are units [k0, k1) kept words with nothing occupational (no word of
+ * occupation/, no protected phrase), all in one run? */
+static int lead_words(tm_title *ti, size_t k0, size_t k1)
+{
+	for (size_t k = k0; k < k1; k++)
+		if (!ukept(ti, k) || ti->prot[ti->unit[k]] || U(ti, k)->kind != TK_WORD ||
+		    (ti->ucats[k] & (1u << LC_OCCUPATION)))
+			return 0;
+	return 1;
+}
+
 static int peel_segment(tm_title *ti, size_t s, int *changed)
 {
 	size_t k0, k1, k, len;
 
 	seg_kept(ti, s, &k0, &k1);
-	if (HAS(ti, LC_UNIT) && k0 < k1) {
-		int r = channel(ti, k0, k1);
-		if (r < 0)
-			return -1;
-		if (r) {
-			*changed = 1;
-			seg_kept(ti, s, &k0, &k1);
-		}
-	}
 	size_t a = k0, b = k1;
 	for (k = k0; k < k1; k++) {
 		const lex_entry *e;
@@ -231,15 +233,17 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 		*changed = 1; /* the next round looks again */
 		break;
 	}
-	/* a contract word or preposition left before the duration the
-	 * schedule rule removed: "befristet für [2 Jahre]", "contrat de
-	 * [3 mois]", "initial [3 month contract]" */
+	/* the contract word or preposition left before the duration the
+	 * schedule rule removed, in a segment beside the occupation:
+	 * "befristet für [2 Jahre]", "contrat de [3 mois]", "initial [3
+	 * month contract]"; at most DURATION_LEAD_MAX words, none of
+	 * them occupational */
 	seg_kept(ti, s, &k0, &k1);
-	if (k0 < k1 && !ti->prot[ti->unit[k1 - 1]] &&
-	    match_val(ti, k1 - 1, LC_UNIT, "duration", 1, &len) && len == 1 &&
-	    ti->unit[k1 - 1] + 1 < ti->tl.n &&
-	    ti->rm[ti->unit[k1 - 1] + 1] == NF_SCHEDULE && kept_elsewhere(ti, k1 - 1, k1)) {
-		if (remove_units(ti, k1 - 1, k1, NF_SCHEDULE, NULL))
+	if (k0 < k1 && (ti->segs[s].bracket || ti->segs[s].index > 0) &&
+	    k1 - k0 <= DURATION_LEAD_MAX && ti->unit[k1 - 1] + 1 < ti->tl.n &&
+	    ti->rm[ti->unit[k1 - 1] + 1] == NF_SCHEDULE && lead_words(ti, k0, k1) &&
+	    kept_elsewhere(ti, k0, k1)) {
+		if (remove_units(ti, k0, k1, NF_SCHEDULE, NULL))
 			return -1;
 		*changed = 1;
 	}
@@ -302,6 +306,14 @@ int pass_phrases(tm_title *ti)
 	if (ti->peeled == ti->gen && ti->phrase_runs >= 2)
 		return 0;
 	ti->phrase_runs++;
+	/* application channels, once a call (no other removal makes one) */
+	if (HAS(ti, LC_UNIT))
+		for (size_t s = 0; s < ti->nseg; s++) {
+			size_t k0, k1;
+			seg_kept(ti, s, &k0, &k1);
+			if (k0 < k1 && channel(ti, k0, k1) < 0)
+				return -1;
+		}
 	while (changed && rounds++ < 64) {
 		changed = 0;
 		for (size_t s = 0; s < ti->nseg; s++)
