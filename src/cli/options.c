@@ -131,6 +131,16 @@ static int take(const opt_cmd *cmd, const opt_spec *s, void *o, const char *arg)
 		so->extra[so->nextra++] = arg;
 		return 0;
 	}
+	case OPT_LIST: {
+		opt_list *l = (opt_list *)at;
+		if (l->n == OPT_LIST_MAX) {
+			fprintf(stderr, "titlemill %s: at most %d --%s\n", cmd->name, OPT_LIST_MAX,
+				s->name);
+			return -1;
+		}
+		l->v[l->n++] = arg;
+		return 0;
+	}
 	case OPT_PREFIX: {
 		tm_buf err = {0};
 		if (store_prefix_check(arg, &err) == 0) {

@@ -20,6 +20,7 @@
  *               given
  *   OPT_LEXDIR  setup_opts: appends to its extra folders (repeatable)
  *   OPT_PREFIX  const char *, a store key prefix (store_prefix_check)
+ *   OPT_LIST    opt_list: appends the value (repeatable, OPT_LIST_MAX)
  * A real number's hi of OPT_UNBOUNDED or more means no upper bound
  * (still finite).  Numbers are parsed strictly: the whole argument, no sign on a whole
  * number, within the range. */
@@ -33,8 +34,17 @@
 #include "count/store.h"
 
 typedef enum opt_kind {
-	OPT_FLAG, OPT_STR, OPT_U64, OPT_REAL, OPT_LANG, OPT_CHOICE, OPT_LEXDIR, OPT_PREFIX
+	OPT_FLAG, OPT_STR, OPT_U64, OPT_REAL, OPT_LANG, OPT_CHOICE, OPT_LEXDIR, OPT_PREFIX,
+	OPT_LIST
 } opt_kind;
+
+#define OPT_LIST_MAX 64
+
+/* The values of a repeatable option, borrowed from argv, in order. */
+typedef struct opt_list {
+	const char *v[OPT_LIST_MAX];
+	int n;
+} opt_list;
 
 typedef struct opt_spec {
 	const char *name;      /* without the leading "--"; NULL ends a table */
