@@ -5,6 +5,7 @@
 #include <stddef.h>
 #include <stdio.h>
 #include <string.h>
+#include <time.h>
 
 #include "cli/cli.h"
 #include "cli/options.h"
@@ -20,7 +21,7 @@ typedef struct match_opts {
 	rank_opts in;
 	opt_list counts;
 	char lang[4];
-	int json, tsv_input;
+	int json, tsv_input, stats;
 	uint64_t top, min_postings;
 	double min_score;
 } match_opts;
@@ -49,6 +50,9 @@ static const opt_spec match_specs[] = {
 	 "counted titles with fewer postings are looked up exactly, not searched by similarity",
 	 NULL, 0},
 	OPT_SPEC_LEXICONS(match_opts, in.setup),
+	{"stats", OPT_FLAG, offsetof(match_opts, stats), NULL, NULL, 0, 0,
+	 "say on standard error what the index holds and how long loading, building "
+	 "and matching took", NULL, 0},
 	OPT_SPEC_END,
 };
 
@@ -86,8 +90,15 @@ typedef struct run {
 	tm_buf out, fix;
 	rec r;
 	int wfail;
-	long repaired, cut;
+	long repaired, cut, lines;
 } run;
+
+static double now(void)
+{
+	struct timespec ts;
+	clock_gettime(CLOCK_MONOTONIC, &ts);
+	return (double)ts.tv_sec + ts.tv_nsec / 1e9;
+}
 
 static const char *occ_label(const run *R, const match_cand *c, const char *lang, size_t *n)
 {
@@ -211,6 +222,7 @@ static int one(run *R, const char *s, size_t n, const char *lang)
 
 	if (lang && !*lang)
 		lang = NULL;
+	R->lines++;
 	if (norm_title(R->in->nm, s, n, lang, &res) != 0)
 		return -1;
 	if (res.repaired) {
@@ -341,12 +353,14 @@ int cmd_match(int argc, char **argv)
 	rank_sources src = {&o.in.setup, o.in.store, o.in.prefix, (char *const *)o.counts.v,
 			    o.counts.n, (size_t)OPT_MEMO_MIB << 20};
 	match_conf conf = {o.min_postings};
+	double t0 = now(), t1 = 0, t2 = 0;
 	if (inputs_load(&in, &src, stderr, &err) != 0 ||
-	    match_build(&R.ix, &in.ls, &in.m, &conf, &err) != TM_OK) {
+	    (t1 = now(), match_build(&R.ix, &in.ls, &in.m, &conf, &err)) != TM_OK) {
 		fprintf(stderr, "titlemill match: %.*s\n", (int)err.len, err.data ? err.data : "");
 		rc = EXIT_RUNTIME;
 		goto done;
 	}
+	t2 = now();
 	tm_free(&in.m); /* the index holds what it needs */
 	tm_init(&in.m);
 	if (!(R.w = match_work_new(R.ix))) {
@@ -367,6 +381,16 @@ int cmd_match(int argc, char **argv)
 		if (!R.wfail)
 			fprintf(stderr, "titlemill match: write error: %s\n", strerror(errno));
 		rc = EXIT_RUNTIME;
+	}
+	if (o.stats) {
+		size_t docs, nsim, bytes;
+		double t3 = now();
+		match_stats(R.ix, &docs, &nsim, &bytes);
+		fprintf(stderr, "titlemill match: loaded in %.3f s; index of %zu keys (%zu searched "
+			"by similarity, %.1f MiB) built in %.3f s; %ld line%s matched in %.3f s "
+			"(%.0f lines/s)\n", t1 - t0, docs, nsim, (double)bytes / 1048576.0, t2 - t1,
+			R.lines, R.lines == 1 ? "" : "s", t3 - t2,
+			t3 > t2 ? (double)R.lines / (t3 - t2) : 0.0);
 	}
 	if (R.repaired)
 		fprintf(stderr, "titlemill match: %ld line%s with invalid UTF-8, NUL or a bad "

@@ -184,6 +184,9 @@ static int add_counts(match_index *ix, builder *b, tally_mem *m)
 {
 	const char *f[4];
 	size_t fl[4];
+	char last[2][64]; /* the last occupation and language, with their ids */
+	size_t lastl[2] = {SIZE_MAX, SIZE_MAX};
+	uint32_t lastid[2] = {0, 0};
 
 	for (size_t i = 0; i < m->forms.n; i++) {
 		size_t n;
@@ -191,9 +194,18 @@ static int add_counts(match_index *ix, builder *b, tally_mem *m)
 		tmp_cnt t;
 		if (split_us(s, n, f, fl, 4) < 3 || !fl[2])
 			continue;
-		if (intern(&ix->occs, f[0], fl[0], &t.c.occ) ||
-		    intern(&ix->langs, f[1], fl[1], &t.c.lang) ||
-		    intern(&ix->docs, f[2], fl[2], &t.e))
+		/* the forms of one occupation and language often follow each other */
+		for (int k = 0; k < 2; k++)
+			if (fl[k] != lastl[k] || memcmp(f[k], last[k], fl[k])) {
+				if (intern(k ? &ix->langs : &ix->occs, f[k], fl[k], &lastid[k]))
+					return TM_ENOMEM;
+				lastl[k] = fl[k] <= sizeof last[k] ? fl[k] : SIZE_MAX;
+				if (lastl[k] != SIZE_MAX)
+					memcpy(last[k], f[k], fl[k]);
+			}
+		t.c.occ = lastid[0];
+		t.c.lang = lastid[1];
+		if (intern(&ix->docs, f[2], fl[2], &t.e))
 			return TM_ENOMEM;
 		t.c.n = m->forms.ent[i].count;
 		GROW(b->cnt, b->ncnt, b->capcnt);

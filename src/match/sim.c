@@ -5,7 +5,6 @@
 #include <string.h>
 
 #include "core/buf.h"
-#include "core/digest.h"
 #include "core/err.h"
 #include "match/sim.h"
 
@@ -55,6 +54,9 @@ struct sim_work {
 	tm_buf pad;
 	uint32_t *cand;
 	sim_hit *exact;
+	double qnorm;   /* the query's TF-IDF norm */
+	double self;    /* the query's BM25 against itself */
+	double kq;
 };
 
 static int push64(u64v *a, uint64_t x)
@@ -158,6 +160,17 @@ static void tmap_free(termmap *m)
 	free(m->id);
 }
 
+/* FNV-1a (Fowler, Noll, Vo), 64 bits, from a seed: grams and words are
+ * short, and this is the cheapest good spread for them. */
+static inline uint64_t short_hash(const void *p, size_t n, uint64_t seed)
+{
+	const unsigned char *b = p;
+	uint64_t h = 0xcbf29ce484222325ULL ^ seed;
+	for (size_t i = 0; i < n; i++)
+		h = (h ^ b[i]) * 0x100000001b3ULL;
+	return h ^ (h >> 29);
+}
+
 /* The length of s[0..n) kept: all of it up to SIM_QUERY_MAX, else cut at
  * the last space before the limit, or at a code point boundary. */
 static size_t kept_len(const char *s, size_t n)
@@ -191,7 +204,7 @@ static int cut(sim_work *w, const char *s, size_t n)
 			i++;
 		if (i == b)
 			break;
-		if (push64(&w->wh, dg_hash(s + b, i - b, SEED_WORD)))
+		if (push64(&w->wh, short_hash(s + b, i - b, SEED_WORD)))
 			return TM_ENOMEM;
 		buf_reset(&w->pad);
 		buf_putc(&w->pad, ' ');
@@ -206,11 +219,11 @@ static int cut(sim_work *w, const char *s, size_t n)
 				off[L++] = k;
 		off[L] = np;
 		if (L < 3) {
-			if (push64(&w->gh, dg_hash(p, np, SEED_GRAM)))
+			if (push64(&w->gh, short_hash(p, np, SEED_GRAM)))
 				return TM_ENOMEM;
 		} else
 			for (size_t k = 0; k + 3 <= L; k++)
-				if (push64(&w->gh, dg_hash(p + off[k], off[k + 3] - off[k], SEED_GRAM)))
+				if (push64(&w->gh, short_hash(p + off[k], off[k + 3] - off[k], SEED_GRAM)))
 					return TM_ENOMEM;
 	}
 	return TM_OK;
@@ -249,12 +262,6 @@ void sim_free(sim_index *x)
 	free(x);
 }
 
-static int cmp_u32(const void *a, const void *b)
-{
-	uint32_t x = *(const uint32_t *)a, y = *(const uint32_t *)b;
-	return (x > y) - (x < y);
-}
-
 /* Appends the numbers of hashes h to terms, sorted: TM_OK or TM_ENOMEM. */
 static int add_terms(termmap *m, const u64v *h, u32v *terms)
 {
@@ -264,7 +271,17 @@ static int add_terms(termmap *m, const u64v *h, u32v *terms)
 		if (tmap_get(m, h->v[i], &id) || push32(terms, id))
 			return TM_ENOMEM;
 	}
-	qsort(terms->v + from, terms->n - from, sizeof *terms->v, cmp_u32);
+	/* a document's terms are few: insertion sort */
+	uint32_t *v = terms->v + from;
+	for (size_t i = 1; i < terms->n - from; i++) {
+		uint32_t x = v[i];
+		size_t j = i;
+		while (j > 0 && v[j - 1] > x) {
+			v[j] = v[j - 1];
+			j--;
+		}
+		v[j] = x;
+	}
 	return TM_OK;
 }
 
@@ -419,16 +436,6 @@ static int query_terms(const termmap *m, u64v *h, qtv *out)
 	return TM_OK;
 }
 
-/* Cuts the query and finds its terms: TM_OK or TM_ENOMEM. */
-static int prepare(sim_work *w, const char *q, size_t n)
-{
-	const sim_index *x = w->x;
-	if (cut(w, q, n) || query_terms(&x->grams, &w->gh, &w->qg) ||
-	    query_terms(&x->words, &w->wh, &w->qw))
-		return TM_ENOMEM;
-	return TM_OK;
-}
-
 static double gram_idf(const sim_index *x, uint32_t id)
 {
 	return id == UINT32_MAX ? log(1.0 + (double)x->ndoc) + 1.0 : x->gidf[id];
@@ -439,16 +446,33 @@ static double word_idf(const sim_index *x, uint32_t id)
 	return id == UINT32_MAX ? log(1.0 + ((double)x->ndoc + 0.5) / 0.5) : x->widf[id];
 }
 
+/* Cuts the query, finds its terms and its own norm and BM25: TM_OK or
+ * TM_ENOMEM. */
+static int prepare(sim_work *w, const char *q, size_t n)
+{
+	const sim_index *x = w->x;
+	if (cut(w, q, n) || query_terms(&x->grams, &w->gh, &w->qg) ||
+	    query_terms(&x->words, &w->wh, &w->qw))
+		return TM_ENOMEM;
+	double qn = 0;
+	for (size_t i = 0; i < w->qg.n; i++) {
+		double v = w->qg.v[i].tf * gram_idf(x, w->qg.v[i].id);
+		qn += v * v;
+	}
+	w->qnorm = sqrt(qn);
+	w->kq = SIM_BM25_K1 * (1 - SIM_BM25_B + SIM_BM25_B * (double)w->wh.n / x->avgdl);
+	w->self = 0;
+	for (size_t i = 0; i < w->qw.n; i++)
+		w->self += word_idf(x, w->qw.v[i].id) * (SIM_BM25_K1 + 1) / (1 + w->kq);
+	return TM_OK;
+}
+
 /* Exact measures of the prepared query against doc d. */
 static void score_doc(const sim_work *w, uint32_t d, sim_hit *hit)
 {
 	const sim_index *x = w->x;
-	double qn = 0, dot = 0;
+	double dot = 0;
 
-	for (size_t i = 0; i < w->qg.n; i++) {
-		double q = w->qg.v[i].tf * gram_idf(x, w->qg.v[i].id);
-		qn += q * q;
-	}
 	size_t k = x->gstart.v[d], ke = x->gstart.v[d + 1];
 	for (size_t i = 0; i < w->qg.n && w->qg.v[i].id != UINT32_MAX; i++) {
 		uint32_t t = w->qg.v[i].id;
@@ -462,22 +486,20 @@ static void score_doc(const sim_work *w, uint32_t d, sim_hit *hit)
 		k = e;
 	}
 	hit->doc = d;
-	hit->cos = qn > 0 && x->dnorm[d] > 0 ? dot / (sqrt(qn) * x->dnorm[d]) : 0;
+	hit->cos = w->qnorm > 0 && x->dnorm[d] > 0 ? dot / (w->qnorm * x->dnorm[d]) : 0;
 	if (hit->cos > 1)
 		hit->cos = 1;
 
-	double qlen = (double)w->wh.n, dlen = (double)(x->wstart.v[d + 1] - x->wstart.v[d]);
-	double self = 0, bm = 0;
+	double dlen = (double)(x->wstart.v[d + 1] - x->wstart.v[d]);
+	double bm = 0;
 	double kd = SIM_BM25_K1 * (1 - SIM_BM25_B + SIM_BM25_B * dlen / x->avgdl);
-	double kq = SIM_BM25_K1 * (1 - SIM_BM25_B + SIM_BM25_B * qlen / x->avgdl);
 	k = x->wstart.v[d];
 	ke = x->wstart.v[d + 1];
 	for (size_t i = 0; i < w->qw.n; i++) {
 		uint32_t t = w->qw.v[i].id;
-		double idf = word_idf(x, t);
-		self += idf * (SIM_BM25_K1 + 1) / (1 + kq);
 		if (t == UINT32_MAX)
 			continue;
+		double idf = x->widf[t];
 		while (k < ke && x->wterm.v[k] < t)
 			k++;
 		size_t e = k;
@@ -490,7 +512,7 @@ static void score_doc(const sim_work *w, uint32_t d, sim_hit *hit)
 		k = e;
 	}
 	hit->bm25 = bm;
-	hit->bm25n = self > 0 ? bm / self : 0;
+	hit->bm25n = w->self > 0 ? bm / w->self : 0;
 	if (hit->bm25n > 1)
 		hit->bm25n = 1;
 	hit->s = SIM_W_CHAR * hit->cos + SIM_W_WORD * hit->bm25n;

@@ -48,7 +48,7 @@
 #define SIM_BM25_B 0.75
 #define SIM_W_CHAR 0.7
 #define SIM_W_WORD 0.3
-#define SIM_WORK 20000
+#define SIM_WORK 8000
 #define SIM_CANDIDATES 64
 #define SIM_QUERY_MAX 256
 
