@@ -40,7 +40,7 @@ SRC_norm = unicode token lexicon lexicon_read lexicon_image lexcache setup title
 SRC_count = strtab tally_mem chunk store store_redis store_redis_url store_redis_keys store_redis_chunk \
 	store_redis_apply store_redis_dump cluster slot
 SRC_rank = stats labels inputs coverage propose
-SRC_match = sim match
+SRC_match = sim match code
 SRC_review = review_item review_json review_change review_batch review_time queue queue_file \
 	store_redis_queue delta
 SRC_cli = options cli_norm cli_tally cli_rank cli_propose cli_match cli_review cli_review_change cli_review_read \

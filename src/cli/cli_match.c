@@ -36,7 +36,7 @@ static const opt_spec match_specs[] = {
 	OPT_SPEC_PREFIX(match_opts, in.prefix),
 	{"top", OPT_U64, offsetof(match_opts, top), "K", "5", 1, MATCH_TOP_MAX,
 	 "candidates per line with --json", NULL, 0},
-	{"min-score", OPT_REAL, offsetof(match_opts, min_score), "X", "0.3", 0, 1,
+	{"min-score", OPT_REAL, offsetof(match_opts, min_score), "X", OPT_XSTR(MATCH_MIN_SCORE_SHOW), 0, 1,
 	 "only candidates scoring at least X (0 to 1)", NULL, 0},
 	OPT_SPEC_LANG(match_opts, lang, "the texts' language (BCP 47): the normaliser's hint; "
 		      "labels in it are preferred"),

@@ -14,10 +14,12 @@
 #include "norm/setup.h"
 #include "count/store.h"
 #include "count/tally.h"
+#include "match/code.h"
 
 typedef struct tally_opts {
 	int format;        /* 1 + the index in format_names */
-	int strict, stats;
+	int strict, stats, code_missing;
+	double min_score;
 	uint64_t memo_mib, chunk, retries, ttl_days; /* ttl_days: UINT64_MAX: none */
 	const char *out, *store, *prefix;
 	setup_opts setup;
@@ -54,6 +56,12 @@ static const opt_spec tally_specs[] = {
 	 "FIFO is written into)", NULL, 'o'},
 	{"stats", OPT_FLAG, offsetof(tally_opts, stats), NULL, NULL, 0, 0,
 	 "say on standard error how much memory the counts took", NULL, 0},
+	{"code-missing", OPT_FLAG, offsetof(tally_opts, code_missing), NULL, NULL, 0, 0,
+	 "count a posting without occupations under its best match (titlemill match over "
+	 "--labels and the coded postings) when it scores at least --min-score; the summary "
+	 "says how many (coded_by_match)", NULL, 0},
+	{"min-score", OPT_REAL, offsetof(tally_opts, min_score), "X", OPT_XSTR(MATCH_MIN_SCORE_CODE),
+	 0, 1, "the score a match needs to code a posting (--code-missing)", NULL, 0},
 	OPT_SPEC_END,
 };
 
@@ -154,7 +162,9 @@ int cmd_tally(int argc, char **argv)
 	normaliser *nm;
 	int first, rc = EXIT_OK, tty = isatty(2);
 	double t0 = now(), last = t0;
+	match_coder mc;
 
+	mc_init(&mc);
 	memset(&o, 0, sizeof o);
 	memset(&bl, 0, sizeof bl);
 	switch (opt_parse(&tally_cmd, &o, argc, argv, &first)) {
@@ -185,6 +195,14 @@ int cmd_tally(int argc, char **argv)
 	}
 	if (o.store && o.out) {
 		fputs("titlemill tally: -o writes a counts table; with --store the counts go to the store\n", stderr);
+		norm_free(nm);
+		lex_free(lx);
+		return EXIT_USAGE;
+	}
+	if (o.code_missing && (o.store || !o.setup.labels)) {
+		fputs(o.store ? "titlemill tally: --code-missing counts in memory (-o); run titlemill "
+			"match over the store instead\n"
+			: "titlemill tally: --code-missing needs --labels FILE\n", stderr);
 		norm_free(nm);
 		lex_free(lx);
 		return EXIT_USAGE;
@@ -243,6 +261,7 @@ int cmd_tally(int argc, char **argv)
 			rc = EXIT_RUNTIME;
 			break;
 		}
+		pr.uncoded = o.code_missing;
 		while ((r = pr_next(&pr, &p, &row)) < 0 || row != PR_END) {
 			norm_result res;
 			tally_posting tp;
@@ -274,6 +293,14 @@ int cmd_tally(int argc, char **argv)
 				break;
 			}
 			tally_posting_of(&tp, &p, &res);
+			if (o.code_missing && !p.nocc) {
+				if (mc_hold(&mc, &p, pr.lr.name) != TM_OK) {
+					fputs("titlemill tally: out of memory\n", stderr);
+					rc = EXIT_RUNTIME;
+					break;
+				}
+				continue;
+			}
 			if (store_feed(st, &p, &tp, pr.lr.name, p.line) != 0) {
 				fprintf(stderr, "titlemill tally: %.*s\n", (int)st->err.len, st->err.data);
 				rc = EXIT_RUNTIME;
@@ -296,6 +323,16 @@ int cmd_tally(int argc, char **argv)
 	}
 	if (tty && last != t0)
 		fputc('\n', stderr);
+	if (rc == EXIT_OK && o.code_missing) {
+		labelset ls;
+		if (labels_read(&ls, o.setup.labels, nm, stderr, &err) != 0 ||
+		    mc_code(&mc, &ls, &m, nm, o.min_score, st, &err) != TM_OK) {
+			fprintf(stderr, "titlemill tally: --code-missing: %.*s\n", (int)err.len,
+				err.data ? err.data : "");
+			rc = EXIT_RUNTIME;
+		}
+		labels_free(&ls);
+	}
 	if (rc == EXIT_OK && st->ops->finish(st) != 0) {
 		/* chunks other loads left unfinished (killed, or still at work) */
 		fprintf(stderr, "titlemill tally: %.*s; every input is counted, but chunks that "
@@ -330,6 +367,11 @@ int cmd_tally(int argc, char **argv)
 	for (long k = 0; k < bl.n && k < 5; k++)
 		fprintf(stderr, "%s %s", k ? ";" : ":", bl.first[k]);
 	fprintf(stderr, "%s\n", bl.n > 5 ? "; ..." : "");
+	if (o.code_missing)
+		fprintf(stderr, "titlemill tally: of them without occupations: coded_by_match %llu "
+			"(best match scoring at least %.2f), %llu left without\n",
+			(unsigned long long)mc.coded, o.min_score, (unsigned long long)mc.uncoded);
+	mc_free(&mc);
 	store_close(st);
 	tm_free(&m);
 	norm_free(nm);

@@ -77,6 +77,10 @@
 #define MATCH_SIM_HITS 32      /* neighbours read per query */
 #define MATCH_SIM_MIN_POSTINGS 2
 #define MATCH_TOP_MAX 100
+/* The default bars: what match shows (--min-score), and what tally
+ * --code-missing takes as a code (higher: a code changes the counts). */
+#define MATCH_MIN_SCORE_SHOW 0.3
+#define MATCH_MIN_SCORE_CODE 0.5
 
 typedef enum match_via { VIA_LABEL = 1, VIA_VARIANT, VIA_TITLE, VIA_SIMILAR } match_via;
 

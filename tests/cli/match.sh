@@ -159,6 +159,29 @@ else
 	echo "  SKIPPED store check: redis-server is not installed"
 fi
 
+# tally --code-missing: a posting without occupations is counted under its
+# best match when it scores at least --min-score, and the summary says how
+# many; one that matches nothing stays without
+{
+	printf 'id\tlang\toccupations\ttitle\n'
+	printf '1\tde\tocc:9333\tLagermitarbeiter\n2\tde\tocc:9333\tLagermitarbeiter\n'
+	printf '3\tde\t\tLagermitarbeiter (m/w/d)\n4\tde\t\tGabelstapler-Fahrer\n5\tde\t\tqqqq zzzz\n'
+} > "$tmp/un.tsv"
+$T tally --labels "$tmp/labels.tsv" --code-missing -o "$tmp/un.counts" "$tmp/un.tsv" 2> "$tmp/err"
+check code-missing-exit 0 $?
+check code-missing-summary 1 "$(grep -c 'coded_by_match 2 (best match scoring at least 0.50), 1 left without' "$tmp/err")"
+check code-missing-title "title	occ:9333	de	lagermitarbeiter	lagermitarbeiter	3" "$(grep '^title	occ:9333' "$tmp/un.counts")"
+check code-missing-variant 1 "$(grep -c '^title	occ:8344	de	gabelstapler fahrer	' "$tmp/un.counts")"
+check code-missing-left "key		de	qqqq zzzz		1" "$(grep '^key.*qqqq' "$tmp/un.counts")"
+$T tally --labels "$tmp/labels.tsv" -o "$tmp/un0.counts" "$tmp/un.tsv" 2> "$tmp/err"
+check without-code-missing 1 "$(grep -c '3 malformed rows skipped' "$tmp/err")"
+$T tally --labels "$tmp/labels.tsv" --code-missing --min-score 0.99 -o "$tmp/un1.counts" "$tmp/un.tsv" 2> "$tmp/err"
+check code-missing-bar 1 "$(grep -c 'coded_by_match 0 ' "$tmp/err")"
+$T tally --code-missing -o "$tmp/x" "$tmp/un.tsv" 2>/dev/null
+check code-missing-no-labels 2 $?
+$T tally --labels "$tmp/labels.tsv" --code-missing --store "unix:$tmp/none.sock" "$tmp/un.tsv" 2>/dev/null
+check code-missing-store 2 $?
+
 # held-out coding: match against the raw-title and the key baselines
 /usr/bin/python3 "$here/match_heldout.py" "$T" "$tmp" --count 20000 > "$tmp/heldout" 2>&1
 check heldout 0 $?
