@@ -138,6 +138,7 @@ bench: titlemill
 	sh tests/bench/review.sh $(CURDIR)/titlemill
 	sh tests/bench/cluster.sh $(CURDIR)/titlemill
 	sh tests/bench/rank.sh $(CURDIR)/titlemill
+	sh tests/bench/match.sh $(CURDIR)/titlemill
 
 # The Debian 12 packages of .ci/packages: through sudo unless already root.
 SUDO := $(if $(filter 0,$(shell id -u)),,sudo)

@@ -55,7 +55,7 @@ def main():
         f.write("occupation\tkind\tlang\tlabel\n")
         for i in range(nl):
             occ = "occ:%05d" % (i % nocc)
-            text = " ".join(vocab[r.below(len(vocab))] for _ in range(1 + r.below(3))).title()
+            text = " ".join(vocab[r.below(len(vocab))] for _ in range(2 + r.below(2))).title()
             labels.append((occ, text))
             f.write("%s\t%s\t%s\t%s\n" % (occ, "pref" if i < nocc else "alt", LANGS[i % 3], text))
     seen, titles = set(), []
