@@ -640,7 +640,7 @@ static int offer_near(match_work *w, uint32_t occ, double sc, double s, const ch
 }
 
 static int similar(match_work *w, const char *key, size_t kl, const char *lang, long lid,
-		   long exact, long group)
+		   long exact, long group, double min_score)
 {
 	const match_index *ix = w->ix;
 	size_t nh;
@@ -650,6 +650,8 @@ static int similar(match_work *w, const char *key, size_t kl, const char *lang, 
 	for (size_t h = 0; h < nh; h++) {
 		size_t d = ix->simdoc[w->hits[h].doc];
 		double s = w->hits[h].s;
+		if (MATCH_SIM_SPAN * s < min_score)
+			break; /* hits come best first: none after gives a candidate */
 		if ((long)d == exact || (long)ix->group[d] == group)
 			continue;
 		for (size_t i = ix->lstart[d]; i < ix->lstart[d + 1]; i++) {
@@ -716,7 +718,7 @@ int match_find(const match_index *ix, match_work *w, const char *key, size_t kl,
 	} else if (!rc)
 		rc = TM_ENOMEM;
 	if (!rc)
-		rc = similar(w, key, kl, lang, lid, exact, group);
+		rc = similar(w, key, kl, lang, lid, exact, group, min_score);
 	if (!rc && w->capout < w->ncand) {
 		size_t cap = w->capout;
 		const match_cand **v = tm_grow(w->out, &cap, w->ncand, sizeof *v, 16);

@@ -35,8 +35,10 @@
  *            its occupations MATCH_SIM_SPAN * s(q, d) * w, w = 1 for a
  *            label of the occupation, w = P(occupation | d) for a counted
  *            title; an occupation's score is the largest over its
- *            neighbours (the MATCH_NEAR nearest are its evidence).  The
- *            exact and variant documents are not neighbours.
+ *            neighbours (the MATCH_NEAR nearest are its evidence, among
+ *            the MATCH_SIM_HITS nearest documents whose MATCH_SIM_SPAN * s
+ *            reaches the query's min_score).  The exact and variant
+ *            documents are not neighbours.
  *
  * Languages: with a hint L (a primary subtag), the counts of q in L are
  * used when q was counted in L, else its counts in all languages

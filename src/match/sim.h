@@ -49,7 +49,7 @@
 #define SIM_W_CHAR 0.7
 #define SIM_W_WORD 0.3
 #define SIM_WORK 8000
-#define SIM_CANDIDATES 64
+#define SIM_CANDIDATES 32
 #define SIM_QUERY_MAX 256
 
 typedef struct sim_index sim_index;
