@@ -267,6 +267,35 @@ static size_t *starts(size_t ndoc, const void *rows, size_t nrows, size_t size)
 	return s;
 }
 
+/* Sorts n rows of size bytes, each starting with its document number
+ * (uint32_t, below ndoc), by document and then by cmp: a counting sort by
+ * document, then cmp within each document's few rows.  *rows is replaced.
+ * TM_OK or TM_ENOMEM. */
+static int sort_by_doc(void **rows, size_t n, size_t size, size_t ndoc,
+		       int (*cmp)(const void *, const void *))
+{
+	size_t *start = starts(ndoc, *rows, n, size);
+	char *to = malloc((n ? n : 1) * size);
+	if (!start || !to) {
+		free(start);
+		free(to);
+		return TM_ENOMEM;
+	}
+	const char *from = *rows;
+	for (size_t i = 0; i < n; i++) {
+		uint32_t d = *(const uint32_t *)(from + i * size);
+		memcpy(to + start[d]++ * size, from + i * size, size);
+	}
+	/* start[d] is now the end of document d's rows */
+	for (size_t d = 0, b = 0; d < ndoc; b = start[d++])
+		if (start[d] - b > 1)
+			qsort(to + b * size, start[d] - b, size, cmp);
+	free(start);
+	free(*rows);
+	*rows = to;
+	return TM_OK;
+}
+
 static int build_rows(match_index *ix, builder *b)
 {
 	size_t i, k;
@@ -277,9 +306,17 @@ static int build_rows(match_index *ix, builder *b)
 		b->cnt[i].e = ix->rank[b->cnt[i].e];
 	for (i = 0; i < b->ntot; i++)
 		b->tot[i].e = ix->rank[b->tot[i].e];
-	qsort(b->lab, b->nlab, sizeof *b->lab, cmp_tmp_lab);
-	qsort(b->cnt, b->ncnt, sizeof *b->cnt, cmp_tmp_cnt);
-	qsort(b->tot, b->ntot, sizeof *b->tot, cmp_tmp_tot);
+	void *rows[3] = {b->lab, b->cnt, b->tot};
+	int rc = sort_by_doc(&rows[0], b->nlab, sizeof *b->lab, ix->ndoc, cmp_tmp_lab);
+	b->lab = rows[0];
+	if (!rc)
+		rc = sort_by_doc(&rows[1], b->ncnt, sizeof *b->cnt, ix->ndoc, cmp_tmp_cnt);
+	b->cnt = rows[1];
+	if (!rc)
+		rc = sort_by_doc(&rows[2], b->ntot, sizeof *b->tot, ix->ndoc, cmp_tmp_tot);
+	b->tot = rows[2];
+	if (rc)
+		return rc;
 	/* one row per (document, occupation, language): forms of one key add up */
 	for (i = k = 0; i < b->ncnt; i++) {
 		if (k && b->cnt[k - 1].e == b->cnt[i].e && b->cnt[k - 1].c.occ == b->cnt[i].c.occ &&
