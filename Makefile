@@ -40,13 +40,14 @@ SRC_norm = unicode token lexicon lexicon_read lexicon_image lexcache setup title
 SRC_count = strtab idset tally_mem chunk store load store_redis store_redis_url store_redis_keys store_redis_chunk \
 	store_redis_apply store_redis_dump cluster slot
 SRC_rank = stats labels labkeys inputs coverage propose trend groups overlap
+SRC_match = sim match code
 SRC_review = review_item review_json review_change review_batch review_time review_clash review_noise \
 	queue queue_file \
 	store_redis_queue delta
 SRC_report = chart report
-SRC_cli = options cli_norm cli_tally cli_rank cli_propose cli_review cli_review_change cli_review_read \
+SRC_cli = options cli_norm cli_tally cli_rank cli_propose cli_match cli_review cli_review_change cli_review_read \
 	cli_review_out cli_report cli_overlap
-DIRS = core io norm count rank review report cli
+DIRS = core io norm count rank match review report cli
 vpath %.c $(DIRS:%=src/%) $(DIRS:%=tests/unit/%)
 HEADERS = $(wildcard src/*/*.h src/*/*.inc)
 # what the unit tests link: everything but main
@@ -149,6 +150,7 @@ bench: titlemill $(BUILD)/count_stage
 	sh tests/bench/rank.sh $(CURDIR)/titlemill
 	sh tests/bench/report.sh $(CURDIR)/titlemill
 	sh tests/bench/overlap.sh $(CURDIR)/titlemill
+	sh tests/bench/match.sh $(CURDIR)/titlemill
 
 # The Debian 12 packages of .ci/packages: through sudo unless already root
 # (.ci/deps, which a fresh machine runs before make is installed).

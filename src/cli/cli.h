@@ -64,6 +64,7 @@ int cmd_tally(int argc, char **argv);
 int cmd_counts(int argc, char **argv);
 int cmd_coverage(int argc, char **argv);
 int cmd_propose(int argc, char **argv);
+int cmd_match(int argc, char **argv);
 int cmd_labels(int argc, char **argv);
 int cmd_review(int argc, char **argv);
 int cmd_report(int argc, char **argv);

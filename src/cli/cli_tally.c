@@ -16,10 +16,13 @@
 #include "count/load.h"
 #include "count/store.h"
 #include "count/tally.h"
+#include "match/code.h"
+#include "rank/labels.h"
 
 typedef struct tally_opts {
 	int format;        /* 1 + the index in format_names */
-	int strict, stats, progress, quiet;
+	int strict, stats, progress, quiet, code_missing;
+	double min_score;
 	uint64_t memo_mib, chunk, retries, ttl_days; /* ttl_days: UINT64_MAX: none */
 	uint64_t threads;  /* UINT64_MAX: the online processors */
 	const char *out, *store, *prefix;
@@ -64,6 +67,12 @@ static const opt_spec tally_specs[] = {
 	 "FIFO is written into)", NULL, 'o'},
 	{"stats", OPT_FLAG, offsetof(tally_opts, stats), NULL, NULL, 0, 0,
 	 "say on standard error how much memory the counts took", NULL, 0},
+	{"code-missing", OPT_FLAG, offsetof(tally_opts, code_missing), NULL, NULL, 0, 0,
+	 "count a posting without occupations under its best match (titlemill match over "
+	 "--labels and the coded postings) when it scores at least --min-score; the summary "
+	 "says how many (coded_by_match)", NULL, 0},
+	{"min-score", OPT_REAL, offsetof(tally_opts, min_score), "X", OPT_XSTR(MATCH_MIN_SCORE_CODE),
+	 0, 1, "the score a match needs to code a posting (--code-missing)", NULL, 0},
 	OPT_SPEC_END,
 };
 
@@ -166,7 +175,35 @@ typedef struct tally_run {
 	double t0, last;
 	uint64_t postings, bytes; /* the latest figures */
 	int shown;
+	match_coder mc;    /* --code-missing: the postings without occupations */
 } tally_run;
+
+static int on_hold(void *ctx, const posting *p, const char *name)
+{
+	return mc_hold(&((tally_run *)ctx)->mc, p, name);
+}
+
+/* --code-missing, after the load: each held posting counted under its
+ * best match (or as it came), through st.  0, or -1 after saying why. */
+static int code_missing(tally_run *run, const tally_opts *o, const lexicon *lx, tally_mem *m,
+			store *st)
+{
+	tm_buf err = {0};
+	labelset ls;
+	normaliser *nm = norm_new(lx);
+	int rc = 0;
+	memset(&ls, 0, sizeof ls);
+	if (!nm || labels_read(&ls, o->setup.labels, nm, stderr, &err) != 0 ||
+	    mc_code(&run->mc, &ls, m, nm, o->min_score, st, &err) != TM_OK) {
+		fprintf(stderr, "titlemill tally: --code-missing: %.*s\n", (int)err.len,
+			err.data ? err.data : "out of memory");
+		rc = -1;
+	}
+	labels_free(&ls);
+	norm_free(nm);
+	buf_free(&err);
+	return rc;
+}
 
 static void on_skipped(void *ctx, const char *msg, size_t len)
 {
@@ -252,6 +289,7 @@ int cmd_tally(int argc, char **argv)
 
 	memset(&o, 0, sizeof o);
 	memset(&run, 0, sizeof run);
+	mc_init(&run.mc);
 	switch (opt_parse(&tally_cmd, &o, argc, argv, &first)) {
 	case OPT_HELP_SHOWN: return EXIT_OK;
 	case OPT_MISUSE: return EXIT_USAGE;
@@ -272,6 +310,12 @@ int cmd_tally(int argc, char **argv)
 	}
 	if (o.store && o.out) {
 		fputs("titlemill tally: -o writes a counts table; with --store the counts go to the store\n", stderr);
+		return EXIT_USAGE;
+	}
+	if (o.code_missing && (o.store || !o.setup.labels)) {
+		fputs(o.store ? "titlemill tally: --code-missing counts in memory (-o); run titlemill "
+			"match over the store instead\n"
+			: "titlemill tally: --code-missing needs --labels FILE\n", stderr);
 		return EXIT_USAGE;
 	}
 	if (!(lx = setup_lexicon(&o.setup, &err))) {
@@ -330,6 +374,7 @@ int cmd_tally(int argc, char **argv)
 		.skipped = on_skipped,
 		.note = on_note,
 		.progress = run.progress ? on_progress : NULL,
+		.hold = o.code_missing ? on_hold : NULL,
 		.ctx = &run,
 	};
 	int lr = load_run(st, lx, &lc, argv + first, argc - first, &err);
@@ -341,6 +386,8 @@ int cmd_tally(int argc, char **argv)
 			lr == TM_EINPUT ? " (--strict: nothing written)" : "");
 		rc = EXIT_RUNTIME;
 	}
+	if (rc == EXIT_OK && o.code_missing && code_missing(&run, &o, lx, &m, st) != 0)
+		rc = EXIT_RUNTIME;
 	if (rc == EXIT_OK && st->ops->finish(st) != 0) {
 		/* chunks other loads left unfinished (killed, or still at work) */
 		fprintf(stderr, "titlemill tally: %.*s; every input is counted, but chunks that "
@@ -379,6 +426,11 @@ int cmd_tally(int argc, char **argv)
 	for (long k = 0; k < run.bl.n && k < 5; k++)
 		fprintf(stderr, "%s %s", k ? ";" : ":", run.bl.first[k]);
 	fprintf(stderr, "%s\n", run.bl.n > 5 ? "; ..." : "");
+	if (o.code_missing)
+		fprintf(stderr, "titlemill tally: of them without occupations: coded_by_match %llu "
+			"(best match scoring at least %.2f), %llu left without\n",
+			(unsigned long long)run.mc.coded, o.min_score, (unsigned long long)run.mc.uncoded);
+	mc_free(&run.mc);
 	store_close(st);
 	tm_free(&m);
 	lex_free(lx);

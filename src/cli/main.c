@@ -21,6 +21,7 @@ static const char usage[] =
 	"  counts    sum counts tables into one\n"
 	"  coverage  how much of each occupation's postings its labels match\n"
 	"  propose   scored suggestions: missing, rare and misused labels\n"
+	"  match     find the occupations a text names, with scores and evidence\n"
 	"  labels    print a taxonomy's labels (TSV or SKOS) with their keys\n"
 	"  review    the curators' queue: add, list, decide, export suggestions\n"
 	"  report    one HTML page of coverage, labels' shares and suggestions\n"
@@ -90,6 +91,8 @@ int main(int argc, char **argv)
 		return cmd_coverage(argc - 1, argv + 1);
 	if (!strcmp(argv[1], "propose"))
 		return cmd_propose(argc - 1, argv + 1);
+	if (!strcmp(argv[1], "match"))
+		return cmd_match(argc - 1, argv + 1);
 	if (!strcmp(argv[1], "labels"))
 		return cmd_labels(argc - 1, argv + 1);
 	if (!strcmp(argv[1], "overlap"))

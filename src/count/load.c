@@ -166,6 +166,7 @@ static void fill(loader *L, batch *b)
 				L->over = 1;
 				break;
 			}
+			L->pr.uncoded = L->conf->hold != NULL;
 			L->open = 1;
 		}
 		if (pr_next(&L->pr, &p, &row) != 0) {
@@ -286,6 +287,11 @@ static int count(loader *L, store *st, batch *b, uint64_t *fed, tm_buf *err)
 		res.title_len = r->cleanlen;
 		res.masked = rs + r->masked;
 		res.masked_len = r->maskedlen;
+		if (c->hold && !p.nocc) {
+			if (c->hold(c->ctx, &p, name) != TM_OK)
+				return tm_failf(err, TM_ENOMEM, "%s:%ld: out of memory", name, r->line);
+			continue;
+		}
 		tally_posting_of(&tp, &p, &res);
 		if (store_feed(st, &p, &tp, name, r->line) != 0)
 			return backend_failed(st, err);

@@ -57,6 +57,10 @@ typedef struct load_conf {
 	void (*skipped)(void *ctx, const char *msg, size_t len);
 	void (*note)(void *ctx, const char *msg, size_t len);
 	void (*progress)(void *ctx, uint64_t postings, uint64_t bytes);
+	/* NULL, or each posting without occupations is handed here (with the
+	 * name of its file) instead of the backend, and such postings are
+	 * read rather than refused as malformed: 0, or TM_ENOMEM */
+	int (*hold)(void *ctx, const posting *p, const char *name);
 	void *ctx;
 } load_conf;
 

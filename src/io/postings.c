@@ -201,7 +201,7 @@ static int finish(postings_reader *pr, posting *p)
 		say(pr, p->line, "no title");
 		return TM_EINPUT;
 	}
-	if (!p->nocc) {
+	if (!p->nocc && !pr->uncoded) {
 		say(pr, p->line, "no occupation");
 		return TM_EINPUT;
 	}

@@ -39,6 +39,9 @@ typedef struct postings_reader {
 	size_t nhead;        /* TSV: fields of the header (a row with more that
 			      * are not empty is malformed) */
 	int has_id;          /* an id column or field is present */
+	int uncoded;         /* set by the caller after pr_open: a posting
+			      * without occupations is read (nocc 0), not
+			      * refused as malformed */
 	const char *pend;    /* the first line, read while detecting */
 	size_t pendlen;
 	int pending;

@@ -1,0 +1,92 @@
+/* sim.h - similarity search over short texts (match keys: lowercase words
+ * separated by single spaces), by two published measures:
+ *
+ *   cos    the cosine of TF-IDF vectors of character 3-grams within words
+ *          (Salton & Buckley 1988).  Each word is padded with one space on
+ *          each side and cut into its 3-grams of code points ("lager" ->
+ *          " la", "lag", "age", "ger", "er "); a padded word shorter than
+ *          3 code points is one gram.  A term's weight is tf * idf with
+ *          idf = ln((1 + N) / (1 + df)) + 1 (N documents, df of them
+ *          holding the gram), and vectors are L2-normalised: the
+ *          definition of scikit-learn's TfidfVectorizer(analyzer=
+ *          "char_wb", ngram_range=(3, 3)) with its defaults, which the
+ *          unit test checks against.  A gram of the query that no document
+ *          holds counts in the query's norm with df = 0, so an unknown
+ *          word lowers the similarity instead of vanishing.
+ *   bm25   Okapi BM25 over whole words (Robertson & Zaragoza 2009):
+ *          sum over the query's distinct words t of
+ *          idf(t) * f(t,d) (k1 + 1) / (f(t,d) + k1 (1 - b + b |d| / avgdl)),
+ *          idf(t) = ln(1 + (N - df + 0.5) / (df + 0.5)), k1 = 1.2, b = 0.75.
+ *          bm25n divides it by the score the query would reach against a
+ *          document equal to itself (each word once, |d| = |q|), capped
+ *          at 1: a share of the query's word evidence, comparable across
+ *          languages and lengths.
+ *
+ * The combined similarity is s = SIM_W_CHAR cos + SIM_W_WORD bm25n, in
+ * [0, 1].  Character grams carry typos, inflections and compounds; whole
+ * words carry the weight of a word shared exactly, a rare (specific) word
+ * more than a common one.
+ *
+ * Search: the postings of the query's grams are read rarest first, at
+ * most SIM_WORK postings in all, adding each gram's weight to the
+ * documents holding it; the SIM_CANDIDATES documents with the largest sums
+ * (ties: the lower document number) are then scored exactly.  So a query
+ * costs at most SIM_WORK + SIM_CANDIDATES * (its terms + a document's
+ * terms), whatever the index holds; the query is cut to SIM_QUERY_MAX
+ * bytes (at a word boundary when there is one) first.
+ *
+ * Documents are numbered 0, 1, ... in the order they are added.  An index
+ * is read-only once sim_finish returned; a sim_work is one query's scratch
+ * (one per thread). */
+#ifndef TM_SIM_H
+#define TM_SIM_H
+
+#include <stddef.h>
+#include <stdint.h>
+
+#define SIM_BM25_K1 1.2
+#define SIM_BM25_B 0.75
+#define SIM_W_CHAR 0.7
+#define SIM_W_WORD 0.3
+#define SIM_WORK 8000
+#define SIM_CANDIDATES 32
+#define SIM_QUERY_MAX 256
+
+typedef struct sim_index sim_index;
+typedef struct sim_work sim_work;
+
+typedef struct sim_hit {
+	uint32_t doc;
+	double cos, bm25, bm25n, s;
+} sim_hit;
+
+/* A new, empty index, or NULL when memory ran out. */
+sim_index *sim_new(void);
+void sim_free(sim_index *x);
+
+/* Adds a document (the next number).  TM_OK or TM_ENOMEM. */
+int sim_add(sim_index *x, const char *text, size_t n);
+
+/* Computes the weights and the postings: TM_OK or TM_ENOMEM.  No
+ * sim_add after it. */
+int sim_finish(sim_index *x);
+
+size_t sim_docs(const sim_index *x);
+size_t sim_bytes(const sim_index *x);
+
+/* Scratch for queries over x, or NULL when memory ran out. */
+sim_work *sim_work_new(const sim_index *x);
+void sim_work_free(sim_work *w);
+
+/* The documents most similar to q[0..n): up to max hits, best first
+ * (s descending, then document number), only those with s > 0.
+ * TM_OK or TM_ENOMEM. */
+int sim_query(const sim_index *x, sim_work *w, const char *q, size_t n,
+	      sim_hit *hits, size_t max, size_t *nhits);
+
+/* The exact measures between q and one document (no search): for tests
+ * and explanations.  TM_OK or TM_ENOMEM. */
+int sim_pair(const sim_index *x, sim_work *w, const char *q, size_t n, uint32_t doc,
+	     sim_hit *hit);
+
+#endif
