@@ -90,8 +90,9 @@ static int is_iri(const char *s)
 static int reason(tm_buf *b, const delta *x)
 {
 	char line[300];
-	if (x->it->kind != RK_RARE && x->it->kind != RK_ELSEWHERE) {
-		/* a kind of another engine: its name and its figures */
+	if (x->it->kind != RK_RARE && x->it->kind != RK_ELSEWHERE && x->it->kind != RK_OVERLAP &&
+	    x->it->kind != RK_NEARER) {
+		/* a kind without a reason of its own: its name and its figures */
 		snprintf(line, sizeof line, "%s: score %.4f on %llu postings",
 			 rq_kind_names[x->it->kind], x->it->score, (unsigned long long)x->it->postings);
 		return buf_puts(b, line);
