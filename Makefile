@@ -136,6 +136,7 @@ bench: titlemill
 	sh tests/bench/tally.sh $(CURDIR)/titlemill
 	sh tests/bench/review.sh $(CURDIR)/titlemill
 	sh tests/bench/cluster.sh $(CURDIR)/titlemill
+	sh tests/bench/store.sh $(CURDIR)/titlemill
 	sh tests/bench/rank.sh $(CURDIR)/titlemill
 
 # The Debian 12 packages of .ci/packages: through sudo unless already root.

@@ -20,6 +20,8 @@
  *               given
  *   OPT_LEXDIR  setup_opts: appends to its extra folders (repeatable)
  *   OPT_PREFIX  const char *, a store key prefix (store_prefix_check)
+ *   OPT_STORE   const char *, a store URL of a scheme the store knows
+ *               (store_url_check)
  * A real number's hi of OPT_UNBOUNDED or more means no upper bound
  * (still finite).  Numbers are parsed strictly: the whole argument, no sign on a whole
  * number, within the range. */
@@ -33,7 +35,8 @@
 #include "count/store.h"
 
 typedef enum opt_kind {
-	OPT_FLAG, OPT_STR, OPT_U64, OPT_REAL, OPT_LANG, OPT_CHOICE, OPT_LEXDIR, OPT_PREFIX
+	OPT_FLAG, OPT_STR, OPT_U64, OPT_REAL, OPT_LANG, OPT_CHOICE, OPT_LEXDIR, OPT_PREFIX,
+	OPT_STORE
 } opt_kind;
 
 typedef struct opt_spec {
@@ -76,7 +79,7 @@ typedef struct opt_cmd {
 #define OPT_SPEC_LANG(type, m, meaning) \
 	{"lang", OPT_LANG, offsetof(type, m), "L", NULL, 0, 0, meaning, NULL, 0}
 #define OPT_SPEC_STORE(type, m, meaning) \
-	{"store", OPT_STR, offsetof(type, m), "URL", NULL, 0, 0, meaning, NULL, 0}
+	{"store", OPT_STORE, offsetof(type, m), "URL", NULL, 0, 0, meaning, NULL, 0}
 #define OPT_STORE_READ "read the counts of a Redis store (see tally)"
 #define OPT_SPEC_PREFIX(type, m) \
 	{"prefix", OPT_PREFIX, offsetof(type, m), "P", NULL, 0, 0, \
