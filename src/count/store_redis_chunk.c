@@ -61,7 +61,7 @@
  * the same bytes under the same fields.
  *
  * P:{j}:open, a set, lists the digests of the journals (added before a
- * journal is written, removed after it is deleted), so a load finds them
+ * journal's "n" is written, removed after it is deleted), so a load finds them
  * without scanning the keyspace.  An entry without its journal is a
  * journal not written yet, or gone already: left to its loader. */
 #define JOURNAL_PIECE (1u << 20)
