@@ -620,6 +620,8 @@ int rc_drain(rcluster *k)
 	size_t nsent = k->nsent;
 	int rc = 0;
 	sigset_t old;
+	long lost = -1;         /* the first node whose connection was lost */
+	char why[300] = "";
 
 	k->sent = NULL;
 	k->nsent = k->sentcap = 0;
@@ -635,6 +637,11 @@ int rc_drain(rcluster *k)
 			if (!node->c || node->gen != sent[b].gen[i])
 				continue; /* its connection is gone: run again */
 			if (redisGetReply(node->c, &p) != REDIS_OK || !p) {
+				if (lost < 0) {
+					lost = nd;
+					snprintf(why, sizeof why, "lost the connection: %s",
+						 node->c->errstr[0] ? node->c->errstr : "no reply");
+				}
 				node_lost(node);
 				continue;
 			}
@@ -662,6 +669,14 @@ int rc_drain(rcluster *k)
 			if (!v[i].reply)
 				left[j++] = v[i];
 		rc = rc_run(k, left, nl);
+		if (rc && lost >= 0) {
+			/* say first what happened: the connection was lost, then
+			 * why it could not go on (the node named once) */
+			char m[700];
+			const char *e = k->err.data ? k->err.data : "", *sep = strstr(e, ": ");
+			snprintf(m, sizeof m, "%s; then %s", why, sep ? sep + 2 : e);
+			kerr(k, &k->node[lost], m, NULL);
+		}
 		for (size_t i = 0, q = 0; !rc && i < sent[b].n; i++)
 			if (!v[i].reply)
 				v[i].reply = left[q++].reply;
