@@ -669,9 +669,10 @@ int rc_drain(rcluster *k)
 			if (!v[i].reply)
 				left[j++] = v[i];
 		rc = rc_run(k, left, nl);
-		if (rc && lost >= 0) {
-			/* say first what happened: the connection was lost, then
-			 * why it could not go on (the node named once) */
+		if (rc && lost >= 0 && !k->cluster) {
+			/* one server: say first what happened, the connection was
+			 * lost, then why it could not go on (the server named once;
+			 * a cluster's message names the node and its slots) */
 			char m[700];
 			const char *e = k->err.data ? k->err.data : "", *sep = strstr(e, ": ");
 			snprintf(m, sizeof m, "%s; then %s", why, sep ? sep + 2 : e);
