@@ -147,6 +147,7 @@ bench: titlemill $(BUILD)/count_stage
 	COUNT_STAGE=$(CURDIR)/$(BUILD)/count_stage sh tests/bench/tally.sh $(CURDIR)/titlemill
 	sh tests/bench/review.sh $(CURDIR)/titlemill
 	sh tests/bench/cluster.sh $(CURDIR)/titlemill
+	sh tests/bench/store.sh $(CURDIR)/titlemill
 	sh tests/bench/rank.sh $(CURDIR)/titlemill
 	sh tests/bench/report.sh $(CURDIR)/titlemill
 	sh tests/bench/overlap.sh $(CURDIR)/titlemill

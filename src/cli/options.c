@@ -142,9 +142,10 @@ static int take(const opt_cmd *cmd, const opt_spec *s, void *o, const char *arg)
 		l->v[l->n++] = arg;
 		return 0;
 	}
-	case OPT_PREFIX: {
+	case OPT_PREFIX:
+	case OPT_STORE: {
 		tm_buf err = {0};
-		if (store_prefix_check(arg, &err) == 0) {
+		if ((s->kind == OPT_PREFIX ? store_prefix_check(arg, &err) : store_url_check(arg, &err)) == 0) {
 			*(const char **)at = arg;
 			return 0;
 		}

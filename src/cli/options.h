@@ -22,6 +22,8 @@
  *   OPT_PREFIX  const char *, a store key prefix (store_prefix_check)
  *   OPT_STRS    opt_strs: each value given, in order (repeatable),
  *               borrowed from argv
+ *   OPT_STORE   const char *, a store URL of a scheme the store knows
+ *               (store_url_check)
  * A real number's hi of OPT_UNBOUNDED or more means no upper bound
  * (still finite).  Numbers are parsed strictly: the whole argument, no sign on a whole
  * number, within the range. */
@@ -36,7 +38,7 @@
 
 typedef enum opt_kind {
 	OPT_FLAG, OPT_STR, OPT_U64, OPT_REAL, OPT_LANG, OPT_CHOICE, OPT_LEXDIR, OPT_PREFIX,
-	OPT_STRS
+	OPT_STRS, OPT_STORE
 } opt_kind;
 
 /* The values of a repeatable option. */
@@ -86,7 +88,7 @@ typedef struct opt_cmd {
 #define OPT_SPEC_LANG(type, m, meaning) \
 	{"lang", OPT_LANG, offsetof(type, m), "L", NULL, 0, 0, meaning, NULL, 0}
 #define OPT_SPEC_STORE(type, m, meaning) \
-	{"store", OPT_STR, offsetof(type, m), "URL", NULL, 0, 0, meaning, NULL, 0}
+	{"store", OPT_STORE, offsetof(type, m), "URL", NULL, 0, 0, meaning, NULL, 0}
 #define OPT_STORE_READ "read the counts of a Redis store (see tally)"
 #define OPT_SPEC_PREFIX(type, m) \
 	{"prefix", OPT_PREFIX, offsetof(type, m), "P", NULL, 0, 0, \

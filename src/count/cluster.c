@@ -1,11 +1,24 @@
 /* cluster.c - routing Redis commands over one server or a Redis Cluster. */
 #include "count/cluster.h"
 
+#include <fcntl.h>
 #include <signal.h>
 #include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 #include <time.h>
+
+/* ---- batches in flight ----
+ * rc_send appends a batch's commands to its nodes' connections and
+ * remembers, per command, the node and the connection (gen) it went to;
+ * rc_drain reads the replies in the order sent, which on each connection
+ * is the order the server answers in. */
+struct rc_sent {
+	rc_cmd *cmds;
+	size_t n;
+	long *node;           /* -1: not sent */
+	unsigned *gen;
+};
 
 /* ---- SIGPIPE ----
  * A server that goes away must give an error, not kill the process:
@@ -88,6 +101,7 @@ static void node_lost(rc_node *nd)
 	if (nd->c)
 		redisFree(nd->c);
 	nd->c = NULL;
+	nd->gen++;
 }
 
 redisContext *rc_node_conn(rcluster *k, size_t i)
@@ -278,6 +292,13 @@ int rc_open(rcluster *k, char **hosts, const int *ports, char **paths, size_t ns
 
 void rc_close(rcluster *k)
 {
+	for (size_t b = 0; b < k->nsent; b++) {
+		free(k->sent[b].node);
+		free(k->sent[b].gen);
+	}
+	free(k->sent);
+	k->sent = NULL;
+	k->nsent = k->sentcap = 0;
 	for (size_t i = 0; i < k->nnode; i++) {
 		node_lost(&k->node[i]);
 		free(k->node[i].host);
@@ -362,6 +383,12 @@ int rc_run(rcluster *k, rc_cmd *cmds, size_t n)
 	}
 	for (size_t i = 0; i < n; i++)
 		cmds[i].reply = NULL;
+	/* replies of earlier batches come first on the connections */
+	if (k->nsent && rc_drain(k) != 0) {
+		free(done);
+		free(target);
+		return -1;
+	}
 	while (left) {
 		int trouble = 0;
 		for (size_t i = 0; i < n; i++)
@@ -519,4 +546,153 @@ fail:
 	free(done);
 	free(target);
 	return -1;
+}
+
+/* ---- batches in flight (rc_send, rc_drain) ---- */
+
+int rc_send(rcluster *k, rc_cmd *cmds, size_t n)
+{
+	struct rc_sent *v = tm_grow(k->sent, &k->sentcap, k->nsent + 1, sizeof *v, 4);
+	if (!v) {
+		kerr(k, NULL, "out of memory", NULL);
+		return -1;
+	}
+	k->sent = v;
+	struct rc_sent *b = &k->sent[k->nsent];
+	b->cmds = cmds;
+	b->n = n;
+	b->node = malloc((n + 1) * sizeof *b->node);
+	b->gen = malloc((n + 1) * sizeof *b->gen);
+	if (!b->node || !b->gen) {
+		free(b->node);
+		free(b->gen);
+		kerr(k, NULL, "out of memory", NULL);
+		return -1;
+	}
+	k->nsent++;
+	for (size_t i = 0; i < n; i++) {
+		short nd = k->slot[cmds[i].slot % SLOT_COUNT];
+		redisContext *c = nd >= 0 ? rc_node_conn(k, (size_t)nd) : NULL;
+		cmds[i].reply = NULL;
+		b->node[i] = -1;
+		if (!c || redisAppendCommandArgv(c, cmds[i].argc, cmds[i].argv, cmds[i].argl) != REDIS_OK)
+			continue; /* rc_drain runs it */
+		b->node[i] = nd;
+		b->gen[i] = k->node[nd].gen;
+	}
+	rc_pump(k);
+	return 0;
+}
+
+void rc_pump(rcluster *k)
+{
+	for (size_t i = 0; i < k->nnode; i++) {
+		redisContext *c = k->node[i].c;
+		int fl, done = 0;
+		sigset_t old;
+		if (!c || !c->obuf || !sdslen(c->obuf) || (fl = fcntl(c->fd, F_GETFL)) < 0)
+			continue;
+		/* as far as the socket takes it now: hiredis writes without
+		 * waiting on a context it believes non-blocking */
+		pipe_hold(&old);
+		if (fcntl(c->fd, F_SETFL, fl | O_NONBLOCK) == 0) {
+			c->flags &= ~REDIS_BLOCK;
+			redisBufferWrite(c, &done); /* an error stays in c for rc_drain */
+			c->flags |= REDIS_BLOCK;
+			fcntl(c->fd, F_SETFL, fl);
+		}
+		pipe_release(&old);
+	}
+}
+
+/* A reply that rc_run must handle (it redirects, waits or reloads). */
+static int needs_run(const redisReply *rep)
+{
+	return rep->type == REDIS_REPLY_ERROR &&
+	       (starts(rep->str, "MOVED ") || starts(rep->str, "ASK ") || starts(rep->str, "TRYAGAIN") ||
+		starts(rep->str, "CLUSTERDOWN") || starts(rep->str, "LOADING") ||
+		starts(rep->str, "MASTERDOWN") || starts(rep->str, "NOSCRIPT"));
+}
+
+int rc_drain(rcluster *k)
+{
+	struct rc_sent *sent = k->sent;
+	size_t nsent = k->nsent;
+	int rc = 0;
+	sigset_t old;
+	long lost = -1;         /* the first node whose connection was lost */
+	char why[300] = "";
+
+	k->sent = NULL;
+	k->nsent = k->sentcap = 0;
+	pipe_hold(&old);
+	for (size_t b = 0; b < nsent; b++)
+		for (size_t i = 0; i < sent[b].n; i++) {
+			long nd = sent[b].node[i];
+			void *p = NULL;
+			if (nd < 0)
+				continue;
+			rc_node *node = &k->node[nd];
+			sent[b].node[i] = -1;
+			if (!node->c || node->gen != sent[b].gen[i])
+				continue; /* its connection is gone: run again */
+			if (redisGetReply(node->c, &p) != REDIS_OK || !p) {
+				if (lost < 0) {
+					lost = nd;
+					snprintf(why, sizeof why, "lost the connection: %s",
+						 node->c->errstr[0] ? node->c->errstr : "no reply");
+				}
+				node_lost(node);
+				continue;
+			}
+			if (needs_run(p)) {
+				freeReplyObject(p);
+				continue;
+			}
+			sent[b].cmds[i].reply = p;
+		}
+	pipe_release(&old);
+	/* what has no reply yet, batch by batch, through rc_run */
+	for (size_t b = 0; b < nsent && !rc; b++) {
+		rc_cmd *v = sent[b].cmds, *left = NULL;
+		size_t nl = 0, j = 0;
+		for (size_t i = 0; i < sent[b].n; i++)
+			nl += !v[i].reply;
+		if (!nl)
+			continue;
+		if (!(left = malloc(nl * sizeof *left))) {
+			kerr(k, NULL, "out of memory", NULL);
+			rc = -1;
+			break;
+		}
+		for (size_t i = 0; i < sent[b].n; i++)
+			if (!v[i].reply)
+				left[j++] = v[i];
+		rc = rc_run(k, left, nl);
+		if (rc && lost >= 0 && !k->cluster) {
+			/* one server: say first what happened, the connection was
+			 * lost, then why it could not go on (the server named once;
+			 * a cluster's message names the node and its slots) */
+			char m[700];
+			const char *e = k->err.data ? k->err.data : "", *sep = strstr(e, ": ");
+			snprintf(m, sizeof m, "%s; then %s", why, sep ? sep + 2 : e);
+			kerr(k, &k->node[lost], m, NULL);
+		}
+		for (size_t i = 0, q = 0; !rc && i < sent[b].n; i++)
+			if (!v[i].reply)
+				v[i].reply = left[q++].reply;
+		free(left);
+	}
+	for (size_t b = 0; b < nsent; b++) {
+		if (rc)
+			for (size_t i = 0; i < sent[b].n; i++)
+				if (sent[b].cmds[i].reply) {
+					freeReplyObject(sent[b].cmds[i].reply);
+					sent[b].cmds[i].reply = NULL;
+				}
+		free(sent[b].node);
+		free(sent[b].gen);
+	}
+	free(sent);
+	return rc;
 }

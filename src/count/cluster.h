@@ -29,6 +29,8 @@ typedef struct rc_node {
 	char *host, *path;    /* TCP host and port, or a Unix socket path */
 	int port;
 	redisContext *c;      /* NULL until first used */
+	unsigned gen;         /* connections lost so far: a command sent on an
+			       * earlier connection has no reply to wait for */
 } rc_node;
 
 typedef struct rc_cmd {
@@ -52,6 +54,9 @@ typedef struct rcluster {
 	void *ctx;
 	char *name;           /* for messages: the URL without password */
 	tm_buf err;
+	/* batches sent by rc_send whose replies rc_drain has not read */
+	struct rc_sent *sent;
+	size_t nsent, sentcap;
 } rcluster;
 
 /* Opens the router on the seeds (host:port or a Unix socket path) and
@@ -63,6 +68,21 @@ void rc_close(rcluster *k);
  * than redirections included).  Returns 0, or -1 when a command could
  * not be run (the replies set so far are freed). */
 int rc_run(rcluster *k, rc_cmd *cmds, size_t n);
+
+/* Sends the batch pipelined, without reading its replies, so that the
+ * servers work while the caller does; rc_drain reads them.  The batch
+ * (commands and arguments) must stay as it is until then.  Returns 0 or
+ * -1 (out of memory): a command that cannot be sent now (no connection,
+ * no master) is run by rc_drain. */
+int rc_send(rcluster *k, rc_cmd *cmds, size_t n);
+/* Writes what rc_send left in the connections' buffers as far as each
+ * socket takes it without waiting (call it now and then while working). */
+void rc_pump(rcluster *k);
+/* Reads the replies of every batch sent, in the order sent; every
+ * command left without its reply (a lost connection, MOVED, ASK,
+ * TRYAGAIN, a failover, NOSCRIPT) then goes through rc_run.  As rc_run:
+ * every reply set, or -1 with the replies freed.  rc_run drains first. */
+int rc_drain(rcluster *k);
 
 /* The connection of the master of slot s (connecting when needed), for
  * a transaction that must stay on one node; NULL on failure. */

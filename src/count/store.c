@@ -29,8 +29,9 @@ int store_feed(store *st, const posting *raw, const tally_posting *tp, const cha
 		return 0;
 	if (commit(st) != 0) {
 		char m[400];
-		snprintf(m, sizeof m, "; %s:%ld was being loaded: every chunk before it is counted, "
-			 "the one at hand is not; run the same load again to finish it", name, line);
+		snprintf(m, sizeof m, "; %s:%ld was being loaded: the chunks before it are in but for the "
+			 "last two, which may still have been on their way, and the one at hand; "
+			 "run the same load again to finish them", name, line);
 		buf_puts(&st->err, m);
 		return -1;
 	}

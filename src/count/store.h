@@ -83,8 +83,11 @@ struct store {
 /* The settings of a store with the given prefix (NULL: the default) and
  * everything else by default. */
 #define STORE_CONF_INIT(prefix) {(prefix), STORE_RETRIES_DEFAULT, STORE_TIMEOUT_MS_DEFAULT, 0}
-/* Postings per chunk of a chunking backend unless store_set_chunk says. */
-#define STORE_CHUNK_DEFAULT 10000
+/* Postings per chunk of a chunking backend unless store_set_chunk says:
+ * large, so that claims and shares go to the server in few big batches
+ * (the Redis store keeps two chunks in flight, so a kill redoes at most
+ * two chunks). */
+#define STORE_CHUNK_DEFAULT 100000
 
 /* 0 when p is a valid key prefix, else -1 with the reason in err. */
 int store_prefix_check(const char *p, tm_buf *err);
@@ -107,6 +110,10 @@ typedef struct store_conf {
  * variable TITLEMILL_REDIS_PASSWORD).  Returns the store, or NULL with a
  * message naming the server in err. */
 store *store_open(const char *url, const store_conf *conf, tm_buf *err);
+/* 0 when url has a scheme store_open knows (redis://, rediss://, unix:),
+ * else -1 with the forms of a store URL in err (the URL shown without
+ * its user-info): for the options, a usage error. */
+int store_url_check(const char *url, tm_buf *err);
 
 /* A memory backend counting into m (initialised, borrowed: it must
  * outlive the backend).  Does not chunk.  NULL when memory ran out. */

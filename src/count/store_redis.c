@@ -26,7 +26,8 @@ void sr_kerr_up(rstore *r)
 {
 	buf_reset(&r->base.err);
 	buf_append(&r->base.err, r->k.err.data ? r->k.err.data : "", r->k.err.len);
-	if (!r->k.cluster && !strncmp(r->base.err.data, r->name, strlen(r->name)))
+	/* the server named once: a Unix socket's URL is its node's name */
+	if (!strncmp(r->base.err.data, r->name, strlen(r->name)))
 		return;
 	if (r->k.cluster) {
 		/* name the cluster too */
@@ -100,7 +101,9 @@ static int r_add(store *st, const tally_posting *p)
 		sr_err(r, "out of memory", NULL);
 		return -1;
 	}
-	r->nchunk++;
+	/* now and then, what waits to be sent goes out while we work */
+	if ((++r->nchunk & 255) == 0)
+		rc_pump(&r->k);
 	return 0;
 }
 
@@ -135,7 +138,8 @@ static void r_close(store *st)
 	free(r->name);
 	buf_free(&r->chunk);
 	st_free(&r->exbound);
-	buf_free(&r->pending);
+	sr_flight_free(&r->fly[0]);
+	sr_flight_free(&r->fly[1]);
 	free(r);
 }
 

@@ -30,6 +30,18 @@
 #define SR_SHARDS 64      /* spread keys: 'k' key totals, 'i' posting ids */
 #define SR_SEP '\x1F'     /* joins the fields of a hash field */
 
+/* A chunk on its way: its postings, its digest, and what its attempt
+ * has sent (store_redis_apply.c keeps that part to itself). */
+enum { SR_IDLE, SR_CLAIMING, SR_APPLYING };
+typedef struct sr_flight {
+	int stage;              /* SR_IDLE, or claims / shares sent */
+	uint64_t digest[2];
+	char dg[33];            /* the digest in hex */
+	long attempt;           /* the chunk's number in this run (test hook) */
+	tm_buf chunk;           /* its postings, in the format of chunk.h */
+	struct sr_work *w;
+} sr_flight;
+
 typedef struct rstore {
 	store base;
 	rcluster k;
@@ -42,8 +54,11 @@ typedef struct rstore {
 	size_t nchunk;
 	strtab exbound;         /* per title: 1 + the largest example hash the
 				 * store can still hold, as this load knows it */
-	tm_buf pending;         /* bounds noted by an attempt, kept once its
-				 * chunk has gone through */
+	/* the chunks in flight (store_redis_chunk.c): at most two, one whose
+	 * claims are sent, one whose shares are sent */
+	sr_flight fly[2];
+	char drop[2][33];       /* digests of chunks done: journals to delete */
+	int ndrop;
 	/* test hook (TITLEMILL_TEST_KILL=claim:N or apply:N): the process
 	 * kills itself with SIGKILL after the claims of its N-th chunk, or
 	 * after half of that chunk's shares */
@@ -89,11 +104,21 @@ int sr_key_tagged(const char *prefix, const char *tag, const char *what, tm_buf 
 int sr_match_pattern(const char *prefix, const char *rest, tm_buf *out);
 
 /* ---- store_redis_apply.c ---- */
-/* One attempt at the chunk in r->chunk under digest: 1 applied (some
- * share was new), 0 every share was in its ledger, -1 failure (message
- * set).  *counted and *repub: its postings counted, and skipped for an
- * id another chunk owns. */
-int sr_attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint64_t *repub);
+/* One attempt at the chunk of f (f->chunk, f->digest, f->dg), in three
+ * steps (store_redis_chunk.c tells why it counts once): claims_send
+ * sends the claims of its ids (f->stage SR_CLAIMING); once rc_drain has
+ * read their replies, shares_send works out what the chunk owns and
+ * sends its shares (SR_APPLYING); once rc_drain has read those, applied
+ * answers 1 applied (some share was new), 0 every share was in its
+ * ledger, and sets *counted and *repub (its postings counted, and
+ * skipped for an id another chunk owns); f is idle again.  -1: failure
+ * (message set).  sr_attempt does the three, waiting for each. */
+int sr_claims_send(rstore *r, sr_flight *f);
+int sr_shares_send(rstore *r, sr_flight *f);
+int sr_applied(rstore *r, sr_flight *f, uint64_t *counted, uint64_t *repub);
+int sr_attempt(rstore *r, sr_flight *f, uint64_t *counted, uint64_t *repub);
+/* Frees what f holds (its postings too); f is idle. */
+void sr_flight_free(sr_flight *f);
 
 /* ---- store_redis_chunk.c ---- */
 int sr_commit(store *st, const uint64_t digest[2]);

@@ -15,68 +15,97 @@
 #include "norm/token.h"
 
 /* Step 1: KEYS[1] an id shard, ARGV[1] the chunk's owner tag, ARGV[2]
- * the time to live (0: none), then ids. */
+ * the time to live (0: none), then ids.  One HSETNX per id: a new id
+ * becomes the chunk's in that call; only an id that had an owner costs
+ * an HGET, to tell whether the owner is this chunk (a rerun).  The
+ * answer is one character per id, '1' for an id the chunk owns. */
 const char sr_claim_script[] =
 	"local k, d, out = KEYS[1], ARGV[1], {}\n"
 	"for i = 3, #ARGV do\n"
-	"  local o = redis.call('HGET', k, ARGV[i])\n"
-	"  if not o then redis.call('HSET', k, ARGV[i], d); o = d end\n"
-	"  out[i - 2] = (o == d) and 1 or 0\n"
+	"  if redis.call('HSETNX', k, ARGV[i], d) == 1 or redis.call('HGET', k, ARGV[i]) == d then\n"
+	"    out[i - 2] = '1'\n"
+	"  else out[i - 2] = '0' end\n"
 	"end\n"
 	"if tonumber(ARGV[2]) > 0 then redis.call('EXPIRE', k, ARGV[2]) end\n"
-	"return out\n";
+	"return table.concat(out)\n";
 
 /* The largest count the store holds: Redis counts are signed 64-bit
  * (HINCRBY stops at 2^63 - 1), and a script stopped half way would apply
- * half a share; so each share is checked first, whole (in decimal, not
- * in the scripts' doubles), and refused whole if a count would pass
- * this bound. */
+ * half a share.  So a share is applied whole or not at all: each
+ * increment whose result comes near the bound (in the scripts' doubles,
+ * which are exact far below it) is checked in decimal, and when one
+ * passes it (or HINCRBY refuses, e.g. past 2^63 - 1) the increments made
+ * so far are taken back before the script answers with the error.  No
+ * one sees the difference: a script runs alone. */
 #define STORE_COUNT_MAX_S "9000000000000000000"
 
 /* Step 3: KEYS[1] the tag's ledger, ARGV[1] the chunk's digest, ARGV[2]
  * the time to live of the tag's keys (0: none); then H and H triples
  * (key index, field, increment); then E and E groups (key index, field,
- * n, n examples).  The keys of a tag expire together. */
+ * n, n examples).  The examples of a key are read with one HMGET and
+ * written with one HSET per thousand fields, only those that changed.
+ * The keys of a tag expire together. */
 const char sr_apply_script[] =
 	"if redis.call('SISMEMBER', KEYS[1], ARGV[1]) == 1 then return 0 end\n"
 	"local i = 3\n"
 	"local H = tonumber(ARGV[i]); i = i + 1\n"
-	"local function over(a, b)\n"
-	"  if #a < 18 and #b < 18 then return false end\n"
-	"  local r, c, x, y = {}, 0, #a, #b\n"
-	"  while x > 0 or y > 0 or c > 0 do\n"
-	"    local d = c + (x > 0 and a:byte(x) - 48 or 0) + (y > 0 and b:byte(y) - 48 or 0)\n"
-	"    r[#r + 1] = d % 10; c = (d - d % 10) / 10; x = x - 1; y = y - 1\n"
-	"  end\n"
-	"  local s = string.reverse(table.concat(r))\n"
-	"  return #s > 19 or (#s == 19 and s > '" STORE_COUNT_MAX_S "')\n"
-	"end\n"
+	"local done, bad, why = 0, false, false\n"
 	"for h = 1, H do\n"
 	"  local k, f = KEYS[tonumber(ARGV[i])], ARGV[i + 1]\n"
-	"  if over(redis.call('HGET', k, f) or '0', ARGV[i + 2]) then\n"
-	"    return redis.error_reply('a count would pass " STORE_COUNT_MAX_S ", the most the store holds: ' .. k .. ' ' .. f)\n"
+	"  local n = redis.pcall('HINCRBY', k, f, ARGV[i + 2])\n"
+	"  if type(n) == 'table' then bad = true; why = n.err; break end\n"
+	"  done = h\n"
+	"  if n >= 8.99e18 then\n"
+	"    local s = redis.call('HGET', k, f)\n"
+	"    if #s > 19 or (#s == 19 and s > '" STORE_COUNT_MAX_S "') then bad = true; break end\n"
 	"  end\n"
 	"  i = i + 3\n"
 	"end\n"
-	"i = 4\n"
-	"for h = 1, H do\n"
-	"  redis.call('HINCRBY', KEYS[tonumber(ARGV[i])], ARGV[i + 1], ARGV[i + 2]); i = i + 3\n"
+	"if bad then\n"
+	"  local k, f = KEYS[tonumber(ARGV[i])], ARGV[i + 1]\n"
+	"  local j = 4\n"
+	"  for h = 1, done do\n"
+	"    local uk, uf = KEYS[tonumber(ARGV[j])], ARGV[j + 1]\n"
+	"    if redis.call('HINCRBY', uk, uf, -tonumber(ARGV[j + 2])) == 0 then redis.call('HDEL', uk, uf) end\n"
+	"    j = j + 3\n"
+	"  end\n"
+	"  if why and not string.find(why, 'overflow', 1, true) then\n"
+	"    return redis.error_reply(why .. ': ' .. k .. ' ' .. f)\n"
+	"  end\n"
+	"  return redis.error_reply('a count would pass " STORE_COUNT_MAX_S ", the most the store holds: ' .. k .. ' ' .. f)\n"
 	"end\n"
 	"local E = tonumber(ARGV[i]); i = i + 1\n"
+	"local byk, order = {}, {}\n"
 	"for x = 1, E do\n"
-	"  local k = KEYS[tonumber(ARGV[i])]; local f = ARGV[i + 1]; local n = tonumber(ARGV[i + 2])\n"
-	"  local all, seen = {}, {}\n"
-	"  local cur = redis.call('HGET', k, f)\n"
-	"  if cur then for e in string.gmatch(cur, '[^\\30]+') do\n"
-	"    if not seen[e] then seen[e] = 1; all[#all + 1] = e end end end\n"
-	"  for j = i + 3, i + 2 + n do\n"
-	"    local e = ARGV[j]; if not seen[e] then seen[e] = 1; all[#all + 1] = e end\n"
+	"  local kx = ARGV[i]\n"
+	"  local g = byk[kx]\n"
+	"  if not g then g = {}; byk[kx] = g; order[#order + 1] = kx end\n"
+	"  g[#g + 1] = i\n"
+	"  i = i + 3 + tonumber(ARGV[i + 2])\n"
+	"end\n"
+	"for _, kx in ipairs(order) do\n"
+	"  local k, g = KEYS[tonumber(kx)], byk[kx]\n"
+	"  for a = 1, #g, 1000 do\n"
+	"    local z = math.min(a + 999, #g)\n"
+	"    local fs, set = {}, {}\n"
+	"    for b = a, z do fs[#fs + 1] = ARGV[g[b] + 1] end\n"
+	"    local cur = redis.call('HMGET', k, unpack(fs))\n"
+	"    for b = a, z do\n"
+	"      local p, c = g[b], cur[b - a + 1]\n"
+	"      local all, seen = {}, {}\n"
+	"      if c then for e in string.gmatch(c, '[^\\30]+') do\n"
+	"        if not seen[e] then seen[e] = 1; all[#all + 1] = e end end end\n"
+	"      for j = p + 3, p + 2 + tonumber(ARGV[p + 2]) do\n"
+	"        local e = ARGV[j]; if not seen[e] then seen[e] = 1; all[#all + 1] = e end\n"
+	"      end\n"
+	"      table.sort(all)\n"
+	"      local keep = {}\n"
+	"      for j = 1, math.min(3, #all) do keep[j] = all[j] end\n"
+	"      local v = table.concat(keep, '\\30')\n"
+	"      if v ~= c then set[#set + 1] = ARGV[p + 1]; set[#set + 1] = v end\n"
+	"    end\n"
+	"    if #set > 0 then redis.call('HSET', k, unpack(set)) end\n"
 	"  end\n"
-	"  table.sort(all)\n"
-	"  local keep = {}\n"
-	"  for j = 1, math.min(3, #all) do keep[j] = all[j] end\n"
-	"  redis.call('HSET', k, f, table.concat(keep, '\\30'))\n"
-	"  i = i + 3 + n\n"
 	"end\n"
 	"redis.call('SADD', KEYS[1], ARGV[1])\n"
 	"if tonumber(ARGV[2]) > 0 then\n"
@@ -234,82 +263,138 @@ static void batch_free(batch *b)
 	memset(b, 0, sizeof *b);
 }
 
-/* Step 1: claims the chunk's distinct ids (ids), shard by shard, for
- * the chunk (owner: the first 16 hex digits of its digest); mine[i] = 1
- * for each id the chunk owns.  Returns 0 or -1. */
-static int claim(rstore *r, const strtab *ids, const char *owner, uint8_t *mine)
-{
-	size_t cnt[SR_SHARDS] = {0};
-	int which[SR_SHARDS];
-	char (*shkeys)[160] = calloc(SR_SHARDS, 160);
-	tm_buf kb = {0};
-	batch b;
-	int rc = -1;
+/* What an attempt at a chunk holds between its steps: the commands it
+ * has sent keep pointing into it until their replies are read. */
+struct sr_work {
+	strtab ids;             /* the chunk's distinct ids */
+	uint8_t *mine;          /* per id: 1 when the chunk owns it */
+	size_t cnt[SR_SHARDS];  /* ids per shard */
+	int which[SR_SHARDS];   /* the shard of each claim command */
+	char (*shkeys)[160];
+	batch b;                /* the claims, then the applies */
+	calls cs;
+	char (*nums)[3][24];
+	tm_buf pending;         /* the examples' bounds noted, kept once the
+				 * chunk has gone through */
+	uint64_t counted, repub;
+};
 
-	if (batch_init(&b, SR_SHARDS) || !shkeys) {
-		sr_err(r, "out of memory", NULL);
-		goto done;
+static void work_free(sr_flight *f)
+{
+	struct sr_work *w = f->w;
+	if (!w)
+		return;
+	st_free(&w->ids);
+	free(w->mine);
+	free(w->shkeys);
+	batch_free(&w->b);
+	calls_free(&w->cs);
+	free(w->nums);
+	buf_free(&w->pending);
+	free(w);
+	f->w = NULL;
+}
+
+void sr_flight_free(sr_flight *f)
+{
+	work_free(f);
+	buf_free(&f->chunk);
+	f->stage = SR_IDLE;
+}
+
+/* Step 1: the claims of the chunk's distinct ids, shard by shard, for
+ * the chunk (owner: the first 16 hex digits of its digest), sent.
+ * Returns 0 or -1. */
+int sr_claims_send(rstore *r, sr_flight *f)
+{
+	struct sr_work *w = calloc(1, sizeof *w);
+	const char *p, *end = f->chunk.data + f->chunk.len;
+	chunk_rec rec;
+	tm_buf kb = {0};
+	int got;
+
+	work_free(f);
+	if (!w || !(w->shkeys = calloc(SR_SHARDS, 160)) || batch_init(&w->b, SR_SHARDS)) {
+		if (w)
+			free(w->shkeys);
+		free(w);
+		goto oom;
 	}
-	for (size_t i = 0; i < ids->n; i++)
-		cnt[ids->ent[i].hash % SR_SHARDS]++;
+	f->w = w;
+	for (p = f->chunk.data; (got = chunk_next(&p, end, &rec)) == 1;)
+		if (rec.p.id && st_add(&w->ids, rec.p.id, rec.p.idlen, 0, NULL) < 0)
+			goto oom;
+	if (got < 0) {
+		sr_err(r, "a chunk's postings are unreadable", NULL);
+		return -1;
+	}
+	if (!(w->mine = calloc(w->ids.n + 1, 1)))
+		goto oom;
+	for (size_t i = 0; i < w->ids.n; i++)
+		w->cnt[w->ids.ent[i].hash % SR_SHARDS]++;
 	for (int s = 0; s < SR_SHARDS; s++) {
-		if (!cnt[s])
+		batch *b = &w->b;
+		if (!w->cnt[s])
 			continue;
-		argv_b *a = &b.args[b.n];
-		if (store_key_shard(r->prefix, 'i', (uint64_t)s, &kb) || argv_init(a, cnt[s] + 6)) {
-			b.n++;
-			sr_err(r, "out of memory", NULL);
-			goto done;
+		argv_b *a = &b->args[b->n];
+		if (store_key_shard(r->prefix, 'i', (uint64_t)s, &kb) || argv_init(a, w->cnt[s] + 6)) {
+			b->n++;
+			goto oom;
 		}
-		snprintf(shkeys[b.n], 160, "%s", kb.data);
+		snprintf(w->shkeys[b->n], 160, "%s", kb.data);
 		argv_push(a, "EVALSHA", 7);
 		argv_push(a, r->sha_claim, 40);
 		argv_push(a, "1", 1);
-		argv_push(a, shkeys[b.n], strlen(shkeys[b.n]));
-		argv_push(a, owner, 16);
+		argv_push(a, w->shkeys[b->n], strlen(w->shkeys[b->n]));
+		argv_push(a, f->dg, 16);
 		argv_push(a, r->ttl, strlen(r->ttl));
-		for (size_t i = 0; i < ids->n; i++)
-			if (ids->ent[i].hash % SR_SHARDS == (uint64_t)s) {
+		for (size_t i = 0; i < w->ids.n; i++)
+			if (w->ids.ent[i].hash % SR_SHARDS == (uint64_t)s) {
 				size_t n;
-				const char *id = st_key(ids, i, &n);
+				const char *id = st_key(&w->ids, i, &n);
 				argv_push(a, id, n);
 			}
-		b.cmds[b.n] = (rc_cmd){(int)a->n, a->v, a->l,
-				       slot_of(shkeys[b.n], strlen(shkeys[b.n])), NULL};
-		which[b.n++] = s;
+		b->cmds[b->n] = (rc_cmd){(int)a->n, a->v, a->l,
+					 slot_of(w->shkeys[b->n], strlen(w->shkeys[b->n])), NULL};
+		w->which[b->n++] = s;
 	}
-	if (rc_run(&r->k, b.cmds, b.n) != 0) {
-		sr_kerr_up(r);
-		goto done;
-	}
-	for (size_t c = 0; c < b.n; c++) {
-		redisReply *x = b.cmds[c].reply;
-		size_t q = 0;
-		if (x->type != REDIS_REPLY_ARRAY) {
-			sr_err(r, "the server refused the ids",
-			       x->type == REDIS_REPLY_ERROR ? x->str : "unexpected reply");
-			goto done;
-		}
-		for (size_t i = 0; i < ids->n; i++)
-			if (ids->ent[i].hash % SR_SHARDS == (uint64_t)which[c]) {
-				if (q < x->elements && x->element[q]->integer == 1)
-					mine[i] = 1;
-				q++;
-			}
-	}
-	rc = 0;
-done:
-	batch_free(&b);
-	free(shkeys);
 	buf_free(&kb);
-	return rc;
+	if (rc_send(&r->k, w->b.cmds, w->b.n) != 0) {
+		sr_kerr_up(r);
+		return -1;
+	}
+	f->stage = SR_CLAIMING;
+	return 0;
+oom:
+	buf_free(&kb);
+	sr_err(r, "out of memory", NULL);
+	return -1;
+}
+
+/* The claims' replies (read): which ids the chunk owns.  0 or -1. */
+static int claims_read(rstore *r, struct sr_work *w)
+{
+	for (size_t c = 0; c < w->b.n; c++) {
+		redisReply *x = w->b.cmds[c].reply;
+		size_t q = 0;
+		if (!x || x->type != REDIS_REPLY_STRING || x->len != w->cnt[w->which[c]]) {
+			sr_err(r, "the server refused the ids",
+			       x && x->type == REDIS_REPLY_ERROR ? x->str : "unexpected reply");
+			return -1;
+		}
+		for (size_t i = 0; i < w->ids.n; i++)
+			if (w->ids.ent[i].hash % SR_SHARDS == (uint64_t)w->which[c])
+				w->mine[i] = x->str[q++] == '1';
+	}
+	batch_free(&w->b);
+	return 0;
 }
 
 /* The examples of a triple (joined key k) that can still enter the
- * store, added to call c; a bound is noted in r->pending once three are
+ * store, added to call c; a bound is noted in pending once three are
  * sent.  Returns 0 or -1 (out of memory). */
-static int add_examples(rstore *r, calls *cs, const tally_mem *agg, size_t i, tm_buf *kb,
-			tm_buf *kb2)
+static int add_examples(rstore *r, calls *cs, tm_buf *pending, const tally_mem *agg, size_t i,
+			tm_buf *kb, tm_buf *kb2)
 {
 	size_t n;
 	const char *k = st_key(&agg->exkeys, i, &n);
@@ -333,7 +418,7 @@ static int add_examples(rstore *r, calls *cs, const tally_mem *agg, size_t i, tm
 				worst = e->h[q];
 		/* noted now, applied when the chunk has gone through */
 		uint64_t w1 = worst + 1;
-		if (chunk_put_str(&r->pending, k, n) || buf_append(&r->pending, &w1, sizeof w1))
+		if (chunk_put_str(pending, k, n) || buf_append(pending, &w1, sizeof w1))
 			return -1;
 	}
 	long kn;
@@ -358,7 +443,7 @@ static int add_examples(rstore *r, calls *cs, const tally_mem *agg, size_t i, tm
 
 /* Step 2: the shares of what the chunk owns (agg), one script call per
  * hash tag.  Returns 0 or -1 (out of memory). */
-static int shares(rstore *r, const tally_mem *agg, calls *cs)
+static int shares(rstore *r, const tally_mem *agg, calls *cs, tm_buf *pending)
 {
 	tm_buf kb = {0}, kb2 = {0};
 	int rc = -1;
@@ -373,7 +458,7 @@ static int shares(rstore *r, const tally_mem *agg, calls *cs)
 			goto done;
 	}
 	for (size_t i = 0; i < agg->exkeys.n; i++)
-		if (add_examples(r, cs, agg, i, &kb, &kb2))
+		if (add_examples(r, cs, pending, agg, i, &kb, &kb2))
 			goto done;
 	rc = 0;
 done:
@@ -382,34 +467,30 @@ done:
 	return rc;
 }
 
-/* Step 3: EVALSHA sha nkeys keys... digest ttl H ... E ..., every call
- * at once: 1 some share was new, 0 none, -1 failure (message set). */
-static int apply(rstore *r, const calls *cs, const char *dg)
+/* Step 3: EVALSHA sha nkeys keys... digest ttl H ... E ..., one call
+ * per tag, built into w->b.  0 or -1 (out of memory). */
+static int apply_build(rstore *r, struct sr_work *w, const char *dg)
 {
-	batch b;
-	long long *res = calloc(cs->n + 1, sizeof *res);
-	char (*nums)[3][24] = calloc(cs->n + 1, sizeof *nums);
-	int rc = -1;
+	const calls *cs = &w->cs;
+	batch *b = &w->b;
 
-	if (batch_init(&b, cs->n) || !res || !nums) {
-		sr_err(r, "out of memory", NULL);
-		goto done;
-	}
-	for (; b.n < cs->n; b.n++) {
-		const call *c = &cs->v[b.n];
+	if (batch_init(b, cs->n) || !(w->nums = calloc(cs->n + 1, sizeof *w->nums)))
+		return -1;
+	for (; b->n < cs->n; b->n++) {
+		const call *c = &cs->v[b->n];
 		size_t nk = c->keys.n;
-		argv_b *a = &b.args[b.n];
+		argv_b *a = &b->args[b->n];
+		char (*nums)[24] = w->nums[b->n];
 		if (argv_init(a, 7 + nk + c->nhargs + c->neargs)) {
-			b.n++;
-			sr_err(r, "out of memory", NULL);
-			goto done;
+			b->n++;
+			return -1;
 		}
-		snprintf(nums[b.n][0], 24, "%zu", nk);
-		snprintf(nums[b.n][1], 24, "%ld", c->nh);
-		snprintf(nums[b.n][2], 24, "%ld", c->ne);
+		snprintf(nums[0], 24, "%zu", nk);
+		snprintf(nums[1], 24, "%ld", c->nh);
+		snprintf(nums[2], 24, "%ld", c->ne);
 		argv_push(a, "EVALSHA", 7);
 		argv_push(a, r->sha_apply, 40);
-		argv_push(a, nums[b.n][0], strlen(nums[b.n][0]));
+		argv_push(a, nums[0], strlen(nums[0]));
 		for (size_t i = 0; i < nk; i++) {
 			size_t n;
 			const char *k = st_key(&c->keys, i, &n);
@@ -417,35 +498,21 @@ static int apply(rstore *r, const calls *cs, const char *dg)
 		}
 		argv_push(a, dg, 32);
 		argv_push(a, r->ttl, strlen(r->ttl));
-		argv_push(a, nums[b.n][1], strlen(nums[b.n][1]));
+		argv_push(a, nums[1], strlen(nums[1]));
 		for (const char *x = c->h.data, *xe = x + c->h.len; x < xe; a->n++)
 			a->v[a->n] = chunk_get_str(&x, &a->l[a->n]);
-		argv_push(a, nums[b.n][2], strlen(nums[b.n][2]));
+		argv_push(a, nums[2], strlen(nums[2]));
 		for (const char *x = c->e.data, *xe = x + c->e.len; x < xe; a->n++)
 			a->v[a->n] = chunk_get_str(&x, &a->l[a->n]);
-		b.cmds[b.n] = (rc_cmd){(int)a->n, a->v, a->l, c->slot, NULL};
+		b->cmds[b->n] = (rc_cmd){(int)a->n, a->v, a->l, c->slot, NULL};
 	}
-	if (r->kill_stage == 2 && r->nattempt == r->kill_at) {
-		sr_run_batch(r, b.cmds, b.n / 2, res, "the server refused a chunk");
-		raise(SIGKILL);
-	}
-	if (sr_run_batch(r, b.cmds, b.n, res, "the server refused a chunk"))
-		goto done;
-	rc = 0;
-	for (size_t i = 0; i < b.n; i++)
-		if (res[i] == 1)
-			rc = 1;
-done:
-	batch_free(&b);
-	free(res);
-	free(nums);
-	return rc;
+	return 0;
 }
 
 /* Keeps the examples' bounds an applied chunk noted.  0 or -1. */
-static int keep_bounds(rstore *r)
+static int keep_bounds(rstore *r, const tm_buf *pending)
 {
-	const char *q = r->pending.data, *qe = q + r->pending.len;
+	const char *q = pending->data, *qe = q + pending->len;
 	while (q < qe) {
 		size_t n, kx;
 		const char *k = chunk_get_str(&q, &n);
@@ -460,70 +527,101 @@ static int keep_bounds(rstore *r)
 	return 0;
 }
 
-int sr_attempt(rstore *r, const uint64_t digest[2], uint64_t *counted, uint64_t *repub)
+int sr_shares_send(rstore *r, sr_flight *f)
 {
+	struct sr_work *w = f->w;
 	tally_mem agg;
-	strtab ids = {0};
-	calls cs = {0};
 	chunk_rec rec;
-	const char *p, *end = r->chunk.data + r->chunk.len;
-	uint8_t *mine = NULL;
-	char dg[33];
-	int rc = -1, got;
+	const char *p, *end = f->chunk.data + f->chunk.len;
+	int got;
 
-	tm_init(&agg);
-	*counted = *repub = 0;
-	buf_reset(&r->pending);
-	chunk_hex(digest, dg);
-
-	/* 1. the chunk's distinct ids, claimed */
-	for (p = r->chunk.data; (got = chunk_next(&p, end, &rec)) == 1;)
-		if (rec.p.id && st_add(&ids, rec.p.id, rec.p.idlen, 0, NULL) < 0)
-			goto oom;
-	if (got < 0)
-		goto bad;
-	if (!(mine = calloc(ids.n + 1, 1)))
-		goto oom;
-	if (claim(r, &ids, dg, mine))
-		goto done;
-	if (r->kill_stage == 1 && r->nattempt == r->kill_at)
+	if (claims_read(r, w))
+		return -1;
+	if (r->kill_stage == 1 && f->attempt == r->kill_at)
 		raise(SIGKILL);
-
 	/* 2. the postings the chunk owns (and those without an id) */
-	for (p = r->chunk.data; (got = chunk_next(&p, end, &rec)) == 1;) {
+	tm_init(&agg);
+	for (p = f->chunk.data; (got = chunk_next(&p, end, &rec)) == 1;) {
 		if (rec.p.id) {
-			long idx = st_find(&ids, rec.p.id, rec.p.idlen);
-			if (!mine[idx] || ids_add(&agg.ids, rec.p.id, rec.p.idlen) == 0) {
-				(*repub)++;
+			long idx = st_find(&w->ids, rec.p.id, rec.p.idlen);
+			if (!w->mine[idx] || ids_add(&agg.ids, rec.p.id, rec.p.idlen) == 0) {
+				w->repub++;
 				continue;
 			}
 		}
 		rec.p.id = NULL; /* the ids are settled: count it */
 		if (tm_add(&agg, &rec.p) < 0)
 			goto oom;
-		(*counted)++;
+		w->counted++;
 	}
-	if (got < 0)
-		goto bad;
-
-	/* 3. the shares, applied */
-	if (shares(r, &agg, &cs))
+	if (got < 0) {
+		tm_free(&agg);
+		sr_err(r, "a chunk's postings are unreadable", NULL);
+		return -1;
+	}
+	/* 3. the shares, sent */
+	if (shares(r, &agg, &w->cs, &w->pending) || apply_build(r, w, f->dg))
 		goto oom;
-	rc = apply(r, &cs, dg);
-	if (rc == 1 && keep_bounds(r))
-		goto oom;
-	goto done;
-bad:
-	sr_err(r, "a chunk's postings are unreadable", NULL);
-	rc = -1;
-	goto done;
-oom:
-	sr_err(r, "out of memory", NULL);
-	rc = -1;
-done:
-	free(mine);
-	st_free(&ids);
-	calls_free(&cs);
 	tm_free(&agg);
+	if (r->kill_stage == 2 && f->attempt == r->kill_at) {
+		sr_run_batch(r, w->b.cmds, w->b.n / 2, NULL, "the server refused a chunk");
+		raise(SIGKILL);
+	}
+	if (rc_send(&r->k, w->b.cmds, w->b.n) != 0) {
+		sr_kerr_up(r);
+		return -1;
+	}
+	f->stage = SR_APPLYING;
+	return 0;
+oom:
+	tm_free(&agg);
+	sr_err(r, "out of memory", NULL);
+	return -1;
+}
+
+int sr_applied(rstore *r, sr_flight *f, uint64_t *counted, uint64_t *repub)
+{
+	struct sr_work *w = f->w;
+	int rc = 0;
+
+	for (size_t i = 0; i < w->b.n; i++) {
+		redisReply *x = w->b.cmds[i].reply;
+		if (!x || x->type == REDIS_REPLY_ERROR) {
+			sr_err(r, "the server refused a chunk", x ? x->str : "no reply");
+			rc = -1;
+			break;
+		}
+		if (x->type == REDIS_REPLY_INTEGER && x->integer == 1)
+			rc = 1;
+	}
+	if (rc == 1 && keep_bounds(r, &w->pending)) {
+		sr_err(r, "out of memory", NULL);
+		rc = -1;
+	}
+	*counted = w->counted;
+	*repub = w->repub;
+	work_free(f);
+	f->stage = SR_IDLE;
 	return rc;
+}
+
+int sr_attempt(rstore *r, sr_flight *f, uint64_t *counted, uint64_t *repub)
+{
+	if (sr_claims_send(r, f))
+		goto fail;
+	if (rc_drain(&r->k)) {
+		sr_kerr_up(r);
+		goto fail;
+	}
+	if (sr_shares_send(r, f))
+		goto fail;
+	if (rc_drain(&r->k)) {
+		sr_kerr_up(r);
+		goto fail;
+	}
+	return sr_applied(r, f, counted, repub);
+fail:
+	work_free(f);
+	f->stage = SR_IDLE;
+	return -1;
 }

@@ -61,7 +61,7 @@
  * the same bytes under the same fields.
  *
  * P:{j}:open, a set, lists the digests of the journals (added before a
- * journal is written, removed after it is deleted), so a load finds them
+ * journal's "n" is written, removed after it is deleted), so a load finds them
  * without scanning the keyspace.  An entry without its journal is a
  * journal not written yet, or gone already: left to its loader. */
 #define JOURNAL_PIECE (1u << 20)
@@ -69,144 +69,200 @@
 
 static const char journal_magic[4] = {'T', 'M', 'J', '1'};
 
-/* SADD (add) or SREM the digest dg in P:{j}:open. */
-static int journal_index(rstore *r, int add, const char *dg)
+/* A batch of small commands being built (at most four arguments each). */
+typedef struct jbatch {
+	rc_cmd *c;
+	const char **av;
+	size_t *al, n;
+} jbatch;
+
+static void jput(jbatch *b, const char *a0, const char *a1, size_t l1, const char *a2, size_t l2,
+		 const char *a3, size_t l3)
 {
-	tm_buf kb = {0};
-	int rc = -1;
-	if (sr_key_tagged(r->prefix, "j", "open", &kb)) {
-		sr_err(r, "out of memory", NULL);
-		goto done;
-	}
-	const char *av[3] = {add ? "SADD" : "SREM", kb.data, dg};
-	size_t al[3] = {4, kb.len, 32};
-	redisReply *rep = sr_cmd(r, 3, av, al);
-	if (!rep)
-		goto done;
-	freeReplyObject(rep);
-	if (add && strcmp(r->ttl, "0")) {
-		const char *ev[3] = {"EXPIRE", kb.data, r->ttl};
-		size_t el[3] = {6, kb.len, strlen(r->ttl)};
-		if (!(rep = sr_cmd(r, 3, ev, el)))
-			goto done;
-		freeReplyObject(rep);
-	}
-	rc = 0;
-done:
-	buf_free(&kb);
-	return rc;
+	const char **a = b->av + 4 * b->n;
+	size_t *l = b->al + 4 * b->n;
+	a[0] = a0, l[0] = strlen(a0);
+	a[1] = a1, l[1] = l1;
+	a[2] = a2, l[2] = l2;
+	a[3] = a3, l[3] = l3;
+	b->c[b->n++] = (rc_cmd){a3 ? 4 : a2 ? 3 : 2, a, l, slot_of(a1, l1), NULL};
 }
 
-static int journal_write(rstore *r, const tm_buf *key, const char *dg)
+static void jfree(jbatch *b)
 {
-	size_t npiece = (r->chunk.len + JOURNAL_PIECE - 1) / JOURNAL_PIECE, n = npiece + 3, i;
-	rc_cmd *cmds = calloc(n, sizeof *cmds);
-	char (*fld)[24] = calloc(n, sizeof *fld);
-	const char **avs = calloc(n * 4, sizeof *avs);
-	size_t *als = calloc(n * 4, sizeof *als);
+	for (size_t i = 0; b->c && i < b->n; i++)
+		if (b->c[i].reply)
+			freeReplyObject(b->c[i].reply);
+	free(b->c);
+	free(b->av);
+	free(b->al);
+}
+
+/* One journal round, waiting for both of its steps: f's journal written
+ * (f NULL: none), and the journals of the chunks done (r->drop) deleted.
+ * First the index entry of f and its pieces, and the deletions; then f's
+ * "n" (every piece is in before it) and the index entries of the deleted
+ * journals (each journal is gone before its entry).  0 or -1. */
+static int journal_round(rstore *r, const sr_flight *f)
+{
+	size_t npiece = f ? (f->chunk.len + JOURNAL_PIECE - 1) / JOURNAL_PIECE : 0;
+	size_t cap = npiece + 4 + (size_t)r->ndrop;
+	jbatch b1 = {calloc(cap, sizeof(rc_cmd)), calloc(4 * cap, sizeof(char *)),
+		     calloc(4 * cap, sizeof(size_t)), 0};
+	jbatch b2 = {calloc(cap, sizeof(rc_cmd)), calloc(4 * cap, sizeof(char *)),
+		     calloc(4 * cap, sizeof(size_t)), 0};
+	char (*fld)[24] = calloc(npiece + 2, sizeof *fld);
+	tm_buf ik = {0}, jk = {0}, dk[2] = {{0}, {0}};
 	unsigned char head[8];
 	uint32_t order = 0x01020304;
-	unsigned slot = slot_of(key->data, key->len);
 	int ttl = strcmp(r->ttl, "0") != 0, rc = -1;
+	size_t tl = strlen(r->ttl);
 
 	memcpy(head, journal_magic, 4);
 	memcpy(head + 4, &order, 4);
-	if (!cmds || !fld || !avs || !als) {
-		sr_err(r, "out of memory", NULL);
-		goto done;
+	if (!b1.c || !b1.av || !b1.al || !b2.c || !b2.av || !b2.al || !fld ||
+	    sr_key_tagged(r->prefix, "j", "open", &ik) || (f && sr_key_journal(r->prefix, f->dg, &jk)))
+		goto oom;
+	for (int d = 0; d < r->ndrop; d++) {
+		if (sr_key_journal(r->prefix, r->drop[d], &dk[d]))
+			goto oom;
+		jput(&b1, "DEL", dk[d].data, dk[d].len, NULL, 0, NULL, 0);
+		jput(&b2, "SREM", ik.data, ik.len, r->drop[d], 32, NULL, 0);
 	}
-	if (journal_index(r, 1, dg) != 0)
-		goto done;
-	/* HSET of the pieces 0 (the header) to npiece; then of "n", and the
-	 * time to live */
-	for (i = 0; i < npiece + 2 + (size_t)ttl; i++) {
-		const char **a = avs + 4 * i;
-		size_t *l = als + 4 * i;
-		a[0] = "HSET", l[0] = 4;
-		a[1] = key->data, l[1] = key->len;
-		if (i == 0)
-			a[2] = "0", l[2] = 1, a[3] = (const char *)head, l[3] = sizeof head;
-		else if (i <= npiece) {
-			size_t off = (i - 1) * (size_t)JOURNAL_PIECE, left = r->chunk.len - off;
+	if (f) {
+		jput(&b1, "SADD", ik.data, ik.len, f->dg, 32, NULL, 0);
+		if (ttl)
+			jput(&b1, "EXPIRE", ik.data, ik.len, r->ttl, tl, NULL, 0);
+		jput(&b1, "HSET", jk.data, jk.len, "0", 1, (const char *)head, sizeof head);
+		for (size_t i = 1; i <= npiece; i++) {
+			size_t off = (i - 1) * (size_t)JOURNAL_PIECE, left = f->chunk.len - off;
 			snprintf(fld[i], sizeof fld[i], "%zu", i);
-			a[2] = fld[i], l[2] = strlen(fld[i]);
-			a[3] = r->chunk.data + off, l[3] = left < JOURNAL_PIECE ? left : JOURNAL_PIECE;
-		} else if (i == npiece + 1) {
-			snprintf(fld[i], sizeof fld[i], "%zu", npiece);
-			a[2] = "n", l[2] = 1, a[3] = fld[i], l[3] = strlen(fld[i]);
-		} else {
-			a[0] = "EXPIRE", l[0] = 6;
-			a[2] = r->ttl, l[2] = strlen(r->ttl);
+			jput(&b1, "HSET", jk.data, jk.len, fld[i], strlen(fld[i]), f->chunk.data + off,
+			     left < JOURNAL_PIECE ? left : JOURNAL_PIECE);
 		}
-		cmds[i] = (rc_cmd){i == npiece + 2 ? 3 : 4, a, l, slot, NULL};
+		snprintf(fld[0], sizeof fld[0], "%zu", npiece);
+		jput(&b2, "HSET", jk.data, jk.len, "n", 1, fld[0], strlen(fld[0]));
+		if (ttl)
+			jput(&b2, "EXPIRE", jk.data, jk.len, r->ttl, tl, NULL, 0);
 	}
-	/* every piece is in before "n" is written */
-	if (sr_run_batch(r, cmds, npiece + 1, NULL, "the server refused the chunk's journal") == 0 &&
-	    sr_run_batch(r, cmds + npiece + 1, 1 + (size_t)ttl, NULL,
-		      "the server refused the chunk's journal") == 0)
+	if (sr_run_batch(r, b1.c, b1.n, NULL, "the server refused the chunk's journal") == 0 &&
+	    sr_run_batch(r, b2.c, b2.n, NULL, "the server refused the chunk's journal") == 0) {
 		rc = 0;
+		r->ndrop = 0;
+	}
+	goto done;
+oom:
+	sr_err(r, "out of memory", NULL);
 done:
-	if (cmds)
-		for (i = 0; i < n; i++)
-			if (cmds[i].reply)
-				freeReplyObject(cmds[i].reply);
-	free(cmds);
+	jfree(&b1);
+	jfree(&b2);
 	free(fld);
-	free(avs);
-	free(als);
+	buf_free(&ik);
+	buf_free(&jk);
+	buf_free(&dk[0]);
+	buf_free(&dk[1]);
 	return rc;
 }
 
-static int journal_drop(rstore *r, const tm_buf *key, const char *dg)
+/* The flight done: its counts, and its journal to delete. */
+static void flight_done(rstore *r, sr_flight *f, int a, uint64_t counted, uint64_t repub)
 {
-	const char *av[2] = {"DEL", key->data};
-	size_t al[2] = {3, key->len};
-	redisReply *rep = sr_cmd(r, 2, av, al);
-	if (!rep)
-		return -1;
-	freeReplyObject(rep);
-	return journal_index(r, 0, dg);
-}
-
-int sr_commit(store *st, const uint64_t digest[2])
-{
-	rstore *r = (rstore *)st;
-	uint64_t counted, repub;
-	tm_buf key = {0};
-	char dg[33];
-	int rc;
-
-	if (!r->nchunk)
-		return 0;
-	chunk_hex(digest, dg);
-	if (sr_key_journal(r->prefix, dg, &key)) {
-		sr_err(r, "out of memory", NULL);
-		return -1;
-	}
-	r->nattempt++;
-	/* the router waits out short outages and failovers itself */
-	rc = journal_write(r, &key, dg);
-	if (rc == 0)
-		rc = sr_attempt(r, digest, &counted, &repub);
-	if (rc >= 0 && journal_drop(r, &key, dg) != 0)
-		rc = -1;
-	buf_free(&key);
-	if (rc < 0)
-		return -1;
-	if (rc == 1) {
+	store *st = &r->base;
+	if (a == 1) {
 		st->applied++;
 		st->counted += counted;
 		st->republished += repub;
 	} else
 		st->skipped++;
-	buf_reset(&r->chunk);
-	r->nchunk = 0;
+	memcpy(r->drop[r->ndrop++], f->dg, 33);
+}
+
+/* Reads the replies of everything sent; the chunks whose shares came
+ * back are done (their journals join r->drop).  *claimed: the flight
+ * whose claims came back, or NULL.  0 or -1. */
+static int collect(rstore *r, sr_flight **claimed)
+{
+	*claimed = NULL;
+	if (rc_drain(&r->k) != 0) {
+		sr_kerr_up(r);
+		return -1;
+	}
+	for (int i = 0; i < 2; i++) {
+		sr_flight *f = &r->fly[i];
+		uint64_t counted, repub;
+		if (f->stage == SR_CLAIMING)
+			*claimed = f;
+		else if (f->stage == SR_APPLYING) {
+			int a = sr_applied(r, f, &counted, &repub);
+			if (a < 0)
+				return -1;
+			flight_done(r, f, a, counted, repub);
+		}
+	}
 	return 0;
 }
 
-/* Reads journal key into r->chunk: 1 done, 0 incomplete (no "n" yet) or
+/* Brings every chunk in flight to its end, waiting for each step. */
+static int settle_flights(rstore *r)
+{
+	sr_flight *c;
+	for (;;) {
+		if (collect(r, &c) != 0)
+			return -1;
+		if (!c)
+			break;
+		if (sr_shares_send(r, c) != 0)
+			return -1;
+	}
+	return r->ndrop ? journal_round(r, NULL) : 0;
+}
+
+/* Two chunks in flight: when chunk k is committed, the replies of what
+ * was sent before are read (the claims of chunk k-1, the shares of chunk
+ * k-2, which is then done); chunk k's journal is written (with the
+ * deletion of k-2's) and its claims sent; then chunk k-1's shares are
+ * worked out and sent while the server claims.  The server works on
+ * chunks k and k-1 while this process reads and normalises chunk k+1.
+ * The order of the steps of each chunk is the one told at the top, and
+ * each step waits for the replies of the one before it: a kill at any
+ * moment leaves at most the two chunks in flight unfinished -- their
+ * journals, or the same load run again, finish them. */
+int sr_commit(store *st, const uint64_t digest[2])
+{
+	rstore *r = (rstore *)st;
+	sr_flight *f, *prev;
+	tm_buf t;
+
+	if (!r->nchunk)
+		return 0;
+	r->nattempt++;
+	if (r->kill_stage && r->nattempt == r->kill_at && settle_flights(r) != 0)
+		return -1; /* the test hook: this chunk alone in flight */
+	if (collect(r, &prev) != 0)
+		return -1;
+	f = r->fly[0].stage == SR_IDLE ? &r->fly[0] : &r->fly[1];
+	/* the chunk buffered becomes the flight's; the flight's old buffer
+	 * takes the next chunk */
+	t = f->chunk;
+	f->chunk = r->chunk;
+	r->chunk = t;
+	buf_reset(&r->chunk);
+	r->nchunk = 0;
+	memcpy(f->digest, digest, sizeof f->digest);
+	chunk_hex(digest, f->dg);
+	f->attempt = r->nattempt;
+	if (journal_round(r, f) != 0 || sr_claims_send(r, f) != 0)
+		return -1;
+	if (prev && sr_shares_send(r, prev) != 0)
+		return -1;
+	if (r->kill_stage && r->nattempt == r->kill_at)
+		return settle_flights(r);
+	return 0;
+}
+
+/* Reads journal key into *out: 1 done, 0 incomplete (no "n" yet) or
  * gone, -1 failure (message set). */
-static int journal_read(rstore *r, const char *key, size_t kl)
+static int journal_read(rstore *r, const char *key, size_t kl, tm_buf *out)
 {
 	const char *av[3] = {"HGET", key, "n"};
 	size_t al[3] = {4, kl, 1};
@@ -229,8 +285,7 @@ static int journal_read(rstore *r, const char *key, size_t kl)
 		sr_err(r, "a chunk's journal is unreadable (its piece count)", key);
 		return -1;
 	}
-	buf_reset(&r->chunk);
-	r->nchunk = 0;
+	buf_reset(out);
 	for (unsigned long i = 0; i <= n; i++) {
 		snprintf(nb, sizeof nb, "%lu", i);
 		av[2] = nb, al[2] = strlen(nb);
@@ -239,14 +294,14 @@ static int journal_read(rstore *r, const char *key, size_t kl)
 		if (rep->type == REDIS_REPLY_NIL) {
 			/* its loader finished it meanwhile and dropped the journal */
 			freeReplyObject(rep);
-			buf_reset(&r->chunk);
+			buf_reset(out);
 			return 0;
 		}
 		int ok = rep->type == REDIS_REPLY_STRING;
 		if (ok && i == 0)
 			ok = rep->len == 8 && !memcmp(rep->str, journal_magic, 4) &&
 			     !memcmp(rep->str + 4, &order, 4);
-		else if (ok && buf_append(&r->chunk, rep->str, rep->len)) {
+		else if (ok && buf_append(out, rep->str, rep->len)) {
 			freeReplyObject(rep);
 			sr_err(r, "out of memory", NULL);
 			return -1;
@@ -257,11 +312,10 @@ static int journal_read(rstore *r, const char *key, size_t kl)
 			return -1;
 		}
 	}
-	if (!chunk_valid(r->chunk.data, r->chunk.len)) {
+	if (!chunk_valid(out->data, out->len)) {
 		sr_err(r, "a chunk's journal is unreadable (its postings)", key);
 		return -1;
 	}
-	r->nchunk = 1;
 	return 1;
 }
 
@@ -276,6 +330,8 @@ int sr_finish(store *st)
 		sr_err(r, "a chunk is still buffered", NULL);
 		return -1;
 	}
+	if (settle_flights(r) != 0)
+		return -1;
 	if (sr_key_tagged(r->prefix, "j", "open", &kb)) {
 		sr_err(r, "out of memory", NULL);
 		goto done;
@@ -291,20 +347,23 @@ int sr_finish(store *st)
 	rc = 0;
 	for (size_t i = 0; i < open->elements && !rc; i++) {
 		const redisReply *e = open->element[i];
-		uint64_t digest[2], counted, repub;
-		char dg[33];
-		if (e->type != REDIS_REPLY_STRING || chunk_unhex(e->str, e->len, digest) != 0)
+		sr_flight *f = &r->fly[0];
+		uint64_t counted, repub;
+		if (e->type != REDIS_REPLY_STRING || chunk_unhex(e->str, e->len, f->digest) != 0)
 			continue; /* not one of ours */
-		chunk_hex(digest, dg);
-		if (sr_key_journal(r->prefix, dg, &kb)) {
+		chunk_hex(f->digest, f->dg);
+		f->attempt = 0;
+		if (sr_key_journal(r->prefix, f->dg, &kb)) {
 			sr_err(r, "out of memory", NULL);
 			rc = -1;
 			break;
 		}
-		int got = journal_read(r, kb.data, kb.len);
+		int got = journal_read(r, kb.data, kb.len, &f->chunk);
 		if (got == 1) {
-			int a = sr_attempt(r, digest, &counted, &repub);
-			if (a < 0 || journal_drop(r, &kb, dg) != 0)
+			int a = sr_attempt(r, f, &counted, &repub);
+			memcpy(r->drop[0], f->dg, 33);
+			r->ndrop = 1;
+			if (a < 0 || journal_round(r, NULL) != 0)
 				rc = -1;
 			else {
 				st->settled++;
@@ -312,8 +371,8 @@ int sr_finish(store *st)
 			}
 		} else if (got < 0)
 			rc = -1;
-		buf_reset(&r->chunk);
-		r->nchunk = 0;
+		r->ndrop = 0;
+		buf_reset(&f->chunk);
 	}
 done:
 	if (open)

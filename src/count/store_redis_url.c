@@ -33,6 +33,18 @@ static void url_shown(const char *url, tm_buf *err)
 	buf_puts(err, at);
 }
 
+int store_url_check(const char *url, tm_buf *err)
+{
+	if (!strncmp(url, "unix:", 5) || !strncasecmp(url, "redis://", 8) ||
+	    !strncasecmp(url, "rediss://", 9))
+		return 0;
+	buf_puts(err, url_forms);
+	buf_puts(err, ", not '");
+	url_shown(url, err);
+	buf_puts(err, "'");
+	return -1;
+}
+
 int sr_parse_url(rstore *r, const char *url, sr_seeds *sd, tm_buf *err)
 {
 	const char *p;
@@ -55,13 +67,8 @@ int sr_parse_url(rstore *r, const char *url, sr_seeds *sd, tm_buf *err)
 			      "a Unix socket or a TLS tunnel (e.g. stunnel) and give redis:// or unix: here");
 		return -1;
 	}
-	if (strncasecmp(url, "redis://", 8)) {
-		buf_puts(err, url_forms);
-		buf_puts(err, ", not '");
-		url_shown(url, err);
-		buf_puts(err, "'");
-		return -1;
-	}
+	if (strncasecmp(url, "redis://", 8))
+		return store_url_check(url, err);
 	p = url + 8;
 	const char *at = strrchr(p, '@');
 	if (at) {

@@ -1,0 +1,92 @@
+#!/bin/sh
+# make bench, the Redis store on one local server over a Unix socket:
+# tally --store with chunks of 10,000 and 100,000 postings (ids
+# de-duplicated) on a deterministic file (tests/bench/gen_titles.py
+# --postings, seed 1), beside the memory engine on the same file and
+# redis-benchmark's HSET (pipelined 64) on the same server as the floor.
+# The server's CPU per posting comes from used_cpu (all of it) and from
+# INFO commandstats (the usec of the scripts, where it spends nearly all
+# of it; wall time inside the server, so a busy machine inflates it).  Medians
+# of BENCH_RUNS runs (default 3); BENCH_STORE postings (default
+# 1,000,000).  BENCH_BASELINE=/path/to/titlemill (an older build) runs
+# the same loads with it, paired run by run, and prints the ratios.
+set -eu
+T=${1:-./titlemill}
+here=$(cd "$(dirname "$0")" && pwd)
+out=${BENCH_DIR:-$here/../../build/bench}
+N=${BENCH_STORE:-1000000}
+runs=${BENCH_RUNS:-3}
+base=${BENCH_BASELINE:-}
+mkdir -p "$out"
+if ! command -v redis-server > /dev/null 2>&1; then
+	echo "redis-server not installed: store figures skipped"
+	exit 0
+fi
+p=$out/postings-$N.tsv
+if [ ! -s "$p" ]; then
+	echo "generating $N postings (seed 1)..."
+	/usr/bin/python3 "$here/gen_titles.py" --postings --count "$N" --seed 1 > "$p.tmp"
+	mv "$p.tmp" "$p"
+fi
+rd=$(mktemp -d "${TMPDIR:-/tmp}/tm-bench-XXXXXX")
+redis-server --port 0 --unixsocket "$rd/sock" --dir "$rd" --save "" --appendonly no \
+	--daemonize yes --pidfile "$rd/pid" > /dev/null
+trap 'kill "$(cat "$rd/pid")" 2> /dev/null; rm -rf "$rd"' EXIT INT TERM
+for i in $(seq 50); do redis-cli -s "$rd/sock" ping > /dev/null 2>&1 && break; sleep 0.1; done
+R() { redis-cli -s "$rd/sock" "$@"; }
+now() { date +%s%N; }
+median() { sort -g | awk '{ v[NR] = $1 } END { print (NR % 2) ? v[(NR + 1) / 2] : (v[NR / 2] + v[NR / 2 + 1]) / 2 }'; }
+cpu() { R info cpu | tr -d '\r' | awk -F: '/^used_cpu_(user|sys):/ { s += $2 } END { printf "%.3f", s }'; }
+# the usec of the scripts (the commands they call are inside them)
+cmdusec() { R info commandstats | tr -d '\r' | awk -F'[=,:]' '/^cmdstat_evalsha:/ { s += $5 } END { print s + 0 }'; }
+
+# memory: the client's own pace on this file
+: > "$rd/mem"
+for i in $(seq "$runs"); do
+	t0=$(now); "$T" tally "$p" > "$rd/counts.tsv" 2> /dev/null; t1=$(now)
+	echo $(((t1 - t0) / 1000000)) >> "$rd/mem"
+done
+mem=$(median < "$rd/mem")
+counted=$("$T" tally "$p" 2>&1 > /dev/null | sed -n 's/.*: \([0-9]*\) postings counted.*/\1/p; s/^titlemill tally: \([0-9]*\) postings counted.*/\1/p' | head -1)
+echo "store bench: $N postings ($counted counted, ids de-duplicated), $runs runs each, medians"
+awk -v m="$mem" -v n="$N" 'BEGIN { printf "memory tally: %.2f s, %.0f postings/s\n", m / 1000, n / (m / 1000) }'
+
+# one load of binary $1 with chunk $2 into an empty store: ms, server
+# CPU s, commandstats usec
+load() {
+	R flushall > /dev/null
+	R config resetstat > /dev/null
+	c0=$(cpu)
+	t0=$(now); "$1" tally --store "unix:$rd/sock" --chunk "$2" "$p" 2> "$rd/err"; t1=$(now)
+	c1=$(cpu)
+	echo "$(((t1 - t0) / 1000000)) $(awk -v a="$c0" -v b="$c1" 'BEGIN { print b - a }') $(cmdusec)"
+}
+for chunk in 10000 100000; do
+	: > "$rd/this"
+	: > "$rd/base"
+	for i in $(seq "$runs"); do
+		load "$T" "$chunk" >> "$rd/this"
+		[ -z "$base" ] || load "$base" "$chunk" >> "$rd/base"
+	done
+	R flushall > /dev/null
+	"$T" tally --store "unix:$rd/sock" --chunk "$chunk" "$p" 2> /dev/null
+	same=$("$T" counts --store "unix:$rd/sock" | cmp -s - "$rd/counts.tsv" && echo yes || echo NO)
+	ms=$(awk '{ print $1 }' "$rd/this" | median)
+	cs=$(awk '{ print $2 }' "$rd/this" | median)
+	us=$(awk '{ print $3 }' "$rd/this" | median)
+	awk -v c="$chunk" -v ms="$ms" -v cs="$cs" -v us="$us" -v n="$N" -v k="$counted" -v m="$mem" -v same="$same" 'BEGIN {
+		printf "store, chunk %d: %.2f s, %.0f postings/s (%.2f x the time of memory tally); server CPU %.2f us per posting (used_cpu %.2f s), scripts %.2f us per posting (commandstats); same table as memory: %s\n",
+			c, ms / 1000, n / (ms / 1000), ms / m, cs * 1e6 / k, cs, us / k, same }'
+	if [ -n "$base" ]; then
+		bms=$(awk '{ print $1 }' "$rd/base" | median)
+		bcs=$(awk '{ print $2 }' "$rd/base" | median)
+		bus=$(awk '{ print $3 }' "$rd/base" | median)
+		awk -v c="$chunk" -v ms="$ms" -v bms="$bms" -v cs="$cs" -v bcs="$bcs" -v us="$us" -v bus="$bus" -v n="$N" -v k="$counted" 'BEGIN {
+			printf "  baseline, chunk %d: %.2f s, %.0f postings/s; server CPU %.2f us per posting, scripts %.2f us per posting; this build: %.2f x the speed, %.2f x the server CPU\n",
+				c, bms / 1000, n / (bms / 1000), bcs * 1e6 / k, bus / k, bms / ms, cs / bcs }'
+	fi
+done
+R flushall > /dev/null
+rps=$(redis-benchmark -s "$rd/sock" -P 64 -t hset -n 2000000 -q 2> /dev/null | tr '\r' '\n' |
+	sed -n 's/^HSET: \([0-9.]*\) requests per second.*/\1/p' | tail -1)
+awk -v r="${rps:-0}" 'BEGIN { if (r > 0) printf "redis-benchmark -P 64 -t hset, same server: %.0f requests/s (%.2f us per HSET, the floor)\n", r, 1e6 / r }'
