@@ -396,12 +396,14 @@ int cmd_tally(int argc, char **argv)
 		rc = EXIT_RUNTIME;
 	}
 	if (st->settled)
-		fprintf(stderr, "titlemill tally: warning: the store held %llu chunks that a load "
+		fprintf(stderr, "titlemill tally: warning: the store held %llu %s that a load "
 			"had begun and not finished (it was killed, or is still running); "
-			"they are finished now as they were read then, %llu postings more counted: "
+			"they are finished now as they were read then, %llu %s more counted: "
 			"if their input changed since, its changed postings are counted as they were "
 			"(compare the load's files; see README, Long runs)\n",
-			(unsigned long long)st->settled, (unsigned long long)st->settled_postings);
+			(unsigned long long)st->settled, plural(st->settled, "chunk", "chunks"),
+			(unsigned long long)st->settled_postings,
+			plural(st->settled_postings, "posting", "postings"));
 	if (o.store)
 		fprintf(stderr, "titlemill tally: %llu %s applied, %llu already in the store; ",
 			(unsigned long long)st->applied, plural(st->applied, "chunk", "chunks"),
@@ -461,10 +463,11 @@ int cmd_counts(int argc, char **argv)
 			}
 			rc = EXIT_RUNTIME;
 		} else if (st->unfinished)
-			fprintf(stderr, "titlemill counts: warning: %llu chunks of a load are not finished "
+			fprintf(stderr, "titlemill counts: warning: %llu %s of a load %s not finished "
 				"(killed, or still running), so the counts are not all in: the next tally "
 				"with this store and prefix finishes them\n",
-				(unsigned long long)st->unfinished);
+				(unsigned long long)st->unfinished,
+				plural(st->unfinished, "chunk", "chunks"), st->unfinished == 1 ? "is" : "are");
 		else if (!m.occs.n)
 			fprintf(stderr, "titlemill counts: the store holds no counts under the "
 				"prefix %s\n", o.prefix ? o.prefix : STORE_PREFIX_DEFAULT);

@@ -132,7 +132,7 @@ for stage in claim apply; do
 	check "killed at $stage" 137 $?
 	"$T" tally --store "$C" --chunk 500 "$tmp/a2.tsv" 2> "$tmp/e"
 	check "changed rerun after a kill at $stage" 0 $?
-	grep -q 'the store held 1 chunks that a load had begun' "$tmp/e" || check "says a chunk was finished ($stage)" said "$(cat "$tmp/e")"
+	grep -q 'the store held 1 chunk that a load had begun' "$tmp/e" || check "says a chunk was finished ($stage)" said "$(cat "$tmp/e")"
 	"$T" counts --store "$C" | cmp -s - "$tmp/mem.a2" || check "killed at $stage, changed rerun: exact" same differ
 done
 

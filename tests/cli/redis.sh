@@ -139,9 +139,9 @@ for stage in claim apply; do
 	TITLEMILL_TEST_KILL=$stage:5 $T tally --store "$S" --chunk 100 "$tmp/k.tsv" 2>/dev/null
 	check "killed-at-$stage-status" 137 $?
 	$T counts --store "$S" > /dev/null 2> "$tmp/err"
-	grep -q 'warning: 1 chunks of a load are not finished' "$tmp/err"; check "killed-at-$stage-counts-warns" 0 $?
+	grep -q 'warning: 1 chunk of a load is not finished' "$tmp/err"; check "killed-at-$stage-counts-warns" 0 $?
 	$T tally --store "$S" --chunk 100 "$tmp/k2.tsv" 2> "$tmp/err"; check "changed-rerun-$stage-status" 0 $?
-	grep -q 'warning: the store held 1 chunks that a load had begun and not finished' "$tmp/err"
+	grep -q 'warning: the store held 1 chunk that a load had begun and not finished' "$tmp/err"
 	check "changed-rerun-$stage-says-so" 0 $?
 	$T counts --store "$S" 2> "$tmp/err" | cmp -s - "$tmp/k2.mem"; check "changed-rerun-$stage-exact" 0 $?
 	check "changed-rerun-$stage-no-warning" "" "$(cat "$tmp/err")"
