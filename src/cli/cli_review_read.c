@@ -183,7 +183,7 @@ int rv_list(const review_opts *o, const rq_queue *q)
 
 	if (!v)
 		return rv_fail("out of memory");
-	qsort(v, n, sizeof *v, !strcmp(o->sort, "added") ? by_seq
+	tm_qsort(v, n, sizeof *v, !strcmp(o->sort, "added") ? by_seq
 			       : !strcmp(o->sort, "postings") ? by_postings
 			       : !strcmp(o->sort, "score") ? by_score : by_strength);
 	if (o->limit < n)
@@ -456,7 +456,7 @@ int rv_stats(const review_opts *o, const rq_queue *q, const char *now)
 				r->oldest = t;
 		}
 	}
-	qsort(v, n, sizeof *v, cmp_row);
+	tm_qsort(v, n, sizeof *v, cmp_row);
 	rec r;
 	rec_init(&r, &b, o->json ? REC_JSON : REC_TSV, stats_fields);
 	rec_header(&r);

@@ -18,6 +18,7 @@
 #define TM_BUF_H
 
 #include <stddef.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "core/err.h"
@@ -99,5 +100,14 @@ char *tm_dupn(const char *s, size_t n);
  *     if (!v) return TM_ENOMEM;
  *     a->v = v; */
 void *tm_grow(void *p, size_t *cap, size_t need, size_t size, size_t first);
+
+/* qsort of n elements that accepts an empty array (NULL when n is 0,
+ * which qsort itself may not be given). */
+static inline void tm_qsort(void *base, size_t n, size_t size,
+			    int (*cmp)(const void *, const void *))
+{
+	if (n > 1)
+		qsort(base, n, size, cmp);
+}
 
 #endif

@@ -272,7 +272,7 @@ static srt *sorted(const strtab *t)
 			fv[g].s = st_key(&first, g, &fv[g].n);
 			fv[g].i = g;
 		}
-		qsort(fv, ng, sizeof *fv, cmp_srt);
+		tm_qsort(fv, ng, sizeof *fv, cmp_srt);
 		for (g = 0; g < ng; g++)
 			first.ent[fv[g].i].count = g; /* each first field's rank */
 		for (size_t i = 0; i < n; i++)
@@ -283,13 +283,13 @@ static srt *sorted(const strtab *t)
 			w[at[first.ent[grp[i]].count]++] = v[i];
 		for (g = 0; g < ng; g++) { /* at[g]: the end of bucket g now */
 			size_t b = g ? at[g - 1] : 0;
-			qsort(w + b, at[g] - b, sizeof *w, cmp_srt);
+			tm_qsort(w + b, at[g] - b, sizeof *w, cmp_srt);
 		}
 		free(v);
 		v = w;
 		w = NULL;
 	} else if (ok)
-		qsort(v, n, sizeof *v, cmp_srt);
+		tm_qsort(v, n, sizeof *v, cmp_srt);
 	if (!ok) {
 		free(v);
 		v = NULL;

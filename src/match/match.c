@@ -244,7 +244,7 @@ static int rank_docs(match_index *ix)
 		k[i].len = (uint32_t)len;
 		k[i].e = (uint32_t)i;
 	}
-	qsort(k, n, sizeof *k, cmp_keyref);
+	tm_qsort(k, n, sizeof *k, cmp_keyref);
 	for (size_t r = 0; r < n; r++) {
 		ix->rank[k[r].e] = (uint32_t)r;
 		ix->entry[r] = k[r].e;
@@ -289,7 +289,7 @@ static int sort_by_doc(void **rows, size_t n, size_t size, size_t ndoc,
 	/* start[d] is now the end of document d's rows */
 	for (size_t d = 0, b = 0; d < ndoc; b = start[d++])
 		if (start[d] - b > 1)
-			qsort(to + b * size, start[d] - b, size, cmp);
+			tm_qsort(to + b * size, start[d] - b, size, cmp);
 	free(start);
 	free(*rows);
 	*rows = to;
@@ -774,7 +774,8 @@ int match_find(const match_index *ix, match_work *w, const char *key, size_t kl,
 	}
 	if (rc)
 		return rc;
-	qsort(w->out, k, sizeof *w->out, cmp_cand);
+	if (k > 1)
+		tm_qsort(w->out, k, sizeof *w->out, cmp_cand);
 	k = k < top ? k : top;
 	if (k > w->captop) {
 		size_t cap = w->captop;

@@ -418,7 +418,7 @@ static int cmp_qterm_id(const void *a, const void *b)
 static int query_terms(const termmap *m, u64v *h, qtv *out)
 {
 	out->n = 0;
-	qsort(h->v, h->n, sizeof *h->v, cmp_u64);
+	tm_qsort(h->v, h->n, sizeof *h->v, cmp_u64);
 	for (size_t i = 0; i < h->n;) {
 		size_t e = i;
 		while (e < h->n && h->v[e] == h->v[i])
@@ -432,7 +432,7 @@ static int query_terms(const termmap *m, u64v *h, qtv *out)
 		out->v[out->n++] = (qterm){h->v[i], tmap_find(m, h->v[i]), (uint32_t)(e - i)};
 		i = e;
 	}
-	qsort(out->v, out->n, sizeof *out->v, cmp_qterm_id);
+	tm_qsort(out->v, out->n, sizeof *out->v, cmp_qterm_id);
 	return TM_OK;
 }
 
@@ -586,7 +586,7 @@ int sim_query(const sim_index *x, sim_work *w, const char *q, size_t n,
 	for (size_t i = 0; i < w->qg.n && no < SIM_QUERY_MAX + 8; i++)
 		if (w->qg.v[i].id != UINT32_MAX)
 			ord[no++] = (gorder){x->gdf[w->qg.v[i].id], (uint32_t)i};
-	qsort(ord, no, sizeof *ord, cmp_gorder);
+	tm_qsort(ord, no, sizeof *ord, cmp_gorder);
 
 	size_t work = 0;
 	w->touched.n = 0;
@@ -633,7 +633,7 @@ int sim_query(const sim_index *x, sim_work *w, const char *q, size_t n,
 		if (w->exact[ne].s > 0)
 			ne++;
 	}
-	qsort(w->exact, ne, sizeof *w->exact, cmp_hit);
+	tm_qsort(w->exact, ne, sizeof *w->exact, cmp_hit);
 	for (size_t i = 0; i < ne && i < max; i++)
 		hits[(*nhits)++] = w->exact[i];
 	return TM_OK;

@@ -210,7 +210,7 @@ static void prune_images(const char *dir, const char *keep)
 		memcpy(v[n].name, de->d_name, strlen(de->d_name) + 1);
 		v[n++].mtime = st.st_mtim;
 	}
-	qsort(v, n, sizeof *v, newer_first);
+	tm_qsort(v, n, sizeof *v, newer_first);
 	for (size_t i = LC_KEEP - 1; i < n; i++)
 		(void)unlinkat(dirfd(d), v[i].name, 0);
 	free(v);

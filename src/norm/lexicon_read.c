@@ -577,7 +577,7 @@ int lex_list_dir(const char *dir, lex_file **files, size_t *nfiles, tm_buf *err)
 		if (rc)
 			err_printf(err, "%s: out of memory%s", path, "");
 		else
-			qsort(names, n, sizeof *names, cmp_str);
+			tm_qsort(names, n, sizeof *names, cmp_str);
 		for (i = 0; i < n && rc == 0; i++) {
 			char fpath[4096 + 256];
 			int gk = GK_NONE;

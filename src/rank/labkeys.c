@@ -51,7 +51,7 @@ int labkeys_build(labkeys *lk, const labelset *ls)
 	for (size_t i = 0; i < ls->n; i++)
 		it[i] = (lk_item){ls, (uint32_t)i};
 	if (ls->n > 1)
-		qsort(it, ls->n, sizeof *it, cmp_item);
+		tm_qsort(it, ls->n, sizeof *it, cmp_item);
 	for (size_t i = 0; i < ls->n; i++) {
 		const label *x = &ls->v[it[i].lab];
 		if (lk->n) {

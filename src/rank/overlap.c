@@ -447,7 +447,7 @@ static int cmp_ent_key(const void *p, const void *q)
 static void sort_pools(overlap *ov)
 {
 	for (size_t p = 0; p < ov->pool.n; p++)
-		qsort(ov->pool.e + ov->pool.d[p].start, ov->pool.d[p].end - ov->pool.d[p].start,
+		tm_qsort(ov->pool.e + ov->pool.d[p].start, ov->pool.d[p].end - ov->pool.d[p].start,
 		      sizeof *ov->pool.e, cmp_ent_key);
 }
 
@@ -567,7 +567,7 @@ int overlap_build(overlap **out, tally_mem *m, const overlap_opts *o, tm_buf *er
 			memcpy(&v, ov->occ.d[i].lang, 4);
 			lk[i] = v;
 		}
-		qsort(lk, ov->occ.n, sizeof *lk, cmp_u64);
+		tm_qsort(lk, ov->occ.n, sizeof *lk, cmp_u64);
 		for (size_t i = 0, j; i < ov->occ.n; i = j) {
 			for (j = i; j < ov->occ.n && lk[j] == lk[i]; j++)
 				;
@@ -581,7 +581,7 @@ int overlap_build(overlap **out, tally_mem *m, const overlap_opts *o, tm_buf *er
 	if (join(ov, &ov->occ, &ov->occ, 1, on_pair, &oom, &ov->st.keys_capped) || oom)
 		goto oom;
 	sort_ov = ov;
-	qsort(ov->pairs, ov->np, sizeof *ov->pairs, cmp_pair);
+	tm_qsort(ov->pairs, ov->np, sizeof *ov->pairs, cmp_pair);
 	if (o->groups && groups_any(o->groups)) {
 		size_t no = ov->occ.n + 1, np;
 		if (build_pools(ov, &c.kb))
@@ -711,7 +711,7 @@ int overlap_groups(overlap *ov, overlap_group_fn fn, void *ctx)
 	for (size_t i = 0; i < n; i++)
 		ord[i] = (uint32_t)i;
 	sort_ov = ov;
-	qsort(ord, n, sizeof *ord, cmp_pool);
+	tm_qsort(ord, n, sizeof *ord, cmp_pool);
 	for (size_t i = 0; i < n && !rc; i++) {
 		const dist *g = &ov->pool.d[ord[i]];
 		uint32_t h = ov->gnearest[ord[i]];
@@ -776,7 +776,7 @@ int overlap_occupations(overlap *ov, int only_nearer, uint64_t top, overlap_occ_
 			ord[n++] = (uint32_t)i;
 	sort_ov = ov;
 	if (only_nearer)
-		qsort(ord, n, sizeof *ord, cmp_nearer);
+		tm_qsort(ord, n, sizeof *ord, cmp_nearer);
 	for (size_t i = 0; i < n && (!top || i < top) && !rc; i++) {
 		uint32_t o = ord[i];
 		const dist *d = &ov->occ.d[o];

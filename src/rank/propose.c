@@ -649,7 +649,7 @@ int propose_run(tally_mem *m, const labelset *ls, const propose_bars *b,
 		snprintf(s->id, sizeof s->id, "%016llx", (unsigned long long)tok_hash(j.data, j.len));
 	}
 	if (out->n > 1)
-		qsort(out->v, out->n, sizeof *out->v, cmp_sugg);
+		tm_qsort(out->v, out->n, sizeof *out->v, cmp_sugg);
 	/* strength over the whole run, then the filter: a suggestion's
 	 * strength does not depend on what else is shown */
 	strengths(out->v, out->n);

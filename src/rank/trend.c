@@ -193,7 +193,7 @@ int trend_run(tally_mem *before, tally_mem *after, const labelset *ls, const tre
 		}
 	}
 	if (r == 0 && out->n)
-		qsort(out->v, out->n, sizeof *out->v, row_cmp);
+		tm_qsort(out->v, out->n, sizeof *out->v, row_cmp);
 done:
 	free(sb.t);
 	free(sa.t);

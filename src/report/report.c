@@ -142,7 +142,7 @@ static size_t *weakest(rep *r, size_t *n)
 		if (r->rows[i].postings >= r->o->min_postings && r->rows[i].postings)
 			ix[k++] = i;
 	SORT_REP = r;
-	qsort(ix, k, sizeof *ix, by_weakness);
+	tm_qsort(ix, k, sizeof *ix, by_weakness);
 	*n = k;
 	return ix;
 }

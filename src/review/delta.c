@@ -316,7 +316,7 @@ int dl_export(const rq_queue *q, const dl_opts *o, tm_buf *out, tm_buf *err)
 		say(err, m, NULL, NULL);
 		goto done;
 	}
-	qsort(v, n, sizeof *v, cmp_delta);
+	tm_qsort(v, n, sizeof *v, cmp_delta);
 	if (o->format == DL_TSV ? write_tsv(v, n, out) : write_skos(v, n, nadd, o, out, err)) {
 		if (!err->len)
 			say(err, "out of memory", NULL, NULL);

@@ -447,10 +447,10 @@ int rq_parse(rq_queue *q, const char *text, size_t n, const char *name, tm_buf *
 	}
 	/* unreadable lines in the order they are written back */
 	if (q->nbad > 1)
-		qsort(q->bad, q->nbad, sizeof *q->bad, cmp_bad);
+		tm_qsort(q->bad, q->nbad, sizeof *q->bad, cmp_bad);
 	/* a store hands its items in no order: arrival order is seq */
 	if (q->n > 1)
-		qsort(q->it, q->n, sizeof *q->it, cmp_seq);
+		tm_qsort(q->it, q->n, sizeof *q->it, cmp_seq);
 	for (size_t i = 0; i < q->n; i++) {
 		long k = st_find(q->index, q->it[i].id, strlen(q->it[i].id));
 		q->index->ent[k].count = i + 1;

@@ -114,7 +114,7 @@ int rq_noise_words(const rq_queue *q, const labelset *ls, uint64_t floor,
 			continue;
 		v[nv++] = (nw){s, n, counts.ent[i].count};
 	}
-	qsort(v, nv, sizeof *v, cmp_nw);
+	tm_qsort(v, nv, sizeof *v, cmp_nw);
 	rc = TM_OK;
 	for (size_t i = 0; i < nv && !rc; i++) {
 		size_t n = v[i].kl;
