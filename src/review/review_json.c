@@ -209,6 +209,7 @@ int rqi_set_brief(rq_item *it, const jr_val *ev)
 	rq_brief *b = &it->brief;
 	free(b->rival);
 	free(b->variant_of);
+	free(b->occ_label);
 	memset(b, 0, sizeof *b);
 	b->occ_postings = (uint64_t)jr_vint(jr_get(ev, "occupation_postings"));
 	b->precision = jr_vnum(jr_get(ev, "precision"));
