@@ -12,6 +12,12 @@
 
 enum { EXIT_OK = 0, EXIT_RUNTIME = 1, EXIT_USAGE = 2 };
 
+/* The version (the Makefile's VERSION; this only when built without it,
+ * as the fuzz targets are). */
+#ifndef TM_VERSION
+#define TM_VERSION "0.1.0"
+#endif
+
 /* Writes out to standard output and flushes: 0, or -1 after saying on
  * standard error, as "titlemill CMD: write error: ...", why not. */
 int cli_write_stdout(const char *cmd, const tm_buf *out);

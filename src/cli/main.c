@@ -6,10 +6,6 @@
 #include "cli/cli.h"
 #include "core/msg.h"
 
-#ifndef TM_VERSION
-#define TM_VERSION "0.1.0"
-#endif
-
 static const char usage[] =
 	"usage: titlemill COMMAND [OPTIONS] [FILE...]\n"
 	"\n"

@@ -151,20 +151,22 @@ static void write_file(const char *path, const tm_buf *b)
 static void check_tsv(const char *path, size_t ntaken)
 {
 	static const char *const cols[] = {"occupation", "kind", "lang", "label", "change",
-					   "id", "reviewer", "decided_at", "note", "reason"};
+					   "id", "reviewer", "decided_at", "note", "reason",
+					   "occupation_label"};
+	enum { NCOL = sizeof cols / sizeof *cols };
 	tsv_reader t;
-	int c[10], r;
+	int c[NCOL], r;
 	size_t rows = 0;
 	CHECK(tsv_open(&t, path) == 0);
-	CHECK(t.nhead == 10);
-	for (int k = 0; k < 10; k++)
+	CHECK(t.nhead == NCOL);
+	for (int k = 0; k < NCOL; k++)
 		CHECK((c[k] = tsv_col(&t, cols[k])) == k);
 	while ((r = tsv_next(&t)) == 1) {
-		size_t n[10];
-		const char *f[10];
+		size_t n[NCOL];
+		const char *f[NCOL];
 		rows++;
-		CHECK(!t.over && t.nfield == 10);
-		for (int k = 0; k < 10; k++)
+		CHECK(!t.over && t.nfield == NCOL);
+		for (int k = 0; k < NCOL; k++)
 			f[k] = tsv_field(&t, k, &n[k]);
 		rec *x = NULL;
 		for (size_t i = 0; i < nrec && !x; i++)
