@@ -37,7 +37,7 @@ SRC_core = buf digest lang msg period
 SRC_io = decode reader tsv jsonw jsonr htmlw postings skos record outfile fieldcheck
 SRC_norm = unicode token lexicon lexicon_read lexicon_image lexcache setup title pass_gender pass_contact pass_pay pass_noise pass_place pass_roles \
 	norm facets
-SRC_count = strtab idset tally_mem chunk store load store_redis store_redis_url store_redis_keys store_redis_chunk \
+SRC_count = strtab idset tally_mem series chunk store load store_redis store_redis_url store_redis_keys store_redis_chunk \
 	store_redis_apply store_redis_dump cluster slot
 SRC_rank = stats labels labkeys inputs coverage propose trend groups overlap
 SRC_match = sim match code
@@ -46,7 +46,7 @@ SRC_review = review_item review_json review_change review_batch review_time revi
 	store_redis_queue delta
 SRC_report = chart report
 SRC_cli = options cli_norm cli_tally cli_rank cli_propose cli_match cli_review cli_review_change cli_review_read \
-	cli_review_out cli_report cli_overlap
+	cli_review_out cli_report cli_overlap cli_trend
 DIRS = core io norm count rank match review report cli
 vpath %.c $(DIRS:%=src/%) $(DIRS:%=tests/unit/%)
 HEADERS = $(wildcard src/*/*.h src/*/*.inc)

@@ -7,6 +7,7 @@
 #include "norm/norm.h"
 #include "cli/options.h"
 #include "io/postings.h"
+#include "count/series.h"
 #include "count/tally.h"
 #include "io/record.h"
 
@@ -31,7 +32,14 @@ typedef struct rank_opts {
 	int ids;            /* --ids: 1 exact, 2 local */
 	const char *id_map; /* --id-map FILE, or NULL */
 	int strict;         /* --strict: ids that do not match stop the run */
+	opt_span from, to;  /* --from, --to: a window of periods */
+	int period;         /* the counts by period (PERIOD_NONE: summed);
+			     * set by the command before cli_rank_start */
 } rank_opts;
+
+/* --from and --to in the table of a command whose options struct holds
+ * its rank_opts as m. */
+#define RANK_SPEC_WINDOW(type, m) OPT_SPEC_WINDOW(type, m.from, m.to)
 
 /* --ids, --id-map and --strict, in the table of a command whose options
  * struct holds its rank_opts as m. */
@@ -60,6 +68,11 @@ extern const char *const rank_ids_names[];
 int cli_rank_start(const opt_cmd *cmd, void *o, const rank_opts *ro, int argc, char **argv,
 		   rank_inputs *in, inputs_survey *sv, int *status);
 
+/* Says on standard error what a window of periods left out of s (the
+ * periods partly inside it), and, when no counts are left (any 0), that
+ * it left out everything. */
+void cli_window_note(const char *cmd, const tally_series *s, int any);
+
 /* occupation_label: the preferred label of occ in lang, else its first
  * (labels_pref), as the next value of r; null when it has none. */
 void cli_occupation_label(rec *r, const labelset *ls, const char *occ, size_t ol,
@@ -75,5 +88,6 @@ int cmd_labels(int argc, char **argv);
 int cmd_review(int argc, char **argv);
 int cmd_report(int argc, char **argv);
 int cmd_overlap(int argc, char **argv);
+int cmd_trend(int argc, char **argv);
 
 #endif

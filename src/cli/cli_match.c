@@ -351,7 +351,7 @@ int cmd_match(int argc, char **argv)
 		return EXIT_USAGE;
 	}
 	rank_sources src = {&o.in.setup, o.in.store, o.in.prefix, (char *const *)o.counts.v,
-			    o.counts.n, (size_t)OPT_MEMO_MIB << 20, 0, NULL};
+			    o.counts.n, (size_t)OPT_MEMO_MIB << 20, 0, NULL, PERIOD_NONE, 0, 0, 0};
 	match_conf conf = {o.min_postings};
 	double t0 = now(), t1 = 0, t2 = 0;
 	if (inputs_load(&in, &src, stderr, &err) != 0 ||

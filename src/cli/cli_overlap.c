@@ -54,6 +54,7 @@ static const opt_spec overlap_specs[] = {
 	 "a title held by more than N occupations does not make pairs (it still counts)", NULL, 0},
 	OPT_SPEC_LANG(overlap_cli, in.lang, "only this language"),
 	RANK_SPEC_IDS(overlap_cli, in),
+	RANK_SPEC_WINDOW(overlap_cli, in),
 	OPT_SPEC_STORE(overlap_cli, in.store, OPT_STORE_READ),
 	OPT_SPEC_PREFIX(overlap_cli, in.prefix),
 	OPT_SPEC_LEXICONS(overlap_cli, in.setup),

@@ -33,6 +33,7 @@ static const opt_spec propose_specs[] = {
 	 "only this occupation", NULL, 0},
 	OPT_SPEC_LANG(propose_opts, in.lang, "only this language"),
 	RANK_SPEC_IDS(propose_opts, in),
+	RANK_SPEC_WINDOW(propose_opts, in),
 	PROPOSE_BARS(BAR_SPEC)
 	OPT_SPEC_STORE(propose_opts, in.store, OPT_STORE_READ),
 	OPT_SPEC_PREFIX(propose_opts, in.prefix),

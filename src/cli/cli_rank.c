@@ -29,6 +29,7 @@ static const opt_spec coverage_specs[] = {
 	 "only this occupation", NULL, 0},
 	OPT_SPEC_LANG(coverage_opts, in.lang, "only this language"),
 	RANK_SPEC_IDS(coverage_opts, in),
+	RANK_SPEC_WINDOW(coverage_opts, in),
 	OPT_SPEC_STORE(coverage_opts, in.store, OPT_STORE_READ),
 	OPT_SPEC_PREFIX(coverage_opts, in.prefix),
 	OPT_SPEC_LEXICONS(coverage_opts, in.setup),
@@ -201,7 +202,10 @@ int cli_rank_start(const opt_cmd *cmd, void *o, const rank_opts *ro, int argc, c
 		return 0;
 	}
 	rank_sources src = {&ro->setup, ro->store, ro->prefix, argv + first, argc - first,
-			    (size_t)OPT_MEMO_MIB << 20, ro->ids == 2, ro->id_map};
+			    (size_t)OPT_MEMO_MIB << 20, ro->ids == 2, ro->id_map, ro->period,
+			    0, 0, 0};
+	if ((src.windowed = opt_window(cmd->name, &ro->from, &ro->to, &src.from, &src.to)) < 0)
+		return 0;
 	if (inputs_load(in, &src, stderr, &err) != 0) {
 		fprintf(stderr, "titlemill %s: %.*s\n", cmd->name, (int)err.len,
 			err.data ? err.data : "");
@@ -209,10 +213,34 @@ int cli_rank_start(const opt_cmd *cmd, void *o, const rank_opts *ro, int argc, c
 	} else if (inputs_survey_run(in, ro->occ, ro->lang[0] ? ro->lang : NULL, sv) != 0) {
 		fprintf(stderr, "titlemill %s: out of memory\n", cmd->name);
 		*status = EXIT_RUNTIME;
-	} else
+	} else {
+		if (src.windowed)
+			cli_window_note(cmd->name, &in->s, in->m.occs.n || in->m.keys.n);
 		*status = survey_say(ro, in, sv) ? EXIT_RUNTIME : EXIT_OK;
+	}
 	buf_free(&err);
 	return *status == EXIT_OK;
+}
+
+void cli_window_note(const char *cmd, const tally_series *s, int any)
+{
+	size_t shown = 0;
+	if (s->partial) {
+		fprintf(stderr, "titlemill %s: note: %llu %s only partly inside --from..--to, "
+			"left out:", cmd, (unsigned long long)s->partial,
+			s->partial == 1 ? "period lies" : "periods lie");
+		for (size_t i = 0; i < s->left.n && shown < 3; i++)
+			if (s->left.ent[i].count == 2) {
+				size_t n;
+				const char *k = st_key(&s->left, i, &n);
+				fprintf(stderr, "%s %.*s", shown++ ? "," : "", (int)n, k);
+			}
+		fprintf(stderr, "%s\n", s->partial > shown ? ", ..." : "");
+	}
+	if (!any && (s->dropped || s->partial))
+		fprintf(stderr, "titlemill %s: warning: no counts lie within --from..--to "
+			"(%llu %s outside it)\n", cmd, (unsigned long long)(s->dropped + s->partial),
+			s->dropped + s->partial == 1 ? "period lies" : "periods lie");
 }
 
 int cmd_coverage(int argc, char **argv)

@@ -37,6 +37,7 @@ static const opt_spec report_specs[] = {
 	 "a section for this occupation (repeatable) instead of the weakest", NULL, 0},
 	OPT_SPEC_LANG(report_cli, in.lang, "only this language"),
 	RANK_SPEC_IDS(report_cli, in),
+	RANK_SPEC_WINDOW(report_cli, in),
 	{"sections", OPT_U64, offsetof(report_cli, sections), "N", "10", 0, 10000,
 	 "without --occupation: sections for the N occupations with the lowest coverage", NULL,
 	 0},

@@ -25,6 +25,7 @@ typedef struct tally_opts {
 	double min_score;
 	uint64_t memo_mib, chunk, retries, ttl_days; /* ttl_days: UINT64_MAX: none */
 	uint64_t threads;  /* UINT64_MAX: the online processors */
+	int period;        /* the kind of period the counts are kept by */
 	const char *out, *store, *prefix;
 	setup_opts setup;
 } tally_opts;
@@ -49,6 +50,10 @@ static const opt_spec tally_specs[] = {
 	 0, 1000, "reconnect attempts after a lost connection", NULL, 0},
 	{"format", OPT_CHOICE, offsetof(tally_opts, format), "F", "auto", 0, 0,
 	 "auto ('{' first means JSON Lines), tsv or jsonl", format_names, 0},
+	OPT_SPEC_PERIOD(tally_opts, period,
+			"count each posting in the period of its date: month, week (ISO 8601), "
+			"day, or none (one count of all time); a posting without a date counts "
+			"as undated"),
 	OPT_SPEC_LABELS(tally_opts, setup.labels,
 			"a labels TSV: labels are never cut down when cleaning"),
 	OPT_SPEC_LEXICONS(tally_opts, setup),
@@ -79,7 +84,8 @@ static const opt_spec tally_specs[] = {
 static const opt_cmd tally_cmd = {
 	"tally",
 	"usage: titlemill tally [--store URL [--prefix P] [--chunk N] [--retries N] [--ttl DAYS]]\n"
-	"                       [--format auto|tsv|jsonl] [--labels FILE] [--lexicons DIR]\n"
+	"                       [--format auto|tsv|jsonl] [--period month|week|day|none]\n"
+	"                       [--labels FILE] [--lexicons DIR]\n"
 	"                       [--strict] [--threads N] [--progress|--quiet]\n"
 	"                       [-o FILE] POSTINGS...\n"
 	"\n"
@@ -87,7 +93,8 @@ static const opt_cmd tally_cmd = {
 	"title is used, and writes a counts table (TSV) to standard output or FILE.\n"
 	"POSTINGS are TSV files with a header (title and occupations required; id,\n"
 	"date, lang optional) or JSON Lines with the same fields; '-' reads standard\n"
-	"input.  A posting id counted once is not counted again.\n"
+	"input.  A posting id counted once is not counted again.  With dated postings\n"
+	"the table has a last column, period, and each period its own counts.\n"
 	"\n",
 	tally_specs,
 	NULL,
@@ -95,11 +102,17 @@ static const opt_cmd tally_cmd = {
 
 typedef struct counts_opts {
 	const char *out, *store, *prefix;
+	int period;        /* SERIES_AS_READ when not given */
+	opt_span from, to;
 } counts_opts;
 
 static const opt_spec counts_specs[] = {
 	OPT_SPEC_STORE(counts_opts, store, OPT_STORE_READ),
 	OPT_SPEC_PREFIX(counts_opts, prefix),
+	{"period", OPT_PERIOD, offsetof(counts_opts, period), "P", NULL, 0, 0,
+	 "roll the periods up to months or weeks (from days), or sum them all (none); "
+	 "not given: the periods stay as the tables have them", NULL, 0},
+	OPT_SPEC_WINDOW(counts_opts, from, to),
 	{"output", OPT_STR, offsetof(counts_opts, out), "FILE", NULL, 0, 0,
 	 "write the table to FILE (a file is replaced only when complete; a device or "
 	 "FIFO is written into)", NULL, 'o'},
@@ -108,10 +121,12 @@ static const opt_spec counts_specs[] = {
 
 static const opt_cmd counts_cmd = {
 	"counts",
-	"usage: titlemill counts [--store URL [--prefix P]] [-o FILE] [COUNTS...]\n"
+	"usage: titlemill counts [--store URL [--prefix P]] [--period month|week|day|none]\n"
+	"                        [--from DATE] [--to DATE] [-o FILE] [COUNTS...]\n"
 	"\n"
 	"Reads counts tables (from tally or counts; '-', or none without --store:\n"
-	"standard input) and what a store holds, sums them and prints one counts table.\n"
+	"standard input) and what a store holds, sums them period by period and\n"
+	"prints one counts table.\n"
 	"\n",
 	counts_specs,
 	NULL,
@@ -120,7 +135,7 @@ static const opt_cmd counts_cmd = {
 /* Writes m to standard output (path NULL) or to path by the rules of
  * outfile.h: a regular file replaced atomically, a device or FIFO
  * written into, "-" standard output. */
-static int write_table(tally_mem *m, const char *path, const char *cmd)
+static int write_table(tally_series *s, const char *path, const char *cmd)
 {
 	of_file f;
 	tm_buf err = {0};
@@ -129,7 +144,7 @@ static int write_table(tally_mem *m, const char *path, const char *cmd)
 
 	if (of_open(&f, path ? path : "-", OF_DASH, &err) || !(fp = of_stream(&f, &err)))
 		goto done;
-	if (tm_write(m, fp) != 0) {
+	if (series_write(s, fp, s->seen_kind != PERIOD_NONE) != 0) {
 		buf_reset(&err);
 		buf_puts(&err, f.target ? f.target : "standard output");
 		buf_puts(&err, ": write error: ");
@@ -185,22 +200,26 @@ static int on_hold(void *ctx, const posting *p, const char *name)
 
 /* --code-missing, after the load: each held posting counted under its
  * best match (or as it came), through st.  0, or -1 after saying why. */
-static int code_missing(tally_run *run, const tally_opts *o, const lexicon *lx, tally_mem *m,
-			store *st)
+static int code_missing(tally_run *run, const tally_opts *o, const lexicon *lx,
+			tally_series *s, store *st)
 {
 	tm_buf err = {0};
 	labelset ls;
 	normaliser *nm = norm_new(lx);
+	tally_mem all; /* the coded postings of all periods: what matches learn from */
 	int rc = 0;
 	memset(&ls, 0, sizeof ls);
-	if (!nm || labels_read(&ls, o->setup.labels, nm, stderr, &err) != 0 ||
-	    mc_code(&run->mc, &ls, m, nm, o->min_score, st, &err) != TM_OK) {
+	tm_init(&all);
+	if (!nm || series_merge_all(s, &all) != 0 ||
+	    labels_read(&ls, o->setup.labels, nm, stderr, &err) != 0 ||
+	    mc_code(&run->mc, &ls, &all, nm, o->min_score, st, &err) != TM_OK) {
 		fprintf(stderr, "titlemill tally: --code-missing: %.*s\n", (int)err.len,
 			err.data ? err.data : "out of memory");
 		rc = -1;
 	}
 	labels_free(&ls);
 	norm_free(nm);
+	tm_free(&all);
 	buf_free(&err);
 	return rc;
 }
@@ -282,7 +301,7 @@ int cmd_tally(int argc, char **argv)
 	tally_opts o;
 	store *st = NULL;
 	tm_buf err = {0};
-	tally_mem m;
+	tally_series m;
 	tally_run run;
 	lexicon *lx;
 	int first, rc = EXIT_OK;
@@ -354,7 +373,7 @@ int cmd_tally(int argc, char **argv)
 		}
 	}
 	/* the counts go to the store, or to memory and then the table */
-	tm_init(&m);
+	series_init(&m, o.period);
 	st = o.store ? store_open(o.store, &sconf, &err) : store_mem_open(&m, &err);
 	if (!st) {
 		fprintf(stderr, "titlemill tally: %.*s\n", (int)err.len, err.data ? err.data : "");
@@ -410,13 +429,21 @@ int cmd_tally(int argc, char **argv)
 			(unsigned long long)st->skipped);
 	else if (rc == EXIT_OK) {
 		if (o.stats) {
-			size_t strs = m.forms.arena.len + m.keys.arena.len + m.occs.arena.len +
-				      m.ids.arena.len + m.exkeys.arena.len + m.exarena.len;
-			fprintf(stderr, "titlemill tally: %zu distinct (occupation, language, key), %zu forms, "
-				"%zu (language, key), %zu ids; engine %zu bytes, %.1f bytes per distinct "
-				"(occupation, language, key) beyond the string bytes\n",
-				m.exkeys.n, m.forms.n, m.keys.n, m.ids.n, tm_bytes(&m),
-				m.exkeys.n ? (double)(tm_bytes(&m) - strs) / (double)m.exkeys.n : 0.0);
+			size_t strs = m.ids.arena.len + m.index.arena.len, rows = 0, forms = 0, keys = 0;
+			for (size_t i = 0; i < m.n; i++) {
+				const tally_mem *x = &m.p[i]->m;
+				strs += x->forms.arena.len + x->keys.arena.len + x->occs.arena.len +
+					x->exkeys.arena.len + x->exarena.len;
+				rows += x->exkeys.n;
+				forms += x->forms.n;
+				keys += x->keys.n;
+			}
+			fprintf(stderr, "titlemill tally: %zu distinct (occupation, language, key, period), "
+				"%zu forms, %zu (language, key, period), %zu ids, %zu periods; engine %zu "
+				"bytes, %.1f bytes per distinct (occupation, language, key, period) beyond "
+				"the string bytes\n",
+				rows, forms, keys, m.ids.n, m.n, series_bytes(&m),
+				rows ? (double)(series_bytes(&m) - strs) / (double)rows : 0.0);
 		}
 		rc = write_table(&m, o.out, "tally");
 	}
@@ -428,13 +455,17 @@ int cmd_tally(int argc, char **argv)
 	for (long k = 0; k < run.bl.n && k < 5; k++)
 		fprintf(stderr, "%s %s", k ? ";" : ":", run.bl.first[k]);
 	fprintf(stderr, "%s\n", run.bl.n > 5 ? "; ..." : "");
+	if (!o.store && o.period != PERIOD_NONE && m.undated && rc == EXIT_OK)
+		fprintf(stderr, "titlemill tally: %llu %s without a date, counted as undated (an "
+			"empty period)\n", (unsigned long long)m.undated,
+			plural(m.undated, "posting", "postings"));
 	if (o.code_missing)
 		fprintf(stderr, "titlemill tally: of them without occupations: coded_by_match %llu "
 			"(best match scoring at least %.2f), %llu left without\n",
 			(unsigned long long)run.mc.coded, o.min_score, (unsigned long long)run.mc.uncoded);
 	mc_free(&run.mc);
 	store_close(st);
-	tm_free(&m);
+	series_free(&m);
 	lex_free(lx);
 	buf_free(&err);
 	return rc;
@@ -444,16 +475,22 @@ int cmd_counts(int argc, char **argv)
 {
 	counts_opts o;
 	tm_buf err = {0};
-	tally_mem m;
-	int first, rc = EXIT_OK;
+	tally_series m;
+	long wa, wb;
+	int first, rc = EXIT_OK, win;
 
 	memset(&o, 0, sizeof o);
+	o.period = SERIES_AS_READ;
 	switch (opt_parse(&counts_cmd, &o, argc, argv, &first)) {
 	case OPT_HELP_SHOWN: return EXIT_OK;
 	case OPT_MISUSE: return EXIT_USAGE;
 	}
+	if ((win = opt_window("counts", &o.from, &o.to, &wa, &wb)) < 0)
+		return EXIT_USAGE;
 	store_conf sc = STORE_CONF_INIT(o.prefix);
-	tm_init(&m);
+	series_init(&m, o.period);
+	if (win)
+		series_window(&m, wa, wb);
 	if (o.store) {
 		store *st = store_open(o.store, &sc, &err);
 		if (!st || st->ops->dump(st, &m) != 0) {
@@ -468,20 +505,23 @@ int cmd_counts(int argc, char **argv)
 				"with this store and prefix finishes them\n",
 				(unsigned long long)st->unfinished,
 				plural(st->unfinished, "chunk", "chunks"), st->unfinished == 1 ? "is" : "are");
-		else if (!m.occs.n)
+		else if (!series_any(&m) && !m.dropped && !m.partial)
 			fprintf(stderr, "titlemill counts: the store holds no counts under the "
 				"prefix %s\n", o.prefix ? o.prefix : STORE_PREFIX_DEFAULT);
 		store_close(st);
-	} else if (first >= argc && tm_read(&m, "-", &err) != 0)
+	} else if (first >= argc && series_read(&m, "-", &err) != 0)
 		rc = EXIT_RUNTIME;
 	for (int i = first; i < argc && rc == EXIT_OK; i++)
-		if (tm_read(&m, argv[i], &err) != 0)
+		if (series_read(&m, argv[i], &err) != 0)
 			rc = EXIT_RUNTIME;
 	if (rc != EXIT_OK)
 		fprintf(stderr, "titlemill counts: %.*s\n", (int)err.len, err.data ? err.data : "");
-	else
+	else {
+		if (win)
+			cli_window_note("counts", &m, series_any(&m));
 		rc = write_table(&m, o.out, "counts");
-	tm_free(&m);
+	}
+	series_free(&m);
 	buf_free(&err);
 	return rc;
 }

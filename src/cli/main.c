@@ -22,6 +22,7 @@ static const char usage[] =
 	"  review    the curators' queue: add, list, decide, export suggestions\n"
 	"  report    one HTML page of coverage, labels' shares and suggestions\n"
 	"  overlap   occupations named alike, and those nearer another group\n"
+	"  trend     titles rising and falling between two windows of time\n"
 	"\n"
 	"Run 'titlemill COMMAND --help' for the options of a command.\n";
 
@@ -97,6 +98,8 @@ int main(int argc, char **argv)
 		return cmd_review(argc - 1, argv + 1);
 	if (!strcmp(argv[1], "report"))
 		return cmd_report(argc - 1, argv + 1);
+	if (!strcmp(argv[1], "trend"))
+		return cmd_trend(argc - 1, argv + 1);
 	fprintf(stderr, "titlemill: unknown command '%s'\n%s", argv[1], usage);
 	return EXIT_USAGE;
 }

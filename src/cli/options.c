@@ -1,5 +1,6 @@
 /* options.c - parsing a command line by a table of options. */
 #include <errno.h>
+#include <limits.h>
 #include <getopt.h>
 #include <stdlib.h>
 #include <string.h>
@@ -8,6 +9,7 @@
 #include "core/lang.h"
 #include "core/msg.h"
 #include "cli/options.h"
+#include "core/period.h"
 #include "norm/setup.h"
 #include "count/store.h"
 
@@ -142,6 +144,37 @@ static int take(const opt_cmd *cmd, const opt_spec *s, void *o, const char *arg)
 		l->v[l->n++] = arg;
 		return 0;
 	}
+	case OPT_PERIOD: {
+		int k = period_kind_of(arg);
+		if (k >= 0) {
+			*(int *)at = k;
+			return 0;
+		}
+		fprintf(stderr, "titlemill %s: --%s: want month, week, day or none, not '%s'\n",
+			cmd->name, s->name, arg);
+		return -1;
+	}
+	case OPT_SPAN: {
+		opt_span *sp = (opt_span *)at;
+		const char *dots = strstr(arg, "..");
+		long a, b, c, d;
+		size_t n1 = dots ? (size_t)(dots - arg) : strlen(arg);
+		if (n1 && period_span(arg, n1, &a, &b, NULL) == 0 &&
+		    (!dots || (dots[2] && period_span(dots + 2, strlen(dots + 2), &c, &d, NULL) == 0))) {
+			sp->given = 1;
+			sp->first = a;
+			sp->last = dots ? d : b;
+			if (sp->first <= sp->last)
+				return 0;
+			fprintf(stderr, "titlemill %s: --%s: '%s' ends before it starts\n", cmd->name,
+				s->name, arg);
+			return -1;
+		}
+		fprintf(stderr, "titlemill %s: --%s: want a day (2026-03-01), a week (2026-W09), a "
+			"month (2026-03), a quarter (2026-Q1) or a year (2026)%s, not '%s'\n",
+			cmd->name, s->name, dots || s->lo > 0 ? ", or two joined by .." : "", arg);
+		return -1;
+	}
 	case OPT_PREFIX:
 	case OPT_STORE: {
 		tm_buf err = {0};
@@ -207,4 +240,18 @@ int opt_parse(const opt_cmd *cmd, void *o, int argc, char **argv, int *first)
 	}
 	*first = optind;
 	return OPT_RUN;
+}
+
+int opt_window(const char *cmd, const opt_span *from, const opt_span *to, long *first,
+	       long *last)
+{
+	if (!from->given && !to->given)
+		return 0;
+	*first = from->given ? from->first : LONG_MIN / 2;
+	*last = to->given ? to->last : LONG_MAX / 2;
+	if (*first > *last) {
+		fprintf(stderr, "titlemill %s: --from is after --to: the window holds no day\n", cmd);
+		return -1;
+	}
+	return 1;
 }

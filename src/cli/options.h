@@ -24,6 +24,11 @@
  *               borrowed from argv
  *   OPT_STORE   const char *, a store URL of a scheme the store knows
  *               (store_url_check)
+ *   OPT_PERIOD  int, the kind of period (core/period.h) named by month,
+ *               week, day or none
+ *   OPT_SPAN    opt_span: a stretch of days written as one period form
+ *               (2026-03-01, 2026-W09, 2026-03, 2026-Q1, 2026) or as two
+ *               joined by "..", the first to the last day of both
  * A real number's hi of OPT_UNBOUNDED or more means no upper bound
  * (still finite).  Numbers are parsed strictly: the whole argument, no sign on a whole
  * number, within the range. */
@@ -38,8 +43,14 @@
 
 typedef enum opt_kind {
 	OPT_FLAG, OPT_STR, OPT_U64, OPT_REAL, OPT_LANG, OPT_CHOICE, OPT_LEXDIR, OPT_PREFIX,
-	OPT_STRS, OPT_STORE
+	OPT_STRS, OPT_STORE, OPT_PERIOD, OPT_SPAN
 } opt_kind;
+
+/* A stretch of days (OPT_SPAN): given is 0 when the option was not. */
+typedef struct opt_span {
+	int given;
+	long first, last;
+} opt_span;
 
 /* The values of a repeatable option. */
 #define OPT_STRS_MAX 256
@@ -97,9 +108,25 @@ typedef struct opt_cmd {
 	{"memo", OPT_U64, offsetof(type, m), "MIB", OPT_XSTR(OPT_MEMO_MIB), 0, OPT_MEMO_MAX_MIB, \
 	 "remember the results of recent distinct titles in MIB mebibytes " \
 	 "(0: clean every title afresh)", NULL, 0}
+#define OPT_SPEC_PERIOD(type, m, meaning) \
+	{"period", OPT_PERIOD, offsetof(type, m), "P", "month", 0, 0, meaning, NULL, 0}
+/* --from and --to: a window of periods (any period form; a period counts
+ * when it lies wholly inside) */
+#define OPT_SPEC_WINDOW(type, from, to) \
+	{"from", OPT_SPAN, offsetof(type, from), "DATE", NULL, 0, 0, \
+	 "sum only the periods from the one holding DATE (a day, 2026-W09, 2026-03, " \
+	 "2026-Q1 or 2026: its first day) on", NULL, 0}, \
+	{"to", OPT_SPAN, offsetof(type, to), "DATE", NULL, 0, 0, \
+	 "sum only the periods up to DATE (its last day)", NULL, 0}
 #define OPT_SPEC_END {NULL, OPT_FLAG, 0, NULL, NULL, 0, 0, NULL, NULL, 0}
 
 #define OPT_UNBOUNDED 1e300
+
+/* The window of --from and --to in *first..*last (an open end: the
+ * widest days there are).  0 when neither was given, 1 when a window
+ * applies, -1 after saying on standard error that it is empty. */
+int opt_window(const char *cmd, const opt_span *from, const opt_span *to, long *first,
+	       long *last);
 
 enum { OPT_RUN, OPT_HELP_SHOWN, OPT_MISUSE };
 

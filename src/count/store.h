@@ -18,10 +18,8 @@
  * owns the backend and closes it with store_close; a memory backend
  * borrows the tally_mem it counts into.
  *
- * What comes next fits here: a posting's period travels in its
- * tally_posting (its digest and chunk record then carry it), and a
- * window of periods would be an argument of dump; a chunk handed to
- * commit is the backend's to keep until finish, so a backend may keep
+ * A posting's date travels in its tally_posting: the backend counts it
+ * in its period.  A chunk handed to commit is the backend's to keep until finish, so a backend may keep
  * chunks in flight, and parallel normalisers hand postings to one
  * backend in their input order. */
 #ifndef TM_STORE_H
@@ -32,6 +30,7 @@
 #include "core/buf.h"
 #include "count/chunk.h"
 #include "io/postings.h"
+#include "count/series.h"
 #include "count/tally.h"
 
 typedef struct store store;
@@ -48,10 +47,12 @@ typedef struct store_ops {
 	 * journalled of them: st->settled of them, st->settled_postings
 	 * postings counted now. */
 	int (*finish)(store *st);
-	/* Adds everything the backend holds to m; st->unfinished counts the
-	 * chunks left unfinished (their counts are not all in).  A memory
-	 * backend dumped into the table it counts into changes nothing. */
-	int (*dump)(store *st, tally_mem *m);
+	/* Adds everything the backend holds to s, period by period
+	 * (series_at: s's kind and window decide where each goes);
+	 * st->unfinished counts the chunks left unfinished (their counts are
+	 * not all in).  A memory backend dumped into the series it counts
+	 * into changes nothing. */
+	int (*dump)(store *st, tally_series *s);
 	void (*close)(store *st);
 
 } store_ops;
@@ -115,9 +116,10 @@ store *store_open(const char *url, const store_conf *conf, tm_buf *err);
  * its user-info): for the options, a usage error. */
 int store_url_check(const char *url, tm_buf *err);
 
-/* A memory backend counting into m (initialised, borrowed: it must
- * outlive the backend).  Does not chunk.  NULL when memory ran out. */
-store *store_mem_open(tally_mem *m, tm_buf *err);
+/* A memory backend counting into s (initialised, borrowed: it must
+ * outlive the backend), each posting in its period (series.h).  Does not
+ * chunk.  NULL when memory ran out. */
+store *store_mem_open(tally_series *s, tm_buf *err);
 
 /* Postings per chunk (n >= 1) for a backend that chunks; a backend that
  * counts postings as they come stays so. */

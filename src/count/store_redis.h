@@ -125,6 +125,6 @@ int sr_commit(store *st, const uint64_t digest[2]);
 int sr_finish(store *st);
 
 /* ---- store_redis_dump.c ---- */
-int sr_dump(store *st, tally_mem *m);
+int sr_dump(store *st, tally_series *s);
 
 #endif

@@ -143,7 +143,21 @@ static int dump_key(rstore *r, void *ctx, const char *k, size_t kl)
 	return 0;
 }
 
-int sr_dump(store *st, tally_mem *m)
+/* The store keeps no periods yet: everything it holds is undated. */
+int sr_dump(store *st, tally_series *s)
 {
+	tally_mem *m;
+	int r = series_at(s, "", 0, &m, &st->err);
+	if (r)
+		return -1;
+	if (!m) {
+		/* a window leaves the undated counts out; the journals still
+		 * say whether a load is unfinished */
+		tally_mem none;
+		tm_init(&none);
+		r = scan_keys((rstore *)st, ":*", dump_key, &none) ? -1 : 0;
+		tm_free(&none);
+		return r;
+	}
 	return scan_keys((rstore *)st, ":*", dump_key, m) ? -1 : 0;
 }

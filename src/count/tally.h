@@ -33,6 +33,9 @@
 typedef struct tally_posting {
 	const char *id;  /* NULL: no id, always counted */
 	size_t idlen;
+	const char *date; /* YYYY-MM-DD, checked by the reader; NULL: undated
+			   * (the backend counts it in its period) */
+	size_t datelen;
 	const char *lang; /* primary subtag, "und" when unknown */
 	const char *key, *title, *example;
 	size_t keylen, titlelen, examplelen;
@@ -79,13 +82,34 @@ int tm_add_occ(tally_mem *m, const char *occ, size_t ol, const char *lang, uint6
 int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
 		   const char *key, size_t kl, const char *text, size_t tl);
 
+/* The counts table's header (its columns; a table by period has a last
+ * column, period). */
+#define TM_HEADER "kind\toccupation\tlang\tkey\ttext\tpostings"
+
 /* Writes the counts table (TSV, header first, sorted; see README).
  * Returns 0, or -1 on a write error or when memory ran out. */
 int tm_write(tally_mem *m, FILE *out);
+/* Writes its rows only, each with a last field period[0..pn) when
+ * period is not NULL. */
+int tm_write_rows(tally_mem *m, FILE *out, const char *period, size_t pn);
 
-/* Reads a counts table and adds it to m.  Returns 0, or -1 with a
- * message naming file and line in err. */
+/* Reads a counts table and adds it to m, whatever the periods of its
+ * rows (they are checked).  Returns 0, or -1 with a message naming file
+ * and line in err. */
 int tm_read(tally_mem *m, const char *path, tm_buf *err);
+
+/* Where the rows of one period go: 0 with *m the engine (NULL: the rows
+ * are checked and left out), or -1 with the reason in err (tm_read_routed
+ * adds the file and line).  period is "" (n 0) for a table without a
+ * period column. */
+typedef int (*tm_route)(void *ctx, const char *period, size_t n, tally_mem **m, tm_buf *err);
+/* Reads a counts table, each row into the engine route gives for its
+ * period (asked once for each run of rows of one period). */
+int tm_read_routed(const char *path, tm_route route, void *ctx, tm_buf *err);
+
+/* Adds what src holds to dst (not its posting ids).  Returns 0, -1 when
+ * memory ran out, -2 when the counts would add up past 2^64 - 1. */
+int tm_merge(tally_mem *dst, const tally_mem *src);
 
 /* One (occupation, language, key) with its postings and display title;
  * strings point into the engine. */
@@ -122,6 +146,8 @@ static inline void tally_posting_of(tally_posting *tp, const posting *p,
 	memset(tp, 0, sizeof *tp);
 	tp->id = p->id;
 	tp->idlen = p->idlen;
+	tp->date = p->date;
+	tp->datelen = p->date ? p->datelen : 0;
 	tp->lang = p->lang;
 	tp->key = r->key;
 	tp->keylen = r->key_len;

@@ -7,7 +7,7 @@
 
 #include "core/digest.h"
 #include "io/decode.h"
-#include "count/store.h"
+#include "core/period.h"
 #include "norm/token.h"
 #include "io/tsv.h"
 
@@ -329,7 +329,8 @@ static void field(const char *s, size_t n, int k, const char **f, size_t *fl)
 
 /* kind, occupation, lang, key, text, postings */
 static void row(FILE *out, const char *kind, const char *joined, size_t jn, int nf,
-		const char *text, size_t tl, uint64_t n, int with_n)
+		const char *text, size_t tl, uint64_t n, int with_n, const char *period,
+		size_t pn)
 {
 	const char *f;
 	size_t fl;
@@ -356,10 +357,20 @@ static void row(FILE *out, const char *kind, const char *joined, size_t jn, int 
 	fputc('\t', out);
 	if (with_n)
 		fprintf(out, "%llu", (unsigned long long)n);
+	if (period) {
+		fputc('\t', out);
+		fwrite(period, 1, pn, out);
+	}
 	fputc('\n', out);
 }
 
 int tm_write(tally_mem *m, FILE *out)
+{
+	fputs(TM_HEADER "\n", out);
+	return tm_write_rows(m, out, NULL, 0);
+}
+
+int tm_write_rows(tally_mem *m, FILE *out, const char *period, size_t pn)
 {
 	srt *occ = sorted(&m->occs), *form = sorted(&m->forms), *ex = sorted(&m->exkeys),
 	    *key = sorted(&m->keys);
@@ -370,7 +381,6 @@ int tm_write(tally_mem *m, FILE *out)
 		rc = -1;
 		goto done;
 	}
-	fputs("kind\toccupation\tlang\tkey\ttext\tpostings\n", out);
 	/* occupation rows, each followed by its titles, forms and examples */
 	while (io < m->occs.n || jf < m->forms.n) {
 		const srt *o = io < m->occs.n ? &occ[io] : NULL;
@@ -382,7 +392,7 @@ int tm_write(tally_mem *m, FILE *out)
 		} else
 			c = o ? -1 : 1;
 		if (c <= 0 && o) {
-			row(out, "occupation", o->s, o->n, 2, "", 0, m->occs.ent[o->i].count, 1);
+			row(out, "occupation", o->s, o->n, 2, "", 0, m->occs.ent[o->i].count, 1, period, pn);
 			io++;
 			if (c < 0)
 				continue;
@@ -405,11 +415,11 @@ int tm_write(tally_mem *m, FILE *out)
 			const char *t;
 			size_t tl;
 			field(form[best].s, form[best].n, 3, &t, &tl);
-			row(out, "title", form[jf].s, tp, 3, t, tl, sum, 1);
+			row(out, "title", form[jf].s, tp, 3, t, tl, sum, 1, period, pn);
 			for (size_t q = jf; q < end; q++) {
 				field(form[q].s, form[q].n, 3, &t, &tl);
 				row(out, "form", form[q].s, tp, 3, t, tl,
-				    m->forms.ent[form[q].i].count, 1);
+				    m->forms.ent[form[q].i].count, 1, period, pn);
 			}
 			/* its examples, in byte order */
 			while (je < m->exkeys.n && cmp_srt(&ex[je], &(srt){form[jf].s, tp, 0}) < 0)
@@ -429,14 +439,14 @@ int tm_write(tally_mem *m, FILE *out)
 					}
 				for (int a = 0; a < e->n; a++)
 					row(out, "example", form[jf].s, tp, 3,
-					    m->exarena.data + e->off[ord[a]], e->len[ord[a]], 0, 0);
+					    m->exarena.data + e->off[ord[a]], e->len[ord[a]], 0, 0, period, pn);
 				je++;
 			}
 			jf = end;
 		}
 	}
 	for (size_t k = 0; k < m->keys.n; k++)
-		row(out, "key", key[k].s, key[k].n, 2, "", 0, m->keys.ent[key[k].i].count, 1);
+		row(out, "key", key[k].s, key[k].n, 2, "", 0, m->keys.ent[key[k].i].count, 1, period, pn);
 	if (ferror(out))
 		rc = -1;
 done:
@@ -491,10 +501,34 @@ static int bad(tm_buf *err, const char *name, long line, const char *what)
 	return -1;
 }
 
+/* A table without routes: every period into one engine, the labels
+ * checked all the same. */
+static int route_one(void *ctx, const char *period, size_t n, tally_mem **m, tm_buf *err)
+{
+	long a, b;
+	int kind;
+	if (n && (period_span(period, n, &a, &b, &kind) != 0 || kind == PERIOD_QUARTER ||
+		  kind == PERIOD_YEAR)) {
+		buf_reset(err);
+		buf_puts(err, "bad period (want a day 2026-03-01, a week 2026-W09, a month 2026-03, or empty)");
+		return -1;
+	}
+	*m = ctx;
+	return 0;
+}
+
 int tm_read(tally_mem *m, const char *path, tm_buf *err)
 {
+	return tm_read_routed(path, route_one, m, err);
+}
+
+int tm_read_routed(const char *path, tm_route route, void *ctx, tm_buf *err)
+{
 	tsv_reader t;
-	int ck, co, cl, cy, ct, cp, r;
+	int ck, co, cl, cy, ct, cp, cd, r;
+	tally_mem *m = NULL;
+	char last[PERIOD_MAX + 1];
+	size_t lastn = (size_t)-1;
 
 	if (tsv_open(&t, path) != 0) {
 		buf_reset(err);
@@ -508,6 +542,7 @@ int tm_read(tally_mem *m, const char *path, tm_buf *err)
 	cy = tsv_col(&t, "key");
 	ct = tsv_col(&t, "text");
 	cp = tsv_col(&t, "postings");
+	cd = tsv_col(&t, "period");
 	if (ck < 0 || co < 0 || cl < 0 || cy < 0 || ct < 0 || cp < 0) {
 		r = bad(err, t.lr.name, 1,
 			"not a counts table: want the columns kind, occupation, lang, key, text, postings");
@@ -542,6 +577,27 @@ int tm_read(tally_mem *m, const char *path, tm_buf *err)
 		}
 		memcpy(lang, l, ln);
 		lang[ln] = 0;
+		{
+			size_t dn = 0;
+			const char *d = cd >= 0 ? tsv_field(&t, cd, &dn) : "";
+			if (dn != lastn || memcmp(d, last, dn)) {
+				if (dn > PERIOD_MAX) {
+					r = bad(err, t.lr.name, line, "bad period (want a day 2026-03-01, "
+						"a week 2026-W09, a month 2026-03, or empty)");
+					break;
+				}
+				buf_reset(err);
+				if (route(ctx, d, dn, &m, err) != 0) {
+					char why[300];
+					snprintf(why, sizeof why, "%.*s", (int)err->len,
+						 err->data ? err->data : "out of memory");
+					r = bad(err, t.lr.name, line, why);
+					break;
+				}
+				memcpy(last, d, dn);
+				lastn = dn;
+			}
+		}
 		if (!clean_field(o, on) || !clean_field(y, yn) || !clean_field(x, tn)) {
 			r = bad(err, t.lr.name, line, "a field holds a control character or invalid UTF-8");
 			break;
@@ -552,7 +608,9 @@ int tm_read(tally_mem *m, const char *path, tm_buf *err)
 							       : "postings is not a whole number");
 			break;
 		}
-		if (IS("occupation"))
+		if (!m && (IS("occupation") || IS("key") || IS("form") || IS("example") || IS("title")))
+			rc = 0; /* a period the caller leaves out: checked, not counted */
+		else if (IS("occupation"))
 			rc = on ? tm_add_occ(m, o, on, lang, n) : bad(err, t.lr.name, line, "no occupation");
 		else if (IS("key"))
 			rc = tm_add_key(m, lang, y, yn, n);
@@ -669,42 +727,6 @@ uint64_t tm_key_postings(tally_mem *m, const char *lang, const char *key, size_t
 	return i < 0 ? 0 : m->keys.ent[i].count;
 }
 
-/* ---- the memory backend (store.h) ---- */
-
-typedef struct mstore {
-	store base;
-	tally_mem *m;
-} mstore;
-
-static int m_add(store *st, const tally_posting *p)
-{
-	int r = tm_add(((mstore *)st)->m, p);
-	if (r < 0) {
-		buf_reset(&st->err);
-		buf_puts(&st->err, "out of memory");
-		return -1;
-	}
-	if (r == 1)
-		st->republished++;
-	else
-		st->counted++;
-	return 0;
-}
-
-/* Counted as they came: no chunks (store_mem_open chunks by 0). */
-static int m_commit(store *st, const uint64_t digest[2])
-{
-	(void)st;
-	(void)digest;
-	return 0;
-}
-
-static int m_finish(store *st)
-{
-	(void)st;
-	return 0;
-}
-
 /* The language field of a joined key, NUL-terminated in lang. */
 static void lang_of(const char *k, size_t n, char lang[8])
 {
@@ -715,8 +737,7 @@ static void lang_of(const char *k, size_t n, char lang[8])
 	memcpy(lang, f, fl < 7 ? fl : 7);
 }
 
-/* Adds what src holds to dst (not its posting ids). */
-static int merge(tally_mem *dst, const tally_mem *src)
+int tm_merge(tally_mem *dst, const tally_mem *src)
 {
 	char lang[8];
 	const char *f, *f2, *f3;
@@ -756,35 +777,4 @@ static int merge(tally_mem *dst, const tally_mem *src)
 					   e->len[q]);
 	}
 	return r;
-}
-
-static int m_dump(store *st, tally_mem *out)
-{
-	tally_mem *m = ((mstore *)st)->m;
-	int r = out == m ? 0 : merge(out, m);
-	if (r) {
-		buf_reset(&st->err);
-		buf_puts(&st->err, r == -2 ? "the counts add up past 2^64 - 1" : "out of memory");
-		return -1;
-	}
-	return 0;
-}
-
-static void m_close(store *st)
-{
-	free(st);
-}
-
-static const store_ops mem_ops = {m_add, m_commit, m_finish, m_dump, m_close};
-
-store *store_mem_open(tally_mem *m, tm_buf *err)
-{
-	mstore *s = calloc(1, sizeof *s);
-	if (!s) {
-		buf_puts(err, "out of memory");
-		return NULL;
-	}
-	store_base_init(&s->base, &mem_ops, 0);
-	s->m = m;
-	return &s->base;
 }

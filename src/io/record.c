@@ -147,6 +147,12 @@ void rec_true(rec *r)
 		chk(r, buf_puts(r->out, "true"));
 }
 
+void rec_bool(rec *r, int v)
+{
+	if (start(r))
+		chk(r, buf_puts(r->out, v ? "true" : "false"));
+}
+
 void rec_omit(rec *r)
 {
 	const rec_field *f = &r->fields[r->next];

@@ -73,6 +73,7 @@ void rec_num(rec *r, double v);        /* "%.4f" */
 void rec_null(rec *r);
 void rec_omit(rec *r);                 /* fields only */
 void rec_true(rec *r);                 /* JSON true (for flags written only when set) */
+void rec_bool(rec *r, int v);          /* true or false, in both formats */
 
 /* A list: items are values (or objects / cells) up to rec_list_end. */
 void rec_list_begin(rec *r, const char *tsv_sep);

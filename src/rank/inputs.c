@@ -88,8 +88,8 @@ static void set_err(tm_buf *err, const tm_buf *from)
 	buf_append(err, from->data ? from->data : "", from->len);
 }
 
-/* Adds the postings of path to m, cleaned by nm. */
-static int count_postings(tally_mem *m, normaliser *nm, const char *path, FILE *warn,
+/* Adds the postings of path to s, cleaned by nm. */
+static int count_postings(tally_series *s, normaliser *nm, const char *path, FILE *warn,
 			  tm_buf *err)
 {
 	postings_reader pr;
@@ -117,8 +117,18 @@ static int count_postings(tally_mem *m, normaliser *nm, const char *path, FILE *
 		if (norm_title(nm, p.title, p.titlelen, strcmp(p.lang, "und") ? p.lang : NULL, &res))
 			goto oom;
 		tally_posting_of(&tp, &p, &res);
-		if (tm_add(m, &tp) < 0)
+		int ar = series_add(s, &tp, err);
+		if (ar == -1)
 			goto oom;
+		if (ar == -2) {
+			char why[300];
+			snprintf(why, sizeof why, "%s:%ld: %.*s", pr.lr.name, p.line, (int)err->len,
+				 err->data ? err->data : "");
+			buf_reset(err);
+			buf_puts(err, why);
+			pr_close(&pr);
+			return -1;
+		}
 	}
 	if (r < 0) {
 		set_err(err, &pr.err);
@@ -142,6 +152,9 @@ int inputs_load(rank_inputs *in, const rank_sources *src, FILE *warn, tm_buf *er
 {
 	memset(in, 0, sizeof *in);
 	tm_init(&in->m);
+	series_init(&in->s, src->period);
+	if (src->windowed)
+		series_window(&in->s, src->from, src->to);
 	if (!(in->lx = setup_lexicon(src->setup, err)))
 		return -1;
 	in->nm = norm_new(in->lx);
@@ -161,7 +174,7 @@ int inputs_load(rank_inputs *in, const rank_sources *src, FILE *warn, tm_buf *er
 		store_conf sc = STORE_CONF_INIT(src->prefix);
 		store *st = store_open(src->store_url, &sc, err);
 		int rc = 0;
-		if (!st || st->ops->dump(st, &in->m) != 0) {
+		if (!st || st->ops->dump(st, &in->s) != 0) {
 			if (st)
 				set_err(err, &st->err);
 			rc = -1;
@@ -172,9 +185,24 @@ int inputs_load(rank_inputs *in, const rank_sources *src, FILE *warn, tm_buf *er
 	}
 	for (int i = 0; i < src->npaths; i++) {
 		int c = is_counts(src->paths[i], err);
-		if (c < 0 || (c ? tm_read(&in->m, src->paths[i], err)
-				: count_postings(&in->m, in->nm, src->paths[i], warn, err)) != 0)
+		if (c < 0 || (c ? series_read(&in->s, src->paths[i], err)
+				: count_postings(&in->s, in->nm, src->paths[i], warn, err)) != 0)
 			return -1;
+	}
+	if (src->period == PERIOD_NONE) {
+		tally_mem *all = series_all(&in->s);
+		if (!all) {
+			buf_reset(err);
+			buf_puts(err, "out of memory");
+			return -1;
+		}
+		tm_free(&in->m);
+		in->m = *all; /* moved: the series keeps an empty engine */
+		tm_init(all);
+	} else if (series_merge_all(&in->s, &in->m) != 0) {
+		buf_reset(err);
+		buf_puts(err, "out of memory, or the counts add up past 2^64 - 1");
+		return -1;
 	}
 	if (src->ids_local) {
 		if (tm_each_triple(&in->m, add_code, &in->map) != 0) {
@@ -295,6 +323,7 @@ void inputs_free(rank_inputs *in)
 	labels_free(&in->ls);
 	labels_idmap_free(&in->map);
 	tm_free(&in->m);
+	series_free(&in->s);
 	norm_free(in->nm);
 	lex_free(in->lx);
 	memset(in, 0, sizeof *in);

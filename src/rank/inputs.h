@@ -13,6 +13,7 @@
 #include "norm/lexicon.h"
 #include "norm/norm.h"
 #include "norm/setup.h"
+#include "count/series.h"
 #include "count/store.h"
 #include "count/tally.h"
 
@@ -20,7 +21,10 @@ typedef struct rank_inputs {
 	lexicon *lx;
 	normaliser *nm;
 	labelset ls;
-	tally_mem m;
+	tally_mem m;        /* the counts of every period read (in the window) */
+	tally_series s;     /* by period (src->period); with PERIOD_NONE its one
+			     * engine has moved to m and it holds only what the
+			     * window left out */
 	labels_idmap map;
 } rank_inputs;
 
@@ -34,6 +38,10 @@ typedef struct rank_sources {
 	size_t memo_bytes;        /* the normaliser's memory of recent titles */
 	int ids_local;            /* match the labels' ids on local names */
 	const char *id_map;       /* a map from codes to concepts, or NULL */
+	int period;               /* PERIOD_NONE (0): all periods summed into m;
+				   * else also kept by period in s (series.h) */
+	int windowed;             /* only the periods wholly within from..to */
+	long from, to;
 } rank_sources;
 
 /* Loads the labels, the store's counts, then each path (a counts table

@@ -96,7 +96,7 @@ static void fresh_prefix(char *pfx, size_t n)
 }
 
 /* Opens backend b (counting into m when it is memory). */
-static store *open_backend(const backend *b, const char *prefix, tally_mem *m)
+static store *open_backend(const backend *b, const char *prefix, tally_series *m)
 {
 	tm_buf err = {0};
 	store_conf conf = {prefix, 2, 5000, 0};
@@ -145,10 +145,34 @@ static char *table(tally_mem *m, size_t *len)
 	return s;
 }
 
-static void assert_same_table(tally_mem *a, tally_mem *b, const char *what)
+/* The same of a series summed over its periods. */
+static char *series_table(tally_series *m, size_t *len)
+{
+	char *s = NULL;
+	FILE *fp = open_memstream(&s, len);
+	assert_non_null(fp);
+	assert_int_equal(series_write(m, fp, 0), 0);
+	fclose(fp);
+	return s;
+}
+
+static void reference_series(tally_series *ref, const row *r, size_t n)
+{
+	tm_buf err = {0};
+	for (size_t i = 0; i < n; i++) {
+		posting p;
+		tally_posting tp;
+		size_t ol[2];
+		make_posting(&r[i], &p, &tp, ol);
+		assert_true(series_add(ref, &tp, &err) >= 0);
+	}
+	buf_free(&err);
+}
+
+static void assert_same_table(tally_mem *a, tally_series *b, const char *what)
 {
 	size_t la, lb;
-	char *ta = table(a, &la), *tb = table(b, &lb);
+	char *ta = table(a, &la), *tb = series_table(b, &lb);
 	if (la != lb || memcmp(ta, tb, la))
 		fprintf(stderr, "%s: tables differ\n--- want\n%s--- got\n%s", what, ta, tb);
 	assert_int_equal(la, lb);
@@ -165,13 +189,14 @@ static void check_run(const backend *b, const row *pre, size_t npre, const row *
 		      long chunk, uint64_t *counted, uint64_t *repub, uint64_t *skipped)
 {
 	char pfx[64], what[160];
-	tally_mem m, got, ref;
-	tm_init(&m);
-	tm_init(&got);
+	tally_series m, got;
+	tally_mem ref;
+	series_init(&m, PERIOD_NONE);
+	series_init(&got, PERIOD_NONE);
 	tm_init(&ref);
 	reference(&ref, pre, npre);
 	reference(&ref, r, n);
-	reference(&got, pre, npre);
+	reference_series(&got, pre, npre);
 	fresh_prefix(pfx, sizeof pfx);
 	store *st = open_backend(b, pfx, &m);
 	store_set_chunk(st, chunk);
@@ -191,14 +216,16 @@ static void check_run(const backend *b, const row *pre, size_t npre, const row *
 	if (!npre) {
 		const char *ex[TALLY_EXAMPLES];
 		size_t exl[TALLY_EXAMPLES];
-		assert_int_equal(tm_occ_postings(&got, "occ:5120", 8, "de"), 6);
-		assert_int_equal(tm_occ_postings(&got, "occ:9412", 8, "de"), 1);
-		assert_int_equal(tm_key_postings(&got, "de", "koch", 4), 5);
-		assert_int_equal(tm_examples(&got, "occ:5120", 8, "de", "koch", 4, ex, exl), 3);
+		tally_mem *all = series_all(&got);
+		assert_non_null(all);
+		assert_int_equal(tm_occ_postings(all, "occ:5120", 8, "de"), 6);
+		assert_int_equal(tm_occ_postings(all, "occ:9412", 8, "de"), 1);
+		assert_int_equal(tm_key_postings(all, "de", "koch", 4), 5);
+		assert_int_equal(tm_examples(all, "occ:5120", 8, "de", "koch", 4, ex, exl), 3);
 	}
 	store_close(st);
-	tm_free(&m);
-	tm_free(&got);
+	series_free(&m);
+	series_free(&got);
 	tm_free(&ref);
 }
 
@@ -253,9 +280,9 @@ static void test_input_twice(void **state)
 	reference(&ref, rows, NROWS);
 	for (size_t b = 0; b < nbackends; b++) {
 		char pfx[64];
-		tally_mem m, got;
-		tm_init(&m);
-		tm_init(&got);
+		tally_series m, got;
+		series_init(&m, PERIOD_NONE);
+		series_init(&got, PERIOD_NONE);
 		fresh_prefix(pfx, sizeof pfx);
 		store *st = open_backend(&backends[b], pfx, &m);
 		store_set_chunk(st, 4);
@@ -268,8 +295,8 @@ static void test_input_twice(void **state)
 		assert_int_equal(st->ops->dump(st, &got), 0);
 		assert_same_table(&ref, &got, backends[b].name);
 		store_close(st);
-		tm_free(&m);
-		tm_free(&got);
+		series_free(&m);
+		series_free(&got);
 	}
 	tm_free(&ref);
 }
@@ -288,9 +315,9 @@ static void test_reload_counts_once(void **state)
 			continue; /* memory starts empty every run */
 		fresh_prefix(pfx, sizeof pfx);
 		for (int run = 0; run < 2; run++) {
-			tally_mem none, got;
-			tm_init(&none);
-			tm_init(&got);
+			tally_series none, got;
+			series_init(&none, PERIOD_NONE);
+			series_init(&got, PERIOD_NONE);
 			store *st = open_backend(&backends[b], pfx, &none);
 			store_set_chunk(st, 3);
 			feed(st, rows, NROWS, "postings.tsv");
@@ -300,8 +327,8 @@ static void test_reload_counts_once(void **state)
 			assert_int_equal(st->ops->dump(st, &got), 0);
 			assert_same_table(&ref, &got, backends[b].name);
 			store_close(st);
-			tm_free(&none);
-			tm_free(&got);
+			series_free(&none);
+			series_free(&got);
 		}
 	}
 	tm_free(&ref);

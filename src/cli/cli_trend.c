@@ -1,0 +1,395 @@
+/* cli_trend.c - titlemill trend: the titles whose share of their
+ * occupation's postings rose or fell between two windows of time, as
+ * JSON Lines (or TSV).  The test and its bars are in rank/trend.h. */
+#include <stddef.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <time.h>
+
+#include "cli/cli.h"
+#include "cli/options.h"
+#include "core/period.h"
+#include "count/series.h"
+#include "io/record.h"
+#include "rank/inputs.h"
+#include "rank/trend.h"
+
+/* The periods the default window "before" holds: the ones just before
+ * the latest complete period. */
+#define TREND_BEFORE_PERIODS 3
+
+typedef struct trend_opts {
+	rank_opts in;
+	int tsv;
+	opt_span before, after, as_of;
+	uint64_t top;      /* UINT64_MAX: all */
+	int direction;     /* 1 + the index in trend_direction_names, 0 both */
+	trend_bars bar;
+} trend_opts;
+
+#define BAR_SPEC(type, kind, m, opt, arg, def, lo, hi, meaning) \
+	{opt, kind, offsetof(trend_opts, bar.m), arg, OPT_XSTR(def), lo, hi, meaning, NULL, 0},
+
+static const char *const direction_names[] = {"rising", "falling", NULL};
+
+static const opt_spec trend_specs[] = {
+	OPT_SPEC_LABELS(trend_opts, in.setup.labels,
+			"the taxonomy's labels: TSV (occupation, kind, lang, label) or SKOS"),
+	{"before", OPT_SPAN, offsetof(trend_opts, before), "FROM..TO", NULL, 1, 0,
+	 "the earlier window (any period forms: 2026-01..2026-02, 2025-Q4, 2026-W01..2026-W04); "
+	 "not given: the " OPT_XSTR(TREND_BEFORE_PERIODS) " periods before the later window",
+	 NULL, 0},
+	{"after", OPT_SPAN, offsetof(trend_opts, after), "FROM..TO", NULL, 1, 0,
+	 "the later window; not given: the latest complete period (one that ended before "
+	 "--as-of)", NULL, 0},
+	{"as-of", OPT_SPAN, offsetof(trend_opts, as_of), "DATE", NULL, 0, 0,
+	 "the day the latest complete period ended before (not given: today, UTC)", NULL, 0},
+	{"period", OPT_PERIOD, offsetof(trend_opts, in.period), "P", NULL, 0, 0,
+	 "count postings files by month (the default), week or day, or roll counts tables "
+	 "by day up to weeks or months; not given: the tables' periods as they are", NULL, 0},
+	{"tsv", OPT_FLAG, offsetof(trend_opts, tsv), NULL, NULL, 0, 0,
+	 "a table instead of JSON Lines", NULL, 0},
+	{"top", OPT_U64, offsetof(trend_opts, top), "N", NULL, 0, 1.8e19,
+	 "at most N titles of each direction", NULL, 0},
+	{"direction", OPT_CHOICE, offsetof(trend_opts, direction), "D", NULL, 0, 0,
+	 "only rising or only falling titles", direction_names, 0},
+	{"occupation", OPT_STR, offsetof(trend_opts, in.occ), "ID", NULL, 0, 0,
+	 "only this occupation", NULL, 0},
+	OPT_SPEC_LANG(trend_opts, in.lang, "only this language"),
+	RANK_SPEC_IDS(trend_opts, in),
+	TREND_BARS(BAR_SPEC)
+	OPT_SPEC_STORE(trend_opts, in.store, OPT_STORE_READ),
+	OPT_SPEC_PREFIX(trend_opts, in.prefix),
+	OPT_SPEC_LEXICONS(trend_opts, in.setup),
+	OPT_SPEC_END,
+};
+
+static const opt_cmd trend_cmd = {
+	"trend",
+	"usage: titlemill trend --labels FILE [--before FROM..TO] [--after FROM..TO]\n"
+	"                       [--as-of DATE] [--period P] [--tsv] [--top N]\n"
+	"                       [--direction rising|falling] [--occupation ID] [--lang L]\n"
+	"                       [thresholds] (COUNTS|POSTINGS...|-|--store URL [--prefix P])\n"
+	"\n"
+	"Compares two windows of time occupation by occupation and language by\n"
+	"language, and reports the titles whose share of the occupation's postings\n"
+	"changed beyond chance (Dunning's G2 on the 2x2 table, shares with Wilson\n"
+	"intervals): rising (titles never seen before included) and falling (labels\n"
+	"that vanished included), each ranked by G2.  By default the latest complete\n"
+	"period is compared with the " OPT_XSTR(TREND_BEFORE_PERIODS) " before it.  The counts need periods:\n"
+	"tally them with dated postings.  These are suggestions for a curator, who\n"
+	"decides; 'titlemill review add' takes them (rising_title, fading_label).\n"
+	"\n",
+	trend_specs,
+	NULL,
+};
+
+static const rec_field trend_fields[] = {
+	{"direction", REC_BOTH}, {"occupation", REC_BOTH}, {"occupation_label", REC_BOTH},
+	{"lang", REC_BOTH}, {"label", REC_BOTH}, {"key", REC_BOTH}, {"is_label", REC_BOTH},
+	{"label_kind", REC_BOTH}, {"postings_before", REC_BOTH}, {"postings_after", REC_BOTH},
+	{"occupation_postings_before", REC_BOTH}, {"occupation_postings_after", REC_BOTH},
+	{"share_before", REC_BOTH}, {"share_before_low", REC_BOTH},
+	{"share_before_high", REC_BOTH}, {"share_after", REC_BOTH},
+	{"share_after_low", REC_BOTH}, {"share_after_high", REC_BOTH}, {"g2", REC_BOTH},
+	{"first_seen", REC_BOTH}, {"before", REC_BOTH}, {"after", REC_BOTH},
+	/* JSON: an array; TSV: one column each (raw titles hold any separator) */
+	{"examples", REC_JSON}, {"example_1", REC_TSV}, {"example_2", REC_TSV},
+	{"example_3", REC_TSV}, {NULL, 0},
+};
+
+_Static_assert(TALLY_EXAMPLES == 3, "trend --tsv has one column per example");
+
+/* The first day of the period of kind holding day z. */
+static long period_start(int kind, long z)
+{
+	char l[PERIOD_MAX];
+	long a, b;
+	size_t n = period_label(kind, z, l);
+	period_span(l, n, &a, &b, NULL);
+	return a;
+}
+
+/* A window as text: the labels of its first and last periods of kind
+ * when it is made of whole ones, else its first and last days. */
+static void window_text(int kind, long a, long b, char *out, size_t cap)
+{
+	char x[PERIOD_MAX], y[PERIOD_MAX];
+	long s1, e1, s2, e2;
+	size_t n1, n2;
+	if (kind != PERIOD_DAY && kind != PERIOD_WEEK && kind != PERIOD_MONTH)
+		kind = PERIOD_DAY;
+	n1 = period_label(kind, a, x);
+	n2 = period_label(kind, b, y);
+	period_span(x, n1, &s1, &e1, NULL);
+	period_span(y, n2, &s2, &e2, NULL);
+	if (s1 != a || e2 != b) {
+		period_label(PERIOD_DAY, a, x);
+		period_label(PERIOD_DAY, b, y);
+	}
+	if (!strcmp(x, y))
+		snprintf(out, cap, "%s", x);
+	else
+		snprintf(out, cap, "%s..%s", x, y);
+}
+
+/* The first period each wanted (occupation, language, key) was counted
+ * in: the periods walked in time order. */
+typedef struct first_seen {
+	strtab want;          /* occ 1F lang 1F key -> index into label */
+	const char **label;   /* NULL while not seen */
+} first_seen;
+
+static int first_seen_run(first_seen *fs, tally_series *s, const trend_list *l)
+{
+	size_t np;
+	series_period **v;
+	tm_buf k = {0};
+	int rc = 0;
+
+	for (size_t i = 0; i < l->n && !rc; i++) {
+		const trend_row *r = &l->v[i];
+		buf_reset(&k);
+		buf_append(&k, r->occ, r->ol);
+		buf_putc(&k, '\x1F');
+		buf_puts(&k, r->lang);
+		buf_putc(&k, '\x1F');
+		buf_append(&k, r->key, r->kl);
+		if (buf_status(&k) || st_add(&fs->want, k.data, k.len, 0, NULL) < 0)
+			rc = -1;
+	}
+	buf_free(&k);
+	if (rc || !(fs->label = calloc(fs->want.n ? fs->want.n : 1, sizeof *fs->label)))
+		return -1;
+	if (!(v = series_sorted(s, &np)))
+		return s->n ? -1 : 0;
+	for (size_t p = 0; p < np; p++) {
+		const strtab *f = &v[p]->m.forms;
+		if (!v[p]->len)
+			continue; /* undated: no time */
+		for (size_t i = 0; i < f->n; i++) {
+			size_t n, cut = 0, seps = 0;
+			const char *key = st_key(f, i, &n);
+			while (cut < n && (key[cut] != '\x1F' || ++seps < 3))
+				cut++;
+			long at = st_find(&fs->want, key, cut);
+			if (at >= 0 && !fs->label[at])
+				fs->label[at] = v[p]->label;
+		}
+	}
+	free(v);
+	return 0;
+}
+
+static const char *first_seen_of(const first_seen *fs, const trend_row *r, tm_buf *k)
+{
+	buf_reset(k);
+	buf_append(k, r->occ, r->ol);
+	buf_putc(k, '\x1F');
+	buf_puts(k, r->lang);
+	buf_putc(k, '\x1F');
+	buf_append(k, r->key, r->kl);
+	long at = buf_status(k) ? -1 : st_find(&fs->want, k->data, k->len);
+	return at >= 0 ? fs->label[at] : NULL;
+}
+
+typedef struct trend_out {
+	rec r;
+	const labelset *ls;
+	tally_mem *before, *after;
+	first_seen fs;
+	char wb[64], wa[64];
+	tm_buf k;
+} trend_out;
+
+static void write_row(trend_out *o, const trend_row *t)
+{
+	rec *r = &o->r;
+	const char *ex[TALLY_EXAMPLES];
+	size_t exl[TALLY_EXAMPLES];
+	tally_mem *strong = t->direction == TREND_RISING ? o->after : o->before;
+	int nex = tm_examples(strong, t->occ, t->ol, t->lang, t->key, t->kl, ex, exl);
+	const char *first = first_seen_of(&o->fs, t, &o->k);
+
+	rec_begin(r);
+	rec_cstr(r, trend_direction_names[t->direction]);
+	rec_str(r, t->occ, t->ol);
+	cli_occupation_label(r, o->ls, t->occ, t->ol, t->lang);
+	rec_cstr(r, t->lang);
+	/* the label as the taxonomy writes it, else the display title */
+	if (t->lb)
+		rec_str(r, lab_str(o->ls, t->lb->text), t->lb->textlen);
+	else
+		rec_str(r, t->title, t->tl);
+	rec_str(r, t->key, t->kl);
+	rec_bool(r, t->lb != NULL);
+	if (t->lb)
+		rec_cstr(r, t->lb->kind == 'p' ? "pref" : t->lb->kind == 'a' ? "alt" : "hidden");
+	else
+		rec_null(r);
+	rec_u64(r, t->before);
+	rec_u64(r, t->after);
+	rec_u64(r, t->occ_before);
+	rec_u64(r, t->occ_after);
+	rec_num(r, t->share_before);
+	rec_num(r, t->lo_before);
+	rec_num(r, t->hi_before);
+	rec_num(r, t->share_after);
+	rec_num(r, t->lo_after);
+	rec_num(r, t->hi_after);
+	rec_num(r, t->g2);
+	if (first)
+		rec_cstr(r, first);
+	else
+		rec_null(r);
+	rec_cstr(r, o->wb);
+	rec_cstr(r, o->wa);
+	rec_list_begin(r, "");
+	for (int i = 0; i < nex; i++)
+		rec_str(r, ex[i], exl[i]);
+	rec_list_end(r);
+	for (int i = 0; i < TALLY_EXAMPLES; i++)
+		if (i < nex)
+			rec_str(r, ex[i], exl[i]);
+		else
+			rec_null(r);
+	rec_end(r);
+}
+
+/* Works out the two windows into *b0..*b1 and *a0..*a1.  0, or -1 after
+ * saying why not. */
+static int windows(const trend_opts *o, tally_series *s, long *b0, long *b1, long *a0,
+		   long *a1)
+{
+	int kind = s->seen_kind;
+	if ((!o->after.given || !o->before.given) && kind == PERIOD_NONE) {
+		fputs("titlemill trend: the counts have no periods (postings without dates, or a "
+		      "table tallied with --period none): give --before and --after, or tally "
+		      "dated postings\n", stderr);
+		return -1;
+	}
+	if (o->after.given) {
+		*a0 = o->after.first;
+		*a1 = o->after.last;
+	} else {
+		long today = o->as_of.given ? o->as_of.first : (long)(time(NULL) / 86400);
+		size_t n;
+		series_period **v = series_sorted(s, &n);
+		const series_period *latest = NULL;
+		if (!v && s->n) {
+			fputs("titlemill trend: out of memory\n", stderr);
+			return -1;
+		}
+		for (size_t i = 0; i < n; i++)
+			if (v[i]->len && v[i]->last < today &&
+			    (v[i]->m.occs.n || v[i]->m.keys.n))
+				latest = v[i];
+		if (!latest) {
+			free(v);
+			fputs("titlemill trend: no period of the counts ended before --as-of (today "
+			      "when not given): give --after\n", stderr);
+			return -1;
+		}
+		*a0 = latest->first;
+		*a1 = latest->last;
+		free(v);
+	}
+	if (o->before.given) {
+		*b0 = o->before.first;
+		*b1 = o->before.last;
+	} else {
+		long d = *a0;
+		for (int i = 0; i < TREND_BEFORE_PERIODS; i++)
+			d = period_start(kind, d - 1);
+		*b0 = d;
+		*b1 = *a0 - 1;
+	}
+	if (*b1 >= *a0) {
+		fputs("titlemill trend: --before must end before --after starts\n", stderr);
+		return -1;
+	}
+	return 0;
+}
+
+int cmd_trend(int argc, char **argv)
+{
+	trend_opts o;
+	rank_inputs in;
+	inputs_survey sv;
+	trend_list l = {0};
+	tally_mem before, after;
+	trend_out to;
+	tm_buf out = {0};
+	long b0, b1, a0, a1, nb, na;
+	int rc;
+
+	memset(&o, 0, sizeof o);
+	memset(&to, 0, sizeof to);
+	o.in.period = SERIES_AS_READ;
+	tm_init(&before);
+	tm_init(&after);
+	if (!cli_rank_start(&trend_cmd, &o, &o.in, argc, argv, &in, &sv, &rc)) {
+		inputs_free(&in);
+		return rc;
+	}
+	if (windows(&o, &in.s, &b0, &b1, &a0, &a1) != 0) {
+		rc = o.after.given || o.before.given ? EXIT_USAGE : EXIT_RUNTIME;
+		goto done;
+	}
+	window_text(in.s.seen_kind, b0, b1, to.wb, sizeof to.wb);
+	window_text(in.s.seen_kind, a0, a1, to.wa, sizeof to.wa);
+	nb = series_sum(&in.s, b0, b1, &before);
+	na = series_sum(&in.s, a0, a1, &after);
+	if (nb < 0 || na < 0) {
+		fputs("titlemill trend: out of memory, or the counts add up past 2^64 - 1\n", stderr);
+		rc = EXIT_RUNTIME;
+		goto done;
+	}
+	fprintf(stderr, "titlemill trend: before %s (%ld %s), after %s (%ld %s)\n", to.wb, nb,
+		nb == 1 ? "period" : "periods", to.wa, na, na == 1 ? "period" : "periods");
+	if (!nb || !na) {
+		fprintf(stderr, "titlemill trend: the %s window holds no counts: nothing to "
+			"compare\n", !na ? "after" : "before");
+		rc = EXIT_RUNTIME;
+		goto done;
+	}
+	trend_filter f = {o.in.occ, o.in.lang[0] ? o.in.lang : NULL};
+	to.ls = &in.ls;
+	to.before = &before;
+	to.after = &after;
+	rec_init(&to.r, &out, o.tsv ? REC_TSV : REC_JSON, trend_fields);
+	if (trend_run(&before, &after, &in.ls, &o.bar, &f, &l) != 0 ||
+	    first_seen_run(&to.fs, &in.s, &l) != 0)
+		to.r.failed = 1;
+	else {
+		uint64_t per[2] = {0};
+		rec_header(&to.r);
+		for (size_t i = 0; i < l.n; i++) {
+			const trend_row *t = &l.v[i];
+			if ((o.direction && t->direction != o.direction - 1) ||
+			    per[t->direction]++ >= o.top)
+				continue;
+			write_row(&to, t);
+		}
+		if (l.one_window)
+			fprintf(stderr, "titlemill trend: %llu occupation%s (by language) counted in "
+				"one window only: no share to compare\n",
+				(unsigned long long)l.one_window, l.one_window == 1 ? "" : "s");
+	}
+	if (to.r.failed) {
+		fputs("titlemill trend: out of memory\n", stderr);
+		rc = EXIT_RUNTIME;
+	} else
+		rc = cli_write_stdout("trend", &out) ? EXIT_RUNTIME : EXIT_OK;
+done:
+	trend_list_free(&l);
+	st_free(&to.fs.want);
+	free(to.fs.label);
+	buf_free(&to.k);
+	buf_free(&out);
+	tm_free(&before);
+	tm_free(&after);
+	inputs_free(&in);
+	return rc;
+}
