@@ -33,8 +33,9 @@ typedef struct rank_opts {
 	const char *id_map; /* --id-map FILE, or NULL */
 	int strict;         /* --strict: ids that do not match stop the run */
 	opt_span from, to;  /* --from, --to: a window of periods */
-	int period;         /* the counts by period (PERIOD_NONE: summed);
-			     * set by the command before cli_rank_start */
+	int by_period;      /* keep the counts by period too (rank_inputs.s) */
+	int period;         /* their kind when by_period (SERIES_AS_READ: as
+			     * the tables have them; set before cli_rank_start) */
 } rank_opts;
 
 /* --from and --to in the table of a command whose options struct holds

@@ -4,6 +4,7 @@
 #include <errno.h>
 #include <stddef.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 
 #include "cli/cli.h"
@@ -25,6 +26,13 @@ static const opt_spec coverage_specs[] = {
 			"the taxonomy's labels: TSV (occupation, kind, lang, label) or SKOS"),
 	{"json", OPT_FLAG, offsetof(coverage_opts, json), NULL, NULL, 0, 0,
 	 "JSON Lines instead of TSV", NULL, 0},
+	{"by-period", OPT_FLAG, offsetof(coverage_opts, in.by_period), NULL, NULL, 0, 0,
+	 "one row per occupation, language and period (a first column, period), and a "
+	 "'*' row per period: the figures as a time series", NULL, 0},
+	{"period", OPT_PERIOD, offsetof(coverage_opts, in.period), "P", NULL, 0, 0,
+	 "with --by-period: count postings files by month (the default), week or day, or "
+	 "roll counts tables by day up to weeks or months; not given: the tables' periods",
+	 NULL, 0},
 	{"occupation", OPT_STR, offsetof(coverage_opts, in.occ), "ID", NULL, 0, 0,
 	 "only this occupation", NULL, 0},
 	OPT_SPEC_LANG(coverage_opts, in.lang, "only this language"),
@@ -39,6 +47,7 @@ static const opt_spec coverage_specs[] = {
 static const opt_cmd coverage_cmd = {
 	"coverage",
 	"usage: titlemill coverage --labels FILE [--json] [--occupation ID] [--lang L]\n"
+	"                          [--by-period [--period P]] [--from DATE] [--to DATE]\n"
 	"                          [--ids local] [--id-map FILE] [--strict]\n"
 	"                          (COUNTS|POSTINGS...|-|--store URL [--prefix P])\n"
 	"\n"
@@ -56,18 +65,21 @@ static const opt_cmd coverage_cmd = {
 	NULL,
 };
 
-/* A coverage row: the fields of both formats. */
-static const rec_field coverage_fields[] = {
-	{"occupation", REC_BOTH}, {"occupation_label", REC_BOTH}, {"lang", REC_BOTH},
-	{"postings", REC_BOTH}, {"distinct_postings", REC_BOTH}, {"matched", REC_BOTH}, {"coverage", REC_BOTH}, {"coverage_low", REC_BOTH},
-	{"coverage_high", REC_BOTH}, {"pref_matched", REC_BOTH}, {"pref_coverage", REC_BOTH},
-	{"labels", REC_BOTH}, {"labels_unseen", REC_BOTH}, {"top_unmatched", REC_BOTH},
-	{NULL, 0},
-};
+/* A coverage row: the fields of both formats (by period: period first). */
+#define COVERAGE_FIELDS \
+	{"occupation", REC_BOTH}, {"occupation_label", REC_BOTH}, {"lang", REC_BOTH}, \
+	{"postings", REC_BOTH}, {"distinct_postings", REC_BOTH}, {"matched", REC_BOTH}, \
+	{"coverage", REC_BOTH}, {"coverage_low", REC_BOTH}, \
+	{"coverage_high", REC_BOTH}, {"pref_matched", REC_BOTH}, {"pref_coverage", REC_BOTH}, \
+	{"labels", REC_BOTH}, {"labels_unseen", REC_BOTH}, {"top_unmatched", REC_BOTH}, \
+	{NULL, 0}
+static const rec_field coverage_fields[] = {COVERAGE_FIELDS};
+static const rec_field coverage_period_fields[] = {{"period", REC_BOTH}, COVERAGE_FIELDS};
 
 typedef struct coverage_out {
 	rec r;
 	const labelset *ls;
+	const series_period *period; /* --by-period: the period of the rows */
 	uint64_t distinct;  /* of the '*' row */
 	uint64_t rows;      /* occupation rows written */
 } coverage_out;
@@ -89,6 +101,8 @@ static int write_row(void *ctx, const coverage_row *row)
 	rec *r = &co->r;
 	int total = row->ol == 1 && row->occ[0] == '*' && !strcmp(row->lang, "*");
 	rec_begin(r);
+	if (co->period)
+		rec_str(r, co->period->label, co->period->len);
 	rec_str(r, row->occ, row->ol);
 	if (total)
 		rec_null(r);
@@ -202,8 +216,12 @@ int cli_rank_start(const opt_cmd *cmd, void *o, const rank_opts *ro, int argc, c
 		return 0;
 	}
 	rank_sources src = {&ro->setup, ro->store, ro->prefix, argv + first, argc - first,
-			    (size_t)OPT_MEMO_MIB << 20, ro->ids == 2, ro->id_map, ro->period,
-			    0, 0, 0};
+			    (size_t)OPT_MEMO_MIB << 20, ro->ids == 2, ro->id_map,
+			    ro->by_period ? ro->period : PERIOD_NONE, 0, 0, 0};
+	if (!ro->by_period && ro->period != SERIES_AS_READ && ro->period != PERIOD_NONE) {
+		fprintf(stderr, "titlemill %s: --period applies with --by-period\n", cmd->name);
+		return 0;
+	}
 	if ((src.windowed = opt_window(cmd->name, &ro->from, &ro->to, &src.from, &src.to)) < 0)
 		return 0;
 	if (inputs_load(in, &src, stderr, &err) != 0) {
@@ -254,6 +272,7 @@ int cmd_coverage(int argc, char **argv)
 	int rc;
 
 	memset(&o, 0, sizeof o);
+	o.in.period = SERIES_AS_READ; /* --period, only with --by-period */
 	if (!cli_rank_start(&coverage_cmd, &o, &o.in, argc, argv, &in, &sv, &rc)) {
 		inputs_free(&in);
 		return rc;
@@ -263,9 +282,25 @@ int cmd_coverage(int argc, char **argv)
 	memset(&co, 0, sizeof co);
 	co.ls = &in.ls;
 	co.distinct = sv.distinct;
-	rec_init(&co.r, &out, o.json ? REC_JSON : REC_TSV, coverage_fields);
+	rec_init(&co.r, &out, o.json ? REC_JSON : REC_TSV,
+		 o.in.by_period ? coverage_period_fields : coverage_fields);
 	rec_header(&co.r);
-	rc = coverage_run(&in.m, &in.ls, &f, write_row, &co);
+	if (!o.in.by_period)
+		rc = coverage_run(&in.m, &in.ls, &f, write_row, &co);
+	else {
+		size_t np;
+		series_period **v = series_sorted(&in.s, &np);
+		rc = !v && in.s.n ? -1 : 0;
+		for (size_t i = 0; i < np && rc == 0; i++) {
+			inputs_survey ps;
+			co.period = v[i];
+			if ((rc = inputs_survey_counts(&v[i]->m, &in.ls, f.occ, f.lang, &ps)) == 0) {
+				co.distinct = ps.distinct;
+				rc = coverage_run(&v[i]->m, &in.ls, &f, write_row, &co);
+			}
+		}
+		free(v);
+	}
 	if (rc != 0 || co.r.failed) {
 		fputs("titlemill coverage: out of memory\n", stderr);
 		rc = EXIT_RUNTIME;

@@ -13,6 +13,7 @@
 #include "count/series.h"
 #include "io/record.h"
 #include "rank/inputs.h"
+#include "rank/propose.h"
 #include "rank/trend.h"
 
 /* The periods the default window "before" holds: the ones just before
@@ -210,16 +211,22 @@ static void write_row(trend_out *o, const trend_row *t)
 	size_t exl[TALLY_EXAMPLES];
 	tally_mem *strong = t->direction == TREND_RISING ? o->after : o->before;
 	int nex = tm_examples(strong, t->occ, t->ol, t->lang, t->key, t->kl, ex, exl);
-	const char *first = first_seen_of(&o->fs, t, &o->k);
+	const char *first = first_seen_of(&o->fs, t, &o->k); /* into fs: o->k is free again */
 
 	rec_begin(r);
 	rec_cstr(r, trend_direction_names[t->direction]);
 	rec_str(r, t->occ, t->ol);
 	cli_occupation_label(r, o->ls, t->occ, t->ol, t->lang);
 	rec_cstr(r, t->lang);
-	/* the label as the taxonomy writes it, else the display title */
+	/* the label as the taxonomy writes it, else the display title as the
+	 * postings write it (in mixed case, when an example shows it) */
+	buf_reset(&o->k);
 	if (t->lb)
 		rec_str(r, lab_str(o->ls, t->lb->text), t->lb->textlen);
+	else if (propose_as_written(ex, exl, nex, t->title, t->tl, &o->k) != 0)
+		r->failed = 1;
+	else if (o->k.len)
+		rec_str(r, o->k.data, o->k.len);
 	else
 		rec_str(r, t->title, t->tl);
 	rec_str(r, t->key, t->kl);
@@ -327,6 +334,7 @@ int cmd_trend(int argc, char **argv)
 	memset(&o, 0, sizeof o);
 	memset(&to, 0, sizeof to);
 	o.in.period = SERIES_AS_READ;
+	o.in.by_period = 1;
 	tm_init(&before);
 	tm_init(&after);
 	if (!cli_rank_start(&trend_cmd, &o, &o.in, argc, argv, &in, &sv, &rc)) {

@@ -277,7 +277,13 @@ static void keep_smallest(inputs_survey *s, const char *o, size_t ol)
  * counts (no sorting: linear in the counts). */
 int inputs_survey_run(rank_inputs *in, const char *occ, const char *lang, inputs_survey *s)
 {
-	const strtab *occs = &in->m.occs, *keys = &in->m.keys;
+	return inputs_survey_counts(&in->m, &in->ls, occ, lang, s);
+}
+
+int inputs_survey_counts(const tally_mem *m, const labelset *ls, const char *occ,
+			 const char *lang, inputs_survey *s)
+{
+	const strtab *occs = &m->occs, *keys = &m->keys;
 	strtab seen = {0};
 	int rc = 0;
 
@@ -294,7 +300,7 @@ int inputs_survey_run(rank_inputs *in, const char *occ, const char *lang, inputs
 		}
 		if (r == 1) {
 			s->occupations++;
-			if (labels_has_occ(&in->ls, k, ol))
+			if (labels_has_occ(ls, k, ol))
 				s->labelled++;
 			else
 				keep_smallest(s, k, ol);

@@ -85,6 +85,9 @@ typedef struct inputs_survey {
 /* Surveys in's counts, for occ and lang (either may be NULL).  Returns
  * 0, or -1 when memory ran out. */
 int inputs_survey_run(rank_inputs *in, const char *occ, const char *lang, inputs_survey *s);
+/* The same of counts m under labels ls (one period's, say). */
+int inputs_survey_counts(const tally_mem *m, const labelset *ls, const char *occ,
+			 const char *lang, inputs_survey *s);
 
 /* True when the survey says the ids most likely do not match. */
 static inline int inputs_ids_doubtful(const inputs_survey *s)
