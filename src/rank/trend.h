@@ -53,7 +53,7 @@ extern const char *const trend_direction_names[2];
 	  "postings of the title in the window where its share is higher") \
 	X(double, OPT_REAL, min_g2, "min-g2", "X", STATS_CHI2_1DF_P001, 0, 1e12, \
 	  "Dunning's G2 of the change at least X (chi2 at p=0.001, 1 df)") \
-	X(double, OPT_REAL, min_ratio, "min-ratio", "X", 2.0, 1, 1e12, \
+	X(double, OPT_REAL, min_ratio, "min-ratio", "X", 2, 1, 1e12, \
 	  "the higher share at least X times the lower")
 
 #define TREND_BAR_MEMBER(type, kind, m, opt, arg, def, lo, hi, meaning) type m;

@@ -6,7 +6,7 @@
 # page describes the option.
 . "$(dirname "$0")/lib.inc"
 top=$(dirname "$0")/../..
-for cmd in norm tally counts coverage propose match report review overlap; do
+for cmd in norm tally counts coverage propose match report review overlap trend; do
 	"$TITLEMILL" $cmd --help > "$tmp/help.$cmd" || check "$cmd --help status" 0 $?
 done
 /usr/bin/python3 - "$top/README.md" "$top/titlemill.1" "$tmp" <<'PY'
@@ -38,7 +38,7 @@ def has(text, value):
     return re.search(r"(?<![\w.])%s(?![\w.]|\.\d)" % re.escape(value), text) is not None
 
 seen = set()
-for cmd in ("norm", "tally", "counts", "coverage", "propose", "match", "report", "review", "overlap"):
+for cmd in ("norm", "tally", "counts", "coverage", "propose", "match", "report", "review", "overlap", "trend"):
     for opt, value in options(cmd):
         if (opt, value) in seen:
             continue
