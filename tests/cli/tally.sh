@@ -12,7 +12,8 @@ gen=$(dirname "$0")/../bench/gen_titles.py
 
 /usr/bin/python3 "$gen" --postings --count 20000 --seed 7 > "$tmp/p.tsv"
 $T tally "$tmp/p.tsv" > "$tmp/c.tsv" 2> "$tmp/err"; check tally-status 0 $?
-head -1 "$tmp/c.tsv" | grep -q '^kind	occupation	lang	key	text	postings$'; check header 0 $?
+# dated postings: by month, a last column period
+head -1 "$tmp/c.tsv" | grep -q '^kind	occupation	lang	key	text	postings	period$'; check header 0 $?
 
 # --- the coreutils cross-check (columns: id date lang occupations title)
 awk -F '\t' 'NR > 1 && $5 != "" && !seen[$1]++' "$tmp/p.tsv" > "$tmp/dedup"
