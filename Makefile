@@ -152,6 +152,7 @@ bench: titlemill $(BUILD)/count_stage
 	sh tests/bench/report.sh $(CURDIR)/titlemill
 	sh tests/bench/overlap.sh $(CURDIR)/titlemill
 	sh tests/bench/match.sh $(CURDIR)/titlemill
+	sh tests/bench/trend.sh $(CURDIR)/titlemill
 
 # The Debian 12 packages of .ci/packages: through sudo unless already root
 # (.ci/deps, which a fresh machine runs before make is installed).
