@@ -2,7 +2,7 @@
 # make demo: the main job on the bundled example data, in memory, with no
 # server.  The scenario is our own: examples/taxonomy.tsv holds the labels
 # of 115 occupations in English, German and French (ordinary occupational
-# words; ids on the ISCO-08 pattern), and a day of some 80,000 postings in
+# words; ids on the ISCO-08 pattern), and a month of some 80,000 postings in
 # those languages is generated deterministically by examples/gen_day.py
 # (the bench generator, seed 2026, with a few postings planted so that
 # every kind of suggestion shows): invented employers such as Valdoria
@@ -36,7 +36,7 @@ show titles "$here/titles.txt" "$out/titles.clean.txt" 12
 echo "  ... all $(wc -l < "$here/titles.txt") in $o/titles.clean.txt (facets: $o/titles.jsonl)"
 
 echo
-echo "== a day of postings in English, German and French: generated ($ex/gen_day.py)"
+echo "== a month of postings in English, German and French: generated ($ex/gen_day.py)"
 "$py" "$here/gen_day.py" > "$out/day.tsv"
 # The taxonomy's structure, planted: Valdoria Logistik advertises packers
 # (occ:9321) under the warehouse operatives' titles (occ:9333), and the
@@ -74,6 +74,19 @@ awk -F '\t' '$1 == "overlapping_occupations"' "$out/overlap.tsv" | head -4 |
 	awk -F '\t' '{ printf "  %s %s %-22s ~ %s %-24s divergence %s, shared %s\n", $6, $2, $3, $4, $5, $7, $8 }'
 awk -F '\t' '$1 == "nearer_other_group"' "$out/overlap.tsv" | head -2 |
 	awk -F '\t' '{ printf "  %s %s %s: filed in %s (%s bits), nearer %s (%s bits): %s\n", $6, $2, $3, $11, $13, $12, $7, substr($14, 1, 60) }'
+echo
+echo "== what changed in March: titlemill trend (weeks 10-11 against weeks 12-13)"
+"$T" tally --period week --labels "$here/taxonomy.tsv" -o "$out/weeks.counts.tsv" "$out/day.tsv" 2>/dev/null
+"$T" trend --labels "$here/taxonomy.tsv" --before 2026-W10..2026-W11 --after 2026-W12..2026-W13 \
+	"$out/weeks.counts.tsv" > "$out/trend.jsonl" 2>/dev/null
+"$T" trend --labels "$here/taxonomy.tsv" --before 2026-W10..2026-W11 --after 2026-W12..2026-W13 \
+	--tsv "$out/weeks.counts.tsv" > "$out/trend.tsv" 2>/dev/null
+awk -F '\t' 'NR == 1 { for (i = 1; i <= NF; i++) c[$i] = i; next }
+	{ printf "  %-7s %s %s %-26s %3d → %3d postings (share %4.1f %% → %4.1f %%), G2 %.1f%s\n",
+		$c["direction"], $c["lang"], $c["occupation"], "\"" $c["label"] "\"", $c["postings_before"],
+		$c["postings_after"], 100 * $c["share_before"], 100 * $c["share_after"], $c["g2"],
+		$c["is_label"] == "true" ? " (a label)" : "" }' "$out/trend.tsv" | head -6
+echo "  ($o/trend.jsonl; review add takes it: rising_title, fading_label)"
 echo
 echo "== the curators' queue: titlemill review (here a curator called 'demo' decides three)"
 q=$out/queue.jsonl
