@@ -38,22 +38,18 @@ void series_window(tally_series *s, long from, long to)
 static tally_mem *period_get(tally_series *s, const char *t, size_t n, long first, long last)
 {
 	size_t idx;
-	int r = st_add(&s->index, t, n, 0, &idx);
-	if (r < 0)
-		return NULL;
-	if (r == 0)
-		return &s->p[s->index.ent[idx].count]->m;
+	long at = st_find(&s->index, t, n);
+	if (at >= 0)
+		return &s->p[s->index.ent[at].count]->m;
 	series_period **v = tm_grow(s->p, &s->cap, s->n + 1, sizeof *v, 16);
+	if (!v)
+		return NULL;
+	s->p = v;
 	series_period *p = calloc(1, sizeof *p);
-	if (!v || !p) {
+	if (!p || st_add(&s->index, t, n, 0, &idx) < 0) {
 		free(p);
-		if (v)
-			s->p = v;
-		/* the label stays indexed at a period that does not exist:
-		 * the series is only good for series_free now */
 		return NULL;
 	}
-	s->p = v;
 	memcpy(p->label, t, n);
 	p->len = (uint8_t)n;
 	p->first = n ? first : LONG_MIN;
@@ -91,6 +87,17 @@ static int leave_out(tally_series *s, const char *label, size_t n, int why)
 	return 0;
 }
 
+/* 1 when the period label[0..n) (days first..last) lies wholly within
+ * s's window; else 0 after remembering it as left out (-2: memory). */
+static int in_window(tally_series *s, const char *label, size_t n, long first, long last)
+{
+	if (!n || last < s->from || first > s->to)
+		return leave_out(s, label, n, 1);
+	if (first < s->from || last > s->to)
+		return leave_out(s, label, n, 2);
+	return 1;
+}
+
 static int resolve(tally_series *s, const char *label, size_t n, tally_mem **m, tm_buf *err)
 {
 	long first = 1, last = 0;
@@ -104,11 +111,11 @@ static int resolve(tally_series *s, const char *label, size_t n, tally_mem **m, 
 		return say(err, "bad period '", label, n > 40 ? 40 : n,
 			   "' (want a day 2026-03-01, a week 2026-W09, a month 2026-03, or empty "
 			   "for undated)");
-	if (s->windowed) {
-		if (!n || last < s->from || first > s->to)
-			return leave_out(s, label, n, 1);
-		if (first < s->from || last > s->to)
-			return leave_out(s, label, n, 2);
+	if (s->windowed && s->kind == PERIOD_NONE) {
+		/* summed into one: each period (a posting: its day) on its own */
+		int r = in_window(s, label, n, first, last);
+		if (r <= 0)
+			return r;
 	}
 	if (n && s->kind == SERIES_AS_READ) {
 		if (s->seen_kind != PERIOD_NONE && kind != s->seen_kind) {
@@ -138,6 +145,12 @@ static int resolve(tally_series *s, const char *label, size_t n, tally_mem **m, 
 			return say(err, "period '", label, n, b);
 		}
 		s->seen_kind = s->kind;
+	}
+	if (s->windowed && s->kind != PERIOD_NONE) {
+		/* kept by period: whole periods of the series only */
+		int r = in_window(s, t, tn, first, last);
+		if (r <= 0)
+			return r;
 	}
 	if (!(*m = period_get(s, t, tn, first, last)))
 		return -2;

@@ -20,7 +20,10 @@
  *
  * A window (series_window) keeps only the periods that lie wholly
  * inside it, and drops the undated period: a period partly inside is
- * left out and counted in `partial`, so that a command can say so.
+ * left out and counted in `partial`, so that a command can say so.  The
+ * periods are the series' own (a day rolled up to a week counts only
+ * when the whole week lies inside), except under PERIOD_NONE, where each
+ * period read (a posting's day) is taken on its own.
  *
  * A posting id counts once in the whole series (in the first period it
  * came in); rows of counts tables carry no ids.
