@@ -9,6 +9,7 @@
 #include <string.h>
 
 #include "core/digest.h"
+#include "io/decode.h"
 #include "io/jsonw.h"
 #include "rank/trend.h"
 #include "review/review.h"
@@ -137,8 +138,6 @@ int rqi_trend_sugg(const jr_val *v, rqi_sugg *s, int *what, const char *where, t
 	    rqi_get_count(v, "occupation_postings_before", &ob, where, err) ||
 	    rqi_get_count(v, "occupation_postings_after", &oa, where, err) ||
 	    rqi_get_score(v, "g2", &g2, where, err))
-		goto done;
-	if (!s->occ || !s->lang || !s->label || !key) /* out of memory: rqi_get_str said */
 		goto done;
 	if (is_label && rqi_get_name(v, "label_kind", label_kinds, 3, &lk, where, err))
 		goto done;
@@ -326,6 +325,10 @@ int rq_trend_tsv_row(const rq_trend_tsv *h, const char *line, size_t n, tm_buf *
 				goto fail;
 			}
 			continue;
+		}
+		if ((fields[i].type == 's' || fields[i].type == 'x') && !dec_is_utf8(c, l)) {
+			bad(err, where, fields[i].name, "is not valid UTF-8");
+			goto fail;
 		}
 		if (fields[i].type == 'x') { /* the last fields */
 			buf_puts(out, nex++ ? "," : ",\"examples\":[");

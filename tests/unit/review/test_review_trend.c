@@ -265,6 +265,8 @@ static void test_tsv_rows(void **state)
 		{"52.1000", "", "\"g2\" is empty"},
 		{"\tfalse\t", "\tno\t", "\"is_label\" must be true or false"},
 		{"rising\t", "\t", "\"direction\" is empty"},
+		{"occ:0042", "occ:\x91", "\"occupation\" is not valid UTF-8"},
+		{"(m/w/d)", "(m/w/d\xC3)", "\"example_1\" is not valid UTF-8"},
 	};
 	for (size_t i = 0; i < sizeof bad / sizeof *bad; i++) {
 		char line[600];
