@@ -41,7 +41,7 @@ SRC_count = strtab idset tally_mem series chunk store load store_redis store_red
 	store_redis_apply store_redis_dump cluster slot
 SRC_rank = stats labels labkeys inputs coverage propose trend groups overlap
 SRC_match = sim match code
-SRC_review = review_item review_json review_change review_batch review_time review_clash review_noise \
+SRC_review = review_item review_json review_change review_batch review_time review_clash review_noise review_trend \
 	queue queue_file \
 	store_redis_queue delta
 SRC_report = chart report

@@ -45,7 +45,7 @@ static const opt_spec review_specs[] = {
 	RV_OPT("reopen-factor", OPT_REAL, reopen_factor, "F", NULL, 1, OPT_UNBOUNDED,
 	       "add: a rejected suggestion reopens also when its postings reach F times those "
 	       "at the rejection (off unless given: cumulative counts grow without new "
-	       "evidence)", NULL, 0),
+	       "evidence; never a fading_label)", NULL, 0),
 	RV_OPT("reopen-precision", OPT_REAL, reopen_precision, "D",
 	       OPT_XSTR(RQ_REOPEN_PRECISION), 0.01, 1,
 	       "add: a rejected suggestion reopens when its precision rose by D or more since "
@@ -104,7 +104,10 @@ static const struct {
 	const char *sub, *opts, *operands, *what;
 } subs[] = {
 	{"add", " reopen-factor reopen-precision ", " [FILE...]",
-	 "Takes propose output (JSON Lines; standard input by default) into the queue."},
+	 "Takes the output of propose, overlap or trend (JSON Lines, or the TSV of\n"
+	 "trend --tsv; standard input by default) into the queue.  Of trend's rows, a\n"
+	 "rising title that is no label becomes a rising_title, a falling label a\n"
+	 "fading_label; the others are no items (counted in a note)."},
 	{"list", " status kind occupation lang sort limit json ", "",
 	 "The suggestions, strongest first: TSV, or --json for the queue's own lines."},
 	{"show", " json ", " ID...", "Suggestions with all their evidence and their history."},
@@ -176,9 +179,10 @@ static const opt_cmd review_cmd = {
 	"review",
 	"usage: titlemill review SUBCOMMAND [OPTIONS]\n"
 	"\n"
-	"The curators' queue of suggestions from 'titlemill propose'.\n"
+	"The curators' queue of suggestions from 'titlemill propose', 'overlap' and\n"
+	"'trend'.\n"
 	"\n"
-	"  add [FILE...]              take propose output (JSON Lines) into the queue\n"
+	"  add [FILE...]              take propose, overlap or trend output into the queue\n"
 	"  list                       the suggestions, strongest first (TSV, or --json)\n"
 	"  show ID                    one suggestion with its evidence and history\n"
 	"  accept|reject|defer ID...  record a decision (--reviewer, --note)\n"

@@ -19,6 +19,7 @@
 #include "review/review_change.h"
 #include "review/review_clash.h"
 #include "review/review_json.h"
+#include "review/review_trend.h"
 
 /* ---- add ---- */
 
@@ -80,6 +81,11 @@ static int read_input(int nfiles, char **files, add_arg *a)
 			fprintf(stderr, "titlemill review: %s: %s\n", files[f], strerror(errno));
 			return -1;
 		}
+		/* JSON Lines, or the TSV of trend --tsv: its first line, which
+		 * is no JSON object, names the columns */
+		int format = 0; /* 0 not known yet, 1 JSON Lines, 2 trend's TSV */
+		rq_trend_tsv head;
+		tm_buf err = {0};
 		while ((rc = lr_next(&lr, &s, &n)) == 1) {
 			char where[600];
 			if (lr.cut || memchr(s, 0, n)) {
@@ -94,13 +100,37 @@ static int read_input(int nfiles, char **files, add_arg *a)
 			if (k == n)
 				continue;
 			snprintf(where, sizeof where, "%s:%ld", lr.name, lr.lineno);
-			if (buf_append(&a->lines, where, strlen(where) + 1) || buf_append(&a->lines, s, n) ||
-			    buf_putc(&a->lines, 0)) {
+			if (!format && s[k] != '{') {
+				format = 2;
+				if (rq_trend_tsv_head(&head, s, n, where, &err)) {
+					fprintf(stderr, "titlemill review: %s; nothing changed\n", err.data);
+					buf_free(&err);
+					lr_close(&lr);
+					return -1;
+				}
+				continue;
+			}
+			format = format ? format : 1;
+			if (buf_append(&a->lines, where, strlen(where) + 1)) {
+				lr_close(&lr);
+				return rv_fail("out of memory"), -1;
+			}
+			int r = format == 1 ? buf_append(&a->lines, s, n)
+					    : rq_trend_tsv_row(&head, s, n, &a->lines, where, &err);
+			if (r == TM_EINPUT) {
+				fprintf(stderr, "titlemill review: %s; nothing changed\n", err.data);
+				buf_free(&err);
+				lr_close(&lr);
+				return -1;
+			}
+			if (r || buf_putc(&a->lines, 0)) {
+				buf_free(&err);
 				lr_close(&lr);
 				return rv_fail("out of memory"), -1;
 			}
 			a->nlines++;
 		}
+		buf_free(&err);
 		if (rc < 0) {
 			fprintf(stderr, "titlemill review: %s: %s\n", lr.name, lr_strerror(&lr));
 			lr_close(&lr);
@@ -126,11 +156,19 @@ int rv_add(const review_opts *o, rq_place *pl, int nfiles, char **files, const c
 		fprintf(stderr, "titlemill review: %s; nothing changed\n", err.data);
 		goto done;
 	}
+	size_t none = a.st.rising_labels + a.st.falling_titles;
 	fprintf(stderr,
 		"titlemill review: add: %zu suggestions: %zu new, %zu with new evidence, %zu unchanged, "
 		"%zu reopened, %zu rejected before and kept closed, %zu accepted before\n",
-		a.nlines, a.st.added, a.st.refreshed, a.st.unchanged, a.st.reopened, a.st.kept_closed,
-		a.st.accepted_before);
+		a.nlines - none, a.st.added, a.st.refreshed, a.st.unchanged, a.st.reopened,
+		a.st.kept_closed, a.st.accepted_before);
+	if (none)
+		fprintf(stderr, "titlemill review: add: note: %zu row%s of trend %s no queue item%s: "
+				"%zu rising title%s that %s a label already, %zu falling title%s that "
+				"%s no label\n", none, none == 1 ? "" : "s", none == 1 ? "is" : "are",
+			none == 1 ? "" : "s", a.st.rising_labels, a.st.rising_labels == 1 ? "" : "s",
+			a.st.rising_labels == 1 ? "is" : "are", a.st.falling_titles,
+			a.st.falling_titles == 1 ? "" : "s", a.st.falling_titles == 1 ? "is" : "are");
 	if (a.st.noise)
 		fprintf(stderr, "titlemill review: add: %zu of those kept closed were rejected as noise "
 				"(for good)\n", a.st.noise);

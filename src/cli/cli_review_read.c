@@ -15,8 +15,10 @@
 #include "review/review_json.h"
 #include "review/review_noise.h"
 #include "review/review_time.h"
+#include "review/review_trend.h"
 #include "io/record.h"
 #include "rank/labels.h"
+#include "rank/stats.h"
 
 /* ---- reading: list, show, stats, export ---- */
 
@@ -135,8 +137,17 @@ static const rec_field list_fields[] = {
 	{"occupation_postings", REC_TSV}, {"precision", REC_TSV}, {"competitor", REC_TSV},
 	{"competitor_postings", REC_TSV}, {"variant_of", REC_TSV}, {"added", REC_TSV},
 	{"proposed", REC_TSV}, {"decided_by", REC_TSV}, {"decided_at", REC_TSV},
-	{"note", REC_TSV}, {NULL, 0},
+	{"note", REC_TSV}, {"share_before", REC_TSV}, {"share_after", REC_TSV}, {NULL, 0},
 };
+
+/* A figure, or an empty cell when the evidence has none (< 0). */
+static void num_or_null(rec *r, double v)
+{
+	if (v >= 0)
+		rec_num(r, v);
+	else
+		rec_null(r);
+}
 
 static void list_row(rec *r, const rq_item *it)
 {
@@ -150,14 +161,11 @@ static void list_row(rec *r, const rq_item *it)
 	rec_cstr(r, e->occ_label ? e->occ_label : "");
 	rec_cstr(r, it->lang);
 	rec_cstr(r, it->label);
-	if (e->strength >= 0)
-		rec_num(r, e->strength);
-	else
-		rec_null(r);
+	num_or_null(r, e->strength);
 	rec_num(r, it->score);
 	rec_u64(r, it->postings);
 	rec_u64(r, e->occ_postings);
-	rec_num(r, e->precision);
+	num_or_null(r, e->precision);
 	if (e->rival) {
 		rec_cstr(r, e->rival);
 		rec_u64(r, e->rival_postings);
@@ -171,6 +179,8 @@ static void list_row(rec *r, const rq_item *it)
 	rec_cstr(r, dec ? dec->reviewer : "");
 	rec_cstr(r, dec ? dec->at : "");
 	rec_cstr(r, dec && dec->note ? dec->note : "");
+	num_or_null(r, e->share_before);
+	num_or_null(r, e->share_after);
 	rec_end(r);
 }
 
@@ -243,12 +253,55 @@ static void show_event(tm_buf *b, const rq_event *e, const rq_item *it, const rq
 	(void)it;
 }
 
+/* The examples of an evidence object, a line each. */
+static void show_examples(tm_buf *b, const jr_val *v)
+{
+	const jr_val *x = jr_get(v, "examples");
+	for (size_t i = 0; i < jr_vlen(x); i++) {
+		size_t l;
+		const char *s = jr_vstr(jr_at(x, i), &l);
+		if (!s)
+			continue;
+		buf_puts(b, "              example: ");
+		buf_append(b, s, l);
+		buf_putc(b, '\n');
+	}
+}
+
+/* A row of trend: both windows, each share with its Wilson interval (95 %)
+ * from the counts beside it, the G2 and the first period counted. */
+static void show_trend(tm_buf *b, const char *title, const jr_val *v, const rq_trend_ev *t)
+{
+	const char *name[2] = {"before", "after"};
+	uint64_t p[2] = {t->before, t->after}, o[2] = {t->occ_before, t->occ_after};
+	size_t fl;
+	const char *first = jr_vstr(jr_get(v, "first_seen"), &fl);
+	buf_printf(b, "%s%s, G2 %.4f", title, t->falling ? "falling" : "rising", t->g2);
+	if (first)
+		buf_printf(b, ", first seen %.*s", (int)fl, first);
+	buf_putc(b, '\n');
+	for (int w = 0; w < 2; w++) {
+		double lo, hi;
+		wilson(p[w], o[w], STATS_Z95, &lo, &hi);
+		buf_printf(b, "              %-6s %llu of %llu postings (share %.4f, 95 %% interval "
+			      "%.4f-%.4f)\n", name[w], (unsigned long long)p[w],
+			   (unsigned long long)o[w], o[w] ? (double)p[w] / (double)o[w] : 0.0, lo, hi);
+	}
+	show_examples(b, v);
+}
+
 static void show_evidence(tm_buf *b, const char *title, const char *json)
 {
 	evid e;
 	char line[400];
+	rq_trend_ev t;
 	evid_read(json, &e);
 	const jr_val *v = e.v;
+	if (rq_trend_figures(v, &t)) {
+		show_trend(b, title, v, &t);
+		jr_free(e.d);
+		return;
+	}
 	if (jr_get(v, "divergence")) { /* a finding of overlap */
 		size_t gl = 0, hl = 0, ol = 0;
 		const char *g = jr_vstr(jr_get(v, "group"), &gl), *h = jr_vstr(jr_get(v, "other_group"), &hl);
@@ -288,16 +341,7 @@ static void show_evidence(tm_buf *b, const char *title, const char *json)
 			 e.rival, (unsigned long long)e.rival_postings, e.rival_share);
 		buf_puts(b, line);
 	}
-	const jr_val *x = jr_get(v, "examples");
-	for (size_t i = 0; i < jr_vlen(x); i++) {
-		size_t l;
-		const char *s = jr_vstr(jr_at(x, i), &l);
-		if (!s)
-			continue;
-		buf_puts(b, "              example: ");
-		buf_append(b, s, l);
-		buf_putc(b, '\n');
-	}
+	show_examples(b, v);
 	jr_free(e.d);
 }
 
@@ -346,6 +390,9 @@ int rv_show(const review_opts *o, const rq_queue *q, int n, char **ids)
 			buf_puts(&b, "\nlabel kind    ");
 			buf_puts(&b, e.label_kind);
 		}
+		if (it->kind == RK_FADING)
+			buf_puts(&b, "\nquestion      keep it, demote it to a hidden label, or retire it? "
+				     "(accepted: a review row of the export, never a deletion)");
 		char line[64];
 		if (it->brief.strength >= 0) {
 			snprintf(line, sizeof line, "\nstrength      %.4f", it->brief.strength);

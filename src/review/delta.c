@@ -10,7 +10,9 @@
 #include "io/jsonr.h"
 #include "review/review_json.h"
 #include "review/review_time.h"
+#include "review/review_trend.h"
 #include "io/skos.h"
+#include "rank/propose.h"
 #include "io/tsv.h"
 
 typedef struct delta {
@@ -90,6 +92,16 @@ static int is_iri(const char *s)
 static int reason(tm_buf *b, const delta *x)
 {
 	char line[300];
+	rq_trend_ev t;
+	if (x->it->kind == RK_FADING && rq_trend_figures(jr_root(x->ev), &t)) {
+		snprintf(line, sizeof line, "fading: %llu of %llu postings before (share %.4f), %llu "
+					    "of %llu after (share %.4f), G2 %.4f; keep, demote to "
+					    "hidden or retire",
+			 (unsigned long long)t.before, (unsigned long long)t.occ_before,
+			 (double)t.before / (double)t.occ_before, (unsigned long long)t.after,
+			 (unsigned long long)t.occ_after, (double)t.after / (double)t.occ_after, t.g2);
+		return buf_puts(b, line);
+	}
 	if (x->it->kind != RK_RARE && x->it->kind != RK_ELSEWHERE && x->it->kind != RK_OVERLAP &&
 	    x->it->kind != RK_NEARER) {
 		/* a kind without a reason of its own: its name and its figures */
@@ -251,8 +263,28 @@ static int write_skos(const delta *v, size_t n, size_t nadd, const dl_opts *o, t
 	return rc ? -1 : 0;
 }
 
+/* The label of x as its evidence's examples write it, in aw (empty when
+ * none shows it).  0, or -1 when memory ran out. */
+static int as_written(const delta *x, tm_buf *aw)
+{
+	const jr_val *ex = jr_get(jr_root(x->ev), "examples");
+	const char *e[3];
+	size_t el[3];
+	int ne = 0;
+	for (size_t i = 0; i < jr_vlen(ex) && ne < 3; i++)
+		if ((e[ne] = jr_vstr(jr_at(ex, i), &el[ne])) != NULL)
+			ne++;
+	buf_reset(aw);
+	if (propose_as_written(e, el, ne, x->it->label, strlen(x->it->label), aw) ||
+	    buf_putc(aw, 0))
+		return -1;
+	aw->len--; /* ended by a NUL that is not counted */
+	return 0;
+}
+
 int dl_export(const rq_queue *q, const dl_opts *o, tm_buf *out, tm_buf *err)
 {
+	tm_buf aw = {0};
 	delta *v = calloc(q->n + 1, sizeof *v);
 	size_t n = 0, nadd = 0, nbad = 0, len0 = out->len;
 	int rc = -1;
@@ -280,6 +312,15 @@ int dl_export(const rq_queue *q, const dl_opts *o, tm_buf *out, tm_buf *err)
 			goto done;
 		}
 		w = o->clean_case ? NULL : ev_str(x, NULL, "label_as_written");
+		if (!w && !o->clean_case && it->kind == RK_RISING) {
+			/* trend gives the clean title and the raw ones: the
+			 * title as they write it, as propose finds it */
+			if (as_written(x, &aw)) {
+				say(err, "out of memory", NULL, NULL);
+				goto done;
+			}
+			w = aw.len ? aw.data : NULL;
+		}
 		if (!(x->text = strdup(w ? w : it->label))) {
 			say(err, "out of memory", NULL, NULL);
 			goto done;
@@ -331,5 +372,6 @@ done:
 		jr_free(v[i].ev);
 	}
 	free(v);
+	buf_free(&aw);
 	return rc;
 }

@@ -1,7 +1,8 @@
 /* review.h - the curators' review queue.
  *
- * A queue holds the suggestions of `propose` (items, in arrival order)
- * with their status and the history of what happened to them: added,
+ * A queue holds the suggestions of `propose`, the findings of `overlap`
+ * and the rising titles and fading labels of `trend` (items, in arrival
+ * order) with their status and the history of what happened to them: added,
  * evidence refreshed, reopened, accepted, rejected, deferred, each with
  * when, who and on what evidence.  The queue lives in a JSON Lines file
  * (one item a line) or in a store (Redis); every change reads the whole
@@ -40,8 +41,8 @@
 enum rq_status { RQ_OPEN, RQ_ACCEPTED, RQ_REJECTED, RQ_DEFERRED, RQ_NSTATUS };
 
 /* The kinds of suggestion the queue takes, one line each: the name in
- * the enum, the kind as the engine that finds it writes it (propose;
- * trend and overlap add theirs here), and what an accepted one becomes
+ * the enum, the kind as the engine that finds it writes it (propose,
+ * overlap; trend's rows get theirs in review_trend.h), and what an accepted one becomes
  * in the delta: 'a' an alternative label to add, 'h' a hidden label to
  * add, 'r' a `review` row, a finding for the curator that never changes
  * the taxonomy.  Adding a kind is adding its line; the queue, its
@@ -53,6 +54,8 @@ enum rq_status { RQ_OPEN, RQ_ACCEPTED, RQ_REJECTED, RQ_DEFERRED, RQ_NSTATUS };
 	X(RK_ELSEWHERE, "used_elsewhere", 'r') \
 	X(RK_OVERLAP, "overlapping_occupations", 'r') \
 	X(RK_NEARER, "nearer_other_group", 'r') \
+	X(RK_RISING, "rising_title", 'a')     \
+	X(RK_FADING, "fading_label", 'r')     \
 	/* a new kind goes above this line */
 
 #define RQ_KIND_ENUM(e, name, delta) e,
@@ -92,9 +95,12 @@ typedef struct rq_event {
 
 /* What a list shows of the latest evidence, taken when it is read. */
 typedef struct rq_brief {
-	uint64_t occ_postings, rival_postings;
-	double precision;
+	uint64_t occ_postings, rival_postings; /* a trend row: the occupation's
+						* postings in the window of
+						* the item's postings */
+	double precision;     /* -1 when the evidence has none */
 	double strength;      /* in [0, 1]; -1 when the evidence has none */
+	double share_before, share_after; /* a trend row's; -1 otherwise */
 	char *rival, *variant_of, *occ_label; /* NULL when absent */
 } rq_brief;
 

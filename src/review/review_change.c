@@ -11,6 +11,7 @@
 #include "io/jsonr.h"
 #include "review/review_int.h"
 #include "review/review_json.h"
+#include "review/review_trend.h"
 #include "count/strtab.h"
 #include "rank/stats.h"
 
@@ -33,20 +34,29 @@ static int set_evidence(rq_item *it, const jr_val *v, uint64_t postings, double 
 	return TM_OK;
 }
 
-/* The figures the reopening rules compare, from an evidence object. */
+/* The figures the reopening rules compare, from an evidence object.  A
+ * row of trend: the postings of the title and of its occupation in the
+ * window "after", and whether the title falls. */
 typedef struct figures {
 	uint64_t postings, occ_postings;
 	double precision; /* -1: none */
+	int falling;
 } figures;
 
 static figures figures_of(const jr_val *ev, uint64_t postings)
 {
-	figures f = {postings, 0, -1};
+	figures f = {postings, 0, -1, 0};
 	const jr_val *p = jr_get(ev, "precision");
 	long long o = jr_vint(jr_get(ev, "occupation_postings"));
+	rq_trend_ev t;
 	f.occ_postings = o > 0 ? (uint64_t)o : 0;
 	if ((jr_vtype(p) == JR_INT || jr_vtype(p) == JR_REAL) && jr_vnum(p) >= 0 && jr_vnum(p) <= 1)
 		f.precision = jr_vnum(p);
+	if (rq_trend_figures(ev, &t)) {
+		f.postings = t.after;
+		f.occ_postings = t.occ_after;
+		f.falling = t.falling;
+	}
 	return f;
 }
 
@@ -55,7 +65,7 @@ static figures figures_of(const jr_val *ev, uint64_t postings)
 static int reopens(const rq_event *dec, const figures *now, const rq_reopen *r, char *why,
 		   size_t wn)
 {
-	figures then = {dec->postings, 0, -1};
+	figures then = {dec->postings, 0, -1, 0};
 	char jerr[64];
 	jr_doc *d = dec->evidence ? jr_parse(dec->evidence, strlen(dec->evidence), jerr, sizeof jerr)
 				  : NULL;
@@ -67,12 +77,17 @@ static int reopens(const rq_event *dec, const figures *now, const rq_reopen *r, 
 		double lo0, hi0, lo1, hi1;
 		wilson(then.postings, then.occ_postings, STATS_Z95, &lo0, &hi0);
 		wilson(now->postings, now->occ_postings, STATS_Z95, &lo1, &hi1);
-		if (lo1 > hi0) {
-			snprintf(why, wn, "the share grew: %llu of %llu postings, lower bound %.4f above "
-					  "%.4f, the upper bound at the rejection (%llu of %llu)",
-				 (unsigned long long)now->postings, (unsigned long long)now->occ_postings,
-				 lo1, hi0, (unsigned long long)then.postings,
-				 (unsigned long long)then.occ_postings);
+		/* a rising share grew; a fading label kept by the rejection fell
+		 * further */
+		int moved = now->falling ? hi1 < lo0 : lo1 > hi0;
+		if (moved) {
+			snprintf(why, wn, "the share %s: %llu of %llu postings, %s bound %.4f %s %.4f, "
+					  "the %s bound at the rejection (%llu of %llu)",
+				 now->falling ? "fell" : "grew", (unsigned long long)now->postings,
+				 (unsigned long long)now->occ_postings, now->falling ? "upper" : "lower",
+				 now->falling ? hi1 : lo1, now->falling ? "below" : "above",
+				 now->falling ? lo0 : hi0, now->falling ? "lower" : "upper",
+				 (unsigned long long)then.postings, (unsigned long long)then.occ_postings);
 			return 1;
 		}
 	}
@@ -82,7 +97,8 @@ static int reopens(const rq_event *dec, const figures *now, const rq_reopen *r, 
 			 then.precision, now->precision, r->precision_margin);
 		return 1;
 	}
-	if (r->factor > 0 && now->postings && (double)now->postings >= r->factor * (double)then.postings) {
+	if (r->factor > 0 && !now->falling && now->postings &&
+	    (double)now->postings >= r->factor * (double)then.postings) {
 		snprintf(why, wn, "the postings grew from %llu to %llu (%.1f times)",
 			 (unsigned long long)then.postings, (unsigned long long)now->postings,
 			 then.postings ? (double)now->postings / (double)then.postings : 0.0);
@@ -98,32 +114,55 @@ int rq_add(rq_queue *q, const char *line, size_t n, const char *where, const cha
 	return rq_add_by(q, line, n, where, now, &r, st, err);
 }
 
+/* Reads a line of propose or overlap (their own id, kind, score and
+ * postings) into s. */
+static int read_sugg(const jr_val *v, rqi_sugg *s, const char *where, tm_buf *err)
+{
+	const char *id;
+	size_t idl;
+	memset(s, 0, sizeof *s);
+	if (!(id = jr_vstr(jr_get(v, "id"), &idl)) || !idl || idl > RQ_ID_MAX || memchr(id, 0, idl))
+		return tm_fail(err, TM_EINPUT, where,
+			       "\"id\" is missing or not an id (a string of 1 to 64 bytes)", NULL);
+	memcpy(s->id, id, idl);
+	s->idl = idl;
+	if (rqi_get_name(v, "kind", rq_kind_names, RK_N, &s->kind, where, err) ||
+	    !(s->occ = rqi_get_str(v, "occupation", where, err)) ||
+	    !(s->lang = rqi_get_str(v, "lang", where, err)) ||
+	    !(s->label = rqi_get_str(v, "label", where, err)) ||
+	    rqi_get_score(v, "score", &s->score, where, err) ||
+	    rqi_get_count(v, "postings", &s->postings, where, err)) {
+		rqi_sugg_free(s);
+		return TM_EINPUT;
+	}
+	return TM_OK;
+}
+
 int rq_add_by(rq_queue *q, const char *line, size_t n, const char *where, const char *now,
 	      const rq_reopen *reopen, rq_addstat *st, tm_buf *err)
 {
 	char jerr[200];
 	jr_doc *d = jr_parse(line, n, jerr, sizeof jerr);
 	const jr_val *v = jr_root(d);
-	const char *id;
-	size_t idl;
-	int kind, rc = TM_EINPUT;
-	uint64_t postings;
-	double score;
-	char *occ = NULL, *lang = NULL, *label = NULL;
+	rqi_sugg s = {0};
+	int what = RQI_ITEM, rc;
 
 	if (!d) {
 		return tm_fail(err, TM_EINPUT, where, "not a suggestion: ", jerr);
 	}
-	if (!(id = jr_vstr(jr_get(v, "id"), &idl)) || !idl || idl > RQ_ID_MAX || memchr(id, 0, idl)) {
-		tm_fail(err, TM_EINPUT, where, "\"id\" is missing or not an id (a string of 1 to 64 bytes)", NULL);
+	/* a row of trend has a direction and no id of its own */
+	rc = jr_get(v, "direction") ? rqi_trend_sugg(v, &s, &what, where, err)
+				    : read_sugg(v, &s, where, err);
+	if (rc)
+		goto done;
+	if (what != RQI_ITEM) {
+		if (what == RQI_RISING_LABEL)
+			st->rising_labels++;
+		else
+			st->falling_titles++;
 		goto done;
 	}
-	if (rqi_get_name(v, "kind", rq_kind_names, RK_N, &kind, where, err) ||
-	    !(occ = rqi_get_str(v, "occupation", where, err)) ||
-	    !(lang = rqi_get_str(v, "lang", where, err)) || !(label = rqi_get_str(v, "label", where, err)) ||
-	    rqi_get_score(v, "score", &score, where, err) ||
-	    rqi_get_count(v, "postings", &postings, where, err))
-		goto done;
+	rc = TM_EINPUT;
 	/* every string that can reach an export, before anything changes */
 	const char *field;
 	char why[FC_WHY];
@@ -134,22 +173,22 @@ int rq_add_by(rq_queue *q, const char *line, size_t n, const char *where, const 
 		goto done;
 	}
 
-	long at = q->index ? st_find(q->index, id, idl) : -1;
+	long at = q->index ? st_find(q->index, s.id, s.idl) : -1;
 	rq_item *it = at >= 0 ? &q->it[q->index->ent[at].count - 1] : NULL;
 	if (!it) {
-		if (!(it = rqi_new_item(q, id, idl))) {
+		if (!(it = rqi_new_item(q, s.id, s.idl))) {
 			rc = tm_fail(err, TM_ENOMEM, where, "out of memory", NULL);
 			goto done;
 		}
-		it->kind = kind;
-		it->occ = occ, it->lang = lang, it->label = label;
-		occ = lang = label = NULL;
+		it->kind = s.kind;
+		it->occ = s.occ, it->lang = s.lang, it->label = s.label;
+		s.occ = s.lang = s.label = NULL;
 		if (!q->next_seq)
 			q->next_seq = 1;
 		it->seq = q->next_seq++;
 		it->status = RQ_OPEN;
 		if (!(it->added = strdup(now)) ||
-		    set_evidence(it, v, postings, score, now, where, err) ||
+		    set_evidence(it, v, s.postings, s.score, now, where, err) ||
 		    !rqi_new_event(it, RE_ADDED, now)) {
 			rc = tm_fail(err, TM_ENOMEM, where, "out of memory", NULL);
 			goto done;
@@ -158,7 +197,7 @@ int rq_add_by(rq_queue *q, const char *line, size_t n, const char *where, const 
 		rc = TM_OK;
 		goto done;
 	}
-	if (it->kind != kind || strcmp(it->occ, occ) || strcmp(it->lang, lang)) {
+	if (it->kind != s.kind || strcmp(it->occ, s.occ) || strcmp(it->lang, s.lang)) {
 		tm_fail(err, TM_EINPUT, where, "id ", it->id);
 		buf_puts(err, " is in the queue for another suggestion (kind, occupation or language differ)");
 		goto done;
@@ -174,7 +213,7 @@ int rq_add_by(rq_queue *q, const char *line, size_t n, const char *where, const 
 	}
 	if (it->status == RQ_REJECTED) {
 		const rq_event *dec = rq_last_decision(it);
-		figures fnow = figures_of(v, postings);
+		figures fnow = figures_of(v, s.postings);
 		char because[300];
 		if (dec && dec->noise) {
 			st->noise++;
@@ -185,7 +224,7 @@ int rq_add_by(rq_queue *q, const char *line, size_t n, const char *where, const 
 			st->kept_closed++;
 			goto done;
 		}
-		if ((rc = set_evidence(it, v, postings, score, now, where, err)) != TM_OK)
+		if ((rc = set_evidence(it, v, s.postings, s.score, now, where, err)) != TM_OK)
 			goto done;
 		rq_event *e = rqi_new_event(it, RE_REOPENED, now);
 		if (!e || !(e->evidence = strdup(it->evidence)) || !(e->reason = strdup(because))) {
@@ -198,8 +237,8 @@ int rq_add_by(rq_queue *q, const char *line, size_t n, const char *where, const 
 	}
 	/* open or deferred: the newest evidence, and a note of it when the
 	 * figures moved */
-	int moved = postings != it->postings || fabs(score - it->score) >= 0.00005;
-	if ((rc = set_evidence(it, v, postings, score, now, where, err)) != TM_OK)
+	int moved = s.postings != it->postings || fabs(s.score - it->score) >= 0.00005;
+	if ((rc = set_evidence(it, v, s.postings, s.score, now, where, err)) != TM_OK)
 		goto done;
 	if (moved) {
 		if (!rqi_new_event(it, RE_REFRESHED, now)) {
@@ -210,9 +249,7 @@ int rq_add_by(rq_queue *q, const char *line, size_t n, const char *where, const 
 	} else
 		st->unchanged++;
 done:
-	free(occ);
-	free(lang);
-	free(label);
+	rqi_sugg_free(&s);
 	jr_free(d);
 	return rc;
 }

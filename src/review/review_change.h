@@ -14,6 +14,8 @@ typedef struct rq_addstat {
 	size_t added, refreshed, unchanged, reopened, kept_closed, accepted_before;
 	size_t unknown_status; /* items left alone: their status is unknown */
 	size_t noise;          /* rejected as noise: closed for good (also in kept_closed) */
+	size_t rising_labels;  /* rows of trend that are no items: rising titles */
+	size_t falling_titles; /* that are labels, falling ones that are not */
 } rq_addstat;
 
 /* When a rejected suggestion reopens: its evidence has changed, not
@@ -28,18 +30,25 @@ typedef struct rq_addstat {
  *    the rejection;
  *  - factor > 0: the postings reach factor times those at the rejection.
  * The figures at the rejection are those of the evidence the rejection
- * event holds (postings, occupation_postings, precision).  A rejection
- * as noise never reopens by itself. */
+ * event holds (postings, occupation_postings, precision).  For an item of
+ * trend (review_trend.h) the share is that of the window "after": a
+ * rising title reopens when it grew as above; a fading label, kept by a
+ * rejection, when it fell: the upper bound of its interval now below the
+ * lower bound at the rejection; the factor never reopens a fading label.
+ * A rejection as noise never reopens by itself. */
 typedef struct rq_reopen {
 	double factor;           /* 0: off (the default) */
 	double precision_margin; /* RQ_REOPEN_PRECISION by default */
 } rq_reopen;
 #define RQ_REOPEN_PRECISION 0.2
 
-/* Takes one line of propose output (JSON) into the queue: new ids are
- * added; open and deferred items get the new evidence; a rejected item
- * reopens by the rules of r (above) and stays closed otherwise; an
- * accepted item, or one whose status is unknown, is left alone.
+/* Takes one line of propose, overlap or trend output (JSON; a trend row
+ * as review_trend.h says: a rising title that is a label and a falling
+ * title that is not are counted in st and change nothing) into the
+ * queue: new ids are added; open and deferred items get the new
+ * evidence; a rejected item reopens by the rules of r (above) and stays
+ * closed otherwise; an accepted item, or one whose status is unknown, is
+ * left alone.
  * where is "file:line" for messages.
  * Returns TM_OK, TM_EINPUT (the line is not a suggestion, or its id is
  * another suggestion's; q unchanged) or TM_ENOMEM. */

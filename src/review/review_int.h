@@ -17,6 +17,28 @@
 /* Longest id taken from propose output: ours are 16 hex digits. */
 #define RQ_ID_MAX 64
 
+/* A suggestion as add takes it in, from a line of propose or overlap
+ * (its own id, kind, score and postings) or of trend (derived:
+ * review_trend.h).  The strings are malloc'd; rqi_sugg_free frees them. */
+typedef struct rqi_sugg {
+	char id[RQ_ID_MAX + 1];
+	size_t idl;
+	int kind;
+	char *occ, *lang, *label;
+	double score;
+	uint64_t postings;
+} rqi_sugg;
+void rqi_sugg_free(rqi_sugg *s);
+
+/* What a trend row is for the queue. */
+enum { RQI_ITEM, RQI_RISING_LABEL, RQI_FALLING_TITLE };
+
+/* Reads a trend row v (review_trend.h) into s and sets *what to RQI_ITEM,
+ * or to what the row is when it is no queue item (s then empty).  TM_OK,
+ * TM_EINPUT (a field missing or wrong, the counts at odds with the
+ * direction) or TM_ENOMEM. */
+int rqi_trend_sugg(const jr_val *v, rqi_sugg *s, int *what, const char *where, tm_buf *err);
+
 /* Index of s[0..len) among names[0..n), or -1. */
 int rqi_name_index(const char *const *names, int n, const char *s, size_t len);
 
@@ -42,6 +64,8 @@ int rqi_get_count(const jr_val *v, const char *field, uint64_t *out, const char 
 		  tm_buf *err);
 int rqi_get_score(const jr_val *v, const char *field, double *out, const char *where,
 		  tm_buf *err);
+/* A JSON true or false: TM_OK with 1 or 0 in *out, or TM_EINPUT. */
+int rqi_get_bool(const jr_val *v, const char *field, int *out, const char *where, tm_buf *err);
 int rqi_get_name(const jr_val *v, const char *field, const char *const *names, int n,
 		 int *out, const char *where, tm_buf *err);
 

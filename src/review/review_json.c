@@ -13,6 +13,7 @@
 #include "review/review_batch.h"
 #include "review/review_int.h"
 #include "review/review_time.h"
+#include "review/review_trend.h"
 #include "count/strtab.h"
 
 const char *rq_item_evidence(const rq_item *c)
@@ -212,9 +213,17 @@ int rqi_set_brief(rq_item *it, const jr_val *ev)
 	free(b->occ_label);
 	memset(b, 0, sizeof *b);
 	b->occ_postings = (uint64_t)jr_vint(jr_get(ev, "occupation_postings"));
-	b->precision = jr_vnum(jr_get(ev, "precision"));
+	const jr_val *pv = jr_get(ev, "precision");
+	b->precision = jr_vtype(pv) == JR_INT || jr_vtype(pv) == JR_REAL ? jr_vnum(pv) : -1;
 	const jr_val *sv = jr_get(ev, "strength");
 	b->strength = jr_vtype(sv) == JR_INT || jr_vtype(sv) == JR_REAL ? jr_vnum(sv) : -1;
+	rq_trend_ev t;
+	b->share_before = b->share_after = -1;
+	if (rq_trend_figures(ev, &t)) {
+		b->occ_postings = t.falling ? t.occ_before : t.occ_after;
+		b->share_before = t.occ_before ? (double)t.before / (double)t.occ_before : 0;
+		b->share_after = t.occ_after ? (double)t.after / (double)t.occ_after : 0;
+	}
 	const jr_val *c = jr_get(ev, "competitor");
 	b->rival_postings = (uint64_t)jr_vint(jr_get(c, "postings"));
 	if ((s = jr_vstr(jr_get(c, "occupation"), &l)) && !memchr(s, 0, l) &&
@@ -252,13 +261,31 @@ static int others(const jr_val *v, const char *const *keys, size_t nkeys, char *
 	return TM_OK;
 }
 
-/* Whether v is the JSON literal true. */
-static int is_true(const jr_val *v)
+/* Whether v is the JSON literal lit (true, false). */
+static int is_literal(const jr_val *v, const char *lit)
 {
 	tm_buf b = {0};
-	int yes = jr_vtype(v) == JR_OTHER && !jr_dump(v, &b) && b.len == 4 && !memcmp(b.data, "true", 4);
+	int yes = jr_vtype(v) == JR_OTHER && !jr_dump(v, &b) && b.len == strlen(lit) &&
+		  !memcmp(b.data, lit, b.len);
 	buf_free(&b);
 	return yes;
+}
+
+static int is_true(const jr_val *v)
+{
+	return is_literal(v, "true");
+}
+
+int rqi_get_bool(const jr_val *v, const char *field, int *out, const char *where, tm_buf *err)
+{
+	const jr_val *x = jr_get(v, field);
+	if (is_literal(x, "true") || is_literal(x, "false")) {
+		*out = is_literal(x, "true");
+		return TM_OK;
+	}
+	tm_fail(err, TM_EINPUT, where, "\"", field);
+	buf_puts(err, "\" must be true or false");
+	return TM_EINPUT;
 }
 
 /* Reads one history entry into it: TM_OK, TM_EINPUT or TM_ENOMEM. */

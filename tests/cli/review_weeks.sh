@@ -44,7 +44,7 @@ check "add exits 0" 0 $?
 
 # --- fields: occupation_label, strength, the competitor in two columns
 run list $Q > "$tmp/list"
-check "list header" "id status kind occupation occupation_label lang label strength score postings occupation_postings precision competitor competitor_postings variant_of added proposed decided_by decided_at note" \
+check "list header" "id status kind occupation occupation_label lang label strength score postings occupation_postings precision competitor competitor_postings variant_of added proposed decided_by decided_at note share_before share_after" \
 	"$(head -1 "$tmp/list" | tr '\t' ' ')"
 got=$(awk -F '\t' '$1 == "00000000000000a1" { print $5 "|" $8 "|" $13 "|" $14 }' "$tmp/list")
 check "list: occupation_label, strength, competitor, competitor_postings" "Kommissionierer|0.9500|occ:0069|10" "$got"

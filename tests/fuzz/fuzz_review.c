@@ -1,8 +1,10 @@
 /* libFuzzer target: the review queue's readers.  The first byte picks
- * the reader: 0 a queue file, 1 propose output taken into a queue, 2 a
- * batch of decisions applied to that queue.  Whatever is accepted must
- * write out a queue that reads back and writes out the same bytes; a
- * refusal always says why. */
+ * the reader: 0 a queue file, 1 propose (or overlap, or trend) output
+ * taken into a queue, 2 a batch of decisions applied to that queue, 3
+ * (that byte only; others count modulo 3) the TSV of trend --tsv taken
+ * into a queue.  Whatever is accepted must write out a queue that reads
+ * back and writes out the same bytes; a trend row read from TSV must be
+ * one JSON object; a refusal always says why. */
 #include <stdint.h>
 #include <stdio.h>
 #include <stdlib.h>
@@ -13,6 +15,8 @@
 #include "review/review_batch.h"
 #include "review/review_change.h"
 #include "review/review_json.h"
+#include "review/review_trend.h"
+#include "io/jsonr.h"
 
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size);
 
@@ -66,6 +70,48 @@ static int add_lines(rq_queue *q, const char *s, size_t n)
 	return rc;
 }
 
+/* trend --tsv: a header line, then rows turned into trend's JSON objects
+ * and taken into q */
+static void add_tsv(rq_queue *q, const char *s, size_t n)
+{
+	tm_buf err = {0}, row = {0};
+	rq_trend_tsv h;
+	rq_addstat st = {0};
+	const char *p = s, *end = s + n;
+	int head = 1;
+	while (p < end) {
+		const char *line = p, *nl = memchr(p, '\n', (size_t)(end - p));
+		size_t len = (size_t)((nl ? nl : end) - p);
+		p = nl ? nl + 1 : end;
+		if (memchr(line, 0, len))
+			break; /* add refuses NUL bytes before these */
+		if (head) {
+			if (rq_trend_tsv_head(&h, line, len, "in:1", &err)) {
+				if (!err.len)
+					abort();
+				break;
+			}
+			head = 0;
+			continue;
+		}
+		buf_reset(&row);
+		int rc = rq_trend_tsv_row(&h, line, len, &row, "in:2", &err);
+		if (rc && !err.len)
+			abort();
+		if (rc)
+			continue;
+		char jerr[100];
+		jr_doc *d = jr_parse(row.data, row.len, jerr, sizeof jerr);
+		if (!d)
+			abort();
+		jr_free(d);
+		if (rq_add(q, row.data, row.len, "in:2", now, 3, &st, &err) && !err.len)
+			abort();
+	}
+	buf_free(&row);
+	buf_free(&err);
+}
+
 int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 {
 	rq_queue q = {0};
@@ -75,7 +121,7 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 		return 0;
 	const char *s = (const char *)data + 1;
 	size_t n = size - 1;
-	switch (data[0] % 3) {
+	switch (data[0] == 3 ? 3 : data[0] % 3) {
 	case 0:
 		if (rq_parse(&q, s, n, "queue", &err) == 0)
 			round_trip(&q);
@@ -122,6 +168,10 @@ int LLVMFuzzerTestOneInput(const uint8_t *data, size_t size)
 		rq_decisions_free(&ds);
 		break;
 	}
+	case 3:
+		add_tsv(&q, s, n);
+		round_trip(&q);
+		break;
 	}
 	rq_free(&q);
 	buf_free(&err);
