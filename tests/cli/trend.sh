@@ -144,6 +144,12 @@ $T coverage --labels "$L" --from 2026-02 --to 2026-02 "$tmp/all.month" > "$tmp/c
 check window-coverage "$(awk -F '\t' '$1 == "2026-02" { $1 = ""; print }' OFS='\t' "$tmp/cov.month" | cut -f2- | md5sum)" \
 	"$(tail -n +2 "$tmp/cov.feb" | md5sum)"
 
+# propose over a window is propose over the postings dated inside it
+$T propose --labels "$L" --from 2026-01-19 --to 2026-02-15 "$tmp/all.day" > "$tmp/prop.win" 2>/dev/null
+$T propose --labels "$L" "$tmp/win.day" > "$tmp/prop.tally" 2>/dev/null
+cmp -s "$tmp/prop.win" "$tmp/prop.tally"; check window-propose 0 $?
+check window-propose-nonempty 1 "$([ -s "$tmp/prop.win" ] && echo 1)"
+
 # ---- trend: the planted truth, the G2 values ----
 half=$("$py" -c 'import datetime; print(datetime.date(2026, 1, 5) + datetime.timedelta(days=30))')
 last=$("$py" -c 'import datetime; print(datetime.date(2026, 1, 5) + datetime.timedelta(days=59))')
