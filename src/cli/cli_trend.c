@@ -16,10 +16,6 @@
 #include "rank/propose.h"
 #include "rank/trend.h"
 
-/* The periods the default window "before" holds: the ones just before
- * the latest complete period. */
-#define TREND_BEFORE_PERIODS 3
-
 typedef struct trend_opts {
 	rank_opts in;
 	int tsv;
@@ -102,104 +98,12 @@ static const rec_field trend_fields[] = {
 
 _Static_assert(TALLY_EXAMPLES == 3, "trend --tsv has one column per example");
 
-/* The first day of the period of kind holding day z. */
-static long period_start(int kind, long z)
-{
-	char l[PERIOD_MAX];
-	long a, b;
-	size_t n = period_label(kind, z, l);
-	period_span(l, n, &a, &b, NULL);
-	return a;
-}
-
-/* A window as text: the labels of its first and last periods of kind
- * when it is made of whole ones, else its first and last days. */
-static void window_text(int kind, long a, long b, char *out, size_t cap)
-{
-	char x[PERIOD_MAX], y[PERIOD_MAX];
-	long s1, e1, s2, e2;
-	size_t n1, n2;
-	if (kind != PERIOD_DAY && kind != PERIOD_WEEK && kind != PERIOD_MONTH)
-		kind = PERIOD_DAY;
-	n1 = period_label(kind, a, x);
-	n2 = period_label(kind, b, y);
-	period_span(x, n1, &s1, &e1, NULL);
-	period_span(y, n2, &s2, &e2, NULL);
-	if (s1 != a || e2 != b) {
-		period_label(PERIOD_DAY, a, x);
-		period_label(PERIOD_DAY, b, y);
-	}
-	if (!strcmp(x, y))
-		snprintf(out, cap, "%s", x);
-	else
-		snprintf(out, cap, "%s..%s", x, y);
-}
-
-/* The first period each wanted (occupation, language, key) was counted
- * in: the periods walked in time order. */
-typedef struct first_seen {
-	strtab want;          /* occ 1F lang 1F key -> index into label */
-	const char **label;   /* NULL while not seen */
-} first_seen;
-
-static int first_seen_run(first_seen *fs, tally_series *s, const trend_list *l)
-{
-	size_t np;
-	series_period **v;
-	tm_buf k = {0};
-	int rc = 0;
-
-	for (size_t i = 0; i < l->n && !rc; i++) {
-		const trend_row *r = &l->v[i];
-		buf_reset(&k);
-		buf_append(&k, r->occ, r->ol);
-		buf_putc(&k, '\x1F');
-		buf_puts(&k, r->lang);
-		buf_putc(&k, '\x1F');
-		buf_append(&k, r->key, r->kl);
-		if (buf_status(&k) || st_add(&fs->want, k.data, k.len, 0, NULL) < 0)
-			rc = -1;
-	}
-	buf_free(&k);
-	if (rc || !(fs->label = calloc(fs->want.n ? fs->want.n : 1, sizeof *fs->label)))
-		return -1;
-	if (!(v = series_sorted(s, &np)))
-		return s->n ? -1 : 0;
-	for (size_t p = 0; p < np; p++) {
-		const strtab *f = &v[p]->m.forms;
-		if (!v[p]->len)
-			continue; /* undated: no time */
-		for (size_t i = 0; i < f->n; i++) {
-			size_t n, cut = 0, seps = 0;
-			const char *key = st_key(f, i, &n);
-			while (cut < n && (key[cut] != '\x1F' || ++seps < 3))
-				cut++;
-			long at = st_find(&fs->want, key, cut);
-			if (at >= 0 && !fs->label[at])
-				fs->label[at] = v[p]->label;
-		}
-	}
-	free(v);
-	return 0;
-}
-
-static const char *first_seen_of(const first_seen *fs, const trend_row *r, tm_buf *k)
-{
-	buf_reset(k);
-	buf_append(k, r->occ, r->ol);
-	buf_putc(k, '\x1F');
-	buf_puts(k, r->lang);
-	buf_putc(k, '\x1F');
-	buf_append(k, r->key, r->kl);
-	long at = buf_status(k) ? -1 : st_find(&fs->want, k->data, k->len);
-	return at >= 0 ? fs->label[at] : NULL;
-}
-
 typedef struct trend_out {
 	rec r;
 	const labelset *ls;
 	tally_mem *before, *after;
-	first_seen fs;
+	const char **first;  /* first_seen of each row of l */
+	const trend_list *l;
 	char wb[64], wa[64];
 	tm_buf k;
 } trend_out;
@@ -211,7 +115,7 @@ static void write_row(trend_out *o, const trend_row *t)
 	size_t exl[TALLY_EXAMPLES];
 	tally_mem *strong = t->direction == TREND_RISING ? o->after : o->before;
 	int nex = tm_examples(strong, t->occ, t->ol, t->lang, t->key, t->kl, ex, exl);
-	const char *first = first_seen_of(&o->fs, t, &o->k); /* into fs: o->k is free again */
+	const char *first = o->first[t - o->l->v];
 
 	rec_begin(r);
 	rec_cstr(r, trend_direction_names[t->direction]);
@@ -269,48 +173,26 @@ static void write_row(trend_out *o, const trend_row *t)
 static int windows(const trend_opts *o, tally_series *s, long *b0, long *b1, long *a0,
 		   long *a1)
 {
-	int kind = s->seen_kind;
-	if ((!o->after.given || !o->before.given) && kind == PERIOD_NONE) {
+	long today = o->as_of.given ? o->as_of.first : (long)(time(NULL) / 86400);
+	int r = trend_default_windows(s, today, o->before.given, o->after.given, b0, b1, a0, a1);
+	if (r == -1) {
 		fputs("titlemill trend: the counts have no periods (postings without dates, or a "
 		      "table tallied with --period none): give --before and --after, or tally "
 		      "dated postings\n", stderr);
 		return -1;
 	}
+	if (r == -2) {
+		fputs("titlemill trend: no period of the counts ended before --as-of (today "
+		      "when not given): give --after\n", stderr);
+		return -1;
+	}
 	if (o->after.given) {
 		*a0 = o->after.first;
 		*a1 = o->after.last;
-	} else {
-		long today = o->as_of.given ? o->as_of.first : (long)(time(NULL) / 86400);
-		size_t n;
-		series_period **v = series_sorted(s, &n);
-		const series_period *latest = NULL;
-		if (!v && s->n) {
-			fputs("titlemill trend: out of memory\n", stderr);
-			return -1;
-		}
-		for (size_t i = 0; i < n; i++)
-			if (v[i]->len && v[i]->last < today &&
-			    (v[i]->m.occs.n || v[i]->m.keys.n))
-				latest = v[i];
-		if (!latest) {
-			free(v);
-			fputs("titlemill trend: no period of the counts ended before --as-of (today "
-			      "when not given): give --after\n", stderr);
-			return -1;
-		}
-		*a0 = latest->first;
-		*a1 = latest->last;
-		free(v);
 	}
 	if (o->before.given) {
 		*b0 = o->before.first;
 		*b1 = o->before.last;
-	} else {
-		long d = *a0;
-		for (int i = 0; i < TREND_BEFORE_PERIODS; i++)
-			d = period_start(kind, d - 1);
-		*b0 = d;
-		*b1 = *a0 - 1;
 	}
 	if (*b1 >= *a0) {
 		fputs("titlemill trend: --before must end before --after starts\n", stderr);
@@ -345,8 +227,8 @@ int cmd_trend(int argc, char **argv)
 		rc = o.after.given || o.before.given ? EXIT_USAGE : EXIT_RUNTIME;
 		goto done;
 	}
-	window_text(in.s.seen_kind, b0, b1, to.wb, sizeof to.wb);
-	window_text(in.s.seen_kind, a0, a1, to.wa, sizeof to.wa);
+	trend_window_text(in.s.seen_kind, b0, b1, to.wb, sizeof to.wb);
+	trend_window_text(in.s.seen_kind, a0, a1, to.wa, sizeof to.wa);
 	nb = series_sum(&in.s, b0, b1, &before);
 	na = series_sum(&in.s, a0, a1, &after);
 	if (nb < 0 || na < 0) {
@@ -367,8 +249,10 @@ int cmd_trend(int argc, char **argv)
 	to.before = &before;
 	to.after = &after;
 	rec_init(&to.r, &out, o.tsv ? REC_TSV : REC_JSON, trend_fields);
+	to.l = &l;
 	if (trend_run(&before, &after, &in.ls, &o.bar, &f, &l) != 0 ||
-	    first_seen_run(&to.fs, &in.s, &l) != 0)
+	    !(to.first = calloc(l.n ? l.n : 1, sizeof *to.first)) ||
+	    trend_first_seen(&in.s, &l, to.first) != 0)
 		to.r.failed = 1;
 	else {
 		uint64_t per[2] = {0};
@@ -392,8 +276,7 @@ int cmd_trend(int argc, char **argv)
 		rc = cli_write_stdout("trend", &out) ? EXIT_RUNTIME : EXIT_OK;
 done:
 	trend_list_free(&l);
-	st_free(&to.fs.want);
-	free(to.fs.label);
+	free(to.first);
 	buf_free(&to.k);
 	buf_free(&out);
 	tm_free(&before);

@@ -6,6 +6,7 @@
  * reported. */
 #include "rank/trend.h"
 
+#include <stdio.h>
 #include <stdlib.h>
 #include <string.h>
 
@@ -208,4 +209,124 @@ void trend_list_free(trend_list *l)
 {
 	free(l->v);
 	memset(l, 0, sizeof *l);
+}
+
+/* ---- windows over periods ---- */
+
+/* The first day of the period of kind holding day z. */
+static long period_start(int kind, long z)
+{
+	char l[PERIOD_MAX];
+	long a, b;
+	size_t n = period_label(kind, z, l);
+	period_span(l, n, &a, &b, NULL);
+	return a;
+}
+
+int trend_default_windows(tally_series *s, long today, int have_before, int have_after,
+			  long *b0, long *b1, long *a0, long *a1)
+{
+	int kind = s->seen_kind;
+	if (have_before && have_after)
+		return 0;
+	if (kind == PERIOD_NONE)
+		return -1;
+	if (!have_after) {
+		const series_period *latest = NULL;
+		for (size_t i = 0; i < s->n; i++) {
+			const series_period *p = s->p[i];
+			if (p->len && p->last < today && (p->m.occs.n || p->m.keys.n) &&
+			    (!latest || p->first > latest->first))
+				latest = p;
+		}
+		if (!latest)
+			return -2;
+		*a0 = latest->first;
+		*a1 = latest->last;
+	}
+	if (!have_before) {
+		long d = *a0;
+		for (int i = 0; i < TREND_BEFORE_PERIODS; i++)
+			d = period_start(kind, d - 1);
+		*b0 = d;
+		*b1 = *a0 - 1;
+	}
+	return 0;
+}
+
+void trend_window_text(int kind, long a, long b, char *out, size_t cap)
+{
+	char x[PERIOD_MAX], y[PERIOD_MAX];
+	long s1, e1, s2, e2;
+	size_t n1, n2;
+	if (kind != PERIOD_DAY && kind != PERIOD_WEEK && kind != PERIOD_MONTH)
+		kind = PERIOD_DAY;
+	n1 = period_label(kind, a, x);
+	n2 = period_label(kind, b, y);
+	period_span(x, n1, &s1, &e1, NULL);
+	period_span(y, n2, &s2, &e2, NULL);
+	if (s1 != a || e2 != b) {
+		period_label(PERIOD_DAY, a, x);
+		period_label(PERIOD_DAY, b, y);
+	}
+	if (!strcmp(x, y))
+		snprintf(out, cap, "%s", x);
+	else
+		snprintf(out, cap, "%s..%s", x, y);
+}
+
+/* The joined key occ 1F lang 1F key of a row, in k. */
+static int row_key(const trend_row *r, tm_buf *k)
+{
+	buf_reset(k);
+	buf_append(k, r->occ, r->ol);
+	buf_putc(k, '\x1F');
+	buf_puts(k, r->lang);
+	buf_putc(k, '\x1F');
+	buf_append(k, r->key, r->kl);
+	return buf_status(k) ? -1 : 0;
+}
+
+int trend_first_seen(tally_series *s, const trend_list *l, const char **first)
+{
+	strtab want = {0};
+	tm_buf k = {0};
+	const char **at = NULL;
+	series_period **v = NULL;
+	size_t np = 0;
+	int rc = 0;
+
+	for (size_t i = 0; i < l->n && !rc; i++)
+		if (row_key(&l->v[i], &k) || st_add(&want, k.data, k.len, 0, NULL) < 0)
+			rc = -1;
+	if (!rc && !(at = calloc(want.n ? want.n : 1, sizeof *at)))
+		rc = -1;
+	if (!rc && !(v = series_sorted(s, &np)) && s->n)
+		rc = -1;
+	for (size_t p = 0; p < np && !rc; p++) {
+		const strtab *f = &v[p]->m.forms;
+		if (!v[p]->len)
+			continue; /* undated: no time */
+		for (size_t i = 0; i < f->n; i++) {
+			size_t n, cut = 0, seps = 0;
+			const char *key = st_key(f, i, &n);
+			while (cut < n && (key[cut] != '\x1F' || ++seps < 3))
+				cut++;
+			long w = st_find(&want, key, cut);
+			if (w >= 0 && !at[w])
+				at[w] = v[p]->label;
+		}
+	}
+	for (size_t i = 0; i < l->n && !rc; i++) {
+		long w;
+		if (row_key(&l->v[i], &k))
+			rc = -1;
+		else
+			first[i] = (w = st_find(&want, k.data, k.len)) >= 0 ? at[w] : NULL;
+	}
+	free(v);
+	free(at);
+	st_free(&want);
+	buf_free(&k);
+	return rc;
 }

@@ -32,6 +32,7 @@
 #include <stddef.h>
 #include <stdint.h>
 
+#include "count/series.h"
 #include "count/tally.h"
 #include "rank/labels.h"
 #include "rank/stats.h"
@@ -97,5 +98,28 @@ int trend_run(tally_mem *before, tally_mem *after, const labelset *ls, const tre
 	      const trend_filter *f, trend_list *out);
 
 void trend_list_free(trend_list *l);
+
+/* The periods the default earlier window holds: the ones just before
+ * the later. */
+#define TREND_BEFORE_PERIODS 3
+
+/* The default windows over the periods of s: the later the latest
+ * period of s with counts that ended before day today (a complete one),
+ * the earlier the TREND_BEFORE_PERIODS periods of its kind before it.
+ * Only the missing ones are set: *a0..*a1 when !have_after, *b0..*b1
+ * when !have_before.  Returns 0; -1 when s has no periods; -2 when no
+ * period of s ended before today. */
+int trend_default_windows(tally_series *s, long today, int have_before, int have_after,
+			  long *b0, long *b1, long *a0, long *a1);
+
+/* The first period of s (in time order, the undated aside) each row's
+ * title was counted in: first[i] for l->v[i], a label of s or NULL.
+ * Linear in the rows of s.  0, or -1 when memory ran out. */
+int trend_first_seen(tally_series *s, const trend_list *l, const char **first);
+
+/* A window as text: the labels of its first and last periods of kind
+ * when it is made of whole ones, else its first and last days ("a..b",
+ * or "a" alone). */
+void trend_window_text(int kind, long a, long b, char *out, size_t cap);
 
 #endif
