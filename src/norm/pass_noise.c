@@ -43,7 +43,8 @@ static int kind_of(int cat)
 }
 
 /* A word left hanging at a segment edge once its neighbour went: "in",
- * "bei", "bis", "und", "Tel." */
+ * "bei", "bis", "und", "Tel.", and at a segment's end the "mit" of
+ * "Lagerist mit [Prämie]" (units/, value `with`) */
 static int dangling(tm_title *ti, size_t k)
 {
 	size_t len;
@@ -51,6 +52,8 @@ static int dangling(tm_title *ti, size_t k)
 	if (match_val(ti, k, LC_UNIT, "connector", 1, &len) && len == 1)
 		return 1;
 	if (match_val(ti, k, LC_UNIT, "contact", 1, &len) && len == 1)
+		return 1;
+	if (match_val(ti, k, LC_UNIT, "with", 1, &len) && len == 1)
 		return 1;
 	if (match_val(ti, k, LC_PAY, "lead", 1, &len) && len == 1)
 		return 1;
