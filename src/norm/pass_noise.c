@@ -236,6 +236,29 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 		*changed = 1; /* the next round looks again */
 		break;
 	}
+	/* a noun for the work itself left before the remote, schedule or
+	 * workload phrase that said how it is done: "Lucru [100% remote]",
+	 * "Programator lucru [100% remote]"; opening its segment or right
+	 * after a word naming the occupation ("Social Work [Part-time]"
+	 * keeps it) */
+	seg_kept(ti, s, &k0, &k1);
+	for (k = k0; k < k1; k++) {
+		size_t t1;
+		if (!match_val(ti, k, LC_UNIT, "work", 1, &len) || k + len > k1 ||
+		    !units_free(ti, k, k + len))
+			continue;
+		t1 = ti->unit[k + len - 1] + 1;
+		if (!removed_tok(ti, t1) ||
+		    (ti->rm[t1] != NF_SCHEDULE && ti->rm[t1] != NF_WORKLOAD))
+			continue;
+		if (k != k0 && !(ukept(ti, k - 1) && useg(ti, k - 1) == s &&
+				 (head_within(ti, k - 1, k) || ending_whole(ti, k - 1))))
+			continue;
+		if (remove_units(ti, k, k + len, NF_SCHEDULE, NULL))
+			return -1;
+		*changed = 1;
+		break;
+	}
 	/* the contract word or preposition left before the duration the
 	 * schedule rule removed, in a segment beside the occupation:
 	 * "befristet für [2 Jahre]", "contrat de [3 mois]", "initial [3

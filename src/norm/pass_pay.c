@@ -445,6 +445,19 @@ int pass_schedule(tm_title *ti)
 			  match_val(ti, j, LC_PAY, "lead", 1, &len)) &&
 			 j + len < ti->nunit && U(ti, j + len)->kind == TK_NUM)
 			j += len + 1;
+		/* the sign written first, as Turkish does: %100, %50-80 */
+		if (k > 0 && U(ti, k - 1)->kind == TK_SYM && U(ti, k - 1)->ch == '%' &&
+		    ukept(ti, k - 1) && glued(ti, k - 1, k, "") &&
+		    !(j < ti->nunit && U(ti, j)->kind == TK_SYM && U(ti, j)->ch == '%')) {
+			e = k + 1;
+			if (e < ti->nunit && U(ti, e)->kind == TK_NUM && ukept(ti, e) &&
+			    ti->unit[e] == ti->unit[k] + 2 && tok_is(ti, ti->unit[k] + 1, '-'))
+				e++;
+			if (remove_units(ti, k - 1, e, NF_WORKLOAD, NULL))
+				return -1;
+			k = e - 1;
+			continue;
+		}
 		if (j < ti->nunit && U(ti, j)->kind == TK_SYM && U(ti, j)->ch == '%') {
 			size_t b = k, l2;
 			if (k > 0 && ukept(ti, k - 1) &&
