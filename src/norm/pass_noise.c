@@ -243,18 +243,17 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 	 * keeps it) */
 	seg_kept(ti, s, &k0, &k1);
 	for (k = k0; k < k1; k++) {
-		size_t t1;
-		if (!match_val(ti, k, LC_UNIT, "work", 1, &len) || k + len > k1 ||
-		    !units_free(ti, k, k + len))
-			continue;
-		t1 = ti->unit[k + len - 1] + 1;
-		if (!removed_tok(ti, t1) ||
-		    (ti->rm[t1] != NF_SCHEDULE && ti->rm[t1] != NF_WORKLOAD))
+		/* one word: the token after it removed as the phrase */
+		size_t t1 = ti->unit[k] + 1;
+		if (U(ti, k)->kind != TK_WORD || !removed_tok(ti, t1) ||
+		    (ti->rm[t1] != NF_SCHEDULE && ti->rm[t1] != NF_WORKLOAD) ||
+		    !match_val(ti, k, LC_UNIT, "work", 1, &len) || len != 1 ||
+		    !units_free(ti, k, k + 1))
 			continue;
 		if (k != k0 && !(ukept(ti, k - 1) && useg(ti, k - 1) == s &&
 				 (head_within(ti, k - 1, k) || ending_whole(ti, k - 1))))
 			continue;
-		if (remove_units(ti, k, k + len, NF_SCHEDULE, NULL))
+		if (remove_units(ti, k, k + 1, NF_SCHEDULE, NULL))
 			return -1;
 		*changed = 1;
 		break;
