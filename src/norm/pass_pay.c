@@ -233,15 +233,17 @@ static size_t grade_part(tm_title *ti, size_t k, size_t k0)
 	const lex_entry *e;
 	if ((len = grade_word(ti, k, k0)))
 		return len;
+	/* a pay phrase before a code of its first word: "CCNL
+	 * Metalmeccanici 5° livello" is a phrase, then a grade */
+	e = match_mask(ti, k, 1u << LC_PAY | 1u << LC_SENIORITY, 1, &len);
+	if (e && (e->cat == LC_SENIORITY || !strcmp(e->value, "phrase")))
+		return len;
 	if (grade_code(ti, k))
 		return 1;
 	/* an ordinal sign glued to a number: 5° livello */
 	if (k > k0 && U(ti, k)->kind == TK_SYM && U(ti, k - 1)->kind == TK_NUM &&
 	    glued(ti, k - 1, k, ""))
 		return 1;
-	e = match_mask(ti, k, 1u << LC_PAY | 1u << LC_SENIORITY, 1, &len);
-	if (e && (e->cat == LC_SENIORITY || !strcmp(e->value, "phrase")))
-		return len;
 	return 0;
 }
 
@@ -428,6 +430,16 @@ int pass_schedule(tm_title *ti)
 		const lex_entry *u;
 		if (U(ti, k)->kind != TK_NUM || !ukept(ti, k) || ti->prot[ti->unit[k]])
 			continue;
+		/* a star rating, "5* Hotel", "4*-Hotel": one digit and a star
+		 * glued to it (the lexicon cannot hold it: a star inside a
+		 * phrase is ignored, and "5*" would match every 5) */
+		if (U(ti, k)->len == 1 && lead_value(ti, U(ti, k)) >= 1 &&
+		    lead_value(ti, U(ti, k)) <= 5 && tok_is(ti, ti->unit[k] + 1, '*') &&
+		    !ti->tl.t[ti->unit[k] + 1].sp) {
+			if (remove_toks(ti, ti->unit[k], ti->unit[k] + 1, NF_MARKETING, NULL))
+				return -1;
+			continue;
+		}
 		if ((e = rotation(ti, k))) {
 			if (remove_units(ti, k, e, NF_SCHEDULE, "shift"))
 				return -1;
