@@ -32,13 +32,13 @@ static const char *const v_schedule[] = {
 	"weekend", "seasonal", "student", "flexible", NULL};
 static const char *const v_pay[] = {"phrase", "currency", "unit", "lead", NULL};
 static const char *const v_reference[] = {"keyword", NULL};
-static const char *const v_employer[] = {"marker", "legal", NULL};
+static const char *const v_employer[] = {"marker", "legal", "verb", NULL};
 static const char *const v_location[] = {"prep", "before", "after",
 					 "country-code", "subdivision", NULL};
 static const char *const v_unit[] = {"hours", "week", "month", "year", "day", "contact",
 				     "workload", "fte",
 				     "connector", "degree", "weekday", "post",
-				     "channel", NULL};
+				     "channel", "with", "work", NULL};
 static const char *const v_occupation[] = {"head", "suffix", "field", NULL};
 static const char *const v_business[] = {"kind", "legal", "article", NULL};
 static const char *const v_none[] = {"-", NULL};

@@ -290,7 +290,8 @@ static int norm_once(normaliser *nm, const char *src, size_t n, norm_result *res
 			protect(ti);
 	}
 	/* each rule runs only where the line holds what it looks for */
-	if (((f & (LF_NUM | LF_DIGITWORD | LF_SYM) || HAS(ti, LC_REFERENCE)) &&
+	if (((f & LF_NUM) && HAS(ti, LC_SCHEDULE) && pass_shifts(ti)) ||
+	    ((f & (LF_NUM | LF_DIGITWORD | LF_SYM) || HAS(ti, LC_REFERENCE)) &&
 	     pass_reference(ti)) ||
 	    ((HAS(ti, LC_UNIT) || (f & LF_DIGITWORD)) && pass_days(ti)) ||
 	    ((f & LF_NUM) && (pass_pay(ti) || pass_schedule(ti))) ||

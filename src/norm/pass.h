@@ -41,6 +41,9 @@
 #define ROTA_HOURS_MIN 6
 #define ROTA_HOURS_MAX 12
 #define ROTA_DAYS_MAX 28
+/* The word naming shifts before a list of clock ranges ("in Schichten
+ * 6-14 / 14-22") is a phrase of at most SHIFT_WORD_BACK units. */
+#define SHIFT_WORD_BACK 4
 /* The name of a firm written after its legal form ("UAB Nemuno
  * logistika", "SIA Daugavas loģistika") holds at most EMPLOYER_NAME_MAX
  * words; a longer rest of the segment is not a name. */
@@ -65,6 +68,7 @@ int pass_pay(tm_title *ti);
 int pass_grade(tm_title *ti);    /* pay scales and grades */
 int pass_schedule(tm_title *ti);  /* hours, workload, durations */
 int pass_days(tm_title *ti);      /* day ranges, clock ranges, head counts */
+int pass_shifts(tm_title *ti);    /* clock ranges after a shift word */
 int pass_hashtags(tm_title *ti);
 int pass_employer(tm_title *ti);
 int pass_location(tm_title *ti);

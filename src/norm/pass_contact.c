@@ -303,6 +303,73 @@ int noise_date_at_edge(tm_title *ti, size_t k)
 	return remove_units(ti, k, e, NF_DATE, NULL) == 0;
 }
 
+/* Is units [k0, e] a code written in capitals, "SS844", "HR-2231",
+ * "KO-123": code units and capitals glued, at least two letters and
+ * three digits?  One letter ("A320", a type) or two digits ("ATR72")
+ * are too little to tell a code from a qualifier. */
+static int caps_code(tm_title *ti, size_t k0, size_t e)
+{
+	size_t letters = 0, digits = 0;
+	for (size_t k = k0; k <= e; k++) {
+		const tm_tok *t = U(ti, k);
+		size_t d = ndigits(ti, t);
+		if (!ukept(ti, k) || ti->prot[ti->unit[k]])
+			return 0;
+		if (t->kind == TK_WORD && !(t->flags & TF_ALLCAPS) &&
+		    !(t->len - d == 1 && (t->flags & TF_CAP)))
+			return 0;
+		digits += d;
+		letters += t->kind == TK_WORD ? t->len - d : 0;
+	}
+	return letters >= 2 && digits >= 3;
+}
+
+/* Does a kept unit of [k0, k1) name an occupation: a head, a protected
+ * phrase, or an occupational ending written whole ("lagerist")? */
+static int names_occupation(tm_title *ti, size_t k0, size_t k1)
+{
+	size_t len;
+	if (head_within(ti, k0, k1))
+		return 1;
+	for (size_t k = k0; k < k1; k++)
+		if (ukept(ti, k) && match_val(ti, k, LC_OCCUPATION, "suffix", 1, &len) &&
+		    ending_whole(ti, k))
+			return 1;
+	return 0;
+}
+
+/* An internal code written beside the occupation in the title's first
+ * segment: opening the title ("SS844 Lagerist", "HR-2231: Koch", or the
+ * whole first segment, "KO-123 – Koch") or ending the segment after the
+ * occupation ("Koch SS844").  The occupation next to it is the signal
+ * that the code qualifies nothing; a code alone stays. */
+static int edge_code(tm_title *ti)
+{
+	size_t k0, k1, e, b;
+	if (!ti->nseg || ti->segs[0].bracket)
+		return 0;
+	seg_kept(ti, 0, &k0, &k1);
+	if (k0 >= k1)
+		return 0;
+	if (code_at(ti, k0) && U(ti, k0)->kind != TK_NUM &&
+	    caps_code(ti, k0, e = code_end(ti, k0))) {
+		size_t r0 = e + 1, r1 = k1;
+		if (r0 >= k1 && ti->nseg > 1)
+			seg_kept(ti, 1, &r0, &r1);
+		if (r0 < r1 && names_occupation(ti, r0, r1))
+			return remove_units(ti, k0, e + 1, NF_REFERENCE, NULL) ? -1 : 1;
+	}
+	/* the last code of the segment: back to its first unit */
+	for (b = k1 - 1; b > k0 && glued(ti, b - 1, b, "-_/.") &&
+	     (code_unit(ti, b - 1) || caps_unit(ti, b - 1));)
+		b--;
+	if (b > k0 && code_at(ti, b) && U(ti, b)->kind != TK_NUM &&
+	    code_end(ti, b) + 1 == k1 && caps_code(ti, b, k1 - 1) &&
+	    names_occupation(ti, k0, b))
+		return remove_units(ti, b, k1, NF_REFERENCE, NULL) ? -1 : 1;
+	return 0;
+}
+
 int pass_reference(tm_title *ti)
 {
 	size_t k, len;
@@ -354,6 +421,8 @@ int pass_reference(tm_title *ti)
 			continue;
 		}
 	}
+	if (edge_code(ti) < 0)
+		return -1;
 	/* a bracket or later segment that is one code: [REQ-0091], - 12345 */
 	for (size_t s = 0; s < ti->nseg; s++) {
 		size_t k0, k1, e;

@@ -43,7 +43,8 @@ static int kind_of(int cat)
 }
 
 /* A word left hanging at a segment edge once its neighbour went: "in",
- * "bei", "bis", "und", "Tel." */
+ * "bei", "bis", "und", "Tel.", and at a segment's end the "mit" of
+ * "Lagerist mit [Prämie]" (units/, value `with`) */
 static int dangling(tm_title *ti, size_t k)
 {
 	size_t len;
@@ -51,6 +52,8 @@ static int dangling(tm_title *ti, size_t k)
 	if (match_val(ti, k, LC_UNIT, "connector", 1, &len) && len == 1)
 		return 1;
 	if (match_val(ti, k, LC_UNIT, "contact", 1, &len) && len == 1)
+		return 1;
+	if (match_val(ti, k, LC_UNIT, "with", 1, &len) && len == 1)
 		return 1;
 	if (match_val(ti, k, LC_PAY, "lead", 1, &len) && len == 1)
 		return 1;
@@ -231,6 +234,28 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 		if (remove_units(ti, k, k + len, NF_MARKETING, NULL))
 			return -1;
 		*changed = 1; /* the next round looks again */
+		break;
+	}
+	/* a noun for the work itself left before the remote, schedule or
+	 * workload phrase that said how it is done: "Lucru [100% remote]",
+	 * "Programator lucru [100% remote]"; opening its segment or right
+	 * after a word naming the occupation ("Social Work [Part-time]"
+	 * keeps it) */
+	seg_kept(ti, s, &k0, &k1);
+	for (k = k0; k < k1; k++) {
+		/* one word: the token after it removed as the phrase */
+		size_t t1 = ti->unit[k] + 1;
+		if (U(ti, k)->kind != TK_WORD || !removed_tok(ti, t1) ||
+		    (ti->rm[t1] != NF_SCHEDULE && ti->rm[t1] != NF_WORKLOAD) ||
+		    !match_val(ti, k, LC_UNIT, "work", 1, &len) || len != 1 ||
+		    !units_free(ti, k, k + 1))
+			continue;
+		if (k != k0 && !(ukept(ti, k - 1) && useg(ti, k - 1) == s &&
+				 (head_within(ti, k - 1, k) || ending_whole(ti, k - 1))))
+			continue;
+		if (remove_units(ti, k, k + 1, NF_SCHEDULE, NULL))
+			return -1;
+		*changed = 1;
 		break;
 	}
 	/* the contract word or preposition left before the duration the

@@ -233,15 +233,17 @@ static size_t grade_part(tm_title *ti, size_t k, size_t k0)
 	const lex_entry *e;
 	if ((len = grade_word(ti, k, k0)))
 		return len;
+	/* a pay phrase before a code of its first word: "CCNL
+	 * Metalmeccanici 5° livello" is a phrase, then a grade */
+	e = match_mask(ti, k, 1u << LC_PAY | 1u << LC_SENIORITY, 1, &len);
+	if (e && (e->cat == LC_SENIORITY || !strcmp(e->value, "phrase")))
+		return len;
 	if (grade_code(ti, k))
 		return 1;
 	/* an ordinal sign glued to a number: 5° livello */
 	if (k > k0 && U(ti, k)->kind == TK_SYM && U(ti, k - 1)->kind == TK_NUM &&
 	    glued(ti, k - 1, k, ""))
 		return 1;
-	e = match_mask(ti, k, 1u << LC_PAY | 1u << LC_SENIORITY, 1, &len);
-	if (e && (e->cat == LC_SENIORITY || !strcmp(e->value, "phrase")))
-		return len;
 	return 0;
 }
 
@@ -428,6 +430,16 @@ int pass_schedule(tm_title *ti)
 		const lex_entry *u;
 		if (U(ti, k)->kind != TK_NUM || !ukept(ti, k) || ti->prot[ti->unit[k]])
 			continue;
+		/* a star rating, "5* Hotel", "4*-Hotel": one digit and a star
+		 * glued to it (the lexicon cannot hold it: a star inside a
+		 * phrase is ignored, and "5*" would match every 5) */
+		if (U(ti, k)->len == 1 && lead_value(ti, U(ti, k)) >= 1 &&
+		    lead_value(ti, U(ti, k)) <= 5 && tok_is(ti, ti->unit[k] + 1, '*') &&
+		    !ti->tl.t[ti->unit[k] + 1].sp) {
+			if (remove_toks(ti, ti->unit[k], ti->unit[k] + 1, NF_MARKETING, NULL))
+				return -1;
+			continue;
+		}
 		if ((e = rotation(ti, k))) {
 			if (remove_units(ti, k, e, NF_SCHEDULE, "shift"))
 				return -1;
@@ -445,6 +457,19 @@ int pass_schedule(tm_title *ti)
 			  match_val(ti, j, LC_PAY, "lead", 1, &len)) &&
 			 j + len < ti->nunit && U(ti, j + len)->kind == TK_NUM)
 			j += len + 1;
+		/* the sign written first, as Turkish does: %100, %50-80 */
+		if (k > 0 && U(ti, k - 1)->kind == TK_SYM && U(ti, k - 1)->ch == '%' &&
+		    ukept(ti, k - 1) && glued(ti, k - 1, k, "") &&
+		    !(j < ti->nunit && U(ti, j)->kind == TK_SYM && U(ti, j)->ch == '%')) {
+			e = k + 1;
+			if (e < ti->nunit && U(ti, e)->kind == TK_NUM && ukept(ti, e) &&
+			    ti->unit[e] == ti->unit[k] + 2 && tok_is(ti, ti->unit[k] + 1, '-'))
+				e++;
+			if (remove_units(ti, k - 1, e, NF_WORKLOAD, NULL))
+				return -1;
+			k = e - 1;
+			continue;
+		}
 		if (j < ti->nunit && U(ti, j)->kind == TK_SYM && U(ti, j)->ch == '%') {
 			size_t b = k, l2;
 			if (k > 0 && ukept(ti, k - 1) &&
@@ -548,14 +573,15 @@ static size_t clock_time(tm_title *ti, size_t k)
 	return k;
 }
 
-/* A clock range at k: 7–15, 9-5, 08.00–16.00 Uhr, 7 bis 15 h.  Returns
- * its end (exclusive), or 0. */
-static size_t clock_range(tm_title *ti, size_t k)
+/* A clock range at k: 7–15, 9-5, 08.00–16.00 Uhr, 7 bis 15 h, its two
+ * times glued by one of dashes ("-/" or "-": "2/2" is a rotation).
+ * Returns its end (exclusive), or 0. */
+static size_t clock_range(tm_title *ti, size_t k, const char *dashes)
 {
 	size_t e = clock_time(ti, k), r, len;
 	if (!e || e >= ti->nunit)
 		return 0;
-	if (glued(ti, e - 1, e, "-/") && ti->unit[e] == ti->unit[e - 1] + 2)
+	if (glued(ti, e - 1, e, dashes) && ti->unit[e] == ti->unit[e - 1] + 2)
 		r = e;
 	else if (unit_val(ti, e, "connector", &len) && len == 1)
 		r = e + 1;
@@ -566,6 +592,82 @@ static size_t clock_range(tm_title *ti, size_t k)
 	if (unit_val(ti, e, "hours", &len))
 		e += len;
 	return e;
+}
+
+/* Are units a and b (a < b) apart by nothing but spaces and list
+ * punctuation (/ , + ;), none of it inside a word?  "6-14 / 14-22",
+ * "6-14, 14-22", "6-14/14-22". */
+static int list_sep(const tm_title *ti, size_t a, size_t b)
+{
+	for (size_t t = ti->unit[a] + 1; t < ti->unit[b]; t++) {
+		const tm_tok *x = &ti->tl.t[t];
+		if (x->kind != TK_PUNCT || !x->ch || !strchr("/,+;", x->ch))
+			return 0;
+	}
+	return 1;
+}
+
+/* A list of clock ranges at k, "6-14 / 14-22 / 22-6", the ranges apart
+ * by list punctuation or a connector ("6-14 und 14-22").  Returns the
+ * end (exclusive) of the last, or 0. */
+static size_t clock_ranges(tm_title *ti, size_t k)
+{
+	size_t e = clock_range(ti, k, "-"), n, len;
+	while (e && e < ti->nunit) {
+		size_t r = e;
+		if (unit_val(ti, r, "connector", &len) && len == 1)
+			r++;
+		if (r >= ti->nunit || !list_sep(ti, e - 1, e) ||
+		    !list_sep(ti, r - 1, r) || !(n = clock_range(ti, r, "-")))
+			break;
+		e = n;
+	}
+	return e;
+}
+
+/* A shift phrase of schedule/ (value `shift` or `night`) ending at unit
+ * e, starting at most SHIFT_WORD_BACK units before it: the start of the
+ * longest ("su turni", not "turni"), or e. */
+static size_t shift_word_before(tm_title *ti, size_t e)
+{
+	static const char *const vals[] = {"shift", "night"};
+	size_t start = e;
+	for (size_t b = e; b-- > 0 && e - b <= SHIFT_WORD_BACK;) {
+		size_t len;
+		if (!ukept(ti, b) || ti->prot[ti->unit[b]])
+			break;
+		for (size_t v = 0; v < 2; v++)
+			if (match_val(ti, b, LC_SCHEDULE, vals[v], 1, &len) &&
+			    b + len == e)
+				start = b;
+	}
+	return start;
+}
+
+/* Shift times: clock ranges after a word that names shifts ("Schicht
+ * 22-6", "Turni 6-14 / 14-22", "shifts 6-2 / 2-10"); the word says the
+ * numbers are clock times, which alone ("Klasse 1-4") they need not be.
+ * The phrase goes whole when it ends or opens its segment; it runs
+ * before the reference codes, which would read a segment "14-22" as
+ * one, and the rotations, which would read "14/14" as days. */
+int pass_shifts(tm_title *ti)
+{
+	for (size_t k = 1; k < ti->nunit; k++) {
+		size_t b, e, k0, k1;
+		if (U(ti, k)->kind != TK_NUM || !ukept(ti, k) ||
+		    (b = shift_word_before(ti, k)) == k || !(e = clock_ranges(ti, k)))
+			continue;
+		seg_kept(ti, useg(ti, b), &k0, &k1);
+		size_t f0, f1;
+		seg_kept(ti, useg(ti, e - 1), &f0, &f1);
+		if (b != k0 && e != f1)
+			continue;
+		if (remove_units(ti, b, k, NF_SCHEDULE, "shift") ||
+		    remove_units(ti, k, e, NF_HOURS, NULL))
+			return -1;
+		k = e - 1;
+	}
+	return 0;
 }
 
 /* Day names: a weekday, a range of them (Mo–Fr, man–fre, de lunes a
@@ -590,7 +692,7 @@ static size_t day_phrase(tm_title *ti, size_t k, int *range)
 		e += c + len;
 		*range = 1;
 	}
-	if ((c = clock_range(ti, e))) {
+	if ((c = clock_range(ti, e, "-/"))) {
 		e = c;
 		*range |= 2;
 	}

@@ -312,10 +312,43 @@ static int subdivision_bracket(tm_title *ti, size_t s, size_t k0, size_t k1)
 	return t->kind == TK_NUM || (t->flags & TF_ALLCAPS);
 }
 
+/* The employer named before a verb that says it recruits, at the start
+ * of the title: "Talvero Systems sucht Lagerist", "Pellworth Retail is
+ * hiring: Dentist", "Groupe Vervial recrute …" (employer/, value
+ * `verb`; the verb may have gone already as marketing).  The name is
+ * one to EMPLOYER_NAME_MAX words in the first segment, opening with a
+ * capital, none of them naming an occupation ("Koch sucht Stelle"
+ * stays); the occupation follows the verb.  Name and verb go. */
+static int employer_verb(tm_title *ti, int caps)
+{
+	size_t k0, k1, v, len = 0;
+	if (!ti->nseg || ti->segs[0].bracket)
+		return 0;
+	seg_kept(ti, 0, &k0, &k1);
+	if (k0 >= k1 || !cap_word(ti, k0, caps))
+		return 0;
+	for (v = k0 + 1; v <= k0 + EMPLOYER_NAME_MAX && v < ti->nunit && useg(ti, v) == 0; v++)
+		if (match_val(ti, v, LC_EMPLOYER, "verb", 0, &len))
+			break;
+	if (v > k0 + EMPLOYER_NAME_MAX || v >= ti->nunit || useg(ti, v) != 0 ||
+	    !units_free(ti, k0, v))
+		return 0;
+	for (size_t k = k0; k < v; k++)
+		if (U(ti, k)->kind != TK_WORD || evidence_at(ti, k, 0, k0) == EV_HEAD)
+			return 0;
+	for (size_t k = v + len; k < ti->nunit; k++)
+		if (evidence_at(ti, k, 0, k0) == EV_HEAD)
+			return remove_units(ti, k0, v + len, NF_EMPLOYER, NULL) ? -1 : 1;
+	return 0;
+}
+
 int pass_roles(tm_title *ti)
 {
 	size_t s, head = SIZE_MAX, first = SIZE_MAX, last, k0, k1;
 	int caps = all_caps_line(ti), evidence = 0;
+
+	if (HAS(ti, LC_EMPLOYER) && employer_verb(ti, caps) < 0)
+		return -1;
 
 	/* the head: the first segment with evidence, a proper name that
 	 * ends like an occupation counting only when nothing else does */

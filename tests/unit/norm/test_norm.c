@@ -137,6 +137,12 @@ static int setup(void **state)
 	add(LX2, LC_PLACE, "*", "Wetter", "DE", LW_STRONG);
 	add(LX2, LC_PLACE, "*", "Ruhr", "DE", LW_SLOT);
 	add(LX2, LC_PLACE, "*", "Bau", "DE", LW_STRONG);
+	/* the rules for what the other rules leave behind */
+	add(LX2, LC_UNIT, "de", "mit", "with", LW_ANY);
+	add(LX2, LC_PAY, "de", "Prämie", "phrase", LW_EDGE);
+	add(LX2, LC_SCHEDULE, "de", "Schicht", "shift", LW_ALONE);
+	add(LX2, LC_UNIT, "en", "work", "work", LW_ANY);
+	add(LX2, LC_EMPLOYER, "de", "sucht", "verb", LW_ANY);
 	NM2 = norm_new(LX2);
 	return 0;
 }
@@ -385,6 +391,35 @@ static void test_employer(void **state)
 	title_is("Koch bei München", "koch bei münchen"); /* bei is no prep here */
 }
 
+/* What the other rules leave: the preposition of a removed pay remark,
+ * clock ranges after a shift word, a code beside the occupation, the
+ * noun for the work before a remote phrase, the percent sign written
+ * first, an employer before a recruiting verb, a star rating. */
+static void test_leftovers(void **state)
+{
+	(void)state;
+	role_is("Koch mit Prämie", "koch");
+	role_is("Koch mit Bau", "koch mit bau");
+	role_is("Koch Schicht 22-6", "koch");
+	role_is("Koch Schicht 6-14 / 14-22", "koch");
+	/* a slash joins no clock range: 2/2 is a rotation, the word stays */
+	role_is("Koch Schicht 2/2", "koch schicht");
+	role_is("Koch 6-14", "koch 6-14");
+	role_is("SS844 Koch", "koch");
+	role_is("HR-2231 Koch", "koch");
+	role_is("Koch SS844", "koch");
+	role_is("A320 Koch", "a320 koch");
+	role_is("SS844 Bau", "ss844 bau");
+	role_is("Koch work 100% remote", "koch");
+	role_is("Bau work 100% remote", "bau work");
+	role_is("Koch %100", "koch");
+	role_is("Talvero Systems sucht Koch", "koch");
+	role_is("Koch sucht Stelle", "koch sucht stelle");
+	role_is("Talvero Systems sucht", "talvero systems sucht");
+	role_is("Koch – 5* Hotel Bergblick", "koch");
+	role_is("Koch Gruppe 5", "koch gruppe 5");
+}
+
 /* Segment roles: the head by occupational evidence, employers and
  * places beside it dropped. */
 static void test_roles(void **state)
@@ -499,6 +534,7 @@ int main(void)
 		cmocka_unit_test(test_rota),
 		cmocka_unit_test(test_employer),
 		cmocka_unit_test(test_roles),
+		cmocka_unit_test(test_leftovers),
 		cmocka_unit_test(test_text_forms),
 	};
 	return cmocka_run_group_tests_name("norm", tests, setup, teardown);
