@@ -384,7 +384,7 @@ static void test_rota(void **state)
 static void test_employer(void **state)
 {
 	(void)state;
-	title_is("Sales Manager at Northwind Traders", "sales manager");
+	title_is("Sales Manager at Ostbrand Traders", "sales manager");
 	title_is("Teacher at school", "teacher at school");
 	title_is("Buchhalter - Nordwerk GmbH", "buchhalter");
 	title_is("Pflegekraft bei Valdoria GmbH", "pflegekraft");
