@@ -211,33 +211,38 @@ static int gather_labels(rep *r)
 	return 0;
 }
 
-/* Groups the suggestions by section (a counting sort, in list order). */
+int rp_by_section(rep *r, const long *where, size_t n, size_t **start, size_t *order)
+{
+	size_t *st = calloc(r->nsec + 2, sizeof *st);
+	if (!st)
+		return -1;
+	for (size_t i = 0; i < n; i++)
+		if (where[i] >= 0)
+			st[where[i] + 2]++;
+	for (size_t k = 2; k < r->nsec + 2; k++)
+		st[k] += st[k - 1];
+	for (size_t i = 0; i < n; i++)
+		if (where[i] >= 0)
+			order[st[where[i] + 1]++] = i;
+	*start = st;
+	return 0;
+}
+
+/* Groups the suggestions by section, in list order. */
 static int index_suggestions(rep *r)
 {
 	long *where = malloc((r->sugg.n ? r->sugg.n : 1) * sizeof *where);
-	r->secstart = calloc(r->nsec + 2, sizeof *r->secstart);
 	r->bysec = malloc((r->sugg.n ? r->sugg.n : 1) * sizeof *r->bysec);
-	if (!where || !r->secstart || !r->bysec) {
-		free(where);
-		return -1;
-	}
-	for (size_t i = 0; i < r->sugg.n; i++) {
+	int rc = where && r->bysec ? 0 : -1;
+	for (size_t i = 0; !rc && i < r->sugg.n; i++) {
 		const propose_sugg *x = &r->sugg.v[i];
 		where[i] = r->nsec ? rp_section_of(r, x->occ, x->ol, x->lang, strlen(x->lang)) : -1;
-		if (r->oom) {
-			free(where);
-			return -1;
-		}
-		if (where[i] >= 0)
-			r->secstart[where[i] + 2]++;
+		rc = r->oom ? -1 : 0;
 	}
-	for (size_t k = 2; k < r->nsec + 2; k++)
-		r->secstart[k] += r->secstart[k - 1];
-	for (size_t i = 0; i < r->sugg.n; i++)
-		if (where[i] >= 0)
-			r->bysec[r->secstart[where[i] + 1]++] = i;
+	if (!rc)
+		rc = rp_by_section(r, where, r->sugg.n, &r->secstart, r->bysec);
 	free(where);
-	return 0;
+	return rc;
 }
 
 uint64_t rp_key_postings(rep *r, long s, const char *key, size_t kl)
@@ -264,7 +269,7 @@ int report_write(tally_mem *m, const labelset *ls, const report_opts *o, tm_buf 
 		goto done;
 	if (!(weak = weakest(&r, &nweak)) || choose_sections(&r, weak, nweak) ||
 	    gather_labels(&r) || propose_run(m, ls, o->bars, &pf, &r.sugg) ||
-	    index_suggestions(&r))
+	    index_suggestions(&r) || rp_gather_periods(&r))
 		goto done;
 	rp_head(&r);
 	if (rp_overview(&r) || rp_coverage(&r, weak, nweak))
@@ -283,7 +288,7 @@ int report_write(tally_mem *m, const labelset *ls, const report_opts *o, tm_buf 
 	if (!r.nsec)
 		rp_put(&r, "<p class=\"tm-muted\">None.</p>\n");
 	rp_put(&r, "</section>\n");
-	if (rp_suggestions(&r))
+	if (rp_suggestions(&r) || (o->trend && rp_trend(&r)) || (o->overlap && rp_overlap(&r)))
 		goto done;
 	rp_reading(&r);
 	rp_foot(&r);
@@ -297,6 +302,8 @@ done:
 	free(r.secs);
 	free(r.secstart);
 	free(r.bysec);
+	free(r.pts);
+	free(r.ptstart);
 	free(r.rows);
 	buf_free(&r.arena);
 	buf_free(&r.j);

@@ -78,6 +78,12 @@ typedef struct rep {
 const char *rp_str(const rep *r, uint32_t off);
 /* The section of (occ, lang), or -1. */
 long rp_section_of(rep *r, const char *occ, size_t ol, const char *lang, size_t ll);
+/* Groups n items by section, a counting sort that keeps their order:
+ * where[i] is item i's section or -1 (left out); *start gets the bounds
+ * (section s holds order[(*start)[s] .. (*start)[s + 1]), allocated,
+ * the caller frees), order the item indices (room for n).  0, or -1
+ * when memory ran out. */
+int rp_by_section(rep *r, const long *where, size_t n, size_t **start, size_t *order);
 /* The postings of key in section s's occupation. */
 uint64_t rp_key_postings(rep *r, long s, const char *key, size_t kl);
 

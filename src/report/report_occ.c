@@ -125,6 +125,8 @@ int rp_occ_section(rep *r, size_t si)
 			   "with its 95 % Wilson interval; labels never seen are marked.", "share", cr,
 			   s->nlab);
 	free(cr);
+	if (rp_occ_series(r, si))
+		return -1;
 	if (c->ntop) {
 		static const char *const cols[] = {"title", "postings", "examples as posted", NULL};
 		rp_put(r, "<table><caption>The biggest titles no label matches</caption>\n");

@@ -184,8 +184,14 @@ void rp_head(rep *r)
 	       "<li><a href=\"#overview\">Overview</a></li>\n"
 	       "<li><a href=\"#coverage\">Coverage per occupation</a></li>\n"
 	       "<li><a href=\"#occupations\">Occupations to look at</a></li>\n"
-	       "<li><a href=\"#suggestions\">Suggestions</a></li>\n"
-	       "<li><a href=\"#reading\">How to read this report</a></li>\n</ol></nav>\n<main>\n");
+	       "<li><a href=\"#suggestions\">Suggestions</a></li>\n");
+	if (r->o->trend)
+		rp_put(r, "<li><a href=\"#trend\">Rising and fading titles</a></li>\n");
+	if (r->o->overlap)
+		rp_put(r, "<li><a href=\"#overlap\">Occupations the postings cannot tell "
+			  "apart</a></li>\n");
+	rp_put(r, "<li><a href=\"#reading\">How to read this report</a></li>\n</ol></nav>\n"
+		  "<main>\n");
 }
 
 void rp_reading(rep *r)
@@ -211,6 +217,33 @@ void rp_reading(rep *r)
 		   (unsigned long long)b->hidden_min, b->hidden_precision,
 		   (unsigned long long)b->rare_min, b->rare_share, b->elsewhere_share,
 		   (unsigned long long)b->elsewhere_min);
+	if (r->o->trend && r->o->trend_bars) {
+		const trend_bars *t = r->o->trend_bars;
+		buf_printf(r->out, "<li><strong>Rising and fading titles</strong> compare two "
+				   "windows of time, occupation by occupation, with Dunning's "
+				   "G\xC2\xB2 on the title's postings against the occupation's other "
+				   "postings, before and after. A title is listed when its G\xC2\xB2 is "
+				   "at least %.4g (chance at p\xC2\xA0=\xC2\xA0" "0.001), it has at least "
+				   "%llu postings in the window where its share is higher, and that "
+				   "share is at least %.4g times the other.</li>\n",
+			   t->min_g2, (unsigned long long)t->min_postings, t->min_ratio);
+	}
+	if (r->o->overlap) {
+		const overlap_opts *v = r->o->overlap;
+		buf_printf(r->out, "<li><strong>Occupations the postings cannot tell apart</strong> "
+				   "are compared by the Jensen\xE2\x80\x93Shannon divergence (Lin "
+				   "1991) of their postings over titles, in bits: 0 when they use the "
+				   "same titles in the same proportions, 1 when they share none; the "
+				   "shared mass is the sum over titles of the smaller of the two "
+				   "shares. A pair is ranked when each side has at least %llu postings; "
+				   "a title held by more than %llu occupations makes no pairs (it still "
+				   "counts in every pair found through another title). The %llu "
+				   "closest pairs are shown. An occupation is nearer another group when "
+				   "its divergence from that group's pooled postings is below its "
+				   "divergence from the rest of its own group's.</li>\n",
+			   (unsigned long long)v->min_postings, (unsigned long long)v->key_cap,
+			   (unsigned long long)r->o->overlap_top);
+	}
 	rp_put(r, "<li><strong>Examples</strong> are titles as posted, with e-mail addresses, "
 	       "telephone numbers and web addresses masked. Gender markers are removed from "
 	       "titles for counting only; local law governs how postings must be written.</li>\n"

@@ -1,0 +1,182 @@
+/* test_report.c - the report's sections on time (src/report/report_trend.c):
+ * the rising and fading titles of a trend list handed in, and an
+ * occupation section's preferred-label share per period, on two small
+ * hand-built windows (tests/unit/rank/trend_fixture.h).
+ *
+ * Outside reference: Python's html.parser (the python3 Debian ships),
+ * through tests/cli/check_html.py, reads the page back: well nested,
+ * every chart with its text alternative, every table with a header, and
+ * the trend rows it finds are those of the list. */
+#include <setjmp.h>
+#include <stdarg.h>
+#include <stddef.h>
+#include <stdint.h>
+#include <stdio.h>
+#include <stdlib.h>
+#include <string.h>
+#include <unistd.h>
+
+#include <cmocka.h>
+
+#include "count/tally.h"
+#include "norm/lexicon.h"
+#include "norm/norm.h"
+#include "rank/labels.h"
+#include "rank/propose.h"
+#include "rank/trend.h"
+#include "report/report.h"
+
+#include "../rank/trend_fixture.h"
+
+/* The text of b from the first occurrence of from up to the next until
+ * (NUL-terminated in a static buffer; fails the test when absent). */
+static const char *between(const tm_buf *b, const char *from, const char *until)
+{
+	static char out[1 << 16];
+	const char *s = strstr(b->data, from);
+	assert_non_null(s);
+	const char *e = strstr(s, until);
+	assert_non_null(e);
+	size_t n = (size_t)(e - s);
+	assert_true(n < sizeof out);
+	memcpy(out, s, n);
+	out[n] = 0;
+	return out;
+}
+
+/* Runs tests/cli/check_html.py on page b (with mode, or NULL) and
+ * returns what it prints. */
+static const char *check_html(const tm_buf *b, const char *mode)
+{
+	char path[] = "/tmp/tm-report-page-XXXXXX";
+	int fd = mkstemp(path);
+	assert_true(fd >= 0);
+	assert_int_equal(write(fd, b->data, b->len), (ssize_t)b->len);
+	close(fd);
+	char cmd[512];
+	snprintf(cmd, sizeof cmd, "/usr/bin/python3 tests/cli/check_html.py %s %s", path,
+		 mode ? mode : "");
+	FILE *p = popen(cmd, "r");
+	static char out[4096];
+	assert_non_null(p);
+	size_t n = fread(out, 1, sizeof out - 1, p);
+	out[n] = 0;
+	pclose(p);
+	remove(path);
+	return out;
+}
+
+static void opts(report_opts *o, propose_bars *pb, char *const *occs)
+{
+	memset(o, 0, sizeof *o);
+	propose_bars_default(pb);
+	o->occs = occs;
+	o->nocc = 1;
+	o->sections = 10;
+	o->min_postings = 1;
+	o->bars = pb;
+	o->top = 100;
+	o->version = "test";
+}
+
+static void test_time(void **state)
+{
+	(void)state;
+	trend_bars tb;
+	trend_list l = {0};
+	report_periods ps = {0};
+	propose_bars pb;
+	report_opts o;
+	tm_buf page = {0}, err = {0};
+	static char *const occs[] = {"occ:1"};
+
+	trend_bars_default(&tb);
+	assert_int_equal(trend_run(&B, &A, &LS, &tb, NULL, &l), 0);
+	assert_true(l.n >= 2);
+	/* the later period first, and the undated postings: drawn in period
+	 * order, the undated left out */
+	assert_int_equal(report_periods_add(&ps, "2026-02", &A, &LS, NULL), 0);
+	assert_int_equal(report_periods_add(&ps, "2026-01", &B, &LS, NULL), 0);
+	assert_int_equal(report_periods_add(&ps, "", &A, &LS, NULL), 0);
+	assert_int_equal(ps.n, 8);
+
+	opts(&o, &pb, occs);
+	o.trend = &l;
+	o.trend_bars = &tb;
+	o.trend_before = "January 2026";
+	o.trend_after = "February 2026";
+	o.periods = &ps;
+	assert_int_equal(report_write(&A, &LS, &o, &page, &err), 0);
+	assert_int_equal(buf_putc(&page, 0), 0);
+	page.len--;
+	assert_string_equal(check_html(&page, NULL), "ok\n");
+
+	/* the trend section: in the contents, both directions, the windows
+	 * in words, the rows those of the list */
+	assert_non_null(strstr(page.data, "<a href=\"#trend\">"));
+	assert_non_null(strstr(page.data, "between January 2026 and February 2026"));
+	const char *rising = between(&page, "id=\"trend-rising\"", "</table>");
+	assert_non_null(strstr(rising, "lagerlogistiker"));
+	assert_null(strstr(rising, "kuechenhilfe"));
+	const char *falling = between(&page, "id=\"trend-falling\"", "</table>");
+	assert_non_null(strstr(falling, "kuechenhilfe"));
+	assert_non_null(strstr(falling, "alternative label"));
+	tm_buf want = {0};
+	for (size_t i = 0; i < l.n; i++) {
+		const trend_row *t = &l.v[i];
+		buf_printf(&want, "%s\t%.*s\t%s\t%.*s\t%llu\t%llu\t%.4f\n",
+			   trend_direction_names[t->direction], (int)t->ol, t->occ, t->lang,
+			   (int)t->tl, t->title, (unsigned long long)t->before,
+			   (unsigned long long)t->after, t->g2);
+	}
+	assert_int_equal(buf_putc(&want, 0), 0);
+	assert_string_equal(check_html(&page, "trend"), want.data);
+	buf_free(&want);
+
+	/* occ:1's section draws its preferred label's share per period:
+	 * lagerist 50 of 100 in January, 20 of 100 in February */
+	const char *series = between(&page, "id=\"chart-time-1\"", "</figure>");
+	const char *jan = strstr(series, "<td>2026-01</td><td>50.0\xC2\xA0%</td>");
+	const char *feb = strstr(series, "<td>2026-02</td><td>20.0\xC2\xA0%</td>");
+	assert_non_null(jan);
+	assert_non_null(feb);
+	assert_true(jan < feb);
+	assert_null(strstr(series, "<tr><td></td>"));
+	/* one section only, one series */
+	assert_null(strstr(page.data, "id=\"chart-time-2\""));
+	/* the bars in "How to read" */
+	assert_non_null(strstr(page.data, "at least 10.83 (chance"));
+
+	/* the same period added twice sums */
+	assert_int_equal(report_periods_add(&ps, "2026-01", &B, &LS, NULL), 0);
+	buf_reset(&page);
+	assert_int_equal(report_write(&A, &LS, &o, &page, &err), 0);
+	assert_int_equal(buf_putc(&page, 0), 0);
+	series = between(&page, "id=\"chart-time-1\"", "</figure>");
+	assert_non_null(strstr(series, "<td>2026-01</td><td>50.0\xC2\xA0%</td><td>"));
+	assert_non_null(strstr(series, "</td><td>200</td></tr>"));
+
+	/* without them: neither the section nor the chart */
+	o.trend = NULL;
+	o.periods = NULL;
+	buf_reset(&page);
+	assert_int_equal(report_write(&A, &LS, &o, &page, &err), 0);
+	assert_int_equal(buf_putc(&page, 0), 0);
+	assert_null(strstr(page.data, "id=\"trend\""));
+	assert_null(strstr(page.data, "#trend"));
+	assert_null(strstr(page.data, "chart-time"));
+
+	trend_list_free(&l);
+	report_periods_free(&ps);
+	report_periods_free(&ps); /* a freed list frees again */
+	buf_free(&page);
+	buf_free(&err);
+}
+
+int main(void)
+{
+	const struct CMUnitTest tests[] = {
+		cmocka_unit_test(test_time),
+	};
+	return cmocka_run_group_tests(tests, setup, teardown);
+}
