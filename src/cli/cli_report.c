@@ -20,6 +20,7 @@ typedef struct report_cli {
 	const char *out, *queue, *groups, *level;
 	opt_strs occ;
 	uint64_t sections, min_postings, top, overlap_top, overlap_min;
+	uint64_t group_prefix;   /* UINT64_MAX: not asked for */
 	int stamp;
 	propose_bars bar;
 } report_cli;
@@ -59,6 +60,8 @@ static const opt_spec report_specs[] = {
 	 "(default: skos:broader of SKOS --labels)", NULL, 0},
 	{"level", OPT_STR, offsetof(report_cli, level), "L", NULL, 0, 0,
 	 "use this level of the groups TSV (default: the one with the most groups)", NULL, 0},
+	{"group-prefix", OPT_U64, offsetof(report_cli, group_prefix), "N", NULL, 1, 64,
+	 "group occupations by the first N characters of their code", NULL, 0},
 	{"stamp", OPT_FLAG, offsetof(report_cli, stamp), NULL, NULL, 0, 0,
 	 "write the time the page was made (without it the same inputs give the same bytes)",
 	 NULL, 0},
@@ -73,7 +76,8 @@ static const opt_cmd report_cmd = {
 	"report",
 	"usage: titlemill report --labels FILE -o FILE [--queue FILE] [--lang L]\n"
 	"                        [--occupation ID]... [--sections N] [--stamp]\n"
-	"                        [--groups FILE [--level L]] [--overlap-top N]\n"
+	"                        [--groups FILE [--level L] | --group-prefix N]\n"
+	"                        [--overlap-top N] [--overlap-min-postings N]\n"
 	"                        [--ids local] [--id-map FILE] [--strict] [thresholds]\n"
 	"                        (COUNTS|POSTINGS...|-|--store URL [--prefix P])\n"
 	"\n"
@@ -159,12 +163,17 @@ int cmd_report(int argc, char **argv)
 	status = EXIT_RUNTIME;
 	if (load_queue(&o, &q, &have_queue))
 		goto done;
-	if (o.level && (!o.groups || skos_is_rdf_path(o.groups))) {
-		fputs("titlemill report: --level applies to a groups TSV (--groups FILE)\n", stderr);
-		status = EXIT_USAGE;
+	status = EXIT_USAGE;
+	if (o.group_prefix != UINT64_MAX && o.groups) {
+		fputs("titlemill report: --groups and --group-prefix exclude each other\n", stderr);
 		goto done;
 	}
-	if (o.overlap_top && cli_load_groups("report", o.groups, o.level, UINT64_MAX,
+	if (o.level && (!o.groups || skos_is_rdf_path(o.groups))) {
+		fputs("titlemill report: --level applies to a groups TSV (--groups FILE)\n", stderr);
+		goto done;
+	}
+	status = EXIT_RUNTIME;
+	if (o.overlap_top && cli_load_groups("report", o.groups, o.level, o.group_prefix,
 					     o.in.setup.labels, &g))
 		goto done;
 	if (o.stamp) {

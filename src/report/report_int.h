@@ -104,6 +104,8 @@ const char *rp_occ_name(rep *r, const char *occ, size_t ol, const char *lang, si
 /* An occupation's id (a link to its section when it has one) and name,
  * two cells. */
 void rp_occ_cells(rep *r, const char *occ, size_t ol, const char *lang);
+/* The same in one cell (the id, its name below), sorted by the id. */
+void rp_occ_cell(rep *r, const char *occ, size_t ol, const char *lang);
 void rp_head(rep *r);
 void rp_reading(rep *r);
 void rp_foot(rep *r);

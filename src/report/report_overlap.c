@@ -12,7 +12,7 @@
  * postings on each side ("12 / 9"; with own: "/ in its own group"). */
 static void titles_cell(rep *r, const overlap_title *t, int n, int own)
 {
-	rp_put(r, "<td>");
+	rp_put(r, "<td class=\"tm-titles\">");
 	for (int i = 0; i < n; i++) {
 		if (i)
 			rp_put(r, "<br>");
@@ -52,8 +52,8 @@ static int on_pair(void *ctx, const overlap_pair *p)
 	c->n++;
 	buf_printf(r->out, "<tr><td class=\"num\" data-v=\"%llu\">%llu</td>", (unsigned long long)c->n,
 		   (unsigned long long)c->n);
-	rp_occ_cells(r, p->occ, p->ol, p->lang);
-	rp_occ_cells(r, p->other, p->otl, p->lang);
+	rp_occ_cell(r, p->occ, p->ol, p->lang);
+	rp_occ_cell(r, p->other, p->otl, p->lang);
 	rp_td_text(r, p->lang, strlen(p->lang));
 	td_bits(r, p->divergence);
 	td_shared(r, p->shared);
@@ -70,7 +70,7 @@ static int on_nearer(void *ctx, const overlap_occ *o)
 	rep *r = c->r;
 	c->n++;
 	rp_put(r, "<tr>");
-	rp_occ_cells(r, o->occ, o->ol, o->lang);
+	rp_occ_cell(r, o->occ, o->ol, o->lang);
 	rp_td_text(r, o->lang, strlen(o->lang));
 	rp_td_u64(r, o->postings);
 	rp_td_text(r, o->group, o->gl);
@@ -83,12 +83,12 @@ static int on_nearer(void *ctx, const overlap_occ *o)
 }
 
 static const char *const PAIR_COLS[] = {
-	"rank", "occupation", "name", "other occupation", "its name", "language",
+	"rank", "occupation", "other occupation", "language",
 	"divergence (bits)", "shared", "postings", "other's postings",
 	"shared titles (postings / other's)", NULL};
 
 static const char *const NEARER_COLS[] = {
-	"occupation", "name", "language", "postings", "its group", "divergence from it (bits)",
+	"occupation", "language", "postings", "its group", "divergence from it (bits)",
 	"nearer group", "divergence from that (bits)",
 	"titles that pull it there (postings / that group's / its own group's)", NULL};
 

@@ -83,19 +83,41 @@ const char *rp_occ_name(rep *r, const char *occ, size_t ol, const char *lang, si
 	return p ? lab_str(r->ls, p->text) : "";
 }
 
-void rp_occ_cells(rep *r, const char *occ, size_t ol, const char *lang)
+/* The occupation's id, a link to its section when it has one. */
+static void occ_id(rep *r, const char *occ, size_t ol, const char *lang)
 {
-	size_t nn;
-	const char *name = rp_occ_name(r, occ, ol, lang, &nn);
 	long s = r->nsec ? rp_section_of(r, occ, ol, lang, strlen(lang)) : -1;
-	rp_put(r, "<td>");
 	if (s >= 0)
 		buf_printf(r->out, "<a href=\"#occ-%ld\">", s + 1);
 	rp_text(r, occ, ol, CUT);
 	if (s >= 0)
 		rp_put(r, "</a>");
+}
+
+void rp_occ_cells(rep *r, const char *occ, size_t ol, const char *lang)
+{
+	size_t nn;
+	const char *name = rp_occ_name(r, occ, ol, lang, &nn);
+	rp_put(r, "<td>");
+	occ_id(r, occ, ol, lang);
 	rp_put(r, "</td>");
 	rp_td_text(r, name, nn);
+}
+
+void rp_occ_cell(rep *r, const char *occ, size_t ol, const char *lang)
+{
+	size_t nn;
+	const char *name = rp_occ_name(r, occ, ol, lang, &nn);
+	rp_put(r, "<td data-v=\"");
+	html_text(r->out, occ, ol, 0);
+	rp_put(r, "\">");
+	occ_id(r, occ, ol, lang);
+	if (nn) {
+		rp_put(r, "<br><span class=\"tm-muted\">");
+		rp_text(r, name, nn, CUT);
+		rp_put(r, "</span>");
+	}
+	rp_put(r, "</td>");
 }
 
 static const char STYLE[] =
@@ -120,7 +142,7 @@ static const char STYLE[] =
 	".tm-dot{fill:#1f4e79}.tm-line{fill:none;stroke:#1f4e79;stroke-width:2}"
 	".tm-band{fill:#4c78a8;opacity:.2}\n"
 	".tm-note{background:#f6f8fa;border-left:4px solid #4c78a8;padding:.5rem .8rem}"
-	".tm-muted{color:#555}.tm-filter{margin:.4rem 0}\n"
+	".tm-muted{color:#555}.tm-filter{margin:.4rem 0}td.tm-titles{min-width:16rem}\n"
 	"@media print{nav,.tm-filter,details summary{display:none}body{max-width:none;font-size:11pt}"
 	"section.tm-occ{break-inside:avoid-page}h2{break-after:avoid}a{color:inherit}}\n";
 

@@ -160,7 +160,7 @@ static const char *kind_words(const label *lb)
 static void trend_table(rep *r, int dir, size_t n)
 {
 	static const char *const cols[] = {
-		"occupation", "name", "language", "title", "a label?", "postings before",
+		"occupation", "language", "title", "a label?", "postings before",
 		"postings after", "share before", "95 % interval", "share after", "95 % interval",
 		"G\xC2\xB2", NULL};
 	const trend_list *l = r->o->trend;
@@ -178,7 +178,7 @@ static void trend_table(rep *r, int dir, size_t n)
 			continue;
 		shown++;
 		rp_put(r, "<tr>");
-		rp_occ_cells(r, t->occ, t->ol, t->lang);
+		rp_occ_cell(r, t->occ, t->ol, t->lang);
 		rp_td_text(r, t->lang, strlen(t->lang));
 		rp_td_text(r, t->title, t->tl);
 		rp_put(r, "<td>");

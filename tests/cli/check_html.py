@@ -151,19 +151,19 @@ def main():
         return 0
     if mode == "overlap":
         for r in rows("overlap-table", []):
-            print("\t".join([r[1]["text"], r[3]["text"], r[5]["text"], "%.4f" % float(r[6]["v"]),
-                             "%.4f" % float(r[7]["v"]), r[8]["v"], r[9]["v"]]))
+            print("\t".join([r[1]["v"], r[2]["v"], r[3]["text"], "%.4f" % float(r[4]["v"]),
+                             "%.4f" % float(r[5]["v"]), r[6]["v"], r[7]["v"]]))
         return 0
     if mode == "nearer":
         for r in rows("nearer-table", []):
-            print("\t".join([r[0]["text"], r[2]["text"], r[4]["text"], "%.4f" % float(r[5]["v"]),
-                             r[6]["text"], "%.4f" % float(r[7]["v"])]))
+            print("\t".join([r[0]["v"], r[1]["text"], r[3]["text"], "%.4f" % float(r[4]["v"]),
+                             r[5]["text"], "%.4f" % float(r[6]["v"])]))
         return 0
     if mode == "trend":
         for d in ("rising", "falling"):
             for r in rows("trend-" + d, []):
-                print("\t".join([d, r[0]["text"], r[2]["text"], r[3]["text"], r[5]["v"], r[6]["v"],
-                                 "%.4f" % float(r[11]["v"])]))
+                print("\t".join([d, r[0]["v"], r[1]["text"], r[2]["text"], r[4]["v"], r[5]["v"],
+                                 "%.4f" % float(r[10]["v"])]))
         return 0
     if mode == "kinds":
         for h in p.kinds:

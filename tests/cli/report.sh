@@ -124,6 +124,16 @@ $T report --labels "$tmp/ov/labels.tsv" --overlap-top 0 -o "$tmp/ov4.html" "$tmp
 grep -q 'id="overlap"' "$tmp/ov4.html"; check ov-top-0 1 $?
 $T report --labels "$tmp/ov/labels.tsv" --level 2 -o "$tmp/x.html" "$tmp/ov/c.tsv" 2>/dev/null
 check ov-level-alone 2 $?
+$T report --labels "$tmp/ov/labels.tsv" --groups "$tmp/ov/groups.tsv" --group-prefix 6 \
+	-o "$tmp/x.html" "$tmp/ov/c.tsv" 2>/dev/null
+check ov-groups-and-prefix 2 $?
+# groups by the code's first two characters (the generator's groups at
+# level 2): the misfiled occupation is listed there too
+$T report --labels "$tmp/ov/labels.tsv" --group-prefix 2 -o "$tmp/ov5.html" "$tmp/ov/c.tsv" \
+	2>/dev/null
+check ov-prefix-status 0 $?
+$chk "$tmp/ov5.html" nearer | cut -f1 | grep -qx "$(echo "$mis" | cut -f1)"
+check ov-prefix-misfiled 0 $?
 $T report --labels "$tmp/ov/labels.tsv" --groups "$tmp/ov/none.tsv" -o "$tmp/x.html" \
 	"$tmp/ov/c.tsv" 2>/dev/null
 check ov-groups-missing 1 $?
