@@ -173,10 +173,59 @@ static void test_time(void **state)
 	buf_free(&err);
 }
 
+/* Hostile text in a trend row (as a title, an occupation and a period
+ * may hold it) is escaped: the page keeps its structure, no element of
+ * the text survives, no bidirectional override reaches the page. */
+static void test_hostile(void **state)
+{
+	(void)state;
+	trend_bars tb;
+	trend_list l = {0};
+	report_periods ps = {0};
+	propose_bars pb;
+	report_opts o;
+	tm_buf page = {0}, err = {0};
+	static char *const occs[] = {"occ:1"};
+	static const char title[] = "<script>alert(1)</script> \"Lager\" & <img src=x onerror=y>"
+				    "\xE2\x80\xAE" "gnal";
+	static const char occ[] = "occ:<b onmouseover=z>";
+
+	trend_bars_default(&tb);
+	assert_int_equal(trend_run(&B, &A, &LS, &tb, NULL, &l), 0);
+	assert_true(l.n >= 1);
+	l.v[0].title = title;
+	l.v[0].tl = sizeof title - 1;
+	l.v[0].occ = occ;
+	l.v[0].ol = sizeof occ - 1;
+	assert_int_equal(report_periods_add(&ps, "2026-01\xE2\x80\xAE<i>", &B, &LS, NULL), 0);
+	opts(&o, &pb, occs);
+	o.trend = &l;
+	o.trend_bars = &tb;
+	o.trend_before = "<u>before</u>";
+	o.trend_after = "after\xE2\x80\xAE";
+	o.periods = &ps;
+	assert_int_equal(report_write(&A, &LS, &o, &page, &err), 0);
+	assert_int_equal(buf_putc(&page, 0), 0);
+	page.len--;
+	assert_string_equal(check_html(&page, NULL), "ok\n");
+	const char *el = check_html(&page, "elements");
+	assert_null(strstr(el, "img\n"));
+	assert_null(strstr(el, "\nb\n"));
+	assert_null(strstr(el, "\ni\n"));
+	assert_null(strstr(el, "\nu\n"));
+	assert_null(strstr(page.data, "\xE2\x80\xAE"));
+	assert_non_null(strstr(page.data, "&lt;script&gt;alert(1)&lt;/script&gt;"));
+	trend_list_free(&l);
+	report_periods_free(&ps);
+	buf_free(&page);
+	buf_free(&err);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(test_time),
+		cmocka_unit_test(test_hostile),
 	};
 	return cmocka_run_group_tests(tests, setup, teardown);
 }
