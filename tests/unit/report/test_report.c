@@ -66,76 +66,96 @@ static const char *check_html(const tm_buf *b, const char *mode)
 	return out;
 }
 
-static void opts(report_opts *o, propose_bars *pb, char *const *occs)
+/* One report over the two windows: the trend of B against A, a section
+ * for occ:1, the periods x->ps (empty until added). */
+typedef struct run {
+	trend_bars tb;
+	trend_list l;
+	report_periods ps;
+	propose_bars pb;
+	report_opts o;
+	tm_buf page, err;
+} run;
+
+static void run_start(run *x, const char *before, const char *after)
 {
-	memset(o, 0, sizeof *o);
-	propose_bars_default(pb);
-	o->occs = occs;
-	o->nocc = 1;
-	o->sections = 10;
-	o->min_postings = 1;
-	o->bars = pb;
-	o->top = 100;
-	o->version = "test";
+	static char *const occs[] = {"occ:1"};
+	memset(x, 0, sizeof *x);
+	trend_bars_default(&x->tb);
+	assert_int_equal(trend_run(&B, &A, &LS, &x->tb, NULL, &x->l), 0);
+	assert_true(x->l.n >= 2);
+	propose_bars_default(&x->pb);
+	x->o.occs = occs;
+	x->o.nocc = 1;
+	x->o.sections = 10;
+	x->o.min_postings = 1;
+	x->o.bars = &x->pb;
+	x->o.top = 100;
+	x->o.version = "test";
+	x->o.trend = &x->l;
+	x->o.trend_bars = &x->tb;
+	x->o.trend_before = before;
+	x->o.trend_after = after;
+	x->o.periods = &x->ps;
+}
+
+/* Writes the page afresh (NUL-terminated); checks its structure. */
+static void run_write(run *x)
+{
+	buf_reset(&x->page);
+	assert_int_equal(report_write(&A, &LS, &x->o, &x->page, &x->err), 0);
+	assert_int_equal(buf_putc(&x->page, 0), 0);
+	x->page.len--;
+	assert_string_equal(check_html(&x->page, NULL), "ok\n");
+}
+
+static void run_end(run *x)
+{
+	trend_list_free(&x->l);
+	report_periods_free(&x->ps);
+	report_periods_free(&x->ps); /* a freed list frees again */
+	buf_free(&x->page);
+	buf_free(&x->err);
 }
 
 static void test_time(void **state)
 {
 	(void)state;
-	trend_bars tb;
-	trend_list l = {0};
-	report_periods ps = {0};
-	propose_bars pb;
-	report_opts o;
-	tm_buf page = {0}, err = {0};
-	static char *const occs[] = {"occ:1"};
-
-	trend_bars_default(&tb);
-	assert_int_equal(trend_run(&B, &A, &LS, &tb, NULL, &l), 0);
-	assert_true(l.n >= 2);
+	run x;
+	run_start(&x, "January 2026", "February 2026");
 	/* the later period first, and the undated postings: drawn in period
 	 * order, the undated left out */
-	assert_int_equal(report_periods_add(&ps, "2026-02", &A, &LS, NULL), 0);
-	assert_int_equal(report_periods_add(&ps, "2026-01", &B, &LS, NULL), 0);
-	assert_int_equal(report_periods_add(&ps, "", &A, &LS, NULL), 0);
-	assert_int_equal(ps.n, 8);
-
-	opts(&o, &pb, occs);
-	o.trend = &l;
-	o.trend_bars = &tb;
-	o.trend_before = "January 2026";
-	o.trend_after = "February 2026";
-	o.periods = &ps;
-	assert_int_equal(report_write(&A, &LS, &o, &page, &err), 0);
-	assert_int_equal(buf_putc(&page, 0), 0);
-	page.len--;
-	assert_string_equal(check_html(&page, NULL), "ok\n");
+	assert_int_equal(report_periods_add(&x.ps, "2026-02", &A, &LS, NULL), 0);
+	assert_int_equal(report_periods_add(&x.ps, "2026-01", &B, &LS, NULL), 0);
+	assert_int_equal(report_periods_add(&x.ps, "", &A, &LS, NULL), 0);
+	assert_int_equal(x.ps.n, 8);
+	run_write(&x);
 
 	/* the trend section: in the contents, both directions, the windows
 	 * in words, the rows those of the list */
-	assert_non_null(strstr(page.data, "<a href=\"#trend\">"));
-	assert_non_null(strstr(page.data, "between January 2026 and February 2026"));
-	const char *rising = between(&page, "id=\"trend-rising\"", "</table>");
+	assert_non_null(strstr(x.page.data, "<a href=\"#trend\">"));
+	assert_non_null(strstr(x.page.data, "between January 2026 and February 2026"));
+	const char *rising = between(&x.page, "id=\"trend-rising\"", "</table>");
 	assert_non_null(strstr(rising, "lagerlogistiker"));
 	assert_null(strstr(rising, "kuechenhilfe"));
-	const char *falling = between(&page, "id=\"trend-falling\"", "</table>");
+	const char *falling = between(&x.page, "id=\"trend-falling\"", "</table>");
 	assert_non_null(strstr(falling, "kuechenhilfe"));
 	assert_non_null(strstr(falling, "alternative label"));
 	tm_buf want = {0};
-	for (size_t i = 0; i < l.n; i++) {
-		const trend_row *t = &l.v[i];
+	for (size_t i = 0; i < x.l.n; i++) {
+		const trend_row *t = &x.l.v[i];
 		buf_printf(&want, "%s\t%.*s\t%s\t%.*s\t%llu\t%llu\t%.4f\n",
 			   trend_direction_names[t->direction], (int)t->ol, t->occ, t->lang,
 			   (int)t->tl, t->title, (unsigned long long)t->before,
 			   (unsigned long long)t->after, t->g2);
 	}
 	assert_int_equal(buf_putc(&want, 0), 0);
-	assert_string_equal(check_html(&page, "trend"), want.data);
+	assert_string_equal(check_html(&x.page, "trend"), want.data);
 	buf_free(&want);
 
 	/* occ:1's section draws its preferred label's share per period:
 	 * lagerist 50 of 100 in January, 20 of 100 in February */
-	const char *series = between(&page, "id=\"chart-time-1\"", "</figure>");
+	const char *series = between(&x.page, "id=\"chart-time-1\"", "</figure>");
 	const char *jan = strstr(series, "<td>2026-01</td><td>50.0\xC2\xA0%</td>");
 	const char *feb = strstr(series, "<td>2026-02</td><td>20.0\xC2\xA0%</td>");
 	assert_non_null(jan);
@@ -143,34 +163,26 @@ static void test_time(void **state)
 	assert_true(jan < feb);
 	assert_null(strstr(series, "<tr><td></td>"));
 	/* one section only, one series */
-	assert_null(strstr(page.data, "id=\"chart-time-2\""));
+	assert_null(strstr(x.page.data, "id=\"chart-time-2\""));
 	/* the bars in "How to read" */
-	assert_non_null(strstr(page.data, "at least 10.83 (chance"));
+	assert_non_null(strstr(x.page.data, "at least 10.83 (chance"));
 
 	/* the same period added twice sums */
-	assert_int_equal(report_periods_add(&ps, "2026-01", &B, &LS, NULL), 0);
-	buf_reset(&page);
-	assert_int_equal(report_write(&A, &LS, &o, &page, &err), 0);
-	assert_int_equal(buf_putc(&page, 0), 0);
-	series = between(&page, "id=\"chart-time-1\"", "</figure>");
+	assert_int_equal(report_periods_add(&x.ps, "2026-01", &B, &LS, NULL), 0);
+	run_write(&x);
+	series = between(&x.page, "id=\"chart-time-1\"", "</figure>");
 	assert_non_null(strstr(series, "<td>2026-01</td><td>50.0\xC2\xA0%</td><td>"));
 	assert_non_null(strstr(series, "</td><td>200</td></tr>"));
 
 	/* without them: neither the section nor the chart */
-	o.trend = NULL;
-	o.periods = NULL;
-	buf_reset(&page);
-	assert_int_equal(report_write(&A, &LS, &o, &page, &err), 0);
-	assert_int_equal(buf_putc(&page, 0), 0);
-	assert_null(strstr(page.data, "id=\"trend\""));
-	assert_null(strstr(page.data, "#trend"));
-	assert_null(strstr(page.data, "chart-time"));
+	x.o.trend = NULL;
+	x.o.periods = NULL;
+	run_write(&x);
+	assert_null(strstr(x.page.data, "id=\"trend\""));
+	assert_null(strstr(x.page.data, "#trend"));
+	assert_null(strstr(x.page.data, "chart-time"));
 
-	trend_list_free(&l);
-	report_periods_free(&ps);
-	report_periods_free(&ps); /* a freed list frees again */
-	buf_free(&page);
-	buf_free(&err);
+	run_end(&x);
 }
 
 /* Hostile text in a trend row (as a title, an occupation and a period
@@ -179,46 +191,26 @@ static void test_time(void **state)
 static void test_hostile(void **state)
 {
 	(void)state;
-	trend_bars tb;
-	trend_list l = {0};
-	report_periods ps = {0};
-	propose_bars pb;
-	report_opts o;
-	tm_buf page = {0}, err = {0};
-	static char *const occs[] = {"occ:1"};
+	run x;
 	static const char title[] = "<script>alert(1)</script> \"Lager\" & <img src=x onerror=y>"
 				    "\xE2\x80\xAE" "gnal";
 	static const char occ[] = "occ:<b onmouseover=z>";
 
-	trend_bars_default(&tb);
-	assert_int_equal(trend_run(&B, &A, &LS, &tb, NULL, &l), 0);
-	assert_true(l.n >= 1);
-	l.v[0].title = title;
-	l.v[0].tl = sizeof title - 1;
-	l.v[0].occ = occ;
-	l.v[0].ol = sizeof occ - 1;
-	assert_int_equal(report_periods_add(&ps, "2026-01\xE2\x80\xAE<i>", &B, &LS, NULL), 0);
-	opts(&o, &pb, occs);
-	o.trend = &l;
-	o.trend_bars = &tb;
-	o.trend_before = "<u>before</u>";
-	o.trend_after = "after\xE2\x80\xAE";
-	o.periods = &ps;
-	assert_int_equal(report_write(&A, &LS, &o, &page, &err), 0);
-	assert_int_equal(buf_putc(&page, 0), 0);
-	page.len--;
-	assert_string_equal(check_html(&page, NULL), "ok\n");
-	const char *el = check_html(&page, "elements");
+	run_start(&x, "<u>before</u>", "after\xE2\x80\xAE");
+	x.l.v[0].title = title;
+	x.l.v[0].tl = sizeof title - 1;
+	x.l.v[0].occ = occ;
+	x.l.v[0].ol = sizeof occ - 1;
+	assert_int_equal(report_periods_add(&x.ps, "2026-01\xE2\x80\xAE<i>", &B, &LS, NULL), 0);
+	run_write(&x);
+	const char *el = check_html(&x.page, "elements");
 	assert_null(strstr(el, "img\n"));
 	assert_null(strstr(el, "\nb\n"));
 	assert_null(strstr(el, "\ni\n"));
 	assert_null(strstr(el, "\nu\n"));
-	assert_null(strstr(page.data, "\xE2\x80\xAE"));
-	assert_non_null(strstr(page.data, "&lt;script&gt;alert(1)&lt;/script&gt;"));
-	trend_list_free(&l);
-	report_periods_free(&ps);
-	buf_free(&page);
-	buf_free(&err);
+	assert_null(strstr(x.page.data, "\xE2\x80\xAE"));
+	assert_non_null(strstr(x.page.data, "&lt;script&gt;alert(1)&lt;/script&gt;"));
+	run_end(&x);
 }
 
 int main(void)
