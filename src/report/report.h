@@ -85,8 +85,9 @@ typedef struct report_opts {
 	uint64_t distinct;         /* the distinct postings, when known (else 0) */
 	/* occupations the postings cannot tell apart (rank/overlap.h) */
 	const overlap_opts *overlap; /* NULL: no such section */
-	uint64_t overlap_top;      /* the closest pairs shown, and at most as
-				    * many occupations nearer another group */
+	uint64_t overlap_top;      /* the closest pairs shown (at least 1), and
+				    * at most as many occupations nearer
+				    * another group */
 	/* time, when the counts have periods (the caller's) */
 	const trend_list *trend;   /* NULL: no section on rising and fading titles */
 	const trend_bars *trend_bars; /* the bars the list was made with */

@@ -4,6 +4,7 @@
  * groups, those whose titles sit nearer another group than their own.
  * The rows are those of titlemill overlap (rank/overlap.h, called here
  * with the caller's options); report_int.h. */
+#include <stdlib.h>
 #include <string.h>
 
 #include "report/report_int.h"
@@ -43,7 +44,53 @@ static void td_shared(rep *r, double v)
 typedef struct ovctx {
 	rep *r;
 	uint64_t n;
+	tm_buf names;      /* the chart's names, NUL-separated */
+	double *shared;    /* the chart's values */
+	size_t cap;
 } ovctx;
+
+/* The first pass: each pair's name and shared mass for the chart. */
+static int chart_pair(void *ctx, const overlap_pair *p)
+{
+	ovctx *c = ctx;
+	double *v = tm_grow(c->shared, &c->cap, c->n + 1, sizeof *v, 16);
+	if (!v)
+		return -1;
+	c->shared = v;
+	c->shared[c->n++] = p->shared;
+	buf_append(&c->names, p->occ, p->ol);
+	buf_puts(&c->names, " ~ ");
+	buf_append(&c->names, p->other, p->otl);
+	buf_printf(&c->names, " (%s)", p->lang);
+	buf_putc(&c->names, 0);
+	return buf_status(&c->names);
+}
+
+/* The closest pairs' shared mass as bars (a measure, no interval). */
+static int pairs_chart(rep *r, overlap *ov, ovctx *c)
+{
+	int st = overlap_pairs(ov, 1.0, r->o->overlap_top, chart_pair, c);
+	chart_row *cr = st || !c->n ? NULL : calloc(c->n, sizeof *cr);
+	if (!st && c->n) {
+		if (!cr)
+			return -1;
+		const char *name = c->names.data;
+		for (size_t i = 0; i < c->n; i++) {
+			cr[i].name = name;
+			cr[i].nl = strlen(name);
+			cr[i].value = c->shared[i];
+			name += cr[i].nl + 1;
+		}
+		st = chart_rows(r->out, "chart-overlap", CHART_SHARES,
+				"The shared mass of the closest pairs",
+				"For each of the closest pairs of occupations (in a language), the "
+				"share of their postings the two name alike: the sum over titles of "
+				"the smaller of their two shares.", "shared", cr, c->n);
+	}
+	free(cr);
+	c->n = 0;
+	return st ? -1 : 0;
+}
 
 static int on_pair(void *ctx, const overlap_pair *p)
 {
@@ -97,7 +144,7 @@ int rp_overlap(rep *r)
 	const report_opts *o = r->o;
 	overlap *ov = NULL;
 	tm_buf err = {0};
-	ovctx c = {r, 0};
+	ovctx c = {r, 0, {0}, NULL, 0};
 	int st;
 	if (overlap_build(&ov, r->m, o->overlap, &err)) {
 		buf_free(&err);
@@ -122,12 +169,15 @@ int rp_overlap(rep *r)
 		buf_printf(r->out, "; %llu title%s held by more than %llu occupations made no pairs",
 			   (unsigned long long)s->keys_capped, s->keys_capped == 1 ? "" : "s",
 			   (unsigned long long)o->overlap->key_cap);
-	rp_put(r, ".</p>\n<table class=\"tm-sort tm-filterable\" id=\"overlap-table\"><caption>");
+	rp_put(r, ".</p>\n");
+	st = pairs_chart(r, ov, &c);
+	rp_put(r, "<table class=\"tm-sort tm-filterable\" id=\"overlap-table\"><caption>");
 	buf_printf(r->out, "The closest pairs (at most %llu)", (unsigned long long)o->overlap_top);
 	rp_put(r, "</caption>\n");
 	rp_th(r, PAIR_COLS);
 	rp_put(r, "<tbody>\n");
-	st = overlap_pairs(ov, 1.0, o->overlap_top, on_pair, &c);
+	if (!st)
+		st = overlap_pairs(ov, 1.0, o->overlap_top, on_pair, &c);
 	rp_put(r, "</tbody></table>\n");
 	if (!st && !c.n)
 		rp_put(r, "<p class=\"tm-muted\">No pair of occupations with enough postings shares "
@@ -156,5 +206,7 @@ int rp_overlap(rep *r)
 	rp_put(r, "</section>\n");
 	overlap_free(ov);
 	buf_free(&err);
+	buf_free(&c.names);
+	free(c.shared);
 	return st || buf_status(r->out) ? -1 : 0;
 }

@@ -95,6 +95,9 @@ awk -F '\t' 'NR == 1 { for (i = 1; i <= NF; i++) c[$i] = i; next }
 $chk "$tmp/ov.html" overlap > "$tmp/got"
 check ov-pairs 20 "$(wc -l < "$tmp/want" | tr -d ' ')"
 cmp -s "$tmp/want" "$tmp/got"; check ov-pairs-equal 0 $?
+# the chart of the shared mass has a bar for each pair of the table
+n=$(sed -n '/id="chart-overlap"/,/<\/svg>/p' "$tmp/ov.html" | grep -c '<rect class="tm-bar')
+check ov-chart-bars 20 "$n"
 awk -F '\t' 'NR == 1 { for (i = 1; i <= NF; i++) c[$i] = i; next }
 	$c["kind"] == "nearer_other_group" { print $c["occupation"] "\t" $c["lang"] "\t" $c["group"] "\t" \
 		$c["group_divergence"] "\t" $c["other_group"] "\t" $c["divergence"] }' \
