@@ -44,7 +44,7 @@ SRC_match = sim match code
 SRC_review = review_item review_json review_change review_batch review_time review_clash review_noise review_trend \
 	queue queue_file \
 	store_redis_queue delta
-SRC_report = chart report
+SRC_report = chart report report_page report_cov report_occ report_overlap report_trend
 SRC_cli = options cli_norm cli_tally cli_rank cli_propose cli_match cli_review cli_review_change cli_review_read \
 	cli_review_out cli_report cli_overlap cli_trend
 DIRS = core io norm count rank match review report cli

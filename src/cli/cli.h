@@ -10,6 +10,7 @@
 #include "count/series.h"
 #include "count/tally.h"
 #include "io/record.h"
+#include "rank/groups.h"
 
 enum { EXIT_OK = 0, EXIT_RUNTIME = 1, EXIT_USAGE = 2 };
 
@@ -78,6 +79,15 @@ void cli_window_note(const char *cmd, const tally_series *s, int any);
  * (labels_pref), as the next value of r; null when it has none. */
 void cli_occupation_label(rec *r, const labelset *ls, const char *occ, size_t ol,
 			  const char *lang);
+
+/* The occupations' groups for overlap and report (cli_overlap.c): by
+ * the first prefix characters of the code (prefix not UINT64_MAX), else
+ * from groups (TSV at level, or SKOS), else from the skos:broader of
+ * the labels when they are SKOS, else none (g empty).  Returns 0, or -1
+ * after saying why not as "titlemill CMD: ..."; notes on standard error
+ * (several levels, several broader concepts).  g is for groups_free. */
+int cli_load_groups(const char *cmd, const char *groups, const char *level, uint64_t prefix,
+		    const char *labels, groupmap *g);
 
 int cmd_norm(int argc, char **argv);
 int cmd_tally(int argc, char **argv);

@@ -296,30 +296,30 @@ static int write_occ(void *ctx, const overlap_occ *o)
 	return rec_end(r);
 }
 
-/* The groups the options ask for: 0, or -1 after saying why not. */
-static int load_groups(const overlap_cli *o, groupmap *g)
+int cli_load_groups(const char *cmd, const char *groups, const char *level, uint64_t prefix,
+		    const char *labels, groupmap *g)
 {
 	tm_buf err = {0};
 	int rc = 0;
 	memset(g, 0, sizeof *g);
-	if (o->group_prefix != UINT64_MAX)
-		groups_by_prefix(g, (size_t)o->group_prefix);
-	else if (o->groups)
-		rc = skos_is_rdf_path(o->groups) ? groups_read_skos(g, o->groups, &err)
-				       : groups_read_tsv(g, o->groups, o->level, &err);
-	else if (skos_is_rdf_path(o->in.setup.labels))
-		rc = groups_read_skos(g, o->in.setup.labels, &err);
+	if (prefix != UINT64_MAX)
+		groups_by_prefix(g, (size_t)prefix);
+	else if (groups)
+		rc = skos_is_rdf_path(groups) ? groups_read_skos(g, groups, &err)
+				       : groups_read_tsv(g, groups, level, &err);
+	else if (skos_is_rdf_path(labels))
+		rc = groups_read_skos(g, labels, &err);
 	if (rc) {
-		fprintf(stderr, "titlemill overlap: %.*s\n", (int)err.len, err.data ? err.data : "");
+		fprintf(stderr, "titlemill %s: %.*s\n", cmd, (int)err.len, err.data ? err.data : "");
 		rc = -1;
 	} else {
-		if (g->levels > 1 && !(o->level && *o->level))
-			fprintf(stderr, "titlemill overlap: %s has %d levels: the groups of level '%s' "
-				"(the finest: the most groups); choose another with --level\n", o->groups,
+		if (g->levels > 1 && !(level && *level))
+			fprintf(stderr, "titlemill %s: %s has %d levels: the groups of level '%s' "
+				"(the finest: the most groups); choose another with --level\n", cmd, groups,
 				g->levels, g->level);
 		if (g->several)
-			fprintf(stderr, "titlemill overlap: %ld occupation%s with more than one broader "
-				"concept: each is put in the byte-smallest\n", g->several,
+			fprintf(stderr, "titlemill %s: %ld occupation%s with more than one broader "
+				"concept: each is put in the byte-smallest\n", cmd, g->several,
 				g->several == 1 ? "" : "s");
 	}
 	buf_free(&err);
@@ -370,7 +370,8 @@ int cmd_overlap(int argc, char **argv)
 		fputs("titlemill overlap: --groups and --group-prefix exclude each other\n", stderr);
 	else if (o.level && (!o.groups || skos_is_rdf_path(o.groups)))
 		fputs("titlemill overlap: --level applies to a groups TSV (--groups FILE)\n", stderr);
-	else if (load_groups(&o, &g) != 0)
+	else if (cli_load_groups("overlap", o.groups, o.level, o.group_prefix, o.in.setup.labels,
+				 &g) != 0)
 		rc = EXIT_RUNTIME;
 	else
 		rc = EXIT_OK;

@@ -1,5 +1,6 @@
 /* cli_report.c - titlemill report: one self-contained HTML page of the
- * coverage, the labels' shares and the suggestions (report.h). */
+ * coverage, the labels' shares, the suggestions and the occupations the
+ * postings cannot tell apart (report.h). */
 #include <stddef.h>
 #include <stdio.h>
 #include <string.h>
@@ -8,6 +9,7 @@
 #include "cli/cli.h"
 #include "cli/options.h"
 #include "io/outfile.h"
+#include "io/skos.h"
 #include "rank/inputs.h"
 #include "rank/propose.h"
 #include "report/report.h"
@@ -15,9 +17,10 @@
 
 typedef struct report_cli {
 	rank_opts in;
-	const char *out, *queue;
+	const char *out, *queue, *groups, *level;
 	opt_strs occ;
-	uint64_t sections, min_postings, top;
+	uint64_t sections, min_postings, top, overlap_top, overlap_min;
+	uint64_t group_prefix;   /* UINT64_MAX: not asked for */
 	int stamp;
 	propose_bars bar;
 } report_cli;
@@ -46,6 +49,20 @@ static const opt_spec report_specs[] = {
 	 NULL, 0},
 	{"top", OPT_U64, offsetof(report_cli, top), "N", "100", 0, 1e18,
 	 "list at most N suggestions of each kind (the strongest)", NULL, 0},
+	{"overlap-top", OPT_U64, offsetof(report_cli, overlap_top), "N", "20", 0, 1e9,
+	 "show the N closest pairs of occupations and at most N nearer another group "
+	 "(0: no such section)", NULL, 0},
+	{"overlap-min-postings", OPT_U64, offsetof(report_cli, overlap_min), "N",
+	 OPT_XSTR(OVERLAP_MIN_POSTINGS), 1, 1e18,
+	 "postings each occupation of a pair needs to be ranked (as overlap --min-postings)",
+	 NULL, 0},
+	{"groups", OPT_STR, offsetof(report_cli, groups), "FILE", NULL, 0, 0,
+	 "the occupations' groups: TSV (occupation, group, optional level) or SKOS "
+	 "(default: skos:broader of SKOS --labels)", NULL, 0},
+	{"level", OPT_STR, offsetof(report_cli, level), "L", NULL, 0, 0,
+	 "use this level of the groups TSV (default: the one with the most groups)", NULL, 0},
+	{"group-prefix", OPT_U64, offsetof(report_cli, group_prefix), "N", NULL, 1, 64,
+	 "group occupations by the first N characters of their code", NULL, 0},
 	{"stamp", OPT_FLAG, offsetof(report_cli, stamp), NULL, NULL, 0, 0,
 	 "write the time the page was made (without it the same inputs give the same bytes)",
 	 NULL, 0},
@@ -60,14 +77,17 @@ static const opt_cmd report_cmd = {
 	"report",
 	"usage: titlemill report --labels FILE -o FILE [--queue FILE] [--lang L]\n"
 	"                        [--occupation ID]... [--sections N] [--stamp]\n"
+	"                        [--groups FILE [--level L] | --group-prefix N]\n"
+	"                        [--overlap-top N] [--overlap-min-postings N]\n"
 	"                        [--ids local] [--id-map FILE] [--strict] [thresholds]\n"
 	"                        (COUNTS|POSTINGS...|-|--store URL [--prefix P])\n"
 	"\n"
 	"One self-contained HTML page for curators: coverage overall, per language\n"
 	"and per occupation with intervals, the labels' shares of the weakest\n"
-	"occupations, the biggest unmatched titles, and the suggestions with their\n"
-	"evidence (and the queue's decisions).  It opens from a file with no network.\n"
-	"The thresholds are those of titlemill propose.\n"
+	"occupations, the biggest unmatched titles, the suggestions with their\n"
+	"evidence (and the queue's decisions), and the occupations whose postings\n"
+	"use the same titles (as titlemill overlap).  It opens from a file with no\n"
+	"network.  The thresholds are those of titlemill propose.\n"
 	"\n",
 	report_specs,
 	NULL,
@@ -125,12 +145,14 @@ int cmd_report(int argc, char **argv)
 	rank_inputs in;
 	inputs_survey sv;
 	rq_queue q;
+	groupmap g;
 	tm_buf page = {0}, err = {0}, notes = {0};
 	int status, have_queue = 0;
 	char stamp[32];
 
 	memset(&o, 0, sizeof o);
 	memset(&q, 0, sizeof q);
+	memset(&g, 0, sizeof g);
 	if (!cli_rank_start(&report_cmd, &o, &o.in, argc, argv, &in, &sv, &status))
 		goto done;
 	status = EXIT_USAGE;
@@ -142,6 +164,19 @@ int cmd_report(int argc, char **argv)
 	status = EXIT_RUNTIME;
 	if (load_queue(&o, &q, &have_queue))
 		goto done;
+	status = EXIT_USAGE;
+	if (o.group_prefix != UINT64_MAX && o.groups) {
+		fputs("titlemill report: --groups and --group-prefix exclude each other\n", stderr);
+		goto done;
+	}
+	if (o.level && (!o.groups || skos_is_rdf_path(o.groups))) {
+		fputs("titlemill report: --level applies to a groups TSV (--groups FILE)\n", stderr);
+		goto done;
+	}
+	status = EXIT_RUNTIME;
+	if (o.overlap_top && cli_load_groups("report", o.groups, o.level, o.group_prefix,
+					     o.in.setup.labels, &g))
+		goto done;
 	if (o.stamp) {
 		time_t t = time(NULL);
 		struct tm tmv;
@@ -149,7 +184,13 @@ int cmd_report(int argc, char **argv)
 	}
 	report_opts ro = {o.in.lang[0] ? o.in.lang : NULL, o.occ.n ? (char *const *)o.occ.v : NULL,
 			  o.occ.n, o.sections, o.min_postings, &o.bar, o.top, have_queue ? &q : NULL,
-			  NULL, o.stamp ? stamp : NULL, TM_VERSION, &notes, sv.distinct};
+			  NULL, o.stamp ? stamp : NULL, TM_VERSION, &notes, sv.distinct, NULL, 0,
+			  NULL, NULL, NULL, NULL, NULL};
+	overlap_opts oo = {o.overlap_min, OVERLAP_KEY_CAP, ro.lang, &g};
+	if (o.overlap_top) {
+		ro.overlap = &oo;
+		ro.overlap_top = o.overlap_top;
+	}
 	if (report_write(&in.m, &in.ls, &ro, &page, &err)) {
 		fprintf(stderr, "titlemill report: %s\n", err.data);
 		goto done;
@@ -162,6 +203,7 @@ int cmd_report(int argc, char **argv)
 	status = write_page(o.out, &page);
 done:
 	rq_free(&q);
+	groups_free(&g);
 	inputs_free(&in);
 	buf_free(&page);
 	buf_free(&err);

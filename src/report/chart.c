@@ -62,7 +62,8 @@ static void axis(tm_buf *b, int h)
 	}
 }
 
-static void table_head(tm_buf *b, const char *title, const char *first, const char *col)
+static void table_head(tm_buf *b, const char *title, const char *first, const char *col,
+		       int interval)
 {
 	buf_puts(b, "<details><summary>The numbers of this chart</summary>\n<table><caption>");
 	html_str(b, title);
@@ -70,7 +71,7 @@ static void table_head(tm_buf *b, const char *title, const char *first, const ch
 	html_str(b, first);
 	buf_puts(b, "</th><th scope=\"col\">");
 	html_str(b, col);
-	buf_puts(b, "</th><th scope=\"col\">95 % interval</th>");
+	buf_puts(b, interval ? "</th><th scope=\"col\">95 % interval</th>" : "</th>");
 }
 
 int chart_rows(tm_buf *b, const char *id, int style, const char *title, const char *desc,
@@ -87,15 +88,16 @@ int chart_rows(tm_buf *b, const char *id, int style, const char *title, const ch
 			   NAME_W - 8, y + 14);
 		html_text(b, r->name, r->nl, CHART_NAME);
 		buf_puts(b, "</text>");
-		if (style == CHART_BARS)
+		if (style != CHART_DOTS)
 			buf_printf(b, "<rect class=\"tm-bar%s\" x=\"%d\" y=\"%d\" width=\"%.1f\" "
 				      "height=\"%d\"/>", r->mark ? " tm-marked" : "", NAME_W, y + 4,
 				   v - NAME_W, ROW_H - 8);
-		buf_printf(b, "<line class=\"tm-ci\" x1=\"%.1f\" y1=\"%d\" x2=\"%.1f\" y2=\"%d\"/>"
-			      "<line class=\"tm-ci\" x1=\"%.1f\" y1=\"%d\" x2=\"%.1f\" y2=\"%d\"/>"
-			      "<line class=\"tm-ci\" x1=\"%.1f\" y1=\"%d\" x2=\"%.1f\" y2=\"%d\"/>",
-			   lo, y + ROW_H / 2, hi, y + ROW_H / 2, lo, y + 5, lo, y + ROW_H - 5, hi,
-			   y + 5, hi, y + ROW_H - 5);
+		if (style != CHART_SHARES)
+			buf_printf(b, "<line class=\"tm-ci\" x1=\"%.1f\" y1=\"%d\" x2=\"%.1f\" y2=\"%d\"/>"
+				      "<line class=\"tm-ci\" x1=\"%.1f\" y1=\"%d\" x2=\"%.1f\" y2=\"%d\"/>"
+				      "<line class=\"tm-ci\" x1=\"%.1f\" y1=\"%d\" x2=\"%.1f\" y2=\"%d\"/>",
+				   lo, y + ROW_H / 2, hi, y + ROW_H / 2, lo, y + 5, lo, y + ROW_H - 5, hi,
+				   y + 5, hi, y + ROW_H - 5);
 		if (style == CHART_DOTS)
 			buf_printf(b, "<circle class=\"tm-dot\" cx=\"%.1f\" cy=\"%d\" r=\"4\"/>", v,
 				   y + ROW_H / 2);
@@ -111,7 +113,7 @@ int chart_rows(tm_buf *b, const char *id, int style, const char *title, const ch
 	buf_puts(b, "</svg>\n<figcaption>");
 	html_str(b, desc);
 	buf_puts(b, "</figcaption>\n");
-	table_head(b, title, "name", col);
+	table_head(b, title, "name", col, style != CHART_SHARES);
 	buf_puts(b, "<th scope=\"col\">note</th></tr></thead>\n<tbody>\n");
 	for (size_t i = 0; i < n; i++) {
 		const chart_row *r = &rows[i];
@@ -120,8 +122,10 @@ int chart_rows(tm_buf *b, const char *id, int style, const char *title, const ch
 		buf_puts(b, "</td><td>");
 		chart_pct(b, r->value);
 		buf_puts(b, "</td><td>");
-		chart_range(b, r->low, r->high);
-		buf_puts(b, "</td><td>");
+		if (style != CHART_SHARES) {
+			chart_range(b, r->low, r->high);
+			buf_puts(b, "</td><td>");
+		}
 		if (r->mark)
 			html_str(b, r->mark);
 		buf_puts(b, "</td></tr>\n");
@@ -173,7 +177,7 @@ int chart_series(tm_buf *b, const char *id, const char *title, const char *desc,
 	buf_puts(b, "</svg>\n<figcaption>");
 	html_str(b, desc);
 	buf_puts(b, "</figcaption>\n");
-	table_head(b, title, "period", "share");
+	table_head(b, title, "period", "share", 1);
 	buf_puts(b, "<th scope=\"col\">postings</th></tr></thead>\n<tbody>\n");
 	for (size_t i = 0; i < n; i++) {
 		buf_puts(b, "<tr><td>");

@@ -34,7 +34,11 @@ typedef struct chart_point {
 	unsigned long long n;   /* the postings behind it, for the table */
 } chart_point;
 
-enum { CHART_BARS, CHART_DOTS };
+/* CHART_BARS and CHART_DOTS draw each row's interval; CHART_SHARES
+ * draws bars without one, for a share that is a measure and not an
+ * estimate (low and high are ignored; the table has no interval
+ * column). */
+enum { CHART_BARS, CHART_DOTS, CHART_SHARES };
 
 #define CHART_NAME 44
 
@@ -44,8 +48,9 @@ void chart_pct(tm_buf *b, double v);
 /* An interval of shares ("40.1 %\u201343.0 %"). */
 void chart_range(tm_buf *b, double lo, double hi);
 
-/* A figure of one row per item: bars from 0 (CHART_BARS) or a dot
- * (CHART_DOTS), each with its interval as a whisker.  id must be unique
+/* A figure of one row per item: bars from 0 (CHART_BARS, CHART_SHARES)
+ * or a dot (CHART_DOTS), each with its interval as a whisker (but
+ * CHART_SHARES).  id must be unique
  * in the page (letters, digits, '-'); title is the chart's heading, desc
  * says what it shows in a sentence; col names the value's column in the
  * table ("share"). */

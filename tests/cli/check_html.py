@@ -5,6 +5,15 @@ html.parser (the standard library of the python3 Debian ships).
   check_html.py PAGE            prints "ok", or one line per problem
   check_html.py PAGE coverage   prints the coverage table's rows:
                                 occupation TAB lang TAB postings TAB coverage
+  check_html.py PAGE overlap    prints the overlap table's rows: occupation TAB
+                                other TAB lang TAB divergence TAB shared TAB
+                                postings TAB other_postings
+  check_html.py PAGE nearer     prints the nearer-another-group rows: occupation
+                                TAB lang TAB group TAB its divergence TAB nearest
+                                group TAB divergence from it
+  check_html.py PAGE trend      prints the rising and fading rows: direction TAB
+                                occupation TAB lang TAB title TAB postings before
+                                TAB after TAB g2
   check_html.py PAGE kinds      prints each suggestion kind and its count
   check_html.py PAGE elements   prints every element name used, sorted
 
@@ -31,7 +40,8 @@ class Page(HTMLParser):
         self.scripts = 0
         self.svg_refs = []      # (line, [ids])
         self.tables = []        # per table: has a th in thead
-        self.cov, self.in_cov, self.cell, self.row = [], False, None, None
+        self.rows, self.cell, self.row = {}, None, None   # table id -> rows of cells
+        self.table_ids = []     # the ids of the open tables
         self.kinds, self.h3 = [], None
         self.titles_in = []     # ids of <title> elements
 
@@ -78,15 +88,15 @@ class Page(HTMLParser):
         if tag == "table":
             self.tables.append({"th": 0, "thead": False, "line": self.getpos()[0],
                                 "id": a.get("id")})
-            if a.get("id") == "coverage-table":
-                self.in_cov = True
+            self.table_ids.append(a.get("id"))
         if tag == "thead" and self.tables:
             self.tables[-1]["thead"] = True
         if tag == "th" and self.tables and "thead" in self.stack:
             self.tables[-1]["th"] += 1
-        if self.in_cov and tag == "tr" and "tbody" in self.stack:
+        in_table = bool(self.table_ids and self.table_ids[-1])
+        if in_table and tag == "tr" and "tbody" in self.stack:
             self.row = []
-        if self.in_cov and tag == "td" and self.row is not None:
+        if in_table and tag == "td" and self.row is not None:
             self.cell = {"v": a.get("data-v"), "text": ""}
         if tag == "h3":
             self.h3 = ""
@@ -110,13 +120,12 @@ class Page(HTMLParser):
             t = self.tables.pop()
             if not t["thead"] or not t["th"]:
                 self.problem("table at line %d has no header row" % t["line"])
-            if t["id"] == "coverage-table":
-                self.in_cov = False
-        if self.in_cov and tag == "td" and self.cell is not None:
+            self.table_ids.pop()
+        if tag == "td" and self.cell is not None:
             self.row.append(self.cell)
             self.cell = None
-        if self.in_cov and tag == "tr" and self.row:
-            self.cov.append(self.row)
+        if tag == "tr" and self.row:
+            self.rows.setdefault(self.table_ids[-1], []).append(self.row)
             self.row = None
         if tag == "h3" and self.h3 is not None:
             self.kinds.append(self.h3)
@@ -135,9 +144,26 @@ def main():
     p.feed(text)
     p.close()
     mode = sys.argv[2] if len(sys.argv) > 2 else "check"
+    rows = p.rows.get
     if mode == "coverage":
-        for r in p.cov:
+        for r in rows("coverage-table", []):
             print("\t".join([r[0]["text"], r[2]["text"], r[3]["v"], "%.4f" % float(r[4]["v"])]))
+        return 0
+    if mode == "overlap":
+        for r in rows("overlap-table", []):
+            print("\t".join([r[1]["v"], r[2]["v"], r[3]["text"], "%.4f" % float(r[4]["v"]),
+                             "%.4f" % float(r[5]["v"]), r[6]["v"], r[7]["v"]]))
+        return 0
+    if mode == "nearer":
+        for r in rows("nearer-table", []):
+            print("\t".join([r[0]["v"], r[1]["text"], r[3]["text"], "%.4f" % float(r[4]["v"]),
+                             r[5]["text"], "%.4f" % float(r[6]["v"])]))
+        return 0
+    if mode == "trend":
+        for d in ("rising", "falling"):
+            for r in rows("trend-" + d, []):
+                print("\t".join([d, r[0]["v"], r[1]["text"], r[2]["text"], r[4]["v"], r[5]["v"],
+                                 "%.4f" % float(r[10]["v"])]))
         return 0
     if mode == "kinds":
         for h in p.kinds:

@@ -1,7 +1,9 @@
 #!/bin/sh
 # titlemill report: the page parses as well-nested HTML with nothing that
 # reaches the network (tests/cli/check_html.py, Python's html.parser);
-# its numbers are those of coverage and propose on the same inputs; the
+# its numbers are those of coverage, propose and overlap on the same
+# inputs (the overlap rows on generated postings with planted pairs and
+# a misfiled occupation, tests/cli/gen_overlap.py); the
 # same inputs give the same bytes; hostile labels and titles are escaped
 # (no element they bring survives); and, when Debian's chromium is
 # installed (.ci/run installs it), a real browser renders it headless to
@@ -74,6 +76,71 @@ n=$(grep -c '<section class="tm-occ"' "$tmp/one.html")
 [ "$n" -ge 1 ]; check asked-sections 0 $?
 check asked-structure ok "$($chk "$tmp/one.html")"
 
+# occupations the postings cannot tell apart: the pairs and the
+# occupations nearer another group are overlap's rows, number for number
+mkdir "$tmp/ov" && /usr/bin/python3 "$here/gen_overlap.py" "$tmp/ov" 7 > /dev/null
+$T tally --labels "$tmp/ov/labels.tsv" -o "$tmp/ov/c.tsv" "$tmp/ov/postings.tsv" 2>/dev/null
+check ov-tally 0 $?
+$T report --labels "$tmp/ov/labels.tsv" --groups "$tmp/ov/groups.tsv" --level 2 \
+	-o "$tmp/ov.html" "$tmp/ov/c.tsv" 2>/dev/null
+check ov-status 0 $?
+check ov-structure ok "$($chk "$tmp/ov.html")"
+$T overlap --labels "$tmp/ov/labels.tsv" --groups "$tmp/ov/groups.tsv" --level 2 --top 20 \
+	"$tmp/ov/c.tsv" 2>/dev/null > "$tmp/ov.tsv"
+check ov-overlap 0 $?
+awk -F '\t' 'NR == 1 { for (i = 1; i <= NF; i++) c[$i] = i; next }
+	$c["kind"] == "overlapping_occupations" { print $c["occupation"] "\t" $c["other_occupation"] "\t" \
+		$c["lang"] "\t" $c["divergence"] "\t" $c["shared"] "\t" $c["postings"] "\t" $c["other_postings"] }' \
+	"$tmp/ov.tsv" > "$tmp/want"
+$chk "$tmp/ov.html" overlap > "$tmp/got"
+check ov-pairs 20 "$(wc -l < "$tmp/want" | tr -d ' ')"
+cmp -s "$tmp/want" "$tmp/got"; check ov-pairs-equal 0 $?
+# the chart of the shared mass has a bar for each pair of the table
+n=$(sed -n '/id="chart-overlap"/,/<\/svg>/p' "$tmp/ov.html" | grep -c '<rect class="tm-bar')
+check ov-chart-bars 20 "$n"
+awk -F '\t' 'NR == 1 { for (i = 1; i <= NF; i++) c[$i] = i; next }
+	$c["kind"] == "nearer_other_group" { print $c["occupation"] "\t" $c["lang"] "\t" $c["group"] "\t" \
+		$c["group_divergence"] "\t" $c["other_group"] "\t" $c["divergence"] }' \
+	"$tmp/ov.tsv" > "$tmp/want"
+$chk "$tmp/ov.html" nearer > "$tmp/got"
+[ -s "$tmp/want" ]; check ov-nearer-rows 0 $?
+cmp -s "$tmp/want" "$tmp/got"; check ov-nearer-equal 0 $?
+# the planted truth shows: the three planted pairs rank first (in each
+# language), the misfiled occupation is nearer the group it is written like
+$chk "$tmp/ov.html" overlap > "$tmp/rows"
+head -n 6 "$tmp/rows" | cut -f1,2 | sort -u > "$tmp/got"
+awk '$1 == "pair" { print $2 "\t" $3 }' "$tmp/ov/truth.tsv" | sort > "$tmp/want"
+cmp -s "$tmp/want" "$tmp/got"; check ov-planted-pairs 0 $?
+mis=$(awk '$1 == "misfiled" { print $2 "\t" $3 }' "$tmp/ov/truth.tsv")
+$chk "$tmp/ov.html" nearer | cut -f1,5 | grep -qx "$mis"; check ov-planted-misfiled 0 $?
+# groups from a SKOS file give the same rows as its TSV at the same level
+$T report --labels "$tmp/ov/labels.tsv" --groups "$tmp/ov/groups.ttl" -o "$tmp/ov2.html" \
+	"$tmp/ov/c.tsv" 2>/dev/null
+check ov-skos-status 0 $?
+$chk "$tmp/ov2.html" nearer | cut -f1,5 | grep -qx "$mis"; check ov-skos-misfiled 0 $?
+# without groups the page says so; --overlap-top 0 leaves the section out
+$T report --labels "$tmp/ov/labels.tsv" -o "$tmp/ov3.html" "$tmp/ov/c.tsv" 2>/dev/null
+grep -q 'have no groups here' "$tmp/ov3.html"; check ov-no-groups 0 $?
+grep -q 'id="nearer-table"' "$tmp/ov3.html"; check ov-no-groups-table 1 $?
+$T report --labels "$tmp/ov/labels.tsv" --overlap-top 0 -o "$tmp/ov4.html" "$tmp/ov/c.tsv" \
+	2>/dev/null
+grep -q 'id="overlap"' "$tmp/ov4.html"; check ov-top-0 1 $?
+$T report --labels "$tmp/ov/labels.tsv" --level 2 -o "$tmp/x.html" "$tmp/ov/c.tsv" 2>/dev/null
+check ov-level-alone 2 $?
+$T report --labels "$tmp/ov/labels.tsv" --groups "$tmp/ov/groups.tsv" --group-prefix 6 \
+	-o "$tmp/x.html" "$tmp/ov/c.tsv" 2>/dev/null
+check ov-groups-and-prefix 2 $?
+# groups by the code's first two characters (the generator's groups at
+# level 2): the misfiled occupation is listed there too
+$T report --labels "$tmp/ov/labels.tsv" --group-prefix 2 -o "$tmp/ov5.html" "$tmp/ov/c.tsv" \
+	2>/dev/null
+check ov-prefix-status 0 $?
+$chk "$tmp/ov5.html" nearer | cut -f1 | grep -qx "$(echo "$mis" | cut -f1)"
+check ov-prefix-misfiled 0 $?
+$T report --labels "$tmp/ov/labels.tsv" --groups "$tmp/ov/none.tsv" -o "$tmp/x.html" \
+	"$tmp/ov/c.tsv" 2>/dev/null
+check ov-groups-missing 1 $?
+
 # usage: -o is required; a bad number is a usage error
 $T report --labels "$tmp/labels.tsv" "$tmp/c.tsv" 2>/dev/null; check no-output 2 $?
 $T report --labels "$tmp/labels.tsv" --sections x -o "$tmp/x.html" "$tmp/c.tsv" 2>/dev/null
@@ -102,11 +169,15 @@ long=$(/usr/bin/python3 -c 'print("Lagerist " * 1200)')
 		*) t='<iframe src=//x.invalid></iframe>Welder helper' ;;
 		esac
 		printf '%s\ten\tocc:x\t%b\n' "$i" "$t"
+		printf 'y%s\ten\tocc:y\t%b\n' "$i" "$t"
 	done
 } > "$tmp/evil.tsv"
-$T report --labels "$tmp/evil-labels.tsv" --min-postings 1 -o "$tmp/evil.html" "$tmp/evil.tsv" \
-	2>/dev/null
+$T report --labels "$tmp/evil-labels.tsv" --min-postings 1 --overlap-min-postings 1 \
+	-o "$tmp/evil.html" "$tmp/evil.tsv" 2>/dev/null
 check evil-status 0 $?
+# the hostile titles reach the overlap table (occ:x and occ:y share them)
+$chk "$tmp/evil.html" overlap | grep -q '^occ:x	occ:y	en	0.0000	1.0000'
+check evil-overlap 0 $?
 check evil-structure ok "$($chk "$tmp/evil.html")"
 # only the elements the report itself writes
 $chk "$tmp/evil.html" elements | grep -qx -e iframe -e img -e b; check evil-no-element 1 $?

@@ -105,6 +105,13 @@ static void test_rows(void **state)
 	assert_int_equal(chart_rows(&b, "c2", CHART_DOTS, "t", "d", "coverage", rows, 3), TM_OK);
 	assert_non_null(strstr(parse(&b), " 3 circle;"));
 	assert_null(strstr(parse(&b), " rect;"));
+	/* shares without intervals: the bars, the grid's five lines and no
+	 * whisker, a table of name, share and note */
+	buf_reset(&b);
+	assert_int_equal(chart_rows(&b, "c3", CHART_SHARES, "t", "d", "shared", rows, 3), TM_OK);
+	assert_non_null(strstr(parse(&b), " 5 line; 3 rect;"));
+	assert_non_null(strstr(parse(&b), " 3 th;"));
+	assert_null(strstr(b.data, "interval"));
 	buf_free(&b);
 }
 
