@@ -103,9 +103,10 @@ show table "$out/delta.tsv" occupation kind lang label change id
 "$T" review stats --queue "$q" | awk -F '\t' '$1 == "all" { printf "  queue: %s suggestions, %s open, %s accepted, %s rejected\n", $3, $4, $5, $6 }'
 echo
 echo "== a page to look at: titlemill report"
-"$T" report --labels "$here/taxonomy.tsv" --group-prefix 2 --queue "$q" -o "$out/report.html" "$out/day.counts.tsv" 2>&1 |
+"$T" report --labels "$here/taxonomy.tsv" --group-prefix 2 --queue "$q" \
+	--before 2026-W10..2026-W11 --after 2026-W12..2026-W13 -o "$out/report.html" "$out/weeks.counts.tsv" 2>&1 |
 	sed 's/^/  /'
-echo "  open $o/report.html in a browser: coverage, the weakest occupations' labels, the suggestions with the queue's decisions, the occupations named alike"
+echo "  open $o/report.html in a browser: coverage, the weakest occupations' labels week by week, the suggestions with the queue's decisions, the occupations named alike, the titles rising and fading"
 echo "  Full outputs: $o/coverage.tsv, $o/suggestions.jsonl (and .tsv), $o/day.counts.tsv, $o/queue.jsonl, $o/report.html"
 [ -s "$out/labels.warnings" ] && echo "  Label warnings: $o/labels.warnings ($(wc -l < "$out/labels.warnings") lines)"
 exit 0

@@ -3,6 +3,7 @@
  * postings cannot tell apart (report.h). */
 #include <stddef.h>
 #include <stdio.h>
+#include <stdlib.h>
 #include <string.h>
 #include <time.h>
 
@@ -12,6 +13,7 @@
 #include "io/skos.h"
 #include "rank/inputs.h"
 #include "rank/propose.h"
+#include "rank/trend.h"
 #include "report/report.h"
 #include "review/queue.h"
 
@@ -22,6 +24,7 @@ typedef struct report_cli {
 	uint64_t sections, min_postings, top, overlap_top, overlap_min;
 	uint64_t group_prefix;   /* UINT64_MAX: not asked for */
 	int stamp;
+	opt_span as_of, before, after;
 	propose_bars bar;
 } report_cli;
 
@@ -63,6 +66,14 @@ static const opt_spec report_specs[] = {
 	 "use this level of the groups TSV (default: the one with the most groups)", NULL, 0},
 	{"group-prefix", OPT_U64, offsetof(report_cli, group_prefix), "N", NULL, 1, 64,
 	 "group occupations by the first N characters of their code", NULL, 0},
+	{"before", OPT_SPAN, offsetof(report_cli, before), "FROM..TO", NULL, 1, 0,
+	 "with counts by period: the earlier window of the rising and fading titles (as "
+	 "titlemill trend)", NULL, 0},
+	{"after", OPT_SPAN, offsetof(report_cli, after), "FROM..TO", NULL, 1, 0,
+	 "the later window (as titlemill trend)", NULL, 0},
+	{"as-of", OPT_SPAN, offsetof(report_cli, as_of), "DATE", NULL, 0, 0,
+	 "without --after: the later window is the latest period that ended before DATE "
+	 "(not given: today, UTC), the earlier the three before it", NULL, 0},
 	{"stamp", OPT_FLAG, offsetof(report_cli, stamp), NULL, NULL, 0, 0,
 	 "write the time the page was made (without it the same inputs give the same bytes)",
 	 NULL, 0},
@@ -77,6 +88,8 @@ static const opt_cmd report_cmd = {
 	"report",
 	"usage: titlemill report --labels FILE -o FILE [--queue FILE] [--lang L]\n"
 	"                        [--occupation ID]... [--sections N] [--stamp]\n"
+	"                        [--from DATE] [--to DATE] [--before FROM..TO]\n"
+	"                        [--after FROM..TO] [--as-of DATE]\n"
 	"                        [--groups FILE [--level L] | --group-prefix N]\n"
 	"                        [--overlap-top N] [--overlap-min-postings N]\n"
 	"                        [--ids local] [--id-map FILE] [--strict] [thresholds]\n"
@@ -86,7 +99,9 @@ static const opt_cmd report_cmd = {
 	"and per occupation with intervals, the labels' shares of the weakest\n"
 	"occupations, the biggest unmatched titles, the suggestions with their\n"
 	"evidence (and the queue's decisions), and the occupations whose postings\n"
-	"use the same titles (as titlemill overlap).  It opens from a file with no\n"
+	"use the same titles (as titlemill overlap); with counts by period, each\n"
+	"section's preferred-label share over time and the titles rising and fading\n"
+	"(as titlemill trend, its default windows).  It opens from a file with no\n"
 	"network.  The thresholds are those of titlemill propose.\n"
 	"\n",
 	report_specs,
@@ -119,6 +134,87 @@ static int load_queue(const report_cli *o, rq_queue *q, int *have)
 	return rc ? -1 : 0;
 }
 
+/* What the page shows of time, when the counts have periods: each
+ * period's coverage for the occupations' charts, and the trend of the
+ * default windows (trend.h). */
+typedef struct report_time {
+	report_periods ps;
+	trend_list tl;
+	trend_bars bars;
+	tally_mem before, after;
+	char wb[64], wa[64], span[64];
+	int have_trend;
+} report_time;
+
+static int time_load(report_time *t, rank_inputs *in, const report_cli *o, report_opts *ro)
+{
+	size_t np;
+	series_period **v;
+	long b0, b1, a0, a1;
+	const series_period *first = NULL, *last = NULL;
+	long today = o->as_of.given ? o->as_of.first : (long)(time(NULL) / 86400);
+
+	if (!series_dated(&in->s))
+		return 0;
+	if (!(v = series_sorted(&in->s, &np)))
+		return -1;
+	for (size_t i = 0; i < np; i++) {
+		if (!v[i]->len)
+			continue; /* undated: no time */
+		if (report_periods_add(&t->ps, v[i]->label, &v[i]->m, &in->ls, ro->lang) != 0) {
+			free(v);
+			return -1;
+		}
+		if (!first)
+			first = v[i];
+		last = v[i];
+	}
+	free(v);
+	ro->periods = &t->ps;
+	if (first && first != last)
+		snprintf(t->span, sizeof t->span, "%s to %s", first->label, last->label);
+	else if (first)
+		snprintf(t->span, sizeof t->span, "%s", first->label);
+	if (!o->in.from.given && !o->in.to.given && first)
+		ro->window = t->span;
+	if (trend_default_windows(&in->s, today, o->before.given, o->after.given, &b0, &b1, &a0,
+				  &a1) != 0)
+		return 0; /* no complete period: no trend */
+	if (o->after.given) {
+		a0 = o->after.first;
+		a1 = o->after.last;
+	}
+	if (o->before.given) {
+		b0 = o->before.first;
+		b1 = o->before.last;
+	}
+	if (b1 >= a0) {
+		fputs("titlemill report: --before must end before --after starts\n", stderr);
+		return -2;
+	}
+	trend_bars_default(&t->bars);
+	if (series_sum(&in->s, b0, b1, &t->before) <= 0 || series_sum(&in->s, a0, a1, &t->after) <= 0)
+		return 0; /* nothing before the latest period: nothing to compare */
+	trend_filter f = {NULL, ro->lang};
+	if (trend_run(&t->before, &t->after, &in->ls, &t->bars, &f, &t->tl) != 0)
+		return -1;
+	trend_window_text(in->s.seen_kind, b0, b1, t->wb, sizeof t->wb);
+	trend_window_text(in->s.seen_kind, a0, a1, t->wa, sizeof t->wa);
+	ro->trend = &t->tl;
+	ro->trend_bars = &t->bars;
+	ro->trend_before = t->wb;
+	ro->trend_after = t->wa;
+	return 0;
+}
+
+static void time_free(report_time *t)
+{
+	report_periods_free(&t->ps);
+	trend_list_free(&t->tl);
+	tm_free(&t->before);
+	tm_free(&t->after);
+}
+
 /* Writes the page to path by the rules of outfile.h. */
 static int write_page(const char *path, const tm_buf *page)
 {
@@ -149,10 +245,16 @@ int cmd_report(int argc, char **argv)
 	tm_buf page = {0}, err = {0}, notes = {0};
 	int status, have_queue = 0;
 	char stamp[32];
+	report_time rt;
 
 	memset(&o, 0, sizeof o);
 	memset(&q, 0, sizeof q);
 	memset(&g, 0, sizeof g);
+	memset(&rt, 0, sizeof rt);
+	tm_init(&rt.before);
+	tm_init(&rt.after);
+	o.in.by_period = 1; /* the periods, for the charts and the trend */
+	o.in.period = SERIES_AS_READ;
 	if (!cli_rank_start(&report_cmd, &o, &o.in, argc, argv, &in, &sv, &status))
 		goto done;
 	status = EXIT_USAGE;
@@ -187,6 +289,13 @@ int cmd_report(int argc, char **argv)
 			  NULL, o.stamp ? stamp : NULL, TM_VERSION, &notes, sv.distinct, NULL, 0,
 			  NULL, NULL, NULL, NULL, NULL};
 	overlap_opts oo = {o.overlap_min, OVERLAP_KEY_CAP, ro.lang, &g};
+	int tr = time_load(&rt, &in, &o, &ro);
+	if (tr != 0) {
+		if (tr == -1)
+			fputs("titlemill report: out of memory\n", stderr);
+		status = tr == -2 ? EXIT_USAGE : EXIT_RUNTIME;
+		goto done;
+	}
 	if (o.overlap_top) {
 		ro.overlap = &oo;
 		ro.overlap_top = o.overlap_top;
@@ -202,6 +311,7 @@ int cmd_report(int argc, char **argv)
 	}
 	status = write_page(o.out, &page);
 done:
+	time_free(&rt);
 	rq_free(&q);
 	groups_free(&g);
 	inputs_free(&in);

@@ -164,9 +164,12 @@ int chart_series(tm_buf *b, const char *id, const char *title, const char *desc,
 	for (size_t i = 0; i < n; i++) {
 		buf_printf(b, "<circle class=\"tm-dot\" cx=\"%.1f\" cy=\"%.1f\" r=\"3\"/>", PX(i),
 			   PY(p[i].value));
-		if (i % every == 0 || i + 1 == n) {
-			buf_printf(b, "<text class=\"tm-tick\" x=\"%.1f\" y=\"%d\" text-anchor=\"middle\">",
-				   PX(i), H - PB + 16);
+		/* the last name ends at its point, inside the picture, and
+		 * the thinned name before it gives it room */
+		int last = i + 1 == n && n > 1;
+		if ((i % every == 0 && (last || n - 1 - i >= every)) || i + 1 == n) {
+			buf_printf(b, "<text class=\"tm-tick\" x=\"%.1f\" y=\"%d\" text-anchor=\"%s\">",
+				   PX(i), H - PB + 16, last ? "end" : "middle");
 			html_str(b, p[i].period);
 			buf_puts(b, "</text>");
 		}

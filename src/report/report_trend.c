@@ -180,7 +180,22 @@ static void trend_table(rep *r, int dir, size_t n)
 		rp_put(r, "<tr>");
 		rp_occ_cell(r, t->occ, t->ol, t->lang);
 		rp_td_text(r, t->lang, strlen(t->lang));
-		rp_td_text(r, t->title, t->tl);
+		/* the label as the taxonomy writes it, else the title as the
+		 * postings write it (as titlemill trend shows them) */
+		if (t->lb)
+			rp_td_text(r, lab_str(r->ls, t->lb->text), t->lb->textlen);
+		else {
+			const char *ex[TALLY_EXAMPLES];
+			size_t exl[TALLY_EXAMPLES];
+			int nex = tm_examples(r->m, t->occ, t->ol, t->lang, t->key, t->kl, ex, exl);
+			buf_reset(&r->j);
+			if (propose_as_written(ex, exl, nex, t->title, t->tl, &r->j) != 0)
+				r->oom = 1;
+			if (r->j.len)
+				rp_td_text(r, r->j.data, r->j.len);
+			else
+				rp_td_text(r, t->title, t->tl);
+		}
 		rp_put(r, "<td>");
 		rp_ctext(r, kind_words(t->lb));
 		rp_put(r, "</td>");

@@ -216,6 +216,21 @@ $T trend --labels "$L" --direction falling --top 2 --before 2026-W02..2026-W05 \
 	--after 2026-W07..2026-W09 "$tmp/all.week" 2>/dev/null |
 	grep -c '"direction":"falling"' > "$tmp/n"
 check trend-top-direction 2 "$(cat "$tmp/n")"
+# the report's rising and fading titles are trend's, read back from the page
+$T report --labels "$L" --before 2026-W02..2026-W05 --after 2026-W07..2026-W09 \
+	-o "$tmp/report.html" "$tmp/all.week" 2>/dev/null
+check report-status 0 $?
+"$py" "$here/check_html.py" "$tmp/report.html" trend > "$tmp/report.trend"
+$T trend --labels "$L" --tsv --before 2026-W02..2026-W05 --after 2026-W07..2026-W09 \
+	"$tmp/all.week" 2>/dev/null | awk -F '\t' -v OFS='\t' 'NR == 1 { for (i = 1; i <= NF; i++) c[$i] = i; next }
+	{ print $c["direction"], $c["occupation"], $c["lang"], $c["label"], $c["postings_before"],
+		$c["postings_after"], $c["g2"] }' > "$tmp/trend.rows"
+cmp -s "$tmp/report.trend" "$tmp/trend.rows"; check report-trend-equals-trend 0 $?
+check report-trend-rows "$(wc -l < "$tmp/trend.rows")" "$(wc -l < "$tmp/report.trend")"
+check report-trend-some 1 "$([ -s "$tmp/trend.rows" ] && echo 1)"
+# ... and each occupation section draws its periods
+check report-period-chart 1 "$([ "$(grep -c 'id="chart-time-' "$tmp/report.html")" -ge 10 ] && echo 1)"
+
 # no periods: said, and the windows asked for
 $T trend --labels "$L" "$tmp/all.none" > /dev/null 2> "$tmp/err"
 check trend-no-periods-status 1 $?
