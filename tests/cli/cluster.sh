@@ -48,7 +48,7 @@ tb=$root/build/test_backend
 [ -x "$tb" ] || tb=$root/build-asan/test_backend
 [ -x "$tb" ] || { echo "  build/test_backend is missing: run make unit first"; exit 1; }
 TITLEMILL_TEST_REDIS=$C "$tb" > "$tmp/tb.out" 2>&1; check "backend suite on the cluster" 0 $?
-grep -q 'PASSED.*5 test' "$tmp/tb.out"; check "backend suite ran every test" 0 $?
+grep -q 'PASSED.*7 test' "$tmp/tb.out"; check "backend suite ran every test" 0 $?
 
 # 2. one file: memory, one server and the cluster give the same table
 /usr/bin/python3 "$gen" --postings --count 30000 --seed 11 > "$tmp/a.tsv"
