@@ -107,15 +107,17 @@ for per in none month day; do
 	R flushall > /dev/null
 	"$T" tally --store "unix:$rd/sock" --period "$per" "$p" 2> /dev/null
 	rows=$("$T" counts --store "unix:$rd/sock" | awk -F '\t' '$1 == "title"' | wc -l)
+	# the counting keys' own bytes (MEMORY USAGE of each), the posting ids apart
+	keyb=$(R --scan | grep -v ':{i:' | awk '{ gsub(/"/, "\\\""); print "MEMORY USAGE \"" $0 "\" SAMPLES 0" }' | R | awk '{ s += $1 } END { print s + 0 }')
 	"$T" tally --period "$per" "$p" 2> /dev/null > "$rd/per.mem"
 	same=$("$T" counts --store "unix:$rd/sock" | cmp -s - "$rd/per.mem" && echo yes || echo NO)
 	ms=$(awk '{ print $1 }' "$rd/per-$per" | median)
 	mem=$(awk '{ print $2 }' "$rd/per-$per" | median)
 	paste "$rd/per-$per" "$rd/per-none" > "$rd/pair"
 	ratio=$(awk '{ print $1 / $3 }' "$rd/pair" | median)
-	awk -v per="$per" -v ms="$ms" -v r="$ratio" -v mem="$mem" -v e="$empty" -v rows="$rows" -v same="$same" 'BEGIN {
-		printf "store by %s: %.2f s (%.2f x the time of --period none, paired); %d distinct (occupation, language, key, period), server used_memory %.0f bytes per row; same table as memory by %s: %s\n",
-			per, ms / 1000, r, rows, (mem - e) / rows, per, same }'
+	awk -v per="$per" -v ms="$ms" -v r="$ratio" -v mem="$mem" -v e="$empty" -v rows="$rows" -v kb="$keyb" -v same="$same" 'BEGIN {
+		printf "store by %s: %.2f s (%.2f x the time of --period none, paired); %d distinct (occupation, language, key, period): server used_memory %.0f bytes per row, the counting keys (ids apart) %.0f; same table as memory by %s: %s\n",
+			per, ms / 1000, r, rows, (mem - e) / rows, kb / rows, per, same }'
 done
 R flushall > /dev/null
 rps=$(redis-benchmark -s "$rd/sock" -P 64 -t hset -n 2000000 -q 2> /dev/null | tr '\r' '\n' |
