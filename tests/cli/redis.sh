@@ -230,6 +230,23 @@ done
 $T tally --period week "$tmp/pd.tsv" > "$tmp/pd.mem" 2>/dev/null
 $T counts --store "$S" --prefix pdday --period week | cmp -s - "$tmp/pd.mem"; check period-days-as-weeks 0 $?
 check period-kind-recorded week "$(redis-cli -s "$tmp/a/sock" get 'pdweek:{p}:kind')"
+# a window reads the periods inside it, from the store as from the table
+$T tally --period day "$tmp/pd.tsv" > "$tmp/pd.mem" 2>/dev/null
+$T counts --from 2026-03-02 --to 2026-03-03 "$tmp/pd.mem" > "$tmp/pdw.mem" 2>/dev/null
+$T counts --store "$S" --prefix pdday --from 2026-03-02 --to 2026-03-03 2>/dev/null | cmp -s - "$tmp/pdw.mem"
+check period-window-as-table 0 $?
+labels=$(dirname "$0")/../../examples/taxonomy.tsv
+# (every change reported, so that the outputs compared are long)
+for w in "--before 2026-03-01..2026-03-02 --after 2026-03-03..2026-03-04" \
+	"--before 2026-03-01..2026-03-01 --after 2026-03-02..2026-03-03"; do
+	# shellcheck disable=SC2086
+	$T trend --labels "$labels" --min-postings 1 --min-g2 0 --min-ratio 1 $w "$tmp/pd.mem" > "$tmp/pdt.mem" 2>/dev/null
+	# shellcheck disable=SC2086
+	$T trend --labels "$labels" --min-postings 1 --min-g2 0 --min-ratio 1 $w --store "$S" --prefix pdday 2>/dev/null |
+		cmp -s - "$tmp/pdt.mem"
+	check "period-trend-as-table-[$w]" 0 $?
+	[ "$(wc -l < "$tmp/pdt.mem")" -gt 100 ]; check "period-trend-reports-[$w]" 0 $?
+done
 # a store holds one kind: a load by another is refused before it writes,
 # and weeks are not read as months
 keys=$(redis-cli -s "$tmp/a/sock" --scan --pattern 'pdweek:*' | wc -l)
