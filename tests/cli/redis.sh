@@ -262,6 +262,14 @@ redis-cli -s "$tmp/a/sock" hset 'pdday:{o:occ:1}:n:2026-02-30' de 1 > /dev/null
 $T counts --store "$S" --prefix pdday > /dev/null 2> "$tmp/err"; check period-bad-label-status 1 $?
 grep -qF "bad period '2026-02-30'" "$tmp/err" && grep -qF 'pdday:{o:occ:1}:n:2026-02-30' "$tmp/err"
 check period-bad-label-msg 0 $?
+# a kind of period the store cannot hold: reads and loads stop, naming it
+redis-cli -s "$tmp/a/sock" set 'pdweek:{p}:kind' fortnight > /dev/null
+$T counts --store "$S" --prefix pdweek > /dev/null 2> "$tmp/err"; check period-bad-kind-read 1 $?
+grep -qF "the store's kind of period is none of day, week, month or none: pdweek:{p}:kind" "$tmp/err"
+check period-bad-kind-read-msg 0 $?
+$T tally --store "$S" --prefix pdweek --period week "$tmp/pd.tsv" 2> "$tmp/err"; check period-bad-kind-load 1 $?
+grep -qF "the store's kind of period is none of day, week, month or none: pdweek:{p}:kind" "$tmp/err"
+check period-bad-kind-load-msg 0 $?
 redis-cli -s "$tmp/a/sock" flushall > /dev/null
 
 # unreachable server, password required
