@@ -63,6 +63,9 @@ struct store {
 	uint64_t counted, republished;  /* postings: counted, their id seen before */
 	uint64_t applied, skipped;      /* chunks: applied, already in the backend */
 	uint64_t settled, settled_postings, unfinished; /* chunks, postings, chunks */
+	uint64_t undated;  /* postings counted without a date by a load by
+			    * period (Redis: of the chunks applied; the memory
+			    * backend's series counts its own) */
 	/* the loader's state (store_feed): postings per chunk (0: the
 	 * backend does not chunk), postings in the current chunk, its
 	 * digest so far, the digests of this run */

@@ -280,7 +280,7 @@ struct sr_work {
 	char (*nums)[3][24];
 	tm_buf pending;         /* the examples' bounds noted, kept once the
 				 * chunk has gone through */
-	uint64_t counted, repub;
+	uint64_t counted, repub, undated;
 };
 
 static void work_free(sr_flight *f)
@@ -577,6 +577,8 @@ int sr_shares_send(rstore *r, sr_flight *f)
 		if (tm_add(m, &rec.p) < 0)
 			goto oom;
 		w->counted++;
+		if (!rec.periodlen && r->period != PERIOD_NONE)
+			w->undated++;
 	}
 	if (got < 0) {
 		series_free(&agg);
@@ -627,6 +629,8 @@ int sr_applied(rstore *r, sr_flight *f, uint64_t *counted, uint64_t *repub)
 		sr_err(r, "out of memory", NULL);
 		rc = -1;
 	}
+	if (rc == 1)
+		r->base.undated += w->undated;
 	*counted = w->counted;
 	*repub = w->repub;
 	work_free(f);

@@ -425,6 +425,9 @@ static void test_periods(void **state)
 				feed_dated(st, rows, dates, NROWS, "dated.tsv");
 				assert_int_equal(st->ops->finish(st), 0);
 				assert_int_equal(st->counted, 10);
+				/* a store says how many had no date (rows 5 and 8) */
+				if (backends[b].url)
+					assert_int_equal(st->undated, kinds[k] == PERIOD_NONE ? 0 : 2);
 				assert_int_equal(st->ops->dump(st, &got), 0);
 				assert_int_equal(st->ops->dump(st, &all), 0);
 				snprintf(what, sizeof what, "%s, by %s, chunk %ld", backends[b].name,
