@@ -42,7 +42,7 @@ static const opt_spec tally_specs[] = {
 		       "run again, counts once (within one run every input counts, as in memory)"),
 	{"ttl", OPT_U64, offsetof(tally_opts, ttl_days), "DAYS", NULL, 1, 36500,
 	 "the store's counting keys expire DAYS days after the last load that touched "
-	 "them (not given: they stay)", NULL, 0},
+	 "them: a period no load counts in any more expires (not given: they stay)", NULL, 0},
 	OPT_SPEC_PREFIX(tally_opts, prefix),
 	{"chunk", OPT_U64, offsetof(tally_opts, chunk), "N", OPT_XSTR(STORE_CHUNK_DEFAULT),
 	 1, 10000000, "postings per atomic chunk", NULL, 0},
@@ -317,6 +317,7 @@ int cmd_tally(int argc, char **argv)
 	sconf.retries = (int)o.retries;
 	if (o.ttl_days != UINT64_MAX)
 		sconf.ttl_s = (long long)o.ttl_days * 86400;
+	sconf.period = o.period;
 	enum pr_format format = o.format == 3 ? PR_JSONL : o.format == 2 ? PR_TSV : PR_AUTO;
 	if (first >= argc) {
 		fputs("titlemill tally: name the postings files ('-' for standard input)\n", stderr);

@@ -6,10 +6,14 @@
 
 #include "norm/token.h"
 
-void chunk_digest_init(uint64_t dg[2])
+void chunk_digest_start(uint64_t dg[2], int kind)
 {
 	dg[0] = 0x84222325CBF29CE4ULL;
 	dg[1] = 0x9E3779B97F4A7C15ULL;
+	if (kind != PERIOD_NONE) {
+		dg[0] = tok_hash_mix(dg[0], 0x7E110D00u + (unsigned)kind);
+		dg[1] = tok_hash_mix(dg[1] ^ 0x7E110D, (uint64_t)kind);
+	}
 }
 
 void chunk_digest_posting(uint64_t dg[2], const posting *p)
@@ -94,13 +98,14 @@ const char *chunk_get_str(const char **pos, size_t *n)
 	return s;
 }
 
-int chunk_put(tm_buf *b, const tally_posting *p)
+int chunk_put(tm_buf *b, const tally_posting *p, const char *label, size_t n)
 {
 	uint32_t nocc = (uint32_t)p->nocc;
 	if (chunk_put_str(b, p->id ? p->id : "", p->id ? p->idlen : 0) ||
 	    buf_putc(b, p->id ? 1 : 0) || chunk_put_str(b, p->lang, strlen(p->lang)) ||
 	    chunk_put_str(b, p->key, p->keylen) || chunk_put_str(b, p->title, p->titlelen) ||
-	    chunk_put_str(b, p->example, p->examplelen) || buf_append(b, &nocc, sizeof nocc))
+	    chunk_put_str(b, p->example, p->examplelen) || chunk_put_str(b, label, n) ||
+	    buf_append(b, &nocc, sizeof nocc))
 		return -1;
 	for (size_t i = 0; i < p->nocc; i++)
 		if (chunk_put_str(b, p->occ[i], p->occlen[i]))
@@ -140,6 +145,7 @@ int chunk_next(const char **pos, const char *end, chunk_rec *rec)
 	if (get_checked(&p, end, &lang, &ll) || get_checked(&p, end, &rec->p.key, &rec->p.keylen) ||
 	    get_checked(&p, end, &rec->p.title, &rec->p.titlelen) ||
 	    get_checked(&p, end, &rec->p.example, &rec->p.examplelen) ||
+	    get_checked(&p, end, &rec->period, &rec->periodlen) || rec->periodlen >= PERIOD_MAX ||
 	    (size_t)(end - p) < sizeof nocc)
 		return -1;
 	memcpy(&nocc, p, sizeof nocc);

@@ -7,7 +7,8 @@
  * its digest: the postings as read (id, language, raw title, date,
  * occupations) and everything before it in its input, so the same input
  * loaded again -- a rerun after a kill, a reload -- gives the same
- * digests.  Within one run the k-th chunk whose digest an earlier chunk
+ * digests; the kind of period the load counts by is mixed in, so the
+ * same input loaded by another kind is another load.  Within one run the k-th chunk whose digest an earlier chunk
  * of the run had (an input named twice, two identical files) gets the
  * digest mixed with k (chunk_run_digest), so identical inputs of one run
  * are distinct chunks, as in memory, and the same run again gives the
@@ -16,8 +17,9 @@
  * The byte format: a chunk's postings, after normalising, one record
  * after another, every length a uint32_t in the machine's byte order:
  *   len id, has-id byte (0 or 1), len lang, len key, len title,
- *   len example, the number of occupations n (at most PR_MAXOCC), then
- *   n times len occupation.
+ *   len example, len period (its label, core/period.h: shorter than
+ *   PERIOD_MAX; empty for the undated), the number of occupations n (at
+ *   most PR_MAXOCC), then n times len occupation.
  * A journal written in this format by a machine of another byte order is
  * refused by its header (store_redis_chunk.c), not by chunk_next. */
 #ifndef TM_CHUNK_H
@@ -27,14 +29,17 @@
 #include <stdint.h>
 
 #include "core/buf.h"
+#include "core/period.h"
 #include "io/postings.h"
 #include "count/strtab.h"
 #include "count/tally.h"
 
 /* ---- the digest ---- */
 
-/* The digest of an input before its first posting. */
-void chunk_digest_init(uint64_t dg[2]);
+/* The digest of an input before its first posting, in a load that
+ * counts by period kind (core/period.h; PERIOD_NONE mixes nothing in, so
+ * a load without periods keeps the digests it always had). */
+void chunk_digest_start(uint64_t dg[2], int kind);
 /* Mixes one posting, as read, into dg. */
 void chunk_digest_posting(uint64_t dg[2], const posting *p);
 /* Moves dg on past a committed chunk (the next chunk's digest starts
@@ -58,14 +63,18 @@ int chunk_unhex(const char *s, size_t n, uint64_t dg[2]);
 
 /* ---- the byte format ---- */
 
-/* Appends p's record to b.  Returns 0, or -1 when memory ran out. */
-int chunk_put(tm_buf *b, const tally_posting *p);
+/* Appends p's record to b, counted in period label[0..n) (n <
+ * PERIOD_MAX).  Returns 0, or -1 when memory ran out. */
+int chunk_put(tm_buf *b, const tally_posting *p, const char *label, size_t n);
 
 /* One record read back: rec.p points into the chunk's bytes (lang into
  * rec.lang: its first three bytes, as the engines keep it), rec.p.id is
- * NULL when the posting has none. */
+ * NULL when the posting has none, rec.p.date is NULL (the period says
+ * where it counts). */
 typedef struct chunk_rec {
 	tally_posting p;
+	const char *period;  /* its period's label, periodlen bytes */
+	size_t periodlen;
 	char lang[4];
 	const char *occ[PR_MAXOCC];
 	size_t occlen[PR_MAXOCC];
@@ -73,8 +82,8 @@ typedef struct chunk_rec {
 
 /* Reads the record at *pos (before end) into rec and moves *pos past it.
  * Returns 1, 0 at end, or -1 when the bytes are not a record (a length
- * past the end, a has-id byte not 0 or 1, more than PR_MAXOCC
- * occupations). */
+ * past the end, a has-id byte not 0 or 1, a period of PERIOD_MAX bytes
+ * or more, more than PR_MAXOCC occupations). */
 int chunk_next(const char **pos, const char *end, chunk_rec *rec);
 
 /* 1 when b..b+n is a whole number of well-formed records, else 0. */

@@ -50,7 +50,7 @@ int store_input_end(store *st, const char *name)
 		rc = -1;
 	}
 	st->inchunk = 0;
-	chunk_digest_init(st->dg);
+	chunk_digest_start(st->dg, st->period);
 	return rc;
 }
 
@@ -58,7 +58,7 @@ void store_base_init(store *st, const store_ops *ops, long chunk)
 {
 	st->ops = ops;
 	st->chunk = chunk;
-	chunk_digest_init(st->dg);
+	chunk_digest_start(st->dg, st->period);
 }
 
 void store_set_chunk(store *st, long n)

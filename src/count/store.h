@@ -63,12 +63,18 @@ struct store {
 	uint64_t counted, republished;  /* postings: counted, their id seen before */
 	uint64_t applied, skipped;      /* chunks: applied, already in the backend */
 	uint64_t settled, settled_postings, unfinished; /* chunks, postings, chunks */
+	uint64_t undated;  /* postings counted without a date by a load by
+			    * period (Redis: of the chunks applied; the memory
+			    * backend's series counts its own) */
 	/* the loader's state (store_feed): postings per chunk (0: the
 	 * backend does not chunk), postings in the current chunk, its
 	 * digest so far, the digests of this run */
 	long chunk, inchunk;
 	uint64_t dg[2];
 	chunk_run run;
+	int period;  /* the load's kind of period (store_conf.period; 0:
+		      * none), mixed into every digest (chunk_digest_start):
+		      * the same input loaded by another kind is another load */
 };
 
 /* The longest key prefix, and its characters: letters, digits and
@@ -83,7 +89,8 @@ struct store {
 #define STORE_TIMEOUT_MS_DEFAULT 5000
 /* The settings of a store with the given prefix (NULL: the default) and
  * everything else by default. */
-#define STORE_CONF_INIT(prefix) {(prefix), STORE_RETRIES_DEFAULT, STORE_TIMEOUT_MS_DEFAULT, 0}
+#define STORE_CONF_INIT(prefix) {(prefix), STORE_RETRIES_DEFAULT, STORE_TIMEOUT_MS_DEFAULT, 0, \
+			       PERIOD_NONE}
 /* Postings per chunk of a chunking backend unless store_set_chunk says:
  * large, so that claims and shares go to the server in few big batches
  * (the Redis store keeps two chunks in flight, so a kill redoes at most
@@ -103,7 +110,14 @@ typedef struct store_conf {
 			      * STORE_TIMEOUT_MS_DEFAULT) */
 	long long ttl_s;     /* > 0: the counting keys a load touches expire
 			      * this many seconds after it (renewed by each
-			      * load); 0: they stay */
+			      * load: a period no load touches any more
+			      * expires); 0: they stay */
+	int period;          /* the kind of period a load counts each
+			      * posting in (core/period.h: PERIOD_NONE, _DAY,
+			      * _WEEK, _MONTH; SERIES_AS_READ counts by month,
+			      * as series_add does).  A store holds one kind:
+			      * a load of another kind is refused.  Reading
+			      * ignores it (the series' kind decides). */
 } store_conf;
 
 /* Opens the store named by url: redis://[user:password@]host:port[/db] or
@@ -145,7 +159,7 @@ int store_key_shard(const char *prefix, char kind, uint64_t h, tm_buf *kb);
 void store_close(store *st);
 
 /* For backends: sets up the common part of a new backend (zeroed
- * before); chunk 0 for a backend that does not chunk.  A backend's close
+ * before, its period set); chunk 0 for a backend that does not chunk.  A backend's close
  * frees its own state and the struct, after store_close has freed the
  * common part. */
 void store_base_init(store *st, const store_ops *ops, long chunk);

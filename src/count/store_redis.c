@@ -94,10 +94,103 @@ redisReply *sr_cmd(rstore *r, int argc, const char **argv, const size_t *len)
 	return c.reply;
 }
 
+int sr_kind_get(rstore *r, int *kind)
+{
+	tm_buf kb = {0};
+	*kind = -1;
+	if (sr_key_tagged(r->prefix, "p", "kind", &kb)) {
+		sr_err(r, "out of memory", NULL);
+		return -1;
+	}
+	const char *av[2] = {"GET", kb.data};
+	size_t al[2] = {3, kb.len};
+	redisReply *rep = sr_cmd(r, 2, av, al);
+	int rc = rep ? 0 : -1;
+	if (rep && rep->type == REDIS_REPLY_STRING) {
+		char v[16];
+		snprintf(v, sizeof v, "%.*s", (int)(rep->len < 15 ? rep->len : 15), rep->str);
+		*kind = rep->len < 15 ? period_kind_of(v) : -1;
+		if (*kind < 0 || *kind > PERIOD_MONTH) {
+			*kind = -1;
+			sr_err(r, "the store's kind of period is none of day, week, month or none", kb.data);
+			rc = -1;
+		}
+	}
+	if (rep)
+		freeReplyObject(rep);
+	buf_free(&kb);
+	return rc;
+}
+
+/* The store's kind of period (P:{p}:kind) made the load's, before the
+ * load's first chunk: set when the store has none, renewed with the time
+ * to live, a load of another kind refused.  0 or -1. */
+static int kind_claim(rstore *r)
+{
+	tm_buf kb = {0};
+	const char *name = period_kind_name(r->period);
+	int rc = -1, kind;
+	if (sr_key_tagged(r->prefix, "p", "kind", &kb)) {
+		sr_err(r, "out of memory", NULL);
+		return -1;
+	}
+	const char *av[3] = {"SETNX", kb.data, name};
+	size_t al[3] = {5, kb.len, strlen(name)};
+	redisReply *rep = sr_cmd(r, 3, av, al);
+	if (!rep)
+		goto done;
+	freeReplyObject(rep);
+	if (sr_kind_get(r, &kind) != 0)
+		goto done;
+	if (kind < 0) {
+		/* gone between the two commands: expired, or deleted */
+		sr_err(r, "the store's kind of period vanished as it was set: run the load again",
+		       kb.data);
+		goto done;
+	}
+	if (kind != r->period) {
+		char m[400];
+		snprintf(m, sizeof m, "the store counts by %s, and this load by %s: load it with "
+			 "--period %s, or into a store of its own (another --prefix)",
+			 period_kind_name(kind), name, period_kind_name(kind));
+		sr_err(r, m, NULL);
+		goto done;
+	}
+	if (strcmp(r->ttl, "0")) {
+		const char *ev[3] = {"EXPIRE", kb.data, r->ttl};
+		size_t el[3] = {6, kb.len, strlen(r->ttl)};
+		if (!(rep = sr_cmd(r, 3, ev, el)))
+			goto done;
+		freeReplyObject(rep);
+	}
+	r->kind_known = 1;
+	rc = 0;
+done:
+	buf_free(&kb);
+	return rc;
+}
+
 static int r_add(store *st, const tally_posting *p)
 {
 	rstore *r = (rstore *)st;
-	if (chunk_put(&r->chunk, p)) {
+	char label[PERIOD_MAX];
+	size_t n = 0;
+	long day;
+	if (!r->kind_known && kind_claim(r) != 0)
+		return -1;
+	/* the posting's period (the readers check dates; one that is no
+	 * day is refused, as in memory) */
+	if (p->date && r->period != PERIOD_NONE) {
+		if (period_date(p->date, p->datelen, &day) != 0) {
+			buf_reset(&st->err);
+			buf_puts(&st->err, "bad date '");
+			buf_append(&st->err, p->date, p->datelen > 40 ? 40 : p->datelen);
+			buf_puts(&st->err, "' (want YYYY-MM-DD, a day of the calendar)");
+			return -1;
+		}
+		n = period_label(r->period, day, label);
+	}
+	if (chunk_put(&r->chunk, p, label, n)) {
 		sr_err(r, "out of memory", NULL);
 		return -1;
 	}
@@ -156,6 +249,16 @@ store *store_open(const char *url, const store_conf *conf, tm_buf *err)
 		buf_puts(err, "out of memory");
 		return NULL;
 	}
+	r->period = conf ? conf->period : PERIOD_NONE;
+	if (r->period == SERIES_AS_READ)
+		r->period = PERIOD_MONTH; /* as series_add counts postings read as they come */
+	if (r->period != PERIOD_NONE && r->period != PERIOD_DAY && r->period != PERIOD_WEEK &&
+	    r->period != PERIOD_MONTH) {
+		buf_puts(err, "a store counts by day, week, month or none");
+		free(r);
+		return NULL;
+	}
+	r->base.period = r->period;
 	store_base_init(&r->base, &redis_ops, STORE_CHUNK_DEFAULT);
 	r->k.retries = conf && conf->retries >= 0 ? conf->retries : STORE_RETRIES_DEFAULT;
 	r->k.timeout_ms = conf && conf->timeout_ms > 0 ? conf->timeout_ms : STORE_TIMEOUT_MS_DEFAULT;

@@ -49,6 +49,8 @@ typedef struct rstore {
 	char prefix[STORE_PREFIX_MAX + 1];
 	char sha_claim[41], sha_apply[41];
 	char ttl[24];           /* seconds, as the scripts take it; "0" none */
+	int period;             /* the load's kind of period (never SERIES_AS_READ) */
+	int kind_known;         /* the store's kind checked (and set) by this load */
 	/* the current chunk, in the format of chunk.h */
 	tm_buf chunk;
 	size_t nchunk;
@@ -92,6 +94,14 @@ int sr_parse_url(rstore *r, const char *url, sr_seeds *sd, tm_buf *err);
 void sr_seeds_free(sr_seeds *sd);
 
 /* ---- store_redis_keys.c ---- */
+/* The key in kb (an undated key, ending in "}:" and its letter) made
+ * the key of period label[0..n) (n 0: the undated, kb unchanged);
+ * *taglen is the length of its part up to "}:" (its ledger is that part
+ * then L).  0 or -1. */
+int sr_key_at(tm_buf *kb, const char *label, size_t n, size_t *taglen);
+/* The length of key k without its period, and the period's label in
+ * *label, *n (NULL, 0 and kl for an undated key). */
+size_t sr_key_period(const char *k, size_t kl, const char **label, size_t *n);
 /* The length of the first field of a joined key a 1F b 1F c. */
 size_t sr_first_field(const char *s, size_t n);
 /* P:{j:DG}:j, the journal of chunk dg (32 hex digits). */
@@ -126,5 +136,11 @@ int sr_finish(store *st);
 
 /* ---- store_redis_dump.c ---- */
 int sr_dump(store *st, tally_series *s);
+
+/* ---- store_redis.c ---- */
+/* The kind of period the store counts by (P:{p}:kind) in *kind, -1
+ * when it holds none (never loaded, or written before periods).  0, or
+ * -1 with the message set (a kind key that names no kind). */
+int sr_kind_get(rstore *r, int *kind);
 
 #endif

@@ -140,12 +140,13 @@ static void calls_free(calls *cs)
 	st_free(&cs->tags);
 }
 
-/* The call of key's tag (made with the tag's ledger as KEYS[1] when
- * new) and key's index among its KEYS (1-based); NULL when out of memory. */
-static call *call_for(calls *cs, const char *key, size_t kl, long *kn)
+/* The call of key's tag (its first taglen bytes, up to "}:"; made with
+ * the tag's ledger as KEYS[1] when new) and key's index among its KEYS
+ * (1-based); NULL when out of memory. */
+static call *call_for(calls *cs, const char *key, size_t kl, size_t taglen, long *kn)
 {
 	size_t ti, ki;
-	int fresh = st_add(&cs->tags, key, kl - 1, 0, &ti);
+	int fresh = st_add(&cs->tags, key, taglen, 0, &ti);
 	if (fresh < 0)
 		return NULL;
 	if (fresh) {
@@ -156,7 +157,7 @@ static call *call_for(calls *cs, const char *key, size_t kl, long *kn)
 		call *c = &cs->v[cs->n];
 		memset(c, 0, sizeof *c);
 		tm_buf lk = {0};
-		if (buf_append(&lk, key, kl - 1) || buf_putc(&lk, 'L') ||
+		if (buf_append(&lk, key, taglen) || buf_putc(&lk, 'L') ||
 		    st_add(&c->keys, lk.data, lk.len, 0, NULL) < 0) {
 			buf_free(&lk);
 			return NULL;
@@ -179,11 +180,12 @@ static int putnum(tm_buf *b, unsigned long long v)
 	return chunk_put_str(b, s, (size_t)n);
 }
 
-/* An increment of field in key by v. */
-static int add_incr(calls *cs, const char *key, size_t kl, const char *f, size_t fl, uint64_t v)
+/* An increment of field in key (its tag taglen bytes) by v. */
+static int add_incr(calls *cs, const char *key, size_t kl, size_t taglen, const char *f,
+		    size_t fl, uint64_t v)
 {
 	long kn;
-	call *c = call_for(cs, key, kl, &kn);
+	call *c = call_for(cs, key, kl, taglen, &kn);
 	if (!c || putnum(&c->h, (unsigned long long)kn) || chunk_put_str(&c->h, f, fl) ||
 	    putnum(&c->h, (unsigned long long)v))
 		return -1;
@@ -192,16 +194,18 @@ static int add_incr(calls *cs, const char *key, size_t kl, const char *f, size_t
 	return 0;
 }
 
-/* The increments of a table keyed "OCC 1F field": each into the
- * occupation's hash with that suffix ('f' forms, 'n' totals). */
-static int add_occ_incrs(const rstore *r, calls *cs, const strtab *t, char suffix, tm_buf *kb)
+/* The increments of a table keyed "OCC 1F field" of period label[0..ln):
+ * each into the occupation's hash with that suffix ('f' forms, 'n'
+ * totals) of that period. */
+static int add_occ_incrs(const rstore *r, calls *cs, const strtab *t, char suffix,
+			 const char *label, size_t ln, tm_buf *kb)
 {
 	for (size_t i = 0; i < t->n; i++) {
-		size_t n;
+		size_t n, tl;
 		const char *k = st_key(t, i, &n);
 		size_t ol = sr_first_field(k, n);
-		if (store_key_occ(r->prefix, k, ol, suffix, kb) ||
-		    add_incr(cs, kb->data, kb->len, k + ol + 1, n - ol - 1, t->ent[i].count))
+		if (store_key_occ(r->prefix, k, ol, suffix, kb) || sr_key_at(kb, label, ln, &tl) ||
+		    add_incr(cs, kb->data, kb->len, tl, k + ol + 1, n - ol - 1, t->ent[i].count))
 			return -1;
 	}
 	return 0;
@@ -276,7 +280,7 @@ struct sr_work {
 	char (*nums)[3][24];
 	tm_buf pending;         /* the examples' bounds noted, kept once the
 				 * chunk has gone through */
-	uint64_t counted, repub;
+	uint64_t counted, repub, undated;
 };
 
 static void work_free(sr_flight *f)
@@ -390,20 +394,24 @@ static int claims_read(rstore *r, struct sr_work *w)
 	return 0;
 }
 
-/* The examples of a triple (joined key k) that can still enter the
- * store, added to call c; a bound is noted in pending once three are
- * sent.  Returns 0 or -1 (out of memory). */
+/* The examples of a triple (joined key k) in period label[0..ln) that
+ * can still enter the store, added to call c; a bound is noted in
+ * pending once three are sent.  Returns 0 or -1 (out of memory). */
 static int add_examples(rstore *r, calls *cs, tm_buf *pending, const tally_mem *agg, size_t i,
-			tm_buf *kb, tm_buf *kb2)
+			const char *label, size_t ln, tm_buf *kb, tm_buf *kb2)
 {
-	size_t n;
+	size_t n, tl;
 	const char *k = st_key(&agg->exkeys, i, &n);
 	size_t ol = sr_first_field(k, n);
 	const struct tm_example *e = &agg->ex[agg->exkeys.ent[i].count];
 	/* the store keeps the three smallest hashes it was sent: once this
 	 * load has sent three, it keeps none above the largest of them, and
-	 * a candidate above that bound cannot enter */
-	long known = st_find(&r->exbound, k, n);
+	 * a candidate above that bound cannot enter (per period: the bound
+	 * is kept under LABEL 1F k) */
+	buf_reset(kb2);
+	if (buf_append(kb2, label, ln) || buf_putc(kb2, SR_SEP) || buf_append(kb2, k, n))
+		return -1;
+	long known = st_find(&r->exbound, kb2->data, kb2->len);
 	uint64_t bound = known >= 0 ? r->exbound.ent[known].count : 0; /* bound+1; 0 none */
 	int take = 0, sendq[TALLY_EXAMPLES];
 	uint64_t worst = 0;
@@ -418,12 +426,13 @@ static int add_examples(rstore *r, calls *cs, tm_buf *pending, const tally_mem *
 				worst = e->h[q];
 		/* noted now, applied when the chunk has gone through */
 		uint64_t w1 = worst + 1;
-		if (chunk_put_str(pending, k, n) || buf_append(pending, &w1, sizeof w1))
+		if (chunk_put_str(pending, kb2->data, kb2->len) || buf_append(pending, &w1, sizeof w1))
 			return -1;
 	}
 	long kn;
 	call *c;
-	if (store_key_occ(r->prefix, k, ol, 'x', kb) || !(c = call_for(cs, kb->data, kb->len, &kn)) ||
+	if (store_key_occ(r->prefix, k, ol, 'x', kb) || sr_key_at(kb, label, ln, &tl) ||
+	    !(c = call_for(cs, kb->data, kb->len, tl, &kn)) ||
 	    putnum(&c->e, (unsigned long long)kn) || chunk_put_str(&c->e, k + ol + 1, n - ol - 1) ||
 	    putnum(&c->e, (unsigned long long)take))
 		return -1;
@@ -441,24 +450,27 @@ static int add_examples(rstore *r, calls *cs, tm_buf *pending, const tally_mem *
 	return 0;
 }
 
-/* Step 2: the shares of what the chunk owns (agg), one script call per
- * hash tag.  Returns 0 or -1 (out of memory). */
-static int shares(rstore *r, const tally_mem *agg, calls *cs, tm_buf *pending)
+/* Step 2: the shares of what the chunk owns in one period (agg, label
+ * label[0..ln)), added to the script calls, one per hash tag (a tag's
+ * call holds every period of it).  Returns 0 or -1 (out of memory). */
+static int shares(rstore *r, const tally_mem *agg, const char *label, size_t ln, calls *cs,
+		  tm_buf *pending)
 {
 	tm_buf kb = {0}, kb2 = {0};
 	int rc = -1;
 
-	if (add_occ_incrs(r, cs, &agg->forms, 'f', &kb) || add_occ_incrs(r, cs, &agg->occs, 'n', &kb))
+	if (add_occ_incrs(r, cs, &agg->forms, 'f', label, ln, &kb) ||
+	    add_occ_incrs(r, cs, &agg->occs, 'n', label, ln, &kb))
 		goto done;
 	for (size_t i = 0; i < agg->keys.n; i++) {
-		size_t n;
+		size_t n, tl;
 		const char *k = st_key(&agg->keys, i, &n);
-		if (store_key_shard(r->prefix, 'k', tok_hash(k, n), &kb) ||
-		    add_incr(cs, kb.data, kb.len, k, n, agg->keys.ent[i].count))
+		if (store_key_shard(r->prefix, 'k', tok_hash(k, n), &kb) || sr_key_at(&kb, label, ln, &tl) ||
+		    add_incr(cs, kb.data, kb.len, tl, k, n, agg->keys.ent[i].count))
 			goto done;
 	}
 	for (size_t i = 0; i < agg->exkeys.n; i++)
-		if (add_examples(r, cs, pending, agg, i, &kb, &kb2))
+		if (add_examples(r, cs, pending, agg, i, label, ln, &kb, &kb2))
 			goto done;
 	rc = 0;
 done:
@@ -530,7 +542,8 @@ static int keep_bounds(rstore *r, const tm_buf *pending)
 int sr_shares_send(rstore *r, sr_flight *f)
 {
 	struct sr_work *w = f->w;
-	tally_mem agg;
+	tally_series agg;
+	tm_buf why = {0};
 	chunk_rec rec;
 	const char *p, *end = f->chunk.data + f->chunk.len;
 	int got;
@@ -539,30 +552,47 @@ int sr_shares_send(rstore *r, sr_flight *f)
 		return -1;
 	if (r->kill_stage == 1 && f->attempt == r->kill_at)
 		raise(SIGKILL);
-	/* 2. the postings the chunk owns (and those without an id) */
-	tm_init(&agg);
+	/* 2. the postings the chunk owns (and those without an id), each in
+	 * its period */
+	series_init(&agg, SERIES_AS_READ);
 	for (p = f->chunk.data; (got = chunk_next(&p, end, &rec)) == 1;) {
+		tally_mem *m;
+		int k = 0;
 		if (rec.p.id) {
 			long idx = st_find(&w->ids, rec.p.id, rec.p.idlen);
-			if (!w->mine[idx] || ids_add(&agg.ids, rec.p.id, rec.p.idlen) == 0) {
+			if (!w->mine[idx] || (k = ids_add(&agg.ids, rec.p.id, rec.p.idlen)) == 0) {
 				w->repub++;
 				continue;
 			}
+			if (k < 0)
+				goto oom;
+		}
+		if ((k = series_at(&agg, rec.period, rec.periodlen, &m, &why)) == -2)
+			goto oom;
+		if (k) {
+			got = -1;
+			break;
 		}
 		rec.p.id = NULL; /* the ids are settled: count it */
-		if (tm_add(&agg, &rec.p) < 0)
+		if (tm_add(m, &rec.p) < 0)
 			goto oom;
 		w->counted++;
+		if (!rec.periodlen && r->period != PERIOD_NONE)
+			w->undated++;
 	}
 	if (got < 0) {
-		tm_free(&agg);
-		sr_err(r, "a chunk's postings are unreadable", NULL);
+		series_free(&agg);
+		sr_err(r, "a chunk's postings are unreadable", why.len ? why.data : NULL);
+		buf_free(&why);
 		return -1;
 	}
 	/* 3. the shares, sent */
-	if (shares(r, &agg, &w->cs, &w->pending) || apply_build(r, w, f->dg))
+	for (size_t i = 0; i < agg.n; i++)
+		if (shares(r, &agg.p[i]->m, agg.p[i]->label, agg.p[i]->len, &w->cs, &w->pending))
+			goto oom;
+	if (apply_build(r, w, f->dg))
 		goto oom;
-	tm_free(&agg);
+	series_free(&agg);
 	if (r->kill_stage == 2 && f->attempt == r->kill_at) {
 		sr_run_batch(r, w->b.cmds, w->b.n / 2, NULL, "the server refused a chunk");
 		raise(SIGKILL);
@@ -574,7 +604,8 @@ int sr_shares_send(rstore *r, sr_flight *f)
 	f->stage = SR_APPLYING;
 	return 0;
 oom:
-	tm_free(&agg);
+	series_free(&agg);
+	buf_free(&why);
 	sr_err(r, "out of memory", NULL);
 	return -1;
 }
@@ -598,6 +629,8 @@ int sr_applied(rstore *r, sr_flight *f, uint64_t *counted, uint64_t *repub)
 		sr_err(r, "out of memory", NULL);
 		rc = -1;
 	}
+	if (rc == 1)
+		r->base.undated += w->undated;
 	*counted = w->counted;
 	*repub = w->repub;
 	work_free(f);

@@ -67,7 +67,9 @@
 #define JOURNAL_PIECE (1u << 20)
 #define JOURNAL_MAX_PIECES 1000000 /* 1 TiB: more is not a journal of ours */
 
-static const char journal_magic[4] = {'T', 'M', 'J', '1'};
+static const char journal_magic[4] = {'T', 'M', 'J', '2'};
+/* the magic of journals written before postings carried their period */
+static const char journal_magic_v1[4] = {'T', 'M', 'J', '1'};
 
 /* A batch of small commands being built (at most four arguments each). */
 typedef struct jbatch {
@@ -297,16 +299,23 @@ static int journal_read(rstore *r, const char *key, size_t kl, tm_buf *out)
 			buf_reset(out);
 			return 0;
 		}
-		int ok = rep->type == REDIS_REPLY_STRING;
-		if (ok && i == 0)
+		int ok = rep->type == REDIS_REPLY_STRING, old = 0;
+		if (ok && i == 0) {
+			old = rep->len == 8 && !memcmp(rep->str, journal_magic_v1, 4);
 			ok = rep->len == 8 && !memcmp(rep->str, journal_magic, 4) &&
 			     !memcmp(rep->str + 4, &order, 4);
+		}
 		else if (ok && buf_append(out, rep->str, rep->len)) {
 			freeReplyObject(rep);
 			sr_err(r, "out of memory", NULL);
 			return -1;
 		}
 		freeReplyObject(rep);
+		if (old) {
+			sr_err(r, "a chunk's journal was written by an earlier titlemill, before counts had "
+			       "periods: finish that load with the version that began it", key);
+			return -1;
+		}
 		if (!ok) {
 			sr_err(r, "a chunk's journal is unreadable (written by another kind of machine?)", key);
 			return -1;

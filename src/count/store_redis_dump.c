@@ -1,7 +1,7 @@
 /* store_redis_dump.c - reading the Redis store's counts back into a
- * memory engine: every master's keys of the prefix (SCAN), each counting
- * hash read with HSCAN; a journal left behind counts as an unfinished
- * chunk. */
+ * series, period by period: every master's keys of the prefix (SCAN),
+ * each counting hash read with HSCAN into its period's engine; a journal
+ * left behind counts as an unfinished chunk. */
 #include "count/store_redis.h"
 
 #include <errno.h>
@@ -129,35 +129,77 @@ static int scan_keys(rstore *r, const char *rest,
 	return rc;
 }
 
+/* Where a dump goes: the series (series_at gives each key's engine;
+ * the hashes of periods a window leaves out are not read). */
+typedef struct dump_to {
+	tally_series *s;
+} dump_to;
+
 static int dump_key(rstore *r, void *ctx, const char *k, size_t kl)
 {
-	tally_mem *m = ctx;
-	size_t pl = strlen(r->prefix);
-	if (kl > pl + 7 && !memcmp(k + pl, ":{o:", 4) && k[kl - 3] == '}' &&
-	    k[kl - 2] == ':' && strchr("fnx", k[kl - 1]))
-		return scan_hash(r, k, kl, k[kl - 1], k + pl + 4, kl - pl - 7, m);
-	if (kl == pl + 9 && !memcmp(k + pl, ":{k:", 4) && k[kl - 1] == 'k')
-		return scan_hash(r, k, kl, 'k', NULL, 0, m);
-	if (kl == pl + 39 && !memcmp(k + pl, ":{j:", 4))
+	dump_to *d = ctx;
+	size_t pl = strlen(r->prefix), ln;
+	const char *label;
+	tally_mem *m;
+	int kind = 0;
+
+	if (kl == pl + 39 && !memcmp(k + pl, ":{j:", 4)) {
 		r->base.unfinished++;
-	return 0;
+		return 0;
+	}
+	/* the key without its period (sr_key_period), then its kind */
+	size_t bl = sr_key_period(k, kl, &label, &ln);
+	if (bl > pl + 7 && !memcmp(k + pl, ":{o:", 4) && k[bl - 3] == '}' && k[bl - 2] == ':' &&
+	    strchr("fnx", k[bl - 1]))
+		kind = k[bl - 1];
+	else if (bl == pl + 9 && !memcmp(k + pl, ":{k:", 4) && k[bl - 1] == 'k')
+		kind = 'k';
+	if (!kind)
+		return 0;
+	int rc = series_at(d->s, label ? label : "", ln, &m, &r->base.err);
+	if (rc == -2) {
+		sr_err(r, "out of memory", NULL);
+		return -1;
+	}
+	if (rc) {
+		tm_buf why = {0};
+		buf_append(&why, r->base.err.data, r->base.err.len);
+		buf_puts(&why, ": ");
+		buf_append(&why, k, kl);
+		sr_err(r, "the store's counts cannot be read here", why.data ? why.data : "");
+		buf_free(&why);
+		return -1;
+	}
+	if (!m)
+		return 0; /* the window leaves it out */
+	return kind == 'k' ? scan_hash(r, k, kl, 'k', NULL, 0, m)
+			   : scan_hash(r, k, kl, kind, k + pl + 4, bl - pl - 7, m);
 }
 
-/* The store keeps no periods yet: everything it holds is undated. */
+/* Can a store counting by kind (-1: none recorded) be read into s?  A
+ * series by day, week or month takes its own kind and days (rolled up);
+ * one of kind none, or as read, takes any.  0, or -1 with the message. */
+static int kind_fits(rstore *r, int kind, const tally_series *s)
+{
+	char m[400];
+	if (kind <= PERIOD_NONE || s->kind == SERIES_AS_READ || s->kind == PERIOD_NONE ||
+	    kind == s->kind || kind == PERIOD_DAY)
+		return 0;
+	snprintf(m, sizeof m, "the store counts by %s, which cannot be read by %s (%s): read it by %s, "
+		 "or with --period none for all time", period_kind_name(kind), period_kind_name(s->kind),
+		 kind == PERIOD_WEEK && s->kind == PERIOD_MONTH ? "a week can straddle two months"
+								  : "a period cannot be split",
+		 period_kind_name(kind));
+	sr_err(r, m, NULL);
+	return -1;
+}
+
 int sr_dump(store *st, tally_series *s)
 {
-	tally_mem *m;
-	int r = series_at(s, "", 0, &m, &st->err);
-	if (r)
+	rstore *r = (rstore *)st;
+	dump_to d = {s};
+	int kind;
+	if (sr_kind_get(r, &kind) != 0 || kind_fits(r, kind, s) != 0)
 		return -1;
-	if (!m) {
-		/* a window leaves the undated counts out; the journals still
-		 * say whether a load is unfinished */
-		tally_mem none;
-		tm_init(&none);
-		r = scan_keys((rstore *)st, ":*", dump_key, &none) ? -1 : 0;
-		tm_free(&none);
-		return r;
-	}
-	return scan_keys((rstore *)st, ":*", dump_key, m) ? -1 : 0;
+	return scan_keys(r, ":*", dump_key, &d) ? -1 : 0;
 }

@@ -18,12 +18,30 @@
  *                       postings, while it is being loaded
  *                       (store_redis_chunk.c)
  *   P:{j}:open    set   the digests of the journals there are
+ *   P:{p}:kind    string the kind of period the store counts by (day,
+ *                       week, month or none), set by its first load; a
+ *                       store without it (written before periods, or
+ *                       never loaded) holds undated counts only
  *   P:{r}:items   hash  review queue: suggestion id -> the item, one JSON
  *                       line (the same line as in a queue file)
  *   P:{r}:log     stream review events in the order they happened:
  *                       event, id, status, kind, occupation, lang, label,
  *                       at, and reviewer and note for decisions
- * A tag's ledger is its key without the last letter, then L. */
+ *
+ * Periods.  The counts of a dated period (core/period.h: 2026-03-01,
+ * 2026-W09, 2026-03) are hashes of the same form under the same tag, the
+ * period's label after one more colon:
+ *   P:{o:OCC}:f:LABEL, P:{o:OCC}:n:LABEL, P:{o:OCC}:x:LABEL,
+ *   P:{k:NN}:k:LABEL
+ * The undated period keeps the names above, so a store written before
+ * periods reads as undated.  One tag, one slot, one ledger for all its
+ * periods: a chunk's share of a tag (every period of it) is applied
+ * atomically and once, and with a time to live the keys of a period no
+ * load touches any more expire on their own.  A key is told apart from
+ * its period by its end: an undated key ends in "}:" and its letter, a
+ * dated one in a label, which ends in a digit.
+ *
+ * A tag's ledger is its key up to "}:", then L. */
 #include "count/store_redis.h"
 
 #include <stdio.h>
@@ -67,6 +85,37 @@ int store_key_occ(const char *prefix, const char *occ, size_t ol, char suffix, t
 	    buf_puts(kb, "}:") || buf_putc(kb, suffix))
 		return -1;
 	return 0;
+}
+
+int sr_key_at(tm_buf *kb, const char *label, size_t n, size_t *taglen)
+{
+	*taglen = kb->len - 1;
+	if (!n)
+		return 0;
+	return buf_putc(kb, ':') || buf_append(kb, label, n) ? -1 : 0;
+}
+
+size_t sr_key_period(const char *k, size_t kl, const char **label, size_t *n)
+{
+	*label = NULL;
+	*n = 0;
+	if (!kl || k[kl - 1] < '0' || k[kl - 1] > '9')
+		return kl;
+	/* back over the label (at most a day's length: digits, '-', 'W') to
+	 * the colon after "}:X" */
+	for (size_t i = kl; i > 0 && kl - i < PERIOD_MAX; i--) {
+		char c = k[i - 1];
+		if (c == ':') {
+			if (i < 4 || k[i - 3] != ':' || k[i - 4] != '}')
+				return kl;
+			*label = k + i;
+			*n = kl - i;
+			return i - 1;
+		}
+		if (!((c >= '0' && c <= '9') || c == '-' || c == 'W'))
+			return kl;
+	}
+	return kl;
 }
 
 int store_key_shard(const char *prefix, char kind, uint64_t h, tm_buf *kb)

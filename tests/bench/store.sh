@@ -10,6 +10,10 @@
 # of BENCH_RUNS runs (default 3); BENCH_STORE postings (default
 # 1,000,000).  BENCH_BASELINE=/path/to/titlemill (an older build) runs
 # the same loads with it, paired run by run, and prints the ratios.
+# Periods: the same file loaded by month (the default) and by day
+# against --period none, paired run by run (the ratio of the times), and
+# the server's memory (used_memory) per distinct (occupation, language,
+# key, period) it holds.
 set -eu
 T=${1:-./titlemill}
 here=$(cd "$(dirname "$0")" && pwd)
@@ -85,6 +89,35 @@ for chunk in 10000 100000; do
 			printf "  baseline, chunk %d: %.2f s, %.0f postings/s; server CPU %.2f us per posting, scripts %.2f us per posting; this build: %.2f x the speed, %.2f x the server CPU\n",
 				c, bms / 1000, n / (bms / 1000), bcs * 1e6 / k, bus / k, bms / ms, cs / bcs }'
 	fi
+done
+# periods: one load of binary $1 by period $2 (chunk 100,000) into an
+# empty store: ms, then the server's used_memory after it
+loadp() {
+	R flushall > /dev/null
+	t0=$(now); "$1" tally --store "unix:$rd/sock" --period "$2" "$p" 2> "$rd/err"; t1=$(now)
+	echo "$(((t1 - t0) / 1000000)) $(R info memory | tr -d '\r' | sed -n 's/^used_memory://p')"
+}
+R flushall > /dev/null
+empty=$(R info memory | tr -d '\r' | sed -n 's/^used_memory://p')
+for per in none month day; do : > "$rd/per-$per"; done
+for i in $(seq "$runs"); do
+	for per in none month day; do loadp "$T" "$per" >> "$rd/per-$per"; done
+done
+for per in none month day; do
+	R flushall > /dev/null
+	"$T" tally --store "unix:$rd/sock" --period "$per" "$p" 2> /dev/null
+	rows=$("$T" counts --store "unix:$rd/sock" | awk -F '\t' '$1 == "title"' | wc -l)
+	# the counting keys' own bytes (MEMORY USAGE of each), the posting ids apart
+	keyb=$(R --scan | grep -v ':{i:' | awk '{ gsub(/"/, "\\\""); print "MEMORY USAGE \"" $0 "\" SAMPLES 0" }' | R | awk '{ s += $1 } END { print s + 0 }')
+	"$T" tally --period "$per" "$p" 2> /dev/null > "$rd/per.mem"
+	same=$("$T" counts --store "unix:$rd/sock" | cmp -s - "$rd/per.mem" && echo yes || echo NO)
+	ms=$(awk '{ print $1 }' "$rd/per-$per" | median)
+	mem=$(awk '{ print $2 }' "$rd/per-$per" | median)
+	paste "$rd/per-$per" "$rd/per-none" > "$rd/pair"
+	ratio=$(awk '{ print $1 / $3 }' "$rd/pair" | median)
+	awk -v per="$per" -v ms="$ms" -v r="$ratio" -v mem="$mem" -v e="$empty" -v rows="$rows" -v kb="$keyb" -v same="$same" 'BEGIN {
+		printf "store by %s: %.2f s (%.2f x the time of --period none, paired); %d distinct (occupation, language, key, period): server used_memory %.0f bytes per row, the counting keys (ids apart) %.0f; same table as memory by %s: %s\n",
+			per, ms / 1000, r, rows, (mem - e) / rows, kb / rows, per, same }'
 done
 R flushall > /dev/null
 rps=$(redis-benchmark -s "$rd/sock" -P 64 -t hset -n 2000000 -q 2> /dev/null | tr '\r' '\n' |

@@ -33,6 +33,8 @@ for i in range(3000):
     k = "".join(r.choice(alpha) for _ in range(r.randint(1, 30)))
     if i % 3 == 0:
         k = "titlemill:{o:occ:%d}:%s" % (r.randint(0, 9999), "fnxL"[i % 4])
+        if i % 2 == 0 and i % 4 != 3:
+            k += ":2026-%02d" % r.randint(1, 12)  # a period's key
     print(k)
 PY
 ts=$root/build/test_slot
@@ -48,7 +50,7 @@ tb=$root/build/test_backend
 [ -x "$tb" ] || tb=$root/build-asan/test_backend
 [ -x "$tb" ] || { echo "  build/test_backend is missing: run make unit first"; exit 1; }
 TITLEMILL_TEST_REDIS=$C "$tb" > "$tmp/tb.out" 2>&1; check "backend suite on the cluster" 0 $?
-grep -q 'PASSED.*5 test' "$tmp/tb.out"; check "backend suite ran every test" 0 $?
+grep -q 'PASSED.*7 test' "$tmp/tb.out"; check "backend suite ran every test" 0 $?
 
 # 2. one file: memory, one server and the cluster give the same table
 /usr/bin/python3 "$gen" --postings --count 30000 --seed 11 > "$tmp/a.tsv"
@@ -69,6 +71,16 @@ for p in $CL_PORTS; do
 	[ "$k" -gt 0 ] && n=$((n + 1))
 done
 check "every master holds a share" 3 "$n"
+# by day: every day's hashes under their occupation's tag, as memory by
+# day, also after a loader killed half way through a chunk's shares
+"$T" tally --period day "$tmp/a.tsv" > "$tmp/mem.day" 2> /dev/null
+"$T" tally --store "$C" --prefix byday --period day "$tmp/a.tsv" 2> /dev/null
+check "tally by day into the cluster" 0 $?
+"$T" counts --store "$C" --prefix byday | cmp -s - "$tmp/mem.day" || check "cluster by day = memory by day" same differ
+TITLEMILL_TEST_KILL=apply:7 "$T" tally --store "$C" --prefix bydayk --period day --chunk 500 "$tmp/a.tsv" 2> /dev/null
+check "killed by day" 137 $?
+"$T" tally --store "$C" --prefix bydayk --period day --chunk 500 "$tmp/a.tsv" 2> /dev/null
+"$T" counts --store "$C" --prefix bydayk | cmp -s - "$tmp/mem.day" || check "killed by day, rerun: exact" same differ
 # any node is a seed, and several seeds are fine
 "$T" counts --store "redis://127.0.0.1:$(echo "$CL_PORTS" | cut -d' ' -f3),127.0.0.1:$P1" | cmp -s - "$tmp/mem.a" ||
 	check "another seed reads the same" same differ

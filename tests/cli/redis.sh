@@ -26,7 +26,7 @@ tb=$root/build/test_backend
 [ -x "$tb" ] || tb=$root/build-asan/test_backend
 [ -x "$tb" ] || { echo "  build/test_backend is missing: run make unit first"; exit 1; }
 TITLEMILL_TEST_REDIS=$S "$tb" > "$tmp/tb.out" 2>&1; check backend-suite-on-redis 0 $?
-grep -q 'PASSED.*5 test' "$tmp/tb.out"; check backend-suite-ran-all 0 $?
+grep -q 'PASSED.*7 test' "$tmp/tb.out"; check backend-suite-ran-all 0 $?
 
 /usr/bin/python3 "$gen" --postings --count 30000 --seed 11 > "$tmp/p.tsv"
 $T tally "$tmp/p.tsv" > "$tmp/mem.tsv" 2>/dev/null
@@ -158,7 +158,7 @@ done
 # the load stops with status 1 naming it, and does not read past its end
 jk='bj:{j:0123456789abcdef0123456789abcdef}:j'
 redis-cli -s "$tmp/a/sock" sadd 'bj:{j}:open' 0123456789abcdef0123456789abcdef > /dev/null
-printf 'TMJ1\004\003\002\001' | redis-cli -s "$tmp/a/sock" -x hset "$jk" 0 > /dev/null
+printf 'TMJ2\004\003\002\001' | redis-cli -s "$tmp/a/sock" -x hset "$jk" 0 > /dev/null
 printf '\377\377\000\000ab' | redis-cli -s "$tmp/a/sock" -x hset "$jk" 1 > /dev/null
 redis-cli -s "$tmp/a/sock" hset "$jk" n 1 > /dev/null
 $T tally --store "$S" --prefix bj "$tmp/day1" 2> "$tmp/err"; check bad-journal-status 1 $?
@@ -167,6 +167,12 @@ printf 'XXXX\004\003\002\001' | redis-cli -s "$tmp/a/sock" -x hset "$jk" 0 > /de
 $T tally --store "$S" --prefix bj "$tmp/day1" 2> "$tmp/err"; check bad-journal-header-status 1 $?
 grep -qF "a chunk's journal is unreadable (written by another kind of machine?): $jk" "$tmp/err"
 check bad-journal-header-msg 0 $?
+# a journal of a titlemill from before periods (its postings carry
+# none): named, and left to the version that began it
+printf 'TMJ1\004\003\002\001' | redis-cli -s "$tmp/a/sock" -x hset "$jk" 0 > /dev/null
+$T tally --store "$S" --prefix bj "$tmp/day1" 2> "$tmp/err"; check old-journal-status 1 $?
+grep -qF "a chunk's journal was written by an earlier titlemill, before counts had periods" "$tmp/err"
+check old-journal-msg 0 $?
 redis-cli -s "$tmp/a/sock" flushall > /dev/null
 
 # files are distinct inputs within a run, as in memory: two identical
@@ -204,6 +210,66 @@ for p in tm tm:x tm2 tmA tmB a.b a_b a-b "${long}a" "${long}b" "a${long}" "b${lo
 	$T tally "$tmp/pre$n.tsv" 2>/dev/null > "$tmp/pre.mem"
 	$T counts --store "$S" --prefix "$p" | cmp -s - "$tmp/pre.mem"; check "prefix-own-keys-[$p]" 0 $?
 done
+redis-cli -s "$tmp/a/sock" flushall > /dev/null
+
+# periods: the store counts each posting in the period of its date, by
+# day or ISO week as in memory (the default, month, is checked above),
+# also after a loader is killed half way through a chunk's shares and
+# run again; a table read back by a coarser kind rolls the days up
+awk -F '\t' 'NR == 1 || NR % 7 != 3 { print; next } { $2 = ""; print }' OFS='\t' "$tmp/k.tsv" > "$tmp/pd.tsv"
+for per in day week none; do
+	$T tally --period $per "$tmp/pd.tsv" > "$tmp/pd.mem" 2>/dev/null
+	$T tally --store "$S" --prefix "pd$per" --period $per --chunk 300 "$tmp/pd.tsv" 2>/dev/null
+	check "period-$per-load" 0 $?
+	$T counts --store "$S" --prefix "pd$per" | cmp -s - "$tmp/pd.mem"; check "period-$per-as-memory" 0 $?
+	TITLEMILL_TEST_KILL=apply:3 $T tally --store "$S" --prefix "pk$per" --period $per --chunk 300 "$tmp/pd.tsv" 2>/dev/null
+	check "period-$per-killed" 137 $?
+	$T tally --store "$S" --prefix "pk$per" --period $per --chunk 300 "$tmp/pd.tsv" 2>/dev/null
+	$T counts --store "$S" --prefix "pk$per" | cmp -s - "$tmp/pd.mem"; check "period-$per-rerun-exact" 0 $?
+done
+$T tally --period week "$tmp/pd.tsv" > "$tmp/pd.mem" 2>/dev/null
+$T counts --store "$S" --prefix pdday --period week | cmp -s - "$tmp/pd.mem"; check period-days-as-weeks 0 $?
+check period-kind-recorded week "$(redis-cli -s "$tmp/a/sock" get 'pdweek:{p}:kind')"
+# a window reads the periods inside it, from the store as from the table
+$T tally --period day "$tmp/pd.tsv" > "$tmp/pd.mem" 2>/dev/null
+$T counts --from 2026-03-02 --to 2026-03-03 "$tmp/pd.mem" > "$tmp/pdw.mem" 2>/dev/null
+$T counts --store "$S" --prefix pdday --from 2026-03-02 --to 2026-03-03 2>/dev/null | cmp -s - "$tmp/pdw.mem"
+check period-window-as-table 0 $?
+labels=$(dirname "$0")/../../examples/taxonomy.tsv
+# (every change reported, so that the outputs compared are long)
+for w in "--before 2026-03-01..2026-03-02 --after 2026-03-03..2026-03-04" \
+	"--before 2026-03-01..2026-03-01 --after 2026-03-02..2026-03-03"; do
+	# shellcheck disable=SC2086
+	$T trend --labels "$labels" --min-postings 1 --min-g2 0 --min-ratio 1 $w "$tmp/pd.mem" > "$tmp/pdt.mem" 2>/dev/null
+	# shellcheck disable=SC2086
+	$T trend --labels "$labels" --min-postings 1 --min-g2 0 --min-ratio 1 $w --store "$S" --prefix pdday 2>/dev/null |
+		cmp -s - "$tmp/pdt.mem"
+	check "period-trend-as-table-[$w]" 0 $?
+	[ "$(wc -l < "$tmp/pdt.mem")" -gt 100 ]; check "period-trend-reports-[$w]" 0 $?
+done
+# a store holds one kind: a load by another is refused before it writes,
+# and weeks are not read as months
+keys=$(redis-cli -s "$tmp/a/sock" --scan --pattern 'pdweek:*' | wc -l)
+$T tally --store "$S" --prefix pdweek --period month "$tmp/pd.tsv" 2> "$tmp/err"; check period-other-kind-status 1 $?
+grep -q 'the store counts by week, and this load by month: load it with --period week' "$tmp/err"
+check period-other-kind-msg 0 $?
+check period-other-kind-wrote-nothing "$keys" "$(redis-cli -s "$tmp/a/sock" --scan --pattern 'pdweek:*' | wc -l)"
+$T counts --store "$S" --prefix pdweek --period month > /dev/null 2> "$tmp/err"; check period-weeks-as-months-status 1 $?
+grep -q 'the store counts by week, which cannot be read by month (a week can straddle two months)' "$tmp/err"
+check period-weeks-as-months-msg 0 $?
+# a key whose period is no period: the read stops, naming it
+redis-cli -s "$tmp/a/sock" hset 'pdday:{o:occ:1}:n:2026-02-30' de 1 > /dev/null
+$T counts --store "$S" --prefix pdday > /dev/null 2> "$tmp/err"; check period-bad-label-status 1 $?
+grep -qF "bad period '2026-02-30'" "$tmp/err" && grep -qF 'pdday:{o:occ:1}:n:2026-02-30' "$tmp/err"
+check period-bad-label-msg 0 $?
+# a kind of period the store cannot hold: reads and loads stop, naming it
+redis-cli -s "$tmp/a/sock" set 'pdweek:{p}:kind' fortnight > /dev/null
+$T counts --store "$S" --prefix pdweek > /dev/null 2> "$tmp/err"; check period-bad-kind-read 1 $?
+grep -qF "the store's kind of period is none of day, week, month or none: pdweek:{p}:kind" "$tmp/err"
+check period-bad-kind-read-msg 0 $?
+$T tally --store "$S" --prefix pdweek --period week "$tmp/pd.tsv" 2> "$tmp/err"; check period-bad-kind-load 1 $?
+grep -qF "the store's kind of period is none of day, week, month or none: pdweek:{p}:kind" "$tmp/err"
+check period-bad-kind-load-msg 0 $?
 redis-cli -s "$tmp/a/sock" flushall > /dev/null
 
 # unreachable server, password required
@@ -296,7 +362,19 @@ for k in $(redis-cli -s "$tmp/c/sock" -a s3cret --no-auth-warning --scan --patte
 done
 [ "$n" -gt 3 ]; check ttl-keys 0 $?
 check ttl-every-key-30-days 0 "$bad"
-k=$(redis-cli -s "$tmp/c/sock" -a s3cret --no-auth-warning --scan --pattern 'titlemill:{o:*}:x' | head -1)
+k=$(redis-cli -s "$tmp/c/sock" -a s3cret --no-auth-warning --scan --pattern 'titlemill:{o:*}:x*' | head -1)
 check no-ttl-stays -1 "$(redis-cli -s "$tmp/c/sock" -a s3cret --no-auth-warning ttl "$k")"
 $T tally --store "$C" --ttl 0 "$tmp/day1" 2>/dev/null; check ttl-zero-usage 2 $?
+# with periods a load renews the keys of the periods it counts in, not
+# the others: a period no load touches any more expires on its own
+row='\t2026-02-10\tde\tocc:7000\tLagerist\n'
+printf 'id\tdate\tlang\toccupations\ttitle\nf1%b' "$row" > "$tmp/feb.tsv"
+printf 'id\tdate\tlang\toccupations\ttitle\nm1%b' "$(printf '%s' "$row" | sed 's/02-10/03-10/')" > "$tmp/mar.tsv"
+RC() { redis-cli -s "$tmp/c/sock" -a s3cret --no-auth-warning "$@"; }
+TITLEMILL_REDIS_PASSWORD=s3cret $T tally --store "$C" --prefix tp --ttl 1 "$tmp/feb.tsv" 2>/dev/null; check ttl-period-feb 0 $?
+TITLEMILL_REDIS_PASSWORD=s3cret $T tally --store "$C" --prefix tp --ttl 30 "$tmp/mar.tsv" 2>/dev/null; check ttl-period-mar 0 $?
+t=$(RC ttl 'tp:{o:occ:7000}:n:2026-02'); [ "$t" -gt 0 ] && [ "$t" -le 86400 ]; check ttl-old-period-not-renewed 0 $?
+t=$(RC ttl 'tp:{o:occ:7000}:n:2026-03'); [ "$t" -gt 2591000 ]; check ttl-new-period 0 $?
+t=$(RC ttl 'tp:{o:occ:7000}:L'); [ "$t" -gt 2591000 ]; check ttl-ledger-renewed 0 $?
+t=$(RC ttl 'tp:{p}:kind'); [ "$t" -gt 2591000 ]; check ttl-kind-renewed 0 $?
 finish

@@ -95,11 +95,12 @@ static void fresh_prefix(char *pfx, size_t n)
 	snprintf(pfx, n, "tmtest%ld.%u", (long)getpid(), ++serial);
 }
 
-/* Opens backend b (counting into m when it is memory). */
-static store *open_backend(const backend *b, const char *prefix, tally_series *m)
+/* Opens backend b for a load by period kind (counting into m when it is
+ * memory: m's kind decides there). */
+static store *open_backend_by(const backend *b, const char *prefix, tally_series *m, int kind)
 {
 	tm_buf err = {0};
-	store_conf conf = {prefix, 2, 5000, 0};
+	store_conf conf = {prefix, 2, 5000, 0, kind};
 	store *st = b->url ? store_open(b->url, &conf, &err) : store_mem_open(m, &err);
 	if (!st)
 		fprintf(stderr, "%s: %s\n", b->name, err.data ? err.data : "");
@@ -108,19 +109,39 @@ static store *open_backend(const backend *b, const char *prefix, tally_series *m
 	return st;
 }
 
-static void feed(store *st, const row *r, size_t n, const char *name)
+static store *open_backend(const backend *b, const char *prefix, tally_series *m)
+{
+	return open_backend_by(b, prefix, m, PERIOD_NONE);
+}
+
+/* Sets the date of a posting (NULL: undated). */
+static void date_posting(posting *p, tally_posting *tp, const char *date)
+{
+	p->date = tp->date = date;
+	p->datelen = tp->datelen = date ? strlen(date) : 0;
+}
+
+/* Feeds rows r[0..n) dated dates[i] (dates NULL: all undated). */
+static void feed_dated(store *st, const row *r, const char *const *dates, size_t n,
+		       const char *name)
 {
 	for (size_t i = 0; i < n; i++) {
 		posting p;
 		tally_posting tp;
 		size_t ol[2];
 		make_posting(&r[i], &p, &tp, ol);
+		date_posting(&p, &tp, dates ? dates[i] : NULL);
 		int rc = store_feed(st, &p, &tp, name, (long)i + 2);
 		if (rc)
 			fprintf(stderr, "%s\n", st->err.data);
 		assert_int_equal(rc, 0);
 	}
 	assert_int_equal(store_input_end(st, name), 0);
+}
+
+static void feed(store *st, const row *r, size_t n, const char *name)
+{
+	feed_dated(st, r, NULL, n, name);
 }
 
 static void reference(tally_mem *ref, const row *r, size_t n)
@@ -156,7 +177,7 @@ static char *series_table(tally_series *m, size_t *len)
 	return s;
 }
 
-static void reference_series(tally_series *ref, const row *r, size_t n)
+static void reference_dated(tally_series *ref, const row *r, const char *const *dates, size_t n)
 {
 	tm_buf err = {0};
 	for (size_t i = 0; i < n; i++) {
@@ -164,21 +185,54 @@ static void reference_series(tally_series *ref, const row *r, size_t n)
 		tally_posting tp;
 		size_t ol[2];
 		make_posting(&r[i], &p, &tp, ol);
+		date_posting(&p, &tp, dates ? dates[i] : NULL);
 		assert_true(series_add(ref, &tp, &err) >= 0);
 	}
 	buf_free(&err);
 }
 
-static void assert_same_table(tally_mem *a, tally_series *b, const char *what)
+static void reference_series(tally_series *ref, const row *r, size_t n)
 {
-	size_t la, lb;
-	char *ta = table(a, &la), *tb = series_table(b, &lb);
+	reference_dated(ref, r, NULL, n);
+}
+
+/* The counts table of a series with its period column (the caller
+ * frees). */
+static char *period_table(tally_series *m, size_t *len)
+{
+	char *s = NULL;
+	FILE *fp = open_memstream(&s, len);
+	assert_non_null(fp);
+	assert_int_equal(series_write(m, fp, 1), 0);
+	fclose(fp);
+	return s;
+}
+
+
+/* Two tables (freed here) are the same bytes. */
+static void assert_same_bytes(char *ta, size_t la, char *tb, size_t lb, const char *what)
+{
 	if (la != lb || memcmp(ta, tb, la))
 		fprintf(stderr, "%s: tables differ\n--- want\n%s--- got\n%s", what, ta, tb);
 	assert_int_equal(la, lb);
 	assert_memory_equal(ta, tb, la);
 	free(ta);
 	free(tb);
+}
+
+static void assert_same_table(tally_mem *a, tally_series *b, const char *what)
+{
+	size_t la, lb;
+	char *ta = table(a, &la), *tb = series_table(b, &lb);
+	assert_same_bytes(ta, la, tb, lb, what);
+}
+
+/* The same with periods: want and got by the same kind. */
+static void assert_same_series(tally_series *a, tally_series *b, const char *what)
+{
+	size_t la, lb;
+	char *ta = period_table(a, &la), *tb = period_table(b, &lb);
+	assert_same_bytes(ta, la, tb, lb, what);
 }
 
 /* Runs rows r[0..n) through backend b (chunk postings a chunk) and
@@ -334,6 +388,129 @@ static void test_reload_counts_once(void **state)
 	tm_free(&ref);
 }
 
+/* ---- periods ---- */
+
+/* The rows' dates: two months, an ISO week-year that is not the
+ * calendar year (2026-12-31 and 2027-01-01 are in 2026-W53), a leap day,
+ * and undated postings; the republished rows come in another period
+ * than their first (an id counts in the first period it came in). */
+static const char *const dates[NROWS] = {
+	"2026-12-31", "2027-01-01", "2027-01-04", "2027-02-01", NULL, "2024-02-29",
+	"2027-01-04", NULL, "2026-12-28", "2027-01-03", "2028-02-29", "2026-12-31",
+};
+
+/* Every backend counts each posting in its period as the memory engine
+ * does: the series read back (by the load's kind, and summed to all
+ * time) is byte for byte the reference's, for each kind and chunk size. */
+static void test_periods(void **state)
+{
+	(void)state;
+	const int kinds[] = {PERIOD_DAY, PERIOD_WEEK, PERIOD_MONTH, PERIOD_NONE};
+	for (size_t b = 0; b < nbackends; b++)
+		for (size_t k = 0; k < sizeof kinds / sizeof *kinds; k++) {
+			const long chunks[] = {1, 5, 10000};
+			for (size_t c = 0; c < sizeof chunks / sizeof *chunks; c++) {
+				char pfx[64], what[160];
+				tally_series ref, m, got, all, refall;
+				series_init(&ref, kinds[k]);
+				series_init(&m, kinds[k]);
+				series_init(&got, kinds[k]);
+				series_init(&all, PERIOD_NONE);
+				series_init(&refall, PERIOD_NONE);
+				reference_dated(&ref, rows, dates, NROWS);
+				reference_dated(&refall, rows, dates, NROWS);
+				fresh_prefix(pfx, sizeof pfx);
+				store *st = open_backend_by(&backends[b], pfx, &m, kinds[k]);
+				store_set_chunk(st, chunks[c]);
+				feed_dated(st, rows, dates, NROWS, "dated.tsv");
+				assert_int_equal(st->ops->finish(st), 0);
+				assert_int_equal(st->counted, 10);
+				/* a store says how many had no date (rows 5 and 8) */
+				if (backends[b].url)
+					assert_int_equal(st->undated, kinds[k] == PERIOD_NONE ? 0 : 2);
+				assert_int_equal(st->ops->dump(st, &got), 0);
+				assert_int_equal(st->ops->dump(st, &all), 0);
+				snprintf(what, sizeof what, "%s, by %s, chunk %ld", backends[b].name,
+					 period_kind_name(kinds[k]), chunks[c]);
+				assert_same_series(&ref, &got, what);
+				assert_same_series(&refall, &all, what);
+				if (kinds[k] == PERIOD_WEEK) {
+					/* the week-year's last week, 2026-12-28 ..
+					 * 2027-01-03, across the calendar year's end */
+					tally_mem *w53;
+					tm_buf err = {0};
+					assert_int_equal(series_at(&got, "2026-W53", 8, &w53, &err), 0);
+					assert_int_equal(tm_occ_postings(w53, "occ:5120", 8, "de"), 3);
+					assert_int_equal(tm_occ_postings(w53, "occ:5120", 8, "fr"), 1);
+					buf_free(&err);
+				}
+				store_close(st);
+				series_free(&ref);
+				series_free(&m);
+				series_free(&got);
+				series_free(&all);
+				series_free(&refall);
+			}
+		}
+}
+
+/* A store holds one kind of period: a load by another kind is refused
+ * before it writes anything, and so is reading a store by weeks into
+ * months; a store by days reads into weeks and months (rolled up). */
+static void test_period_kind(void **state)
+{
+	(void)state;
+	for (size_t b = 0; b < nbackends; b++) {
+		char pfx[64];
+		tally_series none, got, ref;
+		if (!backends[b].url)
+			continue; /* memory holds what one run counts */
+		fresh_prefix(pfx, sizeof pfx);
+		series_init(&none, PERIOD_NONE);
+		store *st = open_backend_by(&backends[b], pfx, &none, PERIOD_WEEK);
+		feed_dated(st, rows, dates, NROWS, "dated.tsv");
+		assert_int_equal(st->ops->finish(st), 0);
+		store_close(st);
+
+		st = open_backend_by(&backends[b], pfx, &none, PERIOD_MONTH);
+		posting p;
+		tally_posting tp;
+		size_t ol[2];
+		make_posting(&rows[0], &p, &tp, ol);
+		date_posting(&p, &tp, "2027-03-01");
+		assert_int_equal(store_feed(st, &p, &tp, "other.tsv", 2), -1);
+		assert_non_null(strstr(st->err.data, "the store counts by week, and this load by month"));
+		series_init(&got, PERIOD_MONTH);
+		assert_int_equal(st->ops->dump(st, &got), -1);
+		assert_non_null(strstr(st->err.data, "the store counts by week, which cannot be read by month"));
+		series_free(&got);
+		/* read by week it is the week load's, nothing of the refused one */
+		series_init(&got, PERIOD_WEEK);
+		series_init(&ref, PERIOD_WEEK);
+		reference_dated(&ref, rows, dates, NROWS);
+		assert_int_equal(st->ops->dump(st, &got), 0);
+		assert_same_series(&ref, &got, "week store after a refused month load");
+		series_free(&got);
+		series_free(&ref);
+		store_close(st);
+
+		/* by day, read as months */
+		fresh_prefix(pfx, sizeof pfx);
+		st = open_backend_by(&backends[b], pfx, &none, PERIOD_DAY);
+		feed_dated(st, rows, dates, NROWS, "dated.tsv");
+		assert_int_equal(st->ops->finish(st), 0);
+		series_init(&got, PERIOD_MONTH);
+		series_init(&ref, PERIOD_MONTH);
+		reference_dated(&ref, rows, dates, NROWS);
+		assert_int_equal(st->ops->dump(st, &got), 0);
+		assert_same_series(&ref, &got, "day store read by month");
+		series_free(&got);
+		series_free(&ref);
+		store_close(st);
+		series_free(&none);
+	}
+}
+
 /* ---- the review queue's storage ---- */
 
 /* Two suggestions as propose writes them. */
@@ -391,7 +568,7 @@ static void test_queue(void **state)
 		tm_buf err = {0};
 		rq_place pl;
 		rq_queue q = {0};
-		store_conf conf = {pfx, 2, 5000, 0};
+		store_conf conf = {pfx, 2, 5000, 0, PERIOD_NONE};
 		add_arg a = {alt_line, "2026-12-02T09:00:00Z"};
 
 		fresh_prefix(pfx, sizeof pfx);
@@ -445,6 +622,8 @@ int main(void)
 		cmocka_unit_test(test_input_twice),
 		cmocka_unit_test(test_dump_adds),
 		cmocka_unit_test(test_reload_counts_once),
+		cmocka_unit_test(test_periods),
+		cmocka_unit_test(test_period_kind),
 		cmocka_unit_test(test_queue),
 	};
 	backends[nbackends++] = (backend){"memory", NULL};
