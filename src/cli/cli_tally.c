@@ -456,10 +456,11 @@ int cmd_tally(int argc, char **argv)
 	for (long k = 0; k < run.bl.n && k < 5; k++)
 		fprintf(stderr, "%s %s", k ? ";" : ":", run.bl.first[k]);
 	fprintf(stderr, "%s\n", run.bl.n > 5 ? "; ..." : "");
-	if (!o.store && o.period != PERIOD_NONE && m.undated && rc == EXIT_OK)
+	uint64_t undated = o.store ? st->undated : m.undated;
+	if (o.period != PERIOD_NONE && undated && rc == EXIT_OK)
 		fprintf(stderr, "titlemill tally: %llu %s without a date, counted as undated (an "
-			"empty period)\n", (unsigned long long)m.undated,
-			plural(m.undated, "posting", "postings"));
+			"empty period)\n", (unsigned long long)undated,
+			plural(undated, "posting", "postings"));
 	if (o.code_missing)
 		fprintf(stderr, "titlemill tally: of them without occupations: coded_by_match %llu "
 			"(best match scoring at least %.2f), %llu left without\n",
