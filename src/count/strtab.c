@@ -13,17 +13,28 @@ static inline size_t home(uint64_t h, size_t nslot)
 	return (size_t)((h * 0x9E3779B97F4A7C15ULL) >> 32) & (nslot - 1);
 }
 
+/* A slot: the high 32 bits of its entry's hash, then the entry's index
+ * + 1 (0: the slot is empty).  A probe passes over a slot of another
+ * hash without reading its entry: eight slots to a cache line, so a
+ * lookup reads the entry (and its key) only when the fingerprints
+ * agree, nearly always the key itself. */
+#define FP(h) ((h) & 0xFFFFFFFF00000000ULL)
+static inline uint64_t slot_of(uint64_t h, size_t i)
+{
+	return FP(h) | (uint32_t)(i + 1);
+}
+
 static int grow_slots(strtab *t)
 {
 	size_t ns = t->nslot ? t->nslot * 2 : 1024, i;
-	uint32_t *s = calloc(ns, sizeof *s);
+	uint64_t *s = calloc(ns, sizeof *s);
 	if (!s)
 		return -1;
 	for (i = 0; i < t->n; i++) {
 		size_t j = home(t->ent[i].hash, ns);
 		while (s[j])
 			j = (j + 1) & (ns - 1);
-		s[j] = (uint32_t)(i + 1);
+		s[j] = slot_of(t->ent[i].hash, i);
 	}
 	free(t->slot);
 	t->slot = s;
@@ -40,10 +51,12 @@ long st_find(const strtab *t, const char *key, size_t n)
 		return -1;
 	h = tok_hash(key, n);
 	for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
-		const st_entry *e = &t->ent[t->slot[j] - 1];
+		if (FP(t->slot[j]) != FP(h))
+			continue;
+		const st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
 		if (e->hash == h && e->len == n &&
 		    (n == 0 || !memcmp(t->arena.data + e->off, key, n)))
-			return (long)(t->slot[j] - 1);
+			return (long)((uint32_t)t->slot[j] - 1);
 	}
 	return -1;
 }
@@ -78,9 +91,11 @@ long st_find_fields(const strtab *t, const st_fields *k)
 	if (!t->nslot)
 		return -1;
 	for (j = home(k->h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
-		const st_entry *e = &t->ent[t->slot[j] - 1];
+		if (FP(t->slot[j]) != FP(k->h))
+			continue;
+		const st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
 		if (e->hash == k->h && e->len == n && same_fields(t, e, k))
-			return (long)(t->slot[j] - 1);
+			return (long)((uint32_t)t->slot[j] - 1);
 	}
 	return -1;
 }
@@ -113,7 +128,7 @@ static int insert(strtab *t, uint64_t h, size_t n, uint64_t by, size_t *idx)
 	e->len = (uint32_t)n;
 	for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1))
 		;
-	t->slot[j] = (uint32_t)(t->n + 1);
+	t->slot[j] = slot_of(h, t->n);
 	if (idx)
 		*idx = t->n;
 	t->n++;
@@ -148,12 +163,14 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 
 	if (t->nslot) {
 		for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
-			st_entry *e = &t->ent[t->slot[j] - 1];
+			if (FP(t->slot[j]) != FP(h))
+				continue;
+			st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
 			if (e->hash == h && e->len == n &&
 			    (n == 0 || !memcmp(t->arena.data + e->off, key, n))) {
 				e->count += by;
 				if (idx)
-					*idx = t->slot[j] - 1;
+					*idx = (uint32_t)t->slot[j] - 1;
 				return 0;
 			}
 		}
@@ -175,5 +192,5 @@ void st_free(strtab *t)
 
 size_t st_bytes(const strtab *t)
 {
-	return t->cap * sizeof(st_entry) + t->nslot * sizeof(uint32_t) + t->arena.cap;
+	return t->cap * sizeof(st_entry) + t->nslot * sizeof(uint64_t) + t->arena.cap;
 }
