@@ -30,6 +30,7 @@ static int grow_slots(strtab *t)
 	uint64_t *s = calloc(ns, sizeof *s);
 	if (!s)
 		return -1;
+	tm_hugepages(s, ns * sizeof *s);
 	for (i = 0; i < t->n; i++) {
 		size_t j = home(t->ent[i].hash, ns);
 		while (s[j])

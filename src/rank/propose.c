@@ -339,6 +339,8 @@ static int index_keys(ranker *c)
 	c->keys = malloc(need * sizeof *c->keys);
 	if (!c->slot || !c->keys)
 		return -1;
+	tm_hugepages(c->slot, c->nslot * sizeof *c->slot);
+	tm_hugepages(c->keys, need * sizeof *c->keys);
 	/* the triples' (language, key)s, their hashes a few ahead */
 	uint64_t th[AHEAD];
 	for (size_t i = 0; i < c->n + AHEAD; i++) {
@@ -666,6 +668,12 @@ int propose_run(tally_mem *m, const labelset *ls, const propose_bars *b,
 		c.labsig[q] = variant_sig(lab_str(ls, lb->key), lb->keylen);
 		c.labwide[q] = (uint8_t)has_wide_word(lab_str(ls, lb->key), lb->keylen);
 	}
+	/* a triple per distinct (occupation, language, key) of the forms at
+	 * most: room for all at once, in big pages */
+	c.cap = m->forms.n ? m->forms.n : 1;
+	if (!(c.t = malloc(c.cap * sizeof *c.t)))
+		goto done;
+	tm_hugepages(c.t, c.cap * sizeof *c.t);
 	if (tm_each_triple(m, collect, &c) != 0 ||
 	    index_keys(&c) != 0 || rank_titles(&c) != 0 || rank_labels(&c) != 0)
 		goto done;
