@@ -26,7 +26,7 @@ typedef struct st_entry {
 typedef struct strtab {
 	st_entry *ent;     /* entries in insertion order */
 	size_t n, cap;
-	uint64_t *slot;    /* open addressing: the hash's high 32 bits, then
+	uint64_t *slot;    /* open addressing: the hash's low 32 bits, then
 			    * the entry index + 1; 0 empty */
 	size_t nslot;
 	tm_buf arena;

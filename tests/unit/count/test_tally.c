@@ -481,9 +481,10 @@ static void test_fields(void **state)
 	st_free(&t);
 }
 
-/* Keys filed under hashes that collide whole, share only the high 32
- * bits (a slot's fingerprint), or differ only there: each found, counted
- * and told apart from the others, across growths of the slots. */
+/* Keys filed under hashes that collide whole, agree in their high or in
+ * their low 32 bits only (the low ones are a slot's fingerprint and its
+ * home): each found, counted and told apart from the others, across
+ * growths of the slots. */
 static void test_fingerprints(void **state)
 {
 	(void)state;
@@ -493,8 +494,8 @@ static void test_fingerprints(void **state)
 	for (int pass = 0; pass < 2; pass++)
 		for (int q = 0; q < N; q++) {
 			uint64_t h = q % 3 == 0 ? 77				 /* whole */
-				   : q % 3 == 1 ? 0xABCD000000000000ULL | (uint64_t)(q & 15) /* high bits */
-						: (uint64_t)q << 32;		 /* only high */
+				   : q % 3 == 1 ? 0xABCD000000000000ULL | (uint64_t)(q & 15) /* high */
+						: (uint64_t)q << 32 | 5;	 /* low */
 			st_fields d = {{w}, {(size_t)snprintf(w, sizeof w, "k%d", q)}, 1, '\x1F', h};
 			size_t i;
 			assert_int_equal(st_add_fields(&t, &d, 1, &i), pass == 0);
