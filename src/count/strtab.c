@@ -42,7 +42,7 @@ static inline size_t home(uint64_t h, size_t nslot)
 static int grow_slots(strtab *t)
 {
 	size_t ns = t->nslot ? t->nslot * 2 : 1024;
-	if (ns > ((size_t)1 << 32)) /* home_fp's 32 bits */
+	if (t->nslot > ((size_t)1 << 31) || ns < t->nslot) /* home_fp's 32 bits; size_t */
 		return -1;
 	uint64_t *s = calloc(ns, sizeof *s);
 	if (!s)
