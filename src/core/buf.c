@@ -1,10 +1,12 @@
 /* buf.c - growable byte buffers, growing arrays, error messages. */
+#define _DEFAULT_SOURCE /* madvise's MADV_HUGEPAGE */
 #include "core/buf.h"
 
 #include <stdarg.h>
 #include <stdint.h>
 #include <stdio.h>
 #include <stdlib.h>
+#include <sys/mman.h>
 
 /* Marks b failed: cap drops to len so that every later append takes the
  * slow path and fails there. */
@@ -97,6 +99,19 @@ void *tm_grow(void *p, size_t *cap, size_t need, size_t size, size_t first)
 		return NULL;
 	*cap = n;
 	return q;
+}
+
+void tm_hugepages(void *p, size_t n)
+{
+#ifdef MADV_HUGEPAGE
+	const uintptr_t huge = (uintptr_t)1 << 21;
+	uintptr_t a = ((uintptr_t)p + huge - 1) & ~(huge - 1), z = ((uintptr_t)p + n) & ~(huge - 1);
+	if (p && n >= TM_HUGEPAGES_MIN && z > a)
+		(void)madvise((void *)a, z - a, MADV_HUGEPAGE); /* a hint: failing changes nothing */
+#else
+	(void)p;
+	(void)n;
+#endif
 }
 
 char *tm_dupn(const char *s, size_t n)

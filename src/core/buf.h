@@ -101,6 +101,18 @@ char *tm_dupn(const char *s, size_t n);
  *     a->v = v; */
 void *tm_grow(void *p, size_t *cap, size_t need, size_t size, size_t first);
 
+/* Asks that the block p of n bytes, just allocated and not yet written,
+ * be mapped in 2 MiB pages where the system can (Linux's transparent
+ * huge pages: the 2 MiB-aligned part inside the block): for a big table
+ * probed at random (hash slots), one TLB entry covers 512 times the
+ * memory, and filling it costs a page fault per 2 MiB instead of per
+ * 4 KiB.  Blocks under TM_HUGEPAGES_MIN are left alone.  Only for a
+ * block that is freed whole and never given to realloc (the hint splits
+ * the mapping, and realloc could then no longer move it in place); a
+ * hint, never an error. */
+#define TM_HUGEPAGES_MIN ((size_t)4 << 20)
+void tm_hugepages(void *p, size_t n);
+
 /* qsort of n elements that accepts an empty array (NULL when n is 0,
  * which qsort itself may not be given). */
 static inline void tm_qsort(void *base, size_t n, size_t size,

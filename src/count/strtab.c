@@ -6,24 +6,56 @@
 
 #include "norm/token.h"
 
-/* Slot of a hash: Fibonacci hashing spreads the low-entropy bits of
- * similar keys (ids that share their prefix) over the whole table. */
+/* A slot: a fingerprint of its entry's hash (the hash's low 32 bits),
+ * then the entry's index + 1 (0: the slot is empty).  A probe passes
+ * over a slot of another fingerprint without reading its entry: eight
+ * slots to a cache line, so a lookup reads the entry (and its key) only
+ * when the fingerprints agree, nearly always the key itself. */
+#define SLOT_FP(s) ((s) & 0xFFFFFFFF00000000ULL)
+static inline uint64_t fp(uint64_t h)
+{
+	return (uint64_t)(uint32_t)h << 32;
+}
+
+static inline uint64_t slot_of(uint64_t h, size_t i)
+{
+	return fp(h) | (uint32_t)(i + 1);
+}
+
+/* The home slot of a fingerprint: Fibonacci hashing (the top bits of its
+ * product with 2^32 / phi) spreads the low-entropy bits of similar keys
+ * (ids that share their prefix) over the whole table.  The home comes
+ * from the slot's own fingerprint, and in a table twice the size slot j's
+ * home is 2j or 2j + 1: growing reads the old slots in order, never an
+ * entry, and writes the new ones nearly in order. */
+static inline size_t home_fp(uint64_t slot_fp, size_t nslot)
+{
+	uint32_t f = (uint32_t)(slot_fp >> 32) * 0x9E3779B9u;
+	return (size_t)(f >> (32 - __builtin_ctzll((unsigned long long)nslot)));
+}
+
 static inline size_t home(uint64_t h, size_t nslot)
 {
-	return (size_t)((h * 0x9E3779B97F4A7C15ULL) >> 32) & (nslot - 1);
+	return home_fp(fp(h), nslot);
 }
 
 static int grow_slots(strtab *t)
 {
-	size_t ns = t->nslot ? t->nslot * 2 : 1024, i;
-	uint32_t *s = calloc(ns, sizeof *s);
+	size_t ns = t->nslot ? t->nslot * 2 : 1024;
+	if (t->nslot > ((size_t)1 << 31) || ns < t->nslot) /* home_fp's 32 bits; size_t */
+		return -1;
+	uint64_t *s = calloc(ns, sizeof *s);
 	if (!s)
 		return -1;
-	for (i = 0; i < t->n; i++) {
-		size_t j = home(t->ent[i].hash, ns);
+	tm_hugepages(s, ns * sizeof *s);
+	for (size_t i = 0; i < t->nslot; i++) {
+		uint64_t e = t->slot[i];
+		if (!e)
+			continue;
+		size_t j = home_fp(SLOT_FP(e), ns);
 		while (s[j])
 			j = (j + 1) & (ns - 1);
-		s[j] = (uint32_t)(i + 1);
+		s[j] = e;
 	}
 	free(t->slot);
 	t->slot = s;
@@ -40,10 +72,12 @@ long st_find(const strtab *t, const char *key, size_t n)
 		return -1;
 	h = tok_hash(key, n);
 	for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
-		const st_entry *e = &t->ent[t->slot[j] - 1];
+		if (SLOT_FP(t->slot[j]) != fp(h))
+			continue;
+		const st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
 		if (e->hash == h && e->len == n &&
 		    (n == 0 || !memcmp(t->arena.data + e->off, key, n)))
-			return (long)(t->slot[j] - 1);
+			return (long)((uint32_t)t->slot[j] - 1);
 	}
 	return -1;
 }
@@ -78,9 +112,11 @@ long st_find_fields(const strtab *t, const st_fields *k)
 	if (!t->nslot)
 		return -1;
 	for (j = home(k->h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
-		const st_entry *e = &t->ent[t->slot[j] - 1];
+		if (SLOT_FP(t->slot[j]) != fp(k->h))
+			continue;
+		const st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
 		if (e->hash == k->h && e->len == n && same_fields(t, e, k))
-			return (long)(t->slot[j] - 1);
+			return (long)((uint32_t)t->slot[j] - 1);
 	}
 	return -1;
 }
@@ -113,7 +149,7 @@ static int insert(strtab *t, uint64_t h, size_t n, uint64_t by, size_t *idx)
 	e->len = (uint32_t)n;
 	for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1))
 		;
-	t->slot[j] = (uint32_t)(t->n + 1);
+	t->slot[j] = slot_of(h, t->n);
 	if (idx)
 		*idx = t->n;
 	t->n++;
@@ -148,12 +184,14 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 
 	if (t->nslot) {
 		for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
-			st_entry *e = &t->ent[t->slot[j] - 1];
+			if (SLOT_FP(t->slot[j]) != fp(h))
+				continue;
+			st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
 			if (e->hash == h && e->len == n &&
 			    (n == 0 || !memcmp(t->arena.data + e->off, key, n))) {
 				e->count += by;
 				if (idx)
-					*idx = t->slot[j] - 1;
+					*idx = (uint32_t)t->slot[j] - 1;
 				return 0;
 			}
 		}
@@ -175,5 +213,5 @@ void st_free(strtab *t)
 
 size_t st_bytes(const strtab *t)
 {
-	return t->cap * sizeof(st_entry) + t->nslot * sizeof(uint32_t) + t->arena.cap;
+	return t->cap * sizeof(st_entry) + t->nslot * sizeof(uint64_t) + t->arena.cap;
 }

@@ -1,9 +1,11 @@
 /* strtab.h - a hash table from byte strings to 64-bit counts, with the
  * strings kept in one arena.
  *
- * Built for millions of keys: an entry costs 24 bytes in the slot array
- * (at a load of at most 3/4) plus its string bytes; nothing is allocated
- * per key.  Keys are any bytes (the engine joins fields with 0x1F).
+ * Built for millions of keys: an entry costs 24 bytes, and 8 in the slot
+ * array (at a load of at most 3/4), plus its string bytes; nothing is
+ * allocated per key.  A slot holds a fingerprint of its key's hash, so
+ * that a lookup reads one cache line of slots and, nearly always, the
+ * entry of the key itself only.  Keys are any bytes (the engine joins fields with 0x1F).
  * Entry indices are stable while no entry is removed (none ever is);
  * string pointers move when the arena grows: take them afresh after an
  * insert. */
@@ -24,7 +26,8 @@ typedef struct st_entry {
 typedef struct strtab {
 	st_entry *ent;     /* entries in insertion order */
 	size_t n, cap;
-	uint32_t *slot;    /* open addressing: entry index + 1, 0 empty */
+	uint64_t *slot;    /* open addressing: the hash's low 32 bits, then
+			    * the entry index + 1; 0 empty */
 	size_t nslot;
 	tm_buf arena;
 } strtab;

@@ -27,16 +27,15 @@ void propose_bars_default(propose_bars *b)
 	PROPOSE_BARS(PROPOSE_BAR_DEFAULT)
 }
 
-/* A counted (occupation, language, key) with its display title. */
+/* A counted (occupation, language, key) with its display title (its
+ * language is its group's): 56 bytes, a million of them a run. */
 typedef struct trip {
 	const char *occ, *key, *title;
-	size_t ol, kl, tl;
-	uint64_t k;
+	uint32_t ol, kl, tl;
 	uint32_t kid;    /* its (language, key): index in keys[] */
 	uint32_t lab;    /* the label with its key in its group: labkeys index + 1, or 0 */
 	uint32_t grp;    /* its (occupation, language): index in grp[] */
-	char lang[4];
-	uint64_t hash;   /* of its (language, key) */
+	uint64_t k;
 } trip;
 
 /* A (language, key) over all occupations. */
@@ -54,6 +53,8 @@ typedef struct group {
 	size_t lo, hi;   /* its label keys: lk.v[lo, hi) */
 	size_t at;       /* the first of them not passed yet by the triples */
 	uint64_t postings;
+	uint64_t lang_postings; /* of its language, whatever the occupation */
+	char lang[4];
 } group;
 
 typedef struct ranker {
@@ -71,6 +72,7 @@ typedef struct ranker {
 	size_t ngrp, grpcap;
 	labkeys lk;
 	uint64_t *labsig;  /* per label key: variant_sig */
+	uint8_t *labwide;  /* per label key: has_wide_word */
 	uint32_t *labtrip; /* per label: the triple of its occupation, language
 			    * and key, index + 1, or 0 */
 	strtab nlang;    /* lang -> postings */
@@ -134,18 +136,18 @@ static int collect(void *c0, const tm_triple *x)
 	t = &c->t[c->n];
 	memset(t, 0, sizeof *t);
 	t->occ = x->occ;
-	t->ol = x->ol;
+	t->ol = (uint32_t)x->ol;
 	t->key = x->key;
-	t->kl = x->kl;
+	t->kl = (uint32_t)x->kl;
 	t->title = x->title;
-	t->tl = x->tl;
+	t->tl = (uint32_t)x->tl;
 	t->k = x->postings;
-	memcpy(t->lang, x->lang, x->ll < 3 ? x->ll : 3);
-	t->hash = key_hash(t->lang, t->key, t->kl);
+	char lang[4] = {0};
+	memcpy(lang, x->lang, x->ll < 3 ? x->ll : 3);
 	/* a new (occupation, language)? */
 	group *g = c->ngrp ? &c->grp[c->ngrp - 1] : NULL;
 	if (!g || !same(c->t[g->first].occ, c->t[g->first].ol, t->occ, t->ol) ||
-	    strcmp(c->t[g->first].lang, t->lang)) {
+	    strcmp(g->lang, lang)) {
 		g = tm_grow(c->grp, &c->grpcap, c->ngrp + 1, sizeof *g, 256);
 		if (!g)
 			return -1;
@@ -153,9 +155,10 @@ static int collect(void *c0, const tm_triple *x)
 		g = &c->grp[c->ngrp++];
 		memset(g, 0, sizeof *g);
 		g->first = (uint32_t)c->n;
-		labkeys_group(&c->lk, c->ls, t->occ, t->ol, t->lang, &g->lo, &g->hi);
+		memcpy(g->lang, lang, 4);
+		labkeys_group(&c->lk, c->ls, t->occ, t->ol, lang, &g->lo, &g->hi);
 		g->at = g->lo;
-		g->postings = tm_occ_postings(c->m, t->occ, t->ol, t->lang);
+		g->postings = tm_occ_postings(c->m, t->occ, t->ol, lang);
 	}
 	t->grp = (uint32_t)(c->ngrp - 1);
 	/* the triples of a group come in key order, as its label keys do:
@@ -336,19 +339,29 @@ static int index_keys(ranker *c)
 	c->keys = malloc(need * sizeof *c->keys);
 	if (!c->slot || !c->keys)
 		return -1;
-	for (size_t i = 0; i < c->n; i++) {
-		trip *t = &c->t[i];
-		if (i + AHEAD < c->n)
-			key_prefetch(c, c->t[i + AHEAD].hash);
-		long id = key_id(c, t->hash, t->lang, t->key, t->kl, 1);
-		kinfo *ki = &c->keys[id];
-		uint32_t me = (uint32_t)i + 1;
-		t->kid = (uint32_t)id;
-		if (!ki->i1 || t->k > c->t[ki->i1 - 1].k) {
-			ki->i2 = ki->i1;
-			ki->i1 = me;
-		} else if (!ki->i2 || t->k > c->t[ki->i2 - 1].k)
-			ki->i2 = me;
+	tm_hugepages(c->slot, c->nslot * sizeof *c->slot);
+	tm_hugepages(c->keys, need * sizeof *c->keys);
+	/* the triples' (language, key)s, their hashes a few ahead */
+	uint64_t th[AHEAD];
+	for (size_t i = 0; i < c->n + AHEAD; i++) {
+		if (i >= AHEAD) { /* triple q's turn, then its slot of th is i's */
+			size_t q = i - AHEAD;
+			trip *t = &c->t[q];
+			long id = key_id(c, th[q % AHEAD], c->grp[t->grp].lang, t->key, t->kl, 1);
+			kinfo *ki = &c->keys[id];
+			uint32_t me = (uint32_t)q + 1;
+			t->kid = (uint32_t)id;
+			if (!ki->i1 || t->k > c->t[ki->i1 - 1].k) {
+				ki->i2 = ki->i1;
+				ki->i1 = me;
+			} else if (!ki->i2 || t->k > c->t[ki->i2 - 1].k)
+				ki->i2 = me;
+		}
+		if (i < c->n) {
+			const trip *a = &c->t[i];
+			th[i % AHEAD] = key_hash(c->grp[a->grp].lang, a->key, a->kl);
+			key_prefetch(c, th[i % AHEAD]);
+		}
 	}
 	/* the counts' keys (lang 1F key), their hashes a few ahead */
 	uint64_t ring[AHEAD];
@@ -386,6 +399,10 @@ static int index_keys(ranker *c)
 		}
 		c->nlang.ent[li].count += m->keys.ent[i].count;
 	}
+	for (size_t g = 0; g < c->ngrp; g++) {
+		long li2 = st_find(&c->nlang, c->grp[g].lang, strlen(c->grp[g].lang));
+		c->grp[g].lang_postings = li2 < 0 ? 0 : c->nlang.ent[li2].count;
+	}
 	return 0;
 }
 
@@ -393,12 +410,6 @@ static int filtered(const propose_filter *f, const char *occ, size_t ol, const c
 {
 	return f && ((f->occ && !same(f->occ, strlen(f->occ), occ, ol)) ||
 		     (f->lang && strcmp(f->lang, lang)));
-}
-
-static uint64_t lang_postings(const ranker *c, const char *lang)
-{
-	long li = st_find(&c->nlang, lang, strlen(lang));
-	return li < 0 ? 0 : c->nlang.ent[li].count;
 }
 
 /* The code points of a key but spaces and hyphens, each as one of 64
@@ -421,6 +432,23 @@ static uint64_t variant_sig(const char *s, size_t n)
 	return sig;
 }
 
+/* Has the key a word (between spaces) of PROPOSE_TYPO_MIN code points or
+ * more?  A typo or spelling variant differs in one such word, and the
+ * word it differs from is one too: when a key or a label has none, only
+ * "spacing" can join them, and that keeps every code point but spaces
+ * and hyphens (variant_sig equal). */
+static int has_wide_word(const char *s, size_t n)
+{
+	size_t w = 0;
+	for (size_t i = 0; i < n; i++) {
+		if (s[i] == ' ')
+			w = 0;
+		else if (((unsigned char)s[i] & 0xC0) != 0x80 && ++w >= PROPOSE_TYPO_MIN)
+			return 1;
+	}
+	return 0;
+}
+
 /* A spelling variant of one of the labels of t's group: the first such
  * label in the labels file, with how it varies; NULL when none. */
 static const label *variant_of(const ranker *c, const trip *t, const char **how)
@@ -428,8 +456,8 @@ static const label *variant_of(const ranker *c, const trip *t, const char **how)
 	const labelset *ls = c->ls;
 	const group *g = &c->grp[t->grp];
 	const label *var = NULL;
-	int quick = t->kl <= VARIANT_SIG_MAX;
-	uint64_t sig = quick ? variant_sig(t->key, t->kl) : 0;
+	int quick = t->kl <= VARIANT_SIG_MAX, wide = has_wide_word(t->key, t->kl);
+	uint64_t sig = variant_sig(t->key, t->kl);
 	for (size_t q = g->lo; q < g->hi; q++) {
 		const label *lb = &ls->v[c->lk.v[q].lab];
 		const char *h;
@@ -437,6 +465,8 @@ static const label *variant_of(const ranker *c, const trip *t, const char **how)
 			continue;
 		if (quick && lb->keylen <= VARIANT_SIG_MAX &&
 		    __builtin_popcountll(sig ^ c->labsig[q]) > 4)
+			continue;
+		if (!(wide && c->labwide[q]) && sig != c->labsig[q])
 			continue;
 		if ((h = propose_variant(t->key, t->kl, lab_str(ls, lb->key), lb->keylen))) {
 			var = lb;
@@ -458,8 +488,9 @@ static int rank_titles(ranker *c)
 		if (!t->kl || t->lab)
 			continue;
 		const kinfo *ki = &c->keys[t->kid];
-		uint64_t n = c->grp[t->grp].postings, kt = ki->postings;
-		uint64_t nl = lang_postings(c, t->lang);
+		const group *g = &c->grp[t->grp];
+		uint64_t n = g->postings, kt = ki->postings;
+		uint64_t nl = g->lang_postings;
 		double prec = kt ? (double)t->k / (double)kt : 0;
 		propose_sugg s;
 		memset(&s, 0, sizeof s);
@@ -470,7 +501,7 @@ static int rank_titles(ranker *c)
 		s.ol = t->ol;
 		s.key = t->key;
 		s.kl = t->kl;
-		memcpy(s.lang, t->lang, 4);
+		memcpy(s.lang, g->lang, 4);
 		s.postings = t->k;
 		s.occ_postings = n;
 		s.key_postings = kt;
@@ -494,7 +525,7 @@ static int rank_titles(ranker *c)
 			 * "delta00 agent" when both are labels */
 			tm_buf j = {0};
 			long other = -1;
-			if (buf_puts(&j, t->lang) || buf_putc(&j, '\x1F') || buf_append(&j, t->key, t->kl)) {
+			if (buf_puts(&j, g->lang) || buf_putc(&j, '\x1F') || buf_append(&j, t->key, t->kl)) {
 				buf_free(&j);
 				return -1;
 			}
@@ -629,12 +660,20 @@ int propose_run(tally_mem *m, const labelset *ls, const propose_bars *b,
 	c.out = out;
 	c.labtrip = calloc(ls->n + 1, sizeof *c.labtrip);
 	c.labsig = malloc((ls->n + 1) * sizeof *c.labsig);
-	if (!c.labtrip || !c.labsig || labkeys_build(&c.lk, ls) != 0)
+	c.labwide = malloc(ls->n + 1);
+	if (!c.labtrip || !c.labsig || !c.labwide || labkeys_build(&c.lk, ls) != 0)
 		goto done;
 	for (size_t q = 0; q < c.lk.n; q++) {
 		const label *lb = &ls->v[c.lk.v[q].lab];
 		c.labsig[q] = variant_sig(lab_str(ls, lb->key), lb->keylen);
+		c.labwide[q] = (uint8_t)has_wide_word(lab_str(ls, lb->key), lb->keylen);
 	}
+	/* a triple per distinct (occupation, language, key) of the forms at
+	 * most: room for all at once, in big pages */
+	c.cap = m->forms.n ? m->forms.n : 1;
+	if (!(c.t = malloc(c.cap * sizeof *c.t)))
+		goto done;
+	tm_hugepages(c.t, c.cap * sizeof *c.t);
 	if (tm_each_triple(m, collect, &c) != 0 ||
 	    index_keys(&c) != 0 || rank_titles(&c) != 0 || rank_labels(&c) != 0)
 		goto done;
@@ -668,6 +707,7 @@ done:
 	free(c.grp);
 	free(c.labtrip);
 	free(c.labsig);
+	free(c.labwide);
 	labkeys_free(&c.lk);
 	st_free(&c.nlang);
 	buf_free(&j);

@@ -102,12 +102,39 @@ static void test_fail_message(void **state)
 	buf_free(&err);
 }
 
+/* The big-pages hint leaves a block's contents and its ownership alone:
+ * a block of several 2 MiB pages, at any alignment, reads back what was
+ * written and is freed as usual; a small block and NULL are no-ops. */
+static void test_hugepages(void **state)
+{
+	(void)state;
+	size_t n = TM_HUGEPAGES_MIN * 2 + 12345;
+	for (size_t shift = 0; shift < 2; shift++) {
+		unsigned char *p = calloc(n, 1);
+		assert_non_null(p);
+		tm_hugepages(p + shift, n - shift);
+		for (size_t i = 0; i < n; i += 4093)
+			assert_int_equal(p[i], 0);
+		for (size_t i = 0; i < n; i++)
+			p[i] = (unsigned char)(i * 31);
+		for (size_t i = 0; i < n; i++)
+			if (p[i] != (unsigned char)(i * 31))
+				fail_msg("byte %zu changed", i);
+		free(p);
+	}
+	char small[64] = "kept";
+	tm_hugepages(small, sizeof small);
+	assert_string_equal(small, "kept");
+	tm_hugepages(NULL, n);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(test_first_failure_sticks),
 		cmocka_unit_test(test_printf),
 		cmocka_unit_test(test_grow),
+		cmocka_unit_test(test_hugepages),
 		cmocka_unit_test(test_fail_message),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);

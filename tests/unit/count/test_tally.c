@@ -481,6 +481,46 @@ static void test_fields(void **state)
 	st_free(&t);
 }
 
+/* Keys filed under hashes that collide whole, agree in their high or in
+ * their low 32 bits only (the low ones are a slot's fingerprint and its
+ * home): each found, counted and told apart from the others, across
+ * growths of the slots. */
+static void test_fingerprints(void **state)
+{
+	(void)state;
+	strtab t = {0};
+	char w[16];
+	enum { N = 6000 };
+	for (int pass = 0; pass < 2; pass++)
+		for (int q = 0; q < N; q++) {
+			uint64_t h = q % 3 == 0 ? 77				 /* whole */
+				   : q % 3 == 1 ? 0xABCD000000000000ULL | (uint64_t)(q & 15) /* high */
+						: (uint64_t)q << 32 | 5;	 /* low */
+			st_fields d = {{w}, {(size_t)snprintf(w, sizeof w, "k%d", q)}, 1, '\x1F', h};
+			size_t i;
+			assert_int_equal(st_add_fields(&t, &d, 1, &i), pass == 0);
+			assert_int_equal(i, (size_t)q);
+			assert_int_equal(t.ent[i].count, (uint64_t)pass + 1);
+			d.n[0] = (size_t)snprintf(w, sizeof w, "x%d", q); /* same hash, another key */
+			assert_int_equal(st_find_fields(&t, &d), -1);
+		}
+	assert_int_equal(t.n, N);
+	/* whole keys, through st_add and st_find, in a table of their own */
+	strtab u = {0};
+	for (int q = 0; q < N; q++) {
+		int n = snprintf(w, sizeof w, "id-%d", q);
+		assert_int_equal(st_add(&u, w, (size_t)n, 1, NULL), 1);
+	}
+	for (int q = 0; q < N; q++) {
+		int n = snprintf(w, sizeof w, "id-%d", q);
+		assert_int_equal(st_find(&u, w, (size_t)n), q);
+		w[0] = 'x';
+		assert_int_equal(st_find(&u, w, (size_t)n), -1);
+	}
+	st_free(&t);
+	st_free(&u);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -490,6 +530,7 @@ int main(void)
 		cmocka_unit_test(test_strtab),
 		cmocka_unit_test(test_idset),
 		cmocka_unit_test(test_fields),
+		cmocka_unit_test(test_fingerprints),
 		cmocka_unit_test(test_engine),
 		cmocka_unit_test(test_examples_order_free),
 		cmocka_unit_test(test_bad_tables),

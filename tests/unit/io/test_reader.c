@@ -160,6 +160,84 @@ static void test_tsv_over(void **state)
 	unlink(path);
 }
 
+/* Fields as split: empty ones at either end and between TABs, a short
+ * row, a row past TSV_MAXCOL fields (the first TSV_MAXCOL kept, the row
+ * flagged), and rows across the reader's buffer refills, each read back
+ * whole (200,000 rows of varied widths: several refills of 64 KiB). */
+static void test_tsv_fields(void **state)
+{
+	(void)state;
+	tsv_reader t;
+	size_t n;
+	WRITE("a\tb\tc\n\t\t\nx\n\ty\t\n");
+	assert_int_equal(tsv_open(&t, path), 0);
+	assert_int_equal(t.ncol, 3);
+	assert_int_equal(tsv_next(&t), 1); /* "\t\t": three empty fields */
+	assert_int_equal(t.nfield, 3);
+	for (int i = 0; i < 3; i++) {
+		tsv_field(&t, i, &n);
+		assert_int_equal(n, 0);
+	}
+	assert_int_equal(tsv_next(&t), 1); /* "x": one field, the others "" */
+	assert_int_equal(t.nfield, 1);
+	assert_memory_equal(tsv_field(&t, 0, &n), "x", 1);
+	assert_int_equal(n, 1);
+	assert_string_equal(tsv_field(&t, 2, &n), "");
+	assert_int_equal(tsv_next(&t), 1); /* "\ty\t" */
+	assert_int_equal(t.nfield, 3);
+	assert_memory_equal(tsv_field(&t, 1, &n), "y", 1);
+	tsv_field(&t, 2, &n);
+	assert_int_equal(n, 0);
+	assert_false(t.over);
+	assert_int_equal(tsv_next(&t), 0);
+	tsv_close(&t);
+	unlink(path);
+
+	/* TSV_MAXCOL + 6 fields under a header of two */
+	tm_buf b = {0};
+	buf_puts(&b, "a\tb\n");
+	for (int i = 0; i < TSV_MAXCOL + 6; i++)
+		buf_printf(&b, "%s%d", i ? "\t" : "", i);
+	buf_puts(&b, "\n");
+	write_file(b.data, b.len);
+	assert_int_equal(tsv_open(&t, path), 0);
+	assert_int_equal(tsv_next(&t), 1);
+	assert_int_equal(t.nfield, TSV_MAXCOL);
+	assert_true(t.over);
+	assert_memory_equal(tsv_field(&t, TSV_MAXCOL - 1, &n), "63", 2);
+	tsv_close(&t);
+	unlink(path);
+
+	enum { ROWS = 200000 };
+	buf_reset(&b);
+	buf_puts(&b, "n\tword\tpad\n");
+	for (int i = 0; i < ROWS; i++)
+		buf_printf(&b, "%d\tw%x\t%.*s\n", i, (unsigned)i * 2654435761u, i % 23, "xxxxxxxxxxxxxxxxxxxxxxx");
+	write_file(b.data, b.len);
+	assert_int_equal(tsv_open(&t, path), 0);
+	int cn = tsv_col(&t, "n"), cw = tsv_col(&t, "word"), cp = tsv_col(&t, "pad");
+	char want[32];
+	for (int i = 0; i < ROWS; i++) {
+		assert_int_equal(tsv_next(&t), 1);
+		int wl = snprintf(want, sizeof want, "%d", i);
+		const char *f = tsv_field(&t, cn, &n);
+		assert_int_equal(n, (size_t)wl);
+		assert_memory_equal(f, want, n);
+		wl = snprintf(want, sizeof want, "w%x", (unsigned)i * 2654435761u);
+		f = tsv_field(&t, cw, &n);
+		assert_int_equal(n, (size_t)wl);
+		assert_memory_equal(f, want, n);
+		tsv_field(&t, cp, &n);
+		assert_int_equal(n, (size_t)(i % 23));
+		assert_false(t.over);
+	}
+	assert_int_equal(tsv_next(&t), 0);
+	assert_int_equal(t.lr.lineno, ROWS + 1);
+	tsv_close(&t);
+	unlink(path);
+	buf_free(&b);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -168,6 +246,7 @@ int main(void)
 		cmocka_unit_test(test_tsv),
 		cmocka_unit_test(test_utf16_and_cr),
 		cmocka_unit_test(test_tsv_over),
+		cmocka_unit_test(test_tsv_fields),
 	};
 	return cmocka_run_group_tests_name("reader", tests, NULL, NULL);
 }

@@ -356,6 +356,58 @@ static void test_hidden(void **state)
 	labels_free(&ls);
 }
 
+/* Variants of labels whose words are all under PROPOSE_TYPO_MIN code
+ * points (the ranker tries those for spacing alone): occ:5's label koch
+ * hilfe is written kochhilfe and koch-hilfe (spacing variants), koch
+ * hilfen (a word under six letters: no variant); its label bote is
+ * written boote (no variant).  A typo of a wide word beside it still
+ * counts: fahrzeugpfleger / fahrzeugpfeger.  occ:6 holds the language's
+ * other postings. */
+static void test_hidden_narrow(void **state)
+{
+	(void)state;
+	labelset ls;
+	tally_mem m;
+	propose_bars b;
+	propose_list l;
+	const propose_sugg *s;
+
+	read_labels(&ls, "occupation\tkind\tlang\tlabel\n"
+			 "occ:5\tpref\tde\tKoch Hilfe\n"
+			 "occ:5\talt\tde\tBote\n"
+			 "occ:5\talt\tde\tFahrzeugpfleger\n");
+	tm_init(&m);
+	form_in(&m, "occ:5", "koch hilfe", 100);
+	form_in(&m, "occ:5", "kochhilfe", 30);
+	form_in(&m, "occ:5", "koch-hilfe", 20);
+	form_in(&m, "occ:5", "koch hilfen", 30);
+	form_in(&m, "occ:5", "bote", 100);
+	form_in(&m, "occ:5", "boote", 30);
+	form_in(&m, "occ:5", "fahrzeugpfleger", 100);
+	form_in(&m, "occ:5", "fahrzeugpfeger", 30);
+	form_in(&m, "occ:6", "maurer", 5000); /* the language's other postings */
+	propose_bars_default(&b);
+	assert_int_equal(propose_run(&m, &ls, &b, NULL, &l), 0);
+	s = find(&l, PROPOSE_HIDDEN, "occ:5", "kochhilfe");
+	assert_non_null(s);
+	assert_string_equal(s->variant, "spacing");
+	assert_memory_equal(lab_str(&ls, s->lb->text), "Koch Hilfe", 10);
+	s = find(&l, PROPOSE_HIDDEN, "occ:5", "koch-hilfe");
+	assert_non_null(s);
+	assert_string_equal(s->variant, "spacing");
+	s = find(&l, PROPOSE_HIDDEN, "occ:5", "fahrzeugpfeger");
+	assert_non_null(s);
+	assert_string_equal(s->variant, "typo");
+	assert_null(find(&l, PROPOSE_HIDDEN, "occ:5", "koch hilfen"));
+	assert_null(find(&l, PROPOSE_HIDDEN, "occ:5", "boote"));
+	/* not variants, so titles of their own */
+	assert_non_null(find(&l, PROPOSE_ALT, "occ:5", "koch hilfen"));
+	assert_non_null(find(&l, PROPOSE_ALT, "occ:5", "boote"));
+	propose_list_free(&l);
+	tm_free(&m);
+	labels_free(&ls);
+}
+
 /* The name of an occupation for curators: its preferred label in the
  * language asked for, else its first preferred label in file order. */
 static void test_pref(void **state)
@@ -518,6 +570,7 @@ int main(void)
 		cmocka_unit_test(test_coverage_stops),
 		cmocka_unit_test(test_propose),
 		cmocka_unit_test(test_hidden),
+		cmocka_unit_test(test_hidden_narrow),
 		cmocka_unit_test(test_pref),
 		cmocka_unit_test(test_variant),
 		cmocka_unit_test(test_as_written),
