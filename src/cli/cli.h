@@ -70,6 +70,30 @@ extern const char *const rank_ids_names[];
 int cli_rank_start(const opt_cmd *cmd, void *o, const rank_opts *ro, int argc, char **argv,
 		   rank_inputs *in, inputs_survey *sv, int *status);
 
+/* The two windows of time trend compares (trend and report). */
+typedef struct cli_windows {
+	opt_span before, after, as_of;
+} cli_windows;
+
+/* --before, --after and --as-of in the table of a command whose options
+ * struct holds its cli_windows as m. */
+#define CLI_SPEC_WINDOWS(type, m) \
+	{"before", OPT_SPAN, offsetof(type, m.before), "FROM..TO", NULL, 1, 0, \
+	 "the earlier window of the trend (any period forms: 2026-01..2026-02, 2025-Q4, " \
+	 "2026-W01..2026-W04); not given: the 3 periods before the later window", NULL, 0}, \
+	{"after", OPT_SPAN, offsetof(type, m.after), "FROM..TO", NULL, 1, 0, \
+	 "the later window; not given: the latest complete period (one that ended before " \
+	 "--as-of)", NULL, 0}, \
+	{"as-of", OPT_SPAN, offsetof(type, m.as_of), "DATE", NULL, 0, 0, \
+	 "the day the latest complete period ended before (not given: today, UTC)", NULL, 0}
+
+/* The windows of w over the periods of s into *b0..*b1 and *a0..*a1:
+ * those given, the rest by default (trend_default_windows).  0; or
+ * EXIT_RUNTIME after saying that the counts have no (complete) periods,
+ * or EXIT_USAGE that the windows overlap, as "titlemill CMD: ...". */
+int cli_windows_get(const char *cmd, const cli_windows *w, tally_series *s, long *b0,
+		    long *b1, long *a0, long *a1);
+
 /* Says on standard error what a window of periods left out of s (the
  * periods partly inside it), and, when no counts are left (any 0), that
  * it left out everything. */

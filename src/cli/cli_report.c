@@ -24,7 +24,7 @@ typedef struct report_cli {
 	uint64_t sections, min_postings, top, overlap_top, overlap_min;
 	uint64_t group_prefix;   /* UINT64_MAX: not asked for */
 	int stamp;
-	opt_span as_of, before, after;
+	cli_windows win;
 	propose_bars bar;
 } report_cli;
 
@@ -66,14 +66,7 @@ static const opt_spec report_specs[] = {
 	 "use this level of the groups TSV (default: the one with the most groups)", NULL, 0},
 	{"group-prefix", OPT_U64, offsetof(report_cli, group_prefix), "N", NULL, 1, 64,
 	 "group occupations by the first N characters of their code", NULL, 0},
-	{"before", OPT_SPAN, offsetof(report_cli, before), "FROM..TO", NULL, 1, 0,
-	 "with counts by period: the earlier window of the rising and fading titles (as "
-	 "titlemill trend)", NULL, 0},
-	{"after", OPT_SPAN, offsetof(report_cli, after), "FROM..TO", NULL, 1, 0,
-	 "the later window (as titlemill trend)", NULL, 0},
-	{"as-of", OPT_SPAN, offsetof(report_cli, as_of), "DATE", NULL, 0, 0,
-	 "without --after: the later window is the latest period that ended before DATE "
-	 "(not given: today, UTC), the earlier the three before it", NULL, 0},
+	CLI_SPEC_WINDOWS(report_cli, win),
 	{"stamp", OPT_FLAG, offsetof(report_cli, stamp), NULL, NULL, 0, 0,
 	 "write the time the page was made (without it the same inputs give the same bytes)",
 	 NULL, 0},
@@ -152,7 +145,6 @@ static int time_load(report_time *t, rank_inputs *in, const report_cli *o, repor
 	series_period **v;
 	long b0, b1, a0, a1;
 	const series_period *first = NULL, *last = NULL;
-	long today = o->as_of.given ? o->as_of.first : (long)(time(NULL) / 86400);
 
 	if (!series_dated(&in->s))
 		return 0;
@@ -177,21 +169,14 @@ static int time_load(report_time *t, rank_inputs *in, const report_cli *o, repor
 		snprintf(t->span, sizeof t->span, "%s", first->label);
 	if (!o->in.from.given && !o->in.to.given && first)
 		ro->window = t->span;
-	if (trend_default_windows(&in->s, today, o->before.given, o->after.given, &b0, &b1, &a0,
-				  &a1) != 0)
-		return 0; /* no complete period: no trend */
-	if (o->after.given) {
-		a0 = o->after.first;
-		a1 = o->after.last;
-	}
-	if (o->before.given) {
-		b0 = o->before.first;
-		b1 = o->before.last;
-	}
-	if (b1 >= a0) {
-		fputs("titlemill report: --before must end before --after starts\n", stderr);
-		return -2;
-	}
+	if (!o->win.before.given && !o->win.after.given &&
+	    trend_default_windows(&in->s, o->win.as_of.given ? o->win.as_of.first
+							       : (long)(time(NULL) / 86400),
+				  0, 0, &b0, &b1, &a0, &a1) != 0)
+		return 0; /* no complete period: no trend, and nothing to say */
+	int r = cli_windows_get("report", &o->win, &in->s, &b0, &b1, &a0, &a1);
+	if (r)
+		return r == EXIT_USAGE ? -2 : -3;
 	trend_bars_default(&t->bars);
 	if (series_sum(&in->s, b0, b1, &t->before) <= 0 || series_sum(&in->s, a0, a1, &t->after) <= 0)
 		return 0; /* nothing before the latest period: nothing to compare */

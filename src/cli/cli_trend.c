@@ -19,7 +19,7 @@
 typedef struct trend_opts {
 	rank_opts in;
 	int tsv;
-	opt_span before, after, as_of;
+	cli_windows win;
 	uint64_t top;      /* UINT64_MAX: all */
 	int direction;     /* 1 + the index in trend_direction_names, 0 both */
 	trend_bars bar;
@@ -33,15 +33,7 @@ static const char *const direction_names[] = {"rising", "falling", NULL};
 static const opt_spec trend_specs[] = {
 	OPT_SPEC_LABELS(trend_opts, in.setup.labels,
 			"the taxonomy's labels: TSV (occupation, kind, lang, label) or SKOS"),
-	{"before", OPT_SPAN, offsetof(trend_opts, before), "FROM..TO", NULL, 1, 0,
-	 "the earlier window (any period forms: 2026-01..2026-02, 2025-Q4, 2026-W01..2026-W04); "
-	 "not given: the " OPT_XSTR(TREND_BEFORE_PERIODS) " periods before the later window",
-	 NULL, 0},
-	{"after", OPT_SPAN, offsetof(trend_opts, after), "FROM..TO", NULL, 1, 0,
-	 "the later window; not given: the latest complete period (one that ended before "
-	 "--as-of)", NULL, 0},
-	{"as-of", OPT_SPAN, offsetof(trend_opts, as_of), "DATE", NULL, 0, 0,
-	 "the day the latest complete period ended before (not given: today, UTC)", NULL, 0},
+	CLI_SPEC_WINDOWS(trend_opts, win),
 	{"period", OPT_PERIOD, offsetof(trend_opts, in.period), "P", NULL, 0, 0,
 	 "count postings files by month (the default), week or day, or roll counts tables "
 	 "by day up to weeks or months; not given: the tables' periods as they are", NULL, 0},
@@ -168,35 +160,33 @@ static void write_row(trend_out *o, const trend_row *t)
 	rec_end(r);
 }
 
-/* Works out the two windows into *b0..*b1 and *a0..*a1.  0, or -1 after
- * saying why not. */
-static int windows(const trend_opts *o, tally_series *s, long *b0, long *b1, long *a0,
-		   long *a1)
+int cli_windows_get(const char *cmd, const cli_windows *w, tally_series *s, long *b0,
+		    long *b1, long *a0, long *a1)
 {
-	long today = o->as_of.given ? o->as_of.first : (long)(time(NULL) / 86400);
-	int r = trend_default_windows(s, today, o->before.given, o->after.given, b0, b1, a0, a1);
+	long today = w->as_of.given ? w->as_of.first : (long)(time(NULL) / 86400);
+	int r = trend_default_windows(s, today, w->before.given, w->after.given, b0, b1, a0, a1);
 	if (r == -1) {
-		fputs("titlemill trend: the counts have no periods (postings without dates, or a "
-		      "table tallied with --period none): give --before and --after, or tally "
-		      "dated postings\n", stderr);
-		return -1;
+		fprintf(stderr, "titlemill %s: the counts have no periods (postings without dates, "
+			"or a table tallied with --period none): give --before and --after, or "
+			"tally dated postings\n", cmd);
+		return EXIT_RUNTIME;
 	}
 	if (r == -2) {
-		fputs("titlemill trend: no period of the counts ended before --as-of (today "
-		      "when not given): give --after\n", stderr);
-		return -1;
+		fprintf(stderr, "titlemill %s: no period of the counts ended before --as-of (today "
+			"when not given): give --after\n", cmd);
+		return EXIT_RUNTIME;
 	}
-	if (o->after.given) {
-		*a0 = o->after.first;
-		*a1 = o->after.last;
+	if (w->after.given) {
+		*a0 = w->after.first;
+		*a1 = w->after.last;
 	}
-	if (o->before.given) {
-		*b0 = o->before.first;
-		*b1 = o->before.last;
+	if (w->before.given) {
+		*b0 = w->before.first;
+		*b1 = w->before.last;
 	}
 	if (*b1 >= *a0) {
-		fputs("titlemill trend: --before must end before --after starts\n", stderr);
-		return -1;
+		fprintf(stderr, "titlemill %s: --before must end before --after starts\n", cmd);
+		return EXIT_USAGE;
 	}
 	return 0;
 }
@@ -223,10 +213,8 @@ int cmd_trend(int argc, char **argv)
 		inputs_free(&in);
 		return rc;
 	}
-	if (windows(&o, &in.s, &b0, &b1, &a0, &a1) != 0) {
-		rc = o.after.given || o.before.given ? EXIT_USAGE : EXIT_RUNTIME;
+	if ((rc = cli_windows_get("trend", &o.win, &in.s, &b0, &b1, &a0, &a1)) != 0)
 		goto done;
-	}
 	trend_window_text(in.s.seen_kind, b0, b1, to.wb, sizeof to.wb);
 	trend_window_text(in.s.seen_kind, a0, a1, to.wa, sizeof to.wa);
 	nb = series_sum(&in.s, b0, b1, &before);
