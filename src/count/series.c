@@ -245,7 +245,8 @@ series_period **series_sorted(tally_series *s, size_t *n)
 	*n = 0;
 	if (!v)
 		return NULL;
-	memcpy(v, s->p, s->n * sizeof *v);
+	if (s->n)
+		memcpy(v, s->p, s->n * sizeof *v);
 	tm_qsort(v, s->n, sizeof *v, cmp_period);
 	*n = s->n;
 	return v;
