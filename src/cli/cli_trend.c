@@ -164,6 +164,16 @@ int cli_windows_get(const char *cmd, const cli_windows *w, tally_series *s, long
 		    long *b1, long *a0, long *a1)
 {
 	long today = w->as_of.given ? w->as_of.first : (long)(time(NULL) / 86400);
+	/* the given windows first: the earlier one by default is the
+	 * periods before the later one, given or not */
+	if (w->after.given) {
+		*a0 = w->after.first;
+		*a1 = w->after.last;
+	}
+	if (w->before.given) {
+		*b0 = w->before.first;
+		*b1 = w->before.last;
+	}
 	int r = trend_default_windows(s, today, w->before.given, w->after.given, b0, b1, a0, a1);
 	if (r == -1) {
 		fprintf(stderr, "titlemill %s: the counts have no periods (postings without dates, "
@@ -175,14 +185,6 @@ int cli_windows_get(const char *cmd, const cli_windows *w, tally_series *s, long
 		fprintf(stderr, "titlemill %s: no period of the counts ended before --as-of (today "
 			"when not given): give --after\n", cmd);
 		return EXIT_RUNTIME;
-	}
-	if (w->after.given) {
-		*a0 = w->after.first;
-		*a1 = w->after.last;
-	}
-	if (w->before.given) {
-		*b0 = w->before.first;
-		*b1 = w->before.last;
 	}
 	if (*b1 >= *a0) {
 		fprintf(stderr, "titlemill %s: --before must end before --after starts\n", cmd);

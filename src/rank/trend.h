@@ -107,7 +107,8 @@ void trend_list_free(trend_list *l);
  * period of s with counts that ended before day today (a complete one),
  * the earlier the TREND_BEFORE_PERIODS periods of its kind before it.
  * Only the missing ones are set: *a0..*a1 when !have_after, *b0..*b1
- * when !have_before.  Returns 0; -1 when s has no periods; -2 when no
+ * when !have_before; a given later window is read from *a0 (the earlier
+ * one is the periods before it).  Returns 0; -1 when s has no periods; -2 when no
  * period of s ended before today. */
 int trend_default_windows(tally_series *s, long today, int have_before, int have_after,
 			  long *b0, long *b1, long *a0, long *a1);

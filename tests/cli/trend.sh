@@ -212,6 +212,9 @@ $T trend --labels "$L" --as-of 2026-03-06 --tsv "$tmp/all.week" > "$tmp/trend.ts
 # (2026-W10 runs to 2026-03-08: not complete on the 6th)
 check trend-default-windows 1 "$(grep -c 'before 2026-W06..2026-W08 (3 periods), after 2026-W09 (1 period)' "$tmp/err")"
 check trend-tsv-examples "example_1	example_2	example_3" "$(head -1 "$tmp/trend.tsv" | cut -f23-)"
+# the later window given alone: the earlier is the three weeks before it
+$T trend --labels "$L" --after 2026-W08 "$tmp/all.week" > /dev/null 2> "$tmp/err"
+check trend-after-alone 1 "$(grep -c 'before 2026-W05..2026-W07 (3 periods), after 2026-W08 (1 period)' "$tmp/err")"
 $T trend --labels "$L" --direction falling --top 2 --before 2026-W02..2026-W05 \
 	--after 2026-W07..2026-W09 "$tmp/all.week" 2>/dev/null |
 	grep -c '"direction":"falling"' > "$tmp/n"
