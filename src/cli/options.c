@@ -191,11 +191,46 @@ static int take(const opt_cmd *cmd, const opt_spec *s, void *o, const char *arg)
 	return -1;
 }
 
+/* Says on standard error what was wrong with argument bad (the one
+ * getopt_long stopped at; letter: a short option's letter, else 0):
+ * an option the command does not have, an abbreviation of several, a
+ * value missing or given to a flag; then where the options are listed
+ * (the whole help is not repeated: it would bury the message). */
+static void misuse(const opt_cmd *cmd, const struct option *lo, const char *bad, int letter,
+		   int missing)
+{
+	char shortopt[3] = {'-', (char)letter, 0};
+	const char *arg = letter ? shortopt : bad ? bad : "?";
+	size_t nl = strcspn(arg, "=");
+	int matches = 0, exact = -1;
+
+	if (!letter && !strncmp(arg, "--", 2))
+		for (int k = 0; lo[k].name; k++)
+			if (!strncmp(lo[k].name, arg + 2, nl - 2)) {
+				matches++;
+				if (strlen(lo[k].name) == nl - 2)
+					exact = k;
+			}
+	fprintf(stderr, "titlemill %s: ", cmd->name);
+	if (missing)
+		fprintf(stderr, "%s needs a value", arg);
+	else if (exact >= 0 || (matches == 1 && arg[nl] == '='))
+		fprintf(stderr, "%.*s takes no value", (int)nl, arg);
+	else if (matches > 1) {
+		fprintf(stderr, "%.*s could be any of", (int)nl, arg);
+		for (int k = 0; lo[k].name; k++)
+			if (!strncmp(lo[k].name, arg + 2, nl - 2))
+				fprintf(stderr, " --%s", lo[k].name);
+	} else
+		fprintf(stderr, "unknown option '%s'", arg);
+	fprintf(stderr, " (the options: titlemill %s --help)\n", cmd->name);
+}
+
 int opt_parse(const opt_cmd *cmd, void *o, int argc, char **argv, int *first)
 {
 	struct option lo[MAX_SPECS + 2];
-	char letters[2 * MAX_SPECS + 2] = "h";
-	size_t nl = 1;
+	char letters[2 * MAX_SPECS + 3] = ":h";
+	size_t nl = 2;
 	int n = 0, ch, idx = 0;
 
 	msg_command(cmd->name);
@@ -221,10 +256,16 @@ int opt_parse(const opt_cmd *cmd, void *o, int argc, char **argv, int *first)
 	/* 0: glibc starts afresh, whatever an earlier parse left (the unit
 	 * tests parse many command lines in one process) */
 	optind = 0;
+	opterr = 0; /* misuse() says it, in our words */
 	while ((ch = getopt_long(argc, argv, letters, lo, &idx)) != -1) {
 		if (ch == 'h') {
 			opt_help(cmd, stdout);
 			return OPT_HELP_SHOWN;
+		}
+		if (ch == '?' || ch == ':') {
+			misuse(cmd, lo, optind > 0 && optind <= argc ? argv[optind - 1] : NULL,
+			       optopt > 0 && optopt < 0x100 ? optopt : 0, ch == ':');
+			return OPT_MISUSE;
 		}
 		if (ch > 0 && ch < 0x100 && ch != '?' && ch != ':')
 			for (int k = 0; k < n; k++)

@@ -134,7 +134,8 @@ enum { OPT_RUN, OPT_HELP_SHOWN, OPT_MISUSE };
  * Returns OPT_RUN with *first the index of the first operand;
  * OPT_HELP_SHOWN after --help / -h printed the help on standard output;
  * OPT_MISUSE after saying on standard error, as "titlemill CMD: --OPT:
- * ...", what is wrong (an unknown option: the help follows).  A command
+ * ...", what is wrong (an unknown or ambiguous option, a value missing
+ * or given to a flag: one line that points to --help).  A command
  * returns EXIT_OK, EXIT_USAGE for the last two. */
 int opt_parse(const opt_cmd *cmd, void *o, int argc, char **argv, int *first);
 

@@ -90,6 +90,8 @@ static int check_repeats(labelset *ls, const label *lb, const char *tag, const c
 	else {
 		const label *f = &ls->v[ls->lits.ent[idx].count - 1];
 		ls->repeats++;
+		if (ls->repeats > LABELS_WARN_MAX)
+			return 0;
 		if (warn && f->kind == lb->kind)
 			msg_warnf(warn, "%s: label '%s'@%s of %s repeats %s %ld\n", where, x,
 				tag, o, unit, f->line);
@@ -108,7 +110,7 @@ static int check_repeats(labelset *ls, const label *lb, const char *tag, const c
 	if (r == 0) {
 		const label *f = &ls->v[ls->preftag.ent[idx].count - 1];
 		ls->repeats++;
-		if (warn)
+		if (warn && ls->repeats <= LABELS_WARN_MAX)
 			msg_warnf(warn, "%s: a second preferred label '%s'@%s for %s (the first: "
 				"'%s', %s %ld; SKOS: one per language)\n", where, x, tag, o,
 				lab_str(ls, f->text), unit, f->line);
@@ -297,7 +299,7 @@ static int add_one(labelset *ls, normaliser *nm, label *lbp, const char *o, size
 		return fail_at(err, where, "out of memory");
 	if (!res.key_len) {
 		ls->empty++;
-		if (warn)
+		if (warn && ls->empty <= LABELS_WARN_MAX)
 			msg_warnf(warn, "%s: label '%.*s' normalises to nothing; left out\n",
 				where, (int)xn, x);
 		return 0;
@@ -346,7 +348,7 @@ static int add_one(labelset *ls, normaliser *nm, label *lbp, const char *o, size
 		const label *f = &ls->v[ls->keys.ent[idx].count - 1];
 		if (f->occlen != on || memcmp(lab_str(ls, f->occ), o, on)) {
 			ls->collisions++;
-			if (warn)
+			if (warn && ls->collisions <= LABELS_WARN_MAX)
 				msg_warnf(warn, "%s: label '%.*s' of %.*s has the key '%s' of "
 					"label '%s' of %s (%s %ld)\n",
 					where, (int)xn, x, (int)on, o, lab_str(ls, lb.key),
@@ -400,6 +402,23 @@ static int is_rdf(const char *path)
 	       (n > 7 && !strcmp(path + n - 7, ".turtle"));
 }
 
+/* Says, once per file, how many problems of each kind there were when
+ * more than LABELS_WARN_MAX were (only the first are named). */
+static void say_unnamed(const labelset *ls, const char *path, FILE *warn)
+{
+	static const char *const what[] = {
+		"normalise to nothing and are left out",
+		"have the key of another occupation's label",
+		"repeat an earlier label or are a second preferred label",
+	};
+	const long n[] = {ls->empty, ls->collisions, ls->repeats};
+
+	for (size_t i = 0; warn && i < sizeof n / sizeof n[0]; i++)
+		if (n[i] > LABELS_WARN_MAX)
+			msg_warnf(warn, "%s: %ld labels in all %s; only the first %d are named above\n",
+				  path, n[i], what[i], LABELS_WARN_MAX);
+}
+
 int labels_read(labelset *ls, const char *path, normaliser *nm, FILE *warn, tm_buf *err)
 {
 	return labels_read_mapped(ls, path, nm, NULL, warn, err);
@@ -443,6 +462,8 @@ int labels_read_mapped(labelset *ls, const char *path, normaliser *nm,
 			msg_warnf(warn, "%s:%ld: %ld label%s longer than %d bytes skipped; "
 				"the first on this line\n", path, sk.toolong_line, sk.toolong,
 				sk.toolong == 1 ? "" : "s", SKOS_MAX_LABEL);
+		if (rc == 0)
+			say_unnamed(ls, path, warn);
 		return rc;
 	}
 	if (tsv_open(&t, path) != 0) {
@@ -513,6 +534,8 @@ int labels_read_mapped(labelset *ls, const char *path, normaliser *nm,
 		buf_append(err, t.err.data, t.err.len);
 	}
 	tsv_close(&t);
+	if (r >= 0)
+		say_unnamed(ls, path, warn);
 	return r < 0 ? -1 : 0;
 }
 

@@ -35,6 +35,12 @@ typedef struct labelset {
 			 * preferred label in one language tag */
 } labelset;
 
+/* At most this many messages of each kind of problem below (a label
+ * that normalises to nothing, a key under two occupations, a repeat) are
+ * written per file; the rest are counted and said in one line, so that
+ * a large taxonomy's known overlaps do not bury the run's output. */
+#define LABELS_WARN_MAX 10
+
 /* Reads path into ls.  Problems that leave the labels usable (a label
  * that normalises to nothing, the same key under two occupations, a row
  * given twice, one literal as two kinds, two preferred labels in one

@@ -140,6 +140,32 @@ printf 'occupation\tkind\tlang\tlabel\nocc:1\tpref\ten\tCook\nocc:2\talt\ten\tCO
 $T coverage --labels "$tmp/warn" "$tmp/c.tsv" > /dev/null 2> "$tmp/err"; check warnings-status 0 $?
 grep -q "warn:3: label 'COOK' of occ:2 has the key 'cook' of label 'Cook' of occ:1 (line 2)" "$tmp/err"; check collision-msg 0 $?
 grep -q "warn:4: label '!!! – ?' normalises to nothing" "$tmp/err"; check empty-label-msg 0 $?
+# a taxonomy with many shared keys: the first LABELS_WARN_MAX (10) of
+# each kind are named, the rest counted in one line, and the labels
+# still count
+{ printf 'occupation\tkind\tlang\tlabel\n'
+  for i in $(seq 1 25); do printf 'occ:%d\tpref\ten\tCook\nocc:%d\talt\ten\t?!\n' "$i" "$i"; done
+} > "$tmp/many"
+$T coverage --labels "$tmp/many" "$tmp/c.tsv" > "$tmp/out" 2> "$tmp/err"; check many-warnings-status 0 $?
+test "$(grep -c "has the key 'cook' of label 'Cook' of occ:1" "$tmp/err")" = 10; check many-collisions-named 0 $?
+test "$(grep -c "normalises to nothing" "$tmp/err")" = 10; check many-empty-named 0 $?
+grep -q "many: 24 labels in all have the key of another occupation's label; only the first 10 are named above" "$tmp/err"
+check many-collisions-counted 0 $?
+grep -q "many: 25 labels in all normalise to nothing and are left out; only the first 10" "$tmp/err"
+check many-empty-counted 0 $?
+grep -q "warn:3: label 'COOK'" "$tmp/err"; check many-not-before 1 $?
+# misused options: one line each, status 2
+usage_msg() {
+	name=$1 want=$2; shift 2
+	$T coverage "$@" < /dev/null > /dev/null 2> "$tmp/err"; check "$name-status" 2 $?
+	test "$(cat "$tmp/err")" = "titlemill coverage: $want (the options: titlemill coverage --help)"
+	check "$name-msg" 0 $?
+}
+usage_msg unknown-opt "unknown option '--bogus'" --labels "$tmp/labels.tsv" --bogus "$tmp/c.tsv"
+usage_msg unknown-letter "unknown option '-x'" -x "$tmp/c.tsv"
+usage_msg flag-value "--json takes no value" --json=yes --labels "$tmp/labels.tsv" "$tmp/c.tsv"
+usage_msg no-value "--labels needs a value" "$tmp/c.tsv" --labels
+usage_msg ambiguous "--l could be any of --labels --lang --lexicons" --l x "$tmp/c.tsv"
 $T coverage "$tmp/c.tsv" > /dev/null 2>&1; check no-labels 2 $?
 $T coverage --labels "$tmp/labels.tsv" > /dev/null 2>&1; check no-input 2 $?
 finish
