@@ -309,6 +309,7 @@ static int norm_once(normaliser *nm, const char *src, size_t n, norm_result *res
 	    ((HAS(ti, LC_EMPLOYER) || HAS(ti, LC_BUSINESS)) && pass_employer(ti)) ||
 	    ((HAS(ti, LC_PLACE) || HAS(ti, LC_LOCATION)) && pass_location(ti)) ||
 	    (roles && pass_roles(ti)) ||
+	    (HAS(ti, LC_PLACE) && pass_trailing_place(ti)) ||
 	    (phrases && pass_phrases(ti)))
 		return -1;
 	return render(nm, res);

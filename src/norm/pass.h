@@ -77,6 +77,9 @@ int pass_phrases(tm_title *ti);   /* peels edge phrases to a fixpoint;
 				   * place and role rules: an edge seniority
 				   * word goes in the second run */
 int pass_roles(tm_title *ti);     /* the head segment; employers and places beside it */
+/* a place ending a segment right after an occupational phrase: "Koch
+ * Berlin" (after the roles; pass_place.c) */
+int pass_trailing_place(tm_title *ti);
 
 /* Shared by the rules (pass_place.c). */
 int all_caps_line(tm_title *ti);  /* most words of the line in capitals */

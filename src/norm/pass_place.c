@@ -3,8 +3,9 @@
  * A place name is removed only where it stands in a location slot: after
  * a location preposition or region word (in, à, Raum, région), before a
  * region word (area, und Umgebung), next to a postcode, or as the whole
- * of a bracket or of a later segment (" - Köln", ", Paris", "(Berlin)").
- * Place names that are also ordinary words (WHERE `strong`) need the
+ * of a bracket or of a later segment (" - Köln", ", Paris", "(Berlin)"),
+ * or, capitalised, at the end of a segment right after an occupational
+ * word ("Lagerhelfer Hamburg": pass_trailing_place).  Place names that are also ordinary words (WHERE `strong`) need the
  * first three.  A case form (WHERE `any`: Helsingissä, Tartus) is a
  * location wherever it stands; a place adjective (WHERE `adjective`:
  * Münchner) is one only before a region word (im Münchner Norden). */
@@ -483,6 +484,67 @@ static int case_forms(tm_title *ti)
 		if (take(ti, k, e))
 			return -1;
 		k = e - 1;
+	}
+	return 0;
+}
+
+/* Does an occupational phrase end right before unit k, within [k0, k),
+ * with nothing removed between: a word with an occupational ending
+ * ("Lagerhelfer"), a `head` of occupation/ or a protected phrase ending
+ * there, or a `field` ending there after such a head ("Sachbearbeiter
+ * Buchhaltung"; "Hotel" alone may be the employer's business). */
+static int occupation_before(tm_title *ti, size_t k0, size_t k)
+{
+	size_t len;
+
+	if (k == k0 || !ukept(ti, k - 1))
+		return 0;
+	if (ti->prot[ti->unit[k - 1]] || (U(ti, k - 1)->kind == TK_WORD && ti->uend[k - 1]))
+		return 1;
+	for (size_t i = k0; i < k; i++) {
+		if (!ukept(ti, i))
+			continue;
+		if (match_val(ti, i, LC_OCCUPATION, "head", 1, &len) && i + len == k)
+			return 1;
+		if (match_val(ti, i, LC_OCCUPATION, "field", 1, &len) && i + len == k &&
+		    (head_within(ti, k0, i) || (i > k0 && ti->uend[i - 1])))
+			return 1;
+	}
+	return 0;
+}
+
+/* Places that end a segment right after an occupational phrase, with
+ * only a space between (run after the segments' roles are decided, so
+ * that no rule reads the words before as a place's name): "Koch Berlin", "Sales Manager Germany", "Key
+ * Account Manager Benelux".  Only places whose place sense is the usual
+ * one (not `strong`: "Fahrer Essen" keeps Essen), written with a capital
+ * in a line not all in capitals (a village named like a word,
+ * "Îngrijitor bătrâni", stays), not glued to the word before
+ * ("Nadador-salvador"), and only after an occupational phrase, so that
+ * what stays names the occupation. */
+int pass_trailing_place(tm_title *ti)
+{
+	if (all_caps_line(ti))
+		return 0;
+	for (size_t s = 0; s < ti->nseg; s++) {
+		size_t k0, k1, len, e;
+		int strong;
+		const char *cc;
+		seg_kept(ti, s, &k0, &k1);
+		for (size_t k = k0 + 1; k < k1; k++) {
+			if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
+			    !(ti->ucats[k] & (1u << LC_PLACE)) ||
+			    !place_at(ti, k, &len, &strong, &cc))
+				continue;
+			if (strong || !(U(ti, k)->flags & TF_CAP) || acronym(ti, k, len, 0) ||
+			    glued(ti, k - 1, k, "") || (e = place_run(ti, k, len, 0)) != k1) {
+				k += len - 1;
+				continue;
+			}
+			if (units_free(ti, k, e) && occupation_before(ti, k0, k) && take(ti, k, e))
+				return -1;
+			break;
+		}
 	}
 	return 0;
 }
