@@ -71,9 +71,15 @@ static size_t pay_word_before(tm_title *ti, size_t k, int lead)
 	return head_within(ti, start, k) ? k : start;
 }
 
+static int clock_ranges_anywhere(tm_title *ti);
+
 int pass_pay(tm_title *ti)
 {
 	size_t k, len;
+
+	/* clock ranges first: "6.00-14.00" is no amount */
+	if (clock_ranges_anywhere(ti))
+		return -1;
 
 	for (k = 0; k < ti->nunit; k++) {
 		size_t j = k, e;
@@ -556,21 +562,96 @@ static int num_at(tm_title *ti, size_t k)
 	       U(ti, k)->kind == TK_NUM;
 }
 
-/* A time of day at unit k: 7, 08, 15.30, 15:30, 9h30.  Returns its end
- * (exclusive), or 0. */
+/* The English clock suffix written after a time at unit k, glued to it
+ * or not: "am", "pm", "a.m.", "p.m." (6am, 9 pm, 6 a.m.).  Its length in
+ * units, or 0.  (Code, not a lexicon entry: the word "am" is a German
+ * preposition, and the suffix means a clock time only right after a
+ * number.) */
+static size_t meridiem(tm_title *ti, size_t k)
+{
+	uint32_t n, n2;
+	const char *f, *f2;
+	if (k >= ti->nunit || !ukept(ti, k) || U(ti, k)->kind != TK_WORD)
+		return 0;
+	f = ufold(ti, k, &n);
+	if (n == 0 || (f[0] != 'a' && f[0] != 'p'))
+		return 0;
+	if (n == 2 && f[1] == 'm')
+		return 1;
+	if (n != 1 || k + 1 >= ti->nunit || !ukept(ti, k + 1) ||
+	    U(ti, k + 1)->kind != TK_WORD || !glued(ti, k, k + 1, "."))
+		return 0;
+	f2 = ufold(ti, k + 1, &n2);
+	return n2 == 1 && f2[0] == 'm' ? 2 : 0;
+}
+
+/* Does number token t hold the minutes of a time after a dot, "6.00",
+ * "14.30": one or two digits, a dot, two digits below 60? */
+static int dotted_minutes(const tm_title *ti, const tm_tok *t)
+{
+	const char *p = ti->text + t->off;
+	uint32_t d = 0;
+	while (d < t->len && p[d] >= '0' && p[d] <= '9')
+		d++;
+	return d >= 1 && d <= 2 && t->len == d + 3 && p[d] == '.' &&
+	       p[d + 1] >= '0' && p[d + 1] <= '5' && p[d + 2] >= '0' && p[d + 2] <= '9';
+}
+
+/* Is the fold of word unit k an "h" and two digits of minutes below 60,
+ * the tail of "9h30", "6h00"? */
+static int hour_minutes(tm_title *ti, size_t k)
+{
+	uint32_t n;
+	const char *f = ufold(ti, k, &n);
+	return n == 3 && f[0] == 'h' && f[1] >= '0' && f[1] <= '5' &&
+	       f[2] >= '0' && f[2] <= '9';
+}
+
+/* A time of day at unit k: 7, 08, 15.30, 15:30, 9h30, 6h, 6am, 9 p.m.
+ * Returns its end (exclusive), or 0.  *sure (when not NULL) is set to 1
+ * when the time can be nothing but a clock time: minutes written after
+ * ":" or "." or "h" (15:30, 6.00, 9h30) or an am/pm suffix (6am); to 2
+ * for a glued "h" alone (6h, also six hours); else to 0. */
+static size_t clock_time_(tm_title *ti, size_t k, int *sure)
+{
+	size_t len, m;
+	unsigned v;
+	int s = 0;
+	if (!num_at(ti, k) || ndigits(ti, U(ti, k)) > 4 ||
+	    (v = lead_value(ti, U(ti, k))) > 24)
+		return 0;
+	if (dotted_minutes(ti, U(ti, k)))
+		s = 1;
+	k++;
+	if (num_at(ti, k) && glued(ti, k - 1, k, ":") && U(ti, k)->len == 2) {
+		if (ti->unit[k] == ti->unit[k - 1] + 2 && lead_value(ti, U(ti, k)) < 60)
+			s = 1;
+		k++;
+	}
+	if (unit_val(ti, k, "hours", &len) && len == 1 && glued(ti, k - 1, k, "")) {
+		if (num_at(ti, k + 1) && glued(ti, k, k + 1, "") && U(ti, k + 1)->len == 2) {
+			k += 2; /* 9h30 */
+			s = 1;
+		} else if (U(ti, k)->flen == 1) {
+			k++; /* 6h */
+			s = s ? s : 2;
+		}
+	} else if (k < ti->nunit && ukept(ti, k) && U(ti, k)->kind == TK_WORD &&
+		   glued(ti, k - 1, k, "") && hour_minutes(ti, k)) {
+		k++; /* 6h00, 9h30 */
+		s = 1;
+	} else if (v >= 1 && v <= 12 && (m = meridiem(ti, k))) {
+		k += m;
+		s = 1;
+	}
+	if (sure)
+		*sure = s;
+	return k;
+}
+
 static size_t clock_time(tm_title *ti, size_t k)
 {
-	size_t len;
-	if (!num_at(ti, k) || ndigits(ti, U(ti, k)) > 4 ||
-	    lead_value(ti, U(ti, k)) > 24)
-		return 0;
-	k++;
-	if (num_at(ti, k) && glued(ti, k - 1, k, ":") && U(ti, k)->len == 2)
-		k++;
-	if (unit_val(ti, k, "hours", &len) && len == 1 && glued(ti, k - 1, k, "") &&
-	    num_at(ti, k + 1) && glued(ti, k, k + 1, "") && U(ti, k + 1)->len == 2)
-		k += 2; /* 9h30 */
-	return k;
+	return clock_time_(ti, k, NULL);
 }
 
 /* A clock range at k: 7–15, 9-5, 08.00–16.00 Uhr, 7 bis 15 h, its two
@@ -592,6 +673,63 @@ static size_t clock_range(tm_title *ti, size_t k, const char *dashes)
 	if (unit_val(ti, e, "hours", &len))
 		e += len;
 	return e;
+}
+
+/* A clock range that needs no shift or day word to be one, at unit k:
+ * two times of which one at least is a clock time by its writing
+ * ("6am-9am", "6-9am", "06:00-09:00", "22:00–06:00", "6.00-14.00 Uhr",
+ * "8:30 to 17:00"), or both with a glued "h" ("6h-14h"), or a glued
+ * range of two times followed by a time word ("7-15 Uhr", "4-12 h").  A
+ * dash with spaces around it ("6am - 9am") joins two times that are
+ * both clock times by their writing.  Numbers alone are not times:
+ * "Level 3-4", "NVQ 2-3", "C1-C2" stay.  Returns the range's end
+ * (exclusive), or 0. */
+static size_t plain_clock_range(tm_title *ti, size_t k)
+{
+	size_t e, r, len, t;
+	int s1, s2, spaced = 0;
+	/* money: £11-13/hr */
+	if (k > 0 && ukept(ti, k - 1) && is_currency(ti, k - 1, &len))
+		return 0;
+	if (!(e = clock_time_(ti, k, &s1)) || e >= ti->nunit)
+		return 0;
+	t = ti->unit[e - 1] + 1;
+	if (tok_is(ti, t, '.') && !ti->tl.t[t].sp)
+		t++; /* the dot ending "6 a.m." */
+	if (ti->unit[e] == t + 1 && tok_is(ti, t, '-')) {
+		r = e; /* 6-9am, 6am - 9am */
+		spaced = ti->tl.t[t].sp || U(ti, e)->sp;
+		if (spaced && s1 != 1)
+			return 0;
+	} else if (unit_val(ti, e, "connector", &len) && len == 1)
+		r = e + 1; /* 8:30 to 17:00 */
+	else
+		return 0;
+	if (!(e = clock_time_(ti, r, &s2)) || (spaced && s2 != 1))
+		return 0;
+	/* a time word after the pair goes with it, and makes clock times of
+	 * two plain numbers: 6.00-14.00 Uhr, 7-15 Uhr */
+	if (unit_val(ti, e, "hours", &len) && ti->unit[e] == ti->unit[e - 1] + 1)
+		return e + len;
+	return s1 == 1 || s2 == 1 || (s1 == 2 && s2 == 2) ? e : 0;
+}
+
+/* Removes the clock ranges of plain_clock_range wherever they stand in the
+ * title ("Cleaner 6am-9am", "Reinigungskraft (22:00–06:00) Wien"), unless
+ * nothing else would be left.  Returns 0, or -1 (memory). */
+static int clock_ranges_anywhere(tm_title *ti)
+{
+	for (size_t k = 0; k < ti->nunit; k++) {
+		size_t e;
+		if (!num_at(ti, k) || !(e = plain_clock_range(ti, k)))
+			continue;
+		if (!units_free(ti, k, e) || last_word(ti, k, e))
+			continue;
+		if (remove_units(ti, k, e, NF_HOURS, NULL))
+			return -1;
+		k = e - 1;
+	}
+	return 0;
 }
 
 /* Are units a and b (a < b) apart by nothing but spaces and list
