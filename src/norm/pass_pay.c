@@ -519,14 +519,18 @@ int pass_schedule(tm_title *ti)
 				e += l2;
 			else {
 				const tm_seg *g = &ti->segs[useg(ti, k)];
+				/* a range by both its ends: 24-32 uur */
+				int range = j > k + 1;
 				unsigned hv = lead_value(ti, U(ti, k));
+				unsigned hi = range ? lead_value(ti, U(ti, j - 1)) : hv;
 				e = j + len;
-				/* 35h, 32 uur, 38 Stunden are weekly hours
-				 * wherever they stand (not 24h, a kind of care);
-				 * a spaced "h" only in a slot */
+				/* 35h, 32 uur, 38 Stunden, 24-32 uur are weekly
+				 * hours wherever they stand (not 24h alone, a kind
+				 * of care); a spaced "h" only in a slot */
 				if (!g->bracket && g->index == 0 &&
 				    !((glued(ti, j - 1, j, "") || U(ti, j)->flen >= 3) &&
-				      hv >= 5 && hv <= 48 && hv != 24))
+				      hv >= 5 && hv <= 48 && hi >= hv && hi <= 48 &&
+				      (range || hv != 24)))
 					continue;
 			}
 		} else
