@@ -39,7 +39,10 @@ size_t noise_amount(tm_title *ti, size_t k, int *cur, int *unit)
 		*unit = 1;
 		k += len;
 	}
-	if (k < ti->nunit && ukept(ti, k) && is_currency(ti, k, &len)) {
+	/* a currency after the number, with nothing but a space between
+	 * ("£6.00-£8.00": the second "£" opens the range's other end) */
+	if (k < ti->nunit && ukept(ti, k) && ti->unit[k] == ti->unit[k - 1] + 1 &&
+	    is_currency(ti, k, &len)) {
 		*cur = 1;
 		k += len;
 	}
@@ -71,6 +74,36 @@ static size_t pay_word_before(tm_title *ti, size_t k, int lead)
 	return head_within(ti, start, k) ? k : start;
 }
 
+/* The pay remarks joined to an amount ending at unit e, in its segment:
+ * a word that adds one (units/ `with` or `connector`: "+", "plus",
+ * "zzgl.", "and", "with") and a pay phrase of pay/ (value `phrase`,
+ * wherever the lexicon lets it stand alone: "overtime", "Prämien",
+ * "tickets restaurant"), or a pay phrase opening with such a word ("+
+ * bonus"), one after another: "£18/hr + overtime + bonus", "2.500 €
+ * zzgl. Prämien".  A phrase naming an occupation stops them.  Returns
+ * the end of the last (exclusive), or e. */
+static size_t pay_remarks(tm_title *ti, size_t e)
+{
+	for (;;) {
+		size_t j = e, len, pl;
+		if (j >= ti->nunit || !ukept(ti, j) || useg(ti, j) != useg(ti, e - 1) ||
+		    !(match_val(ti, j, LC_UNIT, "with", 1, &len) ||
+		      match_val(ti, j, LC_UNIT, "connector", 1, &len)))
+			break;
+		if (match_val(ti, j, LC_PAY, "phrase", 1, &pl) && pl > len)
+			; /* "+ bonus" */
+		else if (j + len < ti->nunit && useg(ti, j + len) == useg(ti, j) &&
+			 match_val(ti, j + len, LC_PAY, "phrase", 1, &pl))
+			pl += len;
+		else
+			break;
+		if (head_within(ti, j, j + pl))
+			break;
+		e = j + pl;
+	}
+	return e;
+}
+
 static int clock_ranges_anywhere(tm_title *ti);
 
 int pass_pay(tm_title *ti)
@@ -90,6 +123,9 @@ int pass_pay(tm_title *ti)
 			j += len;
 		if (!(e = noise_amount(ti, j, &cur, &unit)))
 			continue;
+		/* a lead that ends in the currency: "up to £18/hr" */
+		for (size_t q = k; q < j && !cur; q++)
+			cur = is_currency(ti, q, &len);
 		/* a range: 3.200 - 4.000 €, 18 bis 22 €, 40/45k */
 		if (e < ti->nunit) {
 			size_t t = ti->unit[e - 1] + 1, r = e, e2;
@@ -133,6 +169,7 @@ int pass_pay(tm_title *ti)
 		}
 		if (!cur && !unit)
 			continue;
+		e = pay_remarks(ti, e);
 		/* a longer phrase wins: auf 520-Euro-Basis is a schedule */
 		{
 			size_t pl;
