@@ -49,6 +49,8 @@ static int dangling(tm_title *ti, size_t k)
 {
 	size_t len;
 	const lex_entry *e;
+	if (plus_glued(ti, k))
+		return 0; /* C+E */
 	if (match_val(ti, k, LC_UNIT, "connector", 1, &len) && len == 1)
 		return 1;
 	if (match_val(ti, k, LC_UNIT, "contact", 1, &len) && len == 1)

@@ -63,7 +63,7 @@ static size_t pay_word_before(tm_title *ti, size_t k, int lead)
 		if (!ukept(ti, b) || useg(ti, b) != useg(ti, k) ||
 		    U(ti, b)->kind != TK_WORD)
 			break;
-		if (match_cat(ti, b, LC_PAY, 1, &len) && b + len == k)
+		if (match_cat(ti, b, LC_PAY, 1, &len) && b + len == k && !plus_glued(ti, b))
 			start = b; /* the longest: "Sign-on Bonus £1,000" */
 	}
 	if (start == k && !lead)
@@ -119,7 +119,8 @@ int pass_pay(tm_title *ti)
 		int cur = 0, unit = 0;
 		if (!ukept(ti, k) || ti->prot[ti->unit[k]])
 			continue;
-		while (j < ti->nunit && match_val(ti, j, LC_PAY, "lead", 1, &len))
+		while (j < ti->nunit && match_val(ti, j, LC_PAY, "lead", 1, &len) &&
+		       !plus_glued(ti, j))
 			j += len;
 		if (!(e = noise_amount(ti, j, &cur, &unit)))
 			continue;
