@@ -724,9 +724,10 @@ static size_t clock_range(tm_title *ti, size_t k, const char *dashes)
  * range of two times followed by a time word ("7-15 Uhr", "4-12 h").  A
  * dash with spaces around it ("6am - 9am") joins two times that are
  * both clock times by their writing.  Numbers alone are not times:
- * "Level 3-4", "NVQ 2-3", "C1-C2" stay.  Returns the range's end
- * (exclusive), or 0. */
-static size_t plain_clock_range(tm_title *ti, size_t k)
+ * "Level 3-4", "NVQ 2-3", "C1-C2" stay, unless plain is set (a clock
+ * word stands before them: "kl. 6-9", "klo 6-9").  Returns the range's
+ * end (exclusive), or 0. */
+static size_t plain_clock_range(tm_title *ti, size_t k, int plain)
 {
 	size_t e, r, len, t;
 	int s1, s2, spaced = 0;
@@ -753,25 +754,7 @@ static size_t plain_clock_range(tm_title *ti, size_t k)
 	 * two plain numbers: 6.00-14.00 Uhr, 7-15 Uhr */
 	if (unit_val(ti, e, "hours", &len) && ti->unit[e] == ti->unit[e - 1] + 1)
 		return e + len;
-	return s1 == 1 || s2 == 1 || (s1 == 2 && s2 == 2) ? e : 0;
-}
-
-/* Removes the clock ranges of plain_clock_range wherever they stand in the
- * title ("Cleaner 6am-9am", "Reinigungskraft (22:00–06:00) Wien"), unless
- * nothing else would be left.  Returns 0, or -1 (memory). */
-static int clock_ranges_anywhere(tm_title *ti)
-{
-	for (size_t k = 0; k < ti->nunit; k++) {
-		size_t e;
-		if (!num_at(ti, k) || !(e = plain_clock_range(ti, k)))
-			continue;
-		if (!units_free(ti, k, e) || last_word(ti, k, e))
-			continue;
-		if (remove_units(ti, k, e, NF_HOURS, NULL))
-			return -1;
-		k = e - 1;
-	}
-	return 0;
+	return plain || s1 == 1 || s2 == 1 || (s1 == 2 && s2 == 2) ? e : 0;
 }
 
 /* Are units a and b (a < b) apart by nothing but spaces and list
@@ -822,6 +805,46 @@ static size_t shift_word_before(tm_title *ti, size_t e)
 				start = b;
 	}
 	return start;
+}
+
+/* Removes the clock ranges of plain_clock_range wherever they stand in the
+ * title ("Cleaner 6am-9am", "Reinigungskraft (22:00–06:00) Wien"), unless
+ * nothing else would be left.  Returns 0, or -1 (memory). */
+static int clock_ranges_anywhere(tm_title *ti)
+{
+	for (size_t k = 0; k < ti->nunit; k++) {
+		size_t e, b = k, len;
+		if (!num_at(ti, k))
+			continue;
+		/* a clock word before the range: "kl. 6-9", "klo 6-9" */
+		if (k > 0 && U(ti, k - 1)->kind == TK_WORD &&
+		    unit_val(ti, k - 1, "hours", &len) && len == 1 &&
+		    useg(ti, k - 1) == useg(ti, k))
+			b = k - 1;
+		if (!(e = plain_clock_range(ti, k, b < k)))
+			continue;
+		if (!units_free(ti, b, e) || last_word(ti, b, e))
+			continue;
+		/* the shift word that opens it, and the word that opens the
+		 * range: "turno de 18:00 a 00:00" */
+		size_t s = shift_word_before(ti, b), f0, f1;
+		if (s == b && b > 0 && ukept(ti, b - 1) && !ti->prot[ti->unit[b - 1]] &&
+		    (unit_val(ti, b - 1, "connector", &len) ||
+		     match_val(ti, b - 1, LC_PAY, "lead", 1, &len)) && len == 1 &&
+		    (s = shift_word_before(ti, b - 1)) == b - 1)
+			s = b;
+		seg_kept(ti, useg(ti, e - 1), &f0, &f1);
+		if (s < b && e != f1) {
+			seg_kept(ti, useg(ti, s), &f0, &f1);
+			if (s != f0)
+				s = b;
+		}
+		if ((s < b && remove_units(ti, s, b, NF_SCHEDULE, "shift")) ||
+		    remove_units(ti, b, e, NF_HOURS, NULL))
+			return -1;
+		k = e - 1;
+	}
+	return 0;
 }
 
 /* Shift times: clock ranges after a word that names shifts ("Schicht
