@@ -465,6 +465,26 @@ static size_t rotation(tm_title *ti, size_t k)
 	return e;
 }
 
+/* Does the number at unit k end a seniority or pay phrase that starts
+ * at most PAY_WORD_BACK units before it ("Level 3"), or follow a grade
+ * word ("Band 5", "Stufe 2")? */
+static int ends_grade_phrase(tm_title *ti, size_t k)
+{
+	size_t k0, k1;
+	seg_kept(ti, useg(ti, k), &k0, &k1);
+	if (k > k0 && ukept(ti, k - 1) && grade_word(ti, k - 1, k0) == 1)
+		return 1;
+	for (size_t b = k; b-- > 0 && k - b <= PAY_WORD_BACK;) {
+		size_t len;
+		if (!ukept(ti, b) || useg(ti, b) != useg(ti, k))
+			break;
+		if (match_mask(ti, b, 1u << LC_SENIORITY | 1u << LC_PAY, 1, &len) &&
+		    b + len == k + 1)
+			return 1;
+	}
+	return 0;
+}
+
 int pass_schedule(tm_title *ti)
 {
 	size_t k, len;
@@ -491,10 +511,13 @@ int pass_schedule(tm_title *ti)
 			continue;
 		}
 		j = k + 1;
-		/* range */
+		/* range; across a dash with spaces (a segment separator) not
+		 * from the number that ends a level or grade phrase: "Level 3
+		 * - 32.5 hrs/week" */
 		if (j + 1 < ti->nunit && U(ti, j)->kind == TK_NUM &&
 		    ti->unit[j] == ti->unit[k] + 2 &&
-		    tok_is(ti, ti->unit[k] + 1, '-'))
+		    tok_is(ti, ti->unit[k] + 1, '-') &&
+		    !((ti->tl.t[ti->unit[k] + 1].sp || U(ti, j)->sp) && ends_grade_phrase(ti, k)))
 			j++;
 		else if (j + 1 < ti->nunit &&
 			 (match_val(ti, j, LC_UNIT, "connector", 1, &len) ||
