@@ -775,8 +775,19 @@ static size_t plain_clock_range(tm_title *ti, size_t k, int plain)
 		return 0;
 	/* a time word after the pair goes with it, and makes clock times of
 	 * two plain numbers: 6.00-14.00 Uhr, 7-15 Uhr */
-	if (unit_val(ti, e, "hours", &len) && ti->unit[e] == ti->unit[e - 1] + 1)
+	if (unit_val(ti, e, "hours", &len) && ti->unit[e] == ti->unit[e - 1] + 1) {
+		/* hours a week are no clock times: "10-20 Std./Woche",
+		 * "6-12 Stunden/Woche", "4-8 hours per week" */
+		size_t l2;
+		const lex_entry *w = match_cat(ti, e, LC_UNIT, 1, &l2);
+		if (w && l2 > len)
+			return 0;
+		w = match_cat(ti, e + len, LC_UNIT, 1, &l2);
+		if (w && (!strcmp(w->value, "week") || !strcmp(w->value, "month") ||
+			  !strcmp(w->value, "day") || !strcmp(w->value, "connector")))
+			return 0;
 		return e + len;
+	}
 	return plain || s1 == 1 || s2 == 1 || (s1 == 2 && s2 == 2) ? e : 0;
 }
 
