@@ -389,12 +389,15 @@ int pass_reference(tm_title *ti)
 			if (j < ti->nunit && U(ti, j)->kind == TK_SYM &&
 			    U(ti, j)->ch == '#')
 				j++;
-			/* a number with a currency after it is an amount: "až
-			 * 25000 Kč" (Czech "up to"; German "Az" is a file number) */
-			size_t cl;
+			/* a number with a currency after it, nothing but a space
+			 * between, is an amount: "až 25000 Kč" (Czech "up to";
+			 * German "Az" is a file number); "Ref. 7615 - CHF 8'400"
+			 * is a code */
+			size_t cl, ce = code_at(ti, j) ? code_end(ti, j) : 0;
 			if (code_at(ti, j) &&
-			    !(U(ti, j)->kind == TK_NUM && code_end(ti, j) + 1 < ti->nunit &&
-			      is_currency(ti, code_end(ti, j) + 1, &cl))) {
+			    !(U(ti, j)->kind == TK_NUM && ce + 1 < ti->nunit &&
+			      ti->unit[ce + 1] == ti->unit[ce] + 1 &&
+			      is_currency(ti, ce + 1, &cl))) {
 				size_t e = code_end(ti, j);
 				if (remove_units(ti, k, e + 1, NF_REFERENCE, NULL))
 					return -1;

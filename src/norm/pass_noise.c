@@ -49,6 +49,8 @@ static int dangling(tm_title *ti, size_t k)
 {
 	size_t len;
 	const lex_entry *e;
+	if (plus_glued(ti, k))
+		return 0; /* C+E */
 	if (match_val(ti, k, LC_UNIT, "connector", 1, &len) && len == 1)
 		return 1;
 	if (match_val(ti, k, LC_UNIT, "contact", 1, &len) && len == 1)
@@ -145,6 +147,18 @@ static int lead_words(tm_title *ti, size_t k0, size_t k1)
 	return 1;
 }
 
+/* The end of a phrase ending at unit e: a phrase that ends in a number
+ * takes the other end of the range glued to it ("Level 3-4", "level
+ * 2/3"); else e. */
+static size_t range_end(tm_title *ti, size_t e)
+{
+	if (e > 0 && e < ti->nunit && U(ti, e - 1)->kind == TK_NUM &&
+	    U(ti, e)->kind == TK_NUM && ukept(ti, e) && !ti->prot[ti->unit[e]] &&
+	    ti->unit[e] == ti->unit[e - 1] + 2 && glued(ti, e - 1, e, "-/"))
+		return e + 1;
+	return e;
+}
+
 static int peel_segment(tm_title *ti, size_t s, int *changed)
 {
 	size_t k0, k1, k, len;
@@ -185,6 +199,7 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 			}
 			e = o;
 		}
+		len = range_end(ti, k + len) - k;
 		if ((e->where == LW_EDGE && k != a && k + len != b) ||
 		    (e->where == LW_ALONE && (k != a || k + len != b)) ||
 		    e->where == LW_SLOT || e->where == LW_STRONG)

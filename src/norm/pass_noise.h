@@ -64,6 +64,14 @@ static inline int last_word(tm_title *ti, size_t k0, size_t k1)
 	return 1;
 }
 
+/* Is unit k glued after a "+"?  A letter so written is a licence class
+ * ("C+E"), no grade word leading an amount nor a word left hanging. */
+static inline int plus_glued(const tm_title *ti, size_t k)
+{
+	return k > 0 && U(ti, k - 1)->kind == TK_SYM && U(ti, k - 1)->ch == '+' &&
+	       glued(ti, k - 1, k, "");
+}
+
 /* An amount: [currency] number [k] [currency] at unit k.  Returns its
  * end unit (exclusive) or 0; *cur and *unit say whether it had a
  * currency and a time unit (pass_pay.c). */

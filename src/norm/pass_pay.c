@@ -39,7 +39,10 @@ size_t noise_amount(tm_title *ti, size_t k, int *cur, int *unit)
 		*unit = 1;
 		k += len;
 	}
-	if (k < ti->nunit && ukept(ti, k) && is_currency(ti, k, &len)) {
+	/* a currency after the number, with nothing but a space between
+	 * ("£6.00-£8.00": the second "£" opens the range's other end) */
+	if (k < ti->nunit && ukept(ti, k) && ti->unit[k] == ti->unit[k - 1] + 1 &&
+	    is_currency(ti, k, &len)) {
 		*cur = 1;
 		k += len;
 	}
@@ -60,7 +63,7 @@ static size_t pay_word_before(tm_title *ti, size_t k, int lead)
 		if (!ukept(ti, b) || useg(ti, b) != useg(ti, k) ||
 		    U(ti, b)->kind != TK_WORD)
 			break;
-		if (match_cat(ti, b, LC_PAY, 1, &len) && b + len == k)
+		if (match_cat(ti, b, LC_PAY, 1, &len) && b + len == k && !plus_glued(ti, b))
 			start = b; /* the longest: "Sign-on Bonus £1,000" */
 	}
 	if (start == k && !lead)
@@ -71,19 +74,59 @@ static size_t pay_word_before(tm_title *ti, size_t k, int lead)
 	return head_within(ti, start, k) ? k : start;
 }
 
+/* The pay remarks joined to an amount ending at unit e, in its segment:
+ * a word that adds one (units/ `with` or `connector`: "+", "plus",
+ * "zzgl.", "and", "with") and a pay phrase of pay/ (value `phrase`,
+ * wherever the lexicon lets it stand alone: "overtime", "Prämien",
+ * "tickets restaurant"), or a pay phrase opening with such a word ("+
+ * bonus"), one after another: "£18/hr + overtime + bonus", "2.500 €
+ * zzgl. Prämien".  A phrase naming an occupation stops them.  Returns
+ * the end of the last (exclusive), or e. */
+static size_t pay_remarks(tm_title *ti, size_t e)
+{
+	for (;;) {
+		size_t j = e, len, pl;
+		if (j >= ti->nunit || !ukept(ti, j) || useg(ti, j) != useg(ti, e - 1) ||
+		    !(match_val(ti, j, LC_UNIT, "with", 1, &len) ||
+		      match_val(ti, j, LC_UNIT, "connector", 1, &len)))
+			break;
+		if (match_val(ti, j, LC_PAY, "phrase", 1, &pl) && pl > len)
+			; /* "+ bonus" */
+		else if (j + len < ti->nunit && useg(ti, j + len) == useg(ti, j) &&
+			 match_val(ti, j + len, LC_PAY, "phrase", 1, &pl))
+			pl += len;
+		else
+			break;
+		if (head_within(ti, j, j + pl))
+			break;
+		e = j + pl;
+	}
+	return e;
+}
+
+static int clock_ranges_anywhere(tm_title *ti);
+
 int pass_pay(tm_title *ti)
 {
 	size_t k, len;
+
+	/* clock ranges first: "6.00-14.00" is no amount */
+	if (clock_ranges_anywhere(ti))
+		return -1;
 
 	for (k = 0; k < ti->nunit; k++) {
 		size_t j = k, e;
 		int cur = 0, unit = 0;
 		if (!ukept(ti, k) || ti->prot[ti->unit[k]])
 			continue;
-		while (j < ti->nunit && match_val(ti, j, LC_PAY, "lead", 1, &len))
+		while (j < ti->nunit && match_val(ti, j, LC_PAY, "lead", 1, &len) &&
+		       !plus_glued(ti, j))
 			j += len;
 		if (!(e = noise_amount(ti, j, &cur, &unit)))
 			continue;
+		/* a lead that ends in the currency: "up to £18/hr" */
+		for (size_t q = k; q < j && !cur; q++)
+			cur = is_currency(ti, q, &len);
 		/* a range: 3.200 - 4.000 €, 18 bis 22 €, 40/45k */
 		if (e < ti->nunit) {
 			size_t t = ti->unit[e - 1] + 1, r = e, e2;
@@ -127,6 +170,7 @@ int pass_pay(tm_title *ti)
 		}
 		if (!cur && !unit)
 			continue;
+		e = pay_remarks(ti, e);
 		/* a longer phrase wins: auf 520-Euro-Basis is a schedule */
 		{
 			size_t pl;
@@ -421,6 +465,26 @@ static size_t rotation(tm_title *ti, size_t k)
 	return e;
 }
 
+/* Does the number at unit k end a seniority or pay phrase that starts
+ * at most PAY_WORD_BACK units before it ("Level 3"), or follow a grade
+ * word ("Band 5", "Stufe 2")? */
+static int ends_grade_phrase(tm_title *ti, size_t k)
+{
+	size_t k0, k1;
+	seg_kept(ti, useg(ti, k), &k0, &k1);
+	if (k > k0 && ukept(ti, k - 1) && grade_word(ti, k - 1, k0) == 1)
+		return 1;
+	for (size_t b = k; b-- > 0 && k - b <= PAY_WORD_BACK;) {
+		size_t len;
+		if (!ukept(ti, b) || useg(ti, b) != useg(ti, k))
+			break;
+		if (match_mask(ti, b, 1u << LC_SENIORITY | 1u << LC_PAY, 1, &len) &&
+		    b + len == k + 1)
+			return 1;
+	}
+	return 0;
+}
+
 int pass_schedule(tm_title *ti)
 {
 	size_t k, len;
@@ -447,10 +511,13 @@ int pass_schedule(tm_title *ti)
 			continue;
 		}
 		j = k + 1;
-		/* range */
+		/* range; across a dash with spaces (a segment separator) not
+		 * from the number that ends a level or grade phrase: "Level 3
+		 * - 32.5 hrs/week" */
 		if (j + 1 < ti->nunit && U(ti, j)->kind == TK_NUM &&
 		    ti->unit[j] == ti->unit[k] + 2 &&
-		    tok_is(ti, ti->unit[k] + 1, '-'))
+		    tok_is(ti, ti->unit[k] + 1, '-') &&
+		    !((ti->tl.t[ti->unit[k] + 1].sp || U(ti, j)->sp) && ends_grade_phrase(ti, k)))
 			j++;
 		else if (j + 1 < ti->nunit &&
 			 (match_val(ti, j, LC_UNIT, "connector", 1, &len) ||
@@ -513,14 +580,18 @@ int pass_schedule(tm_title *ti)
 				e += l2;
 			else {
 				const tm_seg *g = &ti->segs[useg(ti, k)];
+				/* a range by both its ends: 24-32 uur */
+				int range = j > k + 1;
 				unsigned hv = lead_value(ti, U(ti, k));
+				unsigned hi = range ? lead_value(ti, U(ti, j - 1)) : hv;
 				e = j + len;
-				/* 35h, 32 uur, 38 Stunden are weekly hours
-				 * wherever they stand (not 24h, a kind of care);
-				 * a spaced "h" only in a slot */
+				/* 35h, 32 uur, 38 Stunden, 24-32 uur are weekly
+				 * hours wherever they stand (not 24h alone, a kind
+				 * of care); a spaced "h" only in a slot */
 				if (!g->bracket && g->index == 0 &&
 				    !((glued(ti, j - 1, j, "") || U(ti, j)->flen >= 3) &&
-				      hv >= 5 && hv <= 48 && hv != 24))
+				      hv >= 5 && hv <= 48 && hi >= hv && hi <= 48 &&
+				      (range || hv != 24)))
 					continue;
 			}
 		} else
@@ -556,21 +627,96 @@ static int num_at(tm_title *ti, size_t k)
 	       U(ti, k)->kind == TK_NUM;
 }
 
-/* A time of day at unit k: 7, 08, 15.30, 15:30, 9h30.  Returns its end
- * (exclusive), or 0. */
+/* The English clock suffix written after a time at unit k, glued to it
+ * or not: "am", "pm", "a.m.", "p.m." (6am, 9 pm, 6 a.m.).  Its length in
+ * units, or 0.  (Code, not a lexicon entry: the word "am" is a German
+ * preposition, and the suffix means a clock time only right after a
+ * number.) */
+static size_t meridiem(tm_title *ti, size_t k)
+{
+	uint32_t n, n2;
+	const char *f, *f2;
+	if (k >= ti->nunit || !ukept(ti, k) || U(ti, k)->kind != TK_WORD)
+		return 0;
+	f = ufold(ti, k, &n);
+	if (n == 0 || (f[0] != 'a' && f[0] != 'p'))
+		return 0;
+	if (n == 2 && f[1] == 'm')
+		return 1;
+	if (n != 1 || k + 1 >= ti->nunit || !ukept(ti, k + 1) ||
+	    U(ti, k + 1)->kind != TK_WORD || !glued(ti, k, k + 1, "."))
+		return 0;
+	f2 = ufold(ti, k + 1, &n2);
+	return n2 == 1 && f2[0] == 'm' ? 2 : 0;
+}
+
+/* Does number token t hold the minutes of a time after a dot, "6.00",
+ * "14.30": one or two digits, a dot, two digits below 60? */
+static int dotted_minutes(const tm_title *ti, const tm_tok *t)
+{
+	const char *p = ti->text + t->off;
+	uint32_t d = 0;
+	while (d < t->len && p[d] >= '0' && p[d] <= '9')
+		d++;
+	return d >= 1 && d <= 2 && t->len == d + 3 && p[d] == '.' &&
+	       p[d + 1] >= '0' && p[d + 1] <= '5' && p[d + 2] >= '0' && p[d + 2] <= '9';
+}
+
+/* Is the fold of word unit k an "h" and two digits of minutes below 60,
+ * the tail of "9h30", "6h00"? */
+static int hour_minutes(tm_title *ti, size_t k)
+{
+	uint32_t n;
+	const char *f = ufold(ti, k, &n);
+	return n == 3 && f[0] == 'h' && f[1] >= '0' && f[1] <= '5' &&
+	       f[2] >= '0' && f[2] <= '9';
+}
+
+/* A time of day at unit k: 7, 08, 15.30, 15:30, 9h30, 6h, 6am, 9 p.m.
+ * Returns its end (exclusive), or 0.  *sure (when not NULL) is set to 1
+ * when the time can be nothing but a clock time: minutes written after
+ * ":" or "." or "h" (15:30, 6.00, 9h30) or an am/pm suffix (6am); to 2
+ * for a glued "h" alone (6h, also six hours); else to 0. */
+static size_t clock_time_(tm_title *ti, size_t k, int *sure)
+{
+	size_t len, m;
+	unsigned v;
+	int s = 0;
+	if (!num_at(ti, k) || ndigits(ti, U(ti, k)) > 4 ||
+	    (v = lead_value(ti, U(ti, k))) > 24)
+		return 0;
+	if (dotted_minutes(ti, U(ti, k)))
+		s = 1;
+	k++;
+	if (num_at(ti, k) && glued(ti, k - 1, k, ":") && U(ti, k)->len == 2) {
+		if (ti->unit[k] == ti->unit[k - 1] + 2 && lead_value(ti, U(ti, k)) < 60)
+			s = 1;
+		k++;
+	}
+	if (unit_val(ti, k, "hours", &len) && len == 1 && glued(ti, k - 1, k, "")) {
+		if (num_at(ti, k + 1) && glued(ti, k, k + 1, "") && U(ti, k + 1)->len == 2) {
+			k += 2; /* 9h30 */
+			s = 1;
+		} else if (U(ti, k)->flen == 1) {
+			k++; /* 6h */
+			s = s ? s : 2;
+		}
+	} else if (k < ti->nunit && ukept(ti, k) && U(ti, k)->kind == TK_WORD &&
+		   glued(ti, k - 1, k, "") && hour_minutes(ti, k)) {
+		k++; /* 6h00, 9h30 */
+		s = 1;
+	} else if (v >= 1 && v <= 12 && (m = meridiem(ti, k))) {
+		k += m;
+		s = 1;
+	}
+	if (sure)
+		*sure = s;
+	return k;
+}
+
 static size_t clock_time(tm_title *ti, size_t k)
 {
-	size_t len;
-	if (!num_at(ti, k) || ndigits(ti, U(ti, k)) > 4 ||
-	    lead_value(ti, U(ti, k)) > 24)
-		return 0;
-	k++;
-	if (num_at(ti, k) && glued(ti, k - 1, k, ":") && U(ti, k)->len == 2)
-		k++;
-	if (unit_val(ti, k, "hours", &len) && len == 1 && glued(ti, k - 1, k, "") &&
-	    num_at(ti, k + 1) && glued(ti, k, k + 1, "") && U(ti, k + 1)->len == 2)
-		k += 2; /* 9h30 */
-	return k;
+	return clock_time_(ti, k, NULL);
 }
 
 /* A clock range at k: 7–15, 9-5, 08.00–16.00 Uhr, 7 bis 15 h, its two
@@ -592,6 +738,57 @@ static size_t clock_range(tm_title *ti, size_t k, const char *dashes)
 	if (unit_val(ti, e, "hours", &len))
 		e += len;
 	return e;
+}
+
+/* A clock range that needs no shift or day word to be one, at unit k:
+ * two times of which one at least is a clock time by its writing
+ * ("6am-9am", "6-9am", "06:00-09:00", "22:00–06:00", "6.00-14.00 Uhr",
+ * "8:30 to 17:00"), or both with a glued "h" ("6h-14h"), or a glued
+ * range of two times followed by a time word ("7-15 Uhr", "4-12 h").  A
+ * dash with spaces around it ("6am - 9am") joins two times that are
+ * both clock times by their writing.  Numbers alone are not times:
+ * "Level 3-4", "NVQ 2-3", "C1-C2" stay, unless plain is set (a clock
+ * word stands before them: "kl. 6-9", "klo 6-9").  Returns the range's
+ * end (exclusive), or 0. */
+static size_t plain_clock_range(tm_title *ti, size_t k, int plain)
+{
+	size_t e, r, len, t;
+	int s1, s2, spaced = 0;
+	/* money: £11-13/hr */
+	if (k > 0 && ukept(ti, k - 1) && is_currency(ti, k - 1, &len))
+		return 0;
+	if (!(e = clock_time_(ti, k, &s1)) || e >= ti->nunit)
+		return 0;
+	t = ti->unit[e - 1] + 1;
+	if (tok_is(ti, t, '.') && !ti->tl.t[t].sp)
+		t++; /* the dot ending "6 a.m." */
+	if (ti->unit[e] == t + 1 && tok_is(ti, t, '-')) {
+		r = e; /* 6-9am, 6am - 9am */
+		spaced = ti->tl.t[t].sp || U(ti, e)->sp;
+		if (spaced && s1 != 1)
+			return 0;
+	} else if (unit_val(ti, e, "connector", &len) && len == 1)
+		r = e + 1; /* 8:30 to 17:00 */
+	else
+		return 0;
+	if (!(e = clock_time_(ti, r, &s2)) || (spaced && s2 != 1))
+		return 0;
+	/* a time word after the pair goes with it, and makes clock times of
+	 * two plain numbers: 6.00-14.00 Uhr, 7-15 Uhr */
+	if (unit_val(ti, e, "hours", &len) && ti->unit[e] == ti->unit[e - 1] + 1) {
+		/* hours a week are no clock times: "10-20 Std./Woche",
+		 * "6-12 Stunden/Woche", "4-8 hours per week" */
+		size_t l2;
+		const lex_entry *w = match_cat(ti, e, LC_UNIT, 1, &l2);
+		if (w && l2 > len)
+			return 0;
+		w = match_cat(ti, e + len, LC_UNIT, 1, &l2);
+		if (w && (!strcmp(w->value, "week") || !strcmp(w->value, "month") ||
+			  !strcmp(w->value, "day") || !strcmp(w->value, "connector")))
+			return 0;
+		return e + len;
+	}
+	return plain || s1 == 1 || s2 == 1 || (s1 == 2 && s2 == 2) ? e : 0;
 }
 
 /* Are units a and b (a < b) apart by nothing but spaces and list
@@ -642,6 +839,46 @@ static size_t shift_word_before(tm_title *ti, size_t e)
 				start = b;
 	}
 	return start;
+}
+
+/* Removes the clock ranges of plain_clock_range wherever they stand in the
+ * title ("Cleaner 6am-9am", "Reinigungskraft (22:00–06:00) Wien"), unless
+ * nothing else would be left.  Returns 0, or -1 (memory). */
+static int clock_ranges_anywhere(tm_title *ti)
+{
+	for (size_t k = 0; k < ti->nunit; k++) {
+		size_t e, b = k, len;
+		if (!num_at(ti, k))
+			continue;
+		/* a clock word before the range: "kl. 6-9", "klo 6-9" */
+		if (k > 0 && U(ti, k - 1)->kind == TK_WORD &&
+		    unit_val(ti, k - 1, "hours", &len) && len == 1 &&
+		    useg(ti, k - 1) == useg(ti, k))
+			b = k - 1;
+		if (!(e = plain_clock_range(ti, k, b < k)))
+			continue;
+		if (!units_free(ti, b, e) || last_word(ti, b, e))
+			continue;
+		/* the shift word that opens it, and the word that opens the
+		 * range: "turno de 18:00 a 00:00" */
+		size_t s = shift_word_before(ti, b), f0, f1;
+		if (s == b && b > 0 && ukept(ti, b - 1) && !ti->prot[ti->unit[b - 1]] &&
+		    (unit_val(ti, b - 1, "connector", &len) ||
+		     match_val(ti, b - 1, LC_PAY, "lead", 1, &len)) && len == 1 &&
+		    (s = shift_word_before(ti, b - 1)) == b - 1)
+			s = b;
+		seg_kept(ti, useg(ti, e - 1), &f0, &f1);
+		if (s < b && e != f1) {
+			seg_kept(ti, useg(ti, s), &f0, &f1);
+			if (s != f0)
+				s = b;
+		}
+		if ((s < b && remove_units(ti, s, b, NF_SCHEDULE, "shift")) ||
+		    remove_units(ti, b, e, NF_HOURS, NULL))
+			return -1;
+		k = e - 1;
+	}
+	return 0;
 }
 
 /* Shift times: clock ranges after a word that names shifts ("Schicht
