@@ -22,27 +22,15 @@ static inline uint64_t slot_of(uint64_t h, size_t i)
 	return fp(h) | (uint32_t)(i + 1);
 }
 
-/* The home slot of a fingerprint: Fibonacci hashing (the top bits of its
- * product with 2^32 / phi) spreads the low-entropy bits of similar keys
- * (ids that share their prefix) over the whole table.  The home comes
- * from the slot's own fingerprint, and in a table twice the size slot j's
- * home is 2j or 2j + 1: growing reads the old slots in order, never an
- * entry, and writes the new ones nearly in order. */
-static inline size_t home_fp(uint64_t slot_fp, size_t nslot)
-{
-	uint32_t f = (uint32_t)(slot_fp >> 32) * 0x9E3779B9u;
-	return (size_t)(f >> (32 - __builtin_ctzll((unsigned long long)nslot)));
-}
-
 static inline size_t home(uint64_t h, size_t nslot)
 {
-	return home_fp(fp(h), nslot);
+	return st_home_fp(fp(h), nslot);
 }
 
 static int grow_slots(strtab *t)
 {
 	size_t ns = t->nslot ? t->nslot * 2 : 1024;
-	if (t->nslot > ((size_t)1 << 31) || ns < t->nslot) /* home_fp's 32 bits; size_t */
+	if (t->nslot > ((size_t)1 << 31) || ns < t->nslot) /* st_home_fp's 32 bits; size_t */
 		return -1;
 	uint64_t *s = calloc(ns, sizeof *s);
 	if (!s)
@@ -52,7 +40,7 @@ static int grow_slots(strtab *t)
 		uint64_t e = t->slot[i];
 		if (!e)
 			continue;
-		size_t j = home_fp(SLOT_FP(e), ns);
+		size_t j = st_home_fp(SLOT_FP(e), ns);
 		while (s[j])
 			j = (j + 1) & (ns - 1);
 		s[j] = e;

@@ -178,14 +178,48 @@ int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
 	return add_example(m, &k, text, tl, tok_hash(text, tl));
 }
 
+/* The keys occupation i of a posting counts under: (occupation,
+ * language), the triple, and the triple's form. */
+static void posting_keys(const tally_posting *p, size_t i, size_t ll, uint64_t hl, uint64_t hk,
+			 uint64_t ht, st_fields *ok, st_fields *tk, st_fields *fk)
+{
+	fk_init(ok);
+	fk_push(ok, p->occ[i], p->occlen[i], fh(p->occ[i], p->occlen[i]));
+	fk_push(ok, p->lang, ll, hl);
+	*tk = *ok;
+	fk_push(tk, p->key, p->keylen, hk);
+	*fk = *tk;
+	fk_push(fk, p->title, p->titlelen, ht);
+}
+
 int tm_add(tally_mem *m, const tally_posting *p)
 {
 	size_t ll = strlen(p->lang);
-	uint64_t hl, hk, ht, hx;
-	st_fields lk;
+	uint64_t hl, hk, ht, hx, hid = 0;
+	st_fields lk, ok, tk, fk;
 
+	/* every key hashed first and the home slots of the id and of the
+	 * first occupation's keys asked for at once: their cache misses
+	 * overlap instead of following each other */
 	if (p->id) {
-		int r = ids_add(&m->ids, p->id, p->idlen);
+		hid = ids_hash(p->id, p->idlen);
+		ids_prefetch(&m->ids, hid);
+	}
+	hl = fh(p->lang, ll);
+	hk = fh(p->key, p->keylen);
+	ht = fh(p->title, p->titlelen);
+	fk_init(&lk);
+	fk_push(&lk, p->lang, ll, hl);
+	fk_push(&lk, p->key, p->keylen, hk);
+	st_prefetch(&m->keys, lk.h);
+	if (p->nocc) {
+		posting_keys(p, 0, ll, hl, hk, ht, &ok, &tk, &fk);
+		st_prefetch(&m->forms, fk.h);
+		if (p->examplelen)
+			st_prefetch(&m->exkeys, tk.h);
+	}
+	if (p->id) {
+		int r = ids_add_h(&m->ids, p->id, p->idlen, hid);
 		if (r < 0)
 			return -1;
 		if (r == 0) {
@@ -194,28 +228,17 @@ int tm_add(tally_mem *m, const tally_posting *p)
 		}
 	}
 	m->postings++;
-	hl = fh(p->lang, ll);
-	hk = fh(p->key, p->keylen);
-	ht = fh(p->title, p->titlelen);
 	hx = p->examplelen ? tok_hash(p->example, p->examplelen) : 0;
-	fk_init(&lk);
-	fk_push(&lk, p->lang, ll, hl);
-	fk_push(&lk, p->key, p->keylen, hk);
 	if (add_count(&m->keys, &m->added[1], &lk, 1))
 		return -1;
 	for (size_t i = 0; i < p->nocc; i++) {
-		st_fields ok, tk;
-		fk_init(&ok);
-		fk_push(&ok, p->occ[i], p->occlen[i], fh(p->occ[i], p->occlen[i]));
-		fk_push(&ok, p->lang, ll, hl);
+		if (i)
+			posting_keys(p, i, ll, hl, hk, ht, &ok, &tk, &fk);
 		if (add_count(&m->occs, &m->added[2], &ok, 1))
 			return -1;
-		tk = ok;
-		fk_push(&tk, p->key, p->keylen, hk);
 		if (p->examplelen && add_example(m, &tk, p->example, p->examplelen, hx))
 			return -1;
-		fk_push(&tk, p->title, p->titlelen, ht);
-		if (add_count(&m->forms, &m->added[0], &tk, 1))
+		if (add_count(&m->forms, &m->added[0], &fk, 1))
 			return -1;
 	}
 	return 0;
