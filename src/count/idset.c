@@ -31,28 +31,29 @@ int ids_has(const idset *t, const char *s, size_t n)
 
 	if (!t->nslot)
 		return 0;
-	for (j = (size_t)h & mask; t->slot[j]; j = (j + 1) & mask)
+	for (j = ids_home(fp, t->nslot); t->slot[j]; j = (j + 1) & mask)
 		if ((t->slot[j] & ~0xFFFFFFFFull) == fp && same(t, t->slot[j], s, n))
 			return 1;
 	return 0;
 }
 
-/* Doubles the slots and files every member again. */
+/* Doubles the slots and files every slot again from its fingerprint. */
 static int grow(idset *t)
 {
 	size_t ns = t->nslot ? t->nslot * 2 : IDS_FIRST_SLOTS, mask = ns - 1;
 	uint64_t *s;
 
-	if (ns > SIZE_MAX / sizeof *s || !(s = calloc(ns, sizeof *s)))
-		return TM_ENOMEM;
-	for (size_t i = 0; i < t->n; i++) {
-		size_t len;
-		const char *m = ids_member(t, i, &len);
-		uint64_t h = ids_hash(m, len);
-		size_t j = (size_t)h & mask;
+	if (ns > ((size_t)1 << 32) || ns > SIZE_MAX / sizeof *s || !(s = calloc(ns, sizeof *s)))
+		return TM_ENOMEM; /* ids_home's 32 bits */
+	tm_hugepages(s, ns * sizeof *s); /* each lookup a random slot: one TLB entry per 2 MiB */
+	for (size_t i = 0; i < t->nslot; i++) {
+		uint64_t e = t->slot[i];
+		if (!e)
+			continue;
+		size_t j = ids_home(e, ns);
 		while (s[j])
 			j = (j + 1) & mask;
-		s[j] = (h >> 32 << 32) | (uint64_t)(i + 1);
+		s[j] = e;
 	}
 	free(t->slot);
 	t->slot = s;
@@ -63,11 +64,12 @@ static int grow(idset *t)
 int ids_add_h(idset *t, const char *s, size_t n, uint64_t h)
 {
 	uint64_t fp = h >> 32 << 32;
-	size_t j;
+	size_t j = 0, ns = t->nslot;
 
+	/* one probe: the member's slot, or the empty slot that ends its run */
 	if (t->nslot) {
 		size_t mask = t->nslot - 1;
-		for (j = (size_t)h & mask; t->slot[j]; j = (j + 1) & mask)
+		for (j = ids_home(fp, t->nslot); t->slot[j]; j = (j + 1) & mask)
 			if ((t->slot[j] & ~0xFFFFFFFFull) == fp && same(t, t->slot[j], s, n))
 				return 0;
 	}
@@ -86,8 +88,9 @@ int ids_add_h(idset *t, const char *s, size_t n, uint64_t h)
 	if (buf_append(&t->arena, s, n) != 0)
 		return TM_ENOMEM;
 	t->start[t->n + 1] = t->arena.len;
-	for (j = (size_t)h & (t->nslot - 1); t->slot[j]; j = (j + 1) & (t->nslot - 1))
-		;
+	if (ns != t->nslot) /* grown: the probe's end is another slot now */
+		for (j = ids_home(fp, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1))
+			;
 	t->slot[j] = fp | (uint64_t)(t->n + 1);
 	t->n++;
 	return 1;

@@ -22,27 +22,15 @@ static inline uint64_t slot_of(uint64_t h, size_t i)
 	return fp(h) | (uint32_t)(i + 1);
 }
 
-/* The home slot of a fingerprint: Fibonacci hashing (the top bits of its
- * product with 2^32 / phi) spreads the low-entropy bits of similar keys
- * (ids that share their prefix) over the whole table.  The home comes
- * from the slot's own fingerprint, and in a table twice the size slot j's
- * home is 2j or 2j + 1: growing reads the old slots in order, never an
- * entry, and writes the new ones nearly in order. */
-static inline size_t home_fp(uint64_t slot_fp, size_t nslot)
-{
-	uint32_t f = (uint32_t)(slot_fp >> 32) * 0x9E3779B9u;
-	return (size_t)(f >> (32 - __builtin_ctzll((unsigned long long)nslot)));
-}
-
 static inline size_t home(uint64_t h, size_t nslot)
 {
-	return home_fp(fp(h), nslot);
+	return st_home_fp(fp(h), nslot);
 }
 
 static int grow_slots(strtab *t)
 {
 	size_t ns = t->nslot ? t->nslot * 2 : 1024;
-	if (t->nslot > ((size_t)1 << 31) || ns < t->nslot) /* home_fp's 32 bits; size_t */
+	if (t->nslot > ((size_t)1 << 31) || ns < t->nslot) /* st_home_fp's 32 bits; size_t */
 		return -1;
 	uint64_t *s = calloc(ns, sizeof *s);
 	if (!s)
@@ -52,7 +40,7 @@ static int grow_slots(strtab *t)
 		uint64_t e = t->slot[i];
 		if (!e)
 			continue;
-		size_t j = home_fp(SLOT_FP(e), ns);
+		size_t j = st_home_fp(SLOT_FP(e), ns);
 		while (s[j])
 			j = (j + 1) & (ns - 1);
 		s[j] = e;
@@ -138,8 +126,10 @@ static int room(strtab *t, size_t n)
 }
 
 /* Files a new key of n bytes under h, its bytes the arena's last (room
- * made first).  Returns 1. */
-static int insert(strtab *t, uint64_t h, size_t n, uint64_t by, size_t *idx)
+ * made first), in slot empty when it is not -1 (the empty slot that ended
+ * a probe for it in the slots as they are), else in the first empty slot
+ * from its home.  Returns 1. */
+static int insert(strtab *t, uint64_t h, size_t n, uint64_t by, size_t *idx, long empty)
 {
 	size_t j;
 	st_entry *e = &t->ent[t->n];
@@ -147,8 +137,11 @@ static int insert(strtab *t, uint64_t h, size_t n, uint64_t by, size_t *idx)
 	e->count = by;
 	e->off = (uint32_t)(t->arena.len - n);
 	e->len = (uint32_t)n;
-	for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1))
-		;
+	if (empty >= 0)
+		j = (size_t)empty; /* the probe's end, the slots unchanged since */
+	else
+		for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1))
+			;
 	t->slot[j] = slot_of(h, t->n);
 	if (idx)
 		*idx = t->n;
@@ -158,15 +151,24 @@ static int insert(strtab *t, uint64_t h, size_t n, uint64_t by, size_t *idx)
 
 int st_add_fields(strtab *t, const st_fields *k, uint64_t by, size_t *idx)
 {
-	size_t n = fields_len(k);
-	long i = st_find_fields(t, k);
+	size_t n = fields_len(k), j = 0;
 
-	if (i >= 0) {
-		t->ent[i].count += by;
-		if (idx)
-			*idx = (size_t)i;
-		return 0;
+	/* one probe: the key's slot, or the empty slot that ends its run */
+	if (t->nslot) {
+		for (j = home(k->h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+			if (SLOT_FP(t->slot[j]) != fp(k->h))
+				continue;
+			size_t i = (uint32_t)t->slot[j] - 1;
+			st_entry *e = &t->ent[i];
+			if (e->hash == k->h && e->len == n && same_fields(t, e, k)) {
+				e->count += by;
+				if (idx)
+					*idx = i;
+				return 0;
+			}
+		}
 	}
+	size_t ns = t->nslot;
 	if (room(t, n) != 0 || buf_reserve(&t->arena, n + 1) != 0)
 		return -1;
 	for (int f = 0; f < k->k; f++) {
@@ -174,13 +176,13 @@ int st_add_fields(strtab *t, const st_fields *k, uint64_t by, size_t *idx)
 			buf_putc(&t->arena, k->sep);
 		buf_append(&t->arena, k->f[f], k->n[f]);
 	}
-	return insert(t, k->h, n, by, idx);
+	return insert(t, k->h, n, by, idx, ns == t->nslot ? (long)j : -1);
 }
 
 int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 {
 	uint64_t h = tok_hash(key, n);
-	size_t j;
+	size_t j = 0, ns = t->nslot;
 
 	if (t->nslot) {
 		for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
@@ -198,7 +200,7 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 	}
 	if (room(t, n) != 0 || buf_append(&t->arena, key, n) != 0)
 		return -1;
-	return insert(t, h, n, by, idx);
+	return insert(t, h, n, by, idx, ns == t->nslot ? (long)j : -1);
 }
 
 void st_free(strtab *t)

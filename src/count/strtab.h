@@ -58,6 +58,27 @@ typedef struct st_fields {
 int st_add_fields(strtab *t, const st_fields *key, uint64_t by, size_t *idx);
 long st_find_fields(const strtab *t, const st_fields *key);
 
+/* The home slot of a fingerprint (a slot's upper half, the hash's low
+ * 32 bits shifted up): Fibonacci hashing (the top bits of its product
+ * with 2^32 / phi) spreads the low-entropy bits of similar keys over the
+ * whole table.  In a table twice the size slot j's home is 2j or 2j + 1:
+ * growing reads the old slots in order, never an entry, and writes the
+ * new ones nearly in order. */
+static inline size_t st_home_fp(uint64_t slot_fp, size_t nslot)
+{
+	uint32_t f = (uint32_t)(slot_fp >> 32) * 0x9E3779B9u;
+	return (size_t)(f >> (32 - __builtin_ctzll((unsigned long long)nslot)));
+}
+
+/* Asks the processor for the home slot of a key filed under h (as
+ * st_fields.h), so that a caller with several keys to look up has their
+ * cache misses overlap.  Changes nothing. */
+static inline void st_prefetch(const strtab *t, uint64_t h)
+{
+	if (t->nslot)
+		__builtin_prefetch(&t->slot[st_home_fp((uint64_t)(uint32_t)h << 32, t->nslot)]);
+}
+
 static inline const char *st_key(const strtab *t, size_t i, size_t *n)
 {
 	*n = t->ent[i].len;

@@ -178,14 +178,48 @@ int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
 	return add_example(m, &k, text, tl, tok_hash(text, tl));
 }
 
+/* The keys occupation i of a posting counts under: (occupation,
+ * language), the triple, and the triple's form. */
+static void posting_keys(const tally_posting *p, size_t i, size_t ll, uint64_t hl, uint64_t hk,
+			 uint64_t ht, st_fields *ok, st_fields *tk, st_fields *fk)
+{
+	fk_init(ok);
+	fk_push(ok, p->occ[i], p->occlen[i], fh(p->occ[i], p->occlen[i]));
+	fk_push(ok, p->lang, ll, hl);
+	*tk = *ok;
+	fk_push(tk, p->key, p->keylen, hk);
+	*fk = *tk;
+	fk_push(fk, p->title, p->titlelen, ht);
+}
+
 int tm_add(tally_mem *m, const tally_posting *p)
 {
 	size_t ll = strlen(p->lang);
-	uint64_t hl, hk, ht, hx;
-	st_fields lk;
+	uint64_t hl, hk, ht, hx, hid = 0;
+	st_fields lk, ok, tk, fk;
 
+	/* every key hashed first and the home slots of the id and of the
+	 * first occupation's keys asked for at once: their cache misses
+	 * overlap instead of following each other */
 	if (p->id) {
-		int r = ids_add(&m->ids, p->id, p->idlen);
+		hid = ids_hash(p->id, p->idlen);
+		ids_prefetch(&m->ids, hid);
+	}
+	hl = fh(p->lang, ll);
+	hk = fh(p->key, p->keylen);
+	ht = fh(p->title, p->titlelen);
+	fk_init(&lk);
+	fk_push(&lk, p->lang, ll, hl);
+	fk_push(&lk, p->key, p->keylen, hk);
+	st_prefetch(&m->keys, lk.h);
+	if (p->nocc) {
+		posting_keys(p, 0, ll, hl, hk, ht, &ok, &tk, &fk);
+		st_prefetch(&m->forms, fk.h);
+		if (p->examplelen)
+			st_prefetch(&m->exkeys, tk.h);
+	}
+	if (p->id) {
+		int r = ids_add_h(&m->ids, p->id, p->idlen, hid);
 		if (r < 0)
 			return -1;
 		if (r == 0) {
@@ -194,28 +228,17 @@ int tm_add(tally_mem *m, const tally_posting *p)
 		}
 	}
 	m->postings++;
-	hl = fh(p->lang, ll);
-	hk = fh(p->key, p->keylen);
-	ht = fh(p->title, p->titlelen);
 	hx = p->examplelen ? tok_hash(p->example, p->examplelen) : 0;
-	fk_init(&lk);
-	fk_push(&lk, p->lang, ll, hl);
-	fk_push(&lk, p->key, p->keylen, hk);
 	if (add_count(&m->keys, &m->added[1], &lk, 1))
 		return -1;
 	for (size_t i = 0; i < p->nocc; i++) {
-		st_fields ok, tk;
-		fk_init(&ok);
-		fk_push(&ok, p->occ[i], p->occlen[i], fh(p->occ[i], p->occlen[i]));
-		fk_push(&ok, p->lang, ll, hl);
+		if (i)
+			posting_keys(p, i, ll, hl, hk, ht, &ok, &tk, &fk);
 		if (add_count(&m->occs, &m->added[2], &ok, 1))
 			return -1;
-		tk = ok;
-		fk_push(&tk, p->key, p->keylen, hk);
 		if (p->examplelen && add_example(m, &tk, p->example, p->examplelen, hx))
 			return -1;
-		fk_push(&tk, p->title, p->titlelen, ht);
-		if (add_count(&m->forms, &m->added[0], &tk, 1))
+		if (add_count(&m->forms, &m->added[0], &fk, 1))
 			return -1;
 	}
 	return 0;
@@ -225,81 +248,107 @@ int tm_add(tally_mem *m, const tally_posting *p)
 
 typedef struct srt {
 	const char *s;
-	size_t n;
-	size_t i;
+	uint32_t n; /* keys are shorter than 2^32 bytes (strtab.c) */
+	uint32_t i;
 } srt;
+
+static int cmp_bytes(const char *a, size_t an, const char *b, size_t bn)
+{
+	int c = memcmp(a, b, an < bn ? an : bn);
+	if (c)
+		return c;
+	return an < bn ? -1 : an > bn;
+}
 
 static int cmp_srt(const void *a, const void *b)
 {
 	const srt *x = a, *y = b;
-	size_t n = x->n < y->n ? x->n : y->n;
-	int c = memcmp(x->s, y->s, n);
-	if (c)
-		return c;
-	return x->n < y->n ? -1 : x->n > y->n;
+	return cmp_bytes(x->s, x->n, y->s, y->n);
 }
 
 static size_t prefix(const char *s, size_t n, int f);
 
-/* t's keys in byte order.  One bucket per distinct first field (fields
- * hold no control, so SEP sorts before any of their bytes: the buckets in
- * the order of their first fields, then each sorted on its own, are the
+static srt srt_of(const strtab *t, size_t i)
+{
+	size_t n;
+	const char *s = st_key(t, i, &n);
+	return (srt){s, (uint32_t)n, (uint32_t)i};
+}
+
+/* t's keys in byte order.  Keys already in that order (a table read from
+ * a counts table as tally writes them) are found so in one pass and not
+ * sorted.  Else one bucket per distinct first field (fields hold no
+ * control, so SEP sorts before any of their bytes: the buckets in the
+ * order of their first fields, then each sorted on its own, are the
  * order of one sort of all); a bucket's strings (an occupation's forms)
  * then fit in cache while they are sorted.  NULL when memory ran out. */
 static srt *sorted(const strtab *t)
 {
-	size_t n = t->n, ng = 0, g;
-	srt *v = malloc((n ? n : 1) * sizeof *v), *w = NULL, *fv = NULL;
-	uint32_t *grp = malloc((n ? n : 1) * sizeof *grp);
+	size_t n = t->n, ng, g, pl = 0;
+	srt *w = malloc((n ? n : 1) * sizeof *w), *fv = NULL;
+	uint32_t *grp = NULL;
 	size_t *at = NULL;
 	strtab first = {0};
-	int ok = v && grp;
-	for (size_t i = 0; i < n && ok; i++) {
-		v[i].s = st_key(t, i, &v[i].n);
-		v[i].i = i;
-		ok = st_add(&first, v[i].s, prefix(v[i].s, v[i].n, 1), 0, &g) >= 0;
+	const char *ps = NULL;
+	int ok = w != NULL;
+
+	size_t i = 1;
+	while (ok && i < n) {
+		size_t an, bn;
+		const char *a = st_key(t, i - 1, &an), *b = st_key(t, i, &bn);
+		if (cmp_bytes(a, an, b, bn) > 0)
+			break;
+		i++;
+	}
+	if (ok && i >= n) {
+		for (i = 0; i < n; i++)
+			w[i] = srt_of(t, i);
+		return w;
+	}
+	grp = ok ? malloc(n * sizeof *grp) : NULL;
+	ok = grp != NULL;
+	for (i = 0; i < n && ok; i++) {
+		size_t kn, fl;
+		const char *k = st_key(t, i, &kn);
+		fl = prefix(k, kn, 1);
+		if (!ps || fl != pl || memcmp(k, ps, fl)) /* a run of one first field: once */
+			ok = st_add(&first, k, fl, 0, &g) >= 0;
 		grp[i] = (uint32_t)g;
+		ps = t->arena.data + t->ent[i].off;
+		pl = fl;
 	}
 	ng = first.n;
-	if (ok && ng > 1) {
-		fv = malloc(ng * sizeof *fv);
+	if (ok) {
+		fv = malloc((ng ? ng : 1) * sizeof *fv);
 		at = calloc(ng + 1, sizeof *at);
-		w = malloc(n * sizeof *w);
-		ok = fv && at && w;
+		ok = fv && at;
 	}
-	if (ok && ng > 1) {
-		for (g = 0; g < ng; g++) {
-			fv[g].s = st_key(&first, g, &fv[g].n);
-			fv[g].i = g;
-		}
+	if (ok) {
+		for (g = 0; g < ng; g++)
+			fv[g] = srt_of(&first, g);
 		tm_qsort(fv, ng, sizeof *fv, cmp_srt);
 		for (g = 0; g < ng; g++)
 			first.ent[fv[g].i].count = g; /* each first field's rank */
-		for (size_t i = 0; i < n; i++)
+		for (i = 0; i < n; i++)
 			at[first.ent[grp[i]].count + 1]++;
 		for (g = 0; g < ng; g++)
 			at[g + 1] += at[g];
-		for (size_t i = 0; i < n; i++)
-			w[at[first.ent[grp[i]].count]++] = v[i];
+		for (i = 0; i < n; i++)
+			w[at[first.ent[grp[i]].count]++] = srt_of(t, i);
 		for (g = 0; g < ng; g++) { /* at[g]: the end of bucket g now */
 			size_t b = g ? at[g - 1] : 0;
 			tm_qsort(w + b, at[g] - b, sizeof *w, cmp_srt);
 		}
-		free(v);
-		v = w;
-		w = NULL;
-	} else if (ok)
-		tm_qsort(v, n, sizeof *v, cmp_srt);
-	if (!ok) {
-		free(v);
-		v = NULL;
 	}
-	free(w);
+	if (!ok) {
+		free(w);
+		w = NULL;
+	}
 	free(fv);
 	free(at);
 	free(grp);
 	st_free(&first);
-	return v;
+	return w;
 }
 
 /* Length of the first f fields of a joined key. */
@@ -325,6 +374,33 @@ static void field(const char *s, size_t n, int k, const char **f, size_t *fl)
 		}
 	*f = "";
 	*fl = 0;
+}
+
+/* The forms of one triple: the run of form[j, n) (in byte order) that
+ * starts with the triple of form[j], whose first three fields are tp
+ * bytes long: a form is of it when it holds those bytes and a SEP after
+ * them.  Returns the run's end; *sum receives its postings, *best the
+ * first of its most frequent forms. */
+static size_t triple_run(const tally_mem *m, const srt *form, size_t j, size_t n, size_t tp,
+			 size_t *best, uint64_t *sum)
+{
+	const char *t = form[j].s;
+	uint64_t top = m->forms.ent[form[j].i].count;
+	size_t end = j + 1;
+	*best = j;
+	*sum = top;
+	for (; end < n; end++) {
+		const srt *f = &form[end];
+		if (f->n <= tp || f->s[tp] != SEP || memcmp(f->s, t, tp))
+			break;
+		uint64_t c = m->forms.ent[f->i].count;
+		*sum += c;
+		if (c > top) { /* ties: the first in byte order */
+			top = c;
+			*best = end;
+		}
+	}
+	return end;
 }
 
 /* kind, occupation, lang, key, text, postings */
@@ -402,16 +478,9 @@ int tm_write_rows(tally_mem *m, FILE *out, const char *period, size_t pn)
 		size_t oln = fp;
 		while (jf < m->forms.n && prefix(form[jf].s, form[jf].n, 2) == oln &&
 		       !memcmp(form[jf].s, ol, oln)) {
-			size_t tp = prefix(form[jf].s, form[jf].n, 3), end = jf, best = jf;
-			uint64_t sum = 0;
-			while (end < m->forms.n && prefix(form[end].s, form[end].n, 3) == tp &&
-			       !memcmp(form[end].s, form[jf].s, tp)) {
-				uint64_t c2 = m->forms.ent[form[end].i].count;
-				sum += c2;
-				if (c2 > m->forms.ent[form[best].i].count)
-					best = end; /* ties: the first in byte order */
-				end++;
-			}
+			size_t tp = prefix(form[jf].s, form[jf].n, 3), best;
+			uint64_t sum;
+			size_t end = triple_run(m, form, jf, m->forms.n, tp, &best, &sum);
 			const char *t;
 			size_t tl;
 			field(form[best].s, form[best].n, 3, &t, &tl);
@@ -655,22 +724,19 @@ int tm_each_triple(tally_mem *m, int (*fn)(void *ctx, const tm_triple *t), void 
 	if (!form)
 		return -1;
 	while (jf < m->forms.n && rc == 0) {
-		size_t tp = prefix(form[jf].s, form[jf].n, 3), end = jf, best = jf;
-		uint64_t sum = 0;
+		const char *s = form[jf].s;
+		size_t tp = prefix(s, form[jf].n, 3), p1 = prefix(s, tp, 1), p2 = prefix(s, tp, 2),
+		       best;
 		tm_triple t;
-		while (end < m->forms.n && prefix(form[end].s, form[end].n, 3) == tp &&
-		       !memcmp(form[end].s, form[jf].s, tp)) {
-			uint64_t c = m->forms.ent[form[end].i].count;
-			sum += c;
-			if (c > m->forms.ent[form[best].i].count)
-				best = end;
-			end++;
-		}
-		field(form[jf].s, tp, 0, &t.occ, &t.ol);
-		field(form[jf].s, tp, 1, &t.lang, &t.ll);
-		field(form[jf].s, tp, 2, &t.key, &t.kl);
-		field(form[best].s, form[best].n, 3, &t.title, &t.tl);
-		t.postings = sum;
+		size_t end = triple_run(m, form, jf, m->forms.n, tp, &best, &t.postings);
+		t.occ = s;
+		t.ol = p1;
+		t.lang = s + p1 + 1;
+		t.ll = p2 - p1 - 1;
+		t.key = s + p2 + 1;
+		t.kl = tp - p2 - 1;
+		t.title = form[best].s + tp + 1; /* the fourth and last field */
+		t.tl = form[best].n - tp - 1;
 		rc = fn(ctx, &t);
 		jf = end;
 	}
