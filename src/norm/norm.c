@@ -538,6 +538,10 @@ int norm_memo(normaliser *nm, size_t bytes)
 		memo_free(nm);
 		return -1;
 	}
+	/* a title's record and slot are anywhere in them: 2 MiB pages spare
+	 * a page-table walk per title */
+	tm_hugepages(nm->ring, bytes);
+	tm_hugepages(nm->slot, slots * sizeof *nm->slot);
 	nm->ring_cap = bytes;
 	nm->nslot = slots;
 	return 0;
