@@ -342,15 +342,24 @@ int pass_phrases(tm_title *ti)
 			if (k0 < k1 && channel(ti, k0, k1) < 0)
 				return -1;
 		}
+	/* nothing removed since the last call's rounds found nothing, and
+	 * its numbers rule nothing either: the rounds would read the same
+	 * title again, and only an edge seniority word is read otherwise
+	 * in a later call: without one, they would find nothing */
+	if (ti->peeled == ti->gen && ti->settled && !HAS(ti, LC_SENIORITY))
+		return 0;
 	while (changed && rounds++ < 64) {
 		changed = 0;
 		for (size_t s = 0; s < ti->nseg; s++)
 			if (peel_segment(ti, s, &changed))
 				return -1;
 	}
+	uint64_t before = ti->gen;
 	if (lone_numbers(ti))
 		return -1;
-	if (!changed)
+	if (!changed) {
 		ti->peeled = ti->gen;
+		ti->settled = before == ti->gen;
+	}
 	return 0;
 }
