@@ -150,6 +150,10 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 	size_t k0, k1, k, len;
 
 	seg_kept(ti, s, &k0, &k1);
+	/* every rule below reads the segment's kept units, and units are
+	 * only ever removed: a segment with none ("(m/w/d)") has nothing */
+	if (k0 == k1)
+		return 0;
 	size_t a = k0, b = k1;
 	/* a line with no phrase of these lexicons has none to peel */
 	for (k = ti->lcats & phrase_mask ? k0 : k1; k < k1; k++) {
