@@ -103,8 +103,17 @@ static int letters_only(tm_title *ti, size_t k, size_t lo, size_t hi)
 	return (t->flags & TF_ALLCAPS) || t->len == 1;
 }
 
-/* A postcode at unit k: 50667, D-50667, 00-950, SW1A 1AA, 1012 AB. */
-static size_t postcode_at(tm_title *ti, size_t k)
+static size_t postcode_at_(tm_title *ti, size_t k);
+
+/* A postcode at unit k: 50667, D-50667, 00-950, SW1A 1AA, 1012 AB; its
+ * length in units, or 0.  Every form holds a number unit: on a line
+ * without one, none is looked for. */
+static inline size_t postcode_at(tm_title *ti, size_t k)
+{
+	return ti->lflags & LF_NUM ? postcode_at_(ti, k) : 0;
+}
+
+static size_t postcode_at_(tm_title *ti, size_t k)
 {
 	int d;
 	if (k >= ti->nunit || !ukept(ti, k) || ti->prot[ti->unit[k]])
