@@ -1,7 +1,7 @@
 /* lexcache.c - the compiled lexicon cache: where it lives, its key, and
  * reading and writing it without trusting what another user could have
  * put there (see lexcache.h). */
-/* MAP_POPULATE */
+/* MAP_ANONYMOUS */
 #define _DEFAULT_SOURCE
 #include "norm/lexcache.h"
 
@@ -16,6 +16,7 @@
 #include <sys/stat.h>
 #include <unistd.h>
 
+#include "core/buf.h"
 #include "core/digest.h"
 #include "io/outfile.h"
 #include "norm/unicode.h"
@@ -31,12 +32,6 @@
 /* Images looked at when pruning: more are left for the next write. */
 #define LC_PRUNE_MAX 256
 
-/* the pages mapped at once, not one fault at a time */
-#ifdef MAP_POPULATE
-#define LC_POPULATE MAP_POPULATE
-#else
-#define LC_POPULATE 0
-#endif
 
 int lc_enabled(void)
 {
@@ -110,7 +105,7 @@ char *lc_dir(void)
 	return dir;
 }
 
-/* The image at path, mapped, when it is a regular file of the user's,
+/* The image at path, read into a mapping, when it is a regular file of the user's,
  * writable by no one else: 0 with the mapping in *img, *n; -1 otherwise. */
 static int map_image(const char *path, void **img, size_t *n)
 {
@@ -126,12 +121,32 @@ static int map_image(const char *path, void **img, size_t *n)
 		close(fd);
 		return -1;
 	}
-	m = mmap(NULL, (size_t)st.st_size, PROT_READ, MAP_PRIVATE | LC_POPULATE, fd, 0);
-	close(fd);
-	if (m == MAP_FAILED)
+	/* read into anonymous memory rather than mapped from the file: its
+	 * pages can then be 2 MiB ones (tm_hugepages), and every title's
+	 * words are looked up all over the image (a page-table walk per
+	 * lookup with 4 KiB pages) */
+	size_t len = (size_t)st.st_size, got = 0;
+	m = mmap(NULL, len, PROT_READ | PROT_WRITE, MAP_PRIVATE | MAP_ANONYMOUS, -1, 0);
+	if (m == MAP_FAILED) {
+		close(fd);
 		return -1;
+	}
+	tm_hugepages(m, len);
+	while (got < len) {
+		ssize_t r = read(fd, (char *)m + got, len - got);
+		if (r < 0 && errno == EINTR)
+			continue;
+		if (r <= 0)
+			break;
+		got += (size_t)r;
+	}
+	close(fd);
+	if (got != len || mprotect(m, len, PROT_READ) != 0) {
+		munmap(m, len);
+		return -1;
+	}
 	*img = m;
-	*n = (size_t)st.st_size;
+	*n = len;
 	return 0;
 }
 

@@ -21,7 +21,7 @@ struct normaliser {
 	char *ring;
 	size_t ring_cap, ring_pos;
 	uint64_t ring_total;  /* bytes ever written, for validity */
-	struct memo_slot { uint64_t h, at; uint32_t len; } *slot;
+	struct memo_slot { uint64_t h, at; } *slot; /* 16 bytes: four to a cache line */
 	size_t nslot, hits, calls;
 	/* titles seen once lately: one bit per hash, nslot * 4 bits, all
 	 * cleared once a quarter are set; a title enters the ring the
@@ -539,6 +539,10 @@ int norm_memo(normaliser *nm, size_t bytes)
 		memo_free(nm);
 		return -1;
 	}
+	/* a title's record and slot are anywhere in them: 2 MiB pages spare
+	 * a page-table walk per title */
+	tm_hugepages(nm->ring, bytes);
+	tm_hugepages(nm->slot, slots * sizeof *nm->slot);
 	nm->ring_cap = bytes;
 	nm->nslot = slots;
 	return 0;
@@ -718,7 +722,6 @@ static void memo_put(normaliser *nm, uint64_t h, const char *raw, size_t n,
 	struct memo_slot *sl = &nm->slot[h & (nm->nslot - 1)];
 	sl->h = h;
 	sl->at = nm->ring_total;
-	sl->len = (uint32_t)need;
 	nm->ring_pos += need;
 	nm->ring_total += need;
 }

@@ -31,7 +31,7 @@ static size_t glued_start(const tm_title *ti, size_t t)
 
 /* ---- contact data: URLs, e-mail addresses, phone numbers ---- */
 
-static int is_date(const tm_title *ti, const tm_tok *t);
+static inline int is_date(const tm_title *ti, const tm_tok *t);
 
 /* Last token of a URL starting at t: everything up to whitespace. */
 static size_t url_end(const tm_title *ti, size_t t)
@@ -269,7 +269,8 @@ static int code_at(tm_title *ti, size_t k)
 	       glued(ti, k, k + 1, "-_/.") && code_unit(ti, k + 1);
 }
 
-static int is_date(const tm_title *ti, const tm_tok *t)
+/* (inline: asked of most units by the edge rules) */
+__attribute__((always_inline)) static inline int is_date(const tm_title *ti, const tm_tok *t)
 {
 	const char *p = ti->text + t->off;
 	size_t d, n = t->len;

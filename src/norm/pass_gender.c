@@ -110,8 +110,10 @@ static const lex_pair *fem_first(tm_title *ti, size_t k, const char *a,
 	if (!ti->lang)
 		return NULL;
 	for (i = 0; i < n; i++) {
-		if (strcmp(p[i].lang, ti->lang) || p[i].mlen != bn || !bn ||
-		    memcmp(p[i].masc, b, bn) || !ends_with(a, an, p[i].fem, p[i].flen) ||
+		/* the lengths and bytes first: they rule out most pairs of
+		 * every language before a language is compared */
+		if (p[i].mlen != bn || !bn || memcmp(p[i].masc, b, bn) ||
+		    strcmp(p[i].lang, ti->lang) || !ends_with(a, an, p[i].fem, p[i].flen) ||
 		    an < (size_t)p[i].flen + 2 || !ascii(p[i].fem, p[i].flen) ||
 		    !ascii(p[i].masc, p[i].mlen) || t->len < p[i].flen)
 			continue;
@@ -370,9 +372,9 @@ static int whole_masc(tm_title *ti, const char *a, size_t an, const lex_pair *at
  * masculine ending is written after the word. */
 static int open_endings(tm_title *ti)
 {
-	const lex_pair *at = at_pair(ti);
-	if (!at)
-		return 0;
+	/* the pair is looked for at the first such ending: most lines
+	 * with a symbol or a joiner have none */
+	const lex_pair *at = NULL;
 	for (size_t k = 0; k < ti->nunit; k++) {
 		size_t ta = ti->unit[k];
 		const tm_tok *x, *y;
@@ -393,6 +395,8 @@ static int open_endings(tm_title *ti)
 		a = ufold(ti, k, &an);
 		if (an < 3)
 			continue;
+		if (!at && !(at = at_pair(ti)))
+			return 0;
 		if (remove_toks(ti, ta + 1, ta + 1, NF_GENDER, NULL))
 			return -1;
 		if (at->mlen && !whole_masc(ti, a, an, at)) {

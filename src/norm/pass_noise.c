@@ -164,8 +164,13 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 	size_t k0, k1, k, len;
 
 	seg_kept(ti, s, &k0, &k1);
+	/* every rule below reads the segment's kept units, and units are
+	 * only ever removed: a segment with none ("(m/w/d)") has nothing */
+	if (k0 == k1)
+		return 0;
 	size_t a = k0, b = k1;
-	for (k = k0; k < k1; k++) {
+	/* a line with no phrase of these lexicons has none to peel */
+	for (k = ti->lcats & phrase_mask ? k0 : k1; k < k1; k++) {
 		const lex_entry *e;
 		if (ti->aoff[k] == ti->aoff[k + 1] || !ukept(ti, k))
 			continue;
@@ -210,13 +215,15 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 		k += len - 1;
 		seg_kept(ti, s, &a, &b);
 	}
-	/* years left at an edge by the removals */
-	seg_kept(ti, s, &k0, &k1);
-	if (k0 < k1 && noise_date_at_edge(ti, k0))
-		*changed = 1;
-	seg_kept(ti, s, &k0, &k1);
-	if (k0 < k1 && noise_date_at_edge(ti, k1 - 1))
-		*changed = 1;
+	/* years left at an edge by the removals (a year is a number) */
+	if (ti->lflags & LF_NUM) {
+		seg_kept(ti, s, &k0, &k1);
+		if (k0 < k1 && noise_date_at_edge(ti, k0))
+			*changed = 1;
+		seg_kept(ti, s, &k0, &k1);
+		if (k0 < k1 && noise_date_at_edge(ti, k1 - 1))
+			*changed = 1;
+	}
 	/* a contact word alone in its segment: "Contact: jobs@..." */
 	seg_kept(ti, s, &k0, &k1);
 	if (k0 + 1 == k1 && !ti->prot[ti->unit[k0]] &&
@@ -236,7 +243,7 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 	/* a degree word left at an edge by the phrase it qualified: "fuld
 	 * remote", "cianobair go hiomlán" */
 	seg_kept(ti, s, &k0, &k1);
-	for (k = k0; k < k1; k++) {
+	for (k = HAS(ti, LC_UNIT) ? k0 : k1; k < k1; k++) {
 		size_t t0, t1;
 		if (!match_val(ti, k, LC_UNIT, "degree", 1, &len) || k + len > k1 ||
 		    (k != k0 && k + len != k1) || !units_free(ti, k, k + len))
@@ -257,7 +264,7 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 	 * after a word naming the occupation ("Social Work [Part-time]"
 	 * keeps it) */
 	seg_kept(ti, s, &k0, &k1);
-	for (k = k0; k < k1; k++) {
+	for (k = HAS(ti, LC_UNIT) ? k0 : k1; k < k1; k++) {
 		/* one word: the token after it removed as the phrase */
 		size_t t1 = ti->unit[k] + 1;
 		if (U(ti, k)->kind != TK_WORD || !removed_tok(ti, t1) ||
@@ -354,15 +361,24 @@ int pass_phrases(tm_title *ti)
 			if (k0 < k1 && channel(ti, k0, k1) < 0)
 				return -1;
 		}
+	/* nothing removed since the last call's rounds found nothing, and
+	 * its numbers rule nothing either: the rounds would read the same
+	 * title again, and only an edge seniority word is read otherwise
+	 * in a later call: without one, they would find nothing */
+	if (ti->peeled == ti->gen && ti->settled && !HAS(ti, LC_SENIORITY))
+		return 0;
 	while (changed && rounds++ < 64) {
 		changed = 0;
 		for (size_t s = 0; s < ti->nseg; s++)
 			if (peel_segment(ti, s, &changed))
 				return -1;
 	}
+	uint64_t before = ti->gen;
 	if (lone_numbers(ti))
 		return -1;
-	if (!changed)
+	if (!changed) {
 		ti->peeled = ti->gen;
+		ti->settled = before == ti->gen;
+	}
 	return 0;
 }

@@ -226,9 +226,11 @@ static int grade_code(tm_title *ti, size_t k)
 /* A pay-scale word at unit k (pay "lead", "Besoldungsgruppe", "schaal";
  * an edge lead only at the segment's first kept unit k0): its length in
  * units, or 0. */
-static size_t grade_word(tm_title *ti, size_t k, size_t k0)
+static inline size_t grade_word(tm_title *ti, size_t k, size_t k0)
 {
 	size_t len;
+	if (k >= ti->nunit || !(ti->ucats[k] & (1u << LC_PAY)))
+		return 0; /* most units: no pay phrase starts there */
 	const lex_entry *e = match_val(ti, k, LC_PAY, "lead", 1, &len);
 	const tm_tok *t = U(ti, k);
 	if (!e || (e->where == LW_EDGE && k != k0))
@@ -981,7 +983,9 @@ int pass_days(tm_title *ti)
 			k = e - 1;
 			continue;
 		}
-		e = day_phrase(ti, k, &range);
+		/* a day is a word of units/: most units are none */
+		range = 0;
+		e = ti->ucats[k] & (1u << LC_UNIT) ? day_phrase(ti, k, &range) : 0;
 		if ((!e || !range) && (ti->ucats[k] & (1u << LC_UNIT))) {
 			/* a short day name of another language ("po–pá",
 			 * "ma–pe") counts when its hours follow (numbers:

@@ -24,7 +24,16 @@ int all_caps_line(tm_title *ti)
 	return ti->caps; /* counted by title_build */
 }
 
-static int loc_word(tm_title *ti, size_t k, const char *value, size_t *len);
+static int loc_word_(tm_title *ti, size_t k, const char *value, size_t *len);
+
+/* Is unit k a word of location/ of that value (NULL: any)?  Most units
+ * are none: answered without the call. */
+static inline int loc_word(tm_title *ti, size_t k, const char *value, size_t *len)
+{
+	if (k >= ti->nunit || !(ti->ucats[k] & (1u << LC_LOCATION)))
+		return 0;
+	return loc_word_(ti, k, value, len);
+}
 
 /* A place starting at unit k: its length, whether it needs a strong slot,
  * whether it is a location by itself (a case form: Helsingissä), and its
@@ -65,10 +74,13 @@ static int place_info(tm_title *ti, size_t k, size_t *len, int *strong,
 	return 1;
 }
 
-static int place_at(tm_title *ti, size_t k, size_t *len, int *strong,
-		    const char **cc)
+static inline int place_at(tm_title *ti, size_t k, size_t *len, int *strong,
+			   const char **cc)
 {
 	int itself;
+	/* most units are no place: answered without the call */
+	if (k >= ti->nunit || !(ti->ucats[k] & (1u << LC_PLACE)))
+		return 0;
 	return place_info(ti, k, len, strong, &itself, cc);
 }
 
@@ -92,8 +104,17 @@ static int letters_only(tm_title *ti, size_t k, size_t lo, size_t hi)
 	return (t->flags & TF_ALLCAPS) || t->len == 1;
 }
 
-/* A postcode at unit k: 50667, D-50667, 00-950, SW1A 1AA, 1012 AB. */
-static size_t postcode_at(tm_title *ti, size_t k)
+static size_t postcode_at_(tm_title *ti, size_t k);
+
+/* A postcode at unit k: 50667, D-50667, 00-950, SW1A 1AA, 1012 AB; its
+ * length in units, or 0.  Every form holds a number unit: on a line
+ * without one, none is looked for. */
+static inline size_t postcode_at(tm_title *ti, size_t k)
+{
+	return ti->lflags & LF_NUM ? postcode_at_(ti, k) : 0;
+}
+
+static size_t postcode_at_(tm_title *ti, size_t k)
 {
 	int d;
 	if (k >= ti->nunit || !ukept(ti, k) || ti->prot[ti->unit[k]])
@@ -128,7 +149,7 @@ static size_t postcode_at(tm_title *ti, size_t k)
 	return 0;
 }
 
-static int loc_word(tm_title *ti, size_t k, const char *value, size_t *len)
+static int loc_word_(tm_title *ti, size_t k, const char *value, size_t *len)
 {
 	const lex_entry *e = match_val(ti, k, LC_LOCATION, value, 1, len);
 	if (!e)
@@ -473,7 +494,8 @@ static int case_forms(tm_title *ti)
 	const char *cc;
 
 	for (k = 0; k < ti->nunit; k++) {
-		if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
+		if (!(ti->ucats[k] & (1u << LC_PLACE)) || !ukept(ti, k) ||
+		    ti->prot[ti->unit[k]] ||
 		    !place_info(ti, k, &len, &strong, &itself, &cc))
 			continue;
 		if (!itself || !units_free(ti, k, k + len)) {
@@ -560,9 +582,12 @@ int pass_location(tm_title *ti)
 
 /* The longest legal form at unit k, of employer/ or business/ ("Limited
  * Company", "S.Coop.And.", "aktiebolag"). */
-static const lex_entry *legal_form(tm_title *ti, size_t k, size_t *len)
+static inline const lex_entry *legal_form(tm_title *ti, size_t k, size_t *len)
 {
 	size_t l2;
+	/* most units start no phrase of either: answered at once */
+	if (k >= ti->nunit || !(ti->ucats[k] & (1u << LC_EMPLOYER | 1u << LC_BUSINESS)))
+		return NULL;
 	const lex_entry *e = match_val(ti, k, LC_EMPLOYER, "legal", 1, len);
 	const lex_entry *b = match_val(ti, k, LC_BUSINESS, "legal", 1, &l2);
 	if (b && (!e || l2 > *len)) {

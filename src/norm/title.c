@@ -221,17 +221,21 @@ static const lex_entry *match_gen(tm_title *ti, size_t k, unsigned mask,
 	if (k >= ti->nunit)
 		return NULL;
 	for (uint32_t i = ti->aoff[k]; i < ti->aoff[k + 1]; i++) {
-		size_t nu = ti->ann[i].units;
-		if (!(ti->ann[i].cats & mask) || (kept && !ann_kept(ti, k, i)))
+		const lex_entry *e;
+		if (!(ti->ann[i].cats & mask))
 			continue;
-		for (const lex_entry *e = lex_entry_at(ti->lx, ti->ann[i].first); e;
-		     e = lex_next(ti->lx, e))
-			if ((mask & (1u << e->cat)) && entry_applies(ti, e) &&
+		/* the phrase's first entry that answers, then whether its
+		 * units are kept (most phrases asked have no such entry) */
+		for (e = lex_entry_at(ti->lx, ti->ann[i].first); e; e = lex_next(ti->lx, e))
+			if ((mask & (1u << e->cat)) &&
 			    (!value || (e->value[0] == value[0] &&
-					strcmp(e->value, value) == 0))) {
-				*len = nu;
-				return e;
-			}
+					strcmp(e->value, value) == 0)) &&
+			    entry_applies(ti, e))
+				break;
+		if (e && (!kept || ann_kept(ti, k, i))) {
+			*len = ti->ann[i].units;
+			return e;
+		}
 	}
 	return NULL;
 }
@@ -243,12 +247,19 @@ unsigned match_vals_(tm_title *ti, size_t k, int cat, const char *const *vals,
 	if (k >= ti->nunit)
 		return 0;
 	for (uint32_t i = ti->aoff[k]; i < ti->aoff[k + 1]; i++) {
-		if (!(ti->ann[i].cats & (1u << cat)) || (kept && !ann_kept(ti, k, i)))
+		int tested = !kept;
+		if (!(ti->ann[i].cats & (1u << cat)))
 			continue;
 		for (const lex_entry *e = lex_entry_at(ti->lx, ti->ann[i].first); e;
 		     e = lex_next(ti->lx, e)) {
 			if (e->cat != cat || !entry_applies(ti, e))
 				continue;
+			/* whether the units are kept, once an entry answers */
+			if (!tested) {
+				if (!ann_kept(ti, k, i))
+					break;
+				tested = 1;
+			}
 			for (size_t v = 0; v < nval; v++)
 				if (e->value[0] == vals[v][0] && strcmp(e->value, vals[v]) == 0)
 					found |= 1u << v;

@@ -94,6 +94,7 @@ typedef struct tm_title {
 	int any_lang;     /* while set, ambiguous entries apply too */
 	uint64_t gen;     /* bumped by every removal (seg_kept's memory) */
 	uint64_t peeled;  /* gen when pass_phrases last found nothing more */
+	uint8_t settled;  /* and its numbers rule then removed nothing */
 	/* per token */
 	uint8_t *rm;      /* enum nf_kind, RM_NONE when kept */
 	uint8_t *prot;

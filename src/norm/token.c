@@ -83,8 +83,10 @@ static enum uni_class peekc_utf8(uni_ctx *u, const char *s, size_t n, size_t i,
 }
 
 /* Class of the code point at s[i] without advancing; *cc receives the
- * class with its case bits.  Inline for ASCII, most of most titles. */
-static inline enum uni_class peekc(uni_ctx *u, const char *s, size_t n, size_t i,
+ * class with its case bits.  Inline for ASCII, most of most titles
+ * (always: called from five places, the compiler kept it a call, and
+ * the case bits were then worked out for callers that drop them). */
+__attribute__((always_inline)) static inline enum uni_class peekc(uni_ctx *u, const char *s, size_t n, size_t i,
 				   int32_t *cp, int *cc)
 {
 	unsigned char c;
