@@ -15,16 +15,30 @@
 #include "norm/token.h"
 
 /* Step 1: KEYS[1] an id shard, ARGV[1] the chunk's owner tag, ARGV[2]
- * the time to live (0: none), then ids.  One HSETNX per id: a new id
- * becomes the chunk's in that call; only an id that had an owner costs
- * an HGET, to tell whether the owner is this chunk (a rerun).  The
- * answer is one character per id, '1' for an id the chunk owns. */
+ * the time to live (0: none), then the chunk's ids in that shard (each
+ * once).  The ids are looked up a thousand at a time with one HMGET, and
+ * those without an owner become the chunk's with one HSET: the script
+ * runs alone, so no other claim comes between the two, and an id is
+ * given to its first claimant as by HSETNX.  The answer is one character
+ * per id, '1' for an id the chunk owns (new, or already this chunk's: a
+ * rerun).  The field "" (no posting id is empty) holds a note longer than
+ * a small hash's values may be (the server's hash-max-listpack-value, 64
+ * bytes by default), so the shard is a hash table from its first claim:
+ * a small hash is a list the server searches end to end, and the first
+ * few hundred ids of each shard would each cost a search of all. */
 const char sr_claim_script[] =
-	"local k, d, out = KEYS[1], ARGV[1], {}\n"
-	"for i = 3, #ARGV do\n"
-	"  if redis.call('HSETNX', k, ARGV[i], d) == 1 or redis.call('HGET', k, ARGV[i]) == d then\n"
-	"    out[i - 2] = '1'\n"
-	"  else out[i - 2] = '0' end\n"
+	"local k, d, out, n = KEYS[1], ARGV[1], {}, #ARGV\n"
+	"redis.call('HSETNX', k, '', '" SR_ID_NOTE "')\n"
+	"for a = 3, n, 1000 do\n"
+	"  local z = math.min(a + 999, n)\n"
+	"  local cur, set, m = redis.call('HMGET', k, unpack(ARGV, a, z)), {}, 0\n"
+	"  for i = a, z do\n"
+	"    local c = cur[i - a + 1]\n"
+	"    if not c then m = m + 2; set[m - 1] = ARGV[i]; set[m] = d; out[i - 2] = '1'\n"
+	"    elseif c == d then out[i - 2] = '1'\n"
+	"    else out[i - 2] = '0' end\n"
+	"  end\n"
+	"  if m > 0 then redis.call('HSET', k, unpack(set, 1, m)) end\n"
 	"end\n"
 	"if tonumber(ARGV[2]) > 0 then redis.call('EXPIRE', k, ARGV[2]) end\n"
 	"return table.concat(out)\n";
