@@ -333,6 +333,8 @@ struct sr_work {
 				 * its posting is counted) */
 	size_t *order;          /* the ids by shard: shard s holds
 				 * order[first[s] .. first[s] + cnt[s]) */
+	size_t *recid, nrec, reccap; /* per posting in the chunk: 1 + its
+				 * id's index in ids, 0 none */
 	size_t cnt[SR_SHARDS], first[SR_SHARDS];
 	int which[SR_SHARDS];   /* the shard of each claim command */
 	char (*shkeys)[160];
@@ -352,6 +354,7 @@ static void work_free(sr_flight *f)
 	st_free(&w->ids);
 	free(w->mine);
 	free(w->order);
+	free(w->recid);
 	free(w->shkeys);
 	batch_free(&w->b);
 	calls_free(&w->cs);
@@ -387,9 +390,15 @@ int sr_claims_send(rstore *r, sr_flight *f)
 		goto oom;
 	}
 	f->w = w;
-	for (p = f->chunk.data; (got = chunk_next(&p, end, &rec)) == 1;)
-		if (rec.p.id && st_add(&w->ids, rec.p.id, rec.p.idlen, 0, NULL) < 0)
+	for (p = f->chunk.data; (got = chunk_next(&p, end, &rec)) == 1; w->nrec++) {
+		size_t ix = 0, *v = tm_grow(w->recid, &w->reccap, w->nrec + 1, sizeof *v, 1024);
+		if (!v)
 			goto oom;
+		w->recid = v;
+		if (rec.p.id && st_add(&w->ids, rec.p.id, rec.p.idlen, 0, &ix) < 0)
+			goto oom;
+		v[w->nrec] = rec.p.id ? ix + 1 : 0;
+	}
 	if (got < 0) {
 		sr_err(r, "a chunk's postings are unreadable", NULL);
 		return -1;
@@ -677,12 +686,13 @@ int sr_shares_send(rstore *r, sr_flight *f)
 	/* 2. the postings the chunk owns (and those without an id), each in
 	 * its period */
 	series_init(&agg, SERIES_AS_READ);
-	for (p = f->chunk.data; (got = chunk_next(&p, end, &rec)) == 1;) {
+	size_t nr = 0;
+	for (p = f->chunk.data; (got = chunk_next(&p, end, &rec)) == 1; nr++) {
 		tally_mem *m;
 		int k = 0;
 		if (rec.p.id) {
 			/* another chunk's id, or one counted already in this chunk */
-			long idx = st_find(&w->ids, rec.p.id, rec.p.idlen);
+			size_t idx = w->recid[nr] - 1;
 			if (w->mine[idx] != 1) {
 				w->repub++;
 				continue;
