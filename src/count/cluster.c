@@ -308,6 +308,7 @@ void rc_close(rcluster *k)
 	k->node = NULL;
 	k->nnode = 0;
 	buf_free(&k->err);
+	buf_free(&k->fmt);
 }
 
 redisContext *rc_conn(rcluster *k, unsigned s)
@@ -362,6 +363,42 @@ static void slot_range(const rcluster *k, unsigned s, unsigned *a, unsigned *b)
 		(*a)--;
 	while (*b + 1 < SLOT_COUNT && k->slot[*b + 1] == n)
 		(*b)++;
+}
+
+/* Puts cmd in the protocol's form (an array of bulk strings) and
+ * appends it to c's output: what redisAppendCommandArgv does, without
+ * its formatted print per argument (a chunk's claims and shares are
+ * hundreds of thousands of arguments).  REDIS_OK or REDIS_ERR. */
+static int append(rcluster *k, redisContext *c, const rc_cmd *cmd)
+{
+	size_t need = 16;
+	for (int i = 0; i < cmd->argc; i++)
+		need += cmd->argl[i] + 24;
+	buf_reset(&k->fmt);
+	if (buf_reserve(&k->fmt, need)) /* hiredis's way, which marks c failed if it fails */
+		return redisAppendCommandArgv(c, cmd->argc, cmd->argv, cmd->argl);
+	char *o = k->fmt.data;
+	for (int i = -1; i < cmd->argc; i++) {
+		/* "*argc" first, then "$len" and the bytes of each argument */
+		size_t v = i < 0 ? (size_t)cmd->argc : cmd->argl[i];
+		char d[24];
+		int nd = 0;
+		do
+			d[nd++] = (char)('0' + v % 10);
+		while ((v /= 10) > 0);
+		*o++ = i < 0 ? '*' : '$';
+		while (nd)
+			*o++ = d[--nd];
+		*o++ = '\r';
+		*o++ = '\n';
+		if (i >= 0) {
+			memcpy(o, cmd->argv[i], cmd->argl[i]);
+			o += cmd->argl[i];
+			*o++ = '\r';
+			*o++ = '\n';
+		}
+	}
+	return redisAppendFormattedCommand(c, k->fmt.data, (size_t)(o - k->fmt.data));
 }
 
 int rc_run(rcluster *k, rc_cmd *cmds, size_t n)
@@ -423,7 +460,7 @@ int rc_run(rcluster *k, rc_cmd *cmds, size_t n)
 			pipe_hold(&old);
 			for (size_t i = 0; i < n; i++)
 				if (target[i] == (long)nd)
-					redisAppendCommandArgv(c, cmds[i].argc, cmds[i].argv, cmds[i].argl);
+					append(k, c, &cmds[i]);
 			for (size_t i = 0; i < n; i++) {
 				void *p = NULL;
 				if (target[i] != (long)nd)
@@ -575,7 +612,7 @@ int rc_send(rcluster *k, rc_cmd *cmds, size_t n)
 		redisContext *c = nd >= 0 ? rc_node_conn(k, (size_t)nd) : NULL;
 		cmds[i].reply = NULL;
 		b->node[i] = -1;
-		if (!c || redisAppendCommandArgv(c, cmds[i].argc, cmds[i].argv, cmds[i].argl) != REDIS_OK)
+		if (!c || append(k, c, &cmds[i]) != REDIS_OK)
 			continue; /* rc_drain runs it */
 		b->node[i] = nd;
 		b->gen[i] = k->node[nd].gen;

@@ -54,6 +54,7 @@ typedef struct rcluster {
 	void *ctx;
 	char *name;           /* for messages: the URL without password */
 	tm_buf err;
+	tm_buf fmt;           /* a command being put in the protocol's form */
 	/* batches sent by rc_send whose replies rc_drain has not read */
 	struct rc_sent *sent;
 	size_t nsent, sentcap;

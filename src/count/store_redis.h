@@ -29,6 +29,9 @@
 
 #define SR_SHARDS 64      /* spread keys: 'k' key totals, 'i' posting ids */
 #define SR_SEP '\x1F'     /* joins the fields of a hash field */
+/* the value of the field "" of each id shard (store_redis_apply.c):
+ * longer than 64 bytes */
+#define SR_ID_NOTE "no posting id: this hash maps posting ids to the chunks that count them"
 
 /* A chunk on its way: its postings, its digest, and what its attempt
  * has sent (store_redis_apply.c keeps that part to itself). */

@@ -15,16 +15,30 @@
 #include "norm/token.h"
 
 /* Step 1: KEYS[1] an id shard, ARGV[1] the chunk's owner tag, ARGV[2]
- * the time to live (0: none), then ids.  One HSETNX per id: a new id
- * becomes the chunk's in that call; only an id that had an owner costs
- * an HGET, to tell whether the owner is this chunk (a rerun).  The
- * answer is one character per id, '1' for an id the chunk owns. */
+ * the time to live (0: none), then the chunk's ids in that shard (each
+ * once).  The ids are looked up a thousand at a time with one HMGET, and
+ * those without an owner become the chunk's with one HSET: the script
+ * runs alone, so no other claim comes between the two, and an id is
+ * given to its first claimant as by HSETNX.  The answer is one character
+ * per id, '1' for an id the chunk owns (new, or already this chunk's: a
+ * rerun).  The field "" (no posting id is empty) holds a note longer than
+ * a small hash's values may be (the server's hash-max-listpack-value, 64
+ * bytes by default), so the shard is a hash table from its first claim:
+ * a small hash is a list the server searches end to end, and the first
+ * few hundred ids of each shard would each cost a search of all. */
 const char sr_claim_script[] =
-	"local k, d, out = KEYS[1], ARGV[1], {}\n"
-	"for i = 3, #ARGV do\n"
-	"  if redis.call('HSETNX', k, ARGV[i], d) == 1 or redis.call('HGET', k, ARGV[i]) == d then\n"
-	"    out[i - 2] = '1'\n"
-	"  else out[i - 2] = '0' end\n"
+	"local k, d, out, n = KEYS[1], ARGV[1], {}, #ARGV\n"
+	"redis.call('HSETNX', k, '', '" SR_ID_NOTE "')\n"
+	"for a = 3, n, 1000 do\n"
+	"  local z = math.min(a + 999, n)\n"
+	"  local cur, set, m = redis.call('HMGET', k, unpack(ARGV, a, z)), {}, 0\n"
+	"  for i = a, z do\n"
+	"    local c = cur[i - a + 1]\n"
+	"    if not c then m = m + 2; set[m - 1] = ARGV[i]; set[m] = d; out[i - 2] = '1'\n"
+	"    elseif c == d then out[i - 2] = '1'\n"
+	"    else out[i - 2] = '0' end\n"
+	"  end\n"
+	"  if m > 0 then redis.call('HSET', k, unpack(set, 1, m)) end\n"
 	"end\n"
 	"if tonumber(ARGV[2]) > 0 then redis.call('EXPIRE', k, ARGV[2]) end\n"
 	"return table.concat(out)\n";
@@ -40,72 +54,96 @@ const char sr_claim_script[] =
 #define STORE_COUNT_MAX_S "9000000000000000000"
 
 /* Step 3: KEYS[1] the tag's ledger, ARGV[1] the chunk's digest, ARGV[2]
- * the time to live of the tag's keys (0: none); then H and H triples
- * (key index, field, increment); then E and E groups (key index, field,
- * n, n examples).  The examples of a key are read with one HMGET and
- * written with one HSET per thousand fields, only those that changed.
- * The keys of a tag expire together. */
+ * the time to live of the tag's keys (0: none); then G and G groups of
+ * increments, one per key: its index in KEYS, m, m fields, m increments;
+ * then X and X groups of examples, one per key: its index, m, m fields,
+ * m candidate lists (each at most three examples, joined by 1E, in
+ * order).  A field's examples are merged with the candidates, read with
+ * one HMGET and written with one HSET per thousand fields, only those
+ * that changed; the merge takes the first three of both lists, each
+ * once (a stored value in another order is sorted first; a single
+ * candidate for a field without examples is taken as it is).  The keys of
+ * a tag expire together. */
 const char sr_apply_script[] =
 	"if redis.call('SISMEMBER', KEYS[1], ARGV[1]) == 1 then return 0 end\n"
-	"local i = 3\n"
-	"local H = tonumber(ARGV[i]); i = i + 1\n"
-	"local done, bad, why = 0, false, false\n"
-	"for h = 1, H do\n"
-	"  local k, f = KEYS[tonumber(ARGV[i])], ARGV[i + 1]\n"
-	"  local n = redis.pcall('HINCRBY', k, f, ARGV[i + 2])\n"
-	"  if type(n) == 'table' then bad = true; why = n.err; break end\n"
-	"  done = h\n"
-	"  if n >= 8.99e18 then\n"
-	"    local s = redis.call('HGET', k, f)\n"
-	"    if #s > 19 or (#s == 19 and s > '" STORE_COUNT_MAX_S "') then bad = true; break end\n"
-	"  end\n"
-	"  i = i + 3\n"
-	"end\n"
-	"if bad then\n"
-	"  local k, f = KEYS[tonumber(ARGV[i])], ARGV[i + 1]\n"
-	"  local j = 4\n"
-	"  for h = 1, done do\n"
-	"    local uk, uf = KEYS[tonumber(ARGV[j])], ARGV[j + 1]\n"
-	"    if redis.call('HINCRBY', uk, uf, -tonumber(ARGV[j + 2])) == 0 then redis.call('HDEL', uk, uf) end\n"
-	"    j = j + 3\n"
-	"  end\n"
-	"  if why and not string.find(why, 'overflow', 1, true) then\n"
-	"    return redis.error_reply(why .. ': ' .. k .. ' ' .. f)\n"
-	"  end\n"
-	"  return redis.error_reply('a count would pass " STORE_COUNT_MAX_S ", the most the store holds: ' .. k .. ' ' .. f)\n"
-	"end\n"
-	"local E = tonumber(ARGV[i]); i = i + 1\n"
-	"local byk, order = {}, {}\n"
-	"for x = 1, E do\n"
-	"  local kx = ARGV[i]\n"
-	"  local g = byk[kx]\n"
-	"  if not g then g = {}; byk[kx] = g; order[#order + 1] = kx end\n"
-	"  g[#g + 1] = i\n"
-	"  i = i + 3 + tonumber(ARGV[i + 2])\n"
-	"end\n"
-	"for _, kx in ipairs(order) do\n"
-	"  local k, g = KEYS[tonumber(kx)], byk[kx]\n"
-	"  for a = 1, #g, 1000 do\n"
-	"    local z = math.min(a + 999, #g)\n"
-	"    local fs, set = {}, {}\n"
-	"    for b = a, z do fs[#fs + 1] = ARGV[g[b] + 1] end\n"
-	"    local cur = redis.call('HMGET', k, unpack(fs))\n"
-	"    for b = a, z do\n"
-	"      local p, c = g[b], cur[b - a + 1]\n"
-	"      local all, seen = {}, {}\n"
-	"      if c then for e in string.gmatch(c, '[^\\30]+') do\n"
-	"        if not seen[e] then seen[e] = 1; all[#all + 1] = e end end end\n"
-	"      for j = p + 3, p + 2 + tonumber(ARGV[p + 2]) do\n"
-	"        local e = ARGV[j]; if not seen[e] then seen[e] = 1; all[#all + 1] = e end\n"
-	"      end\n"
-	"      table.sort(all)\n"
-	"      local keep = {}\n"
-	"      for j = 1, math.min(3, #all) do keep[j] = all[j] end\n"
-	"      local v = table.concat(keep, '\\30')\n"
-	"      if v ~= c then set[#set + 1] = ARGV[p + 1]; set[#set + 1] = v end\n"
+	"local function undo(gl, jl)\n"
+	"  local p = 4\n"
+	"  for g = 1, gl do\n"
+	"    local k, m = KEYS[tonumber(ARGV[p])], tonumber(ARGV[p + 1])\n"
+	"    local f, v = p + 2, p + 2 + m\n"
+	"    for j = 0, (g < gl and m or jl) - 1 do\n"
+	"      if redis.call('HINCRBY', k, ARGV[f + j], -tonumber(ARGV[v + j])) == 0 then\n"
+	"        redis.call('HDEL', k, ARGV[f + j]) end\n"
 	"    end\n"
-	"    if #set > 0 then redis.call('HSET', k, unpack(set)) end\n"
+	"    p = v + m\n"
 	"  end\n"
+	"end\n"
+	"local i = 4\n"
+	"for g = 1, tonumber(ARGV[3]) do\n"
+	"  local k, m = KEYS[tonumber(ARGV[i])], tonumber(ARGV[i + 1])\n"
+	"  local f, v = i + 2, i + 2 + m\n"
+	"  for j = 0, m - 1 do\n"
+	"    local n = redis.pcall('HINCRBY', k, ARGV[f + j], ARGV[v + j])\n"
+	"    local over = type(n) == 'table'\n"
+	"    if over then\n"
+	"      undo(g, j)\n"
+	"      if not string.find(n.err, 'overflow', 1, true) then\n"
+	"        return redis.error_reply(n.err .. ': ' .. k .. ' ' .. ARGV[f + j])\n"
+	"      end\n"
+	"    elseif n >= 8.99e18 then\n"
+	"      local s = redis.call('HGET', k, ARGV[f + j])\n"
+	"      if #s > 19 or (#s == 19 and s > '" STORE_COUNT_MAX_S "') then undo(g, j + 1); over = true end\n"
+	"    end\n"
+	"    if over then\n"
+	"      return redis.error_reply('a count would pass " STORE_COUNT_MAX_S ", the most the store holds: ' .. k .. ' ' .. ARGV[f + j])\n"
+	"    end\n"
+	"  end\n"
+	"  i = v + m\n"
+	"end\n"
+	"local function entries(s)\n"
+	"  local t, p = {}, 1\n"
+	"  while true do\n"
+	"    local q = string.find(s, '\\30', p, true)\n"
+	"    local e = string.sub(s, p, (q or 0) - 1)\n"
+	"    if e ~= '' then t[#t + 1] = e end\n"
+	"    if not q then break end\n"
+	"    p = q + 1\n"
+	"  end\n"
+	"  for j = 2, #t do\n"
+	"    if not (t[j - 1] < t[j]) then\n"
+	"      local seen, u = {}, {}\n"
+	"      for _, e in ipairs(t) do if not seen[e] then seen[e] = 1; u[#u + 1] = e end end\n"
+	"      table.sort(u)\n"
+	"      return u\n"
+	"    end\n"
+	"  end\n"
+	"  return t\n"
+	"end\n"
+	"local function merged(c, e)\n"
+	"  local a, b, out, x, y = entries(c), entries(e), {}, 1, 1\n"
+	"  while #out < 3 and (a[x] or b[y]) do\n"
+	"    if not b[y] or (a[x] and a[x] < b[y]) then out[#out + 1] = a[x]; x = x + 1\n"
+	"    elseif not a[x] or b[y] < a[x] then out[#out + 1] = b[y]; y = y + 1\n"
+	"    else out[#out + 1] = a[x]; x = x + 1; y = y + 1 end\n"
+	"  end\n"
+	"  return table.concat(out, '\\30')\n"
+	"end\n"
+	"local X = tonumber(ARGV[i]); i = i + 1\n"
+	"for g = 1, X do\n"
+	"  local k, m = KEYS[tonumber(ARGV[i])], tonumber(ARGV[i + 1])\n"
+	"  local f, v = i + 2, i + 2 + m\n"
+	"  for a = 0, m - 1, 1000 do\n"
+	"    local z = math.min(a + 999, m - 1)\n"
+	"    local cur, set, s = redis.call('HMGET', k, unpack(ARGV, f + a, f + z)), {}, 0\n"
+	"    for j = a, z do\n"
+	"      local c, e = cur[j - a + 1], ARGV[v + j]\n"
+	"      local w = e\n"
+	"      if c or string.find(e, '\\30', 1, true) then w = merged(c or '', e) end\n"
+	"      if w ~= c then s = s + 2; set[s - 1] = ARGV[f + j]; set[s] = w end\n"
+	"    end\n"
+	"    if s > 0 then redis.call('HSET', k, unpack(set, 1, s)) end\n"
+	"  end\n"
+	"  i = v + m\n"
 	"end\n"
 	"redis.call('SADD', KEYS[1], ARGV[1])\n"
 	"if tonumber(ARGV[2]) > 0 then\n"
@@ -113,13 +151,20 @@ const char sr_apply_script[] =
 	"end\n"
 	"return 1\n";
 
-/* A script call being built: its KEYS (KEYS[1] the ledger) and its
- * arguments, increments and examples apart until the counts are known. */
+/* What a call sends for one of its keys: its increments (the fields,
+ * then the values) and its examples (the fields, then the candidate
+ * lists), chunk_put_str-framed. */
+typedef struct kgroup {
+	tm_buf hf, hv, ef, ev;
+	size_t nh, ne;
+} kgroup;
+
+/* A script call being built: its KEYS (KEYS[1] the ledger) and, per
+ * key (by its index in keys), what it sends. */
 typedef struct call {
 	strtab keys;
-	tm_buf h, e;            /* chunk_put_str-framed arguments */
-	size_t nhargs, neargs;
-	long nh, ne;
+	kgroup *g;
+	size_t gcap;
 	unsigned slot;
 } call;
 
@@ -132,18 +177,24 @@ typedef struct calls {
 static void calls_free(calls *cs)
 {
 	for (size_t i = 0; i < cs->n; i++) {
-		st_free(&cs->v[i].keys);
-		buf_free(&cs->v[i].h);
-		buf_free(&cs->v[i].e);
+		call *c = &cs->v[i];
+		for (size_t k = 0; k < c->keys.n && c->g; k++) {
+			buf_free(&c->g[k].hf);
+			buf_free(&c->g[k].hv);
+			buf_free(&c->g[k].ef);
+			buf_free(&c->g[k].ev);
+		}
+		free(c->g);
+		st_free(&c->keys);
 	}
 	free(cs->v);
 	st_free(&cs->tags);
 }
 
-/* The call of key's tag (its first taglen bytes, up to "}:"; made with
- * the tag's ledger as KEYS[1] when new) and key's index among its KEYS
- * (1-based); NULL when out of memory. */
-static call *call_for(calls *cs, const char *key, size_t kl, size_t taglen, long *kn)
+/* The group of key in the call of its tag (its first taglen bytes, up
+ * to "}:"; the call made with the tag's ledger as KEYS[1] when new);
+ * NULL when out of memory. */
+static kgroup *group_for(calls *cs, const char *key, size_t kl, size_t taglen)
 {
 	size_t ti, ki;
 	int fresh = st_add(&cs->tags, key, taglen, 0, &ti);
@@ -165,12 +216,22 @@ static call *call_for(calls *cs, const char *key, size_t kl, size_t taglen, long
 		c->slot = slot_of(lk.data, lk.len);
 		buf_free(&lk);
 		cs->tags.ent[ti].count = ++cs->n;
+		if (!(c->g = tm_grow(NULL, &c->gcap, 1, sizeof *c->g, 8)))
+			return NULL;
+		memset(c->g, 0, sizeof *c->g); /* the ledger's: empty */
 	}
 	call *c = &cs->v[cs->tags.ent[ti].count - 1];
-	if (st_add(&c->keys, key, kl, 0, &ki) < 0)
+	int nk = st_add(&c->keys, key, kl, 0, &ki);
+	if (nk < 0)
 		return NULL;
-	*kn = (long)ki + 1;
-	return c;
+	if (nk) {
+		kgroup *g = tm_grow(c->g, &c->gcap, c->keys.n, sizeof *g, 8);
+		if (!g)
+			return NULL;
+		c->g = g;
+		memset(&g[ki], 0, sizeof *g);
+	}
+	return &c->g[ki];
 }
 
 static int putnum(tm_buf *b, unsigned long long v)
@@ -184,13 +245,10 @@ static int putnum(tm_buf *b, unsigned long long v)
 static int add_incr(calls *cs, const char *key, size_t kl, size_t taglen, const char *f,
 		    size_t fl, uint64_t v)
 {
-	long kn;
-	call *c = call_for(cs, key, kl, taglen, &kn);
-	if (!c || putnum(&c->h, (unsigned long long)kn) || chunk_put_str(&c->h, f, fl) ||
-	    putnum(&c->h, (unsigned long long)v))
+	kgroup *g = group_for(cs, key, kl, taglen);
+	if (!g || chunk_put_str(&g->hf, f, fl) || putnum(&g->hv, (unsigned long long)v))
 		return -1;
-	c->nhargs += 3;
-	c->nh++;
+	g->nh++;
 	return 0;
 }
 
@@ -271,13 +329,18 @@ static void batch_free(batch *b)
  * has sent keep pointing into it until their replies are read. */
 struct sr_work {
 	strtab ids;             /* the chunk's distinct ids */
-	uint8_t *mine;          /* per id: 1 when the chunk owns it */
-	size_t cnt[SR_SHARDS];  /* ids per shard */
+	uint8_t *mine;          /* per id: 1 when the chunk owns it (2 once
+				 * its posting is counted) */
+	size_t *order;          /* the ids by shard: shard s holds
+				 * order[first[s] .. first[s] + cnt[s]) */
+	size_t *recid, nrec, reccap; /* per posting in the chunk: 1 + its
+				 * id's index in ids, 0 none */
+	size_t cnt[SR_SHARDS], first[SR_SHARDS];
 	int which[SR_SHARDS];   /* the shard of each claim command */
 	char (*shkeys)[160];
 	batch b;                /* the claims, then the applies */
 	calls cs;
-	char (*nums)[3][24];
+	tm_buf nums;            /* the applies' counts, framed */
 	tm_buf pending;         /* the examples' bounds noted, kept once the
 				 * chunk has gone through */
 	uint64_t counted, repub, undated;
@@ -290,10 +353,12 @@ static void work_free(sr_flight *f)
 		return;
 	st_free(&w->ids);
 	free(w->mine);
+	free(w->order);
+	free(w->recid);
 	free(w->shkeys);
 	batch_free(&w->b);
 	calls_free(&w->cs);
-	free(w->nums);
+	buf_free(&w->nums);
 	buf_free(&w->pending);
 	free(w);
 	f->w = NULL;
@@ -325,17 +390,31 @@ int sr_claims_send(rstore *r, sr_flight *f)
 		goto oom;
 	}
 	f->w = w;
-	for (p = f->chunk.data; (got = chunk_next(&p, end, &rec)) == 1;)
-		if (rec.p.id && st_add(&w->ids, rec.p.id, rec.p.idlen, 0, NULL) < 0)
+	for (p = f->chunk.data; (got = chunk_next(&p, end, &rec)) == 1; w->nrec++) {
+		size_t ix = 0, *v = tm_grow(w->recid, &w->reccap, w->nrec + 1, sizeof *v, 1024);
+		if (!v)
 			goto oom;
+		w->recid = v;
+		if (rec.p.id && st_add(&w->ids, rec.p.id, rec.p.idlen, 0, &ix) < 0)
+			goto oom;
+		v[w->nrec] = rec.p.id ? ix + 1 : 0;
+	}
 	if (got < 0) {
 		sr_err(r, "a chunk's postings are unreadable", NULL);
 		return -1;
 	}
-	if (!(w->mine = calloc(w->ids.n + 1, 1)))
+	if (!(w->mine = calloc(w->ids.n + 1, 1)) ||
+	    !(w->order = malloc((w->ids.n + 1) * sizeof *w->order)))
 		goto oom;
 	for (size_t i = 0; i < w->ids.n; i++)
 		w->cnt[w->ids.ent[i].hash % SR_SHARDS]++;
+	size_t at[SR_SHARDS], sum = 0;
+	for (int s = 0; s < SR_SHARDS; s++) {
+		w->first[s] = at[s] = sum;
+		sum += w->cnt[s];
+	}
+	for (size_t i = 0; i < w->ids.n; i++)
+		w->order[at[w->ids.ent[i].hash % SR_SHARDS]++] = i;
 	for (int s = 0; s < SR_SHARDS; s++) {
 		batch *b = &w->b;
 		if (!w->cnt[s])
@@ -352,12 +431,11 @@ int sr_claims_send(rstore *r, sr_flight *f)
 		argv_push(a, w->shkeys[b->n], strlen(w->shkeys[b->n]));
 		argv_push(a, f->dg, 16);
 		argv_push(a, r->ttl, strlen(r->ttl));
-		for (size_t i = 0; i < w->ids.n; i++)
-			if (w->ids.ent[i].hash % SR_SHARDS == (uint64_t)s) {
-				size_t n;
-				const char *id = st_key(&w->ids, i, &n);
-				argv_push(a, id, n);
-			}
+		for (size_t q = 0; q < w->cnt[s]; q++) {
+			size_t n;
+			const char *id = st_key(&w->ids, w->order[w->first[s] + q], &n);
+			argv_push(a, id, n);
+		}
 		b->cmds[b->n] = (rc_cmd){(int)a->n, a->v, a->l,
 					 slot_of(w->shkeys[b->n], strlen(w->shkeys[b->n])), NULL};
 		w->which[b->n++] = s;
@@ -380,18 +458,28 @@ static int claims_read(rstore *r, struct sr_work *w)
 {
 	for (size_t c = 0; c < w->b.n; c++) {
 		redisReply *x = w->b.cmds[c].reply;
-		size_t q = 0;
-		if (!x || x->type != REDIS_REPLY_STRING || x->len != w->cnt[w->which[c]]) {
+		int s = w->which[c];
+		if (!x || x->type != REDIS_REPLY_STRING || x->len != w->cnt[s]) {
 			sr_err(r, "the server refused the ids",
 			       x && x->type == REDIS_REPLY_ERROR ? x->str : "unexpected reply");
 			return -1;
 		}
-		for (size_t i = 0; i < w->ids.n; i++)
-			if (w->ids.ent[i].hash % SR_SHARDS == (uint64_t)w->which[c])
-				w->mine[i] = x->str[q++] == '1';
+		for (size_t q = 0; q < w->cnt[s]; q++)
+			w->mine[w->order[w->first[s] + q]] = x->str[q] == '1';
 	}
 	batch_free(&w->b);
 	return 0;
+}
+
+/* Whether example a of e comes before example b in the store: by hash,
+ * then by text. */
+static int ex_before(const tally_mem *agg, const struct tm_example *e, int a, int b)
+{
+	if (e->h[a] != e->h[b])
+		return e->h[a] < e->h[b];
+	size_t la = e->len[a], lb = e->len[b];
+	int c = memcmp(agg->exarena.data + e->off[a], agg->exarena.data + e->off[b], la < lb ? la : lb);
+	return c < 0 || (c == 0 && la < lb);
 }
 
 /* The examples of a triple (joined key k) in period label[0..ln) that
@@ -429,24 +517,32 @@ static int add_examples(rstore *r, calls *cs, tm_buf *pending, const tally_mem *
 		if (chunk_put_str(pending, kb2->data, kb2->len) || buf_append(pending, &w1, sizeof w1))
 			return -1;
 	}
-	long kn;
-	call *c;
+	/* the candidates in the store's order: by hash (its 16 hex digits
+	 * lead each), then by text */
+	for (int a = 1; a < take; a++)
+		for (int b = a; b > 0 && ex_before(agg, e, sendq[b], sendq[b - 1]); b--) {
+			int t = sendq[b];
+			sendq[b] = sendq[b - 1];
+			sendq[b - 1] = t;
+		}
+	kgroup *g;
 	if (store_key_occ(r->prefix, k, ol, 'x', kb) || sr_key_at(kb, label, ln, &tl) ||
-	    !(c = call_for(cs, kb->data, kb->len, tl, &kn)) ||
-	    putnum(&c->e, (unsigned long long)kn) || chunk_put_str(&c->e, k + ol + 1, n - ol - 1) ||
-	    putnum(&c->e, (unsigned long long)take))
+	    !(g = group_for(cs, kb->data, kb->len, tl)) ||
+	    chunk_put_str(&g->ef, k + ol + 1, n - ol - 1))
 		return -1;
+	buf_reset(kb2);
 	for (int qq = 0; qq < take; qq++) {
 		int q = sendq[qq];
-		char hx[17];
-		snprintf(hx, sizeof hx, "%016llx", (unsigned long long)e->h[q]);
-		buf_reset(kb2);
-		if (buf_append(kb2, hx, 16) || buf_append(kb2, agg->exarena.data + e->off[q], e->len[q]) ||
-		    chunk_put_str(&c->e, kb2->data, kb2->len))
+		char hx[16];
+		for (int d = 0; d < 16; d++)
+			hx[d] = "0123456789abcdef"[e->h[q] >> (60 - 4 * d) & 15];
+		if ((qq && buf_putc(kb2, '\x1E')) || buf_append(kb2, hx, 16) ||
+		    buf_append(kb2, agg->exarena.data + e->off[q], e->len[q]))
 			return -1;
 	}
-	c->neargs += 3 + (size_t)take;
-	c->ne++;
+	if (chunk_put_str(&g->ev, kb2->data, kb2->len))
+		return -1;
+	g->ne++;
 	return 0;
 }
 
@@ -479,43 +575,78 @@ done:
 	return rc;
 }
 
-/* Step 3: EVALSHA sha nkeys keys... digest ttl H ... E ..., one call
+/* The number of groups of kind h (0 increments, 1 examples) of c. */
+static size_t ngroups(const call *c, int h)
+{
+	size_t ng = 0;
+	for (size_t k = 1; k < c->keys.n; k++)
+		ng += (h ? c->g[k].ne : c->g[k].nh) > 0;
+	return ng;
+}
+
+/* Step 3: EVALSHA sha nkeys keys... digest ttl G ... X ..., one call
  * per tag, built into w->b.  0 or -1 (out of memory). */
 static int apply_build(rstore *r, struct sr_work *w, const char *dg)
 {
 	const calls *cs = &w->cs;
 	batch *b = &w->b;
+	const char *x;
+	size_t l;
 
-	if (batch_init(b, cs->n) || !(w->nums = calloc(cs->n + 1, sizeof *w->nums)))
+	/* the numbers first, in the order the arguments take them (they
+	 * point into w->nums): per call the number of keys, then G and its
+	 * groups' key indexes and sizes, then X and its */
+	buf_reset(&w->nums);
+	for (size_t i = 0; i < cs->n; i++) {
+		const call *c = &cs->v[i];
+		if (putnum(&w->nums, c->keys.n))
+			return -1;
+		for (int h = 0; h < 2; h++) {
+			if (putnum(&w->nums, ngroups(c, h)))
+				return -1;
+			for (size_t k = 1; k < c->keys.n; k++) {
+				size_t m = h ? c->g[k].ne : c->g[k].nh;
+				if (m && (putnum(&w->nums, k + 1) || putnum(&w->nums, m)))
+					return -1;
+			}
+		}
+	}
+	if (batch_init(b, cs->n))
 		return -1;
+	x = w->nums.data;
 	for (; b->n < cs->n; b->n++) {
 		const call *c = &cs->v[b->n];
-		size_t nk = c->keys.n;
+		size_t nk = c->keys.n, na = 7 + 5 * nk;
+		for (size_t k = 1; k < nk; k++)
+			na += 2 * (c->g[k].nh + c->g[k].ne);
 		argv_b *a = &b->args[b->n];
-		char (*nums)[24] = w->nums[b->n];
-		if (argv_init(a, 7 + nk + c->nhargs + c->neargs)) {
+		if (argv_init(a, na)) {
 			b->n++;
 			return -1;
 		}
-		snprintf(nums[0], 24, "%zu", nk);
-		snprintf(nums[1], 24, "%ld", c->nh);
-		snprintf(nums[2], 24, "%ld", c->ne);
 		argv_push(a, "EVALSHA", 7);
 		argv_push(a, r->sha_apply, 40);
-		argv_push(a, nums[0], strlen(nums[0]));
+		a->v[a->n] = chunk_get_str(&x, &a->l[a->n]), a->n++;
 		for (size_t i = 0; i < nk; i++) {
-			size_t n;
-			const char *k = st_key(&c->keys, i, &n);
-			argv_push(a, k, n);
+			const char *k = st_key(&c->keys, i, &l);
+			argv_push(a, k, l);
 		}
 		argv_push(a, dg, 32);
 		argv_push(a, r->ttl, strlen(r->ttl));
-		argv_push(a, nums[1], strlen(nums[1]));
-		for (const char *x = c->h.data, *xe = x + c->h.len; x < xe; a->n++)
-			a->v[a->n] = chunk_get_str(&x, &a->l[a->n]);
-		argv_push(a, nums[2], strlen(nums[2]));
-		for (const char *x = c->e.data, *xe = x + c->e.len; x < xe; a->n++)
-			a->v[a->n] = chunk_get_str(&x, &a->l[a->n]);
+		for (int h = 0; h < 2; h++) {
+			a->v[a->n] = chunk_get_str(&x, &a->l[a->n]), a->n++;
+			for (size_t k = 1; k < nk; k++) {
+				const kgroup *g = &c->g[k];
+				if (!(h ? g->ne : g->nh))
+					continue;
+				for (int q = 0; q < 2; q++) /* its index and size */
+					a->v[a->n] = chunk_get_str(&x, &a->l[a->n]), a->n++;
+				const tm_buf *fv[2] = {h ? &g->ef : &g->hf, h ? &g->ev : &g->hv};
+				for (int q = 0; q < 2; q++)
+					for (const char *p = fv[q]->data, *pe = p + fv[q]->len; p < pe; a->n++)
+						a->v[a->n] = chunk_get_str(&p, &a->l[a->n]);
+			}
+		}
 		b->cmds[b->n] = (rc_cmd){(int)a->n, a->v, a->l, c->slot, NULL};
 	}
 	return 0;
@@ -555,17 +686,18 @@ int sr_shares_send(rstore *r, sr_flight *f)
 	/* 2. the postings the chunk owns (and those without an id), each in
 	 * its period */
 	series_init(&agg, SERIES_AS_READ);
-	for (p = f->chunk.data; (got = chunk_next(&p, end, &rec)) == 1;) {
+	size_t nr = 0;
+	for (p = f->chunk.data; (got = chunk_next(&p, end, &rec)) == 1; nr++) {
 		tally_mem *m;
 		int k = 0;
 		if (rec.p.id) {
-			long idx = st_find(&w->ids, rec.p.id, rec.p.idlen);
-			if (!w->mine[idx] || (k = ids_add(&agg.ids, rec.p.id, rec.p.idlen)) == 0) {
+			/* another chunk's id, or one counted already in this chunk */
+			size_t idx = w->recid[nr] - 1;
+			if (w->mine[idx] != 1) {
 				w->repub++;
 				continue;
 			}
-			if (k < 0)
-				goto oom;
+			w->mine[idx] = 2;
 		}
 		if ((k = series_at(&agg, rec.period, rec.periodlen, &m, &why)) == -2)
 			goto oom;

@@ -13,7 +13,10 @@
  *                       spread over 64 keys by the hash of the field
  *   P:{k:NN}:L    set   the ledger of that key-total shard
  *   P:{i:NN}:i    hash  posting id -> the chunk that counts it (16 hex
- *                       digits of its digest), spread over 64 keys
+ *                       digits of its digest), spread over 64 keys; and
+ *                       "" (no posting id) -> SR_ID_NOTE, a value long
+ *                       enough that the server keeps the hash a hash
+ *                       table (store_redis_apply.c)
  *   P:{j:D}:j     hash  the journal of chunk D (32 hex digits): its
  *                       postings, while it is being loaded
  *                       (store_redis_chunk.c)

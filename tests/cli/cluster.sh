@@ -71,6 +71,17 @@ for p in $CL_PORTS; do
 	[ "$k" -gt 0 ] && n=$((n + 1))
 done
 check "every master holds a share" 3 "$n"
+# the same load with one and two cleaning threads, in chunks of 1,000
+# (many, two in flight at a time) and of 100,000: the memory's bytes
+for th in 1 2; do
+	for chunk in 1000 100000; do
+		for p in $CL_PORTS; do redis-cli -p "$p" flushall > /dev/null; done
+		"$T" tally --store "$C" --threads "$th" --chunk "$chunk" "$tmp/a.tsv" 2> /dev/null
+		check "load into the cluster [--threads $th --chunk $chunk]" 0 $?
+		"$T" counts --store "$C" | cmp -s - "$tmp/mem.a"
+		check "cluster = memory [--threads $th --chunk $chunk]" 0 $?
+	done
+done
 # by day: every day's hashes under their occupation's tag, as memory by
 # day, also after a loader killed half way through a chunk's shares
 "$T" tally --period day "$tmp/a.tsv" > "$tmp/mem.day" 2> /dev/null

@@ -49,7 +49,8 @@ redis-cli -s "$tmp/a/sock" flushall > /dev/null
 # (one line each below): the store reads back the bytes of the memory
 # default, and so does memory under those options
 for opts in \
-	"--memo 16" "--memo 0"; do
+	"--memo 16" "--memo 0" \
+	"--threads 1" "--threads 2"; do
 	# shellcheck disable=SC2086
 	$T tally $opts "$tmp/p.tsv" 2>/dev/null | cmp -s - "$tmp/mem.tsv"; check "memory-as-default-[$opts]" 0 $?
 	for chunk in 1000 100000; do
