@@ -23,7 +23,8 @@ secs() { awk -v a="$1" -v z="$2" 'BEGIN { printf "%.3f", (z - a) / 1e9 }'; }
 run() { # run LABEL URL FILE...: one loader per file, all at once
 	label=$1 url=$2; shift 2
 	t0=$(date +%s%N)
-	for f in "$@"; do "$T" tally --store "$url" "$f" 2>> "$tmp/load.err" & done
+	# shellcheck disable=SC2086
+	for f in "$@"; do "$T" tally --store "$url" ${OPTS:-} "$f" 2>> "$tmp/load.err" & done
 	wait
 	t1=$(date +%s%N)
 	s=$(secs "$t0" "$t1")
@@ -50,5 +51,15 @@ grep -v "chunks applied" "$tmp/load.err" | head -3
 for q in $CL_PORTS; do redis-cli -p "$q" flushall > /dev/null; done
 run "three-master cluster, two loaders (half each)" "$CL_URL" "$tmp/h1.tsv" "$tmp/h2.tsv"
 "$T" counts --store "$CL_URL" | cmp -s - "$tmp/mem.tsv" || echo "  (counts differ from memory!)"
+# loaders of one cleaning thread each: two of them can use the two
+# cores one leaves half idle, so their ratio shows whether the store
+# lets loaders work side by side
+for q in $CL_PORTS; do redis-cli -p "$q" flushall > /dev/null; done
+OPTS="--threads 1" run "three-master cluster, one loader, one cleaning thread" "$CL_URL" "$postings"
+single=$s
+for q in $CL_PORTS; do redis-cli -p "$q" flushall > /dev/null; done
+OPTS="--threads 1" run "three-master cluster, two loaders of one cleaning thread (half each)" "$CL_URL" "$tmp/h1.tsv" "$tmp/h2.tsv"
+"$T" counts --store "$CL_URL" | cmp -s - "$tmp/mem.tsv" || echo "  (counts differ from memory!)"
+awk -v a="$single" -v b="$s" 'BEGIN { printf "  two loaders of one thread: %.2f x the rate of one\n", a / b }'
 echo "  redis-benchmark --cluster SET -P 64 on it: $(redis-benchmark -p "$(echo "$CL_PORTS" | cut -d' ' -f1)" --cluster -t set -n 300000 -P 64 -q 2> /dev/null | tr -d '\r' | sed -n 's/.*SET: \([0-9.]*\) requests.*/\1/p') requests/s"
 echo "  (2 cores: the cluster shows correctness, not speed-up)"
