@@ -160,6 +160,24 @@ static int loc_word_(tm_title *ti, size_t k, const char *value, size_t *len)
 	return 1;
 }
 
+/* A location `after` word at unit e, after a place at unit k of the
+ * same segment (Paris area, Köln und Umgebung).  One written `edge`
+ * counts only where it ends its segment: "Madrid centro", not "ropa
+ * centro comercial" (the clean title is read again as one segment). */
+static int after_word(tm_title *ti, size_t e, size_t k, size_t *len)
+{
+	const lex_entry *x;
+	size_t a, b;
+
+	if (e >= ti->nunit || useg(ti, e) != useg(ti, k) ||
+	    !(x = match_val(ti, e, LC_LOCATION, "after", 1, len)))
+		return 0;
+	if (x->where != LW_EDGE)
+		return 1;
+	seg_kept(ti, useg(ti, e), &a, &b);
+	return e + *len == b;
+}
+
 /* An acronym in a mixed-case title is no place unless the lexicon
  * writes the place in capitals too: (OSS) is a qualification, not Oss;
  * NRW is a region. */
@@ -224,7 +242,7 @@ static size_t place_run(tm_title *ti, size_t k, size_t plen, int allow_strong)
 		else
 			break;
 	}
-	if (e < ti->nunit && loc_word(ti, e, "after", &len))
+	if (after_word(ti, e, k, &len))
 		e += len;
 	if ((len = postcode_at(ti, e)) && useg(ti, e) == useg(ti, k))
 		e += len;
@@ -316,8 +334,11 @@ static int slots(tm_title *ti)
 		/* Paris area, Köln und Umgebung, Paris 75001 */
 		if (place_at(ti, k, &plen, &strong, &cc)) {
 			size_t e = k + plen;
-			if (e < ti->nunit && (loc_word(ti, e, "after", &len) ||
-					      (len = postcode_at(ti, e)))) {
+			/* the word after it in its own segment: "Ropa - Centro
+			 * Comercial" is no "Ropa Centro" */
+			if (after_word(ti, e, k, &len) ||
+			    (e < ti->nunit && useg(ti, e) == useg(ti, k) &&
+			     (len = postcode_at(ti, e)))) {
 				e = place_run(ti, k, plen, 1);
 				if (take(ti, k, e))
 					return -1;
