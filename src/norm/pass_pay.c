@@ -220,7 +220,9 @@ static int grade_code(tm_title *ti, size_t k)
 	/* one letter (a byte, or a two-byte letter: Γ) */
 	if (t->len == 1 || (t->len == 2 && (t->flags & TF_NONASCII)))
 		return 1;
-	return (t->flags & TF_ALLCAPS) && t->len <= 4;
+	/* capitals tell a code from a word only in a line not all in
+	 * capitals: "CHEF DE RANG" holds no grade RANG */
+	return (t->flags & TF_ALLCAPS) && t->len <= 4 && !ti->caps;
 }
 
 /* A pay-scale word at unit k (pay "lead", "Besoldungsgruppe", "schaal";
@@ -238,7 +240,7 @@ static inline size_t grade_word(tm_title *ti, size_t k, size_t k0)
 	/* a short word leads an amount ("de 30 a 40 €", "bis 22 €"); as a
 	 * grade word it is written in capitals: E 12, VG 5, GS-11 */
 	if (len == 1 && t->kind == TK_WORD && t->flen <= 3 &&
-	    !(t->flags & TF_ALLCAPS) && !(t->len == 1 && (t->flags & TF_CAP)))
+	    (!(t->flags & TF_ALLCAPS) || ti->caps) && !(t->len == 1 && (t->flags & TF_CAP)))
 		return 0;
 	return len;
 }

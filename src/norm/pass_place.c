@@ -455,6 +455,24 @@ static int occupation_word(tm_title *ti, size_t s)
 	return 0;
 }
 
+/* Is segment s the only kept segment with an occupational word?  Then
+ * a place that is also one ("Kock", "Tolk", "Holič") is the title, what
+ * else the line holds ("tillsvidare - Kock (senior), Malmö"). */
+static int only_occupation(tm_title *ti, size_t s)
+{
+	size_t a, b;
+	if (!occupation_word(ti, s))
+		return 0;
+	for (size_t t = 0; t < ti->nseg; t++) {
+		if (t == s)
+			continue;
+		seg_kept(ti, t, &a, &b);
+		if (a < b && (occupation_word(ti, t) || head_within(ti, a, b)))
+			return 0;
+	}
+	return 1;
+}
+
 /* A bracket or later segment made only of location words.  When the
  * rules before removed every other segment as noise ("Teilzeit: Kock"),
  * a place that is also an occupational word is the title. */
@@ -471,7 +489,7 @@ static int whole_segments(tm_title *ti)
 		if (!g->bracket && g->index == 0 && !g->resumed)
 			continue;
 		if (place_segment(ti, s, caps, 0) &&
-		    (with > 1 || !occupation_word(ti, s))) {
+		    ((with > 1 && !only_occupation(ti, s)) || !occupation_word(ti, s))) {
 			if (remove_place_segment(ti, s))
 				return -1;
 			with--;
@@ -618,6 +636,18 @@ static inline const lex_entry *legal_form(tm_title *ti, size_t k, size_t *len)
 	return e;
 }
 
+/* Is the word of unit k a Roman numeral in capitals (I, II, IV, XII):
+ * a rung of a career ladder ("Nurse II"), which folds like a legal form
+ * of some language (Lithuanian IĮ folds to "ii")? */
+static int roman_numeral(tm_title *ti, size_t k)
+{
+	const tm_tok *t = U(ti, k);
+	const char *p = ti->text + t->off;
+	if (t->kind != TK_WORD || !(t->flags & TF_ALLCAPS) || t->len > 4)
+		return 0;
+	return strspn(p, "IVX") >= t->len;
+}
+
 /* A legal form of any language written in capitals at the end of a
  * segment, after a capitalised name: Norrsvalk Krog AB, Mirandol SAS. */
 static int caps_legal(tm_title *ti, size_t k, size_t *len)
@@ -625,7 +655,7 @@ static int caps_legal(tm_title *ti, size_t k, size_t *len)
 	size_t k0, k1;
 	const lex_entry *e;
 	if (!(U(ti, k)->flags & TF_ALLCAPS) || k == 0 || !cap_word(ti, k - 1) ||
-	    !ukept(ti, k - 1))
+	    !ukept(ti, k - 1) || roman_numeral(ti, k))
 		return 0;
 	ti->any_lang = 1;
 	e = legal_form(ti, k, len);
@@ -682,6 +712,15 @@ static int form_before_name(tm_title *ti, size_t s, size_t k, size_t len,
 	return head_within(ti, k0, k);
 }
 
+/* Does [k0, k1) hold a kept word written in lower case? */
+static int lower_within(tm_title *ti, size_t k0, size_t k1)
+{
+	for (size_t k = k0; k < k1; k++)
+		if (ukept(ti, k) && U(ti, k)->kind == TK_WORD && !cap_word(ti, k))
+			return 1;
+	return 0;
+}
+
 int pass_employer(tm_title *ti)
 {
 	size_t k, len, k0, k1;
@@ -712,9 +751,16 @@ int pass_employer(tm_title *ti)
 			}
 		}
 		if (start == SIZE_MAX) {
-			if (g->bracket || g->index > 0)
+			/* an occupation named before the firm in its segment
+			 * (a head of occupation/), a word not capitalised
+			 * between them, stays: "Oferta: Vendedor en Transportes
+			 * Aldevia S.A." (not "Valdoria Logistik GmbH",
+			 * "Logistica Brembana e Figli S.r.l.") */
+			int occ = !caps && k > k0 && cap_word(ti, k - 1) &&
+				  head_within(ti, k0, k) && lower_within(ti, k0, k);
+			if ((g->bracket || g->index > 0) && !occ)
 				start = k0;
-			else if (k > k0 && k - k0 <= 3 &&
+			else if (k > k0 && k - k0 <= 3 && !occ &&
 				 (k + len < k1 || later_content(ti, s)))
 				start = k0; /* Nordwerk GmbH sucht ..., Nordwerk GmbH - Koch */
 			else {
