@@ -5,7 +5,8 @@
  * region word (area, und Umgebung), next to a postcode, or as the whole
  * of a bracket or of a later segment (" - Köln", ", Paris", "(Berlin)"),
  * or, capitalised, at the end of a segment right after an occupational
- * word ("Lagerhelfer Hamburg": pass_trailing_place).  Place names that are also ordinary words (WHERE `strong`) need the
+ * word ("Lagerhelfer Hamburg": pass_trailing_place).  Place names that
+ * are also ordinary words (WHERE `strong`) need the
  * first three.  A case form (WHERE `any`: Helsingissä, Tartus) is a
  * location wherever it stands; a place adjective (WHERE `adjective`:
  * Münchner) is one only before a region word (im Münchner Norden). */
@@ -456,8 +457,8 @@ static int occupation_word(tm_title *ti, size_t s)
 }
 
 /* Is segment s the only kept segment with an occupational word?  Then
- * a place that is also one ("Kock", "Tolk", "Holič") is the title, what
- * else the line holds ("tillsvidare - Kock (senior), Malmö"). */
+ * a place that is also one ("Kock", "Tolk") is the title, whatever else
+ * the line holds ("tillsvidare - Kock (senior), Malmö"). */
 static int only_occupation(tm_title *ti, size_t s)
 {
 	size_t a, b;
@@ -576,8 +577,9 @@ static int occupation_before(tm_title *ti, size_t k0, size_t k)
 
 /* Places that end a segment right after an occupational phrase, with
  * only a space between (run after the segments' roles are decided, so
- * that no rule reads the words before as a place's name): "Koch Berlin", "Sales Manager Germany", "Key
- * Account Manager Benelux".  Only places whose place sense is the usual
+ * that no rule reads the words before as a place's name): "Koch
+ * Berlin", "Sales Manager Germany", "Key Account Manager Benelux".
+ * Only places whose place sense is the usual
  * one (not `strong`: "Fahrer Essen" keeps Essen), written with a capital
  * in a line not all in capitals (a village named like a word,
  * "Îngrijitor bătrâni", stays), not glued to the word before
@@ -594,7 +596,6 @@ int pass_trailing_place(tm_title *ti)
 		seg_kept(ti, s, &k0, &k1);
 		for (size_t k = k0 + 1; k < k1; k++) {
 			if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
-			    !(ti->ucats[k] & (1u << LC_PLACE)) ||
 			    !place_at(ti, k, &len, &strong, &cc))
 				continue;
 			if (strong || !(U(ti, k)->flags & TF_CAP) || acronym(ti, k, len, 0) ||
