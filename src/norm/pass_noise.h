@@ -1,7 +1,7 @@
-/* pass_noise.h - what the noise rules share, included by their three
+/* pass_noise.h - what the noise rules share, included by their four
  * files only: pass_contact.c (contact data, reference codes and dates),
- * pass_pay.c (pay, grades, schedule numbers, days and clock times) and
- * pass_noise.c (hashtags and the edge phrases). */
+ * pass_pay.c (pay, grades, schedule numbers), pass_days.c (days, clock
+ * times, head counts) and pass_noise.c (hashtags and the edge phrases). */
 #ifndef TM_PASS_NOISE_H
 #define TM_PASS_NOISE_H
 
@@ -80,5 +80,12 @@ size_t noise_amount(tm_title *ti, size_t k, int *cur, int *unit);
 /* Removes a year or date at a segment edge at unit k; returns 1 when it
  * did, else 0 (pass_contact.c). */
 int noise_date_at_edge(tm_title *ti, size_t k);
+
+/* Clock ranges wherever a time is written as one ("6am-9am",
+ * "22:00–06:00"), removed as schedule; run first by pass_pay, so that
+ * "6.00-14.00" is no amount (pass_days.c).  Returns 0 or -1. */
+int clock_ranges_anywhere(tm_title *ti);
+/* The end of a rotation at unit k ("2/2", "14/14"), or 0 (pass_pay.c). */
+size_t rotation(tm_title *ti, size_t k);
 
 #endif
