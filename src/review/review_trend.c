@@ -234,17 +234,18 @@ int rq_trend_tsv_head(rq_trend_tsv *h, const char *line, size_t n, const char *w
 	return TM_OK;
 }
 
-/* A whole number: digits only, no sign, at most 2^64 - 1. */
+/* A whole number: digits only, no sign, at most 2^63 - 1 (what a JSON
+ * reader takes as an integer). */
 static int is_count(const char *s, size_t n)
 {
 	uint64_t v = 0;
-	if (!n || n > 20)
+	if (!n || n > 19)
 		return 0;
 	for (size_t i = 0; i < n; i++) {
 		if (s[i] < '0' || s[i] > '9')
 			return 0;
 		unsigned d = (unsigned)(s[i] - '0');
-		if (v > (UINT64_MAX - d) / 10)
+		if (v > ((uint64_t)INT64_MAX - d) / 10)
 			return 0;
 		v = v * 10 + d;
 	}
@@ -284,6 +285,10 @@ static int is_number(const char *s, size_t n)
 	}
 	if (i != n)
 		return 0;
+	/* without a fraction or an exponent it is an integer to a JSON
+	 * reader: one that fits in 64 bits */
+	if (!memchr(s, '.', n) && !memchr(s, 'e', n) && !memchr(s, 'E', n))
+		return is_count(s[0] == '-' ? s + 1 : s, s[0] == '-' ? n - 1 : n);
 	memcpy(tmp, s, n);
 	tmp[n] = 0;
 	errno = 0;

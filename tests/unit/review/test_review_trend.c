@@ -259,6 +259,9 @@ static void test_tsv_rows(void **state)
 		{"\t41\t", "\t041\t", "\"postings_after\" must be a whole number"},
 		{"\t41\t", "\t 41\t", "\"postings_after\" must be a whole number"},
 		{"\t41\t", "\t18446744073709551616\t", "\"postings_after\" must be a whole number"},
+		/* past 2^63 - 1 no JSON reader takes it as an integer */
+		{"\t41\t", "\t9223372036854775808\t", "\"postings_after\" must be a whole number"},
+		{"52.1000", "3333333333333333333333333333333333333333", "\"g2\" must be a number"},
 		{"52.1000", "nan", "\"g2\" must be a number"},
 		{"52.1000", "0x1p3", "\"g2\" must be a number"},
 		{"52.1000", "1e999", "\"g2\" must be a number"},
