@@ -73,7 +73,8 @@ sed 's/^titlemill overlap: /  /' "$out/overlap.log"
 awk -F '\t' '$1 == "overlapping_occupations"' "$out/overlap.tsv" | head -4 |
 	awk -F '\t' '{ printf "  %s %s %-22s ~ %s %-24s divergence %s, shared %s\n", $6, $2, $3, $4, $5, $7, $8 }'
 awk -F '\t' '$1 == "nearer_other_group"' "$out/overlap.tsv" | head -2 |
-	awk -F '\t' '{ printf "  %s %s %s: filed in %s (%s bits), nearer %s (%s bits): %s\n", $6, $2, $3, $11, $13, $12, $7, substr($14, 1, 60) }'
+	awk -F '\t' '{ ev = $14; if (length(ev) > 64) { ev = substr(ev, 1, 64); sub(/; [^;]*$/, "; ...", ev) }
+		printf "  %s %s %s: filed in %s (%s bits), nearer %s (%s bits): %s\n", $6, $2, $3, $11, $13, $12, $7, ev }'
 echo
 echo "== what changed in March: titlemill trend (weeks 10-11 against weeks 12-13)"
 "$T" tally --period week --labels "$here/taxonomy.tsv" -o "$out/weeks.counts.tsv" "$out/day.tsv" 2>/dev/null

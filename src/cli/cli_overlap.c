@@ -326,14 +326,28 @@ int cli_load_groups(const char *cmd, const char *groups, const char *level, uint
 	return rc;
 }
 
+/* Decimals enough to show a share that is not zero as such: one from 1 % on,
+ * more below, so that 3 pairs of 4,498,500 read 0.00007 %, not 0.0 %. */
+static int pct_digits(double pct)
+{
+	int d = 1;
+
+	while (d < 6 && pct > 0.0 && pct < 1.0) {
+		pct *= 10.0;
+		d++;
+	}
+	return d;
+}
+
 static void summary(const overlap_stats *s, const overlap_cli *o, const groupmap *g)
 {
+	double pct = s->pairs_all ? 100.0 * (double)s->pairs_compared / (double)s->pairs_all : 0.0;
+
 	fprintf(stderr, "titlemill overlap: %llu occupation-language distribution%s; %llu pair%s "
-		"compared of %llu (%.4f %%)",
+		"compared of %llu (%.*f %%)",
 		(unsigned long long)s->distributions, s->distributions == 1 ? "" : "s",
 		(unsigned long long)s->pairs_compared, s->pairs_compared == 1 ? "" : "s",
-		(unsigned long long)s->pairs_all,
-		s->pairs_all ? 100.0 * (double)s->pairs_compared / (double)s->pairs_all : 0.0);
+		(unsigned long long)s->pairs_all, pct_digits(pct), pct);
 	if (s->pairs_small)
 		fprintf(stderr, "; %llu skipped (fewer than %llu postings on a side)",
 			(unsigned long long)s->pairs_small, (unsigned long long)o->min_postings);

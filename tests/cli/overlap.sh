@@ -230,6 +230,8 @@ check common-status 0 $?
 check common-pairs 1 "$(wc -l < "$tmp/common.out")"
 grep -q '1 pairs\? compared of 1124250 .*1 title held by more than 1000 occupations made no pairs' "$tmp/common.err"
 check common-said 0 $?
+# a share under 1 % keeps the digits that show it (1 of 1,124,250 is 0.000089 %)
+grep -q 'compared of 1124250 (0.000089 %)' "$tmp/common.err"; check small-share-shown 0 $?
 # the capped title still counts in the pair found: 3 keys, 2 shared of 1/3 each
 check common-exact "0.3333 0.6667" "$(/usr/bin/python3 -c '
 import json, sys; r = json.loads(open(sys.argv[1]).readline()); print("%.4f %.4f" % (r["divergence"], r["shared"]))' "$tmp/common.out")"
