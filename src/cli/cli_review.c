@@ -316,7 +316,10 @@ static int parse_opts(int argc, char **argv, const char *sub, review_opts *o, in
 		sub_help(sub);
 		return 1;
 	}
-	switch (opt_parse(&review_cmd, o, argc, argv, first)) {
+	char help_as[64];
+
+	snprintf(help_as, sizeof help_as, "review %s", sub);
+	switch (opt_parse_as(&review_cmd, help_as, o, argc, argv, first)) {
 	case OPT_HELP_SHOWN: return 1;
 	case OPT_MISUSE: return EXIT_USAGE;
 	}

@@ -196,8 +196,8 @@ static int take(const opt_cmd *cmd, const opt_spec *s, void *o, const char *arg)
  * an option the command does not have, an abbreviation of several, a
  * value missing or given to a flag; then where the options are listed
  * (the whole help is not repeated: it would bury the message). */
-static void misuse(const opt_cmd *cmd, const struct option *lo, const char *bad, int letter,
-		   int missing)
+static void misuse(const opt_cmd *cmd, const char *help_as, const struct option *lo,
+		   const char *bad, int letter, int missing)
 {
 	char shortopt[3] = {'-', (char)letter, 0};
 	const char *arg = letter ? shortopt : bad ? bad : "?";
@@ -223,10 +223,16 @@ static void misuse(const opt_cmd *cmd, const struct option *lo, const char *bad,
 				fprintf(stderr, " --%s", lo[k].name);
 	} else
 		fprintf(stderr, "unknown option '%s'", arg);
-	fprintf(stderr, " (the options: titlemill %s --help)\n", cmd->name);
+	fprintf(stderr, " (the options: titlemill %s --help)\n", help_as ? help_as : cmd->name);
 }
 
 int opt_parse(const opt_cmd *cmd, void *o, int argc, char **argv, int *first)
+{
+	return opt_parse_as(cmd, NULL, o, argc, argv, first);
+}
+
+int opt_parse_as(const opt_cmd *cmd, const char *help_as, void *o, int argc, char **argv,
+		 int *first)
 {
 	struct option lo[MAX_SPECS + 2];
 	char letters[2 * MAX_SPECS + 3] = ":h";
@@ -263,7 +269,7 @@ int opt_parse(const opt_cmd *cmd, void *o, int argc, char **argv, int *first)
 			return OPT_HELP_SHOWN;
 		}
 		if (ch == '?' || ch == ':') {
-			misuse(cmd, lo, optind > 0 && optind <= argc ? argv[optind - 1] : NULL,
+			misuse(cmd, help_as, lo, optind > 0 && optind <= argc ? argv[optind - 1] : NULL,
 			       optopt > 0 && optopt < 0x100 ? optopt : 0, ch == ':');
 			return OPT_MISUSE;
 		}

@@ -138,6 +138,10 @@ enum { OPT_RUN, OPT_HELP_SHOWN, OPT_MISUSE };
  * or given to a flag: one line that points to --help).  A command
  * returns EXIT_OK, EXIT_USAGE for the last two. */
 int opt_parse(const opt_cmd *cmd, void *o, int argc, char **argv, int *first);
+/* As opt_parse, for a command whose options a subcommand lists: a misuse
+ * points to "titlemill HELP_AS --help" ("review add"). */
+int opt_parse_as(const opt_cmd *cmd, const char *help_as, void *o, int argc, char **argv,
+		 int *first);
 
 /* The help of cmd: the synopsis, then one line per option with its
  * meaning and its default, then -h, --help. */

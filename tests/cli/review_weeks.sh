@@ -71,7 +71,7 @@ run noise-words --help | grep -q "Candidates for a curator" || check "noise-word
 run list --note --help $Q > /dev/null 2>&1
 check "an option's value that reads --help is no help" 2 $?
 got=$("$T" review list --bogus 2>&1 | head -1)
-check "an unknown option: named as ours" "titlemill review: unknown option '--bogus' (the options: titlemill review --help)" "$got"
+check "an unknown option: named as ours" "titlemill review: unknown option '--bogus' (the options: titlemill review list --help)" "$got"
 got=$("$T" review list --bogus 2>&1 | wc -l)
 check "an unknown option: one line, not the whole help" 1 "$got"
 
