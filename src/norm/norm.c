@@ -93,13 +93,16 @@ static int put_lower(const char *text, tm_buf *b, const tm_tok *t, unsigned opt)
 {
 	const char *p = text + t->off;
 	if (!(t->flags & TF_NONASCII) && (unsigned char)p[0] < 0x80 && !opt) {
-		if ((b->cap - b->len < t->len || !b->data) && buf_reserve(b, t->len) != 0)
+		/* the length in a local: a store through d may alias the
+		 * token and would reload it at every byte */
+		const unsigned char *q = (const unsigned char *)p;
+		size_t len = t->len;
+		if ((b->cap - b->len < len || !b->data) && buf_reserve(b, len) != 0)
 			return -1;
-		char *d = b->data + b->len;
-		for (size_t i = 0; i < t->len; i++) {
-			d[i] = (char)uni_ascii_lower[(unsigned char)p[i]];
-		}
-		b->len += t->len;
+		unsigned char *d = (unsigned char *)b->data + b->len;
+		for (size_t i = 0; i < len; i++)
+			d[i] = uni_ascii_lower[q[i]];
+		b->len += len;
 		return 0;
 	}
 	return uni_lower_word(p, t->len, opt, b);

@@ -75,14 +75,18 @@ static int is_fem(tm_title *ti, const char *a, size_t an, const char *b,
 	int stem = an >= 2 && bn >= 2 && a[0] == b[0] && a[1] == b[1];
 	if (an < 2 || bn < 2)
 		return 0;
-	g = lex_pairs_fem_last(ti->lx, (unsigned char)b[bn - 1], &m);
-	for (i = 0; i < m; i++)
-		if (fem_pair(ti, &p[g[i]], a, an, b, bn, stem))
-			return 1;
-	g = lex_pairs_fem_last(ti->lx, -1, &m);
-	for (i = 0; i < m; i++)
-		if (fem_pair(ti, &p[g[i]], a, an, b, bn, stem))
-			return 1;
+	/* a pair fits only when b ends with its feminine ending and a
+	 * with its masculine one, what precedes them as long in both
+	 * (sa == sb in fem_pair): the pairs whose endings end as b and a
+	 * do, or are empty (256), and differ in length as a and b do */
+	const unsigned fl[4] = { (unsigned char)b[bn - 1], (unsigned char)b[bn - 1], 256, 256 };
+	const unsigned ml[4] = { (unsigned char)a[an - 1], 256, (unsigned char)a[an - 1], 256 };
+	for (int w = 0; w < 4; w++) {
+		g = title_pairs(ti, fl[w], ml[w], (long)an - (long)bn, &m);
+		for (i = 0; i < m; i++)
+			if (fem_pair(ti, &p[g[i]], a, an, b, bn, stem))
+				return 1;
+	}
 	return 0;
 }
 

@@ -215,8 +215,11 @@ static inline int ann_kept(const tm_title *ti, size_t k, uint32_t i)
 	return 1;
 }
 
-static const lex_entry *match_gen(tm_title *ti, size_t k, unsigned mask,
-				  const char *value, int kept, size_t *len)
+/* Inline in its three callers: each asks with a value or without one,
+ * and the tests of the other kind go. */
+__attribute__((always_inline)) static inline const lex_entry *
+match_gen(tm_title *ti, size_t k, unsigned mask, const char *value, int kept,
+	  size_t *len)
 {
 	if (k >= ti->nunit)
 		return NULL;
@@ -369,6 +372,46 @@ int glued(const tm_title *ti, size_t a, size_t b, const char *puncts)
 	return 1;
 }
 
+/* The bucket of a pair in title_pairs. */
+static size_t pair_bucket(const lex_pair *q)
+{
+	unsigned fl = q->flen ? (unsigned char)q->fem[q->flen - 1] : 256;
+	unsigned ml = q->mlen ? (unsigned char)q->masc[q->mlen - 1] : 256;
+	return title_pair_bucket(fl, ml, (long)q->mlen - (long)q->flen);
+}
+
+/* Groups the lexicon's pairs by bucket (a counting sort: file order
+ * kept within a bucket).  Returns 0 or -1 (memory; nothing changed). */
+static int pairs_index(tm_title *ti)
+{
+	size_t n, b;
+	const lex_pair *p = lex_pairs(ti->lx, &n);
+	uint32_t *beg = calloc(TITLE_PAIR_BUCKETS + 1, sizeof *beg);
+	uint32_t *idx = malloc((n ? n : 1) * sizeof *idx);
+
+	if (!beg || !idx || n >= UINT32_MAX) {
+		free(beg);
+		free(idx);
+		return -1;
+	}
+	for (size_t i = 0; i < n; i++)
+		beg[pair_bucket(&p[i]) + 1]++;
+	for (b = 0; b < TITLE_PAIR_BUCKETS; b++)
+		beg[b + 1] += beg[b];
+	for (size_t i = 0; i < n; i++)
+		idx[beg[pair_bucket(&p[i])]++] = (uint32_t)i;
+	/* each start went on to the next bucket's: shift them back */
+	for (b = TITLE_PAIR_BUCKETS; b > 0; b--)
+		beg[b] = beg[b - 1];
+	beg[0] = 0;
+	free(ti->pbeg);
+	free(ti->pidx);
+	ti->pbeg = beg;
+	ti->pidx = idx;
+	ti->npairs = n;
+	return 0;
+}
+
 int title_build(tm_title *ti)
 {
 	tok_line *tl = &ti->tl;
@@ -378,9 +421,13 @@ int title_build(tm_title *ti)
 
 	if (grow_arrays(ti, tl->n + 1) != 0)
 		return -1;
-	if (ti->wmem_lx != ti->lx) {
+	size_t npairs;
+	(void)lex_pairs(ti->lx, &npairs);
+	if (ti->wmem_lx != ti->lx || !ti->pbeg || ti->npairs != npairs) {
 		/* remembered for one lexicon: forget on a change */
 		if (!ti->wmem && !(ti->wmem = malloc(sizeof *ti->wmem << TITLE_WORDMEM_BITS)))
+			return -1;
+		if (pairs_index(ti) != 0)
 			return -1;
 		for (size_t i = 0; i < (size_t)1 << TITLE_WORDMEM_BITS; i++)
 			ti->wmem[i].flen = 0;
@@ -548,5 +595,7 @@ void title_free(tm_title *ti)
 	free(ti->uword);
 	free(ti->uend);
 	free(ti->wmem);
+	free(ti->pbeg);
+	free(ti->pidx);
 	memset(ti, 0, sizeof *ti);
 }

@@ -74,8 +74,10 @@ typedef struct tm_ann {
  * of job titles repeat from line to line, and the lexicon's tables are
  * far larger than a processor's cache.  Direct-mapped by the fold's
  * hash, the fold kept to tell words apart; words longer than
- * TITLE_WORDMEM_FOLD bytes are looked up every time. */
-#define TITLE_WORDMEM_BITS 12
+ * TITLE_WORDMEM_FOLD bytes are looked up every time.  16,384 slots of
+ * 40 bytes (640 KiB, within a core's second-level cache): with 4,096 a
+ * word of the bench titles went to the lexicon three times as often. */
+#define TITLE_WORDMEM_BITS 14
 #define TITLE_WORDMEM_FOLD 22
 typedef struct tm_wordmem {
 	uint64_t hash;
@@ -128,6 +130,11 @@ typedef struct tm_title {
 	uint32_t *nextk;  /* the first unit from each that the gender rule kept */
 	tm_wordmem *wmem; /* 1 << TITLE_WORDMEM_BITS slots, for lx */
 	const lexicon *wmem_lx;
+	/* the gendered pairs (lex_pairs) by the last bytes of their two
+	 * endings, for wmem_lx: title_pairs */
+	uint32_t *pbeg;   /* TITLE_PAIR_BUCKETS + 1 offsets into pidx */
+	uint32_t *pidx;   /* pair indices, in file order within a bucket */
+	size_t npairs;    /* lex_pairs' count when built */
 	uint8_t caps;     /* all_caps_line: most words of the line in capitals */
 	unsigned lcats;   /* all categories of the line */
 	unsigned lflags;  /* LF_* */
@@ -143,6 +150,26 @@ int title_build(tm_title *ti);
 /* Finds every lexicon phrase starting at every unit (units removed as
  * gender markers are transparent inside a phrase).  Returns 0 or -1. */
 int title_scan(tm_title *ti);
+
+/* The gendered pairs whose feminine ending ends with byte fl, whose
+ * masculine ending ends with byte ml (256: the ending is empty) and
+ * whose masculine ending is d bytes longer than the feminine one (d
+ * negative when shorter), and perhaps a few others: indices into
+ * lex_pairs(), in file order, *n of them (built by title_build for the
+ * title's lexicon).  A pair that is so is always among them. */
+#define TITLE_PAIR_BUCKETS 1021
+static inline size_t title_pair_bucket(unsigned fl, unsigned ml, long d)
+{
+	return ((fl * 257u + ml) * 64u + ((unsigned long)d & 63u)) % TITLE_PAIR_BUCKETS;
+}
+
+static inline const uint32_t *title_pairs(const tm_title *ti, unsigned fl,
+					  unsigned ml, long d, size_t *n)
+{
+	size_t b = title_pair_bucket(fl, ml, d);
+	*n = ti->pbeg[b + 1] - ti->pbeg[b];
+	return ti->pidx + ti->pbeg[b];
+}
 
 /* Token of unit k, and shorthands. */
 static inline tm_tok *U(const tm_title *ti, size_t k) { return &ti->tl.t[ti->unit[k]]; }

@@ -363,21 +363,25 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 			if (uni_fold(u, p, t->len, &tl->fold) != 0)
 				return -1;
 		} else {
-			/* ASCII: lowercase and hash in one go */
+			/* ASCII: lowercase and hash in one go (the length
+			 * and pointers in locals: a store through d may
+			 * alias any of the token's fields) */
 			uint64_t h = 0xCBF29CE484222325ULL;
-			char *d;
-			if (tl->fold.cap - tl->fold.len < t->len &&
-			    buf_reserve(&tl->fold, t->len) != 0)
+			const unsigned char *q = (const unsigned char *)p;
+			unsigned char *d;
+			size_t len = t->len;
+			if (tl->fold.cap - tl->fold.len < len &&
+			    buf_reserve(&tl->fold, len) != 0)
 				return -1;
-			d = tl->fold.data + tl->fold.len;
-			for (size_t j = 0; j < t->len; j++) {
-				unsigned char ch = uni_ascii_lower[(unsigned char)p[j]];
-				d[j] = (char)ch;
+			d = (unsigned char *)tl->fold.data + tl->fold.len;
+			for (size_t j = 0; j < len; j++) {
+				unsigned char ch = uni_ascii_lower[q[j]];
+				d[j] = ch;
 				h ^= ch;
 				h *= 0x100000001B3ULL;
 			}
-			tl->fold.len += t->len;
-			t->flen = t->len;
+			tl->fold.len += len;
+			t->flen = (uint32_t)len;
 			t->hash = h ^ (h >> 29);
 			continue;
 		}

@@ -183,6 +183,52 @@ static void test_occupational_words_and_endings(void **state)
 	at_is(1, "");
 }
 
+/* Every gendered pair is found under the last bytes of its endings and
+ * their difference in length, in file order, also for pairs added after
+ * a title was built (the index follows the lexicon). */
+static void pairs_found(void)
+{
+	size_t n, m;
+	const lex_pair *p = lex_pairs(LX, &n);
+	assert_true(n > 0);
+	for (size_t i = 0; i < n; i++) {
+		unsigned fl = p[i].flen ? (unsigned char)p[i].fem[p[i].flen - 1] : 256;
+		unsigned ml = p[i].mlen ? (unsigned char)p[i].masc[p[i].mlen - 1] : 256;
+		const uint32_t *g = title_pairs(&TI, fl, ml, (long)p[i].mlen - (long)p[i].flen, &m);
+		size_t seen = 0;
+		for (size_t j = 0; j < m; j++) {
+			if (j)
+				assert_true(g[j - 1] < g[j]);
+			seen += g[j] == i;
+		}
+		if (seen != 1)
+			fail_msg("pair %zu (%s/%s) found %zu times", i, p[i].masc, p[i].fem, seen);
+	}
+}
+
+static void load_pairs(const char *lines)
+{
+	tm_buf err = {0}, text = {0};
+	assert_int_equal(buf_puts(&text, lines), 0);
+	assert_int_equal(buf_reserve(&text, 1), 0);
+	if (lex_load_text(LX, LC_MARKER, 3, "pairs-test.txt", text.data, text.len, &err) != 0)
+		fail_msg("%.*s", (int)err.len, err.data);
+	buf_free(&err);
+	buf_free(&text);
+}
+
+static void test_pairs_by_endings(void **state)
+{
+	(void)state;
+	load_pairs("de\t-\tin\nde\tmann\tfrau\nfr\teur\teuse\nfr\tr\tse\n"
+		   "fr\ter\tère\nes\to\ta\nfr\t-\te\nes\to\t@\nda\ttjener\tservitrice\n");
+	scan("Koch");
+	pairs_found();
+	load_pairs("nl\ter\tster\npl\tik\ticzka\nhr\tik\tica\n");
+	scan("Koch");
+	pairs_found();
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -191,6 +237,7 @@ int main(void)
 		cmocka_unit_test(test_removed_markers_are_transparent),
 		cmocka_unit_test(test_walks_stop_early),
 		cmocka_unit_test(test_occupational_words_and_endings),
+		cmocka_unit_test(test_pairs_by_endings),
 	};
 	return cmocka_run_group_tests_name("title", tests, setup, teardown);
 }
