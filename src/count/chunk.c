@@ -4,15 +4,23 @@
 #include <stdio.h>
 #include <string.h>
 
-#include "norm/token.h"
+uint64_t chunk_hash(const char *s, size_t n)
+{
+	uint64_t h = 0xCBF29CE484222325ULL;
+	for (size_t i = 0; i < n; i++) {
+		h ^= (unsigned char)s[i];
+		h *= 0x100000001B3ULL;
+	}
+	return h ^ (h >> 29);
+}
 
 void chunk_digest_start(uint64_t dg[2], int kind)
 {
 	dg[0] = 0x84222325CBF29CE4ULL;
 	dg[1] = 0x9E3779B97F4A7C15ULL;
 	if (kind != PERIOD_NONE) {
-		dg[0] = tok_hash_mix(dg[0], 0x7E110D00u + (unsigned)kind);
-		dg[1] = tok_hash_mix(dg[1] ^ 0x7E110D, (uint64_t)kind);
+		dg[0] = chunk_mix(dg[0], 0x7E110D00u + (unsigned)kind);
+		dg[1] = chunk_mix(dg[1] ^ 0x7E110D, (uint64_t)kind);
 	}
 }
 
@@ -21,21 +29,21 @@ void chunk_digest_posting(uint64_t dg[2], const posting *p)
 	const char *fv[4] = {p->id ? p->id : "", p->lang, p->title, p->date ? p->date : ""};
 	size_t fl[4] = {p->id ? p->idlen : 0, strlen(p->lang), p->titlelen, p->date ? p->datelen : 0};
 	for (int f = 0; f < 4; f++) {
-		uint64_t h = tok_hash(fv[f], fl[f]);
-		dg[0] = tok_hash_mix(dg[0], h ^ (uint64_t)f);
-		dg[1] = tok_hash_mix(dg[1] ^ 0x5555, h + fl[f]);
+		uint64_t h = chunk_hash(fv[f], fl[f]);
+		dg[0] = chunk_mix(dg[0], h ^ (uint64_t)f);
+		dg[1] = chunk_mix(dg[1] ^ 0x5555, h + fl[f]);
 	}
 	for (size_t q = 0; q < p->nocc; q++) {
-		uint64_t h = tok_hash(p->occ[q], p->occlen[q]);
-		dg[0] = tok_hash_mix(dg[0], h);
-		dg[1] = tok_hash_mix(dg[1] ^ 0xAAAA, h + q);
+		uint64_t h = chunk_hash(p->occ[q], p->occlen[q]);
+		dg[0] = chunk_mix(dg[0], h);
+		dg[1] = chunk_mix(dg[1] ^ 0xAAAA, h + q);
 	}
-	dg[1] = tok_hash_mix(dg[1], p->id ? 1 : 2);
+	dg[1] = chunk_mix(dg[1], p->id ? 1 : 2);
 }
 
 void chunk_digest_next(uint64_t dg[2])
 {
-	dg[0] = tok_hash_mix(dg[0], 0x1234);
+	dg[0] = chunk_mix(dg[0], 0x1234);
 }
 
 int chunk_run_digest(chunk_run *r, const uint64_t dg[2], uint64_t out[2])
@@ -47,8 +55,8 @@ int chunk_run_digest(chunk_run *r, const uint64_t dg[2], uint64_t out[2])
 		return -1;
 	uint64_t k = r->seen.ent[i].count - 1;
 	if (k) {
-		out[0] = tok_hash_mix(out[0] ^ 0xC0FFEE, k);
-		out[1] = tok_hash_mix(out[1], k * 0x9E3779B97F4A7C15ULL);
+		out[0] = chunk_mix(out[0] ^ 0xC0FFEE, k);
+		out[1] = chunk_mix(out[1], k * 0x9E3779B97F4A7C15ULL);
 	}
 	return 0;
 }

@@ -34,6 +34,23 @@
 #include "count/strtab.h"
 #include "count/tally.h"
 
+/* ---- the store's hash ----
+ * What the digests are made of, and what spreads the Redis store's posting
+ * ids and key totals over its shards (store_redis_apply.c): which shard
+ * an id was claimed in by an earlier load, and the digests of the chunks
+ * a store's ledgers and journals name, are part of what the store holds,
+ * so these two functions are the store's own and never change, whatever
+ * hash the normaliser or the memory engine use (the unit tests pin their
+ * values).  chunk_hash is FNV-1a (64 bits) with its high bits folded in;
+ * chunk_mix mixes a value into a running hash. */
+uint64_t chunk_hash(const char *s, size_t n);
+
+static inline uint64_t chunk_mix(uint64_t h, uint64_t v)
+{
+	h ^= v + 0x9E3779B97F4A7C15ULL + (h << 6) + (h >> 2);
+	return h * 0xFF51AFD7ED558CCDULL;
+}
+
 /* ---- the digest ---- */
 
 /* The digest of an input before its first posting, in a load that

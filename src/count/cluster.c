@@ -401,6 +401,23 @@ static int append(rcluster *k, redisContext *c, const rc_cmd *cmd)
 	return redisAppendFormattedCommand(c, k->fmt.data, (size_t)(o - k->fmt.data));
 }
 
+/* rc_run waits for its replies, so it writes a large output as it
+ * appends it (a chunk's journal is a dozen pieces of a mebibyte): the
+ * connection's buffer stays near RC_WRITE_AT bytes instead of growing to
+ * the whole batch, which hiredis would reallocate as it grows and move
+ * down after every partial write to the socket. */
+#define RC_WRITE_AT (1u << 20)
+
+/* Writes c's output while it holds RC_WRITE_AT bytes or more, waiting
+ * for the socket (c blocks); an error stays in c for the replies. */
+static void write_big(redisContext *c)
+{
+	int done = 0;
+	if (c->obuf && sdslen(c->obuf) >= RC_WRITE_AT)
+		while (!done && redisBufferWrite(c, &done) == REDIS_OK)
+			;
+}
+
 int rc_run(rcluster *k, rc_cmd *cmds, size_t n)
 {
 	char *done = calloc(n + 1, 1);
@@ -459,8 +476,10 @@ int rc_run(rcluster *k, rc_cmd *cmds, size_t n)
 			}
 			pipe_hold(&old);
 			for (size_t i = 0; i < n; i++)
-				if (target[i] == (long)nd)
+				if (target[i] == (long)nd) {
 					append(k, c, &cmds[i]);
+					write_big(c);
+				}
 			for (size_t i = 0; i < n; i++) {
 				void *p = NULL;
 				if (target[i] != (long)nd)

@@ -12,7 +12,6 @@
 
 #include "count/chunk.h"
 #include "count/slot.h"
-#include "norm/token.h"
 
 /* Step 1: KEYS[1] an id shard, ARGV[1] the chunk's owner tag, ARGV[2]
  * the time to live (0: none), then the chunk's ids in that shard (each
@@ -331,6 +330,7 @@ struct sr_work {
 	strtab ids;             /* the chunk's distinct ids */
 	uint8_t *mine;          /* per id: 1 when the chunk owns it (2 once
 				 * its posting is counted) */
+	uint8_t *shard;         /* per id: its shard (SR_SHARDS <= 256) */
 	size_t *order;          /* the ids by shard: shard s holds
 				 * order[first[s] .. first[s] + cnt[s]) */
 	size_t *recid, nrec, reccap; /* per posting in the chunk: 1 + its
@@ -346,6 +346,8 @@ struct sr_work {
 	uint64_t counted, repub, undated;
 };
 
+_Static_assert(SR_SHARDS <= 256, "an id's shard is kept in a byte");
+
 static void work_free(sr_flight *f)
 {
 	struct sr_work *w = f->w;
@@ -353,6 +355,7 @@ static void work_free(sr_flight *f)
 		return;
 	st_free(&w->ids);
 	free(w->mine);
+	free(w->shard);
 	free(w->order);
 	free(w->recid);
 	free(w->shkeys);
@@ -403,18 +406,23 @@ int sr_claims_send(rstore *r, sr_flight *f)
 		sr_err(r, "a chunk's postings are unreadable", NULL);
 		return -1;
 	}
-	if (!(w->mine = calloc(w->ids.n + 1, 1)) ||
+	if (!(w->mine = calloc(w->ids.n + 1, 1)) || !(w->shard = malloc(w->ids.n + 1)) ||
 	    !(w->order = malloc((w->ids.n + 1) * sizeof *w->order)))
 		goto oom;
-	for (size_t i = 0; i < w->ids.n; i++)
-		w->cnt[w->ids.ent[i].hash % SR_SHARDS]++;
+	/* an id's shard from the store's own hash of its bytes (chunk.h):
+	 * the shard earlier loads claimed it in */
+	for (size_t i = 0; i < w->ids.n; i++) {
+		size_t n;
+		const char *id = st_key(&w->ids, i, &n);
+		w->cnt[w->shard[i] = (uint8_t)(chunk_hash(id, n) % SR_SHARDS)]++;
+	}
 	size_t at[SR_SHARDS], sum = 0;
 	for (int s = 0; s < SR_SHARDS; s++) {
 		w->first[s] = at[s] = sum;
 		sum += w->cnt[s];
 	}
 	for (size_t i = 0; i < w->ids.n; i++)
-		w->order[at[w->ids.ent[i].hash % SR_SHARDS]++] = i;
+		w->order[at[w->shard[i]]++] = i;
 	for (int s = 0; s < SR_SHARDS; s++) {
 		batch *b = &w->b;
 		if (!w->cnt[s])
@@ -561,7 +569,7 @@ static int shares(rstore *r, const tally_mem *agg, const char *label, size_t ln,
 	for (size_t i = 0; i < agg->keys.n; i++) {
 		size_t n, tl;
 		const char *k = st_key(&agg->keys, i, &n);
-		if (store_key_shard(r->prefix, 'k', tok_hash(k, n), &kb) || sr_key_at(&kb, label, ln, &tl) ||
+		if (store_key_shard(r->prefix, 'k', chunk_hash(k, n), &kb) || sr_key_at(&kb, label, ln, &tl) ||
 		    add_incr(cs, kb.data, kb.len, tl, k, n, agg->keys.ent[i].count))
 			goto done;
 	}

@@ -352,6 +352,35 @@ check overflow-untouched 9000000000000000000 "$(redis-cli -s "$tmp/a/sock" hget 
 check overflow-form-untouched 1 "$(redis-cli -s "$tmp/a/sock" hvals 'ov:{o:occ:9999}:f')"
 $T counts --store "$S" --prefix ov 2>/dev/null | grep -q '	9000000000000000000$'; check overflow-reads-back 0 $?
 
+# the counts of a share are read, summed in the store's script and
+# written back, as HINCRBY leaves them: past 15 digits (where sums in
+# doubles stop being exact: 2^53 + 1 + 1 is 9007199254740994) too; a
+# stored value that is no integer in HINCRBY's terms, or a key of another
+# kind, refuses the share whole, with HINCRBY's word for it
+for i in 1 2 3 4 5 6; do P "occ:9998\\tde\\t$i\\tLagerist\\n" > "$tmp/big$i.tsv"; done
+bn='big:{o:occ:9998}:n' bf='big:{o:occ:9998}:f'
+Rc() { redis-cli -s "$tmp/a/sock" "$@"; }
+$T tally --store "$S" --prefix big "$tmp/big1.tsv" 2>/dev/null; check big-first 0 $?
+Rc hset "$bn" de 999999999999999 > /dev/null
+$T tally --store "$S" --prefix big "$tmp/big2.tsv" 2>/dev/null; check big-15-digits 0 $?
+check big-15-digits-sum 1000000000000000 "$(Rc hget "$bn" de)"
+$T tally --store "$S" --prefix big "$tmp/big3.tsv" 2>/dev/null; check big-16-digits 0 $?
+check big-16-digits-sum 1000000000000001 "$(Rc hget "$bn" de)"
+Rc hset "$bn" de 9007199254740993 > /dev/null
+$T tally --store "$S" --prefix big "$tmp/big4.tsv" 2>/dev/null; check big-2^53 0 $?
+check big-2^53-sum 9007199254740994 "$(Rc hget "$bn" de)"
+check big-forms 4 "$(Rc hvals "$bf")"
+Rc hset "$bn" de 0012 > /dev/null
+$T tally --store "$S" --prefix big "$tmp/big5.tsv" 2> "$tmp/err"; check big-not-integer 1 $?
+grep -q "hash value is not an integer: $bn de" "$tmp/err"; check big-not-integer-msg 0 $?
+check big-not-integer-untouched 0012 "$(Rc hget "$bn" de)"
+check big-not-integer-forms-untouched 4 "$(Rc hvals "$bf")"
+Rc del "$bn" > /dev/null
+Rc sadd "$bn" de > /dev/null
+$T tally --store "$S" --prefix big "$tmp/big6.tsv" 2> "$tmp/err"; check big-wrong-kind 1 $?
+grep -q "WRONGTYPE.*: $bn de" "$tmp/err"; check big-wrong-kind-msg 0 $?
+check big-wrong-kind-forms-untouched 4 "$(Rc hvals "$bf")"
+
 # a time to live: every counting key a load touches gets it (examples,
 # the only personal data, included); without --ttl the keys stay
 TITLEMILL_REDIS_PASSWORD=s3cret $T tally --store "$C" --prefix ttl --ttl 30 "$tmp/day1" 2>/dev/null; check ttl-load 0 $?
