@@ -62,9 +62,19 @@ const char sr_claim_script[] =
  * that changed; the merge takes the first three of both lists, each
  * once (a stored value in another order is sorted first; a single
  * candidate for a field without examples is taken as it is).  The keys of
- * a tag expire together. */
+ * a tag expire together.  Every key but the ledger must be a hash (or
+ * absent) before the first write: a script that fails half way keeps
+ * what it wrote, so an examples key of another kind found after the
+ * increments would leave them applied and the chunk unrecorded, to be
+ * counted again by the rerun. */
 const char sr_apply_script[] =
 	"if redis.call('SISMEMBER', KEYS[1], ARGV[1]) == 1 then return 0 end\n"
+	"for j = 2, #KEYS do\n"
+	"  local t = redis.call('TYPE', KEYS[j]).ok\n"
+	"  if t ~= 'hash' and t ~= 'none' then\n"
+	"    return redis.error_reply('WRONGTYPE the store keeps a hash there, not a ' .. t .. ': ' .. KEYS[j])\n"
+	"  end\n"
+	"end\n"
 	"local function undo(gl, jl)\n"
 	"  local p = 4\n"
 	"  for g = 1, gl do\n"
