@@ -63,8 +63,7 @@ long st_find(const strtab *t, const char *key, size_t n)
 		if (SLOT_FP(t->slot[j]) != fp(h))
 			continue;
 		const st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
-		if (e->hash == h && e->len == n &&
-		    (n == 0 || !memcmp(t->arena.data + e->off, key, n)))
+		if (e->len == n && (n == 0 || !memcmp(t->arena.data + e->off, key, n)))
 			return (long)((uint32_t)t->slot[j] - 1);
 	}
 	return -1;
@@ -103,7 +102,7 @@ long st_find_fields(const strtab *t, const st_fields *k)
 		if (SLOT_FP(t->slot[j]) != fp(k->h))
 			continue;
 		const st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
-		if (e->hash == k->h && e->len == n && same_fields(t, e, k))
+		if (e->len == n && same_fields(t, e, k))
 			return (long)((uint32_t)t->slot[j] - 1);
 	}
 	return -1;
@@ -117,7 +116,7 @@ static int room(strtab *t, size_t n)
 	if ((t->n + 1) * 4 > t->nslot * 3 && grow_slots(t) != 0)
 		return -1;
 	if (t->n == t->cap) {
-		st_entry *p = tm_grow(t->ent, &t->cap, t->n + 1, sizeof *p, 1024);
+		st_entry *p = st_grow(t->ent, &t->cap, t->n + 1, sizeof *p, 1024);
 		if (!p)
 			return -1;
 		t->ent = p;
@@ -133,7 +132,6 @@ static int insert(strtab *t, uint64_t h, size_t n, uint64_t by, size_t *idx, lon
 {
 	size_t j;
 	st_entry *e = &t->ent[t->n];
-	e->hash = h;
 	e->count = by;
 	e->off = (uint32_t)(t->arena.len - n);
 	e->len = (uint32_t)n;
@@ -160,7 +158,7 @@ int st_add_fields(strtab *t, const st_fields *k, uint64_t by, size_t *idx)
 				continue;
 			size_t i = (uint32_t)t->slot[j] - 1;
 			st_entry *e = &t->ent[i];
-			if (e->hash == k->h && e->len == n && same_fields(t, e, k)) {
+			if (e->len == n && same_fields(t, e, k)) {
 				e->count += by;
 				if (idx)
 					*idx = i;
@@ -169,7 +167,7 @@ int st_add_fields(strtab *t, const st_fields *k, uint64_t by, size_t *idx)
 		}
 	}
 	size_t ns = t->nslot;
-	if (room(t, n) != 0 || buf_reserve(&t->arena, n + 1) != 0)
+	if (room(t, n) != 0 || st_arena_reserve(&t->arena, n + 1) != 0)
 		return -1;
 	for (int f = 0; f < k->k; f++) {
 		if (f)
@@ -189,8 +187,7 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 			if (SLOT_FP(t->slot[j]) != fp(h))
 				continue;
 			st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
-			if (e->hash == h && e->len == n &&
-			    (n == 0 || !memcmp(t->arena.data + e->off, key, n))) {
+			if (e->len == n && (n == 0 || !memcmp(t->arena.data + e->off, key, n))) {
 				e->count += by;
 				if (idx)
 					*idx = (uint32_t)t->slot[j] - 1;
@@ -198,9 +195,52 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 			}
 		}
 	}
-	if (room(t, n) != 0 || buf_append(&t->arena, key, n) != 0)
+	if (room(t, n) != 0 || st_arena_reserve(&t->arena, n + 1) != 0 ||
+	    buf_append(&t->arena, key, n) != 0)
 		return -1;
 	return insert(t, h, n, by, idx, ns == t->nslot ? (long)j : -1);
+}
+
+uint64_t st_hash(const strtab *t, size_t i)
+{
+	size_t n;
+	const char *k = st_key(t, i, &n);
+	return tok_hash(k, n);
+}
+
+void *st_grow(void *p, size_t *cap, size_t need, size_t size, size_t first)
+{
+	size_t n = *cap ? *cap : (first ? first : 1);
+
+	if (need <= *cap && p)
+		return p;
+	while (n < need) {
+		if (n > SIZE_MAX / 3 * 2)
+			return NULL;
+		n += n / 2 ? n / 2 : 1;
+	}
+	if (!size || n > SIZE_MAX / size)
+		return NULL;
+	void *q = realloc(p, n * size);
+	if (!q)
+		return NULL;
+	*cap = n;
+	return q;
+}
+
+int st_arena_reserve(tm_buf *b, size_t extra)
+{
+	if (b->failed || b->max || extra > SIZE_MAX - b->len)
+		return buf_reserve(b, extra); /* its checks, its errors */
+	if (b->data && b->len + extra <= b->cap)
+		return TM_OK;
+	char *d = st_grow(b->data, &b->cap, b->len + extra, 1, 4096);
+	if (!d) {
+		b->failed = 1;
+		return TM_ENOMEM;
+	}
+	b->data = d;
+	return TM_OK;
 }
 
 void st_free(strtab *t)

@@ -1,11 +1,14 @@
 /* strtab.h - a hash table from byte strings to 64-bit counts, with the
  * strings kept in one arena.
  *
- * Built for millions of keys: an entry costs 24 bytes, and 8 in the slot
+ * Built for millions of keys: an entry costs 16 bytes, and 8 in the slot
  * array (at a load of at most 3/4), plus its string bytes; nothing is
- * allocated per key.  A slot holds a fingerprint of its key's hash, so
- * that a lookup reads one cache line of slots and, nearly always, the
- * entry of the key itself only.  Keys are any bytes (the engine joins fields with 0x1F).
+ * allocated per key.  A slot holds a fingerprint of its key's hash (the
+ * entry keeps no hash: the fingerprint serves), so that a lookup reads
+ * one cache line of slots and, nearly always, the entry of the key
+ * itself only.  The entries and the arena grow by half when full
+ * (st_grow), not twice.  Keys are any bytes (the engine joins fields
+ * with 0x1F).
  * Entry indices are stable while no entry is removed (none ever is);
  * string pointers move when the arena grows: take them afresh after an
  * insert. */
@@ -18,7 +21,6 @@
 #include "core/buf.h"
 
 typedef struct st_entry {
-	uint64_t hash;
 	uint64_t count;
 	uint32_t off, len; /* the key in the arena */
 } st_entry;
@@ -84,6 +86,20 @@ static inline const char *st_key(const strtab *t, size_t i, size_t *n)
 	*n = t->ent[i].len;
 	return t->arena.data + t->ent[i].off;
 }
+
+/* The hash a table used with st_add files its entry i under (computed
+ * again from the key: entries keep none). */
+uint64_t st_hash(const strtab *t, size_t i);
+
+/* As tm_grow (core/buf.h), growing by half rather than doubling: a big
+ * array of n elements then holds at most n / 2 unused, not n.  Many
+ * small steps cost little: the system moves big blocks by remapping
+ * their pages. */
+void *st_grow(void *p, size_t *cap, size_t need, size_t size, size_t first);
+
+/* Makes room for extra more bytes in an arena, growing as st_grow.
+ * 0 or TM_ENOMEM (b then fails as buf_reserve leaves it). */
+int st_arena_reserve(tm_buf *b, size_t extra);
 
 void st_free(strtab *t);
 
