@@ -29,8 +29,8 @@ static inline size_t home(uint64_t h, size_t nslot)
 
 static int grow_slots(strtab *t)
 {
-	size_t ns = t->nslot ? t->nslot * 2 : 1024;
-	if (t->nslot > ((size_t)1 << 31) || ns < t->nslot) /* st_home_fp's 32 bits; size_t */
+	size_t ns = t->nslot ? t->nslot + t->nslot / 2 : 1024;
+	if (ns > ((size_t)1 << 32) || ns > SIZE_MAX / sizeof *t->slot) /* st_home_fp's 32 bits */
 		return -1;
 	uint64_t *s = calloc(ns, sizeof *s);
 	if (!s)
@@ -42,7 +42,7 @@ static int grow_slots(strtab *t)
 			continue;
 		size_t j = st_home_fp(SLOT_FP(e), ns);
 		while (s[j])
-			j = (j + 1) & (ns - 1);
+			j = st_next(j, ns);
 		s[j] = e;
 	}
 	free(t->slot);
@@ -59,7 +59,7 @@ long st_find(const strtab *t, const char *key, size_t n)
 	if (!t->nslot)
 		return -1;
 	h = tok_hash(key, n);
-	for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+	for (j = home(h, t->nslot); t->slot[j]; j = st_next(j, t->nslot)) {
 		if (SLOT_FP(t->slot[j]) != fp(h))
 			continue;
 		const st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
@@ -98,7 +98,7 @@ long st_find_fields(const strtab *t, const st_fields *k)
 
 	if (!t->nslot)
 		return -1;
-	for (j = home(k->h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+	for (j = home(k->h, t->nslot); t->slot[j]; j = st_next(j, t->nslot)) {
 		if (SLOT_FP(t->slot[j]) != fp(k->h))
 			continue;
 		const st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
@@ -138,7 +138,7 @@ static int insert(strtab *t, uint64_t h, size_t n, uint64_t by, size_t *idx, lon
 	if (empty >= 0)
 		j = (size_t)empty; /* the probe's end, the slots unchanged since */
 	else
-		for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1))
+		for (j = home(h, t->nslot); t->slot[j]; j = st_next(j, t->nslot))
 			;
 	t->slot[j] = slot_of(h, t->n);
 	if (idx)
@@ -153,7 +153,7 @@ int st_add_fields(strtab *t, const st_fields *k, uint64_t by, size_t *idx)
 
 	/* one probe: the key's slot, or the empty slot that ends its run */
 	if (t->nslot) {
-		for (j = home(k->h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+		for (j = home(k->h, t->nslot); t->slot[j]; j = st_next(j, t->nslot)) {
 			if (SLOT_FP(t->slot[j]) != fp(k->h))
 				continue;
 			size_t i = (uint32_t)t->slot[j] - 1;
@@ -183,7 +183,7 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 	size_t j = 0, ns = t->nslot;
 
 	if (t->nslot) {
-		for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+		for (j = home(h, t->nslot); t->slot[j]; j = st_next(j, t->nslot)) {
 			if (SLOT_FP(t->slot[j]) != fp(h))
 				continue;
 			st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
@@ -208,6 +208,10 @@ uint64_t st_hash(const strtab *t, size_t i)
 	return tok_hash(k, n);
 }
 
+/* Past this many bytes a block grows by an eighth: the system moves a
+ * block that big by remapping its pages, not by copying its bytes. */
+#define ST_GROW_FINE ((size_t)4 << 20)
+
 void *st_grow(void *p, size_t *cap, size_t need, size_t size, size_t first)
 {
 	size_t n = *cap ? *cap : (first ? first : 1);
@@ -217,7 +221,10 @@ void *st_grow(void *p, size_t *cap, size_t need, size_t size, size_t first)
 	while (n < need) {
 		if (n > SIZE_MAX / 3 * 2)
 			return NULL;
-		n += n / 2 ? n / 2 : 1;
+		if (size && n >= ST_GROW_FINE / size)
+			n += n / 8;
+		else
+			n += n / 2 ? n / 2 : 1;
 	}
 	if (!size || n > SIZE_MAX / size)
 		return NULL;

@@ -6,8 +6,8 @@
  * allocated per key.  A slot holds a fingerprint of its key's hash (the
  * entry keeps no hash: the fingerprint serves), so that a lookup reads
  * one cache line of slots and, nearly always, the entry of the key
- * itself only.  The entries and the arena grow by half when full
- * (st_grow), not twice.  Keys are any bytes (the engine joins fields
+ * itself only.  The slots, the entries and the arena grow by half when
+ * full (st_grow), not twice.  Keys are any bytes (the engine joins fields
  * with 0x1F).
  * Entry indices are stable while no entry is removed (none ever is);
  * string pointers move when the arena grows: take them afresh after an
@@ -30,7 +30,7 @@ typedef struct strtab {
 	size_t n, cap;
 	uint64_t *slot;    /* open addressing: the hash's low 32 bits, then
 			    * the entry index + 1; 0 empty */
-	size_t nslot;
+	size_t nslot;      /* at most 2^32; kept at most 3/4 full */
 	tm_buf arena;
 } strtab;
 
@@ -61,15 +61,22 @@ int st_add_fields(strtab *t, const st_fields *key, uint64_t by, size_t *idx);
 long st_find_fields(const strtab *t, const st_fields *key);
 
 /* The home slot of a fingerprint (a slot's upper half, the hash's low
- * 32 bits shifted up): Fibonacci hashing (the top bits of its product
- * with 2^32 / phi) spreads the low-entropy bits of similar keys over the
- * whole table.  In a table twice the size slot j's home is 2j or 2j + 1:
- * growing reads the old slots in order, never an entry, and writes the
- * new ones nearly in order. */
+ * 32 bits shifted up): the fingerprint's product with 2^32 / phi (which
+ * spreads the low-entropy bits of similar keys), mapped onto the slots
+ * by its share of 2^32, so that the home rises with that product.  The
+ * slots need not be a power of two (they grow by half), and growing
+ * reads the old slots in order, never an entry, and writes the new ones
+ * nearly in order. */
 static inline size_t st_home_fp(uint64_t slot_fp, size_t nslot)
 {
 	uint32_t f = (uint32_t)(slot_fp >> 32) * 0x9E3779B9u;
-	return (size_t)(f >> (32 - __builtin_ctzll((unsigned long long)nslot)));
+	return (size_t)(((uint64_t)f * nslot) >> 32);
+}
+
+/* The slot a probe visits after j. */
+static inline size_t st_next(size_t j, size_t nslot)
+{
+	return j + 1 == nslot ? 0 : j + 1;
 }
 
 /* Asks the processor for the home slot of a key filed under h (as
