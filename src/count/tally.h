@@ -54,12 +54,15 @@ typedef struct tally_mem {
 	strtab keys;    /* lang 1F key -> postings */
 	strtab occs;    /* occ 1F lang -> postings */
 	idset ids;      /* posting ids seen */
-	/* the triples that have examples: occ 1F lang 1F key; ex[i] holds
-	 * the examples of triple i (the same index), their texts in exarena */
+	/* the triples that have examples: occ 1F lang 1F key.  Triple i's
+	 * first example is ex[i]; its count is 0, or the index + 1 of
+	 * its second and third in exmore (most triples of a long tail have
+	 * one).  The texts lie in exarena. */
 	strtab triples;
-	struct tm_example { uint64_t h[TALLY_EXAMPLES]; uint32_t off[TALLY_EXAMPLES],
-		len[TALLY_EXAMPLES]; /* len 0: no example there (none is empty) */ } *ex;
+	struct tm_ex { uint64_t h; uint32_t off, len; /* len 0: none (none is empty) */ } *ex;
 	size_t excap;
+	struct tm_exmore { struct tm_ex x[TALLY_EXAMPLES - 1]; } *exmore;
+	size_t nmore, morecap;
 	tm_buf exarena;
 	uint64_t postings, republished;
 	uint64_t added[3]; /* the counts added to forms, keys, occs: while

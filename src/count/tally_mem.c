@@ -26,6 +26,7 @@ void tm_free(tally_mem *m)
 	ids_free(&m->ids);
 	st_free(&m->triples);
 	free(m->ex);
+	free(m->exmore);
 	buf_free(&m->exarena);
 	memset(m, 0, sizeof *m);
 }
@@ -34,7 +35,7 @@ size_t tm_bytes(const tally_mem *m)
 {
 	return st_bytes(&m->forms) + st_bytes(&m->keys) + st_bytes(&m->occs) +
 	       ids_bytes(&m->ids) + st_bytes(&m->triples) +
-	       m->excap * sizeof *m->ex + m->exarena.cap;
+	       m->excap * sizeof *m->ex + m->morecap * sizeof *m->exmore + m->exarena.cap;
 }
 
 size_t tm_string_bytes(const tally_mem *m)
@@ -43,25 +44,51 @@ size_t tm_string_bytes(const tally_mem *m)
 	       m->triples.arena.len + m->exarena.len;
 }
 
-/* The number of examples e holds (in its first places). */
-static int ex_n(const struct tm_example *e)
+/* The examples of triple i into e[0..TALLY_EXAMPLES) (len 0 past the
+ * last); returns their number. */
+static int ex_get(const tally_mem *m, size_t i, struct tm_ex *e)
 {
 	int n = 0;
-	while (n < TALLY_EXAMPLES && e->len[n])
+	uint64_t more = m->triples.ent[i].count;
+	e[0] = m->ex[i];
+	for (int a = 1; a < TALLY_EXAMPLES; a++)
+		e[a] = more ? m->exmore[more - 1].x[a - 1] : (struct tm_ex){0, 0, 0};
+	while (n < TALLY_EXAMPLES && e[n].len)
 		n++;
 	return n;
+}
+
+/* Sets example a of triple i to v, making room for the second and
+ * third when they are first needed.  0 or -1 (out of memory). */
+static int ex_put(tally_mem *m, size_t i, int a, struct tm_ex v)
+{
+	uint64_t *more = &m->triples.ent[i].count;
+	if (a == 0) {
+		m->ex[i] = v;
+		return 0;
+	}
+	if (!*more) {
+		struct tm_exmore *x = st_grow(m->exmore, &m->morecap, m->nmore + 1, sizeof *x, 256);
+		if (!x)
+			return -1;
+		m->exmore = x;
+		memset(&x[m->nmore], 0, sizeof *x);
+		*more = ++m->nmore;
+	}
+	m->exmore[*more - 1].x[a - 1] = v;
+	return 0;
 }
 
 int tm_triple_examples(const tally_mem *m, size_t i, const char **text, size_t *len,
 		       uint64_t *h)
 {
-	const struct tm_example *e = &m->ex[i];
-	int n = ex_n(e);
+	struct tm_ex e[TALLY_EXAMPLES];
+	int n = ex_get(m, i, e);
 	for (int a = 0; a < n; a++) {
-		text[a] = m->exarena.data + e->off[a];
-		len[a] = e->len[a];
+		text[a] = m->exarena.data + e[a].off;
+		len[a] = e[a].len;
 		if (h)
-			h[a] = e->h[a];
+			h[a] = e[a].h;
 	}
 	return n;
 }
@@ -156,8 +183,9 @@ static int add_example(tally_mem *m, const st_fields *k, const char *text, size_
 {
 	size_t idx;
 	int r;
-	struct tm_example *e;
+	struct tm_ex e[TALLY_EXAMPLES];
 	int worst = -1, en;
+	const char *xa = m->exarena.data;
 
 	if (tl == 0)
 		return 0; /* an empty example is no evidence */
@@ -166,7 +194,7 @@ static int add_example(tally_mem *m, const st_fields *k, const char *text, size_
 	/* room for a new triple's examples first: the table and ex keep
 	 * the same indices */
 	if (m->triples.n == m->excap) {
-		struct tm_example *ex = st_grow(m->ex, &m->excap, m->triples.n + 1, sizeof *ex, 1024);
+		struct tm_ex *ex = st_grow(m->ex, &m->excap, m->triples.n + 1, sizeof *ex, 1024);
 		if (!ex)
 			return -1;
 		m->ex = ex;
@@ -174,34 +202,29 @@ static int add_example(tally_mem *m, const st_fields *k, const char *text, size_
 	r = st_add_fields(&m->triples, k, 0, &idx);
 	if (r < 0)
 		return -1;
-	e = &m->ex[idx];
 	if (r == 1)
-		memset(e, 0, sizeof *e);
-	en = ex_n(e);
+		m->ex[idx] = (struct tm_ex){0, 0, 0};
+	en = ex_get(m, idx, e);
 	/* keep the TALLY_EXAMPLES distinct texts of smallest hash */
 	for (int i = 0; i < en; i++) {
-		if (e->h[i] == h && e->len[i] == tl &&
-		    !memcmp(m->exarena.data + e->off[i], text, tl))
+		if (e[i].h == h && e[i].len == tl && !memcmp(xa + e[i].off, text, tl))
 			return 0;
-		if (worst < 0 || e->h[i] > e->h[worst] ||
-		    (e->h[i] == e->h[worst] &&
-		     memcmp(m->exarena.data + e->off[i], m->exarena.data + e->off[worst],
-			    e->len[i] < e->len[worst] ? e->len[i] : e->len[worst]) > 0))
+		if (worst < 0 || e[i].h > e[worst].h ||
+		    (e[i].h == e[worst].h &&
+		     memcmp(xa + e[i].off, xa + e[worst].off,
+			    e[i].len < e[worst].len ? e[i].len : e[worst].len) > 0))
 			worst = i;
 	}
 	int slot;
 	if (en < TALLY_EXAMPLES)
 		slot = en;
-	else if (h < e->h[worst])
+	else if (h < e[worst].h)
 		slot = worst;
 	else
 		return 0;
 	if (st_arena_reserve(&m->exarena, tl + 1) || buf_append(&m->exarena, text, tl))
 		return -1;
-	e->h[slot] = h;
-	e->off[slot] = (uint32_t)(m->exarena.len - tl);
-	e->len[slot] = (uint32_t)tl;
-	return 0;
+	return ex_put(m, idx, slot, (struct tm_ex){h, (uint32_t)(m->exarena.len - tl), (uint32_t)tl});
 }
 
 int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
