@@ -235,7 +235,7 @@ void *st_grow(void *p, size_t *cap, size_t need, size_t size, size_t first)
 	return q;
 }
 
-int st_arena_reserve(tm_buf *b, size_t extra)
+int st_arena_grow(tm_buf *b, size_t extra)
 {
 	if (b->failed || b->max || extra > SIZE_MAX - b->len)
 		return buf_reserve(b, extra); /* its checks, its errors */
@@ -244,6 +244,7 @@ int st_arena_reserve(tm_buf *b, size_t extra)
 	char *d = st_grow(b->data, &b->cap, b->len + extra, 1, 4096);
 	if (!d) {
 		b->failed = 1;
+		b->cap = b->len; /* as buf_reserve leaves a failed buffer */
 		return TM_ENOMEM;
 	}
 	b->data = d;

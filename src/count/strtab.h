@@ -106,7 +106,14 @@ void *st_grow(void *p, size_t *cap, size_t need, size_t size, size_t first);
 
 /* Makes room for extra more bytes in an arena, growing as st_grow.
  * 0 or TM_ENOMEM (b then fails as buf_reserve leaves it). */
-int st_arena_reserve(tm_buf *b, size_t extra);
+int st_arena_grow(tm_buf *b, size_t extra);
+static inline int st_arena_reserve(tm_buf *b, size_t extra)
+{
+	/* a failed buffer has cap == len: it always takes the slow path */
+	if (b->data && extra <= b->cap - b->len && !b->max)
+		return 0;
+	return st_arena_grow(b, extra);
+}
 
 void st_free(strtab *t);
 

@@ -46,15 +46,17 @@ size_t tm_string_bytes(const tally_mem *m)
 
 /* The examples of triple i into e[0..TALLY_EXAMPLES) (len 0 past the
  * last); returns their number. */
-static int ex_get(const tally_mem *m, size_t i, struct tm_ex *e)
+static inline int ex_get(const tally_mem *m, size_t i, struct tm_ex *e)
 {
-	int n = 0;
 	uint64_t more = m->triples.ent[i].count;
 	e[0] = m->ex[i];
-	for (int a = 1; a < TALLY_EXAMPLES; a++)
-		e[a] = more ? m->exmore[more - 1].x[a - 1] : (struct tm_ex){0, 0, 0};
-	while (n < TALLY_EXAMPLES && e[n].len)
-		n++;
+	if (!more)
+		return e[0].len != 0;
+	int n = 1;
+	for (int a = 1; a < TALLY_EXAMPLES; a++) {
+		e[a] = m->exmore[more - 1].x[a - 1];
+		n += e[a].len != 0;
+	}
 	return n;
 }
 
