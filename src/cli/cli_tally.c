@@ -433,9 +433,8 @@ int cmd_tally(int argc, char **argv)
 			size_t strs = m.ids.arena.len + m.index.arena.len, rows = 0, forms = 0, keys = 0;
 			for (size_t i = 0; i < m.n; i++) {
 				const tally_mem *x = &m.p[i]->m;
-				strs += x->forms.arena.len + x->keys.arena.len + x->occs.arena.len +
-					x->exkeys.arena.len + x->exarena.len;
-				rows += x->exkeys.n;
+				strs += tm_string_bytes(x);
+				rows += tm_ntriples(x);
 				forms += x->forms.n;
 				keys += x->keys.n;
 			}

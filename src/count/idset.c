@@ -6,6 +6,7 @@
 
 #include "core/err.h"
 #include "core/digest.h"
+#include "count/strtab.h"
 
 /* The slots are grown when they would be more than half full. */
 #define IDS_FIRST_SLOTS 1024
@@ -78,14 +79,14 @@ int ids_add_h(idset *t, const char *s, size_t n, uint64_t h)
 	if ((t->n + 1) * 2 > t->nslot && grow(t) != TM_OK)
 		return TM_ENOMEM;
 	if (t->n + 2 > t->cap) {
-		uint64_t *p = tm_grow(t->start, &t->cap, t->n + 2, sizeof *p, 1024);
+		uint64_t *p = st_grow(t->start, &t->cap, t->n + 2, sizeof *p, 1024);
 		if (!p)
 			return TM_ENOMEM;
 		t->start = p;
 		if (t->n == 0)
 			p[0] = 0;
 	}
-	if (buf_append(&t->arena, s, n) != 0)
+	if (st_arena_reserve(&t->arena, n + 1) != 0 || buf_append(&t->arena, s, n) != 0)
 		return TM_ENOMEM;
 	t->start[t->n + 1] = t->arena.len;
 	if (ns != t->nslot) /* grown: the probe's end is another slot now */

@@ -489,14 +489,23 @@ static int claims_read(rstore *r, struct sr_work *w)
 	return 0;
 }
 
+/* A triple's examples as the memory engine gives them
+ * (tm_triple_examples). */
+typedef struct sr_ex {
+	const char *t[TALLY_EXAMPLES];
+	size_t len[TALLY_EXAMPLES];
+	uint64_t h[TALLY_EXAMPLES];
+	int n;
+} sr_ex;
+
 /* Whether example a of e comes before example b in the store: by hash,
  * then by text. */
-static int ex_before(const tally_mem *agg, const struct tm_example *e, int a, int b)
+static int ex_before(const sr_ex *e, int a, int b)
 {
 	if (e->h[a] != e->h[b])
 		return e->h[a] < e->h[b];
 	size_t la = e->len[a], lb = e->len[b];
-	int c = memcmp(agg->exarena.data + e->off[a], agg->exarena.data + e->off[b], la < lb ? la : lb);
+	int c = memcmp(e->t[a], e->t[b], la < lb ? la : lb);
 	return c < 0 || (c == 0 && la < lb);
 }
 
@@ -507,9 +516,10 @@ static int add_examples(rstore *r, calls *cs, tm_buf *pending, const tally_mem *
 			const char *label, size_t ln, tm_buf *kb, tm_buf *kb2)
 {
 	size_t n, tl;
-	const char *k = st_key(&agg->exkeys, i, &n);
+	const char *k = tm_triple_key(agg, i, &n);
 	size_t ol = sr_first_field(k, n);
-	const struct tm_example *e = &agg->ex[agg->exkeys.ent[i].count];
+	sr_ex x, *e = &x;
+	x.n = tm_triple_examples(agg, i, x.t, x.len, x.h);
 	/* the store keeps the three smallest hashes it was sent: once this
 	 * load has sent three, it keeps none above the largest of them, and
 	 * a candidate above that bound cannot enter (per period: the bound
@@ -538,7 +548,7 @@ static int add_examples(rstore *r, calls *cs, tm_buf *pending, const tally_mem *
 	/* the candidates in the store's order: by hash (its 16 hex digits
 	 * lead each), then by text */
 	for (int a = 1; a < take; a++)
-		for (int b = a; b > 0 && ex_before(agg, e, sendq[b], sendq[b - 1]); b--) {
+		for (int b = a; b > 0 && ex_before(e, sendq[b], sendq[b - 1]); b--) {
 			int t = sendq[b];
 			sendq[b] = sendq[b - 1];
 			sendq[b - 1] = t;
@@ -555,7 +565,7 @@ static int add_examples(rstore *r, calls *cs, tm_buf *pending, const tally_mem *
 		for (int d = 0; d < 16; d++)
 			hx[d] = "0123456789abcdef"[e->h[q] >> (60 - 4 * d) & 15];
 		if ((qq && buf_putc(kb2, '\x1E')) || buf_append(kb2, hx, 16) ||
-		    buf_append(kb2, agg->exarena.data + e->off[q], e->len[q]))
+		    buf_append(kb2, e->t[q], e->len[q]))
 			return -1;
 	}
 	if (chunk_put_str(&g->ev, kb2->data, kb2->len))
@@ -583,7 +593,7 @@ static int shares(rstore *r, const tally_mem *agg, const char *label, size_t ln,
 		    add_incr(cs, kb.data, kb.len, tl, k, n, agg->keys.ent[i].count))
 			goto done;
 	}
-	for (size_t i = 0; i < agg->exkeys.n; i++)
+	for (size_t i = 0; i < tm_ntriples(agg); i++)
 		if (add_examples(r, cs, pending, agg, i, label, ln, &kb, &kb2))
 			goto done;
 	rc = 0;

@@ -29,8 +29,8 @@ static inline size_t home(uint64_t h, size_t nslot)
 
 static int grow_slots(strtab *t)
 {
-	size_t ns = t->nslot ? t->nslot * 2 : 1024;
-	if (t->nslot > ((size_t)1 << 31) || ns < t->nslot) /* st_home_fp's 32 bits; size_t */
+	size_t ns = t->nslot ? t->nslot + t->nslot / 2 : 1024;
+	if (ns > ((size_t)1 << 32) || ns > SIZE_MAX / sizeof *t->slot) /* st_home_fp's 32 bits */
 		return -1;
 	uint64_t *s = calloc(ns, sizeof *s);
 	if (!s)
@@ -42,7 +42,7 @@ static int grow_slots(strtab *t)
 			continue;
 		size_t j = st_home_fp(SLOT_FP(e), ns);
 		while (s[j])
-			j = (j + 1) & (ns - 1);
+			j = st_next(j, ns);
 		s[j] = e;
 	}
 	free(t->slot);
@@ -59,12 +59,11 @@ long st_find(const strtab *t, const char *key, size_t n)
 	if (!t->nslot)
 		return -1;
 	h = tok_hash(key, n);
-	for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+	for (j = home(h, t->nslot); t->slot[j]; j = st_next(j, t->nslot)) {
 		if (SLOT_FP(t->slot[j]) != fp(h))
 			continue;
 		const st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
-		if (e->hash == h && e->len == n &&
-		    (n == 0 || !memcmp(t->arena.data + e->off, key, n)))
+		if (e->len == n && (n == 0 || !memcmp(t->arena.data + e->off, key, n)))
 			return (long)((uint32_t)t->slot[j] - 1);
 	}
 	return -1;
@@ -99,11 +98,11 @@ long st_find_fields(const strtab *t, const st_fields *k)
 
 	if (!t->nslot)
 		return -1;
-	for (j = home(k->h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+	for (j = home(k->h, t->nslot); t->slot[j]; j = st_next(j, t->nslot)) {
 		if (SLOT_FP(t->slot[j]) != fp(k->h))
 			continue;
 		const st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
-		if (e->hash == k->h && e->len == n && same_fields(t, e, k))
+		if (e->len == n && same_fields(t, e, k))
 			return (long)((uint32_t)t->slot[j] - 1);
 	}
 	return -1;
@@ -117,7 +116,7 @@ static int room(strtab *t, size_t n)
 	if ((t->n + 1) * 4 > t->nslot * 3 && grow_slots(t) != 0)
 		return -1;
 	if (t->n == t->cap) {
-		st_entry *p = tm_grow(t->ent, &t->cap, t->n + 1, sizeof *p, 1024);
+		st_entry *p = st_grow(t->ent, &t->cap, t->n + 1, sizeof *p, 1024);
 		if (!p)
 			return -1;
 		t->ent = p;
@@ -133,14 +132,13 @@ static int insert(strtab *t, uint64_t h, size_t n, uint64_t by, size_t *idx, lon
 {
 	size_t j;
 	st_entry *e = &t->ent[t->n];
-	e->hash = h;
 	e->count = by;
 	e->off = (uint32_t)(t->arena.len - n);
 	e->len = (uint32_t)n;
 	if (empty >= 0)
 		j = (size_t)empty; /* the probe's end, the slots unchanged since */
 	else
-		for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1))
+		for (j = home(h, t->nslot); t->slot[j]; j = st_next(j, t->nslot))
 			;
 	t->slot[j] = slot_of(h, t->n);
 	if (idx)
@@ -155,12 +153,12 @@ int st_add_fields(strtab *t, const st_fields *k, uint64_t by, size_t *idx)
 
 	/* one probe: the key's slot, or the empty slot that ends its run */
 	if (t->nslot) {
-		for (j = home(k->h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+		for (j = home(k->h, t->nslot); t->slot[j]; j = st_next(j, t->nslot)) {
 			if (SLOT_FP(t->slot[j]) != fp(k->h))
 				continue;
 			size_t i = (uint32_t)t->slot[j] - 1;
 			st_entry *e = &t->ent[i];
-			if (e->hash == k->h && e->len == n && same_fields(t, e, k)) {
+			if (e->len == n && same_fields(t, e, k)) {
 				e->count += by;
 				if (idx)
 					*idx = i;
@@ -169,7 +167,7 @@ int st_add_fields(strtab *t, const st_fields *k, uint64_t by, size_t *idx)
 		}
 	}
 	size_t ns = t->nslot;
-	if (room(t, n) != 0 || buf_reserve(&t->arena, n + 1) != 0)
+	if (room(t, n) != 0 || st_arena_reserve(&t->arena, n + 1) != 0)
 		return -1;
 	for (int f = 0; f < k->k; f++) {
 		if (f)
@@ -185,12 +183,11 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 	size_t j = 0, ns = t->nslot;
 
 	if (t->nslot) {
-		for (j = home(h, t->nslot); t->slot[j]; j = (j + 1) & (t->nslot - 1)) {
+		for (j = home(h, t->nslot); t->slot[j]; j = st_next(j, t->nslot)) {
 			if (SLOT_FP(t->slot[j]) != fp(h))
 				continue;
 			st_entry *e = &t->ent[(uint32_t)t->slot[j] - 1];
-			if (e->hash == h && e->len == n &&
-			    (n == 0 || !memcmp(t->arena.data + e->off, key, n))) {
+			if (e->len == n && (n == 0 || !memcmp(t->arena.data + e->off, key, n))) {
 				e->count += by;
 				if (idx)
 					*idx = (uint32_t)t->slot[j] - 1;
@@ -198,9 +195,53 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 			}
 		}
 	}
-	if (room(t, n) != 0 || buf_append(&t->arena, key, n) != 0)
+	if (room(t, n) != 0 || st_arena_reserve(&t->arena, n + 1) != 0 ||
+	    buf_append(&t->arena, key, n) != 0)
 		return -1;
 	return insert(t, h, n, by, idx, ns == t->nslot ? (long)j : -1);
+}
+
+/* Past this many bytes a block grows by an eighth: the system moves a
+ * block that big by remapping its pages, not by copying its bytes. */
+#define ST_GROW_FINE ((size_t)4 << 20)
+
+void *st_grow(void *p, size_t *cap, size_t need, size_t size, size_t first)
+{
+	size_t n = *cap ? *cap : (first ? first : 1);
+
+	if (need <= *cap && p)
+		return p;
+	while (n < need) {
+		if (n > SIZE_MAX / 3 * 2)
+			return NULL;
+		if (size && n >= ST_GROW_FINE / size)
+			n += n / 8;
+		else
+			n += n / 2 ? n / 2 : 1;
+	}
+	if (!size || n > SIZE_MAX / size)
+		return NULL;
+	void *q = realloc(p, n * size);
+	if (!q)
+		return NULL;
+	*cap = n;
+	return q;
+}
+
+int st_arena_grow(tm_buf *b, size_t extra)
+{
+	if (b->failed || b->max || extra > SIZE_MAX - b->len)
+		return buf_reserve(b, extra); /* its checks, its errors */
+	if (b->data && b->len + extra <= b->cap)
+		return TM_OK;
+	char *d = st_grow(b->data, &b->cap, b->len + extra, 1, 4096);
+	if (!d) {
+		b->failed = 1;
+		b->cap = b->len; /* as buf_reserve leaves a failed buffer */
+		return TM_ENOMEM;
+	}
+	b->data = d;
+	return TM_OK;
 }
 
 void st_free(strtab *t)

@@ -54,10 +54,15 @@ typedef struct tally_mem {
 	strtab keys;    /* lang 1F key -> postings */
 	strtab occs;    /* occ 1F lang -> postings */
 	idset ids;      /* posting ids seen */
-	strtab exkeys;  /* occ 1F lang 1F key -> index into ex */
-	struct tm_example { uint64_t h[TALLY_EXAMPLES]; uint32_t off[TALLY_EXAMPLES],
-		len[TALLY_EXAMPLES]; uint8_t n; } *ex;
-	size_t nex, excap;
+	/* the triples that have examples: occ 1F lang 1F key.  Triple i's
+	 * first example is ex[i]; its count is 0, or the index + 1 of
+	 * its second and third in exmore (most triples of a long tail have
+	 * one).  The texts lie in exarena. */
+	strtab triples;
+	struct tm_ex { uint64_t h; uint32_t off, len; /* len 0: none (none is empty) */ } *ex;
+	size_t excap;
+	struct tm_exmore { struct tm_ex x[TALLY_EXAMPLES - 1]; } *exmore;
+	size_t nmore, morecap;
 	tm_buf exarena;
 	uint64_t postings, republished;
 	uint64_t added[3]; /* the counts added to forms, keys, occs: while
@@ -134,8 +139,27 @@ uint64_t tm_key_postings(tally_mem *m, const char *lang, const char *key, size_t
 /* Postings of an occupation in a language (0 when unknown). */
 uint64_t tm_occ_postings(tally_mem *m, const char *occ, size_t ol, const char *lang);
 
-/* Bytes held by the engine, for measurements. */
+/* Bytes held by the engine, for measurements; the bytes of the strings
+ * it holds (keys, titles, examples) among them. */
 size_t tm_bytes(const tally_mem *m);
+size_t tm_string_bytes(const tally_mem *m);
+
+/* The triples that have examples, by index 0 .. tm_ntriples(m) - 1 in
+ * no particular order: the joined key (occupation 1F language 1F key)
+ * of triple i, and its examples (at most TALLY_EXAMPLES, in no
+ * particular order): their texts, lengths and hashes (tok_hash, the
+ * order of the sample); the number is returned.  Pointers into the
+ * engine, valid until it changes. */
+static inline size_t tm_ntriples(const tally_mem *m)
+{
+	return m->triples.n;
+}
+static inline const char *tm_triple_key(const tally_mem *m, size_t i, size_t *n)
+{
+	return st_key(&m->triples, i, n);
+}
+int tm_triple_examples(const tally_mem *m, size_t i, const char **text, size_t *len,
+		       uint64_t *h);
 
 /* What the engines count of a posting once its title is cleaned: the
  * raw example is the prepared title with contact data masked.  Borrows

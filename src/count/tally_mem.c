@@ -24,8 +24,9 @@ void tm_free(tally_mem *m)
 	st_free(&m->keys);
 	st_free(&m->occs);
 	ids_free(&m->ids);
-	st_free(&m->exkeys);
+	st_free(&m->triples);
 	free(m->ex);
+	free(m->exmore);
 	buf_free(&m->exarena);
 	memset(m, 0, sizeof *m);
 }
@@ -33,8 +34,65 @@ void tm_free(tally_mem *m)
 size_t tm_bytes(const tally_mem *m)
 {
 	return st_bytes(&m->forms) + st_bytes(&m->keys) + st_bytes(&m->occs) +
-	       ids_bytes(&m->ids) + st_bytes(&m->exkeys) +
-	       m->excap * sizeof *m->ex + m->exarena.cap;
+	       ids_bytes(&m->ids) + st_bytes(&m->triples) +
+	       m->excap * sizeof *m->ex + m->morecap * sizeof *m->exmore + m->exarena.cap;
+}
+
+size_t tm_string_bytes(const tally_mem *m)
+{
+	return m->forms.arena.len + m->keys.arena.len + m->occs.arena.len + m->ids.arena.len +
+	       m->triples.arena.len + m->exarena.len;
+}
+
+/* The examples of triple i into e[0..TALLY_EXAMPLES) (len 0 past the
+ * last); returns their number. */
+static inline int ex_get(const tally_mem *m, size_t i, struct tm_ex *e)
+{
+	uint64_t more = m->triples.ent[i].count;
+	e[0] = m->ex[i];
+	if (!more)
+		return e[0].len != 0;
+	int n = 1;
+	for (int a = 1; a < TALLY_EXAMPLES; a++) {
+		e[a] = m->exmore[more - 1].x[a - 1];
+		n += e[a].len != 0;
+	}
+	return n;
+}
+
+/* Sets example a of triple i to v, making room for the second and
+ * third when they are first needed.  0 or -1 (out of memory). */
+static int ex_put(tally_mem *m, size_t i, int a, struct tm_ex v)
+{
+	uint64_t *more = &m->triples.ent[i].count;
+	if (a == 0) {
+		m->ex[i] = v;
+		return 0;
+	}
+	if (!*more) {
+		struct tm_exmore *x = st_grow(m->exmore, &m->morecap, m->nmore + 1, sizeof *x, 256);
+		if (!x)
+			return -1;
+		m->exmore = x;
+		memset(&x[m->nmore], 0, sizeof *x);
+		*more = ++m->nmore;
+	}
+	m->exmore[*more - 1].x[a - 1] = v;
+	return 0;
+}
+
+int tm_triple_examples(const tally_mem *m, size_t i, const char **text, size_t *len,
+		       uint64_t *h)
+{
+	struct tm_ex e[TALLY_EXAMPLES];
+	int n = ex_get(m, i, e);
+	for (int a = 0; a < n; a++) {
+		text[a] = m->exarena.data + e[a].off;
+		len[a] = e[a].len;
+		if (h)
+			h[a] = e[a].h;
+	}
+	return n;
 }
 
 /* The tables' keys are fields joined with SEP, filed under a hash made
@@ -127,47 +185,48 @@ static int add_example(tally_mem *m, const st_fields *k, const char *text, size_
 {
 	size_t idx;
 	int r;
-	struct tm_example *e;
-	int worst = -1;
+	struct tm_ex e[TALLY_EXAMPLES];
+	int worst = -1, en;
+	const char *xa = m->exarena.data;
 
 	if (tl == 0)
 		return 0; /* an empty example is no evidence */
-	r = st_add_fields(&m->exkeys, k, 0, &idx);
-	if (r < 0)
+	if (tl > UINT32_MAX || m->exarena.len + tl > UINT32_MAX)
 		return -1;
-	if (r == 1) {
-		struct tm_example *ex = tm_grow(m->ex, &m->excap, m->nex + 1, sizeof *ex, 1024);
+	/* room for a new triple's examples first: the table and ex keep
+	 * the same indices */
+	if (m->triples.n == m->excap) {
+		struct tm_ex *ex = st_grow(m->ex, &m->excap, m->triples.n + 1, sizeof *ex, 1024);
 		if (!ex)
 			return -1;
 		m->ex = ex;
-		memset(&m->ex[m->nex], 0, sizeof m->ex[0]);
-		m->exkeys.ent[idx].count = m->nex++;
 	}
-	e = &m->ex[m->exkeys.ent[idx].count];
+	r = st_add_fields(&m->triples, k, 0, &idx);
+	if (r < 0)
+		return -1;
+	if (r == 1)
+		m->ex[idx] = (struct tm_ex){0, 0, 0};
+	en = ex_get(m, idx, e);
 	/* keep the TALLY_EXAMPLES distinct texts of smallest hash */
-	for (int i = 0; i < e->n; i++) {
-		if (e->h[i] == h && e->len[i] == tl &&
-		    !memcmp(m->exarena.data + e->off[i], text, tl))
+	for (int i = 0; i < en; i++) {
+		if (e[i].h == h && e[i].len == tl && !memcmp(xa + e[i].off, text, tl))
 			return 0;
-		if (worst < 0 || e->h[i] > e->h[worst] ||
-		    (e->h[i] == e->h[worst] &&
-		     memcmp(m->exarena.data + e->off[i], m->exarena.data + e->off[worst],
-			    e->len[i] < e->len[worst] ? e->len[i] : e->len[worst]) > 0))
+		if (worst < 0 || e[i].h > e[worst].h ||
+		    (e[i].h == e[worst].h &&
+		     memcmp(xa + e[i].off, xa + e[worst].off,
+			    e[i].len < e[worst].len ? e[i].len : e[worst].len) > 0))
 			worst = i;
 	}
 	int slot;
-	if (e->n < TALLY_EXAMPLES)
-		slot = e->n++;
-	else if (h < e->h[worst])
+	if (en < TALLY_EXAMPLES)
+		slot = en;
+	else if (h < e[worst].h)
 		slot = worst;
 	else
 		return 0;
-	if (buf_append(&m->exarena, text, tl))
+	if (st_arena_reserve(&m->exarena, tl + 1) || buf_append(&m->exarena, text, tl))
 		return -1;
-	e->h[slot] = h;
-	e->off[slot] = (uint32_t)(m->exarena.len - tl);
-	e->len[slot] = (uint32_t)tl;
-	return 0;
+	return ex_put(m, idx, slot, (struct tm_ex){h, (uint32_t)(m->exarena.len - tl), (uint32_t)tl});
 }
 
 int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
@@ -216,7 +275,7 @@ int tm_add(tally_mem *m, const tally_posting *p)
 		posting_keys(p, 0, ll, hl, hk, ht, &ok, &tk, &fk);
 		st_prefetch(&m->forms, fk.h);
 		if (p->examplelen)
-			st_prefetch(&m->exkeys, tk.h);
+			st_prefetch(&m->triples, tk.h);
 	}
 	if (p->id) {
 		int r = ids_add_h(&m->ids, p->id, p->idlen, hid);
@@ -264,6 +323,25 @@ static int cmp_srt(const void *a, const void *b)
 {
 	const srt *x = a, *y = b;
 	return cmp_bytes(x->s, x->n, y->s, y->n);
+}
+
+/* The examples of triple i in byte order. */
+static int examples_sorted(const tally_mem *m, size_t i, const char **text, size_t *len)
+{
+	int n = tm_triple_examples(m, i, text, len, NULL);
+	for (int a = 0; a < n; a++)
+		for (int b = a + 1; b < n; b++) {
+			srt x = {text[a], len[a], 0}, y = {text[b], len[b], 0};
+			if (cmp_srt(&x, &y) > 0) {
+				const char *t = text[a];
+				size_t l = len[a];
+				text[a] = text[b];
+				len[a] = len[b];
+				text[b] = t;
+				len[b] = l;
+			}
+		}
+	return n;
 }
 
 static size_t prefix(const char *s, size_t n, int f);
@@ -448,7 +526,7 @@ int tm_write(tally_mem *m, FILE *out)
 
 int tm_write_rows(tally_mem *m, FILE *out, const char *period, size_t pn)
 {
-	srt *occ = sorted(&m->occs), *form = sorted(&m->forms), *ex = sorted(&m->exkeys),
+	srt *occ = sorted(&m->occs), *form = sorted(&m->forms), *ex = sorted(&m->triples),
 	    *key = sorted(&m->keys);
 	size_t io = 0, jf = 0, je = 0;
 	int rc = 0;
@@ -491,24 +569,14 @@ int tm_write_rows(tally_mem *m, FILE *out, const char *period, size_t pn)
 				    m->forms.ent[form[q].i].count, 1, period, pn);
 			}
 			/* its examples, in byte order */
-			while (je < m->exkeys.n && cmp_srt(&ex[je], &(srt){form[jf].s, tp, 0}) < 0)
+			while (je < m->triples.n && cmp_srt(&ex[je], &(srt){form[jf].s, tp, 0}) < 0)
 				je++;
-			if (je < m->exkeys.n && !cmp_srt(&ex[je], &(srt){form[jf].s, tp, 0})) {
-				struct tm_example *e = &m->ex[m->exkeys.ent[ex[je].i].count];
-				int ord[TALLY_EXAMPLES] = {0, 1, 2};
-				for (int a = 0; a < e->n; a++)
-					for (int b = a + 1; b < e->n; b++) {
-						srt x = {m->exarena.data + e->off[ord[a]], e->len[ord[a]], 0};
-						srt y = {m->exarena.data + e->off[ord[b]], e->len[ord[b]], 0};
-						if (cmp_srt(&x, &y) > 0) {
-							int tmp = ord[a];
-							ord[a] = ord[b];
-							ord[b] = tmp;
-						}
-					}
-				for (int a = 0; a < e->n; a++)
-					row(out, "example", form[jf].s, tp, 3,
-					    m->exarena.data + e->off[ord[a]], e->len[ord[a]], 0, 0, period, pn);
+			if (je < m->triples.n && !cmp_srt(&ex[je], &(srt){form[jf].s, tp, 0})) {
+				const char *xt[TALLY_EXAMPLES];
+				size_t xl[TALLY_EXAMPLES];
+				int xn = examples_sorted(m, ex[je].i, xt, xl);
+				for (int a = 0; a < xn; a++)
+					row(out, "example", form[jf].s, tp, 3, xt[a], xl[a], 0, 0, period, pn);
 				je++;
 			}
 			jf = end;
@@ -758,30 +826,9 @@ int tm_examples(tally_mem *m, const char *occ, size_t ol, const char *lang,
 {
 	st_fields k;
 	long i;
-	int n = 0;
 	triple_key(&k, occ, ol, lang, key, kl);
-	i = st_find_fields(&m->exkeys, &k);
-	if (i < 0)
-		return 0;
-	const struct tm_example *e = &m->ex[m->exkeys.ent[i].count];
-	for (int a = 0; a < e->n; a++) {
-		text[n] = m->exarena.data + e->off[a];
-		len[n++] = e->len[a];
-	}
-	/* byte order */
-	for (int a = 0; a < n; a++)
-		for (int b = a + 1; b < n; b++) {
-			srt x = {text[a], len[a], 0}, y = {text[b], len[b], 0};
-			if (cmp_srt(&x, &y) > 0) {
-				const char *t = text[a];
-				size_t l = len[a];
-				text[a] = text[b];
-				len[a] = len[b];
-				text[b] = t;
-				len[b] = l;
-			}
-		}
-	return n;
+	i = st_find_fields(&m->triples, &k);
+	return i < 0 ? 0 : examples_sorted(m, (size_t)i, text, len);
 }
 
 uint64_t tm_key_postings(tally_mem *m, const char *lang, const char *key, size_t kl)
@@ -832,15 +879,15 @@ int tm_merge(tally_mem *dst, const tally_mem *src)
 		field(k, n, 0, &f, &fl);
 		r = tm_add_occ(dst, f, fl, lang, src->occs.ent[i].count);
 	}
-	for (size_t i = 0; i < src->exkeys.n && !r; i++) {
-		const char *k = st_key(&src->exkeys, i, &n);
-		const struct tm_example *e = &src->ex[src->exkeys.ent[i].count];
+	for (size_t i = 0; i < tm_ntriples(src) && !r; i++) {
+		const char *k = tm_triple_key(src, i, &n), *xt[TALLY_EXAMPLES];
+		size_t xl[TALLY_EXAMPLES];
+		int xn = tm_triple_examples(src, i, xt, xl, NULL);
 		lang_of(k, n, lang);
 		field(k, n, 0, &f, &fl);
 		field(k, n, 2, &f2, &fl2);
-		for (int q = 0; q < e->n && !r; q++)
-			r = tm_add_example(dst, f, fl, lang, f2, fl2, src->exarena.data + e->off[q],
-					   e->len[q]);
+		for (int q = 0; q < xn && !r; q++)
+			r = tm_add_example(dst, f, fl, lang, f2, fl2, xt[q], xl[q]);
 	}
 	return r;
 }

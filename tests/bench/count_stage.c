@@ -136,10 +136,8 @@ int main(int argc, char **argv)
 				return 1;
 		}
 		secs[k] = now() - t0;
-		rows = m.exkeys.n;
-		per_row = rows ? (double)(tm_bytes(&m) - m.forms.arena.len - m.keys.arena.len -
-					  m.occs.arena.len - m.ids.arena.len - m.exkeys.arena.len -
-					  m.exarena.len) / (double)rows : 0.0;
+		rows = tm_ntriples(&m);
+		per_row = rows ? (double)(tm_bytes(&m) - tm_string_bytes(&m)) / (double)rows : 0.0;
 		tm_free(&m);
 	}
 	qsort(secs, (size_t)runs, sizeof *secs, cmp_d);

@@ -17,6 +17,7 @@
 #include "count/store.h"
 #include "count/strtab.h"
 #include "count/tally.h"
+#include "norm/token.h"
 
 static char path[64];
 
@@ -242,6 +243,108 @@ static void test_examples_order_free(void **state)
 	free(b);
 	tm_free(&x);
 	tm_free(&y);
+}
+
+/* Each triple keeps the TALLY_EXAMPLES distinct texts of smallest
+ * tok_hash (ties: the smaller bytes), whether it was offered one, two,
+ * three or many, its offers interleaved with other triples' (so the
+ * records of second and third examples are made in no order of the
+ * triples); an engine merged from it keeps the same. */
+static void test_examples_kept(void **state)
+{
+	(void)state;
+	enum { T = 40, OFFERS = 60 };
+	tally_mem m, copy;
+	char key[16], ex[32];
+	tm_init(&m);
+	tm_init(&copy);
+	for (int o = 0; o < OFFERS; o++)
+		for (int t = 0; t < T; t++) {
+			if (o >= t % 7 + 1 && t % 7 != 6)
+				continue; /* triple t is offered t % 7 + 1 texts, or 60 */
+			int kl = snprintf(key, sizeof key, "k%d", t);
+			int el = snprintf(ex, sizeof ex, "Koch %d", (o * 37 + t) % OFFERS);
+			assert_int_equal(tm_add_example(&m, "o", 1, "de", key, (size_t)kl, ex, (size_t)el), 0);
+			/* offered again: no change */
+			assert_int_equal(tm_add_example(&m, "o", 1, "de", key, (size_t)kl, ex, (size_t)el), 0);
+		}
+	assert_int_equal(tm_merge(&copy, &m), 0);
+	for (int t = 0; t < T; t++) {
+		int offers = t % 7 == 6 ? OFFERS : t % 7 + 1, want = 0;
+		uint64_t h[OFFERS];
+		char txt[OFFERS][32];
+		for (int o = 0; o < offers; o++) {
+			snprintf(txt[o], sizeof txt[o], "Koch %d", (o * 37 + t) % OFFERS);
+			h[o] = tok_hash(txt[o], strlen(txt[o]));
+		}
+		int kept[TALLY_EXAMPLES];
+		for (; want < TALLY_EXAMPLES && want < offers; want++) { /* brute force */
+			int best = -1;
+			for (int o = 0; o < offers; o++) {
+				int taken = 0;
+				for (int q = 0; q < want; q++)
+					taken |= kept[q] == o;
+				if (!taken && (best < 0 || h[o] < h[best] ||
+					       (h[o] == h[best] && strcmp(txt[o], txt[best]) < 0)))
+					best = o;
+			}
+			kept[want] = best;
+		}
+		int kl = snprintf(key, sizeof key, "k%d", t);
+		for (int e = 0; e < 2; e++) {
+			const char *text[TALLY_EXAMPLES];
+			size_t len[TALLY_EXAMPLES];
+			int n = tm_examples(e ? &copy : &m, "o", 1, "de", key, (size_t)kl, text, len);
+			assert_int_equal(n, want);
+			for (int q = 0; q < want; q++) {
+				int found = 0;
+				for (int a = 0; a < n; a++)
+					found |= len[a] == strlen(txt[kept[q]]) &&
+						 !memcmp(text[a], txt[kept[q]], len[a]);
+				assert_true(found);
+			}
+			for (int a = 1; a < n; a++) /* in byte order */
+				assert_true(memcmp(text[a - 1], text[a], len[a] < len[a - 1] ? len[a] : len[a - 1]) <= 0);
+		}
+	}
+	tm_free(&m);
+	tm_free(&copy);
+}
+
+/* The tables grow by half, not twice: entries, arenas and slots stay
+ * within a small factor of what they hold (slots: at most 3/4 full, and
+ * a table just past that grows to 1.5 times, not twice its slots). */
+static void test_growth(void **state)
+{
+	(void)state;
+	size_t cap = 0;
+	char *p = NULL;
+	for (size_t need = 1; need < ((size_t)16 << 20); need = need * 5 / 4 + 1) {
+		p = st_grow(p, &cap, need, 1, 64);
+		assert_non_null(p);
+		assert_true(cap >= need);
+		assert_true(cap <= need * 3 / 2 + 64);
+		if (need > ((size_t)8 << 20))
+			assert_true(cap <= need + need / 8 + 1);
+		p[need - 1] = 1;
+	}
+	free(p);
+	tm_buf b = {0};
+	for (int i = 0; i < 100000; i++) {
+		assert_int_equal(st_arena_reserve(&b, 11), 0);
+		assert_int_equal(buf_append(&b, "0123456789", 10), 0);
+		assert_true(b.cap >= b.len + 1 && b.cap <= b.len * 3 / 2 + 4096);
+	}
+	buf_free(&b);
+	strtab t = {0};
+	char k[16];
+	for (int i = 0; i < 769; i++) /* 768 fill 1024 slots to 3/4 */
+		assert_int_equal(st_add(&t, k, (size_t)snprintf(k, sizeof k, "k%d", i), 1, NULL), 1);
+	assert_int_equal(t.nslot, 1536);
+	assert_true(t.cap <= 1536);
+	for (int i = 0; i < 769; i++)
+		assert_int_equal(st_find(&t, k, (size_t)snprintf(k, sizeof k, "k%d", i)), i);
+	st_free(&t);
 }
 
 static void test_bad_tables(void **state)
@@ -533,6 +636,8 @@ int main(void)
 		cmocka_unit_test(test_fingerprints),
 		cmocka_unit_test(test_engine),
 		cmocka_unit_test(test_examples_order_free),
+		cmocka_unit_test(test_examples_kept),
+		cmocka_unit_test(test_growth),
 		cmocka_unit_test(test_bad_tables),
 		cmocka_unit_test(test_count_overflow),
 		cmocka_unit_test(test_bad_occupations),
