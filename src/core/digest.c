@@ -10,6 +10,18 @@
 #define P4 0x85EBCA77C2B2AE63ULL
 #define P5 0x27D4EB2F165667C5ULL
 
+uint64_t dg_fnv(const void *p, size_t n)
+{
+	const unsigned char *s = p;
+	uint64_t h = 0xCBF29CE484222325ULL;
+
+	for (size_t i = 0; i < n; i++) {
+		h ^= s[i];
+		h *= 0x100000001B3ULL;
+	}
+	return h ^ (h >> 29);
+}
+
 static inline uint64_t rotl(uint64_t x, int r)
 {
 	return x << r | x >> (64 - r);

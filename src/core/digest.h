@@ -11,6 +11,15 @@
 /* The hash of p[0..n) under a seed; the same on every machine. */
 uint64_t dg_hash(const void *p, size_t n, uint64_t seed);
 
+/* FNV-1a (64 bits) with its high bits folded into the low ones.  Its
+ * values are kept by the project's files and stores: a suggestion's id
+ * (propose.c), which three examples a count keeps (the smallest hashes:
+ * tally_mem.c, and a store's examples carry them), a store's shards and
+ * chunk digests (count/chunk.h).  So it never changes, whatever hash the
+ * normaliser or the tables use for themselves; test_chunk.c pins its
+ * values. */
+uint64_t dg_fnv(const void *p, size_t n);
+
 /* A running digest of a sequence of byte strings: each added string is
  * hashed with its length, so that ("ab","c") and ("a","bc") differ. */
 typedef struct dg_state {

@@ -4,14 +4,11 @@
 #include <stdio.h>
 #include <string.h>
 
+#include "core/digest.h"
+
 uint64_t chunk_hash(const char *s, size_t n)
 {
-	uint64_t h = 0xCBF29CE484222325ULL;
-	for (size_t i = 0; i < n; i++) {
-		h ^= (unsigned char)s[i];
-		h *= 0x100000001B3ULL;
-	}
-	return h ^ (h >> 29);
+	return dg_fnv(s, n);
 }
 
 void chunk_digest_start(uint64_t dg[2], int kind)

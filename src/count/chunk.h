@@ -41,7 +41,8 @@
  * a store's ledgers and journals name, are part of what the store holds,
  * so these two functions are the store's own and never change, whatever
  * hash the normaliser or the memory engine use (the unit tests pin their
- * values).  chunk_hash is FNV-1a (64 bits) with its high bits folded in;
+ * values).  chunk_hash is dg_fnv (core/digest.h), whose values the
+ * project keeps;
  * chunk_mix mixes a value into a running hash. */
 uint64_t chunk_hash(const char *s, size_t n);
 

@@ -99,8 +99,8 @@ int tm_triple_examples(const tally_mem *m, size_t i, const char **text, size_t *
  * of the fields' own hashes: a posting hashes its language, key, title
  * and each occupation once, and every key it counts under is derived
  * from those, never joined to be looked up.  A field's hash reads eight
- * bytes at a step (the examples keep tok_hash: which three are kept
- * depends on it, here and in the store). */
+ * bytes at a step (the examples keep dg_fnv, whose values never change:
+ * which three are kept depends on it, here and in a store). */
 static inline uint64_t fh(const char *s, size_t n)
 {
 	return dg_hash(s, n, 0);
@@ -234,7 +234,7 @@ int tm_add_example(tally_mem *m, const char *occ, size_t ol, const char *lang,
 {
 	st_fields k;
 	triple_key(&k, occ, ol, lang, key, kl);
-	return add_example(m, &k, text, tl, tok_hash(text, tl));
+	return add_example(m, &k, text, tl, dg_fnv(text, tl));
 }
 
 /* The keys occupation i of a posting counts under: (occupation,
@@ -287,7 +287,7 @@ int tm_add(tally_mem *m, const tally_posting *p)
 		}
 	}
 	m->postings++;
-	hx = p->examplelen ? tok_hash(p->example, p->examplelen) : 0;
+	hx = p->examplelen ? dg_fnv(p->example, p->examplelen) : 0;
 	if (add_count(&m->keys, &m->added[1], &lk, 1))
 		return -1;
 	for (size_t i = 0; i < p->nocc; i++) {

@@ -15,6 +15,7 @@
 #include "rank/labkeys.h"
 #include "rank/propose.h"
 #include "count/strtab.h"
+#include "core/digest.h"
 #include "norm/token.h"
 #include "norm/unicode.h"
 
@@ -685,7 +686,7 @@ int propose_run(tally_mem *m, const labelset *ls, const propose_bars *b,
 		    buf_append(&j, s->occ, s->ol) || buf_putc(&j, '\x1F') || buf_puts(&j, s->lang) ||
 		    buf_putc(&j, '\x1F') || buf_append(&j, s->key, s->kl))
 			goto done;
-		snprintf(s->id, sizeof s->id, "%016llx", (unsigned long long)tok_hash(j.data, j.len));
+		snprintf(s->id, sizeof s->id, "%016llx", (unsigned long long)dg_fnv(j.data, j.len));
 	}
 	if (out->n > 1)
 		tm_qsort(out->v, out->n, sizeof *out->v, cmp_sugg);

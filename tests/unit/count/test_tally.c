@@ -12,12 +12,12 @@
 
 #include <cmocka.h>
 
+#include "core/digest.h"
 #include "io/postings.h"
 #include "count/idset.h"
 #include "count/store.h"
 #include "count/strtab.h"
 #include "count/tally.h"
-#include "norm/token.h"
 
 static char path[64];
 
@@ -246,7 +246,7 @@ static void test_examples_order_free(void **state)
 }
 
 /* Each triple keeps the TALLY_EXAMPLES distinct texts of smallest
- * tok_hash (ties: the smaller bytes), whether it was offered one, two,
+ * dg_fnv (ties: the smaller bytes), whether it was offered one, two,
  * three or many, its offers interleaved with other triples' (so the
  * records of second and third examples are made in no order of the
  * triples); an engine merged from it keeps the same. */
@@ -275,7 +275,7 @@ static void test_examples_kept(void **state)
 		char txt[OFFERS][32];
 		for (int o = 0; o < offers; o++) {
 			snprintf(txt[o], sizeof txt[o], "Koch %d", (o * 37 + t) % OFFERS);
-			h[o] = tok_hash(txt[o], strlen(txt[o]));
+			h[o] = dg_fnv(txt[o], strlen(txt[o]));
 		}
 		int kept[TALLY_EXAMPLES];
 		for (; want < TALLY_EXAMPLES && want < offers; want++) { /* brute force */
