@@ -147,7 +147,7 @@ size_t tm_string_bytes(const tally_mem *m);
 /* The triples that have examples, by index 0 .. tm_ntriples(m) - 1 in
  * no particular order: the joined key (occupation 1F language 1F key)
  * of triple i, and its examples (at most TALLY_EXAMPLES, in no
- * particular order): their texts, lengths and hashes (tok_hash, the
+ * particular order): their texts, lengths and hashes (dg_fnv, the
  * order of the sample); the number is returned.  Pointers into the
  * engine, valid until it changes. */
 static inline size_t tm_ntriples(const tally_mem *m)
