@@ -224,6 +224,15 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 		if (k0 < k1 && noise_date_at_edge(ti, k1 - 1))
 			*changed = 1;
 	}
+	/* a pay remark after a "+" at the segment's end, no amount before
+	 * it: "Support Worker + sleep-in allowance" */
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 < k1 && (ti->lflags & LF_SYM) && HAS(ti, LC_PAY) &&
+	    (k = plus_remark(ti, k0, k1)) < k1) {
+		if (remove_units(ti, k, k1, NF_PAY, NULL))
+			return -1;
+		*changed = 1;
+	}
 	/* a contact word alone in its segment: "Contact: jobs@..." */
 	seg_kept(ti, s, &k0, &k1);
 	if (k0 + 1 == k1 && !ti->prot[ti->unit[k0]] &&
