@@ -722,6 +722,47 @@ static int lower_within(tm_title *ti, size_t k0, size_t k1)
 	return 0;
 }
 
+/* Is unit k a kept location preposition or employer marker of one word,
+ * of any language ("en", "na", "at")?  Before a firm's capitalised name
+ * and legal form it says what follows it, whatever the hint. */
+static int link_word(tm_title *ti, size_t k)
+{
+	size_t len;
+	int any = ti->any_lang, link;
+	ti->any_lang = 1;
+	link = ukept(ti, k) && (match_val(ti, k, LC_EMPLOYER, "marker", 1, &len) ||
+				match_val(ti, k, LC_LOCATION, "prep", 1, &len)) && len == 1;
+	ti->any_lang = any;
+	return link;
+}
+
+/* Is a kept word naming an occupation in [k0, k1) (a `head`, or a word
+ * with an occupational ending: "Programador", "Mecânico/a") followed by
+ * a word that links it to the firm after it: the next word in lower
+ * case, or a location preposition or employer marker later on ("Programador en Transportes
+ * Aldevia S.A.", "AYUDANTE DE COCINA EN TRANSPORTES ALDEVIA S.A.",
+ * "Programador Web Na Carvalhena Serviços Lda.")?  A firm's name may
+ * hold a word that ends like an occupation, followed by another
+ * capitalised word ("Logistica Brembana e Figli S.r.l."). */
+static int occupation_linked(tm_title *ti, size_t k0, size_t k1, int caps)
+{
+	for (size_t k = k0; k + 1 < k1; k++) {
+		size_t n = k + 1, len;
+		if (!ukept(ti, k) || U(ti, k)->kind != TK_WORD ||
+		    !(ti->uend[k] || match_val(ti, k, LC_OCCUPATION, "head", 1, &len)))
+			continue;
+		while (n < k1 && !(ukept(ti, n) && U(ti, n)->kind == TK_WORD))
+			n++;
+		if (n < k1 && !caps && !cap_word(ti, n))
+			return 1;
+		for (; n < k1; n++)
+			if (link_word(ti, n))
+				return 1;
+		return 0;
+	}
+	return 0;
+}
+
 int pass_employer(tm_title *ti)
 {
 	size_t k, len, k0, k1;
@@ -757,8 +798,9 @@ int pass_employer(tm_title *ti)
 			 * between them, stays: "Oferta: Vendedor en Transportes
 			 * Aldevia S.A." (not "Valdoria Logistik GmbH",
 			 * "Logistica Brembana e Figli S.r.l.") */
-			int occ = !caps && k > k0 && cap_word(ti, k - 1) &&
-				  head_within(ti, k0, k) && lower_within(ti, k0, k);
+			int occ = k > k0 && cap_word(ti, k - 1) &&
+				  ((!caps && head_within(ti, k0, k) && lower_within(ti, k0, k)) ||
+				   occupation_linked(ti, k0, k, caps));
 			if ((g->bracket || g->index > 0) && !occ)
 				start = k0;
 			else if (k > k0 && k - k0 <= 3 && !occ &&
@@ -770,6 +812,10 @@ int pass_employer(tm_title *ti)
 				start = k;
 				while (start > k0 + 1 && k - start < 3 &&
 				       cap_word(ti, start - 1) && ukept(ti, start - 1))
+					start--;
+				/* and the word linking it to the occupation:
+				 * "Cook [en Clínica Orvenda S.L.]" */
+				if (occ && start > k0 + 1 && start < k && link_word(ti, start - 1))
 					start--;
 			}
 		}
