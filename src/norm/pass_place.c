@@ -163,8 +163,10 @@ static int loc_word_(tm_title *ti, size_t k, const char *value, size_t *len)
 
 /* A location `after` word at unit e, after a place at unit k of the
  * same segment (Paris area, Köln und Umgebung).  One written `edge`
- * counts only where it ends its segment: "Madrid centro", not "ropa
- * centro comercial" (the clean title is read again as one segment). */
+ * counts only where it ends its segment, by itself or with the after
+ * words that follow it: "Madrid centro", "Leeds City area", not "ropa
+ * centro comercial" (the clean title is read again as one segment) nor
+ * "Leeds City Manager"; *len then covers them all. */
 static int after_word(tm_title *ti, size_t e, size_t k, size_t *len)
 {
 	const lex_entry *x;
@@ -175,8 +177,16 @@ static int after_word(tm_title *ti, size_t e, size_t k, size_t *len)
 		return 0;
 	if (x->where != LW_EDGE)
 		return 1;
+	/* ending its segment, alone or with more after words: "Leeds
+	 * City area", not "Leeds City Manager" */
 	seg_kept(ti, useg(ti, e), &a, &b);
-	return e + *len == b;
+	size_t p = e + *len, l2;
+	while (p < b && match_val(ti, p, LC_LOCATION, "after", 1, &l2))
+		p += l2;
+	if (p != b)
+		return 0;
+	*len = p - e;
+	return 1;
 }
 
 /* An acronym in a mixed-case title is no place unless the lexicon
