@@ -773,10 +773,71 @@ static int occupation_linked(tm_title *ti, size_t k0, size_t k1, int caps)
 	return 0;
 }
 
+/* Is segment s, all of it kept, units [k0, k1), a workplace kind and
+ * nothing else: business kind phrases (business/, value `kind`), joined
+ * by connectors or "&" ("Hotel", "Centro Comercial", "Hotel &
+ * Restaurant"), none of them an occupational word?  A kind that is also
+ * a field names a trade ("Verkäufer – Bäckerei"), and what a gender
+ * pair left of a segment is none ("Kierownik / [Kierowniczka] sklepu"). */
+static int kind_only(tm_title *ti, size_t s, size_t k0, size_t k1)
+{
+	size_t k = k0, len;
+	int kinds = 0;
+	if (k0 != ti->segs[s].u0 || k1 != ti->segs[s].u1)
+		return 0;
+	while (k < k1) {
+		if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
+		    (ti->ucats[k] & (1u << LC_OCCUPATION)))
+			return 0;
+		if (match_val(ti, k, LC_BUSINESS, "kind", 1, &len) && k + len <= k1 &&
+		    units_free(ti, k, k + len)) {
+			/* the longer phrase wins: "Centro Comercial" holds
+			 * the head "comercial" */
+			kinds++;
+			k += len;
+		} else if (kinds && k + 1 < k1 &&
+			   (match_val(ti, k, LC_UNIT, "connector", 1, &len) ||
+			    (U(ti, k)->kind == TK_SYM && U(ti, k)->ch == '&'))) {
+			k += U(ti, k)->kind == TK_SYM ? 1 : len;
+		} else
+			return 0;
+	}
+	return kinds > 0;
+}
+
+/* Segments that name only the kind of workplace after a segment that
+ * names the occupation: "Rezeptionist – Hotel", "Vendedora - Centro
+ * Comercial", "Koch | Restaurant".  Curators count occupations; the
+ * workplace adds nothing to the key.  A kind inside the occupation's
+ * segment stays ("Hotel Receptionist", "Restaurant Manager"), and so
+ * does a title of one segment. */
+static int workplace_segments(tm_title *ti)
+{
+	int occupation = 0;
+	for (size_t s = 0; s < ti->nseg; s++) {
+		size_t k0, k1;
+		seg_kept(ti, s, &k0, &k1);
+		if (k0 >= k1)
+			continue;
+		if (occupation && kind_only(ti, s, k0, k1)) {
+			if (remove_units(ti, k0, k1, NF_EMPLOYER, NULL))
+				return -1;
+			continue;
+		}
+		for (size_t k = k0; k < k1 && !occupation; k++)
+			occupation = ukept(ti, k) && U(ti, k)->kind == TK_WORD &&
+				     (ti->uend[k] || head_within(ti, k, k + 1));
+	}
+	return 0;
+}
+
 int pass_employer(tm_title *ti)
 {
 	size_t k, len, k0, k1;
 	int caps = all_caps_line(ti);
+
+	if (HAS(ti, LC_BUSINESS) && ti->nseg > 1 && workplace_segments(ti))
+		return -1;
 
 	/* legal forms: Nordwerk GmbH, Maison Ortalie SARL */
 	for (k = 0; k < ti->nunit; k++) {
