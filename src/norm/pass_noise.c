@@ -115,6 +115,28 @@ static int contact_label(tm_title *ti, size_t k0, size_t k1)
 	return contact && kept_elsewhere(ti, k0, k1);
 }
 
+/* Are the kept units [k0, k1) of segment s all contact words (units/,
+ * value `contact`: "Bel", "voor info", "Tel."), with contact data
+ * removed between or beside them in the segment? */
+static int contact_words(tm_title *ti, size_t s, size_t k0, size_t k1)
+{
+	size_t k = k0, len;
+	int contact = 0;
+	const tm_seg *g = &ti->segs[s];
+	while (k < k1) {
+		if (!ukept(ti, k) || ti->prot[ti->unit[k]])
+			k++;
+		else if (match_val(ti, k, LC_UNIT, "contact", 1, &len) &&
+			 units_free(ti, k, k + len))
+			k += len;
+		else
+			return 0;
+	}
+	for (size_t t = ti->unit[g->u0]; t <= ti->unit[g->u1 - 1] && !contact; t++)
+		contact = ti->rm[t] != RM_NONE && is_contact_kind(ti->rm[t]);
+	return contact;
+}
+
 /* An application channel in segment s, kept units [k0, k1): "apply
  * via", "bewerben über", "postuler via", "solliciteer via" (units/,
  * value `channel`) with what it names after it to the segment's end
@@ -224,6 +246,15 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 		if (k0 < k1 && noise_date_at_edge(ti, k1 - 1))
 			*changed = 1;
 	}
+	/* a pay remark after a "+" at the segment's end, no amount before
+	 * it: "Support Worker + sleep-in allowance" */
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 < k1 && (ti->lflags & LF_SYM) && HAS(ti, LC_PAY) &&
+	    (k = plus_remark(ti, k0, k1)) < k1) {
+		if (remove_units(ti, k, k1, NF_PAY, NULL))
+			return -1;
+		*changed = 1;
+	}
 	/* a contact word alone in its segment: "Contact: jobs@..." */
 	seg_kept(ti, s, &k0, &k1);
 	if (k0 + 1 == k1 && !ti->prot[ti->unit[k0]] &&
@@ -236,6 +267,16 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 	/* a label before contact data: "CV na adres praca@…" */
 	seg_kept(ti, s, &k0, &k1);
 	if (k0 < k1 && ti->lflags & (LF_NUM | LF_SYM | LF_URL) && contact_label(ti, k0, k1)) {
+		if (remove_units(ti, k0, k1, NF_MARKETING, NULL))
+			return -1;
+		*changed = 1;
+	}
+	/* contact words all round removed contact data, the segment's
+	 * only words: "Bel [07700 900125] voor info", "Tel. [0711 …] für
+	 * Rückfragen" */
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 < k1 && ti->lflags & (LF_NUM | LF_SYM | LF_URL) && HAS(ti, LC_UNIT) &&
+	    contact_words(ti, s, k0, k1) && kept_elsewhere(ti, k0, k1)) {
 		if (remove_units(ti, k0, k1, NF_MARKETING, NULL))
 			return -1;
 		*changed = 1;

@@ -77,6 +77,12 @@ static inline int plus_glued(const tm_title *ti, size_t k)
  * currency and a time unit (pass_pay.c). */
 size_t noise_amount(tm_title *ti, size_t k, int *cur, int *unit);
 
+/* A "+" and a pay remark that ends the kept units [k0, k1) of a segment
+ * after the occupation, with no amount before it ("Support Worker +
+ * sleep-in allowance", "Kierowca + dodatki"; the "+" of "C+E" is glued
+ * to its words): the "+" unit, or k1 (pass_pay.c). */
+size_t plus_remark(tm_title *ti, size_t k0, size_t k1);
+
 /* Removes a year or date at a segment edge at unit k; returns 1 when it
  * did, else 0 (pass_contact.c). */
 int noise_date_at_edge(tm_title *ti, size_t k);

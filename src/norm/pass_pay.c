@@ -74,6 +74,25 @@ static size_t pay_word_before(tm_title *ti, size_t k, int lead)
 	return head_within(ti, start, k) ? k : start;
 }
 
+/* A pay remark at unit k in segment s: pay phrases (pay/, value
+ * `phrase`: "overtime", "Prämien", "car allowance") with schedule
+ * phrases before or between them ("sleep-in allowance", "shift
+ * allowance", "night enhancements"), ending in a pay phrase.  Returns
+ * its length, or 0. */
+static size_t remark_after(tm_title *ti, size_t k, uint32_t s)
+{
+	size_t p = k, last = k, len;
+	while (p < ti->nunit && ukept(ti, p) && useg(ti, p) == s) {
+		if (match_val(ti, p, LC_PAY, "phrase", 1, &len))
+			last = p += len;
+		else if (match_cat(ti, p, LC_SCHEDULE, 1, &len))
+			p += len;
+		else
+			break;
+	}
+	return last - k;
+}
+
 /* The pay remarks joined to an amount ending at unit e, in its segment:
  * a word that adds one (units/ `with` or `connector`: "+", "plus",
  * "zzgl.", "and", "with") and a pay phrase of pay/ (value `phrase`,
@@ -92,11 +111,10 @@ static size_t pay_remarks(tm_title *ti, size_t e)
 			break;
 		if (match_val(ti, j, LC_PAY, "phrase", 1, &pl) && pl > len)
 			; /* "+ bonus" */
-		else if (j + len < ti->nunit && useg(ti, j + len) == useg(ti, j) &&
-			 match_val(ti, j + len, LC_PAY, "phrase", 1, &pl))
-			pl += len;
-		else
+		else if (!(pl = remark_after(ti, j + len, useg(ti, j))))
 			break;
+		else
+			pl += len;
 		if (head_within(ti, j, j + pl))
 			break;
 		e = j + pl;
@@ -104,79 +122,195 @@ static size_t pay_remarks(tm_title *ti, size_t e)
 	return e;
 }
 
+/* Are units e - 1 and e set apart by one "/" and nothing else (spaces
+ * allowed: "18 € / Std.", where the spaced slash also ends a segment)? */
+static int slash_between(const tm_title *ti, size_t e)
+{
+	return ti->unit[e] == ti->unit[e - 1] + 2 && tok_is(ti, ti->unit[e - 1] + 1, '/');
+}
+
+/* The unit of an amount written after a slash, at unit e: a pay unit or a
+ * time unit that ends its segment ("18 € / Std.", "£12 / hr", "30 zł /
+ * godz."), or one letter glued to the slash after a currency ("€14/u",
+ * "150 kr/t": the slash says "per").  Returns its length, or 0. */
+static size_t slash_unit(tm_title *ti, size_t e, int cur)
+{
+	size_t len, k0, k1;
+	const tm_tok *x = U(ti, e);
+	if (!slash_between(ti, e) || x->kind != TK_WORD)
+		return 0;
+	if (useg(ti, e) == useg(ti, e - 1) && cur && x->flen == 1 &&
+	    glued(ti, e - 1, e, "/"))
+		return 1;
+	if (!match_val(ti, e, LC_PAY, "unit", 1, &len) && !time_unit(ti, e, &len))
+		return 0;
+	if (useg(ti, e) == useg(ti, e - 1))
+		return len;
+	/* across the slash, the units and remarks are all of their segment */
+	seg_kept(ti, useg(ti, e), &k0, &k1);
+	if (k0 != e)
+		return 0;
+	for (size_t p = e + len, l2;; p += l2) {
+		if (p < k1 && (match_val(ti, p, LC_PAY, "unit", 1, &l2) ||
+			       time_unit(ti, p, &l2) || is_currency(ti, p, &l2)))
+			continue;
+		return p == k1 || pay_remarks(ti, p) == k1 ? len : 0;
+	}
+}
+
+/* The pay at unit k: leads, an amount or a range, its units, currencies
+ * and remarks.  Sets [*b, *e) to remove and *amount_cur when a currency
+ * stands in the amount itself (not only in a lead); returns 1 when there
+ * is pay to remove, else 0. */
+static int pay_at(tm_title *ti, size_t k, size_t *b, size_t *end, int *amount_cur)
+{
+	size_t j = k, e, len;
+	int cur = 0, unit = 0;
+	while (j < ti->nunit && match_val(ti, j, LC_PAY, "lead", 1, &len) &&
+	       !plus_glued(ti, j))
+		j += len;
+	if (!(e = noise_amount(ti, j, &cur, &unit)))
+		return 0;
+	*amount_cur = cur;
+	/* a lead that ends in the currency: "up to £18/hr" */
+	for (size_t q = k; q < j && !cur; q++)
+		cur = is_currency(ti, q, &len);
+	/* a range: 3.200 - 4.000 €, 18 bis 22 €, 40/45k */
+	if (e < ti->nunit) {
+		size_t t = ti->unit[e - 1] + 1, r = e, e2;
+		int c2 = 0, u2 = 0;
+		if (t < ti->unit[e] && ti->tl.t[t].kind == TK_PUNCT &&
+		    (ti->tl.t[t].ch == '-' || ti->tl.t[t].ch == '/') &&
+		    t + 1 == ti->unit[e])
+			r = e;
+		else if (match_val(ti, e, LC_PAY, "lead", 1, &len) ||
+			 (match_val(ti, e, LC_UNIT, "connector", 1, &len)))
+			r = e + len;
+		else
+			r = SIZE_MAX;
+		if (r != SIZE_MAX && (e2 = noise_amount(ti, r, &c2, &u2))) {
+			e = e2;
+			*amount_cur |= c2;
+			cur |= c2;
+			unit |= u2;
+		}
+	}
+	/* trailing units: brutto, p.a., /h, pro Monat; in the amount's
+	 * segment ("2719 chf: HR-partner" keeps "HR"), or after a slash */
+	for (;;) {
+		if (e >= ti->nunit || !ukept(ti, e))
+			break;
+		if ((cur || unit) && (len = slash_unit(ti, e, cur))) {
+			unit = 1;
+			e += len;
+			continue;
+		}
+		if (useg(ti, e) != useg(ti, e - 1))
+			break;
+		if (match_val(ti, e, LC_PAY, "unit", 1, &len)) {
+			size_t l2;
+			if (!time_unit(ti, e, &l2) || l2 < len)
+				unit = 1;
+			e += len;
+		} else if ((cur || unit) && time_unit(ti, e, &len))
+			e += len;
+		else if (is_currency(ti, e, &len)) {
+			*amount_cur = cur = 1;
+			e += len;
+		} else if ((cur || unit) &&
+			   match_val(ti, e, LC_UNIT, "connector", 1, &len) &&
+			   e + len < ti->nunit && time_unit(ti, e + len, &len))
+			e += 1 + len;
+		else
+			break;
+	}
+	if (!cur && !unit)
+		return 0;
+	e = pay_remarks(ti, e);
+	/* a longer phrase wins: auf 520-Euro-Basis is a schedule */
+	{
+		size_t pl;
+		const lex_entry *ph = match_mask(ti, j, phrase_mask_pay, 1, &pl);
+		if (ph && j + pl >= e)
+			return 0;
+	}
+	*b = pay_word_before(ti, k, j > k);
+	*end = e;
+	return 1;
+}
+
+size_t plus_remark(tm_title *ti, size_t k0, size_t k1)
+{
+	for (size_t k = k0 + 1; k + 1 < k1; k++) {
+		const tm_tok *x = U(ti, k);
+		size_t len;
+		if (x->kind != TK_SYM || x->ch != '+' || !ukept(ti, k) ||
+		    glued(ti, k - 1, k, ""))
+			continue;
+		if ((len = remark_after(ti, k + 1, useg(ti, k))) && k + 1 + len == k1 &&
+		    !head_within(ti, k + 1, k1))
+			return k;
+	}
+	return k1;
+}
+
+/* The language of the first currency of units [k0, k1) that names one
+ * ("PLN", "zł", "Kč", "Ft"; not "€" nor "£"), or NULL. */
+static const char *currency_lang(tm_title *ti, size_t k0, size_t k1)
+{
+	for (size_t k = k0; k < k1; k++) {
+		size_t len;
+		const lex_entry *c = match_val(ti, k, LC_PAY, "currency", 1, &len);
+		if (c && c->lang[0])
+			return c->lang;
+	}
+	return NULL;
+}
+
+/* The pay at unit k read in the language its currency names, whatever
+ * the hint: a lead of that language before the amount goes with it
+ * ("Magazynier DO 13 500 PLN", "od 3000 do 4000 zł" with no hint or
+ * another one).  The lead and the amount stand in one segment. */
+static int pay_in_currency_lang(tm_title *ti, size_t k, size_t *b, size_t *e)
+{
+	const char *hint = ti->lang, *lang;
+	char cl[sizeof ((lex_entry *)0)->lang];
+	int acur = 0, found;
+
+	ti->any_lang = 1;
+	found = pay_at(ti, k, b, e, &acur);
+	ti->any_lang = 0;
+	if (!found || !acur || !(lang = currency_lang(ti, k, *e)) ||
+	    (hint && !strcmp(hint, lang)))
+		return 0;
+	memcpy(cl, lang, sizeof cl);
+	ti->lang = cl;
+	found = pay_at(ti, k, b, e, &acur) && acur && useg(ti, k) == useg(ti, *e - 1);
+	ti->lang = hint;
+	return found;
+}
+
 int pass_pay(tm_title *ti)
 {
-	size_t k, len;
-
 	/* clock ranges first: "6.00-14.00" is no amount */
 	if (clock_ranges_anywhere(ti))
 		return -1;
 
-	for (k = 0; k < ti->nunit; k++) {
-		size_t j = k, e;
-		int cur = 0, unit = 0;
+	for (size_t k = 0; k < ti->nunit; k++) {
+		size_t b, e;
+		int acur = 0, found;
 		if (!ukept(ti, k) || ti->prot[ti->unit[k]])
 			continue;
-		while (j < ti->nunit && match_val(ti, j, LC_PAY, "lead", 1, &len) &&
-		       !plus_glued(ti, j))
-			j += len;
-		if (!(e = noise_amount(ti, j, &cur, &unit)))
+		found = pay_at(ti, k, &b, &e, &acur);
+		/* a lead of another language than the hint's, or with no
+		 * hint, counts before an amount with its currency: the
+		 * currency names the region ("Magazynier DO 13 500 PLN",
+		 * "od 3000 do 4000 zł") */
+		if (!found && !ti->any_lang && (ti->ucats[k] & (1u << LC_PAY)))
+			found = pay_in_currency_lang(ti, k, &b, &e);
+		if (!found)
 			continue;
-		/* a lead that ends in the currency: "up to £18/hr" */
-		for (size_t q = k; q < j && !cur; q++)
-			cur = is_currency(ti, q, &len);
-		/* a range: 3.200 - 4.000 €, 18 bis 22 €, 40/45k */
-		if (e < ti->nunit) {
-			size_t t = ti->unit[e - 1] + 1, r = e, e2;
-			int c2 = 0, u2 = 0;
-			if (t < ti->unit[e] && ti->tl.t[t].kind == TK_PUNCT &&
-			    (ti->tl.t[t].ch == '-' || ti->tl.t[t].ch == '/') &&
-			    t + 1 == ti->unit[e])
-				r = e;
-			else if (match_val(ti, e, LC_PAY, "lead", 1, &len) ||
-				 (match_val(ti, e, LC_UNIT, "connector", 1, &len)))
-				r = e + len;
-			else
-				r = SIZE_MAX;
-			if (r != SIZE_MAX && (e2 = noise_amount(ti, r, &c2, &u2))) {
-				e = e2;
-				cur |= c2;
-				unit |= u2;
-			}
-		}
-		/* trailing units: brutto, p.a., /h, pro Monat; in the amount's
-		 * segment ("2719 chf: HR-partner" keeps "HR") */
-		for (;;) {
-			if (e >= ti->nunit || !ukept(ti, e) || useg(ti, e) != useg(ti, e - 1))
-				break;
-			if (match_val(ti, e, LC_PAY, "unit", 1, &len)) {
-				size_t l2;
-				if (!time_unit(ti, e, &l2) || l2 < len)
-					unit = 1;
-				e += len;
-			} else if ((cur || unit) && time_unit(ti, e, &len))
-				e += len;
-			else if (is_currency(ti, e, &len)) {
-				cur = 1;
-				e += len;
-			} else if ((cur || unit) &&
-				   match_val(ti, e, LC_UNIT, "connector", 1, &len) &&
-				   e + len < ti->nunit && time_unit(ti, e + len, &len))
-				e += 1 + len;
-			else
-				break;
-		}
-		if (!cur && !unit)
-			continue;
-		e = pay_remarks(ti, e);
-		/* a longer phrase wins: auf 520-Euro-Basis is a schedule */
-		{
-			size_t pl;
-			const lex_entry *ph = match_mask(ti, j, phrase_mask_pay, 1, &pl);
-			if (ph && j + pl >= e)
-				continue;
-		}
-		if (remove_units(ti, pay_word_before(ti, k, j > k), e, NF_PAY, NULL))
+		if (remove_units(ti, b, e, NF_PAY, NULL))
 			return -1;
 		k = e - 1;
 	}

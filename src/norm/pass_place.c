@@ -163,8 +163,10 @@ static int loc_word_(tm_title *ti, size_t k, const char *value, size_t *len)
 
 /* A location `after` word at unit e, after a place at unit k of the
  * same segment (Paris area, Köln und Umgebung).  One written `edge`
- * counts only where it ends its segment: "Madrid centro", not "ropa
- * centro comercial" (the clean title is read again as one segment). */
+ * counts only where it ends its segment, by itself or with the after
+ * words that follow it: "Madrid centro", "Leeds City area", not "ropa
+ * centro comercial" (the clean title is read again as one segment) nor
+ * "Leeds City Manager"; *len then covers them all. */
 static int after_word(tm_title *ti, size_t e, size_t k, size_t *len)
 {
 	const lex_entry *x;
@@ -175,8 +177,16 @@ static int after_word(tm_title *ti, size_t e, size_t k, size_t *len)
 		return 0;
 	if (x->where != LW_EDGE)
 		return 1;
+	/* ending its segment, alone or with more after words: "Leeds
+	 * City area", not "Leeds City Manager" */
 	seg_kept(ti, useg(ti, e), &a, &b);
-	return e + *len == b;
+	size_t p = e + *len, l2;
+	while (p < b && match_val(ti, p, LC_LOCATION, "after", 1, &l2))
+		p += l2;
+	if (p != b)
+		return 0;
+	*len = p - e;
+	return 1;
 }
 
 /* An acronym in a mixed-case title is no place unless the lexicon
@@ -722,10 +732,112 @@ static int lower_within(tm_title *ti, size_t k0, size_t k1)
 	return 0;
 }
 
+/* Is unit k a kept location preposition or employer marker of one word,
+ * of any language ("en", "na", "at")?  Before a firm's capitalised name
+ * and legal form it says what follows it, whatever the hint. */
+static int link_word(tm_title *ti, size_t k)
+{
+	size_t len;
+	int any = ti->any_lang, link;
+	ti->any_lang = 1;
+	link = ukept(ti, k) && (match_val(ti, k, LC_EMPLOYER, "marker", 1, &len) ||
+				match_val(ti, k, LC_LOCATION, "prep", 1, &len)) && len == 1;
+	ti->any_lang = any;
+	return link;
+}
+
+/* Is a kept word naming an occupation in [k0, k1) (a `head`, or a word
+ * with an occupational ending: "Programador", "Mecânico/a") followed by
+ * a word that links it to the firm after it: the next word in lower
+ * case, or a location preposition or employer marker later on ("Programador en Transportes
+ * Aldevia S.A.", "AYUDANTE DE COCINA EN TRANSPORTES ALDEVIA S.A.",
+ * "Programador Web Na Carvalhena Serviços Lda.")?  A firm's name may
+ * hold a word that ends like an occupation, followed by another
+ * capitalised word ("Logistica Brembana e Figli S.r.l."). */
+static int occupation_linked(tm_title *ti, size_t k0, size_t k1, int caps)
+{
+	for (size_t k = k0; k + 1 < k1; k++) {
+		size_t n = k + 1, len;
+		if (!ukept(ti, k) || U(ti, k)->kind != TK_WORD ||
+		    !(ti->uend[k] || match_val(ti, k, LC_OCCUPATION, "head", 1, &len)))
+			continue;
+		while (n < k1 && !(ukept(ti, n) && U(ti, n)->kind == TK_WORD))
+			n++;
+		if (n < k1 && !caps && !cap_word(ti, n))
+			return 1;
+		for (; n < k1; n++)
+			if (link_word(ti, n))
+				return 1;
+		return 0;
+	}
+	return 0;
+}
+
+/* Is segment s, all of it kept, units [k0, k1), a workplace kind and
+ * nothing else: business kind phrases (business/, value `kind`), joined
+ * by connectors or "&" ("Hotel", "Centro Comercial", "Hotel &
+ * Restaurant"), none of them an occupational word?  A kind that is also
+ * a field names a trade ("Verkäufer – Bäckerei"), and what a gender
+ * pair left of a segment is none ("Kierownik / [Kierowniczka] sklepu"). */
+static int kind_only(tm_title *ti, size_t s, size_t k0, size_t k1)
+{
+	size_t k = k0, len;
+	int kinds = 0;
+	if (k0 != ti->segs[s].u0 || k1 != ti->segs[s].u1)
+		return 0;
+	while (k < k1) {
+		if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
+		    (ti->ucats[k] & (1u << LC_OCCUPATION)))
+			return 0;
+		if (match_val(ti, k, LC_BUSINESS, "kind", 1, &len) && k + len <= k1 &&
+		    units_free(ti, k, k + len)) {
+			/* the longer phrase wins: "Centro Comercial" holds
+			 * the head "comercial" */
+			kinds++;
+			k += len;
+		} else if (kinds && k + 1 < k1 &&
+			   (match_val(ti, k, LC_UNIT, "connector", 1, &len) ||
+			    (U(ti, k)->kind == TK_SYM && U(ti, k)->ch == '&'))) {
+			k += U(ti, k)->kind == TK_SYM ? 1 : len;
+		} else
+			return 0;
+	}
+	return kinds > 0;
+}
+
+/* Segments that name only the kind of workplace after a segment that
+ * names the occupation: "Rezeptionist – Hotel", "Vendedora - Centro
+ * Comercial", "Koch | Restaurant".  Curators count occupations; the
+ * workplace adds nothing to the key.  A kind inside the occupation's
+ * segment stays ("Hotel Receptionist", "Restaurant Manager"), and so
+ * does a title of one segment. */
+static int workplace_segments(tm_title *ti)
+{
+	int occupation = 0;
+	for (size_t s = 0; s < ti->nseg; s++) {
+		size_t k0, k1;
+		seg_kept(ti, s, &k0, &k1);
+		if (k0 >= k1)
+			continue;
+		if (occupation && kind_only(ti, s, k0, k1)) {
+			if (remove_units(ti, k0, k1, NF_EMPLOYER, NULL))
+				return -1;
+			continue;
+		}
+		for (size_t k = k0; k < k1 && !occupation; k++)
+			occupation = ukept(ti, k) && U(ti, k)->kind == TK_WORD &&
+				     (ti->uend[k] || head_within(ti, k, k + 1));
+	}
+	return 0;
+}
+
 int pass_employer(tm_title *ti)
 {
 	size_t k, len, k0, k1;
 	int caps = all_caps_line(ti);
+
+	if (HAS(ti, LC_BUSINESS) && ti->nseg > 1 && workplace_segments(ti))
+		return -1;
 
 	/* legal forms: Nordwerk GmbH, Maison Ortalie SARL */
 	for (k = 0; k < ti->nunit; k++) {
@@ -757,8 +869,9 @@ int pass_employer(tm_title *ti)
 			 * between them, stays: "Oferta: Vendedor en Transportes
 			 * Aldevia S.A." (not "Valdoria Logistik GmbH",
 			 * "Logistica Brembana e Figli S.r.l.") */
-			int occ = !caps && k > k0 && cap_word(ti, k - 1) &&
-				  head_within(ti, k0, k) && lower_within(ti, k0, k);
+			int occ = k > k0 && cap_word(ti, k - 1) &&
+				  ((!caps && head_within(ti, k0, k) && lower_within(ti, k0, k)) ||
+				   occupation_linked(ti, k0, k, caps));
 			if ((g->bracket || g->index > 0) && !occ)
 				start = k0;
 			else if (k > k0 && k - k0 <= 3 && !occ &&
@@ -770,6 +883,10 @@ int pass_employer(tm_title *ti)
 				start = k;
 				while (start > k0 + 1 && k - start < 3 &&
 				       cap_word(ti, start - 1) && ukept(ti, start - 1))
+					start--;
+				/* and the word linking it to the occupation:
+				 * "Cook [en Clínica Orvenda S.L.]" */
+				if (occ && start > k0 + 1 && start < k && link_word(ti, start - 1))
 					start--;
 			}
 		}
