@@ -81,6 +81,19 @@ int buf_printf(tm_buf *b, const char *fmt, ...)
 	return rc;
 }
 
+/* p resized to n elements of size bytes, *cap set; NULL and both as
+ * they were when memory runs out or the size would overflow */
+static void *resize(void *p, size_t *cap, size_t n, size_t size)
+{
+	if (!size || n > SIZE_MAX / size)
+		return NULL;
+	void *q = realloc(p, n * size);
+	if (!q)
+		return NULL;
+	*cap = n;
+	return q;
+}
+
 void *tm_grow(void *p, size_t *cap, size_t need, size_t size, size_t first)
 {
 	size_t n = *cap ? *cap : (first ? first : 1);
@@ -92,13 +105,24 @@ void *tm_grow(void *p, size_t *cap, size_t need, size_t size, size_t first)
 			return NULL;
 		n *= 2;
 	}
-	if (!size || n > SIZE_MAX / size)
-		return NULL;
-	void *q = realloc(p, n * size);
-	if (!q)
-		return NULL;
-	*cap = n;
-	return q;
+	return resize(p, cap, n, size);
+}
+
+void *tm_grow_half(void *p, size_t *cap, size_t need, size_t size, size_t first, size_t fine)
+{
+	size_t n = *cap ? *cap : (first ? first : 1);
+
+	if (need <= *cap && p)
+		return p;
+	while (n < need) {
+		if (n > SIZE_MAX / 3 * 2)
+			return NULL;
+		if (size && n >= fine / size)
+			n += n / 8;
+		else
+			n += n / 2 ? n / 2 : 1;
+	}
+	return resize(p, cap, n, size);
 }
 
 void tm_hugepages(void *p, size_t n)

@@ -101,6 +101,11 @@ char *tm_dupn(const char *s, size_t n);
  *     a->v = v; */
 void *tm_grow(void *p, size_t *cap, size_t need, size_t size, size_t first);
 
+/* As tm_grow, but the capacity grows by half, and by an eighth once the
+ * array holds fine bytes or more: for arrays that hold most of a
+ * process's memory, where doubling would leave up to half of it unused. */
+void *tm_grow_half(void *p, size_t *cap, size_t need, size_t size, size_t first, size_t fine);
+
 /* Asks that the block p of n bytes, just allocated and not yet written,
  * be mapped in 2 MiB pages where the system can (Linux's transparent
  * huge pages: the 2 MiB-aligned part inside the block): for a big table

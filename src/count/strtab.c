@@ -207,25 +207,7 @@ int st_add(strtab *t, const char *key, size_t n, uint64_t by, size_t *idx)
 
 void *st_grow(void *p, size_t *cap, size_t need, size_t size, size_t first)
 {
-	size_t n = *cap ? *cap : (first ? first : 1);
-
-	if (need <= *cap && p)
-		return p;
-	while (n < need) {
-		if (n > SIZE_MAX / 3 * 2)
-			return NULL;
-		if (size && n >= ST_GROW_FINE / size)
-			n += n / 8;
-		else
-			n += n / 2 ? n / 2 : 1;
-	}
-	if (!size || n > SIZE_MAX / size)
-		return NULL;
-	void *q = realloc(p, n * size);
-	if (!q)
-		return NULL;
-	*cap = n;
-	return q;
+	return tm_grow_half(p, cap, need, size, first, ST_GROW_FINE);
 }
 
 int st_arena_grow(tm_buf *b, size_t extra)
