@@ -195,7 +195,7 @@ const uint32_t *lex_pairs_fem_last(const lexicon *lx, int c, size_t *n);
  * the caller's key (what the lexicon was built from) and a checksum.
  * The format is described beside the code in lexicon_image.c; raise
  * LEX_IMAGE_VERSION whenever it or the meaning of its content changes. */
-#define LEX_IMAGE_VERSION 1
+#define LEX_IMAGE_VERSION 2
 
 /* Writes the image of lx under key into out (reset first).  Returns 0,
  * or -1 when memory ran out (out then empty). */

@@ -316,22 +316,32 @@ static int slots(tm_title *ti)
 				k += ml - 1;
 				continue;
 			}
+			/* after a link word a preposition is the complement
+			 * of the word before it ("Medico di base a Bologna",
+			 * "Technicien de proximité"): it stays, and the
+			 * place right after it goes alone ("MEDICO DI BASE
+			 * MILANO"); a region word opens a slot ("Leiter der
+			 * Region Süd") */
+			int linked = link_ends(ti, ti->segs[useg(ti, k)].u0, k) < k &&
+				     !loc_word(ti, k, "before", &ml);
 			/* at most a few slot words in a row ("in der Region"): a
 			 * run of them to the end of the line, tried again from
 			 * each of its words, was quadratic ("a/" x 50,000) */
-			for (int more = 0; more < 4 && j < ti->nunit &&
+			for (int more = 0; !linked && more < 4 && j < ti->nunit &&
 					   (loc_word(ti, j, "before", &plen) ||
 					    loc_word(ti, j, "prep", &plen)); more++)
 				j += plen;
 			pc = postcode_at(ti, j);
 			if (j + pc < ti->nunit && useg(ti, j + pc) == useg(ti, k) &&
-			    place_at(ti, j + pc, &plen, &strong, &cc)) {
-				e = place_run(ti, j + pc, plen, 1);
-				if (take(ti, k, e))
+			    place_at(ti, j + pc, &plen, &strong, &cc) && !(linked && strong)) {
+				e = place_run(ti, j + pc, plen, !linked);
+				if (take(ti, linked ? j : k, e))
 					return -1;
 				k = e - 1;
 				continue;
 			}
+			if (linked)
+				continue;
 		}
 		/* 50667 Köln */
 		if ((pc = postcode_at(ti, k)) && k + pc < ti->nunit &&
@@ -437,6 +447,18 @@ int remove_place_segment(tm_title *ti, size_t s)
 		k += len;
 	}
 	return 0;
+}
+
+size_t link_ends(tm_title *ti, size_t k0, size_t k1)
+{
+	size_t len;
+	if (!HAS(ti, LC_UNIT))
+		return k1;
+	for (size_t k = k1 - 1; k > k0 && k1 - k <= LINK_WORDS_MAX; k--)
+		if (match_val(ti, k, LC_UNIT, "link", 1, &len) && k + len == k1 &&
+		    units_free(ti, k, k1) && ukept(ti, k - 1))
+			return k;
+	return k1;
 }
 
 int ending_whole(tm_title *ti, size_t k)
