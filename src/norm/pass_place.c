@@ -617,8 +617,12 @@ static int occupation_before(tm_title *ti, size_t k0, size_t k)
  * "Îngrijitor bătrâni", stays), not glued to the word before
  * ("Nadador-salvador"), and only after an occupational phrase, so that
  * what stays names the occupation. */
+static int firm_places(tm_title *ti);
+
 int pass_trailing_place(tm_title *ti)
 {
+	if (HAS(ti, LC_EMPLOYER) && firm_places(ti))
+		return -1;
 	if (all_caps_line(ti))
 		return 0;
 	for (size_t s = 0; s < ti->nseg; s++) {
@@ -948,6 +952,72 @@ int pass_employer(tm_title *ti)
 		if (remove_units(ti, k, k1, NF_EMPLOYER, NULL))
 			return -1;
 		k = k1;
+	}
+	return 0;
+}
+
+/* Does [k0, k1) hold a kept word naming an occupation: a `head` of
+ * occupation/, a protected phrase, a word with an occupational ending? */
+static int occupation_within(tm_title *ti, size_t k0, size_t k1)
+{
+	for (size_t k = k0; k < k1; k++)
+		if (ukept(ti, k) && U(ti, k)->kind == TK_WORD && ti->uend[k])
+			return 1;
+	return head_within(ti, k0, k1);
+}
+
+/* Is [k, k1) a place written beside a firm: a location preposition of
+ * any language ("en", "à", "in"; the firm says what it is, whatever the
+ * hint) and a run of places to k1, or a run of places alone that needs
+ * no strong slot? */
+static int firm_place(tm_title *ti, size_t k, size_t k1)
+{
+	size_t plen;
+	int strong, prep = link_word(ti, k) && !match_val(ti, k, LC_EMPLOYER,
+							  "marker", 1, &plen);
+	const char *cc;
+	if (prep)
+		k++;
+	if (k >= k1 || !units_free(ti, k, k1) || !place_at(ti, k, &plen, &strong, &cc) ||
+	    (strong && !prep) || acronym(ti, k, plen, all_caps_line(ti)))
+		return 0;
+	return place_run(ti, k, plen, prep) == k1;
+}
+
+/* A place written right before or after a firm's name that the employer
+ * rule removed, ending its segment's kept words after an occupation:
+ * "Ingeniero de software [en Transportes Aldevia S.A.] Madrid",
+ * "Técnico de helpdesk [en Clínica Orvenda S.L.] en Bilbao",
+ * "Ingeniero industrial en Zaragoza [en Transportes Aldevia S.A.]".
+ * The place is where the work is, not part of the occupation. */
+static int firm_places(tm_title *ti)
+{
+	for (size_t s = 0; s < ti->nseg; s++) {
+		size_t k0, k1, k;
+		seg_kept(ti, s, &k0, &k1);
+		if (k1 - k0 < 2)
+			continue;
+		/* after the firm: the kept units after the last removed
+		 * employer token of the segment */
+		for (k = k1 - 1; k > k0 && ukept(ti, k - 1); k--)
+			;
+		if (k > k0 && ti->rm[ti->unit[k - 1]] == NF_EMPLOYER &&
+		    occupation_within(ti, k0, k) && firm_place(ti, k, k1)) {
+			if (take(ti, k, k1))
+				return -1;
+			continue;
+		}
+		/* before the firm: the segment's kept units end where a
+		 * removed employer follows in the segment */
+		if (k1 < ti->nunit && useg(ti, k1) == s && !ukept(ti, k1) &&
+		    ti->rm[ti->unit[k1]] == NF_EMPLOYER)
+			for (k = k1 - 1; k > k0 && k1 - k <= 4; k--)
+				if (link_word(ti, k) && occupation_within(ti, k0, k) &&
+				    firm_place(ti, k, k1)) {
+					if (take(ti, k, k1))
+						return -1;
+					break;
+				}
 	}
 	return 0;
 }
