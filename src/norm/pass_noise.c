@@ -57,8 +57,10 @@ static int dangling(tm_title *ti, size_t k)
 		return 1;
 	if (match_val(ti, k, LC_UNIT, "with", 1, &len) && len == 1)
 		return 1;
+	/* a pay lead that is the title's last word is a word of its own:
+	 * "Senior PA [at Keldmoor Engineering Ltd]" is no Irish "pá" */
 	if (match_val(ti, k, LC_PAY, "lead", 1, &len) && len == 1)
-		return 1;
+		return !last_word(ti, k, k + 1);
 	if (match_val(ti, k, LC_EMPLOYER, "marker", 1, &len) && len == 1)
 		return 1;
 	e = match_cat(ti, k, LC_LOCATION, 1, &len);
