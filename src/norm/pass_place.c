@@ -857,6 +857,8 @@ static int workplace_segments(tm_title *ti)
 	return 0;
 }
 
+static int occupation_within(tm_title *ti, size_t k0, size_t k1);
+
 int pass_employer(tm_title *ti)
 {
 	size_t k, len, k0, k1;
@@ -889,6 +891,15 @@ int pass_employer(tm_title *ti)
 				break;
 			}
 		}
+		/* a firm written in lower case after an occupation and a
+		 * word that links them: "traductor [en clínica orvenda
+		 * s.l.]" (no capitals tell the name, the link word does) */
+		if (start == SIZE_MAX && !caps && k > k0 + 1 && !cap_word(ti, k - 1))
+			for (m = k - 1; m > k0 && k - m <= EMPLOYER_NAME_MAX; m--)
+				if (link_word(ti, m) && occupation_within(ti, k0, m)) {
+					start = m;
+					break;
+				}
 		if (start == SIZE_MAX) {
 			/* an occupation named before the firm in its segment
 			 * (a head of occupation/), a word not capitalised
