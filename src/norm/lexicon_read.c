@@ -387,6 +387,7 @@ static int parse_where(const char *w, int cat)
 	if (!strcmp(w, "strong")) return LW_STRONG;
 	if (!strcmp(w, "off")) return LW_OFF;
 	if (!strcmp(w, "adjective") && cat == LC_PLACE) return LW_ADJ;
+	if (!strcmp(w, "city") && cat == LC_PLACE) return LW_CITY;
 	return -1;
 }
 

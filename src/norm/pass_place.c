@@ -85,6 +85,25 @@ static inline int place_at(tm_title *ti, size_t k, size_t *len, int *strong,
 	return place_info(ti, k, len, strong, &itself, cc);
 }
 
+/* Is the place of len units at unit k a larger place (WHERE `city`) and
+ * no ordinary word (no `strong` entry)? */
+static int city_at(tm_title *ti, size_t k, size_t len)
+{
+	size_t l2;
+	int city = 0;
+	const lex_entry *e = match_cat(ti, k, LC_PLACE, 1, &l2);
+	if (!e || l2 != len)
+		return 0;
+	for (; e; e = lex_next(ti->lx, e)) {
+		if (e->cat != LC_PLACE || !entry_applies(ti, e))
+			continue;
+		if (e->where == LW_STRONG)
+			return 0;
+		city |= e->where == LW_CITY;
+	}
+	return city;
+}
+
 static int num_digits(tm_title *ti, size_t k)
 {
 	const tm_tok *t = U(ti, k);
@@ -607,6 +626,18 @@ static int occupation_before(tm_title *ti, size_t k0, size_t k)
 	return 0;
 }
 
+/* A place written in lower case that ends a segment, at unit k (len
+ * units, its run ending at e): a larger place (`city`) of one name, no
+ * word that starts a phrase of another category ("koch berlin",
+ * "kierowca warszawa"); a village named like a word is no `city`. */
+static int lower_city(tm_title *ti, size_t k, size_t len, size_t e)
+{
+	for (size_t i = k; i < k + len; i++)
+		if (ti->ucats[i] & ~(1u << LC_PLACE))
+			return 0;
+	return e == k + len && city_at(ti, k, len);
+}
+
 /* Places that end a segment right after an occupational phrase, with
  * only a space between (run after the segments' roles are decided, so
  * that no rule reads the words before as a place's name): "Koch
@@ -634,8 +665,9 @@ int pass_trailing_place(tm_title *ti)
 			if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
 			    !place_at(ti, k, &len, &strong, &cc))
 				continue;
-			if (strong || !(U(ti, k)->flags & TF_CAP) || acronym(ti, k, len, 0) ||
-			    glued(ti, k - 1, k, "") || (e = place_run(ti, k, len, 0)) != k1) {
+			if (strong || acronym(ti, k, len, 0) ||
+			    glued(ti, k - 1, k, "") || (e = place_run(ti, k, len, 0)) != k1 ||
+			    !(U(ti, k)->flags & TF_CAP || lower_city(ti, k, len, e))) {
 				k += len - 1;
 				continue;
 			}
