@@ -925,10 +925,12 @@ int pass_employer(tm_title *ti)
 		}
 		/* a firm written in lower case after an occupation and a
 		 * word that links them: "traductor [en clínica orvenda
-		 * s.l.]" (no capitals tell the name, the link word does) */
+		 * s.l.]" (no capitals tell the name, the link word does);
+		 * the occupation at most EMPLOYER_BACK units before it */
 		if (start == SIZE_MAX && !caps && k > k0 + 1 && !cap_word(ti, k - 1))
 			for (m = k - 1; m > k0 && k - m <= EMPLOYER_NAME_MAX; m--)
-				if (link_word(ti, m) && occupation_within(ti, k0, m)) {
+				if (link_word(ti, m) &&
+				    occupation_within(ti, m - k0 > EMPLOYER_BACK ? m - EMPLOYER_BACK : k0, m)) {
 					start = m;
 					break;
 				}
