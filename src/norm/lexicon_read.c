@@ -513,7 +513,7 @@ int lex_load_text(lexicon *lx, int cat, int gk, const char *path, char *data,
 			}
 			if (w < 0) {
 				err_printf(err, "unknown place restriction '%s'%s",
-					   f[3], " (any, edge, alone, slot, strong, off; places: adjective)");
+					   f[3], " (any, edge, alone, slot, strong, off; places: adjective, city)");
 				rc = file_error(err, path, line);
 				break;
 			}
