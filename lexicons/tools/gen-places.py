@@ -27,7 +27,8 @@ name found there gets the same WHERE in every generated file).
 Line format (lexicons/README.md): `*<TAB>NAME<TAB>CC<TAB>WHERE`, WHERE being
 `slot` (a place in any location slot) or `strong` (the name is also an
 ordinary word, so it is a place only after a location preposition, a region
-word or next to a postcode).
+word or next to a postcode); a name of curated.txt keeps its WHERE there,
+`city` too (a larger place, also taken in lower case at a title's end).
 
 The same inputs give the same bytes: inputs are read in a fixed order, every
 output is sorted, the sample uses a fixed seed. Only the Python standard

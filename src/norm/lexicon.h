@@ -37,8 +37,11 @@ enum lex_cat {
 
 /* LW_ADJ (places only): a place adjective, a place only before a location
  * `after` word (im Münchner Norden). A place written LW_ANY is a location
- * wherever it stands (a case form: Helsingissä). */
-enum lex_where { LW_ANY, LW_EDGE, LW_ALONE, LW_SLOT, LW_STRONG, LW_OFF, LW_ADJ };
+ * wherever it stands (a case form: Helsingissä).  LW_CITY (places only):
+ * a slot place that is a larger place, taken also in lower case at the
+ * end of a title after the occupation (koch berlin). */
+enum lex_where { LW_ANY, LW_EDGE, LW_ALONE, LW_SLOT, LW_STRONG, LW_OFF, LW_ADJ,
+		 LW_CITY };
 
 /* An entry holds no pointer: the lexicon's arrays are its cache image
  * as they are. */
@@ -195,7 +198,7 @@ const uint32_t *lex_pairs_fem_last(const lexicon *lx, int c, size_t *n);
  * the caller's key (what the lexicon was built from) and a checksum.
  * The format is described beside the code in lexicon_image.c; raise
  * LEX_IMAGE_VERSION whenever it or the meaning of its content changes. */
-#define LEX_IMAGE_VERSION 1
+#define LEX_IMAGE_VERSION 2
 
 /* Writes the image of lx under key into out (reset first).  Returns 0,
  * or -1 when memory ran out (out then empty). */

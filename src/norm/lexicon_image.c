@@ -315,7 +315,7 @@ int lex_image_use(void *image, size_t n, int mapped, const unsigned char key[16]
 	 * go forward (no cycle) */
 	for (i = 1; i < lx->nent; i++) {
 		const lex_entry *e = &lx->h.ent[i];
-		if (e->cat >= LC_NCAT || e->where > LW_ADJ || e->amb > 1 || e->off > 1 ||
+		if (e->cat >= LC_NCAT || e->where > LW_CITY || e->amb > 1 || e->off > 1 ||
 		    e->caps > 1 || e->lang[sizeof e->lang - 1] ||
 		    e->value[sizeof e->value - 1] ||
 		    (e->next && (e->next <= i || e->next >= lx->nent)))

@@ -38,7 +38,7 @@ static const char *const v_location[] = {"prep", "before", "after",
 static const char *const v_unit[] = {"hours", "week", "month", "year", "day", "contact",
 				     "workload", "fte",
 				     "connector", "degree", "weekday", "post",
-				     "channel", "with", "work", NULL};
+				     "channel", "with", "work", "link", NULL};
 static const char *const v_occupation[] = {"head", "suffix", "field", NULL};
 static const char *const v_business[] = {"kind", "legal", "article", NULL};
 static const char *const v_none[] = {"-", NULL};
@@ -387,6 +387,7 @@ static int parse_where(const char *w, int cat)
 	if (!strcmp(w, "strong")) return LW_STRONG;
 	if (!strcmp(w, "off")) return LW_OFF;
 	if (!strcmp(w, "adjective") && cat == LC_PLACE) return LW_ADJ;
+	if (!strcmp(w, "city") && cat == LC_PLACE) return LW_CITY;
 	return -1;
 }
 
@@ -512,7 +513,7 @@ int lex_load_text(lexicon *lx, int cat, int gk, const char *path, char *data,
 			}
 			if (w < 0) {
 				err_printf(err, "unknown place restriction '%s'%s",
-					   f[3], " (any, edge, alone, slot, strong, off; places: adjective)");
+					   f[3], " (any, edge, alone, slot, strong, off; places: adjective, city)");
 				rc = file_error(err, path, line);
 				break;
 			}

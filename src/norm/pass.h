@@ -33,6 +33,14 @@
 /* A pay word written before an amount ("Day Rate £180", "KV-Lohn
  * € 2.100") is looked for at most PAY_WORD_BACK units before it. */
 #define PAY_WORD_BACK 3
+/* A link phrase (units/, value `link`: "of the", "van de", "de la") is
+ * looked for at most LINK_WORDS_MAX units before a segment's end: the
+ * longest the lexicon holds. */
+#define LINK_WORDS_MAX 3
+/* A phrase of the peeled lexicons is kept when a link word follows it,
+ * directly or after at most PHRASE_CHAIN_MAX more such phrases
+ * ("Saisonnier cueillette des cerises"): the words it heads go on. */
+#define PHRASE_CHAIN_MAX 3
 /* Shift patterns (pass_schedule): shifts times hours, "3x8", with at
  * most ROTA_SHIFTS_MAX shifts of ROTA_HOURS_MIN to ROTA_HOURS_MAX hours
  * (or 24; "4x4" is a vehicle); days on and off, "4/4", "14/14", at most
@@ -94,6 +102,13 @@ int remove_place_segment(tm_title *ti, size_t s);
 /* Does a kept unit of [k0, k1) name an occupation: a `head` of
  * occupation/ or a protected phrase? */
 int head_within(tm_title *ti, size_t k0, size_t k1);
+/* The first unit of the link phrase (units/, value `link`: "of",
+ * "der", "van", "de la") that ends at unit k1 of [k0, k1), kept and
+ * unprotected, with a kept unit before it; k1 when none.  A link word
+ * joins the word before it to the one after it ("Leiter der Region",
+ * "cueillette des cerises", "Medico di base"): it never ends a title,
+ * and what follows it is the complement of what precedes it. */
+size_t link_ends(tm_title *ti, size_t k0, size_t k1);
 /* Is the word of unit k an occupational ending written whole ("kock",
  * "arbeiter"), not a word that merely ends like one ("List")? */
 int ending_whole(tm_title *ti, size_t k);

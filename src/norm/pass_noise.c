@@ -57,8 +57,10 @@ static int dangling(tm_title *ti, size_t k)
 		return 1;
 	if (match_val(ti, k, LC_UNIT, "with", 1, &len) && len == 1)
 		return 1;
+	/* a pay lead that is the title's last word is a word of its own:
+	 * "Senior PA [at Keldmoor Engineering Ltd]" is no Irish "pá" */
 	if (match_val(ti, k, LC_PAY, "lead", 1, &len) && len == 1)
-		return 1;
+		return !last_word(ti, k, k + 1);
 	if (match_val(ti, k, LC_EMPLOYER, "marker", 1, &len) && len == 1)
 		return 1;
 	e = match_cat(ti, k, LC_LOCATION, 1, &len);
@@ -68,6 +70,23 @@ static int dangling(tm_title *ti, size_t k)
 static int removed_tok(const tm_title *ti, size_t t)
 {
 	return t < ti->tl.n && ti->rm[t] != RM_NONE;
+}
+
+/* Does a link phrase start at unit k, kept, with a kept word of the
+ * segment's kept units [.., b) after it that names no occupation (the
+ * English "Urgent van driver" holds no Dutch "van"), and neither that
+ * word nor the link starts a phrase of the peeled lexicons, a longer one
+ * than the link for the link ("Nous recrutons [de nuit]"; "des" folds
+ * like the pay lead "dès")? */
+static int link_at(tm_title *ti, size_t k, size_t b)
+{
+	size_t len, n, l2;
+	if (k >= b || !match_val(ti, k, LC_UNIT, "link", 1, &len) ||
+	    (n = k + len) >= b || !units_free(ti, k, n + 1))
+		return 0;
+	return U(ti, n)->kind == TK_WORD && !ti->uend[n] && !head_within(ti, n, n + 1) &&
+	       !(match_mask(ti, k, phrase_mask, 1, &l2) && l2 > len) &&
+	       !match_mask(ti, n, phrase_mask, 1, &l2);
 }
 
 static int is_contact_kind(int kind)
@@ -181,6 +200,22 @@ static size_t range_end(tm_title *ti, size_t e)
 	return e;
 }
 
+/* Does a link phrase follow at unit j, directly or past at most
+ * PHRASE_CHAIN_MAX phrases of the peeled lexicons in a row within the
+ * kept units [.., b)? */
+static int link_follows(tm_title *ti, size_t j, size_t b)
+{
+	size_t len;
+	for (int n = 0; j < b && ukept(ti, j); n++) {
+		if (link_at(ti, j, b))
+			return 1;
+		if (n == PHRASE_CHAIN_MAX || !match_mask(ti, j, phrase_mask, 1, &len))
+			return 0;
+		j += len;
+	}
+	return 0;
+}
+
 static int peel_segment(tm_title *ti, size_t s, int *changed)
 {
 	size_t k0, k1, k, len;
@@ -227,6 +262,13 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 			e = o;
 		}
 		len = range_end(ti, k + len) - k;
+		/* phrases that a link word follows head a phrase going
+		 * on after it: "Saisonnier cueillette des cerises" and
+		 * "Stagionale raccolta delle ciliegie" stay whole (what
+		 * is picked says what the work is); the title never
+		 * starts with the link word */
+		if (link_follows(ti, k + len, b))
+			continue;
 		if ((e->where == LW_EDGE && k != a && k + len != b) ||
 		    (e->where == LW_ALONE && (k != a || k + len != b)) ||
 		    e->where == LW_SLOT || e->where == LW_STRONG)
@@ -337,10 +379,24 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 	}
 	/* hanging words at the two edges */
 	seg_kept(ti, s, &k0, &k1);
+	/* (not after a link word, whose complement it is: "Medico di
+	 * base", "Technicien de proximité") */
 	if (k0 < k1 && !ti->prot[ti->unit[k1 - 1]] && dangling(ti, k1 - 1) &&
+	    !(HAS(ti, LC_UNIT) && k1 - 1 > k0 && link_ends(ti, k0, k1 - 1) < k1 - 1) &&
 	    (removed_tok(ti, ti->unit[k1 - 1] + 1) ||
 	     (k1 < ti->nunit && !ukept(ti, k1) && useg(ti, k1) == s))) {
 		if (remove_units(ti, k1 - 1, k1, NF_MARKETING, NULL))
+			return -1;
+		*changed = 1;
+	}
+	/* a link word left at the segment's end by what it joined the
+	 * title to: "Leiter der [Region Süd]", "Manager van [regio
+	 * Utrecht]" */
+	seg_kept(ti, s, &k0, &k1);
+	if (k0 < k1 && HAS(ti, LC_UNIT) && removed_tok(ti, ti->unit[k1 - 1] + 1) &&
+	    ti->rm[ti->unit[k1 - 1] + 1] != NF_GENDER &&
+	    (k = link_ends(ti, k0, k1)) < k1) {
+		if (remove_units(ti, k, k1, NF_MARKETING, NULL))
 			return -1;
 		*changed = 1;
 	}

@@ -464,9 +464,12 @@ static int grade_segment(tm_title *ti, size_t s)
 			words |= w > 0 || match_val(ti, k, LC_PAY, "lead", 1, &w);
 			codes += !w && grade_code(ti, k);
 		}
-		/* a first segment holds a code too: "PA" is a word, not the
-		 * Irish grade word "pá" */
-		if (words && (!first || codes) && !last_word(ti, k0, k1))
+		/* a first segment holds a code too, and so does a segment
+		 * of one word in capitals: "PA" is a word (a personal
+		 * assistant), not the Irish grade word "pá" */
+		if (words && (!first || codes) &&
+		    (codes || k1 - k0 > 1 || !(U(ti, k0)->flags & TF_ALLCAPS)) &&
+		    !last_word(ti, k0, k1))
 			return remove_units(ti, k0, k1, NF_PAY, "grade");
 		if (!first)
 			return 0;

@@ -85,6 +85,25 @@ static inline int place_at(tm_title *ti, size_t k, size_t *len, int *strong,
 	return place_info(ti, k, len, strong, &itself, cc);
 }
 
+/* Is the place of len units at unit k a larger place (WHERE `city`) and
+ * no ordinary word (no `strong` entry)? */
+static int city_at(tm_title *ti, size_t k, size_t len)
+{
+	size_t l2;
+	int city = 0;
+	const lex_entry *e = match_cat(ti, k, LC_PLACE, 1, &l2);
+	if (!e || l2 != len)
+		return 0;
+	for (; e; e = lex_next(ti->lx, e)) {
+		if (e->cat != LC_PLACE || !entry_applies(ti, e))
+			continue;
+		if (e->where == LW_STRONG)
+			return 0;
+		city |= e->where == LW_CITY;
+	}
+	return city;
+}
+
 static int num_digits(tm_title *ti, size_t k)
 {
 	const tm_tok *t = U(ti, k);
@@ -316,22 +335,32 @@ static int slots(tm_title *ti)
 				k += ml - 1;
 				continue;
 			}
+			/* after a link word a preposition is the complement
+			 * of the word before it ("Medico di base a Bologna",
+			 * "Technicien de proximité"): it stays, and the
+			 * place right after it goes alone ("MEDICO DI BASE
+			 * MILANO"); a region word opens a slot ("Leiter der
+			 * Region Süd") */
+			int linked = link_ends(ti, ti->segs[useg(ti, k)].u0, k) < k &&
+				     !loc_word(ti, k, "before", &ml);
 			/* at most a few slot words in a row ("in der Region"): a
 			 * run of them to the end of the line, tried again from
 			 * each of its words, was quadratic ("a/" x 50,000) */
-			for (int more = 0; more < 4 && j < ti->nunit &&
+			for (int more = 0; !linked && more < 4 && j < ti->nunit &&
 					   (loc_word(ti, j, "before", &plen) ||
 					    loc_word(ti, j, "prep", &plen)); more++)
 				j += plen;
 			pc = postcode_at(ti, j);
 			if (j + pc < ti->nunit && useg(ti, j + pc) == useg(ti, k) &&
-			    place_at(ti, j + pc, &plen, &strong, &cc)) {
-				e = place_run(ti, j + pc, plen, 1);
-				if (take(ti, k, e))
+			    place_at(ti, j + pc, &plen, &strong, &cc) && !(linked && strong)) {
+				e = place_run(ti, j + pc, plen, !linked);
+				if (take(ti, linked ? j : k, e))
 					return -1;
 				k = e - 1;
 				continue;
 			}
+			if (linked)
+				continue;
 		}
 		/* 50667 Köln */
 		if ((pc = postcode_at(ti, k)) && k + pc < ti->nunit &&
@@ -437,6 +466,18 @@ int remove_place_segment(tm_title *ti, size_t s)
 		k += len;
 	}
 	return 0;
+}
+
+size_t link_ends(tm_title *ti, size_t k0, size_t k1)
+{
+	size_t len;
+	if (!HAS(ti, LC_UNIT))
+		return k1;
+	for (size_t k = k1 - 1; k > k0 && k1 - k <= LINK_WORDS_MAX; k--)
+		if (match_val(ti, k, LC_UNIT, "link", 1, &len) && k + len == k1 &&
+		    units_free(ti, k, k1) && ukept(ti, k - 1))
+			return k;
+	return k1;
 }
 
 int ending_whole(tm_title *ti, size_t k)
@@ -585,6 +626,18 @@ static int occupation_before(tm_title *ti, size_t k0, size_t k)
 	return 0;
 }
 
+/* A place written in lower case that ends a segment, at unit k (len
+ * units, its run ending at e): a larger place (`city`) of one name, no
+ * word that starts a phrase of another category ("koch berlin",
+ * "kierowca warszawa"); a village named like a word is no `city`. */
+static int lower_city(tm_title *ti, size_t k, size_t len, size_t e)
+{
+	for (size_t i = k; i < k + len; i++)
+		if (ti->ucats[i] & ~(1u << LC_PLACE))
+			return 0;
+	return e == k + len && city_at(ti, k, len);
+}
+
 /* Places that end a segment right after an occupational phrase, with
  * only a space between (run after the segments' roles are decided, so
  * that no rule reads the words before as a place's name): "Koch
@@ -595,8 +648,12 @@ static int occupation_before(tm_title *ti, size_t k0, size_t k)
  * "Îngrijitor bătrâni", stays), not glued to the word before
  * ("Nadador-salvador"), and only after an occupational phrase, so that
  * what stays names the occupation. */
+static int firm_places(tm_title *ti);
+
 int pass_trailing_place(tm_title *ti)
 {
+	if (HAS(ti, LC_EMPLOYER) && firm_places(ti))
+		return -1;
 	if (all_caps_line(ti))
 		return 0;
 	for (size_t s = 0; s < ti->nseg; s++) {
@@ -608,8 +665,9 @@ int pass_trailing_place(tm_title *ti)
 			if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
 			    !place_at(ti, k, &len, &strong, &cc))
 				continue;
-			if (strong || !(U(ti, k)->flags & TF_CAP) || acronym(ti, k, len, 0) ||
-			    glued(ti, k - 1, k, "") || (e = place_run(ti, k, len, 0)) != k1) {
+			if (strong || acronym(ti, k, len, 0) ||
+			    glued(ti, k - 1, k, "") || (e = place_run(ti, k, len, 0)) != k1 ||
+			    !(U(ti, k)->flags & TF_CAP || lower_city(ti, k, len, e))) {
 				k += len - 1;
 				continue;
 			}
@@ -831,6 +889,8 @@ static int workplace_segments(tm_title *ti)
 	return 0;
 }
 
+static int occupation_within(tm_title *ti, size_t k0, size_t k1);
+
 int pass_employer(tm_title *ti)
 {
 	size_t k, len, k0, k1;
@@ -863,6 +923,17 @@ int pass_employer(tm_title *ti)
 				break;
 			}
 		}
+		/* a firm written in lower case after an occupation and a
+		 * word that links them: "traductor [en clínica orvenda
+		 * s.l.]" (no capitals tell the name, the link word does);
+		 * the occupation at most EMPLOYER_BACK units before it */
+		if (start == SIZE_MAX && !caps && k > k0 + 1 && !cap_word(ti, k - 1))
+			for (m = k - 1; m > k0 && k - m <= EMPLOYER_NAME_MAX; m--)
+				if (link_word(ti, m) &&
+				    occupation_within(ti, m - k0 > EMPLOYER_BACK ? m - EMPLOYER_BACK : k0, m)) {
+					start = m;
+					break;
+				}
 		if (start == SIZE_MAX) {
 			/* an occupation named before the firm in its segment
 			 * (a head of occupation/), a word not capitalised
@@ -926,6 +997,72 @@ int pass_employer(tm_title *ti)
 		if (remove_units(ti, k, k1, NF_EMPLOYER, NULL))
 			return -1;
 		k = k1;
+	}
+	return 0;
+}
+
+/* Does [k0, k1) hold a kept word naming an occupation: a `head` of
+ * occupation/, a protected phrase, a word with an occupational ending? */
+static int occupation_within(tm_title *ti, size_t k0, size_t k1)
+{
+	for (size_t k = k0; k < k1; k++)
+		if (ukept(ti, k) && U(ti, k)->kind == TK_WORD && ti->uend[k])
+			return 1;
+	return head_within(ti, k0, k1);
+}
+
+/* Is [k, k1) a place written beside a firm: a location preposition of
+ * any language ("en", "à", "in"; the firm says what it is, whatever the
+ * hint) and a run of places to k1, or a run of places alone that needs
+ * no strong slot? */
+static int firm_place(tm_title *ti, size_t k, size_t k1)
+{
+	size_t plen;
+	int strong, prep = link_word(ti, k) && !match_val(ti, k, LC_EMPLOYER,
+							  "marker", 1, &plen);
+	const char *cc;
+	if (prep)
+		k++;
+	if (k >= k1 || !units_free(ti, k, k1) || !place_at(ti, k, &plen, &strong, &cc) ||
+	    (strong && !prep) || acronym(ti, k, plen, all_caps_line(ti)))
+		return 0;
+	return place_run(ti, k, plen, prep) == k1;
+}
+
+/* A place written right before or after a firm's name that the employer
+ * rule removed, ending its segment's kept words after an occupation:
+ * "Ingeniero de software [en Transportes Aldevia S.A.] Madrid",
+ * "Técnico de helpdesk [en Clínica Orvenda S.L.] en Bilbao",
+ * "Ingeniero industrial en Zaragoza [en Transportes Aldevia S.A.]".
+ * The place is where the work is, not part of the occupation. */
+static int firm_places(tm_title *ti)
+{
+	for (size_t s = 0; s < ti->nseg; s++) {
+		size_t k0, k1, k;
+		seg_kept(ti, s, &k0, &k1);
+		if (k1 - k0 < 2)
+			continue;
+		/* after the firm: the kept units after the last removed
+		 * employer token of the segment */
+		for (k = k1 - 1; k > k0 && ukept(ti, k - 1); k--)
+			;
+		if (k > k0 && ti->rm[ti->unit[k - 1]] == NF_EMPLOYER &&
+		    occupation_within(ti, k0, k) && firm_place(ti, k, k1)) {
+			if (take(ti, k, k1))
+				return -1;
+			continue;
+		}
+		/* before the firm: the segment's kept units end where a
+		 * removed employer follows in the segment */
+		if (k1 < ti->nunit && useg(ti, k1) == s && !ukept(ti, k1) &&
+		    ti->rm[ti->unit[k1]] == NF_EMPLOYER)
+			for (k = k1 - 1; k > k0 && k1 - k <= 4; k--)
+				if (link_word(ti, k) && occupation_within(ti, k0, k) &&
+				    firm_place(ti, k, k1)) {
+					if (take(ti, k, k1))
+						return -1;
+					break;
+				}
 	}
 	return 0;
 }

@@ -166,6 +166,13 @@ SHAPES = {
     "nbsp": "a\u00a0",
     "tabs": "a\t",
     "cr": "a\r",
+    "link-words": "Leiter der ",
+    "link-chain": "Saisonnier cueillette des ",
+    "link-slot": "Medico di base a Bologna ",
+    "firm-lower": "traductor en cl\u00ednica orvenda s.l. ",
+    "firm-lower-run": "x en y s.l. ",
+    "firm-place": "Koch bei Valdoria GmbH Berlin ",
+    "city-lower": "koch berlin ",
 }
 
 

@@ -276,8 +276,9 @@ static void test_occupation_and_business(void **state)
 	buf_free(&err);
 }
 
-/* places: `any` (a case form, a location by itself) and `adjective` (a
- * place only before an area word); `adjective` is refused elsewhere */
+/* places: `any` (a case form, a location by itself), `adjective` (a
+ * place only before an area word) and `city` (a larger place); the two
+ * are refused elsewhere; units/ takes the value `link` */
 static void test_place_where(void **state)
 {
 	(void)state;
@@ -291,7 +292,9 @@ static void test_place_where(void **state)
 		   "fi\tHelsingissä\tFI\tany\n"
 		   "de\tMünchner\tDE\tadjective\n"
 		   "lv?\tRīgā\tLV\tany\n"
-		   "*\tRiga\tLV\tslot\n");
+		   "*\tRiga\tLV\tslot\n"
+		   "*\tWarszawa\tPL\tcity\n");
+	write_file(dir, "units", "x.txt", "de\tder\tlink\n");
 	lx = lex_new();
 	assert_int_equal(lex_load_dir(lx, dir, &err), 0);
 	e = find(lx, "HELSINGISSA");
@@ -300,17 +303,26 @@ static void test_place_where(void **state)
 	assert_int_equal(e->where, LW_ANY);
 	assert_string_equal(e->value, "FI");
 	assert_int_equal(find(lx, "münchner")->where, LW_ADJ);
+	assert_int_equal(find(lx, "warszawa")->where, LW_CITY);
+	assert_int_equal(find(lx, "warszawa")->cat, LC_PLACE);
+	assert_string_equal(find(lx, "der")->value, "link");
 	/* one match key, two entries: the Latvian case form and the name */
 	e = find(lx, "riga");
 	assert_non_null(e);
 	assert_non_null(lex_next(lx, e));
 	lex_free(lx);
 	remove_file(dir, "places", "x.txt");
+	remove_file(dir, "units", "x.txt");
 
 	write_file(dir, "schedule", "x.txt", "en\tday shift\tshift\tadjective\n");
 	lx = lex_new();
 	assert_int_equal(lex_load_dir(lx, dir, &err), -1);
 	assert_non_null(strstr(err.data, "schedule/x.txt:1: unknown place restriction 'adjective'"));
+	lex_free(lx);
+	write_file(dir, "schedule", "x.txt", "en\tday shift\tshift\tcity\n");
+	lx = lex_new();
+	assert_int_equal(lex_load_dir(lx, dir, &err), -1);
+	assert_non_null(strstr(err.data, "schedule/x.txt:1: unknown place restriction 'city'"));
 	lex_free(lx);
 	remove_file(dir, "schedule", "x.txt");
 	rmdir(dir);
@@ -338,6 +350,8 @@ static lexicon *small_lexicon(void)
 	}
 	/* the phrase entered twice, in two categories */
 	assert_int_equal(lex_add(lx, LC_UNIT, "*", "Full Time", 9, "hours", LW_ANY, &err), 0);
+	/* the last WHERE value an image may hold */
+	assert_int_equal(lex_add(lx, LC_PLACE, "*", "Wien", 4, "AT", LW_CITY, &err), 0);
 	FILE *f = fopen("/tmp/tm-test-img-pairs.txt", "w");
 	assert_non_null(f);
 	fputs("de\ter\terin\nfr\teur\teuse\nes\to\ta\n", f);
@@ -404,6 +418,7 @@ static void test_image(void **state)
 	assert_string_equal(find(back, "full time")->value, "full_time");
 	assert_string_equal(lex_next(back, find(back, "full time"))->value, "hours");
 	assert_string_equal(find(back, "Köln")->value, "DE");
+	assert_int_equal(find(back, "Wien")->where, LW_CITY);
 	assert_string_equal(find(back, "part time job")->value, "part_time");
 	assert_non_null(lex_ending(back, "lagerfachkraft", 14, &elen));
 	assert_int_equal(elen, 9);
