@@ -35,7 +35,7 @@ BUILD ?= build
 # holds).  Objects and unit tests go flat into $(BUILD): names are unique.
 SRC_core = buf digest lang msg period
 SRC_io = decode reader tsv jsonw jsonr htmlw postings skos record outfile fieldcheck
-SRC_norm = unicode token lexicon lexicon_read lexicon_image lexcache setup title pass_gender pass_contact pass_pay pass_days pass_noise pass_place pass_roles \
+SRC_norm = unicode token lexicon lexicon_read lexicon_image lexcache setup title pass_gender pass_contact pass_pay pass_days pass_noise pass_place pass_employer pass_roles \
 	norm facets
 SRC_count = strtab idset tally_mem series chunk store load store_redis store_redis_url store_redis_keys store_redis_chunk \
 	store_redis_apply store_redis_dump cluster slot

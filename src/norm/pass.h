@@ -89,7 +89,7 @@ int pass_roles(tm_title *ti);     /* the head segment; employers and places besi
  * Berlin" (after the roles; pass_place.c) */
 int pass_trailing_place(tm_title *ti);
 
-/* Shared by the rules (pass_place.c). */
+/* Shared by the rules (pass_place.c; head_within: pass_employer.c). */
 int all_caps_line(tm_title *ti);  /* most words of the line in capitals */
 /* Is the kept part of segment s a place: gazetteer places, country
  * codes, postcodes, location and connector words, at least one place or

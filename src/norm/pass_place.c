@@ -1,4 +1,4 @@
-/* pass_place.c - employer slots and location slots.
+/* pass_place.c - location slots.
  *
  * A place name is removed only where it stands in a location slot: after
  * a location preposition or region word (in, à, Raum, région), before a
@@ -12,13 +12,7 @@
  * Münchner) is one only before a region word (im Münchner Norden). */
 #include <string.h>
 
-#include "norm/pass.h"
-
-static int cap_word(tm_title *ti, size_t k)
-{
-	const tm_tok *t = U(ti, k);
-	return (t->flags & (TF_CAP | TF_ALLCAPS)) != 0;
-}
+#include "norm/pass_place.h"
 
 int all_caps_line(tm_title *ti)
 {
@@ -40,8 +34,8 @@ static inline int loc_word(tm_title *ti, size_t k, const char *value, size_t *le
  * whether it is a location by itself (a case form: Helsingissä), and its
  * country.  A place adjective (Münchner) is a place only when a location
  * `after` word follows it in its segment (im Münchner Norden). */
-static int place_info(tm_title *ti, size_t k, size_t *len, int *strong,
-		      int *itself, const char **cc)
+int place_info(tm_title *ti, size_t k, size_t *len, int *strong, int *itself,
+	       const char **cc)
 {
 	const lex_entry *e = match_cat(ti, k, LC_PLACE, 1, len);
 	int noun = 0, adj = 0;
@@ -73,16 +67,6 @@ static int place_info(tm_title *ti, size_t k, size_t *len, int *strong,
 			return 0;
 	}
 	return 1;
-}
-
-static inline int place_at(tm_title *ti, size_t k, size_t *len, int *strong,
-			   const char **cc)
-{
-	int itself;
-	/* most units are no place: answered without the call */
-	if (k >= ti->nunit || !(ti->ucats[k] & (1u << LC_PLACE)))
-		return 0;
-	return place_info(ti, k, len, strong, &itself, cc);
 }
 
 /* Is the place of len units at unit k a larger place (WHERE `city`) and
@@ -211,7 +195,7 @@ static int after_word(tm_title *ti, size_t e, size_t k, size_t *len)
 /* An acronym in a mixed-case title is no place unless the lexicon
  * writes the place in capitals too: (OSS) is a qualification, not Oss;
  * NRW is a region. */
-static int acronym(tm_title *ti, size_t k, size_t len, int caps)
+int place_acronym(tm_title *ti, size_t k, size_t len, int caps)
 {
 	const tm_tok *t = U(ti, k);
 	size_t l2;
@@ -256,7 +240,7 @@ static size_t district_at(tm_title *ti, size_t k, size_t seg)
 
 /* From unit k (a place), the end of a run of places joined by
  * connectors or slashes: Köln/Bonn, Köln und Bonn. */
-static size_t place_run(tm_title *ti, size_t k, size_t plen, int allow_strong)
+size_t place_run(tm_title *ti, size_t k, size_t plen, int allow_strong)
 {
 	size_t e = k + plen, len, l2;
 	int strong;
@@ -295,7 +279,7 @@ static int remove_place(tm_title *ti, size_t k, size_t len, const char *cc)
 /* Removes units [k, e) of a location slot piece by piece: places as
  * locations (their facet), the rest (prepositions, region words,
  * postcodes, connectors) as slot words. */
-static int take(tm_title *ti, size_t k, size_t e)
+int place_take(tm_title *ti, size_t k, size_t e)
 {
 	size_t len;
 	int strong;
@@ -354,7 +338,7 @@ static int slots(tm_title *ti)
 			if (j + pc < ti->nunit && useg(ti, j + pc) == useg(ti, k) &&
 			    place_at(ti, j + pc, &plen, &strong, &cc) && !(linked && strong)) {
 				e = place_run(ti, j + pc, plen, !linked);
-				if (take(ti, linked ? j : k, e))
+				if (place_take(ti, linked ? j : k, e))
 					return -1;
 				k = e - 1;
 				continue;
@@ -366,7 +350,7 @@ static int slots(tm_title *ti)
 		if ((pc = postcode_at(ti, k)) && k + pc < ti->nunit &&
 		    place_at(ti, k + pc, &plen, &strong, &cc)) {
 			size_t e = place_run(ti, k + pc, plen, 1);
-			if (take(ti, k, e))
+			if (place_take(ti, k, e))
 				return -1;
 			k = e - 1;
 			continue;
@@ -380,7 +364,7 @@ static int slots(tm_title *ti)
 			    (e < ti->nunit && useg(ti, e) == useg(ti, k) &&
 			     (len = postcode_at(ti, e)))) {
 				e = place_run(ti, k, plen, 1);
-				if (take(ti, k, e))
+				if (place_take(ti, k, e))
 					return -1;
 				k = e - 1;
 			} else
@@ -407,7 +391,7 @@ int place_segment(tm_title *ti, size_t s, int caps, int strong_ok)
 		if (ti->prot[ti->unit[k]]) {
 			return 0;
 		} else if (place_at(ti, k, &len, &strong, &c) &&
-			   !acronym(ti, k, len, caps)) {
+			   !place_acronym(ti, k, len, caps)) {
 			any = 1;
 			if (strong)
 				need_strong = 1;
@@ -594,7 +578,7 @@ static int case_forms(tm_title *ti)
 			continue;
 		}
 		size_t e = place_run(ti, k, len, 0);
-		if (take(ti, k, e))
+		if (place_take(ti, k, e))
 			return -1;
 		k = e - 1;
 	}
@@ -648,8 +632,6 @@ static int lower_city(tm_title *ti, size_t k, size_t len, size_t e)
  * "Îngrijitor bătrâni", stays), not glued to the word before
  * ("Nadador-salvador"), and only after an occupational phrase, so that
  * what stays names the occupation. */
-static int firm_places(tm_title *ti);
-
 int pass_trailing_place(tm_title *ti)
 {
 	if (HAS(ti, LC_EMPLOYER) && firm_places(ti))
@@ -665,13 +647,13 @@ int pass_trailing_place(tm_title *ti)
 			if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
 			    !place_at(ti, k, &len, &strong, &cc))
 				continue;
-			if (strong || acronym(ti, k, len, 0) ||
+			if (strong || place_acronym(ti, k, len, 0) ||
 			    glued(ti, k - 1, k, "") || (e = place_run(ti, k, len, 0)) != k1 ||
 			    !(U(ti, k)->flags & TF_CAP || lower_city(ti, k, len, e))) {
 				k += len - 1;
 				continue;
 			}
-			if (units_free(ti, k, e) && occupation_before(ti, k0, k) && take(ti, k, e))
+			if (units_free(ti, k, e) && occupation_before(ti, k0, k) && place_take(ti, k, e))
 				return -1;
 			break;
 		}
@@ -683,386 +665,5 @@ int pass_location(tm_title *ti)
 {
 	if (slots(ti) || case_forms(ti) || whole_segments(ti) || after_place(ti))
 		return -1;
-	return 0;
-}
-
-/* ---- employers ---- */
-
-/* The longest legal form at unit k, of employer/ or business/ ("Limited
- * Company", "S.Coop.And.", "aktiebolag"). */
-static inline const lex_entry *legal_form(tm_title *ti, size_t k, size_t *len)
-{
-	size_t l2;
-	/* most units start no phrase of either: answered at once */
-	if (k >= ti->nunit || !(ti->ucats[k] & (1u << LC_EMPLOYER | 1u << LC_BUSINESS)))
-		return NULL;
-	const lex_entry *e = match_val(ti, k, LC_EMPLOYER, "legal", 1, len);
-	const lex_entry *b = match_val(ti, k, LC_BUSINESS, "legal", 1, &l2);
-	if (b && (!e || l2 > *len)) {
-		*len = l2;
-		return b;
-	}
-	return e;
-}
-
-/* Is the word of unit k a Roman numeral in capitals (I, II, IV, XII):
- * a rung of a career ladder ("Nurse II"), which folds like a legal form
- * of some language (Lithuanian IĮ folds to "ii")? */
-static int roman_numeral(tm_title *ti, size_t k)
-{
-	const tm_tok *t = U(ti, k);
-	const char *p = ti->text + t->off;
-	if (t->kind != TK_WORD || !(t->flags & TF_ALLCAPS) || t->len > 4)
-		return 0;
-	return strspn(p, "IVX") >= t->len;
-}
-
-/* A legal form of any language written in capitals at the end of a
- * segment, after a capitalised name: Norrsvalk Krog AB, Mirandol SAS. */
-static int caps_legal(tm_title *ti, size_t k, size_t *len)
-{
-	size_t k0, k1;
-	const lex_entry *e;
-	if (!(U(ti, k)->flags & TF_ALLCAPS) || k == 0 || !cap_word(ti, k - 1) ||
-	    !ukept(ti, k - 1) || roman_numeral(ti, k))
-		return 0;
-	ti->any_lang = 1;
-	e = legal_form(ti, k, len);
-	ti->any_lang = 0;
-	if (!e)
-		return 0;
-	seg_kept(ti, useg(ti, k), &k0, &k1);
-	return k + *len == k1 && k - 1 >= k0 &&
-	       (ti->segs[useg(ti, k)].index > 0 || ti->segs[useg(ti, k)].bracket);
-}
-
-/* Does a segment after s hold kept words? */
-static int later_content(tm_title *ti, size_t s)
-{
-	for (size_t t = s + 1; t < ti->nseg; t++) {
-		size_t a, b;
-		seg_kept(ti, t, &a, &b);
-		if (a < b)
-			return 1;
-	}
-	return 0;
-}
-
-int head_within(tm_title *ti, size_t k0, size_t k1)
-{
-	size_t len;
-	for (size_t k = k0; k < k1; k++)
-		if (ukept(ti, k) && (ti->prot[ti->unit[k]] ||
-				     match_val(ti, k, LC_OCCUPATION, "head", 1, &len)))
-			return 1;
-	return 0;
-}
-
-/* Is the legal form at unit k (len units), in segment s whose kept units
- * are [k0, k1), written before the name of its firm, with the title
- * going on elsewhere?  The form in capitals or capitalised, then a
- * capitalised name of at most EMPLOYER_NAME_MAX words to the segment's
- * end with no word naming an occupation; and the title goes on in
- * another segment ("Sandėlininkas – UAB Nemuno logistika", "UAB Valdas
- * – vairuotojas") or before the form, with a word naming the occupation
- * ("Vairuotojas UAB Valdas"). */
-static int form_before_name(tm_title *ti, size_t s, size_t k, size_t len,
-			    size_t k0, size_t k1, int caps)
-{
-	size_t n = k + len;
-	const tm_seg *g = &ti->segs[s];
-
-	if (!(caps || cap_word(ti, k)) || n >= k1 || k1 - n > EMPLOYER_NAME_MAX ||
-	    U(ti, n)->kind != TK_WORD || !(caps || cap_word(ti, n)) ||
-	    head_within(ti, n, k1))
-		return 0;
-	if (k == k0)
-		return g->bracket || g->index > 0 || later_content(ti, s);
-	return head_within(ti, k0, k);
-}
-
-/* Does [k0, k1) hold a kept word written in lower case? */
-static int lower_within(tm_title *ti, size_t k0, size_t k1)
-{
-	for (size_t k = k0; k < k1; k++)
-		if (ukept(ti, k) && U(ti, k)->kind == TK_WORD && !cap_word(ti, k))
-			return 1;
-	return 0;
-}
-
-/* Is unit k a kept location preposition or employer marker of one word,
- * of any language ("en", "na", "at")?  Before a firm's capitalised name
- * and legal form it says what follows it, whatever the hint. */
-static int link_word(tm_title *ti, size_t k)
-{
-	size_t len;
-	int any = ti->any_lang, link;
-	ti->any_lang = 1;
-	link = ukept(ti, k) && (match_val(ti, k, LC_EMPLOYER, "marker", 1, &len) ||
-				match_val(ti, k, LC_LOCATION, "prep", 1, &len)) && len == 1;
-	ti->any_lang = any;
-	return link;
-}
-
-/* Is a kept word naming an occupation in [k0, k1) (a `head`, or a word
- * with an occupational ending: "Programador", "Mecânico/a") followed by
- * a word that links it to the firm after it: the next word in lower
- * case, or a location preposition or employer marker later on ("Programador en Transportes
- * Aldevia S.A.", "AYUDANTE DE COCINA EN TRANSPORTES ALDEVIA S.A.",
- * "Programador Web Na Carvalhena Serviços Lda.")?  A firm's name may
- * hold a word that ends like an occupation, followed by another
- * capitalised word ("Logistica Brembana e Figli S.r.l."). */
-static int occupation_linked(tm_title *ti, size_t k0, size_t k1, int caps)
-{
-	for (size_t k = k0; k + 1 < k1; k++) {
-		size_t n = k + 1, len;
-		if (!ukept(ti, k) || U(ti, k)->kind != TK_WORD ||
-		    !(ti->uend[k] || match_val(ti, k, LC_OCCUPATION, "head", 1, &len)))
-			continue;
-		while (n < k1 && !(ukept(ti, n) && U(ti, n)->kind == TK_WORD))
-			n++;
-		if (n < k1 && !caps && !cap_word(ti, n))
-			return 1;
-		for (; n < k1; n++)
-			if (link_word(ti, n))
-				return 1;
-		return 0;
-	}
-	return 0;
-}
-
-/* Is segment s, all of it kept, units [k0, k1), a workplace kind and
- * nothing else: business kind phrases (business/, value `kind`), joined
- * by connectors or "&" ("Hotel", "Centro Comercial", "Hotel &
- * Restaurant"), none of them an occupational word?  A kind that is also
- * a field names a trade ("Verkäufer – Bäckerei"), and what a gender
- * pair left of a segment is none ("Kierownik / [Kierowniczka] sklepu"). */
-static int kind_only(tm_title *ti, size_t s, size_t k0, size_t k1)
-{
-	size_t k = k0, len;
-	int kinds = 0;
-	if (k0 != ti->segs[s].u0 || k1 != ti->segs[s].u1)
-		return 0;
-	while (k < k1) {
-		if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
-		    (ti->ucats[k] & (1u << LC_OCCUPATION)))
-			return 0;
-		if (match_val(ti, k, LC_BUSINESS, "kind", 1, &len) && k + len <= k1 &&
-		    units_free(ti, k, k + len)) {
-			/* the longer phrase wins: "Centro Comercial" holds
-			 * the head "comercial" */
-			kinds++;
-			k += len;
-		} else if (kinds && k + 1 < k1 &&
-			   (match_val(ti, k, LC_UNIT, "connector", 1, &len) ||
-			    (U(ti, k)->kind == TK_SYM && U(ti, k)->ch == '&'))) {
-			k += U(ti, k)->kind == TK_SYM ? 1 : len;
-		} else
-			return 0;
-	}
-	return kinds > 0;
-}
-
-/* Segments that name only the kind of workplace after a segment that
- * names the occupation: "Rezeptionist – Hotel", "Vendedora - Centro
- * Comercial", "Koch | Restaurant".  Curators count occupations; the
- * workplace adds nothing to the key.  A kind inside the occupation's
- * segment stays ("Hotel Receptionist", "Restaurant Manager"), and so
- * does a title of one segment. */
-static int workplace_segments(tm_title *ti)
-{
-	int occupation = 0;
-	for (size_t s = 0; s < ti->nseg; s++) {
-		size_t k0, k1;
-		seg_kept(ti, s, &k0, &k1);
-		if (k0 >= k1)
-			continue;
-		if (occupation && kind_only(ti, s, k0, k1)) {
-			if (remove_units(ti, k0, k1, NF_EMPLOYER, NULL))
-				return -1;
-			continue;
-		}
-		for (size_t k = k0; k < k1 && !occupation; k++)
-			occupation = ukept(ti, k) && U(ti, k)->kind == TK_WORD &&
-				     (ti->uend[k] || head_within(ti, k, k + 1));
-	}
-	return 0;
-}
-
-static int occupation_within(tm_title *ti, size_t k0, size_t k1);
-
-int pass_employer(tm_title *ti)
-{
-	size_t k, len, k0, k1;
-	int caps = all_caps_line(ti);
-
-	if (HAS(ti, LC_BUSINESS) && ti->nseg > 1 && workplace_segments(ti))
-		return -1;
-
-	/* legal forms: Nordwerk GmbH, Maison Ortalie SARL */
-	for (k = 0; k < ti->nunit; k++) {
-		size_t start, m;
-		uint32_t s;
-		const tm_seg *g;
-		if (!legal_form(ti, k, &len) && !caps_legal(ti, k, &len))
-			continue;
-		s = useg(ti, k);
-		g = &ti->segs[s];
-		seg_kept(ti, s, &k0, &k1);
-		if (form_before_name(ti, s, k, len, k0, k1, caps)) {
-			if (remove_units(ti, k, k1, NF_EMPLOYER, NULL))
-				return -1;
-			k = k1 - 1;
-			continue;
-		}
-		start = SIZE_MAX;
-		for (m = k; m > k0 && k - m < EMPLOYER_BACK; m--) {
-			size_t l2;
-			if (match_val(ti, m - 1, LC_EMPLOYER, "marker", 1, &l2)) {
-				start = m - 1;
-				break;
-			}
-		}
-		/* a firm written in lower case after an occupation and a
-		 * word that links them: "traductor [en clínica orvenda
-		 * s.l.]" (no capitals tell the name, the link word does);
-		 * the occupation at most EMPLOYER_BACK units before it */
-		if (start == SIZE_MAX && !caps && k > k0 + 1 && !cap_word(ti, k - 1))
-			for (m = k - 1; m > k0 && k - m <= EMPLOYER_NAME_MAX; m--)
-				if (link_word(ti, m) &&
-				    occupation_within(ti, m - k0 > EMPLOYER_BACK ? m - EMPLOYER_BACK : k0, m)) {
-					start = m;
-					break;
-				}
-		if (start == SIZE_MAX) {
-			/* an occupation named before the firm in its segment
-			 * (a head of occupation/), a word not capitalised
-			 * between them, stays: "Oferta: Vendedor en Transportes
-			 * Aldevia S.A." (not "Valdoria Logistik GmbH",
-			 * "Logistica Brembana e Figli S.r.l.") */
-			int occ = k > k0 && cap_word(ti, k - 1) &&
-				  ((!caps && head_within(ti, k0, k) && lower_within(ti, k0, k)) ||
-				   occupation_linked(ti, k0, k, caps));
-			if ((g->bracket || g->index > 0) && !occ)
-				start = k0;
-			else if (k > k0 && k - k0 <= 3 && !occ &&
-				 (k + len < k1 || later_content(ti, s)))
-				start = k0; /* Nordwerk GmbH sucht ..., Nordwerk GmbH - Koch */
-			else {
-				/* the capitalised name before the form, at most
-				 * three words, never the first word of the title */
-				start = k;
-				while (start > k0 + 1 && k - start < 3 &&
-				       cap_word(ti, start - 1) && ukept(ti, start - 1))
-					start--;
-				/* and the word linking it to the occupation:
-				 * "Cook [en Clínica Orvenda S.L.]" */
-				if (occ && start > k0 + 1 && start < k && link_word(ti, start - 1))
-					start--;
-			}
-		}
-		if (start == k && k == k0 && k + len < k1)
-			continue; /* a lone legal word opening a title: not a firm */
-		/* the business kind before the name, from the segment's start,
-		 * when the title goes on elsewhere: "domov pro seniory
-		 * Brenriven a.s.: chůva" */
-		{
-			size_t kl;
-			if (start > k0 && (g->bracket || g->index > 0 || later_content(ti, s)) &&
-			    match_val(ti, k0, LC_BUSINESS, "kind", 1, &kl) && k0 + kl == start)
-				start = k0;
-		}
-		if (remove_units(ti, start, k + len, NF_EMPLOYER, NULL))
-			return -1;
-		k += len - 1;
-	}
-	/* markers: at Brennfeld Foods, bei Valdoria, chez Ortalie, @ Nordwerk */
-	for (k = 0; k + 1 < ti->nunit; k++) {
-		size_t j, plen;
-		int strong;
-		const char *cc;
-		if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
-		    !match_val(ti, k, LC_EMPLOYER, "marker", 1, &len))
-			continue;
-		j = k + len;
-		if (j >= ti->nunit || useg(ti, j) != useg(ti, k) || !ukept(ti, j))
-			continue;
-		if (place_at(ti, j, &plen, &strong, &cc))
-			continue; /* bei München: a location */
-		if (!(cap_word(ti, j) || caps || (U(ti, k)->kind == TK_SYM)))
-			continue;
-		seg_kept(ti, useg(ti, k), &k0, &k1);
-		if (k == k0)
-			continue; /* nothing before it: not an employer slot */
-		if (remove_units(ti, k, k1, NF_EMPLOYER, NULL))
-			return -1;
-		k = k1;
-	}
-	return 0;
-}
-
-/* Does [k0, k1) hold a kept word naming an occupation: a `head` of
- * occupation/, a protected phrase, a word with an occupational ending? */
-static int occupation_within(tm_title *ti, size_t k0, size_t k1)
-{
-	for (size_t k = k0; k < k1; k++)
-		if (ukept(ti, k) && U(ti, k)->kind == TK_WORD && ti->uend[k])
-			return 1;
-	return head_within(ti, k0, k1);
-}
-
-/* Is [k, k1) a place written beside a firm: a location preposition of
- * any language ("en", "à", "in"; the firm says what it is, whatever the
- * hint) and a run of places to k1, or a run of places alone that needs
- * no strong slot? */
-static int firm_place(tm_title *ti, size_t k, size_t k1)
-{
-	size_t plen;
-	int strong, prep = link_word(ti, k) && !match_val(ti, k, LC_EMPLOYER,
-							  "marker", 1, &plen);
-	const char *cc;
-	if (prep)
-		k++;
-	if (k >= k1 || !units_free(ti, k, k1) || !place_at(ti, k, &plen, &strong, &cc) ||
-	    (strong && !prep) || acronym(ti, k, plen, all_caps_line(ti)))
-		return 0;
-	return place_run(ti, k, plen, prep) == k1;
-}
-
-/* A place written right before or after a firm's name that the employer
- * rule removed, ending its segment's kept words after an occupation:
- * "Ingeniero de software [en Transportes Aldevia S.A.] Madrid",
- * "Técnico de helpdesk [en Clínica Orvenda S.L.] en Bilbao",
- * "Ingeniero industrial en Zaragoza [en Transportes Aldevia S.A.]".
- * The place is where the work is, not part of the occupation. */
-static int firm_places(tm_title *ti)
-{
-	for (size_t s = 0; s < ti->nseg; s++) {
-		size_t k0, k1, k;
-		seg_kept(ti, s, &k0, &k1);
-		if (k1 - k0 < 2)
-			continue;
-		/* after the firm: the kept units after the last removed
-		 * employer token of the segment */
-		for (k = k1 - 1; k > k0 && ukept(ti, k - 1); k--)
-			;
-		if (k > k0 && ti->rm[ti->unit[k - 1]] == NF_EMPLOYER &&
-		    occupation_within(ti, k0, k) && firm_place(ti, k, k1)) {
-			if (take(ti, k, k1))
-				return -1;
-			continue;
-		}
-		/* before the firm: the segment's kept units end where a
-		 * removed employer follows in the segment */
-		if (k1 < ti->nunit && useg(ti, k1) == s && !ukept(ti, k1) &&
-		    ti->rm[ti->unit[k1]] == NF_EMPLOYER)
-			for (k = k1 - 1; k > k0 && k1 - k <= 4; k--)
-				if (link_word(ti, k) && occupation_within(ti, k0, k) &&
-				    firm_place(ti, k, k1)) {
-					if (take(ti, k, k1))
-						return -1;
-					break;
-				}
-	}
 	return 0;
 }
