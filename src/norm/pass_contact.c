@@ -274,13 +274,17 @@ __attribute__((always_inline)) static inline int is_date(const tm_title *ti, con
 {
 	const char *p = ti->text + t->off;
 	size_t d, n = t->len;
-	if (t->kind != TK_NUM || (n != 4 && n != 8 && n != 10))
+	if (t->kind != TK_NUM || n < 4 || n > 10)
 		return 0;
 	d = ndigits(ti, t);
 	if (d == 4 && n == 4)
 		return (p[0] == '1' && p[1] == '9') || (p[0] == '2' && p[1] == '0');
 	/* dd.mm.yyyy, dd.mm.yy */
-	return (n == 10 || n == 8) && p[2] == '.' && p[5] == '.';
+	if ((n == 10 || n == 8) && p[2] == '.' && p[5] == '.')
+		return 1;
+	/* d.m.yyyy, d.mm.yyyy, dd.m.yyyy (31.5.2026) */
+	return (n == 8 || n == 9) && d == n - 2 && p[n - 5] == '.' &&
+	       (p[1] == '.' || p[2] == '.') && p[n - 4] == '2' && p[n - 3] == '0';
 }
 
 /* A year or date at a segment edge (Ausbildung 2026, Saison 2025/26)
@@ -294,10 +298,15 @@ int noise_date_at_edge(tm_title *ti, size_t k)
 	if ((e < ti->nunit && ukept(ti, e) && is_currency(ti, e, &len)) ||
 	    (k > 0 && ukept(ti, k - 1) && is_currency(ti, k - 1, &len)))
 		return 0;
-	/* 2025/26, 2025-2026 */
+	/* 2025/26, 2025-2026; 2026-05-31 */
 	if (e < ti->nunit && glued(ti, k, e, "/-") && U(ti, e)->kind == TK_NUM &&
-	    ndigits(ti, U(ti, e)) <= 4)
+	    ndigits(ti, U(ti, e)) <= 4) {
 		e++;
+		if (U(ti, k)->len == 4 && U(ti, e - 1)->len == 2 && e < ti->nunit &&
+		    glued(ti, e - 1, e, "-") && U(ti, e)->kind == TK_NUM &&
+		    U(ti, e)->len == 2)
+			e++;
+	}
 	seg_kept(ti, useg(ti, k), &k0, &k1);
 	if (k != k0 && e != k1)
 		return 0;
