@@ -49,6 +49,10 @@
 #define ROTA_HOURS_MIN 6
 #define ROTA_HOURS_MAX 12
 #define ROTA_DAYS_MAX 28
+/* A count of days written before a schedule phrase in a segment beside
+ * the occupation ("hybrydowo 2 dni w biurze", "2 dage om ugen"): one
+ * digit, at most SCHEDULE_COUNT_MAX. */
+#define SCHEDULE_COUNT_MAX 7
 /* The word naming shifts before a list of clock ranges ("in Schichten
  * 6-14 / 14-22") is a phrase of at most SHIFT_WORD_BACK units. */
 #define SHIFT_WORD_BACK 4

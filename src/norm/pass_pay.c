@@ -649,6 +649,17 @@ int pass_schedule(tm_title *ti)
 			k = e - 1;
 			continue;
 		}
+		/* a count of days before a schedule phrase, beside the
+		 * occupation: "hybrydowo 2 dni w biurze" */
+		if (U(ti, k)->len == 1 && lead_value(ti, U(ti, k)) >= 1 &&
+		    lead_value(ti, U(ti, k)) <= SCHEDULE_COUNT_MAX && k + 1 < ti->nunit &&
+		    ukept(ti, k + 1) && useg(ti, k + 1) == useg(ti, k) &&
+		    (ti->segs[useg(ti, k)].bracket || ti->segs[useg(ti, k)].index > 0) &&
+		    match_cat(ti, k + 1, LC_SCHEDULE, 1, &len)) {
+			if (remove_units(ti, k, k + 1, NF_SCHEDULE, NULL))
+				return -1;
+			continue;
+		}
 		j = k + 1;
 		/* range; across a dash with spaces (a segment separator) not
 		 * from the number that ends a level or grade phrase: "Level 3
