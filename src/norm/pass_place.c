@@ -374,6 +374,15 @@ static int slots(tm_title *ti)
 	return 0;
 }
 
+/* Is the country code of len units at unit k also an occupational field
+ * (occupation/, value `field`: IT, HR)? */
+static int field_code(tm_title *ti, size_t k, size_t len)
+{
+	size_t l2;
+	return (ti->ucats[k] & (1u << LC_OCCUPATION)) &&
+	       match_val(ti, k, LC_OCCUPATION, "field", 1, &l2) && l2 == len;
+}
+
 int place_segment(tm_title *ti, size_t s, int caps, int strong_ok)
 {
 	size_t k0, k1, k, len;
@@ -403,6 +412,12 @@ int place_segment(tm_title *ti, size_t s, int caps, int strong_ok)
 			    cap_word(ti, k) && U(ti, k)->kind == TK_WORD)
 				k++;
 		} else if (loc_word(ti, k, "country-code", &len)) {
+			/* a code that is also a field, alone right after kept
+			 * words: "Konsult, IT", "Manager (HR)" name the field,
+			 * not Italy or Croatia ("Milano, IT" stays a place) */
+			if (k == k0 && k + len == k1 && k > 0 && ukept(ti, k - 1) &&
+			    field_code(ti, k, len))
+				return 0;
 			any = weak = 1;
 			k += len;
 		} else if ((len = postcode_at(ti, k))) {
