@@ -209,7 +209,8 @@ int place_acronym(tm_title *ti, size_t k, size_t len, int caps)
 }
 
 /* A district written after a place as the last word of its segment: a
- * number of one or two digits (Praha 5, Dublin 8) or a postal district
+ * number of one or two digits (Praha 5, Dublin 8), a Roman numeral of at
+ * most five letters (Budapest VIII.) or a postal district
  * in capitals, letters then digits and at most one letter more (Derby
  * DE1, London SE15, Swindon SN2). */
 static size_t district_at(tm_title *ti, size_t k, size_t seg)
@@ -225,10 +226,14 @@ static size_t district_at(tm_title *ti, size_t k, size_t seg)
 	if (d == 1 || d == 2)
 		return 1;
 	t = U(ti, k);
+	p = ti->text + t->off;
+	/* a Roman numeral in capitals: Budapest VIII., Budapest XIII */
+	if (t->kind == TK_WORD && (t->flags & TF_ALLCAPS) && t->len <= 5 &&
+	    strspn(p, "IVX") >= t->len)
+		return 1;
 	if (t->kind != TK_WORD || !(t->flags & TF_DIGIT) || !(t->flags & TF_ALLCAPS) ||
 	    t->len < 2 || t->len > 4)
 		return 0;
-	p = ti->text + t->off;
 	for (a = 0; i < t->len && p[i] >= 'A' && p[i] <= 'Z'; i++)
 		a++;
 	for (d = 0; i < t->len && p[i] >= '0' && p[i] <= '9'; i++)
