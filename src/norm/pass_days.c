@@ -328,6 +328,33 @@ static size_t day_phrase(tm_title *ti, size_t k, int *range)
 	return e;
 }
 
+/* Month names (units/, value `monthname`): a range of two joined by a
+ * dash, a slash or a connector (lipiec–sierpień, juni og juli), or one
+ * after a connector (till och med december), with the year after it.
+ * Returns the end (exclusive) of the phrase starting at k, or 0. */
+static size_t month_phrase(tm_title *ti, size_t k)
+{
+	size_t len, c, e;
+	if (unit_val(ti, k, "connector", &c) && unit_val(ti, k + c, "monthname", &len)) {
+		e = k + c + len;
+	} else if (unit_val(ti, k, "monthname", &len)) {
+		e = k + len;
+		if (e < ti->nunit && glued(ti, e - 1, e, "-/") &&
+		    unit_val(ti, e, "monthname", &len))
+			e += len;
+		else if (unit_val(ti, e, "connector", &c) &&
+			 unit_val(ti, e + c, "monthname", &len))
+			e += c + len;
+		else
+			return 0;
+	} else
+		return 0;
+	/* the year: juni–augusti 2026 */
+	if (num_at(ti, e) && U(ti, e)->len == 4 && useg(ti, e) == useg(ti, k))
+		e++;
+	return e;
+}
+
 /* A head count at k: "5 posts", "3 Stellen", "10 postes", "x2".  Returns
  * its end (exclusive), or 0. */
 static size_t head_count(tm_title *ti, size_t k)
@@ -400,6 +427,16 @@ int pass_days(tm_title *ti)
 			    at_seg_edge(ti, k - 1, e))
 				b = k - 1;
 			if (remove_units(ti, b, e, NF_HOURS, NULL))
+				return -1;
+			k = e - 1;
+		} else if ((ti->ucats[k] & (1u << LC_UNIT)) && (e = month_phrase(ti, k))) {
+			/* a season or a term written as months, ending its
+			 * segment or the whole of a bracket */
+			size_t k0, k1;
+			seg_kept(ti, useg(ti, k), &k0, &k1);
+			if (e != k1 || last_word(ti, k, e) || useg(ti, e - 1) != useg(ti, k))
+				continue;
+			if (remove_units(ti, k, e, NF_DATE, NULL))
 				return -1;
 			k = e - 1;
 		} else if ((e = head_count(ti, k))) {
