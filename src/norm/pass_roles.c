@@ -223,8 +223,9 @@ static int employer_tail(tm_title *ti, size_t s, size_t first, int caps)
 	return remove_units(ti, best, k1, NF_EMPLOYER, NULL);
 }
 
-/* Was segment s removed whole, a place among its pieces? */
-static int removed_place(tm_title *ti, size_t s)
+/* Was segment s removed whole, a place (or, with firm set, an employer
+ * name) among its pieces? */
+static int removed_place(tm_title *ti, size_t s, int firm)
 {
 	const tm_seg *g = &ti->segs[s];
 	int place = 0;
@@ -232,7 +233,7 @@ static int removed_place(tm_title *ti, size_t s)
 		uint8_t rm = ti->rm[ti->unit[k]];
 		if (rm == RM_NONE)
 			return 0;
-		place |= rm == NF_LOCATION;
+		place |= rm == NF_LOCATION || (firm && rm == NF_EMPLOYER);
 	}
 	return place;
 }
@@ -289,10 +290,14 @@ static int place_beside_removed(tm_title *ti, size_t k0, size_t k1, int caps)
 	for (k = k0; k < k1; k++)
 		if (!name_word(ti, k, k0, caps))
 			return 0;
-	/* past brackets, the next token is a removed place or slot word */
+	/* past brackets, the next token is a removed place or slot word;
+	 * past a comma, a removed place ("Tjuvholmen, Oslo") */
 	for (t = ti->unit[k1 - 1] + 1; t < ti->tl.n && ti->tl.t[t].kind == TK_PUNCT &&
 	     (ti->tl.t[t].flags & TF_OPEN); t++)
 		;
+	if (t + 1 < ti->tl.n && ti->tl.t[t].kind == TK_PUNCT && ti->tl.t[t].ch == ',' &&
+	    ti->rm[t + 1] == NF_LOCATION)
+		return 1;
 	return t < ti->tl.n && (ti->rm[t] == NF_LOCATION || ti->rm[t] == NF_SLOT);
 }
 
@@ -385,7 +390,10 @@ int pass_roles(tm_title *ti)
 					return -1;
 				continue;
 			}
-			if (ev == EV_NONE && s == last && s > 0 && removed_place(ti, s - 1) &&
+			/* "Jönköping, Småland"; the place after the firm:
+			 * "Hotell Fjordgløtt – Geiranger" */
+			if (ev == EV_NONE && s == last && s > 0 &&
+			    removed_place(ti, s - 1, s - 1 > head) &&
 			    region_after(ti, s, k0, k1, caps)) {
 				if (remove_units(ti, k0, k1, NF_LOCATION, NULL))
 					return -1;
