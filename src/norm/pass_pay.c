@@ -654,6 +654,7 @@ int pass_schedule(tm_title *ti)
 		if (U(ti, k)->len == 1 && lead_value(ti, U(ti, k)) >= 1 &&
 		    lead_value(ti, U(ti, k)) <= SCHEDULE_COUNT_MAX && k + 1 < ti->nunit &&
 		    ukept(ti, k + 1) && useg(ti, k + 1) == useg(ti, k) &&
+		    U(ti, k + 1)->sp && ti->unit[k + 1] == ti->unit[k] + 1 &&
 		    (ti->segs[useg(ti, k)].bracket || ti->segs[useg(ti, k)].index > 0) &&
 		    match_cat(ti, k + 1, LC_SCHEDULE, 1, &len)) {
 			if (remove_units(ti, k, k + 1, NF_SCHEDULE, NULL))

@@ -296,8 +296,19 @@ static int place_beside_removed(tm_title *ti, size_t k0, size_t k1, int caps)
 	     (ti->tl.t[t].flags & TF_OPEN); t++)
 		;
 	if (t + 1 < ti->tl.n && ti->tl.t[t].kind == TK_PUNCT && ti->tl.t[t].ch == ',' &&
-	    ti->rm[t + 1] == NF_LOCATION)
+	    ti->rm[t + 1] == NF_LOCATION) {
+		/* no word that could name an occupation, even as a name
+		 * ("Shop Assistant, Graz"), no acronym in a mixed-case line
+		 * ("DBA, Frankfurt"), and not the head going on after a
+		 * bracket ("Ingeniero(a) electrónico, Bilbao") */
+		if (ti->segs[useg(ti, k0)].resumed)
+			return 0;
+		for (k = k0; k < k1; k++)
+			if (evidence_at(ti, k, 0, k0) != EV_NONE ||
+			    (!caps && (U(ti, k)->flags & TF_ALLCAPS)))
+				return 0;
 		return 1;
+	}
 	return t < ti->tl.n && (ti->rm[t] == NF_LOCATION || ti->rm[t] == NF_SLOT);
 }
 
