@@ -53,6 +53,9 @@
  * the occupation ("hybrydowo 2 dni w biurze", "2 dage om ugen"): one
  * digit, at most SCHEDULE_COUNT_MAX. */
 #define SCHEDULE_COUNT_MAX 7
+/* ... unless a schedule phrase starting at most SCHEDULE_COUNT_BACK
+ * units before it holds it ("1 in 3 weekends"). */
+#define SCHEDULE_COUNT_BACK 4
 /* The word naming shifts before a list of clock ranges ("in Schichten
  * 6-14 / 14-22") is a phrase of at most SHIFT_WORD_BACK units. */
 #define SHIFT_WORD_BACK 4

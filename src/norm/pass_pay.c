@@ -624,6 +624,21 @@ static int ends_grade_phrase(tm_title *ti, size_t k)
 	return 0;
 }
 
+/* Does a schedule phrase that starts at unit k or at most
+ * SCHEDULE_COUNT_BACK units before it, in its segment, hold it ("1 in 3
+ * weekends", "4 days a week")? */
+static int inside_phrase(tm_title *ti, size_t k)
+{
+	size_t len;
+	for (size_t b = k + 1; b-- > 0 && k - b <= SCHEDULE_COUNT_BACK;) {
+		if (useg(ti, b) != useg(ti, k))
+			break;
+		if (match_cat(ti, b, LC_SCHEDULE, 1, &len) && b + len > k)
+			return 1;
+	}
+	return 0;
+}
+
 int pass_schedule(tm_title *ti)
 {
 	size_t k, len;
@@ -656,7 +671,7 @@ int pass_schedule(tm_title *ti)
 		    ukept(ti, k + 1) && useg(ti, k + 1) == useg(ti, k) &&
 		    U(ti, k + 1)->sp && ti->unit[k + 1] == ti->unit[k] + 1 &&
 		    (ti->segs[useg(ti, k)].bracket || ti->segs[useg(ti, k)].index > 0) &&
-		    match_cat(ti, k + 1, LC_SCHEDULE, 1, &len)) {
+		    match_cat(ti, k + 1, LC_SCHEDULE, 1, &len) && !inside_phrase(ti, k)) {
 			if (remove_units(ti, k, k + 1, NF_SCHEDULE, NULL))
 				return -1;
 			continue;
