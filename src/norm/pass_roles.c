@@ -223,6 +223,29 @@ static int employer_tail(tm_title *ti, size_t s, size_t first, int caps)
 	return remove_units(ti, best, k1, NF_EMPLOYER, NULL);
 }
 
+/* In segment s: a kind of workplace ending it, right after an employer
+ * marker or a recruiting phrase that went, with occupational evidence
+ * before it: "Säljare [till vår] butik", "Kok [søges til] restaurant [i
+ * Skagen]".  The marker and the kind go. */
+static int workplace_tail(tm_title *ti, size_t s, int caps)
+{
+	size_t k0, k1, n, m, len;
+	seg_kept(ti, s, &k0, &k1);
+	if (k1 - k0 < 2 || (n = kind_ending(ti, k0, k1)) == SIZE_MAX)
+		return 0;
+	m = n;
+	for (size_t k = k0 + 1; k < n; k++)
+		if (ukept(ti, k) && match_val(ti, k, LC_EMPLOYER, "marker", 1, &len) &&
+		    k + len == n && units_free(ti, k, n))
+			m = k;
+	if (m == n && ti->rm[ti->unit[n] - 1] != NF_MARKETING)
+		return 0;
+	for (size_t k = k0; k < m; k++)
+		if (evidence_at(ti, k, !caps, k0) == EV_HEAD)
+			return remove_units(ti, m, k1, NF_EMPLOYER, NULL) ? -1 : 0;
+	return 0;
+}
+
 /* Was segment s removed whole, a place (or, with firm set, an employer
  * name) among its pieces? */
 static int removed_place(tm_title *ti, size_t s, int firm)
@@ -426,7 +449,7 @@ int pass_roles(tm_title *ti)
 				continue;
 			}
 		}
-		if (employer_tail(ti, s, first, caps))
+		if (employer_tail(ti, s, first, caps) || workplace_tail(ti, s, caps))
 			return -1;
 	}
 	return 0;
