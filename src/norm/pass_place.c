@@ -379,6 +379,17 @@ static int slots(tm_title *ti)
 	return 0;
 }
 
+/* A district named after its city (a larger place, WHERE `city`) ending
+ * the segment, "Kraków Kazimierz", "Tallinn Kristiine": one capitalised
+ * word, spaced, that no lexicon but the gazetteer knows. */
+static int district_name(tm_title *ti, size_t k, int caps)
+{
+	const tm_tok *t = U(ti, k);
+	return t->kind == TK_WORD && !(t->flags & TF_DIGIT) &&
+	       (caps || ((t->flags & TF_CAP) && !(t->flags & TF_ALLCAPS))) &&
+	       !(ti->ucats[k] & ~(1u << LC_PLACE)) && !ti->prot[ti->unit[k]];
+}
+
 /* Is the country code of len units at unit k also an occupational field
  * (occupation/, value `field`: IT, HR)? */
 static int field_code(tm_title *ti, size_t k, size_t len)
@@ -390,7 +401,7 @@ static int field_code(tm_title *ti, size_t k, size_t len)
 
 int place_segment(tm_title *ti, size_t s, int caps, int strong_ok)
 {
-	size_t k0, k1, k, len;
+	size_t k0, k1, k, len, pk = 0, plen = 0;
 	int any = 0, weak = 0, need_strong = 0, strong;
 	const char *c;
 
@@ -407,6 +418,8 @@ int place_segment(tm_title *ti, size_t s, int caps, int strong_ok)
 		} else if (place_at(ti, k, &len, &strong, &c) &&
 			   !place_acronym(ti, k, len, caps)) {
 			any = 1;
+			pk = k;
+			plen = len;
 			if (strong)
 				need_strong = 1;
 			else
@@ -429,6 +442,10 @@ int place_segment(tm_title *ti, size_t s, int caps, int strong_ok)
 			weak = 1;
 			k += len;
 		} else if (any && k + 1 == k1 && district_at(ti, k, useg(ti, k))) {
+			k++;
+		} else if (any && k + 1 == k1 && plen && pk + plen == k && U(ti, k)->sp &&
+			   ti->unit[k] == ti->unit[k - 1] + 1 && city_at(ti, pk, plen) &&
+			   district_name(ti, k, caps)) {
 			k++;
 		} else if (loc_word(ti, k, NULL, &len) ||
 			   match_val(ti, k, LC_UNIT, "connector", 1, &len)) {
