@@ -615,10 +615,147 @@ def de_adjectives(name):
     return [name + "er"]
 
 
+# ---------------------------------------------------------------------------
+# Polish, Czech and Slovak: genitive after the words for "around" and
+# "near" (w okolicy Krakowa, v okolí Prahy, v okolí Bratislavy, z okolic)
+# ---------------------------------------------------------------------------
+
+def pl_gen_noun(w):
+    low = w.lower()
+    if low.endswith("ów"):
+        return [w[:-2] + "owa"]                         # Kraków -> Krakowa
+    if low.endswith(("ice", "yce")):
+        return [w[:-1]]                                 # Katowice -> Katowic
+    if low.endswith(("ka", "ga")):
+        return [w[:-1] + "i"]                           # Nysa? no: Ełk; Praga -> Pragi
+    if low.endswith(("nia", "sia", "cia", "zia")):
+        return [w[:-1]]                                 # Gdynia -> Gdyni
+    if low.endswith(("ia", "ja")):
+        return [w[:-1] + "i"]                           # Austria -> Austrii
+    if low.endswith("la"):
+        return [w[:-1] + "i"]
+    if low.endswith("a"):
+        return [w[:-1] + "y"]                           # Warszawa -> Warszawy
+    if low.endswith(("o", "e")):
+        return [w[:-1] + "a"]                           # Opole -> Opola
+    if low.endswith("niec"):
+        return [w[:-4] + "ńca"]
+    if low.endswith("iec"):
+        return [w[:-3] + "ca"]                          # Sosnowiec
+    if low.endswith("ec"):
+        return [w[:-2] + "ca"]
+    if low.endswith("ek"):
+        return [w[:-2] + "ka"]
+    if low.endswith("ław"):
+        return [w + "ia"]                               # Wrocław -> Wrocławia
+    if low[-1:] in "ńśćź":
+        return [w[:-1] + {"ń": "nia", "ś": "sia", "ć": "cia", "ź": "zia"}[low[-1]]]
+    if low[-1:] in "aeiouyąęó":
+        return []
+    return [w + "a"]                                    # Gdańsk -> Gdańska
+
+
+def pl_gen_adj(w):
+    low = w.lower()
+    if low.endswith("a"):
+        return w[:-1] + "ej"                            # Zielona Góra
+    if low.endswith(("y", "i")):
+        return w[:-1] + ("ego" if low.endswith("y") else "iego")
+    if low.endswith("e"):
+        return w[:-1] + "ych"
+    return None
+
+
+def pl_gen_forms(name):
+    words = name.split(" ")
+    if len(words) == 1:
+        return pl_gen_noun(name)
+    if len(words) != 2:
+        return []
+    first = pl_gen_adj(words[0])
+    if first is None:
+        return []
+    return [first + " " + f for f in pl_gen_noun(words[1])]
+
+
+def cs_gen_noun(w):
+    low = w.lower()
+    if low.endswith("ice"):
+        return [w[:-1]]                                 # Budějovice -> Budějovic
+    if low.endswith("y"):
+        return [w[:-1]]                                 # Poděbrady -> Poděbrad
+    if low.endswith("a"):
+        if low[-2:-1] in "cčšžřjďťň":
+            return [w[:-1] + "e"]
+        return [w[:-1] + "y"]                           # Praha -> Prahy
+    if low.endswith("o"):
+        return [w[:-1] + "a"]                           # Brno -> Brna
+    if low.endswith("ec"):
+        return [w[:-2] + "ce"]                          # Liberec -> Liberce
+    if low.endswith("eň"):
+        return [w[:-2] + "ně"]                          # Plzeň -> Plzně
+    if low[-1:] in "aeiouyáéíóúůýě":
+        return []
+    return [w + "a", w + "u"]                           # Zlín, Tábor
+
+
+def cs_gen_adj(w, plural):
+    low = w.lower()
+    if low.endswith("á"):
+        return w[:-1] + "é"
+    if low.endswith("ý"):
+        return w[:-1] + "ého"
+    if low.endswith("é"):
+        return w[:-1] + ("ých" if plural else "ého")
+    return None
+
+
+def sk_gen_noun(w):
+    low = w.lower()
+    if low.endswith("ice"):
+        return [w[:-3] + "íc"]                          # Košice -> Košíc
+    if low.endswith("ce"):
+        return [w[:-2] + "iec"]                         # Michalovce
+    if low.endswith("any"):
+        return [w[:-1]]                                 # Piešťany -> Piešťan
+    if low.endswith("a"):
+        if low[-2:-1] in "cčšžjďťňľ":
+            return [w[:-1] + "e"]                       # Bystrica -> Bystrice
+        return [w[:-1] + "y"]                           # Bratislava -> Bratislavy
+    if low.endswith("o"):
+        return [w[:-1] + "a"]
+    if low.endswith("ok"):
+        return [w[:-2] + "ka"]                          # Pezinok -> Pezinka
+    if low[-1:] in "aeiouyáéíóúýäô":
+        return []
+    return [w + "a", w + "u"]                           # Zvolen, Poprad
+
+
+def sk_gen_adj(w, plural):
+    low = w.lower()
+    if low.endswith("á"):
+        return w[:-1] + "ej"
+    if low.endswith("ý"):
+        return w[:-1] + "ého"
+    if low.endswith("é"):
+        return w[:-1] + ("ých" if plural else "ého")
+    return None
+
+
+GENITIVE = {
+    "pl": pl_gen_forms,
+    "cs": lambda n: slavic_forms(n, cs_gen_noun, cs_gen_adj),
+    "sk": lambda n: slavic_forms(n, sk_gen_noun, sk_gen_adj),
+}
+
+
 RULES = {
-    "fi": fi_forms, "et": et_forms, "hu": hu_forms, "pl": pl_forms,
-    "cs": lambda n: slavic_forms(n, cs_noun, cs_adj),
-    "sk": lambda n: slavic_forms(n, sk_noun, sk_adj),
+    "fi": fi_forms, "et": et_forms, "hu": hu_forms,
+    "pl": lambda n: pl_forms(n) + GENITIVE["pl"](n),
+    "cs": lambda n: (slavic_forms(n, cs_noun, cs_adj) +
+                     GENITIVE["cs"](n)),
+    "sk": lambda n: (slavic_forms(n, sk_noun, sk_adj) +
+                     GENITIVE["sk"](n)),
     "sl": lambda n: slavic_forms(n, sl_noun, sl_adj),
     "hr": lambda n: slavic_forms(n, hr_noun, hr_adj),
     "lt": lt_forms, "lv": lv_forms,
@@ -862,7 +999,8 @@ def main():
         "Forms: fi inessive/adessive/allative/illative, et inessive/illative/",
         "adessive/allative, hu -ban/-on and the adjective in -i (larger",
         "places: curated.txt cldr.txt iso3166.txt),",
-        "pl cs sk sl hr locative, lt lv locative, German adjectives in -er",
+        "pl cs sk sl hr locative, pl cs sk genitive (after okolica, okolí),",
+        "lt lv locative, German adjectives in -er",
         "of the larger places in DE AT CH, el accusatives of the Greek-script",
         "names, ga eclipsed and lenited forms of the Irish names (curated.txt).",
         "WHERE: slot (after a preposition), any (a location by itself),",
