@@ -226,11 +226,20 @@ static int employer_tail(tm_title *ti, size_t s, size_t first, int caps)
 /* In segment s: a kind of workplace ending it, right after an employer
  * marker or a recruiting phrase that went, with occupational evidence
  * before it: "Säljare [till vår] butik", "Kok [søges til] restaurant [i
- * Skagen]".  The marker and the kind go. */
-static int workplace_tail(tm_title *ti, size_t s, int caps)
+ * Skagen]".  The marker and the kind go; so does a segment beside the
+ * head that is only a kind whose place went ("– stavby [v okolí Brna]"). */
+static int workplace_tail(tm_title *ti, size_t s, size_t head, int caps)
 {
 	size_t k0, k1, n, m, len;
 	seg_kept(ti, s, &k0, &k1);
+	if (k1 > k0 && is_kind(ti, k0, &len) && k0 + len == k1 &&
+	    evidence_at(ti, k0, 0, k0) == EV_NONE && ti->unit[k1 - 1] + 1 < ti->tl.n &&
+	    (ti->rm[ti->unit[k1 - 1] + 1] == NF_SLOT ||
+	     ti->rm[ti->unit[k1 - 1] + 1] == NF_LOCATION)) {
+		/* beside the occupation, a kind of workplace with its place
+		 * that went: "Zedník – stavby [v okolí Brna]" */
+		return s > head ? remove_units(ti, k0, k1, NF_EMPLOYER, NULL) : 0;
+	}
 	if (k1 - k0 < 2 || (n = kind_ending(ti, k0, k1)) == SIZE_MAX)
 		return 0;
 	m = n;
@@ -449,7 +458,7 @@ int pass_roles(tm_title *ti)
 				continue;
 			}
 		}
-		if (employer_tail(ti, s, first, caps) || workplace_tail(ti, s, caps))
+		if (employer_tail(ti, s, first, caps) || workplace_tail(ti, s, head, caps))
 			return -1;
 	}
 	return 0;
