@@ -328,6 +328,49 @@ static size_t day_phrase(tm_title *ti, size_t k, int *range)
 	return e;
 }
 
+/* Is unit k a kept year, 1900-2099? */
+static int year_at(tm_title *ti, size_t k)
+{
+	const tm_tok *t;
+	const char *p;
+	if (!num_at(ti, k))
+		return 0;
+	t = U(ti, k);
+	p = ti->text + t->off;
+	return t->len == 4 && ndigits(ti, t) == 4 &&
+	       ((p[0] == '1' && p[1] == '9') || (p[0] == '2' && p[1] == '0'));
+}
+
+/* Months: a month name with its year ("Julio 2027", "ab September
+ * 2027"; the year kept, or already removed by the date rule), or a
+ * range of months ("May–September", "de junio a septiembre", "Mai bis
+ * August 2027").  A month alone is a word ("May", "Mars") and no date.
+ * Returns the end (exclusive) of the phrase at k, or 0. */
+static size_t month_phrase(tm_title *ti, size_t k)
+{
+	size_t len, e, c;
+	int dated = 0;
+	if (!unit_val(ti, k, "monthname", &len))
+		return 0;
+	e = k + len;
+	if (e < ti->nunit && (glued(ti, e - 1, e, "-/") || U(ti, e)->sp) &&
+	    unit_val(ti, e, "monthname", &len)) {
+		e += len; /* May–September, Mai/Juni */
+		dated = 1;
+	} else if (unit_val(ti, e, "connector", &c) &&
+		   unit_val(ti, e + c, "monthname", &len)) {
+		e += c + len; /* May to September, de junio a septiembre */
+		dated = 1;
+	}
+	if (year_at(ti, e)) {
+		e++;
+		dated = 1;
+	} else if (ti->unit[e - 1] + 1 < ti->tl.n &&
+		   ti->rm[ti->unit[e - 1] + 1] == NF_DATE)
+		dated = 1;
+	return dated ? e : 0;
+}
+
 /* A head count at k: "5 posts", "3 Stellen", "10 postes", "x2".  Returns
  * its end (exclusive), or 0. */
 static size_t head_count(tm_title *ti, size_t k)
@@ -400,6 +443,13 @@ int pass_days(tm_title *ti)
 			    at_seg_edge(ti, k - 1, e))
 				b = k - 1;
 			if (remove_units(ti, b, e, NF_HOURS, NULL))
+				return -1;
+			k = e - 1;
+		} else if ((ti->ucats[k] & (1u << LC_UNIT)) && (e = month_phrase(ti, k))) {
+			/* at a segment's edge, never the title's last words */
+			if (!at_seg_edge(ti, k, e) || last_word(ti, k, e))
+				continue;
+			if (remove_units(ti, k, e, NF_DATE, NULL))
 				return -1;
 			k = e - 1;
 		} else if ((e = head_count(ti, k))) {
