@@ -68,6 +68,10 @@
  * GRADE_TAIL_MAX units ("CCNL Commercio", "CAO Gemeenten"): a longer rest
  * of the segment is not a name. */
 #define GRADE_TAIL_MAX 3
+/* The numbers of a sales area written after a slot word that opens a
+ * segment ("PLZ-Gebiet 7", "PLZ 70-79", "Gebiet 8 und 9") hold at most
+ * AREA_CODES_MAX units. */
+#define AREA_CODES_MAX 5
 
 int pass_pii(tm_title *ti);       /* contact data: URLs, e-mail, phones */
 int pass_gender(tm_title *ti);    /* markers, gendered spellings, pairs */
