@@ -49,6 +49,9 @@
 #define ROTA_HOURS_MIN 6
 #define ROTA_HOURS_MAX 12
 #define ROTA_DAYS_MAX 28
+/* The hours of rest of a work-and-rest scale ("12x36", "24x72"): at most
+ * ROTA_REST_MAX. */
+#define ROTA_REST_MAX 72
 /* The word naming shifts before a list of clock ranges ("in Schichten
  * 6-14 / 14-22") is a phrase of at most SHIFT_WORD_BACK units. */
 #define SHIFT_WORD_BACK 4

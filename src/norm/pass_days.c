@@ -377,8 +377,11 @@ static size_t head_count(tm_title *ti, size_t k)
 {
 	size_t len, e;
 	const tm_tok *t = U(ti, k);
+	/* (not glued to a number before it: "4x4" is a vehicle, "12x36" a
+	 * rota, no head count "x4") */
 	if (t->kind == TK_WORD && (t->flags & TF_DIGIT) && t->flen <= 4 &&
-	    tok_fold(&ti->tl, t)[0] == 'x' && ukept(ti, k) && !ti->prot[ti->unit[k]]) {
+	    tok_fold(&ti->tl, t)[0] == 'x' && ukept(ti, k) && !ti->prot[ti->unit[k]] &&
+	    !(k > 0 && U(ti, k - 1)->kind == TK_NUM && glued(ti, k - 1, k, ""))) {
 		for (uint32_t i = 1; i < t->flen; i++)
 			if (tok_fold(&ti->tl, t)[i] < '0' || tok_fold(&ti->tl, t)[i] > '9')
 				return 0;
