@@ -328,6 +328,19 @@ static size_t day_phrase(tm_title *ti, size_t k, int *range)
 	return e;
 }
 
+/* The value of a number token of one or two digits, or 0. */
+static unsigned lead_day(tm_title *ti, const tm_tok *t)
+{
+	const char *p = ti->text + t->off;
+	unsigned v = 0;
+	for (uint32_t i = 0; i < t->len && i < 2; i++) {
+		if (p[i] < '0' || p[i] > '9')
+			return 0;
+		v = v * 10 + (unsigned)(p[i] - '0');
+	}
+	return v;
+}
+
 /* Is unit k a kept year, 1900-2099? */
 static int year_at(tm_title *ti, size_t k)
 {
@@ -369,6 +382,27 @@ static size_t month_phrase(tm_title *ti, size_t k)
 		   ti->rm[ti->unit[e - 1] + 1] == NF_DATE)
 		dated = 1;
 	return dated ? e : 0;
+}
+
+/* The start of the date whose month is at unit k: the day written
+ * before the month ("1 augustus 2027", "1. Januar 2027"), with the one
+ * word that opens the date when it opens the segment ("Per 1 augustus
+ * 2027", "ab 1. Januar"): a connector or a pay lead of units/ and pay/. */
+static size_t month_start(tm_title *ti, size_t k)
+{
+	size_t len, k0, k1;
+	const tm_tok *t;
+	if (k == 0 || !num_at(ti, k - 1) || useg(ti, k - 1) != useg(ti, k))
+		return k;
+	t = U(ti, k - 1);
+	if (t->len > 2 || lead_day(ti, t) < 1 || lead_day(ti, t) > 31)
+		return k;
+	k--;
+	seg_kept(ti, useg(ti, k), &k0, &k1);
+	if (k == k0 + 1 && (unit_val(ti, k0, "connector", &len) ||
+			    match_val(ti, k0, LC_PAY, "lead", 1, &len)) && len == 1)
+		k = k0;
+	return k;
 }
 
 /* A head count at k: "5 posts", "3 Stellen", "10 postes", "x2".  Returns
@@ -449,10 +483,11 @@ int pass_days(tm_title *ti)
 				return -1;
 			k = e - 1;
 		} else if ((ti->ucats[k] & (1u << LC_UNIT)) && (e = month_phrase(ti, k))) {
+			size_t b = month_start(ti, k);
 			/* at a segment's edge, never the title's last words */
-			if (!at_seg_edge(ti, k, e) || last_word(ti, k, e))
+			if (!at_seg_edge(ti, b, e) || last_word(ti, b, e))
 				continue;
-			if (remove_units(ti, k, e, NF_DATE, NULL))
+			if (remove_units(ti, b, e, NF_DATE, NULL))
 				return -1;
 			k = e - 1;
 		} else if ((e = head_count(ti, k))) {
