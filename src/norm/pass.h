@@ -56,6 +56,9 @@
 /* ... unless a schedule phrase starting at most SCHEDULE_COUNT_BACK
  * units before it holds it ("1 in 3 weekends"). */
 #define SCHEDULE_COUNT_BACK 4
+/* The hours of rest of a work-and-rest scale ("12x36", "24x72"): at most
+ * ROTA_REST_MAX. */
+#define ROTA_REST_MAX 72
 /* The word naming shifts before a list of clock ranges ("in Schichten
  * 6-14 / 14-22") is a phrase of at most SHIFT_WORD_BACK units. */
 #define SHIFT_WORD_BACK 4
@@ -75,6 +78,10 @@
  * GRADE_TAIL_MAX units ("CCNL Commercio", "CAO Gemeenten"): a longer rest
  * of the segment is not a name. */
 #define GRADE_TAIL_MAX 3
+/* The numbers of a sales area written after a slot word that opens a
+ * segment ("PLZ-Gebiet 7", "PLZ 70-79", "Gebiet 8 und 9") hold at most
+ * AREA_CODES_MAX units. */
+#define AREA_CODES_MAX 5
 
 int pass_pii(tm_title *ti);       /* contact data: URLs, e-mail, phones */
 int pass_gender(tm_title *ti);    /* markers, gendered spellings, pairs */

@@ -328,31 +328,90 @@ static size_t day_phrase(tm_title *ti, size_t k, int *range)
 	return e;
 }
 
-/* Month names (units/, value `monthname`): a range of two joined by a
- * dash, a slash or a connector (lipiec–sierpień, juni og juli), or one
- * after a connector (till och med december), with the year after it.
- * Returns the end (exclusive) of the phrase starting at k, or 0. */
-static size_t month_phrase(tm_title *ti, size_t k)
+/* The value of a number token of one or two digits, or 0. */
+static unsigned lead_day(tm_title *ti, const tm_tok *t)
 {
-	size_t len, c, e;
+	const char *p = ti->text + t->off;
+	unsigned v = 0;
+	for (uint32_t i = 0; i < t->len && i < 2; i++) {
+		if (p[i] < '0' || p[i] > '9')
+			return 0;
+		v = v * 10 + (unsigned)(p[i] - '0');
+	}
+	return v;
+}
+
+/* Is unit k a kept year, 1900-2099? */
+static int year_at(tm_title *ti, size_t k)
+{
+	const tm_tok *t;
+	const char *p;
+	if (!num_at(ti, k))
+		return 0;
+	t = U(ti, k);
+	p = ti->text + t->off;
+	return t->len == 4 && ndigits(ti, t) == 4 &&
+	       ((p[0] == '1' && p[1] == '9') || (p[0] == '2' && p[1] == '0'));
+}
+
+/* Months (units/, value `monthname`): a month name with its year
+ * ("Julio 2027", "ab September 2027"; the year kept, or already removed
+ * by the date rule), or a range of months ("May–September", "de junio a
+ * septiembre", "lipiec–sierpień 2026", "Mai bis August 2027"), or a
+ * month after a connector, a term's end ("till och med december": *term
+ * set, for the caller to take only where it ends its segment).  A month
+ * alone is a word ("May", "Mars") and no date.  Returns the end
+ * (exclusive) of the phrase at k, or 0. */
+static size_t month_phrase(tm_title *ti, size_t k, int *term)
+{
+	size_t len, e, c;
+	int dated = 0;
+	*term = 0;
 	if (unit_val(ti, k, "connector", &c) && unit_val(ti, k + c, "monthname", &len)) {
 		e = k + c + len;
-	} else if (unit_val(ti, k, "monthname", &len)) {
-		e = k + len;
-		if (e < ti->nunit && glued(ti, e - 1, e, "-/") &&
-		    unit_val(ti, e, "monthname", &len))
-			e += len;
-		else if (unit_val(ti, e, "connector", &c) &&
-			 unit_val(ti, e + c, "monthname", &len))
-			e += c + len;
-		else
-			return 0;
-	} else
+		*term = 1;
+		return year_at(ti, e) ? e + 1 : e;
+	}
+	if (!unit_val(ti, k, "monthname", &len))
 		return 0;
-	/* the year: juni–augusti 2026 */
-	if (num_at(ti, e) && U(ti, e)->len == 4 && useg(ti, e) == useg(ti, k))
+	e = k + len;
+	if (e < ti->nunit && (glued(ti, e - 1, e, "-/") || U(ti, e)->sp) &&
+	    unit_val(ti, e, "monthname", &len)) {
+		e += len; /* May–September, Mai/Juni */
+		dated = 1;
+	} else if (unit_val(ti, e, "connector", &c) &&
+		   unit_val(ti, e + c, "monthname", &len)) {
+		e += c + len; /* May to September, de junio a septiembre */
+		dated = 1;
+	}
+	if (year_at(ti, e)) {
 		e++;
-	return e;
+		dated = 1;
+	} else if (ti->unit[e - 1] + 1 < ti->tl.n &&
+		   ti->rm[ti->unit[e - 1] + 1] == NF_DATE)
+		dated = 1;
+	return dated ? e : 0;
+}
+
+/* The start of the date whose month is at unit k: the day written
+ * before the month ("1 augustus 2027", "1. Januar 2027"), with the one
+ * word that opens the date when it opens the segment ("Per 1 augustus
+ * 2027", "ab 1. Januar"): a connector or a pay lead of units/ and pay/. */
+static size_t month_start(tm_title *ti, size_t k)
+{
+	size_t len, k0, k1;
+	const tm_tok *t;
+	if (k == 0 || !num_at(ti, k - 1) || useg(ti, k - 1) != useg(ti, k))
+		return k;
+	t = U(ti, k - 1);
+	if (t->len > 2 || lead_day(ti, t) < 1 || lead_day(ti, t) > 31)
+		return k;
+	k--;
+	seg_kept(ti, useg(ti, k), &k0, &k1);
+	if (k == k0 + 1 && (unit_val(ti, k0, "connector", &len) ||
+			    match_val(ti, k0, LC_PAY, "lead", 1, &len)) && len == 1)
+		k = k0;
+	return k;
 }
 
 /* A head count at k: "5 posts", "3 Stellen", "10 postes", "x2".  Returns
@@ -361,8 +420,11 @@ static size_t head_count(tm_title *ti, size_t k)
 {
 	size_t len, e;
 	const tm_tok *t = U(ti, k);
+	/* (not glued to a number before it: "4x4" is a vehicle, "12x36" a
+	 * rota, no head count "x4") */
 	if (t->kind == TK_WORD && (t->flags & TF_DIGIT) && t->flen <= 4 &&
-	    tok_fold(&ti->tl, t)[0] == 'x' && ukept(ti, k) && !ti->prot[ti->unit[k]]) {
+	    tok_fold(&ti->tl, t)[0] == 'x' && ukept(ti, k) && !ti->prot[ti->unit[k]] &&
+	    !(k > 0 && U(ti, k - 1)->kind == TK_NUM && glued(ti, k - 1, k, ""))) {
 		for (uint32_t i = 1; i < t->flen; i++)
 			if (tok_fold(&ti->tl, t)[i] < '0' || tok_fold(&ti->tl, t)[i] > '9')
 				return 0;
@@ -389,7 +451,7 @@ int pass_days(tm_title *ti)
 {
 	for (size_t k = 0; k < ti->nunit; k++) {
 		size_t e;
-		int range;
+		int range, term;
 		if (!ukept(ti, k))
 			continue;
 		/* a shift pattern before "x8" reads as a head count */
@@ -429,14 +491,14 @@ int pass_days(tm_title *ti)
 			if (remove_units(ti, b, e, NF_HOURS, NULL))
 				return -1;
 			k = e - 1;
-		} else if ((ti->ucats[k] & (1u << LC_UNIT)) && (e = month_phrase(ti, k))) {
-			/* a season or a term written as months, ending its
-			 * segment or the whole of a bracket */
-			size_t k0, k1;
+		} else if ((ti->ucats[k] & (1u << LC_UNIT)) && (e = month_phrase(ti, k, &term))) {
+			size_t b = month_start(ti, k), k0, k1;
 			seg_kept(ti, useg(ti, k), &k0, &k1);
-			if (e != k1 || last_word(ti, k, e) || useg(ti, e - 1) != useg(ti, k))
+			/* at a segment's edge (a term: ending its segment),
+			 * never the title's last words */
+			if (!at_seg_edge(ti, b, e) || (term && e != k1) || last_word(ti, b, e))
 				continue;
-			if (remove_units(ti, k, e, NF_DATE, NULL))
+			if (remove_units(ti, b, e, NF_DATE, NULL))
 				return -1;
 			k = e - 1;
 		} else if ((e = head_count(ti, k))) {

@@ -209,6 +209,19 @@ static int workplace_segments(tm_title *ti)
 
 static int occupation_within(tm_title *ti, size_t k0, size_t k1);
 
+/* Is the legal form e at unit k, right after the one word opening its
+ * segment, a word of the trade instead: of another language than the
+ * title's, after a word naming an occupation ("Programmatore PLC" with
+ * an Italian hint: the programmable logic controller, not the English
+ * public limited company)?  Under the form's own language the name
+ * stays a firm's ("Koch GmbH").  Capitals are not asked for: the clean
+ * title, read again, must keep it too. */
+static int trade_acronym(tm_title *ti, const lex_entry *e, size_t k, size_t k0)
+{
+	return ti->lang && e->lang[0] && strcmp(e->lang, ti->lang) != 0 &&
+	       k == k0 + 1 && occupation_within(ti, k0, k);
+}
+
 int pass_employer(tm_title *ti)
 {
 	size_t k, len, k0, k1;
@@ -222,11 +235,14 @@ int pass_employer(tm_title *ti)
 		size_t start, m;
 		uint32_t s;
 		const tm_seg *g;
-		if (!legal_form(ti, k, &len) && !caps_legal(ti, k, &len))
+		const lex_entry *lf = legal_form(ti, k, &len);
+		if (!lf && !caps_legal(ti, k, &len))
 			continue;
 		s = useg(ti, k);
 		g = &ti->segs[s];
 		seg_kept(ti, s, &k0, &k1);
+		if (lf && trade_acronym(ti, lf, k, k0))
+			continue;
 		if (form_before_name(ti, s, k, len, k0, k1, caps)) {
 			if (remove_units(ti, k, k1, NF_EMPLOYER, NULL))
 				return -1;

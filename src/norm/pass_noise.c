@@ -403,7 +403,8 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 	seg_kept(ti, s, &k0, &k1);
 	if (k0 < k1 && k0 > 0 && !ti->prot[ti->unit[k0]] &&
 	    match_val(ti, k0, LC_UNIT, "connector", 1, &len) && len == 1 &&
-	    ti->unit[k0] > 0 && removed_tok(ti, ti->unit[k0] - 1)) {
+	    ti->unit[k0] > 0 && removed_tok(ti, ti->unit[k0] - 1) &&
+	    ti->rm[ti->unit[k0] - 1] != NF_GENDER) { /* "/ Vendeuse [en] …" */
 		if (remove_units(ti, k0, k0 + 1, NF_MARKETING, NULL))
 			return -1;
 		*changed = 1;

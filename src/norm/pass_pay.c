@@ -530,6 +530,27 @@ static int post_share(tm_title *ti, size_t k)
 				 match_val(ti, k, LC_UNIT, "workload", 1, &len));
 }
 
+/* Is unit k, where a rota starts, beside the occupation's segment, in a
+ * bracket or right after a schedule word? */
+static int rota_context(tm_title *ti, size_t k)
+{
+	size_t len;
+	const tm_seg *g = &ti->segs[useg(ti, k)];
+	return g->bracket || g->index > 0 ||
+	       (k > 0 && ukept(ti, k - 1) && match_cat(ti, k - 1, LC_SCHEDULE, 1, &len));
+}
+
+/* Work and rest written a x b, the scales of Brazilian postings: hours
+ * on and off ("12x36", "24x48": 12 or 24 hours, then a multiple of 12
+ * up to ROTA_REST_MAX) or days on and off in a week ("6x1", "5x2",
+ * "4x3"; not "4x4", a vehicle). */
+static int work_rest(unsigned a, unsigned b)
+{
+	if ((a == 12 || a == 24) && b >= a && b <= ROTA_REST_MAX && b % 12 == 0)
+		return 1;
+	return a >= 4 && a + b == 7;
+}
+
 /* A shift pattern at unit k: shifts times hours ("3x8", "2x8h",
  * "3 × 8", "2x12": the hours ROTA_HOURS_MIN to ROTA_HOURS_MAX or 24, so
  * that "4x4" stays a vehicle) or days on and off ("4/4", "2/2", "14/14",
@@ -566,14 +587,11 @@ static size_t rotation_(tm_title *ti, size_t k)
 			e = j + 1; /* 3×8 */
 		} else if (m->kind == TK_PUNCT && m->ch == '/' && !m->sp && !U(ti, j)->sp) {
 			/* days on and off */
-			const tm_seg *g = &ti->segs[useg(ti, k)];
 			/* not a share of a post: "1/2 etatu", "3/4 Stelle" */
 			if (post_share(ti, j + 1))
 				return 0;
 			if (a < 2 || b < 2 || a > ROTA_DAYS_MAX || b > ROTA_DAYS_MAX ||
-			    !(g->bracket || g->index > 0 ||
-			      (k > 0 && ukept(ti, k - 1) &&
-			       match_cat(ti, k - 1, LC_SCHEDULE, 1, &len))))
+			    !rota_context(ti, k))
 				return 0;
 			e = j + 1;
 			if (e < ti->nunit && time_unit(ti, e, &len))
@@ -587,8 +605,11 @@ static size_t rotation_(tm_title *ti, size_t k)
 		e = j + 2;
 	} else
 		return 0;
-	if (a > ROTA_SHIFTS_MAX || !((b >= ROTA_HOURS_MIN && b <= ROTA_HOURS_MAX) || b == 24))
-		return 0;
+	if (a > ROTA_SHIFTS_MAX || !((b >= ROTA_HOURS_MIN && b <= ROTA_HOURS_MAX) || b == 24)) {
+		/* "plantão noturno 12x36", "(escala 6x1)" */
+		if (!work_rest(a, b) || !rota_context(ti, k))
+			return 0;
+	}
 	if (e < ti->nunit && ukept(ti, e) && time_unit(ti, e, &len) && glued(ti, e - 1, e, ""))
 		e += len; /* 3x8 h */
 	return e;

@@ -305,6 +305,27 @@ int place_take(tm_title *ti, size_t k, size_t e)
 	return 0;
 }
 
+/* Are the kept units [j, k1) numbers of an area, at most
+ * AREA_CODES_MAX units: numbers of at most five digits, joined by
+ * connectors ("7", "70-79", "8 und 9")? */
+static int area_codes(tm_title *ti, size_t j, size_t k1)
+{
+	size_t len, nums = 0;
+	if (j >= k1 || k1 - j > AREA_CODES_MAX)
+		return 0;
+	for (size_t m = j; m < k1; m++) {
+		const tm_tok *t = U(ti, m);
+		if (!ukept(ti, m) || ti->prot[ti->unit[m]])
+			return 0;
+		if (t->kind == TK_NUM && t->len <= 5 &&
+		    strspn(ti->text + t->off, "0123456789") == t->len)
+			nums++;
+		else if (!(match_val(ti, m, LC_UNIT, "connector", 1, &len) && len == 1))
+			return 0;
+	}
+	return nums > 0;
+}
+
 static int slots(tm_title *ti)
 {
 	size_t k, len, plen, pc;
@@ -350,6 +371,28 @@ static int slots(tm_title *ti)
 			}
 			if (linked)
 				continue;
+			/* a slot word opening a segment beside the occupation
+			 * with the numbers of an area after it: "– PLZ-Gebiet
+			 * 7", "– Gebiet 70-79" */
+			{
+				size_t s0, s1;
+				const tm_seg *g = &ti->segs[useg(ti, k)];
+				seg_kept(ti, useg(ti, k), &s0, &s1);
+				uint32_t t0 = ti->unit[g->u0];
+				/* (not after a spaced slash, the one segment
+				 * break a clean title keeps: read again, "x /
+				 * woj 22-6" would lose what the first reading,
+				 * where other breaks stood, kept) */
+				if (k == s0 && (g->index > 0 || g->bracket) &&
+				    !(t0 > 0 && ti->tl.t[t0 - 1].kind == TK_PUNCT &&
+				      ti->text[ti->tl.t[t0 - 1].off] == '/') &&
+				    loc_word(ti, k, "before", &ml) && area_codes(ti, j, s1)) {
+					if (remove_units(ti, k, s1, NF_SLOT, NULL))
+						return -1;
+					k = s1 - 1;
+					continue;
+				}
+			}
 		}
 		/* 50667 Köln */
 		if ((pc = postcode_at(ti, k)) && k + pc < ti->nunit &&

@@ -306,15 +306,17 @@ static int place_beside_removed(tm_title *ti, size_t k0, size_t k1, int caps)
 	size_t k, len, t;
 	const lex_entry *e;
 
-	if (k1 - k0 > ROLE_REGION_MAX)
-		return 0;
 	e = match_val(ti, k0, LC_LOCATION, "before", 1, &len);
-	if (e && k0 + len < k1) {
+	/* the name after the region word, at most ROLE_REGION_MAX words
+	 * ("Polígono Industrial [Las Cabezas]") */
+	if (e && k0 + len < k1 && k1 - (k0 + len) <= ROLE_REGION_MAX) {
+		size_t l2;
 		for (k = k0 + len; k < k1; k++)
 			if (!ukept(ti, k) || U(ti, k)->kind != TK_WORD ||
 			    evidence_at(ti, k, 0, k0) != EV_NONE ||
-			    (ti->ucats[k] & (1u << LC_BUSINESS)))
-				return 0;
+			    ((ti->ucats[k] & (1u << LC_BUSINESS)) &&
+			     !match_val(ti, k, LC_BUSINESS, "article", 1, &l2)))
+				return 0; /* an article opens a name: "Las Cabezas" */
 		return 1;
 	}
 	if (k1 - k0 > 2)
