@@ -61,7 +61,14 @@ const char sr_claim_script[] =
  * one HMGET and written with one HSET per thousand fields, only those
  * that changed; the merge takes the first three of both lists, each
  * once (a stored value in another order is sorted first; a single
- * candidate for a field without examples is taken as it is).  The keys of
+ * candidate for a field without examples is taken as it is).  The
+ * merge's shortcut (kept): a stored value of three examples whose 16-digit
+ * hashes rise strictly and whose third hash is below the first
+ * candidate's (the candidates come by hash, so below all of theirs) is
+ * what the merge would give back, so it is neither taken apart nor
+ * written; the memory engine keeps the same three (tally_mem.c: the
+ * three distinct texts of smallest hash).  Anything else, and equal
+ * hashes, goes through the merge.  The keys of
  * a tag expire together.  Every key but the ledger must be a hash (or
  * absent) before the first write: a script that fails half way keeps
  * what it wrote, so an examples key of another kind found after the
@@ -137,6 +144,16 @@ const char sr_apply_script[] =
 	"  end\n"
 	"  return table.concat(out, '\\30')\n"
 	"end\n"
+	"local function kept(c, e)\n"
+	"  local p = string.find(c, '\\30', 1, true)\n"
+	"  if not p or p < 17 then return false end\n"
+	"  local q = string.find(c, '\\30', p + 1, true)\n"
+	"  if not q or q < p + 17 or #c < q + 16 or string.find(c, '\\30', q + 1, true) then return false end\n"
+	"  local h = string.sub(c, q + 1, q + 16)\n"
+	"  if not (h < string.sub(e, 1, 16)) then return false end\n"
+	"  local g = string.sub(c, p + 1, p + 16)\n"
+	"  return g < h and string.sub(c, 1, 16) < g\n"
+	"end\n"
 	"local X = tonumber(ARGV[i]); i = i + 1\n"
 	"for g = 1, X do\n"
 	"  local k, m = KEYS[tonumber(ARGV[i])], tonumber(ARGV[i + 1])\n"
@@ -147,7 +164,8 @@ const char sr_apply_script[] =
 	"    for j = a, z do\n"
 	"      local c, e = cur[j - a + 1], ARGV[v + j]\n"
 	"      local w = e\n"
-	"      if c or string.find(e, '\\30', 1, true) then w = merged(c or '', e) end\n"
+	"      if c and kept(c, e) then w = c\n"
+	"      elseif c or string.find(e, '\\30', 1, true) then w = merged(c or '', e) end\n"
 	"      if w ~= c then s = s + 2; set[s - 1] = ARGV[f + j]; set[s] = w end\n"
 	"    end\n"
 	"    if s > 0 then redis.call('HSET', k, unpack(set, 1, s)) end\n"
