@@ -173,24 +173,32 @@ done:
 static int r_add(store *st, const tally_posting *p)
 {
 	rstore *r = (rstore *)st;
-	char label[PERIOD_MAX];
 	size_t n = 0;
 	long day;
 	if (!r->kind_known && kind_claim(r) != 0)
 		return -1;
 	/* the posting's period (the readers check dates; one that is no
-	 * day is refused, as in memory) */
+	 * day is refused, as in memory), worked out again only when the
+	 * date is not the last one's */
 	if (p->date && r->period != PERIOD_NONE) {
-		if (period_date(p->date, p->datelen, &day) != 0) {
-			buf_reset(&st->err);
-			buf_puts(&st->err, "bad date '");
-			buf_append(&st->err, p->date, p->datelen > 40 ? 40 : p->datelen);
-			buf_puts(&st->err, "' (want YYYY-MM-DD, a day of the calendar)");
-			return -1;
+		if (!r->datelen || p->datelen != r->datelen || memcmp(p->date, r->date, p->datelen)) {
+			if (period_date(p->date, p->datelen, &day) != 0) {
+				buf_reset(&st->err);
+				buf_puts(&st->err, "bad date '");
+				buf_append(&st->err, p->date, p->datelen > 40 ? 40 : p->datelen);
+				buf_puts(&st->err, "' (want YYYY-MM-DD, a day of the calendar)");
+				return -1;
+			}
+			r->labellen = period_label(r->period, day, r->label);
+			r->datelen = 0; /* kept only when it fits */
+			if (p->datelen <= sizeof r->date) {
+				memcpy(r->date, p->date, p->datelen);
+				r->datelen = p->datelen;
+			}
 		}
-		n = period_label(r->period, day, label);
+		n = r->labellen;
 	}
-	if (chunk_put(&r->chunk, p, label, n)) {
+	if (chunk_put(&r->chunk, p, r->label, n)) {
 		sr_err(r, "out of memory", NULL);
 		return -1;
 	}

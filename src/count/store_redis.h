@@ -57,6 +57,11 @@ typedef struct rstore {
 	/* the current chunk, in the format of chunk.h */
 	tm_buf chunk;
 	size_t nchunk;
+	/* the last date read and its period's label (a load's postings come
+	 * mostly day by day: the date is checked and labelled once per run
+	 * of equal dates); datelen 0 none */
+	char date[16], label[PERIOD_MAX];
+	size_t datelen, labellen;
 	strtab exbound;         /* per title: 1 + the largest example hash the
 				 * store can still hold, as this load knows it */
 	/* the chunks in flight (store_redis_chunk.c): at most two, one whose
