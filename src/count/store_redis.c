@@ -45,14 +45,22 @@ void sr_kerr_up(rstore *r)
 static int load_scripts(void *ctx, redisContext *c, tm_buf *err)
 {
 	rstore *r = ctx;
-	const char *src[2] = {sr_claim_script, sr_apply_script};
+	tm_buf apply = {0};
 	char *sha[2] = {r->sha_claim, r->sha_apply};
+	buf_reset(err);
+	if (buf_puts(&apply, sr_apply_script) || buf_puts(&apply, sr_apply_examples)) {
+		buf_free(&apply);
+		buf_puts(err, "out of memory");
+		return -1;
+	}
+	const char *src[2] = {sr_claim_script, apply.data};
 	for (int i = 0; i < 2; i++) {
 		const char *av[3] = {"SCRIPT", "LOAD", src[i]};
 		size_t al[3] = {6, 4, strlen(src[i])};
 		redisReply *rep = redisCommandArgv(c, 3, av, al);
 		buf_reset(err);
 		if (!rep) {
+			buf_free(&apply);
 			buf_puts(err, "lost the connection");
 			return -1;
 		}
@@ -65,10 +73,12 @@ static int load_scripts(void *ctx, redisContext *c, tm_buf *err)
 				buf_puts(err, rep->str);
 			}
 			freeReplyObject(rep);
+			buf_free(&apply);
 			return -1;
 		}
 		if (rep->type != REDIS_REPLY_STRING || rep->len != 40) {
 			freeReplyObject(rep);
+			buf_free(&apply);
 			buf_puts(err, "unexpected reply to SCRIPT LOAD");
 			return -1;
 		}
@@ -76,6 +86,7 @@ static int load_scripts(void *ctx, redisContext *c, tm_buf *err)
 		sha[i][40] = 0;
 		freeReplyObject(rep);
 	}
+	buf_free(&apply);
 	return 0;
 }
 

@@ -33,12 +33,14 @@ for t in sorted(ts, key=lambda t: (h(t), t.encode())):
     print('%016x%s' % (h(t), t))
 EOF
 check ranked-titles 40 "$(wc -l < "$tmp/ranked")"
-# post FILE RANK...: a postings file of those titles (ids apart)
+# post FILE RANK...: a postings file of those titles (ids of their own)
+files=0
 post() {
 	f=$1; shift
+	files=$((files + 1))
 	printf 'id\tlang\toccupations\ttitle\n' > "$tmp/p-$f"
 	for k in "$@"; do
-		sed -n "${k}p" "$tmp/ranked" | awk -v k="$k" -F '\t' '{ printf "%d\tde\tocc:1\t%s\n", 7000 + k, substr($0, 17) }'
+		sed -n "${k}p" "$tmp/ranked" | awk -v k="$k" -v n="$files" -F '\t' '{ printf "%d\tde\tocc:1\t%s\n", 100 * n + k, substr($0, 17) }'
 	done >> "$tmp/p-$f"
 }
 # val RANK...: the stored value of those examples, in that order
@@ -96,4 +98,35 @@ R hset "$X" "$F" "$(val 3 6 6)" > /dev/null
 post g 33
 $T tally --store "$S" "$tmp/p-g" 2> /dev/null; check twice-load 0 $?
 check twice-stored-distinct "$(val 3 6 33)" "$(R hget "$X" "$F")"
+
+# one candidate put among one, two or three stored examples: before,
+# between, after, or the same text again (STORED CANDIDATE WANT)
+n=0
+while read -r stored cand want; do
+	n=$((n + 1))
+	# shellcheck disable=SC2086
+	R hset "$X" "$F" "$(val $(echo "$stored" | tr , ' '))" > /dev/null
+	post "one$n" "$cand"
+	$T tally --store "$S" "$tmp/p-one$n" 2> /dev/null; check "one-$stored+$cand-load" 0 $?
+	# shellcheck disable=SC2086
+	check "one-$stored+$cand" "$(val $(echo "$want" | tr , ' '))" "$(R hget "$X" "$F")"
+done << 'EOF'
+5 3 3,5
+5 7 5,7
+5 5 5
+5,7 3 3,5,7
+5,7 6 5,6,7
+5,7 9 5,7,9
+5,7 7 5,7
+5,7 5 5,7
+5,7,9 3 3,5,7
+5,7,9 6 5,6,7
+5,7,9 8 5,7,8
+5,7,9 10 5,7,9
+5,7,9 9 5,7,9
+5,7,9 5 5,7,9
+7,5 9 5,7,9
+5,9,7 8 5,7,8
+EOF
+check one-cases 16 "$n"
 finish
