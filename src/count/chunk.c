@@ -103,18 +103,40 @@ const char *chunk_get_str(const char **pos, size_t *n)
 	return s;
 }
 
+/* Writes the framed string s[0..n) at d; returns the end. */
+static char *put_at(char *d, const char *s, size_t n)
+{
+	uint32_t l = (uint32_t)n;
+	memcpy(d, &l, sizeof l);
+	if (n)
+		memcpy(d + sizeof l, s, n);
+	return d + sizeof l + n;
+}
+
 int chunk_put(tm_buf *b, const tally_posting *p, const char *label, size_t n)
 {
+	/* the record's size first, so the buffer grows at most once and
+	 * each field is one copy */
 	uint32_t nocc = (uint32_t)p->nocc;
-	if (chunk_put_str(b, p->id ? p->id : "", p->id ? p->idlen : 0) ||
-	    buf_putc(b, p->id ? 1 : 0) || chunk_put_str(b, p->lang, strlen(p->lang)) ||
-	    chunk_put_str(b, p->key, p->keylen) || chunk_put_str(b, p->title, p->titlelen) ||
-	    chunk_put_str(b, p->example, p->examplelen) || chunk_put_str(b, label, n) ||
-	    buf_append(b, &nocc, sizeof nocc))
-		return -1;
+	size_t idl = p->id ? p->idlen : 0, ll = strlen(p->lang);
+	size_t need = 7 * sizeof nocc + 1 + idl + ll + p->keylen + p->titlelen + p->examplelen + n;
 	for (size_t i = 0; i < p->nocc; i++)
-		if (chunk_put_str(b, p->occ[i], p->occlen[i]))
-			return -1;
+		need += sizeof nocc + p->occlen[i];
+	if (buf_reserve(b, need + 1))
+		return -1;
+	char *d = put_at(b->data + b->len, p->id ? p->id : "", idl);
+	*d++ = p->id ? 1 : 0;
+	d = put_at(d, p->lang, ll);
+	d = put_at(d, p->key, p->keylen);
+	d = put_at(d, p->title, p->titlelen);
+	d = put_at(d, p->example, p->examplelen);
+	d = put_at(d, label, n);
+	memcpy(d, &nocc, sizeof nocc);
+	d += sizeof nocc;
+	for (size_t i = 0; i < p->nocc; i++)
+		d = put_at(d, p->occ[i], p->occlen[i]);
+	b->len += need;
+	b->data[b->len] = 0;
 	return 0;
 }
 

@@ -45,14 +45,22 @@ void sr_kerr_up(rstore *r)
 static int load_scripts(void *ctx, redisContext *c, tm_buf *err)
 {
 	rstore *r = ctx;
-	const char *src[2] = {sr_claim_script, sr_apply_script};
+	tm_buf apply = {0};
 	char *sha[2] = {r->sha_claim, r->sha_apply};
+	buf_reset(err);
+	if (buf_puts(&apply, sr_apply_script) || buf_puts(&apply, sr_apply_examples)) {
+		buf_free(&apply);
+		buf_puts(err, "out of memory");
+		return -1;
+	}
+	const char *src[2] = {sr_claim_script, apply.data};
 	for (int i = 0; i < 2; i++) {
 		const char *av[3] = {"SCRIPT", "LOAD", src[i]};
 		size_t al[3] = {6, 4, strlen(src[i])};
 		redisReply *rep = redisCommandArgv(c, 3, av, al);
 		buf_reset(err);
 		if (!rep) {
+			buf_free(&apply);
 			buf_puts(err, "lost the connection");
 			return -1;
 		}
@@ -65,10 +73,12 @@ static int load_scripts(void *ctx, redisContext *c, tm_buf *err)
 				buf_puts(err, rep->str);
 			}
 			freeReplyObject(rep);
+			buf_free(&apply);
 			return -1;
 		}
 		if (rep->type != REDIS_REPLY_STRING || rep->len != 40) {
 			freeReplyObject(rep);
+			buf_free(&apply);
 			buf_puts(err, "unexpected reply to SCRIPT LOAD");
 			return -1;
 		}
@@ -76,6 +86,7 @@ static int load_scripts(void *ctx, redisContext *c, tm_buf *err)
 		sha[i][40] = 0;
 		freeReplyObject(rep);
 	}
+	buf_free(&apply);
 	return 0;
 }
 
@@ -173,24 +184,32 @@ done:
 static int r_add(store *st, const tally_posting *p)
 {
 	rstore *r = (rstore *)st;
-	char label[PERIOD_MAX];
 	size_t n = 0;
 	long day;
 	if (!r->kind_known && kind_claim(r) != 0)
 		return -1;
 	/* the posting's period (the readers check dates; one that is no
-	 * day is refused, as in memory) */
+	 * day is refused, as in memory), worked out again only when the
+	 * date is not the last one's */
 	if (p->date && r->period != PERIOD_NONE) {
-		if (period_date(p->date, p->datelen, &day) != 0) {
-			buf_reset(&st->err);
-			buf_puts(&st->err, "bad date '");
-			buf_append(&st->err, p->date, p->datelen > 40 ? 40 : p->datelen);
-			buf_puts(&st->err, "' (want YYYY-MM-DD, a day of the calendar)");
-			return -1;
+		if (!r->datelen || p->datelen != r->datelen || memcmp(p->date, r->date, p->datelen)) {
+			if (period_date(p->date, p->datelen, &day) != 0) {
+				buf_reset(&st->err);
+				buf_puts(&st->err, "bad date '");
+				buf_append(&st->err, p->date, p->datelen > 40 ? 40 : p->datelen);
+				buf_puts(&st->err, "' (want YYYY-MM-DD, a day of the calendar)");
+				return -1;
+			}
+			r->labellen = period_label(r->period, day, r->label);
+			r->datelen = 0; /* kept only when it fits */
+			if (p->datelen <= sizeof r->date) {
+				memcpy(r->date, p->date, p->datelen);
+				r->datelen = p->datelen;
+			}
 		}
-		n = period_label(r->period, day, label);
+		n = r->labellen;
 	}
-	if (chunk_put(&r->chunk, p, label, n)) {
+	if (chunk_put(&r->chunk, p, r->label, n)) {
 		sr_err(r, "out of memory", NULL);
 		return -1;
 	}

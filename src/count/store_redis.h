@@ -57,6 +57,11 @@ typedef struct rstore {
 	/* the current chunk, in the format of chunk.h */
 	tm_buf chunk;
 	size_t nchunk;
+	/* the last date read and its period's label (a load's postings come
+	 * mostly day by day: the date is checked and labelled once per run
+	 * of equal dates); datelen 0 none */
+	char date[16], label[PERIOD_MAX];
+	size_t datelen, labellen;
 	strtab exbound;         /* per title: 1 + the largest example hash the
 				 * store can still hold, as this load knows it */
 	/* the chunks in flight (store_redis_chunk.c): at most two, one whose
@@ -82,8 +87,10 @@ redisReply *sr_cmd(rstore *r, int argc, const char **argv, const size_t *len);
  * integer reply of cmds[i] (-1 for another reply); an error reply's text
  * goes to the message after what.  Returns 0 or -1. */
 int sr_run_batch(rstore *r, rc_cmd *cmds, size_t n, long long *ints, const char *what);
-/* The scripts (store_redis_apply.c), loaded on every connection. */
-extern const char sr_claim_script[], sr_apply_script[];
+/* The scripts (store_redis_apply.c), loaded on every connection; the
+ * apply script in two parts, joined (each within the length a C string
+ * constant may portably have). */
+extern const char sr_claim_script[], sr_apply_script[], sr_apply_examples[];
 
 /* ---- store_redis_url.c ---- */
 typedef struct sr_seeds {

@@ -61,7 +61,16 @@ const char sr_claim_script[] =
  * one HMGET and written with one HSET per thousand fields, only those
  * that changed; the merge takes the first three of both lists, each
  * once (a stored value in another order is sorted first; a single
- * candidate for a field without examples is taken as it is).  The keys of
+ * candidate for a field without examples is taken as it is).  The
+ * merge's shortcut (kept): a stored value of three examples whose 16-digit
+ * hashes rise strictly and whose third hash is below the first
+ * candidate's (the candidates come by hash, so below all of theirs) is
+ * what the merge would give back, so it is neither taken apart nor
+ * written; the memory engine keeps the same three (tally_mem.c: the
+ * three distinct texts of smallest hash).  And a single candidate
+ * (one) is put in its place among one to three stored examples that are
+ * in order by slicing and joining, without the lists the merge builds.
+ * Anything else, and equal hashes, goes through the merge.  The keys of
  * a tag expire together.  Every key but the ledger must be a hash (or
  * absent) before the first write: a script that fails half way keeps
  * what it wrote, so an examples key of another kind found after the
@@ -109,6 +118,11 @@ const char sr_apply_script[] =
 	"  end\n"
 	"  i = v + m\n"
 	"end\n"
+	;
+
+/* The apply script's second part (joined to the first when loaded: one
+ * script), the examples: the merge, its shortcuts, and the writes. */
+const char sr_apply_examples[] =
 	"local function entries(s)\n"
 	"  local t, p = {}, 1\n"
 	"  while true do\n"
@@ -137,6 +151,37 @@ const char sr_apply_script[] =
 	"  end\n"
 	"  return table.concat(out, '\\30')\n"
 	"end\n"
+	"local function kept(c, e)\n"
+	"  local p = string.find(c, '\\30', 1, true)\n"
+	"  if not p or p < 17 then return false end\n"
+	"  local q = string.find(c, '\\30', p + 1, true)\n"
+	"  if not q or q < p + 17 or #c < q + 16 or string.find(c, '\\30', q + 1, true) then return false end\n"
+	"  local h = string.sub(c, q + 1, q + 16)\n"
+	"  if not (h < string.sub(e, 1, 16)) then return false end\n"
+	"  local g = string.sub(c, p + 1, p + 16)\n"
+	"  return g < h and string.sub(c, 1, 16) < g\n"
+	"end\n"
+	"local function one(c, e)\n"
+	"  local p = string.find(c, '\\30', 1, true)\n"
+	"  if not p then\n"
+	"    if c == '' then return nil elseif c < e then return c .. '\\30' .. e elseif e < c then return e .. '\\30' .. c end\n"
+	"    return c\n"
+	"  end\n"
+	"  local q = string.find(c, '\\30', p + 1, true)\n"
+	"  local a, b = string.sub(c, 1, p - 1), string.sub(c, p + 1, (q or 0) - 1)\n"
+	"  if a == '' or b == '' or not (a < b) then return nil end\n"
+	"  if not q then\n"
+	"    if e < a then return e .. '\\30' .. c elseif b < e then return c .. '\\30' .. e\n"
+	"    elseif a < e and e < b then return a .. '\\30' .. e .. '\\30' .. b end\n"
+	"    return c\n"
+	"  end\n"
+	"  local d = string.sub(c, q + 1)\n"
+	"  if d == '' or string.find(d, '\\30', 1, true) or not (b < d) then return nil end\n"
+	"  if e < a then return e .. '\\30' .. a .. '\\30' .. b\n"
+	"  elseif a < e and e < b then return a .. '\\30' .. e .. '\\30' .. b\n"
+	"  elseif b < e and e < d then return a .. '\\30' .. b .. '\\30' .. e end\n"
+	"  return c\n"
+	"end\n"
 	"local X = tonumber(ARGV[i]); i = i + 1\n"
 	"for g = 1, X do\n"
 	"  local k, m = KEYS[tonumber(ARGV[i])], tonumber(ARGV[i + 1])\n"
@@ -147,7 +192,10 @@ const char sr_apply_script[] =
 	"    for j = a, z do\n"
 	"      local c, e = cur[j - a + 1], ARGV[v + j]\n"
 	"      local w = e\n"
-	"      if c or string.find(e, '\\30', 1, true) then w = merged(c or '', e) end\n"
+	"      local many = string.find(e, '\\30', 1, true)\n"
+	"      if c then\n"
+	"        if kept(c, e) then w = c else w = (not many and e ~= '' and one(c, e)) or merged(c, e) end\n"
+	"      elseif many then w = merged('', e) end\n"
 	"      if w ~= c then s = s + 2; set[s - 1] = ARGV[f + j]; set[s] = w end\n"
 	"    end\n"
 	"    if s > 0 then redis.call('HSET', k, unpack(set, 1, s)) end\n"

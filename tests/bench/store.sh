@@ -10,7 +10,10 @@
 # of BENCH_RUNS runs (default 3); BENCH_STORE postings (default
 # 1,000,000).  BENCH_BASELINE=/path/to/titlemill (an older build) runs
 # the same loads with it, paired run by run, and prints the ratios.
-# Periods: the same file loaded by month (the default) and by day
+# A day into a full store: the last fifth of the file loaded into a
+# store that holds the rest, the server's figures of that load alone.
+# The loader's own CPU with the titles already clean (norm's output put
+# in their place).  Periods: the same file loaded by month (the default) and by day
 # against --period none, paired run by run (the ratio of the times), and
 # the server's memory (used_memory) per distinct (occupation, language,
 # key, period) it holds.
@@ -90,6 +93,77 @@ for chunk in 10000 100000; do
 				c, bms / 1000, n / (bms / 1000), bcs * 1e6 / k, bus / k, bms / ms, cs / bcs }'
 	fi
 done
+# a day's load into a store that holds the days before it: the first
+# 80 % of the file loaded, then the last 20 % (chunk 100,000), the
+# server's figures of the second load alone, per posting it counted: here
+# most titles have three examples already, and the candidates meet them
+full_a=$((N * 4 / 5))
+head -n $((full_a + 1)) "$p" > "$rd/first.tsv"
+{ head -1 "$p"; tail -n +$((full_a + 2)) "$p"; } > "$rd/last.tsv"
+# binary $1: ms, server CPU s, commandstats usec, postings counted
+full() {
+	R flushall > /dev/null
+	"$1" tally --store "unix:$rd/sock" --chunk 100000 "$rd/first.tsv" 2> /dev/null
+	R config resetstat > /dev/null
+	c0=$(cpu)
+	t0=$(now); "$1" tally --store "unix:$rd/sock" --chunk 100000 "$rd/last.tsv" 2> "$rd/err"; t1=$(now)
+	c1=$(cpu)
+	echo "$(((t1 - t0) / 1000000)) $(awk -v a="$c0" -v b="$c1" 'BEGIN { print b - a }') $(cmdusec) $(sed -n 's/.*[;:] \([0-9]*\) postings counted.*/\1/p' "$rd/err" | head -1)"
+}
+: > "$rd/this"
+: > "$rd/base"
+for i in $(seq "$runs"); do
+	full "$T" >> "$rd/this"
+	[ -z "$base" ] || full "$base" >> "$rd/base"
+done
+# medians of file $1's columns: ms, server us per posting counted,
+# scripts' us per posting counted, server CPU s
+fullmed() {
+	ms=$(awk '{ print $1 }' "$1" | median)
+	awk '{ print $2 * 1e6 / $4, $3 / $4, $2 }' "$1" > "$1.per"
+	echo "$ms $(awk '{ print $1 }' "$1.per" | median) $(awk '{ print $2 }' "$1.per" | median) $(awk '{ print $3 }' "$1.per" | median)"
+}
+set -- $(fullmed "$rd/this")
+printf 'store, a day into a full store (the last %d postings into a store of the first %d, chunk 100000): %.2f s; server CPU %.2f us per posting counted (used_cpu %.2f s), scripts %.2f us (commandstats)\n' \
+	"$((N - full_a))" "$full_a" "$(echo "$1" | awk '{ print $1 / 1000 }')" "$2" "$4" "$3"
+if [ -n "$base" ]; then
+	tu=$2
+	set -- $(fullmed "$rd/base")
+	printf '  baseline: %.2f s; server CPU %.2f us per posting counted, scripts %.2f us; this build: %.2f x the server CPU\n' \
+		"$(echo "$1" | awk '{ print $1 / 1000 }')" "$2" "$3" "$(awk -v a="$tu" -v b="$2" 'BEGIN { print a / b }')"
+fi
+
+# the loader's own CPU per posting apart from cleaning: the file with
+# its titles replaced by norm's output (the normaliser's memory answers
+# each, as it would a title it has cleaned), loaded into an emptied store
+# (chunk 100,000; user + system of the whole process, lexicons included)
+# beside the memory tally of the same file
+if [ -x /usr/bin/time ]; then
+	tc=$(head -1 "$p" | tr '\t' '\n' | grep -n -x title | cut -d: -f1)
+	tail -n +2 "$p" | cut -f "$tc" | "$T" norm 2> /dev/null > "$rd/titles"
+	{ head -1 "$p"; tail -n +2 "$p" | awk -F '\t' -v OFS='\t' -v c="$tc" -v f="$rd/titles" '{ getline t < f; $c = t; print }'; } > "$rd/clean.tsv"
+	# binary $1, store (1) or memory (0): CPU s
+	cpuof() {
+		R flushall > /dev/null
+		if [ "$2" = 1 ]; then
+			/usr/bin/time -f '%U %S' -o "$rd/time" "$1" tally --store "unix:$rd/sock" --chunk 100000 "$rd/clean.tsv" 2> /dev/null
+		else
+			/usr/bin/time -f '%U %S' -o "$rd/time" "$1" tally "$rd/clean.tsv" > /dev/null 2>&1
+		fi
+		awk '{ print $1 + $2 }' "$rd/time"
+	}
+	: > "$rd/cs"; : > "$rd/cm"; : > "$rd/bs"
+	for i in $(seq "$runs"); do
+		cpuof "$T" 1 >> "$rd/cs"
+		cpuof "$T" 0 >> "$rd/cm"
+		[ -z "$base" ] || cpuof "$base" 1 >> "$rd/bs"
+	done
+	awk -v s="$(median < "$rd/cs")" -v m="$(median < "$rd/cm")" -v n="$N" 'BEGIN {
+		printf "the loader, titles already clean: store %.2f s of CPU, %.2f us per posting; memory tally %.2f s, %.2f us\n", s, s * 1e6 / n, m, m * 1e6 / n }'
+	[ -z "$base" ] || awk -v s="$(median < "$rd/bs")" -v n="$N" 'BEGIN {
+		printf "  baseline, titles already clean: store %.2f s of CPU, %.2f us per posting\n", s, s * 1e6 / n }'
+fi
+
 # periods: one load of binary $1 by period $2 (chunk 100,000) into an
 # empty store: ms, then the server's used_memory after it
 loadp() {
