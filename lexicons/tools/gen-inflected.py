@@ -751,11 +751,9 @@ GENITIVE = {
 
 RULES = {
     "fi": fi_forms, "et": et_forms, "hu": hu_forms,
-    "pl": lambda n: pl_forms(n) + GENITIVE["pl"](n),
-    "cs": lambda n: (slavic_forms(n, cs_noun, cs_adj) +
-                     GENITIVE["cs"](n)),
-    "sk": lambda n: (slavic_forms(n, sk_noun, sk_adj) +
-                     GENITIVE["sk"](n)),
+    "pl": pl_forms,
+    "cs": lambda n: slavic_forms(n, cs_noun, cs_adj),
+    "sk": lambda n: slavic_forms(n, sk_noun, sk_adj),
     "sl": lambda n: slavic_forms(n, sl_noun, sl_adj),
     "hr": lambda n: slavic_forms(n, hr_noun, hr_adj),
     "lt": lt_forms, "lv": lv_forms,
@@ -926,7 +924,12 @@ def main():
                 continue
             if lang not in PREP_LANGS and " " in name:
                 continue
-            for form in RULES[lang](name):
+            forms = RULES[lang](name)
+            # the genitive after "around", "near" only of the larger
+            # places (a village's genitive is too often a word)
+            if lang in GENITIVE and fold_phrase(name) in larger:
+                forms = forms + GENITIVE[lang](name)
+            for form in forms:
                 key = fold_phrase(form)
                 if key == fold_phrase(name) and lang in PREP_LANGS:
                     continue            # no new form
@@ -999,7 +1002,8 @@ def main():
         "Forms: fi inessive/adessive/allative/illative, et inessive/illative/",
         "adessive/allative, hu -ban/-on and the adjective in -i (larger",
         "places: curated.txt cldr.txt iso3166.txt),",
-        "pl cs sk sl hr locative, pl cs sk genitive (after okolica, okolí),",
+        "pl cs sk sl hr locative, pl cs sk genitive of the larger places",
+        "(after okolica, okolí),",
         "lt lv locative, German adjectives in -er",
         "of the larger places in DE AT CH, el accusatives of the Greek-script",
         "names, ga eclipsed and lenited forms of the Irish names (curated.txt).",
