@@ -465,11 +465,24 @@ int pass_phrases(tm_title *ti)
 	 * in a later call: without one, they would find nothing */
 	if (ti->peeled == ti->gen && ti->settled && !HAS(ti, LC_SENIORITY))
 		return 0;
+	/* a segment peeled with nothing found at the title's present state
+	 * (gen: every removal moves it) would find nothing again: it is
+	 * skipped until something is removed (the rounds are the same) */
+	for (size_t s = 0; s < ti->nseg; s++)
+		ti->segs[s].still = 0;
 	while (changed && rounds++ < 64) {
 		changed = 0;
-		for (size_t s = 0; s < ti->nseg; s++)
-			if (peel_segment(ti, s, &changed))
+		for (size_t s = 0; s < ti->nseg; s++) {
+			int found = 0;
+			if (ti->segs[s].still == ti->gen)
+				continue;
+			if (peel_segment(ti, s, &found))
 				return -1;
+			if (found)
+				changed = 1;
+			else
+				ti->segs[s].still = ti->gen;
+		}
 	}
 	uint64_t before = ti->gen;
 	if (lone_numbers(ti))

@@ -53,6 +53,8 @@ typedef struct tm_seg {
 	uint8_t resumed;  /* the head going on after a bracket: "Koch (m/w/d) Köln" */
 	uint32_t k0, k1;
 	uint64_t gen;     /* its kept units, as of removal generation gen */
+	uint64_t still;   /* pass_phrases peeled it at generation still and
+			   * found nothing (0: not in this call) */
 } tm_seg;
 
 typedef struct tm_span {
