@@ -149,19 +149,33 @@ static int occupation_linked(tm_title *ti, size_t k0, size_t k1, int caps)
 	return 0;
 }
 
-/* Is segment s, all of it kept, units [k0, k1), a workplace kind and
+/* Is unit k a number of stars: one digit from 1 to 5 ("Hotel 4*",
+ * "hôtel 3★": the star symbol is gone by then, the "*" is no unit)? */
+static int stars_at(tm_title *ti, size_t k)
+{
+	const tm_tok *t = U(ti, k);
+	const char *p = ti->text + t->off;
+	return t->kind == TK_NUM && t->len == 1 && p[0] >= '1' && p[0] <= '5';
+}
+
+/* Is segment s, all of it kept, a workplace kind and
  * nothing else: business kind phrases (business/, value `kind`), joined
  * by connectors or "&" ("Hotel", "Centro Comercial", "Hotel &
- * Restaurant"), none of them an occupational word?  A kind that is also
+ * Restaurant"), with their stars ("hotel 5*"), none of them an
+ * occupational word?  A kind that is also
  * a field names a trade ("Verkäufer – Bäckerei"), and what a gender
  * pair left of a segment is none ("Kierownik / [Kierowniczka] sklepu"). */
-static int kind_only(tm_title *ti, size_t s, size_t k0, size_t k1)
+static int kind_only(tm_title *ti, size_t s)
 {
-	size_t k = k0, len;
+	size_t k = ti->segs[s].u0, k1 = ti->segs[s].u1, len;
 	int kinds = 0;
-	if (k0 != ti->segs[s].u0 || k1 != ti->segs[s].u1)
-		return 0;
+	/* every unit of the segment kept but the stars, which an earlier
+	 * rule may have taken as a number */
 	while (k < k1) {
+		if (stars_at(ti, k)) {
+			k++;
+			continue;
+		}
 		if (!ukept(ti, k) || ti->prot[ti->unit[k]] ||
 		    (ti->ucats[k] & (1u << LC_OCCUPATION)))
 			return 0;
@@ -195,7 +209,7 @@ static int workplace_segments(tm_title *ti)
 		seg_kept(ti, s, &k0, &k1);
 		if (k0 >= k1)
 			continue;
-		if (occupation && kind_only(ti, s, k0, k1)) {
+		if (occupation && kind_only(ti, s)) {
 			if (remove_units(ti, k0, k1, NF_EMPLOYER, NULL))
 				return -1;
 			continue;
