@@ -149,30 +149,43 @@ static int occupation_linked(tm_title *ti, size_t k0, size_t k1, int caps)
 	return 0;
 }
 
-/* Is unit k a number of stars: one digit from 1 to 5 ("Hotel 4*",
- * "hôtel 3★": the star symbol is gone by then, the "*" is no unit)? */
-static int stars_at(tm_title *ti, size_t k)
+/* The stars of a hotel at unit k: one digit from 1 to 5 ("Hotel 4*",
+ * "hôtel 3★": the star symbol is gone by then, the "*" is no unit), with
+ * the word for stars after it (units/, value `star`: "4 stelle", "5-star",
+ * "4-Sterne-Hotel").  Returns the number of units, or 0. */
+static size_t stars_at(tm_title *ti, size_t k)
 {
 	const tm_tok *t = U(ti, k);
 	const char *p = ti->text + t->off;
-	return t->kind == TK_NUM && t->len == 1 && p[0] >= '1' && p[0] <= '5';
+	size_t len;
+	if (t->kind != TK_NUM || t->len != 1 || p[0] < '1' || p[0] > '5')
+		return 0;
+	if (k + 1 < ti->nunit && useg(ti, k + 1) == useg(ti, k) &&
+	    match_val(ti, k + 1, LC_UNIT, "star", 1, &len))
+		return 1 + len;
+	return 1;
 }
 
 /* Is segment s, all of it kept, a workplace kind and
  * nothing else: business kind phrases (business/, value `kind`), joined
  * by connectors or "&" ("Hotel", "Centro Comercial", "Hotel &
- * Restaurant"), with their stars ("hotel 5*"), none of them an
- * occupational word?  A kind that is also
+ * Restaurant"), with their stars ("hotel 5*") and marketing words, none
+ * of them an occupational word?  A kind that is also
  * a field names a trade ("Verkäufer – Bäckerei"), and what a gender
  * pair left of a segment is none ("Kierownik / [Kierowniczka] sklepu"). */
 static int kind_only(tm_title *ti, size_t s)
 {
 	size_t k = ti->segs[s].u0, k1 = ti->segs[s].u1, len;
 	int kinds = 0;
-	/* every unit of the segment kept but the stars, which an earlier
-	 * rule may have taken as a number */
+	/* every unit of the segment kept, but the stars, which an earlier
+	 * rule may have taken as a number, and marketing words ("luxury",
+	 * "5-star") */
 	while (k < k1) {
-		if (stars_at(ti, k)) {
+		if ((len = stars_at(ti, k)) && k + len <= k1) {
+			k += len;
+			continue;
+		}
+		if (!ukept(ti, k) && ti->rm[ti->unit[k]] == NF_MARKETING) {
 			k++;
 			continue;
 		}
