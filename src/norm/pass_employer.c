@@ -29,10 +29,9 @@ static inline const lex_entry *legal_form(tm_title *ti, size_t k, size_t *len)
 static int roman_numeral(tm_title *ti, size_t k)
 {
 	const tm_tok *t = U(ti, k);
-	const char *p = ti->text + t->off;
 	if (t->kind != TK_WORD || !(t->flags & TF_ALLCAPS) || t->len > 4)
 		return 0;
-	return strspn(p, "IVX") >= t->len;
+	return tok_only(ti, t, "IVX");
 }
 
 /* A legal form of any language written in capitals at the end of a

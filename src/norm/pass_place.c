@@ -229,7 +229,7 @@ static size_t district_at(tm_title *ti, size_t k, size_t seg)
 	p = ti->text + t->off;
 	/* a Roman numeral in capitals: Budapest VIII., Budapest XIII */
 	if (t->kind == TK_WORD && (t->flags & TF_ALLCAPS) && t->len <= 5 &&
-	    strspn(p, "IVX") >= t->len)
+	    tok_only(ti, t, "IVX"))
 		return 1;
 	if (t->kind != TK_WORD || !(t->flags & TF_DIGIT) || !(t->flags & TF_ALLCAPS) ||
 	    t->len < 2 || t->len > 4)
@@ -318,7 +318,7 @@ static int area_codes(tm_title *ti, size_t j, size_t k1)
 		if (!ukept(ti, m) || ti->prot[ti->unit[m]])
 			return 0;
 		if (t->kind == TK_NUM && t->len <= 5 &&
-		    strspn(ti->text + t->off, "0123456789") == t->len)
+		    tok_only(ti, t, "0123456789"))
 			nums++;
 		else if (!(match_val(ti, m, LC_UNIT, "connector", 1, &len) && len == 1))
 			return 0;

@@ -287,7 +287,7 @@ static int region_after(tm_title *ti, size_t s, size_t k0, size_t k1, int caps)
 			continue;
 		if (ti->segs[s].bracket && k1 == k0 + 1 &&
 		    ((t->kind == TK_NUM && t->len <= 3 &&
-		      strspn(ti->text + t->off, "0123456789") >= t->len) ||
+		      tok_only(ti, t, "0123456789")) ||
 		     (t->kind == TK_WORD && (t->flags & TF_ALLCAPS) && t->len == 2)))
 			continue;
 		return 0;

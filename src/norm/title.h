@@ -175,6 +175,22 @@ static inline const uint32_t *title_pairs(const tm_title *ti, unsigned fl,
 
 /* Token of unit k, and shorthands. */
 static inline tm_tok *U(const tm_title *ti, size_t k) { return &ti->tl.t[ti->unit[k]]; }
+
+/* Are all the bytes of token t among the ASCII bytes of set?  (The
+ * prepared text is not cut after a token, and what follows its last
+ * token may be an earlier line's: never strspn past a token.) */
+static inline int tok_only(const tm_title *ti, const tm_tok *t, const char *set)
+{
+	const char *p = ti->text + t->off;
+	for (uint32_t i = 0; i < t->len; i++) {
+		const char *q = set;
+		while (*q && *q != p[i])
+			q++;
+		if (!*q)
+			return 0;
+	}
+	return 1;
+}
 static inline int ukept(const tm_title *ti, size_t k)
 {
 	return ti->rm[ti->unit[k]] == RM_NONE;
