@@ -328,19 +328,6 @@ static size_t day_phrase(tm_title *ti, size_t k, int *range)
 	return e;
 }
 
-/* The value of a number token of one or two digits, or 0. */
-static unsigned lead_day(tm_title *ti, const tm_tok *t)
-{
-	const char *p = ti->text + t->off;
-	unsigned v = 0;
-	for (uint32_t i = 0; i < t->len && i < 2; i++) {
-		if (p[i] < '0' || p[i] > '9')
-			return 0;
-		v = v * 10 + (unsigned)(p[i] - '0');
-	}
-	return v;
-}
-
 /* Is unit k a kept year, 1900-2099? */
 static int year_at(tm_title *ti, size_t k)
 {
@@ -404,7 +391,8 @@ static size_t month_start(tm_title *ti, size_t k)
 	if (k == 0 || !num_at(ti, k - 1) || useg(ti, k - 1) != useg(ti, k))
 		return k;
 	t = U(ti, k - 1);
-	if (t->len > 2 || lead_day(ti, t) < 1 || lead_day(ti, t) > 31)
+	if (t->len > 2 || !tok_only(ti, t, "0123456789") || lead_value(ti, t) < 1 ||
+	    lead_value(ti, t) > 31)
 		return k;
 	k--;
 	seg_kept(ti, useg(ti, k), &k0, &k1);

@@ -23,17 +23,6 @@ static inline const lex_entry *legal_form(tm_title *ti, size_t k, size_t *len)
 	return e;
 }
 
-/* Is the word of unit k a Roman numeral in capitals (I, II, IV, XII):
- * a rung of a career ladder ("Nurse II"), which folds like a legal form
- * of some language (Lithuanian IĮ folds to "ii")? */
-static int roman_numeral(tm_title *ti, size_t k)
-{
-	const tm_tok *t = U(ti, k);
-	if (t->kind != TK_WORD || !(t->flags & TF_ALLCAPS) || t->len > 4)
-		return 0;
-	return tok_only(ti, t, "IVX");
-}
-
 /* A legal form of any language written in capitals at the end of a
  * segment, after a capitalised name: Norrsvalk Krog AB, Mirandol SAS. */
 static int caps_legal(tm_title *ti, size_t k, size_t *len)
@@ -41,7 +30,7 @@ static int caps_legal(tm_title *ti, size_t k, size_t *len)
 	size_t k0, k1;
 	const lex_entry *e;
 	if (!(U(ti, k)->flags & TF_ALLCAPS) || k == 0 || !cap_word(ti, k - 1) ||
-	    !ukept(ti, k - 1) || roman_numeral(ti, k))
+	    !ukept(ti, k - 1) || roman_caps(ti, k, 4))
 		return 0;
 	ti->any_lang = 1;
 	e = legal_form(ti, k, len);

@@ -228,8 +228,7 @@ static size_t district_at(tm_title *ti, size_t k, size_t seg)
 	t = U(ti, k);
 	p = ti->text + t->off;
 	/* a Roman numeral in capitals: Budapest VIII., Budapest XIII */
-	if (t->kind == TK_WORD && (t->flags & TF_ALLCAPS) && t->len <= 5 &&
-	    tok_only(ti, t, "IVX"))
+	if (roman_caps(ti, k, 5))
 		return 1;
 	if (t->kind != TK_WORD || !(t->flags & TF_DIGIT) || !(t->flags & TF_ALLCAPS) ||
 	    t->len < 2 || t->len > 4)

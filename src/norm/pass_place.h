@@ -15,6 +15,16 @@ static inline int cap_word(const tm_title *ti, size_t k)
 	return (U(ti, k)->flags & (TF_CAP | TF_ALLCAPS)) != 0;
 }
 
+/* Is the word of unit k a Roman numeral in capitals of at most max
+ * letters (II, VIII): a rung of a career ladder ("Nurse II") or a
+ * city's district ("Budapest VIII.")? */
+static inline int roman_caps(const tm_title *ti, size_t k, uint32_t max)
+{
+	const tm_tok *t = U(ti, k);
+	return t->kind == TK_WORD && (t->flags & TF_ALLCAPS) && t->len <= max &&
+	       tok_only(ti, t, "IVX");
+}
+
 /* A place starting at unit k: 1 with its length in units, whether it
  * needs a strong slot (an ordinary word too), whether it is a location by
  * itself (a case form: Helsingissä) and its country (NULL when none);
