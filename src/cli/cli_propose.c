@@ -180,6 +180,11 @@ int cmd_propose(int argc, char **argv)
 				continue;
 			write_sugg(&r, &l.v[i], &in.m, &in.ls, &scratch);
 		}
+		if (l.joined)
+			fprintf(stderr,
+				"titlemill propose: %zu titles not proposed: each only joins "
+				"labels of its occupation (its names in two languages)\n",
+				l.joined);
 	} else
 		r.failed = 1;
 	if (r.failed) {

@@ -77,6 +77,8 @@ typedef struct ranker {
 	uint32_t *labtrip; /* per label: the triple of its occupation, language
 			    * and key, index + 1, or 0 */
 	strtab nlang;    /* lang -> postings */
+	strtab occkeys;  /* occ 1F key of every label, whatever its language */
+	tm_buf part;     /* scratch: occ 1F a part of a title's key */
 	propose_list *out;
 	size_t outcap;
 } ranker;
@@ -477,6 +479,69 @@ static const label *variant_of(const ranker *c, const trip *t, const char **how)
 	return var;
 }
 
+/* Is part [a, b) of a key a label of occupation occ: 0 none, 1 of its
+ * language lang, 2 of another language only; -1 memory. */
+static int label_part(ranker *c, const char *occ, size_t ol, const char *lang,
+		      const char *p, size_t n)
+{
+	tm_buf *b = &c->part;
+	buf_reset(b);
+	if (buf_append(b, occ, ol) || buf_putc(b, '\x1F') || buf_append(b, p, n))
+		return -1;
+	if (st_find(&c->occkeys, b->data, b->len) < 0)
+		return 0;
+	buf_reset(b);
+	if (buf_append(b, occ, ol) || buf_putc(b, '\x1F') || buf_puts(b, lang) ||
+	    buf_putc(b, '\x1F') || buf_append(b, p, n))
+		return -1;
+	return st_find(&c->ls->index, b->data, b->len) >= 0 ? 1 : 2;
+}
+
+/* Does the key of t only join labels of its own occupation, whole words
+ * each, one of them at least a label of another language only?  A
+ * posting written in two languages ("Chemiker/in - Chemist", "Maurer |
+ * Bricklayer") names its occupation by names the taxonomy already has:
+ * proposing "chemiker chemist" as a new label would ask the curator to
+ * add both again.  Two names of one language stay proposed
+ * ("boulanger-patissier" beside Boulanger and Patissier is a title of
+ * its own), and so does a key that is one label of another language
+ * ("sales manager" in German postings beside the English label).  Keys
+ * of more than PROPOSE_JOIN_WORDS words are not tried: the test is
+ * quadratic in words, so it is bounded by that constant.  1 joins, 0
+ * not, -1 memory. */
+static int joins_labels(ranker *c, const trip *t)
+{
+	size_t start[PROPOSE_JOIN_WORDS + 1], nw = 0;
+	/* per word boundary: 1 reached by labels of the language, 2 with
+	 * one of another language among them (both bits may be set) */
+	unsigned char reach[PROPOSE_JOIN_WORDS + 1] = {1};
+	const char *lang = c->grp[t->grp].lang;
+
+	for (size_t i = 0; i < t->kl; i++)
+		if (i == 0 || t->key[i - 1] == ' ') {
+			if (nw == PROPOSE_JOIN_WORDS)
+				return 0;
+			start[nw++] = i;
+		}
+	if (nw < 2)
+		return 0;
+	start[nw] = t->kl + 1; /* one past the end, as if a space followed */
+	for (size_t b = 1; b <= nw; b++)
+		for (size_t a = 0; a < b && !(reach[b] & 2); a++) {
+			if (!reach[a] || (a == 0 && b == nw))
+				continue;
+			int k = label_part(c, t->occ, t->ol, lang, t->key + start[a],
+					   start[b] - 1 - start[a]);
+			if (k < 0)
+				return -1;
+			if (k == 1)
+				reach[b] |= reach[a];
+			else if (k == 2)
+				reach[b] |= 2;
+		}
+	return (reach[nw] & 2) != 0;
+}
+
 /* new_alt_label and new_hidden_label: the counted titles that are none
  * of their occupation's labels. */
 static int rank_titles(ranker *c)
@@ -552,6 +617,13 @@ static int rank_titles(ranker *c)
 			if (t->k < bar->min_postings || lo < bar->min_share ||
 			    prec < bar->min_precision || s.g2 <= bar->min_g2)
 				continue;
+			int joins = joins_labels(c, t);
+			if (joins < 0)
+				return -1;
+			if (joins) {
+				c->out->joined++;
+				continue;
+			}
 			s.kind = PROPOSE_ALT;
 			s.score = s.g2;
 		}
@@ -664,6 +736,14 @@ int propose_run(tally_mem *m, const labelset *ls, const propose_bars *b,
 	c.labwide = malloc(ls->n + 1);
 	if (!c.labtrip || !c.labsig || !c.labwide || labkeys_build(&c.lk, ls) != 0)
 		goto done;
+	for (size_t q = 0; q < ls->n; q++) {
+		const label *lb = &ls->v[q];
+		buf_reset(&j);
+		if (buf_append(&j, lab_str(ls, lb->occ), lb->occlen) || buf_putc(&j, '\x1F') ||
+		    buf_append(&j, lab_str(ls, lb->key), lb->keylen) ||
+		    st_add(&c.occkeys, j.data, j.len, 0, NULL) < 0)
+			goto done;
+	}
 	for (size_t q = 0; q < c.lk.n; q++) {
 		const label *lb = &ls->v[c.lk.v[q].lab];
 		c.labsig[q] = variant_sig(lab_str(ls, lb->key), lb->keylen);
@@ -711,6 +791,8 @@ done:
 	free(c.labwide);
 	labkeys_free(&c.lk);
 	st_free(&c.nlang);
+	st_free(&c.occkeys);
+	buf_free(&c.part);
 	buf_free(&j);
 	return rc;
 }

@@ -103,6 +103,9 @@ typedef struct propose_list {
 	propose_sugg *v;  /* by kind, then score (highest first), occupation,
 			   * language, key */
 	size_t n;
+	size_t joined;    /* titles past new_alt_label's bars that only join
+			   * labels of their occupation (two languages'
+			   * names of it, "maurer bricklayer"): not proposed */
 } propose_list;
 
 /* Ranks the suggestions of m and ls passing bars b (filtered by f, which
@@ -114,11 +117,16 @@ typedef struct propose_list {
  * compact ids over the (language, key)s, the labels met in key order
  * beside each occupation's triples), plus, for each title that is none
  * of its labels, a cheap test against each label of its occupation and
- * language. */
+ * language, and for each title past new_alt_label's bars at most
+ * PROPOSE_JOIN_WORDS^2 lookups of its parts among the labels (is it a
+ * join of them?). */
 int propose_run(tally_mem *m, const labelset *ls, const propose_bars *b,
 		const propose_filter *f, propose_list *out);
 
 void propose_list_free(propose_list *l);
+
+/* The most words of a key that is tried as a join of labels. */
+#define PROPOSE_JOIN_WORDS 16
 
 /* The word lengths (code points) for variants one and two edits apart. */
 #define PROPOSE_TYPO_MIN 6

@@ -356,6 +356,54 @@ static void test_hidden(void **state)
 	labels_free(&ls);
 }
 
+/* A title that only joins labels of its occupation, one of them of
+ * another language only, is its names in two languages, not a new label
+ * (PROPOSE_JOIN_WORDS).  German postings of occ:7, labels Maurer (de),
+ * Bricklayer (en), Polier and Vorarbeiter (de); occ:8 has the German
+ * label Fliesenleger.  Proposed: maurer polier (two German names: a title
+ * of its own), bricklayer alone (one label of another language: evidence
+ * of its own), maurer fliesenleger (a label of another occupation), maurer
+ * bricklayer helfer (a word no label has).  Not proposed: maurer
+ * bricklayer, bricklayer maurer, polier vorarbeiter bricklayer. */
+static void test_joined(void **state)
+{
+	(void)state;
+	labelset ls;
+	tally_mem m;
+	propose_bars b;
+	propose_list l;
+
+	read_labels(&ls, "occupation\tkind\tlang\tlabel\n"
+			 "occ:7\tpref\tde\tMaurer\n"
+			 "occ:7\tpref\ten\tBricklayer\n"
+			 "occ:7\talt\tde\tPolier\n"
+			 "occ:7\talt\tde\tVorarbeiter\n"
+			 "occ:8\tpref\tde\tFliesenleger\n");
+	tm_init(&m);
+	form_in(&m, "occ:7", "maurer", 400);
+	form_in(&m, "occ:7", "maurer bricklayer", 60);
+	form_in(&m, "occ:7", "bricklayer maurer", 40);
+	form_in(&m, "occ:7", "polier vorarbeiter bricklayer", 30);
+	form_in(&m, "occ:7", "maurer polier", 50);
+	form_in(&m, "occ:7", "bricklayer", 45);
+	form_in(&m, "occ:7", "maurer fliesenleger", 35);
+	form_in(&m, "occ:7", "maurer bricklayer helfer", 25);
+	form_in(&m, "occ:8", "fliesenleger", 300);
+	propose_bars_default(&b);
+	assert_int_equal(propose_run(&m, &ls, &b, NULL, &l), 0);
+	assert_null(find(&l, PROPOSE_ALT, "occ:7", "maurer bricklayer"));
+	assert_null(find(&l, PROPOSE_ALT, "occ:7", "bricklayer maurer"));
+	assert_null(find(&l, PROPOSE_ALT, "occ:7", "polier vorarbeiter bricklayer"));
+	assert_int_equal(l.joined, 3);
+	assert_non_null(find(&l, PROPOSE_ALT, "occ:7", "maurer polier"));
+	assert_non_null(find(&l, PROPOSE_ALT, "occ:7", "bricklayer"));
+	assert_non_null(find(&l, PROPOSE_ALT, "occ:7", "maurer fliesenleger"));
+	assert_non_null(find(&l, PROPOSE_ALT, "occ:7", "maurer bricklayer helfer"));
+	propose_list_free(&l);
+	tm_free(&m);
+	labels_free(&ls);
+}
+
 /* Variants of labels whose words are all under PROPOSE_TYPO_MIN code
  * points (the ranker tries those for spacing alone): occ:5's label koch
  * hilfe is written kochhilfe and koch-hilfe (spacing variants), koch
@@ -571,6 +619,7 @@ int main(void)
 		cmocka_unit_test(test_propose),
 		cmocka_unit_test(test_hidden),
 		cmocka_unit_test(test_hidden_narrow),
+		cmocka_unit_test(test_joined),
 		cmocka_unit_test(test_pref),
 		cmocka_unit_test(test_variant),
 		cmocka_unit_test(test_as_written),
