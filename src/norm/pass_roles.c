@@ -392,6 +392,17 @@ static int employer_verb(tm_title *ti, int caps)
 	return 0;
 }
 
+/* Is segment s, kept from unit k0, the head going on after a bracket
+ * with a link word that joins it to the head's last noun: "Gestor(a) de
+ * Conta", "Técnico(a) da Manutenção"?  Such a segment is part of the
+ * occupation, never an employer or a place of its own. */
+static int head_going_on(tm_title *ti, size_t s, size_t head, size_t k0)
+{
+	size_t len;
+	return ti->segs[s].resumed && s > head && ti->segs[head].index == 0 &&
+	       match_val(ti, k0, LC_UNIT, "link", 1, &len) != NULL;
+}
+
 int pass_roles(tm_title *ti)
 {
 	size_t s, head = SIZE_MAX, first = SIZE_MAX, last, k0, k1;
@@ -428,7 +439,7 @@ int pass_roles(tm_title *ti)
 		seg_kept(ti, s, &k0, &k1);
 		if (k0 >= k1)
 			continue;
-		if (s != head && (s > head || evidence)) {
+		if (s != head && (s > head || evidence) && !head_going_on(ti, s, head, k0)) {
 			int ev = seg_evidence(ti, s, !caps);
 			if (ev == EV_NONE && s > head && subdivision_bracket(ti, s, k0, k1)) {
 				if (remove_units(ti, k0, k1, NF_LOCATION, NULL))
