@@ -82,8 +82,13 @@ static int evidence_at(tm_title *ti, size_t k, int names, size_t names_from)
 		ev = EV_FIELD;
 	else
 		return EV_NONE;
-	if (ev == EV_HEAD && (ti->ucats[k] & (1u << LC_BUSINESS)) && is_kind(ti, k, &len))
-		ev = EV_FIELD;
+	/* a kind phrase at least as long as the occupation's: "Care Home";
+	 * a longer occupation holds the kind: "Farm Hand" */
+	if (ev == EV_HEAD && (ti->ucats[k] & (1u << LC_BUSINESS)) && is_kind(ti, k, &len)) {
+		size_t hl;
+		if (!(match_val(ti, k, LC_OCCUPATION, "head", 1, &hl) && hl > len))
+			ev = EV_FIELD;
+	}
 	return ev;
 }
 
