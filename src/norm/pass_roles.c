@@ -367,6 +367,27 @@ static int subdivision_bracket(tm_title *ti, size_t s, size_t k0, size_t k1)
 	return t->kind == TK_NUM || (t->flags & TF_ALLCAPS);
 }
 
+/* Is the kept part of a segment beside the head, units [k0, k1), a town
+ * with the code of its state glued after a slash, the way Brazilian
+ * boards write it ("Campinas/SP", "Belo Horizonte/MG")?  At most
+ * ROLE_REGION_MAX capitalised words with no occupational evidence, then
+ * a subdivision code in capitals.  The gazetteer need not know the
+ * town. */
+static int town_slash_subdivision(tm_title *ti, size_t k0, size_t k1)
+{
+	size_t len, k;
+
+	if (k1 < k0 + 2 || k1 - k0 - 1 > ROLE_REGION_MAX ||
+	    !match_val(ti, k1 - 1, LC_LOCATION, "subdivision", 1, &len) || len != 1 ||
+	    !(U(ti, k1 - 1)->flags & TF_ALLCAPS) || !glued(ti, k1 - 2, k1 - 1, "/"))
+		return 0;
+	for (k = k0; k + 1 < k1; k++)
+		if (!ukept(ti, k) || !(U(ti, k)->flags & TF_CAP) ||
+		    evidence_at(ti, k, 0, k0) != EV_NONE)
+			return 0;
+	return 1;
+}
+
 /* The employer named before a verb that says it recruits, at the start
  * of the title: "Talvero Systems sucht Lagerist", "Pellworth Retail is
  * hiring: Dentist", "Groupe Vervial recrute …" (employer/, value
@@ -446,7 +467,9 @@ int pass_roles(tm_title *ti)
 			continue;
 		if (s != head && (s > head || evidence) && !head_going_on(ti, s, head, k0)) {
 			int ev = seg_evidence(ti, s, !caps);
-			if (ev == EV_NONE && s > head && subdivision_bracket(ti, s, k0, k1)) {
+			/* the code may be a field too: "PR" */
+			if (s > head && ((ev == EV_NONE && subdivision_bracket(ti, s, k0, k1)) ||
+					 (ev != EV_HEAD && town_slash_subdivision(ti, k0, k1)))) {
 				if (remove_units(ti, k0, k1, NF_LOCATION, NULL))
 					return -1;
 				continue;
