@@ -229,9 +229,10 @@ static int employer_tail(tm_title *ti, size_t s, size_t first, int caps)
 }
 
 /* In segment s: a kind of workplace ending it, right after an employer
- * marker or a recruiting phrase that went, with occupational evidence
- * before it: "Säljare [till vår] butik", "Kok [søges til] restaurant [i
- * Skagen]".  The marker and the kind go; so does a segment beside the
+ * marker or a recruiting phrase that went, or inside a marker phrase that
+ * ends it, with occupational evidence before it: "Säljare [till vår]
+ * butik", "Kok [søges til] restaurant [i Skagen]", "Cocinero para el
+ * restaurante".  The marker and the kind go; so does a segment beside the
  * head that is only a kind whose place went ("– stavby [v okolí Brna]"). */
 static int workplace_tail(tm_title *ti, size_t s, size_t head, int caps)
 {
@@ -245,15 +246,32 @@ static int workplace_tail(tm_title *ti, size_t s, size_t head, int caps)
 		 * that went: "Zedník – stavby [v okolí Brna]" */
 		return s > head ? remove_units(ti, k0, k1, NF_EMPLOYER, NULL) : 0;
 	}
-	if (k1 - k0 < 2 || (n = kind_ending(ti, k0, k1)) == SIZE_MAX)
+	if (k1 - k0 < 2)
 		return 0;
+	n = kind_ending(ti, k0, k1);
 	m = n;
-	for (size_t k = k0 + 1; k < n; k++)
-		if (ukept(ti, k) && match_val(ti, k, LC_EMPLOYER, "marker", 1, &len) &&
-		    k + len == n && units_free(ti, k, n))
-			m = k;
-	if (m == n && ti->rm[ti->unit[n] - 1] != NF_MARKETING)
-		return 0;
+	if (n != SIZE_MAX)
+		for (size_t k = k0 + 1; k < n; k++)
+			if (ukept(ti, k) && match_val(ti, k, LC_EMPLOYER, "marker", 1, &len) &&
+			    k + len == n && units_free(ti, k, n))
+				m = k;
+	if (n == SIZE_MAX || (m == n && ti->rm[ti->unit[n] - 1] != NF_MARKETING)) {
+		/* a marker phrase that holds the kind ends the segment, with
+		 * an article or a possessive ("Cocinero [para el
+		 * restaurante]", "Serveur [dans notre restaurant]") or with
+		 * its place gone after it ("Cocinero [para restaurante] en
+		 * Ibiza"); "Μάγειρας για ξενοδοχείο" alone stays */
+		int gone = ti->unit[k1 - 1] + 1 < ti->tl.n &&
+			   (ti->rm[ti->unit[k1 - 1] + 1] == NF_SLOT ||
+			    ti->rm[ti->unit[k1 - 1] + 1] == NF_LOCATION);
+		for (m = k1 > k0 + ROLE_KIND_BACK ? k1 - ROLE_KIND_BACK : k0 + 1; m < k1; m++)
+			if (ukept(ti, m) && match_val(ti, m, LC_EMPLOYER, "marker", 1, &len) &&
+			    m + len == k1 && (len > 2 || (len == 2 && gone)) &&
+			    is_kind(ti, k1 - 1, &len) && units_free(ti, m, k1))
+				break;
+		if (m == k1)
+			return 0;
+	}
 	for (size_t k = k0; k < m; k++)
 		if (evidence_at(ti, k, !caps, k0) == EV_HEAD)
 			return remove_units(ti, m, k1, NF_EMPLOYER, NULL) ? -1 : 0;
