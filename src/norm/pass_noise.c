@@ -181,7 +181,9 @@ static int channel(tm_title *ti, size_t k0, size_t k1)
  * segment beside the occupation (not the head, nor the head going on
  * after a bracket) of at most NEED_SEG_MAX units that a requirement
  * phrase (units/, value `need`: "required", "erforderlich", "apprécié",
- * "imprescindible", "gewenst") opens or ends, no word of it protected;
+ * "imprescindible", "gewenst") ends, or opens when no word after it
+ * names an occupation ("Se valora inglés", not "Approved Electrician"),
+ * no word of it protected;
  * the title keeps a word elsewhere.  What is required is no part of
  * the occupation, even when it names one ("– Driver Essential",
  * "– Cariste CACES 1 apprécié").  Returns 1 when it removed them, 0,
@@ -193,8 +195,15 @@ static int need_segment(tm_title *ti, size_t s, size_t k0, size_t k1)
 
 	if (ti->segs[s].index == 0 || k1 - k0 > NEED_SEG_MAX)
 		return 0;
-	if (ukept(ti, k0) && match_val(ti, k0, LC_UNIT, "need", 1, &len) && k0 + len <= k1)
+	/* opening it, only where no word names an occupation: "Approved
+	 * Electrician" is a grade of the trade */
+	if (ukept(ti, k0) && match_val(ti, k0, LC_UNIT, "need", 1, &len) && k0 + len <= k1 &&
+	    !head_within(ti, k0 + len, k1)) {
 		need = 1;
+		for (k = k0 + len; k < k1; k++)
+			if (ti->uend[k])
+				need = 0; /* an occupational ending: "Electrician" */
+	}
 	for (k = k1 - k0 > NEED_WORDS_MAX ? k1 - NEED_WORDS_MAX : k0; !need && k < k1; k++)
 		if (ukept(ti, k) && match_val(ti, k, LC_UNIT, "need", 1, &len) && k + len == k1)
 			need = 1;
