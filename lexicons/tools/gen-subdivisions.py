@@ -7,7 +7,9 @@ subdivisions that job boards write in brackets after a title, from ISO
 - Italian provinces, metropolitan cities and their like: two capitals
   (`(TO)`, `(MI)`), `it?`;
 - French departments, metropolitan and overseas: two digits, `2A`, `2B`,
-  `971`-`976` (`(69)`, `(2A)`), `fr?`.
+  `971`-`976` (`(69)`, `(2A)`), `fr?`;
+- Brazilian states: two capitals, also glued after the town with a slash
+  (`(SP)`, `Campinas/SP`), `pt?`.
 
 Each is ambiguous (`?`): it applies only when the title is known to be in
 that language.  Run:  python3 lexicons/tools/gen-subdivisions.py
@@ -21,6 +23,7 @@ SRC = "/usr/share/iso-codes/json/iso_3166-2.json"
 RULES = [
     ("IT", "it", re.compile(r"^[A-Z]{2}$")),
     ("FR", "fr", re.compile(r"^(?:[0-9]{2}|2A|2B|97[1-6])$")),
+    ("BR", "pt", re.compile(r"^[A-Z]{2}$")),
 ]
 
 

@@ -38,7 +38,7 @@ static const char *const v_location[] = {"prep", "before", "after",
 static const char *const v_unit[] = {"hours", "week", "month", "year", "day", "contact",
 				     "workload", "fte",
 				     "connector", "degree", "weekday", "monthname", "post", "star",
-				     "channel", "with", "work", "link", NULL};
+				     "channel", "with", "work", "link", "need", NULL};
 static const char *const v_occupation[] = {"head", "suffix", "field", NULL};
 static const char *const v_business[] = {"kind", "legal", "article", NULL};
 static const char *const v_none[] = {"-", NULL};

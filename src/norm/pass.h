@@ -30,6 +30,17 @@
  * occupation ("befristet für [2 Jahre]", "contrat de [3 mois]") go with
  * it when they are at most DURATION_LEAD_MAX. */
 #define DURATION_LEAD_MAX 2
+/* A segment beside the occupation that a requirement word opens or
+ * ends ("– CSCS card required", "– Führerschein erforderlich",
+ * "(JIB Approved)") names what the applicant must bring and goes whole
+ * when it holds at most NEED_SEG_MAX kept units; the requirement phrase
+ * ending it is looked for at most NEED_WORDS_MAX units back. */
+#define NEED_SEG_MAX 6
+#define NEED_WORDS_MAX 3
+/* A British outward code alone ("Leicester LE1") is a postcode only
+ * right after a place phrase, which starts at most POSTCODE_PLACE_BACK
+ * units before it. */
+#define POSTCODE_PLACE_BACK 4
 /* A pay word written before an amount ("Day Rate £180", "KV-Lohn
  * € 2.100") is looked for at most PAY_WORD_BACK units before it. */
 #define PAY_WORD_BACK 3

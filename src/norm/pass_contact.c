@@ -287,8 +287,22 @@ __attribute__((always_inline)) static inline int is_date(const tm_title *ti, con
 	       (p[1] == '.' || p[2] == '.') && p[n - 4] == '2' && p[n - 3] == '0';
 }
 
-/* A year or date at a segment edge (Ausbildung 2026, Saison 2025/26)
- * is removed; returns 1 when it was.  A number with a currency beside it
+/* Is unit k a kept number of one or two digits from 1 to max (a day or
+ * a month written before a year)? */
+static int day_or_month(tm_title *ti, size_t k, int max)
+{
+	const tm_tok *t = U(ti, k);
+	const char *p = ti->text + t->off;
+	int v;
+	if (!ukept(ti, k) || t->kind != TK_NUM || t->len > 2 || ndigits(ti, t) != t->len)
+		return 0;
+	v = t->len == 2 ? (p[0] - '0') * 10 + (p[1] - '0') : p[0] - '0';
+	return v >= 1 && v <= max;
+}
+
+/* A year or date at a segment edge (Ausbildung 2026, Saison 2025/26,
+ * the day and month before it: 14/01/2027, 03/2027) is removed; returns 1 when
+ * it was.  A number with a currency beside it
  * is an amount ("2027 € brutto", "1966 kroner"), left to the pay rule. */
 int noise_date_at_edge(tm_title *ti, size_t k)
 {
@@ -307,10 +321,22 @@ int noise_date_at_edge(tm_title *ti, size_t k)
 		    U(ti, e)->len == 2)
 			e++;
 	}
+	/* dd/mm/yyyy, d-m-yyyy: the day and the month glued before the year;
+	 * mm/yyyy: the month alone */
+	size_t b = k;
+	if (U(ti, k)->len == 4 && k >= 2 && glued(ti, k - 1, k, "/-") &&
+	    glued(ti, k - 2, k - 1, "/-") && day_or_month(ti, k - 1, 12) &&
+	    day_or_month(ti, k - 2, 31) && !ti->prot[ti->unit[k - 2]] &&
+	    !ti->prot[ti->unit[k - 1]])
+		b = k - 2;
+	else if (U(ti, k)->len == 4 && k >= 1 && glued(ti, k - 1, k, "/") &&
+		 day_or_month(ti, k - 1, 12) && !ti->prot[ti->unit[k - 1]] &&
+		 !(k >= 2 && glued(ti, k - 2, k - 1, "/-.")))
+		b = k - 1; /* mm/yyyy: 03/2027 */
 	seg_kept(ti, useg(ti, k), &k0, &k1);
-	if (k != k0 && e != k1)
+	if (b != k0 && e != k1)
 		return 0;
-	return remove_units(ti, k, e, NF_DATE, NULL) == 0;
+	return remove_units(ti, b, e, NF_DATE, NULL) == 0;
 }
 
 /* Is units [k0, e] a code written in capitals, "SS844", "HR-2231",

@@ -177,6 +177,44 @@ static int channel(tm_title *ti, size_t k0, size_t k1)
 	return 0;
 }
 
+/* Units [k0, k1), the kept words of segment s, are a requirement: a
+ * segment beside the occupation (not the head, nor the head going on
+ * after a bracket) of at most NEED_SEG_MAX units that a requirement
+ * phrase (units/, value `need`: "required", "erforderlich", "apprécié",
+ * "imprescindible", "gewenst") ends, or opens when no word after it
+ * names an occupation ("Se valora inglés", not "Approved Electrician"),
+ * no word of it protected;
+ * the title keeps a word elsewhere.  What is required is no part of
+ * the occupation, even when it names one ("– Driver Essential",
+ * "– Cariste CACES 1 apprécié").  Returns 1 when it removed them, 0,
+ * or -1 (memory). */
+static int need_segment(tm_title *ti, size_t s, size_t k0, size_t k1)
+{
+	size_t len, k;
+	int need = 0;
+
+	if (ti->segs[s].index == 0 || k1 - k0 > NEED_SEG_MAX)
+		return 0;
+	/* opening it, only where no word names an occupation: "Approved
+	 * Electrician" is a grade of the trade */
+	if (ukept(ti, k0) && match_val(ti, k0, LC_UNIT, "need", 1, &len) && k0 + len <= k1 &&
+	    !head_within(ti, k0 + len, k1)) {
+		need = 1;
+		for (k = k0 + len; k < k1; k++)
+			if (ti->uend[k])
+				need = 0; /* an occupational ending: "Electrician" */
+	}
+	for (k = k1 - k0 > NEED_WORDS_MAX ? k1 - NEED_WORDS_MAX : k0; !need && k < k1; k++)
+		if (ukept(ti, k) && match_val(ti, k, LC_UNIT, "need", 1, &len) && k + len == k1)
+			need = 1;
+	if (!need || !kept_elsewhere(ti, k0, k1))
+		return 0;
+	for (k = k0; k < k1; k++)
+		if (ti->prot[ti->unit[k]])
+			return 0;
+	return remove_units(ti, k0, k1, NF_MARKETING, NULL) ? -1 : 1;
+}
+
 /* Are units [k0, k1) kept words with nothing occupational (no word of
  * occupation/, no protected phrase), all in one run? */
 static int lead_words(tm_title *ti, size_t k0, size_t k1)
@@ -457,6 +495,9 @@ int pass_phrases(tm_title *ti)
 			size_t k0, k1;
 			seg_kept(ti, s, &k0, &k1);
 			if (k0 < k1 && channel(ti, k0, k1) < 0)
+				return -1;
+			seg_kept(ti, s, &k0, &k1);
+			if (k0 < k1 && need_segment(ti, s, k0, k1) < 0)
 				return -1;
 		}
 	/* nothing removed since the last call's rounds found nothing, and

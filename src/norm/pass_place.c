@@ -118,6 +118,33 @@ static inline size_t postcode_at(tm_title *ti, size_t k)
 	return ti->lflags & LF_NUM ? postcode_at_(ti, k) : 0;
 }
 
+/* Is token t a British outward code: one or two capitals, a digit, then
+ * a digit or a capital or nothing ("LE1", "BS16", "EC2A", "M1")? */
+static int uk_outward(const tm_title *ti, const tm_tok *t)
+{
+	const char *p = ti->text + t->off;
+	uint32_t i = 0;
+	while (i < t->len && i < 2 && p[i] >= 'A' && p[i] <= 'Z')
+		i++;
+	if (i == 0 || i >= t->len || p[i] < '0' || p[i] > '9')
+		return 0;
+	i++;
+	if (i < t->len && ((p[i] >= '0' && p[i] <= '9') || (p[i] >= 'A' && p[i] <= 'Z')))
+		i++;
+	return i == t->len;
+}
+
+/* Does a kept place phrase end right before unit k (starting at most
+ * POSTCODE_PLACE_BACK units before it)? */
+static int place_ends_at(tm_title *ti, size_t k)
+{
+	size_t len;
+	for (size_t j = k; j-- > 0 && k - j <= POSTCODE_PLACE_BACK;)
+		if (ukept(ti, j) && match_cat(ti, j, LC_PLACE, 1, &len) && j + len == k)
+			return 1;
+	return 0;
+}
+
 static size_t postcode_at_(tm_title *ti, size_t k)
 {
 	int d;
@@ -149,6 +176,11 @@ static size_t postcode_at_(tm_title *ti, size_t k)
 		    num_digits(ti, k + 1) == 1 && glued(ti, k + 1, k + 2, "") &&
 		    letters_only(ti, k + 2, 2, 2))
 			return 3;
+		/* the outward code alone, written right after a place:
+		 * "Leicester LE1", "Bristol BS16", "London EC2A" */
+		if (t->kind == TK_WORD && (t->flags & TF_ALLCAPS) && uk_outward(ti, t) &&
+		    place_ends_at(ti, k))
+			return 1;
 	}
 	return 0;
 }

@@ -82,8 +82,13 @@ static int evidence_at(tm_title *ti, size_t k, int names, size_t names_from)
 		ev = EV_FIELD;
 	else
 		return EV_NONE;
-	if (ev == EV_HEAD && (ti->ucats[k] & (1u << LC_BUSINESS)) && is_kind(ti, k, &len))
-		ev = EV_FIELD;
+	/* a kind phrase at least as long as the occupation's: "Care Home";
+	 * a longer occupation holds the kind: "Farm Hand" */
+	if (ev == EV_HEAD && (ti->ucats[k] & (1u << LC_BUSINESS)) && is_kind(ti, k, &len)) {
+		size_t hl;
+		if (!(match_val(ti, k, LC_OCCUPATION, "head", 1, &hl) && hl > len))
+			ev = EV_FIELD;
+	}
 	return ev;
 }
 
@@ -224,9 +229,10 @@ static int employer_tail(tm_title *ti, size_t s, size_t first, int caps)
 }
 
 /* In segment s: a kind of workplace ending it, right after an employer
- * marker or a recruiting phrase that went, with occupational evidence
- * before it: "Säljare [till vår] butik", "Kok [søges til] restaurant [i
- * Skagen]".  The marker and the kind go; so does a segment beside the
+ * marker or a recruiting phrase that went, or inside a marker phrase that
+ * ends it, with occupational evidence before it: "Säljare [till vår]
+ * butik", "Kok [søges til] restaurant [i Skagen]", "Cocinero para el
+ * restaurante".  The marker and the kind go; so does a segment beside the
  * head that is only a kind whose place went ("– stavby [v okolí Brna]"). */
 static int workplace_tail(tm_title *ti, size_t s, size_t head, int caps)
 {
@@ -240,15 +246,32 @@ static int workplace_tail(tm_title *ti, size_t s, size_t head, int caps)
 		 * that went: "Zedník – stavby [v okolí Brna]" */
 		return s > head ? remove_units(ti, k0, k1, NF_EMPLOYER, NULL) : 0;
 	}
-	if (k1 - k0 < 2 || (n = kind_ending(ti, k0, k1)) == SIZE_MAX)
+	if (k1 - k0 < 2)
 		return 0;
+	n = kind_ending(ti, k0, k1);
 	m = n;
-	for (size_t k = k0 + 1; k < n; k++)
-		if (ukept(ti, k) && match_val(ti, k, LC_EMPLOYER, "marker", 1, &len) &&
-		    k + len == n && units_free(ti, k, n))
-			m = k;
-	if (m == n && ti->rm[ti->unit[n] - 1] != NF_MARKETING)
-		return 0;
+	if (n != SIZE_MAX)
+		for (size_t k = k0 + 1; k < n; k++)
+			if (ukept(ti, k) && match_val(ti, k, LC_EMPLOYER, "marker", 1, &len) &&
+			    k + len == n && units_free(ti, k, n))
+				m = k;
+	if (n == SIZE_MAX || (m == n && ti->rm[ti->unit[n] - 1] != NF_MARKETING)) {
+		/* a marker phrase that holds the kind ends the segment, with
+		 * an article or a possessive ("Cocinero [para el
+		 * restaurante]", "Serveur [dans notre restaurant]") or with
+		 * its place gone after it ("Cocinero [para restaurante] en
+		 * Ibiza"); "Μάγειρας για ξενοδοχείο" alone stays */
+		int gone = ti->unit[k1 - 1] + 1 < ti->tl.n &&
+			   (ti->rm[ti->unit[k1 - 1] + 1] == NF_SLOT ||
+			    ti->rm[ti->unit[k1 - 1] + 1] == NF_LOCATION);
+		for (m = k1 > k0 + ROLE_KIND_BACK ? k1 - ROLE_KIND_BACK : k0 + 1; m < k1; m++)
+			if (ukept(ti, m) && match_val(ti, m, LC_EMPLOYER, "marker", 1, &len) &&
+			    m + len == k1 && (len > 2 || (len == 2 && gone)) &&
+			    is_kind(ti, k1 - 1, &len) && units_free(ti, m, k1))
+				break;
+		if (m == k1)
+			return 0;
+	}
 	for (size_t k = k0; k < m; k++)
 		if (evidence_at(ti, k, !caps, k0) == EV_HEAD)
 			return remove_units(ti, m, k1, NF_EMPLOYER, NULL) ? -1 : 0;
@@ -362,6 +385,27 @@ static int subdivision_bracket(tm_title *ti, size_t s, size_t k0, size_t k1)
 	return t->kind == TK_NUM || (t->flags & TF_ALLCAPS);
 }
 
+/* Is the kept part of a segment beside the head, units [k0, k1), a town
+ * with the code of its state glued after a slash, the way Brazilian
+ * boards write it ("Campinas/SP", "Belo Horizonte/MG")?  At most
+ * ROLE_REGION_MAX capitalised words with no occupational evidence, then
+ * a subdivision code in capitals.  The gazetteer need not know the
+ * town. */
+static int town_slash_subdivision(tm_title *ti, size_t k0, size_t k1)
+{
+	size_t len, k;
+
+	if (k1 < k0 + 2 || k1 - k0 - 1 > ROLE_REGION_MAX ||
+	    !match_val(ti, k1 - 1, LC_LOCATION, "subdivision", 1, &len) || len != 1 ||
+	    !(U(ti, k1 - 1)->flags & TF_ALLCAPS) || !glued(ti, k1 - 2, k1 - 1, "/"))
+		return 0;
+	for (k = k0; k + 1 < k1; k++)
+		if (!ukept(ti, k) || !(U(ti, k)->flags & TF_CAP) ||
+		    evidence_at(ti, k, 0, k0) != EV_NONE)
+			return 0;
+	return 1;
+}
+
 /* The employer named before a verb that says it recruits, at the start
  * of the title: "Talvero Systems sucht Lagerist", "Pellworth Retail is
  * hiring: Dentist", "Groupe Vervial recrute …" (employer/, value
@@ -390,6 +434,17 @@ static int employer_verb(tm_title *ti, int caps)
 		if (evidence_at(ti, k, 0, k0) == EV_HEAD)
 			return remove_units(ti, k0, v + len, NF_EMPLOYER, NULL) ? -1 : 1;
 	return 0;
+}
+
+/* Is segment s, kept from unit k0, the head going on after a bracket
+ * with a link word that joins it to the head's last noun: "Gestor(a) de
+ * Conta", "Técnico(a) da Manutenção"?  Such a segment is part of the
+ * occupation, never an employer or a place of its own. */
+static int head_going_on(tm_title *ti, size_t s, size_t head, size_t k0)
+{
+	size_t len;
+	return ti->segs[s].resumed && s > head && ti->segs[head].index == 0 &&
+	       match_val(ti, k0, LC_UNIT, "link", 1, &len) != NULL;
 }
 
 int pass_roles(tm_title *ti)
@@ -428,9 +483,11 @@ int pass_roles(tm_title *ti)
 		seg_kept(ti, s, &k0, &k1);
 		if (k0 >= k1)
 			continue;
-		if (s != head && (s > head || evidence)) {
+		if (s != head && (s > head || evidence) && !head_going_on(ti, s, head, k0)) {
 			int ev = seg_evidence(ti, s, !caps);
-			if (ev == EV_NONE && s > head && subdivision_bracket(ti, s, k0, k1)) {
+			/* the code may be a field too: "PR" */
+			if (s > head && ((ev == EV_NONE && subdivision_bracket(ti, s, k0, k1)) ||
+					 (ev != EV_HEAD && town_slash_subdivision(ti, k0, k1)))) {
 				if (remove_units(ti, k0, k1, NF_LOCATION, NULL))
 					return -1;
 				continue;
