@@ -19,6 +19,16 @@ static int time_unit(tm_title *ti, size_t k, size_t *len)
 
 /* An amount: [currency] number [k] [currency].  Returns its end unit
  * (exclusive) or 0. */
+/* Between units a (a number) and b: only ",-" glued to the number, the
+ * mark of a whole amount ("38.000,- Kč", "5000,-")? */
+static int whole_mark(tm_title *ti, size_t a, size_t b)
+{
+	uint32_t t = ti->unit[a] + 1;
+	return U(ti, a)->kind == TK_NUM && ti->unit[b] == t + 2 &&
+	       tok_is(ti, t, ',') && tok_is(ti, t + 1, '-') && !ti->tl.t[t].sp &&
+	       !ti->tl.t[t + 1].sp;
+}
+
 size_t noise_amount(tm_title *ti, size_t k, int *cur, int *unit)
 {
 	size_t len;
@@ -40,8 +50,10 @@ size_t noise_amount(tm_title *ti, size_t k, int *cur, int *unit)
 		k += len;
 	}
 	/* a currency after the number, with nothing but a space between
-	 * ("£6.00-£8.00": the second "£" opens the range's other end) */
-	if (k < ti->nunit && ukept(ti, k) && ti->unit[k] == ti->unit[k - 1] + 1 &&
+	 * ("£6.00-£8.00": the second "£" opens the range's other end), or
+	 * the mark of a whole amount glued to the number ("38.000,- Kč") */
+	if (k < ti->nunit && ukept(ti, k) &&
+	    (ti->unit[k] == ti->unit[k - 1] + 1 || whole_mark(ti, k - 1, k)) &&
 	    is_currency(ti, k, &len)) {
 		*cur = 1;
 		k += len;
