@@ -542,6 +542,18 @@ static int post_share(tm_title *ti, size_t k)
 				 match_val(ti, k, LC_UNIT, "workload", 1, &len));
 }
 
+/* Is unit k a share of one post written as a fraction: "0,6", "0.75",
+ * "1,0", "1"? */
+static int post_fraction(tm_title *ti, size_t k)
+{
+	const tm_tok *t = U(ti, k);
+	const char *p = ti->text + t->off;
+	if (t->len == 1)
+		return p[0] == '1';
+	return t->len >= 3 && t->len <= 4 && (p[0] == '0' || p[0] == '1') &&
+	       (p[1] == ',' || p[1] == '.') && (p[0] == '0' || p[2] == '0');
+}
+
 /* Is unit k, where a rota starts, beside the occupation's segment, in a
  * bracket or right after a schedule word? */
 static int rota_context(tm_title *ti, size_t k)
@@ -697,14 +709,16 @@ int pass_schedule(tm_title *ti)
 			k = e - 1;
 			continue;
 		}
-		/* a count of days before a schedule phrase, beside the
-		 * occupation: "hybrydowo 2 dni w biurze" */
+		/* a count of days before a schedule phrase, or of weeks
+		 * before a perk, beside the occupation: "hybrydowo 2 dni w
+		 * biurze", "4 týdny dovolené" */
 		if (U(ti, k)->len == 1 && lead_value(ti, U(ti, k)) >= 1 &&
 		    lead_value(ti, U(ti, k)) <= SCHEDULE_COUNT_MAX && k + 1 < ti->nunit &&
 		    ukept(ti, k + 1) && useg(ti, k + 1) == useg(ti, k) &&
 		    U(ti, k + 1)->sp && ti->unit[k + 1] == ti->unit[k] + 1 &&
 		    (ti->segs[useg(ti, k)].bracket || ti->segs[useg(ti, k)].index > 0) &&
-		    match_cat(ti, k + 1, LC_SCHEDULE, 1, &len) && !inside_phrase(ti, k)) {
+		    (match_cat(ti, k + 1, LC_SCHEDULE, 1, &len) ||
+		     match_cat(ti, k + 1, LC_MARKETING, 1, &len)) && !inside_phrase(ti, k)) {
 			if (remove_units(ti, k, k + 1, NF_SCHEDULE, NULL))
 				return -1;
 			continue;
@@ -734,6 +748,14 @@ int pass_schedule(tm_title *ti)
 			if (remove_units(ti, k - 1, e, NF_WORKLOAD, NULL))
 				return -1;
 			k = e - 1;
+			continue;
+		}
+		/* the share of a post after its word, no sign: "úvazek 0,6" */
+		if (k > 0 && ukept(ti, k - 1) && useg(ti, k - 1) == useg(ti, k) &&
+		    match_val(ti, k - 1, LC_UNIT, "workload", 1, &len) && len == 1 &&
+		    post_fraction(ti, k)) {
+			if (remove_units(ti, k - 1, k + 1, NF_WORKLOAD, NULL))
+				return -1;
 			continue;
 		}
 		if (j < ti->nunit && U(ti, j)->kind == TK_SYM && U(ti, j)->ch == '%') {
