@@ -134,11 +134,15 @@ static size_t pay_remarks(tm_title *ti, size_t e)
 	return e;
 }
 
-/* Are units e - 1 and e set apart by one "/" and nothing else (spaces
+/* Are units e - 1 and e set apart by one "/" and nothing else but the
+ * dot of an abbreviation before it ("kr./t.") (spaces
  * allowed: "18 € / Std.", where the spaced slash also ends a segment)? */
 static int slash_between(const tm_title *ti, size_t e)
 {
-	return ti->unit[e] == ti->unit[e - 1] + 2 && tok_is(ti, ti->unit[e - 1] + 1, '/');
+	uint32_t t = ti->unit[e - 1] + 1;
+	if (ti->unit[e] == t + 2 && tok_is(ti, t, '.') && !ti->tl.t[t].sp)
+		t++; /* the dot of an abbreviation first: "kr./t." */
+	return ti->unit[e] == t + 1 && tok_is(ti, t, '/');
 }
 
 /* The unit of an amount written after a slash, at unit e: a pay unit or a
@@ -152,7 +156,7 @@ static size_t slash_unit(tm_title *ti, size_t e, int cur)
 	if (!slash_between(ti, e) || x->kind != TK_WORD)
 		return 0;
 	if (useg(ti, e) == useg(ti, e - 1) && cur && x->flen == 1 &&
-	    glued(ti, e - 1, e, "/"))
+	    glued(ti, e - 1, e, "./")) /* kr/t, kr./t. */
 		return 1;
 	if (!match_val(ti, e, LC_PAY, "unit", 1, &len) && !time_unit(ti, e, &len))
 		return 0;
@@ -763,6 +767,12 @@ int pass_schedule(tm_title *ti)
 			if (k > 0 && ukept(ti, k - 1) &&
 			    match_val(ti, k - 1, LC_UNIT, "workload", 1, &l2) && l2 == 1)
 				b = k - 1;
+			/* or after it, ending the segment: "80 % työaika" */
+			else if (j + 1 < ti->nunit && ukept(ti, j + 1) &&
+				 useg(ti, j + 1) == useg(ti, k) &&
+				 match_val(ti, j + 1, LC_UNIT, "workload", 1, &l2) &&
+				 (j + 1 + l2 == ti->nunit || useg(ti, j + 1 + l2) != useg(ti, k)))
+				j += l2;
 			if (remove_units(ti, b, j + 1, NF_WORKLOAD, NULL))
 				return -1;
 			k = j;
