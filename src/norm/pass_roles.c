@@ -175,28 +175,6 @@ static int employer_segment(tm_title *ti, size_t k0, size_t k1, int ev,
 	       k0 + len < k1 && cap_word(ti, k0 + len, caps);
 }
 
-/* Does [k0, k1) hold a kept capitalised word? */
-static int capital_within(tm_title *ti, size_t k0, size_t k1)
-{
-	for (size_t k = k0; k < k1; k++)
-		if (ukept(ti, k) && cap_word(ti, k, 0))
-			return 1;
-	return 0;
-}
-
-/* Does [k0, k1), after a business kind, name one workplace: a
- * capitalised word or a number ("w Szkole Podstawowej nr 12")?  In a
- * line that writes names with capitals, a kind with only words in
- * lower case after it is the kind of workplace, part of the occupation
- * ("Nauczyciel w szkole podstawowej"). */
-static int named(tm_title *ti, size_t k0, size_t k1)
-{
-	for (size_t k = k0; k < k1; k++)
-		if (ukept(ti, k) && U(ti, k)->kind == TK_NUM)
-			return 1;
-	return capital_within(ti, k0, k1);
-}
-
 /* Does [k0, k1) hold a kept `field` word?  Before a kind ending the
  * segment, it names what is taught or done, so the preposition before
  * it opens no firm's name ("Učitel matematiky [a] fyziky pro ZŠ": the
@@ -213,7 +191,7 @@ static int field_within(tm_title *ti, size_t k0, size_t k1)
  * with an employer name after it and no occupational evidence up to the
  * segment's end; removed from there on.  first: the title's first kept
  * unit. */
-static int employer_tail(tm_title *ti, size_t s, size_t first, int caps, int uncased)
+static int employer_tail(tm_title *ti, size_t s, size_t first, int caps)
 {
 	size_t k0, k1, k, len, best = SIZE_MAX, kind_end;
 	int legal_after = 0;
@@ -246,7 +224,7 @@ static int employer_tail(tm_title *ti, size_t s, size_t first, int caps, int unc
 				continue;
 			n = j + l2;
 		}
-		if ((is_kind(ti, n, &l2) && n + l2 < k1 && (uncased || named(ti, n + l2, k1))) ||
+		if ((is_kind(ti, n, &l2) && n + l2 < k1) ||
 		    (kind_end != SIZE_MAX && kind_end > n && !field_within(ti, n, kind_end)) ||
 		    legal_after ||
 		    (marker && (cap_word(ti, n, caps) ||
@@ -431,8 +409,6 @@ int pass_roles(tm_title *ti)
 {
 	size_t s, head = SIZE_MAX, first = SIZE_MAX, last, k0, k1;
 	int caps = all_caps_line(ti), evidence = 0;
-	/* no case to tell a name by: in capitals, or no capital at all */
-	int uncased = caps || !capital_within(ti, 0, ti->nunit);
 
 	if (HAS(ti, LC_EMPLOYER) && employer_verb(ti, caps) < 0)
 		return -1;
@@ -497,7 +473,7 @@ int pass_roles(tm_title *ti)
 				continue;
 			}
 		}
-		if (employer_tail(ti, s, first, caps, uncased) || workplace_tail(ti, s, head, caps))
+		if (employer_tail(ti, s, first, caps) || workplace_tail(ti, s, head, caps))
 			return -1;
 	}
 	return 0;
