@@ -380,8 +380,9 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 		break;
 	}
 	/* a noun for the work itself left before the remote, schedule or
-	 * workload phrase that said how it is done: "Lucru [100% remote]",
-	 * "Programator lucru [100% remote]"; opening its segment or right
+	 * workload phrase or the hours that said how it is done: "Lucru
+	 * [100% remote]", "Programator lucru [100% remote]", "program [8
+	 * ore]"; opening its segment or right
 	 * after a word naming the occupation ("Social Work [Part-time]"
 	 * keeps it) */
 	seg_kept(ti, s, &k0, &k1);
@@ -389,7 +390,8 @@ static int peel_segment(tm_title *ti, size_t s, int *changed)
 		/* one word: the token after it removed as the phrase */
 		size_t t1 = ti->unit[k] + 1;
 		if (U(ti, k)->kind != TK_WORD || !removed_tok(ti, t1) ||
-		    (ti->rm[t1] != NF_SCHEDULE && ti->rm[t1] != NF_WORKLOAD) ||
+		    (ti->rm[t1] != NF_SCHEDULE && ti->rm[t1] != NF_WORKLOAD &&
+		     ti->rm[t1] != NF_HOURS) ||
 		    !match_val(ti, k, LC_UNIT, "work", 1, &len) || len != 1 ||
 		    !units_free(ti, k, k + 1))
 			continue;

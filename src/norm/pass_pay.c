@@ -19,6 +19,16 @@ static int time_unit(tm_title *ti, size_t k, size_t *len)
 
 /* An amount: [currency] number [k] [currency].  Returns its end unit
  * (exclusive) or 0. */
+/* Between units a (a number) and b: only ",-" glued to the number, the
+ * mark of a whole amount ("38.000,- Kč", "5000,-")? */
+static int whole_mark(tm_title *ti, size_t a, size_t b)
+{
+	uint32_t t = ti->unit[a] + 1;
+	return U(ti, a)->kind == TK_NUM && ti->unit[b] == t + 2 &&
+	       tok_is(ti, t, ',') && tok_is(ti, t + 1, '-') && !ti->tl.t[t].sp &&
+	       !ti->tl.t[t + 1].sp;
+}
+
 size_t noise_amount(tm_title *ti, size_t k, int *cur, int *unit)
 {
 	size_t len;
@@ -40,8 +50,10 @@ size_t noise_amount(tm_title *ti, size_t k, int *cur, int *unit)
 		k += len;
 	}
 	/* a currency after the number, with nothing but a space between
-	 * ("£6.00-£8.00": the second "£" opens the range's other end) */
-	if (k < ti->nunit && ukept(ti, k) && ti->unit[k] == ti->unit[k - 1] + 1 &&
+	 * ("£6.00-£8.00": the second "£" opens the range's other end), or
+	 * the mark of a whole amount glued to the number ("38.000,- Kč") */
+	if (k < ti->nunit && ukept(ti, k) &&
+	    (ti->unit[k] == ti->unit[k - 1] + 1 || whole_mark(ti, k - 1, k)) &&
 	    is_currency(ti, k, &len)) {
 		*cur = 1;
 		k += len;
@@ -122,11 +134,15 @@ static size_t pay_remarks(tm_title *ti, size_t e)
 	return e;
 }
 
-/* Are units e - 1 and e set apart by one "/" and nothing else (spaces
+/* Are units e - 1 and e set apart by one "/" and nothing else but the
+ * dot of an abbreviation before it ("kr./t.") (spaces
  * allowed: "18 € / Std.", where the spaced slash also ends a segment)? */
 static int slash_between(const tm_title *ti, size_t e)
 {
-	return ti->unit[e] == ti->unit[e - 1] + 2 && tok_is(ti, ti->unit[e - 1] + 1, '/');
+	uint32_t t = ti->unit[e - 1] + 1;
+	if (ti->unit[e] == t + 2 && tok_is(ti, t, '.') && !ti->tl.t[t].sp)
+		t++; /* the dot of an abbreviation first: "kr./t." */
+	return ti->unit[e] == t + 1 && tok_is(ti, t, '/');
 }
 
 /* The unit of an amount written after a slash, at unit e: a pay unit or a
@@ -140,7 +156,7 @@ static size_t slash_unit(tm_title *ti, size_t e, int cur)
 	if (!slash_between(ti, e) || x->kind != TK_WORD)
 		return 0;
 	if (useg(ti, e) == useg(ti, e - 1) && cur && x->flen == 1 &&
-	    glued(ti, e - 1, e, "/"))
+	    glued(ti, e - 1, e, "./")) /* kr/t, kr./t. */
 		return 1;
 	if (!match_val(ti, e, LC_PAY, "unit", 1, &len) && !time_unit(ti, e, &len))
 		return 0;
@@ -530,6 +546,18 @@ static int post_share(tm_title *ti, size_t k)
 				 match_val(ti, k, LC_UNIT, "workload", 1, &len));
 }
 
+/* Is unit k a share of one post written as a fraction: "0,6", "0.75",
+ * "1,0", "1"? */
+static int post_fraction(tm_title *ti, size_t k)
+{
+	const tm_tok *t = U(ti, k);
+	const char *p = ti->text + t->off;
+	if (t->len == 1)
+		return p[0] == '1';
+	return t->len >= 3 && t->len <= 4 && (p[0] == '0' || p[0] == '1') &&
+	       (p[1] == ',' || p[1] == '.') && (p[0] == '0' || p[2] == '0');
+}
+
 /* Is unit k, where a rota starts, beside the occupation's segment, in a
  * bracket or right after a schedule word? */
 static int rota_context(tm_title *ti, size_t k)
@@ -685,14 +713,16 @@ int pass_schedule(tm_title *ti)
 			k = e - 1;
 			continue;
 		}
-		/* a count of days before a schedule phrase, beside the
-		 * occupation: "hybrydowo 2 dni w biurze" */
+		/* a count of days before a schedule phrase, or of weeks
+		 * before a perk, beside the occupation: "hybrydowo 2 dni w
+		 * biurze", "4 týdny dovolené" */
 		if (U(ti, k)->len == 1 && lead_value(ti, U(ti, k)) >= 1 &&
 		    lead_value(ti, U(ti, k)) <= SCHEDULE_COUNT_MAX && k + 1 < ti->nunit &&
 		    ukept(ti, k + 1) && useg(ti, k + 1) == useg(ti, k) &&
 		    U(ti, k + 1)->sp && ti->unit[k + 1] == ti->unit[k] + 1 &&
 		    (ti->segs[useg(ti, k)].bracket || ti->segs[useg(ti, k)].index > 0) &&
-		    match_cat(ti, k + 1, LC_SCHEDULE, 1, &len) && !inside_phrase(ti, k)) {
+		    (match_cat(ti, k + 1, LC_SCHEDULE, 1, &len) ||
+		     match_cat(ti, k + 1, LC_MARKETING, 1, &len)) && !inside_phrase(ti, k)) {
 			if (remove_units(ti, k, k + 1, NF_SCHEDULE, NULL))
 				return -1;
 			continue;
@@ -724,11 +754,25 @@ int pass_schedule(tm_title *ti)
 			k = e - 1;
 			continue;
 		}
+		/* the share of a post after its word, no sign: "úvazek 0,6" */
+		if (k > 0 && ukept(ti, k - 1) && useg(ti, k - 1) == useg(ti, k) &&
+		    match_val(ti, k - 1, LC_UNIT, "workload", 1, &len) && len == 1 &&
+		    post_fraction(ti, k)) {
+			if (remove_units(ti, k - 1, k + 1, NF_WORKLOAD, NULL))
+				return -1;
+			continue;
+		}
 		if (j < ti->nunit && U(ti, j)->kind == TK_SYM && U(ti, j)->ch == '%') {
 			size_t b = k, l2;
 			if (k > 0 && ukept(ti, k - 1) &&
 			    match_val(ti, k - 1, LC_UNIT, "workload", 1, &l2) && l2 == 1)
 				b = k - 1;
+			/* or after it, ending the segment: "80 % työaika" */
+			else if (j + 1 < ti->nunit && ukept(ti, j + 1) &&
+				 useg(ti, j + 1) == useg(ti, k) &&
+				 match_val(ti, j + 1, LC_UNIT, "workload", 1, &l2) &&
+				 (j + 1 + l2 == ti->nunit || useg(ti, j + 1 + l2) != useg(ti, k)))
+				j += l2;
 			if (remove_units(ti, b, j + 1, NF_WORKLOAD, NULL))
 				return -1;
 			k = j;

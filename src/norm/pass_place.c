@@ -245,15 +245,24 @@ int place_acronym(tm_title *ti, size_t k, size_t len, int caps)
  * most five letters (Budapest VIII.) or a postal district
  * in capitals, letters then digits and at most one letter more (Derby
  * DE1, London SE15, Swindon SN2). */
+static int district_form(tm_title *ti, size_t k);
+
 static size_t district_at(tm_title *ti, size_t k, size_t seg)
+{
+	if (k >= ti->nunit || useg(ti, k) != seg || !ukept(ti, k) || ti->prot[ti->unit[k]] ||
+	    (k + 1 < ti->nunit && useg(ti, k + 1) == seg))
+		return 0;
+	return (size_t)district_form(ti, k);
+}
+
+/* Is unit k written as a district: one or two digits, a Roman numeral
+ * in capitals, a short code of capitals and digits? */
+static int district_form(tm_title *ti, size_t k)
 {
 	const tm_tok *t;
 	const char *p;
 	size_t i = 0, a, d;
 
-	if (k >= ti->nunit || useg(ti, k) != seg || !ukept(ti, k) || ti->prot[ti->unit[k]] ||
-	    (k + 1 < ti->nunit && useg(ti, k + 1) == seg))
-		return 0;
 	d = (size_t)num_digits(ti, k);
 	if (d == 1 || d == 2)
 		return 1;
@@ -272,6 +281,19 @@ static size_t district_at(tm_title *ti, size_t k, size_t seg)
 	if (i < t->len && p[i] >= 'A' && p[i] <= 'Z')
 		i++;
 	return a >= 1 && a <= 2 && d >= 1 && d <= 2 && i == t->len;
+}
+
+/* At unit e, after a place at unit k of the same segment: its district
+ * and the word for a district after it, "Budapest VI. ker."; *len
+ * covers both. */
+static int district_after(tm_title *ti, size_t e, size_t k, size_t *len)
+{
+	size_t l2;
+	if (e + 1 >= ti->nunit || useg(ti, e) != useg(ti, k) || !ukept(ti, e) ||
+	    ti->prot[ti->unit[e]] || !district_form(ti, e) || !after_word(ti, e + 1, k, &l2))
+		return 0;
+	*len = 1 + l2;
+	return 1;
 }
 
 /* From unit k (a place), the end of a run of places joined by
@@ -294,6 +316,8 @@ size_t place_run(tm_title *ti, size_t k, size_t plen, int allow_strong)
 	}
 	if (after_word(ti, e, k, &len))
 		e += len;
+	else if (district_after(ti, e, k, &len))
+		return e + len;
 	if ((len = postcode_at(ti, e)) && useg(ti, e) == useg(ti, k))
 		e += len;
 	else
@@ -439,7 +463,7 @@ static int slots(tm_title *ti)
 			size_t e = k + plen;
 			/* the word after it in its own segment: "Ropa - Centro
 			 * Comercial" is no "Ropa Centro" */
-			if (after_word(ti, e, k, &len) ||
+			if (after_word(ti, e, k, &len) || district_after(ti, e, k, &len) ||
 			    (e < ti->nunit && useg(ti, e) == useg(ti, k) &&
 			     (len = postcode_at(ti, e)))) {
 				e = place_run(ti, k, plen, 1);

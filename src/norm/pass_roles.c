@@ -180,6 +180,18 @@ static int employer_segment(tm_title *ti, size_t k0, size_t k1, int ev,
 	       k0 + len < k1 && cap_word(ti, k0 + len, caps);
 }
 
+/* Does [k0, k1) hold a kept `field` word?  Before a kind ending the
+ * segment, it names what is taught or done, so the preposition before
+ * it opens no firm's name ("Učitel matematiky [a] fyziky pro ZŠ": the
+ * Czech "and" folds to the French preposition "à"). */
+static int field_within(tm_title *ti, size_t k0, size_t k1)
+{
+	for (size_t k = k0; k < k1; k++)
+		if (evidence_at(ti, k, 0, k0) == EV_FIELD)
+			return 1;
+	return 0;
+}
+
 /* In segment s: the leftmost employer marker or location preposition
  * with an employer name after it and no occupational evidence up to the
  * segment's end; removed from there on.  first: the title's first kept
@@ -218,7 +230,8 @@ static int employer_tail(tm_title *ti, size_t s, size_t first, int caps)
 			n = j + l2;
 		}
 		if ((is_kind(ti, n, &l2) && n + l2 < k1) ||
-		    (kind_end != SIZE_MAX && kind_end > n) || legal_after ||
+		    (kind_end != SIZE_MAX && kind_end > n && !field_within(ti, n, kind_end)) ||
+		    legal_after ||
 		    (marker && (cap_word(ti, n, caps) ||
 				match_val(ti, n, LC_BUSINESS, "article", 1, &l2))))
 			best = k;

@@ -320,7 +320,16 @@ static int split(tok_line *tl, uni_ctx *u, const char *s, size_t n, int folded)
 				case 0xFF09: case 0x3011:
 					t->flags |= TF_STRONG | TF_CLOSE;
 					break;
-				case '|': case ',': case ';': case '!': case '?':
+				case ',':
+					/* "38.000,- Kč": the mark of a whole amount
+					 * (no cents), glued to its number, parts
+					 * nothing */
+					if (!t->sp && tl->n > 1 && tl->t[tl->n - 2].kind == TK_NUM &&
+					    i < n && s[i] == '-' && !is_digit_at(s, n, i + 1))
+						break;
+					t->flags |= TF_STRONG;
+					break;
+				case '|': case ';': case '!': case '?':
 				case 0xA1: case 0xBF: case 0x2026:
 					t->flags |= TF_STRONG;
 					break;
