@@ -287,45 +287,169 @@ static int row_key(const trend_row *r, tm_buf *k)
 	return buf_status(k) ? -1 : 0;
 }
 
-int trend_first_seen(tally_series *s, const trend_list *l, const char **first)
+/* ---- a change that outlasts its busiest periods ---- */
+
+/* Is period p wholly within days from..to (the undated never)? */
+static int within(const series_period *p, long from, long to)
 {
+	return p->len && p->first >= from && p->last <= to;
+}
+
+long trend_window_used(const tally_series *s, long from, long to, char *out, size_t cap)
+{
+	long u0 = 1, u1 = 0, partial = 0;
+	for (size_t i = 0; i < s->n; i++) {
+		const series_period *p = s->p[i];
+		if (within(p, from, to)) {
+			int none = u0 > u1;
+			if (none || p->first < u0)
+				u0 = p->first;
+			if (none || p->last > u1)
+				u1 = p->last;
+		} else if (p->len && p->first <= to && p->last >= from)
+			partial++;
+	}
+	if (u0 > u1)
+		trend_window_text(s->seen_kind, from, to, out, cap);
+	else
+		trend_window_text(s->seen_kind, u0, u1, out, cap);
+	return partial;
+}
+
+/* One period of a row's stronger window: the title's postings, the
+ * occupation's, and the period's place in time (the tie-break). */
+typedef struct lasting_cell {
+	uint64_t title, occ;
+	size_t at;
+} lasting_cell;
+
+static int busiest_first(const void *a0, const void *b0)
+{
+	const lasting_cell *a = a0, *b = b0;
+	if (a->title != b->title)
+		return a->title > b->title ? -1 : 1;
+	return (a->at > b->at) - (a->at < b->at);
+}
+
+/* Does row r's change hold without its busiest periods?  c: its
+ * stronger window's n periods (sorted here). */
+static int lasts(const trend_row *r, lasting_cell *c, size_t n, const trend_bars *b)
+{
+	uint64_t t = 0, o = 0;
+	size_t with = 0; /* the periods in which the occupation was counted */
+	for (size_t i = 0; i < n; i++)
+		with += c[i].occ > 0;
+	if (with < TREND_LASTING_MIN_PERIODS)
+		return 1;
+	size_t drop = with / TREND_LASTING_PART ? with / TREND_LASTING_PART : 1;
+	qsort(c, n, sizeof *c, busiest_first);
+	for (size_t i = drop; i < n; i++) {
+		t += c[i].title;
+		o += c[i].occ;
+	}
+	if (!o)
+		return 0;
+	double rest = (double)t / (double)o;
+	double weak = r->direction == TREND_RISING ? r->share_before : r->share_after;
+	return rest > weak && rest >= b->min_ratio * weak;
+}
+
+int trend_periods(tally_series *s, long b0, long b1, long a0, long a1, const trend_bars *b,
+		  trend_list *l, const char **first)
+{
+	series_period **v = NULL;
+	size_t np = 0, nw[2] = {0, 0}, *off = NULL, total = 0;
+	long *place = NULL; /* per period: -1, or its window and place in it */
 	strtab want = {0};
 	tm_buf k = {0};
+	lasting_cell *cell = NULL;
+	long *row_of = NULL;
 	const char **at = NULL;
-	series_period **v = NULL;
-	size_t np = 0;
-	int rc = 0;
+	int rc = -1;
 
-	for (size_t i = 0; i < l->n && !rc; i++)
-		if (row_key(&l->v[i], &k) || st_add(&want, k.data, k.len, 0, NULL) < 0)
-			rc = -1;
-	if (!rc && !(at = calloc(want.n ? want.n : 1, sizeof *at)))
-		rc = -1;
-	if (!rc && !(v = series_sorted(s, &np)) && s->n)
-		rc = -1;
-	for (size_t p = 0; p < np && !rc; p++) {
+	if (!l->n)
+		return 0;
+	if (!(v = series_sorted(s, &np)) && s->n)
+		return -1;
+	/* each period's window (0 rising: the later; 1 falling: the
+	 * earlier) and its place there, in time order */
+	if (!(place = malloc((np ? np : 1) * sizeof *place)))
+		goto done;
+	for (size_t p = 0; p < np; p++) {
+		int w = within(v[p], a0, a1) ? TREND_RISING : within(v[p], b0, b1) ? TREND_FALLING : -1;
+		place[p] = w < 0 ? -1 : (long)(nw[w]++ * 2 + (size_t)w);
+	}
+	/* every row's key; the cells of each row checked at off[i] */
+	if (!(off = malloc(l->n * sizeof *off)) || !(row_of = malloc(l->n * sizeof *row_of)) ||
+	    !(at = calloc(l->n, sizeof *at)))
+		goto done;
+	for (size_t i = 0; i < l->n; i++) {
+		size_t n = nw[l->v[i].direction], e;
+		if (row_key(&l->v[i], &k) || st_add(&want, k.data, k.len, 0, &e) < 0)
+			goto done;
+		row_of[e] = (long)i;
+		off[i] = SIZE_MAX;
+		if (n >= TREND_LASTING_MIN_PERIODS) {
+			off[i] = total;
+			total += n;
+		}
+	}
+	if (!(cell = calloc(total ? total : 1, sizeof *cell)))
+		goto done;
+	/* one walk over the periods' forms (a title's forms summed): where
+	 * each row was first seen, and its postings period by period */
+	for (size_t p = 0; p < np; p++) {
 		const strtab *f = &v[p]->m.forms;
-		if (!v[p]->len)
+		if (!v[p]->len || (!first && place[p] < 0))
 			continue; /* undated: no time */
+		int w = place[p] < 0 ? -1 : (int)(place[p] % 2);
+		size_t j = place[p] < 0 ? 0 : (size_t)place[p] / 2;
 		for (size_t i = 0; i < f->n; i++) {
 			size_t n, cut = 0, seps = 0;
 			const char *key = st_key(f, i, &n);
 			while (cut < n && (key[cut] != '\x1F' || ++seps < 3))
 				cut++;
-			long w = st_find(&want, key, cut);
-			if (w >= 0 && !at[w])
-				at[w] = v[p]->label;
+			long e = st_find(&want, key, cut);
+			if (e < 0)
+				continue;
+			size_t r = (size_t)row_of[e];
+			if (!at[r])
+				at[r] = v[p]->label;
+			if (w == l->v[r].direction && off[r] != SIZE_MAX)
+				cell[off[r] + j].title += f->ent[i].count;
 		}
 	}
-	for (size_t i = 0; i < l->n && !rc; i++) {
-		long w;
-		if (row_key(&l->v[i], &k))
-			rc = -1;
-		else
-			first[i] = (w = st_find(&want, k.data, k.len)) >= 0 ? at[w] : NULL;
+	/* the occupation's postings in each period of a row's window */
+	for (size_t p = 0; p < np; p++) {
+		if (place[p] < 0)
+			continue;
+		int w = (int)(place[p] % 2);
+		size_t j = (size_t)place[p] / 2;
+		for (size_t r = 0; r < l->n; r++) {
+			if (l->v[r].direction != w || off[r] == SIZE_MAX)
+				continue;
+			lasting_cell *c = &cell[off[r] + j];
+			c->at = j;
+			c->occ = tm_occ_postings(&v[p]->m, l->v[r].occ, l->v[r].ol, l->v[r].lang);
+		}
 	}
+	size_t kept = 0;
+	for (size_t i = 0; i < l->n; i++)
+		if (off[i] == SIZE_MAX ||
+		    lasts(&l->v[i], &cell[off[i]], nw[l->v[i].direction], b)) {
+			if (first)
+				first[kept] = at[i];
+			l->v[kept++] = l->v[i];
+		}
+	l->n = kept;
+	rc = 0;
+done:
 	free(v);
+	free(place);
+	free(off);
+	free(row_of);
 	free(at);
+	free(cell);
 	st_free(&want);
 	buf_free(&k);
 	return rc;
