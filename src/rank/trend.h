@@ -99,24 +99,27 @@ int trend_run(tally_mem *before, tally_mem *after, const labelset *ls, const tre
 
 void trend_list_free(trend_list *l);
 
-/* A change must outlast its busiest periods.  A title mass-posted on a
- * day or two (one employer's campaign, a job reposted in bulk) lifts its
- * share in that window as much as a lasting change does, and G^2, which
- * takes postings as independent, cannot tell them apart.  So when the
- * window where the title's share is higher holds at least
- * TREND_LASTING_MIN_PERIODS periods in which the occupation was counted,
- * the title's busiest periods there
- * (those with the most postings of it: one in TREND_LASTING_PART, at
- * least one) are set aside, with the occupation's postings in them, and
- * the share of the rest must still pass min_ratio against the other
- * window's.  Fewer periods cannot tell a burst from the start of a change;
- * one window of one period (the default later window) is not checked.
- * The figures printed stay those of the whole windows. */
+/* A change must outlast its bursts.  A title mass-posted on a day or two
+ * (one employer's campaign, a job reposted in bulk) lifts its share in
+ * that window as much as a lasting change does, and G^2, which takes
+ * postings as independent, cannot tell them apart; the periods around
+ * can.  So when the window where the title's share is higher holds at
+ * least TREND_LASTING_MIN_PERIODS periods in which the occupation was
+ * counted, each of its periods is tested against the periods before it
+ * and, apart, against those after it (as many as the window holds, on
+ * each side, inside or outside the window) by the bars a change must
+ * pass (the title's postings in the period, the ratio of its shares,
+ * G^2): a period above both is a burst.  When there are bursts, the share
+ * of the window's other periods must still pass min_ratio against the
+ * other window's.  A level that changes and stays (a label that fades, a
+ * title that appears and goes on) is above one side only, and counts.
+ * Two periods cannot tell a burst from a change, nor can a window of one
+ * (the default later window).  The figures printed stay those of the
+ * whole windows. */
 #define TREND_LASTING_MIN_PERIODS 3
-#define TREND_LASTING_PART 4
 
 /* One walk over the dated periods of s: leaves out of l (keeping its
- * order) the rows whose change rests on their busiest periods (above),
+ * order) the rows whose change rests on bursts (above),
  * the windows being the periods of s wholly within days b0..b1 and
  * a0..a1; and, when first is not NULL (room for l->n), sets first[i] to
  * the first period of s (in time order, the undated aside) the title of

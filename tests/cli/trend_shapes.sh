@@ -8,9 +8,10 @@
 # hidden labels, undated postings, three languages; windows as months,
 # weeks, days, days rolled up to weeks and the defaults.  Per scenario and
 # shape: every planted title found in its direction, no stable title
-# reported.  Also: a rising title's first_seen is a period of its own
-# counts, never the undated one, and its examples come from the window
-# where its share is higher.
+# reported.  Also: a new title's first_seen is a period of its own
+# counts, never the undated one; its examples come from the window where
+# its share is higher; label_kind is the label's; windows given in months
+# over counts by week are said as the weeks summed.
 . "$(dirname "$0")/lib.inc"
 T=$TITLEMILL
 here=$(cd "$(dirname "$0")" && pwd)
@@ -51,6 +52,11 @@ while IFS='	' read -r name shape planted found wrong stable fp fields; do
 	check "$name-$shape-false-reports" 0 "$fp"
 	check "$name-$shape-first-seen-examples" 0 "$fields"
 done < "$tmp/score"
+# windows in months over counts by week: the whole weeks inside are
+# summed, said as such, and the four weeks across a window's edge are said
+check weekmonths-windows "2025-W41..2025-W52 2026-W02..2026-W08" \
+	"$(awk -F '\t' 'NR == 2 { print $21, $22 }' "$tmp/r.weekmonths")"
+check weekmonths-partial 1 "$(grep -c '4 periods partly inside a window left out' "$tmp/e.weekmonths")"
 check scored "$(wc -l < "$tmp/g/scenarios.tsv")" "$(cut -f1 "$tmp/score" | sort -u | wc -l)"
 
 finish
