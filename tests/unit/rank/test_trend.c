@@ -136,24 +136,22 @@ static long day_of(const char *per, int last)
 	return last ? b : a;
 }
 
-/* The windows from..to and W05..W08: trend_run, then trend_periods
- * (with first_seen when first is not NULL). */
-static void compare(tally_series *s, const char *from, const char *to, trend_list *l,
-		    const char **first)
+/* The windows from..to and W05..W08 summed into before and after (which
+ * the rows point into: the caller frees them): trend_run, then
+ * trend_periods (with first_seen when first is not NULL). */
+static void compare(tally_series *s, const char *from, const char *to, tally_mem *before,
+		    tally_mem *after, trend_list *l, const char **first)
 {
-	tally_mem before, after;
 	trend_bars b;
 	long b0 = day_of(from, 0), b1 = day_of(to, 1);
 	long a0 = day_of("2026-W05", 0), a1 = day_of("2026-W08", 1);
 	trend_bars_default(&b);
-	tm_init(&before);
-	tm_init(&after);
-	assert_true(series_sum(s, b0, b1, &before) > 0);
-	assert_int_equal(series_sum(s, a0, a1, &after), 4);
-	assert_int_equal(trend_run(&before, &after, &LS, &b, NULL, l), 0);
+	tm_init(before);
+	tm_init(after);
+	assert_true(series_sum(s, b0, b1, before) > 0);
+	assert_int_equal(series_sum(s, a0, a1, after), 4);
+	assert_int_equal(trend_run(before, after, &LS, &b, NULL, l), 0);
 	assert_int_equal(trend_periods(s, b0, b1, a0, a1, &b, l, first), 0);
-	tm_free(&before);
-	tm_free(&after);
 }
 
 /* A one-week mass posting in an earlier window of four weeks is no
@@ -164,12 +162,14 @@ static void test_lasting(void **state)
 {
 	(void)state;
 	tally_series s;
+	tally_mem bm, am;
 	trend_list l;
 	const char *first[8];
 	series_init(&s, SERIES_AS_READ);
 	/* spitze: 5, 60, 5, 5 -> 5 each (75/400 -> 20/400: ratio 3.75, but
-	 * 15/300 without its busiest week, as after); schwund 20 each -> 2
-	 * each; neuling none -> 0, 0, 10, 30 */
+	 * W02 is a burst against the weeks on either side, and the others
+	 * hold 15/300, as after); schwund 20 each -> 2 each; neuling none ->
+	 * 0, 0, 10, 30 */
 	week(&s, "2026-W01", 5, 20, 0);
 	week(&s, "2026-W02", 60, 20, 0);
 	week(&s, "2026-W03", 5, 20, 0);
@@ -187,7 +187,7 @@ static void test_lasting(void **state)
 		snprintf(per, sizeof per, "2026-W%02d", i);
 		diluted(&s, per, i == 2 ? 400 : 0);
 	}
-	compare(&s, "2026-W01", "2026-W04", &l, first);
+	compare(&s, "2026-W01", "2026-W04", &bm, &am, &l, first);
 	assert_int_equal(l.n, 2);
 	const trend_row *r = find(&l, "occ:1", "neuling");
 	assert_non_null(r);
@@ -201,12 +201,16 @@ static void test_lasting(void **state)
 	assert_null(find(&l, "occ:2", "stamm"));
 	assert_null(find(&l, "occ:2", "welle"));
 	trend_list_free(&l);
+	tm_free(&bm);
+	tm_free(&am);
 	/* before W01..W02: two weeks, no check: spitze 65/200 -> 20/400 kept */
-	compare(&s, "2026-W01", "2026-W02", &l, NULL);
+	compare(&s, "2026-W01", "2026-W02", &bm, &am, &l, NULL);
 	assert_non_null(find(&l, "occ:1", "spitze"));
 	assert_non_null(find(&l, "occ:2", "welle"));
 	assert_non_null(find(&l, "occ:1", "schwund"));
 	trend_list_free(&l);
+	tm_free(&bm);
+	tm_free(&am);
 	series_free(&s);
 }
 
