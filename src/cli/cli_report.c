@@ -181,10 +181,11 @@ static int time_load(report_time *t, rank_inputs *in, const report_cli *o, repor
 	if (series_sum(&in->s, b0, b1, &t->before) <= 0 || series_sum(&in->s, a0, a1, &t->after) <= 0)
 		return 0; /* nothing before the latest period: nothing to compare */
 	trend_filter f = {NULL, ro->lang};
-	if (trend_run(&t->before, &t->after, &in->ls, &t->bars, &f, &t->tl) != 0)
+	if (trend_run(&t->before, &t->after, &in->ls, &t->bars, &f, &t->tl) != 0 ||
+	    trend_periods(&in->s, b0, b1, a0, a1, &t->bars, &t->tl, NULL) != 0)
 		return -1;
-	trend_window_text(in->s.seen_kind, b0, b1, t->wb, sizeof t->wb);
-	trend_window_text(in->s.seen_kind, a0, a1, t->wa, sizeof t->wa);
+	trend_window_used(&in->s, b0, b1, t->wb, sizeof t->wb);
+	trend_window_used(&in->s, a0, a1, t->wa, sizeof t->wa);
 	ro->trend = &t->tl;
 	ro->trend_bars = &t->bars;
 	ro->trend_before = t->wb;

@@ -217,8 +217,6 @@ int cmd_trend(int argc, char **argv)
 	}
 	if ((rc = cli_windows_get("trend", &o.win, &in.s, &b0, &b1, &a0, &a1)) != 0)
 		goto done;
-	trend_window_text(in.s.seen_kind, b0, b1, to.wb, sizeof to.wb);
-	trend_window_text(in.s.seen_kind, a0, a1, to.wa, sizeof to.wa);
 	nb = series_sum(&in.s, b0, b1, &before);
 	na = series_sum(&in.s, a0, a1, &after);
 	if (nb < 0 || na < 0) {
@@ -226,8 +224,16 @@ int cmd_trend(int argc, char **argv)
 		rc = EXIT_RUNTIME;
 		goto done;
 	}
+	/* the windows as the periods summed cover them: a period partly
+	 * inside a window given in another form (a week across two months)
+	 * is left out, and said */
+	long part = trend_window_used(&in.s, b0, b1, to.wb, sizeof to.wb) +
+		    trend_window_used(&in.s, a0, a1, to.wa, sizeof to.wa);
 	fprintf(stderr, "titlemill trend: before %s (%ld %s), after %s (%ld %s)\n", to.wb, nb,
 		nb == 1 ? "period" : "periods", to.wa, na, na == 1 ? "period" : "periods");
+	if (part)
+		fprintf(stderr, "titlemill trend: %ld period%s partly inside a window left out\n",
+			part, part == 1 ? "" : "s");
 	if (!nb || !na) {
 		fprintf(stderr, "titlemill trend: the %s window holds no counts: nothing to "
 			"compare\n", !na ? "after" : "before");
@@ -242,7 +248,7 @@ int cmd_trend(int argc, char **argv)
 	to.l = &l;
 	if (trend_run(&before, &after, &in.ls, &o.bar, &f, &l) != 0 ||
 	    !(to.first = calloc(l.n ? l.n : 1, sizeof *to.first)) ||
-	    trend_first_seen(&in.s, &l, to.first) != 0)
+	    trend_periods(&in.s, b0, b1, a0, a1, &o.bar, &l, to.first) != 0)
 		to.r.failed = 1;
 	else {
 		uint64_t per[2] = {0};

@@ -287,45 +287,229 @@ static int row_key(const trend_row *r, tm_buf *k)
 	return buf_status(k) ? -1 : 0;
 }
 
-int trend_first_seen(tally_series *s, const trend_list *l, const char **first)
+/* ---- a change that outlasts its bursts ---- */
+
+/* Is period p wholly within days from..to (the undated never)? */
+static int within(const series_period *p, long from, long to)
 {
+	return p->len && p->first >= from && p->last <= to;
+}
+
+long trend_window_used(const tally_series *s, long from, long to, char *out, size_t cap)
+{
+	long u0 = 1, u1 = 0, partial = 0;
+	for (size_t i = 0; i < s->n; i++) {
+		const series_period *p = s->p[i];
+		if (within(p, from, to)) {
+			int none = u0 > u1;
+			if (none || p->first < u0)
+				u0 = p->first;
+			if (none || p->last > u1)
+				u1 = p->last;
+		} else if (p->len && p->first <= to && p->last >= from)
+			partial++;
+	}
+	if (u0 > u1)
+		trend_window_text(s->seen_kind, from, to, out, cap);
+	else
+		trend_window_text(s->seen_kind, u0, u1, out, cap);
+	return partial;
+}
+
+/* A window's periods among the dated ones in time order: [w0, w1), and
+ * the span its bursts are judged in, up to as many periods again on
+ * each side: [x0, x1). */
+typedef struct span {
+	size_t w0, w1, x0, x1;
+} span;
+
+/* One period of a row's span: the title's postings and the
+ * occupation's. */
+typedef struct lasting_cell {
+	uint64_t title, occ;
+} lasting_cell;
+
+/* Does the title's share in period c pass the bars against its share in
+ * the periods summed to t of o (a context), upwards (up) or downwards?
+ * The postings where the share is higher must reach min_postings. */
+static int apart(const lasting_cell *c, uint64_t t, uint64_t o, int up, const trend_bars *b)
+{
+	if (!o || !c->occ || t > o || c->title > c->occ || (up ? c->title : t) < b->min_postings)
+		return 0;
+	double sk = (double)c->title / (double)c->occ, sr = (double)t / (double)o;
+	double hi = up ? sk : sr, lo = up ? sr : sk;
+	return hi > lo && hi >= b->min_ratio * lo &&
+	       g2(c->title, c->occ - c->title, t, o - t) >= b->min_g2;
+}
+
+/* The postings of the title (*t) and the occupation (*o) in the periods
+ * of window sp that are no outlier: a burst (up) or a dip (!up) is a
+ * period apart from both its contexts, up to as many periods as the
+ * window holds before it and after it.  c: the cells of sp's span (from
+ * sp.x0), pre: room for one more.  Returns the number of outliers; 0
+ * too when the window has fewer than TREND_LASTING_MIN_PERIODS periods
+ * that counted the occupation (then *t, *o are the whole window's). */
+static size_t unusual(const lasting_cell *c, span sp, int up, const trend_bars *b,
+		      lasting_cell *pre, uint64_t *t, uint64_t *o)
+{
+	size_t n = sp.x1 - sp.x0, w0 = sp.w0 - sp.x0, w1 = sp.w1 - sp.x0, len = w1 - w0, with = 0,
+	       out = 0;
+	pre[0].title = pre[0].occ = 0;
+	for (size_t i = 0; i < n; i++) {
+		pre[i + 1].title = pre[i].title + c[i].title;
+		pre[i + 1].occ = pre[i].occ + c[i].occ;
+	}
+	for (size_t i = w0; i < w1; i++)
+		with += c[i].occ > 0;
+	*t = *o = 0;
+	for (size_t i = w0; i < w1; i++) {
+		size_t a = i >= len ? i - len : 0, z = i + 1 + len < n ? i + 1 + len : n;
+		if (with >= TREND_LASTING_MIN_PERIODS &&
+		    apart(&c[i], pre[i].title - pre[a].title, pre[i].occ - pre[a].occ, up, b) &&
+		    apart(&c[i], pre[z].title - pre[i + 1].title, pre[z].occ - pre[i + 1].occ, up,
+			  b)) {
+			out++;
+			continue;
+		}
+		*t += c[i].title;
+		*o += c[i].occ;
+	}
+	return out;
+}
+
+/* Does row r's change hold without the bursts of the window where its
+ * share is higher and the dips of the other?  c: the cells of the
+ * strong window's span, then the weak one's. */
+static int lasts(const trend_row *r, const lasting_cell *c, const span sp[2],
+		 const trend_bars *b, lasting_cell *pre)
+{
+	int w = r->direction;
+	const span *hi = &sp[w], *lo = &sp[!w];
+	uint64_t th, oh, tl, ol;
+	size_t n = unusual(c, *hi, 1, b, pre, &th, &oh) +
+		   unusual(c + (hi->x1 - hi->x0), *lo, 0, b, pre, &tl, &ol);
+	if (!n)
+		return 1;
+	if (!oh || !ol)
+		return 0;
+	double strong = (double)th / (double)oh, weak = (double)tl / (double)ol;
+	return strong > weak && strong >= b->min_ratio * weak;
+}
+
+/* Where the cells of window w's span begin for row r, whose cells begin
+ * at off: its stronger window's span first. */
+static size_t cell_at(const trend_row *r, const span sp[2], int w, size_t off)
+{
+	return w == r->direction ? off : off + sp[!w].x1 - sp[!w].x0;
+}
+
+int trend_periods(tally_series *s, long b0, long b1, long a0, long a1, const trend_bars *b,
+		  trend_list *l, const char **first)
+{
+	series_period **v = NULL;
+	size_t np = 0, nd = 0, *off = NULL, total = 0, most = 0;
+	span sp[2];
 	strtab want = {0};
 	tm_buf k = {0};
+	lasting_cell *cell = NULL, *pre = NULL;
+	long *row_of = NULL;
 	const char **at = NULL;
-	series_period **v = NULL;
-	size_t np = 0;
-	int rc = 0;
+	int rc = -1;
 
-	for (size_t i = 0; i < l->n && !rc; i++)
-		if (row_key(&l->v[i], &k) || st_add(&want, k.data, k.len, 0, NULL) < 0)
-			rc = -1;
-	if (!rc && !(at = calloc(want.n ? want.n : 1, sizeof *at)))
-		rc = -1;
-	if (!rc && !(v = series_sorted(s, &np)) && s->n)
-		rc = -1;
-	for (size_t p = 0; p < np && !rc; p++) {
+	if (!l->n)
+		return 0;
+	if (!(v = series_sorted(s, &np)) && s->n)
+		return -1;
+	/* the dated periods, in time order */
+	for (size_t p = 0; p < np; p++)
+		if (v[p]->len)
+			v[nd++] = v[p];
+	/* each window's run of periods (0 rising: the later; 1 falling: the
+	 * earlier) and its span */
+	for (int w = 0; w < 2; w++) {
+		long from = w == TREND_RISING ? a0 : b0, to = w == TREND_RISING ? a1 : b1;
+		size_t p = 0;
+		while (p < nd && !within(v[p], from, to))
+			p++;
+		sp[w].w0 = sp[w].w1 = p;
+		while (sp[w].w1 < nd && within(v[sp[w].w1], from, to))
+			sp[w].w1++;
+		size_t len = sp[w].w1 - sp[w].w0;
+		sp[w].x0 = sp[w].w0 >= len ? sp[w].w0 - len : 0;
+		sp[w].x1 = sp[w].w1 + len < nd ? sp[w].w1 + len : nd;
+		if (sp[w].x1 - sp[w].x0 > most)
+			most = sp[w].x1 - sp[w].x0;
+	}
+	/* every row's key; the cells of each row checked at off[i] */
+	if (!(off = malloc(l->n * sizeof *off)) || !(row_of = malloc(l->n * sizeof *row_of)) ||
+	    !(at = calloc(l->n, sizeof *at)) || !(pre = malloc((most + 1) * sizeof *pre)))
+		goto done;
+	int check = sp[0].w1 - sp[0].w0 >= TREND_LASTING_MIN_PERIODS ||
+		    sp[1].w1 - sp[1].w0 >= TREND_LASTING_MIN_PERIODS;
+	for (size_t i = 0; i < l->n; i++) {
+		size_t e;
+		if (row_key(&l->v[i], &k) || st_add(&want, k.data, k.len, 0, &e) < 0)
+			goto done;
+		row_of[e] = (long)i;
+		off[i] = SIZE_MAX;
+		if (check) {
+			off[i] = total;
+			total += sp[0].x1 - sp[0].x0 + sp[1].x1 - sp[1].x0;
+		}
+	}
+	if (!(cell = calloc(total ? total : 1, sizeof *cell)))
+		goto done;
+	/* one walk over the periods' forms (a title's forms summed): where
+	 * each row was first seen, and its postings period by period */
+	for (size_t p = 0; p < nd; p++) {
 		const strtab *f = &v[p]->m.forms;
-		if (!v[p]->len)
-			continue; /* undated: no time */
+		int in[2];
+		for (int w = 0; w < 2; w++)
+			in[w] = p >= sp[w].x0 && p < sp[w].x1;
+		if (!first && !in[0] && !in[1])
+			continue;
 		for (size_t i = 0; i < f->n; i++) {
 			size_t n, cut = 0, seps = 0;
 			const char *key = st_key(f, i, &n);
 			while (cut < n && (key[cut] != '\x1F' || ++seps < 3))
 				cut++;
-			long w = st_find(&want, key, cut);
-			if (w >= 0 && !at[w])
-				at[w] = v[p]->label;
+			long e = st_find(&want, key, cut);
+			if (e < 0)
+				continue;
+			size_t r = (size_t)row_of[e];
+			if (!at[r])
+				at[r] = v[p]->label;
+			if (off[r] != SIZE_MAX)
+				for (int w = 0; w < 2; w++)
+					if (in[w])
+						cell[cell_at(&l->v[r], sp, w, off[r]) + p - sp[w].x0].title +=
+							f->ent[i].count;
 		}
 	}
-	for (size_t i = 0; i < l->n && !rc; i++) {
-		long w;
-		if (row_key(&l->v[i], &k))
-			rc = -1;
-		else
-			first[i] = (w = st_find(&want, k.data, k.len)) >= 0 ? at[w] : NULL;
-	}
+	/* the occupation's postings in each period of a row's span */
+	for (size_t r = 0; r < l->n; r++)
+		for (int w = 0; off[r] != SIZE_MAX && w < 2; w++) {
+			size_t at0 = cell_at(&l->v[r], sp, w, off[r]);
+			for (size_t p = sp[w].x0; p < sp[w].x1; p++)
+				cell[at0 + p - sp[w].x0].occ =
+					tm_occ_postings(&v[p]->m, l->v[r].occ, l->v[r].ol, l->v[r].lang);
+		}
+	size_t kept = 0;
+	for (size_t i = 0; i < l->n; i++)
+		if (off[i] == SIZE_MAX || lasts(&l->v[i], &cell[off[i]], sp, b, pre)) {
+			if (first)
+				first[kept] = at[i];
+			l->v[kept++] = l->v[i];
+		}
+	l->n = kept;
+	rc = 0;
+done:
 	free(v);
+	free(off);
+	free(row_of);
 	free(at);
+	free(cell);
+	free(pre);
 	st_free(&want);
 	buf_free(&k);
 	return rc;

@@ -99,6 +99,43 @@ int trend_run(tally_mem *before, tally_mem *after, const labelset *ls, const tre
 
 void trend_list_free(trend_list *l);
 
+/* A change must outlast its bursts.  A title mass-posted on a day or two
+ * (one employer's campaign, a job reposted in bulk) lifts its share in
+ * that window as much as a lasting change does, and G^2, which takes
+ * postings as independent, cannot tell them apart; the periods around
+ * can.  So when the window where the title's share is higher holds at
+ * least TREND_LASTING_MIN_PERIODS periods in which the occupation was
+ * counted, each of its periods is tested against the periods before it
+ * and, apart, against those after it (as many as the window holds, on
+ * each side, inside or outside the window) by the bars a change must
+ * pass (the title's postings in the period, the ratio of its shares,
+ * G^2): a period above both is a burst.  When there are bursts, the share
+ * of the window's other periods must still pass min_ratio against the
+ * other window's.  A level that changes and stays (a label that fades, a
+ * title that appears and goes on) is above one side only, and counts.
+ * Two periods cannot tell a burst from a change, nor can a window of one
+ * (the default later window).  The figures printed stay those of the
+ * whole windows. */
+#define TREND_LASTING_MIN_PERIODS 3
+
+/* One walk over the dated periods of s: leaves out of l (keeping its
+ * order) the rows whose change rests on bursts (above),
+ * the windows being the periods of s wholly within days b0..b1 and
+ * a0..a1; and, when first is not NULL (room for l->n), sets first[i] to
+ * the first period of s (in time order, the undated aside) the title of
+ * the kept l->v[i] was counted in, a label of s or NULL.  Linear in the
+ * forms of the periods walked (all of them with first, else the
+ * windows'), plus rows x periods of the windows.  0, or -1 when memory
+ * ran out (l unchanged). */
+int trend_periods(tally_series *s, long b0, long b1, long a0, long a1, const trend_bars *b,
+		  trend_list *l, const char **first);
+
+/* Window from..to as the periods of s wholly within it cover it (the
+ * first day of the first to the last day of the last; from..to itself
+ * when none is), as text (trend_window_text) in out.  Returns how many
+ * periods lie partly within it (left out of the sums). */
+long trend_window_used(const tally_series *s, long from, long to, char *out, size_t cap);
+
 /* The periods the default earlier window holds: the ones just before
  * the later. */
 #define TREND_BEFORE_PERIODS 3
@@ -112,11 +149,6 @@ void trend_list_free(trend_list *l);
  * period of s ended before today. */
 int trend_default_windows(tally_series *s, long today, int have_before, int have_after,
 			  long *b0, long *b1, long *a0, long *a1);
-
-/* The first period of s (in time order, the undated aside) each row's
- * title was counted in: first[i] for l->v[i], a label of s or NULL.
- * Linear in the rows of s.  0, or -1 when memory ran out. */
-int trend_first_seen(tally_series *s, const trend_list *l, const char **first);
 
 /* A window as text: the labels of its first and last periods of kind
  * when it is made of whole ones, else its first and last days ("a..b",
