@@ -46,18 +46,26 @@
 
 #define SIM_BM25_K1 1.2
 #define SIM_BM25_B 0.75
-#define SIM_W_CHAR 0.7
-#define SIM_W_WORD 0.3
+#define SIM_W_CHAR 0.5
+#define SIM_W_WORD 0.5
 #define SIM_WORK 8000
 #define SIM_CANDIDATES 32
 #define SIM_QUERY_MAX 256
+#define SIM_STEM_MIN 4      /* code points two forms of a word share at least */
+#define SIM_STEM_SHARE 0.6  /* ... and at least this share of the longer */
+#define SIM_STEM_TAIL 4     /* code points each may have after the shared start */
+#define SIM_STEM_WORDS 64   /* words of a document compared by form */
+#define SIM_TYPO_MIN 6      /* code points of a word read with one slip */
+#define SIM_STEM_BYTES 64   /* longer words are compared whole only */
+#define SIM_PIECE_MIN 3     /* bytes of each piece of a compound */
+#define SIM_PIECE_WORDS 8   /* compounds are sought when both sides have at most this many words */
 
 typedef struct sim_index sim_index;
 typedef struct sim_work sim_work;
 
 typedef struct sim_hit {
 	uint32_t doc;
-	double cos, bm25, bm25n, s;
+	double cos, bm25, bm25n, dcov, s;
 } sim_hit;
 
 /* A new, empty index, or NULL when memory ran out. */
