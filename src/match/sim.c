@@ -586,6 +586,18 @@ static int same_word(const wview *a, const wview *b)
 	return same_stem(a->s, a->n, b->s, b->n) || one_slip(a->s, a->n, b->s, b->n);
 }
 
+/* Is the query's word q the start of the document's word d, cut short
+ * ("rep" of "representative", "kine" of "kinesitherapeute")?  Only a
+ * word that no document holds whole, of SIM_CUT_MIN to SIM_CUT_MAX code
+ * points, at most half of d. */
+static int cut_short(const wview *q, const wview *d)
+{
+	if (q->id != UINT32_MAX || q->n > d->n || memcmp(q->s, d->s, q->n))
+		return 0;
+	size_t a = cps(q->s, q->n);
+	return a >= SIM_CUT_MIN && a <= SIM_CUT_MAX && 2 * a <= cps(d->s, d->n);
+}
+
 /* Is a the compound of two words of L, the first as it is and the second
  * as it is or in another form ("softwareentwickler" = "software" +
  * "entwickler", "reachtruck" = "reach" + "truck")?  1 with their places. */
@@ -632,7 +644,7 @@ static size_t align_words(const sim_work *w, uint32_t d, wview *dv, unsigned cha
 	}
 	for (size_t i = 0; i < nq; i++)
 		for (size_t j = 0; j < nd; j++)
-			if (same_word(&qv[i], &dv[j]))
+			if (same_word(&qv[i], &dv[j]) || cut_short(&qv[i], &dv[j]))
 				qm[i] = dm[j] = 1;
 	if (nq > SIM_PIECE_WORDS || nd > SIM_PIECE_WORDS)
 		return nd;

@@ -56,6 +56,8 @@
 #define SIM_STEM_TAIL 4     /* code points each may have after the shared start */
 #define SIM_STEM_WORDS 64   /* words of a document compared by form */
 #define SIM_TYPO_MIN 6      /* code points of a word read with one slip */
+#define SIM_CUT_MIN 3       /* code points of a word read as cut short ... */
+#define SIM_CUT_MAX 5       /* ... up to this many, at most half the word */
 #define SIM_STEM_BYTES 64   /* longer words are compared whole only */
 #define SIM_PIECE_MIN 3     /* bytes of each piece of a compound */
 #define SIM_PIECE_WORDS 8   /* compounds are sought when both sides have at most this many words */
