@@ -599,8 +599,10 @@ static int cut_short(const wview *q, const wview *d)
 }
 
 /* Is a the compound of two words of L, the first as it is and the second
- * as it is or in another form ("softwareentwickler" = "software" +
- * "entwickler", "reachtruck" = "reach" + "truck")?  1 with their places. */
+ * as it is, in another form or cut short ("softwareentwickler" =
+ * "software" + "entwickler", "reachtruck" = "reach" + "truck",
+ * "maschinenbauingenieur" = "maschinenbau" + "ing")?  1 with their
+ * places. */
 static int compound_of(const wview *a, const wview *L, size_t n, size_t *pi, size_t *pj)
 {
 	for (size_t i = 0; i < n; i++) {
@@ -608,7 +610,8 @@ static int compound_of(const wview *a, const wview *L, size_t n, size_t *pi, siz
 			continue;
 		wview r = {a->s + L[i].n, a->n - L[i].n, UINT32_MAX};
 		for (size_t j = 0; j < n; j++)
-			if ((r.n == L[j].n && !memcmp(r.s, L[j].s, r.n)) || same_stem(r.s, r.n, L[j].s, L[j].n)) {
+			if ((r.n == L[j].n && !memcmp(r.s, L[j].s, r.n)) || same_stem(r.s, r.n, L[j].s, L[j].n) ||
+			    cut_short(&L[j], &r)) {
 				*pi = i;
 				*pj = j;
 				return 1;

@@ -26,7 +26,8 @@ one typing slip apart (optimal string alignment distance 1, both at least
 points, when it starts the document word and is at most half of it (a
 word cut short: "dev" of "developer"); with at most 8 words on each side, a word that is a
 compound of two words of the other side (the first as it is, the second
-as it is or another form, each at least 3 bytes) aligns with both.  A
+as it is, another form or, a query word, cut short; each at least 3
+bytes) aligns with both.  A
 query word absent from the document but aligned counts once in BM25, with
 the idf of its own df.  DCOV: the share of the idf of the document's
 distinct words that are aligned.
@@ -38,7 +39,7 @@ from sklearn.feature_extraction.text import TfidfVectorizer
 
 DOCS = [
     "lagerist", "softwareentwickler", "femme de chambre", "kommissionierer",
-    "reach truck driver", "verkaufer", "lagermitarbeiter", "gabelstaplerfahrer", "forklift driver",
+    "reach truck driver", "verkaufer", "maschinenbauingenieur", "lagermitarbeiter", "gabelstaplerfahrer", "forklift driver",
     "forklift operator", "warehouse operative", "stock controller", "cashier",
     "kassierer", "software developer", "senior software developer",
     "développeur logiciel", "aide soignant", "ab", "a b c", "driver driver bus",
@@ -51,7 +52,7 @@ QUERIES = [
     "técnico informático", "bus driver driver", "software entwickler",
     "sage femme", "kommisionierer", "reachtruck fahrer", "verkauferin",
     "forklift drivr", "kassiererin", "softwareentwicklerin", "software dev",
-    "forkl driver",
+    "forkl driver", "dipl ing maschinenbau",
 ]
 
 K1, B = 1.2, 0.75
@@ -116,7 +117,7 @@ def compound(a, L):
             continue
         r = a[len(x):]
         for j, y in enumerate(L):
-            if r == y or stem(r, y):
+            if r == y or stem(r, y) or cut_short(y, r):
                 return i, j
     return None
 
