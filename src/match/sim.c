@@ -592,7 +592,7 @@ static int same_word(const wview *a, const wview *b)
  * points, at most half of d. */
 static int cut_short(const wview *q, const wview *d)
 {
-	if (q->id != UINT32_MAX || q->n > d->n || memcmp(q->s, d->s, q->n))
+	if (q->id != UINT32_MAX || q->n > d->n || d->n > SIM_STEM_BYTES || memcmp(q->s, d->s, q->n))
 		return 0;
 	size_t a = cps(q->s, q->n);
 	return a >= SIM_CUT_MIN && a <= SIM_CUT_MAX && 2 * a <= cps(d->s, d->n);

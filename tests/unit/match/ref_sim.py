@@ -108,7 +108,8 @@ def same(a, b):
 
 
 def cut_short(q, d):
-    return q not in df and 3 <= len(q) <= 5 and d.startswith(q) and 2 * len(q) <= len(d)
+    return (q not in df and 3 <= len(q) <= 5 and cut_bytes(d) <= 64 and d.startswith(q)
+            and 2 * len(q) <= len(d))
 
 
 def compound(a, L):
