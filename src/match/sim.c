@@ -557,7 +557,10 @@ static size_t decode_cps(const char *s, size_t n, uint32_t *c)
  * SIM_TYPO_MIN code points. */
 static int one_slip(const char *as, size_t al, const char *bs, size_t bl)
 {
-	if (al > SIM_STEM_BYTES || bl > SIM_STEM_BYTES)
+	/* one slip leaves the first or the last code point as it was, and
+	 * changes the length by at most one code point (4 bytes) */
+	if (al > SIM_STEM_BYTES || bl > SIM_STEM_BYTES || al + 4 < bl || bl + 4 < al || !al || !bl ||
+	    (as[0] != bs[0] && as[al - 1] != bs[bl - 1]))
 		return 0;
 	uint32_t a[SIM_STEM_BYTES], b[SIM_STEM_BYTES];
 	size_t n = decode_cps(as, al, a), m = decode_cps(bs, bl, b);
@@ -794,6 +797,14 @@ int sim_query(const sim_index *x, sim_work *w, const char *q, size_t n,
 	tm_qsort(ord, no, sizeof *ord, cmp_gorder);
 
 	size_t work = 0;
+	/* each posting read touches at most one document: room for all of
+	 * them once, then no check per posting */
+	if (w->touched.cap < SIM_WORK) {
+		uint32_t *v = tm_grow(w->touched.v, &w->touched.cap, SIM_WORK, sizeof *v, SIM_WORK);
+		if (!v)
+			return TM_ENOMEM;
+		w->touched.v = v;
+	}
 	w->touched.n = 0;
 	for (size_t j = 0; j < no; j++) {
 		const qterm *t = &w->qg.v[ord[j].i];
@@ -808,11 +819,8 @@ int sim_query(const sim_index *x, sim_work *w, const char *q, size_t n,
 		const uint32_t *p = x->pdoc + x->pstart[t->id];
 		for (size_t k = 0; k < len; k++) {
 			uint32_t d = p[k];
-			if (w->acc[d] == 0 && push32(&w->touched, d)) {
-				for (size_t i = 0; i < w->touched.n; i++)
-					w->acc[w->touched.v[i]] = 0;
-				return TM_ENOMEM;
-			}
+			if (w->acc[d] == 0)
+				w->touched.v[w->touched.n++] = d;
 			w->acc[d] += x->dnorm[d] > 0 ? qw / x->dnorm[d] : 0;
 		}
 	}
