@@ -390,7 +390,8 @@ size_t sim_bytes(const sim_index *x)
 	size_t ng = x->grams.n, nw = x->words.n;
 	return (x->grams.nslot + x->words.nslot) * 12 + (x->gstart.cap + x->wstart.cap) * 8 +
 	       (x->gterm.cap + x->wterm.cap) * 4 + (ng + nw) * 12 + (ng + 1) * 8 +
-	       (x->pstart ? x->pstart[ng] : 0) * 4 + x->ndoc * 4;
+	       (x->pstart ? x->pstart[ng] : 0) * 4 + x->ndoc * 4 + x->wtext.cap + x->woff.cap * 8 +
+	       x->wlen.cap * 4;
 }
 
 sim_work *sim_work_new(const sim_index *x)
