@@ -50,8 +50,9 @@
  * language: a label match is at least MATCH_LABEL_BASE (0.9); a counted
  * title at most MATCH_TITLE_BASE + MATCH_TITLE_SPAN (0.9), about 0.5 for
  * a title seen once; a similar candidate at most MATCH_SIM_SPAN (0.9) times
- * the share of the query's weighted grams and words that the neighbour
- * shares (sim.h: both measures are normalised by the query itself).
+ * sim.h's s: the query's weighted grams the neighbour shares, and the
+ * words the two share as a share of each side's word evidence (cos and
+ * bm25n are normalised by the query, dcov by the neighbour).
  *
  * Ownership: a match_index copies what it needs from the labels and the
  * counts (both may be freed after match_build).  Candidates returned by

@@ -32,6 +32,9 @@ struct sim_index {
 	size_t *pstart;         /* postings of gram t: pdoc[pstart[t] .. pstart[t+1]) */
 	uint32_t *pdoc;
 	float *dnorm;           /* the L2 norm of a document's TF-IDF vector */
+	tm_buf wtext;           /* the text of each word term, by number: */
+	szv woff;               /* wtext[woff[t] .. woff[t] + wlen[t]) */
+	u32v wlen;
 	double avgdl;
 	size_t ndoc;
 	int finished;
@@ -41,6 +44,7 @@ struct sim_index {
 typedef struct qterm {
 	uint64_t h;
 	uint32_t id, tf;  /* id UINT32_MAX: no document holds it */
+	uint32_t off, len; /* a word: its text in the query */
 } qterm;
 
 typedef struct qtv { qterm *v; size_t n, cap; } qtv;
@@ -50,6 +54,9 @@ struct sim_work {
 	float *acc;
 	u32v touched;
 	u64v gh, wh;
+	u64v wseq;      /* the words' hashes in text order, */
+	u32v woff, wlen; /* and their places in the (cut) query */
+	const char *q;  /* the query being scored */
 	qtv qg, qw;
 	tm_buf pad;
 	uint32_t *cand;
@@ -194,7 +201,7 @@ static int cut(sim_work *w, const char *s, size_t n)
 {
 	size_t off[SIM_QUERY_MAX + 3];
 
-	w->gh.n = w->wh.n = 0;
+	w->gh.n = w->wh.n = w->wseq.n = w->woff.n = w->wlen.n = 0;
 	n = kept_len(s, n);
 	for (size_t i = 0; i < n;) {
 		while (i < n && s[i] == ' ')
@@ -204,7 +211,9 @@ static int cut(sim_work *w, const char *s, size_t n)
 			i++;
 		if (i == b)
 			break;
-		if (push64(&w->wh, short_hash(s + b, i - b, SEED_WORD)))
+		uint64_t wh = short_hash(s + b, i - b, SEED_WORD);
+		if (push64(&w->wh, wh) || push64(&w->wseq, wh) || push32(&w->woff, (uint32_t)b) ||
+		    push32(&w->wlen, (uint32_t)(i - b)))
 			return TM_ENOMEM;
 		buf_reset(&w->pad);
 		buf_putc(&w->pad, ' ');
@@ -258,6 +267,9 @@ void sim_free(sim_index *x)
 	free(x->pstart);
 	free(x->pdoc);
 	free(x->dnorm);
+	buf_free(&x->wtext);
+	free(x->woff.v);
+	free(x->wlen.v);
 	sim_work_free(x->scratch);
 	free(x);
 }
@@ -289,10 +301,21 @@ int sim_add(sim_index *x, const char *text, size_t n)
 {
 	if (x->finished || x->ndoc >= UINT32_MAX - 1)
 		return TM_ENOMEM;
-	if (cut(x->scratch, text, n) || add_terms(&x->grams, &x->scratch->gh, &x->gterm) ||
-	    add_terms(&x->words, &x->scratch->wh, &x->wterm) ||
+	sim_work *c = x->scratch;
+	if (cut(c, text, n) || add_terms(&x->grams, &c->gh, &x->gterm) ||
+	    add_terms(&x->words, &c->wh, &x->wterm) ||
 	    pushsz(&x->gstart, x->gterm.n) || pushsz(&x->wstart, x->wterm.n))
 		return TM_ENOMEM;
+	/* the text of each word seen for the first time (numbers come in
+	 * order, so a new one is the next of woff) */
+	for (size_t i = 0; i < c->wseq.n && x->woff.n < x->words.n; i++) {
+		uint32_t id = tmap_find(&x->words, c->wseq.v[i]);
+		if (id != x->woff.n)
+			continue;
+		if (pushsz(&x->woff, x->wtext.len) || push32(&x->wlen, c->wlen.v[i]) ||
+		    buf_append(&x->wtext, text + c->woff.v[i], c->wlen.v[i]))
+			return TM_ENOMEM;
+	}
 	x->ndoc++;
 	return TM_OK;
 }
@@ -367,7 +390,8 @@ size_t sim_bytes(const sim_index *x)
 	size_t ng = x->grams.n, nw = x->words.n;
 	return (x->grams.nslot + x->words.nslot) * 12 + (x->gstart.cap + x->wstart.cap) * 8 +
 	       (x->gterm.cap + x->wterm.cap) * 4 + (ng + nw) * 12 + (ng + 1) * 8 +
-	       (x->pstart ? x->pstart[ng] : 0) * 4 + x->ndoc * 4;
+	       (x->pstart ? x->pstart[ng] : 0) * 4 + x->ndoc * 4 + x->wtext.cap + x->woff.cap * 8 +
+	       x->wlen.cap * 4;
 }
 
 sim_work *sim_work_new(const sim_index *x)
@@ -393,6 +417,9 @@ void sim_work_free(sim_work *w)
 	free(w->touched.v);
 	free(w->gh.v);
 	free(w->wh.v);
+	free(w->wseq.v);
+	free(w->woff.v);
+	free(w->wlen.v);
 	free(w->qg.v);
 	free(w->qw.v);
 	buf_free(&w->pad);
@@ -429,7 +456,7 @@ static int query_terms(const termmap *m, u64v *h, qtv *out)
 				return TM_ENOMEM;
 			out->v = v;
 		}
-		out->v[out->n++] = (qterm){h->v[i], tmap_find(m, h->v[i]), (uint32_t)(e - i)};
+		out->v[out->n++] = (qterm){h->v[i], tmap_find(m, h->v[i]), (uint32_t)(e - i), 0, 0};
 		i = e;
 	}
 	tm_qsort(out->v, out->n, sizeof *out->v, cmp_qterm_id);
@@ -460,11 +487,182 @@ static int prepare(sim_work *w, const char *q, size_t n)
 		qn += v * v;
 	}
 	w->qnorm = sqrt(qn);
+	w->q = q;
+	for (size_t i = 0; i < w->qw.n; i++) {
+		size_t j = 0;
+		while (j + 1 < w->wseq.n && w->wseq.v[j] != w->qw.v[i].h)
+			j++;
+		w->qw.v[i].off = w->woff.v[j];
+		w->qw.v[i].len = w->wlen.v[j];
+	}
 	w->kq = SIM_BM25_K1 * (1 - SIM_BM25_B + SIM_BM25_B * (double)w->wh.n / x->avgdl);
 	w->self = 0;
 	for (size_t i = 0; i < w->qw.n; i++)
 		w->self += word_idf(x, w->qw.v[i].id) * (SIM_BM25_K1 + 1) / (1 + w->kq);
 	return TM_OK;
+}
+
+/* The code points of s[0..n). */
+static size_t cps(const char *s, size_t n)
+{
+	size_t c = 0;
+	for (size_t i = 0; i < n; i++)
+		c += ((unsigned char)s[i] & 0xC0) != 0x80;
+	return c;
+}
+
+/* Are two different words forms of one word (sim.h: SIM_STEM_*)? */
+static int same_stem(const char *a, size_t al, const char *b, size_t bl)
+{
+	if (al < SIM_STEM_MIN || bl < SIM_STEM_MIN || al > SIM_STEM_BYTES || bl > SIM_STEM_BYTES ||
+	    memcmp(a, b, SIM_STEM_MIN))
+		return 0;
+	size_t p = 0;
+	while (p < al && p < bl && a[p] == b[p])
+		p++;
+	while (p > 0 && ((p < al && ((unsigned char)a[p] & 0xC0) == 0x80) ||
+			 (p < bl && ((unsigned char)b[p] & 0xC0) == 0x80)))
+		p--;
+	size_t P = cps(a, p), ta = cps(a + p, al - p), tb = cps(b + p, bl - p);
+	size_t longer = P + (ta > tb ? ta : tb);
+	return P >= SIM_STEM_MIN && ta <= SIM_STEM_TAIL && tb <= SIM_STEM_TAIL &&
+	       (double)P >= SIM_STEM_SHARE * (double)longer;
+}
+
+/* A word of the query or of a document, for the alignment of words. */
+typedef struct wview {
+	const char *s;
+	size_t n;
+	uint32_t id;  /* its term number (UINT32_MAX: in no document) */
+} wview;
+
+/* The code points of s[0..n) into c (at most SIM_STEM_BYTES): their
+ * number. */
+static size_t decode_cps(const char *s, size_t n, uint32_t *c)
+{
+	size_t k = 0;
+	for (size_t i = 0; i < n && k < SIM_STEM_BYTES;) {
+		unsigned char b = (unsigned char)s[i];
+		size_t l = b < 0x80 ? 1 : b < 0xE0 ? 2 : b < 0xF0 ? 3 : 4;
+		uint32_t v = l == 1 ? b : b & (0xFF >> (l + 1));
+		for (size_t j = 1; j < l && i + j < n; j++)
+			v = v << 6 | ((unsigned char)s[i + j] & 0x3F);
+		c[k++] = v;
+		i += l;
+	}
+	return k;
+}
+
+/* Is b a with one typing slip (Damerau 1964): one code point left out,
+ * added, changed, or two neighbours swapped?  Only words of at least
+ * SIM_TYPO_MIN code points. */
+static int one_slip(const char *as, size_t al, const char *bs, size_t bl)
+{
+	/* one slip leaves the first or the last code point as it was, and
+	 * changes the length by at most one code point (4 bytes) */
+	if (al > SIM_STEM_BYTES || bl > SIM_STEM_BYTES || al + 4 < bl || bl + 4 < al || !al || !bl ||
+	    (as[0] != bs[0] && as[al - 1] != bs[bl - 1]))
+		return 0;
+	uint32_t a[SIM_STEM_BYTES], b[SIM_STEM_BYTES];
+	size_t n = decode_cps(as, al, a), m = decode_cps(bs, bl, b);
+	if (n < SIM_TYPO_MIN || m < SIM_TYPO_MIN || n + 1 < m || m + 1 < n)
+		return 0;
+	size_t p = 0;
+	while (p < n && p < m && a[p] == b[p])
+		p++;
+	if (p == n && p == m)
+		return 0;
+	if (n == m) {
+		if (!memcmp(a + p + 1, b + p + 1, (n - p - 1) * sizeof *a))
+			return 1;
+		return p + 1 < n && a[p] == b[p + 1] && a[p + 1] == b[p] &&
+		       !memcmp(a + p + 2, b + p + 2, (n - p - 2) * sizeof *a);
+	}
+	if (n > m)
+		return !memcmp(a + p + 1, b + p, (m - p) * sizeof *a);
+	return !memcmp(a + p, b + p + 1, (n - p) * sizeof *a);
+}
+
+static int same_word(const wview *a, const wview *b)
+{
+	if (a->id != UINT32_MAX && a->id == b->id)
+		return 1;
+	return same_stem(a->s, a->n, b->s, b->n) || one_slip(a->s, a->n, b->s, b->n);
+}
+
+/* Is the query's word q the start of the document's word d, cut short
+ * ("rep" of "representative", "kine" of "kinesitherapeute")?  Only a
+ * word that no document holds whole, of SIM_CUT_MIN to SIM_CUT_MAX code
+ * points, at most half of d. */
+static int cut_short(const wview *q, const wview *d)
+{
+	if (q->id != UINT32_MAX || q->n > d->n || d->n > SIM_STEM_BYTES || memcmp(q->s, d->s, q->n))
+		return 0;
+	size_t a = cps(q->s, q->n);
+	return a >= SIM_CUT_MIN && a <= SIM_CUT_MAX && 2 * a <= cps(d->s, d->n);
+}
+
+/* Is a the compound of two words of L, the first as it is and the second
+ * as it is, in another form or cut short ("softwareentwickler" =
+ * "software" + "entwickler", "reachtruck" = "reach" + "truck",
+ * "maschinenbauingenieur" = "maschinenbau" + "ing")?  1 with their
+ * places. */
+static int compound_of(const wview *a, const wview *L, size_t n, size_t *pi, size_t *pj)
+{
+	for (size_t i = 0; i < n; i++) {
+		if (L[i].n < SIM_PIECE_MIN || L[i].n + SIM_PIECE_MIN > a->n || memcmp(a->s, L[i].s, L[i].n))
+			continue;
+		wview r = {a->s + L[i].n, a->n - L[i].n, UINT32_MAX};
+		for (size_t j = 0; j < n; j++)
+			if ((r.n == L[j].n && !memcmp(r.s, L[j].s, r.n)) || same_stem(r.s, r.n, L[j].s, L[j].n) ||
+			    cut_short(&L[j], &r)) {
+				*pi = i;
+				*pj = j;
+				return 1;
+			}
+	}
+	return 0;
+}
+
+/* Aligns the query's words with the first SIM_STEM_WORDS distinct words
+ * of doc d: qm[i] (dm[j]) is 1 when query word i (document word j) has a
+ * counterpart on the other side, the same word, another form of it, or
+ * a compound of two words of the other side or a piece of one.  The
+ * document's words go to dv; returns their number. */
+static size_t align_words(const sim_work *w, uint32_t d, wview *dv, unsigned char *dm,
+			  unsigned char *qm)
+{
+	const sim_index *x = w->x;
+	wview qv[SIM_QUERY_MAX / 2 + 1];
+	size_t nq = w->qw.n, nd = 0;
+	size_t ws = x->wstart.v[d], we = x->wstart.v[d + 1];
+
+	for (size_t j = ws; j < we && nd < SIM_STEM_WORDS; j++) {
+		uint32_t u = x->wterm.v[j];
+		if (j > ws && u == x->wterm.v[j - 1])
+			continue;
+		dv[nd] = (wview){x->wtext.data + x->woff.v[u], x->wlen.v[u], u};
+		dm[nd++] = 0;
+	}
+	for (size_t i = 0; i < nq; i++) {
+		const qterm *t = &w->qw.v[i];
+		qv[i] = (wview){w->q + t->off, t->len, t->id};
+		qm[i] = 0;
+	}
+	for (size_t i = 0; i < nq; i++)
+		for (size_t j = 0; j < nd; j++)
+			if (same_word(&qv[i], &dv[j]) || cut_short(&qv[i], &dv[j]))
+				qm[i] = dm[j] = 1;
+	if (nq > SIM_PIECE_WORDS || nd > SIM_PIECE_WORDS)
+		return nd;
+	size_t a, b;
+	for (size_t j = 0; j < nd; j++)
+		if (!dm[j] && compound_of(&dv[j], qv, nq, &a, &b))
+			dm[j] = qm[a] = qm[b] = 1;
+	for (size_t i = 0; i < nq; i++)
+		if (!qm[i] && compound_of(&qv[i], dv, nd, &a, &b))
+			qm[i] = dm[a] = dm[b] = 1;
+	return nd;
 }
 
 /* Exact measures of the prepared query against doc d. */
@@ -490,6 +688,10 @@ static void score_doc(const sim_work *w, uint32_t d, sim_hit *hit)
 	if (hit->cos > 1)
 		hit->cos = 1;
 
+	wview dv[SIM_STEM_WORDS];
+	unsigned char dm[SIM_STEM_WORDS], qm[SIM_QUERY_MAX / 2 + 1];
+	size_t nd = align_words(w, d, dv, dm, qm);
+
 	double dlen = (double)(x->wstart.v[d + 1] - x->wstart.v[d]);
 	double bm = 0;
 	double kd = SIM_BM25_K1 * (1 - SIM_BM25_B + SIM_BM25_B * dlen / x->avgdl);
@@ -497,25 +699,32 @@ static void score_doc(const sim_work *w, uint32_t d, sim_hit *hit)
 	ke = x->wstart.v[d + 1];
 	for (size_t i = 0; i < w->qw.n; i++) {
 		uint32_t t = w->qw.v[i].id;
-		if (t == UINT32_MAX)
-			continue;
-		double idf = x->widf[t];
-		while (k < ke && x->wterm.v[k] < t)
-			k++;
-		size_t e = k;
-		while (e < ke && x->wterm.v[e] == t)
-			e++;
-		if (e > k) {
-			double f = (double)(e - k);
-			bm += idf * f * (SIM_BM25_K1 + 1) / (f + kd);
+		size_t f = 0;
+		if (t != UINT32_MAX) {
+			while (k < ke && x->wterm.v[k] < t)
+				k++;
+			size_t e = k;
+			while (e < ke && x->wterm.v[e] == t)
+				e++;
+			f = e - k;
+			k = e;
 		}
-		k = e;
+		if (!f && qm[i])
+			f = 1;
+		if (f)
+			bm += word_idf(x, t) * (double)f * (SIM_BM25_K1 + 1) / ((double)f + kd);
 	}
 	hit->bm25 = bm;
 	hit->bm25n = w->self > 0 ? bm / w->self : 0;
 	if (hit->bm25n > 1)
 		hit->bm25n = 1;
-	hit->s = SIM_W_CHAR * hit->cos + SIM_W_WORD * hit->bm25n;
+	double dall = 0, dhit = 0;
+	for (size_t j = 0; j < nd; j++) {
+		dall += x->widf[dv[j].id];
+		dhit += dm[j] ? x->widf[dv[j].id] : 0;
+	}
+	hit->dcov = dall > 0 ? dhit / dall : 0;
+	hit->s = SIM_W_CHAR * hit->cos + SIM_W_WORD * hit->bm25n * hit->dcov;
 }
 
 int sim_pair(const sim_index *x, sim_work *w, const char *q, size_t n, uint32_t doc,
@@ -589,6 +798,14 @@ int sim_query(const sim_index *x, sim_work *w, const char *q, size_t n,
 	tm_qsort(ord, no, sizeof *ord, cmp_gorder);
 
 	size_t work = 0;
+	/* each posting read touches at most one document: room for all of
+	 * them once, then no check per posting */
+	if (w->touched.cap < SIM_WORK) {
+		uint32_t *v = tm_grow(w->touched.v, &w->touched.cap, SIM_WORK, sizeof *v, SIM_WORK);
+		if (!v)
+			return TM_ENOMEM;
+		w->touched.v = v;
+	}
 	w->touched.n = 0;
 	for (size_t j = 0; j < no; j++) {
 		const qterm *t = &w->qg.v[ord[j].i];
@@ -603,11 +820,8 @@ int sim_query(const sim_index *x, sim_work *w, const char *q, size_t n,
 		const uint32_t *p = x->pdoc + x->pstart[t->id];
 		for (size_t k = 0; k < len; k++) {
 			uint32_t d = p[k];
-			if (w->acc[d] == 0 && push32(&w->touched, d)) {
-				for (size_t i = 0; i < w->touched.n; i++)
-					w->acc[w->touched.v[i]] = 0;
-				return TM_ENOMEM;
-			}
+			if (w->acc[d] == 0)
+				w->touched.v[w->touched.n++] = d;
 			w->acc[d] += x->dnorm[d] > 0 ? qw / x->dnorm[d] : 0;
 		}
 	}

@@ -13,27 +13,51 @@
  *          unit test checks against.  A gram of the query that no document
  *          holds counts in the query's norm with df = 0, so an unknown
  *          word lowers the similarity instead of vanishing.
+ *   words  the query's words and the document's are aligned: two words
+ *          are taken for one when equal; or two forms of one word (a
+ *          shared start of at least SIM_STEM_MIN code points and at
+ *          least SIM_STEM_SHARE of the longer, at most SIM_STEM_TAIL code
+ *          points after it on each side); or one typing slip apart (one
+ *          code point left out, added, changed, or two neighbours
+ *          swapped: Damerau 1964; both at least SIM_TYPO_MIN code
+ *          points); or a query word that no document holds, of
+ *          SIM_CUT_MIN to SIM_CUT_MAX code points, starting a document
+ *          word at most half its length (cut short: "rep").  When both
+ *          sides have at most SIM_PIECE_WORDS words, a word that is the
+ *          compound of two words of the other side (the first as it is,
+ *          the second as it is, another form or cut short; pieces of at
+ *          least SIM_PIECE_MIN bytes) aligns with both.  Only a
+ *          document's first SIM_STEM_WORDS distinct words (by term
+ *          number), each of at most SIM_STEM_BYTES bytes, are compared by
+ *          form.
  *   bm25   Okapi BM25 over whole words (Robertson & Zaragoza 2009):
  *          sum over the query's distinct words t of
  *          idf(t) * f(t,d) (k1 + 1) / (f(t,d) + k1 (1 - b + b |d| / avgdl)),
- *          idf(t) = ln(1 + (N - df + 0.5) / (df + 0.5)), k1 = 1.2, b = 0.75.
+ *          idf(t) = ln(1 + (N - df + 0.5) / (df + 0.5)), k1 = 1.2, b = 0.75;
+ *          f(t,d) is 1 for a word d does not hold but aligns with.
  *          bm25n divides it by the score the query would reach against a
  *          document equal to itself (each word once, |d| = |q|), capped
  *          at 1: a share of the query's word evidence, comparable across
  *          languages and lengths.
+ *   dcov   the share of the idf of the document's distinct words (those
+ *          compared by form) that align with a query word: the
+ *          document's side of the word evidence, so that a neighbour
+ *          whose specific words the query never says ("femme de
+ *          chambre" for "sage femme") is not taken for it.
  *
- * The combined similarity is s = SIM_W_CHAR cos + SIM_W_WORD bm25n, in
- * [0, 1].  Character grams carry typos, inflections and compounds; whole
- * words carry the weight of a word shared exactly, a rare (specific) word
- * more than a common one.
+ * The combined similarity is s = SIM_W_CHAR cos + SIM_W_WORD bm25n dcov,
+ * in [0, 1].  Character grams carry typos, inflections and compounds;
+ * aligned words carry the weight of a word shared, a rare (specific) word
+ * more than a common one, both ways.
  *
  * Search: the postings of the query's grams are read rarest first, at
  * most SIM_WORK postings in all, adding each gram's weight to the
  * documents holding it; the SIM_CANDIDATES documents with the largest sums
  * (ties: the lower document number) are then scored exactly.  So a query
  * costs at most SIM_WORK + SIM_CANDIDATES * (its terms + a document's
- * terms), whatever the index holds; the query is cut to SIM_QUERY_MAX
- * bytes (at a word boundary when there is one) first.
+ * terms + its words * SIM_STEM_WORDS comparisons of at most
+ * SIM_STEM_BYTES bytes), whatever the index holds; the query is cut to
+ * SIM_QUERY_MAX bytes (at a word boundary when there is one) first.
  *
  * Documents are numbered 0, 1, ... in the order they are added.  An index
  * is read-only once sim_finish returned; a sim_work is one query's scratch
@@ -46,18 +70,28 @@
 
 #define SIM_BM25_K1 1.2
 #define SIM_BM25_B 0.75
-#define SIM_W_CHAR 0.7
-#define SIM_W_WORD 0.3
+#define SIM_W_CHAR 0.5
+#define SIM_W_WORD 0.5
 #define SIM_WORK 8000
 #define SIM_CANDIDATES 32
 #define SIM_QUERY_MAX 256
+#define SIM_STEM_MIN 4      /* code points two forms of a word share at least */
+#define SIM_STEM_SHARE 0.6  /* ... and at least this share of the longer */
+#define SIM_STEM_TAIL 4     /* code points each may have after the shared start */
+#define SIM_STEM_WORDS 64   /* words of a document compared by form */
+#define SIM_TYPO_MIN 6      /* code points of a word read with one slip */
+#define SIM_CUT_MIN 3       /* code points of a word read as cut short ... */
+#define SIM_CUT_MAX 5       /* ... up to this many, at most half the word */
+#define SIM_STEM_BYTES 64   /* longer words are compared whole only */
+#define SIM_PIECE_MIN 3     /* bytes of each piece of a compound */
+#define SIM_PIECE_WORDS 8   /* compounds are sought when both sides have at most this many words */
 
 typedef struct sim_index sim_index;
 typedef struct sim_work sim_work;
 
 typedef struct sim_hit {
 	uint32_t doc;
-	double cos, bm25, bm25n, s;
+	double cos, bm25, bm25n, dcov, s;
 } sim_hit;
 
 /* A new, empty index, or NULL when memory ran out. */

@@ -26,7 +26,7 @@
 static char docs[MAXT][128], queries[MAXT][128];
 static int ndocs, nqueries;
 
-typedef struct pair { int q, d; double cos, bm25, bm25n; } pair;
+typedef struct pair { int q, d; double cos, bm25, bm25n, dcov; } pair;
 static pair pairs[MAXT * MAXT];
 static int npairs;
 
@@ -49,8 +49,8 @@ static int setup(void **state)
 			snprintf(queries[nqueries++], sizeof queries[0], "%.120s", line + 6);
 		else if (!strncmp(line, "pair ", 5) && npairs < MAXT * MAXT) {
 			pair *p = &pairs[npairs++];
-			if (sscanf(line + 5, "%d %d %lf %lf %lf", &p->q, &p->d, &p->cos, &p->bm25,
-				   &p->bm25n) != 5)
+			if (sscanf(line + 5, "%d %d %lf %lf %lf %lf", &p->q, &p->d, &p->cos, &p->bm25,
+				   &p->bm25n, &p->dcov) != 6)
 				return -1;
 		}
 	}
@@ -85,11 +85,12 @@ static void test_reference(void **state)
 		assert_int_equal(sim_pair(x, w, queries[p->q], strlen(queries[p->q]), (uint32_t)p->d, &h),
 				 TM_OK);
 		if (fabs(h.cos - p->cos) > 1e-5 || fabs(h.bm25 - p->bm25) > 1e-9 ||
-		    fabs(h.bm25n - p->bm25n) > 1e-9)
-			fail_msg("'%s' vs '%s': cos %.9f bm25 %.9f bm25n %.9f, reference %.9f %.9f %.9f",
-				 queries[p->q], docs[p->d], h.cos, h.bm25, h.bm25n, p->cos, p->bm25,
-				 p->bm25n);
-		assert_true(fabs(h.s - (SIM_W_CHAR * h.cos + SIM_W_WORD * h.bm25n)) < 1e-12);
+		    fabs(h.bm25n - p->bm25n) > 1e-9 || fabs(h.dcov - p->dcov) > 1e-9)
+			fail_msg("'%s' vs '%s': cos %.9f bm25 %.9f bm25n %.9f dcov %.9f, "
+				 "reference %.9f %.9f %.9f %.9f",
+				 queries[p->q], docs[p->d], h.cos, h.bm25, h.bm25n, h.dcov, p->cos,
+				 p->bm25, p->bm25n, p->dcov);
+		assert_true(fabs(h.s - (SIM_W_CHAR * h.cos + SIM_W_WORD * h.bm25n * h.dcov)) < 1e-12);
 	}
 	sim_work_free(w);
 	sim_free(x);
