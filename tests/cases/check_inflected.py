@@ -2,7 +2,12 @@
 
 1. The file is what lexicons/tools/gen-inflected.py writes: its header
    names the script, every line has four columns and a known WHERE, and
-   the Polish forms below are in it.
+   the Polish forms below are in it.  Where the generator's Debian inputs
+   are installed (GEN_PACKAGES), the generator is run on a copy of
+   today's lexicons and its output must equal the committed file byte for
+   byte: an edit of the gazetteer or of any lexicon (whose words make a
+   form `strong`) without regenerating is found here.  Skipped with a
+   notice where they are not (the CI machine does not install them).
 2. Outside check of the Polish rules: Debian's word list `wpolish`
    (/usr/share/dict/polish, from the sjp.pl dictionary) holds the
    inflected forms of many Polish place names.  For every single-word
@@ -27,8 +32,10 @@
 import importlib.util
 import os
 import random
+import shutil
 import subprocess
 import sys
+import tempfile
 
 exe, root = sys.argv[1], sys.argv[2]
 PL_FLOOR = 0.90
@@ -67,6 +74,40 @@ for n, line in enumerate(text, 1):
         continue
     rows.append(cols)
 forms_in_file = {(lang.rstrip("?"), form) for lang, form, _, _ in rows}
+
+# 1b. the generator's output today, where its inputs are installed
+GEN_PACKAGES = ("wamerican wbritish wngerman wfrench wspanish witalian wdutch "
+                "hunspell-hu hunspell-lt hunspell-lv voikko-fi python3-libvoikko")
+gen_inputs = [os.path.join("/usr/share/dict", w) for w in gen.WORDLISTS]
+if all(os.path.exists(p) for p in gen_inputs) and shutil.which("hunspell"):
+    with tempfile.TemporaryDirectory() as tmp:
+        lex = os.path.join(tmp, "lexicons")
+        shutil.copytree(os.path.join(root, "lexicons"), lex)
+        run = subprocess.run([sys.executable,
+                              os.path.join(root, "lexicons/tools/gen-inflected.py"),
+                              "--places", os.path.join(lex, "places")],
+                             stdout=subprocess.PIPE, stderr=subprocess.PIPE)
+        if run.returncode != 0:
+            print("  generator not run: " +
+                  run.stderr.decode("utf-8", "replace").strip().split("\n")[-1])
+        else:
+            with open(os.path.join(lex, "places/inflected.txt"), encoding="utf-8") as f:
+                fresh = f.read().split("\n")
+            if fresh != text:
+                old_set, new_set = set(text), set(fresh)
+                gone = sorted(old_set - new_set)
+                added = sorted(new_set - old_set)
+                first = (added + gone)[0]
+                problems.append(f"{path}: not what the generator writes from today's "
+                                f"lexicons ({len(added)} lines missing, {len(gone)} "
+                                f"extra; first: {first!r}): regenerate with "
+                                "/usr/bin/python3 lexicons/tools/gen-inflected.py "
+                                "--places lexicons/places")
+            else:
+                print("  generator: the committed file is what it writes today")
+else:
+    print("  generator not run (its inputs: apt-get install " + GEN_PACKAGES +
+          "): freshness of inflected.txt not checked")
 
 # 2. Polish forms against wpolish
 gaz = gen.read_places(os.path.join(root, "lexicons/places"),
