@@ -129,7 +129,8 @@ int remove_place_segment(tm_title *ti, size_t s);
 int head_within(tm_title *ti, size_t k0, size_t k1);
 /* The first unit of the link phrase (units/, value `link`: "of",
  * "der", "van", "de la") that ends at unit k1 of [k0, k1), kept and
- * unprotected, with a kept unit before it; k1 when none.  A link word
+ * unprotected, with a kept unit before it (past a removed gender suffix:
+ * "Камериер/ка за"); k1 when none.  A link word
  * joins the word before it to the one after it ("Leiter der Region",
  * "cueillette des cerises", "Medico di base"): it never ends a title,
  * and what follows it is the complement of what precedes it. */
