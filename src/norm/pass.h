@@ -48,6 +48,9 @@
  * looked for at most LINK_WORDS_MAX units before a segment's end: the
  * longest the lexicon holds. */
 #define LINK_WORDS_MAX 3
+/* The word a link joins may end in a removed gender suffix ("Камериер/ка
+ * за"): at most LINK_GENDER_SKIP_MAX removed units are stepped over. */
+#define LINK_GENDER_SKIP_MAX 2
 /* A phrase of the peeled lexicons is kept when a link word follows it,
  * directly or after at most PHRASE_CHAIN_MAX more such phrases
  * ("Saisonnier cueillette des cerises"): the words it heads go on. */

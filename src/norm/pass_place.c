@@ -599,7 +599,8 @@ size_t link_ends(tm_title *ti, size_t k0, size_t k1)
 			continue;
 		/* the word it joins may end in a removed gender suffix:
 		 * "Камериер/ка за [сезон]" */
-		while (p > k0 && !ukept(ti, p) && ti->rm[ti->unit[p]] == NF_GENDER)
+		for (int n = 0; n < LINK_GENDER_SKIP_MAX && p > k0 && !ukept(ti, p) &&
+				ti->rm[ti->unit[p]] == NF_GENDER; n++)
 			p--;
 		if (ukept(ti, p))
 			return k;
