@@ -48,6 +48,9 @@
  * looked for at most LINK_WORDS_MAX units before a segment's end: the
  * longest the lexicon holds. */
 #define LINK_WORDS_MAX 3
+/* The word a link joins may end in a removed gender suffix ("Камериер/ка
+ * за"): at most LINK_GENDER_SKIP_MAX removed units are stepped over. */
+#define LINK_GENDER_SKIP_MAX 2
 /* A phrase of the peeled lexicons is kept when a link word follows it,
  * directly or after at most PHRASE_CHAIN_MAX more such phrases
  * ("Saisonnier cueillette des cerises"): the words it heads go on. */
@@ -129,7 +132,8 @@ int remove_place_segment(tm_title *ti, size_t s);
 int head_within(tm_title *ti, size_t k0, size_t k1);
 /* The first unit of the link phrase (units/, value `link`: "of",
  * "der", "van", "de la") that ends at unit k1 of [k0, k1), kept and
- * unprotected, with a kept unit before it; k1 when none.  A link word
+ * unprotected, with a kept unit before it (past a removed gender suffix:
+ * "Камериер/ка за"); k1 when none.  A link word
  * joins the word before it to the one after it ("Leiter der Region",
  * "cueillette des cerises", "Medico di base"): it never ends a title,
  * and what follows it is the complement of what precedes it. */

@@ -402,8 +402,9 @@ static size_t month_start(tm_title *ti, size_t k)
 	return k;
 }
 
-/* A head count at k: "5 posts", "3 Stellen", "10 postes", "x2".  Returns
- * its end (exclusive), or 0. */
+/* A head count at k: "5 posts", "3 Stellen", "10 postes", "x2", or the
+ * count of the persons a carer looks after ("2 lapsele", "за 2 деца":
+ * units/, value `charge`).  Returns its end (exclusive), or 0. */
 static size_t head_count(tm_title *ti, size_t k)
 {
 	size_t len, e;
@@ -421,7 +422,7 @@ static size_t head_count(tm_title *ti, size_t k)
 	if (!num_at(ti, k))
 		return 0;
 	e = k + 1;
-	if (!unit_val(ti, e, "post", &len))
+	if (!unit_val(ti, e, "post", &len) && !unit_val(ti, e, "charge", &len))
 		return 0;
 	return e + len;
 }

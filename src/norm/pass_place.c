@@ -592,10 +592,19 @@ size_t link_ends(tm_title *ti, size_t k0, size_t k1)
 	size_t len;
 	if (!HAS(ti, LC_UNIT))
 		return k1;
-	for (size_t k = k1 - 1; k > k0 && k1 - k <= LINK_WORDS_MAX; k--)
-		if (match_val(ti, k, LC_UNIT, "link", 1, &len) && k + len == k1 &&
-		    units_free(ti, k, k1) && ukept(ti, k - 1))
+	for (size_t k = k1 - 1; k > k0 && k1 - k <= LINK_WORDS_MAX; k--) {
+		size_t p = k - 1;
+		if (!match_val(ti, k, LC_UNIT, "link", 1, &len) || k + len != k1 ||
+		    !units_free(ti, k, k1))
+			continue;
+		/* the word it joins may end in a removed gender suffix:
+		 * "Камериер/ка за [сезон]" */
+		for (int n = 0; n < LINK_GENDER_SKIP_MAX && p > k0 && !ukept(ti, p) &&
+				ti->rm[ti->unit[p]] == NF_GENDER; n++)
+			p--;
+		if (ukept(ti, p))
 			return k;
+	}
 	return k1;
 }
 
