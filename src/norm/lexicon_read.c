@@ -37,7 +37,7 @@ static const char *const v_location[] = {"prep", "before", "after",
 					 "country-code", "subdivision", NULL};
 static const char *const v_unit[] = {"hours", "week", "month", "year", "day", "contact",
 				     "workload", "fte",
-				     "connector", "degree", "weekday", "monthname", "post", "charge", "star",
+				     "connector", "degree", "weekday", "monthname", "post", "star",
 				     "channel", "with", "work", "link", "need", NULL};
 static const char *const v_occupation[] = {"head", "suffix", "field", NULL};
 static const char *const v_business[] = {"kind", "legal", "article", NULL};

@@ -37,6 +37,10 @@
  * ending it is looked for at most NEED_WORDS_MAX units back. */
 #define NEED_SEG_MAX 6
 #define NEED_WORDS_MAX 3
+/* A day alone as the whole of a segment beside the occupation
+ * ("Kassierer – Samstag") is a schedule when written out: a word of at
+ * least DAY_NAME_MIN bytes (abbreviations are also codes: SAT, VR). */
+#define DAY_NAME_MIN 4
 /* A British outward code alone ("Leicester LE1") is a postcode only
  * right after a place phrase, which starts at most POSTCODE_PLACE_BACK
  * units before it. */

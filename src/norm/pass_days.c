@@ -404,7 +404,7 @@ static size_t month_start(tm_title *ti, size_t k)
 
 /* A head count at k: "5 posts", "3 Stellen", "10 postes", "x2", or the
  * count of the persons a carer looks after ("2 lapsele", "за 2 деца":
- * units/, value `charge`).  Returns its end (exclusive), or 0. */
+ * units/, value `post` too).  Returns its end (exclusive), or 0. */
 static size_t head_count(tm_title *ti, size_t k)
 {
 	size_t len, e;
@@ -422,7 +422,7 @@ static size_t head_count(tm_title *ti, size_t k)
 	if (!num_at(ti, k))
 		return 0;
 	e = k + 1;
-	if (!unit_val(ti, e, "post", &len) && !unit_val(ti, e, "charge", &len))
+	if (!unit_val(ti, e, "post", &len))
 		return 0;
 	return e + len;
 }
@@ -434,6 +434,19 @@ static int at_seg_edge(tm_title *ti, size_t k, size_t e)
 	size_t k0, k1;
 	seg_kept(ti, useg(ti, k), &k0, &k1);
 	return k == k0 || e == k1;
+}
+
+/* Are units [k, e), a day, the whole of a segment's kept units, a
+ * segment that is not the title's first, and the day written out: one
+ * word of at least DAY_NAME_MIN bytes ("Samstag", "domingo"; "SAT",
+ * "(VR)", "(Sun)" may be codes or fields)? */
+static int side_segment(tm_title *ti, size_t k, size_t e)
+{
+	size_t k0, k1, s = useg(ti, k);
+	const tm_tok *t = U(ti, k);
+	seg_kept(ti, s, &k0, &k1);
+	return k == k0 && e == k1 && e == k + 1 && ti->segs[s].index > 0 &&
+	       t->kind == TK_WORD && t->flen >= DAY_NAME_MIN;
 }
 
 int pass_days(tm_title *ti)
@@ -454,6 +467,15 @@ int pass_days(tm_title *ti)
 		/* a day is a word of units/: most units are none */
 		range = 0;
 		e = ti->ucats[k] & (1u << LC_UNIT) ? day_phrase(ti, k, &range) : 0;
+		/* one day alone is a word (Sunday school), unless it is the
+		 * whole of a segment beside the occupation ("Kassierer –
+		 * Samstag", "Aushilfe (Samstag)") */
+		if (e && !range && side_segment(ti, k, e) && !last_word(ti, k, e)) {
+			if (remove_units(ti, k, e, NF_HOURS, NULL))
+				return -1;
+			k = e - 1;
+			continue;
+		}
 		if ((!e || !range) && (ti->ucats[k] & (1u << LC_UNIT))) {
 			/* a short day name of another language ("po–pá",
 			 * "ma–pe") counts when its hours follow (numbers:

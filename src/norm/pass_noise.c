@@ -177,6 +177,16 @@ static int channel(tm_title *ti, size_t k0, size_t k1)
 	return 0;
 }
 
+/* Does a kept unit of [k0, k1) name an occupation: an occupational
+ * ending, a word of occupation/, a head phrase or a protected one? */
+static int occ_within(tm_title *ti, size_t k0, size_t k1)
+{
+	for (size_t k = k0; k < k1; k++)
+		if (ukept(ti, k) && (ti->uend[k] || (ti->ucats[k] & (1u << LC_OCCUPATION))))
+			return 1;
+	return head_within(ti, k0, k1);
+}
+
 /* Units [k0, k1), the kept words of segment s, are a requirement: a
  * segment beside the occupation (not the head, nor the head going on
  * after a bracket) of at most NEED_SEG_MAX units that a requirement
@@ -194,6 +204,10 @@ static int need_segment(tm_title *ti, size_t s, size_t k0, size_t k1)
 	int need = 0;
 
 	if (ti->segs[s].index == 0 || k1 - k0 > NEED_SEG_MAX)
+		return 0;
+	/* the only segment naming an occupation is the head, whatever
+	 * noise came before it: "URGENT: Electrician needed" */
+	if (occ_within(ti, k0, k1) && !occ_within(ti, 0, k0) && !occ_within(ti, k1, ti->nunit))
 		return 0;
 	/* opening it, only where no word names an occupation: "Approved
 	 * Electrician" is a grade of the trade */

@@ -296,6 +296,20 @@ static int district_after(tm_title *ti, size_t e, size_t k, size_t *len)
 	return 1;
 }
 
+/* Is unit e, right after the place run from unit k, a district glued to
+ * its city with a hyphen that ends its segment, "in Köln-Ehrenfeld":
+ * one capitalised word that no lexicon but the gazetteer knows? */
+static int glued_district(tm_title *ti, size_t k, size_t e)
+{
+	size_t k0, k1;
+	if (e >= ti->nunit || useg(ti, e) != useg(ti, k) || !ukept(ti, e) ||
+	    ti->prot[ti->unit[e]] || U(ti, e)->kind != TK_WORD || !cap_word(ti, e) ||
+	    !glued(ti, e - 1, e, "-") || (ti->ucats[e] & ~(1u << LC_PLACE)))
+		return 0;
+	seg_kept(ti, useg(ti, e), &k0, &k1);
+	return e + 1 == k1;
+}
+
 /* From unit k (a place), the end of a run of places joined by
  * connectors or slashes: Köln/Bonn, Köln und Bonn. */
 size_t place_run(tm_title *ti, size_t k, size_t plen, int allow_strong)
@@ -314,6 +328,8 @@ size_t place_run(tm_title *ti, size_t k, size_t plen, int allow_strong)
 		else
 			break;
 	}
+	if (glued_district(ti, k, e))
+		e++;
 	if (after_word(ti, e, k, &len))
 		e += len;
 	else if (district_after(ti, e, k, &len))
