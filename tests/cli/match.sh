@@ -75,6 +75,16 @@ check json-similar "similar Lagerist True" "$(sed -n 2p "$tmp/j")"
 check json-title "title 4 3 True" "$(sed -n 3p "$tmp/j")"
 check json-range True "$(sed -n 4p "$tmp/j")"
 
+# via acronym: "FD" is no word of a label but the initials of Forklift
+# Driver; TSV and --json with its fit and share
+check acronym-tsv "occ:8344	Forklift Driver	acronym	Forklift Driver" \
+	"$(echo FD | $T match --labels "$tmp/labels.tsv" | sed -n 2p | cut -f 3,4,6,7)"
+check acronym-json "acronym en 1.0 1.0 True" "$(echo FD | $T match --labels "$tmp/labels.tsv" --json |
+	/usr/bin/python3 -c 'import json, sys
+c = json.loads(sys.stdin.read())["candidates"][0]
+e = c["evidence"]
+print(c["via"], e["label_lang"], e["fit"], e["acronym_share"], 0.3 < c["score"] < 0.8)')"
+
 # ties are broken by occupation id: two occupations with the same label only
 printf 'occupation\tkind\tlang\tlabel\nocc:b\tpref\ten\tTester\nocc:a\tpref\ten\tTester\n' > "$tmp/tie.tsv"
 check tie "occ:a occ:b" "$(echo tester | $T match --labels "$tmp/tie.tsv" --json 2>/dev/null |
