@@ -9,7 +9,7 @@
  * not depend on the order the labels or counts were read in (the memory
  * engine and a store give the same bytes).
  *
- * A query key q (from the normaliser) is looked up in four ways; each
+ * A query key q (from the normaliser) is looked up in five ways; each
  * candidate occupation keeps the best score any of them gives it, with
  * that way as its `via` (ties between ways: the earlier one below):
  *
