@@ -105,6 +105,37 @@ int acro_shape(const char *word, size_t n)
 	return 1;
 }
 
+/* How much of the document's words and of the query's words an acronym
+ * run explains: the run's words and the words the two share outside it
+ * (the query's acronym word qa excluded), as a share of each side. */
+double acro_fit(const char *const *qw, const size_t *qwl, size_t nq, size_t qa,
+		       const char *key, size_t kl, const acro_ent *r)
+{
+	const char *dw[ACRO_WORDS];
+	size_t dwl[ACRO_WORDS], nd = acro_words(key, kl, dw, dwl, ACRO_WORDS);
+	size_t dx = r->nw, qx = 1;
+	for (size_t i = 0; i < nd; i++) {
+		if (i >= r->first && i < (size_t)r->first + r->nw)
+			continue;
+		for (size_t j = 0; j < nq; j++)
+			if (j != qa && qwl[j] == dwl[i] && !memcmp(qw[j], dw[i], dwl[i])) {
+				dx++;
+				break;
+			}
+	}
+	for (size_t j = 0; j < nq; j++) {
+		if (j == qa)
+			continue;
+		for (size_t i = 0; i < nd; i++)
+			if ((i < r->first || i >= (size_t)r->first + r->nw) && qwl[j] == dwl[i] &&
+			    !memcmp(qw[j], dw[i], dwl[i])) {
+				qx++;
+				break;
+			}
+	}
+	return (double)dx / (double)(nd ? nd : 1) * (double)qx / (double)nq;
+}
+
 /* ---- the table ---- */
 
 typedef struct tmp_ent { uint32_t id; acro_ent e; } tmp_ent;

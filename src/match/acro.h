@@ -45,14 +45,24 @@ size_t acro_keys(const char *key, size_t n, acro_key *out);
  * (the first max).  Words are split at spaces and ASCII punctuation. */
 size_t acro_words(const char *key, size_t n, const char **w, size_t *wl, size_t max);
 
-/* The acronym table: acronym -> the runs of the documents it abbreviates,
- * and the words the documents hold.  Documents are added in their order
- * (numbers rising); acro_finish before any lookup. */
+/* A run of a document's words: its first word and how many. */
 typedef struct acro_ent {
 	uint32_t doc;
 	uint8_t first, nw;
 } acro_ent;
 
+/* How much of a document's words and of the query's words the run r of
+ * key[0..kl) explains, the query's words qw[0..nq) reading qw[qa] as the
+ * acronym: (the run's words and the words the two share outside it, over
+ * the document's words) x (the acronym and the query's words the document
+ * holds outside the run, over the query's words).  Words as acro_words,
+ * the first ACRO_WORDS of each. */
+double acro_fit(const char *const *qw, const size_t *qwl, size_t nq, size_t qa,
+		const char *key, size_t kl, const acro_ent *r);
+
+/* The acronym table: acronym -> the runs of the documents it abbreviates,
+ * and the words the documents hold.  Documents are added in their order
+ * (numbers rising); acro_finish before any lookup. */
 typedef struct acro_index acro_index;
 
 acro_index *acro_new(void);

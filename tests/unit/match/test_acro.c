@@ -106,12 +106,34 @@ static void test_table(void **state)
 	acro_free(NULL);
 }
 
+/* The fit: the run's words and the words shared outside it, over each
+ * side's words. */
+static void test_fit(void **state)
+{
+	(void)state;
+	const char *q[3];
+	size_t ql[3];
+	const char *doc = "chauffeur poids lourd";
+	acro_ent r = {0, 1, 2}; /* poids lourd */
+	size_t nq = acro_words("chauffeur pl", 12, q, ql, 3);
+	assert_float_equal(acro_fit(q, ql, nq, 1, doc, strlen(doc), &r), 1.0, 1e-12);
+	nq = acro_words("pl", 2, q, ql, 3); /* chauffeur unexplained */
+	assert_float_equal(acro_fit(q, ql, nq, 0, doc, strlen(doc), &r), 2.0 / 3, 1e-12);
+	nq = acro_words("pl nuit", 7, q, ql, 3); /* and nuit */
+	assert_float_equal(acro_fit(q, ql, nq, 0, doc, strlen(doc), &r), 2.0 / 3 * 0.5, 1e-12);
+	/* a word of the run the query also says is not counted twice:
+	 * (2 + 0) / 3 of the document, 1 / 2 of the query */
+	nq = acro_words("lourd pl", 8, q, ql, 3);
+	assert_float_equal(acro_fit(q, ql, nq, 1, doc, strlen(doc), &r), 1.0 / 3, 1e-12);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
 		cmocka_unit_test(test_keys),
 		cmocka_unit_test(test_shape),
 		cmocka_unit_test(test_table),
+		cmocka_unit_test(test_fit),
 	};
 	return cmocka_run_group_tests(tests, NULL, NULL);
 }
