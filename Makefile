@@ -40,7 +40,7 @@ SRC_norm = unicode token lexicon lexicon_read lexicon_image lexcache setup title
 SRC_count = strtab idset tally_mem series chunk store load store_redis store_redis_url store_redis_keys store_redis_chunk \
 	store_redis_apply store_redis_dump cluster slot
 SRC_rank = stats labels labkeys inputs coverage propose trend groups overlap
-SRC_match = sim match code
+SRC_match = sim match code acro
 SRC_review = review_item review_json review_change review_batch review_time review_clash review_noise review_trend \
 	queue queue_file \
 	store_redis_queue delta

@@ -67,7 +67,8 @@ static const opt_cmd match_cmd = {
 	"on the labels (via label), on the counted titles with the share of their\n"
 	"postings coded to each occupation (via title), the same ignoring separators\n"
 	"and compounding (via variant), else by similarity (TF-IDF character 3-grams\n"
-	"and word BM25, via similar).  Scores run from 0 to 1 (see README.md).  One\n"
+	"and word BM25, via similar), and a word such as RN or CSR as the initials of\n"
+	"a label's or a title's words (via acronym).  Scores run from 0 to 1 (see README.md).  One\n"
 	"line out per line in: TSV with a header, the best candidate (empty fields\n"
 	"when none reaches --min-score), or with --json the --top best.  Reads the\n"
 	"FILEs, or standard input ('-').\n"
@@ -156,9 +157,17 @@ static void json_line(run *R, const char *text, size_t tn, const norm_result *re
 		buf_puts(b, ",\"matched\":");
 		json_str(b, c[i].matched, c[i].ml);
 		buf_puts(b, ",\"evidence\":{");
-		if ((c[i].via == VIA_LABEL || c[i].via == VIA_VARIANT) && c[i].lang[0]) {
+		if ((c[i].via == VIA_LABEL || c[i].via == VIA_VARIANT || c[i].via == VIA_ACRONYM) &&
+		    c[i].lang[0]) {
 			buf_puts(b, "\"label_lang\":");
 			json_str(b, c[i].lang, strlen(c[i].lang));
+			buf_putc(b, ',');
+		}
+		if (c[i].via == VIA_ACRONYM) {
+			buf_puts(b, "\"fit\":");
+			json_num(b, c[i].afit);
+			buf_puts(b, ",\"acronym_share\":");
+			json_num(b, c[i].ashare);
 			buf_putc(b, ',');
 		}
 		if (c[i].via == VIA_SIMILAR) {

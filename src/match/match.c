@@ -3,6 +3,7 @@
 #include <string.h>
 
 #include "core/err.h"
+#include "match/acro.h"
 #include "match/match.h"
 #include "match/sim.h"
 #include "rank/stats.h"
@@ -39,6 +40,7 @@ struct match_index {
 	uint32_t *gdoc;
 	sim_index *sim;
 	uint32_t *simdoc;       /* similarity document -> document */
+	acro_index *acro;       /* acronyms of the searched documents */
 };
 
 struct match_work {
@@ -57,6 +59,13 @@ struct match_work {
 	uint64_t kn;            /* postings of the loaded key */
 	sim_hit hits[MATCH_SIM_HITS];
 	tm_buf cbuf;
+	struct acro_occ { /* the acronym path's occupations, best run each */
+		uint32_t occ;
+		double fit, ev;
+		const char *text, *lang;
+		size_t len;
+		uint64_t k, n;
+	} aocc[MATCH_ACRO_RUNS];
 };
 
 const char *match_via_name(match_via v)
@@ -66,6 +75,7 @@ const char *match_via_name(match_via v)
 	case VIA_VARIANT: return "variant";
 	case VIA_TITLE: return "title";
 	case VIA_SIMILAR: return "similar";
+	case VIA_ACRONYM: return "acronym";
 	}
 	return "";
 }
@@ -410,7 +420,7 @@ static uint64_t doc_postings(const match_index *ix, size_t d)
 static int build_sim(match_index *ix, const match_conf *conf)
 {
 	size_t ns = 0;
-	if (!(ix->sim = sim_new()))
+	if (!(ix->sim = sim_new()) || !(ix->acro = acro_new()))
 		return TM_ENOMEM;
 	ix->simdoc = malloc((ix->ndoc ? ix->ndoc : 1) * sizeof *ix->simdoc);
 	if (!ix->simdoc)
@@ -420,10 +430,12 @@ static int build_sim(match_index *ix, const match_conf *conf)
 			continue;
 		size_t n;
 		const char *s = st_key(&ix->docs, ix->entry[d], &n);
-		if (sim_add(ix->sim, s, n))
+		if (sim_add(ix->sim, s, n) || acro_add(ix->acro, (uint32_t)d, s, n))
 			return TM_ENOMEM;
 		ix->simdoc[ns++] = (uint32_t)d;
 	}
+	if (acro_finish(ix->acro))
+		return TM_ENOMEM;
 	return sim_finish(ix->sim);
 }
 
@@ -484,6 +496,7 @@ void match_free(match_index *ix)
 	free(ix->gdoc);
 	sim_free(ix->sim);
 	free(ix->simdoc);
+	acro_free(ix->acro);
 	free(ix);
 }
 
@@ -494,7 +507,8 @@ void match_stats(const match_index *ix, size_t *docs, size_t *nsim, size_t *byte
 	*bytes = st_bytes(&ix->occs) + st_bytes(&ix->langs) + st_bytes(&ix->docs) +
 		 st_bytes(&ix->compact) + ix->ndoc * (4 * 4 + 3 * 8) +
 		 ix->lstart[ix->ndoc] * sizeof *ix->lab + ix->cstart[ix->ndoc] * sizeof *ix->cnt +
-		 ix->tstart[ix->ndoc] * sizeof *ix->tot + ix->text.cap + sim_bytes(ix->sim);
+		 ix->tstart[ix->ndoc] * sizeof *ix->tot + ix->text.cap + sim_bytes(ix->sim) +
+		 acro_bytes(ix->acro);
 }
 
 /* ---- queries ---- */
@@ -715,6 +729,84 @@ static int similar(match_work *w, const char *key, size_t kl, const char *lang, 
 	return TM_OK;
 }
 
+/* The best acronym evidence of occupation occ so far, kept in w->aocc. */
+static void acro_offer(match_work *w, size_t *na, uint32_t occ, double fit, double ev,
+		       const char *text, size_t len, const char *lang, uint64_t k, uint64_t n)
+{
+	size_t i = 0;
+	while (i < *na && w->aocc[i].occ != occ)
+		i++;
+	if (i == *na) {
+		if (*na == MATCH_ACRO_RUNS)
+			return;
+		(*na)++;
+		w->aocc[i].fit = -1;
+	}
+	if (fit * ev > w->aocc[i].fit * w->aocc[i].ev)
+		w->aocc[i] = (struct acro_occ){occ, fit, ev, text, lang, len, k, n};
+}
+
+/* The acronym path (match.h): the first word of the key shaped like an
+ * acronym that no searched document holds, and the runs it abbreviates. */
+static int acronym(match_work *w, const char *key, size_t kl, const char *lang, long lid)
+{
+	const match_index *ix = w->ix;
+	const char *qw[ACRO_WORDS];
+	size_t qwl[ACRO_WORDS], nq = acro_words(key, kl, qw, qwl, ACRO_WORDS), qa = 0, nr, na = 0;
+	double sum = 0;
+
+	while (qa < nq && (!acro_shape(qw[qa], qwl[qa]) || acro_is_word(ix->acro, qw[qa], qwl[qa])))
+		qa++;
+	if (qa == nq)
+		return TM_OK;
+	const acro_ent *r = acro_find(ix->acro, qw[qa], qwl[qa], &nr);
+	if (!nr || nr > MATCH_ACRO_RUNS)
+		return TM_OK; /* none, or too many to mean anything */
+	for (size_t j = 0; j < nr; j++) {
+		size_t d = r[j].doc, dl;
+		const char *dk = doc_key(ix, d, &dl);
+		double fit = acro_fit(qw, qwl, nq, qa, dk, dl, &r[j]);
+		load_counts(w, d, lid);
+		for (size_t i = ix->lstart[d]; i < ix->lstart[d + 1]; i++) {
+			const mlabel *l = &ix->lab[i];
+			double lam = lang && strcmp(l->lang, lang) && strcmp(l->lang, "und") ? MATCH_OTHER_LANG : 1.0;
+			uint64_t k = w->kocc[l->occ];
+			double p = w->kn ? (double)(k < w->kn ? k : w->kn) / (double)w->kn : 0;
+			acro_offer(w, &na, l->occ, fit, lam * (MATCH_LABEL_BASE + MATCH_LABEL_MARKET * p),
+				   ix->text.data + l->off, l->len, l->lang, k, w->kn);
+		}
+		for (size_t i = 0; i < w->nktouch; i++) {
+			uint32_t occ = w->ktouch[i];
+			uint64_t k = w->kocc[occ], n = w->kn < k ? k : w->kn;
+			double lo, hi;
+			wilson(k, n, STATS_Z95, &lo, &hi);
+			acro_offer(w, &na, occ, fit, MATCH_TITLE_BASE + MATCH_TITLE_SPAN * lo, dk, dl, "", k, n);
+		}
+		clear_counts(w);
+	}
+	for (size_t i = 0; i < na; i++)
+		sum += w->aocc[i].fit;
+	double chance = acro_chance(ix->acro, qwl[qa]);
+	for (size_t i = 0; i < na; i++) {
+		const struct acro_occ *a = &w->aocc[i];
+		double sc = MATCH_ACRO_SPAN * (1 - chance) * a->ev * a->fit * (a->fit / sum);
+		match_cand *c = cand_of(w, a->occ);
+		if (!c)
+			return TM_ENOMEM;
+		if (sc > c->score) {
+			c->score = sc;
+			c->via = VIA_ACRONYM;
+			c->matched = a->text;
+			c->ml = a->len;
+			c->lang = a->lang;
+			c->afit = a->fit;
+			c->ashare = a->fit / sum;
+			put_counts(c, a->k, a->n);
+		}
+	}
+	return TM_OK;
+}
+
 static int cmp_cand(const void *a, const void *b)
 {
 	const match_cand *x = *(const match_cand *const *)a, *y = *(const match_cand *const *)b;
@@ -756,6 +848,8 @@ int match_find(const match_index *ix, match_work *w, const char *key, size_t kl,
 		rc = TM_ENOMEM;
 	if (!rc)
 		rc = similar(w, key, kl, lang, lid, exact, group, min_score);
+	if (!rc)
+		rc = acronym(w, key, kl, lang, lid);
 	if (!rc && w->capout < w->ncand) {
 		size_t cap = w->capout;
 		const match_cand **v = tm_grow(w->out, &cap, w->ncand, sizeof *v, 16);

@@ -9,7 +9,7 @@
  * not depend on the order the labels or counts were read in (the memory
  * engine and a store give the same bytes).
  *
- * A query key q (from the normaliser) is looked up in four ways; each
+ * A query key q (from the normaliser) is looked up in five ways; each
  * candidate occupation keeps the best score any of them gives it, with
  * that way as its `via` (ties between ways: the earlier one below):
  *
@@ -39,6 +39,18 @@
  *            the MATCH_SIM_HITS nearest documents whose MATCH_SIM_SPAN * s
  *            reaches the query's min_score).  The exact and variant
  *            documents are not neighbours.
+ *   acronym  the first word of q of ACRO_MIN to ACRO_MAX ASCII letters
+ *            that no searched document holds as a word is read as an
+ *            acronym (acro.h): each searched document with a run of
+ *            words it abbreviates gives its occupations their label or
+ *            title score e as above, times fit = (the run's words and
+ *            the words the document shares with q outside it, over the
+ *            document's words) x (the acronym and the words of q the
+ *            document holds outside the run, over q's words); per
+ *            occupation its best run; the occupations share the mass:
+ *            score = MATCH_ACRO_SPAN * e * fit * fit / (the sum of the
+ *            occupations' fits).  An acronym of more than MATCH_ACRO_RUNS
+ *            runs is not looked up.
  *
  * Languages: with a hint L (a primary subtag), the counts of q in L are
  * used when q was counted in L, else its counts in all languages
@@ -52,7 +64,11 @@
  * a title seen once; a similar candidate at most MATCH_SIM_SPAN (0.9) times
  * sim.h's s: the query's weighted grams the neighbour shares, and the
  * words the two share as a share of each side's word evidence (cos and
- * bm25n are normalised by the query, dcov by the neighbour).
+ * bm25n are normalised by the query, dcov by the neighbour); an
+ * acronym candidate at most MATCH_ACRO_SPAN (0.8) times the label or title
+ * score, 0.72 for an acronym that abbreviates one label of one
+ * occupation and nothing else, halved when it is the only word of two it
+ * explains, or when two occupations share it.
  *
  * Ownership: a match_index copies what it needs from the labels and the
  * counts (both may be freed after match_build).  Candidates returned by
@@ -79,13 +95,15 @@
 #define MATCH_NEAR 3           /* neighbours kept as a similar candidate's evidence */
 #define MATCH_SIM_HITS 32      /* neighbours read per query */
 #define MATCH_SIM_MIN_POSTINGS 2
+#define MATCH_ACRO_SPAN 0.80
+#define MATCH_ACRO_RUNS 64     /* an acronym abbreviating more runs is not looked up */
 #define MATCH_TOP_MAX 100
 /* The default bars: what match shows (--min-score), and what tally
  * --code-missing takes as a code (higher: a code changes the counts). */
 #define MATCH_MIN_SCORE_SHOW 0.3
 #define MATCH_MIN_SCORE_CODE 0.5
 
-typedef enum match_via { VIA_LABEL = 1, VIA_VARIANT, VIA_TITLE, VIA_SIMILAR } match_via;
+typedef enum match_via { VIA_LABEL = 1, VIA_VARIANT, VIA_TITLE, VIA_SIMILAR, VIA_ACRONYM } match_via;
 
 const char *match_via_name(match_via v);
 
@@ -119,6 +137,7 @@ typedef struct match_cand {
 	const char *lang;      /* label: the label's language; "" otherwise */
 	match_near near[MATCH_NEAR];
 	int nnear;
+	double afit, ashare;   /* acronym: the run's fit and its share */
 	uint32_t id;           /* the occupation's number in the index */
 } match_cand;
 

@@ -3,7 +3,7 @@
 written apart from the code and from tests/bench/gen_titles.py
 (tests/data/match-unseen: its README says how).
 
-  match_unseen.py TITLEMILL DATADIR WORKDIR [--per-cause]
+  match_unseen.py TITLEMILL DATADIR WORKDIR [--per-cause] [--queries FILE]
                   [--floors TOP1 TOP3 TOP1SHOWN NONE_P90 NONE_SHOWN]
 
 Counts DATADIR/postings.tsv with titlemill tally, then matches each line
@@ -16,7 +16,9 @@ median, 90th percentile and largest best score, and how many reach the
 default --min-score.  --floors exits 1 when top-1, top-3 or top-1 shown
 falls below its floor, or the no-match 90th percentile or count shown
 rises above its ceiling.  --per-cause adds the figures by cause and the
-lines coded wrong.
+lines coded wrong.  --queries FILE reads the queries from FILE instead
+(tests/data/match-acronym/queries.tsv: acronyms and short forms, against
+the same labels and postings).
 """
 import json
 import subprocess
@@ -26,9 +28,9 @@ import sys
 MIN_SCORE_SHOW = 0.3  # src/match/match.h MATCH_MIN_SCORE_SHOW
 
 
-def run(tm, d, work):
+def run(tm, d, work, qfile):
     rows = []
-    with open(f"{d}/queries.tsv", encoding="utf-8") as f:
+    with open(qfile, encoding="utf-8") as f:
         next(f)
         for line in f:
             text, expect, cause = line.rstrip("\n").split("\t")
@@ -46,7 +48,10 @@ def run(tm, d, work):
 
 def main():
     tm, d, work = sys.argv[1], sys.argv[2], sys.argv[3]
-    rows, res = run(tm, d, work)
+    qfile = f"{d}/queries.tsv"
+    if "--queries" in sys.argv:
+        qfile = sys.argv[sys.argv.index("--queries") + 1]
+    rows, res = run(tm, d, work, qfile)
     n = t1 = t3 = t1ok = 0
     none_scores = []
     causes = {}

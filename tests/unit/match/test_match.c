@@ -295,6 +295,59 @@ static void test_empty(void **state)
 	close_fixture(&f);
 }
 
+/* The acronym path: a word shaped like an acronym that no document holds,
+ * read as the initials of a run of words; the occupations sharing it
+ * share the mass; a word of a label ("it") is never an acronym. */
+static const char ACRO_LABELS[] =
+	"occupation\tkind\tlang\tlabel\n"
+	"occ:1\tpref\ten\tRegistered Nurse\n"
+	"occ:2\tpref\ten\tCustomer Service Representative\n"
+	"occ:3\tpref\ten\tCustomer Support Representative\n"
+	"occ:4\tpref\ten\tIT Administrator\n";
+
+static void test_acronym(void **state)
+{
+	(void)state;
+	fixture f;
+	const match_cand *c;
+	/* the two-letter acronyms: rn, cs, sr, ia; the three-letter: csr */
+	double c2 = 4.0 / (26 * 26), c3 = 1.0 / (26 * 26 * 26);
+	open_fixture(&f, ACRO_LABELS, 0, 0);
+	size_t n = find(&f, "rn", NULL, 5, 0.01, &c);
+	assert_int_equal(n, 1);
+	assert_true(is(&c[0], "occ:1"));
+	assert_int_equal(c[0].via, VIA_ACRONYM);
+	assert_string_equal(match_via_name(c[0].via), "acronym");
+	assert_true(c[0].ml == 16 && !memcmp(c[0].matched, "Registered Nurse", 16));
+	assert_true(fabs(c[0].score - MATCH_ACRO_SPAN * (1 - c2) * MATCH_LABEL_BASE) < 1e-12);
+	/* two occupations share csr: half each, ordered by id */
+	n = find(&f, "csr", NULL, 5, 0.01, &c);
+	assert_int_equal(n, 2);
+	assert_true(is(&c[0], "occ:2") && is(&c[1], "occ:3"));
+	for (int i = 0; i < 2; i++) {
+		assert_int_equal(c[i].via, VIA_ACRONYM);
+		assert_true(fabs(c[i].score - MATCH_ACRO_SPAN * (1 - c3) * MATCH_LABEL_BASE * 0.5) < 1e-12);
+		assert_true(fabs(c[i].ashare - 0.5) < 1e-12);
+	}
+	/* one word of two explained: fit 1/2 */
+	n = find(&f, "rn icu", NULL, 5, 0.01, &c);
+	assert_true(n >= 1 && is(&c[0], "occ:1") && c[0].via == VIA_ACRONYM);
+	assert_true(fabs(c[0].score - MATCH_ACRO_SPAN * (1 - c2) * MATCH_LABEL_BASE * 0.5) < 1e-12);
+	/* a head word outside the run counts on both sides: cs abbreviates
+	 * customer service (occ:2) and customer support (occ:3), and both
+	 * hold representative: fit 1 each, half each */
+	n = find(&f, "cs representative", NULL, 5, 0.01, &c);
+	assert_true(n >= 2 && c[0].via == VIA_ACRONYM && c[1].via == VIA_ACRONYM);
+	assert_true(fabs(c[0].score - MATCH_ACRO_SPAN * (1 - c2) * MATCH_LABEL_BASE * 0.5) < 1e-12);
+	/* a word a label holds is no acronym */
+	n = find(&f, "it", NULL, 5, 0, &c);
+	for (size_t i = 0; i < n; i++)
+		assert_int_not_equal(c[i].via, VIA_ACRONYM);
+	/* an acronym of nothing */
+	assert_int_equal(find(&f, "zq", NULL, 5, 0, &c), 0);
+	close_fixture(&f);
+}
+
 int main(void)
 {
 	const struct CMUnitTest tests[] = {
@@ -305,6 +358,7 @@ int main(void)
 		cmocka_unit_test(test_lang),
 		cmocka_unit_test(test_order),
 		cmocka_unit_test(test_empty),
+		cmocka_unit_test(test_acronym),
 	};
 	return cmocka_run_group_tests(tests, setup, teardown);
 }
