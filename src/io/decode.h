@@ -20,6 +20,16 @@ enum {
 			  * a surrogate or beyond U+10FFFF was replaced */
 };
 
+/* The code points of s[0..n), valid UTF-8: the bytes that are not
+ * continuation bytes. */
+static inline size_t dec_cps(const char *s, size_t n)
+{
+	size_t c = 0;
+	for (size_t i = 0; i < n; i++)
+		c += ((unsigned char)s[i] & 0xC0) != 0x80;
+	return c;
+}
+
 /* Returns the length of the longest prefix of s that is well-formed UTF-8
  * without NUL bytes (n when the whole input is). */
 size_t dec_valid_prefix(const char *s, size_t n);

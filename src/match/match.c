@@ -620,6 +620,18 @@ static const char *doc_key(const match_index *ix, size_t d, size_t *n)
 	return st_key(&ix->docs, ix->entry[d], n);
 }
 
+/* The score of label l of the document whose counts are loaded: the
+ * base, plus the market's share of the document's postings that carry
+ * l's occupation; a label of another language than lang (when given)
+ * counts MATCH_OTHER_LANG of that. */
+static double label_score(const match_work *w, const mlabel *l, const char *lang)
+{
+	double lam = lang && strcmp(l->lang, lang) && strcmp(l->lang, "und") ? MATCH_OTHER_LANG : 1.0;
+	uint64_t k = w->kocc[l->occ];
+	double p = w->kn ? (double)(k < w->kn ? k : w->kn) / (double)w->kn : 0;
+	return lam * (MATCH_LABEL_BASE + MATCH_LABEL_MARKET * p);
+}
+
 /* The labels and counts of document d as exact (label, title) or
  * variant evidence.  TM_OK or TM_ENOMEM. */
 static int exact_doc(match_work *w, size_t d, const char *lang, long lid, int variant)
@@ -630,10 +642,7 @@ static int exact_doc(match_work *w, size_t d, const char *lang, long lid, int va
 	load_counts(w, d, lid);
 	for (size_t i = ix->lstart[d]; i < ix->lstart[d + 1]; i++) {
 		const mlabel *l = &ix->lab[i];
-		double lam = lang && strcmp(l->lang, lang) && strcmp(l->lang, "und") ? MATCH_OTHER_LANG : 1.0;
-		uint64_t k = w->kocc[l->occ];
-		double p = w->kn ? (double)(k < w->kn ? k : w->kn) / (double)w->kn : 0;
-		double sc = f * lam * (MATCH_LABEL_BASE + MATCH_LABEL_MARKET * p);
+		double sc = f * label_score(w, l, lang);
 		match_cand *c = cand_of(w, l->occ);
 		if (!c)
 			return TM_ENOMEM;
@@ -643,7 +652,7 @@ static int exact_doc(match_work *w, size_t d, const char *lang, long lid, int va
 			c->matched = ix->text.data + l->off;
 			c->ml = l->len;
 			c->lang = l->lang;
-			put_counts(c, k, w->kn);
+			put_counts(c, w->kocc[l->occ], w->kn);
 		}
 	}
 	for (size_t i = 0; i < w->nktouch; i++) {
@@ -769,11 +778,8 @@ static int acronym(match_work *w, const char *key, size_t kl, const char *lang, 
 		load_counts(w, d, lid);
 		for (size_t i = ix->lstart[d]; i < ix->lstart[d + 1]; i++) {
 			const mlabel *l = &ix->lab[i];
-			double lam = lang && strcmp(l->lang, lang) && strcmp(l->lang, "und") ? MATCH_OTHER_LANG : 1.0;
-			uint64_t k = w->kocc[l->occ];
-			double p = w->kn ? (double)(k < w->kn ? k : w->kn) / (double)w->kn : 0;
-			acro_offer(w, &na, l->occ, fit, lam * (MATCH_LABEL_BASE + MATCH_LABEL_MARKET * p),
-				   ix->text.data + l->off, l->len, l->lang, k, w->kn);
+			acro_offer(w, &na, l->occ, fit, label_score(w, l, lang),
+				   ix->text.data + l->off, l->len, l->lang, w->kocc[l->occ], w->kn);
 		}
 		for (size_t i = 0; i < w->nktouch; i++) {
 			uint32_t occ = w->ktouch[i];

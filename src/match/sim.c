@@ -6,6 +6,7 @@
 
 #include "core/buf.h"
 #include "core/err.h"
+#include "io/decode.h"
 #include "match/sim.h"
 
 #define SEED_GRAM 0x736d6772616d3331ULL
@@ -502,15 +503,6 @@ static int prepare(sim_work *w, const char *q, size_t n)
 	return TM_OK;
 }
 
-/* The code points of s[0..n). */
-static size_t cps(const char *s, size_t n)
-{
-	size_t c = 0;
-	for (size_t i = 0; i < n; i++)
-		c += ((unsigned char)s[i] & 0xC0) != 0x80;
-	return c;
-}
-
 /* Are two different words forms of one word (sim.h: SIM_STEM_*)? */
 static int same_stem(const char *a, size_t al, const char *b, size_t bl)
 {
@@ -523,7 +515,7 @@ static int same_stem(const char *a, size_t al, const char *b, size_t bl)
 	while (p > 0 && ((p < al && ((unsigned char)a[p] & 0xC0) == 0x80) ||
 			 (p < bl && ((unsigned char)b[p] & 0xC0) == 0x80)))
 		p--;
-	size_t P = cps(a, p), ta = cps(a + p, al - p), tb = cps(b + p, bl - p);
+	size_t P = dec_cps(a, p), ta = dec_cps(a + p, al - p), tb = dec_cps(b + p, bl - p);
 	size_t longer = P + (ta > tb ? ta : tb);
 	return P >= SIM_STEM_MIN && ta <= SIM_STEM_TAIL && tb <= SIM_STEM_TAIL &&
 	       (double)P >= SIM_STEM_SHARE * (double)longer;
@@ -598,8 +590,8 @@ static int cut_short(const wview *q, const wview *d)
 {
 	if (q->id != UINT32_MAX || q->n > d->n || d->n > SIM_STEM_BYTES || memcmp(q->s, d->s, q->n))
 		return 0;
-	size_t a = cps(q->s, q->n);
-	return a >= SIM_CUT_MIN && a <= SIM_CUT_MAX && 2 * a <= cps(d->s, d->n);
+	size_t a = dec_cps(q->s, q->n);
+	return a >= SIM_CUT_MIN && a <= SIM_CUT_MAX && 2 * a <= dec_cps(d->s, d->n);
 }
 
 /* Is a the compound of two words of L, the first as it is and the second

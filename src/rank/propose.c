@@ -200,14 +200,6 @@ static int same_nosep(const char *a, size_t an, const char *b, size_t bn)
 	}
 }
 
-static size_t ncp(const char *s, size_t n)
-{
-	size_t c = 0;
-	for (size_t i = 0; i < n; i++)
-		c += ((unsigned char)s[i] & 0xC0) != 0x80;
-	return c;
-}
-
 /* Do two words differ only inside one stretch of at most two code points
  * on each side ("re" / "er", "ue" / "")? */
 static int one_stretch(const char *a, size_t an, const char *b, size_t bn)
@@ -221,7 +213,7 @@ static int one_stretch(const char *a, size_t an, const char *b, size_t bn)
 		s++;
 	while (s > 0 && ((unsigned char)a[an - s] & 0xC0) == 0x80)
 		s--;
-	return ncp(a + p, an - p - s) <= 2 && ncp(b + p, bn - p - s) <= 2;
+	return dec_cps(a + p, an - p - s) <= 2 && dec_cps(b + p, bn - p - s) <= 2;
 }
 
 const char *propose_variant(const char *key, size_t kl, const char *lk, size_t ll)
@@ -243,7 +235,7 @@ const char *propose_variant(const char *key, size_t kl, const char *lk, size_t l
 		const char *a1 = memchr(p, ' ', (size_t)(pe - p)), *b1 = memchr(q, ' ', (size_t)(qe - q));
 		size_t wa = a1 ? (size_t)(a1 - p) : (size_t)(pe - p), wb = b1 ? (size_t)(b1 - q) : (size_t)(qe - q);
 		if (!same(p, wa, q, wb)) {
-			size_t ca = ncp(p, wa), cb = ncp(q, wb);
+			size_t ca = dec_cps(p, wa), cb = dec_cps(q, wb);
 			if (diff++ || ca < PROPOSE_TYPO_MIN || cb < PROPOSE_TYPO_MIN)
 				return NULL;
 			int max = (ca > cb ? ca : cb) >= PROPOSE_SPELLING_MIN ? 2 : 1;

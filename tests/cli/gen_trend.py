@@ -126,4 +126,5 @@ def main():
                 f.write("falling\t%s\t%s\t%s\n" % (o["occ"], o["lang"], o["titles"][o["fall"]]))
 
 
-main()
+if __name__ == "__main__":
+    main()

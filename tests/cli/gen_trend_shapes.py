@@ -53,7 +53,6 @@ import math
 import os
 import sys
 
-MASK = (1 << 64) - 1
 START = datetime.date(2025, 9, 1)
 END = datetime.date(2026, 3, 1)
 CHANGE = datetime.date(2026, 1, 1)
@@ -93,18 +92,18 @@ WINDOWS = {
 }
 
 
-class Rng:
-    def __init__(self, seed):
-        self.s = seed & MASK
+def _trend_module():
+    """gen_trend.py beside this file, for its seeded generator (one
+    definition of it)."""
+    import importlib.util
+    spec = importlib.util.spec_from_file_location(
+        "gen_trend", os.path.join(os.path.dirname(os.path.abspath(__file__)), "gen_trend.py"))
+    mod = importlib.util.module_from_spec(spec)
+    spec.loader.exec_module(mod)
+    return mod
 
-    def next(self):
-        self.s = z = (self.s + 0x9E3779B97F4A7C15) & MASK
-        z = ((z ^ (z >> 30)) * 0xBF58476D1CE4E5B9) & MASK
-        z = ((z ^ (z >> 27)) * 0x94D049BB133111EB) & MASK
-        return z ^ (z >> 31)
 
-    def unit(self):
-        return self.next() / 18446744073709551616.0
+Rng = _trend_module().Rng  # splitmix64: the same seed gives the same bytes
 
 
 # occupational heads, one per occupation, and qualifiers, one per title
