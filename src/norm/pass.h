@@ -37,6 +37,10 @@
  * ending it is looked for at most NEED_WORDS_MAX units back. */
 #define NEED_SEG_MAX 6
 #define NEED_WORDS_MAX 3
+/* Whether another segment names an occupation is read at most
+ * NEED_LOOK units on each side of the segment; a title going on further
+ * is taken to name one there (the read stays linear in the title). */
+#define NEED_LOOK 64
 /* A day alone as the whole of a segment beside the occupation
  * ("Kassierer – Samstag") is a schedule when written out: a word of at
  * least DAY_NAME_MIN bytes (abbreviations are also codes: SAT, VR). */

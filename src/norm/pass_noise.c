@@ -207,7 +207,8 @@ static int need_segment(tm_title *ti, size_t s, size_t k0, size_t k1)
 		return 0;
 	/* the only segment naming an occupation is the head, whatever
 	 * noise came before it: "URGENT: Electrician needed" */
-	if (occ_within(ti, k0, k1) && !occ_within(ti, 0, k0) && !occ_within(ti, k1, ti->nunit))
+	if (occ_within(ti, k0, k1) && k0 <= NEED_LOOK && ti->nunit - k1 <= NEED_LOOK &&
+	    !occ_within(ti, 0, k0) && !occ_within(ti, k1, ti->nunit))
 		return 0;
 	/* opening it, only where no word names an occupation: "Approved
 	 * Electrician" is a grade of the trade */

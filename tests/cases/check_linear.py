@@ -134,6 +134,10 @@ SHAPES = {
     "lone-numbers": lambda n: "Vollzeit " + "9 " * ((n - 9) // 2),
     "koch-mix": "Koch (m/w/d) in Berlin - ",
     "employer-segments": "Hotel Bergblick \u2013 ",
+    # segments naming no occupation, then many that name one: whether
+    # another segment names one is read once per segment (pass_noise.c,
+    # need_segment: NEED_LOOK)
+    "occupation-after-noise": lambda n: "a, " * (n // 12) + "Koch, " * ((n - 3 * (n // 12)) // 6),
     "employer-tail": "f\u00fcr unser Hotel Sonne ",
     "marker-place-name": "Koch at Fenwick Logistics ",
     "place-first": "Salzburg: ",
