@@ -13,7 +13,11 @@ and size.  A shape fails when
   (the same bytes: 1 when linear, a little more from the caches; 16 when
   quadratic); or
 - a run goes past TIMEOUT seconds (a quadratic shape at 1 MiB runs for
-  minutes).
+  minutes); or
+- a run exits with a status other than 0.
+With TITLEMILL_UNTIMED=1 (`make asan`: the times would measure the
+sanitizer) each shape runs once, as its 1 MiB line, and only the exit
+status and TIMEOUT judge it.
 Quadratic costs found before: a run of "@" took 33 s at 160 KiB, marks
 of alternating combining classes 58 s at 80 KiB, "#" and "Nr." 11 s at
 64 KiB; each would have run for half an hour or more at 1 MiB;
@@ -200,21 +204,43 @@ def plain(n):
 
 
 def run(binary, path):
-    """Processor time of one run in seconds, None past TIMEOUT."""
+    """Processor time of one run in seconds (None past TIMEOUT) and its
+    exit status."""
     before = resource.getrusage(resource.RUSAGE_CHILDREN)
     try:
-        subprocess.run([binary, "norm", "--memo", "0", path], stdout=subprocess.DEVNULL,
-                       stderr=subprocess.DEVNULL, timeout=TIMEOUT, check=False)
+        p = subprocess.run([binary, "norm", "--memo", "0", path], stdout=subprocess.DEVNULL,
+                           stderr=subprocess.DEVNULL, timeout=TIMEOUT, check=False)
     except subprocess.TimeoutExpired:
-        return None
+        return None, 0
     after = resource.getrusage(resource.RUSAGE_CHILDREN)
-    return (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime)
+    return (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime), p.returncode
+
+
+def untimed(binary, names):
+    """TITLEMILL_UNTIMED=1 (the sanitizer build, whose times measure the
+    sanitizer): every shape once as a line of 1 MiB, judged by its exit
+    status alone (a sanitizer's finding exits non-zero)."""
+    failures = 0
+    with tempfile.TemporaryDirectory() as d:
+        for name in names:
+            path = os.path.join(d, name)
+            with open(path, "wb") as f:
+                f.write(line_of(SHAPES[name], (1 << 20) - 1) + b"\n")
+            t, st = run(binary, path)
+            os.unlink(path)
+            if t is None or st != 0:
+                failures += 1
+                print("  linear-%s: %s" % (name, "past %d s" % TIMEOUT if t is None
+                                           else "exit status %d" % st))
+    return 1 if failures else 0
 
 
 def main():
     binary = sys.argv[1]
     names = sys.argv[2:] or list(SHAPES)
     verbose = os.environ.get("LINEAR_VERBOSE")
+    if os.environ.get("TITLEMILL_UNTIMED") == "1":
+        return untimed(binary, names)
     failures = 0
     times = {}
     with tempfile.TemporaryDirectory() as d:
@@ -222,14 +248,17 @@ def main():
             pfile = os.path.join(d, "plain")
             with open(pfile, "wb") as f:
                 f.write((plain(size) + b"\n") * lines)
-            base = min(run(binary, pfile) for _ in range(3))
+            base = min(run(binary, pfile)[0] for _ in range(3))
             for name in names:
                 path = os.path.join(d, name)
                 with open(path, "wb") as f:
                     f.write((line_of(SHAPES[name], size) + b"\n") * lines)
-                t = run(binary, path)
+                t, st = run(binary, path)
                 os.unlink(path)
                 limit = RATIO * base + SLACK
+                if t is not None and st != 0:
+                    failures += 1
+                    print("  linear-%s-%d: exit status %d" % (name, size, st))
                 times.setdefault(name, []).append(t)
                 if verbose:
                     print("  %-18s %8d x %-2d %8s s  plain %.3f s  x%s" % (
